@@ -1,0 +1,86 @@
+/* bootrung.h - the public API of the bootrung engine.
+ *
+ * Data flow: design file -> br_design (parsed, toleranced parameters)
+ *   -> br_chain (immutable model: stages, links, charging windows)
+ *   -> simulation and analyses -> reports rendered into a br_text
+ *   -> the command line writes them out.
+ *
+ * Conventions: every quantity is an SI double (V, A, s, F, ohm, K inside;
+ * temperatures are kelvin).  Functions return a br_status and fill a
+ * caller-supplied br_error on failure.  Objects come in create/free pairs;
+ * every _free accepts NULL.  The library never prints and never exits.
+ *
+ * Copyright (C) 2026 the bootrung developers.  GPL-3.0-or-later. */
+#ifndef BOOTRUNG_H
+#define BOOTRUNG_H
+
+#include <stddef.h>
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+/* ---- status and errors ------------------------------------------------ */
+
+typedef enum br_status {
+    BR_OK = 0,
+    BR_EINPUT = 1,   /* the design file or an argument is wrong */
+    BR_ENOMEM = 2,   /* allocation failed */
+    BR_EIO = 3,      /* a file could not be read or written */
+    BR_ENUMERIC = 4, /* a solver failed to converge */
+    BR_EUSAGE = 5    /* the caller broke an API precondition */
+} br_status;
+
+/* What failed, where.  file/line/field are empty/0 when not known. */
+typedef struct br_error {
+    int code;        /* a br_status */
+    char file[512];  /* design file path, or "" */
+    int line;        /* 1-based line in file, 0 if unknown */
+    char field[96];  /* element/attribute path, e.g. "capacitor[c1]/esr" */
+    char msg[768];   /* what is wrong and what is expected */
+} br_error;
+
+void br_error_clear(br_error *err);
+/* Render err as "FILE:LINE: field: message" into buf; returns buf. */
+const char *br_error_format(const br_error *err, char *buf, size_t cap);
+const char *br_status_name(int code);
+
+/* ---- a growable text buffer that reports render into ------------------ */
+
+typedef struct br_text br_text;
+br_text *br_text_create(void);
+void br_text_free(br_text *t);
+const char *br_text_data(const br_text *t); /* NUL-terminated */
+size_t br_text_len(const br_text *t);
+/* Appends; returns BR_OK or BR_ENOMEM (the buffer then stays as it was). */
+int br_text_printf(br_text *t, const char *fmt, ...)
+    __attribute__((format(printf, 2, 3)));
+int br_text_put(br_text *t, const char *s);
+void br_text_reset(br_text *t);
+
+/* ---- design files ------------------------------------------------------ */
+
+typedef struct br_design br_design;
+
+/* Parse, validate against the embedded schema and check every value.
+ * On failure *out is NULL and err says FILE:LINE: field: what is wrong. */
+int br_design_load(const char *path, br_design **out, br_error *err);
+/* Same, from memory; name is used in messages. */
+int br_design_load_memory(const char *buf, size_t len, const char *name,
+                          br_design **out, br_error *err);
+void br_design_free(br_design *d);
+/* The RELAX NG schema the loader enforces (NUL-terminated). */
+const char *br_design_schema(void);
+
+/* ---- the chain model --------------------------------------------------- */
+
+typedef struct br_chain br_chain;
+
+/* Build the immutable chain model of d at its nominal values. */
+int br_chain_build(const br_design *d, br_chain **out, br_error *err);
+void br_chain_free(br_chain *c);
+
+#ifdef __cplusplus
+}
+#endif
+#endif

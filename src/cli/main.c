@@ -1,0 +1,2 @@
+#include "bootrung/bootrung.h"
+int main(void) { return 0; }

@@ -1,0 +1,105 @@
+/* chain.h - the immutable chain model built from a design.
+ *
+ * Stage k (0 = bottom) is switch k of the string, its driver, rail k (the
+ * driver's supply, a capacitor referenced to the source of switch k) and,
+ * for k >= 1, link k: the diode (plus series resistor) from rail k-1 to
+ * rail k.  Link k can only conduct while switch k-1, its return switch, is
+ * on.  Rail 0 is the ground-referenced supply.
+ *
+ * All values here are resolved doubles (SI): the design evaluated at one
+ * point (nominal, a corner or a Monte Carlo sample), temperature applied. */
+#ifndef BR_MODEL_CHAIN_H
+#define BR_MODEL_CHAIN_H
+
+#include "model/design.h"
+
+typedef struct br_diode {
+    const char *id; /* part id (points into the design) */
+    double is;      /* saturation current at the operating temperature, A */
+    double n;       /* emission coefficient */
+    double vt;      /* thermal voltage kT/q at the operating temperature, V */
+    double rs;      /* series resistance, ohm */
+    double cj0;     /* zero-bias junction capacitance, F */
+    double vj;      /* built-in potential, V */
+    double m;       /* grading coefficient */
+    double tau;     /* charge-control time constant, s */
+    double ir;      /* reverse leakage at the operating temperature, A */
+    double vrrm;    /* reverse voltage rating, V */
+    double ifsm;    /* surge current rating, A (0: not given) */
+} br_diode;
+
+typedef struct br_cap {
+    const char *id;
+    double c;       /* capacitance at zero bias after tolerance, temperature
+                       and aging factors, F */
+    double esr;     /* ohm */
+    double vrated;  /* V */
+    int nbias;      /* DC-bias table (from the part) */
+    const double *bias_v, *bias_f;
+} br_cap;
+
+typedef struct br_driver {
+    const char *id;
+    double uvlo_rise, uvlo_fall; /* V */
+    double iq_on, iq_off;        /* A */
+    double i_iso;                /* A, drawn whenever the rail is up */
+} br_driver;
+
+typedef struct br_sw {
+    const char *id;
+    double rds_on;   /* ohm */
+    double qg, qg_v; /* gate charge qg at drive voltage qg_v: C, V */
+    double tg;       /* gate-charge pulse duration, s */
+    double vsd;      /* reverse-conduction drop, V */
+    double vgs_rec, vgs_max; /* V */
+} br_sw;
+
+typedef struct br_aux {
+    const char *id;  /* NULL when the rail has none */
+    int kind;        /* br_rail_aux */
+    double vout, dropout, iq, rz;
+} br_aux;
+
+typedef struct br_stage {
+    char name[BR_ID_MAX]; /* switch name, "B1" ... "A1" for an FCML leg */
+    br_diode diode;       /* link k (unused for k = 0) */
+    double r_link;        /* extra series resistance of link k, ohm */
+    br_cap cap;           /* rail k capacitor (unused for k = 0) */
+    br_driver drv;
+    br_sw sw;
+    br_aux aux;
+    double vblock;        /* voltage switch k blocks when off, with the
+                             design's flying-capacitor imbalance, V */
+    int nwin;             /* commanded on-intervals of switch k */
+    double win[BR_MAX_WINDOWS][2]; /* [start, end) in s within [0, T);
+                                      end < start means it wraps */
+    int nrev[2];          /* per direction (0 step-down, 1 step-up): */
+    double rev[2][BR_MAX_WINDOWS][2]; /* intervals of reverse conduction */
+    int is_top;           /* FCML: 1 for an A (top) switch */
+    int pair;             /* FCML: pair number 1..P, 0 for a string */
+} br_stage;
+
+struct br_chain {
+    const br_design *design; /* the source; must outlive the chain */
+    int n;                   /* stages = switches */
+    br_stage st[BR_MAX_SWITCHES];
+    double T, fsw, duty, deadtime, tedge; /* s, Hz, -, s, s */
+    double vin, tamb;        /* V, K */
+    double overshoot;        /* fraction of vblock */
+    double vsupply, rsupply, tramp;
+    int direction;           /* br_direction */
+    int nprecharge;
+    br_precharge precharge[BR_MAX_PRECHARGE];
+    double min_drive, derating, startup_max;
+};
+
+/* Build at explicit values: d with every br_qty read at .nom. */
+int br_chain_build_nominal(const br_design *d, br_chain *c, br_error *err);
+
+/* Effective capacitance of rail k at bias v (DC-bias table applied), F. */
+double br_cap_at(const br_cap *cap, double v);
+
+/* Gate charge drawn at a turn-on edge when the drive voltage is v, C. */
+double br_sw_qg_at(const br_sw *sw, double v);
+
+#endif
