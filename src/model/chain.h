@@ -86,7 +86,8 @@ struct br_chain {
     double T, fsw, duty, deadtime, tedge; /* s, Hz, -, s, s */
     double vin, tamb;        /* V, K */
     double overshoot;        /* fraction of vblock */
-    double vsupply, rsupply, tramp;
+    double vsupply, rsupply, tramp; /* V, ohm, s */
+    double csupply;          /* rail-0 bypass capacitance, F (0: none) */
     int direction;           /* br_direction */
     int nprecharge;
     br_precharge precharge[BR_MAX_PRECHARGE];
@@ -95,6 +96,15 @@ struct br_chain {
 
 /* Build at explicit values: d with every br_qty read at .nom. */
 int br_chain_build_nominal(const br_design *d, br_chain *c, br_error *err);
+
+/* Thermal voltage kT/q at T (K), V. */
+double br_thermal_voltage(double T);
+
+/* Resolve a diode part at junction temperature T (K). */
+int br_diode_at(const br_diode_part *p, double T, br_diode *out, br_error *err);
+
+/* A capacitor part with its tolerance-free nominal factors applied. */
+void br_cap_at_nominal(const br_cap_part *p, br_cap *out);
 
 /* Effective capacitance of rail k at bias v (DC-bias table applied), F. */
 double br_cap_at(const br_cap *cap, double v);

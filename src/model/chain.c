@@ -1,0 +1,174 @@
+/* chain.c - building the immutable chain model from a design. */
+#include "model/chain.h"
+
+#include "core/error.h"
+#include "model/fcml.h"
+
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+static void resolve_driver(const br_driver_part *p, br_driver *o)
+{
+    o->id = p->id;
+    o->uvlo_rise = p->uvlo_rise.nom;
+    o->uvlo_fall = p->uvlo_fall.nom;
+    o->iq_on = p->iq_on.nom;
+    o->iq_off = p->iq_off.nom;
+    o->i_iso = p->i_iso.nom;
+}
+
+static void resolve_switch(const br_switch_part *p, br_sw *o)
+{
+    o->id = p->id;
+    o->rds_on = p->rds_on.nom;
+    o->qg = p->qg.nom;
+    o->qg_v = p->qg_v.nom;
+    o->tg = p->tg.nom;
+    o->vsd = p->vsd.nom;
+    o->vgs_rec = p->vgs_rec.nom;
+    o->vgs_max = p->vgs_max.nom;
+}
+
+static void resolve_aux(const br_design *d, int idx, br_aux *o)
+{
+    memset(o, 0, sizeof *o);
+    if (idx < 0 || idx >= d->naux)
+        return;
+    const br_aux_part *p = &d->aux[idx];
+    o->id = p->id;
+    o->kind = p->kind;
+    o->vout = p->vout.nom;
+    o->dropout = p->dropout.nom;
+    o->iq = p->iq.nom;
+    o->rz = p->rz.nom;
+}
+
+static int part_index_ok(int idx, int count) { return idx >= 0 && idx < count; }
+
+static int resolve_parts(const br_design *d, int k, double T, br_stage *st, br_error *err)
+{
+    const br_stage_spec *sp = br_design_stage(d, k);
+    int line = sp->line;
+    if (!part_index_ok(sp->driver, d->ndrivers) || !part_index_ok(sp->sw, d->nswitches))
+        return br_error_set(err, BR_EINPUT, d->path, line, "stages",
+                            "stage %d has no driver or switch part, expected both", k);
+    resolve_driver(&d->drivers[sp->driver], &st->drv);
+    resolve_switch(&d->switches[sp->sw], &st->sw);
+    resolve_aux(d, sp->aux, &st->aux);
+    if (k == 0)
+        return BR_OK; /* rail 0 is the supply: no link, no rail capacitor */
+    if (!part_index_ok(sp->diode, d->ndiodes) || !part_index_ok(sp->cap, d->ncaps))
+        return br_error_set(err, BR_EINPUT, d->path, line, "stages",
+                            "stage %d has no diode or capacitor part, expected both", k);
+    br_cap_at_nominal(&d->caps[sp->cap], &st->cap);
+    st->r_link = sp->r_link.nom;
+    return br_diode_at(&d->diodes[sp->diode], T, &st->diode, err);
+}
+
+/* FCML: names, windows and dead times from the generator. */
+static int fcml_timing(const br_design *d, const br_chain *c, int s, br_stage *st, br_error *err)
+{
+    int P = d->levels - 1;
+    br_fcml_sw g;
+    br_fcml_switch(P, s, c->T, c->duty, c->deadtime, &g);
+    if ((1.0 - c->duty) * c->T - 2.0 * c->deadtime <= 0 || c->duty * c->T <= 0)
+        return br_error_set(err, BR_EINPUT, d->path, d->deadtime.line, "operating-point: dead-time",
+                            "two dead times (%.3g s) leave no on-time for the bottom switches "
+                            "at duty %.4g and %.4g Hz; expected 2*dead-time < (1-duty)/fsw",
+                            2.0 * c->deadtime, c->duty, c->fsw);
+    snprintf(st->name, sizeof st->name, "%s", g.name);
+    st->pair = g.pair;
+    st->is_top = g.is_top;
+    st->nwin = 1;
+    memcpy(st->win[0], g.on, sizeof g.on);
+    int dir = g.is_top ? 1 : 0; /* step-down: bottoms conduct; step-up: tops */
+    st->nrev[dir] = c->deadtime > 0 ? 2 : 0;
+    memcpy(st->rev[dir], g.dead, sizeof g.dead);
+    st->vblock = d->vin.nom / P * (1.0 + d->imbalance.nom);
+    return BR_OK;
+}
+
+/* Explicit string: fractions of T from the file; reverse conduction applies
+ * to whichever direction is analysed. */
+static void string_timing(const br_design *d, const br_chain *c, int s, br_stage *st)
+{
+    const br_switch_spec *w = &d->sw[s];
+    snprintf(st->name, sizeof st->name, "%s", w->name);
+    st->nwin = w->nwin;
+    for (int i = 0; i < w->nwin; i++) {
+        st->win[i][0] = br_wrap(w->on[i][0] * c->T, c->T);
+        st->win[i][1] = br_wrap(w->on[i][1] * c->T, c->T);
+    }
+    for (int dir = 0; dir < 2; dir++) {
+        st->nrev[dir] = w->nrev;
+        for (int i = 0; i < w->nrev; i++) {
+            st->rev[dir][i][0] = br_wrap(w->rev[i][0] * c->T, c->T);
+            st->rev[dir][i][1] = br_wrap(w->rev[i][1] * c->T, c->T);
+        }
+    }
+    st->vblock = w->vblock.nom * (1.0 + d->imbalance.nom);
+}
+
+static void copy_operating_point(const br_design *d, br_chain *c)
+{
+    c->design = d;
+    c->fsw = d->fsw.nom;
+    c->T = 1.0 / c->fsw;
+    c->duty = d->duty.nom;
+    c->deadtime = d->deadtime.nom;
+    c->tedge = d->tedge.nom;
+    c->vin = d->vin.nom;
+    c->tamb = d->tamb.nom;
+    c->overshoot = d->overshoot.nom;
+    c->vsupply = d->vsupply.nom;
+    c->rsupply = d->rsupply.nom;
+    c->csupply = d->csupply.nom;
+    c->tramp = d->tramp.nom;
+    c->direction = d->direction;
+    c->nprecharge = d->nprecharge;
+    memcpy(c->precharge, d->precharge, sizeof c->precharge);
+    c->min_drive = d->min_drive.nom;
+    c->derating = d->derating.nom;
+    c->startup_max = d->startup_max.nom;
+}
+
+int br_chain_build_nominal(const br_design *d, br_chain *c, br_error *err)
+{
+    memset(c, 0, sizeof *c);
+    copy_operating_point(d, c);
+    c->n = br_design_nswitch(d);
+    if (c->n < 2 || c->n > BR_MAX_SWITCHES)
+        return br_error_set(err, BR_EINPUT, d->path, 0, "topology",
+                            "%d switches; expected 2 to %d", c->n, BR_MAX_SWITCHES);
+    if (!(c->fsw > 0) || !(c->duty > 0 && c->duty < 1))
+        return br_error_set(err, BR_EINPUT, d->path, d->fsw.line, "operating-point",
+                            "fsw must be > 0 and duty inside (0, 1)");
+    for (int k = 0; k < c->n; k++) {
+        br_stage *st = &c->st[k];
+        int rc = d->topology == BR_TOPO_FCML ? fcml_timing(d, c, k, st, err)
+                                             : (string_timing(d, c, k, st), BR_OK);
+        if (rc == BR_OK)
+            rc = resolve_parts(d, k, c->tamb, st, err);
+        if (rc != BR_OK)
+            return rc;
+    }
+    return BR_OK;
+}
+
+int br_chain_build(const br_design *d, br_chain **out, br_error *err)
+{
+    *out = NULL;
+    br_chain *c = malloc(sizeof *c);
+    if (!c)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory building the chain");
+    int rc = br_chain_build_nominal(d, c, err);
+    if (rc != BR_OK) {
+        free(c);
+        return rc;
+    }
+    *out = c;
+    return BR_OK;
+}
+
+void br_chain_free(br_chain *c) { free(c); }

@@ -1,0 +1,48 @@
+/* timing.h - one switching period cut at every event.
+ *
+ * The engine walks a period as a sorted list of events; between two events
+ * every switch is commanded on, off, or (for the analysed current
+ * direction) conducting in reverse while commanded off. */
+#ifndef BR_MODEL_TIMING_H
+#define BR_MODEL_TIMING_H
+
+#include "model/chain.h"
+
+typedef unsigned long long br_mask; /* bit s: switch s (bottom = 0) */
+
+typedef enum br_event_kind {
+    BR_EV_OFF = 0,     /* commanded off */
+    BR_EV_REV_OFF = 1, /* stops conducting in reverse */
+    BR_EV_ON = 2,      /* commanded on */
+    BR_EV_REV_ON = 3   /* starts conducting in reverse */
+} br_event_kind;
+
+typedef struct br_event {
+    double t;  /* s, in [0, T) */
+    int sw;    /* string position */
+    int kind;  /* br_event_kind */
+} br_event;
+
+#define BR_MAX_EVENTS (4 * BR_MAX_SWITCHES * BR_MAX_WINDOWS)
+
+typedef enum br_dir_index { BR_DIRI_NONE = -1, BR_DIRI_DOWN = 0, BR_DIRI_UP = 1 } br_dir_index;
+
+typedef struct br_timing {
+    double T;      /* period, s */
+    int n;         /* switches */
+    int nev;       /* events in the period */
+    br_event ev[BR_MAX_EVENTS]; /* sorted by t; offs before ons at a tie */
+    br_mask on0;   /* commanded-on switches just after t = 0- (period start) */
+    br_mask rev0;  /* reverse-conducting switches at the period start */
+} br_timing;
+
+/* The events of one period for direction dir (a br_dir_index). */
+void br_timing_build(const br_chain *c, int dir, br_timing *tm);
+
+/* Masks in force at time t in [0, T). */
+void br_timing_state_at(const br_timing *tm, double t, br_mask *on, br_mask *rev);
+
+/* 1 when t lies in the wrapped interval [a, b) of a period T. */
+int br_in_interval(double t, double a, double b);
+
+#endif
