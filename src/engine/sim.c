@@ -1,0 +1,550 @@
+/* sim.c - the simulator's event loop: schedule, switch voltages, UVLO,
+ * closed-form intervals and bookkeeping. */
+#include "engine/sim_impl.h"
+
+#include "core/error.h"
+#include "engine/diode.h"
+
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+
+/* A link whose forward voltage stays below -VBLOCKED over an interval
+ * carries only leakage and junction-capacitance current. */
+#define VBLOCKED 1.0
+
+int br_sim_create(const br_chain *c, int dir, int integrator, br_sim **out, br_error *err)
+{
+    *out = NULL;
+    br_sim *s = calloc(1, sizeof *s);
+    if (!s)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory for the simulator");
+    s->c = c;
+    s->n = c->n;
+    s->dir = dir;
+    s->integ = integrator;
+    br_timing_build(c, dir, &s->tm);
+    if (integrator == BR_INTEG_REFERENCE) {
+        s->gsl_step = br_sim_gsl_alloc();
+        if (!s->gsl_step) {
+            free(s);
+            return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory for GSL");
+        }
+        br_sim_set_tolerance(s, 1e-10, 1e-10);
+    } else {
+        br_sim_set_tolerance(s, 1e-7, 1e-7);
+    }
+    br_sim_reset_cold(s);
+    *out = s;
+    return BR_OK;
+}
+
+void br_sim_free(br_sim *s)
+{
+    if (!s)
+        return;
+    br_sim_gsl_free(s->gsl_step);
+    free(s);
+}
+
+void br_sim_set_tolerance(br_sim *s, double rtol, double atol_v)
+{
+    s->rtol = rtol;
+    s->atol_v = atol_v;
+    s->atol_q = atol_v * 1e-8; /* stored charges are ~1e-8 of the rail volts */
+}
+
+void br_sim_set_observer(br_sim *s, const br_sim_observer *obs)
+{
+    if (obs)
+        s->obs = *obs;
+    else
+        memset(&s->obs, 0, sizeof s->obs);
+}
+
+double br_sim_time(const br_sim *s) { return s->t; }
+double br_sim_pwm_start(const br_sim *s) { return s->pwm_t0; }
+int br_sim_enabled(const br_sim *s, int k) { return s->en[k]; }
+unsigned long br_sim_evals(const br_sim *s) { return s->evals; }
+
+void br_sim_vc(const br_sim *s, double *vc)
+{
+    for (int k = 0; k < s->n; k++)
+        vc[k] = s->x[X_VC + k];
+}
+
+static double supply_v(const br_sim *s, double t)
+{
+    const br_chain *c = s->c;
+    if (t < s->tramp_end && c->tramp > 0)
+        return c->vsupply * (t > 0 ? t / c->tramp : 0.0);
+    return c->vsupply;
+}
+
+double br_sim_switch_v(const br_sim *s, int k, double t)
+{
+    if (s->sslope[k] != 0.0 && t < s->send[k])
+        return s->sv0[k] + s->sslope[k] * (t - s->st0[k]);
+    return s->starget[k];
+}
+
+/* Settle every switch at its target with no ramp or pulse in progress. */
+static void settle_switches(br_sim *s)
+{
+    for (int k = 0; k < s->n; k++) {
+        int on = (s->cmd >> k & 1) && s->en[k];
+        double v = on ? 0.0 : ((s->rev >> k & 1) ? -s->c->st[k].sw.vsd : s->c->st[k].vblock);
+        s->starget[k] = s->sv0[k] = v;
+        s->sslope[k] = 0.0;
+        s->send[k] = s->pulse_end[k] = -HUGE_VAL;
+        s->pulse_i[k] = 0.0;
+        if (on)
+            s->driven |= 1ULL << k;
+    }
+}
+
+static void clear_state(br_sim *s)
+{
+    memset(s->x, 0, sizeof s->x);
+    memset(s->en, 0, sizeof s->en);
+    memset(s->il, 0, sizeof s->il);
+    memset(s->vr, 0, sizeof s->vr);
+    s->t = 0.0;
+    s->cmd = s->rev = s->driven = 0;
+    s->per = 0;
+    s->ev_idx = 0;
+    s->hlast = 0.0;
+    s->toggles = 0;
+    s->stats_on = 0;
+}
+
+void br_sim_reset_cold(br_sim *s)
+{
+    const br_chain *c = s->c;
+    clear_state(s);
+    s->npre = c->nprecharge;
+    double t = 0.0;
+    for (int i = 0; i < s->npre; i++) {
+        t += c->precharge[i].duration;
+        s->pre_end[i] = t;
+    }
+    s->pre_idx = 0;
+    s->pwm_t0 = t;
+    s->tramp_end = c->tramp;
+    if (s->npre > 0)
+        s->cmd = c->precharge[0].mask;
+    else {
+        s->cmd = s->tm.on0;
+        s->rev = 0; /* start-up: no load current yet, nothing reverse-conducts */
+    }
+    settle_switches(s);
+    s->driven = 0;
+}
+
+/* Sim time 0 sits at `phase` into the PWM period; the state given is a
+ * running chain (no ramp or pulse in progress at that instant). */
+void br_sim_reset_running_at(br_sim *s, const double *x, double phase)
+{
+    const br_chain *c = s->c;
+    clear_state(s);
+    s->npre = s->pre_idx = 0;
+    s->tramp_end = -HUGE_VAL;
+    s->pwm_t0 = -phase;
+    while (s->ev_idx < s->tm.nev && s->tm.ev[s->ev_idx].t <= phase)
+        s->ev_idx++;
+    for (int k = 1; k < s->n; k++) {
+        s->x[X_VC + k] = x[k];
+        s->x[X_Q + k] = x[s->n + k];
+    }
+    s->en[0] = c->vsupply > c->st[0].drv.uvlo_fall;
+    for (int k = 1; k < s->n; k++)
+        s->en[k] = br_sim_vdrv(s, k, x[k]) > c->st[k].drv.uvlo_fall;
+    br_timing_state_at(&s->tm, phase, &s->cmd, &s->rev);
+    settle_switches(s);
+}
+
+void br_sim_reset_running(br_sim *s, const double *vc)
+{
+    double x[2 * BR_N] = {0};
+    for (int k = 1; k < s->n; k++)
+        x[k] = vc[k];
+    br_sim_reset_running_at(s, x, 0.0);
+}
+
+/* ---- schedule ----------------------------------------------------------- */
+
+static double event_time(const br_sim *s)
+{
+    if (s->tm.nev == 0)
+        return HUGE_VAL;
+    return s->pwm_t0 + (double)s->per * s->tm.T + s->tm.ev[s->ev_idx].t;
+}
+
+static int in_precharge(const br_sim *s) { return s->pre_idx < s->npre; }
+
+static double next_time(const br_sim *s, double t_end)
+{
+    double tn = t_end;
+    if (in_precharge(s))
+        tn = fmin(tn, s->pre_end[s->pre_idx]);
+    else
+        tn = fmin(tn, event_time(s));
+    if (s->t < s->tramp_end)
+        tn = fmin(tn, s->tramp_end);
+    for (int k = 0; k < s->n; k++) {
+        if (s->send[k] > s->t)
+            tn = fmin(tn, s->send[k]);
+        if (s->pulse_end[k] > s->t)
+            tn = fmin(tn, s->pulse_end[k]);
+    }
+    return tn;
+}
+
+/* Bring every switch toward its new target; start gate pulses of the
+ * switches that are now driven on. */
+static void update_targets(br_sim *s, double t)
+{
+    const br_chain *c = s->c;
+    for (int k = 0; k < s->n; k++) {
+        const br_stage *st = &c->st[k];
+        int on = (s->cmd >> k & 1) && s->en[k];
+        double target = on ? 0.0 : ((s->rev >> k & 1) ? -st->sw.vsd : st->vblock);
+        if (target != s->starget[k]) {
+            double v = br_sim_switch_v(s, k, t);
+            double dur = c->tedge * fabs(target - v) / st->vblock;
+            s->starget[k] = target;
+            s->sv0[k] = dur > 0 ? v : target;
+            s->st0[k] = t;
+            s->sslope[k] = dur > 0 ? (target - v) / dur : 0.0;
+            s->send[k] = dur > 0 ? t + dur : -HUGE_VAL;
+        }
+        br_mask bit = 1ULL << k;
+        if (on && !(s->driven & bit)) {
+            double q = br_sw_qg_at(&st->sw, br_sim_vdrv(s, k, s->vr[k]));
+            if (st->sw.tg > 0) {
+                s->pulse_i[k] = q / st->sw.tg;
+                s->pulse_end[k] = t + st->sw.tg;
+            } else if (k > 0) {
+                s->x[X_VC + k] -= q / br_sim_cap(s, k, s->x[X_VC + k]);
+            }
+        }
+        s->driven = on ? (s->driven | bit) : (s->driven & ~bit);
+    }
+}
+
+static void apply_pwm_events(br_sim *s, double t)
+{
+    while (s->tm.nev > 0 && event_time(s) <= t) {
+        const br_event *e = &s->tm.ev[s->ev_idx];
+        br_mask bit = 1ULL << e->sw;
+        switch (e->kind) {
+        case BR_EV_ON: s->cmd |= bit; break;
+        case BR_EV_OFF: s->cmd &= ~bit; break;
+        case BR_EV_REV_ON: s->rev |= bit; break;
+        default: s->rev &= ~bit; break;
+        }
+        if (++s->ev_idx == s->tm.nev) {
+            s->ev_idx = 0;
+            s->per++;
+        }
+    }
+}
+
+static void apply_schedule(br_sim *s, double t)
+{
+    if (in_precharge(s) && t >= s->pre_end[s->pre_idx]) {
+        s->pre_idx++;
+        if (in_precharge(s)) {
+            s->cmd = s->c->precharge[s->pre_idx].mask;
+        } else {
+            s->cmd = s->tm.on0;
+            s->rev = 0;
+        }
+    }
+    if (!in_precharge(s))
+        apply_pwm_events(s, t);
+    for (int k = 0; k < s->n; k++) {
+        if (s->send[k] > -HUGE_VAL && s->send[k] <= t) {
+            s->sslope[k] = 0.0;
+            s->sv0[k] = s->starget[k];
+            s->send[k] = -HUGE_VAL;
+        }
+        if (s->pulse_end[k] > -HUGE_VAL && s->pulse_end[k] <= t) {
+            s->pulse_i[k] = 0.0;
+            s->pulse_end[k] = -HUGE_VAL;
+        }
+    }
+    update_targets(s, t);
+}
+
+/* ---- one interval -------------------------------------------------------- */
+
+static double stage_load(const br_sim *s, int k, double t)
+{
+    const br_stage *st = &s->c->st[k];
+    double i = s->en[k] ? st->drv.iq_on + st->drv.i_iso : st->drv.iq_off;
+    if (st->aux.kind == BR_AUX_LDO)
+        i += st->aux.iq;
+    if (s->pulse_end[k] > t)
+        i += s->pulse_i[k];
+    return i;
+}
+
+static double left_rail(const br_sim *s, int k, double t)
+{
+    return k == 1 ? supply_v(s, t) : s->x[X_VC + k - 1];
+}
+
+/* Blocked link: leakage plus the mean junction-capacitance current of the
+ * ramp over [ta, tb] (exact: the charge moved is Qj(vrev_b) - Qj(vrev_a)). */
+static double blocked_current(const br_sim *s, int k, double ta, double tb, double fa, double fb)
+{
+    const br_diode *d = &s->c->st[k].diode;
+    double i = -br_diode_leak(d, -0.5 * (fa + fb));
+    if (d->cj0 > 0 && tb > ta && fa != fb)
+        i -= (br_diode_qj(d, -fb) - br_diode_qj(d, -fa)) / (tb - ta);
+    return i;
+}
+
+static void build_seg(br_sim *s, double ta, double tb)
+{
+    br_seg *g = &s->seg;
+    const br_chain *c = s->c;
+    g->t0 = ta;
+    g->vs0 = supply_v(s, ta);
+    g->vs_slope = (ta < s->tramp_end && c->tramp > 0) ? c->vsupply / c->tramp : 0.0;
+    g->nactive = 0;
+    g->zener = 0;
+    for (int k = 0; k < s->n; k++) {
+        g->iload[k] = stage_load(s, k, ta);
+        g->igate[k] = s->pulse_end[k] > ta ? s->pulse_i[k] : 0.0;
+        if (k == 0)
+            continue;
+        const br_stage *st = &c->st[k];
+        g->d0[k] = br_sim_switch_v(s, k - 1, ta);
+        double db = br_sim_switch_v(s, k - 1, tb);
+        g->dslope[k] = tb > ta ? (db - g->d0[k]) / (tb - ta) : 0.0;
+        g->rpath[k] = st->r_link + c->st[k - 1].sw.rds_on;
+        double fa = left_rail(s, k, ta) - s->x[X_VC + k] - g->d0[k];
+        double fb = left_rail(s, k, tb) - s->x[X_VC + k] - db;
+        g->active[k] = fmax(fa, fb) > -VBLOCKED;
+        g->nactive += g->active[k];
+        g->iblk[k] = g->active[k] ? 0.0 : blocked_current(s, k, ta, tb, fa, fb);
+        if (st->aux.kind == BR_AUX_ZENER && s->x[X_VC + k] > st->aux.vout - 0.5)
+            g->zener = 1;
+    }
+}
+
+/* Charge still stored in a diode whose link is now blocked recovers: it
+ * flows back from rail k to rail k-1 (charge-control model). */
+static void recover(br_sim *s)
+{
+    const br_chain *c = s->c;
+    for (int k = 1; k < s->n; k++) {
+        double q = s->x[X_Q + k];
+        if (s->seg.active[k] || q <= 0)
+            continue;
+        s->x[X_Q + k] = 0.0;
+        s->x[X_VC + k] -= q / br_sim_cap(s, k, s->x[X_VC + k]);
+        if (k > 1)
+            s->x[X_VC + k - 1] += q / br_sim_cap(s, k - 1, s->x[X_VC + k - 1]);
+        else
+            s->x[X_SQ] -= q; /* returned into the supply */
+        if (!s->stats_on)
+            continue;
+        const br_stage *st = &c->st[k];
+        br_link_stats *ls = &s->st.link[k];
+        double rp = st->diode.rs + s->seg.rpath[k];
+        double didt = c->tedge > 0 && rp > 0 ? st->vblock / (c->tedge * rp) : HUGE_VAL;
+        br_recovery r = {0};
+        if (isfinite(didt))
+            br_diode_recovery(q, didt, BR_DIODE_SOFTNESS, &r);
+        ls->qrr += q;
+        ls->e_rr += q * c->st[k - 1].vblock;
+        ls->irrm = fmax(ls->irrm, r.irrm);
+    }
+}
+
+int br_sim_uvlo_due(const br_sim *s, const double *vr)
+{
+    for (int k = 0; k < s->n; k++) {
+        const br_driver *d = &s->c->st[k].drv;
+        double v = br_sim_vdrv(s, k, vr[k]);
+        if (s->en[k] ? v < d->uvlo_fall : v > d->uvlo_rise)
+            return k;
+    }
+    return -1;
+}
+
+/* Rail voltage at which driver k toggles from its present state. */
+static double rail_threshold(const br_sim *s, int k)
+{
+    const br_stage *st = &s->c->st[k];
+    double thr = s->en[k] ? st->drv.uvlo_fall : st->drv.uvlo_rise;
+    if (st->aux.kind == BR_AUX_LDO)
+        return thr < st->aux.vout ? thr + st->aux.dropout : HUGE_VAL;
+    return thr;
+}
+
+/* No link conducts: rails move linearly.  Returns the stage whose UVLO
+ * threshold is crossed first (then *te is the crossing), or -1. */
+static int closed_form(br_sim *s, double tb, double *te)
+{
+    const br_seg *g = &s->seg;
+    double ta = s->t, rate[BR_N], ic[BR_N];
+    int first = -1;
+    *te = tb;
+    for (int k = 0; k < s->n; k++) {
+        double iout = k + 1 < s->n ? g->iblk[k + 1] : 0.0;
+        ic[k] = k == 0 ? 0.0 : g->iblk[k] - iout - g->iload[k];
+        rate[k] = k == 0 ? g->vs_slope : ic[k] / br_sim_cap(s, k, s->x[X_VC + k]);
+        double v0 = s->vr[k], thr = rail_threshold(s, k);
+        if (rate[k] == 0.0 || !isfinite(thr))
+            continue;
+        double tc = ta + (thr - v0) / rate[k];
+        int toward = s->en[k] ? rate[k] < 0 : rate[k] > 0;
+        if (toward && tc > ta && tc <= *te) {
+            *te = tc;
+            first = k;
+        }
+    }
+    double dt = *te - ta, vs_a = supply_v(s, ta);
+    double isup = (s->n > 1 ? g->iblk[1] : 0.0) + g->iload[0];
+    for (int k = 0; k < s->n; k++) {
+        double va = s->vr[k];
+        if (k > 0) {
+            s->x[X_VC + k] += rate[k] * dt;
+            s->x[X_LQ + k] += g->iblk[k] * dt;
+            s->x[X_LI2 + k] += g->iblk[k] * g->iblk[k] * dt;
+            s->x[X_RI2 + k] += ic[k] * ic[k] * dt;
+        }
+        double vb = k == 0 ? supply_v(s, *te) - s->c->rsupply * isup
+                           : s->x[X_VC + k] + s->c->st[k].cap.esr * ic[k];
+        s->x[X_RV + k] += 0.5 * (va + vb) * dt;
+        s->x[X_RQL + k] += g->iload[k] * dt;
+        s->vr[k] = vb;
+        s->ic[k] = ic[k];
+        s->il[k] = k > 0 ? g->iblk[k] : 0.0;
+    }
+    s->x[X_SQ] += isup * dt;
+    s->x[X_SE] += isup * 0.5 * (vs_a + supply_v(s, *te)) * dt;
+    s->t = *te;
+    return first;
+}
+
+static void toggle(br_sim *s, int k)
+{
+    s->en[k] = !s->en[k];
+    if (s->obs.uvlo) {
+        br_uvlo_event e = {s->t, k, s->en[k], br_sim_vdrv(s, k, s->vr[k])};
+        s->obs.uvlo(s->obs.ctx, &e);
+    }
+    update_targets(s, s->t);
+}
+
+/* Fill the workspace (currents, rail voltages) for the state at s->t. */
+static void evaluate_now(br_sim *s, double tb)
+{
+    double dx[X_SIZE];
+    build_seg(s, s->t, tb);
+    br_sim_rhs(s, s->t, s->x, dx);
+}
+
+/* Settle UVLO states at the present instant; a rail that toggles more than
+ * a few times at one instant keeps its state (the hysteresis cannot hold
+ * against its own load step there). */
+static void settle_uvlo(br_sim *s, double tb)
+{
+    for (int guard = 0; guard < 4 * s->n; guard++) {
+        evaluate_now(s, tb);
+        int k = br_sim_uvlo_due(s, s->vr);
+        if (k < 0)
+            return;
+        toggle(s, k);
+    }
+    evaluate_now(s, tb);
+}
+
+int br_sim_run_until(br_sim *s, double t_end, br_error *err)
+{
+    while (s->t < t_end) {
+        double tb = next_time(s, t_end);
+        settle_uvlo(s, tb);
+        recover(s);
+        int due = -1, status = 0;
+        if (s->seg.nactive == 0 && !s->seg.zener) {
+            double te;
+            due = closed_form(s, tb, &te);
+        } else {
+            br_sim_integrate(s, tb, &status);
+            if (status < 0)
+                return br_error_set(err, BR_ENUMERIC, NULL, 0, NULL,
+                                    "step size underflow at t = %.9g s", s->t);
+            if (status > 0)
+                due = br_sim_uvlo_due(s, s->vr);
+        }
+        br_sim_track_extremes(s, s->t);
+        if (due >= 0)
+            toggle(s, due);
+        else if (s->t >= tb)
+            apply_schedule(s, tb);
+    }
+    return BR_OK;
+}
+
+/* ---- statistics ------------------------------------------------------------ */
+
+void br_sim_stats_start(br_sim *s)
+{
+    memset(&s->st, 0, sizeof s->st);
+    memcpy(s->quad0, s->x, sizeof s->x);
+    s->st.t0 = s->t;
+    for (int k = 0; k < s->n; k++) {
+        s->st.rail[k].vmin = s->st.rail[k].vdrv_min = HUGE_VAL;
+        s->st.rail[k].vmax = s->st.rail[k].vdrv_max = s->st.rail[k].vc_max = -HUGE_VAL;
+        s->st.link[k].vrev_peak = -HUGE_VAL;
+    }
+    s->stats_on = 1;
+    br_sim_track_extremes(s, s->t);
+}
+
+void br_sim_track_extremes(br_sim *s, double t)
+{
+    if (!s->stats_on)
+        return;
+    for (int k = 0; k < s->n; k++) {
+        br_rail_stats *r = &s->st.rail[k];
+        double vd = br_sim_vdrv(s, k, s->vr[k]);
+        r->vmin = fmin(r->vmin, s->vr[k]);
+        r->vmax = fmax(r->vmax, s->vr[k]);
+        r->vdrv_min = fmin(r->vdrv_min, vd);
+        r->vdrv_max = fmax(r->vdrv_max, vd);
+        r->vc_max = fmax(r->vc_max, k > 0 ? s->x[X_VC + k] : s->vr[0]);
+        if (k == 0)
+            continue;
+        br_link_stats *l = &s->st.link[k];
+        l->ipeak = fmax(l->ipeak, s->il[k]);
+        double vrev = br_sim_switch_v(s, k - 1, t) - (s->vr[k - 1] - s->vr[k]);
+        l->vrev_peak = fmax(l->vrev_peak, vrev);
+    }
+}
+
+const br_stats *br_sim_stats(br_sim *s)
+{
+    br_stats *st = &s->st;
+    const double *q0 = s->quad0, *x = s->x;
+    st->t1 = s->t;
+    for (int k = 0; k < s->n; k++) {
+        br_rail_stats *r = &st->rail[k];
+        r->vint = x[X_RV + k] - q0[X_RV + k];
+        r->icap2 = x[X_RI2 + k] - q0[X_RI2 + k];
+        r->qload = x[X_RQL + k] - q0[X_RQL + k];
+        br_link_stats *l = &st->link[k];
+        l->q = x[X_LQ + k] - q0[X_LQ + k];
+        l->i2 = x[X_LI2 + k] - q0[X_LI2 + k];
+        l->e_cond = x[X_LE + k] - q0[X_LE + k];
+    }
+    st->qsupply = x[X_SQ] - q0[X_SQ];
+    st->esupply = x[X_SE] - q0[X_SE];
+    return st;
+}

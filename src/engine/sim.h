@@ -1,0 +1,112 @@
+/* sim.h - the cycle-by-cycle simulator of a chain.
+ *
+ * The period is cut at every switching event, ramp end, gate-pulse end and
+ * UVLO crossing.  Within one interval every switch voltage is linear in
+ * time and every load is constant, so:
+ *  - when no link diode can conduct, every rail discharges linearly and
+ *    the interval is taken in closed form (UVLO crossings solved exactly);
+ *  - otherwise the rails and diode stored charges are integrated with an
+ *    embedded Runge-Kutta pair, the link currents solved from the coupled
+ *    diode/ESR equations at every evaluation.
+ * UVLO crossings inside an interval are located by bisection on the step. */
+#ifndef BR_ENGINE_SIM_H
+#define BR_ENGINE_SIM_H
+
+#include "model/chain.h"
+#include "model/timing.h"
+
+typedef enum br_integrator {
+    BR_INTEG_FAST = 0,     /* closed form where possible, Dormand-Prince 5(4) */
+    BR_INTEG_REFERENCE = 1 /* GSL rk8pd everywhere, tight tolerance */
+} br_integrator;
+
+typedef struct br_sim br_sim;
+
+/* Per-rail and per-link figures accumulated while stats are on. */
+typedef struct br_rail_stats {
+    double vmin, vmax;   /* rail (capacitor + ESR) extremes, V */
+    double vint;         /* integral of the rail voltage, V s */
+    double vdrv_min, vdrv_max; /* driver supply (after LDO) extremes, V */
+    double icap2;        /* integral of capacitor current squared, A^2 s */
+    double qload;        /* charge drawn by the driver, LDO and clamp, C */
+    double vc_max;       /* capacitor voltage peak, V */
+} br_rail_stats;
+
+typedef struct br_link_stats {
+    double q;            /* forward charge, integral of i, C */
+    double i2;           /* integral of i^2, A^2 s */
+    double ipeak;        /* peak forward current, A */
+    double vrev_peak;    /* peak reverse voltage (simulated), V */
+    double qrr;          /* recovery charge returned to the rail below, C */
+    double irrm;         /* peak recovery current (triangle over the edge), A */
+    double e_cond;       /* conduction energy, J */
+    double e_rr;         /* recovery energy, J */
+} br_link_stats;
+
+typedef struct br_stats {
+    double t0, t1;       /* accumulation window, s */
+    br_rail_stats rail[BR_MAX_SWITCHES];
+    br_link_stats link[BR_MAX_SWITCHES]; /* [k] is link k, k >= 1 */
+    double qsupply;      /* charge delivered by the supply, C */
+    double esupply;      /* energy delivered by the supply, J */
+} br_stats;
+
+/* One UVLO transition, reported to an observer. */
+typedef struct br_uvlo_event {
+    double t;     /* s */
+    int stage;    /* driver */
+    int enabled;  /* 1: started, 0: dropped out */
+    double v;     /* driver supply at the crossing, V */
+} br_uvlo_event;
+
+typedef struct br_sim_observer {
+    void *ctx;
+    /* each UVLO transition */
+    void (*uvlo)(void *ctx, const br_uvlo_event *e);
+    /* samples of the rails (t, vrail[n], ilink[n]) at accepted steps */
+    void (*sample)(void *ctx, double t, const double *vrail, const double *ilink, int n);
+} br_sim_observer;
+
+/* Create a simulator for chain c (kept by pointer) analysing current
+ * direction dir (a br_dir_index). */
+int br_sim_create(const br_chain *c, int dir, int integrator, br_sim **out, br_error *err);
+void br_sim_free(br_sim *s);
+
+/* Cold start at t = 0: capacitors empty, drivers off, start-up pattern
+ * (pre-charge steps, then PWM) armed, supply ramping. */
+void br_sim_reset_cold(br_sim *s);
+
+/* Steady PWM running from time t = 0 (period start) with the given state:
+ * x[k] rail capacitor voltages (k = 1..n-1; x[0] ignored), all drivers
+ * whose rails are above UVLO falling enabled, no stored charge. */
+void br_sim_reset_running(br_sim *s, const double *vc);
+
+/* Same, with sim time 0 at `phase` (s) into the PWM period and the full
+ * state x: x[k] rail voltages, x[n + k] diode stored charges (k >= 1).
+ * The instant must be quiet: no ramp or gate pulse in progress. */
+void br_sim_reset_running_at(br_sim *s, const double *x, double phase);
+
+/* Advance to absolute time t_end. */
+int br_sim_run_until(br_sim *s, double t_end, br_error *err);
+
+/* Time now, and capacitor voltages (n values, [0] is the supply rail). */
+double br_sim_time(const br_sim *s);
+void br_sim_vc(const br_sim *s, double *vc);
+int br_sim_enabled(const br_sim *s, int k);
+
+/* Start/stop accumulating statistics (start clears them). */
+void br_sim_stats_start(br_sim *s);
+const br_stats *br_sim_stats(br_sim *s);
+
+void br_sim_set_observer(br_sim *s, const br_sim_observer *obs);
+
+/* Integration tolerances of the RK pair (defaults set by the integrator). */
+void br_sim_set_tolerance(br_sim *s, double rtol, double atol_v);
+
+/* The time PWM starts after the pre-charge steps, s. */
+double br_sim_pwm_start(const br_sim *s);
+
+/* Evaluations of the link equations so far (for benchmarks). */
+unsigned long br_sim_evals(const br_sim *s);
+
+#endif

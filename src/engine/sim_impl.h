@@ -1,0 +1,107 @@
+/* sim_impl.h - the simulator's state, shared by its source files only. */
+#ifndef BR_ENGINE_SIM_IMPL_H
+#define BR_ENGINE_SIM_IMPL_H
+
+#include "engine/sim.h"
+
+#define BR_N BR_MAX_SWITCHES
+
+/* Layout of the integrated vector: rail capacitor voltages, diode stored
+ * charges, then quadratures (integrated alongside but left out of the
+ * error control). */
+enum {
+    X_VC = 0,               /* [k] capacitor voltage of rail k, V */
+    X_Q = BR_N,             /* [k] stored charge of link k, C */
+    X_NSTATE = 2 * BR_N,    /* end of the controlled states */
+    X_LQ = X_NSTATE,        /* [k] link forward charge, C */
+    X_LI2 = X_LQ + BR_N,    /* [k] link integral of i^2, A^2 s */
+    X_LE = X_LI2 + BR_N,    /* [k] link conduction energy, J */
+    X_RV = X_LE + BR_N,     /* [k] rail voltage integral, V s */
+    X_RI2 = X_RV + BR_N,    /* [k] capacitor current squared integral */
+    X_RQL = X_RI2 + BR_N,   /* [k] load charge (driver, LDO, clamp), C */
+    X_SQ = X_RQL + BR_N,    /* supply charge, C */
+    X_SE,                   /* supply energy, J */
+    X_SIZE
+};
+
+/* What stays constant (or linear in time) over one interval. */
+typedef struct br_seg {
+    double t0;                 /* interval start, s */
+    double vs0, vs_slope;      /* supply voltage Vs(t) = vs0 + slope (t - t0) */
+    double iload[BR_N];        /* driver + LDO + gate-pulse current of rail k, A */
+    double igate[BR_N];        /* of which gate pulse, A */
+    int active[BR_N];          /* link k solved from the diode equation */
+    int nactive;
+    double iblk[BR_N];         /* constant current of a blocked link k, A */
+    double d0[BR_N], dslope[BR_N]; /* voltage across the return switch of link k */
+    double rpath[BR_N];        /* rs excluded: link resistor + return switch Rds(on) */
+    int zener;                 /* some rail has a clamp that may conduct */
+} br_seg;
+
+struct br_sim {
+    const br_chain *c;
+    int n;                      /* stages */
+    int dir;                    /* br_dir_index */
+    int integ;                  /* br_integrator */
+    br_timing tm;
+    double rtol, atol_v, atol_q;
+    /* time and state */
+    double t;
+    double x[X_SIZE];
+    int en[BR_N];               /* driver enabled (out of UVLO) */
+    br_mask cmd, rev;           /* commanded on; reverse conducting */
+    br_mask driven;             /* commanded on with the driver running */
+    double tramp_end;           /* supply still ramping before this time, s */
+    int toggles;                /* UVLO toggles at the current instant */
+    /* voltage across each switch: linear ramp toward its target */
+    double sv0[BR_N], st0[BR_N], sslope[BR_N], send[BR_N], starget[BR_N];
+    double pulse_end[BR_N], pulse_i[BR_N];
+    /* schedule */
+    double pwm_t0;              /* PWM clock origin: events at pwm_t0 + m T + ev.t */
+    long per;                   /* period number m of the next timing event */
+    int ev_idx;                 /* index of the next timing event */
+    double pre_end[BR_MAX_PRECHARGE]; /* absolute end of each pre-charge step */
+    int npre, pre_idx;
+    /* workspace of the link solve */
+    br_seg seg;
+    double il[BR_N];            /* link currents at the last evaluation, A */
+    double vr[BR_N];            /* rail node voltages at the last evaluation, V */
+    double ic[BR_N];            /* capacitor currents at the last evaluation, A */
+    double iz[BR_N];            /* clamp currents, A */
+    unsigned long evals;
+    double hlast;               /* last accepted RK step, s (0: none yet) */
+    void *gsl_step;             /* rk8pd stepper of the reference path */
+    /* results */
+    int stats_on;
+    br_stats st;
+    double quad0[X_SIZE];       /* quadratures when stats started */
+    br_sim_observer obs;
+};
+
+/* Continuous equations of the interval seg at time t: fills dx (X_SIZE)
+ * and the workspace il/vr/ic.  Shared by both integrators. */
+void br_sim_rhs(br_sim *s, double t, const double *x, double *dx);
+
+/* Voltage across switch k at time t (on 0, off vblock, reverse -vsd). */
+double br_sim_switch_v(const br_sim *s, int k, double t);
+
+/* Driver supply of stage k for a rail voltage vr (after an LDO). */
+double br_sim_vdrv(const br_sim *s, int k, double vr);
+
+/* Rail k capacitance at its voltage. */
+double br_sim_cap(const br_sim *s, int k, double v);
+
+/* Integrate the current interval from s->t to tb with the RK pair, stopping
+ * early at a UVLO crossing.  Returns the time reached. */
+double br_sim_integrate(br_sim *s, double tb, int *status);
+
+void *br_sim_gsl_alloc(void);
+void br_sim_gsl_free(void *p);
+
+/* Record rail/link extremes at the current workspace (accepted points). */
+void br_sim_track_extremes(br_sim *s, double t);
+
+/* Index of the first stage whose driver must toggle for rails vr, or -1. */
+int br_sim_uvlo_due(const br_sim *s, const double *vr);
+
+#endif

@@ -1,0 +1,160 @@
+/* sim_links.c - the continuous equations of one interval.
+ *
+ * Rail k node voltage: vr_k = vc_k + esr_k * ic_k, with the capacitor
+ * current ic_k = i_k - i_{k+1} - iload_k - iz_k.  Rail 0 is the supply:
+ * vr_0 = Vs(t) - Rsrc * (i_1 + iload_0).  A conducting link k carries
+ * i_k = f_k(vr_{k-1} - vr_k - d_k(t)) + icj_k, f_k the diode with series
+ * resistance (Lambert W closed form) and icj_k the displacement current of
+ * its junction capacitance while the switch voltage d_k ramps.  The ESRs
+ * couple neighbouring links, so the active currents are solved together by
+ * Newton's method on a tridiagonal system, warm-started from the last
+ * evaluation. */
+#include "engine/diode.h"
+#include "engine/sim_impl.h"
+
+#include <math.h>
+
+double br_sim_cap(const br_sim *s, int k, double v)
+{
+    return br_cap_at(&s->c->st[k].cap, v);
+}
+
+double br_sim_vdrv(const br_sim *s, int k, double vr)
+{
+    const br_aux *a = &s->c->st[k].aux;
+    if (a->kind == BR_AUX_LDO) {
+        double v = vr - a->dropout;
+        v = v < a->vout ? v : a->vout;
+        return v > 0 ? v : 0;
+    }
+    return vr;
+}
+
+static double esr_of(const br_sim *s, int k)
+{
+    return k == 0 ? s->c->rsupply : s->c->st[k].cap.esr;
+}
+
+/* Rail node voltages for link currents il (capacitor voltages x). */
+static void rail_voltages(br_sim *s, double t, const double *x)
+{
+    const br_seg *g = &s->seg;
+    int n = s->n;
+    for (int k = 0; k < n; k++) {
+        double iout = k + 1 < n ? s->il[k + 1] : 0.0;
+        double iin = k > 0 ? s->il[k] : 0.0;
+        if (k == 0) {
+            double vs = g->vs0 + g->vs_slope * (t - g->t0);
+            s->ic[0] = 0;
+            s->vr[0] = vs - s->c->rsupply * (iout + g->iload[0]);
+            continue;
+        }
+        s->ic[k] = iin - iout - g->iload[k] - s->iz[k];
+        s->vr[k] = x[X_VC + k] + esr_of(s, k) * s->ic[k];
+    }
+}
+
+/* Clamp currents from the capacitor voltages (the clamp's own dynamic
+ * resistance dominates the ESR, so the capacitor voltage is used). */
+static void clamp_currents(br_sim *s, const double *x)
+{
+    for (int k = 1; k < s->n; k++) {
+        const br_aux *a = &s->c->st[k].aux;
+        double v = x[X_VC + k];
+        s->iz[k] = (a->kind == BR_AUX_ZENER && v > a->vout) ? (v - a->vout) / a->rz : 0.0;
+    }
+}
+
+/* Junction-capacitance displacement current of link k while its switch
+ * voltage ramps: i = -Cj(vj) dvrev/dt, the capacitance taken at the
+ * junction voltage (terminal voltage less the drop of the conduction
+ * current f), the ramp dominating dvrev/dt. */
+static double cj_current(const br_sim *s, int k, double u, double f)
+{
+    const br_diode *d = &s->c->st[k].diode;
+    if (s->seg.dslope[k] == 0.0 || d->cj0 == 0.0)
+        return 0.0;
+    double vj = u - f * (d->rs + s->seg.rpath[k]);
+    return -br_diode_cj(d, -vj) * s->seg.dslope[k];
+}
+
+/* Newton on r_k(i) = i_k - f_k(u_k(i)) - icj_k over the active links. */
+static void solve_links(br_sim *s, double t, const double *x)
+{
+    const br_seg *g = &s->seg;
+    int n = s->n;
+    double a[BR_N], b[BR_N], cc[BR_N], r[BR_N];
+    for (int k = 1; k < n; k++)
+        if (!g->active[k])
+            s->il[k] = g->iblk[k];
+    for (int it = 0; it < 50; it++) {
+        rail_voltages(s, t, x);
+        double worst = 0.0;
+        for (int k = 1; k < n; k++) {
+            a[k] = cc[k] = 0.0;
+            if (!g->active[k]) {
+                b[k] = 1.0;
+                r[k] = 0.0;
+                continue;
+            }
+            double dk = g->d0[k] + g->dslope[k] * (t - g->t0);
+            double u = s->vr[k - 1] - s->vr[k] - dk, f, gd;
+            br_diode_eval(&s->c->st[k].diode, g->rpath[k], u, &f, &gd);
+            s->evals++;
+            double el = esr_of(s, k - 1), eh = esr_of(s, k);
+            r[k] = s->il[k] - f - cj_current(s, k, u, f);
+            b[k] = 1.0 + gd * (el + eh);
+            if (k > 1 && g->active[k - 1])
+                a[k] = -gd * el;
+            if (k + 1 < n && g->active[k + 1])
+                cc[k] = -gd * eh;
+            double sc = 1e-12 + 1e-10 * fabs(s->il[k]);
+            if (fabs(r[k]) / sc > worst)
+                worst = fabs(r[k]) / sc;
+        }
+        if (worst <= 1.0)
+            break;
+        /* Thomas algorithm on the tridiagonal Jacobian */
+        for (int k = 2; k < n; k++) {
+            double m = a[k] / b[k - 1];
+            b[k] -= m * cc[k - 1];
+            r[k] -= m * r[k - 1];
+        }
+        for (int k = n - 1; k >= 1; k--) {
+            double dk = (r[k] - (k + 1 < n ? cc[k] * r[k + 1] : 0.0)) / b[k];
+            r[k] = dk;
+            s->il[k] -= dk;
+        }
+    }
+    rail_voltages(s, t, x);
+}
+
+void br_sim_rhs(br_sim *s, double t, const double *x, double *dx)
+{
+    const br_seg *g = &s->seg;
+    int n = s->n;
+    clamp_currents(s, x);
+    solve_links(s, t, x);
+    for (int i = 0; i < X_SIZE; i++)
+        dx[i] = 0.0;
+    for (int k = 1; k < n; k++) {
+        const br_stage *st = &s->c->st[k];
+        dx[X_VC + k] = s->ic[k] / br_sim_cap(s, k, x[X_VC + k]);
+        double i = s->il[k];
+        if (st->diode.tau > 0)
+            dx[X_Q + k] = i - x[X_Q + k] / st->diode.tau;
+        dx[X_LQ + k] = i;
+        dx[X_LI2 + k] = i * i;
+        double u = s->vr[k - 1] - s->vr[k] - (g->d0[k] + g->dslope[k] * (t - g->t0));
+        dx[X_LE + k] = g->active[k] ? i * (u - i * g->rpath[k]) : 0.0;
+        dx[X_RI2 + k] = s->ic[k] * s->ic[k];
+    }
+    for (int k = 0; k < n; k++) {
+        dx[X_RV + k] = s->vr[k];
+        dx[X_RQL + k] = g->iload[k] + s->iz[k];
+    }
+    double isup = (n > 1 ? s->il[1] : 0.0) + g->iload[0];
+    double vs = g->vs0 + g->vs_slope * (t - g->t0);
+    dx[X_SQ] = isup;
+    dx[X_SE] = isup * vs;
+}

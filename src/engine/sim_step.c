@@ -1,0 +1,186 @@
+/* sim_step.c - integrating one interval with an embedded Runge-Kutta pair.
+ *
+ * Fast path: the Dormand-Prince 5(4) pair (J. R. Dormand and P. J. Prince,
+ * "A family of embedded Runge-Kutta formulae", J. Comp. Appl. Math. 6,
+ * 1980) with the usual step-size controller.  Reference path: GSL's
+ * rk8pd stepper driven by the same controller at a tight tolerance.
+ * UVLO crossings are located by bisection on the length of the last step. */
+#include "engine/sim_impl.h"
+
+#include <gsl/gsl_errno.h>
+#include <gsl/gsl_odeiv2.h>
+#include <math.h>
+#include <string.h>
+
+static const double C2 = 1.0 / 5, C3 = 3.0 / 10, C4 = 4.0 / 5, C5 = 8.0 / 9;
+static const double A21 = 1.0 / 5;
+static const double A31 = 3.0 / 40, A32 = 9.0 / 40;
+static const double A41 = 44.0 / 45, A42 = -56.0 / 15, A43 = 32.0 / 9;
+static const double A51 = 19372.0 / 6561, A52 = -25360.0 / 2187, A53 = 64448.0 / 6561,
+                    A54 = -212.0 / 729;
+static const double A61 = 9017.0 / 3168, A62 = -355.0 / 33, A63 = 46732.0 / 5247,
+                    A64 = 49.0 / 176, A65 = -5103.0 / 18656;
+static const double B1 = 35.0 / 384, B3 = 500.0 / 1113, B4 = 125.0 / 192, B5 = -2187.0 / 6784,
+                    B6 = 11.0 / 84;
+static const double E1 = 71.0 / 57600, E3 = -71.0 / 16695, E4 = 71.0 / 1920,
+                    E5 = -17253.0 / 339200, E6 = 22.0 / 525, E7 = -1.0 / 40;
+
+/* One Dormand-Prince step from (t, x) with derivative k1 at x; writes the
+ * 5th-order solution to y and its error estimate to e (controlled states). */
+static void dp45_step(br_sim *s, double t, double h, const double *x, const double *k1,
+                      double *y, double *e, double *k7)
+{
+    double k2[X_SIZE], k3[X_SIZE], k4[X_SIZE], k5[X_SIZE], k6[X_SIZE], w[X_SIZE];
+    for (int i = 0; i < X_SIZE; i++)
+        w[i] = x[i] + h * A21 * k1[i];
+    br_sim_rhs(s, t + C2 * h, w, k2);
+    for (int i = 0; i < X_SIZE; i++)
+        w[i] = x[i] + h * (A31 * k1[i] + A32 * k2[i]);
+    br_sim_rhs(s, t + C3 * h, w, k3);
+    for (int i = 0; i < X_SIZE; i++)
+        w[i] = x[i] + h * (A41 * k1[i] + A42 * k2[i] + A43 * k3[i]);
+    br_sim_rhs(s, t + C4 * h, w, k4);
+    for (int i = 0; i < X_SIZE; i++)
+        w[i] = x[i] + h * (A51 * k1[i] + A52 * k2[i] + A53 * k3[i] + A54 * k4[i]);
+    br_sim_rhs(s, t + C5 * h, w, k5);
+    for (int i = 0; i < X_SIZE; i++)
+        w[i] = x[i] + h * (A61 * k1[i] + A62 * k2[i] + A63 * k3[i] + A64 * k4[i] + A65 * k5[i]);
+    br_sim_rhs(s, t + h, w, k6);
+    for (int i = 0; i < X_SIZE; i++)
+        y[i] = x[i] + h * (B1 * k1[i] + B3 * k3[i] + B4 * k4[i] + B5 * k5[i] + B6 * k6[i]);
+    br_sim_rhs(s, t + h, y, k7); /* leaves the workspace at the step end */
+    for (int i = 0; i < X_NSTATE; i++)
+        e[i] = h * (E1 * k1[i] + E3 * k3[i] + E4 * k4[i] + E5 * k5[i] + E6 * k6[i] + E7 * k7[i]);
+}
+
+typedef struct gsl_ctx {
+    br_sim *s;
+} gsl_ctx;
+
+static int gsl_rhs(double t, const double y[], double f[], void *p)
+{
+    br_sim_rhs(((gsl_ctx *)p)->s, t, y, f);
+    return GSL_SUCCESS;
+}
+
+void *br_sim_gsl_alloc(void) { return gsl_odeiv2_step_alloc(gsl_odeiv2_step_rk8pd, X_SIZE); }
+void br_sim_gsl_free(void *p)
+{
+    if (p)
+        gsl_odeiv2_step_free(p);
+}
+
+/* One rk8pd step through GSL; error estimate for the controlled states. */
+static void rk8_step(br_sim *s, double t, double h, const double *x, double *y, double *e,
+                     double *kend)
+{
+    gsl_ctx ctx = {s};
+    gsl_odeiv2_system sys = {gsl_rhs, NULL, X_SIZE, &ctx};
+    gsl_odeiv2_step *st = s->gsl_step;
+    double yerr[X_SIZE];
+    memcpy(y, x, sizeof(double) * X_SIZE);
+    gsl_odeiv2_step_reset(st);
+    if (gsl_odeiv2_step_apply(st, t, h, y, yerr, NULL, NULL, &sys) != GSL_SUCCESS) {
+        for (int i = 0; i < X_NSTATE; i++)
+            e[i] = HUGE_VAL;
+    } else {
+        memcpy(e, yerr, sizeof(double) * X_NSTATE);
+    }
+    br_sim_rhs(s, t + h, y, kend); /* leave the workspace at the step end */
+}
+
+/* y: solution at t + h; e: error estimate; kend: derivative at (t+h, y),
+ * with the workspace (currents, rail voltages) left at the step end. */
+static void take_step(br_sim *s, double t, double h, const double *x, const double *k1, double *y,
+                      double *e, double *kend)
+{
+    if (s->integ == BR_INTEG_REFERENCE)
+        rk8_step(s, t, h, x, y, e, kend);
+    else
+        dp45_step(s, t, h, x, k1, y, e, kend);
+}
+
+static double error_norm(const br_sim *s, const double *x, const double *y, const double *e)
+{
+    double worst = 0.0;
+    for (int k = 1; k < s->n; k++) {
+        double sv = s->atol_v + s->rtol * fmax(fabs(x[X_VC + k]), fabs(y[X_VC + k]));
+        double sq = s->atol_q + s->rtol * fmax(fabs(x[X_Q + k]), fabs(y[X_Q + k]));
+        worst = fmax(worst, fabs(e[X_VC + k]) / sv);
+        worst = fmax(worst, fabs(e[X_Q + k]) / sq);
+    }
+    return worst;
+}
+
+/* Step size after a step of error norm err (order p of the lower method). */
+static double next_h(double h, double err, int p)
+{
+    double f = err > 0 ? 0.9 * pow(err, -1.0 / (p + 1)) : 5.0;
+    f = f < 0.2 ? 0.2 : (f > 5.0 ? 5.0 : f);
+    return h * f;
+}
+
+/* Shorten an accepted step [t, t+h] that crossed a UVLO threshold to end
+ * just after the crossing (bisection on the step length). */
+static double locate_uvlo(br_sim *s, double t, double h, const double *x, const double *k1,
+                          double *y)
+{
+    double e[X_SIZE], kend[X_SIZE], lo = 0.0, hi = h;
+    double tol = fmax(1e-13, 1e-9 * h);
+    while (hi - lo > tol) {
+        double mid = 0.5 * (lo + hi);
+        take_step(s, t, mid, x, k1, y, e, kend);
+        if (br_sim_uvlo_due(s, s->vr) >= 0)
+            hi = mid;
+        else
+            lo = mid;
+    }
+    take_step(s, t, hi, x, k1, y, e, kend);
+    return hi;
+}
+
+static void observe(br_sim *s, double t)
+{
+    if (s->obs.sample)
+        s->obs.sample(s->obs.ctx, t, s->vr, s->il, s->n);
+}
+
+double br_sim_integrate(br_sim *s, double tb, int *status)
+{
+    double t = s->t, k1[X_SIZE], y[X_SIZE], e[X_SIZE], kend[X_SIZE];
+    int p = s->integ == BR_INTEG_REFERENCE ? 7 : 4;
+    double h = s->hlast > 0 ? s->hlast : (tb - t) / 8;
+    *status = 0;
+    br_sim_rhs(s, t, s->x, k1);
+    while (t < tb) {
+        if (h > tb - t || tb - t - h < 1e-15)
+            h = tb - t;
+        if (h < 1e-16 * fmax(1.0, fabs(t)) + 1e-18) {
+            *status = -1;
+            break;
+        }
+        take_step(s, t, h, s->x, k1, y, e, kend);
+        double err = error_norm(s, s->x, y, e);
+        if (!(err <= 1.0)) {
+            h = next_h(h, isnan(err) ? 1e9 : err, p);
+            continue;
+        }
+        if (br_sim_uvlo_due(s, s->vr) >= 0) {
+            h = locate_uvlo(s, t, h, s->x, k1, y);
+            memcpy(s->x, y, sizeof y);
+            t += h;
+            br_sim_track_extremes(s, t);
+            observe(s, t);
+            *status = 1;
+            break;
+        }
+        memcpy(s->x, y, sizeof y);
+        t += h;
+        br_sim_track_extremes(s, t);
+        observe(s, t);
+        s->hlast = h = next_h(h, err, p);
+        memcpy(k1, kend, sizeof kend);
+    }
+    s->t = t;
+    return t;
+}
