@@ -73,6 +73,14 @@ void br_sim_vc(const br_sim *s, double *vc)
         vc[k] = s->x[X_VC + k];
 }
 
+void br_sim_state(const br_sim *s, double *x)
+{
+    for (int k = 0; k < s->n; k++) {
+        x[k] = s->x[X_VC + k];
+        x[s->n + k] = s->x[X_Q + k];
+    }
+}
+
 static double supply_v(const br_sim *s, double t)
 {
     const br_chain *c = s->c;
@@ -282,7 +290,10 @@ static void apply_schedule(br_sim *s, double t)
 static double stage_load(const br_sim *s, int k, double t)
 {
     const br_stage *st = &s->c->st[k];
-    double i = s->en[k] ? st->drv.iq_on + st->drv.i_iso : st->drv.iq_off;
+    /* a driver held in UVLO draws its standby current only from a charged
+     * rail: an empty capacitor is not driven negative */
+    double i = s->en[k] ? st->drv.iq_on + st->drv.i_iso
+                        : (k == 0 || s->x[X_VC + k] > 0 ? st->drv.iq_off : 0.0);
     if (st->aux.kind == BR_AUX_LDO)
         i += st->aux.iq;
     if (s->pulse_end[k] > t)
@@ -471,6 +482,7 @@ int br_sim_run_until(br_sim *s, double t_end, br_error *err)
         double tb = next_time(s, t_end);
         settle_uvlo(s, tb);
         recover(s);
+        br_sim_track_extremes(s, s->t);
         int due = -1, status = 0;
         if (s->seg.nactive == 0 && !s->seg.zener) {
             double te;
@@ -505,7 +517,6 @@ void br_sim_stats_start(br_sim *s)
         s->st.link[k].vrev_peak = -HUGE_VAL;
     }
     s->stats_on = 1;
-    br_sim_track_extremes(s, s->t);
 }
 
 void br_sim_track_extremes(br_sim *s, double t)

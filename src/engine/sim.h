@@ -92,6 +92,8 @@ int br_sim_run_until(br_sim *s, double t_end, br_error *err);
 /* Time now, and capacitor voltages (n values, [0] is the supply rail). */
 double br_sim_time(const br_sim *s);
 void br_sim_vc(const br_sim *s, double *vc);
+/* Full state: x[k] rail capacitor voltages, x[n + k] diode stored charges. */
+void br_sim_state(const br_sim *s, double *x);
 int br_sim_enabled(const br_sim *s, int k);
 
 /* Start/stop accumulating statistics (start clears them). */

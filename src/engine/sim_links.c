@@ -65,17 +65,21 @@ static void clamp_currents(br_sim *s, const double *x)
     }
 }
 
-/* Junction-capacitance displacement current of link k while its switch
- * voltage ramps: i = -Cj(vj) dvrev/dt, the capacitance taken at the
- * junction voltage (terminal voltage less the drop of the conduction
- * current f), the ramp dominating dvrev/dt. */
+/* Junction-capacitance displacement current of link k while the voltage
+ * across its return switch ramps.  The junction voltage moves with the
+ * ramp only as far as the conduction lets it: quasi-statically
+ * dvj = du / (1 + R gj), gj = (f + Is)/(n Vt) the junction conductance,
+ * so a reverse-biased diode passes the full Cj dV/dt and a conducting
+ * one, its junction pinned, almost none. */
 static double cj_current(const br_sim *s, int k, double u, double f)
 {
     const br_diode *d = &s->c->st[k].diode;
     if (s->seg.dslope[k] == 0.0 || d->cj0 == 0.0)
         return 0.0;
-    double vj = u - f * (d->rs + s->seg.rpath[k]);
-    return -br_diode_cj(d, -vj) * s->seg.dslope[k];
+    double r = d->rs + s->seg.rpath[k];
+    double vj = u - f * r;
+    double gj = (f + d->is) / (d->n * d->vt);
+    return -br_diode_cj(d, -vj) * s->seg.dslope[k] / (1.0 + r * gj);
 }
 
 /* Newton on r_k(i) = i_k - f_k(u_k(i)) - icj_k over the active links. */

@@ -151,6 +151,10 @@ double br_sim_integrate(br_sim *s, double tb, int *status)
     int p = s->integ == BR_INTEG_REFERENCE ? 7 : 4;
     double h = s->hlast > 0 ? s->hlast : (tb - t) / 8;
     *status = 0;
+    if (tb - t < 1e-15) { /* an interval of rounding size: nothing moves */
+        s->t = tb;
+        return tb;
+    }
     br_sim_rhs(s, t, s->x, k1);
     while (t < tb) {
         if (h > tb - t || tb - t - h < 1e-15)

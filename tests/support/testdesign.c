@@ -52,3 +52,75 @@ br_design *br_test_fcml(int levels, double vin, double fsw, double duty, double 
     one_of_each(d);
     return d;
 }
+
+/* ---- reference cases ---- */
+
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+
+double br_json_number(const char *json, const char *from, const char *key, const char **next)
+{
+    char pat[96];
+    snprintf(pat, sizeof pat, "\"%s\"", key);
+    const char *p = strstr(from ? from : json, pat);
+    if (!p)
+        return NAN;
+    p = strchr(p + strlen(pat), ':');
+    if (!p)
+        return NAN;
+    p++;
+    while (*p == ' ')
+        p++;
+    char *end;
+    double v = strtod(p, &end);
+    if (next)
+        *next = end;
+    return end == p ? NAN : v;
+}
+
+static double num_in(const char *json, const char *section, const char *key)
+{
+    const char *s = strstr(json, section);
+    return s ? br_json_number(json, s, key, NULL) : NAN;
+}
+
+br_design *br_test_reference_design(const char *json)
+{
+    double J = 0;
+    br_design *d = br_test_fcml((int)br_json_number(json, NULL, "levels", NULL),
+                                br_json_number(json, NULL, "vin", NULL),
+                                br_json_number(json, NULL, "fsw", NULL),
+                                br_json_number(json, NULL, "duty", NULL),
+                                br_json_number(json, NULL, "deadtime", NULL));
+    if (!d)
+        return NULL;
+    d->tedge = br_qty_fixed(br_json_number(json, NULL, "tedge", NULL));
+    d->vsupply = br_qty_fixed(br_json_number(json, NULL, "supply_v", NULL));
+    d->rsupply = br_qty_fixed(br_json_number(json, NULL, "supply_r", NULL));
+    d->def.r_link = br_qty_fixed(br_json_number(json, NULL, "rlink", NULL));
+    d->tamb = br_qty_fixed(27.0 + 273.15); /* the reference runs at 27 C */
+    br_diode_part *dp = &d->diodes[0];
+    dp->is = br_qty_fixed(num_in(json, "\"diode\"", "is"));
+    dp->n = br_qty_fixed(num_in(json, "\"diode\"", "n"));
+    dp->rs = br_qty_fixed(num_in(json, "\"diode\"", "rs"));
+    dp->cj0 = br_qty_fixed(num_in(json, "\"diode\"", "cjo"));
+    dp->vj = br_qty_fixed(num_in(json, "\"diode\"", "vj"));
+    dp->m = br_qty_fixed(num_in(json, "\"diode\"", "m"));
+    dp->tau = br_qty_fixed(num_in(json, "\"diode\"", "tt"));
+    d->caps[0].c = br_qty_fixed(num_in(json, "\"cap\"", "c"));
+    d->caps[0].esr = br_qty_fixed(num_in(json, "\"cap\"", "esr"));
+    br_driver_part *rp = &d->drivers[0];
+    rp->iq_on = br_qty_fixed(num_in(json, "\"load\"", "iq_on"));
+    rp->iq_off = br_qty_fixed(num_in(json, "\"load\"", "iq_off"));
+    rp->uvlo_rise = br_qty_fixed(num_in(json, "\"uvlo\"", "rise"));
+    rp->uvlo_fall = br_qty_fixed(num_in(json, "\"uvlo\"", "fall"));
+    d->switches[0].qg = br_qty_fixed(num_in(json, "\"load\"", "qg"));
+    d->switches[0].tg = br_qty_fixed(num_in(json, "\"load\"", "tg"));
+    J = dp->is.nom + dp->n.nom + d->caps[0].c.nom + rp->iq_on.nom + d->tedge.nom;
+    if (isnan(J)) {
+        br_design_free(d);
+        return NULL;
+    }
+    return d;
+}

@@ -9,4 +9,15 @@
  * on the defaults; values are plain and documented in testdesign.c. */
 br_design *br_test_fcml(int levels, double vin, double fsw, double duty, double deadtime);
 
+
+
+/* ---- reference cases: the json files in ../shared/reference ---- */
+
+/* Value of the first "key": number after position from in json; NAN when
+ * missing or null.  *next (may be NULL) gets the position after it. */
+double br_json_number(const char *json, const char *from, const char *key, const char **next);
+
+/* The design of a reference case file (an FCML leg with one part of each
+ * kind, idealised commutation), or NULL. */
+br_design *br_test_reference_design(const char *json);
 #endif

@@ -1,0 +1,114 @@
+/* startup.c - simulating the cold start period by period. */
+#include "analyses/startup.h"
+
+#include "core/error.h"
+
+#include <math.h>
+#include <string.h>
+
+typedef struct watch {
+    br_startup *r;
+    double last_event;              /* s */
+    const br_sim_observer *user;
+} watch;
+
+static void on_uvlo(void *ctx, const br_uvlo_event *e)
+{
+    watch *w = ctx;
+    br_startup_stage *s = &w->r->st[e->stage];
+    w->last_event = e->t;
+    if (e->enabled) {
+        if (s->first_enable < 0)
+            s->first_enable = e->t;
+        s->final_enable = e->t;
+    } else {
+        if (s->ndropouts < BR_MAX_DROPOUT_TIMES)
+            s->dropout_t[s->ndropouts] = e->t;
+        s->ndropouts++;
+        s->final_enable = -1;
+    }
+    if (w->user && w->user->uvlo)
+        w->user->uvlo(w->user->ctx, e);
+}
+
+static void on_sample(void *ctx, double t, const double *vr, const double *il, int n)
+{
+    watch *w = ctx;
+    if (w->user && w->user->sample)
+        w->user->sample(w->user->ctx, t, vr, il, n);
+}
+
+static int all_running(const br_sim *s, int n)
+{
+    for (int k = 0; k < n; k++)
+        if (!br_sim_enabled(s, k))
+            return 0;
+    return 1;
+}
+
+static void init_result(br_startup *r, int n)
+{
+    memset(r, 0, sizeof *r);
+    r->n = n;
+    r->first_stalled = -1;
+    for (int k = 0; k < n; k++)
+        r->st[k].first_enable = r->st[k].final_enable = -1;
+}
+
+/* Figures of the last period: where each rail sits and what its link
+ * carries (what a stalled rung is losing). */
+static int last_period(br_sim *s, const br_chain *c, br_startup *r, br_error *err)
+{
+    double peaks[BR_MAX_SWITCHES];
+    const br_stats *st = br_sim_stats(s);
+    for (int k = 0; k < c->n; k++)
+        peaks[k] = st->link[k].ipeak;
+    br_sim_stats_start(s);
+    int rc = br_sim_run_until(s, br_sim_time(s) + c->T, err);
+    st = br_sim_stats(s);
+    double dt = st->t1 - st->t0;
+    for (int k = 0; k < c->n; k++) {
+        r->st[k].ipeak = fmax(peaks[k], st->link[k].ipeak);
+        r->st[k].vend = st->rail[k].vint / dt;
+        r->st[k].iend = st->link[k].q / dt;
+        r->st[k].running = br_sim_enabled(s, k);
+    }
+    return rc;
+}
+
+int br_startup_run(const br_chain *c, const br_startup_opts *o, br_startup *r, br_error *err)
+{
+    br_sim *s;
+    int rc = br_sim_create(c, BR_DIRI_NONE, BR_INTEG_FAST, &s, err);
+    if (rc != BR_OK)
+        return rc;
+    init_result(r, c->n);
+    watch w = {r, 0.0, o ? o->obs : NULL};
+    br_sim_observer obs = {&w, on_uvlo, on_sample};
+    br_sim_set_observer(s, &obs);
+    double t_max = o && o->t_max > 0 ? o->t_max : c->startup_max;
+    int settle = o && o->settle_periods > 0 ? o->settle_periods : 50;
+    r->pwm_start = br_sim_pwm_start(s);
+    br_sim_stats_start(s);
+    double t = 0.0;
+    while (rc == BR_OK && t < t_max) {
+        t = fmin(t + c->T, t_max);
+        rc = br_sim_run_until(s, t, err);
+        if (all_running(s, c->n) && t - w.last_event >= settle * c->T)
+            break;
+    }
+    if (rc == BR_OK)
+        rc = last_period(s, c, r, err);
+    r->t_simulated = br_sim_time(s);
+    r->complete = 1;
+    for (int k = 0; k < c->n; k++) {
+        if (!r->st[k].running || r->st[k].final_enable < 0) {
+            r->complete = 0;
+            if (r->first_stalled < 0)
+                r->first_stalled = k;
+        }
+        r->t_total = fmax(r->t_total, r->st[k].final_enable);
+    }
+    br_sim_free(s);
+    return rc;
+}

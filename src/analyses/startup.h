@@ -1,0 +1,40 @@
+/* startup.h - cold start: when each driver starts, drops out and starts
+ * for good, inrush peaks, and why a rung stalls. */
+#ifndef BR_ANALYSES_STARTUP_H
+#define BR_ANALYSES_STARTUP_H
+
+#include "engine/sim.h"
+
+#define BR_MAX_DROPOUT_TIMES 16
+
+typedef struct br_startup_stage {
+    double first_enable;   /* first crossing of UVLO rising, s (-1: never) */
+    double final_enable;   /* the start that lasts, s (-1: not started at the end) */
+    int ndropouts;         /* start-up dropouts (disable events) */
+    double dropout_t[BR_MAX_DROPOUT_TIMES]; /* the first few of them, s */
+    double ipeak;          /* peak forward current of link k, A */
+    double vend;           /* rail voltage (mean over the last period), V */
+    double iend;           /* link k mean current over the last period, A */
+    int running;           /* driver enabled at the end */
+} br_startup_stage;
+
+typedef struct br_startup {
+    int n;                 /* stages */
+    int complete;          /* every driver running for good */
+    double t_total;        /* start-up time: the last final start, s */
+    double t_simulated;    /* s */
+    double pwm_start;      /* end of the pre-charge steps, s */
+    int first_stalled;     /* lowest stage never running at the end, -1 */
+    br_startup_stage st[BR_MAX_SWITCHES];
+} br_startup;
+
+/* Optional time series of the cold start. */
+typedef struct br_startup_opts {
+    double t_max;          /* give up after this, s (default: the design's) */
+    int settle_periods;    /* periods without a UVLO event that end it (default 50) */
+    const br_sim_observer *obs; /* extra observer for samples (may be NULL) */
+} br_startup_opts;
+
+int br_startup_run(const br_chain *c, const br_startup_opts *o, br_startup *out, br_error *err);
+
+#endif

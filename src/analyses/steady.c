@@ -1,0 +1,310 @@
+/* steady.c - periodic steady state by shooting, with a plain-simulation
+ * fallback and a cross-check. */
+#include "analyses/steady.h"
+
+#include "core/error.h"
+#include "engine/diode.h"
+
+#include <gsl/gsl_linalg.h>
+#include <math.h>
+#include <string.h>
+
+#define NX (2 * BR_MAX_SWITCHES)
+
+void br_steady_opts_default(br_steady_opts *o)
+{
+    o->tol = 1e-7;
+    o->max_iter = 12;
+    o->max_plain = 400;
+    o->check_periods = 3;
+    o->guess = NULL;
+}
+
+double br_steady_quiet_phase(const br_chain *c, const br_timing *tm)
+{
+    if (tm->nev == 0)
+        return 0.0;
+    double guard = c->tedge;
+    for (int k = 0; k < c->n; k++)
+        guard = fmax(guard, c->st[k].sw.tg);
+    double best = -1.0, phase = 0.0;
+    for (int i = 0; i < tm->nev; i++) {
+        double a = tm->ev[i].t;
+        double b = i + 1 < tm->nev ? tm->ev[i + 1].t : tm->ev[0].t + tm->T;
+        double usable = b - a - guard;
+        if (usable > best) {
+            best = usable;
+            phase = fmod(a + guard + 0.5 * usable, tm->T);
+        }
+    }
+    return phase;
+}
+
+/* The unknowns: every rail (k >= 1) and the stored charge of every diode
+ * that has one. */
+typedef struct shoot {
+    const br_chain *c;
+    br_sim *sim;
+    double phase;
+    int m;                 /* unknowns */
+    int idx[NX];           /* position in the full x of unknown i */
+    double base[NX];       /* full x the unknowns are written into */
+    long periods;
+    int dropped;           /* a driver toggled during the last map */
+} shoot;
+
+static void on_uvlo(void *ctx, const br_uvlo_event *e)
+{
+    (void)e;
+    ((shoot *)ctx)->dropped = 1;
+}
+
+static void map_unknowns(shoot *sh)
+{
+    int n = sh->c->n;
+    sh->m = 0;
+    for (int k = 1; k < n; k++)
+        sh->idx[sh->m++] = k;
+    for (int k = 1; k < n; k++)
+        if (sh->c->st[k].diode.tau > 0)
+            sh->idx[sh->m++] = n + k;
+}
+
+/* y = P(z): one period from z at the quiet phase. */
+static int period_map(shoot *sh, const double *z, double *y, br_error *err)
+{
+    double x[NX], out[NX];
+    memcpy(x, sh->base, sizeof x);
+    for (int i = 0; i < sh->m; i++)
+        x[sh->idx[i]] = z[i];
+    br_sim_reset_running_at(sh->sim, x, sh->phase);
+    sh->dropped = 0;
+    int rc = br_sim_run_until(sh->sim, sh->c->T, err);
+    sh->periods++;
+    br_sim_state(sh->sim, out);
+    for (int i = 0; i < sh->m; i++)
+        y[i] = out[sh->idx[i]];
+    return rc;
+}
+
+static double max_abs_diff(const double *a, const double *b, int m)
+{
+    double w = 0.0;
+    for (int i = 0; i < m; i++)
+        w = fmax(w, fabs(a[i] - b[i]));
+    return w;
+}
+
+/* Finite-difference Jacobian of F(z) = P(z) - z, into B (m x m). */
+static int jacobian(shoot *sh, const double *z, const double *pz, gsl_matrix *B, br_error *err)
+{
+    double zp[NX], yp[NX];
+    for (int j = 0; j < sh->m; j++) {
+        memcpy(zp, z, sizeof(double) * (size_t)sh->m);
+        int is_q = sh->idx[j] >= sh->c->n;
+        double h = is_q ? 1e-12 + 1e-4 * fabs(z[j]) : 1e-5 * fmax(1.0, fabs(z[j]));
+        zp[j] += h;
+        int rc = period_map(sh, zp, yp, err);
+        if (rc != BR_OK)
+            return rc;
+        for (int i = 0; i < sh->m; i++)
+            gsl_matrix_set(B, i, j, (yp[i] - pz[i]) / h - (i == j ? 1.0 : 0.0));
+    }
+    return BR_OK;
+}
+
+/* Solve B dz = -F; returns 0 on success. */
+static int newton_step(gsl_matrix *B, gsl_matrix *LU, gsl_permutation *p, const double *F,
+                       double *dz, int m)
+{
+    int sign;
+    gsl_matrix_memcpy(LU, B);
+    if (gsl_linalg_LU_decomp(LU, p, &sign) != GSL_SUCCESS)
+        return -1;
+    gsl_vector_view bv = gsl_vector_view_array(dz, (size_t)m);
+    for (int i = 0; i < m; i++)
+        dz[i] = -F[i];
+    if (gsl_linalg_LU_svx(LU, p, &bv.vector) != GSL_SUCCESS)
+        return -1;
+    for (int i = 0; i < m; i++)
+        if (!isfinite(dz[i]))
+            return -1;
+    return 0;
+}
+
+/* Broyden's rank-one update of B after the step dz changed F by dF. */
+static void broyden(gsl_matrix *B, const double *dz, const double *dF, int m)
+{
+    double dd = 0.0, bdz[NX];
+    for (int i = 0; i < m; i++) {
+        dd += dz[i] * dz[i];
+        bdz[i] = 0.0;
+        for (int j = 0; j < m; j++)
+            bdz[i] += gsl_matrix_get(B, i, j) * dz[j];
+    }
+    if (dd == 0.0)
+        return;
+    for (int i = 0; i < m; i++)
+        for (int j = 0; j < m; j++)
+            gsl_matrix_set(B, i, j, gsl_matrix_get(B, i, j) + (dF[i] - bdz[i]) * dz[j] / dd);
+}
+
+/* Newton (finite-difference Jacobian once, then Broyden).  z in/out. */
+static int shoot_newton(shoot *sh, double *z, const br_steady_opts *o, br_steady *out,
+                        br_error *err)
+{
+    int m = sh->m, rc = BR_OK, ok = 0;
+    gsl_matrix *B = gsl_matrix_alloc((size_t)m, (size_t)m);
+    gsl_matrix *LU = gsl_matrix_alloc((size_t)m, (size_t)m);
+    gsl_permutation *p = gsl_permutation_alloc((size_t)m);
+    double pz[NX], F[NX], dz[NX], Fn[NX], dF[NX];
+    if (!B || !LU || !p) {
+        rc = br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory in the shooting solver");
+        goto done;
+    }
+    if ((rc = period_map(sh, z, pz, err)) != BR_OK)
+        goto done;
+    for (int i = 0; i < m; i++)
+        F[i] = pz[i] - z[i];
+    if ((rc = jacobian(sh, z, pz, B, err)) != BR_OK)
+        goto done;
+    for (int it = 0; it < o->max_iter && !ok; it++) {
+        out->iterations = it + 1;
+        if (newton_step(B, LU, p, F, dz, m) != 0)
+            break;
+        for (int i = 0; i < m; i++)
+            z[i] += dz[i];
+        if ((rc = period_map(sh, z, pz, err)) != BR_OK)
+            goto done;
+        for (int i = 0; i < m; i++) {
+            Fn[i] = pz[i] - z[i];
+            dF[i] = Fn[i] - F[i];
+            F[i] = Fn[i];
+        }
+        out->residual = max_abs_diff(pz, z, sh->c->n - 1);
+        ok = out->residual <= o->tol && !sh->dropped;
+        broyden(B, dz, dF, m);
+    }
+done:
+    gsl_matrix_free(B);
+    gsl_matrix_free(LU);
+    gsl_permutation_free(p);
+    if (rc == BR_OK && !ok)
+        rc = BR_ENUMERIC;
+    return rc;
+}
+
+/* A start close enough for Newton: each rail one diode drop (at the
+ * charge it must pass on) below the rail beneath. */
+static void estimate(const br_chain *c, double *x)
+{
+    memset(x, 0, sizeof(double) * NX);
+    double iabove = 0.0;
+    double ilink[BR_MAX_SWITCHES] = {0};
+    for (int k = c->n - 1; k >= 1; k--) {
+        const br_stage *st = &c->st[k];
+        iabove += st->drv.iq_on + st->drv.i_iso + st->aux.iq + br_sw_qg_at(&st->sw, 6.0) * c->fsw;
+        ilink[k] = iabove;
+    }
+    double v = c->vsupply;
+    for (int k = 1; k < c->n; k++) {
+        const br_diode *d = &c->st[k].diode;
+        double ipk = 2.0 * ilink[k] + 1e-6; /* windows are about half the period */
+        v -= br_diode_vjunction(d, ipk) + ipk * (d->rs + c->st[k].r_link);
+        x[k] = v;
+    }
+}
+
+/* Plain simulation from x until the rails move less than tol per period. */
+static int plain(shoot *sh, double *x, const br_steady_opts *o, br_steady *out, br_error *err)
+{
+    double prev[NX], now[NX];
+    br_sim_reset_running_at(sh->sim, x, sh->phase);
+    br_sim_state(sh->sim, prev);
+    out->method = BR_STEADY_PLAIN;
+    for (long p = 1; p <= o->max_plain; p++) {
+        int rc = br_sim_run_until(sh->sim, p * sh->c->T, err);
+        if (rc != BR_OK)
+            return rc;
+        sh->periods++;
+        br_sim_state(sh->sim, now);
+        double d = max_abs_diff(now + 1, prev + 1, sh->c->n - 1);
+        memcpy(prev, now, sizeof now);
+        if (d <= o->tol) {
+            out->residual = d;
+            out->converged = 1;
+            break;
+        }
+        out->residual = d;
+    }
+    memcpy(x, prev, sizeof prev);
+    return BR_OK;
+}
+
+/* Simulate from x: the period's figures, and the drift over more periods. */
+static int finish(shoot *sh, const double *x, const br_steady_opts *o, br_steady *out,
+                  br_error *err)
+{
+    double after[NX];
+    br_sim_reset_running_at(sh->sim, x, sh->phase);
+    sh->dropped = 0;
+    br_sim_stats_start(sh->sim);
+    int rc = br_sim_run_until(sh->sim, sh->c->T, err);
+    if (rc != BR_OK)
+        return rc;
+    out->stats = *br_sim_stats(sh->sim);
+    out->holds = !sh->dropped;
+    for (int k = 1; k < sh->c->n; k++)
+        out->holds = out->holds && br_sim_enabled(sh->sim, k);
+    rc = br_sim_run_until(sh->sim, (1 + o->check_periods) * sh->c->T, err);
+    sh->periods += 1 + o->check_periods;
+    br_sim_state(sh->sim, after);
+    out->drift = max_abs_diff(after + 1, x + 1, sh->c->n - 1) / (o->check_periods > 0 ? o->check_periods : 1);
+    memcpy(out->x, x, sizeof out->x);
+    return rc;
+}
+
+int br_steady_solve(const br_chain *c, int dir, const br_steady_opts *o, br_steady *out,
+                    br_error *err)
+{
+    br_steady_opts def;
+    if (!o) {
+        br_steady_opts_default(&def);
+        o = &def;
+    }
+    memset(out, 0, sizeof *out);
+    out->dir = dir;
+    shoot sh = {.c = c};
+    int rc = br_sim_create(c, dir, BR_INTEG_FAST, &sh.sim, err);
+    if (rc != BR_OK)
+        return rc;
+    br_sim_observer obs = {&sh, on_uvlo, NULL};
+    br_sim_set_observer(sh.sim, &obs);
+    br_timing tm;
+    br_timing_build(c, dir, &tm);
+    sh.phase = out->phase = br_steady_quiet_phase(c, &tm);
+    double x[NX], z[NX];
+    if (o->guess)
+        memcpy(x, o->guess, sizeof x);
+    else
+        estimate(c, x);
+    memcpy(sh.base, x, sizeof x);
+    map_unknowns(&sh);
+    for (int i = 0; i < sh.m; i++)
+        z[i] = x[sh.idx[i]];
+    rc = shoot_newton(&sh, z, o, out, err);
+    if (rc == BR_OK) {
+        out->method = BR_STEADY_SHOOTING;
+        out->converged = 1;
+        for (int i = 0; i < sh.m; i++)
+            x[sh.idx[i]] = z[i];
+    } else if (rc == BR_ENUMERIC) {
+        br_error_clear(err);
+        rc = plain(&sh, x, o, out, err);
+    }
+    if (rc == BR_OK)
+        rc = finish(&sh, x, o, out, err);
+    out->periods = sh.periods;
+    br_sim_free(sh.sim);
+    return rc;
+}

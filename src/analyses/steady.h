@@ -1,0 +1,50 @@
+/* steady.h - the periodic steady state of a running chain.
+ *
+ * Shooting: x* solves P(x) = x, P the one-period map of the rail voltages
+ * (and diode stored charges) taken at a quiet instant of the period.
+ * Newton's method with a finite-difference Jacobian, then Broyden updates;
+ * falls back to plain simulation when Newton fails; every answer is
+ * cross-checked by simulating further periods from it. */
+#ifndef BR_ANALYSES_STEADY_H
+#define BR_ANALYSES_STEADY_H
+
+#include "engine/sim.h"
+
+typedef enum br_steady_method {
+    BR_STEADY_SHOOTING = 0, /* Newton on the period map converged */
+    BR_STEADY_PLAIN = 1     /* plain simulation until the rails stopped moving */
+} br_steady_method;
+
+typedef struct br_steady {
+    int dir;              /* br_dir_index analysed */
+    int method;           /* br_steady_method */
+    int converged;        /* 1 when the residual met the tolerance */
+    int holds;            /* 1 when no driver dropped out over the period */
+    int iterations;       /* Newton/Broyden iterations */
+    long periods;         /* periods simulated in all */
+    double residual;      /* max |P(x) - x| over the rails, V */
+    double drift;         /* max rail change over the cross-check periods, V */
+    double phase;         /* where in the period x is taken, s */
+    double x[2 * BR_MAX_SWITCHES]; /* [k] rail k capacitor, [n + k] stored charge */
+    br_stats stats;       /* over one period from x */
+} br_steady;
+
+typedef struct br_steady_opts {
+    double tol;           /* residual target, V (default 1e-9) */
+    int max_iter;         /* Newton iterations (default 12) */
+    long max_plain;       /* periods of the plain fallback (default 400) */
+    int check_periods;    /* cross-check periods (default 3) */
+    const double *guess;  /* initial x, or NULL for a cold-start estimate */
+} br_steady_opts;
+
+void br_steady_opts_default(br_steady_opts *o);
+
+/* Solve the periodic steady state of c for current direction dir. */
+int br_steady_solve(const br_chain *c, int dir, const br_steady_opts *o, br_steady *out,
+                    br_error *err);
+
+/* A quiet instant of the period: as far as possible from every edge,
+ * gate pulse and ramp. */
+double br_steady_quiet_phase(const br_chain *c, const br_timing *tm);
+
+#endif
