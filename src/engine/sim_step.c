@@ -149,14 +149,18 @@ double br_sim_integrate(br_sim *s, double tb, int *status)
 {
     double t = s->t, k1[X_SIZE], y[X_SIZE], e[X_SIZE], kend[X_SIZE];
     int p = s->integ == BR_INTEG_REFERENCE ? 7 : 4;
-    double h = s->hlast > 0 ? s->hlast : (tb - t) / 8;
+    double h = s->hlast > 0 ? fmin(s->hlast, (tb - t) / 4) : (tb - t) / 8;
     *status = 0;
     if (tb - t < 1e-15) { /* an interval of rounding size: nothing moves */
         s->t = tb;
         return tb;
     }
     br_sim_rhs(s, t, s->x, k1);
+    /* short intervals are edges and gate pulses: currents peak inside
+     * them, so take several steps to see a UVLO dip through the ESR */
+    double hmax = tb - s->t < 100e-9 ? (tb - s->t) / 4 : tb - s->t;
     while (t < tb) {
+        h = fmin(h, hmax);
         if (h > tb - t || tb - t - h < 1e-15)
             h = tb - t;
         if (h < 1e-16 * fmax(1.0, fabs(t)) + 1e-18) {
