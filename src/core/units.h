@@ -1,0 +1,58 @@
+/* units.h - reading quantities with SI units ("4.7 uF", "85 C") into SI doubles.
+ *
+ * The caller says which kind of quantity it expects; the text may then give
+ * the value bare ("0.8", "1e-7"), with an SI prefix only ("4.7u", "10 m"), or
+ * with prefix and unit ("4.7 uF", "200 kHz", "10 mohm").  Prefixes: f p n u
+ * (also the micro sign) m k M G.  A unit that does not fit the kind is an
+ * error that says what was expected.  Temperatures need a unit (C or K) and
+ * come out in kelvin.
+ *
+ * Toleranced form (br_qty_parse), for any numeric attribute:
+ *   "2.2 uF +-10%"        symmetric, relative (also "±"); "12 V +-0.5 V" absolute
+ *   "2.2 uF +10%/-20%"    asymmetric
+ *   "0.6 V / 0.7 V / 0.8 V" or "0.6/0.7/0.8 V"   min / typ / max
+ * optionally followed by a distribution word, "uniform" (default) or
+ * "normal" (the limits are then +-3 sigma). */
+#ifndef BR_CORE_UNITS_H
+#define BR_CORE_UNITS_H
+
+#include "bootrung/bootrung.h"
+
+struct br_qty; /* model/design.h: a toleranced quantity */
+
+/* What the caller expects; decides the accepted units and the SI scale. */
+typedef enum br_kind {
+    BR_KIND_VOLTAGE = 0, /* V */
+    BR_KIND_CURRENT,     /* A */
+    BR_KIND_CAPACITANCE, /* F */
+    BR_KIND_FREQUENCY,   /* Hz */
+    BR_KIND_TIME,        /* s */
+    BR_KIND_RESISTANCE,  /* ohm; "10 m" is 10 milliohm */
+    BR_KIND_CHARGE,      /* C (coulomb) */
+    BR_KIND_TEMPERATURE, /* C (Celsius) or K, result in K; no bare numbers */
+    BR_KIND_TEMP_DELTA,  /* a temperature difference, K (C accepted) */
+    BR_KIND_FRACTION,    /* "80 %" or a plain number 0.8 */
+    BR_KIND_NUMBER,      /* dimensionless, a plain number */
+    BR_KIND_ENERGY_EV,   /* eV, kept in eV (bandgaps) */
+    BR_KIND_COUNT
+} br_kind;
+
+/* Sigma distance of the limits of a "normal" quantity. */
+#define BR_QTY_NSIG 3.0
+
+/* Parse one plain quantity (no tolerance) into SI.  On failure returns
+ * BR_EINPUT and sets err->msg (file, line and field are left empty for the
+ * caller to fill); *out is untouched. */
+int br_unit_parse(const char *text, br_kind kind, double *out, br_error *err);
+
+/* Parse a quantity with optional tolerance and distribution into q (q->line
+ * is set to 0).  Same error contract as br_unit_parse. */
+int br_qty_parse(const char *text, br_kind kind, struct br_qty *q, br_error *err);
+
+/* Words for messages: "a voltage like '12 V'". */
+const char *br_kind_expected(br_kind kind);
+
+/* Short name of the SI unit of a kind ("V", "ohm", "K", "" for numbers). */
+const char *br_kind_unit(br_kind kind);
+
+#endif

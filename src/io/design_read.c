@@ -1,0 +1,407 @@
+/* design_read.c - the frame of a design: operating point, supply,
+ * topology, stage assignment, start-up and analysis settings. */
+#include "core/error.h"
+#include "io/xml_read.h"
+
+#include <ctype.h>
+#include <math.h>
+#include <stdio.h>
+#include <string.h>
+
+static const br_range r_duty = {0.0, 1.0, 1, 1, "a duty strictly between 0 and 1"};
+static const br_range r_ambient = {173.15, 573.15, 0, 0, "a temperature from -100 C to 300 C"};
+static const br_range r_imbalance = {0.0, 1.0, 0, 1, "a fraction from 0 to below 1"};
+static const br_range r_overshoot = {0.0, 1.0, 0, 0, "a fraction from 0 to 1"};
+static const br_range r_period = {0.0, 1.0, 0, 0, "a fraction of the period from 0 to 1"};
+static const br_range r_derating = {0.0, 1.0, 1, 0, "a fraction in (0, 1]"};
+
+#define LIST_MAX 1024 /* a precharge switch list */
+
+/* ---- operating point and supply ------------------------------------------- */
+
+static int read_current(br_rd *r, xmlNode *n)
+{
+    static const struct {
+        const char *word;
+        int dir;
+    } dirs[] = {{"step-down", BR_DIR_STEP_DOWN},
+                {"step-up", BR_DIR_STEP_UP},
+                {"both", BR_DIR_BOTH},
+                {"none", BR_DIR_NONE}};
+    char v[32];
+    int has = br_xml_attr(n, "current", v, sizeof v);
+    if (has == 0)
+        return BR_OK;
+    for (size_t k = 0; has > 0 && k < sizeof dirs / sizeof dirs[0]; k++)
+        if (strcmp(v, dirs[k].word) == 0) {
+            r->d->direction = dirs[k].dir;
+            return BR_OK;
+        }
+    return br_rd_fail(r, n, "current", "got '%s', expected step-down, step-up, both or none",
+                      has > 0 ? v : "(too long)");
+}
+
+static int read_operating_point(br_rd *r, xmlNode *n)
+{
+    br_design *d = r->d;
+    BR_TRY(br_rd_qty(r, n, "vin", BR_KIND_VOLTAGE, &br_range_pos, &d->vin, NULL));
+    BR_TRY(br_rd_qty(r, n, "fsw", BR_KIND_FREQUENCY, &br_range_pos, &d->fsw, NULL));
+    BR_TRY(br_rd_qty(r, n, "duty", BR_KIND_FRACTION, &r_duty, &d->duty, NULL));
+    BR_TRY(br_rd_qty(r, n, "dead-time", BR_KIND_TIME, &br_range_nonneg, &d->deadtime, NULL));
+    BR_TRY(br_rd_qty(r, n, "ambient", BR_KIND_TEMPERATURE, &r_ambient, &d->tamb, NULL));
+    BR_TRY(read_current(r, n));
+    BR_TRY(br_rd_qty(r, n, "imbalance", BR_KIND_FRACTION, &r_imbalance, &d->imbalance, NULL));
+    BR_TRY(br_rd_qty(r, n, "edge-time", BR_KIND_TIME, &br_range_nonneg, &d->tedge, NULL));
+    return br_rd_qty(r, n, "overshoot", BR_KIND_FRACTION, &r_overshoot, &d->overshoot, NULL);
+}
+
+static int read_supply(br_rd *r, xmlNode *n)
+{
+    br_design *d = r->d;
+    BR_TRY(br_rd_qty(r, n, "voltage", BR_KIND_VOLTAGE, &br_range_pos, &d->vsupply, NULL));
+    BR_TRY(br_rd_qty(r, n, "resistance", BR_KIND_RESISTANCE, &br_range_nonneg, &d->rsupply, NULL));
+    BR_TRY(br_rd_qty(r, n, "ramp", BR_KIND_TIME, &br_range_nonneg, &d->tramp, NULL));
+    return br_rd_qty(r, n, "bypass", BR_KIND_CAPACITANCE, &br_range_nonneg, &d->csupply, NULL);
+}
+
+/* ---- topology --------------------------------------------------------------- */
+
+static int read_interval(br_rd *r, xmlNode *n, double iv[2])
+{
+    BR_TRY(br_rd_value(r, n, "from", BR_KIND_FRACTION, &r_period, &iv[0], NULL));
+    BR_TRY(br_rd_value(r, n, "to", BR_KIND_FRACTION, &r_period, &iv[1], NULL));
+    if (iv[0] == iv[1])
+        return br_rd_fail(r, n, "to",
+                          "equals from (an empty interval), expected to != from "
+                          "(to < from wraps past the end of the period)");
+    return BR_OK;
+}
+
+/* The <on> or <reverse> intervals of one string switch. */
+static int read_intervals(br_rd *r, xmlNode *n, const char *what, double iv[][2], int *count)
+{
+    int k = 0;
+    for (xmlNode *c = br_xml_child(n, what); c; c = br_xml_next(c, what), k++) {
+        if (k == BR_MAX_WINDOWS)
+            return br_rd_fail(r, c, NULL, "more than %d <%s> intervals, expected at most %d",
+                              BR_MAX_WINDOWS, what, BR_MAX_WINDOWS);
+        BR_TRY(read_interval(r, c, iv[k]));
+    }
+    *count = k;
+    return BR_OK;
+}
+
+static int is_word(const char *s)
+{
+    if (!*s)
+        return 0;
+    for (; *s; s++)
+        if (isspace((unsigned char)*s))
+            return 0;
+    return 1;
+}
+
+static int read_string_switch(br_rd *r, xmlNode *n, int k)
+{
+    br_switch_spec *s = &r->d->sw[k];
+    memset(s, 0, sizeof *s);
+    int has = br_xml_attr(n, "name", s->name, sizeof s->name);
+    if (has <= 0 || !is_word(s->name))
+        return br_rd_fail(r, n, "name", "expected one word of 1 to %d characters, no spaces",
+                          BR_ID_MAX - 1);
+    for (int j = 0; j < k; j++)
+        if (strcmp(r->d->sw[j].name, s->name) == 0)
+            return br_rd_fail(r, n, "name", "'%s' names two switches, expected unique names",
+                              s->name);
+    s->vblock = br_qty_fixed(0.0);
+    BR_TRY(br_rd_qty(r, n, "vblock", BR_KIND_VOLTAGE, &br_range_nonneg, &s->vblock, NULL));
+    BR_TRY(read_intervals(r, n, "on", s->on, &s->nwin));
+    BR_TRY(read_intervals(r, n, "reverse", s->rev, &s->nrev));
+    s->line = br_rd_line(r, n);
+    return BR_OK;
+}
+
+static int read_string(br_rd *r, xmlNode *n)
+{
+    int count = br_xml_count(n, "switch"), k = 0;
+    if (count < 2 || count > BR_MAX_SWITCHES)
+        return br_rd_fail(r, n, NULL, "%d switches, expected 2 to %d", count, BR_MAX_SWITCHES);
+    for (xmlNode *c = br_xml_child(n, "switch"); c; c = br_xml_next(c, "switch"), k++)
+        BR_TRY(read_string_switch(r, c, k));
+    r->d->topology = BR_TOPO_STRING;
+    r->d->nswitch = count;
+    return BR_OK;
+}
+
+static int read_topology(br_rd *r, xmlNode *n)
+{
+    xmlNode *c = br_xml_child(n, "fcml");
+    if (c) {
+        r->d->topology = BR_TOPO_FCML;
+        /* 33 levels: 64 switches, the widest precharge mask */
+        return br_rd_int(r, c, "levels", 2, (BR_MAX_SWITCHES / 2) + 1, &r->d->levels);
+    }
+    c = br_xml_child(n, "string");
+    if (!c)
+        return br_rd_fail(r, n, NULL, "expected <fcml> or <string>");
+    return read_string(r, c);
+}
+
+/* ---- stage assignment --------------------------------------------------------- */
+
+typedef enum part_kind { PK_DIODE, PK_CAP, PK_DRIVER, PK_SWITCH, PK_AUX } part_kind;
+
+static const char *const kind_word[] = {"diode", "capacitor", "driver", "switch",
+                                        "regulator or clamp"};
+
+static const char *part_id(const br_design *d, part_kind k, int i)
+{
+    switch (k) {
+    case PK_DIODE:
+        return i < d->ndiodes ? d->diodes[i].id : NULL;
+    case PK_CAP:
+        return i < d->ncaps ? d->caps[i].id : NULL;
+    case PK_DRIVER:
+        return i < d->ndrivers ? d->drivers[i].id : NULL;
+    case PK_SWITCH:
+        return i < d->nswitches ? d->switches[i].id : NULL;
+    case PK_AUX:
+        return i < d->naux ? d->aux[i].id : NULL;
+    }
+    return NULL;
+}
+
+static int find_part(const br_design *d, part_kind k, const char *id)
+{
+    const char *p;
+    for (int i = 0; (p = part_id(d, k, i)) != NULL; i++)
+        if (strcmp(p, id) == 0)
+            return i;
+    return -1;
+}
+
+/* "d1, d2" (the ids of one kind), for messages. */
+static void id_list(const br_design *d, part_kind k, char *buf, size_t cap)
+{
+    const char *p;
+    size_t n = 0;
+    buf[0] = '\0';
+    for (int i = 0; (p = part_id(d, k, i)) != NULL && n < cap; i++)
+        n += (size_t)snprintf(buf + n, cap - n, "%s%s", i ? ", " : "", p);
+    if (n == 0)
+        snprintf(buf, cap, "none defined");
+}
+
+static int unknown_part(br_rd *r, xmlNode *n, const char *attr, part_kind k, const char *id)
+{
+    char ids[256];
+    for (int o = PK_DIODE; o <= PK_AUX; o++)
+        if (o != (int)k && find_part(r->d, (part_kind)o, id) >= 0)
+            return br_rd_fail(r, n, attr, "'%s' is a %s, expected the id of a %s", id, kind_word[o],
+                              kind_word[k]);
+    id_list(r->d, k, ids, sizeof ids);
+    return br_rd_fail(r, n, attr,
+                      "unknown part id '%s', expected the id of a %s in <parts> "
+                      "(%s)",
+                      id, kind_word[k], ids);
+}
+
+/* Point *idx at the part named by attribute attr (left alone if absent). */
+static int resolve(br_rd *r, xmlNode *n, const char *attr, part_kind k, int *idx)
+{
+    char id[BR_ID_MAX];
+    int has = br_xml_attr(n, attr, id, sizeof id);
+    if (has == 0)
+        return BR_OK;
+    if (has > 0 && k == PK_AUX && strcmp(id, "none") == 0) {
+        *idx = -1;
+        return BR_OK;
+    }
+    int i = has > 0 ? find_part(r->d, k, id) : -1;
+    if (i < 0)
+        return unknown_part(r, n, attr, k, has > 0 ? id : "(too long)");
+    *idx = i;
+    return BR_OK;
+}
+
+static int read_assignment(br_rd *r, xmlNode *n, br_stage_spec *s)
+{
+    BR_TRY(resolve(r, n, "diode", PK_DIODE, &s->diode));
+    BR_TRY(resolve(r, n, "capacitor", PK_CAP, &s->cap));
+    BR_TRY(resolve(r, n, "driver", PK_DRIVER, &s->driver));
+    BR_TRY(resolve(r, n, "switch", PK_SWITCH, &s->sw));
+    BR_TRY(resolve(r, n, "rail-extra", PK_AUX, &s->aux));
+    return br_rd_qty(r, n, "link-resistor", BR_KIND_RESISTANCE, &br_range_nonneg, &s->r_link, NULL);
+}
+
+static int read_override(br_rd *r, xmlNode *n)
+{
+    br_design *d = r->d;
+    int k, nsw = br_design_nswitch(d);
+    BR_TRY(br_rd_int(r, n, "index", 0, nsw - 1, &k));
+    if (d->has_override[k])
+        return br_rd_fail(r, n, "index",
+                          "stage %d is overridden twice (first on line %d), "
+                          "expected one <stage> per index",
+                          k, d->stage[k].line);
+    d->stage[k] = d->def;
+    BR_TRY(read_assignment(r, n, &d->stage[k]));
+    d->stage[k].line = br_rd_line(r, n);
+    d->has_override[k] = 1;
+    return BR_OK;
+}
+
+static int read_stages(br_rd *r, xmlNode *n)
+{
+    BR_TRY(read_assignment(r, n, &r->d->def));
+    for (xmlNode *c = br_xml_child(n, "stage"); c; c = br_xml_next(c, "stage"))
+        BR_TRY(read_override(r, c));
+    return BR_OK;
+}
+
+/* ---- start-up ------------------------------------------------------------------ */
+
+/* Name of switch s from the bottom: B1..BP then AP..A1 for an FCML leg. */
+static void switch_name(const br_design *d, int s, char *buf, size_t cap)
+{
+    int p = d->levels - 1;
+    if (d->topology == BR_TOPO_STRING)
+        snprintf(buf, cap, "%s", d->sw[s].name);
+    else if (s < p)
+        snprintf(buf, cap, "B%d", s + 1);
+    else
+        snprintf(buf, cap, "A%d", 2 * p - s);
+}
+
+static int find_switch(const br_design *d, const char *name)
+{
+    char sn[BR_ID_MAX];
+    for (int s = 0; s < br_design_nswitch(d); s++) {
+        switch_name(d, s, sn, sizeof sn);
+        if (strcmp(sn, name) == 0)
+            return s;
+    }
+    return -1;
+}
+
+static int unknown_switch(br_rd *r, xmlNode *n, const char *name)
+{
+    char names[256], sn[BR_ID_MAX];
+    size_t len = 0;
+    names[0] = '\0';
+    for (int s = 0; s < br_design_nswitch(r->d) && len < sizeof names; s++) {
+        switch_name(r->d, s, sn, sizeof sn);
+        len += (size_t)snprintf(names + len, sizeof names - len, "%s%s", s ? " " : "", sn);
+    }
+    return br_rd_fail(r, n, "switches", "unknown switch '%s', expected names from: %s", name,
+                      names);
+}
+
+static int read_mask(br_rd *r, xmlNode *n, unsigned long long *mask)
+{
+    char list[LIST_MAX];
+    if (br_xml_attr(n, "switches", list, sizeof list) < 0)
+        return br_rd_fail(r, n, "switches", "list too long");
+    *mask = 0;
+    for (char *save = NULL, *t = strtok_r(list, " \t\r\n", &save); t;
+         t = strtok_r(NULL, " \t\r\n", &save)) {
+        int s = find_switch(r->d, t);
+        if (s < 0)
+            return unknown_switch(r, n, t);
+        *mask |= 1ULL << s;
+    }
+    if (*mask == 0)
+        return br_rd_fail(r, n, "switches", "empty, expected switch names like 'B1 B2'");
+    return BR_OK;
+}
+
+static int read_startup(br_rd *r, xmlNode *n)
+{
+    br_design *d = r->d;
+    int k = 0;
+    for (xmlNode *c = br_xml_child(n, "precharge"); c; c = br_xml_next(c, "precharge"), k++) {
+        if (k == BR_MAX_PRECHARGE)
+            return br_rd_fail(r, c, NULL, "more than %d precharge steps, expected at most %d",
+                              BR_MAX_PRECHARGE, BR_MAX_PRECHARGE);
+        br_precharge *p = &d->precharge[k];
+        BR_TRY(read_mask(r, c, &p->mask));
+        BR_TRY(br_rd_value(r, c, "duration", BR_KIND_TIME, &br_range_pos, &p->duration, NULL));
+        p->line = br_rd_line(r, c);
+    }
+    d->nprecharge = k;
+    return BR_OK;
+}
+
+static int read_analysis(br_rd *r, xmlNode *n)
+{
+    br_design *d = r->d;
+    BR_TRY(br_rd_qty(r, n, "min-drive", BR_KIND_VOLTAGE, &br_range_nonneg, &d->min_drive, NULL));
+    BR_TRY(br_rd_qty(r, n, "derating", BR_KIND_FRACTION, &r_derating, &d->derating, NULL));
+    return br_rd_qty(r, n, "max-startup", BR_KIND_TIME, &br_range_pos, &d->startup_max, NULL);
+}
+
+/* ---- checks across elements ------------------------------------------------------ */
+
+/* The bottom switch of an FCML pair is on for (1-D)T minus a dead time at
+ * each edge; at the worst corner that must stay positive. */
+static int check_dead_time(br_rd *r, xmlNode *op)
+{
+    const br_design *d = r->d;
+    if (d->topology != BR_TOPO_FCML || !op)
+        return BR_OK;
+    double tmin = 1.0 / d->fsw.max;
+    double on = fmin(d->duty.min, 1.0 - d->duty.max) * tmin;
+    if (2.0 * d->deadtime.max < on)
+        return BR_OK;
+    return br_rd_fail(r, op, "dead-time",
+                      "two dead times (2 x %g s) use up the shortest on-time (%g s at duty "
+                      "%g..%g and %g Hz), expected dead-time < %g s",
+                      d->deadtime.max, on, d->duty.min, d->duty.max, d->fsw.max, on / 2.0);
+}
+
+/* A stage needs parts of every kind; the <stages> defaults name them. */
+static int check_parts_present(br_rd *r, xmlNode *parts)
+{
+    static const struct {
+        part_kind k;
+        const char *element;
+    } need[] = {
+        {PK_DIODE, "diode"}, {PK_CAP, "capacitor"}, {PK_DRIVER, "driver"}, {PK_SWITCH, "switch"}};
+    for (size_t i = 0; i < sizeof need / sizeof need[0]; i++)
+        if (!part_id(r->d, need[i].k, 0))
+            return br_rd_fail(r, parts, NULL, "no <%s> defined, expected at least one",
+                              need[i].element);
+    return BR_OK;
+}
+
+/* ---- the whole design --------------------------------------------------------- */
+
+static int read_header(br_rd *r, xmlNode *root)
+{
+    char version[16];
+    if (br_xml_attr(root, "version", version, sizeof version) <= 0 || strcmp(version, "1") != 0)
+        return br_rd_fail(r, root, "version", "unsupported, expected version=\"1\"");
+    if (br_xml_attr(root, "name", r->d->name, sizeof r->d->name) < 0)
+        return br_rd_fail(r, root, "name", "longer than %zu characters", sizeof r->d->name - 1);
+    return BR_OK;
+}
+
+int br_rd_design(br_rd *r, xmlNode *root)
+{
+    xmlNode *op = br_xml_child(root, "operating-point");
+    xmlNode *parts = br_xml_child(root, "parts");
+    xmlNode *n;
+    BR_TRY(read_header(r, root));
+    BR_TRY(read_operating_point(r, op));
+    BR_TRY(read_supply(r, br_xml_child(root, "supply")));
+    BR_TRY(read_topology(r, br_xml_child(root, "topology")));
+    BR_TRY(check_dead_time(r, op));
+    BR_TRY(br_rd_parts(r, parts));
+    BR_TRY(check_parts_present(r, parts));
+    BR_TRY(read_stages(r, br_xml_child(root, "stages")));
+    if ((n = br_xml_child(root, "startup")) != NULL)
+        BR_TRY(read_startup(r, n));
+    if ((n = br_xml_child(root, "analysis")) != NULL)
+        BR_TRY(read_analysis(r, n));
+    return BR_OK;
+}

@@ -1,0 +1,319 @@
+/* parts_read.c - the <parts> library: diodes, capacitors, drivers,
+ * switches, regulators and clamps, each defined once by id. */
+#include "core/error.h"
+#include "io/forward_fit.h"
+#include "io/xml_read.h"
+
+#include <ctype.h>
+#include <math.h>
+#include <string.h>
+
+static const br_range r_is = {0.0, 1.0, 1, 1, "a saturation current > 0 and < 1 A"};
+static const br_range r_n = {0.5, 10.0, 0, 0, "an emission coefficient from 0.5 to 10"};
+static const br_range r_m = {0.0, 1.0, 1, 1, "a grading coefficient strictly between 0 and 1"};
+static const br_range r_eg = {0.1, 10.0, 0, 0, "a bandgap from 0.1 eV to 10 eV"};
+static const br_range r_xti = {-50.0, 50.0, 0, 0, "a number from -50 to 50"};
+static const br_range r_temp = {173.15, 573.15, 0, 0, "a temperature from -100 C to 300 C"};
+static const br_range r_tfactor = {0.0, 2.0, 1, 0, "a factor in (0, 2]"};
+static const br_range r_unit = {0.0, 1.0, 1, 0, "a factor in (0, 1]"};
+
+/* ---- ids -------------------------------------------------------------------- */
+
+/* Kind of part that already uses id, or NULL. */
+static const char *id_owner(const br_design *d, const char *id)
+{
+    for (int k = 0; k < d->ndiodes; k++)
+        if (strcmp(d->diodes[k].id, id) == 0)
+            return "diode";
+    for (int k = 0; k < d->ncaps; k++)
+        if (strcmp(d->caps[k].id, id) == 0)
+            return "capacitor";
+    for (int k = 0; k < d->ndrivers; k++)
+        if (strcmp(d->drivers[k].id, id) == 0)
+            return "driver";
+    for (int k = 0; k < d->nswitches; k++)
+        if (strcmp(d->switches[k].id, id) == 0)
+            return "switch";
+    for (int k = 0; k < d->naux; k++)
+        if (strcmp(d->aux[k].id, id) == 0)
+            return d->aux[k].kind == BR_AUX_LDO ? "regulator" : "clamp";
+    return NULL;
+}
+
+static int read_id(br_rd *r, xmlNode *n, char id[BR_ID_MAX])
+{
+    int has = br_xml_attr(n, "id", id, BR_ID_MAX);
+    if (has <= 0 || id[0] == '\0')
+        return br_rd_fail(r, n, "id", "%s, expected a name of 1 to %d characters",
+                          has < 0 ? "too long" : "missing or empty", BR_ID_MAX - 1);
+    for (const char *p = id; *p; p++)
+        if (isspace((unsigned char)*p))
+            return br_rd_fail(r, n, "id", "'%s' contains a space, expected one word", id);
+    if (strcmp(id, "none") == 0) /* rail-extra="none" means no extra part */
+        return br_rd_fail(r, n, "id", "'none' is reserved, expected another id");
+    const char *owner = id_owner(r->d, id);
+    if (owner)
+        return br_rd_fail(r, n, "id", "'%s' is already the id of a %s, expected a new id", id,
+                          owner);
+    return BR_OK;
+}
+
+static int room(br_rd *r, xmlNode *n, int count, const char *what)
+{
+    if (count >= BR_MAX_PARTS)
+        return br_rd_fail(r, n, NULL, "more than %d %s parts, expected at most %d", BR_MAX_PARTS,
+                          what, BR_MAX_PARTS);
+    return BR_OK;
+}
+
+/* ---- diodes ------------------------------------------------------------------ */
+
+/* tau directly, or from recovery figures: tau = qrr / if (charge control,
+ * Lauritzen & Ma, IEEE Trans. Power Electronics 6(2), 1991). */
+static int read_recovery(br_rd *r, xmlNode *n, br_diode_part *p)
+{
+    int has_tau, has_qrr, has_if;
+    br_qty qrr = br_qty_fixed(0.0);
+    double ifwd = 0.0;
+    BR_TRY(br_rd_qty(r, n, "tau", BR_KIND_TIME, &br_range_nonneg, &p->tau, &has_tau));
+    BR_TRY(br_rd_qty(r, n, "qrr", BR_KIND_CHARGE, &br_range_nonneg, &qrr, &has_qrr));
+    BR_TRY(br_rd_value(r, n, "if", BR_KIND_CURRENT, &br_range_pos, &ifwd, &has_if));
+    if (has_tau && has_qrr)
+        return br_rd_fail(r, n, "qrr", "tau is given too, expected either tau or qrr with if");
+    if (has_qrr != has_if)
+        return br_rd_fail(r, n, has_qrr ? "if" : "qrr",
+                          "qrr and if go together, expected both: the recovery charge qrr "
+                          "and the forward current if it was measured after");
+    if (has_qrr) {
+        p->tau = qrr;
+        p->tau.nom /= ifwd;
+        p->tau.min /= ifwd;
+        p->tau.max /= ifwd;
+    }
+    return BR_OK;
+}
+
+static int read_point(br_rd *r, xmlNode *f, double *i, double *v, int k)
+{
+    BR_TRY(br_rd_value(r, f, "i", BR_KIND_CURRENT, &br_range_pos, i, NULL));
+    BR_TRY(br_rd_value(r, f, "v", BR_KIND_VOLTAGE, &br_range_pos, v, NULL));
+    if (k > 0 && !(i[0] > i[-1]))
+        return br_rd_fail(r, f, "i", "%g A after %g A, expected currents that ascend", i[0], i[-1]);
+    if (k > 0 && !(v[0] > v[-1]))
+        return br_rd_fail(r, f, "v",
+                          "%g V after %g V, expected voltages that rise with the "
+                          "current",
+                          v[0], v[-1]);
+    return BR_OK;
+}
+
+static int read_forward(br_rd *r, xmlNode *n, br_diode_part *p)
+{
+    static const char *const law[] = {"is", "n", "rs", NULL};
+    double i[BR_FIT_MAX], v[BR_FIT_MAX], is, nn, rs;
+    char why[160];
+    int k = 0, npts = br_xml_count(n, "forward");
+    for (int j = 0; law[j]; j++)
+        if (xmlHasProp(n, BAD_CAST law[j]))
+            return br_rd_fail(r, n, law[j],
+                              "<forward> points are given too, expected either "
+                              "is, n, rs or forward points");
+    if (npts < 3 || npts > BR_FIT_MAX)
+        return br_rd_fail(r, n, "forward", "%d points, expected 3 to %d to fit is, n and rs", npts,
+                          BR_FIT_MAX);
+    for (xmlNode *f = br_xml_child(n, "forward"); f; f = br_xml_next(f, "forward"), k++)
+        BR_TRY(read_point(r, f, i + k, v + k, k));
+    if (br_forward_fit(i, v, npts, br_thermal_voltage(p->tnom), &is, &nn, &rs, why, sizeof why))
+        return br_rd_fail(r, n, "forward", "cannot fit a diode law: %s", why);
+    if (!(nn >= r_n.lo && nn <= r_n.hi))
+        return br_rd_fail(r, n, "forward", "the points fit n = %.3g, expected %s", nn, r_n.expect);
+    int line = br_rd_line(r, br_xml_child(n, "forward"));
+    p->is = br_qty_fixed(is);
+    p->n = br_qty_fixed(nn);
+    p->rs = br_qty_fixed(rs);
+    p->is.line = p->n.line = p->rs.line = line;
+    return BR_OK;
+}
+
+static int read_diode_law(br_rd *r, xmlNode *n, br_diode_part *p)
+{
+    BR_TRY(br_rd_value(r, n, "ref-temp", BR_KIND_TEMPERATURE, &r_temp, &p->tnom, NULL));
+    if (br_xml_child(n, "forward"))
+        return read_forward(r, n, p);
+    BR_TRY(br_rd_qty(r, n, "is", BR_KIND_CURRENT, &r_is, &p->is, NULL));
+    BR_TRY(br_rd_qty(r, n, "n", BR_KIND_NUMBER, &r_n, &p->n, NULL));
+    return br_rd_qty(r, n, "rs", BR_KIND_RESISTANCE, &br_range_nonneg, &p->rs, NULL);
+}
+
+static int read_diode(br_rd *r, xmlNode *n)
+{
+    br_design *d = r->d;
+    BR_TRY(room(r, n, d->ndiodes, "diode"));
+    br_diode_part *p = &d->diodes[d->ndiodes];
+    memset(p, 0, sizeof *p);
+    br_diode_part_defaults(p);
+    BR_TRY(read_id(r, n, p->id));
+    p->line = br_rd_line(r, n);
+    BR_TRY(read_diode_law(r, n, p));
+    BR_TRY(br_rd_qty(r, n, "cj0", BR_KIND_CAPACITANCE, &br_range_nonneg, &p->cj0, NULL));
+    BR_TRY(br_rd_qty(r, n, "vj", BR_KIND_VOLTAGE, &br_range_pos, &p->vj, NULL));
+    BR_TRY(br_rd_qty(r, n, "m", BR_KIND_NUMBER, &r_m, &p->m, NULL));
+    BR_TRY(read_recovery(r, n, p));
+    BR_TRY(br_rd_qty(r, n, "eg", BR_KIND_ENERGY_EV, &r_eg, &p->eg, NULL));
+    BR_TRY(br_rd_qty(r, n, "xti", BR_KIND_NUMBER, &r_xti, &p->xti, NULL));
+    BR_TRY(br_rd_qty(r, n, "ir", BR_KIND_CURRENT, &br_range_nonneg, &p->ir, NULL));
+    BR_TRY(br_rd_qty(r, n, "ir-temp", BR_KIND_TEMPERATURE, &r_temp, &p->ir_temp, NULL));
+    BR_TRY(br_rd_qty(r, n, "ir-doubling", BR_KIND_TEMP_DELTA, &br_range_pos, &p->ir_double, NULL));
+    BR_TRY(br_rd_qty(r, n, "vrrm", BR_KIND_VOLTAGE, &br_range_nonneg, &p->vrrm, NULL));
+    BR_TRY(br_rd_qty(r, n, "ifsm", BR_KIND_CURRENT, &br_range_nonneg, &p->ifsm, NULL));
+    d->ndiodes++;
+    return BR_OK;
+}
+
+/* ---- capacitors ------------------------------------------------------------- */
+
+static int read_bias(br_rd *r, xmlNode *n, br_cap_part *p)
+{
+    int k = 0;
+    if (br_xml_count(n, "bias") > BR_MAX_BIAS_POINTS)
+        return br_rd_fail(r, n, "bias", "%d points, expected at most %d", br_xml_count(n, "bias"),
+                          BR_MAX_BIAS_POINTS);
+    for (xmlNode *b = br_xml_child(n, "bias"); b; b = br_xml_next(b, "bias"), k++) {
+        BR_TRY(br_rd_value(r, b, "v", BR_KIND_VOLTAGE, &br_range_nonneg, &p->bias_v[k], NULL));
+        BR_TRY(br_rd_value(r, b, "factor", BR_KIND_FRACTION, &r_unit, &p->bias_f[k], NULL));
+        if (k > 0 && !(p->bias_v[k] > p->bias_v[k - 1]))
+            return br_rd_fail(r, b, "v", "%g V after %g V, expected bias points ascending in v",
+                              p->bias_v[k], p->bias_v[k - 1]);
+    }
+    p->nbias = k;
+    return BR_OK;
+}
+
+static int read_capacitor(br_rd *r, xmlNode *n)
+{
+    static const br_range r_c = {0.0, INFINITY, 1, 1, "a capacitance > 0"};
+    br_design *d = r->d;
+    BR_TRY(room(r, n, d->ncaps, "capacitor"));
+    br_cap_part *p = &d->caps[d->ncaps];
+    memset(p, 0, sizeof *p);
+    br_cap_part_defaults(p);
+    BR_TRY(read_id(r, n, p->id));
+    p->line = br_rd_line(r, n);
+    BR_TRY(br_rd_qty(r, n, "c", BR_KIND_CAPACITANCE, &r_c, &p->c, NULL));
+    BR_TRY(br_rd_qty(r, n, "esr", BR_KIND_RESISTANCE, &br_range_nonneg, &p->esr, NULL));
+    BR_TRY(br_rd_qty(r, n, "rating", BR_KIND_VOLTAGE, &br_range_pos, &p->vrated, NULL));
+    BR_TRY(br_rd_qty(r, n, "temp-factor", BR_KIND_FRACTION, &r_tfactor, &p->tfactor, NULL));
+    BR_TRY(br_rd_qty(r, n, "aging", BR_KIND_FRACTION, &r_unit, &p->aging, NULL));
+    BR_TRY(read_bias(r, n, p));
+    d->ncaps++;
+    return BR_OK;
+}
+
+/* ---- drivers and switches ------------------------------------------------- */
+
+static int read_driver(br_rd *r, xmlNode *n)
+{
+    br_design *d = r->d;
+    BR_TRY(room(r, n, d->ndrivers, "driver"));
+    br_driver_part *p = &d->drivers[d->ndrivers];
+    memset(p, 0, sizeof *p);
+    br_driver_part_defaults(p);
+    BR_TRY(read_id(r, n, p->id));
+    p->line = br_rd_line(r, n);
+    BR_TRY(br_rd_qty(r, n, "uvlo-rise", BR_KIND_VOLTAGE, &br_range_nonneg, &p->uvlo_rise, NULL));
+    BR_TRY(br_rd_qty(r, n, "uvlo-fall", BR_KIND_VOLTAGE, &br_range_nonneg, &p->uvlo_fall, NULL));
+    BR_TRY(br_rd_qty(r, n, "iq-run", BR_KIND_CURRENT, &br_range_nonneg, &p->iq_on, NULL));
+    BR_TRY(br_rd_qty(r, n, "iq-uvlo", BR_KIND_CURRENT, &br_range_nonneg, &p->iq_off, NULL));
+    BR_TRY(br_rd_qty(r, n, "iq-isolator", BR_KIND_CURRENT, &br_range_nonneg, &p->i_iso, NULL));
+    /* no thresholds at all means no UVLO; otherwise they need hysteresis */
+    if ((p->uvlo_rise.nom > 0.0 || p->uvlo_fall.nom > 0.0) &&
+        !(p->uvlo_fall.nom < p->uvlo_rise.nom))
+        return br_rd_fail(r, n, "uvlo-fall",
+                          "%g V is not below uvlo-rise %g V, expected falling < rising",
+                          p->uvlo_fall.nom, p->uvlo_rise.nom);
+    d->ndrivers++;
+    return BR_OK;
+}
+
+static int read_switch(br_rd *r, xmlNode *n)
+{
+    br_design *d = r->d;
+    BR_TRY(room(r, n, d->nswitches, "switch"));
+    br_switch_part *p = &d->switches[d->nswitches];
+    memset(p, 0, sizeof *p);
+    br_switch_part_defaults(p);
+    BR_TRY(read_id(r, n, p->id));
+    p->line = br_rd_line(r, n);
+    BR_TRY(br_rd_qty(r, n, "rds-on", BR_KIND_RESISTANCE, &br_range_nonneg, &p->rds_on, NULL));
+    BR_TRY(br_rd_qty(r, n, "qg", BR_KIND_CHARGE, &br_range_nonneg, &p->qg, NULL));
+    BR_TRY(br_rd_qty(r, n, "qg-at", BR_KIND_VOLTAGE, &br_range_nonneg, &p->qg_v, NULL));
+    BR_TRY(br_rd_qty(r, n, "gate-pulse", BR_KIND_TIME, &br_range_pos, &p->tg, NULL));
+    BR_TRY(br_rd_qty(r, n, "vsd", BR_KIND_VOLTAGE, &br_range_nonneg, &p->vsd, NULL));
+    BR_TRY(br_rd_qty(r, n, "vgs-rec", BR_KIND_VOLTAGE, &br_range_nonneg, &p->vgs_rec, NULL));
+    BR_TRY(br_rd_qty(r, n, "vgs-max", BR_KIND_VOLTAGE, &br_range_nonneg, &p->vgs_max, NULL));
+    if (p->vgs_max.nom > 0.0 && p->vgs_rec.nom > p->vgs_max.nom)
+        return br_rd_fail(r, n, "vgs-rec",
+                          "%g V is above vgs-max %g V, expected vgs-rec <= "
+                          "vgs-max",
+                          p->vgs_rec.nom, p->vgs_max.nom);
+    d->nswitches++;
+    return BR_OK;
+}
+
+/* ---- regulators and clamps ------------------------------------------------ */
+
+static int read_aux(br_rd *r, xmlNode *n, int kind)
+{
+    br_design *d = r->d;
+    BR_TRY(room(r, n, d->naux, kind == BR_AUX_LDO ? "regulator" : "clamp"));
+    br_aux_part *p = &d->aux[d->naux];
+    memset(p, 0, sizeof *p);
+    br_aux_part_defaults(p);
+    BR_TRY(read_id(r, n, p->id));
+    p->line = br_rd_line(r, n);
+    p->kind = kind;
+    if (kind == BR_AUX_LDO) {
+        BR_TRY(br_rd_qty(r, n, "vout", BR_KIND_VOLTAGE, &br_range_pos, &p->vout, NULL));
+        BR_TRY(br_rd_qty(r, n, "dropout", BR_KIND_VOLTAGE, &br_range_nonneg, &p->dropout, NULL));
+        BR_TRY(br_rd_qty(r, n, "iq", BR_KIND_CURRENT, &br_range_nonneg, &p->iq, NULL));
+    } else {
+        BR_TRY(br_rd_qty(r, n, "vz", BR_KIND_VOLTAGE, &br_range_pos, &p->vout, NULL));
+        BR_TRY(br_rd_qty(r, n, "rz", BR_KIND_RESISTANCE, &br_range_nonneg, &p->rz, NULL));
+    }
+    d->naux++;
+    return BR_OK;
+}
+
+static int read_regulator(br_rd *r, xmlNode *n)
+{
+    return read_aux(r, n, BR_AUX_LDO);
+}
+static int read_clamp(br_rd *r, xmlNode *n)
+{
+    return read_aux(r, n, BR_AUX_ZENER);
+}
+
+typedef struct part_reader {
+    const char *element;
+    int (*read)(br_rd *r, xmlNode *n);
+} part_reader;
+
+static const part_reader readers[] = {
+    {"diode", read_diode},   {"capacitor", read_capacitor}, {"driver", read_driver},
+    {"switch", read_switch}, {"regulator", read_regulator}, {"clamp", read_clamp},
+};
+
+static int read_part(br_rd *r, xmlNode *n)
+{
+    for (size_t k = 0; k < sizeof readers / sizeof readers[0]; k++)
+        if (xmlStrcmp(n->name, BAD_CAST readers[k].element) == 0)
+            return readers[k].read(r, n);
+    return br_rd_fail(r, n, NULL, "unknown part <%s>", (const char *)n->name); /* schema: never */
+}
+
+int br_rd_parts(br_rd *r, xmlNode *parts)
+{
+    for (xmlNode *n = br_xml_child(parts, NULL); n; n = br_xml_next(n, NULL))
+        BR_TRY(read_part(r, n));
+    return BR_OK;
+}
