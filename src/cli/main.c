@@ -1,2 +1,95 @@
-#include "bootrung/bootrung.h"
-int main(void) { return 0; }
+/* main.c - bootrung's entry point: one table of verbs and the dispatch.
+ *
+ * Adding a verb: write cmd_<verb>.c exporting cmd_<verb>(argc, argv),
+ * declare it in cli.h and add one row to `verbs` below. */
+#include "cli.h"
+
+#include <gsl/gsl_errno.h>
+#include <string.h>
+
+#ifndef BR_VERSION
+#define BR_VERSION "unknown"
+#endif
+
+typedef struct br_verb {
+    const char *name;                 /* what the user types */
+    int (*fn)(int argc, char **argv); /* argv[0] is the verb; returns the exit status */
+    const char *summary;              /* one line for the verb list */
+} br_verb;
+
+static const br_verb verbs[] = {
+    {"check", cmd_check, "print a design's chain and the design-rule warnings"},
+    {NULL, NULL, NULL},
+};
+
+static const br_verb *find_verb(const char *name)
+{
+    for (const br_verb *v = verbs; v->name; v++)
+        if (strcmp(v->name, name) == 0)
+            return v;
+    return NULL;
+}
+
+static int main_help(FILE *f)
+{
+    fprintf(f, "usage: bootrung [--version] [--help] VERB [options] [ARGS]\n\n"
+               "bootrung models a cascaded bootstrap gate-drive chain (a string of stacked\n"
+               "switches whose floating driver supplies are charged rung by rung through\n"
+               "diodes from one ground-referenced supply) from an XML design file.\n\n"
+               "verbs:\n");
+    for (const br_verb *v = verbs; v->name; v++)
+        fprintf(f, "  %-10s %s\n", v->name, v->summary);
+    fprintf(f, "\n'bootrung help VERB' or 'bootrung VERB --help' describes a verb.\n"
+               "exit status: 0 done and every criterion passes, 1 a design criterion fails,\n"
+               "2 bad input, bad usage or an output error.\n");
+    return BR_EXIT_OK;
+}
+
+static int version(void)
+{
+    printf("bootrung %s\n"
+           "License GPL-3.0-or-later: GNU GPL version 3 or later.\n"
+           "This is free software; there is NO WARRANTY, to the extent permitted by law.\n",
+           BR_VERSION);
+    return BR_EXIT_OK;
+}
+
+/* "bootrung help [VERB]": run the verb with --help so each verb owns its
+ * text in one place. */
+static int help(int argc, char **argv)
+{
+    if (argc < 2)
+        return main_help(stdout);
+    const br_verb *v = find_verb(argv[1]);
+    if (!v)
+        return br_cli_usage_error(NULL, "no verb '%s'", argv[1]);
+    char *args[] = {argv[1], "--help", NULL};
+    return v->fn(2, args);
+}
+
+static int dispatch(int argc, char **argv)
+{
+    if (argc < 2) {
+        main_help(stderr);
+        return BR_EXIT_INPUT;
+    }
+    const char *a = argv[1];
+    if (strcmp(a, "--help") == 0 || strcmp(a, "-h") == 0)
+        return main_help(stdout);
+    if (strcmp(a, "--version") == 0)
+        return version();
+    if (strcmp(a, "help") == 0)
+        return help(argc - 1, argv + 1);
+    const br_verb *v = find_verb(a);
+    if (!v)
+        return br_cli_usage_error(NULL, "unknown verb '%s'", a);
+    return v->fn(argc - 1, argv + 1);
+}
+
+int main(int argc, char **argv)
+{
+    /* The library checks every GSL status itself; GSL's default handler
+     * would abort the process instead of letting us report. */
+    gsl_set_error_handler_off();
+    return br_cli_finish(dispatch(argc, argv));
+}

@@ -82,7 +82,9 @@ static double cj_current(const br_sim *s, int k, double u, double f)
     return -br_diode_cj(d, -vj) * s->seg.dslope[k] / (1.0 + r * gj);
 }
 
-/* Newton on r_k(i) = i_k - f_k(u_k(i)) - icj_k over the active links. */
+/* Newton on r_k(i) = i_k - f_k(u_k(i)) - icj_k over the active links.
+ * Newton converges quadratically, so once an update is tiny the residual
+ * after it is negligible and needs no further evaluation. */
 static void solve_links(br_sim *s, double t, const double *x)
 {
     const br_seg *g = &s->seg;
@@ -91,9 +93,8 @@ static void solve_links(br_sim *s, double t, const double *x)
     for (int k = 1; k < n; k++)
         if (!g->active[k])
             s->il[k] = g->iblk[k];
-    for (int it = 0; it < 50; it++) {
+    for (int it = 0; it < 50 && g->nactive > 0; it++) {
         rail_voltages(s, t, x);
-        double worst = 0.0;
         for (int k = 1; k < n; k++) {
             a[k] = cc[k] = 0.0;
             if (!g->active[k]) {
@@ -112,23 +113,22 @@ static void solve_links(br_sim *s, double t, const double *x)
                 a[k] = -gd * el;
             if (k + 1 < n && g->active[k + 1])
                 cc[k] = -gd * eh;
-            double sc = 1e-12 + 1e-10 * fabs(s->il[k]);
-            if (fabs(r[k]) / sc > worst)
-                worst = fabs(r[k]) / sc;
         }
-        if (worst <= 1.0)
-            break;
         /* Thomas algorithm on the tridiagonal Jacobian */
         for (int k = 2; k < n; k++) {
             double m = a[k] / b[k - 1];
             b[k] -= m * cc[k - 1];
             r[k] -= m * r[k - 1];
         }
+        double worst = 0.0;
         for (int k = n - 1; k >= 1; k--) {
             double dk = (r[k] - (k + 1 < n ? cc[k] * r[k + 1] : 0.0)) / b[k];
             r[k] = dk;
             s->il[k] -= dk;
+            worst = fmax(worst, fabs(dk) / (1e-12 + 1e-7 * fabs(s->il[k])));
         }
+        if (worst <= 1.0)
+            break;
     }
     rail_voltages(s, t, x);
 }

@@ -156,11 +156,7 @@ double br_sim_integrate(br_sim *s, double tb, int *status)
         return tb;
     }
     br_sim_rhs(s, t, s->x, k1);
-    /* short intervals are edges and gate pulses: currents peak inside
-     * them, so take several steps to see a UVLO dip through the ESR */
-    double hmax = tb - s->t < 100e-9 ? (tb - s->t) / 4 : tb - s->t;
     while (t < tb) {
-        h = fmin(h, hmax);
         if (h > tb - t || tb - t - h < 1e-15)
             h = tb - t;
         if (h < 1e-16 * fmax(1.0, fabs(t)) + 1e-18) {

@@ -99,6 +99,10 @@ static void string_timing(const br_design *d, const br_chain *c, int s, br_stage
     for (int i = 0; i < w->nwin; i++) {
         st->win[i][0] = br_wrap(w->on[i][0] * c->T, c->T);
         st->win[i][1] = br_wrap(w->on[i][1] * c->T, c->T);
+        if (w->on[i][1] - w->on[i][0] >= 1.0) { /* on all period */
+            st->win[i][0] = 0.0;
+            st->win[i][1] = c->T;
+        }
     }
     for (int dir = 0; dir < 2; dir++) {
         st->nrev[dir] = w->nrev;

@@ -72,7 +72,8 @@ typedef struct br_stage {
                              design's flying-capacitor imbalance, V */
     int nwin;             /* commanded on-intervals of switch k */
     double win[BR_MAX_WINDOWS][2]; /* [start, end) in s within [0, T);
-                                      end < start means it wraps */
+                                      end < start means it wraps;
+                                      [0, T] is on all period */
     int nrev[2];          /* per direction (0 step-down, 1 step-up): */
     double rev[2][BR_MAX_WINDOWS][2]; /* intervals of reverse conduction */
     int is_top;           /* FCML: 1 for an A (top) switch */

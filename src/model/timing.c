@@ -35,6 +35,10 @@ static void add_windows(br_timing *tm, int sw, int n, const double (*iv)[2], int
 {
     for (int i = 0; i < n; i++) {
         double a = iv[i][0], b = iv[i][1];
+        if (b - a >= tm->T) { /* on all period: no edges */
+            *mask0 |= 1ULL << sw;
+            continue;
+        }
         if (a == b)
             continue;
         add(tm, a, sw, on_kind);

@@ -127,7 +127,7 @@ static void compare_paths(const br_chain *c, const double *x0, int periods)
 static br_design *reference_case(const char *name)
 {
     char path[1024];
-    snprintf(path, sizeof path, "%s/reference/%s", BR_SHARED_DIR, name);
+    snprintf(path, sizeof path, "%s/%s", BR_REFERENCE_DIR, name);
     char *json = br_test_slurp(path, NULL);
     CU_ASSERT_PTR_NOT_NULL_FATAL(json);
     br_design *d = br_test_reference_design(json);
@@ -251,7 +251,7 @@ static void on_toggle(void *ctx, const br_uvlo_event *e)
 static void test_no_chatter(void)
 {
     char path[1024];
-    snprintf(path, sizeof path, "%s/reference/c2.json", BR_SHARED_DIR);
+    snprintf(path, sizeof path, "%s/c2.json", BR_REFERENCE_DIR);
     char *json = br_test_slurp(path, NULL);
     CU_ASSERT_PTR_NOT_NULL_FATAL(json);
     br_design *d = br_test_reference_design(json);

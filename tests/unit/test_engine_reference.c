@@ -26,7 +26,7 @@
 static char *load_json(const char *name)
 {
     char path[1024];
-    snprintf(path, sizeof path, "%s/reference/%s", BR_SHARED_DIR, name);
+    snprintf(path, sizeof path, "%s/%s", BR_REFERENCE_DIR, name);
     char *j = br_test_slurp(path, NULL);
     CU_ASSERT_PTR_NOT_NULL(j);
     return j;

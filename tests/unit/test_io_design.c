@@ -221,7 +221,7 @@ static double json_number(const char *text, const char *key)
 static void check_against_json(const br_design *d, const char *json_name)
 {
     char path[512];
-    snprintf(path, sizeof path, "%s/reference/%s", BR_SHARED_DIR, json_name);
+    snprintf(path, sizeof path, "%s/%s", BR_REFERENCE_DIR, json_name);
     char *j = br_test_slurp(path, NULL);
     if (!j) {
         fprintf(stderr, "\n(%s not found: checked the hard-coded values only)\n", path);

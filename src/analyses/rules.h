@@ -1,0 +1,66 @@
+/* rules.h - design rules that need no simulation.
+ *
+ * Each rule compares one figure of the nominal chain with a limit and, when
+ * the figure breaks the limit, adds a finding.  Findings are data (kind,
+ * stage, part, figure, limit); the report layer turns them into sentences.
+ * Nothing here allocates or prints. */
+#ifndef BR_ANALYSES_RULES_H
+#define BR_ANALYSES_RULES_H
+
+#include "model/chain.h"
+
+typedef enum br_rule_kind {
+    BR_RULE_DIODE_RATING = 0, /* vrrm < vblock (1 + overshoot) */
+    BR_RULE_DIODE_DERATING,   /* vrrm * derating < vblock (1 + overshoot) */
+    BR_RULE_DIODE_UNRATED,    /* the diode states no vrrm: nothing to check */
+    BR_RULE_UVLO_HYSTERESIS,  /* uvlo_fall >= uvlo_rise */
+    BR_RULE_SUPPLY_SHORT,     /* the supply minus the drops misses uvlo_rise */
+    BR_RULE_AUX_BELOW_UVLO,   /* a clamp or regulator holds the rail below uvlo_rise */
+    BR_RULE_GATE_UNPROTECTED, /* vgs_max < supply, no regulator or clamp */
+    BR_RULE_AUX_ABOVE_GATE,   /* regulator or clamp output above vgs_max */
+    BR_RULE_NO_WINDOW,        /* the return switch is never on: the link never charges */
+    BR_RULE_KINDS
+} br_rule_kind;
+
+/* One broken rule. */
+typedef struct br_rule_hit {
+    int kind;         /* br_rule_kind */
+    int stage;        /* stage (rail, link) index the finding is about */
+    const char *part; /* id of the part concerned (points into the design) */
+    double figure;    /* the value that breaks the limit, SI (V) */
+    double limit;     /* the limit it breaks, SI (V) */
+    double current;   /* SUPPLY_SHORT: estimated link current used, A */
+    int fatal;        /* 1 when the chain cannot work at all */
+} br_rule_hit;
+
+/* At most a handful of findings per stage plus one for the chain. */
+#define BR_RULES_MAX (5 * BR_MAX_SWITCHES + 4)
+
+typedef struct br_rule_list {
+    int n;                         /* findings used */
+    br_rule_hit hit[BR_RULES_MAX]; /* in stage order, then rule order */
+} br_rule_list;
+
+/* Run every rule on c.  Always succeeds on a chain that br_chain_build
+ * accepted; returns BR_OK and the number of findings in out->n. */
+int br_rules_check(const br_chain *c, br_rule_list *out, br_error *err);
+
+/* Reverse voltage the diode of link k (k >= 1) blocks: the blocking
+ * voltage of its return switch k-1, without overshoot, V. */
+double br_link_vblock(const br_chain *c, int k);
+
+/* Average current link k carries in steady state: the consumption of
+ * stages k..top (running quiescent, isolator, regulator quiescent and
+ * gate charge times fsw), A.  k = 0 gives the supply's total. */
+double br_link_current(const br_chain *c, int k);
+
+/* Nominal drop of link k at its average current: junction voltage plus
+ * the current through the diode's series resistance, the link resistor
+ * and the return switch's on-resistance, V.  Every term is a lower bound
+ * of the drop in operation (the real current flows in a window only). */
+double br_link_drop(const br_chain *c, int k);
+
+/* Short stable name of a rule, for machine-readable reports. */
+const char *br_rule_name(int kind);
+
+#endif

@@ -1,0 +1,343 @@
+/* check_report.c - rendering `bootrung check`: operating point, the stage
+ * table and the design-rule findings. */
+#include "report/check_report.h"
+
+#include "core/error.h"
+#include "report/caution.h"
+
+#include <math.h>
+#include <stdio.h>
+#include <string.h>
+
+#define KELVIN 273.15
+#define CELL 64 /* widest cell: a 47-character part id plus margin */
+#define NCOL 11
+
+/* A value with an SI prefix chosen so the mantissa lies in [1, 1000). */
+static const char *si(char *buf, size_t cap, double v, const char *unit)
+{
+    static const char *const pre[] = {"f", "p", "n", "u", "m", "", "k", "M", "G"};
+    int e = 0;
+    if (v != 0 && isfinite(v))
+        e = (int)floor(log10(fabs(v)) / 3.0);
+    e = e < -5 ? -5 : e > 3 ? 3 : e;
+    snprintf(buf, cap, "%.4g %s%s", v / pow(10.0, 3.0 * e), pre[e + 5], unit);
+    return buf;
+}
+
+static const char *direction_name(int dir)
+{
+    switch (dir) {
+    case BR_DIR_STEP_DOWN:
+        return "step-down";
+    case BR_DIR_STEP_UP:
+        return "step-up";
+    case BR_DIR_BOTH:
+        return "both directions";
+    default:
+        return "none (idealised commutation)";
+    }
+}
+
+static int render_topology(const br_chain *c, br_text *out)
+{
+    const br_design *d = c->design;
+    if (d && d->topology == BR_TOPO_FCML)
+        return br_text_printf(
+            out, "  topology          flying-capacitor leg, %d levels: %d switches, %d links\n",
+            d->levels, c->n, c->n - 1);
+    return br_text_printf(out, "  topology          switch string: %d switches, %d links\n", c->n,
+                          c->n - 1);
+}
+
+static int render_supply(const br_chain *c, br_text *out)
+{
+    char a[32], b[32], r[32];
+    const br_design *d = c->design;
+    int rc = br_text_printf(out, "  supply            %s", si(a, sizeof a, c->vsupply, "V"));
+    if (d && (d->vsupply.min < c->vsupply || d->vsupply.max > c->vsupply))
+        rc |= br_text_printf(out, " (%s to %s)", si(a, sizeof a, d->vsupply.min, "V"),
+                             si(b, sizeof b, d->vsupply.max, "V"));
+    rc |= br_text_printf(out, ", source resistance %s", si(r, sizeof r, c->rsupply, "ohm"));
+    if (c->tramp > 0)
+        rc |= br_text_printf(out, ", ramp %s", si(a, sizeof a, c->tramp, "s"));
+    return rc | br_text_put(out, "\n");
+}
+
+static int render_header(const br_chain *c, br_text *out)
+{
+    char a[32], b[32];
+    const br_design *d = c->design;
+    int rc = br_text_printf(out, "design %s (%s)\n\noperating point\n",
+                            d && d->name[0] ? d->name : "(unnamed)", d ? d->path : "");
+    rc |= br_text_printf(out, "  input voltage     %s\n", si(a, sizeof a, c->vin, "V"));
+    rc |= br_text_printf(out, "  switching freq    %s (period %s)\n", si(a, sizeof a, c->fsw, "Hz"),
+                         si(b, sizeof b, c->T, "s"));
+    rc |= br_text_printf(out, "  duty              %.4g (%.1f %%)\n", c->duty, 100.0 * c->duty);
+    rc |= br_text_printf(out, "  dead time         %s\n", si(a, sizeof a, c->deadtime, "s"));
+    rc |= br_text_printf(out, "  ambient           %.1f C\n", c->tamb - KELVIN);
+    rc |= br_text_printf(out, "  current direction %s\n", direction_name(c->direction));
+    rc |= render_supply(c, out);
+    rc |= render_topology(c, out);
+    rc |= br_text_printf(
+        out, "  rules             edge overshoot %.0f %%, diode derating limit %.0f %%\n",
+        100.0 * c->overshoot, 100.0 * c->derating);
+    return rc;
+}
+
+/* ---- the stage table ------------------------------------------------- */
+
+static const char *const col_head[NCOL] = {"stage",    "switch",    "diode",        "capacitor",
+                                           "driver",   "sw part",   "extra",        "return",
+                                           "Vblock V", "window ns", "window % of T"};
+
+/* Lines stage k takes: one per charging window of its link, at least one. */
+static int stage_lines(const br_chain *c, int k)
+{
+    return k > 0 && c->st[k - 1].nwin > 1 ? c->st[k - 1].nwin : 1;
+}
+
+static const char *id_or_dash(const char *id)
+{
+    return id && id[0] ? id : "-";
+}
+
+/* Cells of the window columns for link k, window w. */
+static void window_cell(const br_chain *c, int k, int w, int col, char *buf, size_t cap)
+{
+    if (k == 0) {
+        snprintf(buf, cap, "%s", col == 9 ? "(fed by the supply)" : "");
+        return;
+    }
+    const br_stage *ret = &c->st[k - 1];
+    if (ret->nwin == 0) {
+        snprintf(buf, cap, "%s", col == 9 ? "none" : "");
+        return;
+    }
+    double a = ret->win[w][0], b = ret->win[w][1];
+    if (b == 0 && a > 0)
+        b = c->T; /* ends exactly at the period end: no wrap to show */
+    if (col == 9)
+        snprintf(buf, cap, "%.1f-%.1f", a * 1e9, b * 1e9);
+    else
+        snprintf(buf, cap, "%.1f-%.1f%s", 100.0 * a / c->T, 100.0 * b / c->T,
+                 b < a ? " (wraps)" : "");
+}
+
+/* The text of one cell: stage k, its w-th line, column col. */
+static void cell(const br_chain *c, int k, int w, int col, char *buf, size_t cap)
+{
+    const br_stage *st = &c->st[k];
+    buf[0] = '\0';
+    if (col >= 9) {
+        window_cell(c, k, w, col, buf, cap);
+        return;
+    }
+    if (w > 0)
+        return; /* extra window lines carry only the window columns */
+    switch (col) {
+    case 0:
+        snprintf(buf, cap, "%d", k);
+        break;
+    case 1:
+        snprintf(buf, cap, "%s", st->name);
+        break;
+    case 2:
+        snprintf(buf, cap, "%s", k > 0 ? id_or_dash(st->diode.id) : "-");
+        break;
+    case 3:
+        snprintf(buf, cap, "%s", k > 0 ? id_or_dash(st->cap.id) : "-");
+        break;
+    case 4:
+        snprintf(buf, cap, "%s", id_or_dash(st->drv.id));
+        break;
+    case 5:
+        snprintf(buf, cap, "%s", id_or_dash(st->sw.id));
+        break;
+    case 6:
+        snprintf(buf, cap, "%s", id_or_dash(st->aux.id));
+        break;
+    case 7:
+        snprintf(buf, cap, "%s", k > 0 ? c->st[k - 1].name : "-");
+        break;
+    default:
+        if (k > 0)
+            snprintf(buf, cap, "%.1f", br_link_vblock(c, k));
+        else
+            snprintf(buf, cap, "-");
+    }
+}
+
+static void column_widths(const br_chain *c, int width[NCOL])
+{
+    char buf[CELL];
+    for (int col = 0; col < NCOL; col++)
+        width[col] = (int)strlen(col_head[col]);
+    for (int k = 0; k < c->n; k++)
+        for (int w = 0; w < stage_lines(c, k); w++)
+            for (int col = 0; col < NCOL; col++) {
+                cell(c, k, w, col, buf, sizeof buf);
+                if ((int)strlen(buf) > width[col])
+                    width[col] = (int)strlen(buf);
+            }
+}
+
+/* Append one table line from its cells, without trailing blanks.  The
+ * stage column and the voltage column are right-aligned. */
+static int put_line(br_text *out, char cells[NCOL][CELL], const int width[NCOL])
+{
+    char line[NCOL * (CELL + 2) + 2];
+    size_t n = 0;
+    for (int col = 0; col < NCOL; col++) {
+        int right = col == 0 || col == 8;
+        int w = col == NCOL - 1 ? 0 : width[col];
+        n += (size_t)snprintf(line + n, sizeof line - n, right ? "%*s  " : "%-*s  ", w, cells[col]);
+    }
+    while (n > 0 && line[n - 1] == ' ')
+        line[--n] = '\0';
+    return br_text_printf(out, "  %s\n", line);
+}
+
+static int render_table(const br_chain *c, br_text *out)
+{
+    int width[NCOL];
+    char cells[NCOL][CELL];
+    column_widths(c, width);
+    int rc = br_text_put(
+        out, "\nstages (bottom to top; link k charges rail k while its return switch is on)\n");
+    for (int col = 0; col < NCOL; col++)
+        snprintf(cells[col], CELL, "%s", col_head[col]);
+    rc |= put_line(out, cells, width);
+    for (int k = 0; k < c->n; k++)
+        for (int w = 0; w < stage_lines(c, k); w++) {
+            for (int col = 0; col < NCOL; col++)
+                cell(c, k, w, col, cells[col], CELL);
+            rc |= put_line(out, cells, width);
+        }
+    return rc;
+}
+
+/* ---- findings ------------------------------------------------------- */
+
+static int describe_diode(const br_chain *c, const br_rule_hit *h, br_text *out)
+{
+    int k = h->stage;
+    double vb = br_link_vblock(c, k), vrrm = c->st[k].diode.vrrm;
+    int rc = br_text_printf(out, "link %d (rail %s, returns via %s) diode %s: ", k, c->st[k].name,
+                            c->st[k - 1].name, h->part);
+    if (h->kind == BR_RULE_DIODE_UNRATED)
+        return rc | br_text_printf(out,
+                                   "no reverse-voltage rating given, so nothing can be checked; "
+                                   "it must block %.1f V (%.1f V plus %.0f %% overshoot)",
+                                   h->figure, vb, 100.0 * c->overshoot);
+    if (h->kind == BR_RULE_DIODE_RATING)
+        return rc | br_text_printf(out,
+                                   "must block %.1f V (%.1f V plus %.0f %% overshoot), above its "
+                                   "%.4g V rating",
+                                   h->figure, vb, 100.0 * c->overshoot, h->limit);
+    return rc | br_text_printf(out,
+                               "must block %.1f V, %.0f %% of its %.4g V rating; the derating "
+                               "limit is %.0f %% (%.1f V)",
+                               h->figure, 100.0 * h->figure / vrrm, vrrm, 100.0 * c->derating,
+                               h->limit);
+}
+
+static int describe_supply(const br_chain *c, const br_rule_hit *h, br_text *out)
+{
+    int k = h->stage;
+    int rc = br_text_printf(out,
+                            "rail %d (%s) driver %s: the %.4g V supply minus the nominal drops "
+                            "below it leaves %.2f V, below its UVLO rising %.4g V",
+                            k, c->st[k].name, h->part, c->vsupply, h->figure, h->limit);
+    if (k > 0)
+        rc |=
+            br_text_printf(out, " (drops taken at the steady charge currents, %.3g mA in link %d)",
+                           h->current * 1e3, k);
+    return rc |
+           br_text_printf(out, "; THE CHAIN CANNOT WORK: rails %d to %d never start", k, c->n - 1);
+}
+
+static int describe_stage(const br_chain *c, const br_rule_hit *h, br_text *out)
+{
+    const br_stage *st = &c->st[h->stage];
+    const char *what = st->aux.kind == BR_AUX_LDO ? "regulator" : "clamp";
+    int rc = br_text_printf(out, "stage %d (%s) ", h->stage, st->name);
+    switch (h->kind) {
+    case BR_RULE_UVLO_HYSTERESIS:
+        return rc | br_text_printf(out,
+                                   "driver %s: UVLO falling %.4g V is not below UVLO rising "
+                                   "%.4g V; expected a hysteresis (falling < rising)",
+                                   h->part, h->figure, h->limit);
+    case BR_RULE_AUX_BELOW_UVLO:
+        return rc | br_text_printf(out,
+                                   "%s %s: its %.4g V output is below driver %s's UVLO rising "
+                                   "%.4g V, so that driver can never start",
+                                   what, h->part, h->figure, st->drv.id, h->limit);
+    case BR_RULE_AUX_ABOVE_GATE:
+        return rc | br_text_printf(out,
+                                   "%s %s: its %.4g V output is above switch %s's gate absolute "
+                                   "maximum %.4g V",
+                                   what, h->part, h->figure, st->sw.id, h->limit);
+    default:
+        return rc | br_text_printf(out,
+                                   "switch %s: gate absolute maximum %.4g V is below the supply "
+                                   "(up to %.4g V) and the rail has no regulator or clamp",
+                                   h->part, h->limit, h->figure);
+    }
+}
+
+int br_rule_describe(const br_chain *c, const br_rule_hit *h, br_text *out)
+{
+    switch (h->kind) {
+    case BR_RULE_DIODE_RATING:
+    case BR_RULE_DIODE_DERATING:
+    case BR_RULE_DIODE_UNRATED:
+        return describe_diode(c, h, out);
+    case BR_RULE_SUPPLY_SHORT:
+        return describe_supply(c, h, out);
+    case BR_RULE_NO_WINDOW:
+        return br_text_printf(out,
+                              "link %d (rail %s): its return switch %s is never on, so the link "
+                              "can never charge; THE CHAIN CANNOT WORK above rail %d",
+                              h->stage, c->st[h->stage].name, c->st[h->stage - 1].name,
+                              h->stage - 1);
+    default:
+        return describe_stage(c, h, out);
+    }
+}
+
+static int render_findings(const br_chain *c, const br_rule_list *rules, br_text *out)
+{
+    if (rules->n == 0)
+        return br_text_put(out, "\ndesign rules: no warnings\n");
+    int rc =
+        br_text_printf(out, "\ndesign rules: %d warning%s\n", rules->n, rules->n == 1 ? "" : "s");
+    for (int i = 0; i < rules->n; i++) {
+        rc |= br_text_put(out, "  warning: ");
+        rc |= br_rule_describe(c, &rules->hit[i], out);
+        rc |= br_text_put(out, "\n");
+    }
+    return rc;
+}
+
+int br_check_render(const br_chain *c, const br_rule_list *rules, br_text *out)
+{
+    int rc = render_header(c, out);
+    rc |= render_table(c, out);
+    rc |= render_findings(c, rules, out);
+    rc |= br_report_caution(out);
+    return rc ? BR_ENOMEM : BR_OK;
+}
+
+int br_check_report(const br_chain *c, br_text *out, int *nwarn, br_error *err)
+{
+    br_rule_list rules;
+    int rc = br_rules_check(c, &rules, err);
+    if (rc != BR_OK)
+        return rc;
+    if (nwarn)
+        *nwarn = rules.n;
+    if (br_check_render(c, &rules, out) != BR_OK)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory rendering the report");
+    return BR_OK;
+}

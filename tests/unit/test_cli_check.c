@@ -1,0 +1,382 @@
+/* test_cli_check.c - the bootrung binary as a user meets it: help, usage
+ * errors, `check` on every example and on every bad design file, write
+ * errors on stdout, exit statuses and golden outputs (tests/golden/). */
+#include "model/chain.h"
+#include "testkit.h"
+
+#include <dirent.h>
+#include <fcntl.h>
+#include <spawn.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+#include <sys/wait.h>
+#include <unistd.h>
+
+extern char **environ;
+
+#define MAX_FILES 128
+
+/* What one run of the binary produced. */
+typedef struct run_result {
+    int status; /* exit status, or -1 when it did not exit normally */
+    char *out;  /* stdout, NUL-terminated */
+    char *err;  /* stderr, NUL-terminated */
+} run_result;
+
+static int temp_file(char *path, size_t cap)
+{
+    snprintf(path, cap, "/tmp/br-cli-XXXXXX");
+    return mkstemp(path);
+}
+
+static char *slurp_and_remove(const char *path)
+{
+    char *s = br_test_slurp(path, NULL);
+    unlink(path);
+    return s ? s : calloc(1, 1);
+}
+
+/* Run bootrung with args (NULL-terminated, without argv[0]); stdout goes
+ * to stdout_path when given (e.g. /dev/full), else to a temporary file. */
+static run_result run_to(const char *stdout_path, const char *const *args)
+{
+    char *argv[16] = {BR_BINARY};
+    int n = 1;
+    for (; args[n - 1] && n < 15; n++)
+        argv[n] = (char *)args[n - 1];
+    argv[n] = NULL;
+    char po[64], pe[64];
+    int fo = temp_file(po, sizeof po), fe = temp_file(pe, sizeof pe);
+    CU_ASSERT_TRUE_FATAL(fo >= 0 && fe >= 0);
+    posix_spawn_file_actions_t fa;
+    posix_spawn_file_actions_init(&fa);
+    posix_spawn_file_actions_addopen(&fa, 0, "/dev/null", O_RDONLY, 0);
+    if (stdout_path)
+        posix_spawn_file_actions_addopen(&fa, 1, stdout_path, O_WRONLY, 0);
+    else
+        posix_spawn_file_actions_adddup2(&fa, fo, 1);
+    posix_spawn_file_actions_adddup2(&fa, fe, 2);
+    pid_t pid;
+    run_result r = {-1, NULL, NULL};
+    int rc = posix_spawn(&pid, BR_BINARY, &fa, NULL, argv, environ);
+    posix_spawn_file_actions_destroy(&fa);
+    CU_ASSERT_EQUAL_FATAL(rc, 0);
+    int ws = 0;
+    if (waitpid(pid, &ws, 0) == pid && WIFEXITED(ws))
+        r.status = WEXITSTATUS(ws);
+    close(fo);
+    close(fe);
+    r.out = slurp_and_remove(po);
+    r.err = slurp_and_remove(pe);
+    return r;
+}
+
+static run_result run(const char *const *args)
+{
+    return run_to(NULL, args);
+}
+
+static void done(run_result *r)
+{
+    free(r->out);
+    free(r->err);
+}
+
+static int count_lines(const char *s)
+{
+    int n = 0;
+    for (; *s; s++)
+        n += *s == '\n';
+    return n;
+}
+
+static int starts_with(const char *s, const char *prefix)
+{
+    return strncmp(s, prefix, strlen(prefix)) == 0;
+}
+
+/* One diagnostic line on stderr that starts with prefix. */
+static void expect_one_line(const run_result *r, const char *prefix)
+{
+    if (count_lines(r->err) != 1 || !starts_with(r->err, prefix))
+        fprintf(stderr, "stderr was: [%s], expected one line starting [%s]\n", r->err, prefix);
+    CU_ASSERT_EQUAL(count_lines(r->err), 1);
+    CU_ASSERT_TRUE(starts_with(r->err, prefix));
+}
+
+static int by_name(const void *a, const void *b)
+{
+    return strcmp(a, b);
+}
+
+/* Files in BR_SOURCE_DIR-relative folder dir ending in ".xml", sorted. */
+static int list_xml(const char *dir, char names[][256])
+{
+    DIR *d = opendir(dir);
+    int n = 0;
+    for (struct dirent *e; d && n < MAX_FILES && (e = readdir(d));) {
+        size_t len = strlen(e->d_name);
+        if (len > 4 && strcmp(e->d_name + len - 4, ".xml") == 0)
+            snprintf(names[n++], 256, "%s/%s", dir, e->d_name);
+    }
+    if (d)
+        closedir(d);
+    qsort(names, (size_t)n, 256, by_name);
+    return n;
+}
+
+/* ---- help and usage -------------------------------------------------- */
+
+static void test_help(void)
+{
+    run_result r = run((const char *[]){"--help", NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    CU_ASSERT_TRUE(starts_with(r.out, "usage: bootrung "));
+    CU_ASSERT_PTR_NOT_NULL(strstr(r.out, "\n  check "));
+    CU_ASSERT_STRING_EQUAL(r.err, "");
+    done(&r);
+}
+
+static void test_verb_help(void)
+{
+    run_result a = run((const char *[]){"help", "check", NULL});
+    run_result b = run((const char *[]){"check", "--help", NULL});
+    CU_ASSERT_EQUAL(a.status, 0);
+    CU_ASSERT_EQUAL(b.status, 0);
+    CU_ASSERT_TRUE(starts_with(a.out, "usage: bootrung check [options] FILE"));
+    CU_ASSERT_PTR_NOT_NULL(strstr(a.out, "--strict"));
+    CU_ASSERT_STRING_EQUAL(a.out, b.out);
+    done(&a);
+    done(&b);
+}
+
+static void test_version(void)
+{
+    run_result r = run((const char *[]){"--version", NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    CU_ASSERT_TRUE(starts_with(r.out, "bootrung "));
+    CU_ASSERT_PTR_NULL(strstr(r.out, "unknown"));
+    CU_ASSERT_PTR_NOT_NULL(strstr(r.out, "GPL-3.0-or-later"));
+    done(&r);
+}
+
+static void test_no_args(void)
+{
+    run_result r = run((const char *[]){NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    CU_ASSERT_TRUE(starts_with(r.err, "usage: bootrung "));
+    CU_ASSERT_STRING_EQUAL(r.out, "");
+    done(&r);
+}
+
+static void test_unknown_verb(void)
+{
+    run_result r = run((const char *[]){"frobnicate", "x.xml", NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    expect_one_line(&r, "bootrung: unknown verb 'frobnicate'");
+    done(&r);
+    r = run((const char *[]){"help", "frobnicate", NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    expect_one_line(&r, "bootrung: no verb 'frobnicate'");
+    done(&r);
+}
+
+static void test_bad_usage(void)
+{
+    const char *const *cases[] = {
+        (const char *[]){"check", NULL},
+        (const char *[]){"check", "a.xml", "b.xml", NULL},
+        (const char *[]){"check", "--nope", "a.xml", NULL},
+        (const char *[]){"check", "-x", "a.xml", NULL},
+        (const char *[]){"check", "--strict=yes", "a.xml", NULL},
+    };
+    for (size_t i = 0; i < sizeof cases / sizeof cases[0]; i++) {
+        run_result r = run(cases[i]);
+        CU_ASSERT_EQUAL(r.status, 2);
+        expect_one_line(&r, "bootrung: check: ");
+        CU_ASSERT_STRING_EQUAL(r.out, "");
+        done(&r);
+    }
+}
+
+/* ---- bad input ------------------------------------------------------- */
+
+static void test_missing_file(void)
+{
+    run_result r = run((const char *[]){"check", "no/such/design.xml", NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    expect_one_line(&r, "bootrung: no/such/design.xml");
+    CU_ASSERT_STRING_EQUAL(r.out, "");
+    done(&r);
+}
+
+static void test_directory(void)
+{
+    run_result r = run((const char *[]){"check", "examples", NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    expect_one_line(&r, "bootrung: examples");
+    CU_ASSERT_STRING_EQUAL(r.out, "");
+    done(&r);
+}
+
+/* Every file of the bad-input corpus: exit 2, nothing on stdout, one line
+ * "bootrung: FILE:LINE: ..." on stderr (an empty file has no line). */
+static void test_bad_corpus(void)
+{
+    static char names[MAX_FILES][256];
+    int n = list_xml("tests/bad", names);
+    CU_ASSERT_TRUE(n >= 5);
+    for (int i = 0; i < n; i++) {
+        run_result r = run((const char *[]){"check", names[i], NULL});
+        char prefix[300];
+        snprintf(prefix, sizeof prefix, "bootrung: %.255s:", names[i]);
+        CU_ASSERT_EQUAL(r.status, 2);
+        CU_ASSERT_STRING_EQUAL(r.out, "");
+        expect_one_line(&r, prefix);
+        const char *p = r.err + strlen(prefix);
+        struct stat sb;
+        int empty = stat(names[i], &sb) == 0 && sb.st_size == 0; /* no line to name */
+        int has_line = empty || (*p >= '1' && *p <= '9');
+        if (!has_line)
+            fprintf(stderr, "%s: no line number in [%s]\n", names[i], r.err);
+        CU_ASSERT_TRUE(has_line);
+        done(&r);
+    }
+}
+
+/* ---- the examples ---------------------------------------------------- */
+
+/* Every switch name of the example's chain, from the library itself. */
+static void expect_switch_names(const char *path, const char *out)
+{
+    br_design *d = NULL;
+    br_chain *c = NULL;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_design_load(path, &d, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    for (int k = 0; k < c->n; k++) {
+        char cellname[BR_ID_MAX + 4];
+        snprintf(cellname, sizeof cellname, "  %s  ", c->st[k].name);
+        if (!strstr(out, cellname))
+            fprintf(stderr, "%s: switch %s missing from the table\n", path, c->st[k].name);
+        CU_ASSERT_PTR_NOT_NULL(strstr(out, cellname));
+    }
+    br_chain_free(c);
+    br_design_free(d);
+}
+
+static void test_examples(void)
+{
+    static char names[MAX_FILES][256];
+    int n = list_xml("examples", names);
+    CU_ASSERT_TRUE(n >= 2);
+    for (int i = 0; i < n; i++) {
+        run_result r = run((const char *[]){"check", names[i], NULL});
+        if (r.status != 0)
+            fprintf(stderr, "%s: %s", names[i], r.err);
+        CU_ASSERT_EQUAL(r.status, 0);
+        CU_ASSERT_STRING_EQUAL(r.err, "");
+        CU_ASSERT_PTR_NOT_NULL(strstr(r.out, "operating point"));
+        CU_ASSERT_PTR_NOT_NULL(strstr(r.out, "design rules: "));
+        CU_ASSERT_PTR_NOT_NULL(strstr(r.out, "These circuits carry lethal voltages."));
+        expect_switch_names(names[i], r.out);
+        done(&r);
+    }
+}
+
+/* --strict turns warnings into exit status 1 and nothing else. */
+static void test_strict(void)
+{
+    static char names[MAX_FILES][256];
+    int n = list_xml("examples", names);
+    for (int i = 0; i < n; i++) {
+        run_result r = run((const char *[]){"check", "--strict", names[i], NULL});
+        int clean = strstr(r.out, "design rules: no warnings") != NULL;
+        CU_ASSERT_EQUAL(r.status, clean ? 0 : 1);
+        done(&r);
+    }
+}
+
+/* A full disk on stdout is an error, not a silent truncation. */
+static void test_stdout_error(void)
+{
+    static char names[MAX_FILES][256];
+    if (access("/dev/full", W_OK) != 0 || list_xml("examples", names) < 1)
+        return;
+    run_result r = run_to("/dev/full", (const char *[]){"check", names[0], NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    expect_one_line(&r, "bootrung: cannot write to standard output: ");
+    done(&r);
+    r = run_to("/dev/full", (const char *[]){"--help", NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    done(&r);
+}
+
+/* ---- golden outputs -------------------------------------------------- */
+
+/* Report the first differing line of got against the golden file. */
+static int same_as_golden(const char *golden, const char *got)
+{
+    char *want = br_test_slurp(golden, NULL);
+    if (!want) {
+        fprintf(stderr, "%s is missing: run tests/golden/update.sh\n", golden);
+        return 0;
+    }
+    int ok = strcmp(want, got) == 0;
+    if (!ok) {
+        const char *a = want, *b = got;
+        int line = 1;
+        for (; *a && *a == *b; a++, b++)
+            line += *a == '\n';
+        fprintf(stderr, "%s:%d: output differs (see tests/golden/update.sh)\n", golden, line);
+    }
+    free(want);
+    return ok;
+}
+
+static void test_golden(void)
+{
+    static char names[MAX_FILES][256];
+    run_result r = run((const char *[]){"--help", NULL});
+    CU_ASSERT_TRUE(same_as_golden("tests/golden/help.txt", r.out));
+    done(&r);
+    r = run((const char *[]){"check", "--help", NULL});
+    CU_ASSERT_TRUE(same_as_golden("tests/golden/check-help.txt", r.out));
+    done(&r);
+    int n = list_xml("examples", names);
+    for (int i = 0; i < n; i++) {
+        char base[256], golden[300];
+        snprintf(base, sizeof base, "%s", strrchr(names[i], '/') + 1);
+        base[strlen(base) - 4] = '\0'; /* drop ".xml" */
+        snprintf(golden, sizeof golden, "tests/golden/check-%.200s.txt", base);
+        r = run((const char *[]){"check", names[i], NULL});
+        CU_ASSERT_TRUE(same_as_golden(golden, r.out));
+        done(&r);
+    }
+}
+
+int main(void)
+{
+    static const br_test_case cases[] = {
+        {"--help lists the verbs", test_help},
+        {"help VERB and VERB --help agree", test_verb_help},
+        {"--version", test_version},
+        {"no arguments: usage, exit 2", test_no_args},
+        {"unknown verb: exit 2", test_unknown_verb},
+        {"bad usage of check: exit 2, one line", test_bad_usage},
+        {"missing file: exit 2, names the file", test_missing_file},
+        {"a directory: exit 2", test_directory},
+        {"bad-input corpus: exit 2, FILE:LINE:", test_bad_corpus},
+        {"check on every example", test_examples},
+        {"--strict exit status", test_strict},
+        {"write error on stdout: exit 2", test_stdout_error},
+        {"golden outputs", test_golden},
+        {NULL, NULL},
+    };
+    /* paths in messages and golden files are relative to the source tree */
+    if (chdir(BR_SOURCE_DIR) != 0)
+        return 2;
+    return br_test_main("cli_check", cases);
+}
