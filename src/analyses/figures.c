@@ -1,0 +1,204 @@
+/* figures.c - margins and stresses from simulated periods, and the
+ * verdict table. */
+#include "analyses/figures.h"
+
+#include <math.h>
+#include <stdio.h>
+#include <string.h>
+
+int br_design_directions(const br_chain *c, int dirs[2])
+{
+    switch (c->direction) {
+    case BR_DIR_STEP_DOWN: dirs[0] = BR_DIRI_DOWN; return 1;
+    case BR_DIR_STEP_UP: dirs[0] = BR_DIRI_UP; return 1;
+    case BR_DIR_BOTH:
+        dirs[0] = BR_DIRI_DOWN;
+        dirs[1] = BR_DIRI_UP;
+        return 2;
+    default: dirs[0] = BR_DIRI_NONE; return 1;
+    }
+}
+
+static void rail_figure(const br_chain *c, const br_rail_stats *r, int k, double dt,
+                        br_rail_fig *f)
+{
+    const br_stage *st = &c->st[k];
+    f->vmin = r->vmin;
+    f->vmax = r->vmax;
+    f->vavg = r->vint / dt;
+    f->ripple = r->vmax - r->vmin;
+    f->vdrv_min = r->vdrv_min;
+    f->vdrv_max = r->vdrv_max;
+    f->m_uvlo = r->vdrv_min - st->drv.uvlo_fall;
+    f->m_restart = r->vdrv_min - st->drv.uvlo_rise;
+    f->m_drive = c->min_drive > 0 ? r->vdrv_min - c->min_drive : NAN;
+    f->m_gate = st->sw.vgs_max > 0 ? st->sw.vgs_max - r->vdrv_max : NAN;
+    f->p_load = r->qload / dt * f->vavg;
+    if (k == 0) {
+        f->c_eff = f->vcap_peak = f->vcap_rating = f->icap_rms = NAN;
+        return;
+    }
+    f->c_eff = br_cap_at(&st->cap, f->vavg);
+    f->vcap_peak = r->vc_max;
+    f->vcap_rating = st->cap.vrated;
+    f->icap_rms = sqrt(r->icap2 / dt);
+}
+
+static void link_figure(const br_chain *c, const br_link_stats *l, int k, double dt,
+                        br_link_fig *f)
+{
+    const br_diode *d = &c->st[k].diode;
+    f->vrev_sim = l->vrev_peak;
+    f->vrev_stress = l->vrev_peak + c->st[k - 1].vblock * c->overshoot;
+    f->vrrm = d->vrrm;
+    f->share = d->vrrm > 0 ? f->vrev_stress / d->vrrm : 0.0;
+    f->iavg = l->q / dt;
+    f->irms = sqrt(l->i2 / dt);
+    f->ipeak = l->ipeak;
+    f->qrr = l->qrr * (c->T / dt);
+    f->irrm = l->irrm;
+    f->p_cond = l->e_cond / dt;
+    f->p_rr = l->e_rr / dt;
+}
+
+void br_steady_figures(const br_chain *c, const br_steady *ss, br_steady_figs *out)
+{
+    memset(out, 0, sizeof *out);
+    out->dir = ss->dir;
+    out->ss = ss;
+    out->n = c->n;
+    double dt = ss->stats.t1 - ss->stats.t0;
+    for (int k = 0; k < c->n; k++) {
+        rail_figure(c, &ss->stats.rail[k], k, dt, &out->rail[k]);
+        if (k > 0)
+            link_figure(c, &ss->stats.link[k], k, dt, &out->link[k]);
+    }
+    out->supply_iavg = ss->stats.qsupply / dt;
+    out->supply_p = ss->stats.esupply / dt;
+}
+
+/* ---- verdict ------------------------------------------------------------- */
+
+static const char *const NAMES[BR_CRIT_COUNT] = {
+    "startup", "inrush", "steady-state", "restart", "uvlo", "drive", "gate", "diode-reverse",
+    "capacitor-voltage"};
+static const char *const TITLES[BR_CRIT_COUNT] = {
+    "every driver starts from cold",
+    "link inrush within the diode surge rating",
+    "periodic steady state exists and holds",
+    "rails stay above UVLO rising (restart)",
+    "rails stay above UVLO falling",
+    "drive voltage above the useful minimum",
+    "gate voltage below its absolute maximum",
+    "diode reverse voltage within derated rating",
+    "capacitor voltage within its rating"};
+
+const char *br_crit_name(int crit) { return crit >= 0 && crit < BR_CRIT_COUNT ? NAMES[crit] : "?"; }
+const char *br_crit_title(int crit) { return crit >= 0 && crit < BR_CRIT_COUNT ? TITLES[crit] : "?"; }
+
+/* Keep the row with the smallest margin. */
+static void consider(br_verdict_row *r, double figure, double limit, double margin, int stage,
+                     int dir)
+{
+    if (isnan(margin))
+        return;
+    if (r->applies && margin >= r->margin)
+        return;
+    r->applies = 1;
+    r->figure = figure;
+    r->limit = limit;
+    r->margin = margin;
+    r->stage = stage;
+    r->dir = dir;
+}
+
+static void startup_rows(const br_chain *c, const br_startup *su, br_verdict *v)
+{
+    br_verdict_row *r = &v->row[BR_CRIT_STARTUP];
+    double fig = su->complete ? su->t_total : su->t_simulated;
+    consider(r, fig, c->startup_max, c->startup_max - fig, su->first_stalled, BR_DIRI_NONE);
+    r->pass = su->complete && fig <= c->startup_max;
+    if (!su->complete)
+        snprintf(r->note, sizeof r->note, "rail %d never starts for good", su->first_stalled);
+    r = &v->row[BR_CRIT_INRUSH];
+    for (int k = 1; k < c->n; k++) {
+        double ifsm = c->st[k].diode.ifsm;
+        if (ifsm > 0)
+            consider(r, su->st[k].ipeak, ifsm, ifsm - su->st[k].ipeak, k, BR_DIRI_NONE);
+    }
+    if (!r->applies)
+        snprintf(r->note, sizeof r->note, "no diode surge rating given");
+}
+
+static void steady_rows(const br_chain *c, const br_steady_figs *f, br_verdict *v)
+{
+    /* the steady state is trusted when the cross-check periods move the
+     * rails by less than 0.1 mV each */
+    const double lim = 1e-4;
+    consider(&v->row[BR_CRIT_STEADY], f->ss->drift, lim, lim - f->ss->drift, -1, f->dir);
+    for (int k = 0; k < c->n; k++) {
+        const br_rail_fig *rf = &f->rail[k];
+        const br_stage *st = &c->st[k];
+        consider(&v->row[BR_CRIT_RESTART], rf->vdrv_min, st->drv.uvlo_rise, rf->m_restart, k, f->dir);
+        consider(&v->row[BR_CRIT_UVLO], rf->vdrv_min, st->drv.uvlo_fall, rf->m_uvlo, k, f->dir);
+        consider(&v->row[BR_CRIT_DRIVE], rf->vdrv_min, c->min_drive, rf->m_drive, k, f->dir);
+        consider(&v->row[BR_CRIT_GATE], rf->vdrv_max, st->sw.vgs_max, rf->m_gate, k, f->dir);
+        if (k == 0)
+            continue;
+        const br_link_fig *lf = &f->link[k];
+        if (lf->vrrm > 0) {
+            double lim_v = c->derating * lf->vrrm;
+            consider(&v->row[BR_CRIT_DIODE_VR], lf->vrev_stress, lim_v, lim_v - lf->vrev_stress, k,
+                     f->dir);
+        }
+        if (rf->vcap_rating > 0)
+            consider(&v->row[BR_CRIT_CAP_V], rf->vcap_peak, rf->vcap_rating,
+                     rf->vcap_rating - rf->vcap_peak, k, f->dir);
+    }
+}
+
+static const char *UNITS[BR_CRIT_COUNT] = {"s", "A", "V", "V", "V", "V", "V", "V", "V"};
+
+static void finish_rows(br_verdict *v)
+{
+    static const char *why[BR_CRIT_COUNT] = {
+        [BR_CRIT_DRIVE] = "no minimum drive voltage set",
+        [BR_CRIT_GATE] = "no gate maximum given",
+        [BR_CRIT_DIODE_VR] = "no diode voltage rating given",
+        [BR_CRIT_CAP_V] = "no capacitor rating given"};
+    v->all_pass = 1;
+    for (int i = 0; i < BR_CRIT_COUNT; i++) {
+        br_verdict_row *r = &v->row[i];
+        r->crit = i;
+        r->unit = UNITS[i];
+        if (i != BR_CRIT_STARTUP && i != BR_CRIT_STEADY && r->applies)
+            r->pass = r->margin >= 0;
+        if (!r->applies && !r->note[0] && why[i])
+            snprintf(r->note, sizeof r->note, "%s", why[i]);
+        if (r->applies && !r->pass)
+            v->all_pass = 0;
+    }
+}
+
+void br_verdict_make(const br_chain *c, const br_startup *su, const br_steady_figs *figs,
+                     int ndir, br_verdict *out)
+{
+    memset(out, 0, sizeof *out);
+    for (int i = 0; i < BR_CRIT_COUNT; i++)
+        out->row[i].stage = -1;
+    if (su)
+        startup_rows(c, su, out);
+    for (int d = 0; d < ndir; d++)
+        steady_rows(c, &figs[d], out);
+    br_verdict_row *r = &out->row[BR_CRIT_STEADY];
+    r->pass = r->applies && r->margin >= 0;
+    for (int d = 0; d < ndir; d++) {
+        if (!figs[d].ss->converged || !figs[d].ss->holds) {
+            r->pass = 0;
+            snprintf(r->note, sizeof r->note, "%s",
+                     figs[d].ss->holds ? "the rails did not settle"
+                                       : "a driver drops out in the periodic steady state");
+        }
+    }
+    finish_rows(out);
+}
