@@ -21,18 +21,19 @@ int br_sim_create(const br_chain *c, int dir, int integrator, br_sim **out, br_e
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory for the simulator");
     s->c = c;
     s->n = c->n;
+    s->nx = c->n * NF;
     s->dir = dir;
     s->integ = integrator;
     br_timing_build(c, dir, &s->tm);
     if (integrator == BR_INTEG_REFERENCE) {
-        s->gsl_step = br_sim_gsl_alloc();
+        s->gsl_step = br_sim_gsl_alloc(s->nx);
         if (!s->gsl_step) {
             free(s);
             return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory for GSL");
         }
         br_sim_set_tolerance(s, 1e-10, 1e-10);
     } else {
-        br_sim_set_tolerance(s, 1e-7, 1e-7);
+        br_sim_set_tolerance(s, 1e-6, 1e-6);
     }
     br_sim_reset_cold(s);
     *out = s;
@@ -70,14 +71,14 @@ unsigned long br_sim_evals(const br_sim *s) { return s->evals; }
 void br_sim_vc(const br_sim *s, double *vc)
 {
     for (int k = 0; k < s->n; k++)
-        vc[k] = s->x[X_VC + k];
+        vc[k] = s->x[XI(k, F_VC)];
 }
 
 void br_sim_state(const br_sim *s, double *x)
 {
     for (int k = 0; k < s->n; k++) {
-        x[k] = s->x[X_VC + k];
-        x[s->n + k] = s->x[X_Q + k];
+        x[k] = s->x[XI(k, F_VC)];
+        x[s->n + k] = s->x[XI(k, F_Q)];
     }
 }
 
@@ -161,8 +162,8 @@ void br_sim_reset_running_at(br_sim *s, const double *x, double phase)
     while (s->ev_idx < s->tm.nev && s->tm.ev[s->ev_idx].t <= phase)
         s->ev_idx++;
     for (int k = 1; k < s->n; k++) {
-        s->x[X_VC + k] = x[k];
-        s->x[X_Q + k] = x[s->n + k];
+        s->x[XI(k, F_VC)] = x[k];
+        s->x[XI(k, F_Q)] = x[s->n + k];
     }
     s->en[0] = c->vsupply > c->st[0].drv.uvlo_fall;
     for (int k = 1; k < s->n; k++)
@@ -233,7 +234,7 @@ static void update_targets(br_sim *s, double t)
                 s->pulse_i[k] = q / st->sw.tg;
                 s->pulse_end[k] = t + st->sw.tg;
             } else if (k > 0) {
-                s->x[X_VC + k] -= q / br_sim_cap(s, k, s->x[X_VC + k]);
+                s->x[XI(k, F_VC)] -= q / br_sim_cap(s, k, s->x[XI(k, F_VC)]);
             }
         }
         s->driven = on ? (s->driven | bit) : (s->driven & ~bit);
@@ -293,7 +294,7 @@ static double stage_load(const br_sim *s, int k, double t)
     /* a driver held in UVLO draws its standby current only from a charged
      * rail: an empty capacitor is not driven negative */
     double i = s->en[k] ? st->drv.iq_on + st->drv.i_iso
-                        : (k == 0 || s->x[X_VC + k] > 0 ? st->drv.iq_off : 0.0);
+                        : (k == 0 || s->x[XI(k, F_VC)] > 0 ? st->drv.iq_off : 0.0);
     if (st->aux.kind == BR_AUX_LDO)
         i += st->aux.iq;
     if (s->pulse_end[k] > t)
@@ -303,7 +304,7 @@ static double stage_load(const br_sim *s, int k, double t)
 
 static double left_rail(const br_sim *s, int k, double t)
 {
-    return k == 1 ? supply_v(s, t) : s->x[X_VC + k - 1];
+    return k == 1 ? supply_v(s, t) : s->x[XI(k - 1, F_VC)];
 }
 
 /* Blocked link: leakage plus the mean junction-capacitance current of the
@@ -336,12 +337,12 @@ static void build_seg(br_sim *s, double ta, double tb)
         double db = br_sim_switch_v(s, k - 1, tb);
         g->dslope[k] = tb > ta ? (db - g->d0[k]) / (tb - ta) : 0.0;
         g->rpath[k] = st->r_link + c->st[k - 1].sw.rds_on;
-        double fa = left_rail(s, k, ta) - s->x[X_VC + k] - g->d0[k];
-        double fb = left_rail(s, k, tb) - s->x[X_VC + k] - db;
+        double fa = left_rail(s, k, ta) - s->x[XI(k, F_VC)] - g->d0[k];
+        double fb = left_rail(s, k, tb) - s->x[XI(k, F_VC)] - db;
         g->active[k] = fmax(fa, fb) > -VBLOCKED;
         g->nactive += g->active[k];
         g->iblk[k] = g->active[k] ? 0.0 : blocked_current(s, k, ta, tb, fa, fb);
-        if (st->aux.kind == BR_AUX_ZENER && s->x[X_VC + k] > st->aux.vout - 0.5)
+        if (st->aux.kind == BR_AUX_ZENER && s->x[XI(k, F_VC)] > st->aux.vout - 0.5)
             g->zener = 1;
     }
 }
@@ -352,13 +353,14 @@ static void recover(br_sim *s)
 {
     const br_chain *c = s->c;
     for (int k = 1; k < s->n; k++) {
-        double q = s->x[X_Q + k];
+        double q = s->x[XI(k, F_Q)];
         if (s->seg.active[k] || q <= 0)
             continue;
-        s->x[X_Q + k] = 0.0;
-        s->x[X_VC + k] -= q / br_sim_cap(s, k, s->x[X_VC + k]);
+        s->x[XI(k, F_Q)] = 0.0;
+        s->k1_valid = 0;
+        s->x[XI(k, F_VC)] -= q / br_sim_cap(s, k, s->x[XI(k, F_VC)]);
         if (k > 1)
-            s->x[X_VC + k - 1] += q / br_sim_cap(s, k - 1, s->x[X_VC + k - 1]);
+            s->x[XI(k - 1, F_VC)] += q / br_sim_cap(s, k - 1, s->x[XI(k - 1, F_VC)]);
         else
             s->x[X_SQ] -= q; /* returned into the supply */
         if (!s->stats_on)
@@ -408,7 +410,7 @@ static int closed_form(br_sim *s, double tb, double *te)
     for (int k = 0; k < s->n; k++) {
         double iout = k + 1 < s->n ? g->iblk[k + 1] : 0.0;
         ic[k] = k == 0 ? 0.0 : g->iblk[k] - iout - g->iload[k];
-        rate[k] = k == 0 ? g->vs_slope : ic[k] / br_sim_cap(s, k, s->x[X_VC + k]);
+        rate[k] = k == 0 ? g->vs_slope : ic[k] / br_sim_cap(s, k, s->x[XI(k, F_VC)]);
         double v0 = s->vr[k], thr = rail_threshold(s, k);
         if (rate[k] == 0.0 || !isfinite(thr))
             continue;
@@ -424,15 +426,15 @@ static int closed_form(br_sim *s, double tb, double *te)
     for (int k = 0; k < s->n; k++) {
         double va = s->vr[k];
         if (k > 0) {
-            s->x[X_VC + k] += rate[k] * dt;
-            s->x[X_LQ + k] += g->iblk[k] * dt;
-            s->x[X_LI2 + k] += g->iblk[k] * g->iblk[k] * dt;
-            s->x[X_RI2 + k] += ic[k] * ic[k] * dt;
+            s->x[XI(k, F_VC)] += rate[k] * dt;
+            s->x[XI(k, F_LQ)] += g->iblk[k] * dt;
+            s->x[XI(k, F_LI2)] += g->iblk[k] * g->iblk[k] * dt;
+            s->x[XI(k, F_RI2)] += ic[k] * ic[k] * dt;
         }
         double vb = k == 0 ? supply_v(s, *te) - s->c->rsupply * isup
-                           : s->x[X_VC + k] + s->c->st[k].cap.esr * ic[k];
-        s->x[X_RV + k] += 0.5 * (va + vb) * dt;
-        s->x[X_RQL + k] += g->iload[k] * dt;
+                           : s->x[XI(k, F_VC)] + s->c->st[k].cap.esr * ic[k];
+        s->x[XI(k, F_RV)] += 0.5 * (va + vb) * dt;
+        s->x[XI(k, F_RQL)] += g->iload[k] * dt;
         s->vr[k] = vb;
         s->ic[k] = ic[k];
         s->il[k] = k > 0 ? g->iblk[k] : 0.0;
@@ -456,9 +458,9 @@ static void toggle(br_sim *s, int k)
 /* Fill the workspace (currents, rail voltages) for the state at s->t. */
 static void evaluate_now(br_sim *s, double tb)
 {
-    double dx[X_SIZE];
     build_seg(s, s->t, tb);
-    br_sim_rhs(s, s->t, s->x, dx);
+    br_sim_rhs(s, s->t, s->x, s->k1);
+    s->k1_valid = 1; /* the integrator starts from it */
 }
 
 /* Settle UVLO states at the present instant; a rail that toggles more than
@@ -484,7 +486,9 @@ int br_sim_run_until(br_sim *s, double t_end, br_error *err)
         recover(s);
         br_sim_track_extremes(s, s->t);
         int due = -1, status = 0;
+        s->nintervals++;
         if (s->seg.nactive == 0 && !s->seg.zener) {
+            s->nclosed++;
             double te;
             due = closed_form(s, tb, &te);
         } else {
@@ -530,7 +534,7 @@ void br_sim_track_extremes(br_sim *s, double t)
         r->vmax = fmax(r->vmax, s->vr[k]);
         r->vdrv_min = fmin(r->vdrv_min, vd);
         r->vdrv_max = fmax(r->vdrv_max, vd);
-        r->vc_max = fmax(r->vc_max, k > 0 ? s->x[X_VC + k] : s->vr[0]);
+        r->vc_max = fmax(r->vc_max, k > 0 ? s->x[XI(k, F_VC)] : s->vr[0]);
         if (k == 0)
             continue;
         br_link_stats *l = &s->st.link[k];
@@ -547,13 +551,13 @@ const br_stats *br_sim_stats(br_sim *s)
     st->t1 = s->t;
     for (int k = 0; k < s->n; k++) {
         br_rail_stats *r = &st->rail[k];
-        r->vint = x[X_RV + k] - q0[X_RV + k];
-        r->icap2 = x[X_RI2 + k] - q0[X_RI2 + k];
-        r->qload = x[X_RQL + k] - q0[X_RQL + k];
+        r->vint = x[XI(k, F_RV)] - q0[XI(k, F_RV)];
+        r->icap2 = x[XI(k, F_RI2)] - q0[XI(k, F_RI2)];
+        r->qload = x[XI(k, F_RQL)] - q0[XI(k, F_RQL)];
         br_link_stats *l = &st->link[k];
-        l->q = x[X_LQ + k] - q0[X_LQ + k];
-        l->i2 = x[X_LI2 + k] - q0[X_LI2 + k];
-        l->e_cond = x[X_LE + k] - q0[X_LE + k];
+        l->q = x[XI(k, F_LQ)] - q0[XI(k, F_LQ)];
+        l->i2 = x[XI(k, F_LI2)] - q0[XI(k, F_LI2)];
+        l->e_cond = x[XI(k, F_LE)] - q0[XI(k, F_LE)];
     }
     st->qsupply = x[X_SQ] - q0[X_SQ];
     st->esupply = x[X_SE] - q0[X_SE];

@@ -6,23 +6,25 @@
 
 #define BR_N BR_MAX_SWITCHES
 
-/* Layout of the integrated vector: rail capacitor voltages, diode stored
- * charges, then quadratures (integrated alongside but left out of the
- * error control). */
+/* Layout of the integrated vector, stage by stage so that only n * NF
+ * entries are in use: rail capacitor voltage and diode stored charge
+ * (controlled by the step-size error), then quadratures integrated
+ * alongside.  Link 0 does not exist: its slots hold the supply's. */
 enum {
-    X_VC = 0,               /* [k] capacitor voltage of rail k, V */
-    X_Q = BR_N,             /* [k] stored charge of link k, C */
-    X_NSTATE = 2 * BR_N,    /* end of the controlled states */
-    X_LQ = X_NSTATE,        /* [k] link forward charge, C */
-    X_LI2 = X_LQ + BR_N,    /* [k] link integral of i^2, A^2 s */
-    X_LE = X_LI2 + BR_N,    /* [k] link conduction energy, J */
-    X_RV = X_LE + BR_N,     /* [k] rail voltage integral, V s */
-    X_RI2 = X_RV + BR_N,    /* [k] capacitor current squared integral */
-    X_RQL = X_RI2 + BR_N,   /* [k] load charge (driver, LDO, clamp), C */
-    X_SQ = X_RQL + BR_N,    /* supply charge, C */
-    X_SE,                   /* supply energy, J */
-    X_SIZE
+    F_VC = 0,  /* capacitor voltage of rail k, V */
+    F_Q,       /* stored charge of link k, C */
+    F_LQ,      /* link forward charge, C */
+    F_LI2,     /* link integral of i^2, A^2 s */
+    F_LE,      /* link conduction energy, J */
+    F_RV,      /* rail voltage integral, V s */
+    F_RI2,     /* capacitor current squared integral, A^2 s */
+    F_RQL,     /* load charge (driver, LDO, clamp), C */
+    NF
 };
+#define XI(k, f) ((k) * NF + (f))
+#define X_SQ XI(0, F_LQ)  /* supply charge, C */
+#define X_SE XI(0, F_LI2) /* supply energy, J */
+#define X_SIZE (BR_N * NF)
 
 /* What stays constant (or linear in time) over one interval. */
 typedef struct br_seg {
@@ -41,6 +43,7 @@ typedef struct br_seg {
 struct br_sim {
     const br_chain *c;
     int n;                      /* stages */
+    int nx;                     /* entries of x in use: n * NF */
     int dir;                    /* br_dir_index */
     int integ;                  /* br_integrator */
     br_timing tm;
@@ -68,7 +71,13 @@ struct br_sim {
     double vr[BR_N];            /* rail node voltages at the last evaluation, V */
     double ic[BR_N];            /* capacitor currents at the last evaluation, A */
     double iz[BR_N];            /* clamp currents, A */
+    double ul[BR_N], gl[BR_N];  /* link drive voltage and its conductance at
+                                   the last solve (the Newton predictor) */
     unsigned long evals;
+    unsigned long nsteps, nrejects, nintervals, nclosed; /* counters for benchmarks */
+    double k1[X_SIZE];          /* derivative at (t, x) for the seg in force */
+    double rk[6][X_SIZE];       /* stages of the Runge-Kutta step */
+    int k1_valid;               /* k1 matches the present state */
     double hlast;               /* last accepted RK step, s (0: none yet) */
     void *gsl_step;             /* rk8pd stepper of the reference path */
     /* results */
@@ -95,7 +104,7 @@ double br_sim_cap(const br_sim *s, int k, double v);
  * early at a UVLO crossing.  Returns the time reached. */
 double br_sim_integrate(br_sim *s, double tb, int *status);
 
-void *br_sim_gsl_alloc(void);
+void *br_sim_gsl_alloc(int nx);
 void br_sim_gsl_free(void *p);
 
 /* Record rail/link extremes at the current workspace (accepted points). */

@@ -30,26 +30,28 @@ static const double E1 = 71.0 / 57600, E3 = -71.0 / 16695, E4 = 71.0 / 1920,
 static void dp45_step(br_sim *s, double t, double h, const double *x, const double *k1,
                       double *y, double *e, double *k7)
 {
-    double k2[X_SIZE], k3[X_SIZE], k4[X_SIZE], k5[X_SIZE], k6[X_SIZE], w[X_SIZE];
-    for (int i = 0; i < X_SIZE; i++)
+    double *k2 = s->rk[0], *k3 = s->rk[1], *k4 = s->rk[2], *k5 = s->rk[3], *k6 = s->rk[4];
+    double *w = s->rk[5];
+    const int nx = s->nx;
+    for (int i = 0; i < nx; i++)
         w[i] = x[i] + h * A21 * k1[i];
     br_sim_rhs(s, t + C2 * h, w, k2);
-    for (int i = 0; i < X_SIZE; i++)
+    for (int i = 0; i < nx; i++)
         w[i] = x[i] + h * (A31 * k1[i] + A32 * k2[i]);
     br_sim_rhs(s, t + C3 * h, w, k3);
-    for (int i = 0; i < X_SIZE; i++)
+    for (int i = 0; i < nx; i++)
         w[i] = x[i] + h * (A41 * k1[i] + A42 * k2[i] + A43 * k3[i]);
     br_sim_rhs(s, t + C4 * h, w, k4);
-    for (int i = 0; i < X_SIZE; i++)
+    for (int i = 0; i < nx; i++)
         w[i] = x[i] + h * (A51 * k1[i] + A52 * k2[i] + A53 * k3[i] + A54 * k4[i]);
     br_sim_rhs(s, t + C5 * h, w, k5);
-    for (int i = 0; i < X_SIZE; i++)
+    for (int i = 0; i < nx; i++)
         w[i] = x[i] + h * (A61 * k1[i] + A62 * k2[i] + A63 * k3[i] + A64 * k4[i] + A65 * k5[i]);
     br_sim_rhs(s, t + h, w, k6);
-    for (int i = 0; i < X_SIZE; i++)
+    for (int i = 0; i < nx; i++)
         y[i] = x[i] + h * (B1 * k1[i] + B3 * k3[i] + B4 * k4[i] + B5 * k5[i] + B6 * k6[i]);
     br_sim_rhs(s, t + h, y, k7); /* leaves the workspace at the step end */
-    for (int i = 0; i < X_NSTATE; i++)
+    for (int i = 0; i < nx; i++)
         e[i] = h * (E1 * k1[i] + E3 * k3[i] + E4 * k4[i] + E5 * k5[i] + E6 * k6[i] + E7 * k7[i]);
 }
 
@@ -63,7 +65,7 @@ static int gsl_rhs(double t, const double y[], double f[], void *p)
     return GSL_SUCCESS;
 }
 
-void *br_sim_gsl_alloc(void) { return gsl_odeiv2_step_alloc(gsl_odeiv2_step_rk8pd, X_SIZE); }
+void *br_sim_gsl_alloc(int nx) { return gsl_odeiv2_step_alloc(gsl_odeiv2_step_rk8pd, (size_t)nx); }
 void br_sim_gsl_free(void *p)
 {
     if (p)
@@ -75,16 +77,17 @@ static void rk8_step(br_sim *s, double t, double h, const double *x, double *y, 
                      double *kend)
 {
     gsl_ctx ctx = {s};
-    gsl_odeiv2_system sys = {gsl_rhs, NULL, X_SIZE, &ctx};
+    const int nx = s->nx;
+    gsl_odeiv2_system sys = {gsl_rhs, NULL, (size_t)nx, &ctx};
     gsl_odeiv2_step *st = s->gsl_step;
     double yerr[X_SIZE];
-    memcpy(y, x, sizeof(double) * X_SIZE);
+    memcpy(y, x, sizeof(double) * (size_t)nx);
     gsl_odeiv2_step_reset(st);
     if (gsl_odeiv2_step_apply(st, t, h, y, yerr, NULL, NULL, &sys) != GSL_SUCCESS) {
-        for (int i = 0; i < X_NSTATE; i++)
+        for (int i = 0; i < nx; i++)
             e[i] = HUGE_VAL;
     } else {
-        memcpy(e, yerr, sizeof(double) * X_NSTATE);
+        memcpy(e, yerr, sizeof(double) * (size_t)nx);
     }
     br_sim_rhs(s, t + h, y, kend); /* leave the workspace at the step end */
 }
@@ -104,10 +107,10 @@ static double error_norm(const br_sim *s, const double *x, const double *y, cons
 {
     double worst = 0.0;
     for (int k = 1; k < s->n; k++) {
-        double sv = s->atol_v + s->rtol * fmax(fabs(x[X_VC + k]), fabs(y[X_VC + k]));
-        double sq = s->atol_q + s->rtol * fmax(fabs(x[X_Q + k]), fabs(y[X_Q + k]));
-        worst = fmax(worst, fabs(e[X_VC + k]) / sv);
-        worst = fmax(worst, fabs(e[X_Q + k]) / sq);
+        double sv = s->atol_v + s->rtol * fmax(fabs(x[XI(k, F_VC)]), fabs(y[XI(k, F_VC)]));
+        double sq = s->atol_q + s->rtol * fmax(fabs(x[XI(k, F_Q)]), fabs(y[XI(k, F_Q)]));
+        worst = fmax(worst, fabs(e[XI(k, F_VC)]) / sv);
+        worst = fmax(worst, fabs(e[XI(k, F_Q)]) / sq);
     }
     return worst;
 }
@@ -149,16 +152,23 @@ double br_sim_integrate(br_sim *s, double tb, int *status)
 {
     double t = s->t, k1[X_SIZE], y[X_SIZE], e[X_SIZE], kend[X_SIZE];
     int p = s->integ == BR_INTEG_REFERENCE ? 7 : 4;
-    double h = s->hlast > 0 ? fmin(s->hlast, (tb - t) / 4) : (tb - t) / 8;
+    double h = s->hlast > 0 ? s->hlast : (tb - t) / 8;
     *status = 0;
     if (tb - t < 1e-15) { /* an interval of rounding size: nothing moves */
         s->t = tb;
         return tb;
     }
-    br_sim_rhs(s, t, s->x, k1);
+    if (s->k1_valid)
+        memcpy(k1, s->k1, sizeof(double) * (size_t)s->nx);
+    else
+        br_sim_rhs(s, t, s->x, k1);
+    s->k1_valid = 0;
     while (t < tb) {
-        if (h > tb - t || tb - t - h < 1e-15)
+        int cut = 0; /* the step is shortened to end the interval */
+        if (h > tb - t || tb - t - h < 1e-15) {
+            cut = h < tb - t ? 0 : 1;
             h = tb - t;
+        }
         if (h < 1e-16 * fmax(1.0, fabs(t)) + 1e-18) {
             *status = -1;
             break;
@@ -166,24 +176,30 @@ double br_sim_integrate(br_sim *s, double tb, int *status)
         take_step(s, t, h, s->x, k1, y, e, kend);
         double err = error_norm(s, s->x, y, e);
         if (!(err <= 1.0)) {
+            s->nrejects++;
             h = next_h(h, isnan(err) ? 1e9 : err, p);
             continue;
         }
         if (br_sim_uvlo_due(s, s->vr) >= 0) {
             h = locate_uvlo(s, t, h, s->x, k1, y);
-            memcpy(s->x, y, sizeof y);
+            memcpy(s->x, y, sizeof(double) * (size_t)s->nx);
             t += h;
             br_sim_track_extremes(s, t);
             observe(s, t);
             *status = 1;
             break;
         }
-        memcpy(s->x, y, sizeof y);
+        memcpy(s->x, y, sizeof(double) * (size_t)s->nx);
         t += h;
+        s->nsteps++;
         br_sim_track_extremes(s, t);
         observe(s, t);
-        s->hlast = h = next_h(h, err, p);
-        memcpy(k1, kend, sizeof kend);
+        /* a step cut short by the interval end says nothing about the
+         * step the dynamics allow: do not let it shrink the next one */
+        double hn = next_h(h, err, p);
+        s->hlast = cut ? fmax(s->hlast, hn) : hn;
+        h = s->hlast;
+        memcpy(k1, kend, sizeof(double) * (size_t)s->nx);
     }
     s->t = t;
     return t;
