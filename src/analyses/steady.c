@@ -47,6 +47,7 @@ typedef struct shoot {
     br_sim *sim;
     double phase;
     int m;                 /* unknowns */
+    int mv;                /* of which rail voltages (they come first) */
     int idx[NX];           /* position in the full x of unknown i */
     double base[NX];       /* full x the unknowns are written into */
     long periods;
@@ -63,8 +64,11 @@ static void map_unknowns(shoot *sh)
 {
     int n = sh->c->n;
     sh->m = 0;
+    if (sh->c->csupply > 0 && sh->c->rsupply > 0)
+        sh->idx[sh->m++] = 0; /* the bypass capacitor on rail 0 */
     for (int k = 1; k < n; k++)
         sh->idx[sh->m++] = k;
+    sh->mv = sh->m;
     for (int k = 1; k < n; k++)
         if (sh->c->st[k].diode.tau > 0)
             sh->idx[sh->m++] = n + k;
@@ -181,7 +185,7 @@ static int shoot_newton(shoot *sh, double *z, const br_steady_opts *o, br_steady
             dF[i] = Fn[i] - F[i];
             F[i] = Fn[i];
         }
-        out->residual = max_abs_diff(pz, z, sh->c->n - 1);
+        out->residual = max_abs_diff(pz, z, sh->mv);
         ok = out->residual <= o->tol && !sh->dropped;
         broyden(B, dz, dF, m);
     }
@@ -207,6 +211,7 @@ static void estimate(const br_chain *c, double *x)
         ilink[k] = iabove;
     }
     double v = c->vsupply;
+    x[0] = v;
     for (int k = 1; k < c->n; k++) {
         const br_diode *d = &c->st[k].diode;
         double ipk = 2.0 * ilink[k] + 1e-6; /* windows are about half the period */
@@ -228,7 +233,7 @@ static int plain(shoot *sh, double *x, const br_steady_opts *o, br_steady *out, 
             return rc;
         sh->periods++;
         br_sim_state(sh->sim, now);
-        double d = max_abs_diff(now + 1, prev + 1, sh->c->n - 1);
+        double d = max_abs_diff(now, prev, sh->c->n);
         memcpy(prev, now, sizeof now);
         if (d <= o->tol) {
             out->residual = d;
@@ -259,7 +264,7 @@ static int finish(shoot *sh, const double *x, const br_steady_opts *o, br_steady
     rc = br_sim_run_until(sh->sim, (1 + o->check_periods) * sh->c->T, err);
     sh->periods += 1 + o->check_periods;
     br_sim_state(sh->sim, after);
-    out->drift = max_abs_diff(after + 1, x + 1, sh->c->n - 1) / (o->check_periods > 0 ? o->check_periods : 1);
+    out->drift = max_abs_diff(after, x, sh->c->n) / (o->check_periods > 0 ? o->check_periods : 1);
     memcpy(out->x, x, sizeof out->x);
     return rc;
 }

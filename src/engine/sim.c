@@ -165,11 +165,13 @@ void br_sim_reset_running_at(br_sim *s, const double *x, double phase)
         s->x[XI(k, F_VC)] = x[k];
         s->x[XI(k, F_Q)] = x[s->n + k];
     }
-    s->en[0] = c->vsupply > c->st[0].drv.uvlo_fall;
+    s->x[XI(0, F_VC)] = br_sim_bypass(s) ? x[0] : 0.0;
+    s->en[0] = (br_sim_bypass(s) ? x[0] : c->vsupply) > c->st[0].drv.uvlo_fall;
     for (int k = 1; k < s->n; k++)
         s->en[k] = br_sim_vdrv(s, k, x[k]) > c->st[k].drv.uvlo_fall;
     br_timing_state_at(&s->tm, phase, &s->cmd, &s->rev);
     settle_switches(s);
+    s->hlast = c->T / 32; /* a fixed first step keeps the period map deterministic */
 }
 
 void br_sim_reset_running(br_sim *s, const double *vc)
@@ -304,7 +306,7 @@ static double stage_load(const br_sim *s, int k, double t)
 
 static double left_rail(const br_sim *s, int k, double t)
 {
-    return k == 1 ? supply_v(s, t) : s->x[XI(k - 1, F_VC)];
+    return k == 1 && !br_sim_bypass(s) ? supply_v(s, t) : s->x[XI(k - 1, F_VC)];
 }
 
 /* Blocked link: leakage plus the mean junction-capacitance current of the
@@ -326,7 +328,8 @@ static void build_seg(br_sim *s, double ta, double tb)
     g->vs0 = supply_v(s, ta);
     g->vs_slope = (ta < s->tramp_end && c->tramp > 0) ? c->vsupply / c->tramp : 0.0;
     g->nactive = 0;
-    g->zener = 0;
+    /* a bypass capacitor charging from a ramping supply has no closed form here */
+    g->zener = br_sim_bypass(s) && g->vs_slope != 0.0;
     for (int k = 0; k < s->n; k++) {
         g->iload[k] = stage_load(s, k, ta);
         g->igate[k] = s->pulse_end[k] > ta ? s->pulse_i[k] : 0.0;
@@ -401,28 +404,60 @@ static double rail_threshold(const br_sim *s, int k)
 
 /* No link conducts: rails move linearly.  Returns the stage whose UVLO
  * threshold is crossed first (then *te is the crossing), or -1. */
+/* Rail 0 with a bypass capacitor relaxes toward Vs - Rs I0 with time
+ * constant Rs C0 (I0 what link 1 and driver 0 draw). */
+typedef struct bypass_cf {
+    double vinf, tau, v0;
+} bypass_cf;
+
+static double bypass_at(const bypass_cf *b, double dt) { return b->vinf + (b->v0 - b->vinf) * exp(-dt / b->tau); }
+
+/* Earliest crossing of thr by rail 0 after ta, or HUGE_VAL. */
+static double bypass_cross(const bypass_cf *b, double thr)
+{
+    double a = b->v0 - b->vinf, c = thr - b->vinf;
+    if (a == 0.0 || c / a <= 0.0 || c / a >= 1.0)
+        return HUGE_VAL;
+    return b->tau * log(a / c);
+}
+
+/* No link conducts: rails move linearly (rail 0 with a bypass capacitor
+ * exponentially).  Returns the stage whose UVLO threshold is crossed
+ * first (then *te is the crossing), or -1. */
 static int closed_form(br_sim *s, double tb, double *te)
 {
     const br_seg *g = &s->seg;
     double ta = s->t, rate[BR_N], ic[BR_N];
-    int first = -1;
+    int first = -1, bp = br_sim_bypass(s);
+    double i0 = (s->n > 1 ? g->iblk[1] : 0.0) + g->iload[0];
+    bypass_cf b = {g->vs0 - s->c->rsupply * i0, s->c->rsupply * s->c->csupply, s->x[XI(0, F_VC)]};
     *te = tb;
     for (int k = 0; k < s->n; k++) {
         double iout = k + 1 < s->n ? g->iblk[k + 1] : 0.0;
         ic[k] = k == 0 ? 0.0 : g->iblk[k] - iout - g->iload[k];
         rate[k] = k == 0 ? g->vs_slope : ic[k] / br_sim_cap(s, k, s->x[XI(k, F_VC)]);
-        double v0 = s->vr[k], thr = rail_threshold(s, k);
-        if (rate[k] == 0.0 || !isfinite(thr))
+        double v0 = s->vr[k], thr = rail_threshold(s, k), tc = HUGE_VAL;
+        if (!isfinite(thr))
             continue;
-        double tc = ta + (thr - v0) / rate[k];
-        int toward = s->en[k] ? rate[k] < 0 : rate[k] > 0;
-        if (toward && tc > ta && tc <= *te) {
+        if (k == 0 && bp) {
+            tc = ta + bypass_cross(&b, thr);
+        } else if (rate[k] != 0.0) {
+            int toward = s->en[k] ? rate[k] < 0 : rate[k] > 0;
+            tc = toward ? ta + (thr - v0) / rate[k] : HUGE_VAL;
+        }
+        if (tc > ta && tc <= *te) {
             *te = tc;
             first = k;
         }
     }
     double dt = *te - ta, vs_a = supply_v(s, ta);
-    double isup = (s->n > 1 ? g->iblk[1] : 0.0) + g->iload[0];
+    double isup = i0, q0 = 0.0;
+    if (bp) { /* charge through Rs: (Vs dt - integral of v) / Rs */
+        double vint = b.vinf * dt + (b.v0 - b.vinf) * b.tau * (1.0 - exp(-dt / b.tau));
+        q0 = (g->vs0 * dt - vint) / s->c->rsupply;
+        isup = dt > 0 ? q0 / dt : 0.0;
+        s->x[XI(0, F_VC)] = bypass_at(&b, dt);
+    }
     for (int k = 0; k < s->n; k++) {
         double va = s->vr[k];
         if (k > 0) {
@@ -431,8 +466,9 @@ static int closed_form(br_sim *s, double tb, double *te)
             s->x[XI(k, F_LI2)] += g->iblk[k] * g->iblk[k] * dt;
             s->x[XI(k, F_RI2)] += ic[k] * ic[k] * dt;
         }
-        double vb = k == 0 ? supply_v(s, *te) - s->c->rsupply * isup
-                           : s->x[XI(k, F_VC)] + s->c->st[k].cap.esr * ic[k];
+        double vb = k > 0 ? s->x[XI(k, F_VC)] + s->c->st[k].cap.esr * ic[k]
+                   : bp   ? s->x[XI(0, F_VC)]
+                          : supply_v(s, *te) - s->c->rsupply * isup;
         s->x[XI(k, F_RV)] += 0.5 * (va + vb) * dt;
         s->x[XI(k, F_RQL)] += g->iload[k] * dt;
         s->vr[k] = vb;

@@ -110,6 +110,10 @@ void br_sim_gsl_free(void *p);
 /* Record rail/link extremes at the current workspace (accepted points). */
 void br_sim_track_extremes(br_sim *s, double t);
 
+/* 1 when rail 0 has a bypass capacitor behind the supply resistance (then
+ * its voltage is a state), 0 when it is the supply behind its resistance. */
+int br_sim_bypass(const br_sim *s);
+
 /* Index of the first stage whose driver must toggle for rails vr, or -1. */
 int br_sim_uvlo_due(const br_sim *s, const double *vr);
 

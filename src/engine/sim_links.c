@@ -30,9 +30,26 @@ double br_sim_vdrv(const br_sim *s, int k, double vr)
     return vr;
 }
 
+int br_sim_bypass(const br_sim *s) { return s->c->csupply > 0 && s->c->rsupply > 0; }
+
+/* Series resistance between rail k's node and its stored charge: the ESR,
+ * or for rail 0 the supply resistance unless a bypass capacitor holds the
+ * rail (then the node is the capacitor itself). */
 static double esr_of(const br_sim *s, int k)
 {
-    return k == 0 ? s->c->rsupply : s->c->st[k].cap.esr;
+    if (k == 0)
+        return br_sim_bypass(s) ? 0.0 : s->c->rsupply;
+    return s->c->st[k].cap.esr;
+}
+
+static double supply_at(const br_seg *g, double t) { return g->vs0 + g->vs_slope * (t - g->t0); }
+
+/* Current the supply delivers through its resistance. */
+static double supply_current(const br_sim *s, double t, const double *x, double iout)
+{
+    if (br_sim_bypass(s))
+        return (supply_at(&s->seg, t) - x[XI(0, F_VC)]) / s->c->rsupply;
+    return iout + s->seg.iload[0];
 }
 
 /* Rail node voltages for link currents il (capacitor voltages x). */
@@ -44,9 +61,9 @@ static void rail_voltages(br_sim *s, double t, const double *x)
         double iout = k + 1 < n ? s->il[k + 1] : 0.0;
         double iin = k > 0 ? s->il[k] : 0.0;
         if (k == 0) {
-            double vs = g->vs0 + g->vs_slope * (t - g->t0);
-            s->ic[0] = 0;
-            s->vr[0] = vs - s->c->rsupply * (iout + g->iload[0]);
+            double isup = supply_current(s, t, x, iout);
+            s->ic[0] = br_sim_bypass(s) ? isup - iout - g->iload[0] : 0.0;
+            s->vr[0] = br_sim_bypass(s) ? x[XI(0, F_VC)] : supply_at(g, t) - s->c->rsupply * isup;
             continue;
         }
         s->ic[k] = iin - iout - g->iload[k] - s->iz[k];
@@ -97,7 +114,7 @@ static void solve_links(br_sim *s, double t, const double *x)
         }
         /* predictor: move the last solution along its tangent to the
          * present drive voltage, so one Newton update usually suffices */
-        double vl = k == 1 ? g->vs0 + g->vs_slope * (t - g->t0) : x[XI(k - 1, F_VC)];
+        double vl = k > 1 || br_sim_bypass(s) ? x[XI(k - 1, F_VC)] : supply_at(g, t);
         double drive = vl - x[XI(k, F_VC)] - (g->d0[k] + g->dslope[k] * (t - g->t0));
         s->il[k] += s->gl[k] * (drive - s->ul[k]);
         s->ul[k] = drive;
@@ -169,8 +186,9 @@ void br_sim_rhs(br_sim *s, double t, const double *x, double *dx)
         dx[XI(k, F_RV)] = s->vr[k];
         dx[XI(k, F_RQL)] = g->iload[k] + s->iz[k];
     }
-    double isup = (n > 1 ? s->il[1] : 0.0) + g->iload[0];
-    double vs = g->vs0 + g->vs_slope * (t - g->t0);
+    double isup = supply_current(s, t, x, n > 1 ? s->il[1] : 0.0);
+    if (br_sim_bypass(s))
+        dx[XI(0, F_VC)] = s->ic[0] / s->c->csupply;
     dx[X_SQ] = isup;
-    dx[X_SE] = isup * vs;
+    dx[X_SE] = isup * supply_at(g, t);
 }

@@ -71,6 +71,34 @@ static void test_rc_charging(void)
     br_design_free(d);
 }
 
+/* A bypass capacitor on rail 0 charges through the supply resistance:
+ * V(t) = Vs (1 - exp(-t / Rs C)) (circuit theory), on the closed-form
+ * path (no link conducts, no load). */
+static void test_bypass_charging(void)
+{
+    br_design *d = br_test_fcml(2, 400.0, 100e3, 0.5, 50e-9);
+    d->csupply = br_qty_fixed(47e-6);
+    d->rsupply = br_qty_fixed(0.5);
+    d->drivers[0].uvlo_rise = br_qty_fixed(100.0);
+    d->drivers[0].uvlo_fall = br_qty_fixed(99.0);
+    d->drivers[0].iq_off = br_qty_fixed(0.0);
+    br_chain *c;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    br_sim *s;
+    CU_ASSERT_EQUAL_FATAL(br_sim_create(c, BR_DIRI_NONE, BR_INTEG_FAST, &s, &err), BR_OK);
+    double vc[BR_MAX_SWITCHES], tau = 0.5 * 47e-6;
+    const double ts[] = {3e-6, 10e-6, 30e-6, 100e-6};
+    for (int i = 0; i < 4; i++) {
+        CU_ASSERT_EQUAL(br_sim_run_until(s, ts[i], &err), BR_OK);
+        br_sim_vc(s, vc);
+        BR_ASSERT_NEAR(vc[0], 12.0 * (1.0 - exp(-ts[i] / tau)), 1e-9);
+    }
+    br_sim_free(s);
+    br_chain_free(c);
+    br_design_free(d);
+}
+
 /* Outside its window a rail only feeds its driver: V falls by I t / C
  * (circuit theory), exactly, on the closed-form path. */
 static void test_linear_discharge(void)
@@ -278,6 +306,7 @@ int main(void)
     static const br_test_case cases[] = {
         {"RC charging against the closed form", test_rc_charging},
         {"linear discharge I t / C", test_linear_discharge},
+        {"bypass capacitor RC charging", test_bypass_charging},
         {"fast path against GSL rk8pd", test_fast_vs_gsl},
         {"charge conservation", test_charge_conservation},
         {"shooting against plain simulation", test_shooting_vs_plain},
