@@ -13,7 +13,7 @@
 
 void br_steady_opts_default(br_steady_opts *o)
 {
-    o->tol = 1e-7;
+    o->tol = 1e-5;
     o->max_iter = 12;
     o->max_plain = 400;
     o->check_periods = 3;
@@ -106,7 +106,9 @@ static int jacobian(shoot *sh, const double *z, const double *pz, gsl_matrix *B,
     for (int j = 0; j < sh->m; j++) {
         memcpy(zp, z, sizeof(double) * (size_t)sh->m);
         int is_q = sh->idx[j] >= sh->c->n;
-        double h = is_q ? 1e-12 + 1e-4 * fabs(z[j]) : 1e-5 * fmax(1.0, fabs(z[j]));
+        /* well above the integrator's noise (~1e-6 V a period), well inside
+         * the range where the map is linear */
+        double h = is_q ? 1e-12 + 1e-3 * fabs(z[j]) : 1e-4 * fmax(1.0, fabs(z[j]));
         zp[j] += h;
         int rc = period_map(sh, zp, yp, err);
         if (rc != BR_OK)
@@ -172,6 +174,7 @@ static int shoot_newton(shoot *sh, double *z, const br_steady_opts *o, br_steady
         F[i] = pz[i] - z[i];
     if ((rc = jacobian(sh, z, pz, B, err)) != BR_OK)
         goto done;
+    double last = HUGE_VAL;
     for (int it = 0; it < o->max_iter && !ok; it++) {
         out->iterations = it + 1;
         if (newton_step(B, LU, p, F, dz, m) != 0)
@@ -187,7 +190,15 @@ static int shoot_newton(shoot *sh, double *z, const br_steady_opts *o, br_steady
         }
         out->residual = max_abs_diff(pz, z, sh->mv);
         ok = out->residual <= o->tol && !sh->dropped;
-        broyden(B, dz, dF, m);
+        /* Broyden while it converges fast; a fresh Jacobian when the map
+         * here differs from where the last one was taken */
+        if (out->residual > 0.25 * last && !ok) {
+            if ((rc = jacobian(sh, z, pz, B, err)) != BR_OK)
+                goto done;
+        } else {
+            broyden(B, dz, dF, m);
+        }
+        last = out->residual;
     }
 done:
     gsl_matrix_free(B);

@@ -30,7 +30,7 @@ typedef struct br_steady {
 } br_steady;
 
 typedef struct br_steady_opts {
-    double tol;           /* residual target, V (default 1e-9) */
+    double tol;           /* residual target, V (default 1e-5) */
     int max_iter;         /* Newton iterations (default 12) */
     long max_plain;       /* periods of the plain fallback (default 400) */
     int check_periods;    /* cross-check periods (default 3) */
