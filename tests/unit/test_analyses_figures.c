@@ -1,0 +1,139 @@
+/* test_analyses_figures.c - margins, stresses and the verdict table. */
+#include "analyses/figures.h"
+#include "testdesign.h"
+#include "testkit.h"
+
+#include <math.h>
+
+static br_chain *chain_of(br_design *d)
+{
+    br_chain *c = NULL;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    return c;
+}
+
+static void solve(const br_chain *c, int dir, br_steady *ss, br_steady_figs *f)
+{
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_steady_solve(c, dir, NULL, ss, &err), BR_OK);
+    br_steady_figures(c, ss, f);
+}
+
+/* The figures restate the simulated period: the average current of link k
+ * is the charge of the rails above it (the charge balance of a cascade,
+ * common practice), and the derived margins follow their definitions. */
+static void test_figures_consistent(void)
+{
+    br_design *d = br_test_fcml(3, 600.0, 100e3, 0.5, 50e-9);
+    br_chain *c = chain_of(d);
+    br_steady ss;
+    br_steady_figs f;
+    solve(c, BR_DIRI_NONE, &ss, &f);
+    double per = 2e-3 + 10e-9 * 100e3; /* iq_on + Qg fsw of the test parts */
+    for (int k = 1; k < c->n; k++) {
+        BR_ASSERT_REL(f.link[k].iavg, (c->n - k) * per, 2e-3);
+        CU_ASSERT_TRUE(f.link[k].irms >= f.link[k].iavg);
+        CU_ASSERT_TRUE(f.link[k].ipeak >= f.link[k].irms);
+        BR_ASSERT_NEAR(f.rail[k].m_uvlo, f.rail[k].vdrv_min - 7.0, 1e-12);
+        BR_ASSERT_NEAR(f.rail[k].m_gate, 20.0 - f.rail[k].vdrv_max, 1e-12);
+        BR_ASSERT_NEAR(f.link[k].share, f.link[k].vrev_stress / 600.0, 1e-12);
+        /* the blocking voltage 600/2 less the rail difference */
+        BR_ASSERT_NEAR(f.link[k].vrev_sim, 300.0 - (f.rail[k - 1].vavg - f.rail[k].vavg), 0.1);
+    }
+    BR_ASSERT_REL(f.supply_iavg, f.link[1].iavg + per, 2e-3);
+    br_chain_free(c);
+    br_design_free(d);
+}
+
+/* Reverse conduction in dead time over-charges the rail above the
+ * conducting switch: stepping up, the top switches conduct, so a rail they
+ * return rises above the rail below it by more than when stepping down,
+ * and the other way round for the bottom switches (domain primer, sec. 2). */
+static void test_direction_overcharge(void)
+{
+    br_design *d = br_test_fcml(3, 600.0, 100e3, 0.5, 100e-9);
+    d->switches[0].vsd = br_qty_fixed(2.5);
+    d->direction = BR_DIR_BOTH;
+    br_chain *c = chain_of(d);
+    int dirs[2];
+    CU_ASSERT_EQUAL(br_design_directions(c, dirs), 2);
+    br_steady sd, su;
+    br_steady_figs fd, fu;
+    solve(c, dirs[0], &sd, &fd);
+    solve(c, dirs[1], &su, &fu);
+    /* link 3 returns through A2, a top switch */
+    double up3 = fu.rail[3].vavg - fu.rail[2].vavg, down3 = fd.rail[3].vavg - fd.rail[2].vavg;
+    CU_ASSERT_TRUE(up3 > down3 + 1.0);
+    CU_ASSERT_TRUE(up3 > 0.0); /* above the rail that feeds it */
+    /* link 1 returns through B1, a bottom switch */
+    double up1 = fu.rail[1].vavg - fu.rail[0].vavg, down1 = fd.rail[1].vavg - fd.rail[0].vavg;
+    CU_ASSERT_TRUE(down1 > up1 + 1.0);
+    CU_ASSERT_TRUE(down1 > 0.0);
+    br_chain_free(c);
+    br_design_free(d);
+}
+
+/* A gate maximum below the rail fails the gate row, names the rail and
+ * the direction, and fails the verdict; raising it passes. */
+static void test_verdict_gate(void)
+{
+    br_design *d = br_test_fcml(3, 600.0, 100e3, 0.5, 50e-9);
+    d->switches[0].vgs_max = br_qty_fixed(11.0);
+    br_chain *c = chain_of(d);
+    br_steady ss;
+    br_steady_figs f;
+    solve(c, BR_DIRI_NONE, &ss, &f);
+    br_verdict v;
+    br_verdict_make(c, NULL, &f, 1, &v);
+    const br_verdict_row *g = &v.row[BR_CRIT_GATE];
+    CU_ASSERT_TRUE(g->applies);
+    CU_ASSERT_FALSE(g->pass);
+    CU_ASSERT_EQUAL(g->stage, 0); /* rail 0, the supply at 12 V, is highest */
+    BR_ASSERT_NEAR(g->margin, 11.0 - f.rail[0].vdrv_max, 1e-12);
+    CU_ASSERT_FALSE(v.all_pass);
+    CU_ASSERT_FALSE(v.row[BR_CRIT_DRIVE].applies); /* no minimum drive set */
+    br_chain_free(c);
+    d->switches[0].vgs_max = br_qty_fixed(20.0);
+    c = chain_of(d);
+    solve(c, BR_DIRI_NONE, &ss, &f);
+    br_verdict_make(c, NULL, &f, 1, &v);
+    CU_ASSERT_TRUE(v.row[BR_CRIT_GATE].pass);
+    br_chain_free(c);
+    br_design_free(d);
+}
+
+/* A rail whose steady state sits between UVLO falling and rising runs on
+ * hysteresis only: the restart row fails while the UVLO row passes. */
+static void test_verdict_hysteresis_only(void)
+{
+    br_design *d = br_test_fcml(3, 600.0, 100e3, 0.5, 50e-9);
+    br_chain *c = chain_of(d);
+    br_steady ss;
+    br_steady_figs f;
+    solve(c, BR_DIRI_NONE, &ss, &f);
+    double top = f.rail[c->n - 1].vdrv_min;
+    br_chain_free(c);
+    d->drivers[0].uvlo_rise = br_qty_fixed(top + 0.2);
+    d->drivers[0].uvlo_fall = br_qty_fixed(top - 0.5);
+    c = chain_of(d);
+    br_verdict v;
+    solve(c, BR_DIRI_NONE, &ss, &f);
+    br_verdict_make(c, NULL, &f, 1, &v);
+    CU_ASSERT_TRUE(v.row[BR_CRIT_UVLO].pass);
+    CU_ASSERT_FALSE(v.row[BR_CRIT_RESTART].pass);
+    CU_ASSERT_EQUAL(v.row[BR_CRIT_RESTART].stage, c->n - 1);
+    br_chain_free(c);
+    br_design_free(d);
+}
+
+int main(void)
+{
+    static const br_test_case cases[] = {
+        {"figures consistent with the period", test_figures_consistent},
+        {"dead-time reverse conduction over-charges", test_direction_overcharge},
+        {"verdict: gate maximum", test_verdict_gate},
+        {"verdict: rail on hysteresis only", test_verdict_hysteresis_only},
+        {NULL, NULL}};
+    return br_test_main("analyses/figures", cases);
+}
