@@ -211,6 +211,8 @@ static double next_time(const br_sim *s, double t_end)
     return tn;
 }
 
+static void recover_link(br_sim *s, int k);
+
 /* Bring every switch toward its new target; start gate pulses of the
  * switches that are now driven on. */
 static void update_targets(br_sim *s, double t)
@@ -222,6 +224,9 @@ static void update_targets(br_sim *s, double t)
         double target = on ? 0.0 : ((s->rev >> k & 1) ? -st->sw.vsd : st->vblock);
         if (target != s->starget[k]) {
             double v = br_sim_switch_v(s, k, t);
+            /* the switch starts blocking: the link it returns recovers */
+            if (target > 0 && k + 1 < s->n)
+                recover_link(s, k + 1);
             double dur = c->tedge * fabs(target - v) / st->vblock;
             s->starget[k] = target;
             s->sv0[k] = dur > 0 ? v : target;
@@ -350,35 +355,44 @@ static void build_seg(br_sim *s, double ta, double tb)
     }
 }
 
-/* Charge still stored in a diode whose link is now blocked recovers: it
- * flows back from rail k to rail k-1 (charge-control model). */
-static void recover(br_sim *s)
+/* The charge still stored in the diode of link k recovers: it flows back
+ * from rail k to rail k-1 (charge-control model, Lauritzen & Ma 1991). */
+static void recover_link(br_sim *s, int k)
 {
     const br_chain *c = s->c;
-    for (int k = 1; k < s->n; k++) {
-        double q = s->x[XI(k, F_Q)];
-        if (s->seg.active[k] || q <= 0)
-            continue;
-        s->x[XI(k, F_Q)] = 0.0;
-        s->k1_valid = 0;
-        s->x[XI(k, F_VC)] -= q / br_sim_cap(s, k, s->x[XI(k, F_VC)]);
-        if (k > 1)
-            s->x[XI(k - 1, F_VC)] += q / br_sim_cap(s, k - 1, s->x[XI(k - 1, F_VC)]);
-        else
-            s->x[X_SQ] -= q; /* returned into the supply */
-        if (!s->stats_on)
-            continue;
-        const br_stage *st = &c->st[k];
-        br_link_stats *ls = &s->st.link[k];
-        double rp = st->diode.rs + s->seg.rpath[k];
-        double didt = c->tedge > 0 && rp > 0 ? st->vblock / (c->tedge * rp) : HUGE_VAL;
-        br_recovery r = {0};
-        if (isfinite(didt))
-            br_diode_recovery(q, didt, BR_DIODE_SOFTNESS, &r);
-        ls->qrr += q;
-        ls->e_rr += q * c->st[k - 1].vblock;
-        ls->irrm = fmax(ls->irrm, r.irrm);
-    }
+    double q = s->x[XI(k, F_Q)];
+    if (q <= 0)
+        return;
+    s->x[XI(k, F_Q)] = 0.0;
+    s->k1_valid = 0;
+    s->x[XI(k, F_VC)] -= q / br_sim_cap(s, k, s->x[XI(k, F_VC)]);
+    if (k > 1 || br_sim_bypass(s))
+        s->x[XI(k - 1, F_VC)] += q / br_sim_cap(s, k - 1, s->x[XI(k - 1, F_VC)]);
+    if (k == 1)
+        s->x[X_SQ] -= q; /* returned toward the supply */
+    if (!s->stats_on)
+        return;
+    const br_stage *st = &c->st[k];
+    br_link_stats *ls = &s->st.link[k];
+    double rp = st->diode.rs + st->r_link + c->st[k - 1].sw.rds_on;
+    /* the forward current is cut at the rate the edge drives through the
+     * link's resistance */
+    double didt = c->tedge > 0 && rp > 0 ? st->vblock / (c->tedge * rp) : HUGE_VAL;
+    br_recovery r = {0};
+    if (isfinite(didt))
+        br_diode_recovery(q, didt, BR_DIODE_SOFTNESS, &r);
+    ls->qrr += q;
+    ls->e_rr += q * c->st[k - 1].vblock;
+    ls->irrm = fmax(ls->irrm, r.irrm);
+}
+
+/* A link found blocked still holding charge (its rails moved apart
+ * rather than its switch turning off) recovers too. */
+static void recover(br_sim *s)
+{
+    for (int k = 1; k < s->n; k++)
+        if (!s->seg.active[k])
+            recover_link(s, k);
 }
 
 int br_sim_uvlo_due(const br_sim *s, const double *vr)

@@ -4,6 +4,7 @@
 #include "testkit.h"
 
 #include <math.h>
+#include <stdio.h>
 
 static br_chain *chain_of(br_design *d)
 {
@@ -127,6 +128,68 @@ static void test_verdict_hysteresis_only(void)
     br_design_free(d);
 }
 
+/* A Zener clamp holds its rail near the knee: the current through it is
+ * (v - Vz) / rz, so the rail settles where that current takes what the
+ * link brings beyond the driver's needs (circuit theory). */
+static void test_zener_clamp(void)
+{
+    br_design *d = br_test_fcml(3, 600.0, 100e3, 0.5, 50e-9);
+    d->switches[0].vsd = br_qty_fixed(3.0);
+    d->direction = BR_DIR_STEP_DOWN; /* rails 1 and 2 over-charge */
+    br_aux_part *z = &d->aux[d->naux++];
+    br_aux_part_defaults(z);
+    snprintf(z->id, sizeof z->id, "clamp");
+    z->kind = BR_AUX_ZENER;
+    z->vout = br_qty_fixed(12.5);
+    z->rz = br_qty_fixed(2.0);
+    d->def.aux = 0;
+    br_chain *c = chain_of(d);
+    br_steady ss;
+    br_steady_figs f;
+    solve(c, BR_DIRI_DOWN, &ss, &f);
+    double dt = ss.stats.t1 - ss.stats.t0;
+    for (int k = 1; k < c->n; k++) {
+        CU_ASSERT_TRUE(f.rail[k].vavg < 12.5 + 0.5);
+        /* the clamp's share of the rail's load charge is its current */
+        double iclamp = ss.stats.rail[k].qload / dt - 2e-3 - 10e-9 * 100e3;
+        if (f.rail[k].vavg > 12.5)
+            BR_ASSERT_NEAR(iclamp, (f.rail[k].vavg - 12.5) / 2.0, 2e-3);
+    }
+    CU_ASSERT_TRUE(f.rail[2].vavg > 12.5); /* it did clamp something */
+    br_chain_free(c);
+    br_design_free(d);
+}
+
+/* A linear regulator feeds the driver min(vout, rail - dropout): the
+ * drive voltage never exceeds vout, and UVLO is judged on it. */
+static void test_regulator(void)
+{
+    br_design *d = br_test_fcml(3, 600.0, 100e3, 0.5, 50e-9);
+    br_aux_part *r = &d->aux[d->naux++];
+    br_aux_part_defaults(r);
+    snprintf(r->id, sizeof r->id, "ldo");
+    r->kind = BR_AUX_LDO;
+    r->vout = br_qty_fixed(10.0);
+    r->dropout = br_qty_fixed(0.4);
+    r->iq = br_qty_fixed(100e-6);
+    d->def.aux = 0;
+    br_chain *c = chain_of(d);
+    br_steady ss;
+    br_steady_figs f;
+    solve(c, BR_DIRI_NONE, &ss, &f);
+    for (int k = 0; k < c->n; k++) {
+        double want = fmin(10.0, f.rail[k].vmin - 0.4);
+        BR_ASSERT_NEAR(f.rail[k].vdrv_min, want, 1e-9);
+        CU_ASSERT_TRUE(f.rail[k].vdrv_max <= 10.0 + 1e-12);
+        BR_ASSERT_NEAR(f.rail[k].m_uvlo, f.rail[k].vdrv_min - 7.0, 1e-12);
+    }
+    /* the regulator's own current rides on every rail */
+    double per = 2e-3 + 100e-6 + 10e-9 * 100e3;
+    BR_ASSERT_REL(f.link[1].iavg, (c->n - 1) * per, 2e-3);
+    br_chain_free(c);
+    br_design_free(d);
+}
+
 int main(void)
 {
     static const br_test_case cases[] = {
@@ -134,6 +197,8 @@ int main(void)
         {"dead-time reverse conduction over-charges", test_direction_overcharge},
         {"verdict: gate maximum", test_verdict_gate},
         {"verdict: rail on hysteresis only", test_verdict_hysteresis_only},
+        {"Zener clamp", test_zener_clamp},
+        {"linear regulator", test_regulator},
         {NULL, NULL}};
     return br_test_main("analyses/figures", cases);
 }
