@@ -18,6 +18,8 @@ void br_steady_opts_default(br_steady_opts *o)
     o->max_plain = 400;
     o->check_periods = 3;
     o->guess = NULL;
+    o->jac = NULL;
+    o->jac_valid = NULL;
 }
 
 double br_steady_quiet_phase(const br_chain *c, const br_timing *tm)
@@ -172,8 +174,16 @@ static int shoot_newton(shoot *sh, double *z, const br_steady_opts *o, br_steady
         goto done;
     for (int i = 0; i < m; i++)
         F[i] = pz[i] - z[i];
-    if ((rc = jacobian(sh, z, pz, B, err)) != BR_OK)
+    out->residual = max_abs_diff(pz, z, sh->mv);
+    ok = out->residual <= o->tol && !sh->dropped; /* the guess may already be it */
+    int warm = o->jac && o->jac_valid && *o->jac_valid;
+    if (warm) {
+        for (int i = 0; i < m; i++)
+            for (int j = 0; j < m; j++)
+                gsl_matrix_set(B, (size_t)i, (size_t)j, o->jac[i * m + j]);
+    } else if (!ok && (rc = jacobian(sh, z, pz, B, err)) != BR_OK) {
         goto done;
+    }
     double last = HUGE_VAL;
     for (int it = 0; it < o->max_iter && !ok; it++) {
         out->iterations = it + 1;
@@ -199,6 +209,12 @@ static int shoot_newton(shoot *sh, double *z, const br_steady_opts *o, br_steady
             broyden(B, dz, dF, m);
         }
         last = out->residual;
+    }
+    if (o->jac && o->jac_valid && rc == BR_OK && (warm || out->iterations > 0)) {
+        for (int i = 0; i < m; i++)
+            for (int j = 0; j < m; j++)
+                o->jac[i * m + j] = gsl_matrix_get(B, (size_t)i, (size_t)j);
+        *o->jac_valid = 1;
     }
 done:
     gsl_matrix_free(B);

@@ -35,6 +35,13 @@ typedef struct br_steady_opts {
     long max_plain;       /* periods of the plain fallback (default 400) */
     int check_periods;    /* cross-check periods (default 3) */
     const double *guess;  /* initial x, or NULL for a cold-start estimate */
+    /* Warm start of the Newton matrix between neighbouring operating
+     * points (scans, maps): a caller-owned buffer of
+     * (2 BR_MAX_SWITCHES)^2 doubles, or NULL.  When *jac_valid is set the
+     * solver starts from it instead of a finite-difference Jacobian; on
+     * return it holds the latest matrix and *jac_valid is set. */
+    double *jac;
+    int *jac_valid;
 } br_steady_opts;
 
 void br_steady_opts_default(br_steady_opts *o);
