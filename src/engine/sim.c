@@ -125,6 +125,7 @@ static void clear_state(br_sim *s)
     s->hlast = 0.0;
     s->toggles = 0;
     s->stats_on = 0;
+    s->frozen = 0;
 }
 
 void br_sim_reset_cold(br_sim *s)
@@ -193,12 +194,24 @@ static double event_time(const br_sim *s)
 
 static int in_precharge(const br_sim *s) { return s->pre_idx < s->npre; }
 
+static void update_targets(br_sim *s, double t);
+
+void br_sim_freeze(br_sim *s, br_mask on)
+{
+    s->frozen = 1;
+    s->npre = s->pre_idx = 0;
+    s->cmd = on;
+    s->rev = 0; /* no load current once switching stops */
+    update_targets(s, s->t);
+    s->k1_valid = 0;
+}
+
 static double next_time(const br_sim *s, double t_end)
 {
     double tn = t_end;
     if (in_precharge(s))
         tn = fmin(tn, s->pre_end[s->pre_idx]);
-    else
+    else if (!s->frozen)
         tn = fmin(tn, event_time(s));
     if (s->t < s->tramp_end)
         tn = fmin(tn, s->tramp_end);
@@ -277,7 +290,7 @@ static void apply_schedule(br_sim *s, double t)
             s->rev = 0;
         }
     }
-    if (!in_precharge(s))
+    if (!in_precharge(s) && !s->frozen)
         apply_pwm_events(s, t);
     for (int k = 0; k < s->n; k++) {
         if (s->send[k] > -HUGE_VAL && s->send[k] <= t) {

@@ -86,6 +86,11 @@ void br_sim_reset_running(br_sim *s, const double *vc);
  * The instant must be quiet: no ramp or gate pulse in progress. */
 void br_sim_reset_running_at(br_sim *s, const double *x, double phase);
 
+/* Stop switching now: from here on the switches in `on` are held on
+ * (if their drivers run) and all others off; nothing conducts in reverse.
+ * For hold-up: how long the rails last once the converter pauses. */
+void br_sim_freeze(br_sim *s, br_mask on);
+
 /* Advance to absolute time t_end. */
 int br_sim_run_until(br_sim *s, double t_end, br_error *err);
 

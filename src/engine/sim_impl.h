@@ -56,6 +56,7 @@ struct br_sim {
     br_mask driven;             /* commanded on with the driver running */
     double tramp_end;           /* supply still ramping before this time, s */
     int toggles;                /* UVLO toggles at the current instant */
+    int frozen;                 /* switching stopped (br_sim_freeze) */
     /* voltage across each switch: linear ramp toward its target */
     double sv0[BR_N], st0[BR_N], sslope[BR_N], send[BR_N], starget[BR_N];
     double pulse_end[BR_N], pulse_i[BR_N];
