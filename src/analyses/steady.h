@@ -33,7 +33,7 @@ typedef struct br_steady_opts {
     double tol;           /* residual target, V (default 1e-5) */
     int max_iter;         /* Newton iterations (default 12) */
     long max_plain;       /* periods of the plain fallback (default 400) */
-    int check_periods;    /* cross-check periods (default 3) */
+    int check_periods;    /* cross-check periods after the reported one (default 1) */
     const double *guess;  /* initial x, or NULL for a cold-start estimate */
     /* Warm start of the Newton matrix between neighbouring operating
      * points (scans, maps): a caller-owned buffer of

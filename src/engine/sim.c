@@ -21,7 +21,7 @@ int br_sim_create(const br_chain *c, int dir, int integrator, br_sim **out, br_e
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory for the simulator");
     s->c = c;
     s->n = c->n;
-    s->nx = c->n * NF;
+    s->nx = s->phi0 = c->n * NF;
     s->dir = dir;
     s->integ = integrator;
     br_timing_build(c, dir, &s->tm);
@@ -53,6 +53,27 @@ void br_sim_set_tolerance(br_sim *s, double rtol, double atol_v)
     s->rtol = rtol;
     s->atol_v = atol_v;
     s->atol_q = atol_v * 1e-8; /* stored charges are ~1e-8 of the rail volts */
+}
+
+void br_sim_set_variational(br_sim *s, int on)
+{
+    s->var = on && s->integ != BR_INTEG_REFERENCE;
+    s->nx = s->phi0 + (s->var ? s->n * s->n : 0);
+}
+
+void br_sim_sensitivity(const br_sim *s, double *phi)
+{
+    for (int i = 0; i < s->n * s->n; i++)
+        phi[i] = s->var ? s->x[s->phi0 + i] : (i % (s->n + 1) == 0);
+}
+
+static void phi_identity(br_sim *s)
+{
+    if (!s->var)
+        return;
+    for (int i = 0; i < s->n; i++)
+        for (int j = 0; j < s->n; j++)
+            s->x[s->phi0 + i * s->n + j] = i == j;
 }
 
 void br_sim_set_observer(br_sim *s, const br_sim_observer *obs)
@@ -173,6 +194,7 @@ void br_sim_reset_running_at(br_sim *s, const double *x, double phase)
     br_timing_state_at(&s->tm, phase, &s->cmd, &s->rev);
     settle_switches(s);
     s->hlast = c->T / 32; /* a fixed first step keeps the period map deterministic */
+    phi_identity(s);
 }
 
 void br_sim_reset_running(br_sim *s, const double *vc)
@@ -484,6 +506,8 @@ static int closed_form(br_sim *s, double tb, double *te)
         q0 = (g->vs0 * dt - vint) / s->c->rsupply;
         isup = dt > 0 ? q0 / dt : 0.0;
         s->x[XI(0, F_VC)] = bypass_at(&b, dt);
+        for (int j = 0; s->var && j < s->n; j++)
+            s->x[s->phi0 + j] *= exp(-dt / b.tau);
     }
     for (int k = 0; k < s->n; k++) {
         double va = s->vr[k];

@@ -107,6 +107,15 @@ const br_stats *br_sim_stats(br_sim *s);
 
 void br_sim_set_observer(br_sim *s, const br_sim_observer *obs);
 
+/* Integrate the sensitivity of the rail voltages to their values at the
+ * last reset (variational equation) alongside the state: one simulated
+ * period then gives the Jacobian of the period map.  Stored charges and
+ * the DC-bias slope of the capacitors are left out of it. */
+void br_sim_set_variational(br_sim *s, int on);
+/* d vc_i(now) / d vc_j(reset), n x n row-major (rail 0 is the bypass
+ * capacitor, or an identity row when there is none). */
+void br_sim_sensitivity(const br_sim *s, double *phi);
+
 /* Integration tolerances of the RK pair (defaults set by the integrator). */
 void br_sim_set_tolerance(br_sim *s, double rtol, double atol_v);
 

@@ -24,7 +24,10 @@ enum {
 #define XI(k, f) ((k) * NF + (f))
 #define X_SQ XI(0, F_LQ)  /* supply charge, C */
 #define X_SE XI(0, F_LI2) /* supply energy, J */
-#define X_SIZE (BR_N * NF)
+/* Optionally followed, from s->phi0 on, by the n x n sensitivity matrix
+ * Phi = d vc(t) / d vc(t0) (row-major), integrated with the variational
+ * equation dPhi/dt = A Phi, A the Jacobian of the rail equations. */
+#define X_SIZE (BR_N * NF + BR_N * BR_N)
 
 /* What stays constant (or linear in time) over one interval. */
 typedef struct br_seg {
@@ -43,7 +46,9 @@ typedef struct br_seg {
 struct br_sim {
     const br_chain *c;
     int n;                      /* stages */
-    int nx;                     /* entries of x in use: n * NF */
+    int nx;                     /* entries of x in use: n * NF (+ n * n) */
+    int var;                    /* the sensitivity matrix is integrated */
+    int phi0;                   /* where it starts in x: n * NF */
     int dir;                    /* br_dir_index */
     int integ;                  /* br_integrator */
     br_timing tm;
@@ -72,6 +77,7 @@ struct br_sim {
     double vr[BR_N];            /* rail node voltages at the last evaluation, V */
     double ic[BR_N];            /* capacitor currents at the last evaluation, A */
     double iz[BR_N];            /* clamp currents, A */
+    double gd[BR_N];            /* diode conductance at the last solve, S */
     double ul[BR_N], gl[BR_N];  /* link drive voltage and its conductance at
                                    the last solve (the Newton predictor) */
     unsigned long evals;

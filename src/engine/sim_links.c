@@ -132,6 +132,7 @@ static void solve_links(br_sim *s, double t, const double *x)
             double u = s->vr[k - 1] - s->vr[k] - dk, f, gd;
             br_diode_eval(&s->c->st[k].diode, g->rpath[k], u, &f, &gd);
             s->evals++;
+            s->gd[k] = gd;
             s->gl[k] = gd / (1.0 + gd * (esr_of(s, k - 1) + esr_of(s, k)));
             double el = esr_of(s, k - 1), eh = esr_of(s, k);
             r[k] = s->il[k] - f - cj_current(s, k, u, f);
@@ -160,6 +161,61 @@ static void solve_links(br_sim *s, double t, const double *x)
             break;
     }
     rail_voltages(s, t, x);
+}
+
+/* The variational equation dPhi/dt = A Phi.  A = d(dvc/dt)/dvc follows
+ * from the link solve by the implicit-function theorem: the Newton matrix
+ * Jr gives dil/dvc_j = -Jr^-1 dr/dvc_j, where r_k depends on vc_{k-1}
+ * through +gd_k and on vc_k through -gd_k. */
+static void variational(br_sim *s, const double *x, double *dx)
+{
+    const br_seg *g = &s->seg;
+    int n = s->n, bp = br_sim_bypass(s);
+    double a[BR_N], b[BR_N], c[BR_N], D[BR_N][BR_N], A[BR_N][BR_N];
+    for (int k = 1; k < n; k++) {
+        int on = g->active[k];
+        double gd = on ? s->gd[k] : 0.0, el = esr_of(s, k - 1), eh = esr_of(s, k);
+        b[k] = 1.0 + gd * (el + eh);
+        a[k] = on && k > 1 && g->active[k - 1] ? -gd * el : 0.0;
+        c[k] = on && k + 1 < n && g->active[k + 1] ? -gd * eh : 0.0;
+    }
+    for (int k = 2; k < n; k++) { /* Thomas forward sweep, once for all columns */
+        b[k] -= a[k] / b[k - 1] * c[k - 1];
+    }
+    for (int j = 0; j < n; j++) {
+        double r[BR_N] = {0};
+        if (j > 0 && g->active[j])
+            r[j] = -s->gd[j];
+        if (j + 1 < n && g->active[j + 1] && (j > 0 || bp))
+            r[j + 1] = s->gd[j + 1];
+        for (int k = 2; k < n; k++)
+            r[k] -= a[k] / b[k - 1] * r[k - 1];
+        for (int k = n - 1; k >= 1; k--)
+            r[k] = (r[k] - (k + 1 < n ? c[k] * r[k + 1] : 0.0)) / b[k];
+        for (int k = 1; k < n; k++)
+            D[k][j] = r[k];
+    }
+    for (int k = 0; k < n; k++) {
+        for (int j = 0; j < n; j++) {
+            double dout = k + 1 < n ? D[k + 1][j] : 0.0;
+            if (k == 0) {
+                A[0][j] = bp ? (-(j == 0) / s->c->rsupply - dout) / s->c->csupply : 0.0;
+                continue;
+            }
+            const br_aux *z = &s->c->st[k].aux;
+            double diz = (j == k && z->kind == BR_AUX_ZENER && x[XI(k, F_VC)] > z->vout) ? 1.0 / z->rz : 0.0;
+            A[k][j] = (D[k][j] - dout - diz) / br_sim_cap(s, k, x[XI(k, F_VC)]);
+        }
+    }
+    const double *phi = x + s->phi0;
+    double *dphi = dx + s->phi0;
+    for (int i = 0; i < n; i++)
+        for (int j = 0; j < n; j++) {
+            double acc = 0.0;
+            for (int m = 0; m < n; m++)
+                acc += A[i][m] * phi[m * n + j];
+            dphi[i * n + j] = acc;
+        }
 }
 
 void br_sim_rhs(br_sim *s, double t, const double *x, double *dx)
@@ -191,4 +247,6 @@ void br_sim_rhs(br_sim *s, double t, const double *x, double *dx)
         dx[XI(0, F_VC)] = s->ic[0] / s->c->csupply;
     dx[X_SQ] = isup;
     dx[X_SE] = isup * supply_at(g, t);
+    if (s->var)
+        variational(s, x, dx);
 }

@@ -345,6 +345,45 @@ static void test_recovery_charge(void)
     br_design_free(d);
 }
 
+/* The sensitivity integrated with the variational equation is the
+ * Jacobian of the period map: it agrees with finite differences of whole
+ * simulated periods (central differences, 1 mV steps). */
+static void test_sensitivity(void)
+{
+    br_design *d = reference_case("c2.json");
+    br_chain *c;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    br_steady ss;
+    CU_ASSERT_EQUAL_FATAL(br_steady_solve(c, BR_DIRI_NONE, NULL, &ss, &err), BR_OK);
+    br_sim *s;
+    CU_ASSERT_EQUAL_FATAL(br_sim_create(c, BR_DIRI_NONE, BR_INTEG_FAST, &s, &err), BR_OK);
+    int n = c->n;
+    double phi[BR_MAX_SWITCHES * BR_MAX_SWITCHES], yp[2 * BR_MAX_SWITCHES], ym[2 * BR_MAX_SWITCHES];
+    br_sim_set_variational(s, 1);
+    br_sim_reset_running_at(s, ss.x, ss.phase);
+    CU_ASSERT_EQUAL(br_sim_run_until(s, c->T, &err), BR_OK);
+    br_sim_sensitivity(s, phi);
+    br_sim_set_variational(s, 0);
+    for (int j = 1; j < n; j++) {
+        double x[2 * BR_MAX_SWITCHES], h = 1e-3;
+        memcpy(x, ss.x, sizeof x);
+        x[j] += h;
+        br_sim_reset_running_at(s, x, ss.phase);
+        br_sim_run_until(s, c->T, &err);
+        br_sim_state(s, yp);
+        x[j] -= 2 * h;
+        br_sim_reset_running_at(s, x, ss.phase);
+        br_sim_run_until(s, c->T, &err);
+        br_sim_state(s, ym);
+        for (int i = 1; i < n; i++)
+            BR_ASSERT_NEAR(phi[i * n + j], (yp[i] - ym[i]) / (2 * h), 2e-3);
+    }
+    br_sim_free(s);
+    br_chain_free(c);
+    br_design_free(d);
+}
+
 int main(void)
 {
     static const br_test_case cases[] = {
@@ -357,6 +396,7 @@ int main(void)
         {"single-bootstrap charge budget", test_charge_budget},
         {"UVLO without chatter, hiccups kept", test_no_chatter},
         {"charge-control recovery charge", test_recovery_charge},
+        {"period-map sensitivity against finite differences", test_sensitivity},
         {NULL, NULL}};
     return br_test_main("engine/physics", cases);
 }
