@@ -207,15 +207,19 @@ static void variational(br_sim *s, const double *x, double *dx)
             A[k][j] = (D[k][j] - dout - diz) / br_sim_cap(s, k, x[XI(k, F_VC)]);
         }
     }
+    /* A couples a rail to its neighbours; the ESRs reach further only by
+     * powers of gd*ESR (~1e-2), so two rails either side carry it */
     const double *phi = x + s->phi0;
     double *dphi = dx + s->phi0;
-    for (int i = 0; i < n; i++)
+    for (int i = 0; i < n; i++) {
+        int m0 = i > 2 ? i - 2 : 0, m1 = i + 2 < n - 1 ? i + 2 : n - 1;
         for (int j = 0; j < n; j++) {
             double acc = 0.0;
-            for (int m = 0; m < n; m++)
+            for (int m = m0; m <= m1; m++)
                 acc += A[i][m] * phi[m * n + j];
             dphi[i * n + j] = acc;
         }
+    }
 }
 
 void br_sim_rhs(br_sim *s, double t, const double *x, double *dx)

@@ -7,6 +7,7 @@
 
 #include <stdio.h>
 #include <stdlib.h>
+#include <sys/resource.h>
 #include <time.h>
 
 static double now(void)
@@ -73,6 +74,9 @@ int main(int argc, char **argv)
     printf("4000 periods of cold start: median %.3f s\n", mc);
     printf("plain simulation to steady state: median %.3f s (%ld periods)\n", mp, plain_periods);
     printf("speed-up of shooting over plain: %.1fx\n", mp / ms);
+    struct rusage ru;
+    getrusage(RUSAGE_SELF, &ru);
+    printf("peak memory (max resident set): %.1f MB\n", ru.ru_maxrss / 1024.0);
     br_chain_free(c);
     br_design_free(d);
     return 0;
