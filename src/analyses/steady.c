@@ -157,6 +157,32 @@ static void broyden(gsl_matrix *B, const double *dz, const double *dF, int m)
             gsl_matrix_set(B, i, j, gsl_matrix_get(B, i, j) + (dF[i] - bdz[i]) * dz[j] / dd);
 }
 
+/* The Newton matrix B = J - I of the period map and its LU factors. */
+typedef struct linsys {
+    gsl_matrix *B, *LU;
+    gsl_permutation *p;
+} linsys;
+
+static void linsys_free(linsys *ls)
+{
+    gsl_matrix_free(ls->B);
+    gsl_matrix_free(ls->LU);
+    gsl_permutation_free(ls->p);
+}
+
+static int linsys_alloc(linsys *ls, int m, br_error *err)
+{
+    ls->B = gsl_matrix_alloc((size_t)m, (size_t)m);
+    ls->LU = gsl_matrix_alloc((size_t)m, (size_t)m);
+    ls->p = gsl_permutation_alloc((size_t)m);
+    if (ls->B && ls->LU && ls->p)
+        return BR_OK;
+    linsys_free(ls);
+    ls->B = ls->LU = NULL;
+    ls->p = NULL;
+    return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory in the shooting solver");
+}
+
 /* B = Phi - I over the unknowns, from the sensitivity the simulator
  * integrated along the last period map. */
 static void jacobian_from_sensitivity(shoot *sh, gsl_matrix *B)
@@ -175,13 +201,12 @@ static void jacobian_from_sensitivity(shoot *sh, gsl_matrix *B)
 static int shoot_variational(shoot *sh, double *z, const br_steady_opts *o, br_steady *out,
                              br_error *err)
 {
-    int m = sh->m, rc = BR_OK, ok = 0;
-    gsl_matrix *B = gsl_matrix_alloc((size_t)m, (size_t)m);
-    gsl_matrix *LU = gsl_matrix_alloc((size_t)m, (size_t)m);
-    gsl_permutation *p = gsl_permutation_alloc((size_t)m);
+    int m = sh->m, ok = 0;
+    linsys ls;
     double pz[NX], F[NX], dz[NX];
-    if (!B || !LU || !p)
-        rc = br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory in the shooting solver");
+    int rc = linsys_alloc(&ls, m, err);
+    gsl_matrix *B = ls.B, *LU = ls.LU;
+    gsl_permutation *p = ls.p;
     br_sim_set_variational(sh->sim, 1);
     for (int it = 0; rc == BR_OK && it <= o->max_iter; it++) {
         if ((rc = period_map(sh, z, pz, err)) != BR_OK)
@@ -199,9 +224,7 @@ static int shoot_variational(shoot *sh, double *z, const br_steady_opts *o, br_s
             z[i] += dz[i];
     }
     br_sim_set_variational(sh->sim, 0);
-    gsl_matrix_free(B);
-    gsl_matrix_free(LU);
-    gsl_permutation_free(p);
+    linsys_free(&ls);
     if (rc == BR_OK && !ok)
         rc = BR_ENUMERIC;
     return rc;
@@ -211,15 +234,14 @@ static int shoot_variational(shoot *sh, double *z, const br_steady_opts *o, br_s
 static int shoot_newton(shoot *sh, double *z, const br_steady_opts *o, br_steady *out,
                         br_error *err)
 {
-    int m = sh->m, rc = BR_OK, ok = 0;
-    gsl_matrix *B = gsl_matrix_alloc((size_t)m, (size_t)m);
-    gsl_matrix *LU = gsl_matrix_alloc((size_t)m, (size_t)m);
-    gsl_permutation *p = gsl_permutation_alloc((size_t)m);
+    int m = sh->m, ok = 0;
+    linsys ls;
     double pz[NX], F[NX], dz[NX], Fn[NX], dF[NX];
-    if (!B || !LU || !p) {
-        rc = br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory in the shooting solver");
-        goto done;
-    }
+    int rc = linsys_alloc(&ls, m, err);
+    gsl_matrix *B = ls.B, *LU = ls.LU;
+    gsl_permutation *p = ls.p;
+    if (rc != BR_OK)
+        return rc;
     if ((rc = period_map(sh, z, pz, err)) != BR_OK)
         goto done;
     for (int i = 0; i < m; i++)
@@ -267,9 +289,7 @@ static int shoot_newton(shoot *sh, double *z, const br_steady_opts *o, br_steady
         *o->jac_valid = 1;
     }
 done:
-    gsl_matrix_free(B);
-    gsl_matrix_free(LU);
-    gsl_permutation_free(p);
+    linsys_free(&ls);
     if (rc == BR_OK && !ok)
         rc = BR_ENUMERIC;
     return rc;
