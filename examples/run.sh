@@ -11,5 +11,5 @@ source .ci/setup.sh
 dir=${BR_BUILD_DIR:-build}
 br_install_packages
 BR_QUIET=1 br_build "$dir"
-echo "\$ $dir/bootrung check examples/leg-7level.xml"
-"$dir/bootrung" check examples/leg-7level.xml
+echo "\$ $dir/bootrung analyze examples/leg-7level.xml"
+"$dir/bootrung" analyze examples/leg-7level.xml

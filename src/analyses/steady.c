@@ -93,6 +93,17 @@ static int period_map(shoot *sh, const double *z, double *y, br_error *err)
     return rc;
 }
 
+/* Largest change of a rail state: rails 1..n-1, and rail 0 when its
+ * bypass capacitor makes it a state. */
+static double rail_change(const br_chain *c, const double *a, const double *b)
+{
+    double w = 0.0;
+    int k0 = c->csupply > 0 && c->rsupply > 0 ? 0 : 1;
+    for (int k = k0; k < c->n; k++)
+        w = fmax(w, fabs(a[k] - b[k]));
+    return w;
+}
+
 static double max_abs_diff(const double *a, const double *b, int m)
 {
     double w = 0.0;
@@ -308,7 +319,7 @@ static void estimate(const br_chain *c, double *x)
         ilink[k] = iabove;
     }
     double v = c->vsupply;
-    x[0] = v;
+    x[0] = c->csupply > 0 && c->rsupply > 0 ? v : 0.0; /* the bypass capacitor, if any */
     for (int k = 1; k < c->n; k++) {
         const br_diode *d = &c->st[k].diode;
         double ipk = 2.0 * ilink[k] + 1e-6; /* windows are about half the period */
@@ -330,7 +341,7 @@ static int plain(shoot *sh, double *x, const br_steady_opts *o, br_steady *out, 
             return rc;
         sh->periods++;
         br_sim_state(sh->sim, now);
-        double d = max_abs_diff(now, prev, sh->c->n);
+        double d = rail_change(sh->c, now, prev);
         memcpy(prev, now, sizeof now);
         if (d <= o->tol) {
             out->residual = d;
@@ -361,7 +372,7 @@ static int finish(shoot *sh, const double *x, const br_steady_opts *o, br_steady
     rc = br_sim_run_until(sh->sim, (1 + o->check_periods) * sh->c->T, err);
     sh->periods += 1 + o->check_periods;
     br_sim_state(sh->sim, after);
-    out->drift = max_abs_diff(after, x, sh->c->n) / (o->check_periods > 0 ? o->check_periods : 1);
+    out->drift = rail_change(sh->c, after, x) / (o->check_periods > 0 ? o->check_periods : 1);
     memcpy(out->x, x, sizeof out->x);
     return rc;
 }

@@ -85,5 +85,12 @@ int br_cli_finish(int status);
 /* ---- verbs ----------------------------------------------------------- */
 
 int cmd_check(int argc, char **argv);
+int cmd_startup(int argc, char **argv);
+int cmd_steady(int argc, char **argv);
+int cmd_analyze(int argc, char **argv);
+
+/* The shared body of the analysis verbs: options --xml/--csv, the help
+ * text `about`, the analyses `parts` (BR_RUN_* of report/results.h). */
+int br_cli_analysis(int argc, char **argv, const char *about, int parts);
 
 #endif

@@ -19,6 +19,9 @@ typedef struct br_verb {
 
 static const br_verb verbs[] = {
     {"check", cmd_check, "print a design's chain and the design-rule warnings"},
+    {"startup", cmd_startup, "simulate the start-up from cold, rail by rail"},
+    {"steady", cmd_steady, "the periodic steady state: rail margins, diode and capacitor stress"},
+    {"analyze", cmd_analyze, "start-up, steady state and the pass/fail verdict (the main job)"},
     {NULL, NULL, NULL},
 };
 

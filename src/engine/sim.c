@@ -578,6 +578,10 @@ int br_sim_run_until(br_sim *s, double t_end, br_error *err)
             s->nclosed++;
             double te;
             due = closed_form(s, tb, &te);
+            /* the corner at the end of a linear stretch, for observers
+             * that plot (the integrator reports its own steps) */
+            if (s->obs.sample)
+                s->obs.sample(s->obs.ctx, s->t, s->vr, s->il, s->n);
         } else {
             br_sim_integrate(s, tb, &status);
             if (status < 0)

@@ -8,6 +8,9 @@ bin=${1:-build}/bootrung
 [ -x "$bin" ] || { echo "no $bin: build first (tests/run.sh)" >&2; exit 2; }
 "$bin" --help >tests/golden/help.txt
 "$bin" check --help >tests/golden/check-help.txt
+for verb in startup steady analyze; do
+    "$bin" "$verb" --help >"tests/golden/$verb-help.txt"
+done
 for f in examples/*.xml; do
     name=$(basename "$f" .xml)
     "$bin" check "$f" >"tests/golden/check-$name.txt" || [ $? -eq 1 ]

@@ -1,0 +1,20 @@
+/* cmd_analyze.c - `bootrung analyze FILE`: the main job, start-up and
+ * steady state with the verdict table. */
+#include "cli.h"
+
+#include "report/results.h"
+
+int cmd_analyze(int argc, char **argv)
+{
+    return br_cli_analysis(
+        argc, argv,
+        "Analyse design FILE: its start-up from cold, its periodic steady state for\n"
+        "each current direction it asks for, and the verdict: one row per criterion\n"
+        "(every driver starts, inrush within the surge ratings, a steady state that\n"
+        "holds, rails above UVLO rising and falling, drive above the minimum, gates\n"
+        "below their maximum, diodes within the derated rating, capacitors within\n"
+        "their rating) with the figure, the limit, the margin and where it binds.\n"
+        "Exit status 0 when every criterion evaluated passes, 1 when one fails, 2 for\n"
+        "bad input.\n",
+        BR_RUN_ALL);
+}

@@ -1,0 +1,21 @@
+/* cmd_steady.c - `bootrung steady FILE`: the periodic steady state of a
+ * running design, for each current direction it asks for. */
+#include "cli.h"
+
+#include "report/results.h"
+
+int cmd_steady(int argc, char **argv)
+{
+    return br_cli_analysis(
+        argc, argv,
+        "Find the periodic steady state of the chain of design FILE running PWM, for\n"
+        "each current direction the design asks for (shooting, with plain simulation\n"
+        "as the fallback, then cross-checked). Per rail: minimum, maximum, average,\n"
+        "ripple, driver supply and its margins to UVLO, to the minimum drive and to\n"
+        "the gate maximum; per diode: reverse-voltage stress against its derated\n"
+        "rating, forward currents, recovery and losses; per capacitor: capacitance at\n"
+        "bias, peak voltage against its rating, RMS current; the supply's load.\n"
+        "Exit status 0 when the steady state holds and every margin is met, 1 when\n"
+        "not, 2 for bad input.\n",
+        BR_RUN_STEADY);
+}

@@ -1,0 +1,49 @@
+/* csv.h - time series of a simulation as CSV.
+ *
+ * One layout for every verb: a header line
+ *   series,t_s,rail_<switch>_V,...,link_<switch>_A,...
+ * (rails 0..n-1 named by their switch, links 1..n-1 by the switch whose
+ * rail they charge), then one row per kept sample.  `series` says which
+ * run a row belongs to ("startup", "steady-step-down", ...), so one file
+ * can hold a start-up and the steady periods of each direction.
+ *
+ * A series is filled by a simulator observer (br_csv_observer).  It keeps
+ * at most one row per min_dt of simulated time, and always the samples on
+ * either side of a UVLO transition, so a long start-up stays a sane size
+ * while its events stay sharp. */
+#ifndef BR_REPORT_CSV_H
+#define BR_REPORT_CSV_H
+
+#include "engine/sim.h"
+
+typedef struct br_csv_series {
+    br_text *out;      /* rows are appended here */
+    const char *label; /* value of the series column */
+    int n;             /* stages */
+    double min_dt;     /* keep at most one row per min_dt, s (0: all) */
+    double t_offset;   /* added to the simulator's time, s */
+    double last_t;     /* time of the last row kept, s */
+    long rows;         /* rows kept */
+    int force;         /* keep the next sample whatever its time */
+    int held;          /* a sample was skipped and is held in ht/hv/hi */
+    double ht;         /* its time, s */
+    double hv[BR_MAX_SWITCHES], hi[BR_MAX_SWITCHES]; /* its rails V, links A */
+    int failed;                                      /* out of memory while appending */
+} br_csv_series;
+
+/* Append the header line for chain c to out. */
+int br_csv_header(const br_chain *c, br_text *out);
+
+/* Start a series of n stages into out (the header is written separately,
+ * once per file). */
+void br_csv_series_init(br_csv_series *s, br_text *out, const char *label, int n, double min_dt,
+                        double t_offset);
+
+/* An observer feeding s (samples and UVLO transitions). */
+br_sim_observer br_csv_observer(br_csv_series *s);
+
+/* Keep the last held sample, so the series ends where the run ended.
+ * Returns BR_OK, or BR_ENOMEM if any row could not be appended. */
+int br_csv_series_end(br_csv_series *s);
+
+#endif

@@ -1,0 +1,135 @@
+/* report_common.c - heading, names and XML pieces shared by the analysis
+ * reports. */
+#include "report/report_common.h"
+
+#include "report/caution.h"
+#include "report/fmt.h"
+
+#include <math.h>
+#include <stdio.h>
+#include <string.h>
+
+#define KELVIN 273.15
+
+const char *br_dir_label(int dir)
+{
+    return dir == BR_DIRI_DOWN ? "step-down" : dir == BR_DIRI_UP ? "step-up" : "idealised";
+}
+
+const char *br_dir_short(int dir)
+{
+    return dir == BR_DIRI_DOWN ? "down" : dir == BR_DIRI_UP ? "up" : "-";
+}
+
+static const char *design_name(const br_chain *c)
+{
+    return c->design && c->design->name[0] ? c->design->name : "(unnamed)";
+}
+
+/* "1.1 kV bus, 120 kHz (T 8.333 us), duty 0.5, dead time 25 ns, 50 C,
+ * supply 15 V, 12 switches / 11 links" */
+static int operating_point(const br_chain *c, br_text *out)
+{
+    char vin[24], f[24], t[24], dt[24], vs[24];
+    return br_text_printf(
+        out,
+        "  %s bus, %s (T %s), duty %.3g, dead time %s, %.0f C\n"
+        "  supply %s, %d switches, %d link%s\n",
+        br_fmt_si(vin, sizeof vin, c->vin, 4, "V"), br_fmt_si(f, sizeof f, c->fsw, 4, "Hz"),
+        br_fmt_si(t, sizeof t, c->T, 4, "s"), c->duty,
+        br_fmt_si(dt, sizeof dt, c->deadtime, 3, "s"), c->tamb - KELVIN,
+        br_fmt_si(vs, sizeof vs, c->vsupply, 4, "V"), c->n, c->n - 1, c->n == 2 ? "" : "s");
+}
+
+int br_report_heading(const br_chain *c, const char *what, br_text *out)
+{
+    int rc = br_text_printf(out, "%s of design %s (%s)\n", what, design_name(c),
+                            c->design ? c->design->path : "");
+    rc |= operating_point(c, out);
+    return rc | br_text_put(out, "\n") ? BR_ENOMEM : BR_OK;
+}
+
+int br_report_wrap(br_text *out, const char *lead, const char *text, int hang)
+{
+    int rc = br_text_put(out, lead);
+    int col = (int)strlen(lead), first = 1;
+    for (const char *p = text; *p;) {
+        while (*p == ' ')
+            p++;
+        int len = (int)strcspn(p, " ");
+        if (len == 0)
+            break;
+        if (!first && col + 1 + len > BR_REPORT_WIDTH) {
+            rc |= br_text_printf(out, "\n%*s", hang, "");
+            col = hang;
+        } else if (!first) {
+            rc |= br_text_put(out, " ");
+            col++;
+        }
+        rc |= br_text_printf(out, "%.*s", len, p);
+        col += len;
+        first = 0;
+        p += len;
+    }
+    return rc | br_text_put(out, "\n") ? BR_ENOMEM : BR_OK;
+}
+
+double br_rail_start_voltage(const br_chain *c, int k)
+{
+    const br_stage *st = &c->st[k];
+    if (st->aux.kind != BR_AUX_LDO)
+        return st->drv.uvlo_rise;
+    return st->drv.uvlo_rise < st->aux.vout ? st->drv.uvlo_rise + st->aux.dropout : HUGE_VAL;
+}
+
+static const char *direction_attr(int direction)
+{
+    switch (direction) {
+    case BR_DIR_STEP_DOWN:
+        return "step-down";
+    case BR_DIR_STEP_UP:
+        return "step-up";
+    case BR_DIR_BOTH:
+        return "both";
+    default:
+        return "none";
+    }
+}
+
+void br_xml_operating_point(br_xmlw *w, const br_chain *c)
+{
+    br_xmlw_start(w, "operating-point");
+    br_xmlw_num(w, "vin-V", c->vin);
+    br_xmlw_num(w, "fsw-Hz", c->fsw);
+    br_xmlw_num(w, "period-s", c->T);
+    br_xmlw_num(w, "duty", c->duty);
+    br_xmlw_num(w, "dead-time-s", c->deadtime);
+    br_xmlw_num(w, "ambient-K", c->tamb);
+    br_xmlw_attr(w, "current", direction_attr(c->direction));
+    br_xmlw_num(w, "supply-V", c->vsupply);
+    br_xmlw_int(w, "switches", c->n);
+    br_xmlw_int(w, "links", c->n - 1);
+    br_xmlw_end(w);
+}
+
+void br_xml_caution(br_xmlw *w)
+{
+    br_text *t = br_text_create();
+    if (t && br_report_caution(t) == BR_OK) {
+        br_xmlw_start(w, "caution");
+        /* the paragraph without its leading blank line and line breaks */
+        char buf[1024];
+        size_t j = 0;
+        for (const char *p = br_text_data(t); *p && j + 1 < sizeof buf; p++)
+            if (!(j == 0 && *p == '\n'))
+                buf[j++] = *p == '\n' ? ' ' : *p;
+        while (j > 0 && buf[j - 1] == ' ')
+            j--;
+        buf[j] = '\0';
+        br_xmlw_text(w, buf);
+        br_xmlw_end(w);
+    } else {
+        br_xmlw_fail(w);
+    }
+    br_text_free(t);
+}

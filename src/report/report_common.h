@@ -1,0 +1,37 @@
+/* report_common.h - pieces every analysis report shares: the heading
+ * lines, names of directions and stages, and the XML root element.
+ * Internal to src/report. */
+#ifndef BR_REPORT_COMMON_H
+#define BR_REPORT_COMMON_H
+
+#include "io/xml_write.h"
+#include "model/timing.h"
+
+/* "step-down", "step-up" or "idealised" for a br_dir_index. */
+const char *br_dir_label(int dir);
+
+/* The short form used in narrow columns: "down", "up", "-". */
+const char *br_dir_short(int dir);
+
+/* "design NAME (PATH)" and a one-line operating point, then a blank line. */
+int br_report_heading(const br_chain *c, const char *what, br_text *out);
+
+/* Reports keep their lines within this many columns. */
+#define BR_REPORT_WIDTH 100
+
+/* Append lead then text, wrapped at BR_REPORT_WIDTH on spaces, each
+ * continuation line indented by `hang` spaces; ends with a newline. */
+int br_report_wrap(br_text *out, const char *lead, const char *text, int hang);
+
+/* Rail voltage driver k needs to start (UVLO rising, plus the
+ * regulator's dropout when the rail feeds the driver through one), V;
+ * HUGE_VAL when a regulator's output is below UVLO rising. */
+double br_rail_start_voltage(const br_chain *c, int k);
+
+/* The operating point as an XML element. */
+void br_xml_operating_point(br_xmlw *w, const br_chain *c);
+
+/* The caution as an XML element. */
+void br_xml_caution(br_xmlw *w);
+
+#endif

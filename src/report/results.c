@@ -1,0 +1,189 @@
+/* results.c - running the analyses of a verb and assembling its text and
+ * XML documents. */
+#include "report/results.h"
+
+#include "core/error.h"
+#include "report/caution.h"
+#include "report/csv.h"
+#include "report/report_common.h"
+#include "report/startup_report.h"
+#include "report/steady_report.h"
+#include "report/verdict_report.h"
+
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+
+/* A start-up series keeps at most one row per T/20, and over a long
+ * simulation no more than about this many rows in all. */
+#define STARTUP_ROWS 20000
+#define ROWS_PER_PERIOD 20
+
+br_results *br_results_create(void)
+{
+    return calloc(1, sizeof(br_results));
+}
+
+void br_results_free(br_results *r)
+{
+    free(r);
+}
+
+static int oom(br_error *err, const char *what)
+{
+    return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory %s", what);
+}
+
+static int run_startup(br_results *r, br_text *csv, br_error *err)
+{
+    const br_chain *c = r->c;
+    br_csv_series s;
+    br_sim_observer obs;
+    br_startup_opts o = {0};
+    if (csv) {
+        double dt = fmax(c->T / ROWS_PER_PERIOD, c->startup_max / STARTUP_ROWS);
+        br_csv_series_init(&s, csv, "startup", c->n, dt, 0.0);
+        obs = br_csv_observer(&s);
+        o.obs = &obs;
+    }
+    int rc = br_startup_run(c, &o, &r->su, err);
+    if (rc == BR_OK && csv && br_csv_series_end(&s) != BR_OK)
+        rc = oom(err, "recording the start-up series");
+    return rc;
+}
+
+/* One more period from the steady state, every accepted step recorded. */
+static int steady_series(const br_chain *c, const br_steady *ss, br_text *csv, br_error *err)
+{
+    static const char *const labels[] = {"steady-step-down", "steady-step-up", "steady"};
+    const char *label = labels[ss->dir == BR_DIRI_DOWN ? 0 : ss->dir == BR_DIRI_UP ? 1 : 2];
+    br_sim *sim;
+    int rc = br_sim_create(c, ss->dir, BR_INTEG_FAST, &sim, err);
+    if (rc != BR_OK)
+        return rc;
+    br_csv_series s;
+    br_csv_series_init(&s, csv, label, c->n, 0.0, ss->phase);
+    br_sim_observer obs = br_csv_observer(&s);
+    br_sim_set_observer(sim, &obs);
+    br_sim_reset_running_at(sim, ss->x, ss->phase);
+    rc = br_sim_run_until(sim, c->T, err);
+    if (rc == BR_OK && br_csv_series_end(&s) != BR_OK)
+        rc = oom(err, "recording the steady period");
+    br_sim_free(sim);
+    return rc;
+}
+
+static int run_steady(br_results *r, br_text *csv, br_error *err)
+{
+    int dirs[2];
+    r->ndir = br_design_directions(r->c, dirs);
+    for (int d = 0; d < r->ndir; d++) {
+        int rc = br_steady_solve(r->c, dirs[d], NULL, &r->ss[d], err);
+        if (rc == BR_OK && csv)
+            rc = steady_series(r->c, &r->ss[d], csv, err);
+        if (rc != BR_OK)
+            return rc;
+        br_steady_figures(r->c, &r->ss[d], &r->figs[d]);
+    }
+    return BR_OK;
+}
+
+int br_results_run(br_results *r, const br_chain *c, const char *verb, int parts, br_text *csv,
+                   br_error *err)
+{
+    memset(r, 0, sizeof *r);
+    r->c = c;
+    r->verb = verb;
+    r->parts = parts;
+    if (csv && br_csv_header(c, csv) != BR_OK)
+        return oom(err, "starting the CSV series");
+    int rc = BR_OK;
+    if (parts & BR_RUN_STARTUP)
+        rc = run_startup(r, csv, err);
+    if (rc == BR_OK && (parts & BR_RUN_STEADY))
+        rc = run_steady(r, csv, err);
+    if (rc == BR_OK)
+        br_verdict_make(c, (parts & BR_RUN_STARTUP) ? &r->su : NULL, r->figs, r->ndir, &r->verdict);
+    return rc;
+}
+
+/* The criteria a verb judges. */
+static unsigned verdict_mask(const br_results *r)
+{
+    unsigned m = 0;
+    if (r->parts & BR_RUN_STARTUP)
+        m |= BR_CRIT_BIT(BR_CRIT_STARTUP) | BR_CRIT_BIT(BR_CRIT_INRUSH);
+    if (r->parts & BR_RUN_STEADY)
+        m |= BR_CRIT_ALL & ~(BR_CRIT_BIT(BR_CRIT_STARTUP) | BR_CRIT_BIT(BR_CRIT_INRUSH));
+    return m;
+}
+
+int br_results_failed(const br_results *r)
+{
+    unsigned m = verdict_mask(r);
+    for (int i = 0; i < BR_CRIT_COUNT; i++)
+        if ((m & BR_CRIT_BIT(i)) && r->verdict.row[i].applies && !r->verdict.row[i].pass)
+            return 1;
+    return 0;
+}
+
+/* Sections are separated by one blank line; the caution brings its own. */
+static int steady_sections(const br_results *r, br_text *out)
+{
+    int rc = BR_OK;
+    for (int d = 0; d < r->ndir; d++) {
+        rc |= d > 0 ? br_text_put(out, "\n") : BR_OK;
+        rc |= br_steady_text(r->c, &r->figs[d], out);
+    }
+    return rc;
+}
+
+static const char *heading(const br_results *r)
+{
+    if ((r->parts & BR_RUN_ALL) == BR_RUN_ALL)
+        return "analysis";
+    return r->parts & BR_RUN_STARTUP ? "start-up" : "steady state";
+}
+
+int br_results_text(const br_results *r, br_text *out, br_error *err)
+{
+    int rc = br_report_heading(r->c, heading(r), out);
+    if (r->parts & BR_RUN_STARTUP)
+        rc |= br_startup_text(r->c, &r->su, !(r->parts & BR_RUN_STEADY), out);
+    if ((r->parts & BR_RUN_ALL) == BR_RUN_ALL) {
+        rc |= br_text_put(out, "\n");
+        rc |= br_steady_summary_text(r->c, r->figs, r->ndir, out);
+    } else if (r->parts & BR_RUN_STEADY) {
+        rc |= steady_sections(r, out);
+    }
+    if (r->parts & BR_RUN_STEADY) {
+        rc |= br_text_put(out, "\n");
+        rc |= br_verdict_text(r->c, &r->verdict, verdict_mask(r), &r->su, out);
+    }
+    rc |= br_report_caution(out);
+    return rc ? oom(err, "rendering the report") : BR_OK;
+}
+
+int br_results_xml(const br_results *r, const char *version, br_text *out, br_error *err)
+{
+    br_xmlw *w;
+    int rc = br_xmlw_create(&w, err);
+    if (rc != BR_OK)
+        return rc;
+    const br_design *d = r->c->design;
+    br_xmlw_start(w, "bootrung-results");
+    br_xmlw_attr(w, "verb", r->verb);
+    br_xmlw_attr(w, "design", d && d->name[0] ? d->name : "");
+    br_xmlw_attr(w, "file", d ? d->path : "");
+    br_xmlw_attr(w, "version", version ? version : "");
+    br_xml_operating_point(w, r->c);
+    if (r->parts & BR_RUN_STARTUP)
+        br_startup_xml(w, r->c, &r->su);
+    for (int i = 0; i < r->ndir; i++)
+        br_steady_xml(w, r->c, &r->figs[i]);
+    br_verdict_xml(w, r->c, &r->verdict, verdict_mask(r));
+    br_xml_caution(w);
+    rc = br_xmlw_finish(w, out, err);
+    br_xmlw_free(w);
+    return rc;
+}

@@ -1,0 +1,52 @@
+/* results.h - what an analysis verb computes, and its documents.
+ *
+ * `startup`, `steady` and `analyze` share one flow: build a br_results by
+ * running the analyses the verb asks for (optionally recording time
+ * series as CSV), then render it as text for the terminal and as XML for
+ * other programs.  The verbs stay thin; the verdict decides the exit
+ * status. */
+#ifndef BR_REPORT_RESULTS_H
+#define BR_REPORT_RESULTS_H
+
+#include "analyses/figures.h"
+
+/* Which analyses a verb runs (bits). */
+enum {
+    BR_RUN_STARTUP = 1, /* cold start */
+    BR_RUN_STEADY = 2,  /* periodic steady state per direction */
+    BR_RUN_ALL = 3      /* both, and the full verdict */
+};
+
+typedef struct br_results {
+    const br_chain *c;      /* the chain analysed (not owned) */
+    const char *verb;       /* "startup", "steady" or "analyze" */
+    int parts;              /* BR_RUN_* bits that were run */
+    br_startup su;          /* valid when parts has BR_RUN_STARTUP */
+    int ndir;               /* steady states computed (0 without BR_RUN_STEADY) */
+    br_steady ss[2];        /* one per direction of br_design_directions */
+    br_steady_figs figs[2]; /* figs[d].ss points at ss[d] */
+    br_verdict verdict;     /* over what was run */
+} br_results;
+
+/* Allocate (the structure is large).  Returns NULL when out of memory. */
+br_results *br_results_create(void);
+void br_results_free(br_results *r);
+
+/* Run the analyses `parts` on c.  When csv is not NULL, the time series
+ * (start-up decimated, one steady period per direction at the solver's
+ * resolution) are appended to it, header first.  Returns a br_status. */
+int br_results_run(br_results *r, const br_chain *c, const char *verb, int parts, br_text *csv,
+                   br_error *err);
+
+/* 0 when every criterion the verb judges passes (or does not apply),
+ * 1 when one fails. */
+int br_results_failed(const br_results *r);
+
+/* The text report of the verb that ran, ending with the caution. */
+int br_results_text(const br_results *r, br_text *out, br_error *err);
+
+/* The XML document of the same results (see README: "Result files");
+ * version is the program's, recorded in the root element. */
+int br_results_xml(const br_results *r, const char *version, br_text *out, br_error *err);
+
+#endif

@@ -1,0 +1,171 @@
+/* verdict_report.c - rendering the verdict table. */
+#include "report/verdict_report.h"
+
+#include "report/fmt.h"
+#include "report/report_common.h"
+#include "report/startup_report.h"
+#include "report/table.h"
+
+#include <stdio.h>
+
+enum { C_TITLE, C_RESULT, C_FIGURE, C_LIMIT, C_MARGIN, C_AT, C_DIR, NCOL };
+
+static int is_link_crit(int crit)
+{
+    return crit == BR_CRIT_INRUSH || crit == BR_CRIT_DIODE_VR;
+}
+
+static int is_startup_crit(int crit)
+{
+    return crit == BR_CRIT_STARTUP || crit == BR_CRIT_INRUSH;
+}
+
+static const char *result_word(const br_verdict_row *r)
+{
+    return !r->applies ? "n/a" : r->pass ? "pass" : "FAIL";
+}
+
+/* "rail A1", "link B4", or "-" when no stage binds. */
+static void where(const br_chain *c, const br_verdict_row *r, char *buf, size_t cap)
+{
+    if (r->stage < 0 || r->stage >= c->n || !r->applies)
+        snprintf(buf, cap, "-");
+    else
+        snprintf(buf, cap, "%s %s", is_link_crit(r->crit) ? "link" : "rail", c->st[r->stage].name);
+}
+
+static void value_cell(br_table *t, int col, const br_verdict_row *r, double v)
+{
+    char b[BR_TABLE_CELL];
+    if (r->applies)
+        br_table_set(t, col, "%s", br_fmt_si(b, sizeof b, v, 4, r->unit ? r->unit : ""));
+    else
+        br_table_set(t, col, "-");
+}
+
+static void row(br_table *t, const br_chain *c, const br_verdict_row *r)
+{
+    char b[BR_TABLE_CELL];
+    br_table_row(t);
+    br_table_set(t, C_TITLE, "%s", br_crit_title(r->crit));
+    br_table_set(t, C_RESULT, "%s", result_word(r));
+    value_cell(t, C_FIGURE, r, r->figure);
+    value_cell(t, C_LIMIT, r, r->limit);
+    value_cell(t, C_MARGIN, r, r->margin);
+    where(c, r, b, sizeof b);
+    br_table_set(t, C_AT, "%s", b);
+    br_table_set(t, C_DIR, "%s",
+                 r->applies && !is_startup_crit(r->crit) ? br_dir_short(r->dir) : "-");
+}
+
+static int render_table(const br_chain *c, const br_verdict *v, unsigned mask, br_text *out)
+{
+    br_table *t = br_table_create(NCOL, BR_CRIT_COUNT);
+    if (!t)
+        return BR_ENOMEM;
+    static const char *const heads[NCOL] = {"criterion", "result", "figure", "limit",
+                                            "margin",    "at",     "current"};
+    for (int col = 0; col < NCOL; col++) {
+        int left = col == C_TITLE || col == C_RESULT || col >= C_AT;
+        br_table_head(t, col, heads[col], left ? BR_LEFT : BR_RIGHT);
+    }
+    for (int i = 0; i < BR_CRIT_COUNT; i++)
+        if (mask & BR_CRIT_BIT(i))
+            row(t, c, &v->row[i]);
+    int rc = br_table_render(t, 2, out);
+    br_table_free(t);
+    return rc;
+}
+
+/* Why a row failed or does not apply, wrapped under its title. */
+static int render_notes(const br_chain *c, const br_verdict *v, unsigned mask, const br_startup *su,
+                        br_text *out)
+{
+    int rc = BR_OK;
+    br_text *why = br_text_create();
+    if (!why)
+        return BR_ENOMEM;
+    for (int i = 0; i < BR_CRIT_COUNT; i++) {
+        const br_verdict_row *r = &v->row[i];
+        if (!(mask & BR_CRIT_BIT(i)) || (r->applies && r->pass))
+            continue;
+        br_text_reset(why);
+        if (i == BR_CRIT_STARTUP && su && r->applies && !su->complete)
+            rc |= br_startup_stall_text(c, su, why);
+        else
+            rc |= br_text_put(why, r->note);
+        if (br_text_len(why) == 0)
+            continue;
+        char lead[128];
+        snprintf(lead, sizeof lead, "  %s %s: ", result_word(r), br_crit_title(i));
+        rc |= br_report_wrap(out, lead, br_text_data(why), 4);
+    }
+    br_text_free(why);
+    return rc;
+}
+
+static int render_overall(const br_verdict *v, unsigned mask, br_text *out)
+{
+    int evaluated = 0, failed = 0, na = 0;
+    for (int i = 0; i < BR_CRIT_COUNT; i++) {
+        if (!(mask & BR_CRIT_BIT(i)))
+            continue;
+        const br_verdict_row *r = &v->row[i];
+        evaluated += r->applies;
+        failed += r->applies && !r->pass;
+        na += !r->applies;
+    }
+    if (failed == 0)
+        return br_text_printf(out,
+                              "verdict: PASS, all %d criteria evaluated pass (%d not applicable)\n",
+                              evaluated, na);
+    return br_text_printf(out, "verdict: FAIL, %d of %d criteria evaluated fail\n", failed,
+                          evaluated);
+}
+
+int br_verdict_text(const br_chain *c, const br_verdict *v, unsigned mask, const br_startup *su,
+                    br_text *out)
+{
+    int rc = br_text_put(out, "verdict (margin = limit - figure for a maximum, figure - limit for "
+                              "a minimum; at = where it binds)\n");
+    rc |= render_table(c, v, mask, out);
+    rc |= render_notes(c, v, mask, su, out);
+    rc |= render_overall(v, mask, out);
+    return rc ? BR_ENOMEM : BR_OK;
+}
+
+void br_verdict_xml(br_xmlw *w, const br_chain *c, const br_verdict *v, unsigned mask)
+{
+    int all = 1;
+    for (int i = 0; i < BR_CRIT_COUNT; i++)
+        if ((mask & BR_CRIT_BIT(i)) && v->row[i].applies && !v->row[i].pass)
+            all = 0;
+    br_xmlw_start(w, "verdict");
+    br_xmlw_bool(w, "pass", all);
+    for (int i = 0; i < BR_CRIT_COUNT; i++) {
+        const br_verdict_row *r = &v->row[i];
+        if (!(mask & BR_CRIT_BIT(i)))
+            continue;
+        br_xmlw_start(w, "criterion");
+        br_xmlw_attr(w, "name", br_crit_name(i));
+        br_xmlw_attr(w, "title", br_crit_title(i));
+        br_xmlw_bool(w, "applies", r->applies);
+        if (r->applies) {
+            br_xmlw_bool(w, "pass", r->pass);
+            br_xmlw_num(w, "figure", r->figure);
+            br_xmlw_num(w, "limit", r->limit);
+            br_xmlw_num(w, "margin", r->margin);
+            br_xmlw_attr(w, "unit", r->unit ? r->unit : "");
+        }
+        if (r->applies && r->stage >= 0 && r->stage < c->n) {
+            br_xmlw_int(w, "stage", r->stage);
+            br_xmlw_attr(w, "switch", c->st[r->stage].name);
+        }
+        if (r->applies && !is_startup_crit(i))
+            br_xmlw_attr(w, "direction", br_dir_label(r->dir));
+        if (r->note[0])
+            br_xmlw_attr(w, "note", r->note);
+        br_xmlw_end(w);
+    }
+    br_xmlw_end(w);
+}

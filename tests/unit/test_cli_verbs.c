@@ -1,0 +1,519 @@
+/* test_cli_verbs.c - the analysis verbs (startup, steady, analyze) as a
+ * user meets them: exit statuses, the report's rows, the --xml file parsed
+ * back, the --csv file's shape, bad input and output that cannot be
+ * written.  Numbers change as the engine is tuned, so these checks are
+ * structural; only the help texts are golden (tests/golden/). */
+#include "analyses/figures.h"
+#include "testkit.h"
+
+#include <dirent.h>
+#include <fcntl.h>
+#include <libxml/parser.h>
+#include <spawn.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+#include <sys/wait.h>
+#include <unistd.h>
+
+extern char **environ;
+
+typedef struct run_result {
+    int status; /* exit status, -1 when it did not exit normally */
+    char *out;  /* stdout */
+    char *err;  /* stderr */
+} run_result;
+
+static char *slurp_and_remove(const char *path)
+{
+    char *s = br_test_slurp(path, NULL);
+    unlink(path);
+    return s ? s : calloc(1, 1);
+}
+
+/* Run bootrung with args (NULL-terminated, without argv[0]). */
+static run_result run(const char *const *args)
+{
+    char *argv[16] = {BR_BINARY};
+    int n = 1;
+    for (; args[n - 1] && n < 15; n++)
+        argv[n] = (char *)args[n - 1];
+    argv[n] = NULL;
+    char po[] = "/tmp/br-verbs-out-XXXXXX", pe[] = "/tmp/br-verbs-err-XXXXXX";
+    int fo = mkstemp(po), fe = mkstemp(pe);
+    CU_ASSERT_TRUE_FATAL(fo >= 0 && fe >= 0);
+    posix_spawn_file_actions_t fa;
+    posix_spawn_file_actions_init(&fa);
+    posix_spawn_file_actions_addopen(&fa, 0, "/dev/null", O_RDONLY, 0);
+    posix_spawn_file_actions_adddup2(&fa, fo, 1);
+    posix_spawn_file_actions_adddup2(&fa, fe, 2);
+    pid_t pid;
+    run_result r = {-1, NULL, NULL};
+    int rc = posix_spawn(&pid, BR_BINARY, &fa, NULL, argv, environ);
+    posix_spawn_file_actions_destroy(&fa);
+    CU_ASSERT_EQUAL_FATAL(rc, 0);
+    int ws = 0;
+    if (waitpid(pid, &ws, 0) == pid && WIFEXITED(ws))
+        r.status = WEXITSTATUS(ws);
+    close(fo);
+    close(fe);
+    r.out = slurp_and_remove(po);
+    r.err = slurp_and_remove(pe);
+    return r;
+}
+
+static void done(run_result *r)
+{
+    free(r->out);
+    free(r->err);
+}
+
+static int count_char(const char *s, char ch)
+{
+    int n = 0;
+    for (; *s; s++)
+        n += *s == ch;
+    return n;
+}
+
+static int has(const char *haystack, const char *needle)
+{
+    int ok = strstr(haystack, needle) != NULL;
+    if (!ok)
+        fprintf(stderr, "missing from the output: [%s]\n", needle);
+    return ok;
+}
+
+/* A fresh temporary directory for output files. */
+static void temp_dir(char *path, size_t cap)
+{
+    snprintf(path, cap, "/tmp/br-verbs-XXXXXX");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(path));
+}
+
+/* Number of entries in dir besides . and .. */
+static int entries(const char *dir)
+{
+    DIR *d = opendir(dir);
+    int n = 0;
+    for (struct dirent *e; d && (e = readdir(d));)
+        n += strcmp(e->d_name, ".") != 0 && strcmp(e->d_name, "..") != 0;
+    if (d)
+        closedir(d);
+    return n;
+}
+
+/* The chain of a design file, through the library. */
+static br_chain *load_chain(const char *path, br_design **d)
+{
+    br_chain *c = NULL;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_design_load(path, d, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(*d, &c, &err), BR_OK);
+    return c;
+}
+
+/* ---- the XML result file ------------------------------------------------ */
+
+static int count_elements(xmlNode *n, const char *name)
+{
+    int k = 0;
+    for (; n; n = n->next) {
+        if (n->type == XML_ELEMENT_NODE && strcmp((const char *)n->name, name) == 0)
+            k++;
+        k += count_elements(n->children, name);
+    }
+    return k;
+}
+
+static xmlNode *find_element(xmlNode *n, const char *name)
+{
+    for (; n; n = n->next) {
+        if (n->type == XML_ELEMENT_NODE && strcmp((const char *)n->name, name) == 0)
+            return n;
+        xmlNode *in = find_element(n->children, name);
+        if (in)
+            return in;
+    }
+    return NULL;
+}
+
+static double attr_num(xmlNode *n, const char *name)
+{
+    xmlChar *v = n ? xmlGetProp(n, (const xmlChar *)name) : NULL;
+    double x = v ? strtod((const char *)v, NULL) : NAN;
+    xmlFree(v);
+    return x;
+}
+
+static int attr_is(xmlNode *n, const char *name, const char *want)
+{
+    xmlChar *v = n ? xmlGetProp(n, (const xmlChar *)name) : NULL;
+    int ok = v && strcmp((const char *)v, want) == 0;
+    xmlFree(v);
+    return ok;
+}
+
+/* What a result file must hold for a verb on a chain of n stages with
+ * ndir directions; returns the document (caller frees) or NULL. */
+static xmlDoc *check_xml(const char *path, const char *verb, int n, int ndir, int status)
+{
+    xmlDoc *doc = xmlReadFile(path, NULL, XML_PARSE_NONET);
+    CU_ASSERT_PTR_NOT_NULL(doc);
+    if (!doc)
+        return NULL;
+    xmlNode *root = xmlDocGetRootElement(doc);
+    CU_ASSERT_STRING_EQUAL(root->name, "bootrung-results");
+    CU_ASSERT_TRUE(attr_is(root, "verb", verb));
+    int startup = strcmp(verb, "steady") != 0, steady = strcmp(verb, "startup") != 0;
+    CU_ASSERT_EQUAL(count_elements(root, "startup"), startup);
+    CU_ASSERT_EQUAL(count_elements(root, "stage"), startup ? n : 0);
+    CU_ASSERT_EQUAL(count_elements(root, "steady"), steady ? ndir : 0);
+    CU_ASSERT_EQUAL(count_elements(root, "rail"), steady ? ndir * n : 0);
+    CU_ASSERT_EQUAL(count_elements(root, "link"), steady ? ndir * (n - 1) : 0);
+    /* start-up judges 2 criteria, steady the other BR_CRIT_COUNT - 2 */
+    int ncrit = startup && steady ? BR_CRIT_COUNT : startup ? 2 : BR_CRIT_COUNT - 2;
+    CU_ASSERT_EQUAL(count_elements(root, "criterion"), ncrit);
+    CU_ASSERT_TRUE(attr_is(find_element(root, "verdict"), "pass", status == 0 ? "true" : "false"));
+    xmlNode *caution = find_element(root, "caution");
+    xmlChar *text = caution ? xmlNodeGetContent(caution) : NULL;
+    CU_ASSERT_TRUE(text && strstr((const char *)text, "lethal voltages"));
+    xmlFree(text);
+    return doc;
+}
+
+/* ---- the CSV time series ------------------------------------------------- */
+
+typedef struct csv_series {
+    char label[32];
+    int rows;
+    double t_first, t_last;
+    int monotonic; /* time never goes back within the series */
+} csv_series;
+
+/* Check the header and every row's field count; summarise each series. */
+static int check_csv(const char *path, int n, csv_series *s, int cap)
+{
+    char *csv = br_test_slurp(path, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(csv);
+    CU_ASSERT_TRUE(strncmp(csv, "series,t_s,rail_", 16) == 0);
+    int fields = 2 + n + (n - 1), ns = 0, bad = 0;
+    char *save = NULL;
+    char *line = strtok_r(csv, "\n", &save);
+    CU_ASSERT_EQUAL(count_char(line, ',') + 1, fields);
+    while ((line = strtok_r(NULL, "\n", &save))) {
+        bad += count_char(line, ',') + 1 != fields;
+        char label[32];
+        double t;
+        if (sscanf(line, "%31[^,],%lf", label, &t) != 2) {
+            bad++;
+            continue;
+        }
+        if (ns == 0 || strcmp(s[ns - 1].label, label) != 0) {
+            if (ns == cap)
+                break;
+            snprintf(s[ns].label, sizeof s[ns].label, "%s", label);
+            s[ns].t_first = t;
+            s[ns].monotonic = 1;
+            s[ns++].rows = 0;
+        }
+        csv_series *cur = &s[ns - 1];
+        if (cur->rows > 0 && t < cur->t_last)
+            cur->monotonic = 0;
+        cur->t_last = t;
+        cur->rows++;
+    }
+    CU_ASSERT_EQUAL(bad, 0);
+    free(csv);
+    return ns;
+}
+
+/* One steady series covers exactly one period from the quiet phase. */
+static void check_steady_series(const csv_series *s, xmlNode *steady, double T)
+{
+    double phase = attr_num(steady, "phase-s");
+    CU_ASSERT_TRUE(s->monotonic);
+    CU_ASSERT_TRUE(s->rows >= 10);
+    BR_ASSERT_NEAR(s->t_last - phase, T, 1e-6 * T);
+    CU_ASSERT_TRUE(s->t_first > phase && s->t_first < phase + 0.5 * T);
+}
+
+/* ---- cases ----------------------------------------------------------------- */
+
+static void expect_names(const br_chain *c, const char *out)
+{
+    for (int k = 0; k < c->n; k++) {
+        char cell[BR_ID_MAX + 8];
+        snprintf(cell, sizeof cell, "  %s  ", c->st[k].name);
+        CU_ASSERT_TRUE(has(out, cell));
+    }
+}
+
+/* analyze with every output on a design; returns the exit status. */
+static int analyze_fully(const char *design)
+{
+    char dir[64], xml[96], csv[96];
+    temp_dir(dir, sizeof dir);
+    snprintf(xml, sizeof xml, "%s/r.xml", dir);
+    snprintf(csv, sizeof csv, "%s/r.csv", dir);
+    br_design *d = NULL;
+    br_chain *c = load_chain(design, &d);
+    int dirs[2], ndir = br_design_directions(c, dirs);
+    run_result r = run((const char *[]){"analyze", "--xml", xml, "--csv", csv, design, NULL});
+    if (r.status != 0 && r.status != 1)
+        fprintf(stderr, "%s: %s", design, r.err);
+    CU_ASSERT_TRUE(r.status == 0 || r.status == 1);
+    CU_ASSERT_STRING_EQUAL(r.err, "");
+    expect_names(c, r.out);
+    for (int i = 0; i < BR_CRIT_COUNT; i++)
+        CU_ASSERT_TRUE(has(r.out, br_crit_title(i)));
+    CU_ASSERT_TRUE(has(r.out, r.status == 0 ? "verdict: PASS" : "verdict: FAIL"));
+    CU_ASSERT_TRUE(has(r.out, "These circuits carry lethal voltages."));
+    xmlDoc *doc = check_xml(xml, "analyze", c->n, ndir, r.status);
+    csv_series s[8];
+    int ns = check_csv(csv, c->n, s, 8);
+    CU_ASSERT_EQUAL(ns, 1 + ndir);
+    CU_ASSERT_STRING_EQUAL(s[0].label, "startup");
+    CU_ASSERT_TRUE(s[0].monotonic && s[0].rows >= 10);
+    xmlNode *st = doc ? find_element(xmlDocGetRootElement(doc), "steady") : NULL;
+    for (int i = 1; i < ns && st; i++, st = xmlNextElementSibling(st))
+        check_steady_series(&s[i], st, c->T);
+    xmlFreeDoc(doc);
+    unlink(xml);
+    unlink(csv);
+    rmdir(dir);
+    br_chain_free(c);
+    br_design_free(d);
+    done(&r);
+    return r.status;
+}
+
+/* The demo passes: examples/run.sh shows a design that works. */
+static void test_analyze_demo(void)
+{
+    CU_ASSERT_EQUAL(analyze_fully("examples/leg-7level.xml"), 0);
+}
+
+static void test_analyze_examples(void)
+{
+    analyze_fully("examples/demo-3level.xml");
+    analyze_fully("tests/data/ref-c1.xml");
+}
+
+/* ref-c2 starts (the reference simulator has every rail running by
+ * 0.27 ms, tests/data/reference/c2.json). */
+static void test_startup(void)
+{
+    char dir[64], xml[96];
+    temp_dir(dir, sizeof dir);
+    snprintf(xml, sizeof xml, "%s/s.xml", dir);
+    br_design *d = NULL;
+    br_chain *c = load_chain("tests/data/ref-c2.xml", &d);
+    run_result r = run((const char *[]){"startup", "tests/data/ref-c2.xml", "--xml", xml, NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    CU_ASSERT_STRING_EQUAL(r.err, "");
+    expect_names(c, r.out);
+    CU_ASSERT_TRUE(has(r.out, "start-up complete after "));
+    CU_ASSERT_PTR_NULL(strstr(r.out, "verdict"));
+    xmlDoc *doc = check_xml(xml, "startup", c->n, 0, r.status);
+    xmlNode *su = doc ? find_element(xmlDocGetRootElement(doc), "startup") : NULL;
+    CU_ASSERT_TRUE(attr_is(su, "complete", "true"));
+    CU_ASSERT_TRUE(attr_num(su, "total-s") > 0);
+    xmlFreeDoc(doc);
+    unlink(xml);
+    rmdir(dir);
+    br_chain_free(c);
+    br_design_free(d);
+    done(&r);
+}
+
+static void test_steady(void)
+{
+    char dir[64], xml[96], csv[96];
+    temp_dir(dir, sizeof dir);
+    snprintf(xml, sizeof xml, "%s/s.xml", dir);
+    snprintf(csv, sizeof csv, "%s/s.csv", dir);
+    br_design *d = NULL;
+    br_chain *c = load_chain("tests/data/ref-c1.xml", &d);
+    run_result r =
+        run((const char *[]){"steady", "--csv", csv, "tests/data/ref-c1.xml", "--xml", xml, NULL});
+    CU_ASSERT_TRUE(r.status == 0 || r.status == 1);
+    expect_names(c, r.out);
+    CU_ASSERT_TRUE(has(r.out, "found by "));
+    CU_ASSERT_TRUE(has(r.out, "margins of the driver supply"));
+    CU_ASSERT_PTR_NULL(strstr(r.out, br_crit_title(BR_CRIT_STARTUP)));
+    xmlDoc *doc = check_xml(xml, "steady", c->n, 1, r.status);
+    csv_series s[4];
+    CU_ASSERT_EQUAL(check_csv(csv, c->n, s, 4), 1);
+    CU_ASSERT_STRING_EQUAL(s[0].label, "steady");
+    if (doc)
+        check_steady_series(&s[0], find_element(xmlDocGetRootElement(doc), "steady"), c->T);
+    xmlFreeDoc(doc);
+    unlink(xml);
+    unlink(csv);
+    rmdir(dir);
+    br_chain_free(c);
+    br_design_free(d);
+    done(&r);
+}
+
+/* ref-c2 with UVLO thresholds the upper rails cannot reach (each link
+ * costs about half a volt): the start-up fails, status 1, and the report
+ * says which rail stalls and what its link carries. */
+static void test_startup_stall(void)
+{
+    char dir[64], path[96];
+    temp_dir(dir, sizeof dir);
+    snprintf(path, sizeof path, "%s/stall.xml", dir);
+    char *src = br_test_slurp("tests/data/ref-c2.xml", NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(src);
+    const char *from = "uvlo-rise=\"7.5 V\" uvlo-fall=\"7.0 V\"";
+    char *at = strstr(src, from);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(at);
+    FILE *f = fopen(path, "w");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(f);
+    fprintf(f, "%.*suvlo-rise=\"10.6 V\" uvlo-fall=\"10.0 V\"%s", (int)(at - src), src,
+            at + strlen(from));
+    fclose(f);
+    free(src);
+    run_result r = run((const char *[]){"startup", path, NULL});
+    CU_ASSERT_EQUAL(r.status, 1);
+    CU_ASSERT_TRUE(has(r.out, "start-up INCOMPLETE"));
+    CU_ASSERT_TRUE(has(r.out, "below UVLO"));
+    CU_ASSERT_TRUE(has(r.out, "passes"));
+    CU_ASSERT_TRUE(has(r.out, "drivers not running at the end:"));
+    done(&r);
+    unlink(path);
+    rmdir(dir);
+}
+
+static void test_bad_input(void)
+{
+    static const char *const verbs[] = {"startup", "steady", "analyze"};
+    for (int i = 0; i < 3; i++) {
+        run_result r = run((const char *[]){verbs[i], "tests/bad/uvlo-inverted.xml", NULL});
+        CU_ASSERT_EQUAL(r.status, 2);
+        CU_ASSERT_STRING_EQUAL(r.out, "");
+        CU_ASSERT_EQUAL(count_char(r.err, '\n'), 1);
+        CU_ASSERT_TRUE(strncmp(r.err, "bootrung: tests/bad/uvlo-inverted.xml:", 38) == 0);
+        done(&r);
+        r = run((const char *[]){verbs[i], "no/such/design.xml", NULL});
+        CU_ASSERT_EQUAL(r.status, 2);
+        CU_ASSERT_STRING_EQUAL(r.out, "");
+        done(&r);
+    }
+}
+
+static void test_bad_usage(void)
+{
+    const char *const *cases[] = {
+        (const char *[]){"analyze", NULL},
+        (const char *[]){"steady", "--xml", NULL},
+        (const char *[]){"startup", "--csv=", "tests/data/ref-c1.xml", NULL},
+        (const char *[]){"analyze", "--xml", "-", "--csv", "-", "tests/data/ref-c1.xml", NULL},
+        (const char *[]){"analyze", "--strict", "tests/data/ref-c1.xml", NULL},
+    };
+    for (size_t i = 0; i < sizeof cases / sizeof cases[0]; i++) {
+        run_result r = run(cases[i]);
+        CU_ASSERT_EQUAL(r.status, 2);
+        CU_ASSERT_STRING_EQUAL(r.out, "");
+        CU_ASSERT_EQUAL(count_char(r.err, '\n'), 1);
+        done(&r);
+    }
+}
+
+/* An output that cannot be written: status 2, one line naming it, no
+ * report on stdout, and nothing left behind (no file, no temporary). */
+static void test_write_failure(void)
+{
+    char dir[64], missing[128], isdir[96];
+    temp_dir(dir, sizeof dir);
+    snprintf(missing, sizeof missing, "%s/no/such/dir/r.xml", dir);
+    run_result r =
+        run((const char *[]){"startup", "--xml", missing, "tests/data/ref-c1.xml", NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    CU_ASSERT_STRING_EQUAL(r.out, "");
+    CU_ASSERT_EQUAL(count_char(r.err, '\n'), 1);
+    CU_ASSERT_TRUE(has(r.err, missing));
+    done(&r);
+    CU_ASSERT_EQUAL(entries(dir), 0);
+    /* a directory in the way: the temporary file is written, the rename
+     * fails, and the temporary must go */
+    snprintf(isdir, sizeof isdir, "%s/r.csv", dir);
+    CU_ASSERT_EQUAL_FATAL(mkdir(isdir, 0755), 0);
+    r = run((const char *[]){"startup", "--csv", isdir, "tests/data/ref-c1.xml", NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    CU_ASSERT_STRING_EQUAL(r.out, "");
+    CU_ASSERT_EQUAL(entries(dir), 1);
+    struct stat sb;
+    CU_ASSERT_TRUE(stat(isdir, &sb) == 0 && S_ISDIR(sb.st_mode));
+    done(&r);
+    rmdir(isdir);
+    rmdir(dir);
+}
+
+/* "--xml -" sends the XML to stdout in place of the text report. */
+static void test_xml_to_stdout(void)
+{
+    run_result r = run((const char *[]){"startup", "--xml", "-", "tests/data/ref-c1.xml", NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    CU_ASSERT_TRUE(strncmp(r.out, "<?xml ", 6) == 0);
+    xmlDoc *doc = xmlReadMemory(r.out, (int)strlen(r.out), "stdout.xml", NULL, XML_PARSE_NONET);
+    CU_ASSERT_PTR_NOT_NULL(doc);
+    xmlFreeDoc(doc);
+    done(&r);
+}
+
+/* Report the first differing line against a golden file. */
+static int same_as_golden(const char *golden, const char *got)
+{
+    char *want = br_test_slurp(golden, NULL);
+    if (!want) {
+        fprintf(stderr, "%s is missing: run tests/golden/update.sh\n", golden);
+        return 0;
+    }
+    int ok = strcmp(want, got) == 0, line = 1;
+    for (const char *a = want, *b = got; !ok && *a && *a == *b; a++, b++)
+        line += *a == '\n';
+    if (!ok)
+        fprintf(stderr, "%s:%d: output differs (see tests/golden/update.sh)\n", golden, line);
+    free(want);
+    return ok;
+}
+
+static void test_help_golden(void)
+{
+    static const char *const verbs[] = {"startup", "steady", "analyze"};
+    for (int i = 0; i < 3; i++) {
+        char golden[64];
+        snprintf(golden, sizeof golden, "tests/golden/%s-help.txt", verbs[i]);
+        run_result a = run((const char *[]){verbs[i], "--help", NULL});
+        run_result b = run((const char *[]){"help", verbs[i], NULL});
+        CU_ASSERT_EQUAL(a.status, 0);
+        CU_ASSERT_TRUE(same_as_golden(golden, a.out));
+        CU_ASSERT_STRING_EQUAL(a.out, b.out);
+        done(&a);
+        done(&b);
+    }
+}
+
+int main(void)
+{
+    static const br_test_case cases[] = {
+        {"analyze on the demo: passes, full outputs", test_analyze_demo},
+        {"analyze on the other designs", test_analyze_examples},
+        {"startup completes on ref-c2", test_startup},
+        {"steady on ref-c1 with XML and CSV", test_steady},
+        {"a rail that never starts: status 1, why", test_startup_stall},
+        {"bad design file: status 2", test_bad_input},
+        {"bad usage: status 2", test_bad_usage},
+        {"unwritable output: status 2, nothing left", test_write_failure},
+        {"--xml - goes to stdout", test_xml_to_stdout},
+        {"help texts (golden)", test_help_golden},
+        {NULL, NULL},
+    };
+    if (chdir(BR_SOURCE_DIR) != 0)
+        return 2;
+    return br_test_main("cli_verbs", cases);
+}
