@@ -4,8 +4,8 @@
 #include <math.h>
 #include <string.h>
 
-int br_evaluate(const br_chain *c, int with_startup, const br_steady_opts *opts,
-                br_evaluation *out, br_error *err)
+int br_evaluate(const br_chain *c, int with_startup, const br_steady_opts *opts, br_evaluation *out,
+                br_error *err)
 {
     memset(out, 0, sizeof *out);
     int rc = BR_OK;

@@ -9,18 +9,23 @@
 int br_design_directions(const br_chain *c, int dirs[2])
 {
     switch (c->direction) {
-    case BR_DIR_STEP_DOWN: dirs[0] = BR_DIRI_DOWN; return 1;
-    case BR_DIR_STEP_UP: dirs[0] = BR_DIRI_UP; return 1;
+    case BR_DIR_STEP_DOWN:
+        dirs[0] = BR_DIRI_DOWN;
+        return 1;
+    case BR_DIR_STEP_UP:
+        dirs[0] = BR_DIRI_UP;
+        return 1;
     case BR_DIR_BOTH:
         dirs[0] = BR_DIRI_DOWN;
         dirs[1] = BR_DIRI_UP;
         return 2;
-    default: dirs[0] = BR_DIRI_NONE; return 1;
+    default:
+        dirs[0] = BR_DIRI_NONE;
+        return 1;
     }
 }
 
-static void rail_figure(const br_chain *c, const br_rail_stats *r, int k, double dt,
-                        br_rail_fig *f)
+static void rail_figure(const br_chain *c, const br_rail_stats *r, int k, double dt, br_rail_fig *f)
 {
     const br_stage *st = &c->st[k];
     f->vmin = r->vmin;
@@ -44,8 +49,7 @@ static void rail_figure(const br_chain *c, const br_rail_stats *r, int k, double
     f->icap_rms = sqrt(r->icap2 / dt);
 }
 
-static void link_figure(const br_chain *c, const br_link_stats *l, int k, double dt,
-                        br_link_fig *f)
+static void link_figure(const br_chain *c, const br_link_stats *l, int k, double dt, br_link_fig *f)
 {
     const br_diode *d = &c->st[k].diode;
     f->vrev_sim = l->vrev_peak;
@@ -79,22 +83,24 @@ void br_steady_figures(const br_chain *c, const br_steady *ss, br_steady_figs *o
 
 /* ---- verdict ------------------------------------------------------------- */
 
-static const char *const NAMES[BR_CRIT_COUNT] = {
-    "startup", "inrush", "steady-state", "restart", "uvlo", "drive", "gate", "diode-reverse",
-    "capacitor-voltage"};
+static const char *const NAMES[BR_CRIT_COUNT] = {"startup", "inrush",        "steady-state",
+                                                 "restart", "uvlo",          "drive",
+                                                 "gate",    "diode-reverse", "capacitor-voltage"};
 static const char *const TITLES[BR_CRIT_COUNT] = {
-    "every driver starts from cold",
-    "link inrush within the diode surge rating",
-    "periodic steady state exists and holds",
-    "rails stay above UVLO rising (restart)",
-    "rails stay above UVLO falling",
-    "drive voltage above the useful minimum",
-    "gate voltage below its absolute maximum",
-    "diode reverse voltage within derated rating",
+    "every driver starts from cold",           "link inrush within the diode surge rating",
+    "periodic steady state exists and holds",  "rails stay above UVLO rising (restart)",
+    "rails stay above UVLO falling",           "drive voltage above the useful minimum",
+    "gate voltage below its absolute maximum", "diode reverse voltage within derated rating",
     "capacitor voltage within its rating"};
 
-const char *br_crit_name(int crit) { return crit >= 0 && crit < BR_CRIT_COUNT ? NAMES[crit] : "?"; }
-const char *br_crit_title(int crit) { return crit >= 0 && crit < BR_CRIT_COUNT ? TITLES[crit] : "?"; }
+const char *br_crit_name(int crit)
+{
+    return crit >= 0 && crit < BR_CRIT_COUNT ? NAMES[crit] : "?";
+}
+const char *br_crit_title(int crit)
+{
+    return crit >= 0 && crit < BR_CRIT_COUNT ? TITLES[crit] : "?";
+}
 
 /* Keep the row with the smallest margin. */
 static void consider(br_verdict_row *r, double figure, double limit, double margin, int stage,
@@ -139,7 +145,8 @@ static void steady_rows(const br_chain *c, const br_steady_figs *f, br_verdict *
     for (int k = 0; k < c->n; k++) {
         const br_rail_fig *rf = &f->rail[k];
         const br_stage *st = &c->st[k];
-        consider(&v->row[BR_CRIT_RESTART], rf->vdrv_min, st->drv.uvlo_rise, rf->m_restart, k, f->dir);
+        consider(&v->row[BR_CRIT_RESTART], rf->vdrv_min, st->drv.uvlo_rise, rf->m_restart, k,
+                 f->dir);
         consider(&v->row[BR_CRIT_UVLO], rf->vdrv_min, st->drv.uvlo_fall, rf->m_uvlo, k, f->dir);
         consider(&v->row[BR_CRIT_DRIVE], rf->vdrv_min, c->min_drive, rf->m_drive, k, f->dir);
         consider(&v->row[BR_CRIT_GATE], rf->vdrv_max, st->sw.vgs_max, rf->m_gate, k, f->dir);
@@ -161,11 +168,10 @@ static const char *UNITS[BR_CRIT_COUNT] = {"s", "A", "V", "V", "V", "V", "V", "V
 
 static void finish_rows(br_verdict *v)
 {
-    static const char *why[BR_CRIT_COUNT] = {
-        [BR_CRIT_DRIVE] = "no minimum drive voltage set",
-        [BR_CRIT_GATE] = "no gate maximum given",
-        [BR_CRIT_DIODE_VR] = "no diode voltage rating given",
-        [BR_CRIT_CAP_V] = "no capacitor rating given"};
+    static const char *why[BR_CRIT_COUNT] = {[BR_CRIT_DRIVE] = "no minimum drive voltage set",
+                                             [BR_CRIT_GATE] = "no gate maximum given",
+                                             [BR_CRIT_DIODE_VR] = "no diode voltage rating given",
+                                             [BR_CRIT_CAP_V] = "no capacitor rating given"};
     v->all_pass = 1;
     for (int i = 0; i < BR_CRIT_COUNT; i++) {
         br_verdict_row *r = &v->row[i];
@@ -180,8 +186,8 @@ static void finish_rows(br_verdict *v)
     }
 }
 
-void br_verdict_make(const br_chain *c, const br_startup *su, const br_steady_figs *figs,
-                     int ndir, br_verdict *out)
+void br_verdict_make(const br_chain *c, const br_startup *su, const br_steady_figs *figs, int ndir,
+                     br_verdict *out)
 {
     memset(out, 0, sizeof *out);
     for (int i = 0; i < BR_CRIT_COUNT; i++)

@@ -8,7 +8,7 @@
 
 typedef struct watch {
     br_startup *r;
-    double last_event;              /* s */
+    double last_event; /* s */
     const br_sim_observer *user;
 } watch;
 

@@ -48,12 +48,13 @@ typedef struct shoot {
     const br_chain *c;
     br_sim *sim;
     double phase;
-    int m;                 /* unknowns */
-    int mv;                /* of which rail voltages (they come first) */
-    int idx[NX];           /* position in the full x of unknown i */
-    double base[NX];       /* full x the unknowns are written into */
+    int m;           /* unknowns */
+    int mv;          /* of which rail voltages (they come first) */
+    int idx[NX];     /* position in the full x of unknown i */
+    double base[NX]; /* full x the unknowns are written into */
     long periods;
     int dropped;           /* a driver toggled during the last map */
+    int have_stats;        /* out->stats already hold the converged period */
 } shoot;
 
 static void on_uvlo(void *ctx, const br_uvlo_event *e)
@@ -85,6 +86,7 @@ static int period_map(shoot *sh, const double *z, double *y, br_error *err)
         x[sh->idx[i]] = z[i];
     br_sim_reset_running_at(sh->sim, x, sh->phase);
     sh->dropped = 0;
+    br_sim_stats_start(sh->sim); /* the last map's period is the one reported */
     int rc = br_sim_run_until(sh->sim, sh->c->T, err);
     sh->periods++;
     br_sim_state(sh->sim, out);
@@ -225,8 +227,11 @@ static int shoot_variational(shoot *sh, double *z, const br_steady_opts *o, br_s
         for (int i = 0; i < m; i++)
             F[i] = pz[i] - z[i];
         out->residual = max_abs_diff(pz, z, sh->mv);
-        if ((ok = out->residual <= o->tol && !sh->dropped))
+        if ((ok = out->residual <= o->tol && !sh->dropped)) {
+            out->stats = *br_sim_stats(sh->sim);
+            sh->have_stats = 1;
             break;
+        }
         out->iterations = it + 1;
         jacobian_from_sensitivity(sh, B);
         if (newton_step(B, LU, p, F, dz, m) != 0)
@@ -359,20 +364,24 @@ static int finish(shoot *sh, const double *x, const br_steady_opts *o, br_steady
                   br_error *err)
 {
     double after[NX];
+    int checks = o->check_periods > 0 ? o->check_periods : 1, rc = BR_OK;
     br_sim_reset_running_at(sh->sim, x, sh->phase);
     sh->dropped = 0;
-    br_sim_stats_start(sh->sim);
-    int rc = br_sim_run_until(sh->sim, sh->c->T, err);
-    if (rc != BR_OK)
-        return rc;
-    out->stats = *br_sim_stats(sh->sim);
+    if (!sh->have_stats) {
+        br_sim_stats_start(sh->sim);
+        rc = br_sim_run_until(sh->sim, sh->c->T, err);
+        out->stats = *br_sim_stats(sh->sim);
+        sh->periods++;
+        checks++;
+    }
+    if (rc == BR_OK)
+        rc = br_sim_run_until(sh->sim, checks * sh->c->T, err);
+    sh->periods += o->check_periods > 0 ? o->check_periods : 1;
     out->holds = !sh->dropped;
     for (int k = 1; k < sh->c->n; k++)
         out->holds = out->holds && br_sim_enabled(sh->sim, k);
-    rc = br_sim_run_until(sh->sim, (1 + o->check_periods) * sh->c->T, err);
-    sh->periods += 1 + o->check_periods;
     br_sim_state(sh->sim, after);
-    out->drift = rail_change(sh->c, after, x) / (o->check_periods > 0 ? o->check_periods : 1);
+    out->drift = rail_change(sh->c, after, x) / checks;
     memcpy(out->x, x, sizeof out->x);
     return rc;
 }
