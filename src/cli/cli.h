@@ -88,6 +88,8 @@ int cmd_check(int argc, char **argv);
 int cmd_startup(int argc, char **argv);
 int cmd_steady(int argc, char **argv);
 int cmd_analyze(int argc, char **argv);
+int cmd_window(int argc, char **argv);
+int cmd_map(int argc, char **argv);
 
 /* The shared body of the analysis verbs: options --xml/--csv, the help
  * text `about`, the analyses `parts` (BR_RUN_* of report/results.h). */

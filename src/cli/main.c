@@ -22,6 +22,8 @@ static const br_verb verbs[] = {
     {"startup", cmd_startup, "simulate the start-up from cold, rail by rail"},
     {"steady", cmd_steady, "the periodic steady state: rail margins, diode and capacitor stress"},
     {"analyze", cmd_analyze, "start-up, steady state and the pass/fail verdict (the main job)"},
+    {"window", cmd_window, "duty and frequency limits, hold-up time, start-up window"},
+    {"map", cmd_map, "worst margin over a duty x frequency grid, as CSV and an SVG heat map"},
     {NULL, NULL, NULL},
 };
 

@@ -1,0 +1,603 @@
+/* window.c - duty and frequency limits by scan and Brent refinement,
+ * hold-up time and the start-up window. */
+#include "analyses/window.h"
+
+#include "core/error.h"
+
+#include <gsl/gsl_errno.h>
+#include <gsl/gsl_roots.h>
+#include <math.h>
+#include <pthread.h>
+#include <stdlib.h>
+#include <string.h>
+
+#define MEMO 128 /* points remembered during one sweep (a ring) */
+
+void br_window_opts_default(br_window_opts *o)
+{
+    memset(o, 0, sizeof *o);
+    o->nscan_duty = 21;
+    o->nscan_fsw = 25;
+    o->threads = 2;
+}
+
+/* ---- one sweep ----------------------------------------------------------- */
+
+/* The axis variable u is the duty itself, or ln(fsw): Brent works on
+ * log frequency so that a relative resolution is a fixed width. */
+typedef struct sweep_ctx {
+    br_probe *p;
+    br_sweep *out;
+    double res; /* resolution in u */
+    br_error *err;
+    int rc;    /* first failure of a judged point */
+    int nmemo; /* points stored so far (ring of MEMO) */
+    double mu[MEMO];
+    br_hold_point mpt[MEMO];
+} sweep_ctx;
+
+static double axis_value(const br_sweep *s, double u)
+{
+    return s->axis == BR_AXIS_FSW ? exp(u) : u;
+}
+static double axis_u(const br_sweep *s, double v)
+{
+    return s->axis == BR_AXIS_FSW ? log(v) : v;
+}
+
+/* Exact match on purpose: Brent hands back the very values it was given
+ * (its bracket ends), and the scan's points are asked for again as such. */
+static const br_hold_point *memo_find(const sweep_ctx *x, double u)
+{
+    int n = x->nmemo < MEMO ? x->nmemo : MEMO;
+    for (int i = 0; i < n; i++)
+        if (x->mu[i] == u)
+            return &x->mpt[i];
+    return NULL;
+}
+
+static void memo_put(sweep_ctx *x, double u, const br_hold_point *pt)
+{
+    int i = x->nmemo++ % MEMO;
+    x->mu[i] = u;
+    x->mpt[i] = *pt;
+}
+
+/* Judge the point at u (once: a point asked for again comes from memory). */
+static int judge_at(sweep_ctx *x, double u, br_hold_point *pt)
+{
+    const br_hold_point *m = memo_find(x, u);
+    if (m) {
+        *pt = *m;
+        return BR_OK;
+    }
+    br_sweep *s = x->out;
+    double v = axis_value(s, u);
+    double duty = s->axis == BR_AXIS_DUTY ? v : s->fixed;
+    double fsw = s->axis == BR_AXIS_FSW ? v : s->fixed;
+    int rc = br_probe_eval(x->p, duty, fsw, pt, x->err);
+    if (rc != BR_OK)
+        return rc;
+    s->evals++;
+    s->periods += pt->periods;
+    memo_put(x, u, pt);
+    return BR_OK;
+}
+
+/* The function Brent sees: the worst margin, V; a steady state not found
+ * counts as failing by 1 V so the function stays finite. */
+static double margin_of(const br_hold_point *pt)
+{
+    return isnan(pt->margin) ? -1.0 : pt->margin;
+}
+
+static double brent_fn(double u, void *ctx)
+{
+    sweep_ctx *x = ctx;
+    br_hold_point pt;
+    if (x->rc != BR_OK)
+        return -1.0; /* the caller stops at the next check */
+    x->rc = judge_at(x, u, &pt);
+    return x->rc == BR_OK ? margin_of(&pt) : -1.0;
+}
+
+/* Put the end that holds into *ua and the one that fails into *ub. */
+static int order_ends(sweep_ctx *x, double a, double b, double *ua, double *ub)
+{
+    br_hold_point pa, pb;
+    int rc = judge_at(x, a, &pa);
+    if (rc == BR_OK)
+        rc = judge_at(x, b, &pb);
+    if (rc != BR_OK)
+        return rc;
+    if (pa.holds == pb.holds)
+        return BR_OK; /* an exact zero of the margin: keep the old bracket */
+    *ua = pa.holds ? a : b;
+    *ub = pa.holds ? b : a;
+    return BR_OK;
+}
+
+/* Brent's estimate converges from one side while the far end of the
+ * bracket stays put; a step of just under the resolution past the
+ * estimate closes the bracket. */
+static int close_bracket(sweep_ctx *x, double r, double *ua, double *ub)
+{
+    br_hold_point pr, py;
+    int rc = judge_at(x, r, &pr);
+    if (rc != BR_OK)
+        return rc;
+    double toward_fail = *ub > *ua ? 1.0 : -1.0;
+    if ((r - *ua) * (r - *ub) < 0) { /* strictly inside: it narrows the bracket */
+        if (pr.holds)
+            *ua = r;
+        else
+            *ub = r;
+    }
+    double y = r + (pr.holds ? 0.9 : -0.9) * x->res * toward_fail;
+    if ((y - *ua) * (y - *ub) >= 0)
+        return BR_OK; /* not inside the bracket: nothing to gain */
+    if ((rc = judge_at(x, y, &py)) != BR_OK)
+        return rc;
+    if (py.holds)
+        *ua = y;
+    else
+        *ub = y;
+    return BR_OK;
+}
+
+/* Iterate Brent on [ua, ub] until the bracket is within the resolution or
+ * the estimate stops moving by more than half of it; returns the last
+ * estimate in *r. */
+static int brent_pass(sweep_ctx *x, gsl_root_fsolver *s, double *ua, double *ub, double *r)
+{
+    gsl_function F = {brent_fn, x};
+    if (gsl_root_fsolver_set(s, &F, fmin(*ua, *ub), fmax(*ua, *ub)) != GSL_SUCCESS)
+        return x->rc != BR_OK ? x->rc
+                              : br_error_set(x->err, BR_ENUMERIC, NULL, 0, NULL,
+                                             "Brent's method could not start on a bracket");
+    double prev = NAN;
+    *r = *ua;
+    for (int it = 0; it < 50; it++) {
+        int st = gsl_root_fsolver_iterate(s);
+        if (x->rc != BR_OK)
+            return x->rc;
+        if (st != GSL_SUCCESS)
+            break;
+        *r = gsl_root_fsolver_root(s);
+        int rc = order_ends(x, gsl_root_fsolver_x_lower(s), gsl_root_fsolver_x_upper(s), ua, ub);
+        if (rc != BR_OK)
+            return rc;
+        if (fabs(*ub - *ua) <= x->res || fabs(*r - prev) < 0.5 * x->res)
+            break;
+        prev = *r;
+    }
+    return BR_OK;
+}
+
+/* Narrow the bracket [ua holds, ub fails] to the resolution. */
+static int refine(sweep_ctx *x, double ua, double ub, br_limit *lim)
+{
+    gsl_root_fsolver *s = gsl_root_fsolver_alloc(gsl_root_fsolver_brent);
+    if (!s)
+        return br_error_set(x->err, BR_ENOMEM, NULL, 0, NULL, "out of memory for Brent's method");
+    int rc = BR_OK;
+    for (int pass = 0; pass < 8 && rc == BR_OK && fabs(ub - ua) > x->res; pass++) {
+        double r = ua;
+        rc = brent_pass(x, s, &ua, &ub, &r);
+        if (rc == BR_OK && fabs(ub - ua) > x->res)
+            rc = close_bracket(x, r, &ua, &ub);
+    }
+    gsl_root_fsolver_free(s);
+    if (rc != BR_OK)
+        return rc;
+    lim->kind = BR_LIMIT_FOUND;
+    lim->value = axis_value(x->out, ua);
+    lim->outside = axis_value(x->out, ub);
+    rc = judge_at(x, ua, &lim->in);
+    return rc == BR_OK ? judge_at(x, ub, &lim->out) : rc;
+}
+
+/* ---- the scan ------------------------------------------------------------ */
+
+/* Grid of n points from lo to hi in u, with the design's u0 put in place
+ * of the nearest point (so the scan passes through it).  Returns the
+ * index of u0. */
+static int scan_grid(double ulo, double uhi, double u0, int n, double *u)
+{
+    int best = 0;
+    for (int i = 0; i < n; i++) {
+        u[i] = ulo + (uhi - ulo) * i / (n - 1);
+        if (fabs(u[i] - u0) < fabs(u[best] - u0))
+            best = i;
+    }
+    /* keep the ends: the range is what the report promises */
+    if (best == 0 && n > 2)
+        best = 1;
+    if (best == n - 1 && n > 2)
+        best = n - 2;
+    u[best] = u0;
+    return best;
+}
+
+/* Walk from the design point to one end (step -1 or +1), refining every
+ * change between holds and fails at once while the warm start is near;
+ * edge[j] is the limit between scan points j and j+1. */
+static int walk(sweep_ctx *x, const double *u, int jd, int n, int step, br_limit *edge)
+{
+    br_sweep *s = x->out;
+    for (int j = jd + step; j >= 0 && j < n; j += step) {
+        int rc = judge_at(x, u[j], &s->scan[j]);
+        if (rc != BR_OK)
+            return rc;
+        const br_hold_point *prev = &s->scan[j - step];
+        if (prev->holds == s->scan[j].holds)
+            continue;
+        int e = step < 0 ? j : j - 1;
+        double uin = prev->holds ? u[j - step] : u[j];
+        double uout = prev->holds ? u[j] : u[j - step];
+        if ((rc = refine(x, uin, uout, &edge[e])) != BR_OK)
+            return rc;
+    }
+    return BR_OK;
+}
+
+static void range_end(const br_sweep *s, int j, br_limit *lim)
+{
+    memset(lim, 0, sizeof *lim);
+    lim->kind = BR_LIMIT_RANGE_END;
+    lim->value = j == 0 ? s->lo : s->hi;
+    lim->in = s->scan[j];
+}
+
+/* Gather the holding runs of the scan into spans. */
+static void collect_spans(br_sweep *s, const br_limit *edge, int jd)
+{
+    s->home = -1;
+    for (int j = 0; j < s->nscan; j++) {
+        if (!s->scan[j].holds || (j > 0 && s->scan[j - 1].holds))
+            continue;
+        int last = j;
+        while (last + 1 < s->nscan && s->scan[last + 1].holds)
+            last++;
+        if (s->nspans == BR_MAX_SPANS) {
+            s->truncated = 1;
+            return;
+        }
+        br_span *sp = &s->span[s->nspans];
+        if (j == 0)
+            range_end(s, 0, &sp->lo);
+        else
+            sp->lo = edge[j - 1];
+        if (last == s->nscan - 1)
+            range_end(s, last, &sp->hi);
+        else
+            sp->hi = edge[last];
+        if (jd >= j && jd <= last)
+            s->home = s->nspans;
+        s->nspans++;
+    }
+}
+
+int br_sweep_run(br_probe *p, int axis, double fixed, double lo, double hi, const br_hold_point *at,
+                 const br_warm *w0, int nscan, br_sweep *out, br_error *err)
+{
+    memset(out, 0, sizeof *out);
+    out->axis = axis;
+    out->applies = 1;
+    out->lo = lo;
+    out->hi = hi;
+    out->fixed = fixed;
+    out->design = axis == BR_AXIS_FSW ? at->fsw : at->duty;
+    out->resolution = axis == BR_AXIS_FSW ? BR_RES_FSW : BR_RES_DUTY;
+    out->nscan = nscan < 3 ? 3 : nscan > BR_MAX_SCAN ? BR_MAX_SCAN : nscan;
+    sweep_ctx *x = calloc(1, sizeof *x);
+    br_limit *edge = calloc(BR_MAX_SCAN, sizeof *edge);
+    if (!x || !edge) {
+        free(x);
+        free(edge);
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory for a sweep");
+    }
+    *x = (sweep_ctx){.p = p, .out = out, .err = err};
+    x->res = axis == BR_AXIS_FSW ? log1p(BR_RES_FSW) : BR_RES_DUTY;
+    double u[BR_MAX_SCAN];
+    int jd = scan_grid(axis_u(out, lo), axis_u(out, hi), axis_u(out, out->design), out->nscan, u);
+    out->scan[jd] = *at;
+    memo_put(x, u[jd], at);
+    br_probe_load(p, w0);
+    int rc = walk(x, u, jd, out->nscan, -1, edge);
+    br_probe_load(p, w0);
+    if (rc == BR_OK)
+        rc = walk(x, u, jd, out->nscan, +1, edge);
+    if (rc == BR_OK)
+        collect_spans(out, edge, jd);
+    free(x);
+    free(edge);
+    return rc;
+}
+
+/* ---- the start-up window ---------------------------------------------------- */
+
+static int su_point(br_design *d, int axis, double v, br_su_point *pt, br_error *err)
+{
+    if (axis == BR_AXIS_DUTY)
+        d->duty.nom = v;
+    else
+        d->fsw.nom = v;
+    br_chain c;
+    int rc = br_chain_build_nominal(d, &c, err);
+    if (rc != BR_OK)
+        return rc;
+    br_startup su;
+    rc = br_startup_run(&c, NULL, &su, err);
+    pt->value = v;
+    pt->complete = su.complete && su.t_total <= c.startup_max;
+    pt->t_total = su.t_total;
+    pt->stalled = su.first_stalled;
+    return rc;
+}
+
+static int su_cmp(const void *a, const void *b)
+{
+    double x = ((const br_su_point *)a)->value, y = ((const br_su_point *)b)->value;
+    return (x > y) - (x < y);
+}
+
+static int su_run_at(br_design *d, br_su_window *w, double u, br_su_point *pt, br_error *err)
+{
+    double v = w->axis == BR_AXIS_FSW ? exp(u) : u;
+    int rc = su_point(d, w->axis, v, pt, err);
+    if (rc == BR_OK && w->npts < BR_MAX_SU_POINTS)
+        w->pt[w->npts++] = *pt;
+    return rc;
+}
+
+/* Downward in a few steps to the first failure, then bisection (a cold
+ * start either completes or not; there is no margin to interpolate). */
+static int su_search(br_design *d, br_su_window *w, double u0, double ulo, double res,
+                     br_error *err)
+{
+    br_su_point pt;
+    const int steps = 5;
+    double uin = u0, uout = NAN;
+    int rc = BR_OK;
+    for (int i = 1; i <= steps && rc == BR_OK && isnan(uout); i++) {
+        double u = u0 + (ulo - u0) * i / steps;
+        rc = su_run_at(d, w, u, &pt, err);
+        if (pt.complete)
+            uin = u;
+        else
+            uout = u;
+    }
+    w->kind = isnan(uout) ? BR_LIMIT_RANGE_END : BR_LIMIT_FOUND;
+    while (rc == BR_OK && !isnan(uout) && fabs(uin - uout) > res) {
+        double u = 0.5 * (uin + uout);
+        rc = su_run_at(d, w, u, &pt, err);
+        if (pt.complete)
+            uin = u;
+        else
+            uout = u;
+    }
+    w->lowest = w->axis == BR_AXIS_FSW ? exp(uin) : uin;
+    w->failing = isnan(uout) ? NAN : w->axis == BR_AXIS_FSW ? exp(uout) : uout;
+    return rc;
+}
+
+static void su_finish(br_su_window *w)
+{
+    qsort(w->pt, (size_t)w->npts, sizeof w->pt[0], su_cmp);
+    w->stalled = -1;
+    for (int i = 0; i < w->npts; i++)
+        if (w->pt[i].value == w->failing)
+            w->stalled = w->pt[i].stalled;
+}
+
+int br_su_window_run(const br_design *d, int axis, double lo, br_su_window *out, br_error *err)
+{
+    memset(out, 0, sizeof *out);
+    out->axis = axis;
+    out->applies = 1;
+    out->lo = lo;
+    out->resolution = axis == BR_AXIS_FSW ? BR_RES_FSW : BR_RES_DUTY;
+    out->failing = NAN;
+    br_design *dc = malloc(sizeof *dc);
+    if (!dc)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory for the start-up window");
+    memcpy(dc, d, sizeof *dc);
+    double v0 = axis == BR_AXIS_FSW ? d->fsw.nom : d->duty.nom;
+    double res = axis == BR_AXIS_FSW ? log1p(BR_RES_FSW) : BR_RES_DUTY;
+    double u0 = axis == BR_AXIS_FSW ? log(v0) : v0;
+    double ulo = axis == BR_AXIS_FSW ? log(lo) : lo;
+    br_su_point pt;
+    int rc = su_run_at(dc, out, u0, &pt, err);
+    out->design_starts = rc == BR_OK && pt.complete;
+    if (rc == BR_OK && out->design_starts)
+        rc = su_search(dc, out, u0, ulo, res, err);
+    su_finish(out);
+    free(dc);
+    return rc;
+}
+
+/* ---- everything ---------------------------------------------------------- */
+
+/* The frequency range: the options', or two decades either side of the
+ * design, the top kept 1 % below where the dead time leaves no on-time. */
+static int fsw_range(const br_probe *p, const br_window_opts *o, double *lo, double *hi,
+                     br_error *err)
+{
+    const br_chain *c = br_probe_design_chain(p);
+    *lo = o->fmin > 0 ? o->fmin : c->fsw / 100.0;
+    *hi = o->fmax > 0 ? o->fmax : fmin(100.0 * c->fsw, br_probe_fsw_ceiling(p, c->duty, 0.01));
+    if (!(*lo < c->fsw && c->fsw < *hi))
+        return br_error_set(err, BR_EINPUT, NULL, 0, "fmin/fmax",
+                            "frequency range %g Hz to %g Hz does not contain the design's %g Hz; "
+                            "expected fmin < fsw < fmax",
+                            *lo, *hi, c->fsw);
+    return BR_OK;
+}
+
+/* One axis to sweep, on a thread of its own when there are two. */
+typedef struct sweep_job {
+    br_probe *p; /* its own probe */
+    int axis;
+    double fixed, lo, hi;
+    int nscan;
+    const br_hold_point *at;
+    const br_warm *w0;
+    br_sweep *out;
+    br_error err;
+    int rc;
+} sweep_job;
+
+static void *sweep_thread(void *arg)
+{
+    sweep_job *j = arg;
+    br_error_clear(&j->err);
+    j->rc = br_sweep_run(j->p, j->axis, j->fixed, j->lo, j->hi, j->at, j->w0, j->nscan, j->out,
+                         &j->err);
+    return NULL;
+}
+
+/* The duty sweep on a second thread (and probe) while this one sweeps the
+ * frequency; both start from the design point's warm start, so the
+ * result is the same with one thread. */
+static int run_sweeps(const br_design *d, br_probe *p, sweep_job *jd, sweep_job *jf, int threads,
+                      br_error *err)
+{
+    pthread_t tid;
+    int rc = jd ? br_probe_create(d, &jd->p, err) : BR_OK;
+    int started =
+        rc == BR_OK && jd && threads > 1 && pthread_create(&tid, NULL, sweep_thread, jd) == 0;
+    if (rc == BR_OK) {
+        jf->p = p;
+        sweep_thread(jf);
+        if (started)
+            pthread_join(tid, NULL);
+        else if (jd)
+            sweep_thread(jd);
+        rc = jd && jd->rc != BR_OK ? jd->rc : jf->rc;
+        if (rc != BR_OK && err)
+            *err = jd && jd->rc != BR_OK ? jd->err : jf->err;
+    }
+    if (jd)
+        br_probe_free(jd->p);
+    return rc;
+}
+
+static int steady_limits(const br_design *d, br_probe *p, const br_window_opts *o, br_window *w,
+                         br_error *err)
+{
+    const br_chain *c = br_probe_design_chain(p);
+    double flo, fhi, dlo = 0.0, dhi = 0.0;
+    int rc = fsw_range(p, o, &flo, &fhi, err);
+    if (rc != BR_OK)
+        return rc;
+    br_warm *w0 = br_warm_create(p);
+    if (!w0)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory for a warm start");
+    rc = br_probe_eval(p, c->duty, c->fsw, &w->design, err);
+    br_probe_save(p, w0);
+    w->duty.axis = BR_AXIS_DUTY;
+    int duty = br_probe_duty_applies(p) && br_probe_duty_range(p, c->fsw, BR_RES_DUTY, &dlo, &dhi);
+    if (duty) { /* a design within a step of the end: the range keeps it inside */
+        dlo = fmin(dlo, c->duty);
+        dhi = fmax(dhi, c->duty);
+    }
+    sweep_job jd = {.axis = BR_AXIS_DUTY,
+                    .fixed = c->fsw,
+                    .lo = dlo,
+                    .hi = dhi,
+                    .nscan = o->nscan_duty,
+                    .at = &w->design,
+                    .w0 = w0,
+                    .out = &w->duty};
+    sweep_job jf = {.axis = BR_AXIS_FSW,
+                    .fixed = c->duty,
+                    .lo = flo,
+                    .hi = fhi,
+                    .nscan = o->nscan_fsw,
+                    .at = &w->design,
+                    .w0 = w0,
+                    .out = &w->fsw};
+    if (rc == BR_OK)
+        rc = run_sweeps(d, p, duty ? &jd : NULL, &jf, o->threads, err);
+    br_warm_free(w0);
+    return rc;
+}
+
+/* Hold-up from the real chain's steady state in every direction. */
+static int holdups(const br_design *d, br_window *w, br_error *err)
+{
+    br_chain *c;
+    int rc = br_chain_build(d, &c, err);
+    if (rc != BR_OK)
+        return rc;
+    int dirs[2];
+    w->nholdup = br_design_directions(c, dirs);
+    for (int i = 0; i < w->nholdup && rc == BR_OK; i++) {
+        br_steady ss;
+        rc = br_steady_solve(c, dirs[i], NULL, &ss, err);
+        if (rc == BR_OK)
+            rc = br_holdup_run(c, &ss, 0, 0.0, &w->holdup[i], err);
+    }
+    br_chain_free(c);
+    return rc;
+}
+
+/* One axis of the start-up window, on a thread of its own when there
+ * are two (each run builds its own chain). */
+typedef struct su_job {
+    const br_design *d;
+    int axis;
+    double lo;
+    br_su_window *out;
+    br_error err;
+    int rc;
+} su_job;
+
+static void *su_thread(void *arg)
+{
+    su_job *j = arg;
+    br_error_clear(&j->err);
+    j->rc = br_su_window_run(j->d, j->axis, j->lo, j->out, &j->err);
+    return NULL;
+}
+
+static int startup_window(const br_design *d, br_window *w, int threads, br_error *err)
+{
+    su_job jd = {d, BR_AXIS_DUTY, w->duty.lo, &w->su_duty, {0}, BR_OK};
+    su_job jf = {d, BR_AXIS_FSW, w->fsw.lo, &w->su_fsw, {0}, BR_OK};
+    pthread_t tid;
+    w->startup = 1;
+    int duty = w->duty.applies;
+    int started = duty && threads > 1 && pthread_create(&tid, NULL, su_thread, &jd) == 0;
+    su_thread(&jf);
+    if (started)
+        pthread_join(tid, NULL);
+    else if (duty)
+        su_thread(&jd);
+    const su_job *bad = jd.rc != BR_OK ? &jd : jf.rc != BR_OK ? &jf : NULL;
+    if (bad && err)
+        *err = bad->err;
+    return bad ? bad->rc : BR_OK;
+}
+
+int br_window_run(const br_design *d, const br_window_opts *o, br_window *out, br_error *err)
+{
+    br_window_opts def;
+    if (!o) {
+        br_window_opts_default(&def);
+        o = &def;
+    }
+    memset(out, 0, sizeof *out);
+    br_probe *p;
+    int rc = br_probe_create(d, &p, err);
+    if (rc != BR_OK)
+        return rc;
+    rc = steady_limits(d, p, o, out, err);
+    if (rc == BR_OK)
+        rc = holdups(d, out, err);
+    if (rc == BR_OK && o->startup)
+        rc = startup_window(d, out, o->threads, err);
+    br_probe_free(p);
+    return rc;
+}

@@ -1,0 +1,123 @@
+/* cmd_window.c - `bootrung window FILE`: how far duty and frequency can
+ * move before a criterion fails, the hold-up time, and (with --startup)
+ * the start-up window. */
+#include "cli.h"
+
+#include "analyses/window.h"
+#include "core/error.h"
+#include "core/units.h"
+#include "report/window_report.h"
+
+#include <stdlib.h>
+#include <string.h>
+
+#ifndef BR_VERSION
+#define BR_VERSION "unknown"
+#endif
+
+static const char ABOUT[] =
+    "How far the design FILE can move from its operating point. In periodic\n"
+    "steady state, every driver supply must stay above UVLO falling, above the\n"
+    "design's minimum drive and below its gate maximum, in each current direction\n"
+    "the design asks for. Reported: the lowest and highest duty at the design\n"
+    "frequency (searched over every duty the dead time allows, to 0.1 % of duty)\n"
+    "and the lowest and highest switching frequency at the design duty (searched\n"
+    "from a hundredth to a hundred times the design frequency unless --fmin/--fmax\n"
+    "say otherwise, to 0.5 %), with the rail and criterion that fail at each\n"
+    "limit; the hold-up time once switching stops (every switch off); and with\n"
+    "--startup the lowest duty and frequency at which the cold start completes\n"
+    "within the design's start-up limit (slow: every point is a cold start).\n"
+    "Exit status 0 when the design point holds, 1 when not, 2 for bad input.\n";
+
+/* A frequency option, or 0 when not given. */
+static int parse_freq(const char *opt, const char *text, double *out)
+{
+    br_error err;
+    br_error_clear(&err);
+    *out = 0.0;
+    if (!text)
+        return BR_EXIT_OK;
+    if (br_unit_parse(text, BR_KIND_FREQUENCY, out, &err) != BR_OK || !(*out > 0))
+        return br_cli_usage_error("window", "--%s '%s': %s", opt, text,
+                                  err.msg[0] ? err.msg : "expected a frequency above 0");
+    return BR_EXIT_OK;
+}
+
+typedef struct outputs {
+    br_text *text, *xml;
+    br_window *w;
+} outputs;
+
+static void outputs_free(outputs *o)
+{
+    br_text_free(o->text);
+    br_text_free(o->xml);
+    free(o->w);
+}
+
+/* Load, analyse and render everything in memory. */
+static int compute(const char *path, const br_window_opts *wo, outputs *o, br_error *err)
+{
+    br_design *d = NULL;
+    br_chain *c = NULL;
+    int rc = br_design_load(path, &d, err);
+    if (rc == BR_OK)
+        rc = br_chain_build(d, &c, err);
+    if (rc == BR_OK)
+        rc = br_window_run(d, wo, o->w, err);
+    if (rc == BR_OK)
+        rc = br_window_text(c, o->w, o->text, err);
+    if (rc == BR_OK && o->xml)
+        rc = br_window_xml(c, o->w, BR_VERSION, o->xml, err);
+    br_chain_free(c);
+    br_design_free(d);
+    return rc;
+}
+
+static int run(const char *path, const char *xml, const br_window_opts *wo)
+{
+    outputs o = {br_text_create(), xml ? br_text_create() : NULL, malloc(sizeof(br_window))};
+    br_error err;
+    br_error_clear(&err);
+    int status;
+    if (!o.text || !o.w || (xml && !o.xml)) {
+        br_error_set(&err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+        status = br_cli_fail(&err, NULL);
+    } else if (compute(path, wo, &o, &err) != BR_OK) {
+        status = br_cli_fail(&err, path);
+    } else {
+        status = xml ? br_cli_save(o.xml, xml) : BR_EXIT_OK;
+        if (status == BR_EXIT_OK && !(xml && strcmp(xml, "-") == 0))
+            status = br_cli_emit(o.text);
+        if (status == BR_EXIT_OK && !o.w->design.holds)
+            status = BR_EXIT_FAIL;
+    }
+    outputs_free(&o);
+    return status;
+}
+
+int cmd_window(int argc, char **argv)
+{
+    const char *xml = NULL, *fmin = NULL, *fmax = NULL;
+    int startup = 0;
+    const br_opt opts[] = {
+        {BR_OPT_STRING, "xml", "PATH", &xml, "also write the results as XML to PATH (- stdout)"},
+        {BR_OPT_STRING, "fmin", "FREQ", &fmin, "lowest frequency searched (default fsw/100)"},
+        {BR_OPT_STRING, "fmax", "FREQ", &fmax,
+         "highest frequency searched (default fsw*100, within the dead time)"},
+        {BR_OPT_FLAG, "startup", NULL, &startup, "also the start-up window (slow)"},
+        {BR_OPT_END, NULL, NULL, NULL, NULL},
+    };
+    const br_cmd_doc doc = {"window", "FILE", ABOUT, opts, 1};
+    char *pos[1];
+    int parsed = br_cli_parse(&doc, argc, argv, pos);
+    if (parsed != 0)
+        return br_cli_parse_status(parsed);
+    br_window_opts wo;
+    br_window_opts_default(&wo);
+    wo.startup = startup;
+    if (parse_freq("fmin", fmin, &wo.fmin) != BR_EXIT_OK ||
+        parse_freq("fmax", fmax, &wo.fmax) != BR_EXIT_OK)
+        return BR_EXIT_INPUT;
+    return run(pos[0], xml, &wo);
+}

@@ -1,0 +1,124 @@
+/* svg.c - SVG elements for self-made plots. */
+#include "report/svg.h"
+
+#include <math.h>
+#include <stdio.h>
+
+static void put(br_svg *s, int rc)
+{
+    if (rc != BR_OK)
+        s->failed = 1;
+}
+
+void br_svg_begin(br_svg *s, br_text *out, double width, double height)
+{
+    s->out = out;
+    s->failed = 0;
+    put(s, br_text_printf(out,
+                          "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n"
+                          "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"%.0f\" "
+                          "height=\"%.0f\" viewBox=\"0 0 %.0f %.0f\" "
+                          "font-family=\"sans-serif\">\n",
+                          width, height, width, height));
+    put(s, br_text_printf(out,
+                          "<rect x=\"0\" y=\"0\" width=\"%.0f\" height=\"%.0f\" "
+                          "fill=\"white\"/>\n",
+                          width, height));
+}
+
+int br_svg_end(br_svg *s)
+{
+    put(s, br_text_put(s->out, "</svg>\n"));
+    return s->failed ? BR_ENOMEM : BR_OK;
+}
+
+void br_svg_rect(br_svg *s, double x, double y, double w, double h, const char *fill,
+                 const char *stroke, double stroke_width)
+{
+    put(s, br_text_printf(s->out,
+                          "<rect x=\"%.2f\" y=\"%.2f\" width=\"%.2f\" height=\"%.2f\" "
+                          "fill=\"%s\" stroke=\"%s\" stroke-width=\"%.2f\"/>\n",
+                          x, y, w, h, fill, stroke, stroke_width));
+}
+
+void br_svg_line(br_svg *s, double x1, double y1, double x2, double y2, const char *stroke,
+                 double width)
+{
+    put(s, br_text_printf(s->out,
+                          "<line x1=\"%.2f\" y1=\"%.2f\" x2=\"%.2f\" y2=\"%.2f\" "
+                          "stroke=\"%s\" stroke-width=\"%.2f\" stroke-linecap=\"square\"/>\n",
+                          x1, y1, x2, y2, stroke, width));
+}
+
+void br_svg_circle(br_svg *s, double cx, double cy, double r, const char *fill, const char *stroke,
+                   double stroke_width)
+{
+    put(s, br_text_printf(s->out,
+                          "<circle cx=\"%.2f\" cy=\"%.2f\" r=\"%.2f\" fill=\"%s\" "
+                          "stroke=\"%s\" stroke-width=\"%.2f\"/>\n",
+                          cx, cy, r, fill, stroke, stroke_width));
+}
+
+/* Append text with &, <, > and " escaped. */
+static void escaped(br_svg *s, const char *text)
+{
+    for (const char *p = text; *p; p++) {
+        switch (*p) {
+        case '&':
+            put(s, br_text_put(s->out, "&amp;"));
+            break;
+        case '<':
+            put(s, br_text_put(s->out, "&lt;"));
+            break;
+        case '>':
+            put(s, br_text_put(s->out, "&gt;"));
+            break;
+        case '"':
+            put(s, br_text_put(s->out, "&quot;"));
+            break;
+        default:
+            put(s, br_text_printf(s->out, "%c", *p));
+        }
+    }
+}
+
+void br_svg_text(br_svg *s, double x, double y, double size, const char *anchor, double rotate,
+                 const char *text)
+{
+    put(s, br_text_printf(s->out,
+                          "<text x=\"%.2f\" y=\"%.2f\" font-size=\"%.1f\" "
+                          "text-anchor=\"%s\"",
+                          x, y, size, anchor));
+    if (rotate != 0.0)
+        put(s, br_text_printf(s->out, " transform=\"rotate(%.1f %.2f %.2f)\"", rotate, x, y));
+    put(s, br_text_put(s->out, ">"));
+    escaped(s, text);
+    put(s, br_text_put(s->out, "</text>\n"));
+}
+
+/* Colour stops of the diverging scale, chosen so that the two sides
+ * differ in hue right at zero (where a design stops holding). */
+typedef struct stop {
+    double t;
+    int r, g, b;
+} stop;
+
+static const stop STOPS[] = {
+    {-1.0, 150, 10, 40},   {-0.5, 230, 100, 60}, {-1e-9, 250, 215, 150},
+    {1e-9, 220, 236, 160}, {0.5, 110, 185, 105}, {1.0, 10, 100, 60},
+};
+
+const char *br_svg_diverging(double t, char *buf, size_t cap)
+{
+    const int n = (int)(sizeof STOPS / sizeof STOPS[0]);
+    t = fmax(-1.0, fmin(1.0, t));
+    int i = 0;
+    while (i < n - 2 && t > STOPS[i + 1].t)
+        i++;
+    const stop *a = &STOPS[i], *b = &STOPS[i + 1];
+    double f = (t - a->t) / (b->t - a->t);
+    f = fmax(0.0, fmin(1.0, f));
+    snprintf(buf, cap, "#%02x%02x%02x", (int)lround(a->r + f * (b->r - a->r)),
+             (int)lround(a->g + f * (b->g - a->g)), (int)lround(a->b + f * (b->b - a->b)));
+    return buf;
+}
