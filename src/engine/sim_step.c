@@ -164,10 +164,15 @@ double br_sim_integrate(br_sim *s, double tb, int *status)
         br_sim_rhs(s, t, s->x, k1);
     s->k1_valid = 0;
     while (t < tb) {
-        int cut = 0; /* the step is shortened to end the interval */
-        if (h > tb - t || tb - t - h < 1e-15) {
-            cut = h < tb - t ? 0 : 1;
+        int last = 0, cut = 0; /* the step ends the interval; it was shortened for that */
+        if (h >= tb - t || tb - t - h < 1e-15) {
+            cut = h > tb - t;
             h = tb - t;
+            last = 1;
+        }
+        if (last && h < 1e-15) { /* a rounding-sized remainder: nothing moves */
+            t = tb;
+            break;
         }
         if (h < 1e-16 * fmax(1.0, fabs(t)) + 1e-18) {
             *status = -1;
@@ -181,16 +186,16 @@ double br_sim_integrate(br_sim *s, double tb, int *status)
             continue;
         }
         if (br_sim_uvlo_due(s, s->vr) >= 0) {
-            h = locate_uvlo(s, t, h, s->x, k1, y);
+            double hc = locate_uvlo(s, t, h, s->x, k1, y);
             memcpy(s->x, y, sizeof(double) * (size_t)s->nx);
-            t += h;
+            t = last && hc >= h ? tb : t + hc;
             br_sim_track_extremes(s, t);
             observe(s, t);
             *status = 1;
             break;
         }
         memcpy(s->x, y, sizeof(double) * (size_t)s->nx);
-        t += h;
+        t = last ? tb : t + h; /* t + (tb - t) need not round to tb */
         s->nsteps++;
         br_sim_track_extremes(s, t);
         observe(s, t);
