@@ -209,35 +209,70 @@ static void jacobian_from_sensitivity(shoot *sh, gsl_matrix *B)
                            phi[sh->idx[i] * n + sh->idx[j]] - (i == j ? 1.0 : 0.0));
 }
 
-/* Newton with the exact Jacobian of every period map (variational
- * equation): quadratic convergence at one simulated period an iteration. */
+static void matrix_load(gsl_matrix *B, const double *a, int m)
+{
+    for (int i = 0; i < m; i++)
+        for (int j = 0; j < m; j++)
+            gsl_matrix_set(B, (size_t)i, (size_t)j, a[i * m + j]);
+}
+
+static void matrix_store(const gsl_matrix *B, double *a, int m)
+{
+    for (int i = 0; i < m; i++)
+        for (int j = 0; j < m; j++)
+            a[i * m + j] = gsl_matrix_get(B, (size_t)i, (size_t)j);
+}
+
+/* Newton on the period map with its exact Jacobian from the variational
+ * equation, integrated only when needed: a period map with the sensitivity
+ * costs more than one without, so a good matrix (the caller's warm start,
+ * or the last exact one) is kept with Broyden updates while the steps
+ * shrink fast.  Converged when the Newton step itself, the distance to the
+ * fixed point, is below the tolerance: near a slow mode a small residual
+ * can hide a large distance. */
 static int shoot_variational(shoot *sh, double *z, const br_steady_opts *o, br_steady *out,
                              br_error *err)
 {
     int m = sh->m, ok = 0;
     linsys ls;
-    double pz[NX], F[NX], dz[NX];
+    double pz[NX], F[NX] = {0}, dz[NX] = {0}, dF[NX], last_step = HUGE_VAL;
     int rc = linsys_alloc(&ls, m, err);
-    gsl_matrix *B = ls.B, *LU = ls.LU;
-    gsl_permutation *p = ls.p;
-    br_sim_set_variational(sh->sim, 1);
+    int warm = o->jac && o->jac_valid && *o->jac_valid, exact = !warm;
+    if (rc == BR_OK && warm)
+        matrix_load(ls.B, o->jac, m);
     for (int it = 0; rc == BR_OK && it <= o->max_iter; it++) {
+        br_sim_set_variational(sh->sim, exact);
         if ((rc = period_map(sh, z, pz, err)) != BR_OK)
             break;
-        for (int i = 0; i < m; i++)
+        for (int i = 0; i < m; i++) {
+            dF[i] = pz[i] - z[i] - F[i];
             F[i] = pz[i] - z[i];
+        }
         out->residual = max_abs_diff(pz, z, sh->mv);
-        if ((ok = out->residual <= o->tol && !sh->dropped)) {
+        if (exact)
+            jacobian_from_sensitivity(sh, ls.B);
+        else if (it > 0)
+            broyden(ls.B, dz, dF, m);
+        if (newton_step(ls.B, ls.LU, ls.p, F, dz, m) != 0)
+            break;
+        double step = 0.0;
+        for (int i = 0; i < sh->mv; i++)
+            step = fmax(step, fabs(dz[i]));
+        if ((ok = step <= o->tol && !sh->dropped)) {
             out->stats = *br_sim_stats(sh->sim);
             sh->have_stats = 1;
             break;
         }
         out->iterations = it + 1;
-        jacobian_from_sensitivity(sh, B);
-        if (newton_step(B, LU, p, F, dz, m) != 0)
-            break;
         for (int i = 0; i < m; i++)
             z[i] += dz[i];
+        /* the exact matrix again when the steps stop shrinking fast */
+        exact = step > 0.1 * last_step;
+        last_step = step;
+    }
+    if (rc == BR_OK && ok && o->jac && o->jac_valid) {
+        matrix_store(ls.B, o->jac, m);
+        *o->jac_valid = 1;
     }
     br_sim_set_variational(sh->sim, 0);
     linsys_free(&ls);
@@ -266,9 +301,7 @@ static int shoot_newton(shoot *sh, double *z, const br_steady_opts *o, br_steady
     ok = out->residual <= o->tol && !sh->dropped; /* the guess may already be it */
     int warm = o->jac && o->jac_valid && *o->jac_valid;
     if (warm) {
-        for (int i = 0; i < m; i++)
-            for (int j = 0; j < m; j++)
-                gsl_matrix_set(B, (size_t)i, (size_t)j, o->jac[i * m + j]);
+        matrix_load(B, o->jac, m);
     } else if (!ok && (rc = jacobian(sh, z, pz, B, err)) != BR_OK) {
         goto done;
     }
@@ -299,9 +332,7 @@ static int shoot_newton(shoot *sh, double *z, const br_steady_opts *o, br_steady
         last = out->residual;
     }
     if (o->jac && o->jac_valid && rc == BR_OK && (warm || out->iterations > 0)) {
-        for (int i = 0; i < m; i++)
-            for (int j = 0; j < m; j++)
-                o->jac[i * m + j] = gsl_matrix_get(B, (size_t)i, (size_t)j);
+        matrix_store(B, o->jac, m);
         *o->jac_valid = 1;
     }
 done:
