@@ -59,6 +59,20 @@ void br_sim_set_variational(br_sim *s, int on)
 {
     s->var = on && s->integ != BR_INTEG_REFERENCE;
     s->nx = s->phi0 + (s->var ? s->n * s->n : 0);
+    br_sim_live_rebuild(s);
+}
+
+/* Quadratures are only read as differences from br_sim_stats_start on, so
+ * they need advancing only while statistics are kept. */
+void br_sim_live_rebuild(br_sim *s)
+{
+    s->nlive = 0;
+    for (int k = 0; k < s->n; k++)
+        for (int f = 0; f < NF; f++)
+            if (f <= F_Q || s->stats_on)
+                s->live[s->nlive++] = XI(k, f);
+    for (int i = s->phi0; i < s->nx; i++)
+        s->live[s->nlive++] = i;
 }
 
 void br_sim_sensitivity(const br_sim *s, double *phi)
@@ -147,6 +161,7 @@ static void clear_state(br_sim *s)
     s->toggles = 0;
     s->stats_on = 0;
     s->frozen = 0;
+    br_sim_live_rebuild(s);
 }
 
 void br_sim_reset_cold(br_sim *s)
@@ -612,6 +627,7 @@ void br_sim_stats_start(br_sim *s)
         s->st.link[k].vrev_peak = -HUGE_VAL;
     }
     s->stats_on = 1;
+    br_sim_live_rebuild(s);
 }
 
 void br_sim_track_extremes(br_sim *s, double t)

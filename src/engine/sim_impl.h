@@ -48,6 +48,9 @@ struct br_sim {
     int n;                      /* stages */
     int nx;                     /* entries of x in use: n * NF (+ n * n) */
     int var;                    /* the sensitivity matrix is integrated */
+    int nlive;                  /* entries the Runge-Kutta steps advance: */
+    int live[X_SIZE];           /* states, quadratures only while statistics
+                                   are kept, the sensitivity when asked */
     int phi0;                   /* where it starts in x: n * NF */
     int dir;                    /* br_dir_index */
     int integ;                  /* br_integrator */
@@ -93,6 +96,9 @@ struct br_sim {
     double quad0[X_SIZE];       /* quadratures when stats started */
     br_sim_observer obs;
 };
+
+/* Rebuild the list of live entries after stats or sensitivity change. */
+void br_sim_live_rebuild(br_sim *s);
 
 /* Continuous equations of the interval seg at time t: fills dx (X_SIZE)
  * and the workspace il/vr/ic.  Shared by both integrators. */

@@ -222,9 +222,29 @@ static void variational(br_sim *s, const double *x, double *dx)
     }
 }
 
-void br_sim_rhs(br_sim *s, double t, const double *x, double *dx)
+/* Derivatives of the quadratures behind the statistics. */
+static void quadratures(br_sim *s, double t, const double *x, double *dx)
 {
     const br_seg *g = &s->seg;
+    for (int k = 0; k < s->n; k++) {
+        dx[XI(k, F_RV)] = s->vr[k];
+        dx[XI(k, F_RQL)] = g->iload[k] + s->iz[k];
+        if (k == 0)
+            continue;
+        double i = s->il[k];
+        double u = s->vr[k - 1] - s->vr[k] - (g->d0[k] + g->dslope[k] * (t - g->t0));
+        dx[XI(k, F_LQ)] = i;
+        dx[XI(k, F_LI2)] = i * i;
+        dx[XI(k, F_LE)] = g->active[k] ? i * (u - i * g->rpath[k]) : 0.0;
+        dx[XI(k, F_RI2)] = s->ic[k] * s->ic[k];
+    }
+    double isup = supply_current(s, t, x, s->n > 1 ? s->il[1] : 0.0);
+    dx[X_SQ] = isup;
+    dx[X_SE] = isup * supply_at(g, t);
+}
+
+void br_sim_rhs(br_sim *s, double t, const double *x, double *dx)
+{
     int n = s->n;
     clamp_currents(s, x);
     solve_links(s, t, x);
@@ -233,24 +253,13 @@ void br_sim_rhs(br_sim *s, double t, const double *x, double *dx)
     for (int k = 1; k < n; k++) {
         const br_stage *st = &s->c->st[k];
         dx[XI(k, F_VC)] = s->ic[k] / br_sim_cap(s, k, x[XI(k, F_VC)]);
-        double i = s->il[k];
         if (st->diode.tau > 0)
-            dx[XI(k, F_Q)] = i - x[XI(k, F_Q)] / st->diode.tau;
-        dx[XI(k, F_LQ)] = i;
-        dx[XI(k, F_LI2)] = i * i;
-        double u = s->vr[k - 1] - s->vr[k] - (g->d0[k] + g->dslope[k] * (t - g->t0));
-        dx[XI(k, F_LE)] = g->active[k] ? i * (u - i * g->rpath[k]) : 0.0;
-        dx[XI(k, F_RI2)] = s->ic[k] * s->ic[k];
+            dx[XI(k, F_Q)] = s->il[k] - x[XI(k, F_Q)] / st->diode.tau;
     }
-    for (int k = 0; k < n; k++) {
-        dx[XI(k, F_RV)] = s->vr[k];
-        dx[XI(k, F_RQL)] = g->iload[k] + s->iz[k];
-    }
-    double isup = supply_current(s, t, x, n > 1 ? s->il[1] : 0.0);
     if (br_sim_bypass(s))
         dx[XI(0, F_VC)] = s->ic[0] / s->c->csupply;
-    dx[X_SQ] = isup;
-    dx[X_SE] = isup * supply_at(g, t);
+    if (s->stats_on || s->integ == BR_INTEG_REFERENCE)
+        quadratures(s, t, x, dx);
     if (s->var)
         variational(s, x, dx);
 }

@@ -32,27 +32,43 @@ static void dp45_step(br_sim *s, double t, double h, const double *x, const doub
 {
     double *k2 = s->rk[0], *k3 = s->rk[1], *k4 = s->rk[2], *k5 = s->rk[3], *k6 = s->rk[4];
     double *w = s->rk[5];
-    const int nx = s->nx;
-    for (int i = 0; i < nx; i++)
+    const int nl = s->nlive, *L = s->live;
+    memcpy(y, x, sizeof(double) * (size_t)s->nx); /* entries not advanced stay */
+    memcpy(w, x, sizeof(double) * (size_t)s->nx);
+    for (int j = 0; j < nl; j++) {
+        int i = L[j];
         w[i] = x[i] + h * A21 * k1[i];
+    }
     br_sim_rhs(s, t + C2 * h, w, k2);
-    for (int i = 0; i < nx; i++)
+    for (int j = 0; j < nl; j++) {
+        int i = L[j];
         w[i] = x[i] + h * (A31 * k1[i] + A32 * k2[i]);
+    }
     br_sim_rhs(s, t + C3 * h, w, k3);
-    for (int i = 0; i < nx; i++)
+    for (int j = 0; j < nl; j++) {
+        int i = L[j];
         w[i] = x[i] + h * (A41 * k1[i] + A42 * k2[i] + A43 * k3[i]);
+    }
     br_sim_rhs(s, t + C4 * h, w, k4);
-    for (int i = 0; i < nx; i++)
+    for (int j = 0; j < nl; j++) {
+        int i = L[j];
         w[i] = x[i] + h * (A51 * k1[i] + A52 * k2[i] + A53 * k3[i] + A54 * k4[i]);
+    }
     br_sim_rhs(s, t + C5 * h, w, k5);
-    for (int i = 0; i < nx; i++)
+    for (int j = 0; j < nl; j++) {
+        int i = L[j];
         w[i] = x[i] + h * (A61 * k1[i] + A62 * k2[i] + A63 * k3[i] + A64 * k4[i] + A65 * k5[i]);
+    }
     br_sim_rhs(s, t + h, w, k6);
-    for (int i = 0; i < nx; i++)
+    for (int j = 0; j < nl; j++) {
+        int i = L[j];
         y[i] = x[i] + h * (B1 * k1[i] + B3 * k3[i] + B4 * k4[i] + B5 * k5[i] + B6 * k6[i]);
+    }
     br_sim_rhs(s, t + h, y, k7); /* leaves the workspace at the step end */
-    for (int i = 0; i < nx; i++)
+    for (int j = 0; j < nl; j++) {
+        int i = L[j];
         e[i] = h * (E1 * k1[i] + E3 * k3[i] + E4 * k4[i] + E5 * k5[i] + E6 * k6[i] + E7 * k7[i]);
+    }
 }
 
 typedef struct gsl_ctx {
