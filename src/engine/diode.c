@@ -239,6 +239,23 @@ static double solve_y(double c, double s, double *w)
     return y;
 }
 
+/* The Fritsch-Shafer-Crowley iteration of w_of_log from a start w > 0.
+ * Fourth order: from a start a few per cent off, one or two steps. */
+static double fsc_from(double u, double w)
+{
+    for (int k = 0; k < 8; k++) {
+        double z = u - w - log(w);
+        double q = 2.0 * (1.0 + w) * (1.0 + w + z / 1.5);
+        double dw = w * z / (1.0 + w) * (q - z) / (q - 2.0 * z);
+        w += dw;
+        if (!(w > 0.0))
+            return 0.0; /* left the domain: the caller starts afresh */
+        if (fabs(dw) < 3e-4 * w)
+            return w;
+    }
+    return 0.0; /* not converged in 8 steps: likewise */
+}
+
 /* R <= 0: Shockley, continued along its tangent beyond BR_DIODE_XLIM. */
 static void eval_shockley(const br_diode *d, double v, double *i, double *g)
 {
@@ -269,6 +286,32 @@ void br_diode_eval(const br_diode *d, double r_extra, double v, double *i, doubl
         *i = ii;
     if (g)
         *g = gg;
+}
+
+void br_diode_eval_warm(const br_diode *d, double r_extra, double v, br_diode_warm *ws, double *i,
+                        double *g)
+{
+    double R = d->rs + r_extra, a = d->n * d->vt;
+    if (!(R > 0.0)) {
+        br_diode_eval(d, r_extra, v, i, g);
+        return;
+    }
+    double c = d->is * R / a, s = v / a;
+    if (ws->r != R) { /* c is fixed by the resistance: keep its logarithm */
+        ws->r = R;
+        ws->logc = log(c);
+        ws->w = 0.0;
+    }
+    double u = s + c + ws->logc, y, w;
+    w = u > 1.0 && c < 0.5 && ws->w > 1.0 ? fsc_from(u, ws->w) : 0.0;
+    if (w > 1.0 && isfinite(w)) { /* a far start can leave the region */
+        y = w - c;
+    } else {
+        y = solve_y(c, s, &w);
+    }
+    ws->w = w;
+    *i = a * y / R;
+    *g = w / (R * (1.0 + w));
 }
 
 double br_diode_current(const br_diode *d, double r_extra, double v)

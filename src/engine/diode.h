@@ -34,6 +34,20 @@ double br_diode_conductance(const br_diode *d, double r_extra, double v);
  * pointer may be NULL. */
 void br_diode_eval(const br_diode *d, double r_extra, double v, double *i, double *g);
 
+/* What br_diode_eval_warm keeps between calls on one link. */
+typedef struct br_diode_warm {
+    double r;    /* resistance of the last call, ohm (0: none yet) */
+    double logc; /* log(Is R / (n Vt)) at that resistance */
+    double w;    /* Lambert W value of the last call */
+} br_diode_warm;
+
+/* br_diode_eval for a hot loop that calls it on one link again and again
+ * with slowly changing v: the Lambert W iteration starts from the last
+ * value, which in conduction saves all but one logarithm.  Same results
+ * to rounding.  ws starts zeroed. */
+void br_diode_eval_warm(const br_diode *d, double r_extra, double v, br_diode_warm *ws, double *i,
+                        double *g);
+
 /* Where the R = 0 Shockley law turns into its tangent line, in units of
  * n*Vt (exp(700) ~ 1e304 is still finite). */
 #define BR_DIODE_XLIM 700.0

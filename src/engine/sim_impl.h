@@ -2,6 +2,7 @@
 #ifndef BR_ENGINE_SIM_IMPL_H
 #define BR_ENGINE_SIM_IMPL_H
 
+#include "engine/diode.h"
 #include "engine/sim.h"
 
 #define BR_N BR_MAX_SWITCHES
@@ -81,6 +82,7 @@ struct br_sim {
     double ic[BR_N];            /* capacitor currents at the last evaluation, A */
     double iz[BR_N];            /* clamp currents, A */
     double gd[BR_N];            /* diode conductance at the last solve, S */
+    br_diode_warm dw[BR_N];     /* Lambert W warm starts, one per link */
     double ul[BR_N], gl[BR_N];  /* link drive voltage and its conductance at
                                    the last solve (the Newton predictor) */
     unsigned long evals;

@@ -130,7 +130,7 @@ static void solve_links(br_sim *s, double t, const double *x)
             }
             double dk = g->d0[k] + g->dslope[k] * (t - g->t0);
             double u = s->vr[k - 1] - s->vr[k] - dk, f, gd;
-            br_diode_eval(&s->c->st[k].diode, g->rpath[k], u, &f, &gd);
+            br_diode_eval_warm(&s->c->st[k].diode, g->rpath[k], u, &s->dw[k], &f, &gd);
             s->evals++;
             s->gd[k] = gd;
             s->gl[k] = gd / (1.0 + gd * (esr_of(s, k - 1) + esr_of(s, k)));

@@ -531,10 +531,40 @@ static void test_rejects(void)
     CU_ASSERT_EQUAL(br_diode_resolve(&p, T_ROOM, &d, NULL), BR_EINPUT);
 }
 
+/* The warm-started evaluation gives the closed form's results to rounding
+ * along a random walk of the voltage (Banwell & Jayakumar 2000 closed form
+ * as the reference, through br_diode_eval). */
+static void test_eval_warm(void)
+{
+    br_diode_part p;
+    br_diode_part_defaults(&p);
+    p.is = br_qty_fixed(5e-9);
+    p.n = br_qty_fixed(1.08);
+    p.rs = br_qty_fixed(0.15);
+    br_diode d;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_diode_resolve(&p, 323.15, &d, &err), BR_OK);
+    br_diode_warm ws = {0};
+    double v = -5.0;
+    unsigned long x = 12345;
+    for (int k = 0; k < 20000; k++) {
+        x = x * 6364136223846793005UL + 1442695040888963407UL;
+        double step = ((double)(x >> 11) / 9007199254740992.0 - 0.5) * (k % 97 == 0 ? 20.0 : 0.02);
+        v = fmin(40.0, fmax(-50.0, v + step));
+        double r = k % 500 < 250 ? 1.0 : 0.5; /* the resistance changes too */
+        double i0, g0, i1, g1;
+        br_diode_eval(&d, r, v, &i0, &g0);
+        br_diode_eval_warm(&d, r, v, &ws, &i1, &g1);
+        CU_ASSERT_TRUE(fabs(i1 - i0) <= 1e-13 * fabs(i0) + 1e-25);
+        CU_ASSERT_TRUE(fabs(g1 - g0) <= 1e-12 * fabs(g0) + 1e-25);
+    }
+}
+
 int main(void)
 {
     gsl_set_error_handler_off();
     static const br_test_case cases[] = {
+        {"warm-started evaluation matches", test_eval_warm},
         {"thermal voltage", test_thermal_voltage},
         {"Is(T) law", test_is_temperature},
         {"leakage and its temperature", test_leak_temperature},
