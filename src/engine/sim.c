@@ -22,6 +22,7 @@ int br_sim_create(const br_chain *c, int dir, int integrator, br_sim **out, br_e
     s->c = c;
     s->n = c->n;
     s->nx = s->phi0 = c->n * NF;
+    br_sim_cache_esr(s);
     s->dir = dir;
     s->integ = integrator;
     br_timing_build(c, dir, &s->tm);

@@ -82,6 +82,8 @@ struct br_sim {
     double ic[BR_N];            /* capacitor currents at the last evaluation, A */
     double iz[BR_N];            /* clamp currents, A */
     double gd[BR_N];            /* diode conductance at the last solve, S */
+    double esr[BR_N];           /* rail k's series resistance (rail 0: the
+                                   supply's, unless a bypass capacitor) */
     br_diode_warm dw[BR_N];     /* Lambert W warm starts, one per link */
     double ul[BR_N], gl[BR_N];  /* link drive voltage and its conductance at
                                    the last solve (the Newton predictor) */
@@ -98,6 +100,9 @@ struct br_sim {
     double quad0[X_SIZE];       /* quadratures when stats started */
     br_sim_observer obs;
 };
+
+/* Fill s->esr from the chain. */
+void br_sim_cache_esr(br_sim *s);
 
 /* Rebuild the list of live entries after stats or sensitivity change. */
 void br_sim_live_rebuild(br_sim *s);

@@ -42,6 +42,12 @@ static double esr_of(const br_sim *s, int k)
     return s->c->st[k].cap.esr;
 }
 
+void br_sim_cache_esr(br_sim *s)
+{
+    for (int k = 0; k < s->n; k++)
+        s->esr[k] = esr_of(s, k);
+}
+
 static double supply_at(const br_seg *g, double t) { return g->vs0 + g->vs_slope * (t - g->t0); }
 
 /* Current the supply delivers through its resistance. */
@@ -67,7 +73,7 @@ static void rail_voltages(br_sim *s, double t, const double *x)
             continue;
         }
         s->ic[k] = iin - iout - g->iload[k] - s->iz[k];
-        s->vr[k] = x[XI(k, F_VC)] + esr_of(s, k) * s->ic[k];
+        s->vr[k] = x[XI(k, F_VC)] + s->esr[k] * s->ic[k];
     }
 }
 
@@ -133,8 +139,8 @@ static void solve_links(br_sim *s, double t, const double *x)
             br_diode_eval_warm(&s->c->st[k].diode, g->rpath[k], u, &s->dw[k], &f, &gd);
             s->evals++;
             s->gd[k] = gd;
-            s->gl[k] = gd / (1.0 + gd * (esr_of(s, k - 1) + esr_of(s, k)));
-            double el = esr_of(s, k - 1), eh = esr_of(s, k);
+            double el = s->esr[k - 1], eh = s->esr[k];
+            s->gl[k] = gd / (1.0 + gd * (el + eh));
             r[k] = s->il[k] - f - cj_current(s, k, u, f);
             b[k] = 1.0 + gd * (el + eh);
             if (k > 1 && g->active[k - 1])
@@ -174,7 +180,7 @@ static void variational(br_sim *s, const double *x, double *dx)
     double a[BR_N], b[BR_N], c[BR_N], D[BR_N][BR_N], A[BR_N][BR_N];
     for (int k = 1; k < n; k++) {
         int on = g->active[k];
-        double gd = on ? s->gd[k] : 0.0, el = esr_of(s, k - 1), eh = esr_of(s, k);
+        double gd = on ? s->gd[k] : 0.0, el = s->esr[k - 1], eh = s->esr[k];
         b[k] = 1.0 + gd * (el + eh);
         a[k] = on && k > 1 && g->active[k - 1] ? -gd * el : 0.0;
         c[k] = on && k + 1 < n && g->active[k + 1] ? -gd * eh : 0.0;
