@@ -101,16 +101,22 @@ static double rail_change(const br_chain *c, const double *a, const double *b)
 {
     double w = 0.0;
     int k0 = c->csupply > 0 && c->rsupply > 0 ? 0 : 1;
-    for (int k = k0; k < c->n; k++)
-        w = fmax(w, fabs(a[k] - b[k]));
+    for (int k = k0; k < c->n; k++) {
+        double d = fabs(a[k] - b[k]);
+        w = d > w || isnan(d) ? (isnan(d) ? HUGE_VAL : d) : w; /* NaN never converges */
+    }
     return w;
 }
 
 static double max_abs_diff(const double *a, const double *b, int m)
 {
     double w = 0.0;
-    for (int i = 0; i < m; i++)
-        w = fmax(w, fabs(a[i] - b[i]));
+    for (int i = 0; i < m; i++) {
+        double d = fabs(a[i] - b[i]);
+        if (isnan(d))
+            return HUGE_VAL; /* NaN never converges */
+        w = d > w ? d : w;
+    }
     return w;
 }
 
@@ -257,7 +263,7 @@ static int shoot_variational(shoot *sh, double *z, const br_steady_opts *o, br_s
             break;
         double step = 0.0;
         for (int i = 0; i < sh->mv; i++)
-            step = fmax(step, fabs(dz[i]));
+            step = isnan(dz[i]) ? HUGE_VAL : fmax(step, fabs(dz[i]));
         if ((ok = step <= o->tol && !sh->dropped)) {
             out->stats = *br_sim_stats(sh->sim);
             sh->have_stats = 1;

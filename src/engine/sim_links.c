@@ -16,7 +16,7 @@
 
 double br_sim_cap(const br_sim *s, int k, double v)
 {
-    return br_cap_at(&s->c->st[k].cap, v);
+    return k == 0 ? s->c->csupply : br_cap_at(&s->c->st[k].cap, v);
 }
 
 double br_sim_vdrv(const br_sim *s, int k, double vr)
@@ -259,8 +259,14 @@ void br_sim_rhs(br_sim *s, double t, const double *x, double *dx)
     for (int k = 1; k < n; k++) {
         const br_stage *st = &s->c->st[k];
         dx[XI(k, F_VC)] = s->ic[k] / br_sim_cap(s, k, x[XI(k, F_VC)]);
-        if (st->diode.tau > 0)
-            dx[XI(k, F_Q)] = s->il[k] - x[XI(k, F_Q)] / st->diode.tau;
+        if (st->diode.tau > 0) {
+            /* charge-control: the conduction current stores charge, which
+             * recombines with tau; a blocked link only loses it, and the
+             * stored charge never goes below zero */
+            double q = x[XI(k, F_Q)];
+            double dq = (s->seg.active[k] ? s->il[k] : 0.0) - q / st->diode.tau;
+            dx[XI(k, F_Q)] = q <= 0.0 && dq < 0.0 ? 0.0 : dq;
+        }
     }
     if (br_sim_bypass(s))
         dx[XI(0, F_VC)] = s->ic[0] / s->c->csupply;
