@@ -82,12 +82,23 @@ int br_cli_usage_error(const char *verb, const char *fmt, ...)
  * diagnostic and BR_EXIT_INPUT; otherwise return status unchanged. */
 int br_cli_finish(int status);
 
+/* Read option --opt's text as a whole number in [lo, hi] (a seed, a
+ * count); on a bad value print one diagnostic line and return
+ * BR_EXIT_INPUT, else BR_EXIT_OK. */
+int br_cli_long(const char *verb, const char *opt, const char *text, long lo, long hi, long *out);
+
+/* The same for a fraction from 0 to 1, also written as a percentage ("95%"). */
+int br_cli_fraction(const char *verb, const char *opt, const char *text, double *out);
+
 /* ---- verbs ----------------------------------------------------------- */
 
 int cmd_check(int argc, char **argv);
 int cmd_startup(int argc, char **argv);
 int cmd_steady(int argc, char **argv);
 int cmd_analyze(int argc, char **argv);
+int cmd_corners(int argc, char **argv);
+int cmd_yield(int argc, char **argv);
+int cmd_pick(int argc, char **argv);
 int cmd_window(int argc, char **argv);
 int cmd_map(int argc, char **argv);
 

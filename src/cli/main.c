@@ -24,6 +24,9 @@ static const br_verb verbs[] = {
     {"analyze", cmd_analyze, "start-up, steady state and the pass/fail verdict (the main job)"},
     {"window", cmd_window, "duty and frequency limits, hold-up time, start-up window"},
     {"map", cmd_map, "worst margin over a duty x frequency grid, as CSV and an SVG heat map"},
+    {"corners", cmd_corners, "worst-case corners of the tolerances, criterion by criterion"},
+    {"yield", cmd_yield, "Monte Carlo yield over the tolerances, with its confidence interval"},
+    {"pick", cmd_pick, "rail capacitors and link diodes from a catalog, ranked by cost"},
     {NULL, NULL, NULL},
 };
 

@@ -1,0 +1,657 @@
+/* pick.c - rating screens, one-part choices, the per-rail greedy descent
+ * and the ranking of capacitor and diode choices from a catalog. */
+#include "analyses/pick.h"
+
+#include "analyses/corners.h"
+#include "core/error.h"
+
+#include <math.h>
+#include <pthread.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+void br_pick_opts_default(br_pick_opts *o)
+{
+    o->threads = 0;
+    o->top = 10;
+    o->startup = 1;
+    o->per_rail = 1;
+}
+
+/* ---- placing a choice in a design ------------------------------------------ */
+
+/* Index of catalog part `part` appended to the design's parts (each
+ * catalog part once). */
+static int place(br_design *d, const br_catalog *cat, int is_diode, int part, int *placed,
+                 br_error *err)
+{
+    if (placed[part] >= 0)
+        return BR_OK;
+    int *count = is_diode ? &d->ndiodes : &d->ncaps;
+    if (*count >= BR_MAX_PARTS)
+        return br_error_set(err, BR_EINPUT, d->path, 0, "parts",
+                            "no room for catalog part %s: the design and the choice need more "
+                            "than %d %s parts",
+                            is_diode ? cat->diodes[part].id : cat->caps[part].id, BR_MAX_PARTS,
+                            is_diode ? "diode" : "capacitor");
+    if (is_diode)
+        d->diodes[*count] = cat->diodes[part];
+    else
+        d->caps[*count] = cat->caps[part];
+    placed[part] = (*count)++;
+    return BR_OK;
+}
+
+int br_pick_apply(const br_design *d, const br_catalog *cat, const br_choice *ch, br_design **out,
+                  br_error *err)
+{
+    int pcap[BR_MAX_PARTS], pdio[BR_MAX_PARTS], rc = BR_OK;
+    br_design *x = br_design_copy(d);
+    *out = NULL;
+    if (!x)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    for (int i = 0; i < BR_MAX_PARTS; i++)
+        pcap[i] = pdio[i] = -1;
+    int n = br_design_nswitch(d);
+    for (int k = 1; rc == BR_OK && k < n; k++) {
+        br_stage_spec spec = *br_design_stage(d, k);
+        if (ch->cap[k] >= 0 && (rc = place(x, cat, 0, ch->cap[k], pcap, err)) == BR_OK)
+            spec.cap = pcap[ch->cap[k]];
+        if (rc == BR_OK && ch->diode[k] >= 0 &&
+            (rc = place(x, cat, 1, ch->diode[k], pdio, err)) == BR_OK)
+            spec.diode = pdio[ch->diode[k]];
+        x->stage[k] = spec;
+        x->has_override[k] = 1;
+    }
+    if (rc != BR_OK) {
+        br_design_free(x);
+        return rc;
+    }
+    *out = x;
+    return BR_OK;
+}
+
+/* ---- judging one choice ----------------------------------------------------- */
+
+/* Smaller is worse; a failing row without a negative margin is the worst. */
+static double rank_of(const br_pt_row *r)
+{
+    return !r->pass && r->margin >= 0 ? -HUGE_VAL : r->margin;
+}
+
+/* Keep p's rows where they are worse than worst[] so far. */
+static void keep_worst(br_pt_row *worst, int *seen, const br_pt *p, int startup_rows)
+{
+    if (p->status != BR_OK)
+        return;
+    for (int c = 0; c < BR_CRIT_COUNT; c++) {
+        if (!p->row[c].applies || br_crit_is_startup(c) != startup_rows)
+            continue;
+        if (!seen[c] || rank_of(&p->row[c]) < rank_of(&worst[c])) {
+            worst[c] = p->row[c];
+            seen[c] = 1;
+        }
+    }
+}
+
+/* Objectives in the order their corners are tried: the rails' headroom
+ * first (where a weak part shows), then the criteria. */
+static int objective(int a)
+{
+    return a == 0 ? BR_OBJ_HEADROOM : a - 1;
+}
+
+/* The predicted worst corner of every objective of the kind asked for
+ * (steady-state or start-up), each once, into level (rows of
+ * BR_TOL_MAX); returns their count. */
+static int predicted_corners(const br_spread *s, int startup_rows, signed char *level)
+{
+    int n = 0;
+    for (int a = 0; a <= BR_CRIT_COUNT; a++) {
+        int c = objective(a);
+        if (c == BR_OBJ_HEADROOM ? startup_rows
+                                 : c == BR_CRIT_STEADY || br_crit_is_startup(c) != startup_rows ||
+                                       !s->nominal.row[c].applies)
+            continue;
+        signed char *row = level + (size_t)n * BR_TOL_MAX;
+        memset(row, 0, BR_TOL_MAX);
+        br_corner_sensitivity(s, c, row, NULL);
+        int dup = 0, moved = 0;
+        for (int j = 0; j < s->tl.n; j++)
+            moved |= row[j] != 0;
+        for (int b = 0; b < n && !dup; b++)
+            dup = memcmp(level + (size_t)b * BR_TOL_MAX, row, BR_TOL_MAX) == 0;
+        n += moved && !dup;
+    }
+    return n;
+}
+
+/* Any row of the kind asked for fails at p. */
+static int fails(const br_pt *p, int startup_rows)
+{
+    if (p->status != BR_OK)
+        return 0;
+    for (int c = 0; c < BR_CRIT_COUNT; c++)
+        if (p->row[c].applies && !p->row[c].pass && br_crit_is_startup(c) == startup_rows)
+            return 1;
+    return 0;
+}
+
+/* The worst rows of criteria of one kind over the points s judged for d
+ * itself and its predicted corners, one at a time: a choice is rejected
+ * at its first failing point, the rest of its corners untried. */
+static int worst_rows(br_spread *s, int startup_rows, br_pt_row *worst, int *seen, br_error *err)
+{
+    signed char level[(BR_CRIT_COUNT + 1) * BR_TOL_MAX];
+    double v[BR_TOL_MAX];
+    br_pt pt;
+    int k = s->tl.n;
+    keep_worst(worst, seen, &s->nominal, startup_rows);
+    int failed = fails(&s->nominal, startup_rows);
+    for (int r = 0; r < 2 * k && !failed; r++)
+        if (!s->borrowed[r]) {
+            keep_worst(worst, seen, &s->oat[r], startup_rows);
+            failed = fails(&s->oat[r], startup_rows);
+        }
+    int n = failed ? 0 : predicted_corners(s, startup_rows, level);
+    for (int a = 0; a < n && !failed; a++) {
+        br_spread_levels(s, level + (size_t)a * BR_TOL_MAX, v);
+        int rc = br_spread_eval(s, 1, v, startup_rows, &pt, err);
+        if (rc != BR_OK)
+            return rc;
+        keep_worst(worst, seen, &pt, startup_rows);
+        failed = fails(&pt, startup_rows);
+    }
+    return BR_OK;
+}
+
+/* Fill the verdict of ch from the worst rows of one kind.  The failing
+ * criterion named is a circuit one when any fails: the steady-state row
+ * fails too wherever a driver drops out, and says less. */
+static void conclude(br_choice *ch, const br_pt_row *worst, const int *seen, int startup_rows)
+{
+    if (!startup_rows) {
+        ch->pass = 1;
+        ch->margin = HUGE_VAL;
+        ch->fail_crit = -1;
+    }
+    for (int c = 0; c < BR_CRIT_COUNT; c++) {
+        if (!seen[c] || br_crit_is_startup(c) != startup_rows)
+            continue;
+        if (!worst[c].pass && (ch->fail_crit < 0 || ch->fail_crit == BR_CRIT_STEADY)) {
+            ch->pass = 0;
+            ch->fail_crit = c;
+            ch->fail_row = worst[c];
+        }
+        /* the voltage criteria give the margin that ranks passing choices */
+        if (c >= BR_CRIT_RESTART && worst[c].margin < ch->margin) {
+            ch->margin = worst[c].margin;
+            ch->crit = c;
+            ch->stage = worst[c].stage;
+            ch->dir = worst[c].dir;
+        }
+    }
+}
+
+/* Judge ch: steady-state criteria (startup_rows = 0) or the start-up
+ * criteria (1).  A choice whose nominal point cannot be judged gets that
+ * status; only running out of memory is an error. */
+static int judge(const br_pick *pk, br_choice *ch, int startup_rows, br_error *err)
+{
+    br_design *d = NULL;
+    br_spread *s = NULL;
+    br_pt_row worst[BR_CRIT_COUNT];
+    int seen[BR_CRIT_COUNT] = {0};
+    br_spread_opts so;
+    br_spread_opts_default(&so);
+    so.threads = 1;
+    so.startup = startup_rows;
+    so.accept = pk->base->accept;
+    so.similar = 1;
+    so.stop_failed = 1; /* a choice that fails at its nominal point needs no corners */
+    int rc = br_pick_apply(pk->base->d, pk->cat, ch, &d, err);
+    if (rc == BR_OK)
+        rc = br_spread_derive(pk->base, d, &so, &s, err);
+    if (rc == BR_OK)
+        rc = worst_rows(s, startup_rows, worst, seen, err);
+    ch->points += s ? s->points : 0;
+    if (rc == BR_OK) {
+        conclude(ch, worst, seen, startup_rows);
+        ch->startup_checked |= startup_rows;
+    }
+    ch->status = rc == BR_ENOMEM ? ch->status : rc;
+    br_spread_free(s);
+    br_design_free(d);
+    return rc == BR_ENOMEM ? rc : BR_OK;
+}
+
+/* ---- judging many choices in parallel ------------------------------------------ */
+
+typedef struct pool {
+    const br_pick *pk;
+    br_choice **todo;
+    int n;
+    int startup_rows;
+    pthread_mutex_t lock;
+    int next;
+    int failed; /* out of memory somewhere */
+    br_error err;
+} pool;
+
+static void *pool_worker(void *arg)
+{
+    pool *p = arg;
+    for (;;) {
+        pthread_mutex_lock(&p->lock);
+        int i = p->failed ? p->n : p->next++;
+        pthread_mutex_unlock(&p->lock);
+        if (i >= p->n)
+            return NULL;
+        br_error err;
+        br_error_clear(&err);
+        if (judge(p->pk, p->todo[i], p->startup_rows, &err) != BR_OK) {
+            pthread_mutex_lock(&p->lock);
+            if (!p->failed++)
+                p->err = err;
+            pthread_mutex_unlock(&p->lock);
+        }
+    }
+}
+
+static int judge_all(const br_pick *pk, br_choice **todo, int n, int startup_rows, br_error *err)
+{
+    pool p = {.pk = pk, .todo = todo, .n = n, .startup_rows = startup_rows};
+    pthread_t tid[BR_SPREAD_MAX_THREADS];
+    int nt = pk->base->threads < n ? pk->base->threads : n, started = 0;
+    if (n == 0)
+        return BR_OK;
+    if (pthread_mutex_init(&p.lock, NULL) != 0)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "cannot create a lock");
+    for (int t = 1; t < nt; t++)
+        started += pthread_create(&tid[started], NULL, pool_worker, &p) == 0;
+    pool_worker(&p);
+    for (int t = 0; t < started; t++)
+        pthread_join(tid[t], NULL);
+    pthread_mutex_destroy(&p.lock);
+    if (p.failed) {
+        *err = p.err;
+        return p.err.code ? p.err.code : BR_ENOMEM;
+    }
+    return BR_OK;
+}
+
+/* ---- screening ------------------------------------------------------------------ */
+
+static char *reject(br_pick *pk, int is_diode, int part)
+{
+    br_reject *r = &pk->rej[pk->nrej++];
+    r->is_diode = is_diode;
+    r->part = part;
+    return r->why;
+}
+
+/* The highest reverse voltage a link diode must block: the largest
+ * blocking voltage of a return switch with the edge overshoot, at the
+ * highest bus voltage and flying-capacitor imbalance. */
+static double link_stress(const br_design *d, const br_chain *c)
+{
+    double vb = 0.0;
+    for (int k = 0; k + 1 < c->n; k++)
+        vb = fmax(vb, c->st[k].vblock);
+    double scale = (d->vin.max / d->vin.nom) * (1.0 + d->imbalance.max) / (1.0 + d->imbalance.nom);
+    return vb * scale * (1.0 + d->overshoot.max);
+}
+
+/* Ratings first: admissible[] marks what may be placed at all. */
+static void screen(br_pick *pk, const br_design *d, const br_chain *c, int *cap_ok, int *dio_ok)
+{
+    const br_catalog *cat = pk->cat;
+    double vmax = d->vsupply.max, stress = link_stress(d, c), der = d->derating.nom;
+    for (int i = 0; i < cat->ncaps; i++) {
+        double r = cat->caps[i].vrated.nom;
+        cap_ok[i] = r > 0 && r >= vmax;
+        if (!(r > 0))
+            snprintf(reject(pk, 0, i), BR_PICK_WHY,
+                     "no voltage rating given, so its voltage cannot be checked");
+        else if (!cap_ok[i])
+            snprintf(reject(pk, 0, i), BR_PICK_WHY,
+                     "rated %.4g V, below the supply's maximum %.4g V", r, vmax);
+    }
+    for (int i = 0; i < cat->ndiodes; i++) {
+        double r = cat->diodes[i].vrrm.nom;
+        dio_ok[i] = r > 0 && der * r >= stress;
+        if (!(r > 0))
+            snprintf(reject(pk, 1, i), BR_PICK_WHY,
+                     "no reverse voltage rating given, so its stress cannot be checked");
+        else if (!dio_ok[i])
+            snprintf(reject(pk, 1, i), BR_PICK_WHY,
+                     "derated rating %.4g V (%.0f %% of %.4g V) below the %.4g V the links "
+                     "block with the edge overshoot",
+                     der * r, 100.0 * der, r, stress);
+    }
+}
+
+/* ---- one-part choices ------------------------------------------------------------ */
+
+static void set_uniform(br_choice *ch, int n, int cap, int diode, const br_catalog *cat)
+{
+    memset(ch, 0, sizeof *ch);
+    ch->uniform = 1;
+    ch->fail_crit = -1;
+    ch->crit = ch->stage = -1;
+    for (int k = 0; k < BR_MAX_SWITCHES; k++)
+        ch->cap[k] = ch->diode[k] = -1;
+    for (int k = 1; k < n; k++) {
+        ch->cap[k] = (short)cap;
+        ch->diode[k] = (short)diode;
+        ch->cost += (cap >= 0 ? cat->cap_offer[cap].cost : 0) +
+                    (diode >= 0 ? cat->diode_offer[diode].cost : 0);
+        ch->area += (cap >= 0 ? cat->cap_offer[cap].area : 0) +
+                    (diode >= 0 ? cat->diode_offer[diode].area : 0);
+    }
+}
+
+/* Every combination of an admissible capacitor and diode (or the design's
+ * own where the catalog offers none). */
+static int list_uniform(br_pick *pk, int n, const int *cap_ok, const int *dio_ok)
+{
+    const br_catalog *cat = pk->cat;
+    int nc = pk->pick_caps ? cat->ncaps : 1, nd = pk->pick_diodes ? cat->ndiodes : 1;
+    pk->choice =
+        calloc((size_t)(nc * nd) + 2 * BR_MAX_SWITCHES * BR_MAX_PARTS + 1, sizeof *pk->choice);
+    if (!pk->choice)
+        return BR_ENOMEM;
+    for (int a = 0; a < nc; a++)
+        for (int b = 0; b < nd; b++) {
+            int cap = pk->pick_caps ? a : -1, dio = pk->pick_diodes ? b : -1;
+            if ((cap >= 0 && !cap_ok[cap]) || (dio >= 0 && !dio_ok[dio]))
+                continue;
+            set_uniform(&pk->choice[pk->nchoice++], n, cap, dio, cat);
+        }
+    pk->nuniform = pk->nchoice;
+    return BR_OK;
+}
+
+/* A part none of whose one-part choices passes is rejected, with the
+ * reason of its best combination (the one with the highest margin). */
+static void reject_failing(br_pick *pk, int is_diode, int part)
+{
+    const br_choice *best = NULL;
+    for (int i = 0; i < pk->nuniform; i++) {
+        const br_choice *ch = &pk->choice[i];
+        if ((is_diode ? ch->diode[1] : ch->cap[1]) != part)
+            continue;
+        if (ch->status == BR_OK && ch->pass)
+            return;
+        if (!best || (ch->status == BR_OK &&
+                      (best->status != BR_OK || rank_of(&ch->fail_row) > rank_of(&best->fail_row))))
+            best = ch;
+    }
+    if (!best)
+        return;
+    char *why = reject(pk, is_diode, part);
+    if (best->status != BR_OK)
+        snprintf(why, BR_PICK_WHY, "on every %s, the chain cannot be judged (%s)",
+                 is_diode ? "link" : "rail", br_status_name(best->status));
+    else if (best->fail_crit == BR_CRIT_STEADY)
+        snprintf(why, BR_PICK_WHY,
+                 "on every %s: no periodic steady state that holds was found at one of its "
+                 "corners",
+                 is_diode ? "link" : "rail");
+    else
+        snprintf(why, BR_PICK_WHY, "on every %s: fails %s at its worst corner (margin %.4g %s)",
+                 is_diode ? "link" : "rail", br_crit_name(best->fail_crit), best->fail_row.margin,
+                 best->fail_crit == BR_CRIT_STARTUP  ? "s"
+                 : best->fail_crit == BR_CRIT_INRUSH ? "A"
+                                                     : "V");
+}
+
+/* ---- ranking -------------------------------------------------------------------------- */
+
+static int better(const br_choice *a, const br_choice *b)
+{
+    if (a->cost != b->cost)
+        return a->cost < b->cost;
+    if (a->area != b->area)
+        return a->area < b->area;
+    return a->margin > b->margin;
+}
+
+/* Passing choices by rank, into order (returns their count). */
+static int sorted_passing(const br_pick *pk, int *order)
+{
+    int n = 0;
+    for (int i = 0; i < pk->nchoice; i++) {
+        const br_choice *ch = &pk->choice[i];
+        if (ch->status != BR_OK || !ch->pass)
+            continue;
+        int at = n++;
+        while (at > 0 && better(ch, &pk->choice[order[at - 1]])) {
+            order[at] = order[at - 1];
+            at--;
+        }
+        order[at] = i;
+    }
+    return n;
+}
+
+/* The start-up criteria of the best choices, in rank order and in batches
+ * of one per thread, until `top` of them pass. */
+static int verify(br_pick *pk, int startup, br_error *err)
+{
+    int *order = malloc(sizeof(int) * (size_t)(pk->nchoice + 1));
+    if (!order)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    int n = sorted_passing(pk, order), rc = BR_OK, at = 0;
+    pk->nranked = 0;
+    while (rc == BR_OK && at < n && pk->nranked < pk->top) {
+        br_choice *batch[BR_SPREAD_MAX_THREADS];
+        int nb = 0, want = pk->top - pk->nranked;
+        while (at < n && nb < want && nb < pk->base->threads)
+            batch[nb++] = &pk->choice[order[at++]];
+        if (startup)
+            rc = judge_all(pk, batch, nb, 1, err);
+        for (int b = 0; rc == BR_OK && b < nb; b++)
+            if (batch[b]->status == BR_OK && batch[b]->pass && pk->nranked < pk->top)
+                pk->ranked[pk->nranked++] = (int)(batch[b] - pk->choice);
+    }
+    free(order);
+    return rc;
+}
+
+/* ---- per-rail choices: the greedy descent ------------------------------------------ */
+
+static double part_cost(const br_catalog *cat, int is_diode, int part)
+{
+    return is_diode ? cat->diode_offer[part].cost : cat->cap_offer[part].cost;
+}
+
+static double part_area(const br_catalog *cat, int is_diode, int part)
+{
+    return is_diode ? cat->diode_offer[part].area : cat->cap_offer[part].area;
+}
+
+/* Admissible parts cheaper than `than` (cost, then area), cheapest first. */
+static int cheaper(const br_catalog *cat, int is_diode, const int *ok, int than, int *out)
+{
+    int n = 0, count = is_diode ? cat->ndiodes : cat->ncaps;
+    double c0 = part_cost(cat, is_diode, than), a0 = part_area(cat, is_diode, than);
+    for (int i = 0; i < count; i++) {
+        double c = part_cost(cat, is_diode, i), a = part_area(cat, is_diode, i);
+        if (!ok[i] || i == than || c > c0 || (c == c0 && a >= a0))
+            continue;
+        int at = n++;
+        while (at > 0 && (part_cost(cat, is_diode, out[at - 1]) > c ||
+                          (part_cost(cat, is_diode, out[at - 1]) == c &&
+                           part_area(cat, is_diode, out[at - 1]) > a))) {
+            out[at] = out[at - 1];
+            at--;
+        }
+        out[at] = i;
+    }
+    return n;
+}
+
+static void recost(br_choice *ch, const br_catalog *cat, int n)
+{
+    ch->cost = ch->area = 0.0;
+    for (int k = 1; k < n; k++) {
+        if (ch->cap[k] >= 0) {
+            ch->cost += cat->cap_offer[ch->cap[k]].cost;
+            ch->area += cat->cap_offer[ch->cap[k]].area;
+        }
+        if (ch->diode[k] >= 0) {
+            ch->cost += cat->diode_offer[ch->diode[k]].cost;
+            ch->area += cat->diode_offer[ch->diode[k]].area;
+        }
+    }
+}
+
+/* Try cheaper parts at stage k of cur, a batch per thread at a time, the
+ * cheapest first; cur takes the first that keeps it passing. */
+static int descend_stage(br_pick *pk, br_choice *cur, int is_diode, int k, const int *ok, int n,
+                         br_error *err)
+{
+    int cand[BR_MAX_PARTS],
+        nc = cheaper(pk->cat, is_diode, ok, is_diode ? cur->diode[k] : cur->cap[k], cand);
+    for (int at = 0; at < nc;) {
+        br_choice *slot = &pk->choice[pk->nchoice];
+        br_choice *batch[BR_SPREAD_MAX_THREADS];
+        int nb = 0;
+        while (at < nc && nb < pk->base->threads) {
+            slot[nb] = *cur;
+            (is_diode ? slot[nb].diode : slot[nb].cap)[k] = (short)cand[at++];
+            slot[nb].uniform = 0;
+            slot[nb].points = 0;
+            recost(&slot[nb], pk->cat, n);
+            batch[nb] = &slot[nb];
+            nb++;
+        }
+        int rc = judge_all(pk, batch, nb, 0, err);
+        pk->greedy_tries += nb;
+        for (int b = 0; b < nb; b++)
+            pk->points += batch[b]->points;
+        if (rc != BR_OK)
+            return rc;
+        for (int b = 0; b < nb; b++)
+            if (batch[b]->status == BR_OK && batch[b]->pass) {
+                *cur = *batch[b];
+                return BR_OK;
+            }
+    }
+    return BR_OK;
+}
+
+/* From the best passing one-part choice, rails then links, top down. */
+static int greedy(br_pick *pk, const int *cap_ok, const int *dio_ok, int n, br_error *err)
+{
+    int *order = malloc(sizeof(int) * (size_t)(pk->nuniform + 1));
+    if (!order)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    int saved = pk->nchoice;
+    pk->nchoice = pk->nuniform; /* rank the one-part choices only */
+    int np = sorted_passing(pk, order);
+    pk->nchoice = saved;
+    br_choice cur = np > 0 ? pk->choice[order[0]] : pk->choice[0];
+    free(order);
+    if (np == 0)
+        return BR_OK;
+    int rc = BR_OK;
+    for (int k = n - 1; rc == BR_OK && pk->pick_caps && k >= 1; k--)
+        rc = descend_stage(pk, &cur, 0, k, cap_ok, n, err);
+    for (int k = n - 1; rc == BR_OK && pk->pick_diodes && k >= 1; k--)
+        rc = descend_stage(pk, &cur, 1, k, dio_ok, n, err);
+    if (rc == BR_OK && !cur.uniform) {
+        pk->choice[pk->nchoice] = cur;
+        pk->greedy = pk->nchoice++;
+    }
+    return rc;
+}
+
+/* ---- the whole search -------------------------------------------------------------- */
+
+static int judge_uniform(br_pick *pk, br_error *err)
+{
+    br_choice **todo = malloc(sizeof *todo * (size_t)(pk->nuniform + 1));
+    if (!todo)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    for (int i = 0; i < pk->nuniform; i++)
+        todo[i] = &pk->choice[i];
+    int rc = judge_all(pk, todo, pk->nuniform, 0, err);
+    free(todo);
+    for (int i = 0; i < pk->nuniform; i++)
+        pk->points += pk->choice[i].points;
+    return rc;
+}
+
+static int search(br_pick *pk, const br_design *d, const br_chain *c, const br_pick_opts *o,
+                  br_error *err)
+{
+    int cap_ok[BR_MAX_PARTS] = {0}, dio_ok[BR_MAX_PARTS] = {0};
+    screen(pk, d, c, cap_ok, dio_ok);
+    if (list_uniform(pk, c->n, cap_ok, dio_ok) != BR_OK)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    int rc = judge_uniform(pk, err);
+    for (int i = 0; rc == BR_OK && pk->pick_caps && i < pk->cat->ncaps; i++)
+        if (cap_ok[i])
+            reject_failing(pk, 0, i);
+    for (int i = 0; rc == BR_OK && pk->pick_diodes && i < pk->cat->ndiodes; i++)
+        if (dio_ok[i])
+            reject_failing(pk, 1, i);
+    if (rc == BR_OK && o->per_rail)
+        rc = greedy(pk, cap_ok, dio_ok, c->n, err);
+    if (rc == BR_OK)
+        rc = verify(pk, o->startup, err);
+    return rc;
+}
+
+int br_pick_run(const br_design *d, const br_catalog *cat, const br_pick_opts *o, br_pick **out,
+                br_error *err)
+{
+    br_pick_opts def;
+    if (!o) {
+        br_pick_opts_default(&def);
+        o = &def;
+    }
+    *out = NULL;
+    if (cat->ncaps == 0 && cat->ndiodes == 0)
+        return br_error_set(err, BR_EINPUT, cat->path, 0, "", "the catalog offers no part");
+    br_pick *pk = calloc(1, sizeof *pk);
+    br_chain *c = malloc(sizeof *c);
+    int rc = pk && c ? BR_OK : br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    if (rc == BR_OK) {
+        pk->cat = cat;
+        pk->pick_caps = cat->ncaps > 0;
+        pk->pick_diodes = cat->ndiodes > 0;
+        pk->top = o->top < 1 ? 1 : o->top > 64 ? 64 : o->top;
+        pk->greedy = -1;
+        rc = br_chain_build_nominal(d, c, err);
+    }
+    br_spread_opts so;
+    br_spread_opts_default(&so);
+    so.threads = o->threads;
+    so.startup = o->startup;
+    if (rc == BR_OK)
+        rc = br_spread_create(d, &so, &pk->base, err);
+    if (rc == BR_OK)
+        rc = search(pk, d, c, o, err);
+    if (rc == BR_OK)
+        pk->points += pk->base->points;
+    free(c);
+    if (rc != BR_OK) {
+        br_pick_free(pk);
+        return rc;
+    }
+    *out = pk;
+    return BR_OK;
+}
+
+void br_pick_free(br_pick *p)
+{
+    if (!p)
+        return;
+    br_spread_free(p->base);
+    free(p->choice);
+    free(p);
+}

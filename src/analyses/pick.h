@@ -1,0 +1,91 @@
+/* pick.h - choosing rail capacitors and link diodes from a catalog.
+ *
+ * A choice puts a catalog capacitor on every rail (k >= 1) and a catalog
+ * diode on every link; a role the catalog offers no part for keeps the
+ * design's own parts.  The search:
+ *  1. screens every part on its ratings: a capacitor rated below the
+ *     supply's maximum, or a diode whose derated rating is below what the
+ *     links block (with the edge overshoot, at the highest bus voltage),
+ *     is rejected with the reason; a part without the rating is too;
+ *  2. judges every one-part choice (one capacitor on all rails, one diode
+ *     on all links, every combination) at its worst corners: the nominal
+ *     point, the one-at-a-time points of the new parts' own tolerances,
+ *     and for each steady-state criterion the corner its sensitivities
+ *     point to (those of the design's other tolerances come from the
+ *     design's own one-at-a-time points);
+ *  3. per-rail choices by a greedy descent from the best passing one-part
+ *     choice: rail by rail from the top (which carries the least charge),
+ *     each takes the cheapest catalog capacitor that keeps the chain
+ *     passing; then link by link the same with the diodes;
+ *  4. ranks the passing choices by cost, then area, then margin (the
+ *     smallest voltage margin at the worst corners), and checks the
+ *     start-up criteria (a cold start at the nominal point and at the
+ *     start-up criteria's predicted worst corners) on the best, in rank
+ *     order, until `top` of them pass everything.
+ * Choices are judged in parallel, one per worker thread. */
+#ifndef BR_ANALYSES_PICK_H
+#define BR_ANALYSES_PICK_H
+
+#include "analyses/spread.h"
+#include "model/catalog.h"
+
+#define BR_PICK_WHY 200
+
+typedef struct br_pick_opts {
+    int threads;  /* worker threads; 0: one per online processor */
+    int top;      /* choices to rank and verify (default 10) */
+    int startup;  /* check the start-up criteria of the ranked choices (1) */
+    int per_rail; /* search per-rail choices too (1) */
+} br_pick_opts;
+
+typedef struct br_choice {
+    short cap[BR_MAX_SWITCHES];   /* catalog capacitor on rail k (k >= 1), -1: the design's own */
+    short diode[BR_MAX_SWITCHES]; /* catalog diode on link k (k >= 1), -1: the design's own */
+    int uniform;                  /* one part on every rail and link */
+    double cost;                  /* sum over the catalog parts placed */
+    double area;                  /* mm2, the same */
+    int status;                   /* br_status of judging it (BR_OK: the rest is meaningful) */
+    int pass;                     /* every criterion judged passes at its worst corners */
+    int startup_checked;          /* the start-up criteria were judged too */
+    double margin;                /* smallest voltage margin at the worst corners, V */
+    int crit, stage, dir;         /* where it binds (br_crit, stage, br_dir_index) */
+    int fail_crit;                /* the first failing criterion, -1 when none */
+    br_pt_row fail_row;           /* its row */
+    long points;                  /* points judged for it */
+} br_choice;
+
+typedef struct br_reject {
+    int is_diode; /* 0: a capacitor */
+    int part;     /* index in the catalog */
+    char why[BR_PICK_WHY];
+} br_reject;
+
+typedef struct br_pick {
+    const br_catalog *cat;      /* not owned */
+    br_spread *base;            /* the design's tolerances and nominal point (owned) */
+    int pick_caps, pick_diodes; /* the roles the catalog fills */
+    int nrej;
+    br_reject rej[2 * BR_MAX_PARTS];
+    int nchoice;
+    br_choice *choice; /* every choice judged: one-part ones first, then per-rail ones */
+    int nuniform;      /* of which one-part choices */
+    int greedy;        /* index of the per-rail choice, -1 when none was found */
+    int greedy_tries;  /* choices the greedy descent judged */
+    int nranked;
+    int ranked[64]; /* passing choices, best first (at most top) */
+    int top;
+    long points; /* points judged in all */
+} br_pick;
+
+void br_pick_opts_default(br_pick_opts *o);
+
+/* Search design d (which must outlive the result) with catalog cat. */
+int br_pick_run(const br_design *d, const br_catalog *cat, const br_pick_opts *o, br_pick **out,
+                br_error *err);
+void br_pick_free(br_pick *p);
+
+/* The design with choice ch placed (a new design the caller frees). */
+int br_pick_apply(const br_design *d, const br_catalog *cat, const br_choice *ch, br_design **out,
+                  br_error *err);
+
+#endif

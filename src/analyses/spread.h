@@ -1,0 +1,134 @@
+/* spread.h - a design over its tolerances: its nominal point, the
+ * one-at-a-time sensitivities, and many points judged in parallel.
+ *
+ * A point gives every toleranced parameter (model/tolerance.h) a value.
+ * Judging it means what `analyze` does: build the chain at those values,
+ * optionally the cold start, the periodic steady state of every current
+ * direction the design asks for, their figures and the verdict rows.  The
+ * corner search, the Monte Carlo yield and the part search all judge
+ * points through here, so a point means the same to each of them.
+ *
+ * Speed.  Points are judged by worker threads, each with its own copy of
+ * the design, chain and simulators.  A point's steady state starts from a
+ * prediction: the nominal state plus, for each parameter, the change its
+ * one-at-a-time point made, scaled to the point's value (piecewise linear
+ * through the minimum, the nominal and the maximum).  One period is
+ * simulated from it, and a chord step computed (Newton's method with the
+ * Jacobian of the nominal point's period map, found once by finite
+ * differences): the step is the distance to the periodic state that the
+ * Jacobian predicts, which a small change per period can hide when the
+ * chain has a slow mode.  The period is taken as the steady state when it
+ * moves no rail by more than 100 uV (the drift the verdict allows), no
+ * driver drops out and the chord step is no longer than `accept`;
+ * otherwise the step is taken and the test repeated, a few times, before
+ * the shooting solver takes over from the best state so far.  Every
+ * figure comes from a simulated period of the point's own chain, within
+ * about `accept` of its periodic steady state.
+
+ * Reproducibility.  A point's result depends only on its values and on
+ * the nominal and one-at-a-time results, never on which thread took it or
+ * what that thread did before, so any number of threads gives identical
+ * numbers. */
+#ifndef BR_ANALYSES_SPREAD_H
+#define BR_ANALYSES_SPREAD_H
+
+#include "analyses/figures.h"
+#include "model/tolerance.h"
+
+#define BR_SPREAD_MAX_THREADS 64
+#define BR_SPREAD_NX (2 * BR_MAX_SWITCHES) /* steady-state vector length */
+
+/* One verdict row at one point, compactly. */
+typedef struct br_pt_row {
+    signed char applies; /* the criterion was checked */
+    signed char pass;
+    signed char dir;              /* br_dir_index where it binds */
+    short stage;                  /* binding rail or link, -1 when none */
+    double figure, limit, margin; /* in the criterion's unit */
+} br_pt_row;
+
+/* One judged point. */
+typedef struct br_pt {
+    int status;       /* br_status of judging it; the rows mean nothing unless BR_OK */
+    int with_startup; /* the cold start was simulated */
+    int pass;         /* status BR_OK and every row that applies passes */
+    int fast;         /* steady states taken from the prediction (count of directions) */
+    long periods;     /* periods simulated for the steady states */
+    br_pt_row row[BR_CRIT_COUNT];
+    /* The smallest headroom of a rail over what its driver needs (the
+     * regulator's output plus dropout, or UVLO falling on a rail without
+     * one), V, over every rail and direction.  Not a criterion: a
+     * regulator hides how close its rail comes to dropping out, so the
+     * UVLO and drive margins stay flat until it does; the headroom is
+     * the smooth figure that searches follow to find that corner. */
+    double headroom;
+} br_pt;
+
+typedef struct br_spread_opts {
+    int threads;     /* worker threads; 0: one per online processor */
+    int startup;     /* the nominal and one-at-a-time points include the cold start */
+    double accept;   /* V: distance to the steady state accepted; 0: 100 uV */
+    int similar;     /* br_spread_derive: a new part's parameter borrows the sensitivity of
+                        the same attribute of a part of the same kind in the base design */
+    int stop_failed; /* a nominal point that fails ends the preparation there */
+} br_spread_opts;
+
+typedef struct br_spread {
+    const br_design *d; /* the design (not owned; must outlive the spread) */
+    br_tol_list tl;     /* its toleranced parameters */
+    int threads;        /* worker threads used */
+    int startup;        /* as in the options */
+    int stop_failed;    /* as in the options */
+    int stopped;        /* the nominal point failed: no one-at-a-time points were judged */
+    double accept;      /* V: as in the options */
+    int ndir;           /* current directions analysed (1 or 2) */
+    br_pt nominal;      /* every parameter at its nominal value */
+    br_pt *oat;         /* 2 tl.n points: [2j] parameter j at its minimum, [2j+1] at its maximum */
+    signed char *borrowed; /* 2 tl.n: 1 where oat[] was taken from the base design (derive) */
+    br_pt base_nominal;    /* derive: the base design's nominal point, what borrowed points
+                              compare with (the nominal point itself otherwise) */
+    double xnom[2][BR_SPREAD_NX]; /* nominal steady state of each direction */
+    double *dx; /* [(2j+e) * 2 + i]: steady-state change of direction i at oat[2j+e] */
+    int m[2];   /* chord unknowns of direction i (0: no chord steps) */
+    int idx[2][BR_SPREAD_NX]; /* their places in the state vector */
+    double *hinv[2];          /* m x m inverse of (J - I) at the nominal point, row-major */
+    long periods;             /* periods simulated for steady states so far */
+    long points;              /* points judged so far */
+    long fast;                /* steady states taken from the prediction so far */
+} br_spread;
+
+void br_spread_opts_default(br_spread_opts *o);
+
+/* Judge the nominal point and every parameter alone at each of its limits.
+ * d must outlive the spread.  A failure of the nominal point is an error
+ * (BR_ENUMERIC with its message); a one-at-a-time point that fails is
+ * recorded in its status and contributes no sensitivity. */
+int br_spread_create(const br_design *d, const br_spread_opts *o, br_spread **out, br_error *err);
+
+/* The same for a design that differs from base only in some parts (the
+ * same topology and stages): one-at-a-time points of parameters base has
+ * too (same place in the design, same limits) are taken from base instead
+ * of being judged again (marked in borrowed[]: they give sensitivities,
+ * but they are points of the base design, not of d).  With o->similar,
+ * so do those of a new part whose kind and attribute base has toleranced
+ * (a catalog capacitor's c takes the sign of the design capacitor's c):
+ * what the limits do to each margin, not the states they lead to. */
+int br_spread_derive(const br_spread *base, const br_design *d, const br_spread_opts *o,
+                     br_spread **out, br_error *err);
+
+void br_spread_free(br_spread *s);
+
+/* Judge npts points: values holds npts rows of tl.n values.  out[i] gets
+ * point i (a point that cannot be judged has its status set; that is not
+ * an error of the call).  Returns BR_ENOMEM when workers cannot start. */
+int br_spread_eval(br_spread *s, int npts, const double *values, int with_startup, br_pt *out,
+                   br_error *err);
+
+/* Values of a point given by levels (-1 minimum, 0 nominal, +1 maximum)
+ * into v (tl.n values). */
+void br_spread_levels(const br_spread *s, const signed char *level, double *v);
+
+/* Online processors (at least 1). */
+int br_cpu_count(void);
+
+#endif

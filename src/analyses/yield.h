@@ -1,0 +1,85 @@
+/* yield.h - Monte Carlo yield over the tolerance distributions.
+ *
+ * Each sample draws every toleranced parameter from its distribution:
+ * uniform between its limits, or normal about the nominal with the limits
+ * at +-nsig sigma (each side scaled to its own limit when they are not
+ * symmetric), truncated at the limits by drawing again.  The draws come
+ * from one GSL Mersenne Twister seeded with the seed, sample after sample,
+ * before any sample is judged: sample i is the same whatever the number
+ * of samples after it and whatever the number of threads that judge them.
+ *
+ * A sample passes when every criterion that applies passes (spread.h
+ * judges it; the start-up criteria only when the cold start is asked
+ * for).  The yield comes with its exact (Clopper-Pearson) confidence
+ * interval; per criterion, quantiles of its margin over the samples and
+ * Spearman's rank correlation of each parameter with that margin say how
+ * close the margins come and which parameters move them. */
+#ifndef BR_ANALYSES_YIELD_H
+#define BR_ANALYSES_YIELD_H
+
+#include "analyses/spread.h"
+
+#define BR_YIELD_NQ 5 /* quantiles reported per criterion */
+
+/* The quantiles reported: minimum, 0.1 %, 1 %, 10 %, median. */
+extern const double br_yield_quantiles[BR_YIELD_NQ];
+
+typedef struct br_yield_opts {
+    long samples;       /* number of samples (default 1000) */
+    unsigned long seed; /* generator seed (default 1) */
+    int threads;        /* 0: one per online processor */
+    int startup;        /* judge the start-up criteria (a cold start per sample) */
+    double accept;      /* V: steady states within this of periodic (default 1 mV) */
+} br_yield_opts;
+
+typedef struct br_yield_crit {
+    int applies;            /* judged in at least one sample */
+    long judged;            /* samples where it applies */
+    long fails;             /* samples where it fails */
+    double q[BR_YIELD_NQ];  /* margin quantiles, in the criterion's unit */
+    double rho[BR_TOL_MAX]; /* Spearman's rho of each parameter with the margin (NAN: undefined) */
+} br_yield_crit;
+
+typedef struct br_yield {
+    br_spread *s; /* tolerances and nominal point (owned) */
+    long n;       /* samples */
+    unsigned long seed;
+    int startup;      /* the start-up criteria were judged */
+    double accept;    /* V */
+    double *values;   /* n rows of s->tl.n sampled values */
+    br_pt *pts;       /* n judged samples */
+    long pass;        /* samples that pass */
+    long unjudged;    /* samples that could not be judged (counted as failing) */
+    long steady_only; /* failing samples whose only failure is the steady state not settling */
+    double yield;     /* pass / n */
+    double lo, hi;    /* its exact 95 % confidence interval */
+    br_yield_crit c[BR_CRIT_COUNT];
+} br_yield;
+
+void br_yield_opts_default(br_yield_opts *o);
+
+/* Sample and judge design d (which must outlive the result). */
+int br_yield_run(const br_design *d, const br_yield_opts *o, br_yield **out, br_error *err);
+void br_yield_free(br_yield *y);
+
+/* The n x k sampled values of parameters tl from seed (into v). */
+int br_yield_sample(const br_tol_list *tl, unsigned long seed, long n, double *v, br_error *err);
+
+/* Exact two-sided confidence interval of a proportion, x successes in n
+ * trials, at confidence conf (0.95): C. J. Clopper and E. S. Pearson,
+ * Biometrika 26(4), 1934, through the beta distribution's quantiles. */
+void br_clopper_pearson(long x, long n, double conf, double *lo, double *hi);
+
+/* Ranks 1..n of v (ties share their average rank).  BR_ENOMEM when the
+ * scratch cannot be allocated. */
+int br_rank(const double *v, long n, double *rank);
+
+/* Pearson's correlation of a and b; NAN when either does not vary. */
+double br_pearson(const double *a, const double *b, long n);
+
+/* Spearman's rank correlation: Pearson's on the ranks (C. Spearman,
+ * American Journal of Psychology 15(1), 1904).  NAN when either does not
+ * vary or memory runs out. */
+double br_spearman(const double *a, const double *b, long n);
+
+#endif

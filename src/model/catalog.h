@@ -1,0 +1,41 @@
+/* catalog.h - candidate parts for `pick`: link diodes and rail capacitors
+ * with what each costs and the board area it takes.
+ *
+ * The io layer fills a catalog from our own XML (docs/catalog.md, schema
+ * src/io/catalog.rng); a part there takes the attributes of a part in a
+ * design file, so the parts here are the design's own types. */
+#ifndef BR_MODEL_CATALOG_H
+#define BR_MODEL_CATALOG_H
+
+#include "model/design.h"
+
+typedef struct br_offer {
+    double cost; /* per part, in the catalog's currency unit */
+    double area; /* board area, mm2 */
+    int line;    /* line of the part in the catalog file */
+} br_offer;
+
+typedef struct br_catalog {
+    char path[512]; /* file it came from, for messages */
+    char name[128]; /* the catalog's name attribute */
+    int ndiodes, ncaps;
+    br_diode_part diodes[BR_MAX_PARTS];
+    br_offer diode_offer[BR_MAX_PARTS];
+    br_cap_part caps[BR_MAX_PARTS];
+    br_offer cap_offer[BR_MAX_PARTS];
+} br_catalog;
+
+/* Parse and validate the catalog file at path (io layer).  On failure
+ * *out is NULL and err says FILE:LINE: field: what is wrong. */
+int br_catalog_load(const char *path, br_catalog **out, br_error *err);
+
+/* The same from memory; name is used in messages. */
+int br_catalog_load_memory(const char *buf, size_t len, const char *name, br_catalog **out,
+                           br_error *err);
+
+void br_catalog_free(br_catalog *c);
+
+/* The RELAX NG schema the loader enforces (NUL-terminated). */
+const char *br_catalog_schema(void);
+
+#endif

@@ -1,0 +1,297 @@
+/* tolerance.c - listing, reading and writing the toleranced values of a
+ * design. */
+#include "model/tolerance.h"
+
+#include "core/error.h"
+
+#include <stddef.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+/* One attribute of an element: its name in the file, where its br_qty
+ * sits inside the element's struct, and its kind. */
+typedef struct field {
+    const char *attr;
+    size_t offset;
+    int kind;
+} field;
+
+#define TRY(x)                                                                                     \
+    do {                                                                                           \
+        int rc_ = (x);                                                                             \
+        if (rc_ != BR_OK)                                                                          \
+            return rc_;                                                                            \
+    } while (0)
+
+#define F(type, member, attr, kind)                                                                \
+    {                                                                                              \
+        attr, offsetof(type, member), kind                                                         \
+    }
+#define END                                                                                        \
+    {                                                                                              \
+        NULL, 0, 0                                                                                 \
+    }
+
+static const field op_fields[] = {F(br_design, vin, "vin", BR_KIND_VOLTAGE),
+                                  F(br_design, fsw, "fsw", BR_KIND_FREQUENCY),
+                                  F(br_design, duty, "duty", BR_KIND_FRACTION),
+                                  F(br_design, deadtime, "dead-time", BR_KIND_TIME),
+                                  F(br_design, tamb, "ambient", BR_KIND_TEMPERATURE),
+                                  F(br_design, imbalance, "imbalance", BR_KIND_FRACTION),
+                                  F(br_design, tedge, "edge-time", BR_KIND_TIME),
+                                  F(br_design, overshoot, "overshoot", BR_KIND_FRACTION),
+                                  END};
+
+static const field supply_fields[] = {F(br_design, vsupply, "voltage", BR_KIND_VOLTAGE),
+                                      F(br_design, rsupply, "resistance", BR_KIND_RESISTANCE),
+                                      F(br_design, tramp, "ramp", BR_KIND_TIME),
+                                      F(br_design, csupply, "bypass", BR_KIND_CAPACITANCE), END};
+
+static const field diode_fields[] = {F(br_diode_part, is, "is", BR_KIND_CURRENT),
+                                     F(br_diode_part, n, "n", BR_KIND_NUMBER),
+                                     F(br_diode_part, rs, "rs", BR_KIND_RESISTANCE),
+                                     F(br_diode_part, cj0, "cj0", BR_KIND_CAPACITANCE),
+                                     F(br_diode_part, vj, "vj", BR_KIND_VOLTAGE),
+                                     F(br_diode_part, m, "m", BR_KIND_NUMBER),
+                                     F(br_diode_part, tau, "tau", BR_KIND_TIME),
+                                     F(br_diode_part, eg, "eg", BR_KIND_ENERGY_EV),
+                                     F(br_diode_part, xti, "xti", BR_KIND_NUMBER),
+                                     F(br_diode_part, ir, "ir", BR_KIND_CURRENT),
+                                     F(br_diode_part, ir_temp, "ir-temp", BR_KIND_TEMPERATURE),
+                                     F(br_diode_part, ir_double, "ir-doubling", BR_KIND_TEMP_DELTA),
+                                     F(br_diode_part, vrrm, "vrrm", BR_KIND_VOLTAGE),
+                                     F(br_diode_part, ifsm, "ifsm", BR_KIND_CURRENT),
+                                     END};
+
+static const field cap_fields[] = {F(br_cap_part, c, "c", BR_KIND_CAPACITANCE),
+                                   F(br_cap_part, esr, "esr", BR_KIND_RESISTANCE),
+                                   F(br_cap_part, vrated, "rating", BR_KIND_VOLTAGE),
+                                   F(br_cap_part, tfactor, "temp-factor", BR_KIND_FRACTION),
+                                   F(br_cap_part, aging, "aging", BR_KIND_FRACTION),
+                                   END};
+
+static const field driver_fields[] = {F(br_driver_part, uvlo_rise, "uvlo-rise", BR_KIND_VOLTAGE),
+                                      F(br_driver_part, uvlo_fall, "uvlo-fall", BR_KIND_VOLTAGE),
+                                      F(br_driver_part, iq_on, "iq-run", BR_KIND_CURRENT),
+                                      F(br_driver_part, iq_off, "iq-uvlo", BR_KIND_CURRENT),
+                                      F(br_driver_part, i_iso, "iq-isolator", BR_KIND_CURRENT),
+                                      END};
+
+static const field switch_fields[] = {F(br_switch_part, rds_on, "rds-on", BR_KIND_RESISTANCE),
+                                      F(br_switch_part, qg, "qg", BR_KIND_CHARGE),
+                                      F(br_switch_part, qg_v, "qg-at", BR_KIND_VOLTAGE),
+                                      F(br_switch_part, tg, "gate-pulse", BR_KIND_TIME),
+                                      F(br_switch_part, vsd, "vsd", BR_KIND_VOLTAGE),
+                                      F(br_switch_part, vgs_rec, "vgs-rec", BR_KIND_VOLTAGE),
+                                      F(br_switch_part, vgs_max, "vgs-max", BR_KIND_VOLTAGE),
+                                      END};
+
+static const field regulator_fields[] = {F(br_aux_part, vout, "vout", BR_KIND_VOLTAGE),
+                                         F(br_aux_part, dropout, "dropout", BR_KIND_VOLTAGE),
+                                         F(br_aux_part, iq, "iq", BR_KIND_CURRENT), END};
+
+static const field clamp_fields[] = {F(br_aux_part, vout, "vz", BR_KIND_VOLTAGE),
+                                     F(br_aux_part, rz, "rz", BR_KIND_RESISTANCE), END};
+
+#undef F
+#undef END
+
+/* The parts and stage resistors the chain reads. */
+typedef struct usage {
+    int diode[BR_MAX_PARTS], cap[BR_MAX_PARTS], driver[BR_MAX_PARTS];
+    int sw[BR_MAX_PARTS], aux[BR_MAX_PARTS];
+    int def_link;                    /* some link takes the default resistor */
+    int stage_link[BR_MAX_SWITCHES]; /* link k takes its override's resistor */
+} usage;
+
+static void mark(int *used, int idx)
+{
+    if (idx >= 0 && idx < BR_MAX_PARTS)
+        used[idx] = 1;
+}
+
+/* Stage 0 is fed by the supply: it has no link and no rail capacitor. */
+static void find_usage(const br_design *d, usage *u)
+{
+    memset(u, 0, sizeof *u);
+    int n = br_design_nswitch(d);
+    for (int k = 0; k < n && k < BR_MAX_SWITCHES; k++) {
+        const br_stage_spec *s = br_design_stage(d, k);
+        mark(u->driver, s->driver);
+        mark(u->sw, s->sw);
+        mark(u->aux, s->aux);
+        if (k == 0)
+            continue;
+        mark(u->diode, s->diode);
+        mark(u->cap, s->cap);
+        if (d->has_override[k])
+            u->stage_link[k] = 1;
+        else
+            u->def_link = 1;
+    }
+}
+
+/* Name of switch s counted from the bottom, as the design file writes it. */
+static void switch_name(const br_design *d, int s, char *buf, size_t cap)
+{
+    int p = d->levels - 1;
+    if (d->topology == BR_TOPO_STRING)
+        snprintf(buf, cap, "%s", d->sw[s].name);
+    else if (s < p)
+        snprintf(buf, cap, "B%d", s + 1);
+    else
+        snprintf(buf, cap, "A%d", 2 * p - s);
+}
+
+/* Append the quantity at `offset` when it is toleranced. */
+static int add(const br_design *d, br_tol_list *l, size_t offset, int kind, const char *name,
+               br_error *err)
+{
+    const br_qty *q = (const br_qty *)((const char *)d + offset);
+    if (!(q->min < q->max))
+        return BR_OK;
+    if (l->n == BR_TOL_MAX)
+        return br_error_set(err, BR_EINPUT, d->path, q->line, name,
+                            "more than %d toleranced values, expected at most %d", BR_TOL_MAX,
+                            BR_TOL_MAX);
+    br_tol_param *p = &l->p[l->n++];
+    snprintf(p->name, sizeof p->name, "%s", name);
+    p->kind = kind;
+    p->offset = offset;
+    p->line = q->line;
+    p->nom = q->nom;
+    p->min = q->min;
+    p->max = q->max;
+    p->dist = q->dist;
+    p->nsig = q->nsig > 0 ? q->nsig : BR_QTY_NSIG;
+    return BR_OK;
+}
+
+/* Every field of one element whose struct starts at byte `base`. */
+static int add_fields(const br_design *d, br_tol_list *l, size_t base, const field *f,
+                      const char *owner, br_error *err)
+{
+    char name[BR_TOL_NAME];
+    for (; f->attr; f++) {
+        snprintf(name, sizeof name, "%s: %s", owner, f->attr);
+        TRY(add(d, l, base + f->offset, f->kind, name, err));
+    }
+    return BR_OK;
+}
+
+#define PART_BASE(array, i)                                                                        \
+    (offsetof(br_design, array) + (size_t)(i) * sizeof(((br_design *)0)->array[0]))
+
+static int add_parts(const br_design *d, const usage *u, br_tol_list *l, br_error *err)
+{
+    char owner[BR_TOL_NAME];
+    for (int i = 0; i < d->ndiodes; i++) {
+        snprintf(owner, sizeof owner, "diode %s", d->diodes[i].id);
+        if (u->diode[i])
+            TRY(add_fields(d, l, PART_BASE(diodes, i), diode_fields, owner, err));
+    }
+    for (int i = 0; i < d->ncaps; i++) {
+        snprintf(owner, sizeof owner, "capacitor %s", d->caps[i].id);
+        if (u->cap[i])
+            TRY(add_fields(d, l, PART_BASE(caps, i), cap_fields, owner, err));
+    }
+    for (int i = 0; i < d->ndrivers; i++) {
+        snprintf(owner, sizeof owner, "driver %s", d->drivers[i].id);
+        if (u->driver[i])
+            TRY(add_fields(d, l, PART_BASE(drivers, i), driver_fields, owner, err));
+    }
+    for (int i = 0; i < d->nswitches; i++) {
+        snprintf(owner, sizeof owner, "switch %s", d->switches[i].id);
+        if (u->sw[i])
+            TRY(add_fields(d, l, PART_BASE(switches, i), switch_fields, owner, err));
+    }
+    for (int i = 0; i < d->naux; i++) {
+        int ldo = d->aux[i].kind == BR_AUX_LDO;
+        snprintf(owner, sizeof owner, "%s %s", ldo ? "regulator" : "clamp", d->aux[i].id);
+        if (u->aux[i])
+            TRY(add_fields(d, l, PART_BASE(aux, i), ldo ? regulator_fields : clamp_fields, owner,
+                           err));
+    }
+    return BR_OK;
+}
+
+/* Link resistors: the default of <stages> and each override's own. */
+static int add_links(const br_design *d, const usage *u, br_tol_list *l, br_error *err)
+{
+    char name[BR_TOL_NAME], sw[BR_ID_MAX];
+    if (u->def_link)
+        TRY(add(d, l, offsetof(br_design, def.r_link), BR_KIND_RESISTANCE, "stages: link-resistor",
+                err));
+    for (int k = 1; k < BR_MAX_SWITCHES; k++) {
+        if (!u->stage_link[k])
+            continue;
+        switch_name(d, k, sw, sizeof sw);
+        snprintf(name, sizeof name, "stage %d (%s): link-resistor", k, sw);
+        size_t off = PART_BASE(stage, k) + offsetof(br_stage_spec, r_link);
+        TRY(add(d, l, off, BR_KIND_RESISTANCE, name, err));
+    }
+    return BR_OK;
+}
+
+static int add_string(const br_design *d, br_tol_list *l, br_error *err)
+{
+    char name[BR_TOL_NAME];
+    if (d->topology != BR_TOPO_STRING)
+        return BR_OK;
+    for (int s = 0; s < d->nswitch && s < BR_MAX_SWITCHES; s++) {
+        snprintf(name, sizeof name, "string switch %s: vblock", d->sw[s].name);
+        size_t off = PART_BASE(sw, s) + offsetof(br_switch_spec, vblock);
+        TRY(add(d, l, off, BR_KIND_VOLTAGE, name, err));
+    }
+    return BR_OK;
+}
+
+int br_tol_list_build(const br_design *d, br_tol_list *out, br_error *err)
+{
+    usage u;
+    out->n = 0;
+    find_usage(d, &u);
+    TRY(add_fields(d, out, 0, op_fields, "operating-point", err));
+    TRY(add_fields(d, out, 0, supply_fields, "supply", err));
+    TRY(add_parts(d, &u, out, err));
+    TRY(add_links(d, &u, out, err));
+    return add_string(d, out, err);
+}
+
+double br_tol_get(const br_design *d, const br_tol_param *p)
+{
+    return ((const br_qty *)((const char *)d + p->offset))->nom;
+}
+
+void br_tol_set(br_design *d, const br_tol_param *p, double v)
+{
+    ((br_qty *)((char *)d + p->offset))->nom = v;
+}
+
+void br_tol_apply(br_design *d, const br_tol_list *l, const double *v)
+{
+    for (int j = 0; j < l->n; j++)
+        br_tol_set(d, &l->p[j], v[j]);
+}
+
+double br_tol_level(const br_tol_param *p, int level)
+{
+    return level < 0 ? p->min : level > 0 ? p->max : p->nom;
+}
+
+int br_tol_find(const br_tol_list *l, size_t offset)
+{
+    for (int j = 0; j < l->n; j++)
+        if (l->p[j].offset == offset)
+            return j;
+    return -1;
+}
+
+br_design *br_design_copy(const br_design *d)
+{
+    br_design *c = malloc(sizeof *c);
+    if (c)
+        memcpy(c, d, sizeof *c);
+    return c;
+}

@@ -1,0 +1,390 @@
+/* corners_report.c - rendering the worst-case corners. */
+#include "report/corners_report.h"
+
+#include "report/caution.h"
+#include "report/fmt.h"
+#include "report/report_common.h"
+#include "report/table.h"
+
+#include <math.h>
+#include <stdio.h>
+#include <string.h>
+
+#define KELVIN 273.15
+#define MAX_CORNERS BR_CRIT_COUNT /* distinct worst corners: at most one per criterion */
+
+/* ---- shared pieces ---------------------------------------------------------- */
+
+const char *br_param_value(const br_tol_param *p, double v, char *buf, size_t cap)
+{
+    if (p->kind == BR_KIND_TEMPERATURE) {
+        snprintf(buf, cap, "%.4g C", v - KELVIN);
+        return buf;
+    }
+    return br_fmt_si(buf, cap, v, 4, br_kind_unit((br_kind)p->kind));
+}
+
+static const char *dist_text(const br_tol_param *p, char *buf, size_t cap)
+{
+    if (p->dist == BR_DIST_NORMAL)
+        snprintf(buf, cap, "normal, limits at %.3g sigma", p->nsig);
+    else
+        snprintf(buf, cap, "uniform");
+    return buf;
+}
+
+int br_param_table(const br_tol_list *tl, br_text *out)
+{
+    if (tl->n == 0)
+        return br_text_put(out, "toleranced parameters: none (the design file gives no tolerance; "
+                                "only the nominal point exists)\n");
+    int rc = br_text_printf(
+        out, "toleranced parameters (%d, with the limits the design file gives)\n", tl->n);
+    br_table *t = br_table_create(6, tl->n);
+    if (!t)
+        return BR_ENOMEM;
+    static const char *const heads[] = {"#",       "parameter", "minimum",
+                                        "nominal", "maximum",   "distribution"};
+    for (int col = 0; col < 6; col++)
+        br_table_head(t, col, heads[col], col == 1 || col == 5 ? BR_LEFT : BR_RIGHT);
+    for (int j = 0; j < tl->n; j++) {
+        const br_tol_param *p = &tl->p[j];
+        char a[BR_TABLE_CELL], b[BR_TABLE_CELL], c[BR_TABLE_CELL], d[BR_TABLE_CELL];
+        br_table_row(t);
+        br_table_set(t, 0, "%d", j + 1);
+        br_table_set(t, 1, "%s", p->name);
+        br_table_set(t, 2, "%s", br_param_value(p, p->min, a, sizeof a));
+        br_table_set(t, 3, "%s", br_param_value(p, p->nom, b, sizeof b));
+        br_table_set(t, 4, "%s", br_param_value(p, p->max, c, sizeof c));
+        br_table_set(t, 5, "%s", dist_text(p, d, sizeof d));
+    }
+    rc |= br_table_render(t, 2, out);
+    br_table_free(t);
+    return rc ? BR_ENOMEM : BR_OK;
+}
+
+const char *br_crit_where(const br_chain *c, int crit, int stage, char *buf, size_t cap)
+{
+    int link = crit == BR_CRIT_INRUSH || crit == BR_CRIT_DIODE_VR;
+    if (stage < 0 || stage >= c->n)
+        snprintf(buf, cap, "-");
+    else
+        snprintf(buf, cap, "%s %s", link ? "link" : "rail", c->st[stage].name);
+    return buf;
+}
+
+/* ---- the corners ------------------------------------------------------------ */
+
+/* The distinct worst corners, lettered in criterion order; letter[crit]
+ * is the index of crit's corner, -1 when it does not apply. */
+static int distinct_corners(const br_corners *k, int letter[BR_CRIT_COUNT], int first[MAX_CORNERS])
+{
+    int n = 0;
+    for (int crit = 0; crit < BR_CRIT_COUNT; crit++) {
+        letter[crit] = -1;
+        /* the steady-state row's margin is the solver's drift: its worst
+         * point is no corner worth drawing */
+        if (!k->w[crit].applies || crit == BR_CRIT_STEADY)
+            continue;
+        for (int a = 0; a < n && letter[crit] < 0; a++)
+            if (memcmp(k->w[first[a]].level, k->w[crit].level, (size_t)k->s->tl.n) == 0)
+                letter[crit] = a;
+        if (letter[crit] < 0) {
+            first[n] = crit;
+            letter[crit] = n++;
+        }
+    }
+    return n;
+}
+
+static const char *method_name(int m)
+{
+    return m == BR_CORNERS_EXHAUSTIVE ? "exhaustive"
+           : m == BR_CORNERS_GUIDED   ? "guided"
+                                      : "skipped";
+}
+
+/* One paragraph per pass saying how its corners were chosen. */
+static int method_text(const br_corners *k, br_text *out)
+{
+    char buf[768], acc[32];
+    int n = k->s->tl.n, rc;
+    if (n == 0)
+        return br_report_wrap(out, "method: ",
+                              "no parameter has a tolerance, so the nominal point is the only "
+                              "corner.",
+                              2);
+    if (k->method == BR_CORNERS_EXHAUSTIVE)
+        snprintf(buf, sizeof buf,
+                 "every corner of the %d parameters (%ld corners), each with its periodic steady "
+                 "state for every current direction; no cold start, which these criteria do not "
+                 "need.",
+                 n, k->steady_points);
+    else
+        snprintf(buf, sizeof buf,
+                 "sensitivity-guided, as %d parameters make too many corners to try them all: the "
+                 "nominal point and each parameter alone at each limit (%d points) give each "
+                 "criterion's sensitivity to each parameter; then every corner of the parameters "
+                 "that move its margin most (up to %d per criterion), the others at the limit "
+                 "that lowers it: %ld corners, no cold start.",
+                 n, 2 * n, k->max_sensitive, k->steady_points);
+    rc = br_report_wrap(out, "method, steady-state criteria: ", buf, 2);
+    if (k->su_method == BR_CORNERS_SKIPPED)
+        snprintf(buf, sizeof buf, "not searched (no cold start asked for); they are not judged.");
+    else if (k->su_method == BR_CORNERS_EXHAUSTIVE)
+        snprintf(buf, sizeof buf, "every corner (%ld), each with a cold start.", k->startup_points);
+    else
+        snprintf(buf, sizeof buf,
+                 "sensitivity-guided in the same way from one-at-a-time cold starts, up to %d "
+                 "parameters per criterion: %ld corners, each with a cold start (which also "
+                 "judges the steady-state criteria there).",
+                 k->startup_max_sensitive, k->startup_points);
+    rc |= br_report_wrap(out, "method, start-up criteria: ", buf, 2);
+    snprintf(buf, sizeof buf,
+             "at every point each steady state is found to within %s of periodic (a quasi-Newton "
+             "solve from the nominal state, the shooting solver behind it); every point counts, "
+             "the nominal and one-at-a-time points included.",
+             br_fmt_si(acc, sizeof acc, k->s->accept, 3, "V"));
+    rc |= br_report_wrap(out, "steady states: ", buf, 2);
+    if (k->failed > 0) {
+        snprintf(buf, sizeof buf,
+                 "%ld point%s could not be judged (the chain model refused the values or a "
+                 "solver failed) and %s left out.",
+                 k->failed, k->failed == 1 ? "" : "s", k->failed == 1 ? "is" : "are");
+        rc |= br_report_wrap(out, "  note: ", buf, 2);
+    }
+    return rc;
+}
+
+enum { C_NAME, C_RESULT, C_FIGURE, C_LIMIT, C_MARGIN, C_NOMINAL, C_AT, C_DIR, C_CORNER, NCOL };
+
+static void value_cell(br_table *t, int col, double v, const char *unit)
+{
+    char b[BR_TABLE_CELL];
+    br_table_set(t, col, "%s", br_fmt_si(b, sizeof b, v, 4, unit));
+}
+
+static void worst_row(br_table *t, const br_chain *c, const br_corners *k, int crit, int letter)
+{
+    static const char *const units[BR_CRIT_COUNT] = {"s", "A", "V", "V", "V", "V", "V", "V", "V"};
+    const br_corner_worst *w = &k->w[crit];
+    char b[BR_TABLE_CELL];
+    br_table_row(t);
+    br_table_set(t, C_NAME, "%s", br_crit_name(crit));
+    if (!w->applies) {
+        br_table_set(t, C_RESULT, "n/a");
+        for (int col = C_FIGURE; col < NCOL; col++)
+            br_table_set(t, col, "-");
+        return;
+    }
+    br_table_set(t, C_RESULT, "%s", w->worst.pass ? "pass" : "FAIL");
+    value_cell(t, C_FIGURE, w->worst.figure, units[crit]);
+    value_cell(t, C_LIMIT, w->worst.limit, units[crit]);
+    value_cell(t, C_MARGIN, w->worst.margin, units[crit]);
+    if (w->nominal.applies)
+        value_cell(t, C_NOMINAL, w->nominal.margin, units[crit]);
+    else
+        br_table_set(t, C_NOMINAL, "-");
+    br_table_set(t, C_AT, "%s", br_crit_where(c, crit, w->worst.stage, b, sizeof b));
+    br_table_set(t, C_DIR, "%s", br_crit_is_startup(crit) ? "-" : br_dir_short(w->worst.dir));
+    if (letter >= 0)
+        br_table_set(t, C_CORNER, "%c", 'A' + letter);
+    else
+        br_table_set(t, C_CORNER, "-");
+}
+
+static int worst_table(const br_chain *c, const br_corners *k, const int *letter, br_text *out)
+{
+    static const char *const heads[NCOL] = {"criterion", "result", "figure",  "limit", "margin",
+                                            "nominal",   "at",     "current", "corner"};
+    br_table *t = br_table_create(NCOL, BR_CRIT_COUNT);
+    if (!t)
+        return BR_ENOMEM;
+    for (int col = 0; col < NCOL; col++) {
+        int left = col == C_NAME || col == C_RESULT || col >= C_AT;
+        br_table_head(t, col, heads[col], left ? BR_LEFT : BR_RIGHT);
+    }
+    for (int crit = 0; crit < BR_CRIT_COUNT; crit++)
+        worst_row(t, c, k, crit, letter[crit]);
+    int rc = br_table_render(t, 2, out);
+    br_table_free(t);
+    return rc;
+}
+
+static int overall(const br_corners *k, br_text *out)
+{
+    int judged = 0, failed = 0;
+    for (int crit = 0; crit < BR_CRIT_COUNT; crit++) {
+        judged += k->w[crit].applies;
+        failed += k->w[crit].applies && !k->w[crit].worst.pass;
+    }
+    if (failed == 0)
+        return br_text_printf(out,
+                              "verdict at the worst corners: PASS, all %d criteria judged pass "
+                              "(%d not applicable)\n",
+                              judged, BR_CRIT_COUNT - judged);
+    return br_text_printf(
+        out, "verdict at the worst corners: FAIL, %d of %d criteria judged fail\n", failed, judged);
+}
+
+static const char *level_word(int level)
+{
+    return level < 0 ? "min" : level > 0 ? "max" : "nom";
+}
+
+/* One column per distinct corner, one row per parameter. */
+static int corner_table(const br_corners *k, const int *first, int n, br_text *out)
+{
+    const br_tol_list *tl = &k->s->tl;
+    if (n == 0 || tl->n == 0)
+        return BR_OK;
+    int rc =
+        br_text_put(out, "\ncorners (the limit each parameter takes; nom: its nominal value)\n");
+    br_table *t = br_table_create(n + 1, tl->n);
+    if (!t)
+        return BR_ENOMEM;
+    br_table_head(t, 0, "parameter", BR_LEFT);
+    for (int a = 0; a < n; a++) {
+        char h[4] = {(char)('A' + a), '\0'};
+        br_table_head(t, a + 1, h, BR_LEFT);
+    }
+    for (int j = 0; j < tl->n; j++) {
+        br_table_row(t);
+        br_table_set(t, 0, "%s", tl->p[j].name);
+        for (int a = 0; a < n; a++)
+            br_table_set(t, a + 1, "%s", level_word(k->w[first[a]].level[j]));
+    }
+    rc |= br_table_render(t, 2, out);
+    br_table_free(t);
+    return rc;
+}
+
+int br_corners_text(const br_chain *c, const br_corners *k, br_text *out)
+{
+    int letter[BR_CRIT_COUNT], first[MAX_CORNERS];
+    int n = distinct_corners(k, letter, first);
+    int rc = br_report_heading(c, "worst-case corners", out);
+    rc |= br_param_table(&k->s->tl, out);
+    rc |= br_text_put(out, "\n");
+    rc |= method_text(k, out);
+    rc |= br_text_put(out, "\nworst corner of each criterion (margin = limit - figure for a "
+                           "maximum, figure - limit for a\nminimum; nominal: the margin at the "
+                           "nominal point; at = where it binds)\n");
+    rc |= worst_table(c, k, letter, out);
+    rc |= overall(k, out);
+    rc |= corner_table(k, first, n, out);
+    rc |= br_report_caution(out);
+    return rc ? BR_ENOMEM : BR_OK;
+}
+
+/* ---- XML ------------------------------------------------------------------- */
+
+static void xml_row(br_xmlw *w, const br_chain *c, const br_corners *k, int crit, int letter)
+{
+    static const char *const units[BR_CRIT_COUNT] = {"s", "A", "V", "V", "V", "V", "V", "V", "V"};
+    const br_corner_worst *cw = &k->w[crit];
+    br_xmlw_start(w, "criterion");
+    br_xmlw_attr(w, "name", br_crit_name(crit));
+    br_xmlw_attr(w, "title", br_crit_title(crit));
+    br_xmlw_bool(w, "applies", cw->applies);
+    if (cw->applies) {
+        char corner[2] = {letter >= 0 ? (char)('A' + letter) : '-', '\0'};
+        br_xmlw_bool(w, "pass", cw->worst.pass);
+        br_xmlw_num(w, "figure", cw->worst.figure);
+        br_xmlw_num(w, "limit", cw->worst.limit);
+        br_xmlw_num(w, "margin", cw->worst.margin);
+        if (cw->nominal.applies)
+            br_xmlw_num(w, "nominal-margin", cw->nominal.margin);
+        br_xmlw_attr(w, "unit", units[crit]);
+        if (cw->worst.stage >= 0 && cw->worst.stage < c->n) {
+            br_xmlw_int(w, "stage", cw->worst.stage);
+            br_xmlw_attr(w, "switch", c->st[cw->worst.stage].name);
+        }
+        if (!br_crit_is_startup(crit))
+            br_xmlw_attr(w, "direction", br_dir_label(cw->worst.dir));
+        if (letter >= 0)
+            br_xmlw_attr(w, "corner", corner);
+    }
+    br_xmlw_end(w);
+}
+
+void br_param_xml(br_xmlw *w, const br_tol_list *tl)
+{
+    br_xmlw_start(w, "parameters");
+    for (int j = 0; j < tl->n; j++) {
+        const br_tol_param *p = &tl->p[j];
+        br_xmlw_start(w, "parameter");
+        br_xmlw_int(w, "index", j + 1);
+        br_xmlw_attr(w, "name", p->name);
+        br_xmlw_attr(w, "unit", br_kind_unit((br_kind)p->kind));
+        br_xmlw_num(w, "min", p->min);
+        br_xmlw_num(w, "nominal", p->nom);
+        br_xmlw_num(w, "max", p->max);
+        br_xmlw_attr(w, "distribution", p->dist == BR_DIST_NORMAL ? "normal" : "uniform");
+        if (p->dist == BR_DIST_NORMAL)
+            br_xmlw_num(w, "sigmas", p->nsig);
+        br_xmlw_end(w);
+    }
+    br_xmlw_end(w);
+}
+
+static void xml_corners(br_xmlw *w, const br_corners *k, const int *first, int n)
+{
+    for (int a = 0; a < n; a++) {
+        char id[2] = {(char)('A' + a), '\0'};
+        br_xmlw_start(w, "corner");
+        br_xmlw_attr(w, "id", id);
+        for (int j = 0; j < k->s->tl.n; j++) {
+            int level = k->w[first[a]].level[j];
+            br_xmlw_start(w, "at");
+            br_xmlw_int(w, "parameter", j + 1);
+            br_xmlw_attr(w, "limit", level_word(level));
+            br_xmlw_num(w, "value", br_tol_level(&k->s->tl.p[j], level));
+            br_xmlw_end(w);
+        }
+        br_xmlw_end(w);
+    }
+}
+
+void br_results_root(br_xmlw *w, const br_chain *c, const char *verb, const char *version)
+{
+    const br_design *d = c->design;
+    br_xmlw_start(w, "bootrung-results");
+    br_xmlw_attr(w, "verb", verb);
+    br_xmlw_attr(w, "design", d && d->name[0] ? d->name : "");
+    br_xmlw_attr(w, "file", d ? d->path : "");
+    br_xmlw_attr(w, "version", version ? version : "");
+    br_xml_operating_point(w, c);
+}
+
+int br_corners_xml(const br_chain *c, const br_corners *k, const char *version, br_text *out,
+                   br_error *err)
+{
+    int letter[BR_CRIT_COUNT], first[MAX_CORNERS];
+    int n = distinct_corners(k, letter, first);
+    br_xmlw *w;
+    int rc = br_xmlw_create(&w, err);
+    if (rc != BR_OK)
+        return rc;
+    br_results_root(w, c, "corners", version);
+    br_param_xml(w, &k->s->tl);
+    br_xmlw_start(w, "method");
+    br_xmlw_attr(w, "steady", method_name(k->method));
+    br_xmlw_attr(w, "startup", method_name(k->su_method));
+    br_xmlw_int(w, "steady-corners", k->steady_points);
+    br_xmlw_int(w, "startup-corners", k->startup_points);
+    br_xmlw_int(w, "points", k->s->points);
+    br_xmlw_int(w, "unjudged", k->failed);
+    br_xmlw_num(w, "accept-V", k->s->accept);
+    br_xmlw_end(w);
+    br_xmlw_start(w, "worst");
+    br_xmlw_bool(w, "pass", k->all_pass);
+    for (int crit = 0; crit < BR_CRIT_COUNT; crit++)
+        xml_row(w, c, k, crit, letter[crit]);
+    br_xmlw_end(w);
+    xml_corners(w, k, first, n);
+    br_xml_caution(w);
+    rc = br_xmlw_finish(w, out, err);
+    br_xmlw_free(w);
+    return rc;
+}

@@ -1,0 +1,24 @@
+/* yield_report.h - the Monte Carlo yield report as text, XML and CSV. */
+#ifndef BR_REPORT_YIELD_REPORT_H
+#define BR_REPORT_YIELD_REPORT_H
+
+#include "analyses/yield.h"
+
+/* The text report of yield y of chain c (the design at its nominal
+ * values), ending with the caution.  min_yield > 0 adds the judgement
+ * against that minimum (on the lower confidence bound). */
+int br_yield_text(const br_chain *c, const br_yield *y, double min_yield, br_text *out);
+
+/* The same as an XML document; version is the program's. */
+int br_yield_xml(const br_chain *c, const br_yield *y, double min_yield, const char *version,
+                 br_text *out, br_error *err);
+
+/* One row per sample: its number, pass, every parameter's value and
+ * every criterion's margin (empty where it does not apply), SI units. */
+int br_yield_csv(const br_yield *y, br_text *out);
+
+/* 1 when the run fails: some sample fails (min_yield <= 0) or the lower
+ * confidence bound is below min_yield. */
+int br_yield_failed(const br_yield *y, double min_yield);
+
+#endif

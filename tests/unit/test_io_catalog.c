@@ -1,0 +1,114 @@
+/* test_io_catalog.c - reading part catalogs: the example, and refusals
+ * that point at the line and the field. */
+#include "model/catalog.h"
+#include "testkit.h"
+
+#include <stdio.h>
+#include <string.h>
+
+static int load(const char *xml, br_catalog **out, br_error *err)
+{
+    br_error_clear(err);
+    return br_catalog_load_memory(xml, strlen(xml), "test.xml", out, err);
+}
+
+/* The example catalog: twelve capacitors, eight diodes, each with its
+ * offer; parts read with the design file's rules (tolerances, bias
+ * tables, forward points, recovery charge). */
+static void test_example(void)
+{
+    br_catalog *cat;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_catalog_load(BR_SOURCE_DIR "/examples/parts/catalog.xml", &cat, &err),
+                          BR_OK);
+    CU_ASSERT_STRING_EQUAL(cat->name, "generic-stock");
+    CU_ASSERT_EQUAL(cat->ncaps, 12);
+    CU_ASSERT_EQUAL(cat->ndiodes, 8);
+    CU_ASSERT_STRING_EQUAL(cat->caps[0].id, "x7r-1u0-25v");
+    BR_ASSERT_NEAR(cat->caps[0].c.min, 0.9e-6, 1e-15);
+    BR_ASSERT_NEAR(cat->cap_offer[0].cost, 0.012, 1e-12);
+    BR_ASSERT_NEAR(cat->cap_offer[0].area, 1.6, 1e-12);
+    CU_ASSERT_EQUAL(cat->caps[0].nbias, 3);
+    CU_ASSERT_TRUE(cat->cap_offer[0].line > 0);
+    int sic = -1, fast = -1;
+    for (int i = 0; i < cat->ndiodes; i++) {
+        sic = strcmp(cat->diodes[i].id, "sic-schottky-650v-1a") == 0 ? i : sic;
+        fast = strcmp(cat->diodes[i].id, "fast-600v-1a") == 0 ? i : fast;
+    }
+    CU_ASSERT_TRUE_FATAL(sic >= 0 && fast >= 0);
+    BR_ASSERT_NEAR(cat->diodes[sic].vrrm.nom, 650.0, 1e-9);
+    CU_ASSERT_TRUE(cat->diodes[sic].is.nom > 0); /* fitted from its forward points */
+    /* tau = qrr / if = 60 nC / 0.5 A (charge control, Lauritzen & Ma 1991) */
+    BR_ASSERT_REL(cat->diodes[fast].tau.nom, 120e-9, 1e-12);
+    BR_ASSERT_NEAR(cat->diode_offer[fast].cost, 0.045, 1e-12);
+    br_catalog_free(cat);
+}
+
+static const char HEAD[] = "<?xml version=\"1.0\"?>\n<bootrung-catalog version=\"1\">\n";
+
+static void expect_fail(const char *body, int line, const char *field, const char *words)
+{
+    char xml[2048];
+    snprintf(xml, sizeof xml, "%s%s</bootrung-catalog>\n", HEAD, body);
+    br_catalog *cat = (br_catalog *)1;
+    br_error err;
+    CU_ASSERT_EQUAL(load(xml, &cat, &err), BR_EINPUT);
+    CU_ASSERT_PTR_NULL(cat);
+    CU_ASSERT_STRING_EQUAL(err.file, "test.xml");
+    if (line)
+        CU_ASSERT_EQUAL(err.line, line);
+    if (field)
+        CU_ASSERT_STRING_EQUAL(err.field, field);
+    if (!strstr(err.msg, words))
+        fprintf(stderr, "message was: %s\n", err.msg);
+    CU_ASSERT_PTR_NOT_NULL(strstr(err.msg, words));
+}
+
+/* Each refusal names the file, the line, the field and what was expected. */
+static void test_refusals(void)
+{
+    expect_fail("<capacitor id=\"c1\" c=\"1 uF\" rating=\"25 V\" cost=\"-1\" area-mm2=\"2\"/>\n", 3,
+                "capacitor c1: cost", "expected a number >= 0");
+    expect_fail("<capacitor id=\"c1\" c=\"1 uF\" rating=\"25 V\" area-mm2=\"2\"/>\n", 3, NULL,
+                "catalog schema");
+    expect_fail("<capacitor id=\"c1\" c=\"1 uF\" cost=\"1\" area-mm2=\"2\" colour=\"red\"/>\n", 3,
+                NULL, "catalog schema");
+    expect_fail("<diode id=\"d1\" vrrm=\"600 uF\" cost=\"1\" area-mm2=\"2\"/>\n", 3,
+                "diode d1: vrrm", "expected a voltage");
+    expect_fail("<capacitor id=\"c1\" c=\"1 uF\" cost=\"1\" area-mm2=\"2\"/>\n"
+                "<diode id=\"c1\" cost=\"1\" area-mm2=\"2\"/>\n",
+                4, "diode c1: id", "already the id of a capacitor");
+    expect_fail("<driver id=\"x\"/>\n", 3, NULL, "catalog schema");
+}
+
+static void test_document_refusals(void)
+{
+    br_catalog *cat;
+    br_error err;
+    CU_ASSERT_EQUAL(load("<?xml version=\"1.0\"?>\n<!DOCTYPE x [<!ENTITY a \"b\">]>\n"
+                         "<bootrung-catalog version=\"1\"/>\n",
+                         &cat, &err),
+                    BR_EINPUT);
+    CU_ASSERT_PTR_NOT_NULL(strstr(err.msg, "DOCTYPE"));
+    CU_ASSERT_EQUAL(load("<bootrung-design version=\"1\"/>", &cat, &err), BR_EINPUT);
+    CU_ASSERT_EQUAL(load("<bootrung-catalog version=\"2\"><capacitor id=\"c\" c=\"1u\" cost=\"1\" "
+                         "area-mm2=\"1\"/></bootrung-catalog>",
+                         &cat, &err),
+                    BR_EINPUT);
+    CU_ASSERT_EQUAL(load("<bootrung-catalog", &cat, &err), BR_EINPUT);
+    CU_ASSERT_PTR_NOT_NULL(strstr(err.msg, "well-formed"));
+    CU_ASSERT_EQUAL(br_catalog_load_memory("", 0, "e.xml", &cat, &err), BR_EINPUT);
+    CU_ASSERT_EQUAL(br_catalog_load("no/such/catalog.xml", &cat, &err), BR_EIO);
+    CU_ASSERT_STRING_EQUAL(err.file, "no/such/catalog.xml");
+}
+
+int main(void)
+{
+    static const br_test_case cases[] = {
+        {"the example catalog", test_example},
+        {"part refusals with line and field", test_refusals},
+        {"document refusals", test_document_refusals},
+        {NULL, NULL},
+    };
+    return br_test_main("io_catalog", cases);
+}
