@@ -72,8 +72,12 @@ static void map_unknowns(shoot *sh)
     for (int k = 1; k < n; k++)
         sh->idx[sh->m++] = k;
     sh->mv = sh->m;
+    /* A stored charge that settles within a small part of the period
+     * forgets where it started: it is carried from one map to the next
+     * instead of being solved for (and the exact variational Jacobian of
+     * the rails applies).  Only slow ones are unknowns. */
     for (int k = 1; k < n; k++)
-        if (sh->c->st[k].diode.tau > 0)
+        if (sh->c->st[k].diode.tau > sh->c->T / 50)
             sh->idx[sh->m++] = n + k;
 }
 
@@ -92,6 +96,8 @@ static int period_map(shoot *sh, const double *z, double *y, br_error *err)
     br_sim_state(sh->sim, out);
     for (int i = 0; i < sh->m; i++)
         y[i] = out[sh->idx[i]];
+    for (int k = 1; k < sh->c->n; k++) /* fast stored charges carry over */
+        sh->base[sh->c->n + k] = out[sh->c->n + k];
     return rc;
 }
 
@@ -457,6 +463,8 @@ int br_steady_solve(const br_chain *c, int dir, const br_steady_opts *o, br_stea
     if (rc == BR_OK) {
         out->method = BR_STEADY_SHOOTING;
         out->converged = 1;
+        for (int k = 1; k < c->n; k++) /* the carried stored charges */
+            x[c->n + k] = sh.base[c->n + k];
         for (int i = 0; i < sh.m; i++)
             x[sh.idx[i]] = z[i];
     } else if (rc == BR_ENUMERIC) {
