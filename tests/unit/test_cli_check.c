@@ -2,6 +2,7 @@
  * errors, `check` on every example and on every bad design file, write
  * errors on stdout, exit statuses and golden outputs (tests/golden/). */
 #include "model/chain.h"
+#include "runbin.h"
 #include "testkit.h"
 
 #include <dirent.h>
@@ -14,75 +15,8 @@
 #include <sys/wait.h>
 #include <unistd.h>
 
-extern char **environ;
 
 #define MAX_FILES 128
-
-/* What one run of the binary produced. */
-typedef struct run_result {
-    int status; /* exit status, or -1 when it did not exit normally */
-    char *out;  /* stdout, NUL-terminated */
-    char *err;  /* stderr, NUL-terminated */
-} run_result;
-
-static int temp_file(char *path, size_t cap)
-{
-    snprintf(path, cap, "/tmp/br-cli-XXXXXX");
-    return mkstemp(path);
-}
-
-static char *slurp_and_remove(const char *path)
-{
-    char *s = br_test_slurp(path, NULL);
-    unlink(path);
-    return s ? s : calloc(1, 1);
-}
-
-/* Run bootrung with args (NULL-terminated, without argv[0]); stdout goes
- * to stdout_path when given (e.g. /dev/full), else to a temporary file. */
-static run_result run_to(const char *stdout_path, const char *const *args)
-{
-    char *argv[16] = {BR_BINARY};
-    int n = 1;
-    for (; args[n - 1] && n < 15; n++)
-        argv[n] = (char *)args[n - 1];
-    argv[n] = NULL;
-    char po[64], pe[64];
-    int fo = temp_file(po, sizeof po), fe = temp_file(pe, sizeof pe);
-    CU_ASSERT_TRUE_FATAL(fo >= 0 && fe >= 0);
-    posix_spawn_file_actions_t fa;
-    posix_spawn_file_actions_init(&fa);
-    posix_spawn_file_actions_addopen(&fa, 0, "/dev/null", O_RDONLY, 0);
-    if (stdout_path)
-        posix_spawn_file_actions_addopen(&fa, 1, stdout_path, O_WRONLY, 0);
-    else
-        posix_spawn_file_actions_adddup2(&fa, fo, 1);
-    posix_spawn_file_actions_adddup2(&fa, fe, 2);
-    pid_t pid;
-    run_result r = {-1, NULL, NULL};
-    int rc = posix_spawn(&pid, BR_BINARY, &fa, NULL, argv, environ);
-    posix_spawn_file_actions_destroy(&fa);
-    CU_ASSERT_EQUAL_FATAL(rc, 0);
-    int ws = 0;
-    if (waitpid(pid, &ws, 0) == pid && WIFEXITED(ws))
-        r.status = WEXITSTATUS(ws);
-    close(fo);
-    close(fe);
-    r.out = slurp_and_remove(po);
-    r.err = slurp_and_remove(pe);
-    return r;
-}
-
-static run_result run(const char *const *args)
-{
-    return run_to(NULL, args);
-}
-
-static void done(run_result *r)
-{
-    free(r->out);
-    free(r->err);
-}
 
 static int count_lines(const char *s)
 {

@@ -3,6 +3,7 @@
  * numbers whatever the thread count, bad input, and the help texts.
  * Figures move as the engine is tuned, so the checks are structural. */
 #include "analyses/figures.h"
+#include "runbin.h"
 #include "testkit.h"
 
 #include <fcntl.h>
@@ -14,67 +15,8 @@
 #include <sys/wait.h>
 #include <unistd.h>
 
-extern char **environ;
 
 #define DEMO "examples/demo-3level.xml"
-
-typedef struct run_result {
-    int status; /* exit status, -1 when it did not exit normally */
-    char *out;  /* stdout */
-    char *err;  /* stderr */
-} run_result;
-
-static char *slurp_and_remove(const char *path)
-{
-    char *s = br_test_slurp(path, NULL);
-    unlink(path);
-    return s ? s : calloc(1, 1);
-}
-
-/* Run bootrung with args (NULL-terminated, without argv[0]). */
-static run_result run(const char *const *args)
-{
-    char *argv[24] = {BR_BINARY};
-    int n = 1;
-    for (; args[n - 1] && n < 23; n++)
-        argv[n] = (char *)args[n - 1];
-    argv[n] = NULL;
-    char po[] = "/tmp/br-wc-out-XXXXXX", pe[] = "/tmp/br-wc-err-XXXXXX";
-    int fo = mkstemp(po), fe = mkstemp(pe);
-    CU_ASSERT_TRUE_FATAL(fo >= 0 && fe >= 0);
-    posix_spawn_file_actions_t fa;
-    posix_spawn_file_actions_init(&fa);
-    posix_spawn_file_actions_addopen(&fa, 0, "/dev/null", O_RDONLY, 0);
-    posix_spawn_file_actions_adddup2(&fa, fo, 1);
-    posix_spawn_file_actions_adddup2(&fa, fe, 2);
-    pid_t pid;
-    run_result r = {-1, NULL, NULL};
-    int rc = posix_spawn(&pid, BR_BINARY, &fa, NULL, argv, environ);
-    posix_spawn_file_actions_destroy(&fa);
-    CU_ASSERT_EQUAL_FATAL(rc, 0);
-    int ws = 0;
-    if (waitpid(pid, &ws, 0) == pid && WIFEXITED(ws))
-        r.status = WEXITSTATUS(ws);
-    close(fo);
-    close(fe);
-    r.out = slurp_and_remove(po);
-    r.err = slurp_and_remove(pe);
-    return r;
-}
-
-static void done(run_result *r)
-{
-    free(r->out);
-    free(r->err);
-}
-
-static int has(const char *haystack, const char *needle)
-{
-    int ok = strstr(haystack, needle) != NULL;
-    if (!ok)
-        fprintf(stderr, "missing from the output: [%s]\n", needle);
-    return ok;
-}
 
 /* Exactly one line on stderr, starting with prefix. */
 static void one_line(const run_result *r, const char *prefix)

@@ -1,0 +1,70 @@
+/* runbin.c - running the built bootrung binary from a test. */
+#include "runbin.h"
+
+#include "testkit.h"
+
+#include <fcntl.h>
+#include <spawn.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/wait.h>
+#include <unistd.h>
+
+extern char **environ;
+
+static char *slurp_and_remove(const char *path)
+{
+    char *s = br_test_slurp(path, NULL);
+    unlink(path);
+    return s ? s : calloc(1, 1);
+}
+
+run_result run_to(const char *stdout_path, const char *const *args)
+{
+    char *argv[32] = {BR_BINARY};
+    int n = 1;
+    for (; args[n - 1] && n < 31; n++)
+        argv[n] = (char *)args[n - 1];
+    argv[n] = NULL;
+    char po[] = "/tmp/br-run-out-XXXXXX", pe[] = "/tmp/br-run-err-XXXXXX";
+    int fo = mkstemp(po), fe = mkstemp(pe);
+    CU_ASSERT_TRUE_FATAL(fo >= 0 && fe >= 0);
+    posix_spawn_file_actions_t fa;
+    posix_spawn_file_actions_init(&fa);
+    posix_spawn_file_actions_addopen(&fa, 0, "/dev/null", O_RDONLY, 0);
+    if (stdout_path)
+        posix_spawn_file_actions_addopen(&fa, 1, stdout_path, O_WRONLY, 0);
+    else
+        posix_spawn_file_actions_adddup2(&fa, fo, 1);
+    posix_spawn_file_actions_adddup2(&fa, fe, 2);
+    pid_t pid;
+    run_result r = {-1, NULL, NULL};
+    int rc = posix_spawn(&pid, BR_BINARY, &fa, NULL, argv, environ);
+    posix_spawn_file_actions_destroy(&fa);
+    CU_ASSERT_EQUAL_FATAL(rc, 0);
+    int ws = 0;
+    if (waitpid(pid, &ws, 0) == pid && WIFEXITED(ws))
+        r.status = WEXITSTATUS(ws);
+    close(fo);
+    close(fe);
+    r.out = slurp_and_remove(po);
+    r.err = slurp_and_remove(pe);
+    return r;
+}
+
+run_result run(const char *const *args) { return run_to(NULL, args); }
+
+void done(run_result *r)
+{
+    free(r->out);
+    free(r->err);
+}
+
+int has(const char *haystack, const char *needle)
+{
+    int ok = strstr(haystack, needle) != NULL;
+    if (!ok)
+        fprintf(stderr, "missing from the output: [%s]\n", needle);
+    return ok;
+}

@@ -1,0 +1,23 @@
+/* runbin.h - running the built bootrung binary from a test (the macro
+ * BR_BINARY names it) and reading what it printed. */
+#ifndef BR_RUNBIN_H
+#define BR_RUNBIN_H
+
+/* What one run of the binary produced. */
+typedef struct run_result {
+    int status; /* exit status, or -1 when it did not exit normally */
+    char *out;  /* stdout, NUL-terminated */
+    char *err;  /* stderr, NUL-terminated */
+} run_result;
+
+/* Run bootrung with args (NULL-terminated, without argv[0]); stdin is
+ * /dev/null; stdout goes to stdout_path when given (e.g. /dev/full), else
+ * it is captured.  At most 30 arguments. */
+run_result run_to(const char *stdout_path, const char *const *args);
+run_result run(const char *const *args);
+void done(run_result *r);
+
+/* 1 when needle is in haystack; says on stderr what is missing when not. */
+int has(const char *haystack, const char *needle);
+
+#endif
