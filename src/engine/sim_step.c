@@ -18,18 +18,87 @@ static const double A31 = 3.0 / 40, A32 = 9.0 / 40;
 static const double A41 = 44.0 / 45, A42 = -56.0 / 15, A43 = 32.0 / 9;
 static const double A51 = 19372.0 / 6561, A52 = -25360.0 / 2187, A53 = 64448.0 / 6561,
                     A54 = -212.0 / 729;
-static const double A61 = 9017.0 / 3168, A62 = -355.0 / 33, A63 = 46732.0 / 5247,
-                    A64 = 49.0 / 176, A65 = -5103.0 / 18656;
+static const double A61 = 9017.0 / 3168, A62 = -355.0 / 33, A63 = 46732.0 / 5247, A64 = 49.0 / 176,
+                    A65 = -5103.0 / 18656;
 static const double B1 = 35.0 / 384, B3 = 500.0 / 1113, B4 = 125.0 / 192, B5 = -2187.0 / 6784,
                     B6 = 11.0 / 84;
-static const double E1 = 71.0 / 57600, E3 = -71.0 / 16695, E4 = 71.0 / 1920,
-                    E5 = -17253.0 / 339200, E6 = 22.0 / 525, E7 = -1.0 / 40;
+static const double E1 = 71.0 / 57600, E3 = -71.0 / 16695, E4 = 71.0 / 1920, E5 = -17253.0 / 339200,
+                    E6 = 22.0 / 525, E7 = -1.0 / 40;
+
+/* ---- stiff stored charges -------------------------------------------------
+ * dq/dt = i(t) - q/tau is linear in q and q feeds nothing back while the
+ * link conducts (it is read only when the link recovers), so a step much
+ * longer than tau needs no stability from the Runge-Kutta pair: q is
+ * advanced exactly for a link current interpolated by the quadratic
+ * through the step start, stage 4 (c = 4/5) and the step end
+ * (exponential quadrature, e.g. Hochbruck & Ostermann, "Exponential
+ * integrators", Acta Numerica 19, 2010).  Below the threshold the pair
+ * integrates q like every other state. */
+#define BR_QEXP_LAMBDA 2.0 /* h/tau above which q is taken exponentially */
+
+/* Weights of the current at s = 0, 4/5 and 1 (step fractions) in
+ * integral_0^1 exp(-lam (1 - s)) i(s) ds, for lam >= BR_QEXP_LAMBDA (no
+ * cancellation there). */
+static void qexp_weights(double lam, double *w0, double *wa, double *w1)
+{
+    double E = exp(-lam);
+    double j0 = (1.0 - E) / lam;
+    double j1 = (1.0 - E * (1.0 + lam)) / (lam * lam);
+    double j2 = (2.0 - E * (lam * lam + 2.0 * lam + 2.0)) / (lam * lam * lam);
+    double m0 = j0, m1 = j0 - j1, m2 = j0 - 2.0 * j1 + j2; /* moments of s^p */
+    *w0 = (m2 - 1.8 * m1 + 0.8 * m0) / 0.8;
+    *wa = -(m2 - m1) / 0.16;
+    *w1 = (m2 - 0.8 * m1) / 0.2;
+}
+
+/* Link k's stored charge is taken exponentially over a step of h. */
+static int q_stiff(const br_sim *s, int k, double h)
+{
+    double tau = s->c->st[k].diode.tau;
+    return tau > 0 && h > BR_QEXP_LAMBDA * tau;
+}
+
+/* Current into the stored charge of link k from its derivative entry at a
+ * state with charge q: dq = i - q/tau, clamped to 0 at q <= 0 (then no
+ * charge enters, which the interpolation takes as zero current). */
+static double q_current(const br_sim *s, int k, double dq, double q)
+{
+    if (!s->seg.active[k])
+        return 0.0;
+    return q <= 0.0 && dq == 0.0 ? 0.0 : dq + q / s->c->st[k].diode.tau;
+}
+
+/* Replace the pair's result for the stiff stored charges of a step from
+ * x over h: ia[k] is the link current at stage 4, the workspace holds the
+ * end of the step.  k7 is corrected to the new charges. */
+static void qexp_finish(br_sim *s, double h, const double *x, const double *k1, const double *ia,
+                        double *y, double *e, double *k7)
+{
+    for (int k = 1; k < s->n; k++) {
+        if (!q_stiff(s, k, h))
+            continue;
+        int iq = XI(k, F_Q);
+        double tau = s->c->st[k].diode.tau, lam = h / tau, w0, wa, w1;
+        double i0 = q_current(s, k, k1[iq], x[iq]);
+        double i1 = s->seg.active[k] ? s->il[k] : 0.0;
+        double q = x[iq] * exp(-lam);
+        if (s->seg.active[k]) {
+            qexp_weights(lam, &w0, &wa, &w1);
+            q += h * (w0 * i0 + wa * ia[k] + w1 * i1);
+        }
+        y[iq] = q > 0.0 ? q : 0.0;
+        e[iq] = 0.0;
+        double dq = i1 - y[iq] / tau;
+        k7[iq] = y[iq] <= 0.0 && dq < 0.0 ? 0.0 : dq;
+    }
+}
 
 /* One Dormand-Prince step from (t, x) with derivative k1 at x; writes the
  * 5th-order solution to y and its error estimate to e (controlled states). */
-static void dp45_step(br_sim *s, double t, double h, const double *x, const double *k1,
-                      double *y, double *e, double *k7)
+static void dp45_step(br_sim *s, double t, double h, const double *x, const double *k1, double *y,
+                      double *e, double *k7)
 {
+    double ia[BR_N];
     double *k2 = s->rk[0], *k3 = s->rk[1], *k4 = s->rk[2], *k5 = s->rk[3], *k6 = s->rk[4];
     double *w = s->rk[5];
     const int nl = s->nlive, *L = s->live;
@@ -50,6 +119,8 @@ static void dp45_step(br_sim *s, double t, double h, const double *x, const doub
         w[i] = x[i] + h * (A41 * k1[i] + A42 * k2[i] + A43 * k3[i]);
     }
     br_sim_rhs(s, t + C4 * h, w, k4);
+    for (int k = 1; k < s->n; k++)
+        ia[k] = s->il[k];
     for (int j = 0; j < nl; j++) {
         int i = L[j];
         w[i] = x[i] + h * (A51 * k1[i] + A52 * k2[i] + A53 * k3[i] + A54 * k4[i]);
@@ -69,6 +140,7 @@ static void dp45_step(br_sim *s, double t, double h, const double *x, const doub
         int i = L[j];
         e[i] = h * (E1 * k1[i] + E3 * k3[i] + E4 * k4[i] + E5 * k5[i] + E6 * k6[i] + E7 * k7[i]);
     }
+    qexp_finish(s, h, x, k1, ia, y, e, k7);
 }
 
 typedef struct gsl_ctx {
@@ -81,7 +153,10 @@ static int gsl_rhs(double t, const double y[], double f[], void *p)
     return GSL_SUCCESS;
 }
 
-void *br_sim_gsl_alloc(int nx) { return gsl_odeiv2_step_alloc(gsl_odeiv2_step_rk8pd, (size_t)nx); }
+void *br_sim_gsl_alloc(int nx)
+{
+    return gsl_odeiv2_step_alloc(gsl_odeiv2_step_rk8pd, (size_t)nx);
+}
 void br_sim_gsl_free(void *p)
 {
     if (p)
