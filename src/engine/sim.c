@@ -99,10 +99,22 @@ void br_sim_set_observer(br_sim *s, const br_sim_observer *obs)
         memset(&s->obs, 0, sizeof s->obs);
 }
 
-double br_sim_time(const br_sim *s) { return s->t; }
-double br_sim_pwm_start(const br_sim *s) { return s->pwm_t0; }
-int br_sim_enabled(const br_sim *s, int k) { return s->en[k]; }
-unsigned long br_sim_evals(const br_sim *s) { return s->evals; }
+double br_sim_time(const br_sim *s)
+{
+    return s->t;
+}
+double br_sim_pwm_start(const br_sim *s)
+{
+    return s->pwm_t0;
+}
+int br_sim_enabled(const br_sim *s, int k)
+{
+    return s->en[k];
+}
+unsigned long br_sim_evals(const br_sim *s)
+{
+    return s->evals;
+}
 
 void br_sim_vc(const br_sim *s, double *vc)
 {
@@ -152,6 +164,7 @@ static void clear_state(br_sim *s)
 {
     memset(s->x, 0, sizeof s->x);
     memset(s->en, 0, sizeof s->en);
+    memset(s->held, 0, sizeof s->held);
     memset(s->il, 0, sizeof s->il);
     memset(s->vr, 0, sizeof s->vr);
     s->t = 0.0;
@@ -230,7 +243,10 @@ static double event_time(const br_sim *s)
     return s->pwm_t0 + (double)s->per * s->tm.T + s->tm.ev[s->ev_idx].t;
 }
 
-static int in_precharge(const br_sim *s) { return s->pre_idx < s->npre; }
+static int in_precharge(const br_sim *s)
+{
+    return s->pre_idx < s->npre;
+}
 
 static void update_targets(br_sim *s, double t);
 
@@ -305,10 +321,18 @@ static void apply_pwm_events(br_sim *s, double t)
         const br_event *e = &s->tm.ev[s->ev_idx];
         br_mask bit = 1ULL << e->sw;
         switch (e->kind) {
-        case BR_EV_ON: s->cmd |= bit; break;
-        case BR_EV_OFF: s->cmd &= ~bit; break;
-        case BR_EV_REV_ON: s->rev |= bit; break;
-        default: s->rev &= ~bit; break;
+        case BR_EV_ON:
+            s->cmd |= bit;
+            break;
+        case BR_EV_OFF:
+            s->cmd &= ~bit;
+            break;
+        case BR_EV_REV_ON:
+            s->rev |= bit;
+            break;
+        default:
+            s->rev &= ~bit;
+            break;
         }
         if (++s->ev_idx == s->tm.nev) {
             s->ev_idx = 0;
@@ -341,6 +365,7 @@ static void apply_schedule(br_sim *s, double t)
             s->pulse_end[k] = -HUGE_VAL;
         }
     }
+    memset(s->held, 0, sizeof s->held);
     update_targets(s, t);
 }
 
@@ -449,6 +474,8 @@ static void recover(br_sim *s)
 int br_sim_uvlo_due(const br_sim *s, const double *vr)
 {
     for (int k = 0; k < s->n; k++) {
+        if (s->held[k])
+            continue;
         const br_driver *d = &s->c->st[k].drv;
         double v = br_sim_vdrv(s, k, vr[k]);
         if (s->en[k] ? v < d->uvlo_fall : v > d->uvlo_rise)
@@ -475,7 +502,10 @@ typedef struct bypass_cf {
     double vinf, tau, v0;
 } bypass_cf;
 
-static double bypass_at(const bypass_cf *b, double dt) { return b->vinf + (b->v0 - b->vinf) * exp(-dt / b->tau); }
+static double bypass_at(const bypass_cf *b, double dt)
+{
+    return b->vinf + (b->v0 - b->vinf) * exp(-dt / b->tau);
+}
 
 /* Earliest crossing of thr by rail 0 after ta, or HUGE_VAL. */
 static double bypass_cross(const bypass_cf *b, double thr)
@@ -502,7 +532,7 @@ static int closed_form(br_sim *s, double tb, double *te)
         ic[k] = k == 0 ? 0.0 : g->iblk[k] - iout - g->iload[k];
         rate[k] = k == 0 ? g->vs_slope : ic[k] / br_sim_cap(s, k, s->x[XI(k, F_VC)]);
         double v0 = s->vr[k], thr = rail_threshold(s, k), tc = HUGE_VAL;
-        if (!isfinite(thr))
+        if (!isfinite(thr) || s->held[k])
             continue;
         if (k == 0 && bp) {
             tc = ta + bypass_cross(&b, thr);
@@ -534,7 +564,7 @@ static int closed_form(br_sim *s, double tb, double *te)
             s->x[XI(k, F_RI2)] += ic[k] * ic[k] * dt;
         }
         double vb = k > 0 ? s->x[XI(k, F_VC)] + s->c->st[k].cap.esr * ic[k]
-                   : bp   ? s->x[XI(0, F_VC)]
+                    : bp  ? s->x[XI(0, F_VC)]
                           : supply_v(s, *te) - s->c->rsupply * isup;
         s->x[XI(k, F_RV)] += 0.5 * (va + vb) * dt;
         s->x[XI(k, F_RQL)] += g->iload[k] * dt;
@@ -566,16 +596,25 @@ static void evaluate_now(br_sim *s, double tb)
     s->k1_valid = 1; /* the integrator starts from it */
 }
 
-/* Settle UVLO states at the present instant; a rail that toggles more than
- * a few times at one instant keeps its state (the hysteresis cannot hold
- * against its own load step there). */
+/* Settle UVLO states at the present instant.  A driver due to toggle a
+ * third time at one instant chatters: its own load step across the ESR
+ * is larger than the UVLO hysteresis, so enabling it disables it again at
+ * once.  A real comparator would oscillate there at its own response
+ * speed; the driver is held off (the pessimistic side: it drives
+ * nothing) until the next scheduled edge, where it may try again. */
 static void settle_uvlo(br_sim *s, double tb)
 {
+    int count[BR_N] = {0};
     for (int guard = 0; guard < 4 * s->n; guard++) {
         evaluate_now(s, tb);
         int k = br_sim_uvlo_due(s, s->vr);
         if (k < 0)
             return;
+        if (++count[k] > 2) {
+            s->held[k] = 1;
+            if (!s->en[k])
+                continue;
+        }
         toggle(s, k);
     }
     evaluate_now(s, tb);

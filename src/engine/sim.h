@@ -24,39 +24,39 @@ typedef struct br_sim br_sim;
 
 /* Per-rail and per-link figures accumulated while stats are on. */
 typedef struct br_rail_stats {
-    double vmin, vmax;   /* rail (capacitor + ESR) extremes, V */
-    double vint;         /* integral of the rail voltage, V s */
+    double vmin, vmax;         /* rail (capacitor + ESR) extremes, V */
+    double vint;               /* integral of the rail voltage, V s */
     double vdrv_min, vdrv_max; /* driver supply (after LDO) extremes, V */
-    double icap2;        /* integral of capacitor current squared, A^2 s */
-    double qload;        /* charge drawn by the driver, LDO and clamp, C */
-    double vc_max;       /* capacitor voltage peak, V */
+    double icap2;              /* integral of capacitor current squared, A^2 s */
+    double qload;              /* charge drawn by the driver, LDO and clamp, C */
+    double vc_max;             /* capacitor voltage peak, V */
 } br_rail_stats;
 
 typedef struct br_link_stats {
-    double q;            /* forward charge, integral of i, C */
-    double i2;           /* integral of i^2, A^2 s */
-    double ipeak;        /* peak forward current, A */
-    double vrev_peak;    /* peak reverse voltage (simulated), V */
-    double qrr;          /* recovery charge returned to the rail below, C */
-    double irrm;         /* peak recovery current (triangle over the edge), A */
-    double e_cond;       /* conduction energy, J */
-    double e_rr;         /* recovery energy, J */
+    double q;         /* forward charge, integral of i, C */
+    double i2;        /* integral of i^2, A^2 s */
+    double ipeak;     /* peak forward current, A */
+    double vrev_peak; /* peak reverse voltage (simulated), V */
+    double qrr;       /* recovery charge returned to the rail below, C */
+    double irrm;      /* peak recovery current (triangle over the edge), A */
+    double e_cond;    /* conduction energy, J */
+    double e_rr;      /* recovery energy, J */
 } br_link_stats;
 
 typedef struct br_stats {
-    double t0, t1;       /* accumulation window, s */
+    double t0, t1; /* accumulation window, s */
     br_rail_stats rail[BR_MAX_SWITCHES];
     br_link_stats link[BR_MAX_SWITCHES]; /* [k] is link k, k >= 1 */
-    double qsupply;      /* charge delivered by the supply, C */
-    double esupply;      /* energy delivered by the supply, J */
+    double qsupply;                      /* charge delivered by the supply, C */
+    double esupply;                      /* energy delivered by the supply, J */
 } br_stats;
 
 /* One UVLO transition, reported to an observer. */
 typedef struct br_uvlo_event {
-    double t;     /* s */
-    int stage;    /* driver */
-    int enabled;  /* 1: started, 0: dropped out */
-    double v;     /* driver supply at the crossing, V */
+    double t;    /* s */
+    int stage;   /* driver */
+    int enabled; /* 1: started, 0: dropped out */
+    double v;    /* driver supply at the crossing, V */
 } br_uvlo_event;
 
 typedef struct br_sim_observer {

@@ -12,17 +12,17 @@
  * (controlled by the step-size error), then quadratures integrated
  * alongside.  Link 0 does not exist: its slots hold the supply's. */
 enum {
-    F_VC = 0,  /* capacitor voltage of rail k, V */
-    F_Q,       /* stored charge of link k, C */
-    F_LQ,      /* link forward charge, C */
-    F_LI2,     /* link integral of i^2, A^2 s */
-    F_LE,      /* link conduction energy, J */
-    F_RV,      /* rail voltage integral, V s */
-    F_RI2,     /* capacitor current squared integral, A^2 s */
-    F_RQL,     /* load charge (driver, LDO, clamp), C */
+    F_VC = 0, /* capacitor voltage of rail k, V */
+    F_Q,      /* stored charge of link k, C */
+    F_LQ,     /* link forward charge, C */
+    F_LI2,    /* link integral of i^2, A^2 s */
+    F_LE,     /* link conduction energy, J */
+    F_RV,     /* rail voltage integral, V s */
+    F_RI2,    /* capacitor current squared integral, A^2 s */
+    F_RQL,    /* load charge (driver, LDO, clamp), C */
     NF
 };
-#define XI(k, f) ((k) * NF + (f))
+#define XI(k, f) ((k)*NF + (f))
 #define X_SQ XI(0, F_LQ)  /* supply charge, C */
 #define X_SE XI(0, F_LI2) /* supply energy, J */
 /* Optionally followed, from s->phi0 on, by the n x n sensitivity matrix
@@ -32,72 +32,73 @@ enum {
 
 /* What stays constant (or linear in time) over one interval. */
 typedef struct br_seg {
-    double t0;                 /* interval start, s */
-    double vs0, vs_slope;      /* supply voltage Vs(t) = vs0 + slope (t - t0) */
-    double iload[BR_N];        /* driver + LDO + gate-pulse current of rail k, A */
-    double igate[BR_N];        /* of which gate pulse, A */
-    int active[BR_N];          /* link k solved from the diode equation */
+    double t0;            /* interval start, s */
+    double vs0, vs_slope; /* supply voltage Vs(t) = vs0 + slope (t - t0) */
+    double iload[BR_N];   /* driver + LDO + gate-pulse current of rail k, A */
+    double igate[BR_N];   /* of which gate pulse, A */
+    int active[BR_N];     /* link k solved from the diode equation */
     int nactive;
-    double iblk[BR_N];         /* constant current of a blocked link k, A */
+    double iblk[BR_N];             /* constant current of a blocked link k, A */
     double d0[BR_N], dslope[BR_N]; /* voltage across the return switch of link k */
-    double rpath[BR_N];        /* rs excluded: link resistor + return switch Rds(on) */
-    int zener;                 /* some rail has a clamp that may conduct */
+    double rpath[BR_N];            /* rs excluded: link resistor + return switch Rds(on) */
+    int zener;                     /* some rail has a clamp that may conduct */
 } br_seg;
 
 struct br_sim {
     const br_chain *c;
-    int n;                      /* stages */
-    int nx;                     /* entries of x in use: n * NF (+ n * n) */
-    int var;                    /* the sensitivity matrix is integrated */
-    int nlive;                  /* entries the Runge-Kutta steps advance: */
-    int live[X_SIZE];           /* states, quadratures only while statistics
-                                   are kept, the sensitivity when asked */
-    int phi0;                   /* where it starts in x: n * NF */
-    int dir;                    /* br_dir_index */
-    int integ;                  /* br_integrator */
+    int n;            /* stages */
+    int nx;           /* entries of x in use: n * NF (+ n * n) */
+    int var;          /* the sensitivity matrix is integrated */
+    int nlive;        /* entries the Runge-Kutta steps advance: */
+    int live[X_SIZE]; /* states, quadratures only while statistics
+                         are kept, the sensitivity when asked */
+    int phi0;         /* where it starts in x: n * NF */
+    int dir;          /* br_dir_index */
+    int integ;        /* br_integrator */
     br_timing tm;
     double rtol, atol_v, atol_q;
     /* time and state */
     double t;
     double x[X_SIZE];
-    int en[BR_N];               /* driver enabled (out of UVLO) */
-    br_mask cmd, rev;           /* commanded on; reverse conducting */
-    br_mask driven;             /* commanded on with the driver running */
-    double tramp_end;           /* supply still ramping before this time, s */
-    int toggles;                /* UVLO toggles at the current instant */
-    int frozen;                 /* switching stopped (br_sim_freeze) */
+    int en[BR_N];     /* driver enabled (out of UVLO) */
+    int held[BR_N];   /* held off after chattering, until the next edge */
+    br_mask cmd, rev; /* commanded on; reverse conducting */
+    br_mask driven;   /* commanded on with the driver running */
+    double tramp_end; /* supply still ramping before this time, s */
+    int toggles;      /* UVLO toggles at the current instant */
+    int frozen;       /* switching stopped (br_sim_freeze) */
     /* voltage across each switch: linear ramp toward its target */
     double sv0[BR_N], st0[BR_N], sslope[BR_N], send[BR_N], starget[BR_N];
     double pulse_end[BR_N], pulse_i[BR_N];
     /* schedule */
-    double pwm_t0;              /* PWM clock origin: events at pwm_t0 + m T + ev.t */
-    long per;                   /* period number m of the next timing event */
-    int ev_idx;                 /* index of the next timing event */
+    double pwm_t0;                    /* PWM clock origin: events at pwm_t0 + m T + ev.t */
+    long per;                         /* period number m of the next timing event */
+    int ev_idx;                       /* index of the next timing event */
     double pre_end[BR_MAX_PRECHARGE]; /* absolute end of each pre-charge step */
     int npre, pre_idx;
     /* workspace of the link solve */
     br_seg seg;
-    double il[BR_N];            /* link currents at the last evaluation, A */
-    double vr[BR_N];            /* rail node voltages at the last evaluation, V */
-    double ic[BR_N];            /* capacitor currents at the last evaluation, A */
-    double iz[BR_N];            /* clamp currents, A */
-    double gd[BR_N];            /* diode conductance at the last solve, S */
-    double esr[BR_N];           /* rail k's series resistance (rail 0: the
-                                   supply's, unless a bypass capacitor) */
-    br_diode_warm dw[BR_N];     /* Lambert W warm starts, one per link */
-    double ul[BR_N], gl[BR_N];  /* link drive voltage and its conductance at
-                                   the last solve (the Newton predictor) */
+    double il[BR_N];           /* link currents at the last evaluation, A */
+    double vr[BR_N];           /* rail node voltages at the last evaluation, V */
+    double ic[BR_N];           /* capacitor currents at the last evaluation, A */
+    double iz[BR_N];           /* clamp currents, A */
+    double gd[BR_N];           /* diode conductance at the last solve, S */
+    double esr[BR_N];          /* rail k's series resistance (rail 0: the
+                                  supply's, unless a bypass capacitor) */
+    br_diode_warm dw[BR_N];    /* Lambert W warm starts, one per link */
+    double ul[BR_N], gl[BR_N]; /* link drive voltage and its conductance at
+                                  the last solve (the Newton predictor) */
     unsigned long evals;
     unsigned long nsteps, nrejects, nintervals, nclosed; /* counters for benchmarks */
-    double k1[X_SIZE];          /* derivative at (t, x) for the seg in force */
-    double rk[6][X_SIZE];       /* stages of the Runge-Kutta step */
-    int k1_valid;               /* k1 matches the present state */
-    double hlast;               /* last accepted RK step, s (0: none yet) */
-    void *gsl_step;             /* rk8pd stepper of the reference path */
+    double k1[X_SIZE];    /* derivative at (t, x) for the seg in force */
+    double rk[6][X_SIZE]; /* stages of the Runge-Kutta step */
+    int k1_valid;         /* k1 matches the present state */
+    double hlast;         /* last accepted RK step, s (0: none yet) */
+    void *gsl_step;       /* rk8pd stepper of the reference path */
     /* results */
     int stats_on;
     br_stats st;
-    double quad0[X_SIZE];       /* quadratures when stats started */
+    double quad0[X_SIZE]; /* quadratures when stats started */
     br_sim_observer obs;
 };
 

@@ -30,7 +30,10 @@ double br_sim_vdrv(const br_sim *s, int k, double vr)
     return vr;
 }
 
-int br_sim_bypass(const br_sim *s) { return s->c->csupply > 0 && s->c->rsupply > 0; }
+int br_sim_bypass(const br_sim *s)
+{
+    return s->c->csupply > 0 && s->c->rsupply > 0;
+}
 
 /* Series resistance between rail k's node and its stored charge: the ESR,
  * or for rail 0 the supply resistance unless a bypass capacitor holds the
@@ -48,7 +51,10 @@ void br_sim_cache_esr(br_sim *s)
         s->esr[k] = esr_of(s, k);
 }
 
-static double supply_at(const br_seg *g, double t) { return g->vs0 + g->vs_slope * (t - g->t0); }
+static double supply_at(const br_seg *g, double t)
+{
+    return g->vs0 + g->vs_slope * (t - g->t0);
+}
 
 /* Current the supply delivers through its resistance. */
 static double supply_current(const br_sim *s, double t, const double *x, double iout)
@@ -209,7 +215,8 @@ static void variational(br_sim *s, const double *x, double *dx)
                 continue;
             }
             const br_aux *z = &s->c->st[k].aux;
-            double diz = (j == k && z->kind == BR_AUX_ZENER && x[XI(k, F_VC)] > z->vout) ? 1.0 / z->rz : 0.0;
+            double diz =
+                (j == k && z->kind == BR_AUX_ZENER && x[XI(k, F_VC)] > z->vout) ? 1.0 / z->rz : 0.0;
             A[k][j] = (D[k][j] - dout - diz) / br_sim_cap(s, k, x[XI(k, F_VC)]);
         }
     }
