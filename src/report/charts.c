@@ -340,9 +340,14 @@ static void histogram_panel(br_svg *s, const br_yield *y, int crit, double x, do
     }
     if (!(hi >= lo))
         return;
-    lo = fmin(lo, 0.0); /* the limit is always in view */
-    if (hi - lo <= 0)
-        hi = lo + 1e-3;
+    /* the limit comes into view when it is near; far away it would
+     * squash the distribution, and the title says none fail anyway */
+    if (lo > 0 && lo < 1.5 * (hi - lo))
+        lo = 0.0;
+    if (hi - lo <= 0) {
+        lo -= 0.5e-3 + 0.01 * fabs(lo);
+        hi += 0.5e-3 + 0.01 * fabs(hi);
+    }
     double w = (hi - lo) / NBINS;
     for (long i = 0; i < y->n; i++) {
         const br_pt_row *r = &y->pts[i].row[crit];
@@ -361,7 +366,11 @@ static void histogram_panel(br_svg *s, const br_yield *y, int crit, double x, do
     snprintf(key, sizeof key, "yield-%s", br_crit_name(crit));
     br_plot_axes(&p, key, title, "margin", UNITS[crit], "samples", "");
     bars(&p, cnt, lo, w);
-    br_plot_vline(&p, 0.0, &S_FAILS, "limit");
+    if (lo <= 0.0)
+        br_plot_vline(&p, 0.0, &S_FAILS, "limit");
+    else
+        br_svg_text_in(s, p.x0 + 6, p.y0 + 16, BR_FONT_TICK, "start", BR_VERMILION, 1,
+                       "\xe2\x86\x90 limit (0) far to the left");
     br_plot_done(&p);
 }
 
@@ -393,7 +402,7 @@ static void sweep_panel(br_svg *s, const br_sweep *sw, double y)
     double x[BR_MAX_SCAN], m[BR_MAX_SCAN], lo = 0.0, hi = 0.0;
     int fsw = sw->axis == BR_AXIS_FSW;
     for (int i = 0; i < sw->nscan; i++) {
-        x[i] = fsw ? sw->scan[i].fsw : sw->scan[i].duty;
+        x[i] = fsw ? sw->scan[i].fsw : 100.0 * sw->scan[i].duty; /* duty in % */
         m[i] = sw->scan[i].margin;
         if (isfinite(m[i])) {
             lo = fmin(lo, m[i]);
@@ -403,17 +412,18 @@ static void sweep_panel(br_svg *s, const br_sweep *sw, double y)
     br_plot p;
     br_plot_frame(&p, s, 0, y, 2 * PANEL_W, PANEL_H);
     p.xlog = fsw && sw->lo > 0;
-    br_plot_range(&p, sw->lo, sw->hi, lo, hi, 1);
+    double k = fsw ? 1.0 : 100.0;
+    br_plot_range(&p, k * sw->lo, k * sw->hi, lo, hi, 1);
     br_plot_axes(&p, fsw ? "window-fsw" : "window-duty",
                  fsw ? "worst margin against switching frequency" : "worst margin against duty",
-                 fsw ? "switching frequency" : "duty", fsw ? "Hz" : "", "margin", "V");
+                 fsw ? "switching frequency" : "duty", fsw ? "Hz" : "%", "margin", "V");
     br_plot_hline(&p, 0.0, &S_FAILS, "fails below");
     br_plot_line(&p, x, m, sw->nscan, 1, &S_RAIL, fsw ? "margin_vs_fsw_V" : "margin_vs_duty_V");
     for (int i = 0; i < sw->nscan; i++)
         if (isfinite(m[i]))
             br_svg_circle(s, br_plot_px(&p, x[i]), br_plot_py(&p, m[i]), 3.0,
                           sw->scan[i].holds ? BR_BLUE : BR_VERMILION, "none", 0);
-    br_plot_vline(&p, sw->design, &S_START, "design");
+    br_plot_vline(&p, k * sw->design, &S_START, "design");
     br_plot_done(&p);
 }
 

@@ -40,6 +40,7 @@ static const char STYLE[] =
     ".badge.fail{border:2px solid #D55E00}\n"
     ".note{margin:4px 0;color:#3a4652}\n"
     "figure{margin:10px 0;overflow-x:auto}\n"
+    "pre{font-size:14px;background:#f6f8fa;padding:10px;overflow-x:auto}\n"
     "figure svg{max-width:100%;height:auto;display:block}\n"
     "figcaption{font-size:15px;color:#3a4652;margin-top:4px}\n"
     ".caution{background:#fff6df;border:2px solid #E69F00}\n"

@@ -141,6 +141,11 @@ static int tick_decimals(double step, double factor)
  * that the tick labels need more than three decimals. */
 static br_scale axis_scale(double lo, double hi, double step, const char *unit)
 {
+    if (!unit[0] || strcmp(unit, "%") == 0) { /* counts and shares take no prefix */
+        br_scale plain = {1.0, ""};
+        snprintf(plain.unit, sizeof plain.unit, "%s", unit);
+        return plain;
+    }
     br_scale sc = br_scale_for(fmax(fabs(lo), fabs(hi)), unit);
     if (tick_decimals(step, sc.factor) > 3)
         sc = br_scale_for(step, unit);
