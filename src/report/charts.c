@@ -96,7 +96,9 @@ static void startup_panel(br_svg *s, const br_chain *c, const br_startup *su, co
     br_plot_frame(&p, s, x, y, PANEL_W, PANEL_H);
     double tend = tr->len ? tr->t[tr->len - 1] : su->t_simulated;
     double vmax = fmax(column_max(tr, tr->v, k), rise);
-    br_plot_range(&p, 0.0, tend, 0.0, 1.08 * vmax, 0);
+    /* a rail can dip a little below zero (leakage, recovery) */
+    double vmin = fmin(0.0, column_min(tr, tr->v, k, 0, tr->len));
+    br_plot_range(&p, 0.0, tend, vmin - 0.02 * vmax, 1.08 * vmax, 0);
     snprintf(title, sizeof title, k == 0 ? "rail %s (supply)" : "rail %s", c->st[k].name);
     snprintf(key, sizeof key, "startup-%s", c->st[k].name);
     br_plot_axes(&p, key, title, "time", "s", "voltage", "V");
@@ -190,7 +192,7 @@ static void ripple_panel(br_svg *s, const br_chain *c, const br_steady_figs *f, 
     br_plot_range(&p, tr->t[0], tr->t[tr->len - 1], lo, hi, 1);
     snprintf(title, sizeof title, "rail %s: ripple %s", st->name,
              br_plot_si(v, sizeof v, f->rail[k].ripple, 3, "V"));
-    snprintf(key, sizeof key, "ripple-%s", st->name);
+    snprintf(key, sizeof key, "ripple-%s-%s", br_dir_short(f->dir), st->name);
     br_plot_axes(&p, key, title, "time", "s", "voltage", "V");
     snprintf(lab, sizeof lab, "gate max %s", br_plot_si(v, sizeof v, gate, 3, "V"));
     if (gate > 0)
@@ -276,7 +278,7 @@ static void diode_panel(br_svg *s, const br_chain *c, const br_steady_figs *f, i
         snprintf(title, sizeof title, "link %s: forward current (peak %s, RMS %s)", name,
                  br_plot_si(v, sizeof v, f->link[k].ipeak, 3, "A"),
                  br_plot_si(lab, sizeof lab, f->link[k].irms, 3, "A"));
-    snprintf(key, sizeof key, "diode-%s-%s", name, which ? "vr" : "i");
+    snprintf(key, sizeof key, "diode-%s-%s-%s", br_dir_short(f->dir), name, which ? "vr" : "i");
     br_plot_axes(&p, key, title, "time", "s", which ? "reverse voltage" : "current",
                  which ? "V" : "A");
     if (which && vrrm > 0) {

@@ -19,7 +19,8 @@ br_style br_plot_style(int i)
     static const char *const colour[] = {BR_BLUE,   BR_VERMILION, BR_GREEN, BR_PURPLE,
                                          BR_ORANGE, BR_SKY,       "#000000"};
     static const char *const dash[] = {NULL, "8 4", "2 3", "10 3 2 3"};
-    br_style st = {colour[i % 7], dash[(i / 7 + i) % 4], 2.0};
+    /* (colour, dash) pairs differ for the first 28 styles */
+    br_style st = {colour[i % 7], dash[(i % 7 + i / 7) % 4], 2.0};
     return st;
 }
 
