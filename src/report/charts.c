@@ -316,7 +316,6 @@ static const char *const UNITS[BR_CRIT_COUNT] = {"s", "A", "V", "V", "V", "V", "
 
 static void bars(br_plot *p, const long *cnt, double lo, double w)
 {
-    char name[8];
     for (int b = 0; b < NBINS; b++) {
         if (!cnt[b])
             continue;
@@ -325,7 +324,6 @@ static void bars(br_plot *p, const long *cnt, double lo, double w)
         int fails = lo + (b + 1) * w <= 0.0;
         br_svg_rect(p->svg, x0 + 0.5, ytop, fmax(x1 - x0 - 1.0, 0.5), p->y0 + p->h - ytop,
                     fails ? BR_VERMILION : BR_BLUE, "none", 0);
-        (void)name;
     }
 }
 

@@ -69,7 +69,7 @@ int br_html_para(br_text *out, const char *text)
 
 static int operating_point(br_text *out, const br_chain *c)
 {
-    char a[32], b[32], d[32], e[32];
+    char a[32], b[32], d[32];
     char line[256];
     snprintf(line, sizeof line,
              "%d switches, bus %s, switching at %s, duty %.1f %%, dead time %s, ambient %.0f "
@@ -78,7 +78,6 @@ static int operating_point(br_text *out, const br_chain *c)
              c->n, br_plot_si(a, sizeof a, c->vin, 4, "V"),
              br_plot_si(b, sizeof b, c->fsw, 4, "Hz"), 100.0 * c->duty,
              br_plot_si(d, sizeof d, c->deadtime, 3, "s"), c->tamb - 273.15);
-    (void)e;
     return tag_text(out, "<p>", line, "</p>\n");
 }
 

@@ -105,7 +105,9 @@ static int run_steady(br_results *r, br_text *csv, br_results_traces *tr, br_err
     r->ndir = br_design_directions(r->c, dirs);
     for (int d = 0; d < r->ndir; d++) {
         int rc = br_steady_solve(r->c, dirs[d], NULL, &r->ss[d], err);
-        br_trace *t = tr ? tr->steady[d] = br_trace_create(r->c->n) : NULL;
+        br_trace *t = NULL;
+        if (tr)
+            t = tr->steady[d] = br_trace_create(r->c->n);
         if (rc == BR_OK && tr && !t)
             rc = oom(err, "keeping the steady periods");
         if (rc == BR_OK && (csv || t))
