@@ -23,8 +23,10 @@ typedef struct br_style {
     double width;       /* px */
 } br_style;
 
-/* Styles of data lines, told apart by dash as well as colour (the
- * Okabe-Ito palette, safe for the common colour-vision deficiencies). */
+/* Styles of data lines, told apart by dash as well as colour.  The
+ * colours are the Okabe-Ito palette (M. Okabe and K. Ito, "Color
+ * Universal Design", 2002), chosen to stay distinct for the common
+ * colour-vision deficiencies. */
 br_style br_plot_style(int i);
 
 /* Colours of the palette used for marks and text. */
