@@ -5,6 +5,10 @@
 # already done `set -euo pipefail` and changed to the repository root.
 
 BR_PACKAGES=(cmake make gcc libc6-dev pkg-config libgsl-dev libxml2-dev libcunit1-dev)
+# The browser test's headless Chromium, for CI only (.ci/run sets this).
+if [ "${BR_WITH_BROWSER:-0}" = 1 ]; then
+    BR_PACKAGES+=(chromium)
+fi
 
 # Print the packages of BR_PACKAGES that dpkg does not know as installed.
 br_missing_packages() {

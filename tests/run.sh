@@ -31,4 +31,8 @@ fi
 
 br_install_packages
 br_build "$dir" "${opts[@]}"
+if [ ! -x /usr/bin/chromium ]; then
+    echo "note: /usr/bin/chromium not found: the browser test (browser_report) will be skipped;" \
+        "install Debian's chromium package to run it (.ci/run does)" >&2
+fi
 ctest --test-dir "$dir" --output-on-failure -V

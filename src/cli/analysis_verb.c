@@ -12,10 +12,16 @@
 #define BR_VERSION "unknown"
 #endif
 
+/* The files a run writes (NULL when not asked for). */
+typedef struct paths {
+    const char *xml, *csv, *report, *plot;
+} paths;
+
 /* Outputs of one run, owned together so one function frees them. */
 typedef struct outputs {
-    br_text *text, *xml, *csv; /* xml/csv NULL when not asked for */
+    br_text *text, *xml, *csv, *html, *svg; /* NULL when not asked for */
     br_results *res;
+    br_results_traces tr; /* kept for the report and the plot */
 } outputs;
 
 static void outputs_free(outputs *o)
@@ -23,16 +29,22 @@ static void outputs_free(outputs *o)
     br_text_free(o->text);
     br_text_free(o->xml);
     br_text_free(o->csv);
+    br_text_free(o->html);
+    br_text_free(o->svg);
     br_results_free(o->res);
+    br_results_traces_release(&o->tr);
 }
 
-static int outputs_alloc(outputs *o, const char *xml, const char *csv, br_error *err)
+static int outputs_alloc(outputs *o, const paths *p, br_error *err)
 {
     o->text = br_text_create();
-    o->xml = xml ? br_text_create() : NULL;
-    o->csv = csv ? br_text_create() : NULL;
+    o->xml = p->xml ? br_text_create() : NULL;
+    o->csv = p->csv ? br_text_create() : NULL;
+    o->html = p->report ? br_text_create() : NULL;
+    o->svg = p->plot ? br_text_create() : NULL;
     o->res = br_results_create();
-    if (!o->text || !o->res || (xml && !o->xml) || (csv && !o->csv))
+    if (!o->text || !o->res || (p->xml && !o->xml) || (p->csv && !o->csv) ||
+        (p->report && !o->html) || (p->plot && !o->svg))
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     return BR_OK;
 }
@@ -46,12 +58,17 @@ static int compute(const char *path, const char *verb, int parts, outputs *o, br
     int rc = br_design_load(path, &d, err);
     if (rc == BR_OK)
         rc = br_chain_build(d, &c, err);
+    br_results_traces *tr = o->html || o->svg ? &o->tr : NULL;
     if (rc == BR_OK)
-        rc = br_results_run(o->res, c, verb, parts, o->csv, err);
+        rc = br_results_run_traced(o->res, c, verb, parts, o->csv, tr, err);
     if (rc == BR_OK)
         rc = br_results_text(o->res, o->text, err);
     if (rc == BR_OK && o->xml)
         rc = br_results_xml(o->res, BR_VERSION, o->xml, err);
+    if (rc == BR_OK && o->html)
+        rc = br_results_html(o->res, &o->tr, o->html, err);
+    if (rc == BR_OK && o->svg)
+        rc = br_results_plot(o->res, &o->tr, o->svg, err);
     o->res->c = NULL; /* the chain goes now; the verdict stays */
     br_chain_free(c);
     br_design_free(d);
@@ -66,45 +83,63 @@ static int is_stdout(const char *path)
 /* Files first: a failure to write them is reported before any result
  * reaches stdout, so a script never mistakes a partial run for a whole.
  * A file sent to stdout ("-") takes the text report's place. */
-static int write_all(const outputs *o, const char *xml, const char *csv)
+static int write_all(const outputs *o, const paths *p)
 {
     int status = BR_EXIT_OK;
-    if (xml)
-        status = br_cli_save(o->xml, xml);
-    if (status == BR_EXIT_OK && csv)
-        status = br_cli_save(o->csv, csv);
-    if (status == BR_EXIT_OK && !is_stdout(xml) && !is_stdout(csv))
+    if (p->xml)
+        status = br_cli_save(o->xml, p->xml);
+    if (status == BR_EXIT_OK && p->csv)
+        status = br_cli_save(o->csv, p->csv);
+    if (status == BR_EXIT_OK && p->report)
+        status = br_cli_save(o->html, p->report);
+    if (status == BR_EXIT_OK && p->plot)
+        status = br_cli_save(o->svg, p->plot);
+    if (status == BR_EXIT_OK && !is_stdout(p->xml) && !is_stdout(p->csv) && !is_stdout(p->report) &&
+        !is_stdout(p->plot))
         status = br_cli_emit(o->text);
     return status;
 }
 
+/* How many of the files go to standard output. */
+static int stdout_count(const paths *p)
+{
+    return is_stdout(p->xml) + is_stdout(p->csv) + is_stdout(p->report) + is_stdout(p->plot);
+}
+
 int br_cli_analysis(int argc, char **argv, const char *about, int parts)
 {
-    const char *xml = NULL, *csv = NULL;
-    const br_opt opts[] = {
-        /* "-" for either sends it to stdout in place of the text report */
-        {BR_OPT_STRING, "xml", "PATH", &xml, "also write the results as XML to PATH (- stdout)"},
-        {BR_OPT_STRING, "csv", "PATH", &csv,
+    paths p = {0};
+    br_opt opts[] = {
+        /* "-" for any sends it to stdout in place of the text report */
+        {BR_OPT_STRING, "xml", "PATH", &p.xml, "also write the results as XML to PATH (- stdout)"},
+        {BR_OPT_STRING, "csv", "PATH", &p.csv,
          "also write the time series as CSV to PATH (- stdout)"},
+        {BR_OPT_STRING, "report", "PATH", &p.report,
+         "also write a self-contained HTML report with plots to PATH"},
+        {BR_OPT_STRING, "plot", "PATH", &p.plot,
+         parts == BR_RUN_STARTUP ? "also plot the rail waveforms from cold as SVG to PATH"
+                                 : "also plot the rails over two steady periods as SVG to PATH"},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
     };
+    if (parts == BR_RUN_ALL) /* analyze has many plots: they are in the report */
+        opts[3] = opts[4];
     const br_cmd_doc doc = {argv[0], "FILE", about, opts, 1};
     char *pos[1];
     int parsed = br_cli_parse(&doc, argc, argv, pos);
     if (parsed != 0)
         return br_cli_parse_status(parsed);
-    if (is_stdout(xml) && is_stdout(csv))
-        return br_cli_usage_error(argv[0], "--xml and --csv cannot both go to standard output");
+    if (stdout_count(&p) > 1)
+        return br_cli_usage_error(argv[0], "only one output file can go to standard output");
     outputs o = {0};
     br_error err;
     br_error_clear(&err);
     int status;
-    if (outputs_alloc(&o, xml, csv, &err) != BR_OK)
+    if (outputs_alloc(&o, &p, &err) != BR_OK)
         status = br_cli_fail(&err, NULL);
     else if (compute(pos[0], argv[0], parts, &o, &err) != BR_OK)
         status = br_cli_fail(&err, pos[0]);
     else
-        status = write_all(&o, xml, csv);
+        status = write_all(&o, &p);
     if (status == BR_EXIT_OK && br_results_failed(o.res))
         status = BR_EXIT_FAIL;
     outputs_free(&o);

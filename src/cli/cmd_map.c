@@ -7,6 +7,7 @@
 #include "core/error.h"
 #include "core/units.h"
 #include "report/map_report.h"
+#include "report/verb_pages.h"
 
 #include <stdio.h>
 #include <stdlib.h>
@@ -19,9 +20,10 @@ static const char ABOUT[] =
     "every rail and current direction (driver supply above UVLO falling and the\n"
     "minimum drive, below the gate maximum; below 0 V a criterion fails) and the\n"
     "rail and criterion that bind it. Prints a summary; --csv writes every grid\n"
-    "point, --svg a heat map with the edge of the holding region and the design\n"
-    "point marked. Rows are shared between --threads workers (default 2); the\n"
-    "result does not depend on their number.\n"
+    "point, --svg (or --plot) a heat map with the edge of the holding region and\n"
+    "the design point marked, --report an HTML page with the map. Rows are shared\n"
+    "between --threads workers (default 2); the result does not depend on their\n"
+    "number.\n"
     "Exit status 0 when the design point holds, 1 when not, 2 for bad input.\n";
 
 /* "FROM:TO:N" with FROM and TO of the given kind. */
@@ -67,8 +69,13 @@ static int parse_threads(const char *text, int *out)
     return BR_EXIT_OK;
 }
 
+/* The files asked for (NULL when not). */
+typedef struct paths {
+    const char *csv, *svg, *report, *plot;
+} paths;
+
 typedef struct outputs {
-    br_text *text, *csv, *svg;
+    br_text *text, *csv, *svg, *html;
     br_map *m;
 } outputs;
 
@@ -77,11 +84,12 @@ static void outputs_free(outputs *o)
     br_text_free(o->text);
     br_text_free(o->csv);
     br_text_free(o->svg);
+    br_text_free(o->html);
     br_map_free(o->m);
 }
 
-static int compute(const char *path, const br_map_opts *mo, const char *csv, const char *svg,
-                   outputs *o, br_error *err)
+static int compute(const char *path, const br_map_opts *mo, const paths *p, outputs *o,
+                   br_error *err)
 {
     br_design *d = NULL;
     br_chain *c = NULL;
@@ -91,11 +99,13 @@ static int compute(const char *path, const br_map_opts *mo, const char *csv, con
     if (rc == BR_OK)
         rc = br_map_run(d, mo, &o->m, err);
     if (rc == BR_OK)
-        rc = br_map_text(c, o->m, csv, svg, o->text, err);
+        rc = br_map_text(c, o->m, p->csv, p->svg ? p->svg : p->plot, o->text, err);
     if (rc == BR_OK && o->csv)
         rc = br_map_csv(c, o->m, o->csv, err);
     if (rc == BR_OK && o->svg)
         rc = br_map_svg(c, o->m, o->svg, err);
+    if (rc == BR_OK && o->html)
+        rc = br_map_html(c, o->m, o->text, o->html, err);
     br_chain_free(c);
     br_design_free(d);
     return rc;
@@ -108,32 +118,38 @@ static int is_stdout(const char *path)
 
 /* Files first, so that a failure to write them comes before any result on
  * stdout; a file sent to stdout takes the summary's place. */
-static int write_all(const outputs *o, const char *csv, const char *svg)
+static int write_all(const outputs *o, const paths *p)
 {
-    int status = csv ? br_cli_save(o->csv, csv) : BR_EXIT_OK;
-    if (status == BR_EXIT_OK && svg)
-        status = br_cli_save(o->svg, svg);
-    if (status == BR_EXIT_OK && !is_stdout(csv) && !is_stdout(svg))
+    int status = p->csv ? br_cli_save(o->csv, p->csv) : BR_EXIT_OK;
+    if (status == BR_EXIT_OK && p->svg)
+        status = br_cli_save(o->svg, p->svg);
+    if (status == BR_EXIT_OK && p->plot)
+        status = br_cli_save(o->svg, p->plot);
+    if (status == BR_EXIT_OK && p->report)
+        status = br_cli_save(o->html, p->report);
+    if (status == BR_EXIT_OK && !is_stdout(p->csv) && !is_stdout(p->svg) && !is_stdout(p->plot) &&
+        !is_stdout(p->report))
         status = br_cli_emit(o->text);
     if (status == BR_EXIT_OK && !o->m->design.holds)
         status = BR_EXIT_FAIL;
     return status;
 }
 
-static int run(const char *path, const br_map_opts *mo, const char *csv, const char *svg)
+static int run(const char *path, const br_map_opts *mo, const paths *p)
 {
-    outputs o = {br_text_create(), csv ? br_text_create() : NULL, svg ? br_text_create() : NULL,
-                 NULL};
+    int want_svg = p->svg || p->plot;
+    outputs o = {br_text_create(), p->csv ? br_text_create() : NULL,
+                 want_svg ? br_text_create() : NULL, p->report ? br_text_create() : NULL, NULL};
     br_error err;
     br_error_clear(&err);
     int status;
-    if (!o.text || (csv && !o.csv) || (svg && !o.svg)) {
+    if (!o.text || (p->csv && !o.csv) || (want_svg && !o.svg) || (p->report && !o.html)) {
         br_error_set(&err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
         status = br_cli_fail(&err, NULL);
-    } else if (compute(path, mo, csv, svg, &o, &err) != BR_OK) {
+    } else if (compute(path, mo, p, &o, &err) != BR_OK) {
         status = br_cli_fail(&err, path);
     } else {
-        status = write_all(&o, csv, svg);
+        status = write_all(&o, p);
     }
     outputs_free(&o);
     return status;
@@ -141,12 +157,16 @@ static int run(const char *path, const br_map_opts *mo, const char *csv, const c
 
 int cmd_map(int argc, char **argv)
 {
-    const char *duty = NULL, *freq = NULL, *csv = NULL, *svg = NULL, *threads = NULL;
+    const char *duty = NULL, *freq = NULL, *threads = NULL;
+    paths p = {0};
     const br_opt opts[] = {
         {BR_OPT_STRING, "duty", "FROM:TO:N", &duty, "duty grid (required), e.g. 5%:95%:40"},
         {BR_OPT_STRING, "freq", "FROM:TO:N", &freq, "frequency grid (required), e.g. 10k:1M:40"},
-        {BR_OPT_STRING, "csv", "PATH", &csv, "write every grid point as CSV to PATH (- stdout)"},
-        {BR_OPT_STRING, "svg", "PATH", &svg, "draw the heat map as SVG to PATH (- stdout)"},
+        {BR_OPT_STRING, "csv", "PATH", &p.csv, "write every grid point as CSV to PATH (- stdout)"},
+        {BR_OPT_STRING, "svg", "PATH", &p.svg, "draw the heat map as SVG to PATH (- stdout)"},
+        {BR_OPT_STRING, "plot", "PATH", &p.plot, "the same as --svg"},
+        {BR_OPT_STRING, "report", "PATH", &p.report,
+         "also write a self-contained HTML report with the map to PATH"},
         {BR_OPT_STRING, "threads", "N", &threads, "worker threads, 1 to 16 (default 2)"},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
     };
@@ -157,8 +177,8 @@ int cmd_map(int argc, char **argv)
         return br_cli_parse_status(parsed);
     if (!duty || !freq)
         return br_cli_usage_error("map", "--duty and --freq are required");
-    if (is_stdout(csv) && is_stdout(svg))
-        return br_cli_usage_error("map", "--csv and --svg cannot both go to standard output");
+    if (is_stdout(p.csv) + is_stdout(p.svg) + is_stdout(p.plot) + is_stdout(p.report) > 1)
+        return br_cli_usage_error("map", "only one output file can go to standard output");
     br_map_opts mo;
     if (parse_axis("duty", duty, BR_KIND_FRACTION, &mo.duty_from, &mo.duty_to, &mo.nduty) ||
         parse_axis("freq", freq, BR_KIND_FREQUENCY, &mo.fsw_from, &mo.fsw_to, &mo.nfsw) ||
@@ -168,5 +188,5 @@ int cmd_map(int argc, char **argv)
     br_error_clear(&err);
     if (br_map_opts_check(&mo, &err) != BR_OK)
         return br_cli_usage_error("map", "--%s: %s", err.field, err.msg);
-    return run(pos[0], &mo, csv, svg);
+    return run(pos[0], &mo, &p);
 }

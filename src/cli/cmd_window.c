@@ -6,6 +6,8 @@
 #include "analyses/window.h"
 #include "core/error.h"
 #include "core/units.h"
+#include "report/charts.h"
+#include "report/verb_pages.h"
 #include "report/window_report.h"
 
 #include <stdlib.h>
@@ -43,8 +45,13 @@ static int parse_freq(const char *opt, const char *text, double *out)
     return BR_EXIT_OK;
 }
 
+/* The files asked for (NULL when not). */
+typedef struct paths {
+    const char *xml, *report, *plot;
+} paths;
+
 typedef struct outputs {
-    br_text *text, *xml;
+    br_text *text, *xml, *html, *svg;
     br_window *w;
 } outputs;
 
@@ -52,6 +59,8 @@ static void outputs_free(outputs *o)
 {
     br_text_free(o->text);
     br_text_free(o->xml);
+    br_text_free(o->html);
+    br_text_free(o->svg);
     free(o->w);
 }
 
@@ -69,26 +78,48 @@ static int compute(const char *path, const br_window_opts *wo, outputs *o, br_er
         rc = br_window_text(c, o->w, o->text, err);
     if (rc == BR_OK && o->xml)
         rc = br_window_xml(c, o->w, BR_VERSION, o->xml, err);
+    if (rc == BR_OK && o->html)
+        rc = br_window_html(c, o->w, o->text, o->html, err);
+    if (rc == BR_OK && o->svg && br_chart_window(o->w, 1, o->svg) != BR_OK)
+        rc = br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory drawing the plot");
     br_chain_free(c);
     br_design_free(d);
     return rc;
 }
 
-static int run(const char *path, const char *xml, const br_window_opts *wo)
+static int is_stdout(const char *path)
 {
-    outputs o = {br_text_create(), xml ? br_text_create() : NULL, malloc(sizeof(br_window))};
+    return path && strcmp(path, "-") == 0;
+}
+
+/* Files first, the report last (unless a file took stdout). */
+static int write_all(const outputs *o, const paths *p)
+{
+    int status = p->xml ? br_cli_save(o->xml, p->xml) : BR_EXIT_OK;
+    if (status == BR_EXIT_OK && p->report)
+        status = br_cli_save(o->html, p->report);
+    if (status == BR_EXIT_OK && p->plot)
+        status = br_cli_save(o->svg, p->plot);
+    if (status == BR_EXIT_OK && !is_stdout(p->xml) && !is_stdout(p->report) && !is_stdout(p->plot))
+        status = br_cli_emit(o->text);
+    return status;
+}
+
+static int run(const char *path, const paths *p, const br_window_opts *wo)
+{
+    outputs o = {br_text_create(), p->xml ? br_text_create() : NULL,
+                 p->report ? br_text_create() : NULL, p->plot ? br_text_create() : NULL,
+                 malloc(sizeof(br_window))};
     br_error err;
     br_error_clear(&err);
     int status;
-    if (!o.text || !o.w || (xml && !o.xml)) {
+    if (!o.text || !o.w || (p->xml && !o.xml) || (p->report && !o.html) || (p->plot && !o.svg)) {
         br_error_set(&err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
         status = br_cli_fail(&err, NULL);
     } else if (compute(path, wo, &o, &err) != BR_OK) {
         status = br_cli_fail(&err, path);
     } else {
-        status = xml ? br_cli_save(o.xml, xml) : BR_EXIT_OK;
-        if (status == BR_EXIT_OK && !(xml && strcmp(xml, "-") == 0))
-            status = br_cli_emit(o.text);
+        status = write_all(&o, p);
         if (status == BR_EXIT_OK && !o.w->design.holds)
             status = BR_EXIT_FAIL;
     }
@@ -98,10 +129,15 @@ static int run(const char *path, const char *xml, const br_window_opts *wo)
 
 int cmd_window(int argc, char **argv)
 {
-    const char *xml = NULL, *fmin = NULL, *fmax = NULL;
+    const char *fmin = NULL, *fmax = NULL;
+    paths p = {0};
     int startup = 0;
     const br_opt opts[] = {
-        {BR_OPT_STRING, "xml", "PATH", &xml, "also write the results as XML to PATH (- stdout)"},
+        {BR_OPT_STRING, "xml", "PATH", &p.xml, "also write the results as XML to PATH (- stdout)"},
+        {BR_OPT_STRING, "report", "PATH", &p.report,
+         "also write a self-contained HTML report with the plot to PATH"},
+        {BR_OPT_STRING, "plot", "PATH", &p.plot,
+         "also plot the worst margin along duty and frequency as SVG to PATH"},
         {BR_OPT_STRING, "fmin", "FREQ", &fmin, "lowest frequency searched (default fsw/100)"},
         {BR_OPT_STRING, "fmax", "FREQ", &fmax,
          "highest frequency searched (default fsw*100, within the dead time)"},
@@ -119,5 +155,7 @@ int cmd_window(int argc, char **argv)
     if (parse_freq("fmin", fmin, &wo.fmin) != BR_EXIT_OK ||
         parse_freq("fmax", fmax, &wo.fmax) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
-    return run(pos[0], xml, &wo);
+    if (is_stdout(p.xml) + is_stdout(p.report) + is_stdout(p.plot) > 1)
+        return br_cli_usage_error("window", "only one output file can go to standard output");
+    return run(pos[0], &p, &wo);
 }

@@ -3,6 +3,8 @@
 #include "cli.h"
 
 #include "core/error.h"
+#include "report/charts.h"
+#include "report/verb_pages.h"
 #include "report/yield_report.h"
 
 #include <string.h>
@@ -24,8 +26,13 @@ static const char ABOUT[] =
     "every sample passes (or, with --min-yield, when the lower confidence bound\n"
     "reaches it), 1 otherwise, 2 for bad input.\n";
 
+static int is_stdout(const char *path)
+{
+    return path && strcmp(path, "-") == 0;
+}
+
 typedef struct args {
-    const char *xml, *csv, *samples, *seed, *threads, *min_yield;
+    const char *xml, *csv, *samples, *seed, *threads, *min_yield, *report, *plot;
     int startup;
 } args;
 
@@ -49,8 +56,8 @@ static int options(const args *a, br_yield_opts *o, double *min_yield)
     }
     if (a->min_yield && br_cli_fraction("yield", "min-yield", a->min_yield, min_yield))
         return BR_EXIT_INPUT;
-    if ((a->xml && strcmp(a->xml, "-") == 0) && (a->csv && strcmp(a->csv, "-") == 0))
-        return br_cli_usage_error("yield", "--xml and --csv cannot both go to standard output");
+    if (is_stdout(a->xml) + is_stdout(a->csv) + is_stdout(a->report) + is_stdout(a->plot) > 1)
+        return br_cli_usage_error("yield", "only one output file can go to standard output");
     return BR_EXIT_OK;
 }
 
@@ -58,7 +65,7 @@ typedef struct outputs {
     br_design *d;
     br_chain *c;
     br_yield *y;
-    br_text *text, *xml, *csv;
+    br_text *text, *xml, *csv, *html, *svg;
 } outputs;
 
 static void outputs_free(outputs *o)
@@ -69,6 +76,8 @@ static void outputs_free(outputs *o)
     br_text_free(o->text);
     br_text_free(o->xml);
     br_text_free(o->csv);
+    br_text_free(o->html);
+    br_text_free(o->svg);
 }
 
 static int render(const args *a, double min_yield, outputs *o, br_error *err)
@@ -78,6 +87,10 @@ static int render(const args *a, double min_yield, outputs *o, br_error *err)
         rc = br_yield_xml(o->c, o->y, min_yield, BR_VERSION, o->xml, err);
     if (rc == BR_OK && a->csv)
         rc = br_yield_csv(o->y, o->csv);
+    if (rc == BR_OK && a->report)
+        rc = br_yield_html(o->c, o->y, min_yield, o->text, o->html, err);
+    if (rc == BR_OK && a->plot)
+        rc = br_chart_yield(o->y, 1, o->svg);
     if (rc == BR_ENOMEM && !err->msg[0])
         br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory rendering the report");
     return rc;
@@ -89,7 +102,10 @@ static int compute(const char *path, const args *a, const br_yield_opts *yo, dou
     o->text = br_text_create();
     o->xml = a->xml ? br_text_create() : NULL;
     o->csv = a->csv ? br_text_create() : NULL;
-    if (!o->text || (a->xml && !o->xml) || (a->csv && !o->csv))
+    o->html = a->report ? br_text_create() : NULL;
+    o->svg = a->plot ? br_text_create() : NULL;
+    if (!o->text || (a->xml && !o->xml) || (a->csv && !o->csv) || (a->report && !o->html) ||
+        (a->plot && !o->svg))
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     int rc = br_design_load(path, &o->d, err);
     if (rc == BR_OK)
@@ -101,11 +117,6 @@ static int compute(const char *path, const args *a, const br_yield_opts *yo, dou
     return rc;
 }
 
-static int is_stdout(const char *path)
-{
-    return path && strcmp(path, "-") == 0;
-}
-
 /* Files first, the report last (unless a file took stdout). */
 static int write_all(const args *a, const outputs *o)
 {
@@ -114,7 +125,12 @@ static int write_all(const args *a, const outputs *o)
         status = br_cli_save(o->xml, a->xml);
     if (status == BR_EXIT_OK && a->csv)
         status = br_cli_save(o->csv, a->csv);
-    if (status == BR_EXIT_OK && !is_stdout(a->xml) && !is_stdout(a->csv))
+    if (status == BR_EXIT_OK && a->report)
+        status = br_cli_save(o->html, a->report);
+    if (status == BR_EXIT_OK && a->plot)
+        status = br_cli_save(o->svg, a->plot);
+    if (status == BR_EXIT_OK && !is_stdout(a->xml) && !is_stdout(a->csv) && !is_stdout(a->report) &&
+        !is_stdout(a->plot))
         status = br_cli_emit(o->text);
     return status;
 }
@@ -132,6 +148,10 @@ int cmd_yield(int argc, char **argv)
         {BR_OPT_STRING, "xml", "PATH", &a.xml, "also write the results as XML to PATH (- stdout)"},
         {BR_OPT_STRING, "csv", "PATH", &a.csv,
          "also write every sample (values, margins) as CSV to PATH (- stdout)"},
+        {BR_OPT_STRING, "report", "PATH", &a.report,
+         "also write a self-contained HTML report with histograms to PATH"},
+        {BR_OPT_STRING, "plot", "PATH", &a.plot,
+         "also plot the histograms of the margins as SVG to PATH"},
         {BR_OPT_STRING, "threads", "N", &a.threads, "worker threads (default: one per processor)"},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
     };

@@ -119,6 +119,14 @@ void br_sim_sensitivity(const br_sim *s, double *phi);
 /* Integration tolerances of the RK pair (defaults set by the integrator). */
 void br_sim_set_tolerance(br_sim *s, double rtol, double atol_v);
 
+/* Voltage across switch k at time t (within the interval in progress),
+ * V: 0 on, its blocking voltage off, minus its drop reverse conducting,
+ * ramps between.  For observers that plot diode stress. */
+double br_sim_switch_v(const br_sim *s, int k, double t);
+
+/* Driver supply of stage k for rail voltage vr (after its regulator), V. */
+double br_sim_vdrv(const br_sim *s, int k, double vr);
+
 /* The time PWM starts after the pre-charge steps, s. */
 double br_sim_pwm_start(const br_sim *s);
 

@@ -29,6 +29,13 @@ void br_csv_series_init(br_csv_series *s, br_text *out, const char *label, int n
  * reports quote; time gets more so that the rows of one period differ. */
 static void put_row(br_csv_series *s, double t, const double *v, const double *i)
 {
+    if (s->row)
+        s->row(s->row_ctx, t, v, i);
+    s->last_t = t;
+    s->rows++;
+    s->held = 0;
+    if (!s->out)
+        return;
     int rc = br_text_printf(s->out, "%s,%.10g", s->label, t + s->t_offset);
     for (int k = 0; k < s->n; k++)
         rc |= br_text_printf(s->out, ",%.7g", v[k]);
@@ -36,9 +43,6 @@ static void put_row(br_csv_series *s, double t, const double *v, const double *i
         rc |= br_text_printf(s->out, ",%.7g", i[k] == 0.0 ? 0.0 : i[k]);
     rc |= br_text_put(s->out, "\n");
     s->failed |= rc != 0;
-    s->last_t = t;
-    s->rows++;
-    s->held = 0;
 }
 
 static void hold(br_csv_series *s, double t, const double *v, const double *i)

@@ -29,13 +29,17 @@ typedef struct br_csv_series {
     double ht;         /* its time, s */
     double hv[BR_MAX_SWITCHES], hi[BR_MAX_SWITCHES]; /* its rails V, links A */
     int failed;                                      /* out of memory while appending */
+    /* Optional: told every row kept (simulator time, rails, links), so a
+     * plot can be drawn from exactly the rows of the file. */
+    void (*row)(void *ctx, double t, const double *v, const double *i);
+    void *row_ctx;
 } br_csv_series;
 
 /* Append the header line for chain c to out. */
 int br_csv_header(const br_chain *c, br_text *out);
 
 /* Start a series of n stages into out (the header is written separately,
- * once per file). */
+ * once per file; out may be NULL when only the row callback is wanted). */
 void br_csv_series_init(br_csv_series *s, br_text *out, const char *label, int n, double min_dt,
                         double t_offset);
 

@@ -349,7 +349,7 @@ static void colour_bar(br_svg *s, const frame *f)
 {
     const double x = 650, w = 18, top = f->y0, h = f->h;
     int has_neg = f->mlo<0, has_pos = f->mhi> 0 || !has_neg;
-    double split = has_neg && has_pos ? 0.5 : has_neg ? 0.0 : 1.0; /* share of the bar below 0 */
+    double split = has_neg && has_pos ? 0.5 : has_neg ? 1.0 : 0.0; /* share of the bar below 0 */
     const int steps = 60;
     char col[16], b[32];
     for (int i = 0; i < steps; i++) {

@@ -34,26 +34,38 @@ static int oom(br_error *err, const char *what)
     return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory %s", what);
 }
 
-static int run_startup(br_results *r, br_text *csv, br_error *err)
+/* A row kept by a CSV series goes into a trace as well. */
+static void trace_row(void *ctx, double t, const double *v, const double *i)
+{
+    br_trace_add(ctx, t, v, i);
+}
+
+static int run_startup(br_results *r, br_text *csv, br_trace *tr, br_error *err)
 {
     const br_chain *c = r->c;
     br_csv_series s;
     br_sim_observer obs;
     br_startup_opts o = {0};
-    if (csv) {
+    if (csv || tr) {
         double dt = fmax(c->T / ROWS_PER_PERIOD, c->startup_max / STARTUP_ROWS);
         br_csv_series_init(&s, csv, "startup", c->n, dt, 0.0);
+        if (tr) {
+            s.row = trace_row;
+            s.row_ctx = tr;
+        }
         obs = br_csv_observer(&s);
         o.obs = &obs;
     }
     int rc = br_startup_run(c, &o, &r->su, err);
-    if (rc == BR_OK && csv && br_csv_series_end(&s) != BR_OK)
+    if (rc == BR_OK && (csv || tr) && (br_csv_series_end(&s) != BR_OK || (tr && tr->failed)))
         rc = oom(err, "recording the start-up series");
     return rc;
 }
 
-/* One more period from the steady state, every accepted step recorded. */
-static int steady_series(const br_chain *c, const br_steady *ss, br_text *csv, br_error *err)
+/* One more period from the steady state, every accepted step recorded;
+ * a trace also gets the period after it. */
+static int steady_series(const br_chain *c, const br_steady *ss, br_text *csv, br_trace *tr,
+                         br_error *err)
 {
     static const char *const labels[] = {"steady-step-down", "steady-step-up", "steady"};
     const char *label = labels[ss->dir == BR_DIRI_DOWN ? 0 : ss->dir == BR_DIRI_UP ? 1 : 2];
@@ -63,24 +75,43 @@ static int steady_series(const br_chain *c, const br_steady *ss, br_text *csv, b
         return rc;
     br_csv_series s;
     br_csv_series_init(&s, csv, label, c->n, 0.0, ss->phase);
+    if (tr) {
+        br_trace_follow(tr, sim, ss->phase);
+        s.row = trace_row;
+        s.row_ctx = tr;
+    }
     br_sim_observer obs = br_csv_observer(&s);
     br_sim_set_observer(sim, &obs);
     br_sim_reset_running_at(sim, ss->x, ss->phase);
     rc = br_sim_run_until(sim, c->T, err);
     if (rc == BR_OK && br_csv_series_end(&s) != BR_OK)
         rc = oom(err, "recording the steady period");
+    if (rc == BR_OK && tr) {
+        obs = br_trace_observer(tr);
+        br_sim_set_observer(sim, &obs);
+        rc = br_sim_run_until(sim, 2 * c->T, err);
+    }
+    if (rc == BR_OK && tr && tr->failed)
+        rc = oom(err, "recording the steady periods");
+    if (tr)
+        br_trace_follow(tr, NULL, ss->phase);
     br_sim_free(sim);
     return rc;
 }
 
-static int run_steady(br_results *r, br_text *csv, br_error *err)
+static int run_steady(br_results *r, br_text *csv, br_results_traces *tr, br_error *err)
 {
     int dirs[2];
     r->ndir = br_design_directions(r->c, dirs);
     for (int d = 0; d < r->ndir; d++) {
         int rc = br_steady_solve(r->c, dirs[d], NULL, &r->ss[d], err);
-        if (rc == BR_OK && csv)
-            rc = steady_series(r->c, &r->ss[d], csv, err);
+        br_trace *t = NULL;
+        if (tr)
+            t = tr->steady[d] = br_trace_create(r->c->n);
+        if (rc == BR_OK && tr && !t)
+            rc = oom(err, "keeping the steady periods");
+        if (rc == BR_OK && (csv || t))
+            rc = steady_series(r->c, &r->ss[d], csv, t, err);
         if (rc != BR_OK)
             return rc;
         br_steady_figures(r->c, &r->ss[d], &r->figs[d]);
@@ -91,6 +122,20 @@ static int run_steady(br_results *r, br_text *csv, br_error *err)
 int br_results_run(br_results *r, const br_chain *c, const char *verb, int parts, br_text *csv,
                    br_error *err)
 {
+    return br_results_run_traced(r, c, verb, parts, csv, NULL, err);
+}
+
+void br_results_traces_release(br_results_traces *tr)
+{
+    br_trace_free(tr->startup);
+    br_trace_free(tr->steady[0]);
+    br_trace_free(tr->steady[1]);
+    memset(tr, 0, sizeof *tr);
+}
+
+int br_results_run_traced(br_results *r, const br_chain *c, const char *verb, int parts,
+                          br_text *csv, br_results_traces *tr, br_error *err)
+{
     memset(r, 0, sizeof *r);
     r->c = c;
     r->verb = verb;
@@ -98,17 +143,19 @@ int br_results_run(br_results *r, const br_chain *c, const char *verb, int parts
     if (csv && br_csv_header(c, csv) != BR_OK)
         return oom(err, "starting the CSV series");
     int rc = BR_OK;
-    if (parts & BR_RUN_STARTUP)
-        rc = run_startup(r, csv, err);
+    if ((parts & BR_RUN_STARTUP) && tr && !(tr->startup = br_trace_create(c->n)))
+        rc = oom(err, "keeping the start-up series");
+    if (rc == BR_OK && (parts & BR_RUN_STARTUP))
+        rc = run_startup(r, csv, tr ? tr->startup : NULL, err);
     if (rc == BR_OK && (parts & BR_RUN_STEADY))
-        rc = run_steady(r, csv, err);
+        rc = run_steady(r, csv, tr, err);
     if (rc == BR_OK)
         br_verdict_make(c, (parts & BR_RUN_STARTUP) ? &r->su : NULL, r->figs, r->ndir, &r->verdict);
     return rc;
 }
 
 /* The criteria a verb judges. */
-static unsigned verdict_mask(const br_results *r)
+unsigned br_results_mask(const br_results *r)
 {
     unsigned m = 0;
     if (r->parts & BR_RUN_STARTUP)
@@ -120,7 +167,7 @@ static unsigned verdict_mask(const br_results *r)
 
 int br_results_failed(const br_results *r)
 {
-    unsigned m = verdict_mask(r);
+    unsigned m = br_results_mask(r);
     for (int i = 0; i < BR_CRIT_COUNT; i++)
         if ((m & BR_CRIT_BIT(i)) && r->verdict.row[i].applies && !r->verdict.row[i].pass)
             return 1;
@@ -158,7 +205,7 @@ int br_results_text(const br_results *r, br_text *out, br_error *err)
     }
     if (r->parts & BR_RUN_STEADY) {
         rc |= br_text_put(out, "\n");
-        rc |= br_verdict_text(r->c, &r->verdict, verdict_mask(r), &r->su, out);
+        rc |= br_verdict_text(r->c, &r->verdict, br_results_mask(r), &r->su, out);
     }
     rc |= br_report_caution(out);
     return rc ? oom(err, "rendering the report") : BR_OK;
@@ -181,7 +228,7 @@ int br_results_xml(const br_results *r, const char *version, br_text *out, br_er
         br_startup_xml(w, r->c, &r->su);
     for (int i = 0; i < r->ndir; i++)
         br_steady_xml(w, r->c, &r->figs[i]);
-    br_verdict_xml(w, r->c, &r->verdict, verdict_mask(r));
+    br_verdict_xml(w, r->c, &r->verdict, br_results_mask(r));
     br_xml_caution(w);
     rc = br_xmlw_finish(w, out, err);
     br_xmlw_free(w);

@@ -9,6 +9,7 @@
 #define BR_REPORT_RESULTS_H
 
 #include "analyses/figures.h"
+#include "report/trace.h"
 
 /* Which analyses a verb runs (bits). */
 enum {
@@ -37,6 +38,30 @@ void br_results_free(br_results *r);
  * resolution) are appended to it, header first.  Returns a br_status. */
 int br_results_run(br_results *r, const br_chain *c, const char *verb, int parts, br_text *csv,
                    br_error *err);
+
+/* Time series kept for plots: the start-up rows the CSV gets, and two
+ * periods of each direction from its steady state (the first the CSV's
+ * period), with driver supplies and diode reverse voltages. */
+typedef struct br_results_traces {
+    br_trace *startup;   /* NULL when the start-up was not run */
+    br_trace *steady[2]; /* one per direction computed */
+} br_results_traces;
+
+/* As br_results_run, also filling tr (created here; release with
+ * br_results_traces_release). */
+int br_results_run_traced(br_results *r, const br_chain *c, const char *verb, int parts,
+                          br_text *csv, br_results_traces *tr, br_error *err);
+void br_results_traces_release(br_results_traces *tr);
+
+/* The HTML report of the verb that ran (see html_report.h). */
+int br_results_html(const br_results *r, const br_results_traces *tr, br_text *out, br_error *err);
+
+/* The verb's plot as an SVG document: the start-up waveforms for
+ * `startup`, the ripple of the first direction for `steady`. */
+int br_results_plot(const br_results *r, const br_results_traces *tr, br_text *out, br_error *err);
+
+/* The criteria (BR_CRIT_BIT mask) the verb that ran judges. */
+unsigned br_results_mask(const br_results *r);
 
 /* 0 when every criterion the verb judges passes (or does not apply),
  * 1 when one fails. */

@@ -10,20 +10,61 @@ static void put(br_svg *s, int rc)
         s->failed = 1;
 }
 
-void br_svg_begin(br_svg *s, br_text *out, double width, double height)
+/* Append text with &, <, > and " escaped. */
+int br_xml_escape_put(br_text *out, const char *text)
+{
+    int rc = BR_OK;
+    const char *run = text;
+    for (const char *p = text;; p++) {
+        const char *rep = *p == '&'   ? "&amp;"
+                          : *p == '<' ? "&lt;"
+                          : *p == '>' ? "&gt;"
+                          : *p == '"' ? "&quot;"
+                                      : NULL;
+        if (!rep && *p)
+            continue;
+        if (p > run)
+            rc |= br_text_printf(out, "%.*s", (int)(p - run), run);
+        if (!*p)
+            break;
+        rc |= br_text_put(out, rep);
+        run = p + 1;
+    }
+    return rc ? BR_ENOMEM : BR_OK;
+}
+
+static void svg_open(br_svg *s, br_text *out, double width, double height, const char *title)
 {
     s->out = out;
     s->failed = 0;
     put(s, br_text_printf(out,
-                          "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n"
                           "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"%.0f\" "
                           "height=\"%.0f\" viewBox=\"0 0 %.0f %.0f\" "
-                          "font-family=\"sans-serif\">\n",
+                          "font-family=\"sans-serif\"",
                           width, height, width, height));
+    if (title) {
+        put(s, br_text_put(out, " role=\"img\">\n<title>"));
+        put(s, br_xml_escape_put(out, title));
+        put(s, br_text_put(out, "</title>\n"));
+    } else {
+        put(s, br_text_put(out, ">\n"));
+    }
+}
+
+void br_svg_begin_inline(br_svg *s, br_text *out, double width, double height, const char *title)
+{
+    svg_open(s, out, width, height, title);
     put(s, br_text_printf(out,
                           "<rect x=\"0\" y=\"0\" width=\"%.0f\" height=\"%.0f\" "
                           "fill=\"white\"/>\n",
                           width, height));
+}
+
+void br_svg_begin(br_svg *s, br_text *out, double width, double height)
+{
+    int rc = br_text_put(out, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n");
+    br_svg_begin_inline(s, out, width, height, NULL);
+    put(s, rc);
 }
 
 int br_svg_end(br_svg *s)
@@ -59,27 +100,9 @@ void br_svg_circle(br_svg *s, double cx, double cy, double r, const char *fill, 
                           cx, cy, r, fill, stroke, stroke_width));
 }
 
-/* Append text with &, <, > and " escaped. */
 static void escaped(br_svg *s, const char *text)
 {
-    for (const char *p = text; *p; p++) {
-        switch (*p) {
-        case '&':
-            put(s, br_text_put(s->out, "&amp;"));
-            break;
-        case '<':
-            put(s, br_text_put(s->out, "&lt;"));
-            break;
-        case '>':
-            put(s, br_text_put(s->out, "&gt;"));
-            break;
-        case '"':
-            put(s, br_text_put(s->out, "&quot;"));
-            break;
-        default:
-            put(s, br_text_printf(s->out, "%c", *p));
-        }
-    }
+    put(s, br_xml_escape_put(s->out, text));
 }
 
 void br_svg_text(br_svg *s, double x, double y, double size, const char *anchor, double rotate,
@@ -94,6 +117,57 @@ void br_svg_text(br_svg *s, double x, double y, double size, const char *anchor,
     put(s, br_text_put(s->out, ">"));
     escaped(s, text);
     put(s, br_text_put(s->out, "</text>\n"));
+}
+
+void br_svg_polyline(br_svg *s, const double *px, const double *py, int n, const char *stroke,
+                     double width, const char *dash, const char *key)
+{
+    if (n < 1)
+        return;
+    put(s, br_text_put(s->out, "<polyline"));
+    if (key) {
+        put(s, br_text_put(s->out, " data-series=\""));
+        escaped(s, key);
+        put(s, br_text_put(s->out, "\""));
+    }
+    put(s, br_text_printf(s->out,
+                          " fill=\"none\" stroke=\"%s\" stroke-width=\"%.2f\" "
+                          "stroke-linejoin=\"round\"",
+                          stroke, width));
+    if (dash)
+        put(s, br_text_printf(s->out, " stroke-dasharray=\"%s\"", dash));
+    put(s, br_text_put(s->out, " points=\""));
+    for (int i = 0; i < n; i++)
+        put(s, br_text_printf(s->out, "%s%.1f,%.1f", i ? " " : "", px[i], py[i]));
+    put(s, br_text_put(s->out, "\"/>\n"));
+}
+
+void br_svg_dashed(br_svg *s, double x1, double y1, double x2, double y2, const char *stroke,
+                   double width, const char *dash)
+{
+    put(s, br_text_printf(s->out,
+                          "<line x1=\"%.1f\" y1=\"%.1f\" x2=\"%.1f\" y2=\"%.1f\" "
+                          "stroke=\"%s\" stroke-width=\"%.2f\"",
+                          x1, y1, x2, y2, stroke, width));
+    if (dash)
+        put(s, br_text_printf(s->out, " stroke-dasharray=\"%s\"", dash));
+    put(s, br_text_put(s->out, "/>\n"));
+}
+
+void br_svg_text_in(br_svg *s, double x, double y, double size, const char *anchor,
+                    const char *fill, int bold, const char *text)
+{
+    put(s, br_text_printf(s->out,
+                          "<text x=\"%.1f\" y=\"%.1f\" font-size=\"%.1f\" "
+                          "text-anchor=\"%s\" fill=\"%s\"%s>",
+                          x, y, size, anchor, fill, bold ? " font-weight=\"bold\"" : ""));
+    escaped(s, text);
+    put(s, br_text_put(s->out, "</text>\n"));
+}
+
+void br_svg_raw(br_svg *s, const char *markup)
+{
+    put(s, br_text_put(s->out, markup));
 }
 
 /* Colour stops of the diverging scale, chosen so that the two sides

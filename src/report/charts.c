@@ -1,0 +1,450 @@
+/* charts.c - the plots of the reports, drawn from traces and results. */
+#include "report/charts.h"
+
+#include "report/plot.h"
+#include "report/report_common.h"
+
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+
+/* Panels of the small-multiple grids, px. */
+#define PANEL_W 600.0
+#define PANEL_H 250.0
+#define HEAD_H 44.0 /* the document's own heading and key */
+
+static const br_style S_RAIL = {BR_BLUE, NULL, 2.0};
+static const br_style S_DRV = {BR_GREEN, "7 4", 2.0};
+static const br_style S_RISE = {BR_VERMILION, "8 4", 1.6};
+static const br_style S_FALL = {BR_ORANGE, "2 3", 2.0};
+static const br_style S_START = {BR_GREEN, NULL, 1.6};
+static const br_style S_DRIVE = {BR_VERMILION, "2 3", 2.0};
+static const br_style S_GATE = {BR_PURPLE, "8 4", 2.0};
+static const br_style S_FAILS = {BR_VERMILION, NULL, 2.0};
+
+static void doc_begin(br_svg *s, br_text *out, double w, double h, int standalone,
+                      const char *title)
+{
+    if (standalone)
+        br_svg_begin(s, out, w, h);
+    else
+        br_svg_begin_inline(s, out, w, h, title);
+}
+
+/* Rows of two panels for n panels, and the document height. */
+static double grid_height(int n, int cols)
+{
+    return HEAD_H + PANEL_H * ((n + cols - 1) / cols);
+}
+
+static void panel_at(int i, int cols, double *x, double *y)
+{
+    *x = (i % cols) * PANEL_W;
+    *y = HEAD_H + (i / cols) * PANEL_H;
+}
+
+static void heading(br_svg *s, const char *text)
+{
+    br_svg_text_in(s, 12, 26, 18.0, "start", BR_INK, 1, text);
+}
+
+/* ---- start-up ------------------------------------------------------------ */
+
+/* The rail voltage driver k starts at and drops out at: its UVLO
+ * thresholds, raised by the regulator's dropout when it has one. */
+static void rail_thresholds(const br_chain *c, int k, double *rise, double *fall)
+{
+    const br_stage *st = &c->st[k];
+    double drop = st->aux.kind == BR_AUX_LDO ? st->aux.dropout : 0.0;
+    *rise = br_rail_start_voltage(c, k);
+    if (!isfinite(*rise))
+        *rise = st->drv.uvlo_rise + drop;
+    *fall = st->drv.uvlo_fall + drop;
+}
+
+static double column_max(const br_trace *tr, const double *a, int k)
+{
+    double m = -HUGE_VAL;
+    for (long r = 0; r < tr->len; r++)
+        m = fmax(m, a[r * tr->n + k]);
+    return m;
+}
+
+static double column_min(const br_trace *tr, const double *a, int k, long from, long count)
+{
+    double m = HUGE_VAL;
+    for (long r = from; r < from + count; r++)
+        m = fmin(m, a[r * tr->n + k]);
+    return m;
+}
+
+static double column_max_in(const br_trace *tr, const double *a, int k, long from, long count)
+{
+    double m = -HUGE_VAL;
+    for (long r = from; r < from + count; r++)
+        m = fmax(m, a[r * tr->n + k]);
+    return m;
+}
+
+static void startup_panel(br_svg *s, const br_chain *c, const br_startup *su, const br_trace *tr,
+                          int k, double x, double y)
+{
+    br_plot p;
+    char title[96], key[64], lab[64], v[32];
+    double rise, fall;
+    rail_thresholds(c, k, &rise, &fall);
+    br_plot_frame(&p, s, x, y, PANEL_W, PANEL_H);
+    double tend = tr->len ? tr->t[tr->len - 1] : su->t_simulated;
+    double vmax = fmax(column_max(tr, tr->v, k), rise);
+    /* a rail can dip a little below zero (leakage, recovery) */
+    double vmin = fmin(0.0, column_min(tr, tr->v, k, 0, tr->len));
+    br_plot_range(&p, 0.0, tend, vmin - 0.02 * vmax, 1.08 * vmax, 0);
+    snprintf(title, sizeof title, k == 0 ? "rail %s (supply)" : "rail %s", c->st[k].name);
+    snprintf(key, sizeof key, "startup-%s", c->st[k].name);
+    br_plot_axes(&p, key, title, "time", "s", "voltage", "V");
+    snprintf(lab, sizeof lab, "UVLO rise %s", br_plot_si(v, sizeof v, rise, 3, "V"));
+    br_plot_hline(&p, rise, &S_RISE, lab);
+    snprintf(lab, sizeof lab, "UVLO fall %s", br_plot_si(v, sizeof v, fall, 3, "V"));
+    br_plot_hline(&p, fall, &S_FALL, lab);
+    snprintf(key, sizeof key, "rail_%s_V", c->st[k].name);
+    br_plot_line(&p, tr->t, tr->v + k, tr->len, tr->n, &S_RAIL, key);
+    double ts = su->st[k].final_enable;
+    if (ts >= 0) {
+        char tb[32];
+        snprintf(lab, sizeof lab, "starts %s", br_plot_time(tb, sizeof tb, ts));
+        br_plot_vline(&p, ts, &S_START, lab);
+    } else {
+        br_svg_text_in(s, p.x0 + 8, p.y0 + 18, BR_FONT_LABEL, "start", BR_VERMILION, 1,
+                       "driver never starts for good");
+    }
+    br_plot_done(&p);
+}
+
+static void startup_key(br_svg *s)
+{
+    br_plot p;
+    br_plot_frame(&p, s, 0, 0, 10, 10);
+    double x = 520;
+    x = br_plot_key(&p, x, 30, &S_RAIL, "rail");
+    x = br_plot_key(&p, x, 30, &S_RISE, "UVLO rising");
+    x = br_plot_key(&p, x, 30, &S_FALL, "UVLO falling");
+    br_plot_key(&p, x, 30, &S_START, "driver starts");
+}
+
+int br_chart_startup(const br_chain *c, const br_startup *su, const br_trace *tr, int standalone,
+                     br_text *out)
+{
+    br_svg s;
+    int cols = c->n > 1 ? 2 : 1;
+    doc_begin(&s, out, cols * PANEL_W, grid_height(c->n, cols), standalone,
+              "Start-up from cold: every rail with its UVLO thresholds");
+    heading(&s, "Start-up from cold");
+    startup_key(&s);
+    for (int k = 0; k < c->n; k++) {
+        double x, y;
+        panel_at(k, cols, &x, &y);
+        startup_panel(&s, c, su, tr, k, x, y);
+    }
+    return br_svg_end(&s);
+}
+
+/* ---- steady-state ripple ------------------------------------------------- */
+
+/* Grow [lo, hi] to take in a limit that lies within reach: a limit far
+ * away would flatten the ripple, so it is only pointed at. */
+static void reach(double *lo, double *hi, double lim)
+{
+    double span = fmax(*hi - *lo, 0.02 * fabs(*hi));
+    if (lim < *lo && *lo - lim < 1.5 * span)
+        *lo = lim;
+    if (lim > *hi && lim - *hi < 1.5 * span)
+        *hi = lim;
+}
+
+/* The driver supply behind a regulator: drawn when it fits the rail's
+ * range, otherwise pointed at from the edge with its mean. */
+static void driver_supply(br_plot *p, const br_trace *tr, int k, const char *name)
+{
+    char key[64], lab[64], v[32];
+    double lo = column_min(tr, tr->vd, k, 0, tr->len);
+    double hi = column_max_in(tr, tr->vd, k, 0, tr->len);
+    if (lo >= p->ymin && hi <= p->ymax) {
+        snprintf(key, sizeof key, "drv_%s_V", name);
+        br_plot_line(p, tr->t, tr->vd + k, tr->len, tr->n, &S_DRV, key);
+        return;
+    }
+    snprintf(lab, sizeof lab, "driver %s", br_plot_si(v, sizeof v, 0.5 * (lo + hi), 3, "V"));
+    br_plot_hline(p, 0.5 * (lo + hi), &S_DRV, lab);
+}
+
+static void ripple_panel(br_svg *s, const br_chain *c, const br_steady_figs *f, const br_trace *tr,
+                         int k, double x, double y)
+{
+    br_plot p;
+    char title[96], key[64], lab[64], v[32];
+    const br_stage *st = &c->st[k];
+    long cnt = tr->len;
+    double lo = column_min(tr, tr->v, k, 0, cnt), hi = column_max_in(tr, tr->v, k, 0, cnt);
+    double drive = c->min_drive, gate = st->sw.vgs_max, fall = st->drv.uvlo_fall;
+    reach(&lo, &hi, gate);
+    reach(&lo, &hi, drive);
+    br_plot_frame(&p, s, x, y, PANEL_W, PANEL_H);
+    br_plot_range(&p, tr->t[0], tr->t[tr->len - 1], lo, hi, 1);
+    snprintf(title, sizeof title, "rail %s: ripple %s", st->name,
+             br_plot_si(v, sizeof v, f->rail[k].ripple, 3, "V"));
+    snprintf(key, sizeof key, "ripple-%s-%s", br_dir_short(f->dir), st->name);
+    br_plot_axes(&p, key, title, "time", "s", "voltage", "V");
+    snprintf(lab, sizeof lab, "gate max %s", br_plot_si(v, sizeof v, gate, 3, "V"));
+    if (gate > 0)
+        br_plot_hline(&p, gate, &S_GATE, lab);
+    if (st->aux.kind == BR_AUX_LDO)
+        driver_supply(&p, tr, k, st->name);
+    snprintf(lab, sizeof lab, "min drive %s", br_plot_si(v, sizeof v, drive, 3, "V"));
+    if (drive > 0)
+        br_plot_hline(&p, drive, &S_DRIVE, lab);
+    snprintf(lab, sizeof lab, "UVLO fall %s", br_plot_si(v, sizeof v, fall, 3, "V"));
+    br_plot_hline(&p, fall, &S_FALL, lab);
+    snprintf(key, sizeof key, "rail_%s_V", st->name);
+    br_plot_line(&p, tr->t, tr->v + k, tr->len, tr->n, &S_RAIL, key);
+    br_plot_done(&p);
+}
+
+int br_chart_ripple(const br_chain *c, const br_steady_figs *f, const br_trace *tr, int standalone,
+                    br_text *out)
+{
+    br_svg s;
+    br_plot p;
+    char head[128];
+    int cols = c->n > 1 ? 2 : 1;
+    snprintf(head, sizeof head, "Steady state over two periods, %s", br_dir_label(f->dir));
+    doc_begin(&s, out, cols * PANEL_W, grid_height(c->n, cols), standalone, head);
+    heading(&s, head);
+    br_plot_frame(&p, &s, 0, 0, 10, 10);
+    double x = 560;
+    x = br_plot_key(&p, x, 30, &S_RAIL, "rail");
+    x = br_plot_key(&p, x, 30, &S_DRV, "driver supply");
+    x = br_plot_key(&p, x, 30, &S_DRIVE, "min drive");
+    br_plot_key(&p, x, 30, &S_GATE, "gate max");
+    for (int k = 0; k < c->n && tr->len > 1; k++) {
+        double px, py;
+        panel_at(k, cols, &px, &py);
+        ripple_panel(&s, c, f, tr, k, px, py);
+    }
+    return br_svg_end(&s);
+}
+
+/* ---- diode stress -------------------------------------------------------- */
+
+int br_chart_worst_link(const br_chain *c, const br_steady_figs *f, int ndir, int *dir)
+{
+    int best = c->n > 1 ? 1 : 0;
+    double worst = -HUGE_VAL;
+    *dir = 0;
+    for (int d = 0; d < ndir; d++)
+        for (int k = 1; k < c->n; k++) {
+            const br_link_fig *l = &f[d].link[k];
+            double derated = l->vrrm * c->derating;
+            /* share of the derated rating; unrated links rank by volts,
+             * below every rated one */
+            double score = derated > 0 ? l->vrev_stress / derated : -1e6 + l->vrev_stress;
+            if (score > worst) {
+                worst = score;
+                best = k;
+                *dir = d;
+            }
+        }
+    return best;
+}
+
+static void diode_panel(br_svg *s, const br_chain *c, const br_steady_figs *f, int k,
+                        const br_trace *tr, int which, double y)
+{
+    br_plot p;
+    char title[128], key[64], lab[64], v[32];
+    const char *name = c->st[k].name;
+    long cnt, a = br_trace_find(tr, tr->t[0], tr->t[0] + c->T, &cnt);
+    const double *col = which ? tr->vr : tr->i;
+    double lo = column_min(tr, col, k, a, cnt), hi = column_max_in(tr, col, k, a, cnt);
+    double vrrm = f->link[k].vrrm, derated = vrrm * c->derating;
+    if (which && derated > 0)
+        reach(&lo, &hi, derated);
+    lo = fmin(lo, 0.0);
+    br_plot_frame(&p, s, 0, y, 2 * PANEL_W, PANEL_H);
+    br_plot_range(&p, tr->t[a], tr->t[a + cnt - 1], lo, hi, 1);
+    if (which)
+        snprintf(title, sizeof title, "link %s: reverse voltage (peak with overshoot %s)", name,
+                 br_plot_si(v, sizeof v, f->link[k].vrev_stress, 4, "V"));
+    else
+        snprintf(title, sizeof title, "link %s: forward current (peak %s, RMS %s)", name,
+                 br_plot_si(v, sizeof v, f->link[k].ipeak, 3, "A"),
+                 br_plot_si(lab, sizeof lab, f->link[k].irms, 3, "A"));
+    snprintf(key, sizeof key, "diode-%s-%s-%s", br_dir_short(f->dir), name, which ? "vr" : "i");
+    br_plot_axes(&p, key, title, "time", "s", which ? "reverse voltage" : "current",
+                 which ? "V" : "A");
+    if (which && vrrm > 0) {
+        snprintf(lab, sizeof lab, "rating %s", br_plot_si(v, sizeof v, vrrm, 3, "V"));
+        br_plot_hline(&p, vrrm, &S_GATE, lab);
+        snprintf(lab, sizeof lab, "derated %s", br_plot_si(v, sizeof v, derated, 3, "V"));
+        br_plot_hline(&p, derated, &S_DRIVE, lab);
+    }
+    snprintf(key, sizeof key, which ? "vrev_%s_V" : "link_%s_A", name);
+    br_plot_line(&p, tr->t + a, col + a * tr->n + k, cnt, tr->n, &S_RAIL, key);
+    br_plot_done(&p);
+}
+
+int br_chart_diode(const br_chain *c, const br_steady_figs *f, int k, const br_trace *tr,
+                   int standalone, br_text *out)
+{
+    br_svg s;
+    char head[128];
+    snprintf(head, sizeof head, "Link %s over one period, %s (the most stressed diode)",
+             c->st[k].name, br_dir_label(f->dir));
+    doc_begin(&s, out, 2 * PANEL_W, HEAD_H + 2 * PANEL_H, standalone, head);
+    heading(&s, head);
+    if (tr->len > 1 && k > 0) {
+        diode_panel(&s, c, f, k, tr, 0, HEAD_H);
+        diode_panel(&s, c, f, k, tr, 1, HEAD_H + PANEL_H);
+    }
+    return br_svg_end(&s);
+}
+
+/* ---- yield histogram ----------------------------------------------------- */
+
+/* The unit of each criterion's margin (as the yield report has them). */
+static const char *const UNITS[BR_CRIT_COUNT] = {"s", "A", "V", "V", "V", "V", "V", "V", "V"};
+#define NBINS 30
+
+static void bars(br_plot *p, const long *cnt, double lo, double w)
+{
+    for (int b = 0; b < NBINS; b++) {
+        if (!cnt[b])
+            continue;
+        double x0 = br_plot_px(p, lo + b * w), x1 = br_plot_px(p, lo + (b + 1) * w);
+        double ytop = br_plot_py(p, (double)cnt[b]);
+        int fails = lo + (b + 1) * w <= 0.0;
+        br_svg_rect(p->svg, x0 + 0.5, ytop, fmax(x1 - x0 - 1.0, 0.5), p->y0 + p->h - ytop,
+                    fails ? BR_VERMILION : BR_BLUE, "none", 0);
+    }
+}
+
+static void histogram_panel(br_svg *s, const br_yield *y, int crit, double x, double yy)
+{
+    long cnt[NBINS] = {0}, peak = 1;
+    double lo = HUGE_VAL, hi = -HUGE_VAL;
+    for (long i = 0; i < y->n; i++) {
+        const br_pt_row *r = &y->pts[i].row[crit];
+        if (y->pts[i].status == BR_OK && r->applies && isfinite(r->margin)) {
+            lo = fmin(lo, r->margin);
+            hi = fmax(hi, r->margin);
+        }
+    }
+    if (!(hi >= lo))
+        return;
+    /* the limit comes into view when it is near; far away it would
+     * squash the distribution, and the title says none fail anyway */
+    if (lo > 0 && lo < 1.5 * (hi - lo))
+        lo = 0.0;
+    if (hi - lo <= 0) {
+        lo -= 0.5e-3 + 0.01 * fabs(lo);
+        hi += 0.5e-3 + 0.01 * fabs(hi);
+    }
+    double w = (hi - lo) / NBINS;
+    for (long i = 0; i < y->n; i++) {
+        const br_pt_row *r = &y->pts[i].row[crit];
+        if (y->pts[i].status == BR_OK && r->applies && isfinite(r->margin)) {
+            int b = (int)fmin(NBINS - 1, floor((r->margin - lo) / w));
+            cnt[b]++;
+            peak = cnt[b] > peak ? cnt[b] : peak;
+        }
+    }
+    br_plot p;
+    char title[128], key[64];
+    br_plot_frame(&p, s, x, yy, PANEL_W, PANEL_H);
+    br_plot_range(&p, lo, hi, 0, 1.1 * (double)peak, 0);
+    snprintf(title, sizeof title, "%s: %ld of %ld fail", br_crit_title(crit), y->c[crit].fails,
+             y->c[crit].judged);
+    snprintf(key, sizeof key, "yield-%s", br_crit_name(crit));
+    br_plot_axes(&p, key, title, "margin", UNITS[crit], "samples", "");
+    bars(&p, cnt, lo, w);
+    if (lo <= 0.0)
+        br_plot_vline(&p, 0.0, &S_FAILS, "limit");
+    else
+        br_svg_text_in(s, p.x0 + 6, p.y0 + 16, BR_FONT_TICK, "start", BR_VERMILION, 1,
+                       "\xe2\x86\x90 limit (0) far to the left");
+    br_plot_done(&p);
+}
+
+int br_chart_yield(const br_yield *y, int standalone, br_text *out)
+{
+    int crits[BR_CRIT_COUNT], n = 0;
+    for (int i = 0; i < BR_CRIT_COUNT; i++)
+        if (y->c[i].applies && y->c[i].judged > 0)
+            crits[n++] = i;
+    br_svg s;
+    char head[160];
+    snprintf(head, sizeof head,
+             "Monte Carlo margins, %ld samples (seed %lu): blue passes, vermillion fails", y->n,
+             y->seed);
+    doc_begin(&s, out, 2 * PANEL_W, grid_height(n > 0 ? n : 1, 2), standalone, head);
+    heading(&s, head);
+    for (int i = 0; i < n; i++) {
+        double x, yy;
+        panel_at(i, 2, &x, &yy);
+        histogram_panel(&s, y, crits[i], x, yy);
+    }
+    return br_svg_end(&s);
+}
+
+/* ---- hold window --------------------------------------------------------- */
+
+static void sweep_panel(br_svg *s, const br_sweep *sw, double y)
+{
+    double x[BR_MAX_SCAN], m[BR_MAX_SCAN], lo = 0.0, hi = 0.0;
+    int fsw = sw->axis == BR_AXIS_FSW;
+    for (int i = 0; i < sw->nscan; i++) {
+        x[i] = fsw ? sw->scan[i].fsw : 100.0 * sw->scan[i].duty; /* duty in % */
+        m[i] = sw->scan[i].margin;
+        if (isfinite(m[i])) {
+            lo = fmin(lo, m[i]);
+            hi = fmax(hi, m[i]);
+        }
+    }
+    br_plot p;
+    br_plot_frame(&p, s, 0, y, 2 * PANEL_W, PANEL_H);
+    p.xlog = fsw && sw->lo > 0;
+    double k = fsw ? 1.0 : 100.0;
+    br_plot_range(&p, k * sw->lo, k * sw->hi, lo, hi, 1);
+    br_plot_axes(&p, fsw ? "window-fsw" : "window-duty",
+                 fsw ? "worst margin against switching frequency" : "worst margin against duty",
+                 fsw ? "switching frequency" : "duty", fsw ? "Hz" : "%", "margin", "V");
+    br_plot_hline(&p, 0.0, &S_FAILS, "fails below");
+    br_plot_line(&p, x, m, sw->nscan, 1, &S_RAIL, fsw ? "margin_vs_fsw_V" : "margin_vs_duty_V");
+    for (int i = 0; i < sw->nscan; i++)
+        if (isfinite(m[i]))
+            br_svg_circle(s, br_plot_px(&p, x[i]), br_plot_py(&p, m[i]), 3.0,
+                          sw->scan[i].holds ? BR_BLUE : BR_VERMILION, "none", 0);
+    br_plot_vline(&p, k * sw->design, &S_START, "design");
+    br_plot_done(&p);
+}
+
+int br_chart_window(const br_window *w, int standalone, br_text *out)
+{
+    br_svg s;
+    const br_sweep *sw[2] = {&w->duty, &w->fsw};
+    int n = 0;
+    for (int i = 0; i < 2; i++)
+        n += sw[i]->applies && sw[i]->nscan > 1;
+    doc_begin(&s, out, 2 * PANEL_W, HEAD_H + PANEL_H * (n ? n : 1), standalone,
+              "Hold window: worst margin along each axis");
+    heading(&s, "Hold window: worst margin of the coarse scans");
+    double y = HEAD_H;
+    for (int i = 0; i < 2; i++)
+        if (sw[i]->applies && sw[i]->nscan > 1) {
+            sweep_panel(&s, sw[i], y);
+            y += PANEL_H;
+        }
+    if (n == 0)
+        br_svg_text_in(&s, 20, HEAD_H + 40, BR_FONT_LABEL, "start", BR_INK, 0,
+                       "no scan to show: the design's switches have no duty to move");
+    return br_svg_end(&s);
+}

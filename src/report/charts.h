@@ -1,0 +1,44 @@
+/* charts.h - the plots of the reports: start-up waveforms, steady-state
+ * ripple, diode stress, the yield histogram and the hold-window sweep.
+ *
+ * Each function draws one complete <svg> into out: with standalone set a
+ * document of its own (for --plot), otherwise an element for an XHTML
+ * page.  Returns BR_OK or BR_ENOMEM. */
+#ifndef BR_REPORT_CHARTS_H
+#define BR_REPORT_CHARTS_H
+
+#include "analyses/figures.h"
+#include "analyses/window.h"
+#include "analyses/yield.h"
+#include "report/trace.h"
+
+/* One panel per rail: its voltage from cold, UVLO rising and falling
+ * (as the rail must reach them) and the moment its driver starts for
+ * good. */
+int br_chart_startup(const br_chain *c, const br_startup *su, const br_trace *tr, int standalone,
+                     br_text *out);
+
+/* One panel per rail over the trace (two periods from the steady state):
+ * the rail, the driver supply behind a regulator, UVLO falling, the
+ * minimum drive and the gate maximum. */
+int br_chart_ripple(const br_chain *c, const br_steady_figs *f, const br_trace *tr, int standalone,
+                    br_text *out);
+
+/* The link that comes closest to its derated reverse rating (or, with no
+ * rating anywhere, that blocks the most) over the ndir directions;
+ * *dir gets the index in f of the direction where it does. */
+int br_chart_worst_link(const br_chain *c, const br_steady_figs *f, int ndir, int *dir);
+
+/* Link k over one period of the trace: forward current and reverse
+ * voltage, with its rating and derated rating. */
+int br_chart_diode(const br_chain *c, const br_steady_figs *f, int k, const br_trace *tr,
+                   int standalone, br_text *out);
+
+/* One histogram per judged criterion: the margins of the samples, the
+ * failing side marked. */
+int br_chart_yield(const br_yield *y, int standalone, br_text *out);
+
+/* The worst margin of the coarse scans against duty and frequency. */
+int br_chart_window(const br_window *w, int standalone, br_text *out);
+
+#endif

@@ -1,0 +1,405 @@
+/* html_report.c - the page skeleton, the verdict and the stress tables of
+ * the HTML reports. */
+#include "report/html_report.h"
+
+#include "report/caution.h"
+#include "report/plot.h"
+#include "report/report_common.h"
+#include "report/startup_report.h"
+#include "report/svg.h"
+
+#include <math.h>
+#include <stdio.h>
+#include <string.h>
+
+/* Our own look: a slate header, white cards, tables that read in print.
+ * Results are told apart by words and symbols as well as by colour. */
+static const char STYLE[] =
+    "body{margin:0;background:#eef1f4;color:#1d2733;"
+    "font:16px/1.45 'DejaVu Sans',Verdana,system-ui,sans-serif}\n"
+    "header{background:#1d2733;color:#fff;padding:20px 32px}\n"
+    "header h1{margin:0 0 4px;font-size:26px;letter-spacing:.5px}\n"
+    "header p{margin:2px 0;color:#d4dbe3}\n"
+    "main{max-width:1240px;margin:0 auto;padding:16px 20px 40px}\n"
+    "section{background:#fff;border:1px solid #d3dae2;border-radius:6px;margin:18px 0;"
+    "padding:14px 22px}\n"
+    "h2{font-size:21px;margin:4px 0 10px;border-bottom:3px solid #0072B2;"
+    "display:inline-block;padding-bottom:2px}\n"
+    "table{border-collapse:collapse;margin:8px 0;font-size:15px}\n"
+    "th,td{border-bottom:1px solid #d3dae2;padding:5px 12px;text-align:right;"
+    "white-space:nowrap}\n"
+    "th{background:#f3f5f8;text-align:center}\n"
+    "td.l,th.l{text-align:left}\n"
+    "tbody tr:nth-child(even){background:#f8fafb}\n"
+    ".pass{color:#00603f;font-weight:bold}\n"
+    ".fail{color:#a33a00;font-weight:bold;background:#fbe9dd}\n"
+    ".na{color:#5b6670}\n"
+    ".badge{display:inline-block;font-size:22px;font-weight:bold;padding:6px 18px;"
+    "border-radius:4px;margin:4px 0 8px}\n"
+    ".badge.pass{background:#dff3eb;border:2px solid #009E73}\n"
+    ".badge.fail{border:2px solid #D55E00}\n"
+    ".note{margin:4px 0;color:#3a4652}\n"
+    "figure{margin:10px 0;overflow-x:auto}\n"
+    "pre{font-size:14px;background:#f6f8fa;padding:10px;overflow-x:auto}\n"
+    "figure svg{max-width:100%;height:auto;display:block}\n"
+    "figcaption{font-size:15px;color:#3a4652;margin-top:4px}\n"
+    ".caution{background:#fff6df;border:2px solid #E69F00}\n"
+    ".caution h2{border-bottom-color:#E69F00}\n"
+    "footer{text-align:center;color:#5b6670;font-size:14px}\n"
+    "@media print{body{background:#fff}section{border:none;break-inside:avoid}"
+    "header{background:#fff;color:#000;border-bottom:3px solid #000}"
+    "header p{color:#000}}\n";
+
+int br_html_text(br_text *out, const char *text)
+{
+    return br_xml_escape_put(out, text);
+}
+
+static int tag_text(br_text *out, const char *open, const char *text, const char *close)
+{
+    int rc = br_text_put(out, open);
+    rc |= br_html_text(out, text);
+    return rc | br_text_put(out, close) ? BR_ENOMEM : BR_OK;
+}
+
+int br_html_para(br_text *out, const char *text)
+{
+    return tag_text(out, "<p class=\"note\">", text, "</p>\n");
+}
+
+static int operating_point(br_text *out, const br_chain *c)
+{
+    char a[32], b[32], d[32];
+    char line[256];
+    snprintf(line, sizeof line,
+             "%d switches, bus %s, switching at %s, duty %.1f %%, dead time %s, ambient %.0f "
+             "\xc2\xb0"
+             "C",
+             c->n, br_plot_si(a, sizeof a, c->vin, 4, "V"),
+             br_plot_si(b, sizeof b, c->fsw, 4, "Hz"), 100.0 * c->duty,
+             br_plot_si(d, sizeof d, c->deadtime, 3, "s"), c->tamb - 273.15);
+    return tag_text(out, "<p>", line, "</p>\n");
+}
+
+int br_html_begin(br_text *out, const br_chain *c, const char *what)
+{
+    const br_design *d = c->design;
+    const char *name = d && d->name[0] ? d->name : "design";
+    int rc = br_text_put(out, "<!DOCTYPE html>\n"
+                              "<html xmlns=\"http://www.w3.org/1999/xhtml\" lang=\"en\">\n"
+                              "<head>\n<meta charset=\"utf-8\"/>\n"
+                              "<meta name=\"viewport\" content=\"width=device-width\"/>\n"
+                              "<title>bootrung ");
+    rc |= br_html_text(out, what);
+    rc |= br_text_put(out, ": ");
+    rc |= br_html_text(out, name);
+    rc |= br_text_printf(out, "</title>\n<style>\n%s</style>\n</head>\n<body>\n<header>\n", STYLE);
+    rc |= br_text_put(out, "<h1>");
+    rc |= br_html_text(out, name);
+    rc |= br_text_put(out, "</h1>\n");
+    char line[700];
+    snprintf(line, sizeof line, "bootrung %s of %s", what, d ? d->path : "");
+    rc |= tag_text(out, "<p>", line, "</p>\n");
+    rc |= operating_point(out, c);
+    rc |= br_text_put(out, "</header>\n<main>\n");
+    return rc ? BR_ENOMEM : BR_OK;
+}
+
+int br_html_section(br_text *out, const char *heading, const char *intro)
+{
+    int rc = tag_text(out, "<section>\n<h2>", heading, "</h2>\n");
+    if (intro)
+        rc |= br_html_para(out, intro);
+    return rc ? BR_ENOMEM : BR_OK;
+}
+
+int br_html_section_end(br_text *out)
+{
+    return br_text_put(out, "</section>\n");
+}
+
+int br_html_figure(br_text *out, const br_text *svg, const char *caption)
+{
+    const char *s = br_text_data(svg);
+    if (strncmp(s, "<?xml", 5) == 0) {
+        const char *nl = strchr(s, '\n');
+        s = nl ? nl + 1 : s;
+    }
+    int rc = br_text_put(out, "<figure>\n");
+    rc |= br_text_put(out, s);
+    if (caption)
+        rc |= tag_text(out, "<figcaption>", caption, "</figcaption>\n");
+    return rc | br_text_put(out, "</figure>\n") ? BR_ENOMEM : BR_OK;
+}
+
+/* ---- cells ----------------------------------------------------------------- */
+
+static int cell(br_text *out, const char *cls, const char *text)
+{
+    int rc =
+        br_text_printf(out, "<td%s%s%s>", cls ? " class=\"" : "", cls ? cls : "", cls ? "\"" : "");
+    rc |= br_html_text(out, text);
+    return rc | br_text_put(out, "</td>") ? BR_ENOMEM : BR_OK;
+}
+
+static int cell_si(br_text *out, double v, int digits, const char *unit)
+{
+    char b[48];
+    return cell(out, NULL, br_plot_si(b, sizeof b, v, digits, unit));
+}
+
+/* "pass ✓" / "FAIL ✗" / "n/a": the word carries the meaning, the colour
+ * only helps. */
+static int cell_result(br_text *out, int applies, int pass)
+{
+    if (!applies)
+        return cell(out, "l na", "n/a");
+    return cell(out, pass ? "l pass" : "l fail", pass ? "pass \xe2\x9c\x93" : "FAIL \xe2\x9c\x97");
+}
+
+static int head_row(br_text *out, const char *const *heads, int n)
+{
+    int rc = br_text_put(out, "<table>\n<thead><tr>");
+    for (int i = 0; i < n; i++)
+        rc |= tag_text(out, i == 0 ? "<th class=\"l\">" : "<th>", heads[i], "</th>");
+    return rc | br_text_put(out, "</tr></thead>\n<tbody>\n") ? BR_ENOMEM : BR_OK;
+}
+
+static int table_end(br_text *out)
+{
+    return br_text_put(out, "</tbody>\n</table>\n");
+}
+
+/* ---- verdict --------------------------------------------------------------- */
+
+static int verdict_row(br_text *out, const br_chain *c, const br_verdict_row *r)
+{
+    char at[64];
+    int link = r->crit == BR_CRIT_INRUSH || r->crit == BR_CRIT_DIODE_VR;
+    int startup = r->crit == BR_CRIT_STARTUP || r->crit == BR_CRIT_INRUSH;
+    int rc = br_text_put(out, "<tr>");
+    rc |= cell(out, "l", br_crit_title(r->crit));
+    rc |= cell_result(out, r->applies, r->pass);
+    const char *u = r->unit ? r->unit : "";
+    if (r->applies) {
+        rc |= cell_si(out, r->figure, 4, u);
+        rc |= cell_si(out, r->limit, 4, u);
+        rc |= cell_si(out, r->margin, 4, u);
+    } else {
+        rc |= cell(out, NULL, "-") | cell(out, NULL, "-") | cell(out, NULL, "-");
+    }
+    if (r->applies && r->stage >= 0 && r->stage < c->n)
+        snprintf(at, sizeof at, "%s %s", link ? "link" : "rail", c->st[r->stage].name);
+    else
+        snprintf(at, sizeof at, "-");
+    rc |= cell(out, "l", at);
+    rc |= cell(out, "l", r->applies && !startup ? br_dir_label(r->dir) : "-");
+    return rc | br_text_put(out, "</tr>\n") ? BR_ENOMEM : BR_OK;
+}
+
+static int verdict_notes(br_text *out, const br_chain *c, const br_verdict *v, unsigned mask,
+                         const br_startup *su)
+{
+    int rc = BR_OK;
+    br_text *why = br_text_create();
+    if (!why)
+        return BR_ENOMEM;
+    for (int i = 0; i < BR_CRIT_COUNT; i++) {
+        const br_verdict_row *r = &v->row[i];
+        if (!(mask & (1u << i)) || (r->applies && r->pass))
+            continue;
+        br_text_reset(why);
+        rc |= br_text_printf(why, "%s %s: ", r->applies ? "FAIL" : "n/a", br_crit_title(i));
+        size_t head = br_text_len(why);
+        if (i == BR_CRIT_STARTUP && su && r->applies && !su->complete)
+            rc |= br_startup_stall_text(c, su, why);
+        else
+            rc |= br_text_put(why, r->note);
+        if (br_text_len(why) > head)
+            rc |= br_html_para(out, br_text_data(why));
+    }
+    br_text_free(why);
+    return rc;
+}
+
+int br_html_verdict(br_text *out, const br_chain *c, const br_verdict *v, unsigned mask,
+                    const br_startup *su)
+{
+    static const char *const heads[] = {"criterion", "result",   "figure",           "limit",
+                                        "margin",    "binds at", "current direction"};
+    int evaluated = 0, failed = 0;
+    for (int i = 0; i < BR_CRIT_COUNT; i++)
+        if (mask & (1u << i)) {
+            evaluated += v->row[i].applies;
+            failed += v->row[i].applies && !v->row[i].pass;
+        }
+    int rc = br_html_section(out, "Verdict", NULL);
+    char line[160];
+    if (failed)
+        snprintf(line, sizeof line, "FAIL \xe2\x9c\x97  %d of %d criteria evaluated fail", failed,
+                 evaluated);
+    else
+        snprintf(line, sizeof line, "PASS \xe2\x9c\x93  all %d criteria evaluated pass", evaluated);
+    rc |= tag_text(out, failed ? "<div class=\"badge fail\">" : "<div class=\"badge pass\">", line,
+                   "</div>\n");
+    rc |= head_row(out, heads, 7);
+    for (int i = 0; i < BR_CRIT_COUNT; i++)
+        if (mask & (1u << i))
+            rc |= verdict_row(out, c, &v->row[i]);
+    rc |= table_end(out);
+    rc |= br_html_para(out, "Margin = limit - figure for a maximum, figure - limit for a minimum; "
+                            "a negative margin fails.");
+    rc |= verdict_notes(out, c, v, mask, su);
+    return rc | br_html_section_end(out) ? BR_ENOMEM : BR_OK;
+}
+
+/* ---- tables ---------------------------------------------------------------- */
+
+int br_html_startup_table(br_text *out, const br_chain *c, const br_startup *su)
+{
+    static const char *const heads[] = {"stage",    "first start", "final start",
+                                        "dropouts", "inrush peak", "surge rating",
+                                        "result",   "rail at end"};
+    char b[48];
+    int rc = head_row(out, heads, 8);
+    for (int k = 0; k < c->n; k++) {
+        const br_startup_stage *s = &su->st[k];
+        double ifsm = k > 0 ? c->st[k].diode.ifsm : 0.0;
+        rc |= br_text_put(out, "<tr>");
+        rc |= cell(out, "l", c->st[k].name);
+        rc |= cell(out, NULL, br_plot_time(b, sizeof b, s->first_enable));
+        rc |= cell(out, s->final_enable < 0 ? "fail" : NULL,
+                   s->final_enable < 0 ? "never" : br_plot_time(b, sizeof b, s->final_enable));
+        snprintf(b, sizeof b, "%d", s->ndropouts);
+        rc |= cell(out, NULL, b);
+        rc |= k > 0 ? cell_si(out, s->ipeak, 3, "A") : cell(out, NULL, "-");
+        rc |= ifsm > 0 ? cell_si(out, ifsm, 3, "A") : cell(out, NULL, "-");
+        rc |= cell_result(out, 1, s->final_enable >= 0 && !(ifsm > 0 && s->ipeak > ifsm));
+        rc |= cell_si(out, s->vend, 4, "V");
+        rc |= br_text_put(out, "</tr>\n");
+    }
+    return rc | table_end(out) ? BR_ENOMEM : BR_OK;
+}
+
+/* The worst of each rail figure over the directions. */
+static br_rail_fig worst_rail(const br_steady_figs *f, int ndir, int k)
+{
+    br_rail_fig w = f[0].rail[k];
+    for (int d = 1; d < ndir; d++) {
+        const br_rail_fig *r = &f[d].rail[k];
+        w.vmin = fmin(w.vmin, r->vmin);
+        w.vmax = fmax(w.vmax, r->vmax);
+        w.ripple = fmax(w.ripple, r->ripple);
+        w.vdrv_min = fmin(w.vdrv_min, r->vdrv_min);
+        w.vdrv_max = fmax(w.vdrv_max, r->vdrv_max);
+        w.m_uvlo = fmin(w.m_uvlo, r->m_uvlo);
+        w.m_drive = fmin(w.m_drive, r->m_drive);
+        w.m_gate = fmin(w.m_gate, r->m_gate);
+        w.vcap_peak = fmax(w.vcap_peak, r->vcap_peak);
+        w.icap_rms = fmax(w.icap_rms, r->icap_rms);
+    }
+    return w;
+}
+
+int br_html_rail_table(br_text *out, const br_chain *c, const br_steady_figs *f, int ndir)
+{
+    static const char *const heads[] = {
+        "rail",           "min",          "max",         "ripple", "driver min", "driver max",
+        "margin to UVLO", "to min drive", "to gate max", "result"};
+    int rc = head_row(out, heads, 10);
+    for (int k = 0; k < c->n; k++) {
+        br_rail_fig r = worst_rail(f, ndir, k);
+        int drive = c->min_drive > 0, gate = c->st[k].sw.vgs_max > 0;
+        int pass = r.m_uvlo >= 0 && (!drive || r.m_drive >= 0) && (!gate || r.m_gate >= 0);
+        rc |= br_text_put(out, "<tr>");
+        rc |= cell(out, "l", c->st[k].name);
+        rc |= cell_si(out, r.vmin, 4, "V") | cell_si(out, r.vmax, 4, "V");
+        rc |= cell_si(out, r.ripple, 3, "V");
+        rc |= cell_si(out, r.vdrv_min, 4, "V") | cell_si(out, r.vdrv_max, 4, "V");
+        rc |= cell_si(out, r.m_uvlo, 3, "V");
+        rc |= drive ? cell_si(out, r.m_drive, 3, "V") : cell(out, NULL, "-");
+        rc |= gate ? cell_si(out, r.m_gate, 3, "V") : cell(out, NULL, "-");
+        rc |= cell_result(out, 1, pass);
+        rc |= br_text_put(out, "</tr>\n");
+    }
+    return rc | table_end(out) ? BR_ENOMEM : BR_OK;
+}
+
+int br_html_diode_table(br_text *out, const br_chain *c, const br_steady_figs *f, int ndir)
+{
+    static const char *const heads[] = {"link",   "reverse peak", "derated limit", "of rating",
+                                        "I peak", "I RMS",        "I average",     "Qrr",
+                                        "loss",   "result"};
+    int rc = head_row(out, heads, 10);
+    char b[48];
+    for (int k = 1; k < c->n; k++) {
+        br_link_fig w = f[0].link[k];
+        for (int d = 1; d < ndir; d++) {
+            const br_link_fig *l = &f[d].link[k];
+            w.vrev_stress = fmax(w.vrev_stress, l->vrev_stress);
+            w.ipeak = fmax(w.ipeak, l->ipeak);
+            w.irms = fmax(w.irms, l->irms);
+            w.iavg = fmax(w.iavg, l->iavg);
+            w.qrr = fmax(w.qrr, l->qrr);
+            w.p_cond = fmax(w.p_cond + w.p_rr, l->p_cond + l->p_rr) - w.p_rr;
+        }
+        double lim = c->derating * w.vrrm;
+        rc |= br_text_put(out, "<tr>");
+        rc |= cell(out, "l", c->st[k].name);
+        rc |= cell_si(out, w.vrev_stress, 4, "V");
+        rc |= w.vrrm > 0 ? cell_si(out, lim, 4, "V") : cell(out, NULL, "unrated");
+        snprintf(b, sizeof b, "%.0f %%", 100.0 * (w.vrrm > 0 ? w.vrev_stress / w.vrrm : 0.0));
+        rc |= cell(out, NULL, w.vrrm > 0 ? b : "-");
+        rc |= cell_si(out, w.ipeak, 3, "A") | cell_si(out, w.irms, 3, "A");
+        rc |= cell_si(out, w.iavg, 3, "A") | cell_si(out, w.qrr, 3, "C");
+        rc |= cell_si(out, w.p_cond + w.p_rr, 3, "W");
+        rc |= cell_result(out, w.vrrm > 0, w.vrev_stress <= lim);
+        rc |= br_text_put(out, "</tr>\n");
+    }
+    return rc | table_end(out) ? BR_ENOMEM : BR_OK;
+}
+
+int br_html_cap_table(br_text *out, const br_chain *c, const br_steady_figs *f, int ndir)
+{
+    static const char *const heads[] = {"rail",   "part",        "C at bias", "peak",
+                                        "rating", "RMS current", "result"};
+    int rc = head_row(out, heads, 7);
+    for (int k = 1; k < c->n; k++) {
+        br_rail_fig r = worst_rail(f, ndir, k);
+        rc |= br_text_put(out, "<tr>");
+        rc |= cell(out, "l", c->st[k].name);
+        rc |= cell(out, "l", c->st[k].cap.id ? c->st[k].cap.id : "-");
+        rc |= cell_si(out, r.c_eff, 3, "F") | cell_si(out, r.vcap_peak, 4, "V");
+        rc |= r.vcap_rating > 0 ? cell_si(out, r.vcap_rating, 3, "V") : cell(out, NULL, "-");
+        rc |= cell_si(out, r.icap_rms, 3, "A");
+        rc |= cell_result(out, r.vcap_rating > 0, r.vcap_peak <= r.vcap_rating);
+        rc |= br_text_put(out, "</tr>\n");
+    }
+    return rc | table_end(out) ? BR_ENOMEM : BR_OK;
+}
+
+/* ---- end ------------------------------------------------------------------- */
+
+int br_html_end(br_text *out)
+{
+    br_text *t = br_text_create();
+    if (!t)
+        return BR_ENOMEM;
+    int rc = br_report_caution(t);
+    /* one paragraph: the text report's line breaks mean nothing here */
+    char buf[1024];
+    snprintf(buf, sizeof buf, "%s", br_text_data(t));
+    char *s = buf;
+    for (char *p = s; *p; p++)
+        if (*p == '\n')
+            *p = ' ';
+    while (*s == ' ')
+        s++;
+    rc |= br_text_put(out, "<section class=\"caution\">\n<h2>High voltage: read this</h2>\n");
+    rc |= tag_text(out, "<p>", s, "</p>\n");
+    rc |= br_text_put(out, "</section>\n</main>\n<footer><p>Made by bootrung. Self-contained "
+                           "page: no scripts, nothing loaded from a network.</p></footer>\n"
+                           "</body>\n</html>\n");
+    br_text_free(t);
+    return rc ? BR_ENOMEM : BR_OK;
+}

@@ -1,0 +1,336 @@
+/* test_cli_report.c - --report and --plot as a user meets them: every
+ * page and plot parses as XML with libxml2 (the pages are XHTML that is
+ * also HTML), the page is self-contained and in the promised order, and
+ * the points plotted map back to the rows of the CSV file of the same
+ * run. */
+#include "runbin.h"
+#include "testkit.h"
+
+#include <libxml/parser.h>
+#include <libxml/tree.h>
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <unistd.h>
+
+static void count_error(void *ctx, const xmlError *e)
+{
+    (void)e;
+    (*(int *)ctx)++;
+}
+
+/* Parse a file as XML, failing the test on any error or warning. */
+static xmlDocPtr parse_file(const char *path, char **text)
+{
+    size_t len = 0;
+    char *s = br_test_slurp(path, &len);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(s);
+    int errors = 0;
+    xmlSetStructuredErrorFunc(&errors, (xmlStructuredErrorFunc)count_error);
+    xmlDocPtr doc = xmlReadMemory(s, (int)len, path, NULL, XML_PARSE_NONET);
+    xmlSetStructuredErrorFunc(NULL, NULL);
+    CU_ASSERT_EQUAL(errors, 0);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(doc);
+    if (text)
+        *text = s;
+    else
+        free(s);
+    return doc;
+}
+
+static void temp_dir(char *path, size_t cap)
+{
+    snprintf(path, cap, "/tmp/br-report-XXXXXX");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(path));
+}
+
+static void remove_all(const char *dir, const char *const *names)
+{
+    char p[512];
+    for (; *names; names++) {
+        snprintf(p, sizeof p, "%s/%s", dir, *names);
+        unlink(p);
+    }
+    rmdir(dir);
+}
+
+/* ---- the CSV of the run ------------------------------------------------- */
+
+#define MAXROWS 200000
+#define MAXCOLS 40
+
+typedef struct csv {
+    int ncol;
+    char name[MAXCOLS][32]; /* columns after series and t_s */
+    long nrow;
+    char (*series)[24];
+    double *t;
+    double (*v)[MAXCOLS];
+} csv;
+
+static void csv_load(csv *c, const char *path)
+{
+    size_t len;
+    char *s = br_test_slurp(path, &len);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(s);
+    memset(c, 0, sizeof *c);
+    c->series = malloc(sizeof *c->series * MAXROWS);
+    c->t = malloc(sizeof(double) * MAXROWS);
+    c->v = malloc(sizeof *c->v * MAXROWS);
+    char *save = NULL;
+    char *line = strtok_r(s, "\n", &save);
+    /* header: series,t_s,rail_B1_V,... */
+    char *f = strchr(strchr(line, ',') + 1, ',');
+    while (f && c->ncol < MAXCOLS) {
+        f++;
+        size_t n = strcspn(f, ",");
+        snprintf(c->name[c->ncol++], sizeof c->name[0], "%.*s", (int)n, f);
+        f = strchr(f, ',');
+    }
+    while ((line = strtok_r(NULL, "\n", &save)) && c->nrow < MAXROWS) {
+        size_t n = strcspn(line, ",");
+        snprintf(c->series[c->nrow], sizeof c->series[0], "%.*s", (int)n, line);
+        char *p = line + n + 1;
+        c->t[c->nrow] = strtod(p, &p);
+        for (int k = 0; k < c->ncol; k++)
+            c->v[c->nrow][k] = strtod(p + 1, &p);
+        c->nrow++;
+    }
+    free(s);
+}
+
+static void csv_free(csv *c)
+{
+    free(c->series);
+    free(c->t);
+    free(c->v);
+}
+
+static int csv_col(const csv *c, const char *name)
+{
+    for (int k = 0; k < c->ncol; k++)
+        if (strcmp(c->name[k], name) == 0)
+            return k;
+    return -1;
+}
+
+/* The CSV series a panel draws from, by its key. */
+static const char *series_of(const char *panel)
+{
+    if (strncmp(panel, "startup-", 8) == 0)
+        return "startup";
+    if (strstr(panel, "-down-"))
+        return "steady-step-down";
+    if (strstr(panel, "-up-"))
+        return "steady-step-up";
+    return "steady";
+}
+
+static double prop(xmlNodePtr n, const char *name)
+{
+    xmlChar *v = xmlGetProp(n, BAD_CAST name);
+    double d = v ? strtod((const char *)v, NULL) : NAN;
+    xmlFree(v);
+    return d;
+}
+
+typedef struct frame {
+    double xmin, xmax, ymin, ymax, px0, py0, pw, ph;
+} frame;
+
+/* Check each point of one polyline against the rows of its series: some
+ * row lies within the coordinates' rounding (0.05 px, plus the 7 digits
+ * of the CSV).  Points past the series' last row (the second steady
+ * period, which the CSV does not hold) are not checked.  Returns the
+ * number of points checked; *bad counts those without a row. */
+static long check_line(const csv *c, const char *series, int col, const frame *f, const char *pts,
+                       long *bad)
+{
+    double dt = 0.06 * (f->xmax - f->xmin) / f->pw, dy = 0.06 * (f->ymax - f->ymin) / f->ph;
+    double tlo = HUGE_VAL, thi = -HUGE_VAL;
+    for (long r = 0; r < c->nrow; r++)
+        if (strcmp(c->series[r], series) == 0) {
+            tlo = fmin(tlo, c->t[r]);
+            thi = fmax(thi, c->t[r]);
+        }
+    long checked = 0;
+    double px, py;
+    for (const char *s = pts; s && sscanf(s, "%lf,%lf", &px, &py) == 2;
+         s = strchr(s, ' '), s = s ? s + 1 : NULL) {
+        double t = f->xmin + (px - f->px0) / f->pw * (f->xmax - f->xmin);
+        double v = f->ymax - (py - f->py0) / f->ph * (f->ymax - f->ymin);
+        if (t < tlo - dt || t > thi + dt)
+            continue;
+        int found = 0;
+        for (long r = 0; r < c->nrow && !found; r++)
+            found = fabs(c->t[r] - t) <= dt && strcmp(c->series[r], series) == 0 &&
+                    fabs(c->v[r][col] - v) <= dy + 1e-6 * fabs(v);
+        *bad += !found;
+        if (!found && getenv("BR_DEBUG"))
+            fprintf(stderr, "%s col %d: t %.9g v %.9g\n", series, col, t, v);
+        checked++;
+    }
+    return checked;
+}
+
+static long check_panels(xmlNodePtr n, const csv *c, long *bad)
+{
+    long checked = 0;
+    for (; n; n = n->next) {
+        if (n->type != XML_ELEMENT_NODE)
+            continue;
+        xmlChar *panel = xmlGetProp(n, BAD_CAST "data-panel");
+        if (panel) {
+            frame f = {prop(n, "data-xmin"), prop(n, "data-xmax"), prop(n, "data-ymin"),
+                       prop(n, "data-ymax"), prop(n, "data-px0"),  prop(n, "data-py0"),
+                       prop(n, "data-pw"),   prop(n, "data-ph")};
+            for (xmlNodePtr l = n->children; l; l = l->next) {
+                xmlChar *key = xmlGetProp(l, BAD_CAST "data-series");
+                int col = key ? csv_col(c, (const char *)key) : -1;
+                xmlChar *pts = col >= 0 ? xmlGetProp(l, BAD_CAST "points") : NULL;
+                if (pts)
+                    checked += check_line(c, series_of((const char *)panel), col, &f,
+                                          (const char *)pts, bad);
+                xmlFree(pts);
+                xmlFree(key);
+            }
+            xmlFree(panel);
+        } else {
+            checked += check_panels(n->children, c, bad);
+        }
+    }
+    return checked;
+}
+
+/* ---- cases --------------------------------------------------------------- */
+
+static int count(const char *s, const char *needle)
+{
+    int n = 0;
+    for (const char *p = s; (p = strstr(p, needle)); p++)
+        n++;
+    return n;
+}
+
+static void test_analyze_report(void)
+{
+    char dir[64], html[96], csvp[96];
+    temp_dir(dir, sizeof dir);
+    snprintf(html, sizeof html, "%s/r.html", dir);
+    snprintf(csvp, sizeof csvp, "%s/r.csv", dir);
+    const char *args[] = {"analyze", "examples/leg-7level.xml", "--report", html, "--csv", csvp,
+                          NULL};
+    run_result r = run(args);
+    CU_ASSERT_EQUAL(r.status, 0);
+    done(&r);
+    char *text = NULL;
+    xmlDocPtr doc = parse_file(html, &text);
+    /* self-contained: no script, nothing fetched (the only URIs are the
+     * XML namespaces) */
+    CU_ASSERT_PTR_NULL(strstr(text, "<script"));
+    CU_ASSERT_EQUAL(count(text, "http"), count(text, "http://www.w3.org/"));
+    CU_ASSERT_PTR_NULL(strstr(text, "src="));
+    /* verdict first, caution last */
+    const char *verdict = strstr(text, ">Verdict<"), *caution = strstr(text, "lethal voltages");
+    CU_ASSERT_TRUE(verdict && caution && verdict < caution);
+    CU_ASSERT_TRUE(caution && !strstr(caution, "<section"));
+    CU_ASSERT_EQUAL(count(text, "data-panel=\"startup-"), 12); /* every rail */
+    CU_ASSERT_TRUE(count(text, "UVLO rise") >= 12);
+    CU_ASSERT_TRUE(count(text, "gate max") >= 12);
+    CU_ASSERT_TRUE(has(text, "data-series=\"vrev_"));
+    CU_ASSERT_TRUE(has(text, "\xc2\xb5s")); /* prefixes as people write them */
+    CU_ASSERT_TRUE(strlen(text) < 600000);  /* decimated: a page, not a data dump */
+    csv c;
+    csv_load(&c, csvp);
+    long bad = 0, checked = check_panels(xmlDocGetRootElement(doc), &c, &bad);
+    CU_ASSERT_TRUE(checked > 2000);
+    CU_ASSERT_EQUAL(bad, 0);
+    if (bad)
+        fprintf(stderr, "%ld of %ld plotted points match no CSV row\n", bad, checked);
+    csv_free(&c);
+    xmlFreeDoc(doc);
+    free(text);
+    const char *names[] = {"r.html", "r.csv", NULL};
+    remove_all(dir, names);
+}
+
+/* One verb's --plot (and --report when it has one) parse as XML. */
+static void plot_of(const char *const *args, const char *plot, const char *report)
+{
+    run_result r = run(args);
+    CU_ASSERT_TRUE(r.status == 0 || r.status == 1);
+    if (r.status > 1)
+        fprintf(stderr, "%s: %s\n", args[0], r.err);
+    done(&r);
+    xmlDocPtr doc = parse_file(plot, NULL);
+    CU_ASSERT_STRING_EQUAL(xmlDocGetRootElement(doc)->name, "svg");
+    xmlFreeDoc(doc);
+    if (report) {
+        char *text = NULL;
+        doc = parse_file(report, &text);
+        CU_ASSERT_STRING_EQUAL(xmlDocGetRootElement(doc)->name, "html");
+        CU_ASSERT_TRUE(has(text, "lethal voltages"));
+        CU_ASSERT_PTR_NULL(strstr(text, "<script"));
+        xmlFreeDoc(doc);
+        free(text);
+    }
+}
+
+static void test_every_plot_parses(void)
+{
+    char dir[64], svg[96], html[96];
+    temp_dir(dir, sizeof dir);
+    snprintf(svg, sizeof svg, "%s/p.svg", dir);
+    snprintf(html, sizeof html, "%s/p.html", dir);
+    const char *f = "examples/demo-3level.xml";
+    const char *su[] = {"startup", f, "--plot", svg, "--report", html, NULL};
+    plot_of(su, svg, html);
+    const char *ss[] = {"steady", f, "--plot", svg, "--report", html, NULL};
+    plot_of(ss, svg, html);
+    const char *mp[] = {"map",    f,   "--duty",   "20%:80%:4", "--freq", "50k:200k:3",
+                        "--plot", svg, "--report", html,        NULL};
+    plot_of(mp, svg, html);
+    const char *yd[] = {"yield", f, "--samples", "20", "--plot", svg, "--report", html, NULL};
+    plot_of(yd, svg, html);
+    const char *wd[] = {"window", f, "--plot", svg, "--report", html, NULL};
+    plot_of(wd, svg, html);
+    const char *names[] = {"p.svg", "p.html", NULL};
+    remove_all(dir, names);
+}
+
+/* A report that cannot be written: status 2, said why, nothing on stdout. */
+static void test_unwritable_report(void)
+{
+    const char *args[] = {"steady", "examples/demo-3level.xml", "--report",
+                          "/nonexistent-dir/r.html", NULL};
+    run_result r = run(args);
+    CU_ASSERT_EQUAL(r.status, 2);
+    CU_ASSERT_TRUE(has(r.err, "/nonexistent-dir/r.html"));
+    CU_ASSERT_STRING_EQUAL(r.out, "");
+    done(&r);
+    const char *two[] = {"steady", "examples/demo-3level.xml", "--report", "-", "--plot", "-",
+                         NULL};
+    r = run(two);
+    CU_ASSERT_EQUAL(r.status, 2);
+    done(&r);
+    /* analyze has many plots: they are in the report, not behind --plot */
+    const char *ap[] = {"analyze", "examples/demo-3level.xml", "--plot", "x.svg", NULL};
+    r = run(ap);
+    CU_ASSERT_EQUAL(r.status, 2);
+    CU_ASSERT_TRUE(has(r.err, "unknown option"));
+    done(&r);
+}
+
+int main(void)
+{
+    static const br_test_case cases[] = {
+        {"analyze --report: parses, self-contained, points are CSV rows", test_analyze_report},
+        {"every verb's --plot and --report parse", test_every_plot_parses},
+        {"unwritable or clashing outputs: status 2", test_unwritable_report},
+        {NULL, NULL},
+    };
+    if (chdir(BR_SOURCE_DIR) != 0)
+        return 2;
+    return br_test_main("cli_report", cases);
+}
