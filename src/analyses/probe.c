@@ -250,7 +250,7 @@ static int solve_dir(br_probe *p, int i, const double *u, br_hold_point *pt, br_
     br_steady_opts o;
     br_steady ss;
     const double *guess = predict(p, i, u, buf);
-    scan_opts(p, i, guess, 6, 0, &o);
+    scan_opts(p, i, guess, guess ? 6 : 12, 0, &o); /* no guess: the cold budget at once */
     int found = attempt(p, i, &o, &ss, &pt->periods, err, rc);
     if (!found && *rc == BR_OK && guess) {
         p->jac_valid[i] = 0;

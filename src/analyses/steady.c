@@ -53,8 +53,8 @@ typedef struct shoot {
     int idx[NX];     /* position in the full x of unknown i */
     double base[NX]; /* full x the unknowns are written into */
     long periods;
-    int dropped;           /* a driver toggled during the last map */
-    int have_stats;        /* out->stats already hold the converged period */
+    int dropped;    /* a driver toggled during the last map */
+    int have_stats; /* out->stats already hold the converged period */
 } shoot;
 
 static void on_uvlo(void *ctx, const br_uvlo_event *e)
@@ -270,7 +270,12 @@ static int shoot_variational(shoot *sh, double *z, const br_steady_opts *o, br_s
         double step = 0.0;
         for (int i = 0; i < sh->mv; i++)
             step = isnan(dz[i]) ? HUGE_VAL : fmax(step, fabs(dz[i]));
-        if ((ok = step <= o->tol && !sh->dropped)) {
+        /* Where an edge changes order between neighbouring states the
+         * period map jumps by a few tens of uV and Newton stalls there,
+         * stepping back and forth; a state that already repeats within
+         * the tolerance is then the answer. */
+        int stalled = it >= 3 && step > 0.5 * last_step && out->residual <= o->tol;
+        if ((ok = (step <= o->tol || stalled) && !sh->dropped)) {
             out->stats = *br_sim_stats(sh->sim);
             sh->have_stats = 1;
             break;
