@@ -66,26 +66,55 @@ static int is_stdout(const char *path)
 /* Files first: a failure to write them is reported before any result
  * reaches stdout, so a script never mistakes a partial run for a whole.
  * A file sent to stdout ("-") takes the text report's place. */
-static int write_all(const outputs *o, const char *xml, const char *csv)
+static int write_all(const outputs *o, const char *xml, const char *csv, int quiet)
 {
+    /* --quiet: the verdict of steady and analyze, or how the start-up ended */
+    static const char *const verdict[] = {"verdict:", "start-up complete", "start-up INCOMPLETE",
+                                          NULL};
     int status = BR_EXIT_OK;
     if (xml)
         status = br_cli_save(o->xml, xml);
     if (status == BR_EXIT_OK && csv)
         status = br_cli_save(o->csv, csv);
     if (status == BR_EXIT_OK && !is_stdout(xml) && !is_stdout(csv))
-        status = br_cli_emit(o->text);
+        status = quiet ? br_cli_emit_verdict(o->text, verdict, 1) : br_cli_emit(o->text);
+    return status;
+}
+
+/* Compute, then write unless a signal stopped the run (only the runs with
+ * a cold start, the long ones, take signals and show progress). */
+static int run(const char *path, const char *verb, int parts, outputs *o, const char *xml,
+               const char *csv, int quiet)
+{
+    br_error err;
+    br_error_clear(&err);
+    br_cli_run lr;
+    int longrun = (parts & BR_RUN_STARTUP) != 0;
+    if (longrun) {
+        br_cli_run_begin(&lr, verb, quiet);
+        o->res->progress = &lr.hook;
+    }
+    int rc = compute(path, verb, parts, o, &err);
+    int stop = longrun ? br_cli_run_commit(&lr) : 0;
+    int status = stop          ? stop
+                 : rc != BR_OK ? br_cli_fail(&err, path)
+                               : write_all(o, xml, csv, quiet);
+    if (longrun)
+        br_cli_run_end(&lr);
+    o->res->progress = NULL;
     return status;
 }
 
 int br_cli_analysis(int argc, char **argv, const char *about, int parts)
 {
     const char *xml = NULL, *csv = NULL;
+    int quiet = 0;
     const br_opt opts[] = {
         /* "-" for either sends it to stdout in place of the text report */
         {BR_OPT_STRING, "xml", "PATH", &xml, "also write the results as XML to PATH (- stdout)"},
         {BR_OPT_STRING, "csv", "PATH", &csv,
          "also write the time series as CSV to PATH (- stdout)"},
+        {BR_OPT_FLAG, "quiet", NULL, &quiet, BR_QUIET_HELP},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
     };
     const br_cmd_doc doc = {argv[0], "FILE", about, opts, 1};
@@ -101,10 +130,8 @@ int br_cli_analysis(int argc, char **argv, const char *about, int parts)
     int status;
     if (outputs_alloc(&o, xml, csv, &err) != BR_OK)
         status = br_cli_fail(&err, NULL);
-    else if (compute(pos[0], argv[0], parts, &o, &err) != BR_OK)
-        status = br_cli_fail(&err, pos[0]);
     else
-        status = write_all(&o, xml, csv);
+        status = run(pos[0], argv[0], parts, &o, xml, csv, quiet);
     if (status == BR_EXIT_OK && br_results_failed(o.res))
         status = BR_EXIT_FAIL;
     outputs_free(&o);

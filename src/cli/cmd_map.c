@@ -108,19 +108,20 @@ static int is_stdout(const char *path)
 
 /* Files first, so that a failure to write them comes before any result on
  * stdout; a file sent to stdout takes the summary's place. */
-static int write_all(const outputs *o, const char *csv, const char *svg)
+static int write_all(const outputs *o, const char *csv, const char *svg, int quiet)
 {
+    static const char *const verdict[] = {"design point:", NULL};
     int status = csv ? br_cli_save(o->csv, csv) : BR_EXIT_OK;
     if (status == BR_EXIT_OK && svg)
         status = br_cli_save(o->svg, svg);
     if (status == BR_EXIT_OK && !is_stdout(csv) && !is_stdout(svg))
-        status = br_cli_emit(o->text);
+        status = quiet ? br_cli_emit_verdict(o->text, verdict, 0) : br_cli_emit(o->text);
     if (status == BR_EXIT_OK && !o->m->design.holds)
         status = BR_EXIT_FAIL;
     return status;
 }
 
-static int run(const char *path, const br_map_opts *mo, const char *csv, const char *svg)
+static int run(const char *path, br_map_opts *mo, const char *csv, const char *svg, int quiet)
 {
     outputs o = {br_text_create(), csv ? br_text_create() : NULL, svg ? br_text_create() : NULL,
                  NULL};
@@ -130,10 +131,17 @@ static int run(const char *path, const br_map_opts *mo, const char *csv, const c
     if (!o.text || (csv && !o.csv) || (svg && !o.svg)) {
         br_error_set(&err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
         status = br_cli_fail(&err, NULL);
-    } else if (compute(path, mo, csv, svg, &o, &err) != BR_OK) {
-        status = br_cli_fail(&err, path);
     } else {
-        status = write_all(&o, csv, svg);
+        br_cli_run lr;
+        br_cli_run_begin(&lr, "map", quiet);
+        mo->progress = &lr.hook;
+        int rc = compute(path, mo, csv, svg, &o, &err);
+        int stop = br_cli_run_commit(&lr);
+        status = stop          ? stop
+                 : rc != BR_OK ? br_cli_fail(&err, path)
+                               : write_all(&o, csv, svg, quiet);
+        br_cli_run_end(&lr);
+        mo->progress = NULL;
     }
     outputs_free(&o);
     return status;
@@ -142,12 +150,14 @@ static int run(const char *path, const br_map_opts *mo, const char *csv, const c
 int cmd_map(int argc, char **argv)
 {
     const char *duty = NULL, *freq = NULL, *csv = NULL, *svg = NULL, *threads = NULL;
+    int quiet = 0;
     const br_opt opts[] = {
         {BR_OPT_STRING, "duty", "FROM:TO:N", &duty, "duty grid (required), e.g. 5%:95%:40"},
         {BR_OPT_STRING, "freq", "FROM:TO:N", &freq, "frequency grid (required), e.g. 10k:1M:40"},
         {BR_OPT_STRING, "csv", "PATH", &csv, "write every grid point as CSV to PATH (- stdout)"},
         {BR_OPT_STRING, "svg", "PATH", &svg, "draw the heat map as SVG to PATH (- stdout)"},
         {BR_OPT_STRING, "threads", "N", &threads, "worker threads, 1 to 16 (default 2)"},
+        {BR_OPT_FLAG, "quiet", NULL, &quiet, BR_QUIET_HELP},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
     };
     const br_cmd_doc doc = {"map", "FILE", ABOUT, opts, 1};
@@ -159,7 +169,7 @@ int cmd_map(int argc, char **argv)
         return br_cli_usage_error("map", "--duty and --freq are required");
     if (is_stdout(csv) && is_stdout(svg))
         return br_cli_usage_error("map", "--csv and --svg cannot both go to standard output");
-    br_map_opts mo;
+    br_map_opts mo = {0};
     if (parse_axis("duty", duty, BR_KIND_FRACTION, &mo.duty_from, &mo.duty_to, &mo.nduty) ||
         parse_axis("freq", freq, BR_KIND_FREQUENCY, &mo.fsw_from, &mo.fsw_to, &mo.nfsw) ||
         parse_threads(threads, &mo.threads))
@@ -168,5 +178,5 @@ int cmd_map(int argc, char **argv)
     br_error_clear(&err);
     if (br_map_opts_check(&mo, &err) != BR_OK)
         return br_cli_usage_error("map", "--%s: %s", err.field, err.msg);
-    return run(pos[0], &mo, csv, svg);
+    return run(pos[0], &mo, csv, svg, quiet);
 }

@@ -74,7 +74,19 @@ static int compute(const char *path, const br_window_opts *wo, outputs *o, br_er
     return rc;
 }
 
-static int run(const char *path, const char *xml, const br_window_opts *wo)
+/* The XML file first, then the report (unless the XML took stdout). */
+static int write_all(const outputs *o, const char *xml, int quiet)
+{
+    static const char *const verdict[] = {"design point:", NULL};
+    int status = xml ? br_cli_save(o->xml, xml) : BR_EXIT_OK;
+    if (status == BR_EXIT_OK && !(xml && strcmp(xml, "-") == 0))
+        status = quiet ? br_cli_emit_verdict(o->text, verdict, 0) : br_cli_emit(o->text);
+    if (status == BR_EXIT_OK && !o->w->design.holds)
+        status = BR_EXIT_FAIL;
+    return status;
+}
+
+static int run(const char *path, const char *xml, br_window_opts *wo, int quiet)
 {
     outputs o = {br_text_create(), xml ? br_text_create() : NULL, malloc(sizeof(br_window))};
     br_error err;
@@ -83,14 +95,16 @@ static int run(const char *path, const char *xml, const br_window_opts *wo)
     if (!o.text || !o.w || (xml && !o.xml)) {
         br_error_set(&err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
         status = br_cli_fail(&err, NULL);
-    } else if (compute(path, wo, &o, &err) != BR_OK) {
-        status = br_cli_fail(&err, path);
     } else {
-        status = xml ? br_cli_save(o.xml, xml) : BR_EXIT_OK;
-        if (status == BR_EXIT_OK && !(xml && strcmp(xml, "-") == 0))
-            status = br_cli_emit(o.text);
-        if (status == BR_EXIT_OK && !o.w->design.holds)
-            status = BR_EXIT_FAIL;
+        br_cli_run lr;
+        br_cli_run_begin(&lr, "window", quiet);
+        wo->progress = &lr.hook;
+        int rc = compute(path, wo, &o, &err);
+        status = br_cli_run_commit(&lr);
+        if (status == BR_EXIT_OK)
+            status = rc != BR_OK ? br_cli_fail(&err, path) : write_all(&o, xml, quiet);
+        br_cli_run_end(&lr);
+        wo->progress = NULL;
     }
     outputs_free(&o);
     return status;
@@ -99,13 +113,14 @@ static int run(const char *path, const char *xml, const br_window_opts *wo)
 int cmd_window(int argc, char **argv)
 {
     const char *xml = NULL, *fmin = NULL, *fmax = NULL;
-    int startup = 0;
+    int startup = 0, quiet = 0;
     const br_opt opts[] = {
         {BR_OPT_STRING, "xml", "PATH", &xml, "also write the results as XML to PATH (- stdout)"},
         {BR_OPT_STRING, "fmin", "FREQ", &fmin, "lowest frequency searched (default fsw/100)"},
         {BR_OPT_STRING, "fmax", "FREQ", &fmax,
          "highest frequency searched (default fsw*100, within the dead time)"},
         {BR_OPT_FLAG, "startup", NULL, &startup, "also the start-up window (slow)"},
+        {BR_OPT_FLAG, "quiet", NULL, &quiet, BR_QUIET_HELP},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
     };
     const br_cmd_doc doc = {"window", "FILE", ABOUT, opts, 1};
@@ -119,5 +134,5 @@ int cmd_window(int argc, char **argv)
     if (parse_freq("fmin", fmin, &wo.fmin) != BR_EXIT_OK ||
         parse_freq("fmax", fmax, &wo.fmax) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
-    return run(pos[0], xml, &wo);
+    return run(pos[0], xml, &wo, quiet);
 }
