@@ -183,15 +183,17 @@ static void test_quiet_writes_files(void)
     rmdir(dir);
 }
 
-/* A run of many seconds, stopped by SIGINT after 0.8 s: by then the
- * bar has had half a second to appear, on any machine. */
+/* A run of many seconds (its first points alone take a while), stopped
+ * by SIGINT. */
 static const char *const long_map[] = {"map",    LEG,         "--duty", "5%:95%:40",
                                        "--freq", "10k:1M:40", NULL,     NULL};
 
 /* Run args with stderr on fd err_fd (or, when err_fd < 0, on a
- * pseudo-terminal 80 columns wide), send SIGINT after `after` seconds,
+ * pseudo-terminal 80 columns wide), send SIGINT after `after` seconds or,
+ * when `until` is given, as soon as the terminal shows it (within 30 s),
  * and return what reached stderr (malloc'd). */
-static char *stopped_run(const char *const *args, int err_fd, double after, int *status)
+static char *stopped_run(const char *const *args, int err_fd, double after, const char *until,
+                         int *status)
 {
     int master = -1, slave = err_fd;
     struct winsize ws = {.ws_row = 24, .ws_col = 80};
@@ -210,7 +212,8 @@ static char *stopped_run(const char *const *args, int err_fd, double after, int 
     /* drain the terminal so the child never blocks on it, until its side
      * closes (read fails with EIO) */
     for (;;) {
-        if (!sent && now() - t0 >= after)
+        int due = until ? strstr(buf, until) != NULL || now() - t0 >= 30.0 : now() - t0 >= after;
+        if (!sent && due)
             sent = kill(pid, SIGINT) == 0;
         struct pollfd pf = {master, POLLIN, 0};
         if (master < 0) {
@@ -234,13 +237,13 @@ static char *stopped_run(const char *const *args, int err_fd, double after, int 
     return buf;
 }
 
-/* stderr to a file: not a byte of progress in 0.8 s of running. */
+/* stderr to a file: not a byte of progress in 1.5 s of running. */
 static void test_no_bar_off_terminal(void)
 {
     char pe[] = "/tmp/br-int-err-XXXXXX";
     int fe = mkstemp(pe), status;
     CU_ASSERT_TRUE_FATAL(fe >= 0);
-    free(stopped_run(long_map, fe, 0.8, &status));
+    free(stopped_run(long_map, fe, 1.5, NULL, &status));
     CU_ASSERT_EQUAL(status, 130);
     char *err = br_test_slurp(pe, NULL);
     CU_ASSERT_TRUE(err && strcmp(err, "bootrung: interrupted\n") == 0);
@@ -252,7 +255,7 @@ static void test_no_bar_off_terminal(void)
 static void test_bar_on_terminal(void)
 {
     int status;
-    char *tty = stopped_run(long_map, -1, 0.8, &status);
+    char *tty = stopped_run(long_map, -1, 0.0, " % ", &status);
     CU_ASSERT_EQUAL(status, 130);
     CU_ASSERT_TRUE(has(tty, "\rmap ["));
     CU_ASSERT_TRUE(has(tty, " % "));
@@ -275,7 +278,7 @@ static void test_quiet_no_bar_on_terminal(void)
     const char *args[] = {"map",    LEG,         "--duty",  "5%:95%:40",
                           "--freq", "10k:1M:40", "--quiet", NULL};
     int status;
-    char *tty = stopped_run(args, -1, 0.8, &status);
+    char *tty = stopped_run(args, -1, 1.5, NULL, &status);
     CU_ASSERT_EQUAL(status, 130);
     CU_ASSERT_STRING_EQUAL(tty, "bootrung: interrupted\r\n");
     free(tty);
