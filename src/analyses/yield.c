@@ -217,8 +217,33 @@ static int summarise(br_yield *y, br_error *err)
 
 /* ---- the run ------------------------------------------------------------------ */
 
+/* The spread, the samples, their verdicts and the statistics into y. */
 static int yield_compute(br_yield *y, const br_design *d, const br_yield_opts *o, br_meter *meter,
-                         br_error *err);
+                         br_error *err)
+{
+    br_spread_opts so;
+    br_spread_opts_default(&so);
+    so.threads = o->threads;
+    so.startup = o->startup;
+    so.accept = o->accept;
+    so.meter = meter;
+    int rc = br_spread_create(d, &so, &y->s, err);
+    y->accept = rc == BR_OK ? y->s->accept : o->accept;
+    if (rc == BR_OK) {
+        size_t k = (size_t)(y->s->tl.n > 0 ? y->s->tl.n : 1);
+        y->values = malloc(sizeof(double) * (size_t)y->n * k);
+        y->pts = malloc(sizeof(br_pt) * (size_t)y->n);
+        if (!y->values || !y->pts)
+            rc = br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory for %ld samples", y->n);
+    }
+    if (rc == BR_OK)
+        rc = br_yield_sample(&y->s->tl, y->seed, y->n, y->values, err);
+    if (rc == BR_OK)
+        rc = br_spread_eval(y->s, (int)y->n, y->values, o->startup, y->pts, err);
+    if (rc == BR_OK)
+        rc = summarise(y, err);
+    return rc;
+}
 
 int br_yield_run(const br_design *d, const br_yield_opts *o, br_yield **out, br_error *err)
 {
@@ -251,34 +276,6 @@ int br_yield_run(const br_design *d, const br_yield_opts *o, br_yield **out, br_
     }
     *out = y;
     return BR_OK;
-}
-
-/* The spread, the samples, their verdicts and the statistics into y. */
-static int yield_compute(br_yield *y, const br_design *d, const br_yield_opts *o, br_meter *meter,
-                         br_error *err)
-{
-    br_spread_opts so;
-    br_spread_opts_default(&so);
-    so.threads = o->threads;
-    so.startup = o->startup;
-    so.accept = o->accept;
-    so.meter = meter;
-    int rc = br_spread_create(d, &so, &y->s, err);
-    y->accept = rc == BR_OK ? y->s->accept : o->accept;
-    if (rc == BR_OK) {
-        size_t k = (size_t)(y->s->tl.n > 0 ? y->s->tl.n : 1);
-        y->values = malloc(sizeof(double) * (size_t)y->n * k);
-        y->pts = malloc(sizeof(br_pt) * (size_t)y->n);
-        if (!y->values || !y->pts)
-            rc = br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory for %ld samples", y->n);
-    }
-    if (rc == BR_OK)
-        rc = br_yield_sample(&y->s->tl, y->seed, y->n, y->values, err);
-    if (rc == BR_OK)
-        rc = br_spread_eval(y->s, (int)y->n, y->values, o->startup, y->pts, err);
-    if (rc == BR_OK)
-        rc = summarise(y, err);
-    return rc;
 }
 
 void br_yield_free(br_yield *y)
