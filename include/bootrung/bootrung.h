@@ -28,7 +28,8 @@ typedef enum br_status {
     BR_ENOMEM = 2,   /* allocation failed */
     BR_EIO = 3,      /* a file could not be read or written */
     BR_ENUMERIC = 4, /* a solver failed to converge */
-    BR_EUSAGE = 5    /* the caller broke an API precondition */
+    BR_EUSAGE = 5,   /* the caller broke an API precondition */
+    BR_ECANCEL = 6   /* the caller's progress hook asked the run to stop */
 } br_status;
 
 /* What failed, where.  file/line/field are empty/0 when not known. */

@@ -16,6 +16,7 @@ void br_corners_opts_default(br_corners_opts *o)
     o->startup = 1;
     o->startup_max_exhaustive = 4;
     o->startup_max_sensitive = 3;
+    o->progress = NULL;
 }
 
 int br_crit_is_startup(int crit)
@@ -189,6 +190,7 @@ static int judge_list(br_corners *c, const corner_list *l, int with_startup, br_
     int rc = v && pts ? BR_OK : br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     for (int i = 0; rc == BR_OK && i < l->n; i++)
         br_spread_levels(c->s, ROW(l, i), v + (size_t)i * (size_t)k);
+    br_meter_grow(c->s->meter, l->n);
     if (rc == BR_OK)
         rc = br_spread_eval(c->s, l->n, v, with_startup, pts, err);
     for (int i = 0; rc == BR_OK && i < l->n; i++)
@@ -266,6 +268,26 @@ static void verdict(br_corners *c)
             c->all_pass = 0;
 }
 
+/* The spread and both passes into c. */
+static int search(br_corners *c, const br_design *d, const br_corners_opts *o, br_meter *meter,
+                  br_error *err)
+{
+    br_spread_opts so;
+    br_spread_opts_default(&so);
+    so.threads = o->threads;
+    so.startup = o->startup;
+    so.meter = meter;
+    int rc = br_spread_create(d, &so, &c->s, err);
+    if (rc == BR_OK) {
+        consider_known(c);
+        rc = run_pass(c, 0, o->max_exhaustive, o->max_sensitive, &c->method, err);
+    }
+    if (rc == BR_OK && o->startup)
+        rc =
+            run_pass(c, 1, o->startup_max_exhaustive, o->startup_max_sensitive, &c->su_method, err);
+    return rc;
+}
+
 int br_corners_run(const br_design *d, const br_corners_opts *o, br_corners **out, br_error *err)
 {
     br_corners_opts def;
@@ -277,22 +299,18 @@ int br_corners_run(const br_design *d, const br_corners_opts *o, br_corners **ou
     br_corners *c = calloc(1, sizeof *c);
     if (!c)
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
-    br_spread_opts so;
-    br_spread_opts_default(&so);
-    so.threads = o->threads;
-    so.startup = o->startup;
     c->max_exhaustive = o->max_exhaustive;
     c->max_sensitive = o->max_sensitive;
     c->startup_max_exhaustive = o->startup_max_exhaustive;
     c->startup_max_sensitive = o->startup_max_sensitive;
-    int rc = br_spread_create(d, &so, &c->s, err);
+    br_meter meter;
+    int rc = br_meter_init(&meter, o->progress, 0.0, err);
     if (rc == BR_OK) {
-        consider_known(c);
-        rc = run_pass(c, 0, o->max_exhaustive, o->max_sensitive, &c->method, err);
+        rc = search(c, d, o, &meter, err);
+        br_meter_destroy(&meter);
+        if (c->s)
+            c->s->meter = NULL; /* the meter is gone; the result outlives it */
     }
-    if (rc == BR_OK && o->startup)
-        rc =
-            run_pass(c, 1, o->startup_max_exhaustive, o->startup_max_sensitive, &c->su_method, err);
     if (rc != BR_OK) {
         br_corners_free(c);
         return rc;

@@ -38,6 +38,8 @@ typedef struct br_corners_opts {
     int startup;                /* search the start-up criteria too (1) */
     int startup_max_exhaustive; /* start-up criteria: every corner up to this many parameters (4) */
     int startup_max_sensitive;  /* guided: corners of up to this many parameters (3) */
+    const br_progress *progress; /* points judged of those listed so far (the total grows
+                                    as each pass lists its corners); NULL: none */
 } br_corners_opts;
 
 /* One criterion's worst point. */
@@ -64,7 +66,8 @@ typedef struct br_corners {
 
 void br_corners_opts_default(br_corners_opts *o);
 
-/* Search design d (which must outlive the result). */
+/* Search design d (which must outlive the result).  BR_ECANCEL when
+ * o->progress asks to stop (nothing is returned). */
 int br_corners_run(const br_design *d, const br_corners_opts *o, br_corners **out, br_error *err);
 void br_corners_free(br_corners *c);
 

@@ -1,6 +1,7 @@
 /* map.c - the hold map, computed by worker threads. */
 #include "analyses/map.h"
 
+#include "analyses/meter.h"
 #include "core/error.h"
 
 #include <math.h>
@@ -101,10 +102,23 @@ typedef struct map_job {
     int rc;       /* first failure */
     br_error err; /* its record */
     pthread_mutex_t lock;
+    br_meter meter; /* grid points judged; the caller's hook */
 } map_job;
 
+static int judge_point(br_probe *p, br_map *m, int i, int j, br_error *err);
+
+/* Judge one grid point and count it; BR_ECANCEL when the caller's hook
+ * asks to stop. */
+static int grid_point(map_job *job, br_probe *p, int i, int j, br_error *err)
+{
+    int rc = judge_point(p, job->m, i, j, err);
+    if (rc == BR_OK && br_meter_add(&job->meter, 1.0))
+        rc = br_progress_cancelled(err);
+    return rc;
+}
+
 /* Judge one grid point; a point without on-time is marked, not judged. */
-static int grid_point(br_probe *p, br_map *m, int i, int j, br_error *err)
+static int judge_point(br_probe *p, br_map *m, int i, int j, br_error *err)
 {
     br_hold_point *pt = at(m, i, j);
     double lo, hi;
@@ -130,7 +144,7 @@ static int column_task(map_job *job, br_probe *p, int task, br_error *err)
     int step = task == 0 ? 1 : -1;
     br_probe_load(p, job->seed[m->row0]);
     for (int j = m->row0 + step; j >= 0 && j < m->nfsw; j += step) {
-        int rc = grid_point(p, m, m->col0, j, err);
+        int rc = grid_point(job, p, m->col0, j, err);
         if (rc != BR_OK)
             return rc;
         br_probe_save(p, job->seed[j]);
@@ -145,7 +159,7 @@ static int row_task(map_job *job, br_probe *p, int task, br_error *err)
     int j = task / 2, step = task % 2 == 0 ? 1 : -1;
     br_probe_load(p, job->seed[j]);
     for (int i = m->col0 + step; i >= 0 && i < m->nduty; i += step) {
-        int rc = grid_point(p, m, i, j, err);
+        int rc = grid_point(job, p, i, j, err);
         if (rc != BR_OK)
             return rc;
     }
@@ -236,14 +250,16 @@ static int alloc_seeds(const br_probe *p, int n, br_warm ***out, br_error *err)
 }
 
 /* The design point, then the grid point nearest it, from a cold start. */
-static int first_points(br_probe *p, br_map *m, br_warm *seed, br_error *err)
+static int first_points(map_job *job, br_probe *p, br_map *m, br_warm *seed, br_error *err)
 {
     const br_chain *c = br_probe_design_chain(p);
     m->col0 = nearest(m->duty, m->nduty, c->duty, 0);
     m->row0 = nearest(m->fsw, m->nfsw, c->fsw, 1);
     int rc = br_probe_eval(p, c->duty, c->fsw, &m->design, err);
+    if (rc == BR_OK && br_meter_add(&job->meter, 1.0))
+        rc = br_progress_cancelled(err);
     if (rc == BR_OK)
-        rc = grid_point(p, m, m->col0, m->row0, err);
+        rc = grid_point(job, p, m->col0, m->row0, err);
     br_probe_save(p, seed);
     return rc;
 }
@@ -256,6 +272,22 @@ static long total_periods(const br_map *m)
     return n;
 }
 
+/* The two stages on the worker threads, once the first points are known. */
+static int run_stages(map_job *job, int threads, br_error *err)
+{
+    br_map *m = job->m;
+    m->threads = threads;
+    if (pthread_mutex_init(&job->lock, NULL) != 0)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "cannot create a lock for the workers");
+    int rc = run_stage(job, 1, 2, threads);
+    if (rc == BR_OK)
+        rc = run_stage(job, 2, 2 * m->nfsw, threads);
+    pthread_mutex_destroy(&job->lock);
+    if (rc != BR_OK && err)
+        *err = job->err;
+    return rc;
+}
+
 int br_map_run(const br_design *d, const br_map_opts *o, br_map **out, br_error *err)
 {
     *out = NULL;
@@ -263,26 +295,23 @@ int br_map_run(const br_design *d, const br_map_opts *o, br_map **out, br_error 
     br_probe *p = NULL;
     map_job job = {.d = d, .rc = BR_OK};
     int rc = br_map_opts_check(o, err);
-    if (rc == BR_OK)
-        rc = map_alloc(o, &m, err);
+    if (rc != BR_OK)
+        return rc;
+    rc = br_meter_init(&job.meter, o->progress, (double)o->nduty * o->nfsw + 1.0, err);
+    if (rc != BR_OK)
+        return rc;
+    rc = map_alloc(o, &m, err);
+    job.m = m;
     if (rc == BR_OK)
         rc = br_probe_create(d, &p, err);
     if (rc == BR_OK)
         rc = alloc_seeds(p, o->nfsw, &job.seed, err);
     if (rc == BR_OK)
-        rc = first_points(p, m, job.seed[m->row0], err);
+        rc = first_points(&job, p, m, job.seed[m->row0], err);
     br_probe_free(p);
-    if (rc == BR_OK) {
-        job.m = m;
-        m->threads = o->threads;
-        pthread_mutex_init(&job.lock, NULL);
-        rc = run_stage(&job, 1, 2, o->threads);
-        if (rc == BR_OK)
-            rc = run_stage(&job, 2, 2 * m->nfsw, o->threads);
-        pthread_mutex_destroy(&job.lock);
-        if (rc != BR_OK && err)
-            *err = job.err;
-    }
+    if (rc == BR_OK)
+        rc = run_stages(&job, o->threads, err);
+    br_meter_destroy(&job.meter);
     free_seeds(job.seed, o->nfsw);
     if (rc != BR_OK) {
         br_map_free(m);

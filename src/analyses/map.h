@@ -13,6 +13,7 @@
 #define BR_ANALYSES_MAP_H
 
 #include "analyses/probe.h"
+#include "core/progress.h"
 
 #define BR_MAP_MAX_N 400 /* points per axis */
 #define BR_MAP_MAX_THREADS 16
@@ -26,7 +27,9 @@ typedef struct br_map_opts {
     int nduty;
     double fsw_from, fsw_to; /* Hz */
     int nfsw;
-    int threads; /* worker threads (default 2) */
+    int threads;                 /* worker threads (default 2) */
+    const br_progress *progress; /* grid points judged of nduty * nfsw + 1 (NULL: none);
+                                    called from the workers one at a time */
 } br_map_opts;
 
 typedef struct br_map {
@@ -44,7 +47,8 @@ typedef struct br_map {
  * option when they are wrong. */
 int br_map_opts_check(const br_map_opts *o, br_error *err);
 
-/* Compute the map of design d. */
+/* Compute the map of design d.  BR_ECANCEL when o->progress asks to stop
+ * (every worker stops after its current point; nothing is returned). */
 int br_map_run(const br_design *d, const br_map_opts *o, br_map **out, br_error *err);
 void br_map_free(br_map *m);
 

@@ -17,6 +17,7 @@ void br_pick_opts_default(br_pick_opts *o)
     o->top = 10;
     o->startup = 1;
     o->per_rail = 1;
+    o->progress = NULL;
 }
 
 /* ---- placing a choice in a design ------------------------------------------ */
@@ -209,7 +210,9 @@ static int judge(const br_pick *pk, br_choice *ch, int startup_rows, br_error *e
     so.startup = startup_rows;
     so.accept = pk->base->accept;
     so.similar = 1;
-    so.stop_failed = 1; /* a choice that fails at its nominal point needs no corners */
+    so.stop_failed = 1;         /* a choice that fails at its nominal point needs no corners */
+    so.meter = pk->base->meter; /* to stop within a choice; the pool counts the choice */
+    so.meter_weight = 0.0;
     int rc = br_pick_apply(pk->base->d, pk->cat, ch, &d, err);
     if (rc == BR_OK)
         rc = br_spread_derive(pk->base, d, &so, &s, err);
@@ -239,12 +242,21 @@ typedef struct pool {
     br_error err;
 } pool;
 
+/* What judging one choice counts for on the meter: about the points it
+ * takes (its nominal point and a few per parameter). */
+static double choice_weight(const br_pick *pk)
+{
+    return 1.0 + pk->base->tl.n;
+}
+
 static void *pool_worker(void *arg)
 {
     pool *p = arg;
     for (;;) {
+        br_meter *meter = p->pk->base->meter;
+        int stop = br_meter_stopped(meter);
         pthread_mutex_lock(&p->lock);
-        int i = p->failed ? p->n : p->next++;
+        int i = p->failed || stop ? p->n : p->next++;
         pthread_mutex_unlock(&p->lock);
         if (i >= p->n)
             return NULL;
@@ -256,6 +268,7 @@ static void *pool_worker(void *arg)
                 p->err = err;
             pthread_mutex_unlock(&p->lock);
         }
+        br_meter_add(meter, choice_weight(p->pk));
     }
 }
 
@@ -268,12 +281,15 @@ static int judge_all(const br_pick *pk, br_choice **todo, int n, int startup_row
         return BR_OK;
     if (pthread_mutex_init(&p.lock, NULL) != 0)
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "cannot create a lock");
+    br_meter_grow(pk->base->meter, n * choice_weight(pk));
     for (int t = 1; t < nt; t++)
         started += pthread_create(&tid[started], NULL, pool_worker, &p) == 0;
     pool_worker(&p);
     for (int t = 0; t < started; t++)
         pthread_join(tid[t], NULL);
     pthread_mutex_destroy(&p.lock);
+    if (br_meter_stopped(pk->base->meter))
+        return br_progress_cancelled(err);
     if (p.failed) {
         *err = p.err;
         return p.err.code ? p.err.code : BR_ENOMEM;
@@ -628,16 +644,23 @@ int br_pick_run(const br_design *d, const br_catalog *cat, const br_pick_opts *o
         pk->greedy = -1;
         rc = br_chain_build_nominal(d, c, err);
     }
+    br_meter meter;
+    int metered = rc == BR_OK && (rc = br_meter_init(&meter, o->progress, 0.0, err)) == BR_OK;
     br_spread_opts so;
     br_spread_opts_default(&so);
     so.threads = o->threads;
     so.startup = o->startup;
+    so.meter = metered ? &meter : NULL;
     if (rc == BR_OK)
         rc = br_spread_create(d, &so, &pk->base, err);
     if (rc == BR_OK)
         rc = search(pk, d, c, o, err);
     if (rc == BR_OK)
         pk->points += pk->base->points;
+    if (metered)
+        br_meter_destroy(&meter);
+    if (pk && pk->base)
+        pk->base->meter = NULL; /* the meter is gone; the result outlives it */
     free(c);
     if (rc != BR_OK) {
         br_pick_free(pk);

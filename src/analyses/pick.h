@@ -32,10 +32,14 @@
 #define BR_PICK_WHY 200
 
 typedef struct br_pick_opts {
-    int threads;  /* worker threads; 0: one per online processor */
-    int top;      /* choices to rank and verify (default 10) */
-    int startup;  /* check the start-up criteria of the ranked choices (1) */
-    int per_rail; /* search per-rail choices too (1) */
+    int threads;                 /* worker threads; 0: one per online processor */
+    int top;                     /* choices to rank and verify (default 10) */
+    int startup;                 /* check the start-up criteria of the ranked choices (1) */
+    int per_rail;                /* search per-rail choices too (1) */
+    const br_progress *progress; /* work done of the work listed so far (the base design's
+                                    points, then choices, each weighing as many points as
+                                    the base design has parameters plus one; the total
+                                    grows as the search lists them); NULL: none */
 } br_pick_opts;
 
 typedef struct br_choice {
@@ -79,7 +83,8 @@ typedef struct br_pick {
 
 void br_pick_opts_default(br_pick_opts *o);
 
-/* Search design d (which must outlive the result) with catalog cat. */
+/* Search design d (which must outlive the result) with catalog cat.
+ * BR_ECANCEL when o->progress asks to stop (nothing is returned). */
 int br_pick_run(const br_design *d, const br_catalog *cat, const br_pick_opts *o, br_pick **out,
                 br_error *err);
 void br_pick_free(br_pick *p);

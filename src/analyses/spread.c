@@ -29,6 +29,8 @@ void br_spread_opts_default(br_spread_opts *o)
     o->accept = 0.0;
     o->similar = 0;
     o->stop_failed = 0;
+    o->meter = NULL;
+    o->meter_weight = 1.0;
 }
 
 /* ---- a batch of points ------------------------------------------------------- */
@@ -549,7 +551,7 @@ static void *worker(void *arg)
     void **a = arg;
     job *jb = a[0];
     workspace *w = a[1];
-    for (;;) {
+    while (!br_meter_stopped(jb->s->meter)) {
         pthread_mutex_lock(&jb->lock);
         int i = jb->next++;
         pthread_mutex_unlock(&jb->lock);
@@ -563,6 +565,7 @@ static void *worker(void *arg)
                 jb->first = err;
             pthread_mutex_unlock(&jb->lock);
         }
+        br_meter_add(jb->s->meter, jb->s->meter_weight);
     }
     return NULL;
 }
@@ -599,7 +602,7 @@ static int run(job *jb, br_error *err)
     }
     for (int t = 0; t < nw; t++)
         workspace_free(ws[t]);
-    return rc;
+    return br_meter_status(jb->s->meter, rc, err);
 }
 
 static void tally(br_spread *s, const br_pt *pts, int n)
@@ -797,6 +800,8 @@ static int alloc_spread(const br_design *d, const br_spread_opts *o, br_spread *
     s->startup = o->startup;
     s->stop_failed = o->stop_failed;
     s->accept = o->accept > 0 ? o->accept : ACCEPT_DEFAULT;
+    s->meter = o->meter;
+    s->meter_weight = o->meter_weight;
     int rc = br_tol_list_build(d, &s->tl, err);
     size_t k = (size_t)s->tl.n;
     if (rc == BR_OK) {
@@ -852,6 +857,7 @@ int br_spread_create(const br_design *d, const br_spread_opts *o, br_spread **ou
         rc = br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     for (int j = 0; todo && j < s->tl.n; j++)
         todo[j] = 1;
+    br_meter_grow(s->meter, s->meter_weight * (1.0 + 2.0 * s->tl.n));
     if (rc == BR_OK)
         rc = finish_create(s, NULL, todo, err);
     free(todo);

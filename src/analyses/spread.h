@@ -33,6 +33,7 @@
 #define BR_ANALYSES_SPREAD_H
 
 #include "analyses/figures.h"
+#include "analyses/meter.h"
 #include "model/tolerance.h"
 
 #define BR_SPREAD_MAX_THREADS 64
@@ -65,12 +66,16 @@ typedef struct br_pt {
 } br_pt;
 
 typedef struct br_spread_opts {
-    int threads;     /* worker threads; 0: one per online processor */
-    int startup;     /* the nominal and one-at-a-time points include the cold start */
-    double accept;   /* V: distance to the steady state accepted; 0: 100 uV */
-    int similar;     /* br_spread_derive: a new part's parameter borrows the sensitivity of
-                        the same attribute of a part of the same kind in the base design */
-    int stop_failed; /* a nominal point that fails ends the preparation there */
+    int threads;         /* worker threads; 0: one per online processor */
+    int startup;         /* the nominal and one-at-a-time points include the cold start */
+    double accept;       /* V: distance to the steady state accepted; 0: 100 uV */
+    int similar;         /* br_spread_derive: a new part's parameter borrows the sensitivity of
+                            the same attribute of a part of the same kind in the base design */
+    int stop_failed;     /* a nominal point that fails ends the preparation there */
+    br_meter *meter;     /* counts every point judged, and may stop the run (NULL: none;
+                            not owned); br_spread_create expects its own points there */
+    double meter_weight; /* what each point counts for on the meter (default 1; 0: the
+                            meter only stops the run) */
 } br_spread_opts;
 
 typedef struct br_spread {
@@ -95,14 +100,18 @@ typedef struct br_spread {
     long periods;             /* periods simulated for steady states so far */
     long points;              /* points judged so far */
     long fast;                /* steady states taken from the prediction so far */
+    br_meter *meter;          /* as in the options (not owned) */
+    double meter_weight;      /* as in the options */
 } br_spread;
 
 void br_spread_opts_default(br_spread_opts *o);
 
-/* Judge the nominal point and every parameter alone at each of its limits.
- * d must outlive the spread.  A failure of the nominal point is an error
- * (BR_ENUMERIC with its message); a one-at-a-time point that fails is
- * recorded in its status and contributes no sensitivity. */
+/* Judge the nominal point and every parameter alone at each of its limits
+ * (growing the meter's total by those 1 + 2 tl.n points).  d must outlive
+ * the spread.  A failure of the nominal point is an error (BR_ENUMERIC
+ * with its message); a one-at-a-time point that fails is recorded in its
+ * status and contributes no sensitivity.  BR_ECANCEL when the meter
+ * stops the run. */
 int br_spread_create(const br_design *d, const br_spread_opts *o, br_spread **out, br_error *err);
 
 /* The same for a design that differs from base only in some parts (the
@@ -120,7 +129,10 @@ void br_spread_free(br_spread *s);
 
 /* Judge npts points: values holds npts rows of tl.n values.  out[i] gets
  * point i (a point that cannot be judged has its status set; that is not
- * an error of the call).  Returns BR_ENOMEM when workers cannot start. */
+ * an error of the call).  Returns BR_ENOMEM when workers cannot start,
+ * BR_ECANCEL when the meter stopped the run (out[] is then incomplete).
+ * The caller grows the meter's total by npts if it wants them counted in
+ * the estimate; every judged point adds meter_weight to its count. */
 int br_spread_eval(br_spread *s, int npts, const double *values, int with_startup, br_pt *out,
                    br_error *err);
 

@@ -91,11 +91,14 @@ int br_startup_run(const br_chain *c, const br_startup_opts *o, br_startup *r, b
     r->pwm_start = br_sim_pwm_start(s);
     br_sim_stats_start(s);
     double t = 0.0;
-    while (rc == BR_OK && t < t_max) {
+    const br_progress *hook = o ? o->progress : NULL;
+    for (long period = 1; rc == BR_OK && t < t_max; period++) {
         t = fmin(t + c->T, t_max);
         rc = br_sim_run_until(s, t, err);
         if (all_running(s, c->n) && t - w.last_event >= settle * c->T)
             break;
+        if (rc == BR_OK && hook && period % BR_STARTUP_PROGRESS_EVERY == 0)
+            rc = br_progress_call(hook, t, t_max, err);
     }
     if (rc == BR_OK)
         rc = last_period(s, c, r, err);

@@ -3,6 +3,7 @@
 #ifndef BR_ANALYSES_STARTUP_H
 #define BR_ANALYSES_STARTUP_H
 
+#include "core/progress.h"
 #include "engine/sim.h"
 
 #define BR_MAX_DROPOUT_TIMES 16
@@ -33,8 +34,17 @@ typedef struct br_startup_opts {
     double t_max;          /* give up after this, s (default: the design's) */
     int settle_periods;    /* periods without a UVLO event that end it (default 50) */
     const br_sim_observer *obs; /* extra observer for samples (may be NULL) */
+    const br_progress *progress; /* simulated time of t_max, every
+                                    BR_STARTUP_PROGRESS_EVERY periods, from the
+                                    calling thread (NULL: none) */
 } br_startup_opts;
 
+/* Periods between calls of the progress hook: rare enough to cost nothing
+ * next to simulating them, often enough to stop within a blink. */
+#define BR_STARTUP_PROGRESS_EVERY 64
+
+/* Simulate the cold start of c.  BR_ECANCEL when o->progress asks to stop
+ * (out then holds nothing meaningful). */
 int br_startup_run(const br_chain *c, const br_startup_opts *o, br_startup *out, br_error *err);
 
 #endif

@@ -2,6 +2,7 @@
  * hold-up time and the start-up window. */
 #include "analyses/window.h"
 
+#include "analyses/meter.h"
 #include "core/error.h"
 
 #include <gsl/gsl_errno.h>
@@ -11,7 +12,9 @@
 #include <stdlib.h>
 #include <string.h>
 
-#define MEMO 128 /* points remembered during one sweep (a ring) */
+#define MEMO 128        /* points remembered during one sweep (a ring) */
+#define REFINE_GUESS 12 /* points a sweep's refinements take, for the progress estimate */
+#define SU_GUESS 10     /* cold starts a start-up window takes, the same */
 
 void br_window_opts_default(br_window_opts *o)
 {
@@ -30,8 +33,9 @@ typedef struct sweep_ctx {
     br_sweep *out;
     double res; /* resolution in u */
     br_error *err;
-    int rc;    /* first failure of a judged point */
-    int nmemo; /* points stored so far (ring of MEMO) */
+    br_meter *meter; /* counts points judged; may stop the sweep (NULL: none) */
+    int rc;          /* first failure of a judged point */
+    int nmemo;       /* points stored so far (ring of MEMO) */
     double mu[MEMO];
     br_hold_point mpt[MEMO];
 } sweep_ctx;
@@ -76,6 +80,8 @@ static int judge_at(sweep_ctx *x, double u, br_hold_point *pt)
     double duty = s->axis == BR_AXIS_DUTY ? v : s->fixed;
     double fsw = s->axis == BR_AXIS_FSW ? v : s->fixed;
     int rc = br_probe_eval(x->p, duty, fsw, pt, x->err);
+    if (rc == BR_OK && br_meter_add(x->meter, 1.0))
+        rc = br_progress_cancelled(x->err);
     if (rc != BR_OK)
         return rc;
     s->evals++;
@@ -278,9 +284,32 @@ static void collect_spans(br_sweep *s, const br_limit *edge, int jd)
     }
 }
 
+/* One sweep (br_sweep_run) counting on meter. */
+typedef struct sweep_args {
+    int axis;
+    double fixed, lo, hi;
+    const br_hold_point *at;
+    const br_warm *w0;
+    int nscan;
+} sweep_args;
+
+static int sweep_run(br_probe *p, const sweep_args *a, br_meter *meter, br_sweep *out,
+                     br_error *err);
+
 int br_sweep_run(br_probe *p, int axis, double fixed, double lo, double hi, const br_hold_point *at,
                  const br_warm *w0, int nscan, br_sweep *out, br_error *err)
 {
+    sweep_args a = {axis, fixed, lo, hi, at, w0, nscan};
+    return sweep_run(p, &a, NULL, out, err);
+}
+
+static int sweep_run(br_probe *p, const sweep_args *a, br_meter *meter, br_sweep *out,
+                     br_error *err)
+{
+    int axis = a->axis, nscan = a->nscan;
+    double fixed = a->fixed, lo = a->lo, hi = a->hi;
+    const br_hold_point *at = a->at;
+    const br_warm *w0 = a->w0;
     memset(out, 0, sizeof *out);
     out->axis = axis;
     out->applies = 1;
@@ -297,7 +326,7 @@ int br_sweep_run(br_probe *p, int axis, double fixed, double lo, double hi, cons
         free(edge);
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory for a sweep");
     }
-    *x = (sweep_ctx){.p = p, .out = out, .err = err};
+    *x = (sweep_ctx){.p = p, .out = out, .err = err, .meter = meter};
     x->res = axis == BR_AXIS_FSW ? log1p(BR_RES_FSW) : BR_RES_DUTY;
     double u[BR_MAX_SCAN];
     int jd = scan_grid(axis_u(out, lo), axis_u(out, hi), axis_u(out, out->design), out->nscan, u);
@@ -342,10 +371,13 @@ static int su_cmp(const void *a, const void *b)
     return (x > y) - (x < y);
 }
 
-static int su_run_at(br_design *d, br_su_window *w, double u, br_su_point *pt, br_error *err)
+static int su_run_at(br_design *d, br_su_window *w, br_meter *meter, double u, br_su_point *pt,
+                     br_error *err)
 {
     double v = w->axis == BR_AXIS_FSW ? exp(u) : u;
     int rc = su_point(d, w->axis, v, pt, err);
+    if (rc == BR_OK && br_meter_add(meter, 1.0))
+        rc = br_progress_cancelled(err);
     if (rc == BR_OK && w->npts < BR_MAX_SU_POINTS)
         w->pt[w->npts++] = *pt;
     return rc;
@@ -353,8 +385,8 @@ static int su_run_at(br_design *d, br_su_window *w, double u, br_su_point *pt, b
 
 /* Downward in a few steps to the first failure, then bisection (a cold
  * start either completes or not; there is no margin to interpolate). */
-static int su_search(br_design *d, br_su_window *w, double u0, double ulo, double res,
-                     br_error *err)
+static int su_search(br_design *d, br_su_window *w, br_meter *meter, double u0, double ulo,
+                     double res, br_error *err)
 {
     br_su_point pt;
     const int steps = 5;
@@ -362,7 +394,7 @@ static int su_search(br_design *d, br_su_window *w, double u0, double ulo, doubl
     int rc = BR_OK;
     for (int i = 1; i <= steps && rc == BR_OK && isnan(uout); i++) {
         double u = u0 + (ulo - u0) * i / steps;
-        rc = su_run_at(d, w, u, &pt, err);
+        rc = su_run_at(d, w, meter, u, &pt, err);
         if (pt.complete)
             uin = u;
         else
@@ -371,7 +403,7 @@ static int su_search(br_design *d, br_su_window *w, double u0, double ulo, doubl
     w->kind = isnan(uout) ? BR_LIMIT_RANGE_END : BR_LIMIT_FOUND;
     while (rc == BR_OK && !isnan(uout) && fabs(uin - uout) > res) {
         double u = 0.5 * (uin + uout);
-        rc = su_run_at(d, w, u, &pt, err);
+        rc = su_run_at(d, w, meter, u, &pt, err);
         if (pt.complete)
             uin = u;
         else
@@ -391,7 +423,16 @@ static void su_finish(br_su_window *w)
             w->stalled = w->pt[i].stalled;
 }
 
+static int su_window_run(const br_design *d, int axis, double lo, br_meter *meter,
+                         br_su_window *out, br_error *err);
+
 int br_su_window_run(const br_design *d, int axis, double lo, br_su_window *out, br_error *err)
+{
+    return su_window_run(d, axis, lo, NULL, out, err);
+}
+
+static int su_window_run(const br_design *d, int axis, double lo, br_meter *meter,
+                         br_su_window *out, br_error *err)
 {
     memset(out, 0, sizeof *out);
     out->axis = axis;
@@ -408,10 +449,10 @@ int br_su_window_run(const br_design *d, int axis, double lo, br_su_window *out,
     double u0 = axis == BR_AXIS_FSW ? log(v0) : v0;
     double ulo = axis == BR_AXIS_FSW ? log(lo) : lo;
     br_su_point pt;
-    int rc = su_run_at(dc, out, u0, &pt, err);
+    int rc = su_run_at(dc, out, meter, u0, &pt, err);
     out->design_starts = rc == BR_OK && pt.complete;
     if (rc == BR_OK && out->design_starts)
-        rc = su_search(dc, out, u0, ulo, res, err);
+        rc = su_search(dc, out, meter, u0, ulo, res, err);
     su_finish(out);
     free(dc);
     return rc;
@@ -444,6 +485,7 @@ typedef struct sweep_job {
     const br_hold_point *at;
     const br_warm *w0;
     br_sweep *out;
+    br_meter *meter;
     br_error err;
     int rc;
 } sweep_job;
@@ -452,8 +494,8 @@ static void *sweep_thread(void *arg)
 {
     sweep_job *j = arg;
     br_error_clear(&j->err);
-    j->rc = br_sweep_run(j->p, j->axis, j->fixed, j->lo, j->hi, j->at, j->w0, j->nscan, j->out,
-                         &j->err);
+    sweep_args a = {j->axis, j->fixed, j->lo, j->hi, j->at, j->w0, j->nscan};
+    j->rc = sweep_run(j->p, &a, j->meter, j->out, &j->err);
     return NULL;
 }
 
@@ -483,8 +525,8 @@ static int run_sweeps(const br_design *d, br_probe *p, sweep_job *jd, sweep_job 
     return rc;
 }
 
-static int steady_limits(const br_design *d, br_probe *p, const br_window_opts *o, br_window *w,
-                         br_error *err)
+static int steady_limits(const br_design *d, br_probe *p, const br_window_opts *o, br_meter *meter,
+                         br_window *w, br_error *err)
 {
     const br_chain *c = br_probe_design_chain(p);
     double flo, fhi, dlo = 0.0, dhi = 0.0;
@@ -495,6 +537,8 @@ static int steady_limits(const br_design *d, br_probe *p, const br_window_opts *
     if (!w0)
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory for a warm start");
     rc = br_probe_eval(p, c->duty, c->fsw, &w->design, err);
+    if (rc == BR_OK && br_meter_add(meter, 1.0))
+        rc = br_progress_cancelled(err);
     br_probe_save(p, w0);
     w->duty.axis = BR_AXIS_DUTY;
     int duty = br_probe_duty_applies(p) && br_probe_duty_range(p, c->fsw, BR_RES_DUTY, &dlo, &dhi);
@@ -509,7 +553,8 @@ static int steady_limits(const br_design *d, br_probe *p, const br_window_opts *
                     .nscan = o->nscan_duty,
                     .at = &w->design,
                     .w0 = w0,
-                    .out = &w->duty};
+                    .out = &w->duty,
+                    .meter = meter};
     sweep_job jf = {.axis = BR_AXIS_FSW,
                     .fixed = c->duty,
                     .lo = flo,
@@ -517,7 +562,8 @@ static int steady_limits(const br_design *d, br_probe *p, const br_window_opts *
                     .nscan = o->nscan_fsw,
                     .at = &w->design,
                     .w0 = w0,
-                    .out = &w->fsw};
+                    .out = &w->fsw,
+                    .meter = meter};
     if (rc == BR_OK)
         rc = run_sweeps(d, p, duty ? &jd : NULL, &jf, o->threads, err);
     br_warm_free(w0);
@@ -550,6 +596,7 @@ typedef struct su_job {
     int axis;
     double lo;
     br_su_window *out;
+    br_meter *meter;
     br_error err;
     int rc;
 } su_job;
@@ -558,14 +605,15 @@ static void *su_thread(void *arg)
 {
     su_job *j = arg;
     br_error_clear(&j->err);
-    j->rc = br_su_window_run(j->d, j->axis, j->lo, j->out, &j->err);
+    j->rc = su_window_run(j->d, j->axis, j->lo, j->meter, j->out, &j->err);
     return NULL;
 }
 
-static int startup_window(const br_design *d, br_window *w, int threads, br_error *err)
+static int startup_window(const br_design *d, br_window *w, int threads, br_meter *meter,
+                          br_error *err)
 {
-    su_job jd = {d, BR_AXIS_DUTY, w->duty.lo, &w->su_duty, {0}, BR_OK};
-    su_job jf = {d, BR_AXIS_FSW, w->fsw.lo, &w->su_fsw, {0}, BR_OK};
+    su_job jd = {d, BR_AXIS_DUTY, w->duty.lo, &w->su_duty, meter, {0}, BR_OK};
+    su_job jf = {d, BR_AXIS_FSW, w->fsw.lo, &w->su_fsw, meter, {0}, BR_OK};
     pthread_t tid;
     w->startup = 1;
     int duty = w->duty.applies;
@@ -581,6 +629,29 @@ static int startup_window(const br_design *d, br_window *w, int threads, br_erro
     return bad ? bad->rc : BR_OK;
 }
 
+/* The work the window expects, for the progress estimate. */
+static double expected_points(const br_window_opts *o)
+{
+    double n = 1.0 + o->nscan_duty + o->nscan_fsw + 2.0 * REFINE_GUESS;
+    return o->startup ? n + 2.0 * SU_GUESS : n;
+}
+
+static int window_all(const br_design *d, const br_window_opts *o, br_meter *meter, br_window *out,
+                      br_error *err)
+{
+    br_probe *p;
+    int rc = br_probe_create(d, &p, err);
+    if (rc != BR_OK)
+        return rc;
+    rc = steady_limits(d, p, o, meter, out, err);
+    if (rc == BR_OK)
+        rc = holdups(d, out, err);
+    if (rc == BR_OK && o->startup)
+        rc = startup_window(d, out, o->threads, meter, err);
+    br_probe_free(p);
+    return rc;
+}
+
 int br_window_run(const br_design *d, const br_window_opts *o, br_window *out, br_error *err)
 {
     br_window_opts def;
@@ -589,15 +660,11 @@ int br_window_run(const br_design *d, const br_window_opts *o, br_window *out, b
         o = &def;
     }
     memset(out, 0, sizeof *out);
-    br_probe *p;
-    int rc = br_probe_create(d, &p, err);
+    br_meter meter;
+    int rc = br_meter_init(&meter, o->progress, expected_points(o), err);
     if (rc != BR_OK)
         return rc;
-    rc = steady_limits(d, p, o, out, err);
-    if (rc == BR_OK)
-        rc = holdups(d, out, err);
-    if (rc == BR_OK && o->startup)
-        rc = startup_window(d, out, o->threads, err);
-    br_probe_free(p);
+    rc = window_all(d, o, &meter, out, err);
+    br_meter_destroy(&meter);
     return rc;
 }

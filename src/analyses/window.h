@@ -14,6 +14,7 @@
 
 #include "analyses/holdup.h"
 #include "analyses/probe.h"
+#include "core/progress.h"
 
 #define BR_MAX_SCAN 64 /* coarse scan points, the design point included */
 #define BR_MAX_SPANS 8 /* holding intervals kept per axis */
@@ -86,12 +87,15 @@ typedef struct br_su_window {
 } br_su_window;
 
 typedef struct br_window_opts {
-    double fmin, fmax; /* frequency range, Hz; 0: the design's / 100 and * 100
-                          (the top kept below what the dead time allows) */
-    int nscan_duty;    /* coarse scan points (default 21) */
-    int nscan_fsw;     /* default 25 */
-    int startup;       /* 1: also the start-up window (a cold start per point) */
-    int threads;       /* 2 (default): duty and frequency swept side by side */
+    double fmin, fmax;           /* frequency range, Hz; 0: the design's / 100 and * 100
+                                    (the top kept below what the dead time allows) */
+    int nscan_duty;              /* coarse scan points (default 21) */
+    int nscan_fsw;               /* default 25 */
+    int startup;                 /* 1: also the start-up window (a cold start per point) */
+    int threads;                 /* 2 (default): duty and frequency swept side by side */
+    const br_progress *progress; /* points judged of an estimate (scan points, about a
+                                    dozen refinements per axis, the start-up runs); the
+                                    estimate grows when the search needs more; NULL: none */
 } br_window_opts;
 
 void br_window_opts_default(br_window_opts *o);
@@ -107,7 +111,8 @@ typedef struct br_window {
 } br_window;
 
 /* Run every analysis of the window on design d (its chain is built here
- * and at every point; d is not changed). */
+ * and at every point; d is not changed).  BR_ECANCEL when o->progress
+ * asks to stop (out then holds nothing meaningful). */
 int br_window_run(const br_design *d, const br_window_opts *o, br_window *out, br_error *err);
 
 /* One axis only, from probe p whose warm start w0 is at the design point

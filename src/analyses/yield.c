@@ -22,6 +22,7 @@ void br_yield_opts_default(br_yield_opts *o)
     o->threads = 0;
     o->startup = 0;
     o->accept = 1e-3;
+    o->progress = NULL;
 }
 
 /* ---- statistics ------------------------------------------------------------- */
@@ -216,6 +217,34 @@ static int summarise(br_yield *y, br_error *err)
 
 /* ---- the run ------------------------------------------------------------------ */
 
+/* The spread, the samples, their verdicts and the statistics into y. */
+static int yield_compute(br_yield *y, const br_design *d, const br_yield_opts *o, br_meter *meter,
+                         br_error *err)
+{
+    br_spread_opts so;
+    br_spread_opts_default(&so);
+    so.threads = o->threads;
+    so.startup = o->startup;
+    so.accept = o->accept;
+    so.meter = meter;
+    int rc = br_spread_create(d, &so, &y->s, err);
+    y->accept = rc == BR_OK ? y->s->accept : o->accept;
+    if (rc == BR_OK) {
+        size_t k = (size_t)(y->s->tl.n > 0 ? y->s->tl.n : 1);
+        y->values = malloc(sizeof(double) * (size_t)y->n * k);
+        y->pts = malloc(sizeof(br_pt) * (size_t)y->n);
+        if (!y->values || !y->pts)
+            rc = br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory for %ld samples", y->n);
+    }
+    if (rc == BR_OK)
+        rc = br_yield_sample(&y->s->tl, y->seed, y->n, y->values, err);
+    if (rc == BR_OK)
+        rc = br_spread_eval(y->s, (int)y->n, y->values, o->startup, y->pts, err);
+    if (rc == BR_OK)
+        rc = summarise(y, err);
+    return rc;
+}
+
 int br_yield_run(const br_design *d, const br_yield_opts *o, br_yield **out, br_error *err)
 {
     br_yield_opts def;
@@ -233,26 +262,14 @@ int br_yield_run(const br_design *d, const br_yield_opts *o, br_yield **out, br_
     y->n = o->samples;
     y->seed = o->seed;
     y->startup = o->startup;
-    br_spread_opts so;
-    br_spread_opts_default(&so);
-    so.threads = o->threads;
-    so.startup = o->startup;
-    so.accept = o->accept;
-    int rc = br_spread_create(d, &so, &y->s, err);
-    y->accept = rc == BR_OK ? y->s->accept : o->accept;
+    br_meter meter;
+    int rc = br_meter_init(&meter, o->progress, (double)y->n, err);
     if (rc == BR_OK) {
-        size_t k = (size_t)(y->s->tl.n > 0 ? y->s->tl.n : 1);
-        y->values = malloc(sizeof(double) * (size_t)y->n * k);
-        y->pts = malloc(sizeof(br_pt) * (size_t)y->n);
-        if (!y->values || !y->pts)
-            rc = br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory for %ld samples", y->n);
+        rc = yield_compute(y, d, o, &meter, err);
+        br_meter_destroy(&meter);
+        if (y->s)
+            y->s->meter = NULL; /* the meter is gone; the result outlives it */
     }
-    if (rc == BR_OK)
-        rc = br_yield_sample(&y->s->tl, y->seed, y->n, y->values, err);
-    if (rc == BR_OK)
-        rc = br_spread_eval(y->s, (int)y->n, y->values, o->startup, y->pts, err);
-    if (rc == BR_OK)
-        rc = summarise(y, err);
     if (rc != BR_OK) {
         br_yield_free(y);
         return rc;

@@ -25,11 +25,13 @@
 extern const double br_yield_quantiles[BR_YIELD_NQ];
 
 typedef struct br_yield_opts {
-    long samples;       /* number of samples (default 1000) */
-    unsigned long seed; /* generator seed (default 1) */
-    int threads;        /* 0: one per online processor */
-    int startup;        /* judge the start-up criteria (a cold start per sample) */
-    double accept;      /* V: steady states within this of periodic (default 1 mV) */
+    long samples;                /* number of samples (default 1000) */
+    unsigned long seed;          /* generator seed (default 1) */
+    int threads;                 /* 0: one per online processor */
+    int startup;                 /* judge the start-up criteria (a cold start per sample) */
+    double accept;               /* V: steady states within this of periodic (default 1 mV) */
+    const br_progress *progress; /* points judged (nominal, one-at-a-time, samples) of the
+                                    total expected; NULL: none; see core/progress.h */
 } br_yield_opts;
 
 typedef struct br_yield_crit {
@@ -58,7 +60,9 @@ typedef struct br_yield {
 
 void br_yield_opts_default(br_yield_opts *o);
 
-/* Sample and judge design d (which must outlive the result). */
+/* Sample and judge design d (which must outlive the result).  BR_ECANCEL
+ * when o->progress asks to stop (the workers stop after their current
+ * sample; nothing is returned). */
 int br_yield_run(const br_design *d, const br_yield_opts *o, br_yield **out, br_error *err);
 void br_yield_free(br_yield *y);
 

@@ -83,8 +83,11 @@ static int is_stdout(const char *path)
 /* Files first: a failure to write them is reported before any result
  * reaches stdout, so a script never mistakes a partial run for a whole.
  * A file sent to stdout ("-") takes the text report's place. */
-static int write_all(const outputs *o, const paths *p)
+static int write_all(const outputs *o, const paths *p, int quiet)
 {
+    /* --quiet: the verdict of steady and analyze, or how the start-up ended */
+    static const char *const verdict[] = {"verdict:", "start-up complete", "start-up INCOMPLETE",
+                                          NULL};
     int status = BR_EXIT_OK;
     if (p->xml)
         status = br_cli_save(o->xml, p->xml);
@@ -96,7 +99,28 @@ static int write_all(const outputs *o, const paths *p)
         status = br_cli_save(o->svg, p->plot);
     if (status == BR_EXIT_OK && !is_stdout(p->xml) && !is_stdout(p->csv) && !is_stdout(p->report) &&
         !is_stdout(p->plot))
-        status = br_cli_emit(o->text);
+        status = quiet ? br_cli_emit_verdict(o->text, verdict, 1) : br_cli_emit(o->text);
+    return status;
+}
+
+/* Compute, then write unless a signal stopped the run (only the runs with
+ * a cold start, the long ones, take signals and show progress). */
+static int run(const char *path, const char *verb, int parts, outputs *o, const paths *p, int quiet)
+{
+    br_error err;
+    br_error_clear(&err);
+    br_cli_run lr;
+    int longrun = (parts & BR_RUN_STARTUP) != 0;
+    if (longrun) {
+        br_cli_run_begin(&lr, verb, quiet);
+        o->res->progress = &lr.hook;
+    }
+    int rc = compute(path, verb, parts, o, &err);
+    int stop = longrun ? br_cli_run_commit(&lr) : 0;
+    int status = stop ? stop : rc != BR_OK ? br_cli_fail(&err, path) : write_all(o, p, quiet);
+    if (longrun)
+        br_cli_run_end(&lr);
+    o->res->progress = NULL;
     return status;
 }
 
@@ -109,6 +133,7 @@ static int stdout_count(const paths *p)
 int br_cli_analysis(int argc, char **argv, const char *about, int parts)
 {
     paths p = {0};
+    int quiet = 0;
     br_opt opts[] = {
         /* "-" for any sends it to stdout in place of the text report */
         {BR_OPT_STRING, "xml", "PATH", &p.xml, "also write the results as XML to PATH (- stdout)"},
@@ -119,10 +144,13 @@ int br_cli_analysis(int argc, char **argv, const char *about, int parts)
         {BR_OPT_STRING, "plot", "PATH", &p.plot,
          parts == BR_RUN_STARTUP ? "also plot the rail waveforms from cold as SVG to PATH"
                                  : "also plot the rails over two steady periods as SVG to PATH"},
+        {BR_OPT_FLAG, "quiet", NULL, &quiet, BR_QUIET_HELP},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
     };
-    if (parts == BR_RUN_ALL) /* analyze has many plots: they are in the report */
+    if (parts == BR_RUN_ALL) { /* analyze has many plots: they are in the report */
         opts[3] = opts[4];
+        opts[4] = opts[5];
+    }
     const br_cmd_doc doc = {argv[0], "FILE", about, opts, 1};
     char *pos[1];
     int parsed = br_cli_parse(&doc, argc, argv, pos);
@@ -136,10 +164,8 @@ int br_cli_analysis(int argc, char **argv, const char *about, int parts)
     int status;
     if (outputs_alloc(&o, &p, &err) != BR_OK)
         status = br_cli_fail(&err, NULL);
-    else if (compute(pos[0], argv[0], parts, &o, &err) != BR_OK)
-        status = br_cli_fail(&err, pos[0]);
     else
-        status = write_all(&o, &p);
+        status = run(pos[0], argv[0], parts, &o, &p, quiet);
     if (status == BR_EXIT_OK && br_results_failed(o.res))
         status = BR_EXIT_FAIL;
     outputs_free(&o);

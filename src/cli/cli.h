@@ -9,14 +9,19 @@
 #define BR_CLI_H
 
 #include "bootrung/bootrung.h"
+#include "core/progress.h"
 
+#include <signal.h>
 #include <stdio.h>
 
-/* Exit statuses, the same for every verb. */
+/* Exit statuses, the same for every verb (README: "Exit status").  The
+ * interrupted ones follow the shells' 128 + signal number. */
 enum {
-    BR_EXIT_OK = 0,   /* done; every criterion evaluated passes */
-    BR_EXIT_FAIL = 1, /* done; a design criterion fails */
-    BR_EXIT_INPUT = 2 /* not done: bad input, bad usage or an I/O error */
+    BR_EXIT_OK = 0,            /* done; every criterion evaluated passes */
+    BR_EXIT_FAIL = 1,          /* done; a design criterion fails */
+    BR_EXIT_INPUT = 2,         /* not done: bad input, bad usage or an I/O error */
+    BR_EXIT_INTERRUPTED = 130, /* not done: SIGINT (Ctrl-C) stopped a long run */
+    BR_EXIT_TERMINATED = 143   /* not done: SIGTERM stopped a long run */
 };
 
 /* ---- options --------------------------------------------------------- */
@@ -90,6 +95,53 @@ int br_cli_long(const char *verb, const char *opt, const char *text, long lo, lo
 /* The same for a fraction from 0 to 1, also written as a percentage ("95%"). */
 int br_cli_fraction(const char *verb, const char *opt, const char *text, double *out);
 
+/* The help line of --quiet, the same for every verb. */
+#define BR_QUIET_HELP "print only the verdict line on stdout (no report, no progress bar)"
+
+/* Print the verdict line of report t (what --quiet prints) on stdout:
+ * the first line starting with the first of `prefixes` (NULL-terminated,
+ * in order of preference) that some line starts with, with
+ * the lines indented by two spaces that continue it when join is set,
+ * made one line.  When no line matches, nothing is printed.  Returns as
+ * br_cli_emit does. */
+int br_cli_emit_verdict(const br_text *t, const char *const *prefixes, int join);
+
+/* ---- long runs: the progress bar and interrupts (progress.c) --------- */
+
+/* One long run of a verb.  br_cli_run_begin catches SIGINT and SIGTERM
+ * (the handler only records the signal) and gives a hook to hand to the
+ * analysis: it stops the analysis once a signal has come, and draws a
+ * bar on stderr when stderr is a terminal, --quiet is off and the run has
+ * lasted half a second.  br_cli_run_commit erases the bar and blocks the
+ * two signals: it returns 0 when the verb may write its results (a signal
+ * arriving while it does is held until the files are complete, and then
+ * ignored: the run has finished), or, after printing "bootrung:
+ * interrupted", BR_EXIT_INTERRUPTED or BR_EXIT_TERMINATED, and the verb
+ * writes nothing.  br_cli_run_end restores the signals as they were. */
+typedef struct br_cli_run {
+    br_progress hook;        /* hand &hook to the analysis */
+    const char *label;       /* what the bar says: the verb */
+    int draw;                /* a bar may be drawn */
+    int drawn;               /* a bar is on the terminal now */
+    double t0;               /* s, monotonic: when the run began */
+    double last;             /* s, monotonic: the last redraw */
+    int width;               /* columns of the bar drawn last */
+    int mine[2];             /* SIGINT, SIGTERM: our handler is installed */
+    struct sigaction old[2]; /* what they were before */
+    int blocked;             /* br_cli_run_commit blocked the signals */
+    sigset_t oldmask;        /* the mask before that */
+} br_cli_run;
+
+void br_cli_run_begin(br_cli_run *r, const char *label, int quiet);
+int br_cli_run_commit(br_cli_run *r);
+void br_cli_run_end(br_cli_run *r);
+
+/* The bar for `done` of `total` after `elapsed` seconds, fitted to
+ * `width` columns (without the leading carriage return), into buf.
+ * Returns buf. */
+const char *br_cli_bar_render(char *buf, size_t cap, const char *label, double done, double total,
+                              double elapsed, int width);
+
 /* ---- verbs ----------------------------------------------------------- */
 
 int cmd_check(int argc, char **argv);
@@ -102,8 +154,8 @@ int cmd_pick(int argc, char **argv);
 int cmd_window(int argc, char **argv);
 int cmd_map(int argc, char **argv);
 
-/* The shared body of the analysis verbs: options --xml/--csv, the help
- * text `about`, the analyses `parts` (BR_RUN_* of report/results.h). */
+/* The shared body of the analysis verbs: options --xml/--csv/--quiet, the
+ * help text `about`, the analyses `parts` (BR_RUN_* of report/results.h). */
 int br_cli_analysis(int argc, char **argv, const char *about, int parts);
 
 #endif

@@ -24,9 +24,11 @@ static int run(const char *path, br_text *out, int *nwarn, br_error *err)
 
 int cmd_check(int argc, char **argv)
 {
-    int strict = 0;
+    int strict = 0, quiet = 0;
+    static const char *const verdict[] = {"design rules:", NULL};
     const br_opt opts[] = {
         {BR_OPT_FLAG, "strict", NULL, &strict, "exit with status 1 when any design rule warns"},
+        {BR_OPT_FLAG, "quiet", NULL, &quiet, BR_QUIET_HELP},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
     };
     const br_cmd_doc doc = {
@@ -51,7 +53,7 @@ int cmd_check(int argc, char **argv)
     } else if (run(pos[0], out, &nwarn, &err) != BR_OK) {
         status = br_cli_fail(&err, pos[0]);
     } else {
-        status = br_cli_emit(out);
+        status = quiet ? br_cli_emit_verdict(out, verdict, 0) : br_cli_emit(out);
     }
     br_text_free(out);
     if (status == BR_EXIT_OK && strict && nwarn > 0)

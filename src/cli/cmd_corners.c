@@ -27,7 +27,7 @@ static const char ABOUT[] =
 
 typedef struct args {
     const char *xml, *threads, *exhaustive;
-    int no_startup;
+    int no_startup, quiet;
 } args;
 
 /* Options into corners options; BR_EXIT_OK or a usage error's status. */
@@ -86,6 +86,18 @@ static int compute(const char *path, const br_corners_opts *opts, int want_xml, 
     return rc;
 }
 
+/* The XML file first, then the report (unless the XML took stdout). */
+static int write_all(const args *a, const outputs *o)
+{
+    static const char *const verdict[] = {"verdict at the worst corners:", NULL};
+    if (a->xml) {
+        int status = br_cli_save(o->xml, a->xml);
+        if (status != BR_EXIT_OK || strcmp(a->xml, "-") == 0)
+            return status;
+    }
+    return a->quiet ? br_cli_emit_verdict(o->text, verdict, 0) : br_cli_emit(o->text);
+}
+
 int cmd_corners(int argc, char **argv)
 {
     args a = {0};
@@ -96,6 +108,7 @@ int cmd_corners(int argc, char **argv)
         {BR_OPT_FLAG, "no-startup", NULL, &a.no_startup,
          "skip the start-up criteria (no cold starts)"},
         {BR_OPT_STRING, "threads", "N", &a.threads, "worker threads (default: one per processor)"},
+        {BR_OPT_FLAG, "quiet", NULL, &a.quiet, BR_QUIET_HELP},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
     };
     const br_cmd_doc doc = {"corners", "FILE", ABOUT, opts, 1};
@@ -109,13 +122,14 @@ int cmd_corners(int argc, char **argv)
     outputs o = {0};
     br_error err;
     br_error_clear(&err);
-    int status;
-    if (compute(pos[0], &co, a.xml != NULL, &o, &err) != BR_OK)
-        status = br_cli_fail(&err, pos[0]);
-    else if (a.xml && (status = br_cli_save(o.xml, a.xml)) != BR_EXIT_OK)
-        ; /* reported; nothing else is written */
-    else
-        status = a.xml && strcmp(a.xml, "-") == 0 ? BR_EXIT_OK : br_cli_emit(o.text);
+    br_cli_run lr;
+    br_cli_run_begin(&lr, "corners", a.quiet);
+    co.progress = &lr.hook;
+    int rc = compute(pos[0], &co, a.xml != NULL, &o, &err);
+    int status = br_cli_run_commit(&lr);
+    if (status == BR_EXIT_OK)
+        status = rc != BR_OK ? br_cli_fail(&err, pos[0]) : write_all(&a, &o);
+    br_cli_run_end(&lr);
     if (status == BR_EXIT_OK && !o.k->all_pass)
         status = BR_EXIT_FAIL;
     outputs_free(&o);

@@ -118,8 +118,9 @@ static int is_stdout(const char *path)
 
 /* Files first, so that a failure to write them comes before any result on
  * stdout; a file sent to stdout takes the summary's place. */
-static int write_all(const outputs *o, const paths *p)
+static int write_all(const outputs *o, const paths *p, int quiet)
 {
+    static const char *const verdict[] = {"design point:", NULL};
     int status = p->csv ? br_cli_save(o->csv, p->csv) : BR_EXIT_OK;
     if (status == BR_EXIT_OK && p->svg)
         status = br_cli_save(o->svg, p->svg);
@@ -129,13 +130,13 @@ static int write_all(const outputs *o, const paths *p)
         status = br_cli_save(o->html, p->report);
     if (status == BR_EXIT_OK && !is_stdout(p->csv) && !is_stdout(p->svg) && !is_stdout(p->plot) &&
         !is_stdout(p->report))
-        status = br_cli_emit(o->text);
+        status = quiet ? br_cli_emit_verdict(o->text, verdict, 0) : br_cli_emit(o->text);
     if (status == BR_EXIT_OK && !o->m->design.holds)
         status = BR_EXIT_FAIL;
     return status;
 }
 
-static int run(const char *path, const br_map_opts *mo, const paths *p)
+static int run(const char *path, br_map_opts *mo, const paths *p, int quiet)
 {
     int want_svg = p->svg || p->plot;
     outputs o = {br_text_create(), p->csv ? br_text_create() : NULL,
@@ -146,10 +147,15 @@ static int run(const char *path, const br_map_opts *mo, const paths *p)
     if (!o.text || (p->csv && !o.csv) || (want_svg && !o.svg) || (p->report && !o.html)) {
         br_error_set(&err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
         status = br_cli_fail(&err, NULL);
-    } else if (compute(path, mo, p, &o, &err) != BR_OK) {
-        status = br_cli_fail(&err, path);
     } else {
-        status = write_all(&o, p);
+        br_cli_run lr;
+        br_cli_run_begin(&lr, "map", quiet);
+        mo->progress = &lr.hook;
+        int rc = compute(path, mo, p, &o, &err);
+        int stop = br_cli_run_commit(&lr);
+        status = stop ? stop : rc != BR_OK ? br_cli_fail(&err, path) : write_all(&o, p, quiet);
+        br_cli_run_end(&lr);
+        mo->progress = NULL;
     }
     outputs_free(&o);
     return status;
@@ -159,6 +165,7 @@ int cmd_map(int argc, char **argv)
 {
     const char *duty = NULL, *freq = NULL, *threads = NULL;
     paths p = {0};
+    int quiet = 0;
     const br_opt opts[] = {
         {BR_OPT_STRING, "duty", "FROM:TO:N", &duty, "duty grid (required), e.g. 5%:95%:40"},
         {BR_OPT_STRING, "freq", "FROM:TO:N", &freq, "frequency grid (required), e.g. 10k:1M:40"},
@@ -168,6 +175,7 @@ int cmd_map(int argc, char **argv)
         {BR_OPT_STRING, "report", "PATH", &p.report,
          "also write a self-contained HTML report with the map to PATH"},
         {BR_OPT_STRING, "threads", "N", &threads, "worker threads, 1 to 16 (default 2)"},
+        {BR_OPT_FLAG, "quiet", NULL, &quiet, BR_QUIET_HELP},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
     };
     const br_cmd_doc doc = {"map", "FILE", ABOUT, opts, 1};
@@ -179,7 +187,7 @@ int cmd_map(int argc, char **argv)
         return br_cli_usage_error("map", "--duty and --freq are required");
     if (is_stdout(p.csv) + is_stdout(p.svg) + is_stdout(p.plot) + is_stdout(p.report) > 1)
         return br_cli_usage_error("map", "only one output file can go to standard output");
-    br_map_opts mo;
+    br_map_opts mo = {0};
     if (parse_axis("duty", duty, BR_KIND_FRACTION, &mo.duty_from, &mo.duty_to, &mo.nduty) ||
         parse_axis("freq", freq, BR_KIND_FREQUENCY, &mo.fsw_from, &mo.fsw_to, &mo.nfsw) ||
         parse_threads(threads, &mo.threads))
@@ -188,5 +196,5 @@ int cmd_map(int argc, char **argv)
     br_error_clear(&err);
     if (br_map_opts_check(&mo, &err) != BR_OK)
         return br_cli_usage_error("map", "--%s: %s", err.field, err.msg);
-    return run(pos[0], &mo, &p);
+    return run(pos[0], &mo, &p, quiet);
 }

@@ -26,7 +26,7 @@ static const char ABOUT[] =
 
 typedef struct args {
     const char *catalog, *xml, *threads, *top;
-    int no_startup, no_per_rail;
+    int no_startup, no_per_rail, quiet;
 } args;
 
 static int options(const args *a, br_pick_opts *o)
@@ -97,6 +97,18 @@ static int compute(const char *path, const args *a, const br_pick_opts *po, outp
     return rc;
 }
 
+/* The XML file first, then the report (unless the XML took stdout). */
+static int write_all(const args *a, const outputs *o)
+{
+    static const char *const verdict[] = {"verdict:", NULL};
+    if (a->xml) {
+        int status = br_cli_save(o->xml, a->xml);
+        if (status != BR_EXIT_OK || strcmp(a->xml, "-") == 0)
+            return status;
+    }
+    return a->quiet ? br_cli_emit_verdict(o->text, verdict, 0) : br_cli_emit(o->text);
+}
+
 int cmd_pick(int argc, char **argv)
 {
     args a = {0};
@@ -110,6 +122,7 @@ int cmd_pick(int argc, char **argv)
          "judge one-part choices only (no per-rail search)"},
         {BR_OPT_STRING, "xml", "PATH", &a.xml, "also write the results as XML to PATH (- stdout)"},
         {BR_OPT_STRING, "threads", "N", &a.threads, "worker threads (default: one per processor)"},
+        {BR_OPT_FLAG, "quiet", NULL, &a.quiet, BR_QUIET_HELP},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
     };
     const br_cmd_doc doc = {"pick", "FILE", ABOUT, opts, 1};
@@ -124,13 +137,14 @@ int cmd_pick(int argc, char **argv)
     br_error err;
     br_error_clear(&err);
     const char *culprit = pos[0];
-    int status;
-    if (compute(pos[0], &a, &po, &o, &culprit, &err) != BR_OK)
-        status = br_cli_fail(&err, culprit);
-    else if (a.xml && (status = br_cli_save(o.xml, a.xml)) != BR_EXIT_OK)
-        ; /* reported; nothing else is written */
-    else
-        status = a.xml && strcmp(a.xml, "-") == 0 ? BR_EXIT_OK : br_cli_emit(o.text);
+    br_cli_run lr;
+    br_cli_run_begin(&lr, "pick", a.quiet);
+    po.progress = &lr.hook;
+    int rc = compute(pos[0], &a, &po, &o, &culprit, &err);
+    int status = br_cli_run_commit(&lr);
+    if (status == BR_EXIT_OK)
+        status = rc != BR_OK ? br_cli_fail(&err, culprit) : write_all(&a, &o);
+    br_cli_run_end(&lr);
     if (status == BR_EXIT_OK && o.p->nranked == 0)
         status = BR_EXIT_FAIL;
     outputs_free(&o);

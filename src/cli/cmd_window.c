@@ -93,19 +93,20 @@ static int is_stdout(const char *path)
 }
 
 /* Files first, the report last (unless a file took stdout). */
-static int write_all(const outputs *o, const paths *p)
+static int write_all(const outputs *o, const paths *p, int quiet)
 {
+    static const char *const verdict[] = {"design point:", NULL};
     int status = p->xml ? br_cli_save(o->xml, p->xml) : BR_EXIT_OK;
     if (status == BR_EXIT_OK && p->report)
         status = br_cli_save(o->html, p->report);
     if (status == BR_EXIT_OK && p->plot)
         status = br_cli_save(o->svg, p->plot);
     if (status == BR_EXIT_OK && !is_stdout(p->xml) && !is_stdout(p->report) && !is_stdout(p->plot))
-        status = br_cli_emit(o->text);
+        status = quiet ? br_cli_emit_verdict(o->text, verdict, 0) : br_cli_emit(o->text);
     return status;
 }
 
-static int run(const char *path, const paths *p, const br_window_opts *wo)
+static int run(const char *path, const paths *p, br_window_opts *wo, int quiet)
 {
     outputs o = {br_text_create(), p->xml ? br_text_create() : NULL,
                  p->report ? br_text_create() : NULL, p->plot ? br_text_create() : NULL,
@@ -116,12 +117,18 @@ static int run(const char *path, const paths *p, const br_window_opts *wo)
     if (!o.text || !o.w || (p->xml && !o.xml) || (p->report && !o.html) || (p->plot && !o.svg)) {
         br_error_set(&err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
         status = br_cli_fail(&err, NULL);
-    } else if (compute(path, wo, &o, &err) != BR_OK) {
-        status = br_cli_fail(&err, path);
     } else {
-        status = write_all(&o, p);
+        br_cli_run lr;
+        br_cli_run_begin(&lr, "window", quiet);
+        wo->progress = &lr.hook;
+        int rc = compute(path, wo, &o, &err);
+        status = br_cli_run_commit(&lr);
+        if (status == BR_EXIT_OK)
+            status = rc != BR_OK ? br_cli_fail(&err, path) : write_all(&o, p, quiet);
         if (status == BR_EXIT_OK && !o.w->design.holds)
             status = BR_EXIT_FAIL;
+        br_cli_run_end(&lr);
+        wo->progress = NULL;
     }
     outputs_free(&o);
     return status;
@@ -131,7 +138,7 @@ int cmd_window(int argc, char **argv)
 {
     const char *fmin = NULL, *fmax = NULL;
     paths p = {0};
-    int startup = 0;
+    int startup = 0, quiet = 0;
     const br_opt opts[] = {
         {BR_OPT_STRING, "xml", "PATH", &p.xml, "also write the results as XML to PATH (- stdout)"},
         {BR_OPT_STRING, "report", "PATH", &p.report,
@@ -142,6 +149,7 @@ int cmd_window(int argc, char **argv)
         {BR_OPT_STRING, "fmax", "FREQ", &fmax,
          "highest frequency searched (default fsw*100, within the dead time)"},
         {BR_OPT_FLAG, "startup", NULL, &startup, "also the start-up window (slow)"},
+        {BR_OPT_FLAG, "quiet", NULL, &quiet, BR_QUIET_HELP},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
     };
     const br_cmd_doc doc = {"window", "FILE", ABOUT, opts, 1};
@@ -157,5 +165,5 @@ int cmd_window(int argc, char **argv)
         return BR_EXIT_INPUT;
     if (is_stdout(p.xml) + is_stdout(p.report) + is_stdout(p.plot) > 1)
         return br_cli_usage_error("window", "only one output file can go to standard output");
-    return run(pos[0], &p, &wo);
+    return run(pos[0], &p, &wo, quiet);
 }

@@ -33,7 +33,7 @@ static int is_stdout(const char *path)
 
 typedef struct args {
     const char *xml, *csv, *samples, *seed, *threads, *min_yield, *report, *plot;
-    int startup;
+    int startup, quiet;
 } args;
 
 static int options(const args *a, br_yield_opts *o, double *min_yield)
@@ -120,6 +120,7 @@ static int compute(const char *path, const args *a, const br_yield_opts *yo, dou
 /* Files first, the report last (unless a file took stdout). */
 static int write_all(const args *a, const outputs *o)
 {
+    static const char *const verdict[] = {"verdict:", NULL};
     int status = BR_EXIT_OK;
     if (a->xml)
         status = br_cli_save(o->xml, a->xml);
@@ -131,7 +132,7 @@ static int write_all(const args *a, const outputs *o)
         status = br_cli_save(o->svg, a->plot);
     if (status == BR_EXIT_OK && !is_stdout(a->xml) && !is_stdout(a->csv) && !is_stdout(a->report) &&
         !is_stdout(a->plot))
-        status = br_cli_emit(o->text);
+        status = a->quiet ? br_cli_emit_verdict(o->text, verdict, 1) : br_cli_emit(o->text);
     return status;
 }
 
@@ -153,6 +154,7 @@ int cmd_yield(int argc, char **argv)
         {BR_OPT_STRING, "plot", "PATH", &a.plot,
          "also plot the histograms of the margins as SVG to PATH"},
         {BR_OPT_STRING, "threads", "N", &a.threads, "worker threads (default: one per processor)"},
+        {BR_OPT_FLAG, "quiet", NULL, &a.quiet, BR_QUIET_HELP},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
     };
     const br_cmd_doc doc = {"yield", "FILE", ABOUT, opts, 1};
@@ -167,11 +169,14 @@ int cmd_yield(int argc, char **argv)
     outputs o = {0};
     br_error err;
     br_error_clear(&err);
-    int status;
-    if (compute(pos[0], &a, &yo, min_yield, &o, &err) != BR_OK)
-        status = br_cli_fail(&err, pos[0]);
-    else
-        status = write_all(&a, &o);
+    br_cli_run lr;
+    br_cli_run_begin(&lr, "yield", a.quiet);
+    yo.progress = &lr.hook;
+    int rc = compute(pos[0], &a, &yo, min_yield, &o, &err);
+    int status = br_cli_run_commit(&lr);
+    if (status == BR_EXIT_OK)
+        status = rc != BR_OK ? br_cli_fail(&err, pos[0]) : write_all(&a, &o);
+    br_cli_run_end(&lr);
     if (status == BR_EXIT_OK && br_yield_failed(o.y, min_yield))
         status = BR_EXIT_FAIL;
     outputs_free(&o);

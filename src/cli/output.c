@@ -8,6 +8,8 @@
 #include "report/save.h"
 
 #include <errno.h>
+#include <pthread.h>
+#include <signal.h>
 #include <stdarg.h>
 #include <string.h>
 
@@ -74,7 +76,18 @@ int br_cli_save(const br_text *t, const char *path)
         return br_cli_emit(t);
     br_error err;
     br_error_clear(&err);
-    if (br_text_save(t, path, &err) != BR_OK)
+    /* a signal that would end the program waits until the temporary file
+     * is renamed or removed, so none is ever left behind */
+    sigset_t hold, old;
+    sigemptyset(&hold);
+    sigaddset(&hold, SIGINT);
+    sigaddset(&hold, SIGTERM);
+    sigaddset(&hold, SIGHUP);
+    int held = pthread_sigmask(SIG_BLOCK, &hold, &old) == 0;
+    int rc = br_text_save(t, path, &err);
+    if (held)
+        pthread_sigmask(SIG_SETMASK, &old, NULL);
+    if (rc != BR_OK)
         return br_cli_fail(&err, path);
     return BR_EXIT_OK;
 }

@@ -63,6 +63,7 @@ const char *br_status_name(int code)
     case BR_EIO: return "i/o error";
     case BR_ENUMERIC: return "numerical failure";
     case BR_EUSAGE: return "usage error";
+    case BR_ECANCEL: return "cancelled";
     default: return "unknown error";
     }
 }

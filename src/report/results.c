@@ -46,6 +46,7 @@ static int run_startup(br_results *r, br_text *csv, br_trace *tr, br_error *err)
     br_csv_series s;
     br_sim_observer obs;
     br_startup_opts o = {0};
+    o.progress = r->progress;
     if (csv || tr) {
         double dt = fmax(c->T / ROWS_PER_PERIOD, c->startup_max / STARTUP_ROWS);
         br_csv_series_init(&s, csv, "startup", c->n, dt, 0.0);

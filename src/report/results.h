@@ -19,23 +19,25 @@ enum {
 };
 
 typedef struct br_results {
-    const br_chain *c;      /* the chain analysed (not owned) */
-    const char *verb;       /* "startup", "steady" or "analyze" */
-    int parts;              /* BR_RUN_* bits that were run */
-    br_startup su;          /* valid when parts has BR_RUN_STARTUP */
-    int ndir;               /* steady states computed (0 without BR_RUN_STEADY) */
-    br_steady ss[2];        /* one per direction of br_design_directions */
-    br_steady_figs figs[2]; /* figs[d].ss points at ss[d] */
-    br_verdict verdict;     /* over what was run */
+    const br_chain *c;           /* the chain analysed (not owned) */
+    const char *verb;            /* "startup", "steady" or "analyze" */
+    int parts;                   /* BR_RUN_* bits that were run */
+    br_startup su;               /* valid when parts has BR_RUN_STARTUP */
+    int ndir;                    /* steady states computed (0 without BR_RUN_STEADY) */
+    br_steady ss[2];             /* one per direction of br_design_directions */
+    br_steady_figs figs[2];      /* figs[d].ss points at ss[d] */
+    br_verdict verdict;          /* over what was run */
+    const br_progress *progress; /* the cold start's progress hook (NULL: none); set it
+                                    before br_results_run */
 } br_results;
 
 /* Allocate (the structure is large).  Returns NULL when out of memory. */
 br_results *br_results_create(void);
 void br_results_free(br_results *r);
 
-/* Run the analyses `parts` on c.  When csv is not NULL, the time series
- * (start-up decimated, one steady period per direction at the solver's
- * resolution) are appended to it, header first.  Returns a br_status. */
+/* Run the analyses `parts` on c (BR_ECANCEL when r->progress stops it).  When csv is not NULL, the
+ * time series (start-up decimated, one steady period per direction at the solver's resolution) are
+ * appended to it, header first.  Returns a br_status. */
 int br_results_run(br_results *r, const br_chain *c, const char *verb, int parts, br_text *csv,
                    br_error *err);
 

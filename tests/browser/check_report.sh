@@ -84,7 +84,7 @@ fi
 
 # 3. The plots made it into the rendered page.
 dom=$out/demo-report.dom.html
-browse "$page" /dev/null "$out/demo-report-dom.log" --dump-dom >"$dom" || true
+browse "$page" "$out/unused.png" "$out/demo-report-dom.log" --dump-dom >"$dom" || true
 svgs=$(grep -o '<svg' "$dom" | wc -l)
 errors=$(console_errors "$out/demo-report-dom.log")
 if [ "$svgs" -lt 4 ] || [ -n "$errors" ]; then

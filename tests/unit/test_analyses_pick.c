@@ -170,12 +170,64 @@ static void test_per_rail(void)
     br_design_free(d);
 }
 
+/* The progress hook: counts, and asks to stop at call stop_at (0: never). */
+typedef struct seen {
+    int calls, stop_at;
+    double done, total;
+    int backwards;
+} seen;
+
+static int hook(void *ctx, double done, double total)
+{
+    seen *s = ctx;
+    s->calls++;
+    s->backwards |= done < s->done;
+    s->done = done;
+    s->total = total;
+    return s->stop_at > 0 && s->calls >= s->stop_at;
+}
+
+/* The work only grows and ends where the estimate does; a stop in the
+ * base design's points or among the choices gives BR_ECANCEL and no
+ * result (nothing leaked under ASan). */
+static void test_progress_and_cancel(void)
+{
+    br_design *d = design();
+    br_catalog *cat = catalog();
+    br_pick_opts o;
+    br_pick_opts_default(&o);
+    o.threads = 2;
+    o.per_rail = 0; /* the one-part choices are work enough */
+    o.startup = 0;
+    seen s = {0};
+    br_progress hk = {hook, &s};
+    o.progress = &hk;
+    br_pick *p = NULL;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_pick_run(d, cat, &o, &p, &err), BR_OK);
+    CU_ASSERT_TRUE(s.calls > 3);
+    CU_ASSERT_FALSE(s.backwards);
+    BR_ASSERT_NEAR(s.done, s.total, 1e-9);
+    br_pick_free(p);
+    int all = s.calls;
+    for (int stop = 1; stop < all; stop += all / 3 + 1) {
+        s = (seen){.stop_at = stop};
+        p = (br_pick *)&s;
+        CU_ASSERT_EQUAL(br_pick_run(d, cat, &o, &p, &err), BR_ECANCEL);
+        CU_ASSERT_PTR_NULL(p);
+        CU_ASSERT_EQUAL(s.calls, stop);
+    }
+    br_design_free(d);
+    free(cat);
+}
+
 int main(void)
 {
     static const br_test_case cases[] = {
         {"a choice placed in the design", test_apply},
         {"rating screens, failures and the ranking", test_screen_and_rank},
         {"per-rail descent", test_per_rail},
+        {"progress and a stop", test_progress_and_cancel},
         {NULL, NULL},
     };
     gsl_set_error_handler_off(); /* the library checks every GSL status itself */

@@ -335,7 +335,7 @@ static void test_no_chatter(void)
     for (int k = 0; k < BR_MAX_SWITCHES; k++)
         tg.last_t[k] = -1.0;
     br_sim_observer obs = {&tg, on_toggle, NULL};
-    br_startup_opts o = {0, 0, &obs};
+    br_startup_opts o = {0, 0, &obs, NULL};
     br_startup su;
     CU_ASSERT_EQUAL(br_startup_run(c, &o, &su, &err), BR_OK);
     CU_ASSERT_EQUAL(tg.bad, 0);

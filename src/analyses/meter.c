@@ -1,0 +1,61 @@
+/* meter.c - progress shared by worker threads. */
+#include "analyses/meter.h"
+
+#include "core/error.h"
+
+int br_meter_init(br_meter *m, const br_progress *hook, double total, br_error *err)
+{
+    m->hook = hook && hook->fn ? hook : NULL;
+    m->done = 0.0;
+    m->total = total;
+    m->stop = 0;
+    if (pthread_mutex_init(&m->lock, NULL) != 0)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "cannot create a lock for progress");
+    return BR_OK;
+}
+
+void br_meter_destroy(br_meter *m)
+{
+    if (m)
+        pthread_mutex_destroy(&m->lock);
+}
+
+void br_meter_grow(br_meter *m, double more)
+{
+    if (!m)
+        return;
+    pthread_mutex_lock(&m->lock);
+    m->total += more;
+    pthread_mutex_unlock(&m->lock);
+}
+
+int br_meter_add(br_meter *m, double work)
+{
+    if (!m)
+        return 0;
+    pthread_mutex_lock(&m->lock);
+    m->done += work;
+    if (m->total < m->done)
+        m->total = m->done; /* an estimate that fell short */
+    /* the hook runs under the lock: one call at a time, counts in order */
+    if (!m->stop && m->hook && m->hook->fn(m->hook->ctx, m->done, m->total))
+        m->stop = 1;
+    int stop = m->stop;
+    pthread_mutex_unlock(&m->lock);
+    return stop;
+}
+
+int br_meter_stopped(br_meter *m)
+{
+    if (!m)
+        return 0;
+    pthread_mutex_lock(&m->lock);
+    int stop = m->stop;
+    pthread_mutex_unlock(&m->lock);
+    return stop;
+}
+
+int br_meter_status(br_meter *m, int rc, br_error *err)
+{
+    return br_meter_stopped(m) ? br_progress_cancelled(err) : rc;
+}

@@ -1,0 +1,300 @@
+/* test_cli_interrupt.c - long runs on the command line: a signal stops
+ * them with status 130 (SIGINT) or 143 (SIGTERM) and no file written, no
+ * temporary file left; --quiet prints the verdict line alone; the
+ * progress bar goes to a terminal only. */
+#define _DEFAULT_SOURCE /* openpty */
+#include "runbin.h"
+#include "testkit.h"
+
+#include <dirent.h>
+#include <errno.h>
+#include <fcntl.h>
+#include <poll.h>
+#include <pty.h>
+#include <signal.h>
+#include <spawn.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/ioctl.h>
+#include <sys/wait.h>
+#include <termios.h>
+#include <time.h>
+#include <unistd.h>
+
+extern char **environ;
+
+#define LEG BR_SOURCE_DIR "/examples/leg-7level.xml"
+#define DEMO BR_SOURCE_DIR "/examples/demo-3level.xml"
+
+static double now(void)
+{
+    struct timespec ts;
+    clock_gettime(CLOCK_MONOTONIC, &ts);
+    return (double)ts.tv_sec + 1e-9 * (double)ts.tv_nsec;
+}
+
+/* Spawn the binary with args, stdout to out_path, stderr to fd err_fd;
+ * SIGINT and SIGTERM at their default whatever this process inherited (a
+ * background shell ignores SIGINT, and so would the child). */
+static pid_t spawn(const char *const *args, const char *out_path, int err_fd)
+{
+    char *argv[32] = {BR_BINARY};
+    int n = 1;
+    for (; args[n - 1] && n < 31; n++)
+        argv[n] = (char *)args[n - 1];
+    argv[n] = NULL;
+    posix_spawn_file_actions_t fa;
+    posix_spawn_file_actions_init(&fa);
+    posix_spawn_file_actions_addopen(&fa, 0, "/dev/null", O_RDONLY, 0);
+    posix_spawn_file_actions_addopen(&fa, 1, out_path, O_WRONLY | O_CREAT | O_TRUNC, 0600);
+    posix_spawn_file_actions_adddup2(&fa, err_fd, 2);
+    posix_spawnattr_t at;
+    posix_spawnattr_init(&at);
+    sigset_t def, none;
+    sigemptyset(&def);
+    sigaddset(&def, SIGINT);
+    sigaddset(&def, SIGTERM);
+    sigemptyset(&none);
+    posix_spawnattr_setsigdefault(&at, &def);
+    posix_spawnattr_setsigmask(&at, &none);
+    posix_spawnattr_setflags(&at, POSIX_SPAWN_SETSIGDEF | POSIX_SPAWN_SETSIGMASK);
+    pid_t pid = -1;
+    int rc = posix_spawn(&pid, BR_BINARY, &fa, &at, argv, environ);
+    posix_spawn_file_actions_destroy(&fa);
+    posix_spawnattr_destroy(&at);
+    CU_ASSERT_EQUAL_FATAL(rc, 0);
+    return pid;
+}
+
+/* Exit status, or -1 when killed. */
+static int wait_status(pid_t pid)
+{
+    int ws = 0;
+    while (waitpid(pid, &ws, 0) < 0 && errno == EINTR)
+        ;
+    return WIFEXITED(ws) ? WEXITSTATUS(ws) : -1;
+}
+
+/* Entries of dir besides . and .. */
+static int entries(const char *dir)
+{
+    DIR *d = opendir(dir);
+    int n = 0;
+    CU_ASSERT_PTR_NOT_NULL_FATAL(d);
+    for (struct dirent *e; (e = readdir(d));)
+        if (strcmp(e->d_name, ".") != 0 && strcmp(e->d_name, "..") != 0) {
+            fprintf(stderr, "left behind: %s\n", e->d_name);
+            n++;
+        }
+    closedir(d);
+    return n;
+}
+
+/* Start a long run writing files into a fresh directory, send sig after
+ * 0.3 s, and check the status, the one line on stderr, and that nothing
+ * was written. */
+static void interrupt_run(const char *verb, const char *o1, const char *f1, const char *o2,
+                          const char *f2, int sig, int expect)
+{
+    char dir[] = "/tmp/br-int-XXXXXX", p1[128], p2[128], po[] = "/tmp/br-int-out-XXXXXX",
+         pe[] = "/tmp/br-int-err-XXXXXX";
+    CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(dir));
+    snprintf(p1, sizeof p1, "%s/%s", dir, f1);
+    snprintf(p2, sizeof p2, "%s/%s", dir, f2);
+    int fo = mkstemp(po), fe = mkstemp(pe);
+    CU_ASSERT_TRUE_FATAL(fo >= 0 && fe >= 0);
+    const char *map[] = {verb, LEG, "--duty", "5%:95%:40", "--freq", "10k:1M:40",
+                         o1,   p1,  o2,       p2,          NULL};
+    const char *yield[] = {verb, LEG, "--samples", "100000", o1, p1, o2, p2, NULL};
+    pid_t pid = spawn(strcmp(verb, "map") == 0 ? map : yield, po, fe);
+    usleep(300000);
+    double t = now();
+    kill(pid, sig);
+    int status = wait_status(pid);
+    double took = now() - t;
+    CU_ASSERT_EQUAL(status, expect);
+    CU_ASSERT_TRUE(took < 5.0); /* the workers stop after their current point */
+    char *err = br_test_slurp(pe, NULL), *out = br_test_slurp(po, NULL);
+    CU_ASSERT_TRUE(err && strcmp(err, "bootrung: interrupted\n") == 0);
+    CU_ASSERT_TRUE(out && out[0] == '\0');
+    CU_ASSERT_EQUAL(entries(dir), 0);
+    free(err);
+    free(out);
+    close(fo);
+    close(fe);
+    unlink(po);
+    unlink(pe);
+    rmdir(dir);
+}
+
+static void test_sigint_map(void)
+{
+    interrupt_run("map", "--csv", "m.csv", "--svg", "m.svg", SIGINT, 130);
+}
+
+static void test_sigterm_yield(void)
+{
+    interrupt_run("yield", "--xml", "y.xml", "--csv", "y.csv", SIGTERM, 143);
+}
+
+/* --quiet: one line on stdout, the verdict; nothing on stderr. */
+static void quiet_line(const char *const *args, const char *prefix, int expect)
+{
+    run_result r = run(args);
+    CU_ASSERT_EQUAL(r.status, expect);
+    CU_ASSERT_TRUE(strncmp(r.out, prefix, strlen(prefix)) == 0);
+    char *nl = strchr(r.out, '\n');
+    CU_ASSERT_TRUE(nl && nl[1] == '\0'); /* exactly one line */
+    CU_ASSERT_STRING_EQUAL(r.err, "");
+    if (!(nl && nl[1] == '\0'))
+        fprintf(stderr, "stdout was: [%s]\n", r.out);
+    done(&r);
+}
+
+static void test_quiet(void)
+{
+    const char *analyze[] = {"analyze", DEMO, "--quiet", NULL};
+    quiet_line(analyze, "verdict: FAIL, ", 1);
+    const char *startup[] = {"startup", DEMO, "--quiet", NULL};
+    quiet_line(startup, "start-up complete after ", 0);
+    const char *check[] = {"check", DEMO, "--quiet", NULL};
+    quiet_line(check, "design rules: ", 0);
+    const char *map[] = {"map",    DEMO,         "--duty",  "40%:60%:2",
+                         "--freq", "80k:120k:2", "--quiet", NULL};
+    quiet_line(map, "design point: FAILS", 1);
+    const char *yield[] = {"yield", DEMO, "--samples", "20", "--quiet", NULL};
+    quiet_line(yield, "verdict: ", 1);
+}
+
+/* --quiet still writes the files asked for. */
+static void test_quiet_writes_files(void)
+{
+    char dir[] = "/tmp/br-quiet-XXXXXX", path[128];
+    CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(dir));
+    snprintf(path, sizeof path, "%s/r.xml", dir);
+    const char *args[] = {"analyze", DEMO, "--quiet", "--xml", path, NULL};
+    run_result r = run(args);
+    CU_ASSERT_EQUAL(r.status, 1);
+    CU_ASSERT_EQUAL(access(path, R_OK), 0);
+    CU_ASSERT_TRUE(has(r.out, "verdict: FAIL"));
+    done(&r);
+    unlink(path);
+    rmdir(dir);
+}
+
+/* A run of many seconds (its first points alone take a while), stopped
+ * by SIGINT. */
+static const char *const long_map[] = {"map",    LEG,         "--duty", "5%:95%:40",
+                                       "--freq", "10k:1M:40", NULL,     NULL};
+
+/* Run args with stderr on fd err_fd (or, when err_fd < 0, on a
+ * pseudo-terminal 80 columns wide), send SIGINT after `after` seconds or,
+ * when `until` is given, as soon as the terminal shows it (within 30 s),
+ * and return what reached stderr (malloc'd). */
+static char *stopped_run(const char *const *args, int err_fd, double after, const char *until,
+                         int *status)
+{
+    int master = -1, slave = err_fd;
+    struct winsize ws = {.ws_row = 24, .ws_col = 80};
+    if (err_fd < 0)
+        CU_ASSERT_EQUAL_FATAL(openpty(&master, &slave, NULL, NULL, &ws), 0);
+    char po[] = "/tmp/br-pty-out-XXXXXX";
+    int fo = mkstemp(po);
+    CU_ASSERT_TRUE_FATAL(fo >= 0);
+    pid_t pid = spawn(args, po, slave);
+    if (master >= 0)
+        close(slave);
+    size_t cap = 1 << 16, len = 0;
+    char *buf = calloc(cap, 1);
+    double t0 = now();
+    int sent = 0;
+    /* drain the terminal so the child never blocks on it, until its side
+     * closes (read fails with EIO) */
+    for (;;) {
+        int due = until ? strstr(buf, until) != NULL || now() - t0 >= 30.0 : now() - t0 >= after;
+        if (!sent && due)
+            sent = kill(pid, SIGINT) == 0;
+        struct pollfd pf = {master, POLLIN, 0};
+        if (master < 0) {
+            if (sent)
+                break;
+            usleep(10000);
+            continue;
+        }
+        if (poll(&pf, 1, 20) <= 0)
+            continue;
+        ssize_t n = read(master, buf + len, cap - 1 - len);
+        if (n <= 0 && !(n < 0 && errno == EINTR))
+            break;
+        len += n > 0 ? (size_t)n : 0;
+    }
+    *status = wait_status(pid);
+    if (master >= 0)
+        close(master);
+    close(fo);
+    unlink(po);
+    return buf;
+}
+
+/* stderr to a file: not a byte of progress in 1.5 s of running. */
+static void test_no_bar_off_terminal(void)
+{
+    char pe[] = "/tmp/br-int-err-XXXXXX";
+    int fe = mkstemp(pe), status;
+    CU_ASSERT_TRUE_FATAL(fe >= 0);
+    free(stopped_run(long_map, fe, 1.5, NULL, &status));
+    CU_ASSERT_EQUAL(status, 130);
+    char *err = br_test_slurp(pe, NULL);
+    CU_ASSERT_TRUE(err && strcmp(err, "bootrung: interrupted\n") == 0);
+    free(err);
+    close(fe);
+    unlink(pe);
+}
+
+static void test_bar_on_terminal(void)
+{
+    int status;
+    char *tty = stopped_run(long_map, -1, 0.0, " % ", &status);
+    CU_ASSERT_EQUAL(status, 130);
+    CU_ASSERT_TRUE(has(tty, "\rmap ["));
+    CU_ASSERT_TRUE(has(tty, " % "));
+    /* the bar is erased before the last line (the terminal turns \n
+     * into \r\n) */
+    CU_ASSERT_TRUE(has(tty, " \rbootrung: interrupted\r\n"));
+    /* one line redrawn: no newline before the last line */
+    CU_ASSERT_TRUE(strchr(tty, '\n') == tty + strlen(tty) - 1);
+    size_t width = 0, run_len = 0;
+    for (const char *p = tty; *p; p++) {
+        run_len = *p == '\r' ? 0 : run_len + 1;
+        width = run_len > width ? run_len : width;
+    }
+    CU_ASSERT_TRUE(width < 80); /* no line longer than the terminal */
+    free(tty);
+}
+
+static void test_quiet_no_bar_on_terminal(void)
+{
+    const char *args[] = {"map",    LEG,         "--duty",  "5%:95%:40",
+                          "--freq", "10k:1M:40", "--quiet", NULL};
+    int status;
+    char *tty = stopped_run(args, -1, 1.5, NULL, &status);
+    CU_ASSERT_EQUAL(status, 130);
+    CU_ASSERT_STRING_EQUAL(tty, "bootrung: interrupted\r\n");
+    free(tty);
+}
+
+int main(void)
+{
+    static const br_test_case cases[] = {
+        {"SIGINT stops map: 130, no files", test_sigint_map},
+        {"SIGTERM stops yield: 143, no files", test_sigterm_yield},
+        {"--quiet prints the verdict line only", test_quiet},
+        {"--quiet still writes the files", test_quiet_writes_files},
+        {"no progress off a terminal", test_no_bar_off_terminal},
+        {"a progress bar on a terminal", test_bar_on_terminal},
+        {"--quiet: no bar on a terminal", test_quiet_no_bar_on_terminal},
+        {NULL, NULL},
+    };
+    return br_test_main("cli interrupt", cases);
+}
