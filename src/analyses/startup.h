@@ -25,6 +25,10 @@ typedef struct br_startup {
     double t_simulated;    /* s */
     double pwm_start;      /* end of the pre-charge steps, s */
     int first_stalled;     /* lowest stage never running at the end, -1 */
+    int failed;            /* the simulation stopped at t_simulated on a
+                              numerical failure (why says what): the
+                              figures are partial and decide nothing */
+    char why[160];
     br_startup_stage st[BR_MAX_SWITCHES];
 } br_startup;
 
@@ -35,6 +39,9 @@ typedef struct br_startup_opts {
     const br_sim_observer *obs; /* extra observer for samples (may be NULL) */
 } br_startup_opts;
 
+/* Simulate the cold start of c.  A numerical failure of the integrator is
+ * not an error here: it is recorded in out->failed and out->why (so that
+ * the verdict can call the start-up undetermined) and BR_OK returned. */
 int br_startup_run(const br_chain *c, const br_startup_opts *o, br_startup *out, br_error *err);
 
 #endif

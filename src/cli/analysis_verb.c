@@ -39,7 +39,8 @@ static int outputs_alloc(outputs *o, const char *xml, const char *csv, br_error 
 
 /* Load, build, run and render everything in memory; nothing is written
  * unless all of it succeeded. */
-static int compute(const char *path, const char *verb, int parts, outputs *o, br_error *err)
+static int compute(const char *path, const char *verb, int parts, const br_steady_opts *so,
+                   outputs *o, br_error *err)
 {
     br_design *d = NULL;
     br_chain *c = NULL;
@@ -47,7 +48,7 @@ static int compute(const char *path, const char *verb, int parts, outputs *o, br
     if (rc == BR_OK)
         rc = br_chain_build(d, &c, err);
     if (rc == BR_OK)
-        rc = br_results_run(o->res, c, verb, parts, o->csv, err);
+        rc = br_results_run(o->res, c, verb, parts, so, o->csv, err);
     if (rc == BR_OK)
         rc = br_results_text(o->res, o->text, err);
     if (rc == BR_OK && o->xml)
@@ -78,10 +79,25 @@ static int write_all(const outputs *o, const char *xml, const char *csv)
     return status;
 }
 
+/* --solver-limit N: fewer Newton iterations (never more than the default)
+ * and N periods of plain simulation; what the solver cannot settle within
+ * them is reported undetermined, never a pass. */
+static int solver_limit(const char *verb, const char *text, br_steady_opts *so)
+{
+    long n;
+    if (br_cli_long(verb, "solver-limit", text, 1, 100000, &n) != BR_EXIT_OK)
+        return BR_EXIT_INPUT;
+    so->max_iter = n < so->max_iter ? (int)n : so->max_iter;
+    so->max_plain = n;
+    return BR_EXIT_OK;
+}
+
 int br_cli_analysis(int argc, char **argv, const char *about, int parts)
 {
-    const char *xml = NULL, *csv = NULL;
+    const char *xml = NULL, *csv = NULL, *limit = NULL;
     const br_opt opts[] = {
+        {BR_OPT_STRING, "solver-limit", "N", &limit,
+         "steady-state solver: at most N Newton iterations and N plain periods"},
         /* "-" for either sends it to stdout in place of the text report */
         {BR_OPT_STRING, "xml", "PATH", &xml, "also write the results as XML to PATH (- stdout)"},
         {BR_OPT_STRING, "csv", "PATH", &csv,
@@ -95,18 +111,24 @@ int br_cli_analysis(int argc, char **argv, const char *about, int parts)
         return br_cli_parse_status(parsed);
     if (is_stdout(xml) && is_stdout(csv))
         return br_cli_usage_error(argv[0], "--xml and --csv cannot both go to standard output");
+    br_steady_opts so;
+    br_steady_opts_default(&so);
+    if (limit && solver_limit(argv[0], limit, &so) != BR_EXIT_OK)
+        return BR_EXIT_INPUT;
     outputs o = {0};
     br_error err;
     br_error_clear(&err);
     int status;
     if (outputs_alloc(&o, xml, csv, &err) != BR_OK)
         status = br_cli_fail(&err, NULL);
-    else if (compute(pos[0], argv[0], parts, &o, &err) != BR_OK)
+    else if (compute(pos[0], argv[0], parts, &so, &o, &err) != BR_OK)
         status = br_cli_fail(&err, pos[0]);
     else
         status = write_all(&o, xml, csv);
     if (status == BR_EXIT_OK && br_results_failed(o.res))
         status = BR_EXIT_FAIL;
+    else if (status == BR_EXIT_OK && br_results_undetermined(o.res))
+        status = BR_EXIT_UNDETERMINED;
     outputs_free(&o);
     return status;
 }

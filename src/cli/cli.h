@@ -16,7 +16,9 @@
 enum {
     BR_EXIT_OK = 0,   /* done; every criterion evaluated passes */
     BR_EXIT_FAIL = 1, /* done; a design criterion fails */
-    BR_EXIT_INPUT = 2 /* not done: bad input, bad usage or an I/O error */
+    BR_EXIT_INPUT = 2, /* not done: bad input, bad usage or an I/O error */
+    BR_EXIT_UNDETERMINED = 3 /* done; nothing fails but a criterion could not
+                                be decided (a solver did not converge) */
 };
 
 /* ---- options --------------------------------------------------------- */

@@ -73,12 +73,12 @@ static int steady_series(const br_chain *c, const br_steady *ss, br_text *csv, b
     return rc;
 }
 
-static int run_steady(br_results *r, br_text *csv, br_error *err)
+static int run_steady(br_results *r, const br_steady_opts *so, br_text *csv, br_error *err)
 {
     int dirs[2];
     r->ndir = br_design_directions(r->c, dirs);
     for (int d = 0; d < r->ndir; d++) {
-        int rc = br_steady_solve(r->c, dirs[d], NULL, &r->ss[d], err);
+        int rc = br_steady_solve(r->c, dirs[d], so, &r->ss[d], err);
         if (rc == BR_OK && csv)
             rc = steady_series(r->c, &r->ss[d], csv, err);
         if (rc != BR_OK)
@@ -88,8 +88,8 @@ static int run_steady(br_results *r, br_text *csv, br_error *err)
     return BR_OK;
 }
 
-int br_results_run(br_results *r, const br_chain *c, const char *verb, int parts, br_text *csv,
-                   br_error *err)
+int br_results_run(br_results *r, const br_chain *c, const char *verb, int parts,
+                   const br_steady_opts *so, br_text *csv, br_error *err)
 {
     memset(r, 0, sizeof *r);
     r->c = c;
@@ -101,7 +101,7 @@ int br_results_run(br_results *r, const br_chain *c, const char *verb, int parts
     if (parts & BR_RUN_STARTUP)
         rc = run_startup(r, csv, err);
     if (rc == BR_OK && (parts & BR_RUN_STEADY))
-        rc = run_steady(r, csv, err);
+        rc = run_steady(r, so, csv, err);
     if (rc == BR_OK)
         br_verdict_make(c, (parts & BR_RUN_STARTUP) ? &r->su : NULL, r->figs, r->ndir, &r->verdict);
     return rc;
@@ -118,11 +118,23 @@ static unsigned verdict_mask(const br_results *r)
     return m;
 }
 
+/* Rows of the verb's criteria that fail (undetermined ones aside). */
 int br_results_failed(const br_results *r)
 {
     unsigned m = verdict_mask(r);
+    for (int i = 0; i < BR_CRIT_COUNT; i++) {
+        const br_verdict_row *v = &r->verdict.row[i];
+        if ((m & BR_CRIT_BIT(i)) && v->applies && !v->pass && !v->undetermined)
+            return 1;
+    }
+    return 0;
+}
+
+int br_results_undetermined(const br_results *r)
+{
+    unsigned m = verdict_mask(r);
     for (int i = 0; i < BR_CRIT_COUNT; i++)
-        if ((m & BR_CRIT_BIT(i)) && r->verdict.row[i].applies && !r->verdict.row[i].pass)
+        if ((m & BR_CRIT_BIT(i)) && r->verdict.row[i].undetermined)
             return 1;
     return 0;
 }

@@ -168,7 +168,7 @@ static int stall_short(const br_chain *c, const br_startup *su, int k, br_text *
 int br_startup_stall_text(const br_chain *c, const br_startup *su, br_text *out)
 {
     int k = su->first_stalled;
-    if (su->complete || k < 0 || k >= su->n)
+    if (su->complete || su->failed || k < 0 || k >= su->n)
         return BR_OK;
     double vneed = br_rail_start_voltage(c, k);
     if (!isfinite(vneed))
@@ -181,6 +181,8 @@ int br_startup_stall_text(const br_chain *c, const br_startup *su, br_text *out)
 static int render_summary(const br_chain *c, const br_startup *su, br_text *out)
 {
     char a[32];
+    if (su->failed)
+        return br_report_wrap(out, "start-up UNDETERMINED: ", su->why, 2);
     if (su->complete) {
         int last = 0;
         for (int k = 0; k < su->n; k++)
@@ -255,7 +257,7 @@ static void stage_xml(br_xmlw *w, const br_chain *c, const br_startup *su, int k
 static void stall_xml(br_xmlw *w, const br_chain *c, const br_startup *su)
 {
     int k = su->first_stalled;
-    if (su->complete || k < 0 || k >= su->n)
+    if (su->complete || su->failed || k < 0 || k >= su->n)
         return;
     br_text *t = br_text_create();
     if (!t || br_startup_stall_text(c, su, t) != BR_OK) {
@@ -281,6 +283,10 @@ void br_startup_xml(br_xmlw *w, const br_chain *c, const br_startup *su)
 {
     br_xmlw_start(w, "startup");
     br_xmlw_bool(w, "complete", su->complete);
+    if (su->failed) {
+        br_xmlw_bool(w, "undetermined", 1);
+        br_xmlw_attr(w, "why", su->why);
+    }
     if (su->complete)
         br_xmlw_num(w, "total-s", su->t_total);
     br_xmlw_num(w, "simulated-s", su->t_simulated);
