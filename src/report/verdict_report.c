@@ -125,7 +125,7 @@ static int render_overall(const br_verdict *v, unsigned mask, br_text *out)
     if (undet > 0) /* never a pass: what was not decided may fail */
         return br_text_printf(out,
                               "verdict: UNDETERMINED, %d criteria could not be decided (see "
-                              "above); the %d evaluated pass\n",
+                              "above), %d evaluated pass\n",
                               undet, evaluated);
     return br_text_printf(
         out, "verdict: PASS, all %d criteria evaluated pass (%d not applicable)\n", evaluated, na);
