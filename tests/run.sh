@@ -5,6 +5,10 @@
 #
 #   tests/run.sh              build/ (or BR_BUILD_DIR), optimised build
 #   tests/run.sh --sanitize   build-asan/, AddressSanitizer + UBSan, debug
+#
+# The plain run then fuzzes the design-file loader for BR_FUZZ_SECONDS
+# (default 60; 0 skips it) when clang can build a libFuzzer target, and
+# says why when it cannot (tests/fuzz/run.sh).
 set -euo pipefail
 cd "$(dirname "${BASH_SOURCE[0]}")/.."
 # shellcheck source=.ci/setup.sh
@@ -12,9 +16,11 @@ source .ci/setup.sh
 
 dir=${BR_BUILD_DIR:-build}
 opts=()
+fuzz=${BR_FUZZ_SECONDS:-60}
 case "${1:-}" in
 "") ;;
 --sanitize)
+    fuzz=0
     dir=${BR_BUILD_DIR:-build-asan}
     opts=(-DBR_SANITIZE=ON -DCMAKE_BUILD_TYPE=Debug)
     export ASAN_OPTIONS=detect_leaks=1:abort_on_error=0
@@ -32,3 +38,9 @@ fi
 br_install_packages
 br_build "$dir" "${opts[@]}"
 ctest --test-dir "$dir" --output-on-failure -V
+if [ "$fuzz" != 0 ]; then
+    status=0
+    bash tests/fuzz/run.sh "$fuzz" || status=$?
+    [ "$status" = 77 ] && status=0 # no libFuzzer: said so, not a failure
+    exit "$status"
+fi
