@@ -233,19 +233,35 @@ static const char *dir_word(int dir)
     return dir == BR_DIRI_DOWN ? "step-down" : dir == BR_DIRI_UP ? "step-up" : "idealised";
 }
 
+/* Whether a steady row can apply at all: a limit the design does not
+ * give leaves its row "not applicable" whatever the solver does. */
+static int can_apply(const br_chain *c, int crit)
+{
+    int any = 0;
+    for (int k = 0; k < c->n && !any; k++) {
+        const br_stage *st = &c->st[k];
+        any = crit == BR_CRIT_DRIVE      ? c->min_drive > 0
+              : crit == BR_CRIT_GATE     ? st->sw.vgs_max > 0
+              : crit == BR_CRIT_DIODE_VR ? k > 0 && st->diode.vrrm > 0
+              : crit == BR_CRIT_CAP_V    ? k > 0 && st->cap.vrated > 0
+                                         : 1;
+    }
+    return any;
+}
+
 /* The solver found no periodic steady state for one direction: every row
  * that needs one is undetermined, and the steady row says where it got
  * stuck: which rail, after how many periods, how far from settled. */
 static void unsettled(const br_chain *c, const br_steady *ss, br_verdict *v)
 {
     int again = v->row[BR_CRIT_STEADY].undetermined; /* the other direction too */
-    for (int i = BR_CRIT_STEADY; i < BR_CRIT_COUNT; i++)
-        v->row[i].undetermined = 1;
     int k = ss->resid_rail >= 0 && ss->resid_rail < c->n ? ss->resid_rail : 0;
+    v->row[BR_CRIT_STEADY].undetermined = 1;
     for (int i = BR_CRIT_STEADY + 1; i < BR_CRIT_COUNT; i++)
-        snprintf(v->row[i].note, sizeof v->row[i].note, "no converged steady state %s%s",
-                 again ? "in either current direction" : "for current ",
-                 again ? "" : dir_word(ss->dir));
+        if ((v->row[i].undetermined = can_apply(c, i)))
+            snprintf(v->row[i].note, sizeof v->row[i].note, "no converged steady state %s%s",
+                     again ? "in either current direction" : "for current ",
+                     again ? "" : dir_word(ss->dir));
     if (again)
         return; /* the steady row keeps the first direction's details */
     snprintf(v->row[BR_CRIT_STEADY].note, sizeof v->row[BR_CRIT_STEADY].note,

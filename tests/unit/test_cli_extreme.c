@@ -9,6 +9,7 @@
 #include <stdio.h>
 #include <string.h>
 #include <strings.h>
+#include <sys/stat.h>
 #include <time.h>
 
 #define EXTREME_DIR BR_SOURCE_DIR "/tests/extreme/"
@@ -171,12 +172,31 @@ static void test_solver_limit_usage(void)
     done(&r);
 }
 
+/* Results written to a device (here one that is always full) go into it
+ * in place: the write error is reported (exit 2), and the device node is
+ * never replaced by a regular file, even when the tests run as root. */
+static void test_device_output(void)
+{
+    struct stat st;
+    if (stat("/dev/full", &st) != 0 || !S_ISCHR(st.st_mode))
+        return; /* no /dev/full here: nothing to check */
+    const char *args[] = {"analyze", "--xml", "/dev/full",
+                          BR_SOURCE_DIR "/examples/demo-3level.xml", NULL};
+    run_result r = run_limited(LIMIT_S, args);
+    CU_ASSERT_EQUAL(r.status, 2);
+    CU_ASSERT_TRUE(has(r.err, "/dev/full"));
+    done(&r);
+    CU_ASSERT_EQUAL(stat("/dev/full", &st), 0);
+    CU_ASSERT_TRUE(S_ISCHR(st.st_mode));
+}
+
 int main(void)
 {
     static const br_test_case tests[] = {
         {"non-finite scanner", test_nonfinite_scanner},
         {"forced non-convergence is undetermined, exit 3", test_undetermined},
         {"--solver-limit usage", test_solver_limit_usage},
+        {"output to a device file", test_device_output},
         {"extreme designs work or are refused, in bounded time", test_extreme_set},
         {NULL, NULL},
     };
