@@ -5,6 +5,11 @@
 # already done `set -euo pipefail` and changed to the repository root.
 
 BR_PACKAGES=(cmake make gcc libc6-dev pkg-config libgsl-dev libxml2-dev libcunit1-dev)
+# CI also runs valgrind and the libFuzzer target (clang's fuzzer runtime is
+# in libclang-rt-NN-dev, which libclang-rt-dev pulls in).
+if [ -n "${CI:-}" ]; then
+    BR_PACKAGES+=(valgrind clang libclang-rt-dev)
+fi
 
 # Print the packages of BR_PACKAGES that dpkg does not know as installed.
 br_missing_packages() {
