@@ -65,7 +65,10 @@ static void stage_row(br_table *t, const br_chain *c, const br_startup *su, int 
     br_table_set(t, C_INRUSH, "%s", k > 0 ? br_fmt_in(b, sizeof b, s->ipeak, is, 3) : "-");
     double ifsm = k > 0 ? c->st[k].diode.ifsm : 0.0;
     br_table_set(t, C_SURGE, "%s", ifsm > 0 ? br_fmt_in(b, sizeof b, ifsm, is, 3) : "-");
-    br_table_set(t, C_VEND, "%.3f", s->vend);
+    if (isfinite(s->vend))
+        br_table_set(t, C_VEND, "%.3f", s->vend);
+    else
+        br_table_set(t, C_VEND, "n/a");
 }
 
 static int render_table(const br_chain *c, const br_startup *su, br_text *out)
