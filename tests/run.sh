@@ -22,7 +22,9 @@ case "${1:-}" in
 --sanitize)
     fuzz=0
     dir=${BR_BUILD_DIR:-build-asan}
-    opts=(-DBR_SANITIZE=ON -DCMAKE_BUILD_TYPE=Debug)
+    # -O1: sanitizers stay exact and the suite runs about three times
+    # faster than at -O0, which keeps CI within its budget
+    opts=(-DBR_SANITIZE=ON -DCMAKE_BUILD_TYPE=Debug "-DCMAKE_C_FLAGS_DEBUG=-g -O1")
     export ASAN_OPTIONS=detect_leaks=1:abort_on_error=0
     export UBSAN_OPTIONS=print_stacktrace=1:halt_on_error=1
     ;;
