@@ -36,12 +36,14 @@ if ! fuzzer_works; then
     exit 77
 fi
 
+mkdir -p "$dir"
+log=$dir/build.log
 if [ ! -f "$dir/CMakeCache.txt" ]; then
-    CC=$cc cmake -S . -B "$dir" -DBR_FUZZ=ON -DCMAKE_BUILD_TYPE=RelWithDebInfo >"$dir.log" 2>&1 ||
-        { cat "$dir.log" >&2; exit 1; }
+    CC=$cc cmake -S . -B "$dir" -DBR_FUZZ=ON -DCMAKE_BUILD_TYPE=RelWithDebInfo >"$log" 2>&1 ||
+        { cat "$log" >&2; exit 1; }
 fi
-cmake --build "$dir" --parallel 2 --target fuzz_design >"$dir.log" 2>&1 ||
-    { cat "$dir.log" >&2; exit 1; }
+cmake --build "$dir" --parallel 2 --target fuzz_design >"$log" 2>&1 ||
+    { cat "$log" >&2; exit 1; }
 
 # The corpus directory grows across runs; the seeds are copied in each time.
 corpus=$dir/corpus
