@@ -101,9 +101,8 @@ static int period_map(shoot *sh, const double *z, double *y, br_error *err)
     return rc;
 }
 
-/* Largest change of a rail state: rails 1..n-1, and rail 0 when its
- * bypass capacitor makes it a state. */
-/* The rail that moved most from b to a; *w is by how much. */
+/* The rail that moved most from b to a, and by how much (*w): rails
+ * 1..n-1, and rail 0 when its bypass capacitor makes it a state. */
 static int rail_moving_most(const br_chain *c, const double *a, const double *b, double *w)
 {
     int k0 = c->csupply > 0 && c->rsupply > 0 ? 0 : 1, most = k0;
@@ -118,6 +117,7 @@ static int rail_moving_most(const br_chain *c, const double *a, const double *b,
     return most;
 }
 
+/* Largest change of a rail state. */
 static double rail_change(const br_chain *c, const double *a, const double *b)
 {
     double w;
