@@ -9,6 +9,11 @@ BR_PACKAGES=(cmake make gcc libc6-dev pkg-config libgsl-dev libxml2-dev libcunit
 if [ "${BR_WITH_BROWSER:-0}" = 1 ]; then
     BR_PACKAGES+=(chromium)
 fi
+# CI also runs valgrind and the libFuzzer target (clang's fuzzer runtime is
+# in libclang-rt-NN-dev, which libclang-rt-dev pulls in).
+if [ -n "${CI:-}" ]; then
+    BR_PACKAGES+=(valgrind clang libclang-rt-dev)
+fi
 
 # Print the packages of BR_PACKAGES that dpkg does not know as installed.
 br_missing_packages() {

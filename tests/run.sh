@@ -5,6 +5,10 @@
 #
 #   tests/run.sh              build/ (or BR_BUILD_DIR), optimised build
 #   tests/run.sh --sanitize   build-asan/, AddressSanitizer + UBSan, debug
+#
+# The plain run then fuzzes the design-file loader for BR_FUZZ_SECONDS
+# (default 60; 0 skips it) when clang can build a libFuzzer target, and
+# says why when it cannot (tests/fuzz/run.sh).
 set -euo pipefail
 cd "$(dirname "${BASH_SOURCE[0]}")/.."
 # shellcheck source=.ci/setup.sh
@@ -12,11 +16,15 @@ source .ci/setup.sh
 
 dir=${BR_BUILD_DIR:-build}
 opts=()
+fuzz=${BR_FUZZ_SECONDS:-60}
 case "${1:-}" in
 "") ;;
 --sanitize)
+    fuzz=0
     dir=${BR_BUILD_DIR:-build-asan}
-    opts=(-DBR_SANITIZE=ON -DCMAKE_BUILD_TYPE=Debug)
+    # -O1: sanitizers stay exact and the suite runs about three times
+    # faster than at -O0, which keeps CI within its budget
+    opts=(-DBR_SANITIZE=ON -DCMAKE_BUILD_TYPE=Debug "-DCMAKE_C_FLAGS_DEBUG=-g -O1")
     export ASAN_OPTIONS=detect_leaks=1:abort_on_error=0
     export UBSAN_OPTIONS=print_stacktrace=1:halt_on_error=1
     ;;
@@ -36,3 +44,9 @@ if [ ! -x /usr/bin/chromium ]; then
         "install Debian's chromium package to run it (.ci/run does)" >&2
 fi
 ctest --test-dir "$dir" --output-on-failure -V
+if [ "$fuzz" != 0 ]; then
+    status=0
+    bash tests/fuzz/run.sh "$fuzz" || status=$?
+    [ "$status" = 77 ] && status=0 # no libFuzzer: said so, not a failure
+    exit "$status"
+fi

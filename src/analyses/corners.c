@@ -97,7 +97,7 @@ static int add_corners(corner_list *l, const signed char *base, const int *set, 
  * say so (a steady state that does not hold) ranks below every other. */
 static double rank(const br_pt_row *r)
 {
-    return !r->pass && r->margin >= 0 ? -HUGE_VAL : r->margin;
+    return !r->pass && !(r->margin < 0) ? -HUGE_VAL : r->margin;
 }
 
 static double row_margin(const br_pt *p, int crit, double fallback)

@@ -34,7 +34,7 @@ double br_evaluation_worst(const br_evaluation *e, int *crit)
             continue;
         /* a failed row without a negative margin (a steady state that
          * does not hold) still counts as failing */
-        double m = !r->pass && r->margin >= 0 ? -HUGE_VAL : r->margin;
+        double m = !r->pass && !(r->margin < 0) ? -HUGE_VAL : r->margin;
         if (m < worst) {
             worst = m;
             which = i;

@@ -106,6 +106,15 @@ const char *br_crit_title(int crit)
 static void consider(br_verdict_row *r, double figure, double limit, double margin, int stage,
                      int dir)
 {
+    /* a figure that is not a number decides nothing; a NaN margin with a
+     * finite figure is a limit that is not set */
+    if (!isfinite(figure) || isinf(margin)) {
+        if (!r->undetermined)
+            snprintf(r->note, sizeof r->note, "a figure is not finite (stage %d): not decided",
+                     stage);
+        r->undetermined = 1;
+        return;
+    }
     if (isnan(margin))
         return;
     if (r->applies && margin >= r->margin)
@@ -118,9 +127,22 @@ static void consider(br_verdict_row *r, double figure, double limit, double marg
     r->dir = dir;
 }
 
+/* A start-up the integrator could not finish decides neither row. */
+static void startup_failed(const br_startup *su, br_verdict *v)
+{
+    for (int i = BR_CRIT_STARTUP; i <= BR_CRIT_INRUSH; i++) {
+        v->row[i].undetermined = 1;
+        snprintf(v->row[i].note, sizeof v->row[i].note, "%.159s", su->why);
+    }
+}
+
 static void startup_rows(const br_chain *c, const br_startup *su, br_verdict *v)
 {
     br_verdict_row *r = &v->row[BR_CRIT_STARTUP];
+    if (su->failed) {
+        startup_failed(su, v);
+        return;
+    }
     double fig = su->complete ? su->t_total : su->t_simulated;
     consider(r, fig, c->startup_max, c->startup_max - fig, su->first_stalled, BR_DIRI_NONE);
     r->pass = su->complete && fig <= c->startup_max;
@@ -166,24 +188,110 @@ static void steady_rows(const br_chain *c, const br_steady_figs *f, br_verdict *
 
 static const char *UNITS[BR_CRIT_COUNT] = {"s", "A", "V", "V", "V", "V", "V", "V", "V"};
 
+/* An undetermined row stays undetermined unless trustworthy data make it
+ * fail anyway; without any data its numbers are NaN (printed "n/a"). */
+static void settle_row(br_verdict_row *r)
+{
+    if (!r->undetermined)
+        return;
+    if (r->applies && !r->pass) {
+        r->undetermined = 0; /* a real failure elsewhere decides it */
+        return;
+    }
+    if (!r->applies) {
+        r->figure = r->limit = r->margin = NAN;
+        r->stage = -1;
+        r->dir = BR_DIRI_NONE;
+    }
+    r->applies = 1;
+    r->pass = 0;
+}
+
 static void finish_rows(br_verdict *v)
 {
     static const char *why[BR_CRIT_COUNT] = {[BR_CRIT_DRIVE] = "no minimum drive voltage set",
                                              [BR_CRIT_GATE] = "no gate maximum given",
                                              [BR_CRIT_DIODE_VR] = "no diode voltage rating given",
                                              [BR_CRIT_CAP_V] = "no capacitor rating given"};
-    v->all_pass = 1;
     for (int i = 0; i < BR_CRIT_COUNT; i++) {
         br_verdict_row *r = &v->row[i];
         r->crit = i;
         r->unit = UNITS[i];
         if (i != BR_CRIT_STARTUP && i != BR_CRIT_STEADY && r->applies)
             r->pass = r->margin >= 0;
+        settle_row(r);
         if (!r->applies && !r->note[0] && why[i])
             snprintf(r->note, sizeof r->note, "%s", why[i]);
-        if (r->applies && !r->pass)
-            v->all_pass = 0;
+        v->nundetermined += r->undetermined;
+        v->nfail += r->applies && !r->pass && !r->undetermined;
     }
+    v->all_pass = v->nfail == 0 && v->nundetermined == 0;
+}
+
+static const char *dir_word(int dir)
+{
+    return dir == BR_DIRI_DOWN ? "step-down" : dir == BR_DIRI_UP ? "step-up" : "idealised";
+}
+
+/* Whether a steady row can apply at all: a limit the design does not
+ * give leaves its row "not applicable" whatever the solver does. */
+static int can_apply(const br_chain *c, int crit)
+{
+    int any = 0;
+    for (int k = 0; k < c->n && !any; k++) {
+        const br_stage *st = &c->st[k];
+        any = crit == BR_CRIT_DRIVE      ? c->min_drive > 0
+              : crit == BR_CRIT_GATE     ? st->sw.vgs_max > 0
+              : crit == BR_CRIT_DIODE_VR ? k > 0 && st->diode.vrrm > 0
+              : crit == BR_CRIT_CAP_V    ? k > 0 && st->cap.vrated > 0
+                                         : 1;
+    }
+    return any;
+}
+
+/* The solver found no periodic steady state for one direction: every row
+ * that needs one is undetermined, and the steady row says where it got
+ * stuck: which rail, after how many periods, how far from settled. */
+static void unsettled(const br_chain *c, const br_steady *ss, br_verdict *v)
+{
+    int again = v->row[BR_CRIT_STEADY].undetermined; /* the other direction too */
+    int k = ss->resid_rail >= 0 && ss->resid_rail < c->n ? ss->resid_rail : 0;
+    v->row[BR_CRIT_STEADY].undetermined = 1;
+    for (int i = BR_CRIT_STEADY + 1; i < BR_CRIT_COUNT; i++)
+        if ((v->row[i].undetermined = can_apply(c, i)))
+            snprintf(v->row[i].note, sizeof v->row[i].note, "no converged steady state %s%s",
+                     again ? "in either current direction" : "for current ",
+                     again ? "" : dir_word(ss->dir));
+    if (again)
+        return; /* the steady row keeps the first direction's details */
+    snprintf(v->row[BR_CRIT_STEADY].note, sizeof v->row[BR_CRIT_STEADY].note,
+             "the solver did not converge (current %s): after %ld periods rail %d (%s) still "
+             "moves %.3g V per period",
+             dir_word(ss->dir), ss->periods, k, c->st[k].name, ss->residual);
+}
+
+/* Steady rows of each direction; one whose solver did not converge (and
+ * whose drivers did not drop out, which is a failure whatever the state)
+ * adds no figures, only undetermined marks. */
+static void steady_all(const br_chain *c, const br_steady_figs *figs, int ndir, br_verdict *out)
+{
+    for (int d = 0; d < ndir; d++)
+        if (figs[d].ss->converged || !figs[d].ss->holds)
+            steady_rows(c, &figs[d], out);
+    br_verdict_row *r = &out->row[BR_CRIT_STEADY];
+    r->pass = r->applies && r->margin >= 0;
+    for (int d = 0; d < ndir; d++)
+        if (figs[d].ss->holds && !figs[d].ss->converged)
+            unsettled(c, figs[d].ss, out);
+    for (int d = 0; d < ndir; d++) {
+        if (!figs[d].ss->holds) {
+            r->pass = 0;
+            snprintf(r->note, sizeof r->note, "%s",
+                     "a driver drops out in the periodic steady state");
+        }
+    }
+    if (r->applies && !r->pass && !r->note[0])
+        snprintf(r->note, sizeof r->note, "%s", "the rails did not settle");
 }
 
 void br_verdict_make(const br_chain *c, const br_startup *su, const br_steady_figs *figs, int ndir,
@@ -194,17 +302,6 @@ void br_verdict_make(const br_chain *c, const br_startup *su, const br_steady_fi
         out->row[i].stage = -1;
     if (su)
         startup_rows(c, su, out);
-    for (int d = 0; d < ndir; d++)
-        steady_rows(c, &figs[d], out);
-    br_verdict_row *r = &out->row[BR_CRIT_STEADY];
-    r->pass = r->applies && r->margin >= 0;
-    for (int d = 0; d < ndir; d++) {
-        if (!figs[d].ss->converged || !figs[d].ss->holds) {
-            r->pass = 0;
-            snprintf(r->note, sizeof r->note, "%s",
-                     figs[d].ss->holds ? "the rails did not settle"
-                                       : "a driver drops out in the periodic steady state");
-        }
-    }
+    steady_all(c, figs, ndir, out);
     finish_rows(out);
 }

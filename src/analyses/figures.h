@@ -63,6 +63,10 @@ typedef struct br_verdict_row {
     int crit;                /* br_crit */
     int applies;             /* 0: not checked (say why in note) */
     int pass;
+    int undetermined;        /* applies, but the figures it needs are not
+                                trustworthy (a solver did not converge, a
+                                value is not finite): neither pass nor fail,
+                                and pass is 0; note says why */
     double figure, limit, margin; /* in the criterion's unit */
     const char *unit;        /* "s", "V", "A", "%" */
     int stage;               /* binding rail/link, -1 when none */
@@ -71,7 +75,9 @@ typedef struct br_verdict_row {
 } br_verdict_row;
 
 typedef struct br_verdict {
-    int all_pass;
+    int all_pass;            /* every row that applies passes */
+    int nfail;               /* rows that fail */
+    int nundetermined;       /* rows that are undetermined */
     br_verdict_row row[BR_CRIT_COUNT];
 } br_verdict;
 

@@ -78,7 +78,7 @@ int br_pick_apply(const br_design *d, const br_catalog *cat, const br_choice *ch
 /* Smaller is worse; a failing row without a negative margin is the worst. */
 static double rank_of(const br_pt_row *r)
 {
-    return !r->pass && r->margin >= 0 ? -HUGE_VAL : r->margin;
+    return !r->pass && !(r->margin < 0) ? -HUGE_VAL : r->margin;
 }
 
 /* Keep p's rows where they are worse than worst[] so far. */

@@ -4,6 +4,7 @@
 #include "core/error.h"
 
 #include <math.h>
+#include <stdio.h>
 #include <string.h>
 
 typedef struct watch {
@@ -76,6 +77,15 @@ static int last_period(br_sim *s, const br_chain *c, br_startup *r, br_error *er
     return rc;
 }
 
+/* Keep what stopped the simulation for the verdict's note. */
+static void record_failure(br_startup *r, br_error *err)
+{
+    r->failed = 1;
+    snprintf(r->why, sizeof r->why, "the start-up simulation stopped at t = %.6g s: %.100s",
+             r->t_simulated, err && err->msg[0] ? err->msg : "numerical failure");
+    br_error_clear(err);
+}
+
 int br_startup_run(const br_chain *c, const br_startup_opts *o, br_startup *r, br_error *err)
 {
     br_sim *s;
@@ -103,7 +113,11 @@ int br_startup_run(const br_chain *c, const br_startup_opts *o, br_startup *r, b
     if (rc == BR_OK)
         rc = last_period(s, c, r, err);
     r->t_simulated = br_sim_time(s);
-    r->complete = 1;
+    if (rc == BR_ENUMERIC) {
+        record_failure(r, err);
+        rc = BR_OK;
+    }
+    r->complete = !r->failed;
     for (int k = 0; k < c->n; k++) {
         if (!r->st[k].running || r->st[k].final_enable < 0) {
             r->complete = 0;

@@ -9,31 +9,35 @@
 #define BR_MAX_DROPOUT_TIMES 16
 
 typedef struct br_startup_stage {
-    double first_enable;   /* first crossing of UVLO rising, s (-1: never) */
-    double final_enable;   /* the start that lasts, s (-1: not started at the end) */
-    int ndropouts;         /* start-up dropouts (disable events) */
+    double first_enable; /* first crossing of UVLO rising, s (-1: never) */
+    double final_enable; /* the start that lasts, s (-1: not started at the end) */
+    int ndropouts;       /* start-up dropouts (disable events) */
     double dropout_t[BR_MAX_DROPOUT_TIMES]; /* the first few of them, s */
-    double ipeak;          /* peak forward current of link k, A */
-    double vend;           /* rail voltage (mean over the last period), V */
-    double iend;           /* link k mean current over the last period, A */
-    int running;           /* driver enabled at the end */
+    double ipeak;                           /* peak forward current of link k, A */
+    double vend;                            /* rail voltage (mean over the last period), V */
+    double iend;                            /* link k mean current over the last period, A */
+    int running;                            /* driver enabled at the end */
 } br_startup_stage;
 
 typedef struct br_startup {
-    int n;                 /* stages */
-    int complete;          /* every driver running for good */
-    double t_total;        /* start-up time: the last final start, s */
-    double t_simulated;    /* s */
-    double pwm_start;      /* end of the pre-charge steps, s */
-    int first_stalled;     /* lowest stage never running at the end, -1 */
+    int n;              /* stages */
+    int complete;       /* every driver running for good */
+    double t_total;     /* start-up time: the last final start, s */
+    double t_simulated; /* s */
+    double pwm_start;   /* end of the pre-charge steps, s */
+    int first_stalled;  /* lowest stage never running at the end, -1 */
+    int failed;         /* the simulation stopped at t_simulated on a
+                           numerical failure (why says what): the
+                           figures are partial and decide nothing */
+    char why[160];
     br_startup_stage st[BR_MAX_SWITCHES];
 } br_startup;
 
 /* Optional time series of the cold start. */
 typedef struct br_startup_opts {
-    double t_max;          /* give up after this, s (default: the design's) */
-    int settle_periods;    /* periods without a UVLO event that end it (default 50) */
-    const br_sim_observer *obs; /* extra observer for samples (may be NULL) */
+    double t_max;                /* give up after this, s (default: the design's) */
+    int settle_periods;          /* periods without a UVLO event that end it (default 50) */
+    const br_sim_observer *obs;  /* extra observer for samples (may be NULL) */
     const br_progress *progress; /* simulated time of t_max, every
                                     BR_STARTUP_PROGRESS_EVERY periods, from the
                                     calling thread (NULL: none) */
@@ -44,7 +48,10 @@ typedef struct br_startup_opts {
 #define BR_STARTUP_PROGRESS_EVERY 64
 
 /* Simulate the cold start of c.  BR_ECANCEL when o->progress asks to stop
- * (out then holds nothing meaningful). */
+ * (out then holds nothing meaningful).  A numerical failure of the
+ * integrator is not an error here: it is recorded in out->failed and
+ * out->why (so that the verdict can call the start-up undetermined) and
+ * BR_OK returned. */
 int br_startup_run(const br_chain *c, const br_startup_opts *o, br_startup *out, br_error *err);
 
 #endif

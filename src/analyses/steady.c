@@ -105,16 +105,27 @@ static int period_map(shoot *sh, const double *z, double *y, br_error *err)
     return rc;
 }
 
-/* Largest change of a rail state: rails 1..n-1, and rail 0 when its
- * bypass capacitor makes it a state. */
-static double rail_change(const br_chain *c, const double *a, const double *b)
+/* The rail that moved most from b to a, and by how much (*w): rails
+ * 1..n-1, and rail 0 when its bypass capacitor makes it a state. */
+static int rail_moving_most(const br_chain *c, const double *a, const double *b, double *w)
 {
-    double w = 0.0;
-    int k0 = c->csupply > 0 && c->rsupply > 0 ? 0 : 1;
+    int k0 = c->csupply > 0 && c->rsupply > 0 ? 0 : 1, most = k0;
+    *w = 0.0;
     for (int k = k0; k < c->n; k++) {
         double d = fabs(a[k] - b[k]);
-        w = d > w || isnan(d) ? (isnan(d) ? HUGE_VAL : d) : w; /* NaN never converges */
+        if (d > *w || isnan(d)) {
+            *w = isnan(d) ? HUGE_VAL : d; /* NaN never converges */
+            most = k;
+        }
     }
+    return most;
+}
+
+/* Largest change of a rail state. */
+static double rail_change(const br_chain *c, const double *a, const double *b)
+{
+    double w;
+    rail_moving_most(c, a, b, &w);
     return w;
 }
 
@@ -407,7 +418,8 @@ static int plain(shoot *sh, double *x, const br_steady_opts *o, br_steady *out, 
         if (hiccups >= BR_HICCUP_PERIODS)
             break;
         br_sim_state(sh->sim, now);
-        double d = rail_change(sh->c, now, prev);
+        double d;
+        out->resid_rail = rail_moving_most(sh->c, now, prev, &d);
         memcpy(prev, now, sizeof now);
         if (d <= o->tol) {
             out->residual = d;

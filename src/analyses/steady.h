@@ -23,6 +23,8 @@ typedef struct br_steady {
     int iterations;       /* Newton/Broyden iterations */
     long periods;         /* periods simulated in all */
     double residual;      /* max |P(x) - x| over the rails, V */
+    int resid_rail;       /* when not converged: the rail that still moved
+                             most in the last plain period */
     double drift;         /* max rail change over the cross-check periods, V */
     double phase;         /* where in the period x is taken, s */
     double x[2 * BR_MAX_SWITCHES]; /* [k] rail k capacitor, [n + k] stored charge */

@@ -51,7 +51,8 @@ static int outputs_alloc(outputs *o, const paths *p, br_error *err)
 
 /* Load, build, run and render everything in memory; nothing is written
  * unless all of it succeeded. */
-static int compute(const char *path, const char *verb, int parts, outputs *o, br_error *err)
+static int compute(const char *path, const char *verb, int parts, const br_steady_opts *so,
+                   outputs *o, br_error *err)
 {
     br_design *d = NULL;
     br_chain *c = NULL;
@@ -60,7 +61,7 @@ static int compute(const char *path, const char *verb, int parts, outputs *o, br
         rc = br_chain_build(d, &c, err);
     br_results_traces *tr = o->html || o->svg ? &o->tr : NULL;
     if (rc == BR_OK)
-        rc = br_results_run_traced(o->res, c, verb, parts, o->csv, tr, err);
+        rc = br_results_run_traced(o->res, c, verb, parts, so, o->csv, tr, err);
     if (rc == BR_OK)
         rc = br_results_text(o->res, o->text, err);
     if (rc == BR_OK && o->xml)
@@ -105,7 +106,8 @@ static int write_all(const outputs *o, const paths *p, int quiet)
 
 /* Compute, then write unless a signal stopped the run (only the runs with
  * a cold start, the long ones, take signals and show progress). */
-static int run(const char *path, const char *verb, int parts, outputs *o, const paths *p, int quiet)
+static int run(const char *path, const char *verb, int parts, const br_steady_opts *so, outputs *o,
+               const paths *p, int quiet)
 {
     br_error err;
     br_error_clear(&err);
@@ -115,7 +117,7 @@ static int run(const char *path, const char *verb, int parts, outputs *o, const 
         br_cli_run_begin(&lr, verb, quiet);
         o->res->progress = &lr.hook;
     }
-    int rc = compute(path, verb, parts, o, &err);
+    int rc = compute(path, verb, parts, so, o, &err);
     int stop = longrun ? br_cli_run_commit(&lr) : 0;
     int status = stop ? stop : rc != BR_OK ? br_cli_fail(&err, path) : write_all(o, p, quiet);
     if (longrun)
@@ -130,10 +132,24 @@ static int stdout_count(const paths *p)
     return is_stdout(p->xml) + is_stdout(p->csv) + is_stdout(p->report) + is_stdout(p->plot);
 }
 
+/* --solver-limit N: fewer Newton iterations (never more than the default)
+ * and N periods of plain simulation; what the solver cannot settle within
+ * them is reported undetermined, never a pass. */
+static int solver_limit(const char *verb, const char *text, br_steady_opts *so)
+{
+    long n;
+    if (br_cli_long(verb, "solver-limit", text, 1, 100000, &n) != BR_EXIT_OK)
+        return BR_EXIT_INPUT;
+    so->max_iter = n < so->max_iter ? (int)n : so->max_iter;
+    so->max_plain = n;
+    return BR_EXIT_OK;
+}
+
 int br_cli_analysis(int argc, char **argv, const char *about, int parts)
 {
     paths p = {0};
     int quiet = 0;
+    const char *limit = NULL;
     br_opt opts[] = {
         /* "-" for any sends it to stdout in place of the text report */
         {BR_OPT_STRING, "xml", "PATH", &p.xml, "also write the results as XML to PATH (- stdout)"},
@@ -145,12 +161,13 @@ int br_cli_analysis(int argc, char **argv, const char *about, int parts)
          parts == BR_RUN_STARTUP ? "also plot the rail waveforms from cold as SVG to PATH"
                                  : "also plot the rails over two steady periods as SVG to PATH"},
         {BR_OPT_FLAG, "quiet", NULL, &quiet, BR_QUIET_HELP},
+        {BR_OPT_STRING, "solver-limit", "N", &limit,
+         "steady-state solver: at most N Newton iterations and N plain periods"},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
     };
-    if (parts == BR_RUN_ALL) { /* analyze has many plots: they are in the report */
-        opts[3] = opts[4];
-        opts[4] = opts[5];
-    }
+    if (parts == BR_RUN_ALL) /* analyze has many plots: they are in the report */
+        for (int i = 3; opts[i].type != BR_OPT_END; i++)
+            opts[i] = opts[i + 1];
     const br_cmd_doc doc = {argv[0], "FILE", about, opts, 1};
     char *pos[1];
     int parsed = br_cli_parse(&doc, argc, argv, pos);
@@ -158,6 +175,10 @@ int br_cli_analysis(int argc, char **argv, const char *about, int parts)
         return br_cli_parse_status(parsed);
     if (stdout_count(&p) > 1)
         return br_cli_usage_error(argv[0], "only one output file can go to standard output");
+    br_steady_opts so;
+    br_steady_opts_default(&so);
+    if (limit && solver_limit(argv[0], limit, &so) != BR_EXIT_OK)
+        return BR_EXIT_INPUT;
     outputs o = {0};
     br_error err;
     br_error_clear(&err);
@@ -165,9 +186,11 @@ int br_cli_analysis(int argc, char **argv, const char *about, int parts)
     if (outputs_alloc(&o, &p, &err) != BR_OK)
         status = br_cli_fail(&err, NULL);
     else
-        status = run(pos[0], argv[0], parts, &o, &p, quiet);
+        status = run(pos[0], argv[0], parts, &so, &o, &p, quiet);
     if (status == BR_EXIT_OK && br_results_failed(o.res))
         status = BR_EXIT_FAIL;
+    else if (status == BR_EXIT_OK && br_results_undetermined(o.res))
+        status = BR_EXIT_UNDETERMINED;
     outputs_free(&o);
     return status;
 }

@@ -20,6 +20,8 @@ enum {
     BR_EXIT_OK = 0,            /* done; every criterion evaluated passes */
     BR_EXIT_FAIL = 1,          /* done; a design criterion fails */
     BR_EXIT_INPUT = 2,         /* not done: bad input, bad usage or an I/O error */
+    BR_EXIT_UNDETERMINED = 3,  /* done; nothing fails but a criterion could not be
+                                  decided (a solver did not converge) */
     BR_EXIT_INTERRUPTED = 130, /* not done: SIGINT (Ctrl-C) stopped a long run */
     BR_EXIT_TERMINATED = 143   /* not done: SIGTERM stopped a long run */
 };

@@ -13,6 +13,7 @@ int cmd_startup(int argc, char **argv)
         "of its link against the diode's surge rating and where its rail ends; then\n"
         "the start-up time, or which rail never starts, where it settles and why.\n"
         "Exit status 0 when every driver starts (and no inrush exceeds a surge\n"
-        "rating), 1 when not, 2 for bad input.\n",
+        "rating), 1 when not, 2 for bad input, 3 when the simulation failed\n"
+        "numerically (undetermined).\n",
         BR_RUN_STARTUP);
 }

@@ -49,8 +49,9 @@ static int main_help(FILE *f)
         fprintf(f, "  %-10s %s\n", v->name, v->summary);
     fprintf(f, "\n'bootrung help VERB' or 'bootrung VERB --help' describes a verb.\n"
                "exit status: 0 done and every criterion passes, 1 a design criterion fails,\n"
-               "2 bad input, bad usage or an output error, 130 interrupted (Ctrl-C), 143\n"
-               "stopped by SIGTERM.  Every verb takes --quiet: the verdict line alone.\n");
+               "2 bad input, bad usage or an output error, 3 undetermined (a solver did not\n"
+               "converge; nothing fails), 130 interrupted (Ctrl-C), 143 stopped by SIGTERM.\n"
+               "Every verb takes --quiet: the verdict line alone.\n");
     return BR_EXIT_OK;
 }
 

@@ -382,7 +382,8 @@ static int read_header(br_rd *r, xmlNode *root)
     if (br_xml_attr(root, "version", version, sizeof version) <= 0 || strcmp(version, "1") != 0)
         return br_rd_fail(r, root, "version", "unsupported, expected version=\"1\"");
     if (br_xml_attr(root, "name", r->d->name, sizeof r->d->name) < 0)
-        return br_rd_fail(r, root, "name", "longer than %zu characters", sizeof r->d->name - 1);
+        return br_rd_fail(r, root, "name", "longer than %zu characters, expected at most %zu",
+                          sizeof r->d->name - 1, sizeof r->d->name - 1);
     return BR_OK;
 }
 

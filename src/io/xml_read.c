@@ -251,7 +251,8 @@ int br_rd_qty(br_rd *r, xmlNode *n, const char *attr, br_kind kind, const br_ran
     if (has == 0)
         return BR_OK;
     if (has < 0)
-        return br_rd_fail(r, n, attr, "value longer than %d characters", ATTR_MAX - 1);
+        return br_rd_fail(r, n, attr, "value longer than %d characters, expected at most %d",
+                          ATTR_MAX - 1, ATTR_MAX - 1);
     br_error_clear(&e);
     if (br_qty_parse(text, kind, &v, &e) != BR_OK)
         return unit_fail(r, n, attr, &e);
@@ -274,7 +275,8 @@ int br_rd_value(br_rd *r, xmlNode *n, const char *attr, br_kind kind, const br_r
     if (has == 0)
         return BR_OK;
     if (has < 0)
-        return br_rd_fail(r, n, attr, "value longer than %d characters", ATTR_MAX - 1);
+        return br_rd_fail(r, n, attr, "value longer than %d characters, expected at most %d",
+                          ATTR_MAX - 1, ATTR_MAX - 1);
     br_error_clear(&e);
     if (br_unit_parse(text, kind, &x, &e) != BR_OK)
         return unit_fail(r, n, attr, &e);

@@ -193,6 +193,11 @@ int br_xparse(const br_xkind *k, const char *buf, size_t len, const char *file, 
     xmlFreeDoc(doc);
     if (c->doctype)
         return br_error_set(err, BR_EINPUT, file, c->line, "", "%s", c->msg);
+    if (c->have && strstr(c->msg, "Excessive depth")) /* XML_PARSE_HUGE stays off */
+        return br_error_set(err, BR_EINPUT, file, c->line, "",
+                            "not well-formed XML: elements nested deeper than libxml2's "
+                            "limit of %d, expected the few levels of %s",
+                            (int)xmlParserMaxDepth, k->a_file);
     return br_error_set(err, BR_EINPUT, file, c->line, "", "not well-formed XML: %s",
                         c->have ? c->msg : "the parser gave up");
 }

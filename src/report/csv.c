@@ -1,6 +1,8 @@
 /* csv.c - decimated simulator samples as CSV rows. */
 #include "report/csv.h"
 
+#include <math.h>
+
 #include <string.h>
 
 int br_csv_header(const br_chain *c, br_text *out)
@@ -37,10 +39,11 @@ static void put_row(br_csv_series *s, double t, const double *v, const double *i
     if (!s->out)
         return;
     int rc = br_text_printf(s->out, "%s,%.10g", s->label, t + s->t_offset);
-    for (int k = 0; k < s->n; k++)
-        rc |= br_text_printf(s->out, ",%.7g", v[k]);
+    for (int k = 0; k < s->n; k++) /* a value that is not finite: an empty field */
+        rc |= isfinite(v[k]) ? br_text_printf(s->out, ",%.7g", v[k]) : br_text_put(s->out, ",");
     for (int k = 1; k < s->n; k++)
-        rc |= br_text_printf(s->out, ",%.7g", i[k] == 0.0 ? 0.0 : i[k]);
+        rc |= isfinite(i[k]) ? br_text_printf(s->out, ",%.7g", i[k] == 0.0 ? 0.0 : i[k])
+                             : br_text_put(s->out, ",");
     rc |= br_text_put(s->out, "\n");
     s->failed |= rc != 0;
 }

@@ -44,8 +44,8 @@ br_scale br_scale_column(double vmax, double finest, const char *unit)
 
 const char *br_fmt_si(char *buf, size_t cap, double v, int digits, const char *unit)
 {
-    if (!isfinite(v)) {
-        snprintf(buf, cap, "%s", isnan(v) ? "n/a" : v > 0 ? "inf" : "-inf");
+    if (!isfinite(v)) { /* never a result: a number that is not one */
+        snprintf(buf, cap, "n/a");
         return buf;
     }
     int e = exponent3(v);
@@ -64,7 +64,7 @@ const char *br_fmt_si(char *buf, size_t cap, double v, int digits, const char *u
 const char *br_fmt_in(char *buf, size_t cap, double v, const br_scale *sc, int decimals)
 {
     if (!isfinite(v))
-        snprintf(buf, cap, "%s", isnan(v) ? "n/a" : v > 0 ? "inf" : "-inf");
+        snprintf(buf, cap, "n/a");
     else {
         double x = v * sc->factor;
         if (fabs(x) < 0.5 * pow(10.0, -decimals))

@@ -26,7 +26,8 @@ br_scale br_scale_for(double v, const char *unit);
 br_scale br_scale_column(double vmax, double finest, const char *unit);
 
 /* "4.7 uF": v with its own prefix and `digits` significant digits (the
- * unit may be "" for a plain number).  Returns buf. */
+ * unit may be "" for a plain number); "n/a" for NaN or an infinity, which
+ * is never printed as a result.  Returns buf. */
 const char *br_fmt_si(char *buf, size_t cap, double v, int digits, const char *unit);
 
 /* v in scale sc with `decimals` decimals, without the unit.  Returns buf. */

@@ -195,7 +195,7 @@ int br_map_text(const br_chain *c, const br_map *m, const char *csv, const char 
 static int csv_row(const br_chain *c, const br_hold_point *pt, br_text *out)
 {
     int rc = br_text_printf(out, "%.9g,%.9g,", pt->duty, pt->fsw);
-    if (is_judged(pt))
+    if (is_judged(pt) && isfinite(pt->margin)) /* empty, never "nan" */
         rc |= br_text_printf(out, "%.9g", pt->margin);
     rc |= br_text_printf(out, ",%d,", pt->holds);
     if (pt->stage >= 0 && pt->stage < c->n)

@@ -100,12 +100,13 @@ static int steady_series(const br_chain *c, const br_steady *ss, br_text *csv, b
     return rc;
 }
 
-static int run_steady(br_results *r, br_text *csv, br_results_traces *tr, br_error *err)
+static int run_steady(br_results *r, const br_steady_opts *so, br_text *csv, br_results_traces *tr,
+                      br_error *err)
 {
     int dirs[2];
     r->ndir = br_design_directions(r->c, dirs);
     for (int d = 0; d < r->ndir; d++) {
-        int rc = br_steady_solve(r->c, dirs[d], NULL, &r->ss[d], err);
+        int rc = br_steady_solve(r->c, dirs[d], so, &r->ss[d], err);
         br_trace *t = NULL;
         if (tr)
             t = tr->steady[d] = br_trace_create(r->c->n);
@@ -120,10 +121,10 @@ static int run_steady(br_results *r, br_text *csv, br_results_traces *tr, br_err
     return BR_OK;
 }
 
-int br_results_run(br_results *r, const br_chain *c, const char *verb, int parts, br_text *csv,
-                   br_error *err)
+int br_results_run(br_results *r, const br_chain *c, const char *verb, int parts,
+                   const br_steady_opts *so, br_text *csv, br_error *err)
 {
-    return br_results_run_traced(r, c, verb, parts, csv, NULL, err);
+    return br_results_run_traced(r, c, verb, parts, so, csv, NULL, err);
 }
 
 void br_results_traces_release(br_results_traces *tr)
@@ -135,7 +136,8 @@ void br_results_traces_release(br_results_traces *tr)
 }
 
 int br_results_run_traced(br_results *r, const br_chain *c, const char *verb, int parts,
-                          br_text *csv, br_results_traces *tr, br_error *err)
+                          const br_steady_opts *so, br_text *csv, br_results_traces *tr,
+                          br_error *err)
 {
     memset(r, 0, sizeof *r);
     r->c = c;
@@ -149,7 +151,7 @@ int br_results_run_traced(br_results *r, const br_chain *c, const char *verb, in
     if (rc == BR_OK && (parts & BR_RUN_STARTUP))
         rc = run_startup(r, csv, tr ? tr->startup : NULL, err);
     if (rc == BR_OK && (parts & BR_RUN_STEADY))
-        rc = run_steady(r, csv, tr, err);
+        rc = run_steady(r, so, csv, tr, err);
     if (rc == BR_OK)
         br_verdict_make(c, (parts & BR_RUN_STARTUP) ? &r->su : NULL, r->figs, r->ndir, &r->verdict);
     return rc;
@@ -166,11 +168,23 @@ unsigned br_results_mask(const br_results *r)
     return m;
 }
 
+/* Rows of the verb's criteria that fail (undetermined ones aside). */
 int br_results_failed(const br_results *r)
 {
     unsigned m = br_results_mask(r);
+    for (int i = 0; i < BR_CRIT_COUNT; i++) {
+        const br_verdict_row *v = &r->verdict.row[i];
+        if ((m & BR_CRIT_BIT(i)) && v->applies && !v->pass && !v->undetermined)
+            return 1;
+    }
+    return 0;
+}
+
+int br_results_undetermined(const br_results *r)
+{
+    unsigned m = br_results_mask(r);
     for (int i = 0; i < BR_CRIT_COUNT; i++)
-        if ((m & BR_CRIT_BIT(i)) && r->verdict.row[i].applies && !r->verdict.row[i].pass)
+        if ((m & BR_CRIT_BIT(i)) && r->verdict.row[i].undetermined)
             return 1;
     return 0;
 }

@@ -35,11 +35,13 @@ typedef struct br_results {
 br_results *br_results_create(void);
 void br_results_free(br_results *r);
 
-/* Run the analyses `parts` on c (BR_ECANCEL when r->progress stops it).  When csv is not NULL, the
- * time series (start-up decimated, one steady period per direction at the solver's resolution) are
- * appended to it, header first.  Returns a br_status. */
-int br_results_run(br_results *r, const br_chain *c, const char *verb, int parts, br_text *csv,
-                   br_error *err);
+/* Run the analyses `parts` on c, the steady state with solver options so
+ * (NULL: the defaults); BR_ECANCEL when r->progress stops it.  When csv is
+ * not NULL, the time series (start-up decimated, one steady period per
+ * direction at the solver's resolution) are appended to it, header first.
+ * Returns a br_status. */
+int br_results_run(br_results *r, const br_chain *c, const char *verb, int parts,
+                   const br_steady_opts *so, br_text *csv, br_error *err);
 
 /* Time series kept for plots: the start-up rows the CSV gets, and two
  * periods of each direction from its steady state (the first the CSV's
@@ -52,7 +54,8 @@ typedef struct br_results_traces {
 /* As br_results_run, also filling tr (created here; release with
  * br_results_traces_release). */
 int br_results_run_traced(br_results *r, const br_chain *c, const char *verb, int parts,
-                          br_text *csv, br_results_traces *tr, br_error *err);
+                          const br_steady_opts *so, br_text *csv, br_results_traces *tr,
+                          br_error *err);
 void br_results_traces_release(br_results_traces *tr);
 
 /* The HTML report of the verb that ran (see html_report.h). */
@@ -66,8 +69,11 @@ int br_results_plot(const br_results *r, const br_results_traces *tr, br_text *o
 unsigned br_results_mask(const br_results *r);
 
 /* 0 when every criterion the verb judges passes (or does not apply),
- * 1 when one fails. */
+ * 1 when one fails; an undetermined criterion is not a failure. */
 int br_results_failed(const br_results *r);
+/* 1 when a criterion the verb judges is undetermined (a solver did not
+ * converge): the verdict is then never a pass. */
+int br_results_undetermined(const br_results *r);
 
 /* The text report of the verb that ran, ending with the caution. */
 int br_results_text(const br_results *r, br_text *out, br_error *err);

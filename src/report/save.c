@@ -8,6 +8,7 @@
 #include <fcntl.h>
 #include <stdio.h>
 #include <string.h>
+#include <sys/stat.h>
 #include <unistd.h>
 
 #define TEMP_TRIES 100
@@ -53,8 +54,25 @@ static int fail(br_error *err, const char *path, int e)
                         strerror(e));
 }
 
+/* An existing path that is not a regular file (a device, a FIFO,
+ * /dev/stdout) is written in place: renaming over it would replace the
+ * device node itself when run as root. */
+static int save_special(const br_text *t, const char *path, br_error *err)
+{
+    int fd = open(path, O_WRONLY | O_TRUNC | O_CLOEXEC);
+    if (fd < 0)
+        return fail(err, path, errno);
+    int e = write_all(fd, br_text_data(t), br_text_len(t));
+    if (close(fd) != 0 && e == 0)
+        e = errno;
+    return e != 0 ? fail(err, path, e) : BR_OK;
+}
+
 int br_text_save(const br_text *t, const char *path, br_error *err)
 {
+    struct stat st;
+    if (stat(path, &st) == 0 && !S_ISREG(st.st_mode) && !S_ISDIR(st.st_mode))
+        return save_special(t, path, err);
     char tmp[4096 + 64];
     int fd = open_temp(path, tmp, sizeof tmp);
     if (fd < 0)

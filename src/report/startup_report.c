@@ -65,7 +65,10 @@ static void stage_row(br_table *t, const br_chain *c, const br_startup *su, int 
     br_table_set(t, C_INRUSH, "%s", k > 0 ? br_fmt_in(b, sizeof b, s->ipeak, is, 3) : "-");
     double ifsm = k > 0 ? c->st[k].diode.ifsm : 0.0;
     br_table_set(t, C_SURGE, "%s", ifsm > 0 ? br_fmt_in(b, sizeof b, ifsm, is, 3) : "-");
-    br_table_set(t, C_VEND, "%.3f", s->vend);
+    if (isfinite(s->vend))
+        br_table_set(t, C_VEND, "%.3f", s->vend);
+    else
+        br_table_set(t, C_VEND, "n/a");
 }
 
 static int render_table(const br_chain *c, const br_startup *su, br_text *out)
@@ -168,7 +171,7 @@ static int stall_short(const br_chain *c, const br_startup *su, int k, br_text *
 int br_startup_stall_text(const br_chain *c, const br_startup *su, br_text *out)
 {
     int k = su->first_stalled;
-    if (su->complete || k < 0 || k >= su->n)
+    if (su->complete || su->failed || k < 0 || k >= su->n)
         return BR_OK;
     double vneed = br_rail_start_voltage(c, k);
     if (!isfinite(vneed))
@@ -181,6 +184,8 @@ int br_startup_stall_text(const br_chain *c, const br_startup *su, br_text *out)
 static int render_summary(const br_chain *c, const br_startup *su, br_text *out)
 {
     char a[32];
+    if (su->failed)
+        return br_report_wrap(out, "start-up UNDETERMINED: ", su->why, 2);
     if (su->complete) {
         int last = 0;
         for (int k = 0; k < su->n; k++)
@@ -255,7 +260,7 @@ static void stage_xml(br_xmlw *w, const br_chain *c, const br_startup *su, int k
 static void stall_xml(br_xmlw *w, const br_chain *c, const br_startup *su)
 {
     int k = su->first_stalled;
-    if (su->complete || k < 0 || k >= su->n)
+    if (su->complete || su->failed || k < 0 || k >= su->n)
         return;
     br_text *t = br_text_create();
     if (!t || br_startup_stall_text(c, su, t) != BR_OK) {
@@ -281,6 +286,10 @@ void br_startup_xml(br_xmlw *w, const br_chain *c, const br_startup *su)
 {
     br_xmlw_start(w, "startup");
     br_xmlw_bool(w, "complete", su->complete);
+    if (su->failed) {
+        br_xmlw_bool(w, "undetermined", 1);
+        br_xmlw_attr(w, "why", su->why);
+    }
     if (su->complete)
         br_xmlw_num(w, "total-s", su->t_total);
     br_xmlw_num(w, "simulated-s", su->t_simulated);

@@ -22,7 +22,7 @@ static int method_line(const br_steady *ss, br_text *out)
     return br_text_printf(out,
                           "plain simulation (shooting failed), %ld periods, last change %s%s, "
                           "drift %s/period",
-                          ss->periods, r, ss->converged ? "" : " (NOT settled)", d);
+                          ss->periods, r, ss->converged ? "" : " (NOT converged)", d);
 }
 
 static int holds_line(const br_steady *ss, br_text *out)
@@ -423,6 +423,8 @@ void br_steady_xml(br_xmlw *w, const br_chain *c, const br_steady_figs *f)
     br_xmlw_int(w, "iterations", ss->iterations);
     br_xmlw_int(w, "periods", ss->periods);
     br_xmlw_num(w, "residual-V", ss->residual);
+    if (!ss->converged)
+        br_xmlw_int(w, "residual-rail", ss->resid_rail);
     br_xmlw_num(w, "drift-V", ss->drift);
     br_xmlw_num(w, "phase-s", ss->phase);
     for (int k = 0; k < f->n; k++)

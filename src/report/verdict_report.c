@@ -6,6 +6,7 @@
 #include "report/startup_report.h"
 #include "report/table.h"
 
+#include <math.h>
 #include <stdio.h>
 
 enum { C_TITLE, C_RESULT, C_FIGURE, C_LIMIT, C_MARGIN, C_AT, C_DIR, NCOL };
@@ -22,7 +23,7 @@ static int is_startup_crit(int crit)
 
 static const char *result_word(const br_verdict_row *r)
 {
-    return !r->applies ? "n/a" : r->pass ? "pass" : "FAIL";
+    return !r->applies ? "n/a" : r->undetermined ? "UNDETERMINED" : r->pass ? "pass" : "FAIL";
 }
 
 /* "rail A1", "link B4", or "-" when no stage binds. */
@@ -55,7 +56,9 @@ static void row(br_table *t, const br_chain *c, const br_verdict_row *r)
     where(c, r, b, sizeof b);
     br_table_set(t, C_AT, "%s", b);
     br_table_set(t, C_DIR, "%s",
-                 r->applies && !is_startup_crit(r->crit) ? br_dir_short(r->dir) : "-");
+                 r->applies && !is_startup_crit(r->crit) && isfinite(r->figure)
+                     ? br_dir_short(r->dir)
+                     : "-");
 }
 
 static int render_table(const br_chain *c, const br_verdict *v, unsigned mask, br_text *out)
@@ -106,21 +109,26 @@ static int render_notes(const br_chain *c, const br_verdict *v, unsigned mask, c
 
 static int render_overall(const br_verdict *v, unsigned mask, br_text *out)
 {
-    int evaluated = 0, failed = 0, na = 0;
+    int evaluated = 0, failed = 0, na = 0, undet = 0;
     for (int i = 0; i < BR_CRIT_COUNT; i++) {
         if (!(mask & BR_CRIT_BIT(i)))
             continue;
         const br_verdict_row *r = &v->row[i];
-        evaluated += r->applies;
-        failed += r->applies && !r->pass;
+        evaluated += r->applies && !r->undetermined;
+        undet += r->undetermined;
+        failed += r->applies && !r->pass && !r->undetermined;
         na += !r->applies;
     }
-    if (failed == 0)
+    if (failed > 0)
+        return br_text_printf(out, "verdict: FAIL, %d of %d criteria evaluated fail%s\n", failed,
+                              evaluated, undet ? " (others undetermined)" : "");
+    if (undet > 0) /* never a pass: what was not decided may fail */
         return br_text_printf(out,
-                              "verdict: PASS, all %d criteria evaluated pass (%d not applicable)\n",
-                              evaluated, na);
-    return br_text_printf(out, "verdict: FAIL, %d of %d criteria evaluated fail\n", failed,
-                          evaluated);
+                              "verdict: UNDETERMINED, %d criteria could not be decided (see "
+                              "above), %d evaluated pass\n",
+                              undet, evaluated);
+    return br_text_printf(
+        out, "verdict: PASS, all %d criteria evaluated pass (%d not applicable)\n", evaluated, na);
 }
 
 int br_verdict_text(const br_chain *c, const br_verdict *v, unsigned mask, const br_startup *su,
@@ -136,12 +144,17 @@ int br_verdict_text(const br_chain *c, const br_verdict *v, unsigned mask, const
 
 void br_verdict_xml(br_xmlw *w, const br_chain *c, const br_verdict *v, unsigned mask)
 {
-    int all = 1;
-    for (int i = 0; i < BR_CRIT_COUNT; i++)
-        if ((mask & BR_CRIT_BIT(i)) && v->row[i].applies && !v->row[i].pass)
+    int all = 1, failed = 0;
+    for (int i = 0; i < BR_CRIT_COUNT; i++) {
+        const br_verdict_row *r = &v->row[i];
+        if ((mask & BR_CRIT_BIT(i)) && r->applies && !r->pass) {
             all = 0;
+            failed += !r->undetermined;
+        }
+    }
     br_xmlw_start(w, "verdict");
     br_xmlw_bool(w, "pass", all);
+    br_xmlw_attr(w, "result", all ? "pass" : failed ? "fail" : "undetermined");
     for (int i = 0; i < BR_CRIT_COUNT; i++) {
         const br_verdict_row *r = &v->row[i];
         if (!(mask & BR_CRIT_BIT(i)))
@@ -150,6 +163,11 @@ void br_verdict_xml(br_xmlw *w, const br_chain *c, const br_verdict *v, unsigned
         br_xmlw_attr(w, "name", br_crit_name(i));
         br_xmlw_attr(w, "title", br_crit_title(i));
         br_xmlw_bool(w, "applies", r->applies);
+        br_xmlw_attr(w, "result",
+                     !r->applies       ? "n/a"
+                     : r->undetermined ? "undetermined"
+                     : r->pass         ? "pass"
+                                       : "fail");
         if (r->applies) {
             br_xmlw_bool(w, "pass", r->pass);
             br_xmlw_num(w, "figure", r->figure);
@@ -161,7 +179,7 @@ void br_verdict_xml(br_xmlw *w, const br_chain *c, const br_verdict *v, unsigned
             br_xmlw_int(w, "stage", r->stage);
             br_xmlw_attr(w, "switch", c->st[r->stage].name);
         }
-        if (r->applies && !is_startup_crit(i))
+        if (r->applies && !is_startup_crit(i) && isfinite(r->figure))
             br_xmlw_attr(w, "direction", br_dir_label(r->dir));
         if (r->note[0])
             br_xmlw_attr(w, "note", r->note);

@@ -59,7 +59,13 @@ int main(int argc, char **argv)
     br_error err;
     if (br_design_load(path, &d, &err) != BR_OK)
         return fail(&err);
-    br_map_opts mo = {0.02, 0.98, 40, d->fsw.nom / 10, d->fsw.nom * 10, 40, threads};
+    br_map_opts mo = {.duty_from = 0.02,
+                      .duty_to = 0.98,
+                      .nduty = 40,
+                      .fsw_from = d->fsw.nom / 10,
+                      .fsw_to = d->fsw.nom * 10,
+                      .nfsw = 40,
+                      .threads = threads};
     br_window_opts wo;
     br_window_opts_default(&wo);
     br_window *w = malloc(sizeof *w);

@@ -4,11 +4,13 @@
 #include "testkit.h"
 
 #include <fcntl.h>
+#include <signal.h>
 #include <spawn.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 #include <sys/wait.h>
+#include <time.h>
 #include <unistd.h>
 
 extern char **environ;
@@ -20,7 +22,33 @@ static char *slurp_and_remove(const char *path)
     return s ? s : calloc(1, 1);
 }
 
-run_result run_to(const char *stdout_path, const char *const *args)
+/* Wait for pid; with a limit (s > 0) kill it once that much wall time
+ * has passed.  Returns the wait status, sets *killed. */
+static int wait_limited(pid_t pid, double limit, int *killed)
+{
+    int ws = 0;
+    *killed = 0;
+    if (limit <= 0)
+        return waitpid(pid, &ws, 0) == pid ? ws : -1;
+    struct timespec t0, now, nap = {0, 10 * 1000 * 1000};
+    clock_gettime(CLOCK_MONOTONIC, &t0);
+    for (;;) {
+        pid_t got = waitpid(pid, &ws, WNOHANG);
+        if (got == pid)
+            return ws;
+        if (got < 0)
+            return -1;
+        clock_gettime(CLOCK_MONOTONIC, &now);
+        if (!*killed &&
+            (double)(now.tv_sec - t0.tv_sec) + 1e-9 * (double)(now.tv_nsec - t0.tv_nsec) > limit) {
+            kill(pid, SIGKILL);
+            *killed = 1;
+        }
+        nanosleep(&nap, NULL);
+    }
+}
+
+static run_result run_spawn(const char *stdout_path, double limit, const char *const *args)
 {
     char *argv[32] = {BR_BINARY};
     int n = 1;
@@ -39,12 +67,12 @@ run_result run_to(const char *stdout_path, const char *const *args)
         posix_spawn_file_actions_adddup2(&fa, fo, 1);
     posix_spawn_file_actions_adddup2(&fa, fe, 2);
     pid_t pid;
-    run_result r = {-1, NULL, NULL};
+    run_result r = {-1, NULL, NULL, 0};
     int rc = posix_spawn(&pid, BR_BINARY, &fa, NULL, argv, environ);
     posix_spawn_file_actions_destroy(&fa);
     CU_ASSERT_EQUAL_FATAL(rc, 0);
-    int ws = 0;
-    if (waitpid(pid, &ws, 0) == pid && WIFEXITED(ws))
+    int ws = wait_limited(pid, limit, &r.timed_out);
+    if (ws != -1 && WIFEXITED(ws))
         r.status = WEXITSTATUS(ws);
     close(fo);
     close(fe);
@@ -53,7 +81,20 @@ run_result run_to(const char *stdout_path, const char *const *args)
     return r;
 }
 
-run_result run(const char *const *args) { return run_to(NULL, args); }
+run_result run_to(const char *stdout_path, const char *const *args)
+{
+    return run_spawn(stdout_path, 0.0, args);
+}
+
+run_result run(const char *const *args)
+{
+    return run_to(NULL, args);
+}
+
+run_result run_limited(double seconds, const char *const *args)
+{
+    return run_spawn(NULL, seconds, args);
+}
 
 void done(run_result *r)
 {

@@ -5,9 +5,10 @@
 
 /* What one run of the binary produced. */
 typedef struct run_result {
-    int status; /* exit status, or -1 when it did not exit normally */
-    char *out;  /* stdout, NUL-terminated */
-    char *err;  /* stderr, NUL-terminated */
+    int status;    /* exit status, or -1 when it did not exit normally */
+    char *out;     /* stdout, NUL-terminated */
+    char *err;     /* stderr, NUL-terminated */
+    int timed_out; /* run_limited killed it */
 } run_result;
 
 /* Run bootrung with args (NULL-terminated, without argv[0]); stdin is
@@ -15,6 +16,8 @@ typedef struct run_result {
  * it is captured.  At most 30 arguments. */
 run_result run_to(const char *stdout_path, const char *const *args);
 run_result run(const char *const *args);
+/* Like run, but killed after `seconds` of wall time (status -1, timed_out). */
+run_result run_limited(double seconds, const char *const *args);
 void done(run_result *r);
 
 /* 1 when needle is in haystack; says on stderr what is missing when not. */

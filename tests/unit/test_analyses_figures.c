@@ -5,6 +5,7 @@
 
 #include <math.h>
 #include <stdio.h>
+#include <string.h>
 
 static br_chain *chain_of(br_design *d)
 {
@@ -190,6 +191,61 @@ static void test_regulator(void)
     br_design_free(d);
 }
 
+/* A steady state the solver could not settle decides nothing: its rows
+ * are undetermined, never pass, and the steady row names the rail, the
+ * periods and the residual.  A start-up the integrator could not finish
+ * likewise.  A row failing on trustworthy data still fails. */
+static void test_verdict_undetermined(void)
+{
+    br_design *d = br_test_fcml(3, 600.0, 100e3, 0.5, 50e-9);
+    d->switches[0].vgs_max = br_qty_fixed(20.0);
+    br_chain *c = chain_of(d);
+    br_steady ss;
+    br_steady_figs f;
+    br_steady_opts o;
+    br_error err;
+    br_steady_opts_default(&o);
+    o.max_iter = 1;
+    o.max_plain = 1;
+    CU_ASSERT_EQUAL_FATAL(br_steady_solve(c, BR_DIRI_NONE, &o, &ss, &err), BR_OK);
+    br_steady_figures(c, &ss, &f);
+    CU_ASSERT_FALSE(ss.converged);
+    br_startup su;
+    memset(&su, 0, sizeof su);
+    su.n = c->n;
+    su.failed = 1;
+    snprintf(su.why, sizeof su.why, "the start-up simulation stopped at t = 1e-05 s: test");
+    br_verdict v;
+    br_verdict_make(c, &su, &f, 1, &v);
+    for (int i = 0; i < BR_CRIT_COUNT; i++) {
+        const br_verdict_row *r = &v.row[i];
+        if (i == BR_CRIT_DRIVE) { /* no minimum drive: not applicable stays so */
+            CU_ASSERT_FALSE(r->applies);
+            CU_ASSERT_FALSE(r->undetermined);
+            continue;
+        }
+        CU_ASSERT_TRUE(r->applies);
+        CU_ASSERT_TRUE(r->undetermined);
+        CU_ASSERT_FALSE(r->pass);
+    }
+    CU_ASSERT_FALSE(v.all_pass);
+    CU_ASSERT_EQUAL(v.nfail, 0);
+    CU_ASSERT_EQUAL(v.nundetermined, BR_CRIT_COUNT - 1);
+    char want[64];
+    snprintf(want, sizeof want, "rail %d (%s)", ss.resid_rail, c->st[ss.resid_rail].name);
+    CU_ASSERT_PTR_NOT_NULL(strstr(v.row[BR_CRIT_STEADY].note, want));
+    CU_ASSERT_PTR_NOT_NULL(strstr(v.row[BR_CRIT_STEADY].note, "periods"));
+    CU_ASSERT_PTR_NOT_NULL(strstr(v.row[BR_CRIT_STARTUP].note, "stopped at t ="));
+    CU_ASSERT_TRUE(isnan(v.row[BR_CRIT_UVLO].margin));
+    /* the same chain settled: everything decided */
+    solve(c, BR_DIRI_NONE, &ss, &f);
+    br_verdict_make(c, NULL, &f, 1, &v);
+    CU_ASSERT_EQUAL(v.nundetermined, 0);
+    CU_ASSERT_FALSE(v.row[BR_CRIT_UVLO].undetermined);
+    br_chain_free(c);
+    br_design_free(d);
+}
+
 int main(void)
 {
     static const br_test_case cases[] = {
@@ -199,6 +255,7 @@ int main(void)
         {"verdict: rail on hysteresis only", test_verdict_hysteresis_only},
         {"Zener clamp", test_zener_clamp},
         {"linear regulator", test_regulator},
+        {"verdict: undetermined when not converged", test_verdict_undetermined},
         {NULL, NULL}};
     return br_test_main("analyses/figures", cases);
 }

@@ -15,7 +15,6 @@
 #include <sys/wait.h>
 #include <unistd.h>
 
-
 #define MAX_FILES 128
 
 static int count_lines(const char *s)
@@ -52,8 +51,10 @@ static int list_xml(const char *dir, char names[][256])
     int n = 0;
     for (struct dirent *e; d && n < MAX_FILES && (e = readdir(d));) {
         size_t len = strlen(e->d_name);
-        if (len > 4 && strcmp(e->d_name + len - 4, ".xml") == 0)
-            snprintf(names[n++], 256, "%s/%s", dir, e->d_name);
+        if (len > 4 && strcmp(e->d_name + len - 4, ".xml") == 0) {
+            int w = snprintf(names[n], 256, "%s/%s", dir, e->d_name);
+            n += w > 0 && w < 256; /* a name too long to hold is skipped */
+        }
     }
     if (d)
         closedir(d);

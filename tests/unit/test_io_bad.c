@@ -85,6 +85,23 @@ static const bad_case corpus[] = {
     {"doctype-billion-laughs.xml", 3, "", "DOCTYPE"},
     {"doctype-external-entity.xml", 3, "", "DOCTYPE"},
     {"doctype-external-dtd.xml", 3, "", "DOCTYPE"},
+    /* limits: table lengths, string lengths, nesting, entities */
+    {"bias-too-many.xml", 11, "capacitor c1: bias", "expected at most 32"},
+    {"forward-too-many.xml", 10, "diode d1: forward", "expected 3 to 32"},
+    {"parts-too-many.xml", 75, "capacitor c65", "expected at most 64"},
+    {"precharge-too-many.xml", 33, "startup precharge 17", "expected at most 16"},
+    {"string-too-many-switches.xml", 7, "string", "expected 2 to 64"},
+    {"string-too-many-windows.xml", 13, "switch S1 on 5", "expected at most 4"},
+    {"id-too-long.xml", 10,
+     "diode dxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxxx: id",
+     "1 to 47 characters"},
+    {"name-too-long.xml", 3, "bootrung-design: name", "expected at most 127"},
+    {"string-name-too-long.xml", 8,
+     "switch SSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSSS: name",
+     "1 to 47 characters"},
+    {"value-too-long.xml", 4, "operating-point: vin", "expected at most 1023"},
+    {"nesting-too-deep.xml", 7, "", "nested deeper than libxml2's limit of 256"},
+    {"entity-undeclared.xml", 3, "", "Entity 'lol' not defined"},
 };
 
 #define NCORPUS ((int)(sizeof corpus / sizeof corpus[0]))

@@ -1,0 +1,67 @@
+#!/usr/bin/env bash
+# tests/fuzz/run.sh - build the design-file fuzz target with clang
+# (libFuzzer + ASan + UBSan) in build-fuzz/ (or BR_FUZZ_DIR) and run it for
+# a bounded time on a seed corpus made of the examples and tests/bad.
+#
+#   tests/fuzz/run.sh [SECONDS]     default 60
+#
+# Exit status: 0 when nothing was found, 1 when the fuzzer found a crash,
+# leak or timeout (the input is saved under build-fuzz/artifacts/; turn it
+# into a regression test in tests/bad/), 77 when no working libFuzzer.
+set -euo pipefail
+cd "$(dirname "${BASH_SOURCE[0]}")/../.."
+
+secs=${1:-60}
+dir=${BR_FUZZ_DIR:-build-fuzz}
+cc=${BR_FUZZ_CC:-clang}
+
+# Does this clang link a trivial libFuzzer target?  (Debian: the runtime is
+# in libclang-rt-NN-dev, pulled in by libclang-rt-dev.)
+fuzzer_works() {
+    command -v "$cc" >/dev/null 2>&1 || return 1
+    local tmp
+    tmp=$(mktemp -d)
+    printf '%s\n' '#include <stddef.h>' '#include <stdint.h>' \
+        'int LLVMFuzzerTestOneInput(const uint8_t *d, size_t n);' \
+        'int LLVMFuzzerTestOneInput(const uint8_t *d, size_t n) { (void)d; (void)n; return 0; }' \
+        >"$tmp/t.c"
+    local ok=0
+    "$cc" -fsanitize=fuzzer,address,undefined "$tmp/t.c" -o "$tmp/t" >/dev/null 2>&1 || ok=1
+    rm -rf "$tmp"
+    return $ok
+}
+
+if ! fuzzer_works; then
+    echo "fuzz: skipped: '$cc' cannot build a libFuzzer target (install clang and libclang-rt-dev)"
+    exit 77
+fi
+
+mkdir -p "$dir"
+log=$dir/build.log
+if [ ! -f "$dir/CMakeCache.txt" ]; then
+    CC=$cc cmake -S . -B "$dir" -DBR_FUZZ=ON -DCMAKE_BUILD_TYPE=RelWithDebInfo >"$log" 2>&1 ||
+        { cat "$log" >&2; exit 1; }
+fi
+cmake --build "$dir" --parallel 2 --target fuzz_design >"$log" 2>&1 ||
+    { cat "$log" >&2; exit 1; }
+
+# The corpus directory grows across runs; the seeds are copied in each time.
+corpus=$dir/corpus
+mkdir -p "$corpus" "$dir/artifacts"
+cp examples/*.xml tests/bad/*.xml tests/extreme/*.xml "$corpus/" 2>/dev/null || true
+
+echo "fuzz: running fuzz_design for ${secs} s (log: $dir/fuzz.log)"
+set +e
+ASAN_OPTIONS=detect_leaks=1 UBSAN_OPTIONS=print_stacktrace=1:halt_on_error=1 \
+    "$dir/fuzz_design" -max_total_time="$secs" -timeout=5 -rss_limit_mb=2048 \
+    -max_len=65536 -print_final_stats=1 -artifact_prefix="$dir/artifacts/" \
+    -dict=tests/fuzz/design.dict "$corpus" >"$dir/fuzz.log" 2>&1
+rc=$?
+set -e
+grep -E '^stat::number_of_executed_units|^#[0-9]+ *DONE' "$dir/fuzz.log" | tail -2 || true
+if [ $rc -ne 0 ]; then
+    tail -40 "$dir/fuzz.log" >&2
+    echo "fuzz: FAILED (exit $rc); inputs in $dir/artifacts/" >&2
+    exit 1
+fi
+echo "fuzz: nothing found in ${secs} s"
