@@ -180,6 +180,21 @@ static int newton_step(gsl_matrix *B, gsl_matrix *LU, gsl_permutation *p, const 
     return 0;
 }
 
+/* Newton's step can overshoot wildly where the period map bends (a rail
+ * crossing its UVLO, a link starting to conduct): no rail can move by more
+ * than about the supply, so a longer step is cut to half the supply along
+ * its own direction. */
+static void limit_step(const shoot *sh, double *dz)
+{
+    double cap = 0.5 * sh->c->vsupply, big = 0.0;
+    for (int i = 0; i < sh->m; i++)
+        big = fmax(big, fabs(dz[i]));
+    if (!(cap > 0) || !(big > cap))
+        return;
+    for (int i = 0; i < sh->m; i++)
+        dz[i] *= cap / big;
+}
+
 /* Broyden's rank-one update of B after the step dz changed F by dF. */
 static void broyden(gsl_matrix *B, const double *dz, const double *dF, int m)
 {
@@ -296,6 +311,7 @@ static int shoot_variational(shoot *sh, double *z, const br_steady_opts *o, br_s
             break;
         }
         out->iterations = it + 1;
+        limit_step(sh, dz);
         for (int i = 0; i < m; i++)
             z[i] += dz[i];
         /* the exact matrix again when the steps stop shrinking fast, but
@@ -344,6 +360,7 @@ static int shoot_newton(shoot *sh, double *z, const br_steady_opts *o, br_steady
         out->iterations = it + 1;
         if (newton_step(B, LU, p, F, dz, m) != 0)
             break;
+        limit_step(sh, dz);
         for (int i = 0; i < m; i++)
             z[i] += dz[i];
         if ((rc = period_map(sh, z, pz, err)) != BR_OK)
