@@ -583,7 +583,7 @@ static int holdups(const br_design *d, br_window *w, br_error *err)
         br_steady ss;
         rc = br_steady_solve(c, dirs[i], NULL, &ss, err);
         if (rc == BR_OK)
-            rc = br_holdup_run(c, &ss, 0, 0.0, &w->holdup[i], err);
+            rc = br_holdup_run(c, &ss, d->hold_on, 0.0, &w->holdup[i], err);
     }
     br_chain_free(c);
     return rc;

@@ -284,7 +284,7 @@ static int find_switch(const br_design *d, const char *name)
     return -1;
 }
 
-static int unknown_switch(br_rd *r, xmlNode *n, const char *name)
+static int unknown_switch(br_rd *r, xmlNode *n, const char *attr, const char *name)
 {
     char names[256], sn[BR_ID_MAX];
     size_t len = 0;
@@ -293,25 +293,52 @@ static int unknown_switch(br_rd *r, xmlNode *n, const char *name)
         switch_name(r->d, s, sn, sizeof sn);
         len += (size_t)snprintf(names + len, sizeof names - len, "%s%s", s ? " " : "", sn);
     }
-    return br_rd_fail(r, n, "switches", "unknown switch '%s', expected names from: %s", name,
-                      names);
+    return br_rd_fail(r, n, attr, "unknown switch '%s', expected names from: %s", name, names);
 }
 
-static int read_mask(br_rd *r, xmlNode *n, unsigned long long *mask)
+/* The switch names listed in attribute attr of n as a mask; an empty list
+ * is an error. */
+static int read_mask_attr(br_rd *r, xmlNode *n, const char *attr, unsigned long long *mask)
 {
     char list[LIST_MAX];
-    if (br_xml_attr(n, "switches", list, sizeof list) < 0)
-        return br_rd_fail(r, n, "switches", "list too long");
+    if (br_xml_attr(n, attr, list, sizeof list) < 0)
+        return br_rd_fail(r, n, attr, "list too long");
     *mask = 0;
     for (char *save = NULL, *t = strtok_r(list, " \t\r\n", &save); t;
          t = strtok_r(NULL, " \t\r\n", &save)) {
         int s = find_switch(r->d, t);
         if (s < 0)
-            return unknown_switch(r, n, t);
+            return unknown_switch(r, n, attr, t);
         *mask |= 1ULL << s;
     }
     if (*mask == 0)
-        return br_rd_fail(r, n, "switches", "empty, expected switch names like 'B1 B2'");
+        return br_rd_fail(r, n, attr, "empty, expected switch names like 'B1 B2'");
+    return BR_OK;
+}
+
+static int read_mask(br_rd *r, xmlNode *n, unsigned long long *mask)
+{
+    return read_mask_attr(r, n, "switches", mask);
+}
+
+/* Both switches of a flying-capacitor pair (Ak and Bk) on at once short
+ * the capacitor between them: no state held during a stop may do that. */
+static int check_hold_pairs(br_rd *r, xmlNode *n)
+{
+    const br_design *d = r->d;
+    if (d->topology != BR_TOPO_FCML)
+        return BR_OK;
+    for (int j = 1; j < d->levels; j++) {
+        char a[16], b[16];
+        snprintf(a, sizeof a, "A%d", j);
+        snprintf(b, sizeof b, "B%d", j);
+        int sa = find_switch(d, a), sb = find_switch(d, b);
+        if (sa >= 0 && sb >= 0 && (d->hold_on >> sa & 1) && (d->hold_on >> sb & 1))
+            return br_rd_fail(r, n, "hold-on",
+                              "holds both %s and %s on, which shorts the flying capacitor "
+                              "between them; expected at most one switch of each pair",
+                              a, b);
+    }
     return BR_OK;
 }
 
@@ -337,7 +364,11 @@ static int read_analysis(br_rd *r, xmlNode *n)
     br_design *d = r->d;
     BR_TRY(br_rd_qty(r, n, "min-drive", BR_KIND_VOLTAGE, &br_range_nonneg, &d->min_drive, NULL));
     BR_TRY(br_rd_qty(r, n, "derating", BR_KIND_FRACTION, &r_derating, &d->derating, NULL));
-    return br_rd_qty(r, n, "max-startup", BR_KIND_TIME, &br_range_pos, &d->startup_max, NULL);
+    BR_TRY(br_rd_qty(r, n, "max-startup", BR_KIND_TIME, &br_range_pos, &d->startup_max, NULL));
+    if (!xmlHasProp(n, (const xmlChar *)"hold-on"))
+        return BR_OK;
+    BR_TRY(read_mask_attr(r, n, "hold-on", &d->hold_on));
+    return check_hold_pairs(r, n);
 }
 
 /* ---- checks across elements ------------------------------------------------------ */

@@ -9,24 +9,24 @@
 
 #include "bootrung/bootrung.h"
 
-#define BR_ID_MAX 48         /* part ids and switch names, with NUL */
-#define BR_MAX_SWITCHES 64   /* longest string accepted (levels <= 33) */
-#define BR_MAX_WINDOWS 4     /* on-intervals per switch per period */
+#define BR_ID_MAX 48       /* part ids and switch names, with NUL */
+#define BR_MAX_SWITCHES 64 /* longest string accepted (levels <= 33) */
+#define BR_MAX_WINDOWS 4   /* on-intervals per switch per period */
 #define BR_MAX_BIAS_POINTS 32
 #define BR_MAX_PRECHARGE 16
-#define BR_MAX_PARTS 64      /* of each kind */
+#define BR_MAX_PARTS 64 /* of each kind */
 
 typedef enum br_dist { BR_DIST_UNIFORM = 0, BR_DIST_NORMAL = 1 } br_dist;
 
 /* A toleranced quantity.  Invariant: min <= nom <= max; min == nom == max
  * when the file gives no tolerance. */
 typedef struct br_qty {
-    double nom;   /* nominal (typical) value, SI */
-    double min;   /* lowest value the tolerance allows */
-    double max;   /* highest value the tolerance allows */
-    int dist;     /* br_dist for Monte Carlo */
-    double nsig;  /* for BR_DIST_NORMAL: the limits sit at +-nsig sigma */
-    int line;     /* source line of the value, 0 when defaulted */
+    double nom;  /* nominal (typical) value, SI */
+    double min;  /* lowest value the tolerance allows */
+    double max;  /* highest value the tolerance allows */
+    int dist;    /* br_dist for Monte Carlo */
+    double nsig; /* for BR_DIST_NORMAL: the limits sit at +-nsig sigma */
+    int line;    /* source line of the value, 0 when defaulted */
 } br_qty;
 
 /* Current direction(s) the leg carries; decides which switch of a pair
@@ -41,33 +41,33 @@ typedef enum br_direction {
 
 typedef struct br_diode_part {
     char id[BR_ID_MAX];
-    int line;       /* line of the <diode> element */
-    br_qty is;      /* Shockley saturation current at tnom, A */
-    br_qty n;       /* emission coefficient */
-    br_qty rs;      /* series (ohmic) resistance, ohm */
-    br_qty cj0;     /* zero-bias junction capacitance, F */
-    br_qty vj;      /* junction built-in potential, V */
-    br_qty m;       /* junction grading coefficient */
-    br_qty tau;     /* charge-control stored-charge time constant, s (0: none) */
-    br_qty eg;      /* bandgap for Is(T), eV (1.11 Si, 3.26 SiC) */
-    br_qty xti;     /* Is(T) temperature exponent */
-    br_qty ir;      /* reverse leakage at ir_temp, A */
-    br_qty ir_temp; /* temperature at which ir is given, K */
+    int line;         /* line of the <diode> element */
+    br_qty is;        /* Shockley saturation current at tnom, A */
+    br_qty n;         /* emission coefficient */
+    br_qty rs;        /* series (ohmic) resistance, ohm */
+    br_qty cj0;       /* zero-bias junction capacitance, F */
+    br_qty vj;        /* junction built-in potential, V */
+    br_qty m;         /* junction grading coefficient */
+    br_qty tau;       /* charge-control stored-charge time constant, s (0: none) */
+    br_qty eg;        /* bandgap for Is(T), eV (1.11 Si, 3.26 SiC) */
+    br_qty xti;       /* Is(T) temperature exponent */
+    br_qty ir;        /* reverse leakage at ir_temp, A */
+    br_qty ir_temp;   /* temperature at which ir is given, K */
     br_qty ir_double; /* temperature rise that doubles the leakage, K */
-    br_qty vrrm;    /* repetitive peak reverse voltage rating, V */
-    br_qty ifsm;    /* non-repetitive surge current rating, A */
-    double tnom;    /* temperature of is/n/rs, K */
+    br_qty vrrm;      /* repetitive peak reverse voltage rating, V */
+    br_qty ifsm;      /* non-repetitive surge current rating, A */
+    double tnom;      /* temperature of is/n/rs, K */
 } br_diode_part;
 
 typedef struct br_cap_part {
     char id[BR_ID_MAX];
     int line;
-    br_qty c;       /* nominal capacitance, F (tolerance lives here) */
-    br_qty esr;     /* equivalent series resistance, ohm */
-    br_qty vrated;  /* voltage rating, V */
-    br_qty tfactor; /* capacitance factor at the operating temperature */
-    br_qty aging;   /* capacitance factor after aging (1 = none) */
-    int nbias;      /* points in the DC-bias table (0: flat) */
+    br_qty c;                          /* nominal capacitance, F (tolerance lives here) */
+    br_qty esr;                        /* equivalent series resistance, ohm */
+    br_qty vrated;                     /* voltage rating, V */
+    br_qty tfactor;                    /* capacitance factor at the operating temperature */
+    br_qty aging;                      /* capacitance factor after aging (1 = none) */
+    int nbias;                         /* points in the DC-bias table (0: flat) */
     double bias_v[BR_MAX_BIAS_POINTS]; /* bias voltage, V, ascending */
     double bias_f[BR_MAX_BIAS_POINTS]; /* C(v)/C(0), interpolated linearly */
 } br_cap_part;
@@ -85,13 +85,13 @@ typedef struct br_driver_part {
 typedef struct br_switch_part {
     char id[BR_ID_MAX];
     int line;
-    br_qty rds_on;   /* on-resistance in the charging path, ohm */
-    br_qty qg;       /* total gate charge at qg_v, C */
-    br_qty qg_v;     /* drive voltage at which qg is stated, V */
-    br_qty tg;       /* duration of the gate-charge pulse at turn-on, s */
-    br_qty vsd;      /* reverse-conduction drop in dead time, V */
-    br_qty vgs_rec;  /* recommended gate drive, V */
-    br_qty vgs_max;  /* absolute maximum gate voltage, V */
+    br_qty rds_on;  /* on-resistance in the charging path, ohm */
+    br_qty qg;      /* total gate charge at qg_v, C */
+    br_qty qg_v;    /* drive voltage at which qg is stated, V */
+    br_qty tg;      /* duration of the gate-charge pulse at turn-on, s */
+    br_qty vsd;     /* reverse-conduction drop in dead time, V */
+    br_qty vgs_rec; /* recommended gate drive, V */
+    br_qty vgs_max; /* absolute maximum gate voltage, V */
 } br_switch_part;
 
 typedef enum br_rail_aux { BR_AUX_NONE = 0, BR_AUX_LDO = 1, BR_AUX_ZENER = 2 } br_rail_aux;
@@ -100,22 +100,22 @@ typedef enum br_rail_aux { BR_AUX_NONE = 0, BR_AUX_LDO = 1, BR_AUX_ZENER = 2 } b
 typedef struct br_aux_part {
     char id[BR_ID_MAX];
     int line;
-    int kind;        /* br_rail_aux */
-    br_qty vout;     /* LDO: regulated output, V; ZENER: knee voltage, V */
-    br_qty dropout;  /* LDO: minimum input-output headroom, V */
-    br_qty iq;       /* LDO: own quiescent current, A */
-    br_qty rz;       /* ZENER: dynamic resistance above the knee, ohm */
+    int kind;       /* br_rail_aux */
+    br_qty vout;    /* LDO: regulated output, V; ZENER: knee voltage, V */
+    br_qty dropout; /* LDO: minimum input-output headroom, V */
+    br_qty iq;      /* LDO: own quiescent current, A */
+    br_qty rz;      /* ZENER: dynamic resistance above the knee, ohm */
 } br_aux_part;
 
 /* Which parts and extras sit on one stage (switch k, rail k, link k). */
 typedef struct br_stage_spec {
-    int diode;      /* index into design->diodes (link k, k >= 1) */
-    int cap;        /* index into design->caps (rail k) */
-    int driver;     /* index into design->drivers */
-    int sw;         /* index into design->switches */
-    int aux;        /* index into design->aux, -1 for none */
-    br_qty r_link;  /* series resistor in link k, ohm */
-    int line;       /* line of the <stage> override, 0 for the default */
+    int diode;     /* index into design->diodes (link k, k >= 1) */
+    int cap;       /* index into design->caps (rail k) */
+    int driver;    /* index into design->drivers */
+    int sw;        /* index into design->switches */
+    int aux;       /* index into design->aux, -1 for none */
+    br_qty r_link; /* series resistor in link k, ohm */
+    int line;      /* line of the <stage> override, 0 for the default */
 } br_stage_spec;
 
 typedef enum br_topology { BR_TOPO_FCML = 0, BR_TOPO_STRING = 1 } br_topology;
@@ -123,13 +123,13 @@ typedef enum br_topology { BR_TOPO_FCML = 0, BR_TOPO_STRING = 1 } br_topology;
 /* Explicit string: one switch, its on-intervals as fractions of T. */
 typedef struct br_switch_spec {
     char name[BR_ID_MAX];
-    int nwin;                       /* number of on-intervals */
-    double on[BR_MAX_WINDOWS][2];   /* [start, end) fractions; end may wrap */
-    br_qty vblock;                  /* voltage it blocks when off, V */
-    int nrev;                       /* intervals of reverse conduction */
-    double rev[BR_MAX_WINDOWS][2];  /* [start, end) fractions of T, when
-                                       the load current forces it to conduct
-                                       in reverse while commanded off */
+    int nwin;                      /* number of on-intervals */
+    double on[BR_MAX_WINDOWS][2];  /* [start, end) fractions; end may wrap */
+    br_qty vblock;                 /* voltage it blocks when off, V */
+    int nrev;                      /* intervals of reverse conduction */
+    double rev[BR_MAX_WINDOWS][2]; /* [start, end) fractions of T, when
+                                      the load current forces it to conduct
+                                      in reverse while commanded off */
     int line;
 } br_switch_spec;
 
@@ -140,27 +140,27 @@ typedef struct br_precharge {
 } br_precharge;
 
 struct br_design {
-    char path[512];           /* file it came from, for messages */
-    char name[128];           /* the design's name attribute */
+    char path[512]; /* file it came from, for messages */
+    char name[128]; /* the design's name attribute */
     /* operating point */
-    br_qty vin;               /* DC bus, V */
-    br_qty fsw;               /* switching frequency, Hz */
-    br_qty duty;              /* top-switch duty, fraction in (0,1) */
-    br_qty deadtime;          /* s */
-    br_qty tamb;              /* ambient temperature, K */
-    int direction;            /* br_direction */
-    br_qty imbalance;         /* flying-capacitor imbalance, fraction of Vin/P */
-    br_qty tedge;             /* switching-node edge (ramp) time, s */
-    br_qty overshoot;         /* edge overshoot on blocking voltage, fraction */
+    br_qty vin;       /* DC bus, V */
+    br_qty fsw;       /* switching frequency, Hz */
+    br_qty duty;      /* top-switch duty, fraction in (0,1) */
+    br_qty deadtime;  /* s */
+    br_qty tamb;      /* ambient temperature, K */
+    int direction;    /* br_direction */
+    br_qty imbalance; /* flying-capacitor imbalance, fraction of Vin/P */
+    br_qty tedge;     /* switching-node edge (ramp) time, s */
+    br_qty overshoot; /* edge overshoot on blocking voltage, fraction */
     /* supply (rail 0) */
-    br_qty vsupply;           /* V (its tolerance is the supply tolerance) */
-    br_qty rsupply;           /* source resistance, ohm */
-    br_qty tramp;             /* start-up ramp time, s (0: step) */
-    br_qty csupply;           /* local bypass capacitance on rail 0, F (0: none) */
+    br_qty vsupply; /* V (its tolerance is the supply tolerance) */
+    br_qty rsupply; /* source resistance, ohm */
+    br_qty tramp;   /* start-up ramp time, s (0: step) */
+    br_qty csupply; /* local bypass capacitance on rail 0, F (0: none) */
     /* topology */
-    int topology;             /* br_topology */
-    int levels;               /* FCML: N levels */
-    int nswitch;              /* STRING: number of switches */
+    int topology;                       /* br_topology */
+    int levels;                         /* FCML: N levels */
+    int nswitch;                        /* STRING: number of switches */
     br_switch_spec sw[BR_MAX_SWITCHES]; /* STRING: bottom (0) to top */
     /* parts */
     int ndiodes, ncaps, ndrivers, nswitches, naux;
@@ -177,9 +177,11 @@ struct br_design {
     int nprecharge;
     br_precharge precharge[BR_MAX_PRECHARGE];
     /* analysis settings */
-    br_qty min_drive;         /* minimum useful drive voltage, V */
-    br_qty derating;          /* diode reverse-voltage derating limit, fraction */
-    br_qty startup_max;       /* longest start-up simulated, s */
+    br_qty min_drive;           /* minimum useful drive voltage, V */
+    br_qty derating;            /* diode reverse-voltage derating limit, fraction */
+    br_qty startup_max;         /* longest start-up simulated, s */
+    unsigned long long hold_on; /* hold-up: switches held on once switching
+                                   stops (bit s: switch s); 0: all off */
 };
 
 /* A design with every optional field at its documented default and no

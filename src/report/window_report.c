@@ -213,12 +213,31 @@ static int design_text(const br_chain *c, const br_hold_point *pt, br_text *out)
 
 enum { H_DIR, H_TIME, H_RAIL, H_V, HCOLS };
 
+/* The switches of mask held on, as "A1 B2", or "none". */
+static void held_names(const br_chain *c, br_mask mask, char *buf, size_t size)
+{
+    size_t len = 0;
+    buf[0] = '\0';
+    for (int s = 0; s < c->n && len < size; s++)
+        if (mask >> s & 1)
+            len += (size_t)snprintf(buf + len, size - len, "%s%s", len ? " " : "", c->st[s].name);
+    if (!buf[0])
+        snprintf(buf, size, "none");
+}
+
 static int holdup_text(const br_chain *c, const br_window *w, br_text *out)
 {
-    int rc = br_report_wrap(out, "hold-up: ",
-                            "switching stops at the quiet instant of the steady state, every "
-                            "switch off; time until the first driver supply falls below UVLO",
-                            2);
+    char held[512], what[640];
+    br_mask mask = w->nholdup > 0 ? w->holdup[0].hold_on : 0;
+    held_names(c, mask, held, sizeof held);
+    snprintf(what, sizeof what,
+             mask ? "switching stops at the quiet instant of the steady state, %s held on "
+                    "(the design's hold-on) and every other switch off; time until the first "
+                    "driver supply falls below UVLO"
+                  : "switching stops at the quiet instant of the steady state, every switch off%s; "
+                    "time until the first driver supply falls below UVLO",
+             mask ? held : "");
+    int rc = br_report_wrap(out, "hold-up: ", what, 2);
     br_table *t = br_table_create(HCOLS, w->nholdup);
     if (!t)
         return BR_ENOMEM;
@@ -387,7 +406,10 @@ static void sweep_xml(br_xmlw *x, const br_chain *c, const br_sweep *s)
 static void holdup_xml(br_xmlw *x, const br_chain *c, const br_holdup *h)
 {
     br_xmlw_start(x, "hold-up");
+    char held[512];
+    held_names(c, h->hold_on, held, sizeof held);
     br_xmlw_attr(x, "direction", br_dir_label(h->dir));
+    br_xmlw_attr(x, "held-on", held);
     br_xmlw_bool(x, "drops", h->dropped);
     if (h->dropped) {
         br_xmlw_num(x, "time-s", h->t);

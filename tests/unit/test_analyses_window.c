@@ -260,6 +260,36 @@ static void test_holdup_none(void)
     br_design_free(d);
 }
 
+/* A stop that holds the return switch B1 on (the design's hold-on) leaves
+ * link 1 conducting: rail 1 keeps being recharged from the supply and
+ * outlasts ten times the hold-up of the stop with every switch off. */
+static void test_holdup_named_state(void)
+{
+    br_design *d = one_link();
+    br_chain *c;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    br_steady ss;
+    CU_ASSERT_EQUAL_FATAL(br_steady_solve(c, BR_DIRI_NONE, NULL, &ss, &err), BR_OK);
+    br_holdup off, held;
+    CU_ASSERT_EQUAL_FATAL(br_holdup_run(c, &ss, 0, 0.0, &off, &err), BR_OK);
+    CU_ASSERT_TRUE_FATAL(off.dropped);
+    CU_ASSERT_STRING_EQUAL(c->st[0].name, "B1");
+    CU_ASSERT_EQUAL_FATAL(br_holdup_run(c, &ss, 1ULL << 0, 10.0 * off.t, &held, &err), BR_OK);
+    CU_ASSERT_FALSE(held.dropped);
+    CU_ASSERT_EQUAL(held.hold_on, 1ULL << 0);
+    /* the window analysis uses the design's hold-on */
+    d->hold_on = 1ULL << 0;
+    br_window *w = malloc(sizeof *w);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(w);
+    run_window(d, 0, w);
+    CU_ASSERT_EQUAL(w->holdup[0].hold_on, 1ULL << 0);
+    CU_ASSERT_FALSE(w->holdup[0].dropped);
+    free(w);
+    br_chain_free(c);
+    br_design_free(d);
+}
+
 /* ---- start-up window ---------------------------------------------------- */
 
 static int starts_at(const br_design *d0, double duty, double fsw)
@@ -474,6 +504,7 @@ int main(void)
         {"design point fails; never holds", test_design_fails_and_never},
         {"hold-up time against C dV / I", test_holdup_closed_form},
         {"hold-up without a load", test_holdup_none},
+        {"hold-up with the design's hold-on state", test_holdup_named_state},
         {"start-up window", test_startup_window},
         {"map agrees with window through the design point", test_map_agrees_with_window},
         {"map independent of the thread count", test_map_threads},
