@@ -7,6 +7,7 @@
 #include "report/report_common.h"
 #include "report/startup_report.h"
 #include "report/svg.h"
+#include "report/verdict_report.h"
 
 #include <math.h>
 #include <stdio.h>
@@ -38,6 +39,8 @@ static const char STYLE[] =
     "border-radius:4px;margin:4px 0 8px}\n"
     ".badge.pass{background:#dff3eb;border:2px solid #009E73}\n"
     ".badge.fail{border:2px solid #D55E00}\n"
+    ".undet{color:#6b4e00;font-weight:bold;background:#fdf3d0}\n"
+    ".badge.undet{border:2px solid #E69F00}\n"
     ".note{margin:4px 0;color:#3a4652}\n"
     "figure{margin:10px 0;overflow-x:auto}\n"
     "pre{font-size:14px;background:#f6f8fa;padding:10px;overflow-x:auto}\n"
@@ -157,6 +160,15 @@ static int cell_result(br_text *out, int applies, int pass)
     return cell(out, pass ? "l pass" : "l fail", pass ? "pass \xe2\x9c\x93" : "FAIL \xe2\x9c\x97");
 }
 
+/* A verdict row's result: as cell_result, and a criterion the solver
+ * could not decide is neither pass nor fail. */
+static int cell_verdict(br_text *out, const br_verdict_row *r)
+{
+    if (r->undetermined)
+        return cell(out, "l undet", "UNDETERMINED ?");
+    return cell_result(out, r->applies, r->pass);
+}
+
 static int head_row(br_text *out, const char *const *heads, int n)
 {
     int rc = br_text_put(out, "<table>\n<thead><tr>");
@@ -179,9 +191,9 @@ static int verdict_row(br_text *out, const br_chain *c, const br_verdict_row *r)
     int startup = r->crit == BR_CRIT_STARTUP || r->crit == BR_CRIT_INRUSH;
     int rc = br_text_put(out, "<tr>");
     rc |= cell(out, "l", br_crit_title(r->crit));
-    rc |= cell_result(out, r->applies, r->pass);
+    rc |= cell_verdict(out, r);
     const char *u = r->unit ? r->unit : "";
-    if (r->applies) {
+    if (r->applies && !r->undetermined) {
         rc |= cell_si(out, r->figure, 4, u);
         rc |= cell_si(out, r->limit, 4, u);
         rc |= cell_si(out, r->margin, 4, u);
@@ -209,12 +221,9 @@ static int verdict_notes(br_text *out, const br_chain *c, const br_verdict *v, u
         if (!(mask & (1u << i)) || (r->applies && r->pass))
             continue;
         br_text_reset(why);
-        rc |= br_text_printf(why, "%s %s: ", r->applies ? "FAIL" : "n/a", br_crit_title(i));
+        rc |= br_text_printf(why, "%s %s: ", br_verdict_word(r), br_crit_title(i));
         size_t head = br_text_len(why);
-        if (i == BR_CRIT_STARTUP && su && r->applies && !su->complete)
-            rc |= br_startup_stall_text(c, su, why);
-        else
-            rc |= br_text_put(why, r->note);
+        rc |= br_verdict_why(c, v, i, su, why);
         if (br_text_len(why) > head)
             rc |= br_html_para(out, br_text_data(why));
     }
@@ -227,21 +236,24 @@ int br_html_verdict(br_text *out, const br_chain *c, const br_verdict *v, unsign
 {
     static const char *const heads[] = {"criterion", "result",   "figure",           "limit",
                                         "margin",    "binds at", "current direction"};
-    int evaluated = 0, failed = 0;
-    for (int i = 0; i < BR_CRIT_COUNT; i++)
-        if (mask & (1u << i)) {
-            evaluated += v->row[i].applies;
-            failed += v->row[i].applies && !v->row[i].pass;
-        }
+    br_verdict_count n;
+    br_verdict_count_rows(v, mask, &n);
     int rc = br_html_section(out, "Verdict", NULL);
     char line[160];
-    if (failed)
-        snprintf(line, sizeof line, "FAIL \xe2\x9c\x97  %d of %d criteria evaluated fail", failed,
-                 evaluated);
-    else
-        snprintf(line, sizeof line, "PASS \xe2\x9c\x93  all %d criteria evaluated pass", evaluated);
-    rc |= tag_text(out, failed ? "<div class=\"badge fail\">" : "<div class=\"badge pass\">", line,
-                   "</div>\n");
+    const char *cls = "<div class=\"badge pass\">";
+    if (n.failed) {
+        snprintf(line, sizeof line, "FAIL \xe2\x9c\x97  %d of %d criteria evaluated fail", n.failed,
+                 n.evaluated);
+        cls = "<div class=\"badge fail\">";
+    } else if (n.undetermined) { /* never a pass: what was not decided may fail */
+        snprintf(line, sizeof line, "UNDETERMINED ?  %d criteria could not be decided",
+                 n.undetermined);
+        cls = "<div class=\"badge undet\">";
+    } else {
+        snprintf(line, sizeof line, "PASS \xe2\x9c\x93  all %d criteria evaluated pass",
+                 n.evaluated);
+    }
+    rc |= tag_text(out, cls, line, "</div>\n");
     rc |= head_row(out, heads, 7);
     for (int i = 0; i < BR_CRIT_COUNT; i++)
         if (mask & (1u << i))

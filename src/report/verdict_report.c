@@ -8,6 +8,7 @@
 
 #include <math.h>
 #include <stdio.h>
+#include <string.h>
 
 enum { C_TITLE, C_RESULT, C_FIGURE, C_LIMIT, C_MARGIN, C_AT, C_DIR, NCOL };
 
@@ -21,7 +22,7 @@ static int is_startup_crit(int crit)
     return crit == BR_CRIT_STARTUP || crit == BR_CRIT_INRUSH;
 }
 
-static const char *result_word(const br_verdict_row *r)
+const char *br_verdict_word(const br_verdict_row *r)
 {
     return !r->applies ? "n/a" : r->undetermined ? "UNDETERMINED" : r->pass ? "pass" : "FAIL";
 }
@@ -49,7 +50,7 @@ static void row(br_table *t, const br_chain *c, const br_verdict_row *r)
     char b[BR_TABLE_CELL];
     br_table_row(t);
     br_table_set(t, C_TITLE, "%s", br_crit_title(r->crit));
-    br_table_set(t, C_RESULT, "%s", result_word(r));
+    br_table_set(t, C_RESULT, "%s", br_verdict_word(r));
     value_cell(t, C_FIGURE, r, r->figure);
     value_cell(t, C_LIMIT, r, r->limit);
     value_cell(t, C_MARGIN, r, r->margin);
@@ -93,32 +94,45 @@ static int render_notes(const br_chain *c, const br_verdict *v, unsigned mask, c
         if (!(mask & BR_CRIT_BIT(i)) || (r->applies && r->pass))
             continue;
         br_text_reset(why);
-        if (i == BR_CRIT_STARTUP && su && r->applies && !su->complete)
-            rc |= br_startup_stall_text(c, su, why);
-        else
-            rc |= br_text_put(why, r->note);
+        rc |= br_verdict_why(c, v, i, su, why);
         if (br_text_len(why) == 0)
             continue;
         char lead[128];
-        snprintf(lead, sizeof lead, "  %s %s: ", result_word(r), br_crit_title(i));
+        snprintf(lead, sizeof lead, "  %s %s: ", br_verdict_word(r), br_crit_title(i));
         rc |= br_report_wrap(out, lead, br_text_data(why), 4);
     }
     br_text_free(why);
     return rc;
 }
 
-static int render_overall(const br_verdict *v, unsigned mask, br_text *out)
+int br_verdict_why(const br_chain *c, const br_verdict *v, int i, const br_startup *su,
+                   br_text *why)
 {
-    int evaluated = 0, failed = 0, na = 0, undet = 0;
+    const br_verdict_row *r = &v->row[i];
+    if (i == BR_CRIT_STARTUP && su && r->applies && !su->complete)
+        return br_startup_stall_text(c, su, why);
+    return br_text_put(why, r->note);
+}
+
+void br_verdict_count_rows(const br_verdict *v, unsigned mask, br_verdict_count *n)
+{
+    memset(n, 0, sizeof *n);
     for (int i = 0; i < BR_CRIT_COUNT; i++) {
         if (!(mask & BR_CRIT_BIT(i)))
             continue;
         const br_verdict_row *r = &v->row[i];
-        evaluated += r->applies && !r->undetermined;
-        undet += r->undetermined;
-        failed += r->applies && !r->pass && !r->undetermined;
-        na += !r->applies;
+        n->evaluated += r->applies && !r->undetermined;
+        n->undetermined += r->undetermined;
+        n->failed += r->applies && !r->pass && !r->undetermined;
+        n->na += !r->applies;
     }
+}
+
+static int render_overall(const br_verdict *v, unsigned mask, br_text *out)
+{
+    br_verdict_count n;
+    br_verdict_count_rows(v, mask, &n);
+    int evaluated = n.evaluated, failed = n.failed, na = n.na, undet = n.undetermined;
     if (failed > 0)
         return br_text_printf(out, "verdict: FAIL, %d of %d criteria evaluated fail%s\n", failed,
                               evaluated, undet ? " (others undetermined)" : "");

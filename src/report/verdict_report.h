@@ -14,6 +14,22 @@
 #define BR_CRIT_BIT(crit) (1u << (crit))
 #define BR_CRIT_ALL ((1u << BR_CRIT_COUNT) - 1u)
 
+/* "pass", "FAIL", "n/a" or "UNDETERMINED" for a row. */
+const char *br_verdict_word(const br_verdict_row *r);
+
+/* The rows in mask: evaluated (applies, decided), failed, not applicable
+ * and undetermined. */
+typedef struct br_verdict_count {
+    int evaluated, failed, na, undetermined;
+} br_verdict_count;
+void br_verdict_count_rows(const br_verdict *v, unsigned mask, br_verdict_count *n);
+
+/* Why row i failed, does not apply or is undetermined, appended to why
+ * (nothing when there is nothing to say); su (may be NULL) explains a
+ * start-up that did not complete. */
+int br_verdict_why(const br_chain *c, const br_verdict *v, int i, const br_startup *su,
+                   br_text *why);
+
 /* The verdict table of the rows in mask.  su (may be NULL) lets a failed
  * start-up say why. */
 int br_verdict_text(const br_chain *c, const br_verdict *v, unsigned mask, const br_startup *su,

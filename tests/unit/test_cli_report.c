@@ -299,6 +299,32 @@ static void test_every_plot_parses(void)
     remove_all(dir, names);
 }
 
+/* A steady state the solver is not allowed to settle: the report says
+ * UNDETERMINED in its badge and its rows, as the terminal does, never
+ * PASS; the page still parses. */
+static void test_undetermined_report(void)
+{
+    char dir[64], html[96];
+    temp_dir(dir, sizeof dir);
+    snprintf(html, sizeof html, "%s/u.html", dir);
+    const char *args[] = {
+        "analyze", "examples/leg-7level.xml", "--solver-limit", "1", "--report", html, NULL};
+    run_result r = run(args);
+    CU_ASSERT_EQUAL(r.status, 3);
+    CU_ASSERT_TRUE(has(r.out, "verdict: UNDETERMINED"));
+    done(&r);
+    char *text = NULL;
+    xmlDocPtr doc = parse_file(html, &text);
+    CU_ASSERT_PTR_NOT_NULL(doc);
+    CU_ASSERT_TRUE(has(text, "badge undet"));
+    CU_ASSERT_TRUE(has(text, "UNDETERMINED"));
+    CU_ASSERT_PTR_NULL(strstr(text, "badge pass"));
+    xmlFreeDoc(doc);
+    free(text);
+    const char *names[] = {"u.html", NULL};
+    remove_all(dir, names);
+}
+
 /* A report that cannot be written: status 2, said why, nothing on stdout. */
 static void test_unwritable_report(void)
 {
@@ -327,6 +353,7 @@ int main(void)
     static const br_test_case cases[] = {
         {"analyze --report: parses, self-contained, points are CSV rows", test_analyze_report},
         {"every verb's --plot and --report parse", test_every_plot_parses},
+        {"undetermined verdict in the report", test_undetermined_report},
         {"unwritable or clashing outputs: status 2", test_unwritable_report},
         {NULL, NULL},
     };
