@@ -89,19 +89,9 @@ static int write_all(const outputs *o, const paths *p, int quiet)
     /* --quiet: the verdict of steady and analyze, or how the start-up ended */
     static const char *const verdict[] = {"verdict:", "start-up complete", "start-up INCOMPLETE",
                                           NULL};
-    int status = BR_EXIT_OK;
-    if (p->xml)
-        status = br_cli_save(o->xml, p->xml);
-    if (status == BR_EXIT_OK && p->csv)
-        status = br_cli_save(o->csv, p->csv);
-    if (status == BR_EXIT_OK && p->report)
-        status = br_cli_save(o->html, p->report);
-    if (status == BR_EXIT_OK && p->plot)
-        status = br_cli_save(o->svg, p->plot);
-    if (status == BR_EXIT_OK && !is_stdout(p->xml) && !is_stdout(p->csv) && !is_stdout(p->report) &&
-        !is_stdout(p->plot))
-        status = quiet ? br_cli_emit_verdict(o->text, verdict, 1) : br_cli_emit(o->text);
-    return status;
+    const br_cli_file files[] = {
+        {o->xml, p->xml}, {o->csv, p->csv}, {o->html, p->report}, {o->svg, p->plot}};
+    return br_cli_write(files, 4, o->text, quiet, verdict, 1);
 }
 
 /* Compute, then write unless a signal stopped the run (only the runs with

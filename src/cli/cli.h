@@ -108,6 +108,21 @@ int br_cli_fraction(const char *verb, const char *opt, const char *text, double 
  * br_cli_emit does. */
 int br_cli_emit_verdict(const br_text *t, const char *const *prefixes, int join);
 
+/* One output file of a verb: its text and where it goes (path NULL: not
+ * asked for; "-": stdout in place of the report). */
+typedef struct br_cli_file {
+    const br_text *text;
+    const char *path;
+} br_cli_file;
+
+/* Files first, in order, all or nothing each (br_cli_save), stopping at
+ * the first failure, so a script never mistakes a partial run for a whole;
+ * then the report on stdout unless a file took stdout: the whole report,
+ * or with quiet only its lines that start with one of prefixes (joined as
+ * br_cli_emit_verdict does).  Returns BR_EXIT_OK or BR_EXIT_INPUT. */
+int br_cli_write(const br_cli_file *files, int nfiles, const br_text *report, int quiet,
+                 const char *const *prefixes, int join);
+
 /* ---- long runs: the progress bar and interrupts (progress.c) --------- */
 
 /* One long run of a verb.  br_cli_run_begin catches SIGINT and SIGTERM

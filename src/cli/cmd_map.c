@@ -121,16 +121,9 @@ static int is_stdout(const char *path)
 static int write_all(const outputs *o, const paths *p, int quiet)
 {
     static const char *const verdict[] = {"design point:", NULL};
-    int status = p->csv ? br_cli_save(o->csv, p->csv) : BR_EXIT_OK;
-    if (status == BR_EXIT_OK && p->svg)
-        status = br_cli_save(o->svg, p->svg);
-    if (status == BR_EXIT_OK && p->plot)
-        status = br_cli_save(o->svg, p->plot);
-    if (status == BR_EXIT_OK && p->report)
-        status = br_cli_save(o->html, p->report);
-    if (status == BR_EXIT_OK && !is_stdout(p->csv) && !is_stdout(p->svg) && !is_stdout(p->plot) &&
-        !is_stdout(p->report))
-        status = quiet ? br_cli_emit_verdict(o->text, verdict, 0) : br_cli_emit(o->text);
+    const br_cli_file files[] = {
+        {o->csv, p->csv}, {o->svg, p->svg}, {o->svg, p->plot}, {o->html, p->report}};
+    int status = br_cli_write(files, 4, o->text, quiet, verdict, 0);
     if (status == BR_EXIT_OK && !o->m->design.holds)
         status = BR_EXIT_FAIL;
     return status;

@@ -101,12 +101,8 @@ static int compute(const char *path, const args *a, const br_pick_opts *po, outp
 static int write_all(const args *a, const outputs *o)
 {
     static const char *const verdict[] = {"verdict:", NULL};
-    if (a->xml) {
-        int status = br_cli_save(o->xml, a->xml);
-        if (status != BR_EXIT_OK || strcmp(a->xml, "-") == 0)
-            return status;
-    }
-    return a->quiet ? br_cli_emit_verdict(o->text, verdict, 0) : br_cli_emit(o->text);
+    const br_cli_file files[] = {{o->xml, a->xml}};
+    return br_cli_write(files, 1, o->text, a->quiet, verdict, 0);
 }
 
 int cmd_pick(int argc, char **argv)

@@ -96,14 +96,8 @@ static int is_stdout(const char *path)
 static int write_all(const outputs *o, const paths *p, int quiet)
 {
     static const char *const verdict[] = {"design point:", NULL};
-    int status = p->xml ? br_cli_save(o->xml, p->xml) : BR_EXIT_OK;
-    if (status == BR_EXIT_OK && p->report)
-        status = br_cli_save(o->html, p->report);
-    if (status == BR_EXIT_OK && p->plot)
-        status = br_cli_save(o->svg, p->plot);
-    if (status == BR_EXIT_OK && !is_stdout(p->xml) && !is_stdout(p->report) && !is_stdout(p->plot))
-        status = quiet ? br_cli_emit_verdict(o->text, verdict, 0) : br_cli_emit(o->text);
-    return status;
+    const br_cli_file files[] = {{o->xml, p->xml}, {o->html, p->report}, {o->svg, p->plot}};
+    return br_cli_write(files, 3, o->text, quiet, verdict, 0);
 }
 
 static int run(const char *path, const paths *p, br_window_opts *wo, int quiet)

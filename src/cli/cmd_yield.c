@@ -121,19 +121,9 @@ static int compute(const char *path, const args *a, const br_yield_opts *yo, dou
 static int write_all(const args *a, const outputs *o)
 {
     static const char *const verdict[] = {"verdict:", NULL};
-    int status = BR_EXIT_OK;
-    if (a->xml)
-        status = br_cli_save(o->xml, a->xml);
-    if (status == BR_EXIT_OK && a->csv)
-        status = br_cli_save(o->csv, a->csv);
-    if (status == BR_EXIT_OK && a->report)
-        status = br_cli_save(o->html, a->report);
-    if (status == BR_EXIT_OK && a->plot)
-        status = br_cli_save(o->svg, a->plot);
-    if (status == BR_EXIT_OK && !is_stdout(a->xml) && !is_stdout(a->csv) && !is_stdout(a->report) &&
-        !is_stdout(a->plot))
-        status = a->quiet ? br_cli_emit_verdict(o->text, verdict, 1) : br_cli_emit(o->text);
-    return status;
+    const br_cli_file files[] = {
+        {o->xml, a->xml}, {o->csv, a->csv}, {o->html, a->report}, {o->svg, a->plot}};
+    return br_cli_write(files, 4, o->text, a->quiet, verdict, 1);
 }
 
 int cmd_yield(int argc, char **argv)

@@ -100,3 +100,20 @@ int br_cli_finish(int status)
         return stdout_failed(errno);
     return bad ? BR_EXIT_INPUT : status;
 }
+
+int br_cli_write(const br_cli_file *files, int nfiles, const br_text *report, int quiet,
+                 const char *const *prefixes, int join)
+{
+    int to_stdout = 0;
+    for (int i = 0; i < nfiles; i++) {
+        if (!files[i].path)
+            continue;
+        int status = br_cli_save(files[i].text, files[i].path);
+        if (status != BR_EXIT_OK)
+            return status;
+        to_stdout |= strcmp(files[i].path, "-") == 0;
+    }
+    if (to_stdout)
+        return BR_EXIT_OK;
+    return quiet ? br_cli_emit_verdict(report, prefixes, join) : br_cli_emit(report);
+}
