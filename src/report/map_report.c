@@ -398,6 +398,8 @@ static void design_mark(br_svg *s, const br_map *m, const frame *f)
     br_svg_circle(s, x, y, 6, "white", "black", 2);
     br_svg_line(s, x - 3, y, x + 3, y, "black", 1.5);
     br_svg_line(s, x, y - 3, x, y + 3, "black", 1.5);
+    /* a white tag keeps the label readable on the darkest colours */
+    br_svg_rect(s, x + 7, y - 21, 46, 17, "white", "black", 0.75);
     br_svg_text(s, x + 10, y - 8, 12, "start", 0, "design");
 }
 

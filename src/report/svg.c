@@ -170,16 +170,19 @@ void br_svg_raw(br_svg *s, const char *markup)
     put(s, br_text_put(s->out, markup));
 }
 
-/* Colour stops of the diverging scale, chosen so that the two sides
- * differ in hue right at zero (where a design stops holding). */
+/* Colour stops of the diverging scale: the red-blue scheme of ColorBrewer
+ * (C. A. Brewer, colorbrewer2.org, "RdBu", listed there as safe for
+ * colour-blind readers; stop values from memory).  The two sides differ in
+ * hue right at zero, where a design stops holding; red-green scales are
+ * avoided because the commonest colour blindness merges them. */
 typedef struct stop {
     double t;
     int r, g, b;
 } stop;
 
 static const stop STOPS[] = {
-    {-1.0, 150, 10, 40},   {-0.5, 230, 100, 60}, {-1e-9, 250, 215, 150},
-    {1e-9, 220, 236, 160}, {0.5, 110, 185, 105}, {1.0, 10, 100, 60},
+    {-1.0, 103, 0, 31},    {-0.5, 214, 96, 77}, {-1e-9, 253, 219, 199},
+    {1e-9, 209, 229, 240}, {0.5, 67, 147, 195}, {1.0, 5, 48, 97},
 };
 
 const char *br_svg_diverging(double t, char *buf, size_t cap)

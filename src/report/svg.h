@@ -53,9 +53,10 @@ void br_svg_raw(br_svg *s, const char *markup);
  * BR_ENOMEM. */
 int br_xml_escape_put(br_text *out, const char *text);
 
-/* An RGB colour "#rrggbb" for t in [-1, 1] on a diverging scale: dark red
- * at -1 through pale orange just below 0, pale green just above 0, to
- * dark green at 1 (values outside are clamped).  Returns buf. */
+/* An RGB colour "#rrggbb" for t in [-1, 1] on a colour-blind-safe
+ * diverging scale: dark red at -1 through pale red just below 0, pale blue
+ * just above 0, to dark blue at 1 (values outside are clamped).  Returns
+ * buf. */
 const char *br_svg_diverging(double t, char *buf, size_t cap);
 
 #endif
