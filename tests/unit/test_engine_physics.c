@@ -394,6 +394,16 @@ static void test_chatter_held(void)
     /* the crossing the integrator stops at, then on, off and held off:
      * no pile-up at one instant (without the hold: 9 here, 4n in general) */
     CU_ASSERT_TRUE(ch.most <= 4);
+    /* its periodic state has the driver dropping out every period: plain
+     * simulation finds it (or gives up after 20 periods in a row with a
+     * driver toggling), and it does not hold */
+    br_steady_opts o;
+    br_steady_opts_default(&o);
+    o.max_iter = 0;
+    br_steady hic;
+    CU_ASSERT_EQUAL(br_steady_solve(c, BR_DIRI_NONE, &o, &hic, &err), BR_OK);
+    CU_ASSERT_FALSE(hic.holds);
+    CU_ASSERT_TRUE(hic.periods < 40);
     br_sim_free(s);
     br_chain_free(c);
     br_design_free(d);
