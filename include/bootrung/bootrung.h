@@ -34,11 +34,11 @@ typedef enum br_status {
 
 /* What failed, where.  file/line/field are empty/0 when not known. */
 typedef struct br_error {
-    int code;        /* a br_status */
-    char file[512];  /* design file path, or "" */
-    int line;        /* 1-based line in file, 0 if unknown */
-    char field[96];  /* element/attribute path, e.g. "capacitor[c1]/esr" */
-    char msg[768];   /* what is wrong and what is expected */
+    int code;       /* a br_status */
+    char file[512]; /* design file path, or "" */
+    int line;       /* 1-based line in file, 0 if unknown */
+    char field[96]; /* element/attribute path, e.g. "capacitor[c1]/esr" */
+    char msg[768];  /* what is wrong and what is expected */
 } br_error;
 
 void br_error_clear(br_error *err);
@@ -54,8 +54,7 @@ void br_text_free(br_text *t);
 const char *br_text_data(const br_text *t); /* NUL-terminated */
 size_t br_text_len(const br_text *t);
 /* Appends; returns BR_OK or BR_ENOMEM (the buffer then stays as it was). */
-int br_text_printf(br_text *t, const char *fmt, ...)
-    __attribute__((format(printf, 2, 3)));
+int br_text_printf(br_text *t, const char *fmt, ...) __attribute__((format(printf, 2, 3)));
 int br_text_put(br_text *t, const char *s);
 void br_text_reset(br_text *t);
 
@@ -67,8 +66,8 @@ typedef struct br_design br_design;
  * On failure *out is NULL and err says FILE:LINE: field: what is wrong. */
 int br_design_load(const char *path, br_design **out, br_error *err);
 /* Same, from memory; name is used in messages. */
-int br_design_load_memory(const char *buf, size_t len, const char *name,
-                          br_design **out, br_error *err);
+int br_design_load_memory(const char *buf, size_t len, const char *name, br_design **out,
+                          br_error *err);
 void br_design_free(br_design *d);
 /* The RELAX NG schema the loader enforces (NUL-terminated). */
 const char *br_design_schema(void);

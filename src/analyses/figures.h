@@ -8,83 +8,83 @@
 #include "analyses/steady.h"
 
 typedef struct br_rail_fig {
-    double vmin, vmax, vavg; /* rail (capacitor + ESR), V */
-    double ripple;           /* vmax - vmin, V */
+    double vmin, vmax, vavg;   /* rail (capacitor + ESR), V */
+    double ripple;             /* vmax - vmin, V */
     double vdrv_min, vdrv_max; /* driver supply after the regulator, V */
-    double m_uvlo;           /* vdrv_min - UVLO falling, V */
-    double m_restart;        /* vdrv_min - UVLO rising, V (< 0: runs on hysteresis only) */
-    double m_drive;          /* vdrv_min - minimum useful drive, V */
-    double m_gate;           /* gate absolute maximum - vdrv_max, V */
-    double c_eff;            /* capacitance at the mean bias, F */
-    double vcap_peak;        /* capacitor voltage peak, V */
-    double vcap_rating;      /* V (0: not given) */
-    double icap_rms;         /* capacitor RMS current, A */
-    double p_load;           /* power drawn from the rail by its loads, W */
+    double m_uvlo;             /* vdrv_min - UVLO falling, V */
+    double m_restart;          /* vdrv_min - UVLO rising, V (< 0: runs on hysteresis only) */
+    double m_drive;            /* vdrv_min - minimum useful drive, V */
+    double m_gate;             /* gate absolute maximum - vdrv_max, V */
+    double c_eff;              /* capacitance at the mean bias, F */
+    double vcap_peak;          /* capacitor voltage peak, V */
+    double vcap_rating;        /* V (0: not given) */
+    double icap_rms;           /* capacitor RMS current, A */
+    double p_load;             /* power drawn from the rail by its loads, W */
 } br_rail_fig;
 
 typedef struct br_link_fig {
-    double vrev_sim;         /* simulated peak reverse voltage, V */
-    double vrev_stress;      /* with the design's edge overshoot, V */
-    double vrrm;             /* rating, V (0: not given) */
-    double share;            /* vrev_stress / vrrm (0 when unrated) */
+    double vrev_sim;          /* simulated peak reverse voltage, V */
+    double vrev_stress;       /* with the design's edge overshoot, V */
+    double vrrm;              /* rating, V (0: not given) */
+    double share;             /* vrev_stress / vrrm (0 when unrated) */
     double iavg, irms, ipeak; /* forward current figures, A */
-    double qrr;              /* recovery charge per period, C */
-    double irrm;             /* peak recovery current, A */
-    double p_cond, p_rr;     /* conduction and recovery power, W */
+    double qrr;               /* recovery charge per period, C */
+    double irrm;              /* peak recovery current, A */
+    double p_cond, p_rr;      /* conduction and recovery power, W */
 } br_link_fig;
 
 typedef struct br_steady_figs {
-    int dir;                 /* br_dir_index */
-    const br_steady *ss;     /* the steady state they come from */
+    int dir;             /* br_dir_index */
+    const br_steady *ss; /* the steady state they come from */
     int n;
     br_rail_fig rail[BR_MAX_SWITCHES];
     br_link_fig link[BR_MAX_SWITCHES]; /* [k], k >= 1 */
-    double supply_iavg;      /* A */
-    double supply_p;         /* W */
+    double supply_iavg;                /* A */
+    double supply_p;                   /* W */
 } br_steady_figs;
 
 void br_steady_figures(const br_chain *c, const br_steady *ss, br_steady_figs *out);
 
 /* One row of the verdict table. */
 typedef enum br_crit {
-    BR_CRIT_STARTUP = 0,     /* every driver starts within the allowed time */
-    BR_CRIT_INRUSH,          /* link inrush peak within the diode's surge rating */
-    BR_CRIT_STEADY,          /* a periodic steady state exists and holds */
-    BR_CRIT_RESTART,         /* every rail stays above UVLO rising (restarts after a dropout) */
-    BR_CRIT_UVLO,            /* every driver stays above UVLO falling */
-    BR_CRIT_DRIVE,           /* every drive voltage above the minimum useful drive */
-    BR_CRIT_GATE,            /* no gate above its absolute maximum */
-    BR_CRIT_DIODE_VR,        /* reverse voltage within the derated diode rating */
-    BR_CRIT_CAP_V,           /* capacitor peak within its rating */
+    BR_CRIT_STARTUP = 0, /* every driver starts within the allowed time */
+    BR_CRIT_INRUSH,      /* link inrush peak within the diode's surge rating */
+    BR_CRIT_STEADY,      /* a periodic steady state exists and holds */
+    BR_CRIT_RESTART,     /* every rail stays above UVLO rising (restarts after a dropout) */
+    BR_CRIT_UVLO,        /* every driver stays above UVLO falling */
+    BR_CRIT_DRIVE,       /* every drive voltage above the minimum useful drive */
+    BR_CRIT_GATE,        /* no gate above its absolute maximum */
+    BR_CRIT_DIODE_VR,    /* reverse voltage within the derated diode rating */
+    BR_CRIT_CAP_V,       /* capacitor peak within its rating */
     BR_CRIT_COUNT
 } br_crit;
 
 typedef struct br_verdict_row {
-    int crit;                /* br_crit */
-    int applies;             /* 0: not checked (say why in note) */
+    int crit;    /* br_crit */
+    int applies; /* 0: not checked (say why in note) */
     int pass;
-    int undetermined;        /* applies, but the figures it needs are not
-                                trustworthy (a solver did not converge, a
-                                value is not finite): neither pass nor fail,
-                                and pass is 0; note says why */
+    int undetermined;             /* applies, but the figures it needs are not
+                                     trustworthy (a solver did not converge, a
+                                     value is not finite): neither pass nor fail,
+                                     and pass is 0; note says why */
     double figure, limit, margin; /* in the criterion's unit */
-    const char *unit;        /* "s", "V", "A", "%" */
-    int stage;               /* binding rail/link, -1 when none */
-    int dir;                 /* br_dir_index of the binding case */
+    const char *unit;             /* "s", "V", "A", "%" */
+    int stage;                    /* binding rail/link, -1 when none */
+    int dir;                      /* br_dir_index of the binding case */
     char note[160];
 } br_verdict_row;
 
 typedef struct br_verdict {
-    int all_pass;            /* every row that applies passes */
-    int nfail;               /* rows that fail */
-    int nundetermined;       /* rows that are undetermined */
+    int all_pass;      /* every row that applies passes */
+    int nfail;         /* rows that fail */
+    int nundetermined; /* rows that are undetermined */
     br_verdict_row row[BR_CRIT_COUNT];
 } br_verdict;
 
 /* Combine a start-up and the steady states of each analysed direction
  * (ndir of them) into the verdict table. */
-void br_verdict_make(const br_chain *c, const br_startup *su, const br_steady_figs *figs,
-                     int ndir, br_verdict *out);
+void br_verdict_make(const br_chain *c, const br_startup *su, const br_steady_figs *figs, int ndir,
+                     br_verdict *out);
 
 /* Short names of criteria, for tables and XML. */
 const char *br_crit_name(int crit);

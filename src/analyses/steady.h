@@ -16,27 +16,27 @@ typedef enum br_steady_method {
 } br_steady_method;
 
 typedef struct br_steady {
-    int dir;              /* br_dir_index analysed */
-    int method;           /* br_steady_method */
-    int converged;        /* 1 when the residual met the tolerance */
-    int holds;            /* 1 when no driver dropped out over the period */
-    int iterations;       /* Newton/Broyden iterations */
-    long periods;         /* periods simulated in all */
-    double residual;      /* max |P(x) - x| over the rails, V */
-    int resid_rail;       /* when not converged: the rail that still moved
-                             most in the last plain period */
-    double drift;         /* max rail change over the cross-check periods, V */
-    double phase;         /* where in the period x is taken, s */
+    int dir;                       /* br_dir_index analysed */
+    int method;                    /* br_steady_method */
+    int converged;                 /* 1 when the residual met the tolerance */
+    int holds;                     /* 1 when no driver dropped out over the period */
+    int iterations;                /* Newton/Broyden iterations */
+    long periods;                  /* periods simulated in all */
+    double residual;               /* max |P(x) - x| over the rails, V */
+    int resid_rail;                /* when not converged: the rail that still moved
+                                      most in the last plain period */
+    double drift;                  /* max rail change over the cross-check periods, V */
+    double phase;                  /* where in the period x is taken, s */
     double x[2 * BR_MAX_SWITCHES]; /* [k] rail k capacitor, [n + k] stored charge */
-    br_stats stats;       /* over one period from x */
+    br_stats stats;                /* over one period from x */
 } br_steady;
 
 typedef struct br_steady_opts {
-    double tol;           /* residual target, V (default 1e-5) */
-    int max_iter;         /* Newton iterations (default 12) */
-    long max_plain;       /* periods of the plain fallback (default 400) */
-    int check_periods;    /* cross-check periods after the reported one (default 1) */
-    const double *guess;  /* initial x, or NULL for a cold-start estimate */
+    double tol;          /* residual target, V (default 1e-5) */
+    int max_iter;        /* Newton iterations (default 12) */
+    long max_plain;      /* periods of the plain fallback (default 400) */
+    int check_periods;   /* cross-check periods after the reported one (default 1) */
+    const double *guess; /* initial x, or NULL for a cold-start estimate */
     /* Warm start of the Newton matrix between neighbouring operating
      * points (scans, maps): a caller-owned buffer of
      * (2 BR_MAX_SWITCHES)^2 doubles, or NULL.  When *jac_valid is set the

@@ -12,8 +12,8 @@ static void copy_str(char *dst, size_t cap, const char *src)
     snprintf(dst, cap, "%s", src);
 }
 
-int br_error_set(br_error *err, int code, const char *file, int line,
-                 const char *field, const char *fmt, ...)
+int br_error_set(br_error *err, int code, const char *file, int line, const char *field,
+                 const char *fmt, ...)
 {
     if (!err)
         return code;
@@ -57,13 +57,21 @@ const char *br_error_format(const br_error *err, char *buf, size_t cap)
 const char *br_status_name(int code)
 {
     switch (code) {
-    case BR_OK: return "ok";
-    case BR_EINPUT: return "bad input";
-    case BR_ENOMEM: return "out of memory";
-    case BR_EIO: return "i/o error";
-    case BR_ENUMERIC: return "numerical failure";
-    case BR_EUSAGE: return "usage error";
-    case BR_ECANCEL: return "cancelled";
-    default: return "unknown error";
+    case BR_OK:
+        return "ok";
+    case BR_EINPUT:
+        return "bad input";
+    case BR_ENOMEM:
+        return "out of memory";
+    case BR_EIO:
+        return "i/o error";
+    case BR_ENUMERIC:
+        return "numerical failure";
+    case BR_EUSAGE:
+        return "usage error";
+    case BR_ECANCEL:
+        return "cancelled";
+    default:
+        return "unknown error";
     }
 }

@@ -35,8 +35,14 @@ void br_text_free(br_text *t)
     free(t);
 }
 
-const char *br_text_data(const br_text *t) { return t->buf; }
-size_t br_text_len(const br_text *t) { return t->len; }
+const char *br_text_data(const br_text *t)
+{
+    return t->buf;
+}
+size_t br_text_len(const br_text *t)
+{
+    return t->len;
+}
 
 void br_text_reset(br_text *t)
 {

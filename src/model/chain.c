@@ -44,7 +44,10 @@ static void resolve_aux(const br_design *d, int idx, br_aux *o)
     o->rz = p->rz.nom;
 }
 
-static int part_index_ok(int idx, int count) { return idx >= 0 && idx < count; }
+static int part_index_ok(int idx, int count)
+{
+    return idx >= 0 && idx < count;
+}
 
 static int resolve_parts(const br_design *d, int k, double T, br_stage *st, br_error *err)
 {
@@ -143,8 +146,8 @@ int br_chain_build_nominal(const br_design *d, br_chain *c, br_error *err)
     copy_operating_point(d, c);
     c->n = br_design_nswitch(d);
     if (c->n < 2 || c->n > BR_MAX_SWITCHES)
-        return br_error_set(err, BR_EINPUT, d->path, 0, "topology",
-                            "%d switches; expected 2 to %d", c->n, BR_MAX_SWITCHES);
+        return br_error_set(err, BR_EINPUT, d->path, 0, "topology", "%d switches; expected 2 to %d",
+                            c->n, BR_MAX_SWITCHES);
     if (!(c->fsw > 0) || !(c->duty > 0 && c->duty < 1))
         return br_error_set(err, BR_EINPUT, d->path, d->fsw.line, "operating-point",
                             "fsw must be > 0 and duty inside (0, 1)");
@@ -175,4 +178,7 @@ int br_chain_build(const br_design *d, br_chain **out, br_error *err)
     return BR_OK;
 }
 
-void br_chain_free(br_chain *c) { free(c); }
+void br_chain_free(br_chain *c)
+{
+    free(c);
+}

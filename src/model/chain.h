@@ -30,11 +30,11 @@ typedef struct br_diode {
 
 typedef struct br_cap {
     const char *id;
-    double c;       /* capacitance at zero bias after tolerance, temperature
-                       and aging factors, F */
-    double esr;     /* ohm */
-    double vrated;  /* V */
-    int nbias;      /* DC-bias table (from the part) */
+    double c;      /* capacitance at zero bias after tolerance, temperature
+                      and aging factors, F */
+    double esr;    /* ohm */
+    double vrated; /* V */
+    int nbias;     /* DC-bias table (from the part) */
     const double *bias_v, *bias_f;
 } br_cap;
 
@@ -47,16 +47,16 @@ typedef struct br_driver {
 
 typedef struct br_sw {
     const char *id;
-    double rds_on;   /* ohm */
-    double qg, qg_v; /* gate charge qg at drive voltage qg_v: C, V */
-    double tg;       /* gate-charge pulse duration, s */
-    double vsd;      /* reverse-conduction drop, V */
+    double rds_on;           /* ohm */
+    double qg, qg_v;         /* gate charge qg at drive voltage qg_v: C, V */
+    double tg;               /* gate-charge pulse duration, s */
+    double vsd;              /* reverse-conduction drop, V */
     double vgs_rec, vgs_max; /* V */
 } br_sw;
 
 typedef struct br_aux {
-    const char *id;  /* NULL when the rail has none */
-    int kind;        /* br_rail_aux */
+    const char *id; /* NULL when the rail has none */
+    int kind;       /* br_rail_aux */
     double vout, dropout, iq, rz;
 } br_aux;
 
@@ -68,16 +68,16 @@ typedef struct br_stage {
     br_driver drv;
     br_sw sw;
     br_aux aux;
-    double vblock;        /* voltage switch k blocks when off, with the
-                             design's flying-capacitor imbalance, V */
-    int nwin;             /* commanded on-intervals of switch k */
-    double win[BR_MAX_WINDOWS][2]; /* [start, end) in s within [0, T);
-                                      end < start means it wraps;
-                                      [0, T] is on all period */
-    int nrev[2];          /* per direction (0 step-down, 1 step-up): */
+    double vblock;                    /* voltage switch k blocks when off, with the
+                                         design's flying-capacitor imbalance, V */
+    int nwin;                         /* commanded on-intervals of switch k */
+    double win[BR_MAX_WINDOWS][2];    /* [start, end) in s within [0, T);
+                                         end < start means it wraps;
+                                         [0, T] is on all period */
+    int nrev[2];                      /* per direction (0 step-down, 1 step-up): */
     double rev[2][BR_MAX_WINDOWS][2]; /* intervals of reverse conduction */
-    int is_top;           /* FCML: 1 for an A (top) switch */
-    int pair;             /* FCML: pair number 1..P, 0 for a string */
+    int is_top;                       /* FCML: 1 for an A (top) switch */
+    int pair;                         /* FCML: pair number 1..P, 0 for a string */
 } br_stage;
 
 struct br_chain {
@@ -85,11 +85,11 @@ struct br_chain {
     int n;                   /* stages = switches */
     br_stage st[BR_MAX_SWITCHES];
     double T, fsw, duty, deadtime, tedge; /* s, Hz, -, s, s */
-    double vin, tamb;        /* V, K */
-    double overshoot;        /* fraction of vblock */
-    double vsupply, rsupply, tramp; /* V, ohm, s */
-    double csupply;          /* rail-0 bypass capacitance, F (0: none) */
-    int direction;           /* br_direction */
+    double vin, tamb;                     /* V, K */
+    double overshoot;                     /* fraction of vblock */
+    double vsupply, rsupply, tramp;       /* V, ohm, s */
+    double csupply;                       /* rail-0 bypass capacitance, F (0: none) */
+    int direction;                        /* br_direction */
     int nprecharge;
     br_precharge precharge[BR_MAX_PRECHARGE];
     double min_drive, derating, startup_max;

@@ -45,7 +45,10 @@ br_design *br_design_create(void)
     return d;
 }
 
-void br_design_free(br_design *d) { free(d); }
+void br_design_free(br_design *d)
+{
+    free(d);
+}
 
 const br_stage_spec *br_design_stage(const br_design *d, int k)
 {

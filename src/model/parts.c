@@ -5,10 +5,13 @@
 
 #include <math.h>
 
-#define BOLTZMANN 1.380649e-23        /* J/K, CODATA 2018 (exact) */
-#define ELEM_CHARGE 1.602176634e-19   /* C, CODATA 2018 (exact) */
+#define BOLTZMANN 1.380649e-23      /* J/K, CODATA 2018 (exact) */
+#define ELEM_CHARGE 1.602176634e-19 /* C, CODATA 2018 (exact) */
 
-double br_thermal_voltage(double T) { return BOLTZMANN * T / ELEM_CHARGE; }
+double br_thermal_voltage(double T)
+{
+    return BOLTZMANN * T / ELEM_CHARGE;
+}
 
 /* Is(T) = Is(Tnom) (T/Tnom)^(xti/n) exp(Eg/(n Vt(T)) (T/Tnom - 1)): the usual
  * junction-diode temperature law (Sze, Physics of Semiconductor Devices). */

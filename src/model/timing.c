@@ -58,8 +58,7 @@ void br_timing_build(const br_chain *c, int dir, br_timing *tm)
         const br_stage *st = &c->st[s];
         add_windows(tm, s, st->nwin, st->win, BR_EV_ON, BR_EV_OFF, &tm->on0);
         if (dir >= 0)
-            add_windows(tm, s, st->nrev[dir], st->rev[dir], BR_EV_REV_ON, BR_EV_REV_OFF,
-                        &tm->rev0);
+            add_windows(tm, s, st->nrev[dir], st->rev[dir], BR_EV_REV_ON, BR_EV_REV_OFF, &tm->rev0);
     }
     qsort(tm->ev, (size_t)tm->nev, sizeof tm->ev[0], cmp_event);
 }
@@ -70,10 +69,18 @@ void br_timing_state_at(const br_timing *tm, double t, br_mask *on, br_mask *rev
     for (int i = 0; i < tm->nev && tm->ev[i].t <= t; i++) {
         br_mask bit = 1ULL << tm->ev[i].sw;
         switch (tm->ev[i].kind) {
-        case BR_EV_ON: m |= bit; break;
-        case BR_EV_OFF: m &= ~bit; break;
-        case BR_EV_REV_ON: r |= bit; break;
-        default: r &= ~bit; break;
+        case BR_EV_ON:
+            m |= bit;
+            break;
+        case BR_EV_OFF:
+            m &= ~bit;
+            break;
+        case BR_EV_REV_ON:
+            r |= bit;
+            break;
+        default:
+            r &= ~bit;
+            break;
         }
     }
     *on = m;

@@ -18,9 +18,9 @@ typedef enum br_event_kind {
 } br_event_kind;
 
 typedef struct br_event {
-    double t;  /* s, in [0, T) */
-    int sw;    /* string position */
-    int kind;  /* br_event_kind */
+    double t; /* s, in [0, T) */
+    int sw;   /* string position */
+    int kind; /* br_event_kind */
 } br_event;
 
 #define BR_MAX_EVENTS (4 * BR_MAX_SWITCHES * BR_MAX_WINDOWS)
@@ -28,12 +28,12 @@ typedef struct br_event {
 typedef enum br_dir_index { BR_DIRI_NONE = -1, BR_DIRI_DOWN = 0, BR_DIRI_UP = 1 } br_dir_index;
 
 typedef struct br_timing {
-    double T;      /* period, s */
-    int n;         /* switches */
-    int nev;       /* events in the period */
+    double T;                   /* period, s */
+    int n;                      /* switches */
+    int nev;                    /* events in the period */
     br_event ev[BR_MAX_EVENTS]; /* sorted by t; offs before ons at a tie */
-    br_mask on0;   /* commanded-on switches just after t = 0- (period start) */
-    br_mask rev0;  /* reverse-conducting switches at the period start */
+    br_mask on0;                /* commanded-on switches just after t = 0- (period start) */
+    br_mask rev0;               /* reverse-conducting switches at the period start */
 } br_timing;
 
 /* The events of one period for direction dir (a br_dir_index). */

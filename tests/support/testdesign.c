@@ -88,11 +88,10 @@ static double num_in(const char *json, const char *section, const char *key)
 br_design *br_test_reference_design(const char *json)
 {
     double J = 0;
-    br_design *d = br_test_fcml((int)br_json_number(json, NULL, "levels", NULL),
-                                br_json_number(json, NULL, "vin", NULL),
-                                br_json_number(json, NULL, "fsw", NULL),
-                                br_json_number(json, NULL, "duty", NULL),
-                                br_json_number(json, NULL, "deadtime", NULL));
+    br_design *d = br_test_fcml(
+        (int)br_json_number(json, NULL, "levels", NULL), br_json_number(json, NULL, "vin", NULL),
+        br_json_number(json, NULL, "fsw", NULL), br_json_number(json, NULL, "duty", NULL),
+        br_json_number(json, NULL, "deadtime", NULL));
     if (!d)
         return NULL;
     d->tedge = br_qty_fixed(br_json_number(json, NULL, "tedge", NULL));

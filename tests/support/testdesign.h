@@ -9,8 +9,6 @@
  * on the defaults; values are plain and documented in testdesign.c. */
 br_design *br_test_fcml(int levels, double vin, double fsw, double duty, double deadtime);
 
-
-
 /* ---- reference cases: the json files in ../shared/reference ---- */
 
 /* Value of the first "key": number after position from in json; NAN when

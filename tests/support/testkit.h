@@ -19,19 +19,17 @@ int br_near(double a, double b, double tol);
 /* |a - b| <= rel * |b|, and neither is NaN. */
 int br_rel(double a, double b, double rel);
 
-#define BR_ASSERT_NEAR(a, b, tol)                                              \
-    CU_ASSERT_TRUE_FATAL_OR(br_near((a), (b), (tol)), (a), (b))
-#define BR_ASSERT_REL(a, b, rel)                                               \
-    CU_ASSERT_TRUE_FATAL_OR(br_rel((a), (b), (rel)), (a), (b))
+#define BR_ASSERT_NEAR(a, b, tol) CU_ASSERT_TRUE_FATAL_OR(br_near((a), (b), (tol)), (a), (b))
+#define BR_ASSERT_REL(a, b, rel) CU_ASSERT_TRUE_FATAL_OR(br_rel((a), (b), (rel)), (a), (b))
 
 /* Non-fatal assertion that prints both values when it fails. */
 void br_report_mismatch(const char *file, int line, double a, double b);
-#define CU_ASSERT_TRUE_FATAL_OR(cond, a, b)                                    \
-    do {                                                                       \
-        int ok_ = (cond);                                                      \
-        if (!ok_)                                                              \
-            br_report_mismatch(__FILE__, __LINE__, (a), (b));                  \
-        CU_assertImplementation(ok_, __LINE__, #cond, __FILE__, "", CU_FALSE); \
+#define CU_ASSERT_TRUE_FATAL_OR(cond, a, b)                                                        \
+    do {                                                                                           \
+        int ok_ = (cond);                                                                          \
+        if (!ok_)                                                                                  \
+            br_report_mismatch(__FILE__, __LINE__, (a), (b));                                      \
+        CU_assertImplementation(ok_, __LINE__, #cond, __FILE__, "", CU_FALSE);                     \
     } while (0)
 
 /* Read a whole file (for tests); returns malloc'd, NUL-terminated, or NULL. */

@@ -18,7 +18,6 @@
 #include <sys/wait.h>
 #include <unistd.h>
 
-
 static int count_char(const char *s, char ch)
 {
     int n = 0;

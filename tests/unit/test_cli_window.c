@@ -16,7 +16,6 @@
 #include <sys/wait.h>
 #include <unistd.h>
 
-
 /* A small invented design that holds at its design point: a 3-level leg,
  * one part of each kind, a minimum drive of 9 V. */
 static const char DESIGN[] =

@@ -15,7 +15,6 @@
 #include <sys/wait.h>
 #include <unistd.h>
 
-
 #define DEMO "examples/demo-3level.xml"
 
 /* Exactly one line on stderr, starting with prefix. */
