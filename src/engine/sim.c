@@ -172,6 +172,8 @@ static void clear_state(br_sim *s)
     s->per = 0;
     s->ev_idx = 0;
     s->hlast = 0.0;
+    memset(s->hmem, 0, sizeof s->hmem);
+    s->iv = 0;
     s->toggles = 0;
     s->stats_on = 0;
     s->frozen = 0;
@@ -337,6 +339,7 @@ static void apply_pwm_events(br_sim *s, double t)
         if (++s->ev_idx == s->tm.nev) {
             s->ev_idx = 0;
             s->per++;
+            s->iv = 0;
         }
     }
 }

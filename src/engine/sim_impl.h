@@ -6,6 +6,7 @@
 #include "engine/sim.h"
 
 #define BR_N BR_MAX_SWITCHES
+#define BR_HMEM 512 /* intervals of one period remembered for their steps */
 
 /* Layout of the integrated vector, stage by stage so that only n * NF
  * entries are in use: rail capacitor voltage and diode stored charge
@@ -94,7 +95,11 @@ struct br_sim {
     double rk[6][X_SIZE]; /* stages of the Runge-Kutta step */
     int k1_valid;         /* k1 matches the present state */
     double hlast;         /* last accepted RK step, s (0: none yet) */
-    void *gsl_step;       /* rk8pd stepper of the reference path */
+    /* First step of each interval of the last period, by its place in the
+     * period: the next period starts each interval with it (0: none) */
+    double hmem[BR_HMEM];
+    int iv;         /* intervals begun in the present period */
+    void *gsl_step; /* rk8pd stepper of the reference path */
     /* results */
     int stats_on;
     br_stats st;

@@ -249,7 +249,14 @@ double br_sim_integrate(br_sim *s, double tb, int *status)
 {
     double t = s->t, k1[X_SIZE], y[X_SIZE], e[X_SIZE], kend[X_SIZE];
     int p = s->integ == BR_INTEG_REFERENCE ? 7 : 4;
-    double h = s->hlast > 0 ? s->hlast : (tb - t) / 8;
+    /* an interval starts with the step its twin of the last period began
+     * with: periods repeat, and the step carried from the interval before
+     * (a different stretch of the circuit) is often far off */
+    int slot = s->iv < BR_HMEM ? s->iv : -1, naccepted = 0;
+    s->iv++;
+    double h = slot >= 0 && s->hmem[slot] > 0 ? s->hmem[slot]
+               : s->hlast > 0                 ? s->hlast
+                                              : (tb - t) / 8;
     *status = 0;
     if (tb - t < 1e-15) { /* an interval of rounding size: nothing moves */
         s->t = tb;
@@ -294,6 +301,12 @@ double br_sim_integrate(br_sim *s, double tb, int *status)
         memcpy(s->x, y, sizeof(double) * (size_t)s->nx);
         t = last ? tb : t + h; /* t + (tb - t) need not round to tb */
         s->nsteps++;
+        /* remember what the controller proposes after the first step,
+         * shy of it (0.6) so that the next period's first try rarely fails
+         * (measured on the 12-switch example: 58 steps and 0.2 rejections
+         * a period instead of 68 and 6.6) */
+        if (slot >= 0 && naccepted++ == 0)
+            s->hmem[slot] = fmax(h, 0.6 * next_h(h, err, p));
         br_sim_track_extremes(s, t);
         observe(s, t);
         /* a step cut short by the interval end says nothing about the
