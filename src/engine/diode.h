@@ -39,6 +39,8 @@ typedef struct br_diode_warm {
     double r;    /* resistance of the last call, ohm (0: none yet) */
     double logc; /* log(Is R / (n Vt)) at that resistance */
     double w;    /* Lambert W value of the last call */
+    double y, s; /* y = w - c and s = v/(n Vt) of the last Halley solve */
+    int have_y;  /* y and s are set (at this resistance) */
 } br_diode_warm;
 
 /* br_diode_eval for a hot loop that calls it on one link again and again
