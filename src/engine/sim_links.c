@@ -167,7 +167,8 @@ static void solve_links(br_sim *s, double t, const double *x)
             s->il[k] -= dk;
             /* after an update of relative size e the error is about e^2:
              * 1e-4 leaves the currents good to ~1e-8 */
-            worst = fmax(worst, fabs(dk) / (1e-9 + 1e-2 * fabs(s->il[k])));
+            double rel = fabs(dk) / (1e-9 + 1e-2 * fabs(s->il[k]));
+            worst = rel > worst ? rel : worst; /* fmax is a library call */
         }
         if (worst <= 1.0)
             break;

@@ -194,20 +194,27 @@ static void take_step(br_sim *s, double t, double h, const double *x, const doub
         dp45_step(s, t, h, x, k1, y, e, kend);
 }
 
+/* The larger of a and b, and NaN when b is NaN: a step whose error is not
+ * a number must fail (fmax would drop it); inlined, unlike fmax. */
+static inline double max_nan(double a, double b)
+{
+    return !(b <= a) ? b : a;
+}
+
 static double error_norm(const br_sim *s, const double *x, const double *y, const double *e)
 {
     double worst = 0.0;
     for (int k = br_sim_bypass(s) ? 0 : 1; k < s->n; k++) {
-        double sv = s->atol_v + s->rtol * fmax(fabs(x[XI(k, F_VC)]), fabs(y[XI(k, F_VC)]));
-        worst = fmax(worst, fabs(e[XI(k, F_VC)]) / sv);
+        double sv = s->atol_v + s->rtol * max_nan(fabs(x[XI(k, F_VC)]), fabs(y[XI(k, F_VC)]));
+        worst = max_nan(worst, fabs(e[XI(k, F_VC)]) / sv);
         /* The fast path does not control the stored charges: they only
          * filter the link current, which the rails' control resolves, and
          * a short lifetime would otherwise hold every step below the
          * threshold of the exponential quadrature. */
         if (s->integ != BR_INTEG_REFERENCE)
             continue;
-        double sq = s->atol_q + s->rtol * fmax(fabs(x[XI(k, F_Q)]), fabs(y[XI(k, F_Q)]));
-        worst = fmax(worst, fabs(e[XI(k, F_Q)]) / sq);
+        double sq = s->atol_q + s->rtol * max_nan(fabs(x[XI(k, F_Q)]), fabs(y[XI(k, F_Q)]));
+        worst = max_nan(worst, fabs(e[XI(k, F_Q)]) / sq);
     }
     return worst;
 }
