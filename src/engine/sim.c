@@ -427,7 +427,8 @@ static void build_seg(br_sim *s, double ta, double tb)
         double fa = left_rail(s, k, ta) - s->x[XI(k, F_VC)] - g->d0[k];
         double fb = left_rail(s, k, tb) - s->x[XI(k, F_VC)] - db;
         g->active[k] = fmax(fa, fb) > -VBLOCKED;
-        g->nactive += g->active[k];
+        if (g->active[k])
+            g->act[g->nactive++] = k;
         g->iblk[k] = g->active[k] ? 0.0 : blocked_current(s, k, ta, tb, fa, fb);
         if (st->aux.kind == BR_AUX_ZENER && s->x[XI(k, F_VC)] > st->aux.vout - 0.5)
             g->zener = 1;

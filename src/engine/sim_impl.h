@@ -39,6 +39,7 @@ typedef struct br_seg {
     double igate[BR_N];   /* of which gate pulse, A */
     int active[BR_N];     /* link k solved from the diode equation */
     int nactive;
+    int act[BR_N];                 /* the active links in ascending order (nactive) */
     double iblk[BR_N];             /* constant current of a blocked link k, A */
     double d0[BR_N], dslope[BR_N]; /* voltage across the return switch of link k */
     double rpath[BR_N];            /* rs excluded: link resistor + return switch Rds(on) */

@@ -113,17 +113,20 @@ static double cj_current(const br_sim *s, int k, double u, double f)
 
 /* Newton on r_k(i) = i_k - f_k(u_k(i)) - icj_k over the active links.
  * Newton converges quadratically, so once an update is small the error
- * after it is negligible and needs no further evaluation. */
+ * after it is negligible and needs no further evaluation.  The Jacobian
+ * couples a link only to active neighbours (through the rail between
+ * them), so the tridiagonal solve runs over the active links alone: an
+ * inactive row is the identity with a zero right-hand side. */
 static void solve_links(br_sim *s, double t, const double *x)
 {
     const br_seg *g = &s->seg;
-    int n = s->n;
+    const int n = s->n, na = g->nactive, *act = g->act;
     double a[BR_N], b[BR_N], cc[BR_N], r[BR_N];
-    for (int k = 1; k < n; k++) {
-        if (!g->active[k]) {
+    for (int k = 1; k < n; k++)
+        if (!g->active[k])
             s->il[k] = g->iblk[k];
-            continue;
-        }
+    for (int j = 0; j < na; j++) {
+        int k = act[j];
         /* predictor: move the last solution along its tangent to the
          * present drive voltage, so one Newton update usually suffices */
         double vl = k > 1 || br_sim_bypass(s) ? x[XI(k - 1, F_VC)] : supply_at(g, t);
@@ -131,15 +134,10 @@ static void solve_links(br_sim *s, double t, const double *x)
         s->il[k] += s->gl[k] * (drive - s->ul[k]);
         s->ul[k] = drive;
     }
-    for (int it = 0; it < 50 && g->nactive > 0; it++) {
+    for (int it = 0; it < 50 && na > 0; it++) {
         rail_voltages(s, t, x);
-        for (int k = 1; k < n; k++) {
-            a[k] = cc[k] = 0.0;
-            if (!g->active[k]) {
-                b[k] = 1.0;
-                r[k] = 0.0;
-                continue;
-            }
+        for (int j = 0; j < na; j++) {
+            int k = act[j];
             double dk = g->d0[k] + g->dslope[k] * (t - g->t0);
             double u = s->vr[k - 1] - s->vr[k] - dk, f, gd;
             br_diode_eval_warm(&s->c->st[k].diode, g->rpath[k], u, &s->dw[k], &f, &gd);
@@ -149,20 +147,23 @@ static void solve_links(br_sim *s, double t, const double *x)
             s->gl[k] = gd / (1.0 + gd * (el + eh));
             r[k] = s->il[k] - f - cj_current(s, k, u, f);
             b[k] = 1.0 + gd * (el + eh);
-            if (k > 1 && g->active[k - 1])
-                a[k] = -gd * el;
-            if (k + 1 < n && g->active[k + 1])
-                cc[k] = -gd * eh;
+            a[k] = k > 1 && g->active[k - 1] ? -gd * el : 0.0;
+            cc[k] = k + 1 < n && g->active[k + 1] ? -gd * eh : 0.0;
         }
-        /* Thomas algorithm on the tridiagonal Jacobian */
-        for (int k = 2; k < n; k++) {
+        /* Thomas algorithm on the tridiagonal Jacobian; a[k] != 0 only
+         * when link k-1 is active, and then it is the entry before k */
+        for (int j = 1; j < na; j++) {
+            int k = act[j];
+            if (a[k] == 0.0)
+                continue;
             double m = a[k] / b[k - 1];
             b[k] -= m * cc[k - 1];
             r[k] -= m * r[k - 1];
         }
         double worst = 0.0;
-        for (int k = n - 1; k >= 1; k--) {
-            double dk = (r[k] - (k + 1 < n ? cc[k] * r[k + 1] : 0.0)) / b[k];
+        for (int j = na - 1; j >= 0; j--) {
+            int k = act[j];
+            double dk = (r[k] - (cc[k] != 0.0 ? cc[k] * r[k + 1] : 0.0)) / b[k];
             r[k] = dk;
             s->il[k] -= dk;
             /* after an update of relative size e the error is about e^2:
