@@ -174,6 +174,8 @@ static void clear_state(br_sim *s)
     s->hlast = 0.0;
     memset(s->hmem, 0, sizeof s->hmem);
     s->iv = 0;
+    for (int k = 0; k < BR_N; k++)
+        s->capseg[k] = (br_capseg){.lo = 1.0, .hi = 0.0};
     s->toggles = 0;
     s->stats_on = 0;
     s->frozen = 0;

@@ -6,6 +6,12 @@
 #include "engine/sim.h"
 
 #define BR_N BR_MAX_SWITCHES
+/* A piece of a rail's DC-bias line: C = c0 + slope (v - at) for lo < v <=
+ * hi (lo > hi: none yet). */
+typedef struct br_capseg {
+    double lo, hi, at, c0, slope;
+} br_capseg;
+
 #define BR_HMEM 512 /* intervals of one period remembered for their steps */
 
 /* Layout of the integrated vector, stage by stage so that only n * NF
@@ -99,8 +105,9 @@ struct br_sim {
     /* First step of each interval of the last period, by its place in the
      * period: the next period starts each interval with it (0: none) */
     double hmem[BR_HMEM];
-    int iv;         /* intervals begun in the present period */
-    void *gsl_step; /* rk8pd stepper of the reference path */
+    int iv;                 /* intervals begun in the present period */
+    br_capseg capseg[BR_N]; /* rail k's DC-bias piece last used */
+    void *gsl_step;         /* rk8pd stepper of the reference path */
     /* results */
     int stats_on;
     br_stats st;

@@ -30,6 +30,32 @@ double br_sim_vdrv(const br_sim *s, int k, double vr)
     return vr;
 }
 
+/* Rail k's capacitance at v for the hot loop: the piece of the DC-bias
+ * line (flat beyond its ends, as br_cap_at) is kept from call to call, as
+ * rails move little between evaluations. */
+static double rail_cap(br_sim *s, int k, double v)
+{
+    br_capseg *p = &s->capseg[k];
+    if (v > p->lo && v <= p->hi)
+        return p->c0 + p->slope * (v - p->at);
+    const br_cap *cap = &s->c->st[k].cap;
+    int n = cap->nbias, i = 0;
+    while (i < n && v > cap->bias_v[i])
+        i++;
+    p->lo = i == 0 ? -HUGE_VAL : cap->bias_v[i - 1];
+    p->hi = i == n ? HUGE_VAL : cap->bias_v[i];
+    if (n == 0 || i == 0 || i == n) { /* flat: no table, or beyond an end */
+        p->at = 0.0;
+        p->slope = 0.0;
+        p->c0 = n == 0 ? cap->c : cap->c * cap->bias_f[i == 0 ? 0 : n - 1];
+    } else {
+        p->at = p->lo;
+        p->c0 = cap->c * cap->bias_f[i - 1];
+        p->slope = cap->c * (cap->bias_f[i] - cap->bias_f[i - 1]) / (p->hi - p->lo);
+    }
+    return p->c0 + p->slope * (v - p->at);
+}
+
 int br_sim_bypass(const br_sim *s)
 {
     return s->c->csupply > 0 && s->c->rsupply > 0;
@@ -267,7 +293,7 @@ void br_sim_rhs(br_sim *s, double t, const double *x, double *dx)
         dx[i] = 0.0;
     for (int k = 1; k < n; k++) {
         const br_stage *st = &s->c->st[k];
-        dx[XI(k, F_VC)] = s->ic[k] / br_sim_cap(s, k, x[XI(k, F_VC)]);
+        dx[XI(k, F_VC)] = s->ic[k] / rail_cap(s, k, x[XI(k, F_VC)]);
         if (st->diode.tau > 0) {
             /* charge-control: the conduction current stores charge, which
              * recombines with tau; a blocked link only loses it, and the
