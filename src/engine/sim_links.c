@@ -137,6 +137,23 @@ static double cj_current(const br_sim *s, int k, double u, double f)
     return -br_diode_cj(d, -vj) * s->seg.dslope[k] / (1.0 + r * gj);
 }
 
+/* Link k's current changed by -dk: the capacitor currents and node
+ * voltages of the two rails it joins follow (as rail_voltages would give
+ * them, without recomputing the others). */
+static void shift_link(br_sim *s, int k, double dk)
+{
+    s->ic[k] -= dk;
+    s->vr[k] -= s->esr[k] * dk;
+    if (k > 1) {
+        s->ic[k - 1] += dk;
+        s->vr[k - 1] += s->esr[k - 1] * dk;
+    } else if (br_sim_bypass(s)) {
+        s->ic[0] += dk; /* the supply's current through Rs is fixed by the node */
+    } else {
+        s->vr[0] += s->c->rsupply * dk; /* less drawn through the supply resistance */
+    }
+}
+
 /* Newton on r_k(i) = i_k - f_k(u_k(i)) - icj_k over the active links.
  * Newton converges quadratically, so once an update is small the error
  * after it is negligible and needs no further evaluation.  The Jacobian
@@ -160,8 +177,8 @@ static void solve_links(br_sim *s, double t, const double *x)
         s->il[k] += s->gl[k] * (drive - s->ul[k]);
         s->ul[k] = drive;
     }
+    rail_voltages(s, t, x);
     for (int it = 0; it < 50 && na > 0; it++) {
-        rail_voltages(s, t, x);
         for (int j = 0; j < na; j++) {
             int k = act[j];
             double dk = g->d0[k] + g->dslope[k] * (t - g->t0);
@@ -192,6 +209,7 @@ static void solve_links(br_sim *s, double t, const double *x)
             double dk = (r[k] - (cc[k] != 0.0 ? cc[k] * r[k + 1] : 0.0)) / b[k];
             r[k] = dk;
             s->il[k] -= dk;
+            shift_link(s, k, dk);
             /* after an update of relative size e the error is about e^2:
              * 1e-4 leaves the currents good to ~1e-8 */
             double rel = fabs(dk) / (1e-9 + 1e-2 * fabs(s->il[k]));
@@ -200,7 +218,6 @@ static void solve_links(br_sim *s, double t, const double *x)
         if (worst <= 1.0)
             break;
     }
-    rail_voltages(s, t, x);
 }
 
 /* The variational equation dPhi/dt = A Phi.  A = d(dvc/dt)/dvc follows
