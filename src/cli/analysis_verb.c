@@ -76,11 +76,6 @@ static int compute(const char *path, const char *verb, int parts, const br_stead
     return rc;
 }
 
-static int is_stdout(const char *path)
-{
-    return path && strcmp(path, "-") == 0;
-}
-
 /* Files first: a failure to write them is reported before any result
  * reaches stdout, so a script never mistakes a partial run for a whole.
  * A file sent to stdout ("-") takes the text report's place. */
@@ -114,12 +109,6 @@ static int run(const char *path, const char *verb, int parts, const br_steady_op
         br_cli_run_end(&lr);
     o->res->progress = NULL;
     return status;
-}
-
-/* How many of the files go to standard output. */
-static int stdout_count(const paths *p)
-{
-    return is_stdout(p->xml) + is_stdout(p->csv) + is_stdout(p->report) + is_stdout(p->plot);
 }
 
 /* --solver-limit N: fewer Newton iterations (never more than the default)
@@ -163,8 +152,9 @@ int br_cli_analysis(int argc, char **argv, const char *about, int parts)
     int parsed = br_cli_parse(&doc, argc, argv, pos);
     if (parsed != 0)
         return br_cli_parse_status(parsed);
-    if (stdout_count(&p) > 1)
-        return br_cli_usage_error(argv[0], "only one output file can go to standard output");
+    const char *const out[] = {p.xml, p.csv, p.report, p.plot};
+    if (br_cli_one_stdout(argv[0], out, 4) != BR_EXIT_OK)
+        return BR_EXIT_INPUT;
     br_steady_opts so;
     br_steady_opts_default(&so);
     if (limit && solver_limit(argv[0], limit, &so) != BR_EXIT_OK)

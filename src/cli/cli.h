@@ -108,6 +108,11 @@ int br_cli_fraction(const char *verb, const char *opt, const char *text, double 
  * br_cli_emit does. */
 int br_cli_emit_verdict(const br_text *t, const char *const *prefixes, int join);
 
+/* Of the n output paths (NULL: not asked for), at most one may be "-"
+ * (stdout); else a usage error of verb is printed and BR_EXIT_INPUT
+ * returned. */
+int br_cli_one_stdout(const char *verb, const char *const *paths, int n);
+
 /* One output file of a verb: its text and where it goes (path NULL: not
  * asked for; "-": stdout in place of the report). */
 typedef struct br_cli_file {

@@ -111,11 +111,6 @@ static int compute(const char *path, const br_map_opts *mo, const paths *p, outp
     return rc;
 }
 
-static int is_stdout(const char *path)
-{
-    return path && strcmp(path, "-") == 0;
-}
-
 /* Files first, so that a failure to write them comes before any result on
  * stdout; a file sent to stdout takes the summary's place. */
 static int write_all(const outputs *o, const paths *p, int quiet)
@@ -178,8 +173,9 @@ int cmd_map(int argc, char **argv)
         return br_cli_parse_status(parsed);
     if (!duty || !freq)
         return br_cli_usage_error("map", "--duty and --freq are required");
-    if (is_stdout(p.csv) + is_stdout(p.svg) + is_stdout(p.plot) + is_stdout(p.report) > 1)
-        return br_cli_usage_error("map", "only one output file can go to standard output");
+    const char *const out[] = {p.csv, p.svg, p.plot, p.report};
+    if (br_cli_one_stdout("map", out, 4) != BR_EXIT_OK)
+        return BR_EXIT_INPUT;
     br_map_opts mo = {0};
     if (parse_axis("duty", duty, BR_KIND_FRACTION, &mo.duty_from, &mo.duty_to, &mo.nduty) ||
         parse_axis("freq", freq, BR_KIND_FREQUENCY, &mo.fsw_from, &mo.fsw_to, &mo.nfsw) ||

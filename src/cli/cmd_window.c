@@ -87,11 +87,6 @@ static int compute(const char *path, const br_window_opts *wo, outputs *o, br_er
     return rc;
 }
 
-static int is_stdout(const char *path)
-{
-    return path && strcmp(path, "-") == 0;
-}
-
 /* Files first, the report last (unless a file took stdout). */
 static int write_all(const outputs *o, const paths *p, int quiet)
 {
@@ -157,7 +152,8 @@ int cmd_window(int argc, char **argv)
     if (parse_freq("fmin", fmin, &wo.fmin) != BR_EXIT_OK ||
         parse_freq("fmax", fmax, &wo.fmax) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
-    if (is_stdout(p.xml) + is_stdout(p.report) + is_stdout(p.plot) > 1)
-        return br_cli_usage_error("window", "only one output file can go to standard output");
+    const char *const out[] = {p.xml, p.report, p.plot};
+    if (br_cli_one_stdout("window", out, 3) != BR_EXIT_OK)
+        return BR_EXIT_INPUT;
     return run(pos[0], &p, &wo, quiet);
 }

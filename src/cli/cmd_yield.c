@@ -26,11 +26,6 @@ static const char ABOUT[] =
     "every sample passes (or, with --min-yield, when the lower confidence bound\n"
     "reaches it), 1 otherwise, 2 for bad input.\n";
 
-static int is_stdout(const char *path)
-{
-    return path && strcmp(path, "-") == 0;
-}
-
 typedef struct args {
     const char *xml, *csv, *samples, *seed, *threads, *min_yield, *report, *plot;
     int startup, quiet;
@@ -56,9 +51,8 @@ static int options(const args *a, br_yield_opts *o, double *min_yield)
     }
     if (a->min_yield && br_cli_fraction("yield", "min-yield", a->min_yield, min_yield))
         return BR_EXIT_INPUT;
-    if (is_stdout(a->xml) + is_stdout(a->csv) + is_stdout(a->report) + is_stdout(a->plot) > 1)
-        return br_cli_usage_error("yield", "only one output file can go to standard output");
-    return BR_EXIT_OK;
+    const char *const out[] = {a->xml, a->csv, a->report, a->plot};
+    return br_cli_one_stdout("yield", out, 4);
 }
 
 typedef struct outputs {

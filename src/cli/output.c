@@ -117,3 +117,13 @@ int br_cli_write(const br_cli_file *files, int nfiles, const br_text *report, in
         return BR_EXIT_OK;
     return quiet ? br_cli_emit_verdict(report, prefixes, join) : br_cli_emit(report);
 }
+
+int br_cli_one_stdout(const char *verb, const char *const *paths, int n)
+{
+    int k = 0;
+    for (int i = 0; i < n; i++)
+        k += paths[i] && strcmp(paths[i], "-") == 0;
+    if (k > 1)
+        return br_cli_usage_error(verb, "only one output file can go to standard output");
+    return BR_EXIT_OK;
+}
