@@ -305,3 +305,22 @@ void br_verdict_make(const br_chain *c, const br_startup *su, const br_steady_fi
     steady_all(c, figs, ndir, out);
     finish_rows(out);
 }
+
+br_rail_fig br_rail_fig_worst(const br_steady_figs *f, int ndir, int k)
+{
+    br_rail_fig w = f[0].rail[k];
+    for (int d = 1; d < ndir; d++) { /* fmin and fmax pass over a NaN */
+        const br_rail_fig *r = &f[d].rail[k];
+        w.vmin = fmin(w.vmin, r->vmin);
+        w.vmax = fmax(w.vmax, r->vmax);
+        w.ripple = fmax(w.ripple, r->ripple);
+        w.vdrv_min = fmin(w.vdrv_min, r->vdrv_min);
+        w.vdrv_max = fmax(w.vdrv_max, r->vdrv_max);
+        w.m_uvlo = fmin(w.m_uvlo, r->m_uvlo);
+        w.m_drive = fmin(w.m_drive, r->m_drive);
+        w.m_gate = fmin(w.m_gate, r->m_gate);
+        w.vcap_peak = fmax(w.vcap_peak, r->vcap_peak);
+        w.icap_rms = fmax(w.icap_rms, r->icap_rms);
+    }
+    return w;
+}

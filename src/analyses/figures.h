@@ -45,6 +45,11 @@ typedef struct br_steady_figs {
 
 void br_steady_figures(const br_chain *c, const br_steady *ss, br_steady_figs *out);
 
+/* Rail k's figures at their worst over the ndir directions of f: lowest
+ * minima and margins, highest maxima, ripple and stresses (a margin that
+ * does not apply, NaN, gives way to one that does). */
+br_rail_fig br_rail_fig_worst(const br_steady_figs *f, int ndir, int k);
+
 /* One row of the verdict table. */
 typedef enum br_crit {
     BR_CRIT_STARTUP = 0, /* every driver starts within the allowed time */

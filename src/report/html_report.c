@@ -293,26 +293,6 @@ int br_html_startup_table(br_text *out, const br_chain *c, const br_startup *su)
     return rc | table_end(out) ? BR_ENOMEM : BR_OK;
 }
 
-/* The worst of each rail figure over the directions. */
-static br_rail_fig worst_rail(const br_steady_figs *f, int ndir, int k)
-{
-    br_rail_fig w = f[0].rail[k];
-    for (int d = 1; d < ndir; d++) {
-        const br_rail_fig *r = &f[d].rail[k];
-        w.vmin = fmin(w.vmin, r->vmin);
-        w.vmax = fmax(w.vmax, r->vmax);
-        w.ripple = fmax(w.ripple, r->ripple);
-        w.vdrv_min = fmin(w.vdrv_min, r->vdrv_min);
-        w.vdrv_max = fmax(w.vdrv_max, r->vdrv_max);
-        w.m_uvlo = fmin(w.m_uvlo, r->m_uvlo);
-        w.m_drive = fmin(w.m_drive, r->m_drive);
-        w.m_gate = fmin(w.m_gate, r->m_gate);
-        w.vcap_peak = fmax(w.vcap_peak, r->vcap_peak);
-        w.icap_rms = fmax(w.icap_rms, r->icap_rms);
-    }
-    return w;
-}
-
 int br_html_rail_table(br_text *out, const br_chain *c, const br_steady_figs *f, int ndir)
 {
     static const char *const heads[] = {
@@ -320,7 +300,7 @@ int br_html_rail_table(br_text *out, const br_chain *c, const br_steady_figs *f,
         "margin to UVLO", "to min drive", "to gate max", "result"};
     int rc = head_row(out, heads, 10);
     for (int k = 0; k < c->n; k++) {
-        br_rail_fig r = worst_rail(f, ndir, k);
+        br_rail_fig r = br_rail_fig_worst(f, ndir, k);
         int drive = c->min_drive > 0, gate = c->st[k].sw.vgs_max > 0;
         int pass = r.m_uvlo >= 0 && (!drive || r.m_drive >= 0) && (!gate || r.m_gate >= 0);
         rc |= br_text_put(out, "<tr>");
@@ -377,7 +357,7 @@ int br_html_cap_table(br_text *out, const br_chain *c, const br_steady_figs *f, 
                                         "rating", "RMS current", "result"};
     int rc = head_row(out, heads, 7);
     for (int k = 1; k < c->n; k++) {
-        br_rail_fig r = worst_rail(f, ndir, k);
+        br_rail_fig r = br_rail_fig_worst(f, ndir, k);
         rc |= br_text_put(out, "<tr>");
         rc |= cell(out, "l", c->st[k].name);
         rc |= cell(out, "l", c->st[k].cap.id ? c->st[k].cap.id : "-");

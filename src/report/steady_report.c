@@ -277,26 +277,13 @@ typedef struct worst {
     double ripple, drv_min, drv_max, m_uvlo, m_drive, m_gate, share, iavg;
 } worst;
 
-static double fmin_nan(double a, double b)
-{
-    return isnan(a) ? b : isnan(b) ? a : fmin(a, b);
-}
-
 static worst worst_of(const br_steady_figs *f, int ndir, int k)
 {
-    worst w = {0, HUGE_VAL, -HUGE_VAL, NAN, NAN, NAN, 0, 0};
-    for (int d = 0; d < ndir; d++) {
-        const br_rail_fig *r = &f[d].rail[k];
-        w.ripple = fmax(w.ripple, r->ripple);
-        w.drv_min = fmin(w.drv_min, r->vdrv_min);
-        w.drv_max = fmax(w.drv_max, r->vdrv_max);
-        w.m_uvlo = fmin_nan(w.m_uvlo, r->m_uvlo);
-        w.m_drive = fmin_nan(w.m_drive, r->m_drive);
-        w.m_gate = fmin_nan(w.m_gate, r->m_gate);
-        if (k > 0) {
-            w.share = fmax(w.share, f[d].link[k].share);
-            w.iavg = fmax(w.iavg, f[d].link[k].iavg);
-        }
+    br_rail_fig r = br_rail_fig_worst(f, ndir, k);
+    worst w = {r.ripple, r.vdrv_min, r.vdrv_max, r.m_uvlo, r.m_drive, r.m_gate, 0, 0};
+    for (int d = 0; d < ndir && k > 0; d++) {
+        w.share = fmax(w.share, f[d].link[k].share);
+        w.iavg = fmax(w.iavg, f[d].link[k].iavg);
     }
     return w;
 }
