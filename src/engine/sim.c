@@ -23,6 +23,8 @@ int br_sim_create(const br_chain *c, int dir, int integrator, br_sim **out, br_e
     s->n = c->n;
     s->nx = s->phi0 = c->n * NF;
     br_sim_cache_esr(s);
+    for (int k = 1; k < s->n; k++)
+        s->stored |= c->st[k].diode.tau > 0;
     s->dir = dir;
     s->integ = integrator;
     br_timing_build(c, dir, &s->tm);

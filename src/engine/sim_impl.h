@@ -106,6 +106,7 @@ struct br_sim {
      * period: the next period starts each interval with it (0: none) */
     double hmem[BR_HMEM];
     int iv;                 /* intervals begun in the present period */
+    int stored;             /* some link stores charge (tau > 0) */
     br_capseg capseg[BR_N]; /* rail k's DC-bias piece last used */
     void *gsl_step;         /* rk8pd stepper of the reference path */
     /* results */

@@ -119,7 +119,7 @@ static void dp45_step(br_sim *s, double t, double h, const double *x, const doub
         w[i] = x[i] + h * (A41 * k1[i] + A42 * k2[i] + A43 * k3[i]);
     }
     br_sim_rhs(s, t + C4 * h, w, k4);
-    for (int k = 1; k < s->n; k++)
+    for (int k = 1; s->stored && k < s->n; k++)
         ia[k] = s->il[k];
     for (int j = 0; j < nl; j++) {
         int i = L[j];
@@ -140,7 +140,8 @@ static void dp45_step(br_sim *s, double t, double h, const double *x, const doub
         int i = L[j];
         e[i] = h * (E1 * k1[i] + E3 * k3[i] + E4 * k4[i] + E5 * k5[i] + E6 * k6[i] + E7 * k7[i]);
     }
-    qexp_finish(s, h, x, k1, ia, y, e, k7);
+    if (s->stored) /* only links with stored charge need it */
+        qexp_finish(s, h, x, k1, ia, y, e, k7);
 }
 
 typedef struct gsl_ctx {
