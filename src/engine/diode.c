@@ -339,6 +339,33 @@ void br_diode_eval_warm(const br_diode *d, double r_extra, double v, br_diode_wa
     *g = w / (R * (1.0 + w));
 }
 
+/* With a = n Vt, x = i/Is and L = ln(1 + x) the junction voltage is
+ * vj = a L, and from u = 0 (i = 0):
+ *   integral i du    = a i - Is vj + R i^2 / 2
+ *   integral i^2 du  = a (i^2/2 - Is i + Is^2 L) + R i^3 / 3
+ *   integral i vj du = a^2 Is ((1 + x) L - x - L^2/2)
+ *                      + R a Is^2 (y^2 L/2 - y^2/4 - y L + y - 3/4), y = 1 + x
+ * (elementary integrals of t ln(1+t)/(1+t) and t ln(1+t)).  At small x
+ * the forms cancel, but the terms are then far below anything they are
+ * added to. */
+void br_diode_sweep_to(const br_diode *d, double r_extra, double u, br_diode_sweep *out)
+{
+    *out = (br_diode_sweep){0};
+    double R = d->rs + r_extra;
+    if (!(u > 0.0) || !(R > 0.0))
+        return;
+    double a = d->n * d->vt, is = d->is, i;
+    br_diode_eval(d, r_extra, u, &i, NULL);
+    double x = i / is, L = log1p(x), y = 1.0 + x;
+    double vj = a * L;
+    out->i = i;
+    out->q = a * i - is * vj + 0.5 * R * i * i;
+    out->i2 = a * (0.5 * i * i - is * i + is * is * L) + R * i * i * i / 3.0;
+    double ivj = a * a * is * (y * L - x - 0.5 * L * L) +
+                 R * a * is * is * (0.5 * y * y * L - 0.25 * y * y - y * L + y - 0.75);
+    out->e = ivj + d->rs * out->i2;
+}
+
 double br_diode_current(const br_diode *d, double r_extra, double v)
 {
     double i;

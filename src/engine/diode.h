@@ -50,6 +50,23 @@ typedef struct br_diode_warm {
 void br_diode_eval_warm(const br_diode *d, double r_extra, double v, br_diode_warm *ws, double *i,
                         double *g);
 
+/* Integrals of the diode with series resistance R = rs + r_extra (> 0)
+ * over its drive voltage, from 0 up to u: with the rails still, a drive
+ * swept at the rate sigma (V/s) passes the charge q / sigma, and i2 /
+ * sigma and e / sigma are the integrals of i^2 and of i times the voltage
+ * across the diode's own terminals (junction plus rs) over that time. */
+typedef struct br_diode_sweep {
+    double i;  /* current at u, A */
+    double q;  /* integral of i du, A V */
+    double i2; /* integral of i^2 du, A^2 V */
+    double e;  /* integral of i (vj + rs i) du, A V^2 */
+} br_diode_sweep;
+
+/* Closed forms through du = (n Vt / (Is + i) + R) di; all zero for u <= 0
+ * (the reverse part is the leakage model's).  For the charge passed while
+ * a switch edge sweeps a link through conduction. */
+void br_diode_sweep_to(const br_diode *d, double r_extra, double u, br_diode_sweep *out);
+
 /* Where the R = 0 Shockley law turns into its tangent line, in units of
  * n*Vt (exp(700) ~ 1e304 is still finite). */
 #define BR_DIODE_XLIM 700.0

@@ -9,10 +9,6 @@
 #include <stdlib.h>
 #include <string.h>
 
-/* A link whose forward voltage stays below -VBLOCKED over an interval
- * carries only leakage and junction-capacitance current. */
-#define VBLOCKED 1.0
-
 int br_sim_create(const br_chain *c, int dir, int integrator, br_sim **out, br_error *err)
 {
     *out = NULL;
@@ -430,9 +426,17 @@ static void build_seg(br_sim *s, double ta, double tb)
         g->rpath[k] = st->r_link + c->st[k - 1].sw.rds_on;
         double fa = left_rail(s, k, ta) - s->x[XI(k, F_VC)] - g->d0[k];
         double fb = left_rail(s, k, tb) - s->x[XI(k, F_VC)] - db;
-        g->active[k] = fmax(fa, fb) > -VBLOCKED;
+        g->active[k] = fmax(fa, fb) > -BR_VBLOCKED;
+        g->edge[k] = g->active[k] ? br_sim_edge_kind(s, ta, tb, fa, fb) : BR_EDGE_NONE;
+        g->sigma[k] = fabs(g->dslope[k]);
+        if (g->edge[k] != BR_EDGE_NONE)
+            g->active[k] = 0;
         if (g->active[k])
             g->act[g->nactive++] = k;
+        if (g->edge[k] == BR_EDGE_START) /* conduction pins the junction */
+            fa = br_sim_edge_junction(s, k, fa);
+        else if (g->edge[k] == BR_EDGE_END)
+            fb = br_sim_edge_junction(s, k, fb);
         g->iblk[k] = g->active[k] ? 0.0 : blocked_current(s, k, ta, tb, fa, fb);
         if (st->aux.kind == BR_AUX_ZENER && s->x[XI(k, F_VC)] > st->aux.vout - 0.5)
             g->zener = 1;
@@ -568,7 +572,6 @@ static int closed_form(br_sim *s, double tb, double *te)
         if (k > 0) {
             s->x[XI(k, F_VC)] += rate[k] * dt;
             s->x[XI(k, F_LQ)] += g->iblk[k] * dt;
-            s->x[XI(k, F_LI2)] += g->iblk[k] * g->iblk[k] * dt;
             s->x[XI(k, F_RI2)] += ic[k] * ic[k] * dt;
         }
         double vb = k > 0 ? s->x[XI(k, F_VC)] + s->c->st[k].cap.esr * ic[k]
@@ -633,6 +636,8 @@ int br_sim_run_until(br_sim *s, double t_end, br_error *err)
     while (s->t < t_end) {
         double tb = next_time(s, t_end);
         settle_uvlo(s, tb);
+        if (br_sim_edge_start(s))
+            settle_uvlo(s, tb); /* the rails moved: settle them again */
         recover(s);
         br_sim_track_extremes(s, s->t);
         int due = -1, status = 0;
@@ -653,6 +658,8 @@ int br_sim_run_until(br_sim *s, double t_end, br_error *err)
             if (status > 0)
                 due = br_sim_uvlo_due(s, s->vr);
         }
+        if (s->t >= tb)
+            br_sim_edge_end(s, tb);
         br_sim_track_extremes(s, s->t);
         if (due >= 0)
             toggle(s, due);
@@ -693,7 +700,7 @@ void br_sim_track_extremes(br_sim *s, double t)
         if (k == 0)
             continue;
         br_link_stats *l = &s->st.link[k];
-        l->ipeak = fmax(l->ipeak, s->il[k]);
+        l->ipeak = fmax(l->ipeak, br_sim_forward(s, k));
         double vrev = br_sim_switch_v(s, k - 1, t) - (s->vr[k - 1] - s->vr[k]);
         l->vrev_peak = fmax(l->vrev_peak, vrev);
     }

@@ -33,8 +33,8 @@ typedef struct br_rail_stats {
 } br_rail_stats;
 
 typedef struct br_link_stats {
-    double q;         /* forward charge, integral of i, C */
-    double i2;        /* integral of i^2, A^2 s */
+    double q;         /* charge through the link, integral of i, C */
+    double i2;        /* integral of the forward current squared, A^2 s */
     double ipeak;     /* peak forward current, A */
     double vrev_peak; /* peak reverse voltage (simulated), V */
     double qrr;       /* recovery charge returned to the rail below, C */

@@ -12,6 +12,17 @@ typedef struct br_capseg {
     double lo, hi, at, c0, slope;
 } br_capseg;
 
+/* A link whose forward voltage stays below -BR_VBLOCKED over an interval
+ * carries only leakage and junction-capacitance current. */
+#define BR_VBLOCKED 1.0
+
+/* How a switch edge in an interval meets the link it returns. */
+enum {
+    BR_EDGE_NONE = 0, /* no edge, or the link conducts through it */
+    BR_EDGE_START,    /* the edge cuts the link off at the interval start */
+    BR_EDGE_END       /* the edge lets the link conduct at the interval end */
+};
+
 #define BR_HMEM 512 /* intervals of one period remembered for their steps */
 
 /* Layout of the integrated vector, stage by stage so that only n * NF
@@ -50,6 +61,8 @@ typedef struct br_seg {
     double d0[BR_N], dslope[BR_N]; /* voltage across the return switch of link k */
     double rpath[BR_N];            /* rs excluded: link resistor + return switch Rds(on) */
     int zener;                     /* some rail has a clamp that may conduct */
+    int edge[BR_N];                /* BR_EDGE_* of link k (then taken as blocked) */
+    double sigma[BR_N];            /* the rate its drive is swept at, V/s */
 } br_seg;
 
 struct br_sim {
@@ -87,6 +100,7 @@ struct br_sim {
     /* workspace of the link solve */
     br_seg seg;
     double il[BR_N];           /* link currents at the last evaluation, A */
+    double icj[BR_N];          /* of which junction-capacitance current, A */
     double vr[BR_N];           /* rail node voltages at the last evaluation, V */
     double ic[BR_N];           /* capacitor currents at the last evaluation, A */
     double iz[BR_N];           /* clamp currents, A */
@@ -102,6 +116,7 @@ struct br_sim {
     double rk[6][X_SIZE]; /* stages of the Runge-Kutta step */
     int k1_valid;         /* k1 matches the present state */
     double hlast;         /* last accepted RK step, s (0: none yet) */
+    int low;              /* the interval in progress uses the 3(2) pair */
     /* First step of each interval of the last period, by its place in the
      * period: the next period starts each interval with it (0: none) */
     double hmem[BR_HMEM];
@@ -148,6 +163,29 @@ void br_sim_track_extremes(br_sim *s, double t);
 /* 1 when rail 0 has a bypass capacitor behind the supply resistance (then
  * its voltage is a state), 0 when it is the supply behind its resistance. */
 int br_sim_bypass(const br_sim *s);
+
+/* Does the edge in [ta, tb] sweeping link k's drive from fa to fb (V)
+ * cross its conduction so fast that it is taken in closed form?  Returns
+ * a BR_EDGE_* kind. */
+int br_sim_edge_kind(const br_sim *s, double ta, double tb, double fa, double fb);
+
+/* Junction voltage of link k at drive f (its conducting end): the part
+ * of the drive its junction capacitance sees. */
+double br_sim_edge_junction(const br_sim *s, int k, double f);
+
+/* The charge links pass in the instant their edges sweep them through
+ * conduction, moved between the rails at the interval's start (links cut
+ * off) or end (links let on).  Return 1 when some charge moved. */
+int br_sim_edge_start(br_sim *s);
+int br_sim_edge_end(br_sim *s, double tb);
+
+/* Forward (conduction) current of link k in the workspace: an active
+ * link's current less its junction-capacitance share; 0 when blocked.
+ * The peak, RMS and conduction-loss figures are of this current. */
+static inline double br_sim_forward(const br_sim *s, int k)
+{
+    return s->seg.active[k] ? s->il[k] - s->icj[k] : 0.0;
+}
 
 /* Index of the first stage whose driver must toggle for rails vr, or -1. */
 int br_sim_uvlo_due(const br_sim *s, const double *vr);

@@ -188,7 +188,8 @@ static void solve_links(br_sim *s, double t, const double *x)
             s->gd[k] = gd;
             double el = s->esr[k - 1], eh = s->esr[k];
             s->gl[k] = gd / (1.0 + gd * (el + eh));
-            r[k] = s->il[k] - f - cj_current(s, k, u, f);
+            s->icj[k] = cj_current(s, k, u, f);
+            r[k] = s->il[k] - f - s->icj[k];
             b[k] = 1.0 + gd * (el + eh);
             a[k] = k > 1 && g->active[k - 1] ? -gd * el : 0.0;
             cc[k] = k + 1 < n && g->active[k + 1] ? -gd * eh : 0.0;
@@ -289,11 +290,11 @@ static void quadratures(br_sim *s, double t, const double *x, double *dx)
         dx[XI(k, F_RQL)] = g->iload[k] + s->iz[k];
         if (k == 0)
             continue;
-        double i = s->il[k];
+        double i = s->il[k], fw = br_sim_forward(s, k);
         double u = s->vr[k - 1] - s->vr[k] - (g->d0[k] + g->dslope[k] * (t - g->t0));
-        dx[XI(k, F_LQ)] = i;
-        dx[XI(k, F_LI2)] = i * i;
-        dx[XI(k, F_LE)] = g->active[k] ? i * (u - i * g->rpath[k]) : 0.0;
+        dx[XI(k, F_LQ)] = i; /* all of it: the mean current */
+        dx[XI(k, F_LI2)] = fw * fw;
+        dx[XI(k, F_LE)] = fw * (u - i * g->rpath[k]);
         dx[XI(k, F_RI2)] = s->ic[k] * s->ic[k];
     }
     double isup = supply_current(s, t, x, s->n > 1 ? s->il[1] : 0.0);

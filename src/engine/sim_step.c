@@ -34,21 +34,24 @@ static const double E1 = 71.0 / 57600, E3 = -71.0 / 16695, E4 = 71.0 / 1920, E5 
  * (exponential quadrature, e.g. Hochbruck & Ostermann, "Exponential
  * integrators", Acta Numerica 19, 2010).  Below the threshold the pair
  * integrates q like every other state. */
-#define BR_QEXP_LAMBDA 2.0 /* h/tau above which q is taken exponentially */
+#define BR_QEXP_LAMBDA 2.0
+/* Intervals up to this fraction of the period use the 3(2) pair. */
+#define BR_SHORT_INTERVAL (1.0 / 64) /* h/tau above which q is taken exponentially */
 
-/* Weights of the current at s = 0, 4/5 and 1 (step fractions) in
- * integral_0^1 exp(-lam (1 - s)) i(s) ds, for lam >= BR_QEXP_LAMBDA (no
- * cancellation there). */
-static void qexp_weights(double lam, double *w0, double *wa, double *w1)
+/* Weights of the current at s = 0, ca and 1 (step fractions, 0 < ca < 1)
+ * in integral_0^1 exp(-lam (1 - s)) i(s) ds: the moments of the quadratic
+ * through the three nodes, for lam >= BR_QEXP_LAMBDA (no cancellation
+ * there). */
+static void qexp_weights(double lam, double ca, double *w0, double *wa, double *w1)
 {
     double E = exp(-lam);
     double j0 = (1.0 - E) / lam;
     double j1 = (1.0 - E * (1.0 + lam)) / (lam * lam);
     double j2 = (2.0 - E * (lam * lam + 2.0 * lam + 2.0)) / (lam * lam * lam);
     double m0 = j0, m1 = j0 - j1, m2 = j0 - 2.0 * j1 + j2; /* moments of s^p */
-    *w0 = (m2 - 1.8 * m1 + 0.8 * m0) / 0.8;
-    *wa = -(m2 - m1) / 0.16;
-    *w1 = (m2 - 0.8 * m1) / 0.2;
+    *w0 = (m2 - (1.0 + ca) * m1 + ca * m0) / ca;
+    *wa = (m2 - m1) / (ca * (ca - 1.0));
+    *w1 = (m2 - ca * m1) / (1.0 - ca);
 }
 
 /* Link k's stored charge is taken exponentially over a step of h. */
@@ -69,10 +72,11 @@ static double q_current(const br_sim *s, int k, double dq, double q)
 }
 
 /* Replace the pair's result for the stiff stored charges of a step from
- * x over h: ia[k] is the link current at stage 4, the workspace holds the
- * end of the step.  k7 is corrected to the new charges. */
-static void qexp_finish(br_sim *s, double h, const double *x, const double *k1, const double *ia,
-                        double *y, double *e, double *k7)
+ * x over h: ia[k] is the link current at the stage at fraction ca of the
+ * step, the workspace holds the end of the step.  k7 is corrected to the
+ * new charges. */
+static void qexp_finish(br_sim *s, double h, double ca, const double *x, const double *k1,
+                        const double *ia, double *y, double *e, double *k7)
 {
     for (int k = 1; k < s->n; k++) {
         if (!q_stiff(s, k, h))
@@ -83,7 +87,7 @@ static void qexp_finish(br_sim *s, double h, const double *x, const double *k1, 
         double i1 = s->seg.active[k] ? s->il[k] : 0.0;
         double q = x[iq] * exp(-lam);
         if (s->seg.active[k]) {
-            qexp_weights(lam, &w0, &wa, &w1);
+            qexp_weights(lam, ca, &w0, &wa, &w1);
             q += h * (w0 * i0 + wa * ia[k] + w1 * i1);
         }
         y[iq] = q > 0.0 ? q : 0.0;
@@ -141,7 +145,44 @@ static void dp45_step(br_sim *s, double t, double h, const double *x, const doub
         e[i] = h * (E1 * k1[i] + E3 * k3[i] + E4 * k4[i] + E5 * k5[i] + E6 * k6[i] + E7 * k7[i]);
     }
     if (s->stored) /* only links with stored charge need it */
-        qexp_finish(s, h, x, k1, ia, y, e, k7);
+        qexp_finish(s, h, C4, x, k1, ia, y, e, k7);
+}
+
+/* One Bogacki-Shampine 3(2) step (P. Bogacki and L. F. Shampine, "A 3(2)
+ * pair of Runge-Kutta formulas", Appl. Math. Lett. 2(4), 1989): three new
+ * evaluations where Dormand-Prince takes six, for the short intervals
+ * around the edges, which one step spans.  Same interface as dp45_step. */
+static void bs23_step(br_sim *s, double t, double h, const double *x, const double *k1, double *y,
+                      double *e, double *k4)
+{
+    double ia[BR_N];
+    double *k2 = s->rk[0], *k3 = s->rk[1], *w = s->rk[5];
+    const int nl = s->nlive, *L = s->live;
+    memcpy(y, x, sizeof(double) * (size_t)s->nx);
+    memcpy(w, x, sizeof(double) * (size_t)s->nx);
+    for (int j = 0; j < nl; j++) {
+        int i = L[j];
+        w[i] = x[i] + h * 0.5 * k1[i];
+    }
+    br_sim_rhs(s, t + 0.5 * h, w, k2);
+    for (int j = 0; j < nl; j++) {
+        int i = L[j];
+        w[i] = x[i] + h * 0.75 * k2[i];
+    }
+    br_sim_rhs(s, t + 0.75 * h, w, k3);
+    for (int k = 1; s->stored && k < s->n; k++)
+        ia[k] = s->il[k];
+    for (int j = 0; j < nl; j++) {
+        int i = L[j];
+        y[i] = x[i] + h * (2.0 / 9 * k1[i] + 1.0 / 3 * k2[i] + 4.0 / 9 * k3[i]);
+    }
+    br_sim_rhs(s, t + h, y, k4); /* leaves the workspace at the step end */
+    for (int j = 0; j < nl; j++) {
+        int i = L[j];
+        e[i] = h * (-5.0 / 72 * k1[i] + 1.0 / 12 * k2[i] + 1.0 / 9 * k3[i] - 1.0 / 8 * k4[i]);
+    }
+    if (s->stored)
+        qexp_finish(s, h, 0.75, x, k1, ia, y, e, k4);
 }
 
 typedef struct gsl_ctx {
@@ -191,6 +232,8 @@ static void take_step(br_sim *s, double t, double h, const double *x, const doub
 {
     if (s->integ == BR_INTEG_REFERENCE)
         rk8_step(s, t, h, x, y, e, kend);
+    else if (s->low)
+        bs23_step(s, t, h, x, k1, y, e, kend);
     else
         dp45_step(s, t, h, x, k1, y, e, kend);
 }
@@ -256,7 +299,10 @@ static void observe(br_sim *s, double t)
 double br_sim_integrate(br_sim *s, double tb, int *status)
 {
     double t = s->t, k1[X_SIZE], y[X_SIZE], e[X_SIZE], kend[X_SIZE];
-    int p = s->integ == BR_INTEG_REFERENCE ? 7 : 4;
+    /* the short intervals around the edges take the lower order: one
+     * step spans them either way, at half the evaluations */
+    s->low = s->integ != BR_INTEG_REFERENCE && tb - t <= BR_SHORT_INTERVAL * s->tm.T;
+    int p = s->integ == BR_INTEG_REFERENCE ? 7 : s->low ? 2 : 4;
     /* an interval starts with the step its twin of the last period began
      * with: periods repeat, and the step carried from the interval before
      * (a different stretch of the circuit) is often far off */

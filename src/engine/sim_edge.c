@@ -1,0 +1,112 @@
+/* sim_edge.c - a switch edge sweeping the link it returns through
+ * conduction.
+ *
+ * When the return switch of link k turns off, its voltage rises by the
+ * blocking voltage within the edge time, and the link's drive falls from
+ * its conducting value through zero within a few hundredths of the edge;
+ * when the switch turns on, the drive rises into conduction in the last
+ * few hundredths.  Integrating through that corner costs the Runge-Kutta
+ * pair many steps (or, taken in one, misplaces the charge), although the
+ * rails hardly move while it lasts.  So the fast path takes the link as
+ * blocked over the edge interval and moves the charge of the sweep
+ * between the rails at once, at the interval's start (cut off) or end
+ * (let on), in closed form: with the rails still, the drive u falls at
+ * the rate sigma and passes the charge (integral of i du) / sigma
+ * (br_diode_sweep_to).  The link's own current reaches the rails through
+ * their series resistances, so these join the diode's.  The reference
+ * path integrates through the corner; the tests hold the two together. */
+#include "engine/sim_impl.h"
+
+#include <math.h>
+
+/* Largest share of the interval the sweep through conduction (from the
+ * conducting end down to -BR_VBLOCKED) may take: over it the rails are
+ * held still, an error of the rails' own movement in that time against
+ * the drive's, below 1e-3 of the sweep's small charge at this share. */
+#define BR_EDGE_SHARE (1.0 / 20)
+
+int br_sim_edge_kind(const br_sim *s, double ta, double tb, double fa, double fb)
+{
+    if (s->integ == BR_INTEG_REFERENCE || !(tb > ta))
+        return BR_EDGE_NONE;
+    double hi = fmax(fa, fb), lo = fmin(fa, fb);
+    if (!(lo < -BR_VBLOCKED) || (hi + BR_VBLOCKED) > BR_EDGE_SHARE * (hi - lo))
+        return BR_EDGE_NONE;
+    return fa > fb ? BR_EDGE_START : BR_EDGE_END;
+}
+
+/* Series resistance link k's own current sees besides the diode's:
+ * resistor, return switch and the two rails' (rail 0: the supply's,
+ * unless bypassed). */
+static double sweep_r(const br_sim *s, int k)
+{
+    return s->seg.rpath[k] + s->esr[k - 1] + s->esr[k];
+}
+
+double br_sim_edge_junction(const br_sim *s, int k, double f)
+{
+    const br_diode *d = &s->c->st[k].diode;
+    if (!(f > 0.0))
+        return f;
+    return br_diode_vjunction(d, br_diode_current(d, sweep_r(s, k), f));
+}
+
+/* Move the charge of link k's sweep to drive u (its value at the
+ * conducting end, from the workspace's node voltages with the link
+ * blocked) from rail k-1 to rail k, with its statistics. */
+static int sweep_link(br_sim *s, int k, double u, double t)
+{
+    const br_diode *d = &s->c->st[k].diode;
+    br_diode_sweep w;
+    br_diode_sweep_to(d, sweep_r(s, k), u, &w);
+    double sig = s->seg.sigma[k], q = w.q / sig;
+    if (!(q > 0.0))
+        return 0;
+    s->x[XI(k, F_VC)] += q / br_sim_cap(s, k, s->x[XI(k, F_VC)]);
+    if (k > 1 || br_sim_bypass(s))
+        s->x[XI(k - 1, F_VC)] -= q / br_sim_cap(s, k - 1, s->x[XI(k - 1, F_VC)]);
+    if (k == 1 && !br_sim_bypass(s)) { /* straight from the supply */
+        s->x[X_SQ] += q;
+        s->x[X_SE] += q * (s->seg.vs0 + s->seg.vs_slope * (t - s->seg.t0));
+    }
+    if (s->c->st[k].diode.tau > 0)
+        s->x[XI(k, F_Q)] += q; /* the sweep lasts far less than tau */
+    s->x[XI(k, F_LQ)] += q;
+    s->x[XI(k, F_LI2)] += w.i2 / sig;
+    s->x[XI(k, F_LE)] += w.e / sig;
+    /* capacitor currents: the sweep's i^2 on both rails, plus its cross
+     * term with the current each rail carries already */
+    s->x[XI(k, F_RI2)] += w.i2 / sig + 2.0 * s->ic[k] * q;
+    if (k > 1)
+        s->x[XI(k - 1, F_RI2)] += w.i2 / sig - 2.0 * s->ic[k - 1] * q;
+    if (s->stats_on)
+        s->st.link[k].ipeak = fmax(s->st.link[k].ipeak, w.i);
+    return 1;
+}
+
+static double drive_at(const br_sim *s, int k, double t)
+{
+    return s->vr[k - 1] - s->vr[k] - br_sim_switch_v(s, k - 1, t);
+}
+
+int br_sim_edge_start(br_sim *s)
+{
+    int moved = 0;
+    for (int k = 1; k < s->n; k++)
+        if (s->seg.edge[k] == BR_EDGE_START)
+            moved |= sweep_link(s, k, drive_at(s, k, s->t), s->t);
+    if (moved)
+        s->k1_valid = 0;
+    return moved;
+}
+
+int br_sim_edge_end(br_sim *s, double tb)
+{
+    int moved = 0;
+    for (int k = 1; k < s->n; k++)
+        if (s->seg.edge[k] == BR_EDGE_END)
+            moved |= sweep_link(s, k, drive_at(s, k, tb), tb);
+    if (moved)
+        s->k1_valid = 0;
+    return moved;
+}
