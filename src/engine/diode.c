@@ -309,20 +309,26 @@ void br_diode_eval_warm(const br_diode *d, double r_extra, double v, br_diode_wa
         br_diode_eval(d, r_extra, v, i, g);
         return;
     }
-    double c = d->is * R / a, s = v / a;
-    if (ws->r != R) { /* c is fixed by the resistance: keep its logarithm */
+    if (ws->r != R || ws->a != a) { /* c is fixed by R and a: keep it, its log, 1/a, a/R */
         ws->r = R;
-        ws->logc = log(c);
-        ws->w = 0.0;
+        ws->a = a;
+        ws->c = d->is * R / a;
+        ws->logc = log(ws->c);
+        ws->inv_a = 1.0 / a;
+        ws->a_r = a / R;
+        ws->w = ws->slope = 0.0;
         ws->have_y = 0;
     }
+    double c = ws->c, s = v * ws->inv_a;
     double u = s + c + ws->logc, y, w;
-    w = u > 1.0 && c < 0.5 && ws->w > 1.0 ? fsc_from(u, ws->w) : 0.0;
+    /* start on the tangent of the last solution: w and y = w - c move at
+     * w/(1 + w) per unit of u (or of s) */
+    w = u > 1.0 && c < 0.5 && ws->w > 1.0 ? fsc_from(u, ws->w + ws->slope * (u - ws->u)) : 0.0;
     if (w > 1.0 && isfinite(w)) { /* a far start can leave the region */
         y = w - c;
     } else if (ws->have_y && fabs(s - ws->s) < 1.0 && s + c >= -20.0 && !(u > 1.0 && c < 0.5) &&
-               isfinite(y = y_halley_from(c, s, ws->y))) {
-        /* the Halley region of solve_y, started from the last y (a
+               isfinite(y = y_halley_from(c, s, ws->y + ws->slope * (s - ws->s)))) {
+        /* the Halley region of solve_y, started near the last y (a
          * drive within n Vt of the last) instead of a fresh estimate:
          * the same stopping rule, fewer steps */
         w = s - y < 0.0 || c + y < 1.0 ? c * exp(s - y) : c + y;
@@ -334,9 +340,12 @@ void br_diode_eval_warm(const br_diode *d, double r_extra, double v, br_diode_wa
         ws->s = s;
         ws->have_y = s + c >= -20.0 && !(u > 1.0 && c < 0.5);
     }
+    double slope = w / (1.0 + w);
     ws->w = w;
-    *i = a * y / R;
-    *g = w / (R * (1.0 + w));
+    ws->u = u;
+    ws->slope = slope;
+    *i = ws->a_r * y;
+    *g = slope / R; /* di/dv = gd / (1 + R gd), gd = w / R */
 }
 
 /* With a = n Vt, x = i/Is and L = ln(1 + x) the junction voltage is

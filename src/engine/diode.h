@@ -36,17 +36,23 @@ void br_diode_eval(const br_diode *d, double r_extra, double v, double *i, doubl
 
 /* What br_diode_eval_warm keeps between calls on one link. */
 typedef struct br_diode_warm {
-    double r;    /* resistance of the last call, ohm (0: none yet) */
-    double logc; /* log(Is R / (n Vt)) at that resistance */
-    double w;    /* Lambert W value of the last call */
-    double y, s; /* y = w - c and s = v/(n Vt) of the last Halley solve */
-    int have_y;  /* y and s are set (at this resistance) */
+    double r, a;  /* resistance (ohm, 0: none yet) and n Vt (V) of the last call */
+    double c;     /* Is R / (n Vt) at those */
+    double logc;  /* its logarithm */
+    double inv_a; /* 1 / (n Vt) */
+    double a_r;   /* n Vt / R */
+    double w;     /* Lambert W value of the last call */
+    double u;     /* its argument's logarithm (w + ln w = u) */
+    double slope; /* dw/du there, w / (1 + w) */
+    double y, s;  /* y = w - c and s = v/(n Vt) of the last Halley solve */
+    int have_y;   /* y and s are set (at this resistance) */
 } br_diode_warm;
 
 /* br_diode_eval for a hot loop that calls it on one link again and again
- * with slowly changing v: the Lambert W iteration starts from the last
- * value, which in conduction saves all but one logarithm.  Same results
- * to rounding.  ws starts zeroed. */
+ * with slowly changing v: the iteration starts from the last solution
+ * moved along its tangent (dw/du = w/(1 + w)), so one step of it, one
+ * transcendental function, usually ends it.  Same results to rounding.
+ * ws starts zeroed. */
 void br_diode_eval_warm(const br_diode *d, double r_extra, double v, br_diode_warm *ws, double *i,
                         double *g);
 

@@ -636,8 +636,14 @@ int br_sim_run_until(br_sim *s, double t_end, br_error *err)
     while (s->t < t_end) {
         double tb = next_time(s, t_end);
         settle_uvlo(s, tb);
-        if (br_sim_edge_start(s))
-            settle_uvlo(s, tb); /* the rails moved: settle them again */
+        if (br_sim_edge_start(s)) {
+            /* the rails moved by the sweep's charge: the interval stays
+             * as built, its start is evaluated again */
+            br_sim_rhs(s, s->t, s->x, s->k1);
+            s->k1_valid = 1;
+            if (br_sim_uvlo_due(s, s->vr) >= 0)
+                settle_uvlo(s, tb);
+        }
         recover(s);
         br_sim_track_extremes(s, s->t);
         int due = -1, status = 0;
