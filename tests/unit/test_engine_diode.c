@@ -396,6 +396,61 @@ static void test_qj_is_integral(void)
     BR_ASSERT_REL(br_diode_qj(&d, 2.0), 47e-12 * 0.75 * log(1.0 + 2.0 / 0.75), 1e-14);
 }
 
+/* ---- a drive swept through conduction ----------------------------------- */
+
+typedef struct sweep_ctx {
+    const br_diode *d;
+    double r;
+    int what; /* 0: i, 1: i^2, 2: i (vj + rs i) */
+} sweep_ctx;
+
+static double sweep_fn(double u, void *p)
+{
+    const sweep_ctx *c = p;
+    double i = br_diode_current(c->d, c->r, u);
+    if (c->what == 0)
+        return i;
+    if (c->what == 1)
+        return i * i;
+    return i * (br_diode_vjunction(c->d, i) + c->d->rs * i);
+}
+
+/* The closed forms of br_diode_sweep_to are the integrals over the drive
+ * of the current, its square and its power in the diode: checked by
+ * adaptive quadrature (GSL qags) of the Lambert W current (Banwell &
+ * Jayakumar 2000) from the knee into heavy conduction. */
+static void test_sweep_integrals(void)
+{
+    gsl_integration_workspace *ws = gsl_integration_workspace_alloc(400);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(ws);
+    const double is[] = {5e-9, 1e-7, 1e-12}, n[] = {1.08, 1.5, 1.9}, rs[] = {0.15, 0.5, 0.02};
+    const double rx[] = {1.0, 0.2, 10.0}, us[] = {0.05, 0.3, 0.6, 1.0, 2.7, 20.0};
+    for (int k = 0; k < 3; k++) {
+        br_diode d = resolved(is[k], n[k], T_ROOM);
+        d.rs = rs[k];
+        for (size_t j = 0; j < sizeof us / sizeof us[0]; j++) {
+            br_diode_sweep w;
+            br_diode_sweep_to(&d, rx[k], us[j], &w);
+            BR_ASSERT_REL(w.i, br_diode_current(&d, rx[k], us[j]), 1e-14);
+            const double got[] = {w.q, w.i2, w.e};
+            for (int what = 0; what < 3; what++) {
+                sweep_ctx c = {&d, rx[k], what};
+                gsl_function f = {sweep_fn, &c};
+                double q, abserr;
+                int rc = gsl_integration_qags(&f, 0.0, us[j], 0.0, 1e-11, 400, ws, &q, &abserr);
+                CU_ASSERT_EQUAL(rc, GSL_SUCCESS);
+                BR_ASSERT_REL(got[what], q, 1e-8);
+            }
+        }
+    }
+    gsl_integration_workspace_free(ws);
+    /* nothing below zero drive: the reverse part is the leakage model's */
+    br_diode d = resolved(5e-9, 1.08, T_ROOM);
+    br_diode_sweep w;
+    br_diode_sweep_to(&d, 1.0, -3.0, &w);
+    CU_ASSERT_TRUE(w.q == 0.0 && w.i2 == 0.0 && w.e == 0.0 && w.i == 0.0);
+}
+
 /* ---- stored charge ---------------------------------------------------- */
 
 static void test_q_step(void)
@@ -579,6 +634,7 @@ int main(void)
         {"junction voltage", test_vjunction},
         {"depletion capacitance", test_cj_shape},
         {"depletion charge is the integral", test_qj_is_integral},
+        {"sweep integrals against GSL quadrature", test_sweep_integrals},
         {"charge-control step", test_q_step},
         {"recovery triangle", test_recovery_triangle},
         {"recovery rejects bad input", test_recovery_rejects},
