@@ -453,6 +453,8 @@ double br_diode_leak(const br_diode *d, double vr)
 {
     if (!(vr > 0.0))
         return 0.0;
+    if (vr > 37.0 * d->vt) /* exp(-37) < 1e-16: saturated to the last digit */
+        return d->ir;
     return -d->ir * expm1(-vr / d->vt);
 }
 

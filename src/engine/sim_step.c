@@ -36,7 +36,9 @@ static const double E1 = 71.0 / 57600, E3 = -71.0 / 16695, E4 = 71.0 / 1920, E5 
  * integrates q like every other state. */
 #define BR_QEXP_LAMBDA 2.0
 /* Intervals up to this fraction of the period use the 3(2) pair. */
-#define BR_SHORT_INTERVAL (1.0 / 64) /* h/tau above which q is taken exponentially */
+#define BR_SHORT_INTERVAL (1.0 / 64)
+/* Intervals up to this fraction of the period use the 2(1) pair. */
+#define BR_EDGE_INTERVAL (1.0 / 256) /* h/tau above which q is taken exponentially */
 
 /* Weights of the current at s = 0, ca and 1 (step fractions, 0 < ca < 1)
  * in integral_0^1 exp(-lam (1 - s)) i(s) ds: the moments of the quadratic
@@ -185,6 +187,33 @@ static void bs23_step(br_sim *s, double t, double h, const double *x, const doub
         qexp_finish(s, h, 0.75, x, k1, ia, y, e, k4);
 }
 
+/* One Heun step with the Euler step as its embedded partner (the
+ * Heun-Euler 2(1) pair): the difference of the two, h (k2 - k1) / 2,
+ * bounds the error of the Euler step and so, with room to spare, of
+ * Heun's.  Two evaluations, for the shortest intervals (the edges), where
+ * the rails move along nearly straight lines.  The workspace is left at
+ * the Euler end point, within the error estimate of the step's end: it
+ * serves the UVLO check and the extremes.  kend is not the derivative at
+ * y, so the caller evaluates it when another step follows. */
+static void he21_step(br_sim *s, double t, double h, const double *x, const double *k1, double *y,
+                      double *e, double *kend)
+{
+    const int nl = s->nlive, *L = s->live;
+    double *w = s->rk[5];
+    memcpy(y, x, sizeof(double) * (size_t)s->nx);
+    memcpy(w, x, sizeof(double) * (size_t)s->nx);
+    for (int j = 0; j < nl; j++) {
+        int i = L[j];
+        w[i] = x[i] + h * k1[i];
+    }
+    br_sim_rhs(s, t + h, w, kend);
+    for (int j = 0; j < nl; j++) {
+        int i = L[j];
+        y[i] = x[i] + 0.5 * h * (k1[i] + kend[i]);
+        e[i] = 0.5 * h * (kend[i] - k1[i]);
+    }
+}
+
 typedef struct gsl_ctx {
     br_sim *s;
 } gsl_ctx;
@@ -232,6 +261,8 @@ static void take_step(br_sim *s, double t, double h, const double *x, const doub
 {
     if (s->integ == BR_INTEG_REFERENCE)
         rk8_step(s, t, h, x, y, e, kend);
+    else if (s->low == 2)
+        he21_step(s, t, h, x, k1, y, e, kend);
     else if (s->low)
         bs23_step(s, t, h, x, k1, y, e, kend);
     else
@@ -302,7 +333,9 @@ double br_sim_integrate(br_sim *s, double tb, int *status)
     /* the short intervals around the edges take the lower order: one
      * step spans them either way, at half the evaluations */
     s->low = s->integ != BR_INTEG_REFERENCE && tb - t <= BR_SHORT_INTERVAL * s->tm.T;
-    int p = s->integ == BR_INTEG_REFERENCE ? 7 : s->low ? 2 : 4;
+    if (s->low && !s->stored && tb - t <= BR_EDGE_INTERVAL * s->tm.T)
+        s->low = 2;
+    int p = s->integ == BR_INTEG_REFERENCE ? 7 : s->low == 2 ? 1 : s->low ? 2 : 4;
     /* an interval starts with the step its twin of the last period began
      * with: periods repeat, and the step carried from the interval before
      * (a different stretch of the circuit) is often far off */
@@ -368,7 +401,10 @@ double br_sim_integrate(br_sim *s, double tb, int *status)
         double hn = next_h(h, err, p);
         s->hlast = cut ? fmax(s->hlast, hn) : hn;
         h = s->hlast;
-        memcpy(k1, kend, sizeof(double) * (size_t)s->nx);
+        if (s->low == 2 && t < tb)
+            br_sim_rhs(s, t, s->x, k1);
+        else
+            memcpy(k1, kend, sizeof(double) * (size_t)s->nx);
     }
     s->t = t;
     return t;
