@@ -427,7 +427,7 @@ static void build_seg(br_sim *s, double ta, double tb)
         double fa = left_rail(s, k, ta) - s->x[XI(k, F_VC)] - g->d0[k];
         double fb = left_rail(s, k, tb) - s->x[XI(k, F_VC)] - db;
         g->active[k] = fa > -BR_VBLOCKED || fb > -BR_VBLOCKED;
-        g->edge[k] = g->active[k] ? br_sim_edge_kind(s, ta, tb, fa, fb) : BR_EDGE_NONE;
+        g->edge[k] = g->active[k] ? br_sim_edge_kind(s, k, ta, tb, fa, fb) : BR_EDGE_NONE;
         g->sigma[k] = fabs(g->dslope[k]);
         if (g->edge[k] != BR_EDGE_NONE)
             g->active[k] = 0;

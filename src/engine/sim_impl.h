@@ -165,9 +165,9 @@ void br_sim_track_extremes(br_sim *s, double t);
 int br_sim_bypass(const br_sim *s);
 
 /* Does the edge in [ta, tb] sweeping link k's drive from fa to fb (V)
- * cross its conduction so fast that it is taken in closed form?  Returns
- * a BR_EDGE_* kind. */
-int br_sim_edge_kind(const br_sim *s, double ta, double tb, double fa, double fb);
+ * cross its conduction so fast, and the rails stay so still, that it is
+ * taken in closed form?  Returns a BR_EDGE_* kind. */
+int br_sim_edge_kind(const br_sim *s, int k, double ta, double tb, double fa, double fb);
 
 /* Junction voltage of link k at drive f (its conducting end): the part
  * of the drive its junction capacitance sees. */
