@@ -187,6 +187,14 @@ static inline double br_sim_forward(const br_sim *s, int k)
     return s->seg.active[k] ? s->il[k] - s->icj[k] : 0.0;
 }
 
+/* Current into link k's stored charge: its forward current, where it
+ * conducts (the reverse saturation current stores nothing). */
+static inline double br_sim_stored_in(const br_sim *s, int k)
+{
+    double f = br_sim_forward(s, k);
+    return f > 0.0 ? f : 0.0;
+}
+
 /* Index of the first stage whose driver must toggle for rails vr, or -1. */
 int br_sim_uvlo_due(const br_sim *s, const double *vr);
 

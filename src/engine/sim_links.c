@@ -315,9 +315,11 @@ void br_sim_rhs(br_sim *s, double t, const double *x, double *dx)
         if (st->diode.tau > 0) {
             /* charge-control: the conduction current stores charge, which
              * recombines with tau; a blocked link only loses it, and the
-             * stored charge never goes below zero */
+             * stored charge never goes below zero.  The junction-
+             * capacitance current an edge drives through the link charges
+             * the depletion layer, not the stored charge */
             double q = x[XI(k, F_Q)];
-            double dq = (s->seg.active[k] ? s->il[k] : 0.0) - q / st->diode.tau;
+            double dq = br_sim_stored_in(s, k) - q / st->diode.tau;
             dx[XI(k, F_Q)] = q <= 0.0 && dq < 0.0 ? 0.0 : dq;
         }
     }

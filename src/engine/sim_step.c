@@ -86,7 +86,7 @@ static void qexp_finish(br_sim *s, double h, double ca, const double *x, const d
         int iq = XI(k, F_Q);
         double tau = s->c->st[k].diode.tau, lam = h / tau, w0, wa, w1;
         double i0 = q_current(s, k, k1[iq], x[iq]);
-        double i1 = s->seg.active[k] ? s->il[k] : 0.0;
+        double i1 = br_sim_stored_in(s, k);
         double q = x[iq] * exp(-lam);
         if (s->seg.active[k]) {
             qexp_weights(lam, ca, &w0, &wa, &w1);
@@ -126,7 +126,7 @@ static void dp45_step(br_sim *s, double t, double h, const double *x, const doub
     }
     br_sim_rhs(s, t + C4 * h, w, k4);
     for (int k = 1; s->stored && k < s->n; k++)
-        ia[k] = s->il[k];
+        ia[k] = br_sim_stored_in(s, k);
     for (int j = 0; j < nl; j++) {
         int i = L[j];
         w[i] = x[i] + h * (A51 * k1[i] + A52 * k2[i] + A53 * k3[i] + A54 * k4[i]);
@@ -173,7 +173,7 @@ static void bs23_step(br_sim *s, double t, double h, const double *x, const doub
     }
     br_sim_rhs(s, t + 0.75 * h, w, k3);
     for (int k = 1; s->stored && k < s->n; k++)
-        ia[k] = s->il[k];
+        ia[k] = br_sim_stored_in(s, k);
     for (int j = 0; j < nl; j++) {
         int i = L[j];
         y[i] = x[i] + h * (2.0 / 9 * k1[i] + 1.0 / 3 * k2[i] + 4.0 / 9 * k3[i]);
