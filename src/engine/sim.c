@@ -427,17 +427,15 @@ static void build_seg(br_sim *s, double ta, double tb)
         double fa = left_rail(s, k, ta) - s->x[XI(k, F_VC)] - g->d0[k];
         double fb = left_rail(s, k, tb) - s->x[XI(k, F_VC)] - db;
         g->active[k] = fa > -BR_VBLOCKED || fb > -BR_VBLOCKED;
-        g->edge[k] = g->active[k] ? br_sim_edge_kind(s, k, ta, tb, fa, fb) : BR_EDGE_NONE;
+        g->edge[k] =
+            g->active[k] ? br_sim_edge_kind(s, k, ta, tb, fa, fb, &g->iblk[k]) : BR_EDGE_NONE;
         g->sigma[k] = fabs(g->dslope[k]);
         if (g->edge[k] != BR_EDGE_NONE)
-            g->active[k] = 0;
+            g->active[k] = 0; /* blocked over it, iblk set */
+        else
+            g->iblk[k] = g->active[k] ? 0.0 : blocked_current(s, k, ta, tb, fa, fb);
         if (g->active[k])
             g->act[g->nactive++] = k;
-        if (g->edge[k] == BR_EDGE_START) /* conduction pins the junction */
-            fa = br_sim_edge_junction(s, k, fa);
-        else if (g->edge[k] == BR_EDGE_END)
-            fb = br_sim_edge_junction(s, k, fb);
-        g->iblk[k] = g->active[k] ? 0.0 : blocked_current(s, k, ta, tb, fa, fb);
         if (st->aux.kind == BR_AUX_ZENER && s->x[XI(k, F_VC)] > st->aux.vout - 0.5)
             g->zener = 1;
     }

@@ -45,9 +45,16 @@ static double inv_cap(const br_sim *s, int j)
     return 1.0 / br_sim_cap(s, j, s->x[XI(j, F_VC)]);
 }
 
-static double sweep_r(const br_sim *s, int k);
+/* Series resistance link k's own current sees besides the diode's:
+ * resistor, return switch and the two rails' (rail 0: the supply's,
+ * unless bypassed). */
+static double sweep_r(const br_sim *s, int k)
+{
+    return s->seg.rpath[k] + s->esr[k - 1] + s->esr[k];
+}
 
-int br_sim_edge_kind(const br_sim *s, int k, double ta, double tb, double fa, double fb)
+int br_sim_edge_kind(const br_sim *s, int k, double ta, double tb, double fa, double fb,
+                     double *iblk)
 {
     if (s->integ == BR_INTEG_REFERENCE || !(tb > ta))
         return BR_EDGE_NONE;
@@ -57,34 +64,24 @@ int br_sim_edge_kind(const br_sim *s, int k, double ta, double tb, double fa, do
     /* how far the rails move while the drive sweeps from hi to
      * -BR_VBLOCKED: the sweep's own charge, and the currents the rails
      * carry already (from the last evaluation) over that time */
+    const br_diode *d = &s->c->st[k].diode;
     double sig = (hi - lo) / (tb - ta), span = hi + BR_VBLOCKED, tsw = span / sig;
     double ca = inv_cap(s, k - 1), cb = inv_cap(s, k);
     br_diode_sweep w;
-    br_diode_sweep_to(&s->c->st[k].diode, sweep_r(s, k), hi, &w);
+    br_diode_sweep_to(d, sweep_r(s, k), hi, &w);
     double move = w.q / sig * (ca + cb) + tsw * (fabs(s->ic[k - 1]) * ca + fabs(s->ic[k]) * cb);
     if (!(move <= BR_EDGE_STILL * span))
         return BR_EDGE_NONE;
-    const br_diode *d = &s->c->st[k].diode;
-    double qj = fabs(br_diode_qj(d, -lo) - br_diode_qj(d, -br_sim_edge_junction(s, k, hi)));
-    if (!(qj * (ca + cb) <= BR_EDGE_STILL_CJ * (hi - lo)))
+    /* the junction charge of the edge, from the conducting end, where
+     * conduction pins the junction, to the blocked end */
+    double vjc = hi > 0.0 ? br_diode_vjunction(d, w.i) : hi;
+    double qj = br_diode_qj(d, -lo) - br_diode_qj(d, -vjc);
+    if (!(fabs(qj) * (ca + cb) <= BR_EDGE_STILL_CJ * (hi - lo)))
         return BR_EDGE_NONE;
+    /* leakage over the mean drive, and the junction charge spread over
+     * the interval (it leaves rail k-1 for rail k as the drive falls) */
+    *iblk = -br_diode_leak(d, -0.5 * (vjc + lo)) + (fa > fb ? -qj : qj) / (tb - ta);
     return fa > fb ? BR_EDGE_START : BR_EDGE_END;
-}
-
-/* Series resistance link k's own current sees besides the diode's:
- * resistor, return switch and the two rails' (rail 0: the supply's,
- * unless bypassed). */
-static double sweep_r(const br_sim *s, int k)
-{
-    return s->seg.rpath[k] + s->esr[k - 1] + s->esr[k];
-}
-
-double br_sim_edge_junction(const br_sim *s, int k, double f)
-{
-    const br_diode *d = &s->c->st[k].diode;
-    if (!(f > 0.0))
-        return f;
-    return br_diode_vjunction(d, br_diode_current(d, sweep_r(s, k), f));
 }
 
 /* Move the charge of link k's sweep to drive u (its value at the

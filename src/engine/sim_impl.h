@@ -166,12 +166,11 @@ int br_sim_bypass(const br_sim *s);
 
 /* Does the edge in [ta, tb] sweeping link k's drive from fa to fb (V)
  * cross its conduction so fast, and the rails stay so still, that it is
- * taken in closed form?  Returns a BR_EDGE_* kind. */
-int br_sim_edge_kind(const br_sim *s, int k, double ta, double tb, double fa, double fb);
-
-/* Junction voltage of link k at drive f (its conducting end): the part
- * of the drive its junction capacitance sees. */
-double br_sim_edge_junction(const br_sim *s, int k, double f);
+ * taken in closed form?  Returns a BR_EDGE_* kind, and for an edge sets
+ * *iblk to the link's current over the interval as blocked (leakage and
+ * junction-capacitance charge). */
+int br_sim_edge_kind(const br_sim *s, int k, double ta, double tb, double fa, double fb,
+                     double *iblk);
 
 /* The charge links pass in the instant their edges sweep them through
  * conduction, moved between the rails at the interval's start (links cut
