@@ -9,6 +9,10 @@
  * temperatures are kelvin).  Functions return a br_status and fill a
  * caller-supplied br_error on failure.  Objects come in create/free pairs;
  * every _free accepts NULL.  The library never prints and never exits.
+ * It checks the status of every GSL call it makes, so a program using it
+ * should turn GSL's default error handler (which aborts) off with
+ * gsl_set_error_handler_off(), as the command-line front end does; the
+ * library itself leaves that process-wide setting to its host.
  *
  * Copyright (C) 2026 the bootrung developers.  GPL-3.0-or-later. */
 #ifndef BOOTRUNG_H

@@ -213,7 +213,10 @@ static int fd_inverse(trial *t, const double *x, const double *y, const int *idx
     gsl_matrix_view bv = gsl_matrix_view_array(b, (size_t)m, (size_t)m);
     gsl_matrix_view hv = gsl_matrix_view_array(hinv, (size_t)m, (size_t)m);
     gsl_permutation p = {(size_t)m, perm};
+    /* a singular matrix is refused before GSL's inversion would report
+     * it through its error handler */
     *ok = gsl_linalg_LU_decomp(&bv.matrix, &p, &sign) == GSL_SUCCESS &&
+          isfinite(gsl_linalg_LU_lndet(&bv.matrix)) &&
           gsl_linalg_LU_invert(&bv.matrix, &p, &hv.matrix) == GSL_SUCCESS;
     for (int r = 0; *ok && r < m * m; r++)
         *ok = isfinite(hinv[r]);

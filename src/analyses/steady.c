@@ -167,7 +167,9 @@ static int newton_step(gsl_matrix *B, gsl_matrix *LU, gsl_permutation *p, const 
 {
     int sign;
     gsl_matrix_memcpy(LU, B);
-    if (gsl_linalg_LU_decomp(LU, p, &sign) != GSL_SUCCESS)
+    /* a zero or non-finite pivot is refused here, before GSL's solve
+     * would report it through its error handler */
+    if (gsl_linalg_LU_decomp(LU, p, &sign) != GSL_SUCCESS || !isfinite(gsl_linalg_LU_lndet(LU)))
         return -1;
     gsl_vector_view bv = gsl_vector_view_array(dz, (size_t)m);
     for (int i = 0; i < m; i++)
