@@ -92,9 +92,15 @@ static int judge_at(sweep_ctx *x, double u, br_hold_point *pt)
 
 /* The function Brent sees: the worst margin, V; a steady state not found
  * counts as failing by 1 V so the function stays finite. */
+/* The margin as Brent's method sees it: its sign always says whether the
+ * point holds (a point without a periodic steady state fails whatever its
+ * margin), so every bracket of a holding and a failing end straddles zero
+ * and GSL never reports a bad bracket through its error handler. */
 static double margin_of(const br_hold_point *pt)
 {
-    return isnan(pt->margin) ? -1.0 : pt->margin;
+    if (pt->holds)
+        return pt->margin;
+    return pt->margin < 0.0 ? pt->margin : -1e-6;
 }
 
 static double brent_fn(double u, void *ctx)
