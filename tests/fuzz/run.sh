@@ -1,7 +1,9 @@
 #!/usr/bin/env bash
-# tests/fuzz/run.sh - build the design-file fuzz target with clang
-# (libFuzzer + ASan + UBSan) in build-fuzz/ (or BR_FUZZ_DIR) and run it for
-# a bounded time on a seed corpus made of the examples and tests/bad.
+# tests/fuzz/run.sh - build the fuzz targets of the design-file and the
+# part-catalog loaders with clang (libFuzzer + ASan + UBSan) in build-fuzz/
+# (or BR_FUZZ_DIR) and run them for a bounded time in all, on seed corpora
+# made of the examples, tests/bad and tests/extreme, and of the example
+# catalog.
 #
 #   tests/fuzz/run.sh [SECONDS]     default 60
 #
@@ -42,26 +44,38 @@ if [ ! -f "$dir/CMakeCache.txt" ]; then
     CC=$cc cmake -S . -B "$dir" -DBR_FUZZ=ON -DCMAKE_BUILD_TYPE=RelWithDebInfo >"$log" 2>&1 ||
         { cat "$log" >&2; exit 1; }
 fi
-cmake --build "$dir" --parallel 2 --target fuzz_design >"$log" 2>&1 ||
+cmake --build "$dir" --parallel 2 --target fuzz_design fuzz_catalog >"$log" 2>&1 ||
     { cat "$log" >&2; exit 1; }
 
-# The corpus directory grows across runs; the seeds are copied in each time.
-corpus=$dir/corpus
-mkdir -p "$corpus" "$dir/artifacts"
-cp examples/*.xml tests/bad/*.xml tests/extreme/*.xml "$corpus/" 2>/dev/null || true
+# fuzz TARGET SECONDS DICT SEEDS...: run one target on its own corpus (it
+# grows across runs; the seeds are copied in each time).
+fuzz() {
+    local target=$1 t=$2 dict=$3
+    shift 3
+    local corpus=$dir/corpus-$target
+    mkdir -p "$corpus" "$dir/artifacts"
+    cp "$@" "$corpus/" 2>/dev/null || true
+    echo "fuzz: running $target for ${t} s (log: $dir/$target.log)"
+    set +e
+    ASAN_OPTIONS=detect_leaks=1 UBSAN_OPTIONS=print_stacktrace=1:halt_on_error=1 \
+        "$dir/$target" -max_total_time="$t" -timeout=5 -rss_limit_mb=2048 \
+        -max_len=65536 -print_final_stats=1 -artifact_prefix="$dir/artifacts/$target-" \
+        -dict="$dict" "$corpus" >"$dir/$target.log" 2>&1
+    local rc=$?
+    set -e
+    grep -E '^stat::number_of_executed_units|^#[0-9]+ *DONE' "$dir/$target.log" | tail -2 || true
+    if [ $rc -ne 0 ]; then
+        tail -40 "$dir/$target.log" >&2
+        echo "fuzz: $target FAILED (exit $rc); inputs in $dir/artifacts/" >&2
+        return 1
+    fi
+}
 
-echo "fuzz: running fuzz_design for ${secs} s (log: $dir/fuzz.log)"
-set +e
-ASAN_OPTIONS=detect_leaks=1 UBSAN_OPTIONS=print_stacktrace=1:halt_on_error=1 \
-    "$dir/fuzz_design" -max_total_time="$secs" -timeout=5 -rss_limit_mb=2048 \
-    -max_len=65536 -print_final_stats=1 -artifact_prefix="$dir/artifacts/" \
-    -dict=tests/fuzz/design.dict "$corpus" >"$dir/fuzz.log" 2>&1
-rc=$?
-set -e
-grep -E '^stat::number_of_executed_units|^#[0-9]+ *DONE' "$dir/fuzz.log" | tail -2 || true
-if [ $rc -ne 0 ]; then
-    tail -40 "$dir/fuzz.log" >&2
-    echo "fuzz: FAILED (exit $rc); inputs in $dir/artifacts/" >&2
-    exit 1
-fi
+# the design loader gets two thirds of the time, the catalog loader the rest
+status=0
+fuzz fuzz_design $((secs - secs / 3)) tests/fuzz/design.dict \
+    examples/*.xml tests/bad/*.xml tests/extreme/*.xml || status=1
+fuzz fuzz_catalog $((secs / 3 > 0 ? secs / 3 : 1)) tests/fuzz/catalog.dict \
+    examples/parts/*.xml || status=1
+[ $status = 0 ] || exit 1
 echo "fuzz: nothing found in ${secs} s"
