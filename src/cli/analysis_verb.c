@@ -137,8 +137,9 @@ int br_cli_analysis(int argc, char **argv, const char *about, int parts)
         {BR_OPT_STRING, "report", "PATH", &p.report,
          "also write a self-contained HTML report with plots to PATH"},
         {BR_OPT_STRING, "plot", "PATH", &p.plot,
-         parts == BR_RUN_STARTUP ? "also plot the rail waveforms from cold as SVG to PATH"
-                                 : "also plot the rails over two steady periods as SVG to PATH"},
+         parts == BR_RUN_STARTUP
+             ? "also plot the rail waveforms from cold as SVG to PATH"
+             : "also plot two steady periods of the direction nearest UVLO as SVG to PATH"},
         {BR_OPT_FLAG, "quiet", NULL, &quiet, BR_QUIET_HELP},
         {BR_OPT_STRING, "solver-limit", "N", &limit,
          "steady-state solver: at most N Newton iterations and N plain periods"},

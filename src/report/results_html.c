@@ -7,6 +7,8 @@
 
 #include "core/error.h"
 
+#include <math.h>
+
 static int oom(br_error *err)
 {
     return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory rendering the HTML report");
@@ -100,12 +102,32 @@ int br_results_html(const br_results *r, const br_results_traces *tr, br_text *o
     return rc ? oom(err) : BR_OK;
 }
 
+/* The current direction whose driver supplies come nearest UVLO falling
+ * (the first on a tie, or when no margin applies): the one to plot. */
+static int binding_dir(const br_results *r)
+{
+    int best = 0;
+    double worst = HUGE_VAL;
+    for (int d = 0; d < r->ndir; d++)
+        for (int k = 0; k < r->c->n; k++) {
+            double m = r->figs[d].rail[k].m_uvlo;
+            if (m < worst) { /* NaN (no margin) never wins */
+                worst = m;
+                best = d;
+            }
+        }
+    return best;
+}
+
 int br_results_plot(const br_results *r, const br_results_traces *tr, br_text *out, br_error *err)
 {
     int rc = BR_OK;
-    if ((r->parts & BR_RUN_STARTUP) && tr->startup)
+    if ((r->parts & BR_RUN_STARTUP) && tr->startup) {
         rc = br_chart_startup(r->c, &r->su, tr->startup, 1, out);
-    else if (r->ndir > 0 && tr->steady[0])
-        rc = br_chart_ripple(r->c, &r->figs[0], tr->steady[0], 1, out);
+    } else if (r->ndir > 0) {
+        int d = binding_dir(r);
+        if (tr->steady[d])
+            rc = br_chart_ripple(r->c, &r->figs[d], tr->steady[d], 1, out);
+    }
     return rc ? oom(err) : BR_OK;
 }

@@ -299,6 +299,50 @@ static void test_every_plot_parses(void)
     remove_all(dir, names);
 }
 
+/* Smallest margin-uvlo-V of the rails of one <steady direction="dir">. */
+static double min_uvlo_margin(xmlDocPtr doc, const char *dir)
+{
+    double worst = HUGE_VAL;
+    for (xmlNodePtr n = xmlDocGetRootElement(doc)->children; n; n = n->next) {
+        if (n->type != XML_ELEMENT_NODE || xmlStrcmp(n->name, BAD_CAST "steady"))
+            continue;
+        xmlChar *d = xmlGetProp(n, BAD_CAST "direction");
+        int match = d && !xmlStrcmp(d, BAD_CAST dir);
+        xmlFree(d);
+        for (xmlNodePtr r = match ? n->children : NULL; r; r = r->next)
+            if (r->type == XML_ELEMENT_NODE && !xmlStrcmp(r->name, BAD_CAST "rail"))
+                worst = fmin(worst, prop(r, "margin-uvlo-V"));
+    }
+    return worst;
+}
+
+/* steady --plot draws the current direction whose driver supplies come
+ * nearest UVLO falling: at 2 MHz that is step-up, the second direction
+ * (its margin read back from the same run's --xml). */
+static void test_steady_plot_binding_direction(void)
+{
+    char dir[64], svg[96], xml[96];
+    temp_dir(dir, sizeof dir);
+    snprintf(svg, sizeof svg, "%s/p.svg", dir);
+    snprintf(xml, sizeof xml, "%s/p.xml", dir);
+    const char *args[] = {"steady", "tests/extreme/fsw-2mhz.xml", "--plot", svg, "--xml", xml,
+                          NULL};
+    run_result r = run(args);
+    CU_ASSERT_TRUE(r.status == 0 || r.status == 1);
+    done(&r);
+    xmlDocPtr doc = parse_file(xml, NULL);
+    double down = min_uvlo_margin(doc, "step-down"), up = min_uvlo_margin(doc, "step-up");
+    xmlFreeDoc(doc);
+    CU_ASSERT_TRUE(up < down);
+    char *text = NULL;
+    doc = parse_file(svg, &text);
+    CU_ASSERT_TRUE(has(text, "Steady state over two periods, step-up"));
+    xmlFreeDoc(doc);
+    free(text);
+    const char *names[] = {"p.svg", "p.xml", NULL};
+    remove_all(dir, names);
+}
+
 /* A steady state the solver is not allowed to settle: the report says
  * UNDETERMINED in its badge and its rows, as the terminal does, never
  * PASS; the page still parses. */
@@ -353,6 +397,7 @@ int main(void)
     static const br_test_case cases[] = {
         {"analyze --report: parses, self-contained, points are CSV rows", test_analyze_report},
         {"every verb's --plot and --report parse", test_every_plot_parses},
+        {"steady --plot draws the direction nearest UVLO", test_steady_plot_binding_direction},
         {"undetermined verdict in the report", test_undetermined_report},
         {"unwritable or clashing outputs: status 2", test_unwritable_report},
         {NULL, NULL},
