@@ -239,20 +239,30 @@ static int unit_fail(br_rd *r, xmlNode *n, const char *attr, const br_error *e)
     return br_rd_fail(r, n, attr, "%s", e->msg);
 }
 
+/* Attribute attr of n as text (ATTR_MAX bytes): *got is 1 when present
+ * (and *present likewise, when asked).  Returns the located error for a
+ * value too long to hold, BR_OK otherwise. */
+static int attr_text(br_rd *r, xmlNode *n, const char *attr, char *text, int *got, int *present)
+{
+    int has = br_xml_attr(n, attr, text, ATTR_MAX);
+    if (present)
+        *present = has != 0;
+    *got = has > 0;
+    if (has < 0)
+        return br_rd_fail(r, n, attr, "value longer than %d characters, expected at most %d",
+                          ATTR_MAX - 1, ATTR_MAX - 1);
+    return BR_OK;
+}
+
 int br_rd_qty(br_rd *r, xmlNode *n, const char *attr, br_kind kind, const br_range *range,
               br_qty *q, int *present)
 {
     char text[ATTR_MAX];
     br_error e;
     br_qty v;
-    int has = br_xml_attr(n, attr, text, sizeof text);
-    if (present)
-        *present = has != 0;
-    if (has == 0)
-        return BR_OK;
-    if (has < 0)
-        return br_rd_fail(r, n, attr, "value longer than %d characters, expected at most %d",
-                          ATTR_MAX - 1, ATTR_MAX - 1);
+    int got, rc = attr_text(r, n, attr, text, &got, present);
+    if (rc != BR_OK || !got)
+        return rc;
     br_error_clear(&e);
     if (br_qty_parse(text, kind, &v, &e) != BR_OK)
         return unit_fail(r, n, attr, &e);
@@ -269,14 +279,9 @@ int br_rd_value(br_rd *r, xmlNode *n, const char *attr, br_kind kind, const br_r
     char text[ATTR_MAX];
     br_error e;
     double x;
-    int has = br_xml_attr(n, attr, text, sizeof text);
-    if (present)
-        *present = has != 0;
-    if (has == 0)
-        return BR_OK;
-    if (has < 0)
-        return br_rd_fail(r, n, attr, "value longer than %d characters, expected at most %d",
-                          ATTR_MAX - 1, ATTR_MAX - 1);
+    int got, rc = attr_text(r, n, attr, text, &got, present);
+    if (rc != BR_OK || !got)
+        return rc;
     br_error_clear(&e);
     if (br_unit_parse(text, kind, &x, &e) != BR_OK)
         return unit_fail(r, n, attr, &e);
