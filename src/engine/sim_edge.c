@@ -79,7 +79,8 @@ int br_sim_edge_kind(const br_sim *s, int k, double ta, double tb, double fa, do
     if (!(fabs(qj) * (ca + cb) <= BR_EDGE_STILL_CJ * (hi - lo)))
         return BR_EDGE_NONE;
     /* leakage over the mean drive, and the junction charge spread over
-     * the interval (it leaves rail k-1 for rail k as the drive falls) */
+     * the interval (it goes back from rail k to rail k-1 as the drive
+     * falls, and forward as it rises) */
     *iblk = -br_diode_leak(d, -0.5 * (vjc + lo)) + (fa > fb ? -qj : qj) / (tb - ta);
     return fa > fb ? BR_EDGE_START : BR_EDGE_END;
 }
