@@ -160,7 +160,9 @@ static void settle_switches(br_sim *s)
 
 static void clear_state(br_sim *s)
 {
-    memset(s->x, 0, sizeof s->x);
+    /* every entry this chain can use, sensitivity included (the rest of
+     * x is never touched; br_sim_create zeroed it) */
+    memset(s->x, 0, sizeof(double) * (size_t)(s->phi0 + s->n * s->n));
     memset(s->en, 0, sizeof s->en);
     memset(s->held, 0, sizeof s->held);
     memset(s->il, 0, sizeof s->il);
@@ -689,6 +691,17 @@ void br_sim_stats_start(br_sim *s)
     br_sim_live_rebuild(s);
 }
 
+/* fmin and fmax, inlined (they are library calls), and like them passing
+ * over a NaN in b. */
+static inline double lower(double a, double b)
+{
+    return b < a ? b : a;
+}
+static inline double higher(double a, double b)
+{
+    return b > a ? b : a;
+}
+
 void br_sim_track_extremes(br_sim *s, double t)
 {
     if (!s->stats_on)
@@ -696,17 +709,17 @@ void br_sim_track_extremes(br_sim *s, double t)
     for (int k = 0; k < s->n; k++) {
         br_rail_stats *r = &s->st.rail[k];
         double vd = br_sim_vdrv(s, k, s->vr[k]);
-        r->vmin = fmin(r->vmin, s->vr[k]);
-        r->vmax = fmax(r->vmax, s->vr[k]);
-        r->vdrv_min = fmin(r->vdrv_min, vd);
-        r->vdrv_max = fmax(r->vdrv_max, vd);
-        r->vc_max = fmax(r->vc_max, k > 0 ? s->x[XI(k, F_VC)] : s->vr[0]);
+        r->vmin = lower(r->vmin, s->vr[k]);
+        r->vmax = higher(r->vmax, s->vr[k]);
+        r->vdrv_min = lower(r->vdrv_min, vd);
+        r->vdrv_max = higher(r->vdrv_max, vd);
+        r->vc_max = higher(r->vc_max, k > 0 ? s->x[XI(k, F_VC)] : s->vr[0]);
         if (k == 0)
             continue;
         br_link_stats *l = &s->st.link[k];
-        l->ipeak = fmax(l->ipeak, br_sim_forward(s, k));
+        l->ipeak = higher(l->ipeak, br_sim_forward(s, k));
         double vrev = br_sim_switch_v(s, k - 1, t) - (s->vr[k - 1] - s->vr[k]);
-        l->vrev_peak = fmax(l->vrev_peak, vrev);
+        l->vrev_peak = higher(l->vrev_peak, vrev);
     }
 }
 

@@ -254,6 +254,7 @@ static void variational(br_sim *s, const double *x, double *dx)
             D[k][j] = r[k];
     }
     for (int k = 0; k < n; k++) {
+        double ck = k > 0 ? rail_cap(s, k, x[XI(k, F_VC)]) : 0.0;
         for (int j = 0; j < n; j++) {
             double dout = k + 1 < n ? D[k + 1][j] : 0.0;
             if (k == 0) {
@@ -263,7 +264,7 @@ static void variational(br_sim *s, const double *x, double *dx)
             const br_aux *z = &s->c->st[k].aux;
             double diz =
                 (j == k && z->kind == BR_AUX_ZENER && x[XI(k, F_VC)] > z->vout) ? 1.0 / z->rz : 0.0;
-            A[k][j] = (D[k][j] - dout - diz) / br_sim_cap(s, k, x[XI(k, F_VC)]);
+            A[k][j] = (D[k][j] - dout - diz) / ck;
         }
     }
     /* A couples a rail to its neighbours; the ESRs reach further only by
@@ -307,7 +308,8 @@ void br_sim_rhs(br_sim *s, double t, const double *x, double *dx)
     int n = s->n;
     clamp_currents(s, x);
     solve_links(s, t, x);
-    for (int i = 0; i < s->nx; i++)
+    /* the variational equation writes every entry of its own */
+    for (int i = 0, nz = s->var ? s->phi0 : s->nx; i < nz; i++)
         dx[i] = 0.0;
     for (int k = 1; k < n; k++) {
         const br_stage *st = &s->c->st[k];
