@@ -30,14 +30,11 @@ double br_sim_vdrv(const br_sim *s, int k, double vr)
     return vr;
 }
 
-/* Rail k's capacitance at v for the hot loop: the piece of the DC-bias
- * line (flat beyond its ends, as br_cap_at) is kept from call to call, as
- * rails move little between evaluations. */
-static double rail_cap(br_sim *s, int k, double v)
+/* Find the piece of rail k's DC-bias line (flat beyond its ends, as
+ * br_cap_at) that holds v, and keep it. */
+static void rail_cap_piece(br_sim *s, int k, double v)
 {
     br_capseg *p = &s->capseg[k];
-    if (v > p->lo && v <= p->hi)
-        return p->c0 + p->slope * (v - p->at);
     const br_cap *cap = &s->c->st[k].cap;
     int n = cap->nbias, i = 0;
     while (i < n && v > cap->bias_v[i])
@@ -53,6 +50,16 @@ static double rail_cap(br_sim *s, int k, double v)
         p->c0 = cap->c * cap->bias_f[i - 1];
         p->slope = cap->c * (cap->bias_f[i] - cap->bias_f[i - 1]) / (p->hi - p->lo);
     }
+}
+
+/* Rail k's capacitance at v for the hot loop: rails move little between
+ * evaluations, so the piece of the DC-bias line last used usually holds
+ * v already. */
+static inline double rail_cap(br_sim *s, int k, double v)
+{
+    br_capseg *p = &s->capseg[k];
+    if (!(v > p->lo && v <= p->hi))
+        rail_cap_piece(s, k, v);
     return p->c0 + p->slope * (v - p->at);
 }
 
