@@ -32,11 +32,12 @@ static void on_uvlo(void *ctx, const br_uvlo_event *e)
         w->user->uvlo(w->user->ctx, e);
 }
 
-static void on_sample(void *ctx, double t, const double *vr, const double *il, int n)
+static void on_sample(void *ctx, const br_sim *s, double t, const double *vr, const double *il,
+                      int n)
 {
     watch *w = ctx;
     if (w->user && w->user->sample)
-        w->user->sample(w->user->ctx, t, vr, il, n);
+        w->user->sample(w->user->ctx, s, t, vr, il, n);
 }
 
 static int all_running(const br_sim *s, int n)

@@ -136,6 +136,15 @@ static double supply_v(const br_sim *s, double t)
     return c->vsupply;
 }
 
+void br_sim_sample_stress(const br_sim *s, double t, const double *vrail, int n, double *vdrv,
+                          double *vrev)
+{
+    for (int k = 0; k < n; k++) {
+        vdrv[k] = s ? br_sim_vdrv(s, k, vrail[k]) : vrail[k];
+        vrev[k] = s && k > 0 ? br_sim_switch_v(s, k - 1, t) - (vrail[k - 1] - vrail[k]) : NAN;
+    }
+}
+
 double br_sim_switch_v(const br_sim *s, int k, double t)
 {
     if (s->sslope[k] != 0.0 && t < s->send[k])
@@ -655,7 +664,7 @@ int br_sim_run_until(br_sim *s, double t_end, br_error *err)
             /* the corner at the end of a linear stretch, for observers
              * that plot (the integrator reports its own steps) */
             if (s->obs.sample)
-                s->obs.sample(s->obs.ctx, s->t, s->vr, s->il, s->n);
+                s->obs.sample(s->obs.ctx, s, s->t, s->vr, s->il, s->n);
         } else {
             br_sim_integrate(s, tb, &status);
             if (status < 0)

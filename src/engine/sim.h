@@ -63,8 +63,12 @@ typedef struct br_sim_observer {
     void *ctx;
     /* each UVLO transition */
     void (*uvlo)(void *ctx, const br_uvlo_event *e);
-    /* samples of the rails (t, vrail[n], ilink[n]) at accepted steps */
-    void (*sample)(void *ctx, double t, const double *vrail, const double *ilink, int n);
+    /* samples of the rails (t, vrail[n], ilink[n]) at accepted steps;
+     * s is the simulator at that instant, for br_sim_vdrv and
+     * br_sim_switch_v (the driver supplies and the diodes' reverse
+     * voltages), or NULL when the samples come from elsewhere */
+    void (*sample)(void *ctx, const br_sim *s, double t, const double *vrail, const double *ilink,
+                   int n);
 } br_sim_observer;
 
 /* Create a simulator for chain c (kept by pointer) analysing current
@@ -123,6 +127,14 @@ void br_sim_set_tolerance(br_sim *s, double rtol, double atol_v);
  * V: 0 on, its blocking voltage off, minus its drop reverse conducting,
  * ramps between.  For observers that plot diode stress. */
 double br_sim_switch_v(const br_sim *s, int k, double t);
+
+/* For a sample (t, vrail[n]) of simulator s: each rail's driver supply
+ * vdrv[k] (after its regulator) and each link diode's reverse voltage
+ * vrev[k], k >= 1 (across its return switch, less the difference of the
+ * rails it joins, as the statistics take it).  With s NULL (samples from
+ * elsewhere) the driver supplies are the rails and vrev is NaN. */
+void br_sim_sample_stress(const br_sim *s, double t, const double *vrail, int n, double *vdrv,
+                          double *vrev);
 
 /* Driver supply of stage k for rail voltage vr (after its regulator), V. */
 double br_sim_vdrv(const br_sim *s, int k, double vr);

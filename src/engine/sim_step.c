@@ -324,7 +324,7 @@ static double locate_uvlo(br_sim *s, double t, double h, const double *x, const 
 static void observe(br_sim *s, double t)
 {
     if (s->obs.sample)
-        s->obs.sample(s->obs.ctx, t, s->vr, s->il, s->n);
+        s->obs.sample(s->obs.ctx, s, t, s->vr, s->il, s->n);
 }
 
 double br_sim_integrate(br_sim *s, double tb, int *status)

@@ -12,6 +12,10 @@ int br_csv_header(const br_chain *c, br_text *out)
         rc |= br_text_printf(out, ",rail_%s_V", c->st[k].name);
     for (int k = 1; k < c->n; k++)
         rc |= br_text_printf(out, ",link_%s_A", c->st[k].name);
+    for (int k = 0; k < c->n; k++)
+        rc |= br_text_printf(out, ",drv_%s_V", c->st[k].name);
+    for (int k = 1; k < c->n; k++)
+        rc |= br_text_printf(out, ",vrev_%s_V", c->st[k].name);
     return rc | br_text_put(out, "\n") ? BR_ENOMEM : BR_OK;
 }
 
@@ -27,44 +31,62 @@ void br_csv_series_init(br_csv_series *s, br_text *out, const char *label, int n
     s->force = 1; /* the first sample always */
 }
 
+/* One column block: n values from `from`, a value that is not finite as
+ * an empty field. */
+static int put_values(br_text *out, const double *x, int from, int n)
+{
+    int rc = 0;
+    for (int k = from; k < n; k++)
+        rc |= isfinite(x[k]) ? br_text_printf(out, ",%.7g", x[k] == 0.0 ? 0.0 : x[k])
+                             : br_text_put(out, ",");
+    return rc;
+}
+
 /* 7 significant digits: 10 uV on a 15 V rail, finer than any figure the
  * reports quote; time gets more so that the rows of one period differ. */
-static void put_row(br_csv_series *s, double t, const double *v, const double *i)
+static void put_row(br_csv_series *s, double t, const double *v, const double *i, const double *vd,
+                    const double *vr)
 {
     if (s->row)
-        s->row(s->row_ctx, t, v, i);
+        s->row(s->row_ctx, t, v, i, vd, vr);
     s->last_t = t;
     s->rows++;
     s->held = 0;
     if (!s->out)
         return;
     int rc = br_text_printf(s->out, "%s,%.10g", s->label, t + s->t_offset);
-    for (int k = 0; k < s->n; k++) /* a value that is not finite: an empty field */
-        rc |= isfinite(v[k]) ? br_text_printf(s->out, ",%.7g", v[k]) : br_text_put(s->out, ",");
-    for (int k = 1; k < s->n; k++)
-        rc |= isfinite(i[k]) ? br_text_printf(s->out, ",%.7g", i[k] == 0.0 ? 0.0 : i[k])
-                             : br_text_put(s->out, ",");
+    rc |= put_values(s->out, v, 0, s->n);
+    rc |= put_values(s->out, i, 1, s->n); /* link 0 does not exist */
+    rc |= put_values(s->out, vd, 0, s->n);
+    rc |= put_values(s->out, vr, 1, s->n);
     rc |= br_text_put(s->out, "\n");
     s->failed |= rc != 0;
 }
 
-static void hold(br_csv_series *s, double t, const double *v, const double *i)
+static void hold(br_csv_series *s, double t, const double *v, const double *i, const double *vd,
+                 const double *vr)
 {
+    size_t bytes = sizeof(double) * (size_t)s->n;
     s->held = 1;
     s->ht = t;
-    memcpy(s->hv, v, sizeof(double) * (size_t)s->n);
-    memcpy(s->hi, i, sizeof(double) * (size_t)s->n);
+    memcpy(s->hv, v, bytes);
+    memcpy(s->hi, i, bytes);
+    memcpy(s->hd, vd, bytes);
+    memcpy(s->hr, vr, bytes);
 }
 
-static void on_sample(void *ctx, double t, const double *vrail, const double *ilink, int n)
+static void on_sample(void *ctx, const br_sim *sim, double t, const double *vrail,
+                      const double *ilink, int n)
 {
     br_csv_series *s = ctx;
+    double vd[BR_MAX_SWITCHES], vr[BR_MAX_SWITCHES];
     (void)n; /* the chain's n, fixed at init */
+    br_sim_sample_stress(sim, t, vrail, s->n, vd, vr);
     if (s->force || t - s->last_t >= s->min_dt) {
-        put_row(s, t, vrail, ilink);
+        put_row(s, t, vrail, ilink, vd, vr);
         s->force = 0;
     } else {
-        hold(s, t, vrail, ilink);
+        hold(s, t, vrail, ilink, vd, vr);
     }
 }
 
@@ -74,7 +96,7 @@ static void on_uvlo(void *ctx, const br_uvlo_event *e)
     br_csv_series *s = ctx;
     (void)e;
     if (s->held)
-        put_row(s, s->ht, s->hv, s->hi);
+        put_row(s, s->ht, s->hv, s->hi, s->hd, s->hr);
     s->force = 1;
 }
 
@@ -87,6 +109,6 @@ br_sim_observer br_csv_observer(br_csv_series *s)
 int br_csv_series_end(br_csv_series *s)
 {
     if (s->held)
-        put_row(s, s->ht, s->hv, s->hi);
+        put_row(s, s->ht, s->hv, s->hi, s->hd, s->hr);
     return s->failed ? BR_ENOMEM : BR_OK;
 }

@@ -1,9 +1,13 @@
 /* csv.h - time series of a simulation as CSV.
  *
  * One layout for every verb: a header line
- *   series,t_s,rail_<switch>_V,...,link_<switch>_A,...
+ *   series,t_s,rail_<switch>_V,...,link_<switch>_A,...,
+ *   drv_<switch>_V,...,vrev_<switch>_V,...
  * (rails 0..n-1 named by their switch, links 1..n-1 by the switch whose
- * rail they charge), then one row per kept sample.  `series` says which
+ * rail they charge; drv is the driver supply behind the rail's regulator,
+ * vrev the link diode's reverse voltage), then one row per kept sample.
+ * A sample fed without a simulator leaves drv equal to the rail and vrev
+ * empty.  `series` says which
  * run a row belongs to ("startup", "steady-step-down", ...), so one file
  * can hold a start-up and the steady periods of each direction.
  *
@@ -28,10 +32,13 @@ typedef struct br_csv_series {
     int held;          /* a sample was skipped and is held in ht/hv/hi */
     double ht;         /* its time, s */
     double hv[BR_MAX_SWITCHES], hi[BR_MAX_SWITCHES]; /* its rails V, links A */
+    double hd[BR_MAX_SWITCHES], hr[BR_MAX_SWITCHES]; /* its driver supplies, reverse V */
     int failed;                                      /* out of memory while appending */
-    /* Optional: told every row kept (simulator time, rails, links), so a
-     * plot can be drawn from exactly the rows of the file. */
-    void (*row)(void *ctx, double t, const double *v, const double *i);
+    /* Optional: told every row kept (simulator time, rails, links, driver
+     * supplies, reverse voltages), so a plot can be drawn from exactly the
+     * rows of the file. */
+    void (*row)(void *ctx, double t, const double *v, const double *i, const double *vd,
+                const double *vr);
     void *row_ctx;
 } br_csv_series;
 

@@ -35,9 +35,10 @@ static int oom(br_error *err, const char *what)
 }
 
 /* A row kept by a CSV series goes into a trace as well. */
-static void trace_row(void *ctx, double t, const double *v, const double *i)
+static void trace_row(void *ctx, double t, const double *v, const double *i, const double *vd,
+                      const double *vr)
 {
-    br_trace_add(ctx, t, v, i);
+    br_trace_add(ctx, t, v, i, vd, vr);
 }
 
 static int run_startup(br_results *r, br_text *csv, br_trace *tr, br_error *err)
@@ -77,7 +78,7 @@ static int steady_series(const br_chain *c, const br_steady *ss, br_text *csv, b
     br_csv_series s;
     br_csv_series_init(&s, csv, label, c->n, 0.0, ss->phase);
     if (tr) {
-        br_trace_follow(tr, sim, ss->phase);
+        br_trace_offset(tr, ss->phase);
         s.row = trace_row;
         s.row_ctx = tr;
     }
@@ -94,8 +95,6 @@ static int steady_series(const br_chain *c, const br_steady *ss, br_text *csv, b
     }
     if (rc == BR_OK && tr && tr->failed)
         rc = oom(err, "recording the steady periods");
-    if (tr)
-        br_trace_follow(tr, NULL, ss->phase);
     br_sim_free(sim);
     return rc;
 }

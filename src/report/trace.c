@@ -24,9 +24,8 @@ void br_trace_free(br_trace *tr)
     free(tr);
 }
 
-void br_trace_follow(br_trace *tr, const br_sim *sim, double t_offset)
+void br_trace_offset(br_trace *tr, double t_offset)
 {
-    tr->sim = sim;
     tr->t_offset = t_offset;
 }
 
@@ -53,7 +52,8 @@ static int reserve(br_trace *tr)
     return 1;
 }
 
-void br_trace_add(br_trace *tr, double t, const double *v, const double *i)
+void br_trace_add(br_trace *tr, double t, const double *v, const double *i, const double *vd,
+                  const double *vr)
 {
     if (tr->failed || !reserve(tr)) {
         tr->failed = 1;
@@ -63,20 +63,19 @@ void br_trace_add(br_trace *tr, double t, const double *v, const double *i)
     tr->t[tr->len] = t + tr->t_offset;
     memcpy(tr->v + at, v, bytes);
     memcpy(tr->i + at, i, bytes);
-    for (int k = 0; k < tr->n; k++) {
-        /* reverse voltage of link k: across its return switch, less the
-         * difference of the rails it joins (as the simulator's stats) */
-        tr->vd[at + k] = tr->sim ? br_sim_vdrv(tr->sim, k, v[k]) : v[k];
-        tr->vr[at + k] =
-            tr->sim && k > 0 ? br_sim_switch_v(tr->sim, k - 1, t) - (v[k - 1] - v[k]) : 0.0;
-    }
+    memcpy(tr->vd + at, vd, bytes);
+    memcpy(tr->vr + at, vr, bytes);
     tr->len++;
 }
 
-static void on_sample(void *ctx, double t, const double *vrail, const double *ilink, int n)
+static void on_sample(void *ctx, const br_sim *sim, double t, const double *vrail,
+                      const double *ilink, int n)
 {
+    br_trace *tr = ctx;
+    double vd[BR_MAX_SWITCHES], vr[BR_MAX_SWITCHES];
     (void)n; /* the trace's n, fixed at creation */
-    br_trace_add(ctx, t, vrail, ilink);
+    br_sim_sample_stress(sim, t, vrail, tr->n, vd, vr);
+    br_trace_add(tr, t, vrail, ilink, vd, vr);
 }
 
 br_sim_observer br_trace_observer(br_trace *tr)

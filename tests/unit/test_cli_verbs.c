@@ -139,7 +139,8 @@ static int check_csv(const char *path, int n, csv_series *s, int cap)
     char *csv = br_test_slurp(path, NULL);
     CU_ASSERT_PTR_NOT_NULL_FATAL(csv);
     CU_ASSERT_TRUE(strncmp(csv, "series,t_s,rail_", 16) == 0);
-    int fields = 2 + n + (n - 1), ns = 0, bad = 0;
+    /* series, time; rails and links; driver supplies and reverse voltages */
+    int fields = 2 + 2 * (n + (n - 1)), ns = 0, bad = 0;
     char *save = NULL;
     char *line = strtok_r(csv, "\n", &save);
     CU_ASSERT_EQUAL(count_char(line, ',') + 1, fields);

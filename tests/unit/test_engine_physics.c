@@ -420,9 +420,11 @@ typedef struct last_sample {
     double t_off, i;
 } last_sample;
 
-static void keep_before(void *ctx, double t, const double *vr, const double *il, int n)
+static void keep_before(void *ctx, const br_sim *s, double t, const double *vr, const double *il,
+                        int n)
 {
     last_sample *ls = ctx;
+    (void)s;
     (void)vr;
     (void)n;
     if (t <= ls->t_off)
