@@ -141,7 +141,7 @@ void br_sim_sample_stress(const br_sim *s, double t, const double *vrail, int n,
 {
     for (int k = 0; k < n; k++) {
         vdrv[k] = s ? br_sim_vdrv(s, k, vrail[k]) : vrail[k];
-        vrev[k] = s && k > 0 ? br_sim_switch_v(s, k - 1, t) - (vrail[k - 1] - vrail[k]) : NAN;
+        vrev[k] = s && k > 0 ? br_sim_link_vrev(s, vrail, k, t) : NAN;
     }
 }
 
@@ -440,7 +440,6 @@ static void build_seg(br_sim *s, double ta, double tb)
         g->active[k] = fa > -BR_VBLOCKED || fb > -BR_VBLOCKED;
         g->edge[k] =
             g->active[k] ? br_sim_edge_kind(s, k, ta, tb, fa, fb, &g->iblk[k]) : BR_EDGE_NONE;
-        g->sigma[k] = fabs(g->dslope[k]);
         if (g->edge[k] != BR_EDGE_NONE)
             g->active[k] = 0; /* blocked over it, iblk set */
         else
@@ -727,8 +726,7 @@ void br_sim_track_extremes(br_sim *s, double t)
             continue;
         br_link_stats *l = &s->st.link[k];
         l->ipeak = higher(l->ipeak, br_sim_forward(s, k));
-        double vrev = br_sim_switch_v(s, k - 1, t) - (s->vr[k - 1] - s->vr[k]);
-        l->vrev_peak = higher(l->vrev_peak, vrev);
+        l->vrev_peak = higher(l->vrev_peak, br_sim_link_vrev(s, s->vr, k, t));
     }
 }
 

@@ -93,7 +93,7 @@ static int sweep_link(br_sim *s, int k, double u, double t)
     const br_diode *d = &s->c->st[k].diode;
     br_diode_sweep w;
     br_diode_sweep_to(d, sweep_r(s, k), u, &w);
-    double sig = s->seg.sigma[k], q = w.q / sig;
+    double sig = fabs(s->seg.dslope[k]), q = w.q / sig; /* the rate the drive is swept at */
     if (!(q > 0.0))
         return 0;
     s->x[XI(k, F_VC)] += q / br_sim_cap(s, k, s->x[XI(k, F_VC)]);
@@ -118,17 +118,12 @@ static int sweep_link(br_sim *s, int k, double u, double t)
     return 1;
 }
 
-static double drive_at(const br_sim *s, int k, double t)
-{
-    return s->vr[k - 1] - s->vr[k] - br_sim_switch_v(s, k - 1, t);
-}
-
 int br_sim_edge_start(br_sim *s)
 {
     int moved = 0;
     for (int k = 1; k < s->n; k++)
         if (s->seg.edge[k] == BR_EDGE_START)
-            moved |= sweep_link(s, k, drive_at(s, k, s->t), s->t);
+            moved |= sweep_link(s, k, -br_sim_link_vrev(s, s->vr, k, s->t), s->t);
     if (moved)
         s->k1_valid = 0;
     return moved;
@@ -139,7 +134,7 @@ int br_sim_edge_end(br_sim *s, double tb)
     int moved = 0;
     for (int k = 1; k < s->n; k++)
         if (s->seg.edge[k] == BR_EDGE_END)
-            moved |= sweep_link(s, k, drive_at(s, k, tb), tb);
+            moved |= sweep_link(s, k, -br_sim_link_vrev(s, s->vr, k, tb), tb);
     if (moved)
         s->k1_valid = 0;
     return moved;

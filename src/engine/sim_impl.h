@@ -23,6 +23,14 @@ enum {
     BR_EDGE_END       /* the edge lets the link conduct at the interval end */
 };
 
+/* The Runge-Kutta pairs, chosen per interval (sim_step.c). */
+typedef enum br_rk_pair {
+    BR_PAIR_DP45 = 0, /* Dormand-Prince 5(4): the fast path's longer intervals */
+    BR_PAIR_BS23,     /* Bogacki-Shampine 3(2): its short intervals */
+    BR_PAIR_HE21,     /* Heun-Euler 2(1): its shortest (edges, gate pulses) */
+    BR_PAIR_RK8       /* GSL rk8pd: the reference path */
+} br_rk_pair;
+
 #define BR_HMEM 512 /* intervals of one period remembered for their steps */
 
 /* Layout of the integrated vector, stage by stage so that only n * NF
@@ -62,7 +70,6 @@ typedef struct br_seg {
     double rpath[BR_N];            /* rs excluded: link resistor + return switch Rds(on) */
     int zener;                     /* some rail has a clamp that may conduct */
     int edge[BR_N];                /* BR_EDGE_* of link k (then taken as blocked) */
-    double sigma[BR_N];            /* the rate its drive is swept at, V/s */
 } br_seg;
 
 struct br_sim {
@@ -116,7 +123,7 @@ struct br_sim {
     double rk[6][X_SIZE]; /* stages of the Runge-Kutta step */
     int k1_valid;         /* k1 matches the present state */
     double hlast;         /* last accepted RK step, s (0: none yet) */
-    int low;              /* the interval in progress uses the 3(2) pair */
+    int pair;             /* br_rk_pair of the interval in progress */
     /* First step of each interval of the last period, by its place in the
      * period: the next period starts each interval with it (0: none) */
     double hmem[BR_HMEM];
@@ -177,6 +184,14 @@ int br_sim_edge_kind(const br_sim *s, int k, double ta, double tb, double fa, do
  * off) or end (links let on).  Return 1 when some charge moved. */
 int br_sim_edge_start(br_sim *s);
 int br_sim_edge_end(br_sim *s, double tb);
+
+/* Reverse voltage of link k at time t for rail node voltages vr: across
+ * its return switch, less the difference of the rails it joins (its
+ * drive is minus this). */
+static inline double br_sim_link_vrev(const br_sim *s, const double *vr, int k, double t)
+{
+    return br_sim_switch_v(s, k - 1, t) - (vr[k - 1] - vr[k]);
+}
 
 /* Forward (conduction) current of link k in the workspace: an active
  * link's current less its junction-capacitance share; 0 when blocked.

@@ -34,11 +34,12 @@ static const double E1 = 71.0 / 57600, E3 = -71.0 / 16695, E4 = 71.0 / 1920, E5 
  * (exponential quadrature, e.g. Hochbruck & Ostermann, "Exponential
  * integrators", Acta Numerica 19, 2010).  Below the threshold the pair
  * integrates q like every other state. */
-#define BR_QEXP_LAMBDA 2.0
-/* Intervals up to this fraction of the period use the 3(2) pair. */
-#define BR_SHORT_INTERVAL (1.0 / 64)
-/* Intervals up to this fraction of the period use the 2(1) pair. */
-#define BR_EDGE_INTERVAL (1.0 / 256) /* h/tau above which q is taken exponentially */
+#define BR_QEXP_LAMBDA 2.0 /* h/tau above which q is taken exponentially */
+
+/* Intervals up to these fractions of the period take a lower order: one
+ * step spans them either way, with fewer evaluations. */
+#define BR_SHORT_INTERVAL (1.0 / 64) /* the 3(2) pair */
+#define BR_EDGE_INTERVAL (1.0 / 256) /* the 2(1) pair */
 
 /* Weights of the current at s = 0, ca and 1 (step fractions, 0 < ca < 1)
  * in integral_0^1 exp(-lam (1 - s)) i(s) ds: the moments of the quadratic
@@ -259,14 +260,19 @@ static void rk8_step(br_sim *s, double t, double h, const double *x, double *y, 
 static void take_step(br_sim *s, double t, double h, const double *x, const double *k1, double *y,
                       double *e, double *kend)
 {
-    if (s->integ == BR_INTEG_REFERENCE)
+    switch (s->pair) {
+    case BR_PAIR_RK8:
         rk8_step(s, t, h, x, y, e, kend);
-    else if (s->low == 2)
+        break;
+    case BR_PAIR_HE21:
         he21_step(s, t, h, x, k1, y, e, kend);
-    else if (s->low)
+        break;
+    case BR_PAIR_BS23:
         bs23_step(s, t, h, x, k1, y, e, kend);
-    else
+        break;
+    default:
         dp45_step(s, t, h, x, k1, y, e, kend);
+    }
 }
 
 /* The larger of a and b, and NaN when b is NaN: a step whose error is not
@@ -321,6 +327,18 @@ static double locate_uvlo(br_sim *s, double t, double h, const double *x, const 
     return hi;
 }
 
+/* The pair for an interval of length len.  Heun-Euler has no stage inside
+ * the step for the stored charges' exponential quadrature, so chains with
+ * stored charge stop at Bogacki-Shampine. */
+static int choose_pair(const br_sim *s, double len)
+{
+    if (s->integ == BR_INTEG_REFERENCE)
+        return BR_PAIR_RK8;
+    if (len <= BR_EDGE_INTERVAL * s->tm.T && !s->stored)
+        return BR_PAIR_HE21;
+    return len <= BR_SHORT_INTERVAL * s->tm.T ? BR_PAIR_BS23 : BR_PAIR_DP45;
+}
+
 static void observe(br_sim *s, double t)
 {
     if (s->obs.sample)
@@ -330,12 +348,11 @@ static void observe(br_sim *s, double t)
 double br_sim_integrate(br_sim *s, double tb, int *status)
 {
     double t = s->t, k1[X_SIZE], y[X_SIZE], e[X_SIZE], kend[X_SIZE];
-    /* the short intervals around the edges take the lower order: one
-     * step spans them either way, at half the evaluations */
-    s->low = s->integ != BR_INTEG_REFERENCE && tb - t <= BR_SHORT_INTERVAL * s->tm.T;
-    if (s->low && !s->stored && tb - t <= BR_EDGE_INTERVAL * s->tm.T)
-        s->low = 2;
-    int p = s->integ == BR_INTEG_REFERENCE ? 7 : s->low == 2 ? 1 : s->low ? 2 : 4;
+    /* order of each pair's error estimate, for the step-size controller */
+    static const int order[] = {
+        [BR_PAIR_DP45] = 4, [BR_PAIR_BS23] = 2, [BR_PAIR_HE21] = 1, [BR_PAIR_RK8] = 7};
+    s->pair = choose_pair(s, tb - t);
+    int p = order[s->pair];
     /* an interval starts with the step its twin of the last period began
      * with: periods repeat, and the step carried from the interval before
      * (a different stretch of the circuit) is often far off */
@@ -401,7 +418,7 @@ double br_sim_integrate(br_sim *s, double tb, int *status)
         double hn = next_h(h, err, p);
         s->hlast = cut ? fmax(s->hlast, hn) : hn;
         h = s->hlast;
-        if (s->low == 2 && t < tb)
+        if (s->pair == BR_PAIR_HE21 && t < tb) /* its kend is not at y */
             br_sim_rhs(s, t, s->x, k1);
         else
             memcpy(k1, kend, sizeof(double) * (size_t)s->nx);
