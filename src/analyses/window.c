@@ -90,8 +90,6 @@ static int judge_at(sweep_ctx *x, double u, br_hold_point *pt)
     return BR_OK;
 }
 
-/* The function Brent sees: the worst margin, V; a steady state not found
- * counts as failing by 1 V so the function stays finite. */
 /* The margin as Brent's method sees it: its sign always says whether the
  * point holds (a point without a periodic steady state fails whatever its
  * margin), so every bracket of a holding and a failing end straddles zero

@@ -7,8 +7,6 @@
 
 #include "core/error.h"
 
-#include <math.h>
-
 static int oom(br_error *err)
 {
     return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory rendering the HTML report");
@@ -102,21 +100,15 @@ int br_results_html(const br_results *r, const br_results_traces *tr, br_text *o
     return rc ? oom(err) : BR_OK;
 }
 
-/* The current direction whose driver supplies come nearest UVLO falling
- * (the first on a tie, or when no margin applies): the one to plot. */
+/* The current direction whose driver supplies come nearest UVLO falling,
+ * as the verdict found it (the first when that row does not apply). */
 static int binding_dir(const br_results *r)
 {
-    int best = 0;
-    double worst = HUGE_VAL;
-    for (int d = 0; d < r->ndir; d++)
-        for (int k = 0; k < r->c->n; k++) {
-            double m = r->figs[d].rail[k].m_uvlo;
-            if (m < worst) { /* NaN (no margin) never wins */
-                worst = m;
-                best = d;
-            }
-        }
-    return best;
+    const br_verdict_row *row = &r->verdict.row[BR_CRIT_UVLO];
+    for (int d = 0; row->applies && d < r->ndir; d++)
+        if (r->figs[d].dir == row->dir)
+            return d;
+    return 0;
 }
 
 int br_results_plot(const br_results *r, const br_results_traces *tr, br_text *out, br_error *err)
