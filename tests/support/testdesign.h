@@ -9,7 +9,7 @@
  * on the defaults; values are plain and documented in testdesign.c. */
 br_design *br_test_fcml(int levels, double vin, double fsw, double duty, double deadtime);
 
-/* ---- reference cases: the json files in ../shared/reference ---- */
+/* ---- reference cases: the json files in tests/data/reference ---- */
 
 /* Value of the first "key": number after position from in json; NAN when
  * missing or null.  *next (may be NULL) gets the position after it. */

@@ -1,7 +1,7 @@
 /* test_engine_reference.c - the engine against two chains computed by an
  * independent general-purpose circuit simulator on the same model
  * (reference transient of the same model, ngspice 39; files and model in
- * ../shared/reference/).  Tolerances are those the project set for this
+ * tests/data/reference/).  Tolerances are those the project set for this
  * check: steady rails within 20 mV, final start-up times within 5 %,
  * dropout counts within 2, link mean currents within 1 %.
  *
