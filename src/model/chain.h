@@ -110,6 +110,15 @@ void br_cap_at_nominal(const br_cap_part *p, br_cap *out);
 /* Effective capacitance of rail k at bias v (DC-bias table applied), F. */
 double br_cap_at(const br_cap *cap, double v);
 
+/* Charge a capacitor takes from va to vb: the integral of br_cap_at over
+ * [va, vb], exact for the piecewise-linear DC-bias line (negative when
+ * vb < va), C. */
+double br_cap_charge(const br_cap *cap, double va, double vb);
+
+/* The voltage a capacitor at v0 reaches once it has taken charge dq
+ * (negative: given it): the inverse of br_cap_charge, V. */
+double br_cap_after_charge(const br_cap *cap, double v0, double dq);
+
 /* Gate charge drawn at a turn-on edge when the drive voltage is v, C. */
 double br_sw_qg_at(const br_sw *sw, double v);
 
