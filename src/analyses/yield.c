@@ -171,8 +171,10 @@ static int crit_stats(br_yield *y, int crit, double *m, long *idx, double *scrat
     long k = gather(y, crit, m, idx);
     c->judged = k;
     c->applies = k > 0;
-    for (long a = 0; a < k; a++)
+    for (long a = 0; a < k; a++) {
         c->fails += !y->pts[idx[a]].row[crit].pass;
+        c->warns += y->pts[idx[a]].row[crit].pass && y->pts[idx[a]].row[crit].warn;
+    }
     for (int j = 0; j < BR_TOL_MAX; j++)
         c->rho[j] = NAN;
     if (k == 0)

@@ -93,10 +93,16 @@ struct br_chain {
     int nprecharge;
     br_precharge precharge[BR_MAX_PRECHARGE];
     double min_drive, derating, startup_max;
+    int max_dropouts; /* start-up dropouts allowed per stage, -1: not stated */
 };
 
 /* Build at explicit values: d with every br_qty read at .nom. */
 int br_chain_build_nominal(const br_design *d, br_chain *c, br_error *err);
+
+/* Rail voltage driver k needs to start (UVLO rising, plus the
+ * regulator's dropout when the rail feeds the driver through one), V;
+ * HUGE_VAL when a regulator's output is below UVLO rising. */
+double br_rail_start_voltage(const br_chain *c, int k);
 
 /* Thermal voltage kT/q at T (K), V. */
 double br_thermal_voltage(double T);

@@ -70,6 +70,14 @@ double br_cap_at(const br_cap *cap, double v)
     return cap->c * cap->bias_f[n - 1];
 }
 
+double br_rail_start_voltage(const br_chain *c, int k)
+{
+    const br_stage *st = &c->st[k];
+    if (st->aux.kind != BR_AUX_LDO)
+        return st->drv.uvlo_rise;
+    return st->drv.uvlo_rise < st->aux.vout ? st->drv.uvlo_rise + st->aux.dropout : HUGE_VAL;
+}
+
 /* ---- charge on the DC-bias line ------------------------------------------ */
 
 /* The breakpoint of the table next after v in the direction dir (+1 up,
