@@ -266,7 +266,8 @@ int br_yield_csv(const br_yield *y, br_text *out)
         for (int j = 0; j < k; j++)
             rc |= br_text_printf(out, ",%.9g", y->values[i * k + j]);
         for (int crit = 0; crit < BR_CRIT_COUNT; crit++) {
-            if (p->status == BR_OK && p->row[crit].applies)
+            /* no number for a margin that is not one (a rail that never starts) */
+            if (p->status == BR_OK && p->row[crit].applies && isfinite(p->row[crit].margin))
                 rc |= br_text_printf(out, ",%.9g", p->row[crit].margin);
             else
                 rc |= br_text_put(out, ",");

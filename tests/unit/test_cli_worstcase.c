@@ -138,6 +138,58 @@ static void test_dropouts_judged(void)
     rmdir(dir);
 }
 
+/* The demo on an 8.8 V supply: its top rails never start.  yield --startup
+ * counts every sample as failing the start-up, prints "never starts" in
+ * place of margins it does not have (no NaN, no infinity), and leaves
+ * the CSV cell empty. */
+static void test_yield_never_starts(void)
+{
+    char dir[] = "/tmp/br-wc-XXXXXX", path[64], csv[64], row[200];
+    CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(dir));
+    snprintf(path, sizeof path, "%s/d.xml", dir);
+    snprintf(csv, sizeof csv, "%s/y.csv", dir);
+    char *src = br_test_slurp(DEMO, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(src);
+    const char *from = "voltage=\"12 V +-5%\"";
+    char *at = strstr(src, from);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(at);
+    FILE *f = fopen(path, "w");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(f);
+    fprintf(f, "%.*svoltage=\"8.8 V +-5%%\"%s", (int)(at - src), src, at + strlen(from));
+    fclose(f);
+    free(src);
+    run_result r =
+        run((const char *[]){"yield", "--startup", "--samples", "3", "--csv", csv, path, NULL});
+    CU_ASSERT_EQUAL(r.status, 1);
+    CU_ASSERT_TRUE(line_of(r.out, "  startup ", row, sizeof row));
+    long fails = -1;
+    CU_ASSERT_EQUAL(sscanf(row, " startup %ld", &fails), 1);
+    CU_ASSERT_EQUAL(fails, 3);
+    CU_ASSERT_PTR_NOT_NULL(strstr(row, "never starts"));
+    CU_ASSERT_PTR_NULL(strstr(r.out, "nan"));
+    CU_ASSERT_PTR_NULL(strstr(r.out, "inf "));
+    done(&r);
+    char *text = br_test_slurp(csv, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(text);
+    CU_ASSERT_PTR_NULL(strstr(text, "inf"));
+    CU_ASSERT_PTR_NULL(strstr(text, "nan"));
+    /* sample 1: pass 0, then the 3 parameters, then an empty start-up margin */
+    const char *line = strchr(text, '\n');
+    CU_ASSERT_PTR_NOT_NULL_FATAL(line);
+    CU_ASSERT_TRUE(strncmp(line + 1, "1,0,", 4) == 0);
+    const char *cell = line + 1;
+    for (int c = 0; c < 5 && cell; c++) {
+        cell = strchr(cell, ',');
+        cell = cell ? cell + 1 : NULL;
+    }
+    CU_ASSERT_PTR_NOT_NULL_FATAL(cell);
+    CU_ASSERT_EQUAL(*cell, ',');
+    free(text);
+    unlink(csv);
+    unlink(path);
+    rmdir(dir);
+}
+
 /* ---- yield ----------------------------------------------------------------- */
 
 /* Same seed, one thread or two: the same report, byte for byte. */
@@ -298,6 +350,7 @@ int main(void)
         {"corners: the report", test_corners_report},
         {"corners: the XML document", test_corners_xml},
         {"corners and yield judge the start-up dropouts", test_dropouts_judged},
+        {"yield: samples where a rail never starts", test_yield_never_starts},
         {"yield: same seed, 1 or 2 threads, same report", test_yield_threads},
         {"yield: CSV and XML files, --min-yield", test_yield_files},
         {"pick: rejections, no passing choice, a broken catalog", test_pick},
