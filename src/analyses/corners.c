@@ -19,11 +19,6 @@ void br_corners_opts_default(br_corners_opts *o)
     o->progress = NULL;
 }
 
-int br_crit_is_startup(int crit)
-{
-    return crit == BR_CRIT_STARTUP || crit == BR_CRIT_INRUSH;
-}
-
 /* The steady-state row's margin is the solver's own drift, not a circuit
  * figure: it has no sensitivity worth following. */
 static int is_searched(int crit)
@@ -136,9 +131,12 @@ static int guided_corners(const br_spread *s, int crit, int cap, corner_list *l,
     double effect[BR_TOL_MAX];
     int set[BR_TOL_MAX], m = 0;
     br_corner_sensitivity(s, crit, base, effect);
+    /* an infinite effect (a limit at which a rail never starts) is kept
+     * whatever the others, and does not set the floor */
     double top = 0.0;
     for (int j = 0; j < s->tl.n; j++)
-        top = fmax(top, effect[j]);
+        if (isfinite(effect[j]))
+            top = fmax(top, effect[j]);
     /* a parameter that moves the margin by less than SENS_FLOOR of the
      * strongest one stays at the limit that lowers it */
     for (int j = 0; j < s->tl.n; j++)

@@ -14,7 +14,7 @@
  *    and the limit that lowers its margin; then every corner of its most
  *    sensitive parameters (up to max_sensitive), the others held at the
  *    limit that lowers the margin (or nominal when neither does).
- * Start-up criteria (start-up time, inrush) need a cold start at each
+ * Start-up criteria (start-up time, inrush, dropouts) need a cold start at each
  * point, about a hundred periods, so they get their own, smaller search
  * of the same two kinds (startup_max_exhaustive, startup_max_sensitive).
  * Those points judge the steady-state criteria too and count for them.
@@ -70,9 +70,6 @@ void br_corners_opts_default(br_corners_opts *o);
  * o->progress asks to stop (nothing is returned). */
 int br_corners_run(const br_design *d, const br_corners_opts *o, br_corners **out, br_error *err);
 void br_corners_free(br_corners *c);
-
-/* 1 for the criteria that need the cold start (start-up time, inrush). */
-int br_crit_is_startup(int crit);
 
 /* The rail headroom (br_pt.headroom) as one more objective of the
  * searches, after the criteria: it finds the corners where a regulated

@@ -83,15 +83,32 @@ void br_steady_figures(const br_chain *c, const br_steady *ss, br_steady_figs *o
 
 /* ---- verdict ------------------------------------------------------------- */
 
-static const char *const NAMES[BR_CRIT_COUNT] = {"startup", "inrush",        "steady-state",
-                                                 "restart", "uvlo",          "drive",
-                                                 "gate",    "diode-reverse", "capacitor-voltage"};
+static const char *const NAMES[BR_CRIT_COUNT] = {[BR_CRIT_STARTUP] = "startup",
+                                                 [BR_CRIT_INRUSH] = "inrush",
+                                                 [BR_CRIT_DROPOUTS] = "dropouts",
+                                                 [BR_CRIT_STEADY] = "steady-state",
+                                                 [BR_CRIT_RESTART] = "restart",
+                                                 [BR_CRIT_UVLO] = "uvlo",
+                                                 [BR_CRIT_DRIVE] = "drive",
+                                                 [BR_CRIT_GATE] = "gate",
+                                                 [BR_CRIT_DIODE_VR] = "diode-reverse",
+                                                 [BR_CRIT_CAP_V] = "capacitor-voltage"};
 static const char *const TITLES[BR_CRIT_COUNT] = {
-    "every driver starts from cold",           "link inrush within the diode surge rating",
-    "periodic steady state exists and holds",  "rails stay above UVLO rising (restart)",
-    "rails stay above UVLO falling",           "drive voltage above the useful minimum",
-    "gate voltage below its absolute maximum", "diode reverse voltage within derated rating",
-    "capacitor voltage within its rating"};
+    [BR_CRIT_STARTUP] = "every driver starts from cold",
+    [BR_CRIT_INRUSH] = "link inrush within the diode surge rating",
+    [BR_CRIT_DROPOUTS] = "start-up dropouts per stage within the limit",
+    [BR_CRIT_STEADY] = "periodic steady state exists and holds",
+    [BR_CRIT_RESTART] = "rails stay above UVLO rising (restart)",
+    [BR_CRIT_UVLO] = "rails stay above UVLO falling",
+    [BR_CRIT_DRIVE] = "drive voltage above the useful minimum",
+    [BR_CRIT_GATE] = "gate voltage below its absolute maximum",
+    [BR_CRIT_DIODE_VR] = "diode reverse voltage within derated rating",
+    [BR_CRIT_CAP_V] = "capacitor voltage within its rating"};
+static const char *const UNITS[BR_CRIT_COUNT] = {
+    [BR_CRIT_STARTUP] = "s", [BR_CRIT_INRUSH] = "A",  [BR_CRIT_DROPOUTS] = "",
+    [BR_CRIT_STEADY] = "V",  [BR_CRIT_RESTART] = "V", [BR_CRIT_UVLO] = "V",
+    [BR_CRIT_DRIVE] = "V",   [BR_CRIT_GATE] = "V",    [BR_CRIT_DIODE_VR] = "V",
+    [BR_CRIT_CAP_V] = "V"};
 
 const char *br_crit_name(int crit)
 {
@@ -100,6 +117,20 @@ const char *br_crit_name(int crit)
 const char *br_crit_title(int crit)
 {
     return crit >= 0 && crit < BR_CRIT_COUNT ? TITLES[crit] : "?";
+}
+const char *br_crit_unit(int crit)
+{
+    return crit >= 0 && crit < BR_CRIT_COUNT ? UNITS[crit] : "";
+}
+
+int br_crit_is_startup(int crit)
+{
+    return crit == BR_CRIT_STARTUP || crit == BR_CRIT_INRUSH || crit == BR_CRIT_DROPOUTS;
+}
+
+int br_crit_never(int crit, double value)
+{
+    return crit == BR_CRIT_STARTUP && isinf(value);
 }
 
 /* Keep the row with the smallest margin. */
@@ -127,13 +158,84 @@ static void consider(br_verdict_row *r, double figure, double limit, double marg
     r->dir = dir;
 }
 
-/* A start-up the integrator could not finish decides neither row. */
+/* A start-up the integrator could not finish decides none of its rows. */
 static void startup_failed(const br_startup *su, br_verdict *v)
 {
-    for (int i = BR_CRIT_STARTUP; i <= BR_CRIT_INRUSH; i++) {
+    for (int i = 0; i < BR_CRIT_COUNT; i++) {
+        if (!br_crit_is_startup(i))
+            continue;
         v->row[i].undetermined = 1;
         snprintf(v->row[i].note, sizeof v->row[i].note, "%.159s", su->why);
     }
+}
+
+/* The stage whose driver started for good last (what sets the time). */
+static int last_started(const br_startup *su)
+{
+    int last = 0;
+    for (int k = 0; k < su->n; k++)
+        if (su->st[k].final_enable >= su->st[last].final_enable)
+            last = k;
+    return last;
+}
+
+/* A rail that never starts has no start-up time: the figure is infinite,
+ * not the time simulated, so no margin is shown and every search ranks it
+ * below any start that is merely late.  The note says where the rail
+ * settles against what its driver needs. */
+static void never_starts(const br_chain *c, const br_startup *su, br_verdict_row *r)
+{
+    int k = su->first_stalled >= 0 && su->first_stalled < c->n ? su->first_stalled : 0;
+    double vneed = br_rail_start_voltage(c, k), vend = su->st[k].vend;
+    r->applies = 1;
+    r->pass = 0;
+    r->figure = HUGE_VAL;
+    r->limit = c->startup_max;
+    r->margin = -HUGE_VAL;
+    r->stage = k;
+    r->dir = BR_DIRI_NONE;
+    if (!isfinite(vneed))
+        snprintf(r->note, sizeof r->note,
+                 "rail %d (%s) never starts: its regulator's output is below UVLO rising", k,
+                 c->st[k].name);
+    else if (vend >= vneed)
+        snprintf(r->note, sizeof r->note,
+                 "rail %d (%s) never starts: at %.3f V, above the %.3f V it needs, its driver "
+                 "dropped out %d times",
+                 k, c->st[k].name, vend, vneed, su->st[k].ndropouts);
+    else
+        snprintf(r->note, sizeof r->note,
+                 "rail %d (%s) never starts: it settles at %.3f V, %.3f V below the %.3f V its "
+                 "driver needs",
+                 k, c->st[k].name, vend, vneed - vend, vneed);
+}
+
+/* The stage with the most start-up dropouts against the design's limit,
+ * or against the warning level when it states none (then it only warns). */
+static void dropout_row(const br_chain *c, const br_startup *su, br_verdict_row *r)
+{
+    int most = 0;
+    for (int k = 1; k < su->n; k++)
+        if (su->st[k].ndropouts > su->st[most].ndropouts)
+            most = k;
+    int n = su->st[most].ndropouts, stated = c->max_dropouts >= 0;
+    int limit = stated ? c->max_dropouts : BR_DROPOUTS_WARN;
+    r->applies = 1;
+    r->figure = n;
+    r->limit = limit;
+    r->margin = (double)limit - n;
+    r->stage = n > 0 ? most : -1;
+    r->dir = BR_DIRI_NONE;
+    r->pass = !stated || n <= limit;
+    r->warn = !stated && n > limit;
+    if (n == 0)
+        snprintf(r->note, sizeof r->note, "no driver dropped out during the start-up");
+    else
+        snprintf(r->note, sizeof r->note,
+                 "rail %d (%s) dropped out %d times during the start-up, the most of any stage; "
+                 "%s %d",
+                 most, c->st[most].name, n,
+                 stated ? "the design allows" : "no limit stated, a warning above", limit);
 }
 
 static void startup_rows(const br_chain *c, const br_startup *su, br_verdict *v)
@@ -143,11 +245,14 @@ static void startup_rows(const br_chain *c, const br_startup *su, br_verdict *v)
         startup_failed(su, v);
         return;
     }
-    double fig = su->complete ? su->t_total : su->t_simulated;
-    consider(r, fig, c->startup_max, c->startup_max - fig, su->first_stalled, BR_DIRI_NONE);
-    r->pass = su->complete && fig <= c->startup_max;
-    if (!su->complete)
-        snprintf(r->note, sizeof r->note, "rail %d never starts for good", su->first_stalled);
+    if (su->complete) {
+        consider(r, su->t_total, c->startup_max, c->startup_max - su->t_total, last_started(su),
+                 BR_DIRI_NONE);
+        r->pass = su->t_total <= c->startup_max;
+    } else {
+        never_starts(c, su, r);
+    }
+    dropout_row(c, su, &v->row[BR_CRIT_DROPOUTS]);
     r = &v->row[BR_CRIT_INRUSH];
     for (int k = 1; k < c->n; k++) {
         double ifsm = c->st[k].diode.ifsm;
@@ -186,8 +291,6 @@ static void steady_rows(const br_chain *c, const br_steady_figs *f, br_verdict *
     }
 }
 
-static const char *UNITS[BR_CRIT_COUNT] = {"s", "A", "V", "V", "V", "V", "V", "V", "V"};
-
 /* An undetermined row stays undetermined unless trustworthy data make it
  * fail anyway; without any data its numbers are NaN (printed "n/a"). */
 static void settle_row(br_verdict_row *r)
@@ -217,13 +320,16 @@ static void finish_rows(br_verdict *v)
         br_verdict_row *r = &v->row[i];
         r->crit = i;
         r->unit = UNITS[i];
-        if (i != BR_CRIT_STARTUP && i != BR_CRIT_STEADY && r->applies)
+        /* the start-up time, the steady state and the dropouts set their own */
+        if (i != BR_CRIT_STARTUP && i != BR_CRIT_STEADY && i != BR_CRIT_DROPOUTS && r->applies)
             r->pass = r->margin >= 0;
         settle_row(r);
         if (!r->applies && !r->note[0] && why[i])
             snprintf(r->note, sizeof r->note, "%s", why[i]);
+        r->warn = r->warn && r->applies && r->pass && !r->undetermined;
         v->nundetermined += r->undetermined;
         v->nfail += r->applies && !r->pass && !r->undetermined;
+        v->nwarn += r->warn;
     }
     v->all_pass = v->nfail == 0 && v->nundetermined == 0;
 }

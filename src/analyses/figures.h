@@ -54,6 +54,9 @@ br_rail_fig br_rail_fig_worst(const br_steady_figs *f, int ndir, int k);
 typedef enum br_crit {
     BR_CRIT_STARTUP = 0, /* every driver starts within the allowed time */
     BR_CRIT_INRUSH,      /* link inrush peak within the diode's surge rating */
+    BR_CRIT_DROPOUTS,    /* start-up dropouts of any one stage within the design's
+                            limit (max-dropouts); without one, more than
+                            BR_DROPOUTS_WARN only warn */
     BR_CRIT_STEADY,      /* a periodic steady state exists and holds */
     BR_CRIT_RESTART,     /* every rail stays above UVLO rising (restarts after a dropout) */
     BR_CRIT_UVLO,        /* every driver stays above UVLO falling */
@@ -68,12 +71,18 @@ typedef struct br_verdict_row {
     int crit;    /* br_crit */
     int applies; /* 0: not checked (say why in note) */
     int pass;
+    int warn;                     /* passes, with a finding the note states
+                                     (start-up dropouts above the warning
+                                     level of a design without a limit) */
     int undetermined;             /* applies, but the figures it needs are not
                                      trustworthy (a solver did not converge, a
                                      value is not finite): neither pass nor fail,
                                      and pass is 0; note says why */
-    double figure, limit, margin; /* in the criterion's unit */
-    const char *unit;             /* "s", "V", "A", "%" */
+    double figure, limit, margin; /* in the criterion's unit; a rail that
+                                     never starts: figure +inf (no start
+                                     time), margin -inf (below every late
+                                     start), see br_crit_never */
+    const char *unit;             /* "s", "V", "A", "" (a count) */
     int stage;                    /* binding rail/link, -1 when none */
     int dir;                      /* br_dir_index of the binding case */
     char note[160];
@@ -83,6 +92,7 @@ typedef struct br_verdict {
     int all_pass;      /* every row that applies passes */
     int nfail;         /* rows that fail */
     int nundetermined; /* rows that are undetermined */
+    int nwarn;         /* rows that pass with a warning */
     br_verdict_row row[BR_CRIT_COUNT];
 } br_verdict;
 
@@ -94,6 +104,18 @@ void br_verdict_make(const br_chain *c, const br_startup *su, const br_steady_fi
 /* Short names of criteria, for tables and XML. */
 const char *br_crit_name(int crit);
 const char *br_crit_title(int crit);
+
+/* The unit of a criterion's figure, limit and margin: "s", "A", "V", or
+ * "" for a count. */
+const char *br_crit_unit(int crit);
+
+/* 1 for the criteria that need the cold start (start-up time, inrush,
+ * start-up dropouts). */
+int br_crit_is_startup(int crit);
+
+/* 1 when a figure (or margin) of criterion crit stands for a rail that
+ * never starts rather than a time. */
+int br_crit_never(int crit, double value);
 
 /* The directions a design asks for: fills dirs (br_dir_index), returns
  * their count (1 or 2). */

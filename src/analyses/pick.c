@@ -415,12 +415,13 @@ static void reject_failing(br_pick *pk, int is_diode, int part)
                  "on every %s: no periodic steady state that holds was found at one of its "
                  "corners",
                  is_diode ? "link" : "rail");
+    else if (br_crit_never(best->fail_crit, best->fail_row.figure))
+        snprintf(why, BR_PICK_WHY, "on every %s: rail %d never starts at its worst corner",
+                 is_diode ? "link" : "rail", best->fail_row.stage);
     else
-        snprintf(why, BR_PICK_WHY, "on every %s: fails %s at its worst corner (margin %.4g %s)",
+        snprintf(why, BR_PICK_WHY, "on every %s: fails %s at its worst corner (margin %.4g%s%s)",
                  is_diode ? "link" : "rail", br_crit_name(best->fail_crit), best->fail_row.margin,
-                 best->fail_crit == BR_CRIT_STARTUP  ? "s"
-                 : best->fail_crit == BR_CRIT_INRUSH ? "A"
-                                                     : "V");
+                 br_crit_unit(best->fail_crit)[0] ? " " : "", br_crit_unit(best->fail_crit));
 }
 
 /* ---- ranking -------------------------------------------------------------------------- */

@@ -507,6 +507,7 @@ static void compact(const br_verdict *v, br_pt *out)
         br_pt_row *pr = &out->row[r];
         pr->applies = (signed char)vr->applies;
         pr->pass = (signed char)vr->pass;
+        pr->warn = (signed char)vr->warn;
         pr->dir = (signed char)vr->dir;
         pr->stage = (short)vr->stage;
         pr->figure = vr->figure;

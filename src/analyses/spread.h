@@ -43,6 +43,7 @@
 typedef struct br_pt_row {
     signed char applies; /* the criterion was checked */
     signed char pass;
+    signed char warn;             /* passes with a warning (br_verdict_row.warn) */
     signed char dir;              /* br_dir_index where it binds */
     short stage;                  /* binding rail or link, -1 when none */
     double figure, limit, margin; /* in the criterion's unit */

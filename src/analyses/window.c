@@ -14,7 +14,7 @@
 
 #define MEMO 128        /* points remembered during one sweep (a ring) */
 #define REFINE_GUESS 12 /* points a sweep's refinements take, for the progress estimate */
-#define SU_GUESS 10     /* cold starts a start-up window takes, the same */
+#define SU_GUESS 10     /* cold starts one end of a start-up window takes, the same */
 
 void br_window_opts_default(br_window_opts *o)
 {
@@ -375,10 +375,16 @@ static int su_cmp(const void *a, const void *b)
     return (x > y) - (x < y);
 }
 
+/* The axis value of u: duty itself, or frequency from its logarithm. */
+static double su_value(const br_su_window *w, double u)
+{
+    return w->axis == BR_AXIS_FSW ? exp(u) : u;
+}
+
 static int su_run_at(br_design *d, br_su_window *w, br_meter *meter, double u, br_su_point *pt,
                      br_error *err)
 {
-    double v = w->axis == BR_AXIS_FSW ? exp(u) : u;
+    double v = su_value(w, u);
     int rc = su_point(d, w->axis, v, pt, err);
     if (rc == BR_OK && br_meter_add(meter, 1.0))
         rc = br_progress_cancelled(err);
@@ -387,24 +393,25 @@ static int su_run_at(br_design *d, br_su_window *w, br_meter *meter, double u, b
     return rc;
 }
 
-/* Downward in a few steps to the first failure, then bisection (a cold
- * start either completes or not; there is no margin to interpolate). */
-static int su_search(br_design *d, br_su_window *w, br_meter *meter, double u0, double ulo,
-                     double res, br_error *err)
+/* From the design point toward uend in a few steps to the first failure,
+ * then bisection (a cold start either completes or not; there is no
+ * margin to interpolate). */
+static int su_search(br_design *d, br_su_window *w, br_meter *meter, double u0, double uend,
+                     double res, br_su_end *end, br_error *err)
 {
     br_su_point pt;
     const int steps = 5;
     double uin = u0, uout = NAN;
     int rc = BR_OK;
     for (int i = 1; i <= steps && rc == BR_OK && isnan(uout); i++) {
-        double u = u0 + (ulo - u0) * i / steps;
+        double u = u0 + (uend - u0) * i / steps;
         rc = su_run_at(d, w, meter, u, &pt, err);
         if (pt.complete)
             uin = u;
         else
             uout = u;
     }
-    w->kind = isnan(uout) ? BR_LIMIT_RANGE_END : BR_LIMIT_FOUND;
+    end->kind = isnan(uout) ? BR_LIMIT_RANGE_END : BR_LIMIT_FOUND;
     while (rc == BR_OK && !isnan(uout) && fabs(uin - uout) > res) {
         double u = 0.5 * (uin + uout);
         rc = su_run_at(d, w, meter, u, &pt, err);
@@ -413,50 +420,68 @@ static int su_search(br_design *d, br_su_window *w, br_meter *meter, double u0, 
         else
             uout = u;
     }
-    w->lowest = w->axis == BR_AXIS_FSW ? exp(uin) : uin;
-    w->failing = isnan(uout) ? NAN : w->axis == BR_AXIS_FSW ? exp(uout) : uout;
+    end->value = su_value(w, uin);
+    end->failing = isnan(uout) ? NAN : su_value(w, uout);
     return rc;
+}
+
+/* What stalls at an end's failing value. */
+static void su_stalled(const br_su_window *w, br_su_end *end)
+{
+    end->stalled = -1;
+    for (int i = 0; i < w->npts; i++)
+        if (w->pt[i].value == end->failing)
+            end->stalled = w->pt[i].stalled;
 }
 
 static void su_finish(br_su_window *w)
 {
     qsort(w->pt, (size_t)w->npts, sizeof w->pt[0], su_cmp);
-    w->stalled = -1;
-    for (int i = 0; i < w->npts; i++)
-        if (w->pt[i].value == w->failing)
-            w->stalled = w->pt[i].stalled;
+    su_stalled(w, &w->low);
+    su_stalled(w, &w->high);
 }
 
-static int su_window_run(const br_design *d, int axis, double lo, br_meter *meter,
+static int su_window_run(const br_design *d, int axis, double lo, double hi, br_meter *meter,
                          br_su_window *out, br_error *err);
 
-int br_su_window_run(const br_design *d, int axis, double lo, br_su_window *out, br_error *err)
+int br_su_window_run(const br_design *d, int axis, double lo, double hi, br_su_window *out,
+                     br_error *err)
 {
-    return su_window_run(d, axis, lo, NULL, out, err);
+    return su_window_run(d, axis, lo, hi, NULL, out, err);
 }
 
-static int su_window_run(const br_design *d, int axis, double lo, br_meter *meter,
-                         br_su_window *out, br_error *err)
+static void su_window_init(br_su_window *out, int axis, double lo, double hi)
 {
     memset(out, 0, sizeof *out);
     out->axis = axis;
     out->applies = 1;
     out->lo = lo;
+    out->hi = hi;
     out->resolution = axis == BR_AXIS_FSW ? BR_RES_FSW : BR_RES_DUTY;
-    out->failing = NAN;
+    out->low.failing = out->high.failing = NAN;
+    out->low.stalled = out->high.stalled = -1;
+}
+
+/* The design point, then each end in turn. */
+static int su_window_run(const br_design *d, int axis, double lo, double hi, br_meter *meter,
+                         br_su_window *out, br_error *err)
+{
+    su_window_init(out, axis, lo, hi);
     br_design *dc = malloc(sizeof *dc);
     if (!dc)
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory for the start-up window");
     memcpy(dc, d, sizeof *dc);
-    double v0 = axis == BR_AXIS_FSW ? d->fsw.nom : d->duty.nom;
-    double res = axis == BR_AXIS_FSW ? log1p(BR_RES_FSW) : BR_RES_DUTY;
-    double u0 = axis == BR_AXIS_FSW ? log(v0) : v0;
-    double ulo = axis == BR_AXIS_FSW ? log(lo) : lo;
+    int fsw = axis == BR_AXIS_FSW;
+    double v0 = fsw ? d->fsw.nom : d->duty.nom;
+    double res = fsw ? log1p(BR_RES_FSW) : BR_RES_DUTY;
+    double u0 = fsw ? log(v0) : v0, ulo = fsw ? log(lo) : lo, uhi = fsw ? log(hi) : hi;
     br_su_point pt;
     int rc = su_run_at(dc, out, meter, u0, &pt, err);
     out->design_starts = rc == BR_OK && pt.complete;
     if (rc == BR_OK && out->design_starts)
-        rc = su_search(dc, out, meter, u0, ulo, res, err);
+        rc = su_search(dc, out, meter, u0, ulo, res, &out->low, err);
+    if (rc == BR_OK && out->design_starts)
+        rc = su_search(dc, out, meter, u0, uhi, res, &out->high, err);
     su_finish(out);
     free(dc);
     return rc;
@@ -598,7 +623,7 @@ static int holdups(const br_design *d, br_window *w, br_error *err)
 typedef struct su_job {
     const br_design *d;
     int axis;
-    double lo;
+    double lo, hi;
     br_su_window *out;
     br_meter *meter;
     br_error err;
@@ -609,15 +634,16 @@ static void *su_thread(void *arg)
 {
     su_job *j = arg;
     br_error_clear(&j->err);
-    j->rc = su_window_run(j->d, j->axis, j->lo, j->meter, j->out, &j->err);
+    j->rc = su_window_run(j->d, j->axis, j->lo, j->hi, j->meter, j->out, &j->err);
     return NULL;
 }
 
 static int startup_window(const br_design *d, br_window *w, int threads, br_meter *meter,
                           br_error *err)
 {
-    su_job jd = {d, BR_AXIS_DUTY, w->duty.lo, &w->su_duty, meter, {0}, BR_OK};
-    su_job jf = {d, BR_AXIS_FSW, w->fsw.lo, &w->su_fsw, meter, {0}, BR_OK};
+    /* the ranges the steady-state limits searched */
+    su_job jd = {d, BR_AXIS_DUTY, w->duty.lo, w->duty.hi, &w->su_duty, meter, {0}, BR_OK};
+    su_job jf = {d, BR_AXIS_FSW, w->fsw.lo, w->fsw.hi, &w->su_fsw, meter, {0}, BR_OK};
     pthread_t tid;
     w->startup = 1;
     int duty = w->duty.applies;
@@ -637,7 +663,7 @@ static int startup_window(const br_design *d, br_window *w, int threads, br_mete
 static double expected_points(const br_window_opts *o)
 {
     double n = 1.0 + o->nscan_duty + o->nscan_fsw + 2.0 * REFINE_GUESS;
-    return o->startup ? n + 2.0 * SU_GUESS : n;
+    return o->startup ? n + 4.0 * SU_GUESS : n; /* two axes, two ends each */
 }
 
 static int window_all(const br_design *d, const br_window_opts *o, br_meter *meter, br_window *out,

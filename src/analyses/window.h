@@ -16,9 +16,9 @@
 #include "analyses/probe.h"
 #include "core/progress.h"
 
-#define BR_MAX_SCAN 64 /* coarse scan points, the design point included */
-#define BR_MAX_SPANS 8 /* holding intervals kept per axis */
-#define BR_MAX_SU_POINTS 24
+#define BR_MAX_SCAN 64      /* coarse scan points, the design point included */
+#define BR_MAX_SPANS 8      /* holding intervals kept per axis */
+#define BR_MAX_SU_POINTS 48 /* cold starts kept per axis, both ends */
 
 typedef enum br_axis {
     BR_AXIS_DUTY = 0, /* duty at the design frequency */
@@ -63,8 +63,13 @@ typedef struct br_sweep {
     long periods; /* periods simulated for them */
 } br_sweep;
 
-/* The start-up window along one axis: how low the value can go with the
- * cold start still completing within the design's start-up limit. */
+/* The start-up window along one axis: how far the value can go either way
+ * from the design's with the cold start still completing within the
+ * design's start-up limit.  Both ends matter: a low duty starves the
+ * charging windows of the top switches, a high duty those of the bottom
+ * switches; a low frequency lets the rails droop between windows, a high
+ * one shortens the windows against the dead time and raises the gate
+ * charge each started driver draws. */
 typedef struct br_su_point {
     double value; /* duty, or Hz */
     int complete;
@@ -72,15 +77,22 @@ typedef struct br_su_point {
     int stalled;    /* first stage not running at the end, -1 */
 } br_su_point;
 
+/* One end of the start-up window. */
+typedef struct br_su_end {
+    int kind;       /* br_limit_kind */
+    double value;   /* the furthest value found starting (as `value` of a br_limit) */
+    double failing; /* the nearest value found failing beyond it (NAN: none) */
+    int stalled;    /* first stalled stage at `failing`, -1 (none, or it
+                       starts too late) */
+} br_su_end;
+
 typedef struct br_su_window {
     int axis; /* br_axis */
     int applies;
     int design_starts; /* the cold start completes at the design point */
-    int kind;          /* br_limit_kind of the lowest value */
-    double lowest;     /* lowest value found starting (as `value` of a br_limit) */
-    double failing;    /* the highest value found failing below it */
-    int stalled;       /* first stalled stage at `failing` */
-    double lo;         /* bottom of the range searched */
+    br_su_end low;     /* toward lo */
+    br_su_end high;    /* toward hi */
+    double lo, hi;     /* the range searched */
     double resolution; /* as in br_sweep */
     int npts;          /* every run, ascending in value */
     br_su_point pt[BR_MAX_SU_POINTS];
@@ -121,8 +133,9 @@ int br_sweep_run(br_probe *p, int axis, double fixed, double lo, double hi, cons
                  const br_warm *w0, int nscan, br_sweep *out, br_error *err);
 
 /* The start-up window along one axis on the design d: from the design
- * value down to lo. */
-int br_su_window_run(const br_design *d, int axis, double lo, br_su_window *out, br_error *err);
+ * value down to lo and up to hi. */
+int br_su_window_run(const br_design *d, int axis, double lo, double hi, br_su_window *out,
+                     br_error *err);
 
 /* The resolution the limits are found to: duty absolute, frequency
  * relative. */

@@ -141,11 +141,22 @@ static long gather(const br_yield *y, int crit, double *m, long *idx)
     return k;
 }
 
+/* A quantile of sorted margins; one that falls on a sample without a
+ * margin (-inf: a rail that never starts) is that, not the NaN that
+ * interpolating toward it would give. */
+static double quantile(const double *m, long k, double f)
+{
+    long lo = (long)floor(f * (double)(k - 1));
+    if (isinf(m[lo]))
+        return m[lo];
+    return gsl_stats_quantile_from_sorted_data(m, 1, (size_t)k, f);
+}
+
 static void quantiles(br_yield_crit *c, double *m, long k)
 {
     gsl_sort(m, 1, (size_t)k);
     for (int q = 0; q < BR_YIELD_NQ; q++)
-        c->q[q] = gsl_stats_quantile_from_sorted_data(m, 1, (size_t)k, br_yield_quantiles[q]);
+        c->q[q] = quantile(m, k, br_yield_quantiles[q]);
 }
 
 /* Spearman's rho of every parameter with the margins m of the samples idx. */
@@ -171,8 +182,10 @@ static int crit_stats(br_yield *y, int crit, double *m, long *idx, double *scrat
     long k = gather(y, crit, m, idx);
     c->judged = k;
     c->applies = k > 0;
-    for (long a = 0; a < k; a++)
+    for (long a = 0; a < k; a++) {
         c->fails += !y->pts[idx[a]].row[crit].pass;
+        c->warns += y->pts[idx[a]].row[crit].pass && y->pts[idx[a]].row[crit].warn;
+    }
     for (int j = 0; j < BR_TOL_MAX; j++)
         c->rho[j] = NAN;
     if (k == 0)

@@ -38,6 +38,7 @@ typedef struct br_yield_crit {
     int applies;            /* judged in at least one sample */
     long judged;            /* samples where it applies */
     long fails;             /* samples where it fails */
+    long warns;             /* samples where it passes with a warning */
     double q[BR_YIELD_NQ];  /* margin quantiles, in the criterion's unit */
     double rho[BR_TOL_MAX]; /* Spearman's rho of each parameter with the margin (NAN: undefined) */
 } br_yield_crit;

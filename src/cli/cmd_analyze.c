@@ -10,12 +10,13 @@ int cmd_analyze(int argc, char **argv)
         argc, argv,
         "Analyse design FILE: its start-up from cold, its periodic steady state for\n"
         "each current direction it asks for, and the verdict: one row per criterion\n"
-        "(every driver starts, inrush within the surge ratings, a steady state that\n"
-        "holds, rails above UVLO rising and falling, drive above the minimum, gates\n"
-        "below their maximum, diodes within the derated rating, capacitors within\n"
-        "their rating) with the figure, the limit, the margin and where it binds.\n"
-        "Exit status 0 when every criterion evaluated passes, 1 when one fails, 2 for\n"
-        "bad input, 3 when none fails but one is undetermined (a solver did not\n"
+        "(every driver starts, inrush within the surge ratings, start-up dropouts\n"
+        "within the limit, a steady state that holds, rails above UVLO rising and\n"
+        "falling, drive above the minimum, gates below their maximum, diodes within\n"
+        "the derated rating, capacitors within their rating) with the figure, the\n"
+        "limit, the margin and where it binds. Exit status 0 when every criterion\n"
+        "evaluated passes (a warning does not count), 1 when one fails, 2 for bad\n"
+        "input, 3 when none fails but one is undetermined (a solver did not\n"
         "converge).\n",
         BR_RUN_ALL);
 }

@@ -11,9 +11,12 @@ int cmd_startup(int argc, char **argv)
         "the design's pre-charge steps, then PWM. Per stage: when its driver first\n"
         "crosses UVLO rising, when it starts for good, its dropouts, the inrush peak\n"
         "of its link against the diode's surge rating and where its rail ends; then\n"
-        "the start-up time, or which rail never starts, where it settles and why.\n"
-        "Exit status 0 when every driver starts (and no inrush exceeds a surge\n"
-        "rating), 1 when not, 2 for bad input, 3 when the simulation failed\n"
-        "numerically (undetermined).\n",
+        "the start-up time, or which rail never starts, where it settles and why;\n"
+        "last the verdict of the start-up criteria (start-up time, inrush, dropouts\n"
+        "per stage against the design's max-dropouts, or a warning above 3 without\n"
+        "one). Exit status 0 when every driver starts, no inrush exceeds a surge\n"
+        "rating and the dropouts are within the limit (a warning does not count),\n"
+        "1 when not, 2 for bad input, 3 when the simulation failed numerically\n"
+        "(undetermined).\n",
         BR_RUN_STARTUP);
 }

@@ -27,8 +27,9 @@ static const char ABOUT[] =
     "from a hundredth to a hundred times the design frequency unless --fmin/--fmax\n"
     "say otherwise, to 0.5 %), with the rail and criterion that fail at each\n"
     "limit; the hold-up time once switching stops (every switch off); and with\n"
-    "--startup the lowest duty and frequency at which the cold start completes\n"
-    "within the design's start-up limit (slow: every point is a cold start).\n"
+    "--startup the lowest and highest duty and frequency at which the cold start\n"
+    "completes within the design's start-up limit, searched over the same ranges\n"
+    "(slow: every point is a cold start).\n"
     "Exit status 0 when the design point holds, 1 when not, 2 for bad input.\n";
 
 /* A frequency option, or 0 when not given. */

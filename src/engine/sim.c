@@ -514,8 +514,6 @@ static double rail_threshold(const br_sim *s, int k)
     return thr;
 }
 
-/* No link conducts: rails move linearly.  Returns the stage whose UVLO
- * threshold is crossed first (then *te is the crossing), or -1. */
 /* Rail 0 with a bypass capacitor relaxes toward Vs - Rs I0 with time
  * constant Rs C0 (I0 what link 1 and driver 0 draw). */
 typedef struct bypass_cf {
@@ -536,13 +534,45 @@ static double bypass_cross(const bypass_cf *b, double thr)
     return b->tau * log(a / c);
 }
 
-/* No link conducts: rails move linearly (rail 0 with a bypass capacitor
- * exponentially).  Returns the stage whose UVLO threshold is crossed
- * first (then *te is the crossing), or -1. */
+/* When the node of rail k (k >= 1), carrying the constant capacitor
+ * current ic, reaches thr: the charge between the capacitor voltage now
+ * and the one that puts the node on thr, over ic (exact on the DC-bias
+ * line); HUGE_VAL when it moves away from thr. */
+static double rail_cross(const br_sim *s, int k, double ic, double thr)
+{
+    double v0 = s->vr[k], vc = s->x[XI(k, F_VC)];
+    int toward = s->en[k] ? ic < 0 : ic > 0;
+    if (ic == 0.0 || !toward)
+        return HUGE_VAL;
+    return br_cap_charge(&s->c->st[k].cap, vc, vc + (thr - v0)) / ic;
+}
+
+/* Rail k's capacitor takes charge dq along its DC-bias line; its row of
+ * the sensitivity matrix scales by C(v0) / C(v1), since the charge moved
+ * does not depend on the start: C(v1) dv1 = C(v0) dv0. */
+static void rail_charge(br_sim *s, int k, double dq)
+{
+    const br_cap *cap = &s->c->st[k].cap;
+    double v0 = s->x[XI(k, F_VC)];
+    double v1 = br_cap_after_charge(cap, v0, dq);
+    s->x[XI(k, F_VC)] = v1;
+    if (!s->var || cap->nbias == 0)
+        return;
+    double r = br_cap_at(cap, v0) / br_cap_at(cap, v1);
+    for (int j = 0; j < s->n; j++)
+        s->x[s->phi0 + k * s->n + j] *= r;
+}
+
+/* No link conducts: every floating rail's capacitor carries a constant
+ * current, so its charge moves linearly and its voltage follows the
+ * DC-bias line exactly (br_cap_after_charge); rail 0 follows the supply
+ * ramp, or with a bypass capacitor relaxes exponentially.  Returns the
+ * stage whose UVLO threshold is crossed first (then *te is the
+ * crossing), or -1. */
 static int closed_form(br_sim *s, double tb, double *te)
 {
     const br_seg *g = &s->seg;
-    double ta = s->t, rate[BR_N], ic[BR_N];
+    double ta = s->t, ic[BR_N];
     int first = -1, bp = br_sim_bypass(s);
     double i0 = (s->n > 1 ? g->iblk[1] : 0.0) + g->iload[0];
     bypass_cf b = {g->vs0 - s->c->rsupply * i0, s->c->rsupply * s->c->csupply, s->x[XI(0, F_VC)]};
@@ -550,15 +580,16 @@ static int closed_form(br_sim *s, double tb, double *te)
     for (int k = 0; k < s->n; k++) {
         double iout = k + 1 < s->n ? g->iblk[k + 1] : 0.0;
         ic[k] = k == 0 ? 0.0 : g->iblk[k] - iout - g->iload[k];
-        rate[k] = k == 0 ? g->vs_slope : ic[k] / br_sim_cap(s, k, s->x[XI(k, F_VC)]);
         double v0 = s->vr[k], thr = rail_threshold(s, k), tc = HUGE_VAL;
         if (!isfinite(thr) || s->held[k])
             continue;
         if (k == 0 && bp) {
             tc = ta + bypass_cross(&b, thr);
-        } else if (rate[k] != 0.0) {
-            int toward = s->en[k] ? rate[k] < 0 : rate[k] > 0;
-            tc = toward ? ta + (thr - v0) / rate[k] : HUGE_VAL;
+        } else if (k == 0 && g->vs_slope != 0.0) {
+            int toward = s->en[k] ? g->vs_slope < 0 : g->vs_slope > 0;
+            tc = toward ? ta + (thr - v0) / g->vs_slope : HUGE_VAL;
+        } else if (k > 0) {
+            tc = ta + rail_cross(s, k, ic[k], thr);
         }
         if (tc > ta && tc <= *te) {
             *te = tc;
@@ -578,7 +609,7 @@ static int closed_form(br_sim *s, double tb, double *te)
     for (int k = 0; k < s->n; k++) {
         double va = s->vr[k];
         if (k > 0) {
-            s->x[XI(k, F_VC)] += rate[k] * dt;
+            rail_charge(s, k, ic[k] * dt);
             s->x[XI(k, F_LQ)] += g->iblk[k] * dt;
             s->x[XI(k, F_RI2)] += ic[k] * ic[k] * dt;
         }

@@ -365,6 +365,8 @@ static int read_analysis(br_rd *r, xmlNode *n)
     BR_TRY(br_rd_qty(r, n, "min-drive", BR_KIND_VOLTAGE, &br_range_nonneg, &d->min_drive, NULL));
     BR_TRY(br_rd_qty(r, n, "derating", BR_KIND_FRACTION, &r_derating, &d->derating, NULL));
     BR_TRY(br_rd_qty(r, n, "max-startup", BR_KIND_TIME, &br_range_pos, &d->startup_max, NULL));
+    if (xmlHasProp(n, (const xmlChar *)"max-dropouts"))
+        BR_TRY(br_rd_int(r, n, "max-dropouts", 0, BR_DROPOUTS_MAX, &d->max_dropouts));
     if (!xmlHasProp(n, (const xmlChar *)"hold-on"))
         return BR_OK;
     BR_TRY(read_mask_attr(r, n, "hold-on", &d->hold_on));

@@ -362,7 +362,7 @@ static const rule rules[] = {
     {"stages", "stage", "!index diode capacitor driver switch " STAGE_ATTRS, "", 0},
     {"bootrung-design", "startup", "", "precharge", 0},
     {"startup", "precharge", "!switches !duration", "", 0},
-    {"bootrung-design", "analysis", "min-drive derating max-startup", "", 0},
+    {"bootrung-design", "analysis", "min-drive derating max-startup max-dropouts hold-on", "", 0},
 };
 
 static const rule *find_rule(const char *parent, const char *name)

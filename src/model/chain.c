@@ -138,6 +138,7 @@ static void copy_operating_point(const br_design *d, br_chain *c)
     c->min_drive = d->min_drive.nom;
     c->derating = d->derating.nom;
     c->startup_max = d->startup_max.nom;
+    c->max_dropouts = d->max_dropouts;
 }
 
 int br_chain_build_nominal(const br_design *d, br_chain *c, br_error *err)

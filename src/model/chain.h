@@ -93,10 +93,16 @@ struct br_chain {
     int nprecharge;
     br_precharge precharge[BR_MAX_PRECHARGE];
     double min_drive, derating, startup_max;
+    int max_dropouts; /* start-up dropouts allowed per stage, -1: not stated */
 };
 
 /* Build at explicit values: d with every br_qty read at .nom. */
 int br_chain_build_nominal(const br_design *d, br_chain *c, br_error *err);
+
+/* Rail voltage driver k needs to start (UVLO rising, plus the
+ * regulator's dropout when the rail feeds the driver through one), V;
+ * HUGE_VAL when a regulator's output is below UVLO rising. */
+double br_rail_start_voltage(const br_chain *c, int k);
 
 /* Thermal voltage kT/q at T (K), V. */
 double br_thermal_voltage(double T);
@@ -109,6 +115,15 @@ void br_cap_at_nominal(const br_cap_part *p, br_cap *out);
 
 /* Effective capacitance of rail k at bias v (DC-bias table applied), F. */
 double br_cap_at(const br_cap *cap, double v);
+
+/* Charge a capacitor takes from va to vb: the integral of br_cap_at over
+ * [va, vb], exact for the piecewise-linear DC-bias line (negative when
+ * vb < va), C. */
+double br_cap_charge(const br_cap *cap, double va, double vb);
+
+/* The voltage a capacitor at v0 reaches once it has taken charge dq
+ * (negative: given it): the inverse of br_cap_charge, V. */
+double br_cap_after_charge(const br_cap *cap, double v0, double dq);
 
 /* Gate charge drawn at a turn-on edge when the drive voltage is v, C. */
 double br_sw_qg_at(const br_sw *sw, double v);

@@ -42,6 +42,7 @@ br_design *br_design_create(void)
     d->min_drive = br_qty_fixed(0.0);
     d->derating = br_qty_fixed(0.8); /* common practice: 80 % of VRRM */
     d->startup_max = br_qty_fixed(20e-3);
+    d->max_dropouts = -1;
     return d;
 }
 

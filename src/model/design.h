@@ -15,6 +15,14 @@
 #define BR_MAX_BIAS_POINTS 32
 #define BR_MAX_PRECHARGE 16
 #define BR_MAX_PARTS 64 /* of each kind */
+/* Start-up dropouts (UVLO hiccups) of one stage: more than BR_DROPOUTS_WARN
+ * is worth a warning when the design states no limit of its own (a chain
+ * filling rung by rung may hiccup a few times per rung while the rail
+ * above takes its first charge; more means the start leans on the UVLO
+ * hysteresis to limit the current); a stated limit is at most
+ * BR_DROPOUTS_MAX. */
+#define BR_DROPOUTS_WARN 3
+#define BR_DROPOUTS_MAX 10000
 
 typedef enum br_dist { BR_DIST_UNIFORM = 0, BR_DIST_NORMAL = 1 } br_dist;
 
@@ -180,6 +188,9 @@ struct br_design {
     br_qty min_drive;           /* minimum useful drive voltage, V */
     br_qty derating;            /* diode reverse-voltage derating limit, fraction */
     br_qty startup_max;         /* longest start-up simulated, s */
+    int max_dropouts;           /* start-up dropouts allowed on any one stage
+                                   (-1: not stated, then more than
+                                   BR_DROPOUTS_WARN only warn) */
     unsigned long long hold_on; /* hold-up: switches held on once switching
                                    stops (bit s: switch s); 0: all off */
 };

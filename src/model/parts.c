@@ -70,6 +70,72 @@ double br_cap_at(const br_cap *cap, double v)
     return cap->c * cap->bias_f[n - 1];
 }
 
+double br_rail_start_voltage(const br_chain *c, int k)
+{
+    const br_stage *st = &c->st[k];
+    if (st->aux.kind != BR_AUX_LDO)
+        return st->drv.uvlo_rise;
+    return st->drv.uvlo_rise < st->aux.vout ? st->drv.uvlo_rise + st->aux.dropout : HUGE_VAL;
+}
+
+/* ---- charge on the DC-bias line ------------------------------------------ */
+
+/* The breakpoint of the table next after v in the direction dir (+1 up,
+ * -1 down), or NAN beyond the last one. */
+static double next_break(const br_cap *cap, double v, int dir)
+{
+    if (dir > 0) {
+        for (int i = 0; i < cap->nbias; i++)
+            if (cap->bias_v[i] > v)
+                return cap->bias_v[i];
+    } else {
+        for (int i = cap->nbias - 1; i >= 0; i--)
+            if (cap->bias_v[i] < v)
+                return cap->bias_v[i];
+    }
+    return NAN;
+}
+
+/* C(v) is linear between breakpoints, so the trapezoid of each piece is
+ * its exact integral. */
+double br_cap_charge(const br_cap *cap, double va, double vb)
+{
+    int dir = vb > va ? 1 : -1;
+    double q = 0.0, v = va;
+    while (v != vb) {
+        double b = next_break(cap, v, dir);
+        double w = isnan(b) || (dir > 0 ? b > vb : b < vb) ? vb : b;
+        q += 0.5 * (br_cap_at(cap, v) + br_cap_at(cap, w)) * (w - v);
+        v = w;
+    }
+    return q;
+}
+
+/* Piece by piece in the direction the charge moves the voltage: a whole
+ * piece when the charge covers it, otherwise the root of
+ *   C(v) d + slope d^2 / 2 = dq
+ * in the form without cancellation, d = 2 dq / (C + sqrt(C^2 + 2 slope dq)). */
+double br_cap_after_charge(const br_cap *cap, double v0, double dq)
+{
+    int dir = dq > 0 ? 1 : -1;
+    double v = v0;
+    for (int guard = 0; dq != 0.0 && guard <= cap->nbias; guard++) {
+        double b = next_break(cap, v, dir), cv = br_cap_at(cap, v);
+        if (isnan(b)) /* flat beyond the table */
+            return v + dq / cv;
+        double qb = br_cap_charge(cap, v, b);
+        if (fabs(qb) < fabs(dq)) {
+            dq -= qb;
+            v = b;
+            continue;
+        }
+        double slope = (br_cap_at(cap, b) - cv) / (b - v);
+        double disc = fmax(cv * cv + 2.0 * slope * dq, 0.0);
+        return v + 2.0 * dq / (cv + sqrt(disc));
+    }
+    return dq != 0.0 ? v + dq / br_cap_at(cap, v) : v;
+}
+
 /* Above the Miller plateau the gate charge grows about linearly with the
  * drive voltage (common practice), so Qg scales with v / qg_v.  qg_v = 0
  * means the part states a fixed charge. */

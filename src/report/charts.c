@@ -310,11 +310,11 @@ int br_chart_diode(const br_chain *c, const br_steady_figs *f, int k, const br_t
 
 /* ---- yield histogram ----------------------------------------------------- */
 
-/* The unit of each criterion's margin (as the yield report has them). */
-static const char *const UNITS[BR_CRIT_COUNT] = {"s", "A", "V", "V", "V", "V", "V", "V", "V"};
 #define NBINS 30
 
-static void bars(br_plot *p, const long *cnt, double lo, double w)
+/* Bars left of the limit fail, or only warn for a criterion that cannot
+ * fail here (start-up dropouts of a design that states no limit). */
+static void bars(br_plot *p, const long *cnt, double lo, double w, int warn_only)
 {
     for (int b = 0; b < NBINS; b++) {
         if (!cnt[b])
@@ -323,7 +323,10 @@ static void bars(br_plot *p, const long *cnt, double lo, double w)
         double ytop = br_plot_py(p, (double)cnt[b]);
         int fails = lo + (b + 1) * w <= 0.0;
         br_svg_rect(p->svg, x0 + 0.5, ytop, fmax(x1 - x0 - 1.0, 0.5), p->y0 + p->h - ytop,
-                    fails ? BR_VERMILION : BR_BLUE, "none", 0);
+                    !fails      ? BR_BLUE
+                    : warn_only ? BR_ORANGE
+                                : BR_VERMILION,
+                    "none", 0);
     }
 }
 
@@ -361,11 +364,17 @@ static void histogram_panel(br_svg *s, const br_yield *y, int crit, double x, do
     char title[128], key[64];
     br_plot_frame(&p, s, x, yy, PANEL_W, PANEL_H);
     br_plot_range(&p, lo, hi, 0, 1.1 * (double)peak, 0);
-    snprintf(title, sizeof title, "%s: %ld of %ld fail", br_crit_title(crit), y->c[crit].fails,
-             y->c[crit].judged);
+    const br_yield_crit *yc = &y->c[crit];
+    int warn_only = yc->fails == 0 && yc->warns > 0;
+    if (warn_only)
+        snprintf(title, sizeof title, "%s: %ld of %ld warn", br_crit_title(crit), yc->warns,
+                 yc->judged);
+    else
+        snprintf(title, sizeof title, "%s: %ld of %ld fail", br_crit_title(crit), yc->fails,
+                 yc->judged);
     snprintf(key, sizeof key, "yield-%s", br_crit_name(crit));
-    br_plot_axes(&p, key, title, "margin", UNITS[crit], "samples", "");
-    bars(&p, cnt, lo, w);
+    br_plot_axes(&p, key, title, "margin", br_crit_unit(crit), "samples", "");
+    bars(&p, cnt, lo, w, warn_only);
     if (lo <= 0.0)
         br_plot_vline(&p, 0.0, &S_FAILS, "limit");
     else

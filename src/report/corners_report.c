@@ -5,6 +5,7 @@
 #include "report/fmt.h"
 #include "report/report_common.h"
 #include "report/table.h"
+#include "report/verdict_report.h"
 
 #include <math.h>
 #include <stdio.h>
@@ -158,15 +159,18 @@ static int method_text(const br_corners *k, br_text *out)
 
 enum { C_NAME, C_RESULT, C_FIGURE, C_LIMIT, C_MARGIN, C_NOMINAL, C_AT, C_DIR, C_CORNER, NCOL };
 
-static void value_cell(br_table *t, int col, double v, const char *unit)
+static void value_cell(br_table *t, int col, double v, int crit)
 {
     char b[BR_TABLE_CELL];
-    br_table_set(t, col, "%s", br_fmt_si(b, sizeof b, v, 4, unit));
+    /* a rail that never starts has no margin */
+    if (col != C_FIGURE && br_crit_never(crit, v))
+        br_table_set(t, col, "-");
+    else
+        br_table_set(t, col, "%s", br_crit_fmt(b, sizeof b, crit, v));
 }
 
 static void worst_row(br_table *t, const br_chain *c, const br_corners *k, int crit, int letter)
 {
-    static const char *const units[BR_CRIT_COUNT] = {"s", "A", "V", "V", "V", "V", "V", "V", "V"};
     const br_corner_worst *w = &k->w[crit];
     char b[BR_TABLE_CELL];
     br_table_row(t);
@@ -177,12 +181,12 @@ static void worst_row(br_table *t, const br_chain *c, const br_corners *k, int c
             br_table_set(t, col, "-");
         return;
     }
-    br_table_set(t, C_RESULT, "%s", w->worst.pass ? "pass" : "FAIL");
-    value_cell(t, C_FIGURE, w->worst.figure, units[crit]);
-    value_cell(t, C_LIMIT, w->worst.limit, units[crit]);
-    value_cell(t, C_MARGIN, w->worst.margin, units[crit]);
+    br_table_set(t, C_RESULT, "%s", !w->worst.pass ? "FAIL" : w->worst.warn ? "WARN" : "pass");
+    value_cell(t, C_FIGURE, w->worst.figure, crit);
+    value_cell(t, C_LIMIT, w->worst.limit, crit);
+    value_cell(t, C_MARGIN, w->worst.margin, crit);
     if (w->nominal.applies)
-        value_cell(t, C_NOMINAL, w->nominal.margin, units[crit]);
+        value_cell(t, C_NOMINAL, w->nominal.margin, crit);
     else
         br_table_set(t, C_NOMINAL, "-");
     br_table_set(t, C_AT, "%s", br_crit_where(c, crit, w->worst.stage, b, sizeof b));
@@ -281,7 +285,6 @@ int br_corners_text(const br_chain *c, const br_corners *k, br_text *out)
 
 static void xml_row(br_xmlw *w, const br_chain *c, const br_corners *k, int crit, int letter)
 {
-    static const char *const units[BR_CRIT_COUNT] = {"s", "A", "V", "V", "V", "V", "V", "V", "V"};
     const br_corner_worst *cw = &k->w[crit];
     br_xmlw_start(w, "criterion");
     br_xmlw_attr(w, "name", br_crit_name(crit));
@@ -290,12 +293,16 @@ static void xml_row(br_xmlw *w, const br_chain *c, const br_corners *k, int crit
     if (cw->applies) {
         char corner[2] = {letter >= 0 ? (char)('A' + letter) : '-', '\0'};
         br_xmlw_bool(w, "pass", cw->worst.pass);
+        if (cw->worst.warn)
+            br_xmlw_bool(w, "warn", 1);
+        if (br_crit_never(crit, cw->worst.figure))
+            br_xmlw_bool(w, "never-starts", 1);
         br_xmlw_num(w, "figure", cw->worst.figure);
         br_xmlw_num(w, "limit", cw->worst.limit);
         br_xmlw_num(w, "margin", cw->worst.margin);
         if (cw->nominal.applies)
             br_xmlw_num(w, "nominal-margin", cw->nominal.margin);
-        br_xmlw_attr(w, "unit", units[crit]);
+        br_xmlw_attr(w, "unit", br_crit_unit(crit));
         if (cw->worst.stage >= 0 && cw->worst.stage < c->n) {
             br_xmlw_int(w, "stage", cw->worst.stage);
             br_xmlw_attr(w, "switch", c->st[cw->worst.stage].name);

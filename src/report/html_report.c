@@ -41,6 +41,7 @@ static const char STYLE[] =
     ".badge.fail{border:2px solid #D55E00}\n"
     ".undet{color:#6b4e00;font-weight:bold;background:#fdf3d0}\n"
     ".badge.undet{border:2px solid #E69F00}\n"
+    ".warn{color:#6b4e00;font-weight:bold}\n"
     ".note{margin:4px 0;color:#3a4652}\n"
     "figure{margin:10px 0;overflow-x:auto}\n"
     "pre{font-size:14px;background:#f6f8fa;padding:10px;overflow-x:auto}\n"
@@ -166,6 +167,8 @@ static int cell_verdict(br_text *out, const br_verdict_row *r)
 {
     if (r->undetermined)
         return cell(out, "l undet", "UNDETERMINED ?");
+    if (r->applies && r->pass && r->warn)
+        return cell(out, "l warn", "WARN !");
     return cell_result(out, r->applies, r->pass);
 }
 
@@ -184,19 +187,29 @@ static int table_end(br_text *out)
 
 /* ---- verdict --------------------------------------------------------------- */
 
+/* As br_crit_fmt, with the plots' number style for the rest. */
+static int crit_cell(br_text *out, int crit, double v)
+{
+    char b[48];
+    if (br_crit_never(crit, v) || crit == BR_CRIT_DROPOUTS)
+        return cell(out, NULL, br_crit_fmt(b, sizeof b, crit, v));
+    return cell_si(out, v, 4, br_crit_unit(crit));
+}
+
 static int verdict_row(br_text *out, const br_chain *c, const br_verdict_row *r)
 {
     char at[64];
     int link = r->crit == BR_CRIT_INRUSH || r->crit == BR_CRIT_DIODE_VR;
-    int startup = r->crit == BR_CRIT_STARTUP || r->crit == BR_CRIT_INRUSH;
+    int startup = br_crit_is_startup(r->crit);
     int rc = br_text_put(out, "<tr>");
     rc |= cell(out, "l", br_crit_title(r->crit));
     rc |= cell_verdict(out, r);
-    const char *u = r->unit ? r->unit : "";
     if (r->applies && !r->undetermined) {
-        rc |= cell_si(out, r->figure, 4, u);
-        rc |= cell_si(out, r->limit, 4, u);
-        rc |= cell_si(out, r->margin, 4, u);
+        /* a rail that never starts has no start-up time and no margin */
+        int never = br_crit_never(r->crit, r->figure);
+        rc |= crit_cell(out, r->crit, r->figure);
+        rc |= crit_cell(out, r->crit, r->limit);
+        rc |= never ? cell(out, NULL, "-") : crit_cell(out, r->crit, r->margin);
     } else {
         rc |= cell(out, NULL, "-") | cell(out, NULL, "-") | cell(out, NULL, "-");
     }
@@ -218,7 +231,7 @@ static int verdict_notes(br_text *out, const br_chain *c, const br_verdict *v, u
         return BR_ENOMEM;
     for (int i = 0; i < BR_CRIT_COUNT; i++) {
         const br_verdict_row *r = &v->row[i];
-        if (!(mask & (1u << i)) || (r->applies && r->pass))
+        if (!(mask & (1u << i)) || (r->applies && r->pass && !r->warn))
             continue;
         br_text_reset(why);
         rc |= br_text_printf(why, "%s %s: ", br_verdict_word(r), br_crit_title(i));
@@ -249,6 +262,10 @@ int br_html_verdict(br_text *out, const br_chain *c, const br_verdict *v, unsign
         snprintf(line, sizeof line, "UNDETERMINED ?  %d criteria could not be decided",
                  n.undetermined);
         cls = "<div class=\"badge undet\">";
+    } else if (n.warned) {
+        snprintf(line, sizeof line,
+                 "PASS \xe2\x9c\x93  all %d criteria evaluated pass, %d with a warning",
+                 n.evaluated, n.warned);
     } else {
         snprintf(line, sizeof line, "PASS \xe2\x9c\x93  all %d criteria evaluated pass",
                  n.evaluated);

@@ -83,15 +83,15 @@ static int choice_block(const br_chain *c, const br_pick *p, int rank, const br_
                         br_text *out)
 {
     char rails[600], links[600], m[32], where[32];
-    static const char *const units[BR_CRIT_COUNT] = {"s", "A", "V", "V", "V", "V", "V", "V", "V"};
     describe(c, p, ch, 0, rails, sizeof rails);
     describe(c, p, ch, 1, links, sizeof links);
-    int rc = br_text_printf(
-        out, "  %2d  cost %.4g  area %.4g mm2  margin %s (%s at %s, %s)%s\n", rank, ch->cost,
-        ch->area, br_fmt_si(m, sizeof m, ch->margin, 4, units[ch->crit >= 0 ? ch->crit : 3]),
-        ch->crit >= 0 ? br_crit_name(ch->crit) : "-",
-        br_crit_where(c, ch->crit, ch->stage, where, sizeof where), br_dir_short(ch->dir),
-        ch->uniform ? "" : "  [per rail]");
+    int rc = br_text_printf(out, "  %2d  cost %.4g  area %.4g mm2  margin %s (%s at %s, %s)%s\n",
+                            rank, ch->cost, ch->area,
+                            br_fmt_si(m, sizeof m, ch->margin, 4,
+                                      br_crit_unit(ch->crit >= 0 ? ch->crit : BR_CRIT_UVLO)),
+                            ch->crit >= 0 ? br_crit_name(ch->crit) : "-",
+                            br_crit_where(c, ch->crit, ch->stage, where, sizeof where),
+                            br_dir_short(ch->dir), ch->uniform ? "" : "  [per rail]");
     rc |= br_report_wrap(out, "      rails: ", rails, 13);
     rc |= br_report_wrap(out, "      links: ", links, 13);
     return rc;

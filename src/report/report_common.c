@@ -74,14 +74,6 @@ int br_report_wrap(br_text *out, const char *lead, const char *text, int hang)
     return rc | br_text_put(out, "\n") ? BR_ENOMEM : BR_OK;
 }
 
-double br_rail_start_voltage(const br_chain *c, int k)
-{
-    const br_stage *st = &c->st[k];
-    if (st->aux.kind != BR_AUX_LDO)
-        return st->drv.uvlo_rise;
-    return st->drv.uvlo_rise < st->aux.vout ? st->drv.uvlo_rise + st->aux.dropout : HUGE_VAL;
-}
-
 static const char *direction_attr(int direction)
 {
     switch (direction) {

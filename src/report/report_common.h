@@ -23,11 +23,6 @@ int br_report_heading(const br_chain *c, const char *what, br_text *out);
  * continuation line indented by `hang` spaces; ends with a newline. */
 int br_report_wrap(br_text *out, const char *lead, const char *text, int hang);
 
-/* Rail voltage driver k needs to start (UVLO rising, plus the
- * regulator's dropout when the rail feeds the driver through one), V;
- * HUGE_VAL when a regulator's output is below UVLO rising. */
-double br_rail_start_voltage(const br_chain *c, int k);
-
 /* The operating point as an XML element. */
 void br_xml_operating_point(br_xmlw *w, const br_chain *c);
 

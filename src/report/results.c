@@ -160,10 +160,9 @@ int br_results_run_traced(br_results *r, const br_chain *c, const char *verb, in
 unsigned br_results_mask(const br_results *r)
 {
     unsigned m = 0;
-    if (r->parts & BR_RUN_STARTUP)
-        m |= BR_CRIT_BIT(BR_CRIT_STARTUP) | BR_CRIT_BIT(BR_CRIT_INRUSH);
-    if (r->parts & BR_RUN_STEADY)
-        m |= BR_CRIT_ALL & ~(BR_CRIT_BIT(BR_CRIT_STARTUP) | BR_CRIT_BIT(BR_CRIT_INRUSH));
+    for (int i = 0; i < BR_CRIT_COUNT; i++)
+        if (r->parts & (br_crit_is_startup(i) ? BR_RUN_STARTUP : BR_RUN_STEADY))
+            m |= BR_CRIT_BIT(i);
     return m;
 }
 
@@ -217,10 +216,10 @@ int br_results_text(const br_results *r, br_text *out, br_error *err)
     } else if (r->parts & BR_RUN_STEADY) {
         rc |= steady_sections(r, out);
     }
-    if (r->parts & BR_RUN_STEADY) {
-        rc |= br_text_put(out, "\n");
-        rc |= br_verdict_text(r->c, &r->verdict, br_results_mask(r), &r->su, out);
-    }
+    /* every verb closes on its criteria, start-up alone on the start-up's */
+    rc |= br_text_put(out, "\n");
+    rc |= br_verdict_text(r->c, &r->verdict, br_results_mask(r),
+                          (r->parts & BR_RUN_STARTUP) ? &r->su : NULL, out);
     rc |= br_report_caution(out);
     return rc ? oom(err, "rendering the report") : BR_OK;
 }
@@ -242,7 +241,8 @@ int br_results_xml(const br_results *r, const char *version, br_text *out, br_er
         br_startup_xml(w, r->c, &r->su);
     for (int i = 0; i < r->ndir; i++)
         br_steady_xml(w, r->c, &r->figs[i]);
-    br_verdict_xml(w, r->c, &r->verdict, br_results_mask(r));
+    br_verdict_xml(w, r->c, &r->verdict, br_results_mask(r),
+                   (r->parts & BR_RUN_STARTUP) ? &r->su : NULL);
     br_xml_caution(w);
     rc = br_xmlw_finish(w, out, err);
     br_xmlw_free(w);

@@ -128,8 +128,8 @@ static int stall_regulator(const br_chain *c, int k, br_text *out)
 {
     const br_stage *st = &c->st[k];
     return br_text_printf(out,
-                          "rail %d (%s): its regulator %s puts out %.4g V, below driver %s's "
-                          "UVLO rising %.4g V, so the driver can never start",
+                          "rail %d (%s) never starts: its regulator %s puts out %.4g V, below "
+                          "driver %s's UVLO rising %.4g V",
                           k, st->name, st->aux.id, st->aux.vout, st->drv.id, st->drv.uvlo_rise);
 }
 
@@ -139,10 +139,10 @@ static int stall_hiccup(const br_chain *c, const br_startup *su, int k, br_text 
 {
     const br_stage *st = &c->st[k];
     return br_text_printf(out,
-                          "rail %d (%s) averages %.3f V, above the %.3f V its driver needs to "
-                          "start, but the driver dropped out %d times: each start loads the "
-                          "rail below UVLO falling %.4g V (its gate charge and the rails above "
-                          "it charging)",
+                          "rail %d (%s) never starts for good: it averages %.3f V, above the "
+                          "%.3f V its driver needs to start, but the driver dropped out %d "
+                          "times: each start loads the rail below UVLO falling %.4g V (its gate "
+                          "charge and the rails above it charging)",
                           k, st->name, su->st[k].vend, br_rail_start_voltage(c, k),
                           su->st[k].ndropouts, st->drv.uvlo_fall);
 }
@@ -151,8 +151,8 @@ static int stall_short(const br_chain *c, const br_startup *su, int k, br_text *
 {
     const br_stage *st = &c->st[k];
     double vend = su->st[k].vend, vneed = br_rail_start_voltage(c, k);
-    int rc = br_text_printf(out, "rail %d (%s) settles at %.3f V, %.3f V below ", k, st->name, vend,
-                            vneed - vend);
+    int rc = br_text_printf(out, "rail %d (%s) never starts: it settles at %.3f V, %.3f V below ",
+                            k, st->name, vend, vneed - vend);
     if (st->aux.kind == BR_AUX_LDO)
         rc |= br_text_printf(out,
                              "the %.3f V it needs (UVLO rising %.4g V plus regulator %s's "

@@ -17,14 +17,24 @@ static int is_link_crit(int crit)
     return crit == BR_CRIT_INRUSH || crit == BR_CRIT_DIODE_VR;
 }
 
-static int is_startup_crit(int crit)
-{
-    return crit == BR_CRIT_STARTUP || crit == BR_CRIT_INRUSH;
-}
-
 const char *br_verdict_word(const br_verdict_row *r)
 {
-    return !r->applies ? "n/a" : r->undetermined ? "UNDETERMINED" : r->pass ? "pass" : "FAIL";
+    return !r->applies       ? "n/a"
+           : r->undetermined ? "UNDETERMINED"
+           : !r->pass        ? "FAIL"
+           : r->warn         ? "WARN"
+                             : "pass";
+}
+
+const char *br_crit_fmt(char *buf, size_t cap, int crit, double v)
+{
+    if (br_crit_never(crit, v))
+        snprintf(buf, cap, "never starts");
+    else if (crit == BR_CRIT_DROPOUTS && isfinite(v))
+        snprintf(buf, cap, "%.0f", v);
+    else
+        br_fmt_si(buf, cap, v, 4, br_crit_unit(crit));
+    return buf;
 }
 
 /* "rail A1", "link B4", or "-" when no stage binds. */
@@ -36,11 +46,12 @@ static void where(const br_chain *c, const br_verdict_row *r, char *buf, size_t 
         snprintf(buf, cap, "%s %s", is_link_crit(r->crit) ? "link" : "rail", c->st[r->stage].name);
 }
 
+/* A rail that never starts has no margin to show. */
 static void value_cell(br_table *t, int col, const br_verdict_row *r, double v)
 {
     char b[BR_TABLE_CELL];
-    if (r->applies)
-        br_table_set(t, col, "%s", br_fmt_si(b, sizeof b, v, 4, r->unit ? r->unit : ""));
+    if (r->applies && !(col == C_MARGIN && br_crit_never(r->crit, v)))
+        br_table_set(t, col, "%s", br_crit_fmt(b, sizeof b, r->crit, v));
     else
         br_table_set(t, col, "-");
 }
@@ -57,7 +68,7 @@ static void row(br_table *t, const br_chain *c, const br_verdict_row *r)
     where(c, r, b, sizeof b);
     br_table_set(t, C_AT, "%s", b);
     br_table_set(t, C_DIR, "%s",
-                 r->applies && !is_startup_crit(r->crit) && isfinite(r->figure)
+                 r->applies && !br_crit_is_startup(r->crit) && isfinite(r->figure)
                      ? br_dir_short(r->dir)
                      : "-");
 }
@@ -81,7 +92,7 @@ static int render_table(const br_chain *c, const br_verdict *v, unsigned mask, b
     return rc;
 }
 
-/* Why a row failed or does not apply, wrapped under its title. */
+/* Why a row failed, warns or does not apply, wrapped under its title. */
 static int render_notes(const br_chain *c, const br_verdict *v, unsigned mask, const br_startup *su,
                         br_text *out)
 {
@@ -91,7 +102,7 @@ static int render_notes(const br_chain *c, const br_verdict *v, unsigned mask, c
         return BR_ENOMEM;
     for (int i = 0; i < BR_CRIT_COUNT; i++) {
         const br_verdict_row *r = &v->row[i];
-        if (!(mask & BR_CRIT_BIT(i)) || (r->applies && r->pass))
+        if (!(mask & BR_CRIT_BIT(i)) || (r->applies && r->pass && !r->warn))
             continue;
         br_text_reset(why);
         rc |= br_verdict_why(c, v, i, su, why);
@@ -105,12 +116,37 @@ static int render_notes(const br_chain *c, const br_verdict *v, unsigned mask, c
     return rc;
 }
 
+/* The dropouts row at length: the note's figures and what they mean. */
+static int dropouts_why(const br_chain *c, const br_verdict_row *r, br_text *why)
+{
+    int k = r->stage;
+    if (!r->applies || r->undetermined || k < 0 || k >= c->n)
+        return br_text_put(why, r->note);
+    int rc = br_text_printf(why,
+                            "rail %d (%s) dropped out %.0f times during the start-up, the most "
+                            "of any stage",
+                            k, c->st[k].name, r->figure);
+    if (c->max_dropouts >= 0)
+        return rc | br_text_printf(why, "; the design allows %d (max-dropouts)", c->max_dropouts);
+    if (!r->warn)
+        return rc | br_text_printf(why, "; a warning above %d, no limit stated", BR_DROPOUTS_WARN);
+    return rc | br_text_printf(why,
+                               ", more than %d: a chain filling rung by rung hiccups a few times "
+                               "per rung, more means the start leans on the UVLO hysteresis to "
+                               "limit its current, and each dropout leaves a switch undriven "
+                               "while the PWM runs; only a warning, as the design states no "
+                               "limit (<analysis max-dropouts=\"N\">)",
+                               BR_DROPOUTS_WARN);
+}
+
 int br_verdict_why(const br_chain *c, const br_verdict *v, int i, const br_startup *su,
                    br_text *why)
 {
     const br_verdict_row *r = &v->row[i];
-    if (i == BR_CRIT_STARTUP && su && r->applies && !su->complete)
+    if (i == BR_CRIT_STARTUP && su && r->applies && !r->undetermined && !su->complete)
         return br_startup_stall_text(c, su, why);
+    if (i == BR_CRIT_DROPOUTS)
+        return dropouts_why(c, r, why);
     return br_text_put(why, r->note);
 }
 
@@ -124,6 +160,7 @@ void br_verdict_count_rows(const br_verdict *v, unsigned mask, br_verdict_count 
         n->evaluated += r->applies && !r->undetermined;
         n->undetermined += r->undetermined;
         n->failed += r->applies && !r->pass && !r->undetermined;
+        n->warned += r->applies && r->pass && r->warn && !r->undetermined;
         n->na += !r->applies;
     }
 }
@@ -141,6 +178,11 @@ static int render_overall(const br_verdict *v, unsigned mask, br_text *out)
                               "verdict: UNDETERMINED, %d criteria could not be decided (see "
                               "above), %d evaluated pass\n",
                               undet, evaluated);
+    if (n.warned > 0)
+        return br_text_printf(out,
+                              "verdict: PASS, all %d criteria evaluated pass, %d with a warning "
+                              "(%d not applicable)\n",
+                              evaluated, n.warned, na);
     return br_text_printf(
         out, "verdict: PASS, all %d criteria evaluated pass (%d not applicable)\n", evaluated, na);
 }
@@ -156,7 +198,39 @@ int br_verdict_text(const br_chain *c, const br_verdict *v, unsigned mask, const
     return rc ? BR_ENOMEM : BR_OK;
 }
 
-void br_verdict_xml(br_xmlw *w, const br_chain *c, const br_verdict *v, unsigned mask)
+/* The figures of a row: a rail that never starts has neither a start-up
+ * time nor a margin, and says so. */
+static void row_numbers_xml(br_xmlw *w, const br_verdict_row *r)
+{
+    int never = br_crit_never(r->crit, r->figure);
+    br_xmlw_bool(w, "pass", r->pass);
+    if (never)
+        br_xmlw_bool(w, "never-starts", 1);
+    else
+        br_xmlw_num(w, "figure", r->figure);
+    br_xmlw_num(w, "limit", r->limit);
+    if (!never)
+        br_xmlw_num(w, "margin", r->margin);
+    br_xmlw_attr(w, "unit", r->unit ? r->unit : "");
+    if (r->warn)
+        br_xmlw_bool(w, "warn", 1);
+}
+
+/* The note of a row: the same words as the text's. */
+static void row_note_xml(br_xmlw *w, const br_chain *c, const br_verdict *v, int i,
+                         const br_startup *su)
+{
+    br_text *why = br_text_create();
+    if (!why || br_verdict_why(c, v, i, su, why) != BR_OK) {
+        br_xmlw_fail(w);
+    } else if (br_text_len(why) > 0) {
+        br_xmlw_attr(w, "note", br_text_data(why));
+    }
+    br_text_free(why);
+}
+
+void br_verdict_xml(br_xmlw *w, const br_chain *c, const br_verdict *v, unsigned mask,
+                    const br_startup *su)
 {
     int all = 1, failed = 0;
     for (int i = 0; i < BR_CRIT_COUNT; i++) {
@@ -182,21 +256,15 @@ void br_verdict_xml(br_xmlw *w, const br_chain *c, const br_verdict *v, unsigned
                      : r->undetermined ? "undetermined"
                      : r->pass         ? "pass"
                                        : "fail");
-        if (r->applies) {
-            br_xmlw_bool(w, "pass", r->pass);
-            br_xmlw_num(w, "figure", r->figure);
-            br_xmlw_num(w, "limit", r->limit);
-            br_xmlw_num(w, "margin", r->margin);
-            br_xmlw_attr(w, "unit", r->unit ? r->unit : "");
-        }
+        if (r->applies)
+            row_numbers_xml(w, r);
         if (r->applies && r->stage >= 0 && r->stage < c->n) {
             br_xmlw_int(w, "stage", r->stage);
             br_xmlw_attr(w, "switch", c->st[r->stage].name);
         }
-        if (r->applies && !is_startup_crit(i) && isfinite(r->figure))
+        if (r->applies && !br_crit_is_startup(i) && isfinite(r->figure))
             br_xmlw_attr(w, "direction", br_dir_label(r->dir));
-        if (r->note[0])
-            br_xmlw_attr(w, "note", r->note);
+        row_note_xml(w, c, v, i, su);
         br_xmlw_end(w);
     }
     br_xmlw_end(w);

@@ -14,13 +14,18 @@
 #define BR_CRIT_BIT(crit) (1u << (crit))
 #define BR_CRIT_ALL ((1u << BR_CRIT_COUNT) - 1u)
 
-/* "pass", "FAIL", "n/a" or "UNDETERMINED" for a row. */
+/* "pass", "WARN", "FAIL", "n/a" or "UNDETERMINED" for a row. */
 const char *br_verdict_word(const br_verdict_row *r);
 
-/* The rows in mask: evaluated (applies, decided), failed, not applicable
- * and undetermined. */
+/* A figure, limit or margin v of criterion crit for a table cell: in the
+ * criterion's unit, a count as a whole number, a rail that never starts
+ * as "never starts". */
+const char *br_crit_fmt(char *buf, size_t cap, int crit, double v);
+
+/* The rows in mask: evaluated (applies, decided), failed, passing with a
+ * warning, not applicable and undetermined. */
 typedef struct br_verdict_count {
-    int evaluated, failed, na, undetermined;
+    int evaluated, failed, warned, na, undetermined;
 } br_verdict_count;
 void br_verdict_count_rows(const br_verdict *v, unsigned mask, br_verdict_count *n);
 
@@ -35,7 +40,9 @@ int br_verdict_why(const br_chain *c, const br_verdict *v, int i, const br_start
 int br_verdict_text(const br_chain *c, const br_verdict *v, unsigned mask, const br_startup *su,
                     br_text *out);
 
-/* The <verdict> element of the rows in mask. */
-void br_verdict_xml(br_xmlw *w, const br_chain *c, const br_verdict *v, unsigned mask);
+/* The <verdict> element of the rows in mask; each row's note in the words
+ * of br_verdict_why (su may be NULL). */
+void br_verdict_xml(br_xmlw *w, const br_chain *c, const br_verdict *v, unsigned mask,
+                    const br_startup *su);
 
 #endif

@@ -286,27 +286,37 @@ static int su_points(const br_su_window *s, br_text *out)
     return rc;
 }
 
-static int su_axis_text(const br_chain *c, const br_su_window *s, br_text *out)
+/* One end: how far the cold start still completes, and what fails
+ * beyond. */
+static int su_end_text(const br_chain *c, int axis, const br_su_end *e, const char *what,
+                       br_text *out)
 {
     char a[32], b[32];
-    const char *what = s->axis == BR_AXIS_DUTY ? "lowest duty" : "lowest switching frequency";
+    if (e->kind == BR_LIMIT_RANGE_END)
+        return br_text_printf(out, "  %s: %s, the end of the range searched\n", what,
+                              axis_value(axis, e->value, a, sizeof a));
+    if (e->stalled >= 0 && e->stalled < c->n)
+        return br_text_printf(out, "  %s: %s (at %s rail %s never starts for good)\n", what,
+                              axis_value(axis, e->value, a, sizeof a),
+                              axis_value(axis, e->failing, b, sizeof b), c->st[e->stalled].name);
+    return br_text_printf(out, "  %s: %s (at %s it takes too long)\n", what,
+                          axis_value(axis, e->value, a, sizeof a),
+                          axis_value(axis, e->failing, b, sizeof b));
+}
+
+static int su_axis_text(const br_chain *c, const br_su_window *s, br_text *out)
+{
+    int duty = s->axis == BR_AXIS_DUTY;
+    const char *what = duty ? "duty" : "switching frequency";
     if (!s->applies)
         return br_text_printf(out, "  %s: not applicable\n", what);
     if (!s->design_starts)
         return br_text_printf(out, "  %s: the cold start does NOT complete at the design point\n",
                               what);
-    int rc;
-    if (s->kind == BR_LIMIT_RANGE_END)
-        rc = br_text_printf(out, "  %s: %s, the end of the range searched\n", what,
-                            axis_value(s->axis, s->lowest, a, sizeof a));
-    else if (s->stalled >= 0 && s->stalled < c->n)
-        rc = br_text_printf(out, "  %s: %s (at %s rail %s never starts for good)\n", what,
-                            axis_value(s->axis, s->lowest, a, sizeof a),
-                            axis_value(s->axis, s->failing, b, sizeof b), c->st[s->stalled].name);
-    else
-        rc = br_text_printf(out, "  %s: %s (at %s it takes too long)\n", what,
-                            axis_value(s->axis, s->lowest, a, sizeof a),
-                            axis_value(s->axis, s->failing, b, sizeof b));
+    int rc =
+        su_end_text(c, s->axis, &s->low, duty ? "lowest duty" : "lowest switching frequency", out);
+    rc |= su_end_text(c, s->axis, &s->high, duty ? "highest duty" : "highest switching frequency",
+                      out);
     return rc | su_points(s, out);
 }
 
@@ -316,7 +326,9 @@ static int startup_text(const br_chain *c, const br_window *w, br_text *out)
     if (!w->startup)
         return br_text_put(out, "start-up window: not computed (--startup adds it; every point "
                                 "is a cold start)\n");
-    int rc = br_text_printf(out, "start-up window: the cold start completes within %s\n",
+    int rc = br_text_printf(out,
+                            "start-up window: the cold start completes within %s, searched "
+                            "both ways from the design point\n",
                             br_fmt_time(t, sizeof t, c->startup_max));
     rc |= su_axis_text(c, &w->su_duty, out);
     return rc | su_axis_text(c, &w->su_fsw, out);
@@ -422,20 +434,31 @@ static void holdup_xml(br_xmlw *x, const br_chain *c, const br_holdup *h)
     br_xmlw_end(x);
 }
 
+static void su_end_xml(br_xmlw *x, const br_chain *c, int axis, const char *end, const br_su_end *e)
+{
+    br_xmlw_start(x, "limit");
+    br_xmlw_attr(x, "end", end);
+    br_xmlw_attr(x, "kind", e->kind == BR_LIMIT_FOUND ? "found" : "range-end");
+    axis_num(x, axis, "starts-at", e->value);
+    if (e->kind == BR_LIMIT_FOUND)
+        axis_num(x, axis, "fails-at", e->failing);
+    if (e->stalled >= 0 && e->stalled < c->n)
+        br_xmlw_attr(x, "stalled-switch", c->st[e->stalled].name);
+    br_xmlw_end(x);
+}
+
 static void su_xml(br_xmlw *x, const br_chain *c, const br_su_window *s)
 {
     br_xmlw_start(x, "startup-window");
     br_xmlw_attr(x, "axis", axis_name(s->axis));
     br_xmlw_bool(x, "applies", s->applies);
     if (s->applies) {
+        axis_num(x, s->axis, "from", s->lo);
+        axis_num(x, s->axis, "to", s->hi);
         br_xmlw_bool(x, "design-starts", s->design_starts);
         if (s->design_starts) {
-            br_xmlw_attr(x, "kind", s->kind == BR_LIMIT_FOUND ? "found" : "range-end");
-            axis_num(x, s->axis, "lowest", s->lowest);
-            if (s->kind == BR_LIMIT_FOUND)
-                axis_num(x, s->axis, "fails-at", s->failing);
-            if (s->stalled >= 0 && s->stalled < c->n)
-                br_xmlw_attr(x, "stalled-switch", c->st[s->stalled].name);
+            su_end_xml(x, c, s->axis, "min", &s->low);
+            su_end_xml(x, c, s->axis, "max", &s->high);
         }
     }
     for (int i = 0; i < s->npts; i++) {

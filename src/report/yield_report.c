@@ -6,6 +6,7 @@
 #include "report/fmt.h"
 #include "report/report_common.h"
 #include "report/table.h"
+#include "report/verdict_report.h"
 
 #include <math.h>
 #include <stdio.h>
@@ -13,8 +14,6 @@
 
 #define TOP_DRIVERS 3 /* parameters shown per criterion */
 #define RHO_SHOWN 0.1 /* weaker rank correlations are not worth a line */
-
-static const char *const UNITS[BR_CRIT_COUNT] = {"s", "A", "V", "V", "V", "V", "V", "V", "V"};
 
 int br_yield_failed(const br_yield *y, double min_yield)
 {
@@ -86,7 +85,8 @@ static int quantile_table(const br_yield *y, br_text *out)
     static const char *const heads[] = {"criterion", "fails", "minimum", "0.1 %",
                                         "1 %",       "10 %",  "median"};
     int rc = br_text_put(out, "\nmargins over the samples (quantiles of each criterion's margin; "
-                              "fails: samples where it fails)\n");
+                              "fails: samples where it fails;\nwarn: where it passes with a "
+                              "warning)\n");
     br_table *t = br_table_create(7, BR_CRIT_COUNT);
     if (!t)
         return BR_ENOMEM;
@@ -103,9 +103,12 @@ static int quantile_table(const br_yield *y, br_text *out)
                 br_table_set(t, col, "-");
             continue;
         }
-        br_table_set(t, 1, "%ld", yc->fails);
+        if (yc->warns > 0)
+            br_table_set(t, 1, "%ld, %ld warn", yc->fails, yc->warns);
+        else
+            br_table_set(t, 1, "%ld", yc->fails);
         for (int q = 0; q < BR_YIELD_NQ; q++)
-            br_table_set(t, 2 + q, "%s", br_fmt_si(b, sizeof b, yc->q[q], 4, UNITS[crit]));
+            br_table_set(t, 2 + q, "%s", br_crit_fmt(b, sizeof b, crit, yc->q[q]));
     }
     rc |= br_table_render(t, 2, out);
     br_table_free(t);
@@ -189,7 +192,9 @@ static void xml_crit(br_xmlw *w, const br_yield *y, int crit)
     if (yc->applies) {
         br_xmlw_int(w, "judged", yc->judged);
         br_xmlw_int(w, "fails", yc->fails);
-        br_xmlw_attr(w, "unit", UNITS[crit]);
+        if (yc->warns > 0)
+            br_xmlw_int(w, "warns", yc->warns);
+        br_xmlw_attr(w, "unit", br_crit_unit(crit));
         for (int q = 0; q < BR_YIELD_NQ; q++)
             br_xmlw_num(w, qname[q], yc->q[q]);
         for (int j = 0; j < y->s->tl.n; j++) {
@@ -252,7 +257,8 @@ int br_yield_csv(const br_yield *y, br_text *out)
     for (int j = 0; j < k; j++)
         rc |= csv_name(out, y->s->tl.p[j].name);
     for (int crit = 0; crit < BR_CRIT_COUNT; crit++)
-        rc |= br_text_printf(out, ",margin_%s_%s", br_crit_name(crit), UNITS[crit]);
+        rc |= br_text_printf(out, ",margin_%s%s%s", br_crit_name(crit),
+                             br_crit_unit(crit)[0] ? "_" : "", br_crit_unit(crit));
     rc |= br_text_put(out, "\n");
     for (long i = 0; rc == BR_OK && i < y->n; i++) {
         const br_pt *p = &y->pts[i];
@@ -260,7 +266,8 @@ int br_yield_csv(const br_yield *y, br_text *out)
         for (int j = 0; j < k; j++)
             rc |= br_text_printf(out, ",%.9g", y->values[i * k + j]);
         for (int crit = 0; crit < BR_CRIT_COUNT; crit++) {
-            if (p->status == BR_OK && p->row[crit].applies)
+            /* no number for a margin that is not one (a rail that never starts) */
+            if (p->status == BR_OK && p->row[crit].applies && isfinite(p->row[crit].margin))
                 rc |= br_text_printf(out, ",%.9g", p->row[crit].margin);
             else
                 rc |= br_text_put(out, ",");

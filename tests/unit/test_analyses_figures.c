@@ -246,6 +246,117 @@ static void test_verdict_undetermined(void)
     br_design_free(d);
 }
 
+/* A rail that never starts has no start-up time: the row fails with an
+ * infinite figure (never), no margin (minus infinity, below any late
+ * start), names the rail and says where it settles against what its
+ * driver needs.  The test parts (testdesign.c) lose about half a volt per
+ * link from the 12 V supply, so rail 3 settles near 10.7 V, short of a
+ * UVLO rising of 11 V. */
+static void test_verdict_never_starts(void)
+{
+    br_design *d = br_test_fcml(3, 600.0, 100e3, 0.5, 50e-9);
+    d->drivers[0].uvlo_rise = br_qty_fixed(11.0);
+    d->drivers[0].uvlo_fall = br_qty_fixed(10.4);
+    d->startup_max = br_qty_fixed(2e-3);
+    br_chain *c = chain_of(d);
+    br_startup su;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_startup_run(c, NULL, &su, &err), BR_OK);
+    CU_ASSERT_FALSE_FATAL(su.complete);
+    CU_ASSERT_TRUE_FATAL(su.first_stalled > 0);
+    br_verdict v;
+    br_verdict_make(c, &su, NULL, 0, &v);
+    const br_verdict_row *r = &v.row[BR_CRIT_STARTUP];
+    CU_ASSERT_TRUE(r->applies);
+    CU_ASSERT_FALSE(r->pass);
+    CU_ASSERT_FALSE(r->undetermined);
+    /* before: the time simulated (2 ms and a period) against 2 ms, a
+     * margin of minus one period, a near miss */
+    CU_ASSERT_TRUE(isinf(r->figure) && r->figure > 0);
+    CU_ASSERT_TRUE(isinf(r->margin) && r->margin < 0);
+    BR_ASSERT_NEAR(r->limit, 2e-3, 1e-15);
+    CU_ASSERT_EQUAL(r->stage, su.first_stalled);
+    char want[96];
+    snprintf(want, sizeof want, "rail %d (%s) never starts", su.first_stalled,
+             c->st[su.first_stalled].name);
+    CU_ASSERT_PTR_NOT_NULL(strstr(r->note, want));
+    snprintf(want, sizeof want, "settles at %.3f V", su.st[su.first_stalled].vend);
+    CU_ASSERT_PTR_NOT_NULL(strstr(r->note, want));
+    CU_ASSERT_PTR_NOT_NULL(strstr(r->note, "11.000 V its driver needs"));
+    CU_ASSERT_EQUAL(v.nfail, 1 + (v.row[BR_CRIT_INRUSH].applies && !v.row[BR_CRIT_INRUSH].pass));
+    br_chain_free(c);
+    br_design_free(d);
+}
+
+/* A finished start-up whose stages dropped out 0, 2, 9 and 1 times. */
+static void dropouts_startup(const br_chain *c, br_startup *su, const int *drops)
+{
+    memset(su, 0, sizeof *su);
+    su->n = c->n;
+    su->complete = 1;
+    su->first_stalled = -1;
+    for (int k = 0; k < c->n; k++) {
+        su->st[k].first_enable = 1e-5 * (k + 1);
+        su->st[k].final_enable = 2e-5 * (k + 1);
+        su->st[k].ndropouts = drops[k];
+        su->st[k].running = 1;
+        su->st[k].vend = 11.0;
+    }
+    su->t_total = su->st[c->n - 1].final_enable;
+    su->t_simulated = 1e-3;
+}
+
+/* Start-up dropouts: the stage with the most sets the row.  Without a
+ * limit in the design, more than BR_DROPOUTS_WARN only warn (pass, exit
+ * 0); a stated limit fails above it and is the row's limit then. */
+static void test_verdict_dropouts(void)
+{
+    br_design *d = br_test_fcml(3, 600.0, 100e3, 0.5, 50e-9);
+    br_chain *c = chain_of(d);
+    CU_ASSERT_EQUAL_FATAL(c->n, 4);
+    CU_ASSERT_EQUAL(c->max_dropouts, -1);
+    const int drops[4] = {0, 2, 9, 1};
+    br_startup su;
+    dropouts_startup(c, &su, drops);
+    br_verdict v;
+    br_verdict_make(c, &su, NULL, 0, &v);
+    const br_verdict_row *r = &v.row[BR_CRIT_DROPOUTS];
+    CU_ASSERT_TRUE(r->applies && r->pass && r->warn && !r->undetermined);
+    BR_ASSERT_NEAR(r->figure, 9.0, 0.0);
+    BR_ASSERT_NEAR(r->limit, BR_DROPOUTS_WARN, 0.0);
+    BR_ASSERT_NEAR(r->margin, BR_DROPOUTS_WARN - 9.0, 0.0);
+    CU_ASSERT_EQUAL(r->stage, 2);
+    CU_ASSERT_PTR_NOT_NULL(strstr(r->note, "rail 2 (A2) dropped out 9 times"));
+    CU_ASSERT_EQUAL(v.nfail, 0);
+    CU_ASSERT_EQUAL(v.nwarn, 1);
+    CU_ASSERT_TRUE(br_crit_is_startup(BR_CRIT_DROPOUTS));
+    CU_ASSERT_STRING_EQUAL(br_crit_unit(BR_CRIT_DROPOUTS), "");
+    /* a stated limit below the count fails */
+    c->max_dropouts = 5;
+    br_verdict_make(c, &su, NULL, 0, &v);
+    CU_ASSERT_TRUE(r->applies && !r->pass && !r->warn);
+    BR_ASSERT_NEAR(r->limit, 5.0, 0.0);
+    BR_ASSERT_NEAR(r->margin, -4.0, 0.0);
+    CU_ASSERT_EQUAL(v.nfail, 1);
+    /* at the limit it passes, and the designer's limit replaces the warning */
+    c->max_dropouts = 9;
+    br_verdict_make(c, &su, NULL, 0, &v);
+    CU_ASSERT_TRUE(r->pass && !r->warn);
+    CU_ASSERT_EQUAL(v.nfail + v.nwarn, 0);
+    /* a few per stage: no finding */
+    c->max_dropouts = -1;
+    const int few[4] = {0, 3, 1, 0};
+    dropouts_startup(c, &su, few);
+    br_verdict_make(c, &su, NULL, 0, &v);
+    CU_ASSERT_TRUE(r->pass && !r->warn);
+    BR_ASSERT_NEAR(r->figure, 3.0, 0.0);
+    /* the steady-state verbs do not judge it */
+    br_verdict_make(c, NULL, NULL, 0, &v);
+    CU_ASSERT_FALSE(r->applies);
+    br_chain_free(c);
+    br_design_free(d);
+}
+
 int main(void)
 {
     static const br_test_case cases[] = {
@@ -256,6 +367,8 @@ int main(void)
         {"Zener clamp", test_zener_clamp},
         {"linear regulator", test_regulator},
         {"verdict: undetermined when not converged", test_verdict_undetermined},
+        {"verdict: a rail that never starts", test_verdict_never_starts},
+        {"verdict: start-up dropouts", test_verdict_dropouts},
         {NULL, NULL}};
     return br_test_main("analyses/figures", cases);
 }

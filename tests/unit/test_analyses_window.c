@@ -318,19 +318,62 @@ static void test_startup_window(void)
     run_window(d, 1, w);
     const br_su_window *s = &w->su_fsw;
     CU_ASSERT_TRUE_FATAL(s->design_starts);
-    CU_ASSERT_EQUAL_FATAL(s->kind, BR_LIMIT_FOUND);
-    CU_ASSERT_TRUE(s->lowest / s->failing - 1.0 <= BR_RES_FSW + 1e-12);
-    CU_ASSERT_TRUE(starts_at(d, 0.5, s->lowest));
-    CU_ASSERT_FALSE(starts_at(d, 0.5, s->failing));
-    /* the runs come sorted; the search goes down from the design point */
-    const br_su_point *top = &s->pt[s->npts - 1];
-    BR_ASSERT_REL(top->value, 20e3, 1e-12);
+    CU_ASSERT_EQUAL_FATAL(s->low.kind, BR_LIMIT_FOUND);
+    CU_ASSERT_TRUE(s->low.value / s->low.failing - 1.0 <= BR_RES_FSW + 1e-12);
+    CU_ASSERT_TRUE(starts_at(d, 0.5, s->low.value));
+    CU_ASSERT_FALSE(starts_at(d, 0.5, s->low.failing));
+    /* the runs come sorted; the design point is one of them, and start-up
+     * takes longer toward the limit */
+    const br_su_point *at = NULL;
     double t_lowest = -1.0;
-    for (int i = 0; i < s->npts; i++)
-        if (s->pt[i].value == s->lowest)
+    for (int i = 0; i < s->npts; i++) {
+        if (i > 0)
+            CU_ASSERT_TRUE(s->pt[i].value > s->pt[i - 1].value);
+        if (s->pt[i].value == s->low.value)
             t_lowest = s->pt[i].t_total;
-    CU_ASSERT_TRUE(top->complete && t_lowest > top->t_total);
+        if (fabs(s->pt[i].value / 20e3 - 1.0) < 1e-12)
+            at = &s->pt[i];
+    }
+    CU_ASSERT_PTR_NOT_NULL_FATAL(at);
+    CU_ASSERT_TRUE(at->complete && t_lowest > at->t_total);
+    /* the top end: with no gate-charge limit in reach, the range end */
+    CU_ASSERT_EQUAL(s->high.kind, BR_LIMIT_RANGE_END);
+    BR_ASSERT_REL(s->high.value, s->hi, 1e-12);
+    CU_ASSERT_TRUE(s->hi > 20e3);
     CU_ASSERT_TRUE(w->su_duty.design_starts);
+    free(w);
+    br_design_free(d);
+}
+
+/* A high duty starves the charging windows of the bottom switches (each
+ * about (1 - D) T, common practice), through which every rail above them
+ * is charged: the start-up window has a highest duty too.  The highest
+ * duty found starts, the value above it does not, the two within the
+ * resolution, and the report names the rail that never starts there. */
+static void test_startup_window_high_duty(void)
+{
+    br_design *d = three_level(10.3);
+    br_window *w = malloc(sizeof *w);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(w);
+    run_window(d, 1, w);
+    const br_su_window *s = &w->su_duty;
+    CU_ASSERT_TRUE_FATAL(s->design_starts);
+    /* some cold start above the design duty, and one of them fails */
+    int above = 0, above_fails = 0;
+    for (int i = 0; i < s->npts; i++) {
+        above += s->pt[i].value > 0.5;
+        above_fails += s->pt[i].value > 0.5 && !s->pt[i].complete;
+    }
+    CU_ASSERT_TRUE(above >= 5 && above_fails >= 1);
+    CU_ASSERT_EQUAL_FATAL(s->high.kind, BR_LIMIT_FOUND);
+    CU_ASSERT_TRUE(s->high.value > 0.5 && s->high.value < s->high.failing);
+    CU_ASSERT_TRUE(s->high.failing - s->high.value <= BR_RES_DUTY + 1e-12);
+    CU_ASSERT_TRUE(starts_at(d, s->high.value, 20e3));
+    CU_ASSERT_FALSE(starts_at(d, s->high.failing, 20e3));
+    CU_ASSERT_TRUE(s->high.stalled > 0 && s->high.stalled < 4);
+    BR_ASSERT_REL(s->hi, w->duty.hi, 1e-12);
+    /* the bottom end is searched as before, down to the range's end */
+    CU_ASSERT_TRUE(s->low.value < 0.5);
     free(w);
     br_design_free(d);
 }
@@ -506,6 +549,7 @@ int main(void)
         {"hold-up without a load", test_holdup_none},
         {"hold-up with the design's hold-on state", test_holdup_named_state},
         {"start-up window", test_startup_window},
+        {"start-up window: the highest duty", test_startup_window_high_duty},
         {"map agrees with window through the design point", test_map_agrees_with_window},
         {"map independent of the thread count", test_map_threads},
         {"window independent of the thread count", test_window_threads},

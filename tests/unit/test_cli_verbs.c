@@ -113,8 +113,12 @@ static xmlDoc *check_xml(const char *path, const char *verb, int n, int ndir, in
     CU_ASSERT_EQUAL(count_elements(root, "steady"), steady ? ndir : 0);
     CU_ASSERT_EQUAL(count_elements(root, "rail"), steady ? ndir * n : 0);
     CU_ASSERT_EQUAL(count_elements(root, "link"), steady ? ndir * (n - 1) : 0);
-    /* start-up judges 2 criteria, steady the other BR_CRIT_COUNT - 2 */
-    int ncrit = startup && steady ? BR_CRIT_COUNT : startup ? 2 : BR_CRIT_COUNT - 2;
+    /* start-up judges its criteria, steady the others */
+    int nsu = 0;
+    for (int i = 0; i < BR_CRIT_COUNT; i++)
+        nsu += br_crit_is_startup(i);
+    CU_ASSERT_EQUAL(nsu, 3);
+    int ncrit = startup && steady ? BR_CRIT_COUNT : startup ? nsu : BR_CRIT_COUNT - nsu;
     CU_ASSERT_EQUAL(count_elements(root, "criterion"), ncrit);
     CU_ASSERT_TRUE(attr_is(find_element(root, "verdict"), "pass", status == 0 ? "true" : "false"));
     xmlNode *caution = find_element(root, "caution");
@@ -257,7 +261,10 @@ static void test_startup(void)
     CU_ASSERT_STRING_EQUAL(r.err, "");
     expect_names(c, r.out);
     CU_ASSERT_TRUE(has(r.out, "start-up complete after "));
-    CU_ASSERT_PTR_NULL(strstr(r.out, "verdict"));
+    /* the verdict of the start-up criteria alone */
+    CU_ASSERT_TRUE(has(r.out, "verdict: PASS"));
+    for (int i = 0; i < BR_CRIT_COUNT; i++)
+        CU_ASSERT_EQUAL(strstr(r.out, br_crit_title(i)) != NULL, br_crit_is_startup(i));
     xmlDoc *doc = check_xml(xml, "startup", c->n, 0, r.status);
     xmlNode *su = doc ? find_element(xmlDocGetRootElement(doc), "startup") : NULL;
     CU_ASSERT_TRUE(attr_is(su, "complete", "true"));
@@ -300,33 +307,188 @@ static void test_steady(void)
     done(&r);
 }
 
-/* ref-c2 with UVLO thresholds the upper rails cannot reach (each link
- * costs about half a volt): the start-up fails, status 1, and the report
- * says which rail stalls and what its link carries. */
-static void test_startup_stall(void)
+/* A copy of design src at path with the first `from` replaced by `to`. */
+static void design_variant(const char *src_path, const char *from, const char *to, const char *path)
 {
-    char dir[64], path[96];
-    temp_dir(dir, sizeof dir);
-    snprintf(path, sizeof path, "%s/stall.xml", dir);
-    char *src = br_test_slurp("tests/data/ref-c2.xml", NULL);
+    char *src = br_test_slurp(src_path, NULL);
     CU_ASSERT_PTR_NOT_NULL_FATAL(src);
-    const char *from = "uvlo-rise=\"7.5 V\" uvlo-fall=\"7.0 V\"";
     char *at = strstr(src, from);
     CU_ASSERT_PTR_NOT_NULL_FATAL(at);
     FILE *f = fopen(path, "w");
     CU_ASSERT_PTR_NOT_NULL_FATAL(f);
-    fprintf(f, "%.*suvlo-rise=\"10.6 V\" uvlo-fall=\"10.0 V\"%s", (int)(at - src), src,
-            at + strlen(from));
+    fprintf(f, "%.*s%s%s", (int)(at - src), src, to, at + strlen(from));
     fclose(f);
     free(src);
+}
+
+/* The line of text that starts with prefix, copied into line. */
+static int line_of(const char *text, const char *prefix, char *line, size_t cap)
+{
+    for (const char *p = text; p && *p;) {
+        const char *nl = strchr(p, '\n');
+        size_t n = nl ? (size_t)(nl - p) : strlen(p);
+        if (strncmp(p, prefix, strlen(prefix)) == 0) {
+            snprintf(line, cap, "%.*s", (int)n, p);
+            return 1;
+        }
+        p = nl ? nl + 1 : NULL;
+    }
+    line[0] = '\0';
+    return 0;
+}
+
+/* The <criterion> of the verdict named name. */
+static xmlNode *criterion(xmlDoc *doc, const char *name)
+{
+    xmlNode *v = doc ? find_element(xmlDocGetRootElement(doc), "verdict") : NULL;
+    for (xmlNode *n = v ? v->children : NULL; n; n = n->next)
+        if (n->type == XML_ELEMENT_NODE && attr_is(n, "name", name))
+            return n;
+    return NULL;
+}
+
+static int has_attr(xmlNode *n, const char *name)
+{
+    return n && xmlHasProp(n, (const xmlChar *)name) != NULL;
+}
+
+/* The verdict row of a rail that never starts: FAIL, "never starts" in
+ * place of a start-up time, no margin, and the note says where it
+ * settles (before: the time simulated against the limit, a margin of
+ * minus one period, a near miss). */
+static void check_never_row(const char *out)
+{
+    char row[256];
+    CU_ASSERT_TRUE_FATAL(line_of(out, "  every driver starts from cold", row, sizeof row));
+    CU_ASSERT_PTR_NOT_NULL(strstr(row, " FAIL "));
+    CU_ASSERT_PTR_NOT_NULL(strstr(row, "never starts"));
+    CU_ASSERT_PTR_NOT_NULL(strstr(row, " 20 ms  "));
+    CU_ASSERT_PTR_NOT_NULL(strstr(row, " -  rail "));
+    CU_ASSERT_PTR_NULL(strstr(row, " us"));
+    CU_ASSERT_TRUE(has(out, "FAIL every driver starts from cold: rail "));
+    CU_ASSERT_TRUE(has(out, "never starts: it settles at "));
+}
+
+/* ref-c2 with UVLO thresholds the upper rails cannot reach (each link
+ * costs about half a volt): the start-up fails, status 1, and the report
+ * says which rail never starts, where it settles and what its link
+ * carries, in the text, the XML and the HTML of startup and analyze. */
+static void test_startup_stall(void)
+{
+    char dir[64], path[96], xml[96], html[96];
+    temp_dir(dir, sizeof dir);
+    snprintf(path, sizeof path, "%s/stall.xml", dir);
+    snprintf(xml, sizeof xml, "%s/stall-r.xml", dir);
+    snprintf(html, sizeof html, "%s/stall-r.html", dir);
+    design_variant("tests/data/ref-c2.xml", "uvlo-rise=\"7.5 V\" uvlo-fall=\"7.0 V\"",
+                   "uvlo-rise=\"10.6 V\" uvlo-fall=\"10.0 V\"", path);
     run_result r = run((const char *[]){"startup", path, NULL});
     CU_ASSERT_EQUAL(r.status, 1);
     CU_ASSERT_TRUE(has(r.out, "start-up INCOMPLETE"));
     CU_ASSERT_TRUE(has(r.out, "below UVLO"));
     CU_ASSERT_TRUE(has(r.out, "passes"));
     CU_ASSERT_TRUE(has(r.out, "drivers not running at the end:"));
+    check_never_row(r.out);
     done(&r);
+    r = run((const char *[]){"analyze", path, "--xml", xml, "--report", html, NULL});
+    CU_ASSERT_EQUAL(r.status, 1);
+    check_never_row(r.out);
+    done(&r);
+    xmlDoc *doc = xmlReadFile(xml, NULL, XML_PARSE_NONET);
+    xmlNode *row = criterion(doc, "startup");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(row);
+    CU_ASSERT_TRUE(attr_is(row, "result", "fail"));
+    CU_ASSERT_TRUE(attr_is(row, "never-starts", "true"));
+    CU_ASSERT_FALSE(has_attr(row, "figure"));
+    CU_ASSERT_FALSE(has_attr(row, "margin"));
+    BR_ASSERT_NEAR(attr_num(row, "limit"), 20e-3, 1e-12);
+    xmlChar *note = xmlGetProp(row, (const xmlChar *)"note");
+    CU_ASSERT_TRUE(note && strstr((const char *)note, "never starts: it settles at "));
+    xmlFree(note);
+    xmlFreeDoc(doc);
+    char *page = br_test_slurp(html, NULL);
+    CU_ASSERT_TRUE(page && has(page, "<td>never starts</td>"));
+    CU_ASSERT_TRUE(page && has(page, "never starts: it settles at "));
+    free(page);
     unlink(path);
+    unlink(xml);
+    unlink(html);
+    rmdir(dir);
+}
+
+/* The stage of a <startup> element with the most dropouts, and how many. */
+static int most_dropouts(xmlDoc *doc, int *stage)
+{
+    xmlNode *su = doc ? find_element(xmlDocGetRootElement(doc), "startup") : NULL;
+    int most = -1;
+    for (xmlNode *n = su ? su->children : NULL; n; n = n->next) {
+        if (n->type != XML_ELEMENT_NODE || strcmp((const char *)n->name, "stage") != 0)
+            continue;
+        int k = (int)attr_num(n, "dropouts");
+        if (k > most) {
+            most = k;
+            *stage = (int)attr_num(n, "index");
+        }
+    }
+    return most;
+}
+
+/* Start-up dropouts are a criterion: ref-c2 hiccups up to 9 times on one
+ * stage (the reference simulator's count too, tests/data/reference/c2.json),
+ * more than the warning level of a design without a limit: startup passes
+ * with a warning (status 0) naming that stage; a stated limit below the
+ * count fails (status 1, startup and analyze alike), one above it passes
+ * without a word. */
+static void test_dropouts(void)
+{
+    char dir[64], tight[96], loose[96];
+    temp_dir(dir, sizeof dir);
+    snprintf(tight, sizeof tight, "%s/tight.xml", dir);
+    snprintf(loose, sizeof loose, "%s/loose.xml", dir);
+    const char *title = br_crit_title(BR_CRIT_DROPOUTS);
+    char row[256];
+    run_result r = run((const char *[]){"startup", "tests/data/ref-c2.xml", "--xml", "-", NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    xmlDoc *doc = xmlReadMemory(r.out, (int)strlen(r.out), "s.xml", NULL, XML_PARSE_NONET);
+    int stage = -1, most = most_dropouts(doc, &stage);
+    CU_ASSERT_TRUE(most > BR_DROPOUTS_WARN);
+    xmlNode *n = criterion(doc, "dropouts");
+    CU_ASSERT_TRUE(attr_is(n, "result", "pass") && attr_is(n, "warn", "true"));
+    BR_ASSERT_NEAR(attr_num(n, "figure"), most, 0.0);
+    BR_ASSERT_NEAR(attr_num(n, "limit"), BR_DROPOUTS_WARN, 0.0);
+    BR_ASSERT_NEAR(attr_num(n, "stage"), stage, 0.0);
+    xmlFreeDoc(doc);
+    done(&r);
+    r = run((const char *[]){"startup", "tests/data/ref-c2.xml", NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    CU_ASSERT_TRUE(line_of(r.out, "  start-up dropouts per stage", row, sizeof row));
+    CU_ASSERT_PTR_NOT_NULL(strstr(row, " WARN "));
+    CU_ASSERT_TRUE(has(r.out, "1 with a warning"));
+    CU_ASSERT_TRUE(has(r.out, "dropped out"));
+    done(&r);
+    const char *end = "</bootrung-design>";
+    design_variant("tests/data/ref-c2.xml", end,
+                   "  <analysis max-dropouts=\"4\"/>\n</bootrung-design>", tight);
+    design_variant("tests/data/ref-c2.xml", end,
+                   "  <analysis max-dropouts=\"20\"/>\n</bootrung-design>", loose);
+    static const char *const verbs[] = {"startup", "analyze"};
+    for (int i = 0; i < 2; i++) {
+        r = run((const char *[]){verbs[i], tight, NULL});
+        CU_ASSERT_EQUAL(r.status, 1);
+        CU_ASSERT_TRUE(line_of(r.out, "  start-up dropouts per stage", row, sizeof row));
+        CU_ASSERT_PTR_NOT_NULL(strstr(row, " FAIL "));
+        CU_ASSERT_TRUE(has(r.out, "the design allows 4"));
+        done(&r);
+    }
+    r = run((const char *[]){"startup", loose, NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    CU_ASSERT_TRUE(line_of(r.out, "  start-up dropouts per stage", row, sizeof row));
+    CU_ASSERT_PTR_NOT_NULL(strstr(row, " pass "));
+    CU_ASSERT_PTR_NULL(strstr(r.out, "WARN"));
+    CU_ASSERT_TRUE(has(r.out, title));
+    done(&r);
+    unlink(tight);
+    unlink(loose);
     rmdir(dir);
 }
 
@@ -448,6 +610,7 @@ int main(void)
         {"startup completes on ref-c2", test_startup},
         {"steady on ref-c1 with XML and CSV", test_steady},
         {"a rail that never starts: status 1, why", test_startup_stall},
+        {"start-up dropouts: warning, limit", test_dropouts},
         {"bad design file: status 2", test_bad_input},
         {"bad usage: status 2", test_bad_usage},
         {"unwritable output: status 2, nothing left", test_write_failure},

@@ -149,6 +149,68 @@ static void test_window_holds(void)
     scratch_free(&s);
 }
 
+/* The element under `parent` named name whose attribute attr is want. */
+static xmlNode *child_with(xmlNode *parent, const char *name, const char *attr, const char *want)
+{
+    for (xmlNode *n = parent ? parent->children : NULL; n; n = n->next)
+        if (n->type == XML_ELEMENT_NODE && strcmp((const char *)n->name, name) == 0 &&
+            attr_is(n, attr, want))
+            return n;
+    return NULL;
+}
+
+/* One end of the start-up window in the XML: the value found starting,
+ * and beyond it (further from the design point) the one found failing. */
+static void check_su_end(xmlNode *sw, const char *end, const char *suffix, double design)
+{
+    char in[32], out[32];
+    snprintf(in, sizeof in, "starts-at%s", suffix);
+    snprintf(out, sizeof out, "fails-at%s", suffix);
+    xmlNode *lim = child_with(sw, "limit", "end", end);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(lim);
+    CU_ASSERT_TRUE(attr_is(lim, "kind", "found"));
+    double a = attr_num(lim, in), b = attr_num(lim, out);
+    int max = strcmp(end, "max") == 0;
+    CU_ASSERT_TRUE(max ? design < a && a < b : b < a && a < design);
+}
+
+/* --startup searches the start-up window both ways from the design point:
+ * the test design stops starting at a low and at a high duty, and at a
+ * low and a high frequency (a high frequency shortens the charging
+ * windows against the dead time and raises the gate charge drawn each
+ * second); the text and the XML give all four. */
+static void test_window_startup(void)
+{
+    scratch s;
+    scratch_make(&s);
+    char xml[160];
+    scratch_path(&s, "window.xml", xml, sizeof xml);
+    run_result r = run((const char *[]){"window", "--startup", s.design, "--xml", xml, NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    CU_ASSERT_TRUE(has(r.out, "start-up window: the cold start completes within 5 ms"));
+    CU_ASSERT_TRUE(has(r.out, "  lowest duty: "));
+    CU_ASSERT_TRUE(has(r.out, "  highest duty: "));
+    CU_ASSERT_TRUE(has(r.out, "  lowest switching frequency: "));
+    CU_ASSERT_TRUE(has(r.out, "  highest switching frequency: "));
+    CU_ASSERT_TRUE(has(r.out, "never starts for good)"));
+    xmlDoc *doc = xmlReadFile(xml, NULL, XML_PARSE_NONET);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(doc);
+    xmlNode *root = xmlDocGetRootElement(doc);
+    CU_ASSERT_EQUAL(count_children(root, "startup-window"), 2);
+    xmlNode *duty = child_with(root, "startup-window", "axis", "duty");
+    xmlNode *fsw = child_with(root, "startup-window", "axis", "frequency");
+    CU_ASSERT_TRUE(attr_is(duty, "design-starts", "true"));
+    check_su_end(duty, "min", "", 0.5);
+    check_su_end(duty, "max", "", 0.5);
+    check_su_end(fsw, "min", "-Hz", 100e3);
+    check_su_end(fsw, "max", "-Hz", 100e3);
+    CU_ASSERT_TRUE(attr_num(fsw, "to-Hz") > 100e3);
+    xmlFreeDoc(doc);
+    unlink(xml);
+    done(&r);
+    scratch_free(&s);
+}
+
 /* demo-3level asks for a 10 V minimum drive its top rail cannot give:
  * exit status 1, said plainly. */
 static void test_window_fails(void)
@@ -321,6 +383,7 @@ int main(void)
     static const br_test_case cases[] = {
         {"window on a design that holds, with XML", test_window_holds},
         {"window on a design that fails", test_window_fails},
+        {"window --startup: both ends of each axis", test_window_startup},
         {"window: bad input and usage", test_window_bad},
         {"map: summary, CSV and SVG", test_map_files},
         {"map: SVG to standard output", test_map_stdout},

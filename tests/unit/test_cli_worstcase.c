@@ -87,6 +87,109 @@ static void test_corners_xml(void)
     done(&r);
 }
 
+/* The line of text that starts with prefix, copied into line. */
+static int line_of(const char *text, const char *prefix, char *line, size_t cap)
+{
+    for (const char *p = text; p && *p;) {
+        const char *nl = strchr(p, '\n');
+        size_t n = nl ? (size_t)(nl - p) : strlen(p);
+        if (strncmp(p, prefix, strlen(prefix)) == 0) {
+            snprintf(line, cap, "%.*s", (int)n, p);
+            return 1;
+        }
+        p = nl ? nl + 1 : NULL;
+    }
+    line[0] = '\0';
+    return 0;
+}
+
+/* The demo with <analysis max-dropouts="0">: every stage must start
+ * without a hiccup.  corners (with its cold starts) and yield --startup
+ * judge the dropouts row like the other start-up rows: it fails at the
+ * worst corner and in every sample. */
+static void test_dropouts_judged(void)
+{
+    char dir[] = "/tmp/br-wc-XXXXXX", path[64], row[200];
+    CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(dir));
+    snprintf(path, sizeof path, "%s/d.xml", dir);
+    char *src = br_test_slurp(DEMO, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(src);
+    const char *from = "<analysis ";
+    char *at = strstr(src, from);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(at);
+    FILE *f = fopen(path, "w");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(f);
+    fprintf(f, "%.*s<analysis max-dropouts=\"0\" %s", (int)(at - src), src, at + strlen(from));
+    fclose(f);
+    free(src);
+    run_result r = run((const char *[]){"corners", path, NULL});
+    CU_ASSERT_EQUAL(r.status, 1);
+    CU_ASSERT_TRUE(line_of(r.out, "  dropouts ", row, sizeof row));
+    CU_ASSERT_PTR_NOT_NULL(strstr(row, " FAIL "));
+    done(&r);
+    r = run((const char *[]){"yield", "--startup", "--samples", "4", path, NULL});
+    CU_ASSERT_EQUAL(r.status, 1);
+    CU_ASSERT_TRUE(line_of(r.out, "  dropouts ", row, sizeof row));
+    long fails = -1;
+    CU_ASSERT_EQUAL(sscanf(row, " dropouts %ld", &fails), 1);
+    CU_ASSERT_EQUAL(fails, 4);
+    done(&r);
+    unlink(path);
+    rmdir(dir);
+}
+
+/* The demo on an 8.8 V supply: its top rails never start.  yield --startup
+ * counts every sample as failing the start-up, prints "never starts" in
+ * place of margins it does not have (no NaN, no infinity), and leaves
+ * the CSV cell empty. */
+static void test_yield_never_starts(void)
+{
+    char dir[] = "/tmp/br-wc-XXXXXX", path[64], csv[64], row[200];
+    CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(dir));
+    snprintf(path, sizeof path, "%s/d.xml", dir);
+    snprintf(csv, sizeof csv, "%s/y.csv", dir);
+    char *src = br_test_slurp(DEMO, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(src);
+    const char *from = "voltage=\"12 V +-5%\"";
+    char *at = strstr(src, from);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(at);
+    FILE *f = fopen(path, "w");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(f);
+    fprintf(f, "%.*svoltage=\"8.8 V +-5%%\"%s", (int)(at - src), src, at + strlen(from));
+    fclose(f);
+    free(src);
+    run_result r =
+        run((const char *[]){"yield", "--startup", "--samples", "3", "--csv", csv, path, NULL});
+    CU_ASSERT_EQUAL(r.status, 1);
+    CU_ASSERT_TRUE(line_of(r.out, "  startup ", row, sizeof row));
+    long fails = -1;
+    CU_ASSERT_EQUAL(sscanf(row, " startup %ld", &fails), 1);
+    CU_ASSERT_EQUAL(fails, 3);
+    CU_ASSERT_PTR_NOT_NULL(strstr(row, "never starts"));
+    CU_ASSERT_PTR_NULL(strstr(r.out, "nan"));
+    CU_ASSERT_PTR_NULL(strstr(r.out, "inf "));
+    done(&r);
+    char *text = br_test_slurp(csv, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(text);
+    CU_ASSERT_PTR_NULL(strstr(text, "inf"));
+    CU_ASSERT_PTR_NULL(strstr(text, "nan"));
+    /* sample 1: pass 0, then the 3 parameters, then an empty start-up margin */
+    const char *line = strchr(text, '\n');
+    CU_ASSERT_PTR_NOT_NULL_FATAL(line);
+    CU_ASSERT_TRUE(strncmp(line + 1, "1,0,", 4) == 0);
+    const char *cell = line + 1;
+    for (int c = 0; c < 5 && cell; c++) {
+        cell = strchr(cell, ',');
+        cell = cell ? cell + 1 : NULL;
+    }
+    CU_ASSERT_PTR_NOT_NULL_FATAL(cell);
+    CU_ASSERT_EQUAL(*cell, ',');
+    free(text);
+    unlink(csv);
+    unlink(path);
+    rmdir(dir);
+}
+
 /* ---- yield ----------------------------------------------------------------- */
 
 /* Same seed, one thread or two: the same report, byte for byte. */
@@ -246,6 +349,8 @@ int main(void)
     static const br_test_case cases[] = {
         {"corners: the report", test_corners_report},
         {"corners: the XML document", test_corners_xml},
+        {"corners and yield judge the start-up dropouts", test_dropouts_judged},
+        {"yield: samples where a rail never starts", test_yield_never_starts},
         {"yield: same seed, 1 or 2 threads, same report", test_yield_threads},
         {"yield: CSV and XML files, --min-yield", test_yield_files},
         {"pick: rejections, no passing choice, a broken catalog", test_pick},

@@ -410,6 +410,7 @@ static void test_defaults_kept(void)
     CU_ASSERT_EQUAL(d->tedge.nom, ref->tedge.nom);
     CU_ASSERT_EQUAL(d->derating.nom, ref->derating.nom);
     CU_ASSERT_EQUAL(d->startup_max.nom, ref->startup_max.nom);
+    CU_ASSERT_EQUAL(d->max_dropouts, -1); /* not stated: dropouts only warn */
     CU_ASSERT_EQUAL(d->diodes[0].is.nom, dp.is.nom);
     CU_ASSERT_EQUAL(d->diodes[0].eg.nom, dp.eg.nom);
     CU_ASSERT_EQUAL(d->diodes[0].tnom, dp.tnom);
@@ -422,6 +423,36 @@ static void test_defaults_kept(void)
     CU_ASSERT_STRING_EQUAL(d->name, "");
     br_design_free(ref);
     br_design_free(d);
+}
+
+/* <analysis max-dropouts>: a whole number of dropouts allowed per stage,
+ * carried into the chain. */
+static void test_max_dropouts(void)
+{
+    br_error err;
+    br_design *d = load_text(MINI_HEAD "  <topology><fcml levels=\"3\"/></topology>\n"
+                                       "  <parts>\n    <diode id=\"d\"/>\n" MINI_PARTS
+                                       "  </parts>\n" MINI_STAGES
+                                       "  <analysis max-dropouts=\"7\" hold-on=\"B1\"/>\n"
+                                       "</bootrung-design>\n",
+                             &err);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(d);
+    CU_ASSERT_EQUAL(d->max_dropouts, 7);
+    br_chain *c = NULL;
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    CU_ASSERT_EQUAL(c->max_dropouts, 7);
+    br_chain_free(c);
+    br_design_free(d);
+    /* a file the schema refuses for something after <analysis>: the
+     * explanation names that, not the attributes of <analysis> */
+    d = load_text(MINI_HEAD "  <topology><fcml levels=\"3\"/></topology>\n"
+                            "  <parts>\n    <diode id=\"d\"/>\n" MINI_PARTS
+                            "  </parts>\n" MINI_STAGES
+                            "  <analysis max-dropouts=\"7\" hold-on=\"B1\"/>\n"
+                            "  <extra/>\n</bootrung-design>\n",
+                  &err);
+    CU_ASSERT_PTR_NULL(d);
+    CU_ASSERT_PTR_NOT_NULL(strstr(err.msg, "unknown element <extra>"));
 }
 
 static void test_string_topology(void)
@@ -627,6 +658,7 @@ int main(void)
         {"forward fit from a file", test_fit_from_file},
         {"tau from qrr and if", test_recovery_charge},
         {"omitted attributes keep their defaults", test_defaults_kept},
+        {"max-dropouts read", test_max_dropouts},
         {"explicit string topology", test_string_topology},
         {"FCML switch names in precharge", test_fcml_switch_names},
         {"tolerance forms in a file", test_tolerance_forms},
