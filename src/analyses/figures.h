@@ -54,7 +54,8 @@ br_rail_fig br_rail_fig_worst(const br_steady_figs *f, int ndir, int k);
 typedef enum br_crit {
     BR_CRIT_STARTUP = 0, /* every driver starts within the allowed time */
     BR_CRIT_INRUSH,      /* link inrush peak within the diode's surge rating */
-    BR_CRIT_STEADY,      /* a periodic steady state exists and holds */
+    BR_CRIT_STEADY,      /* a periodic steady state exists and holds (a status: its
+                            figure is the solver's drift, it has no margin) */
     BR_CRIT_RESTART,     /* every rail stays above UVLO rising (restarts after a dropout) */
     BR_CRIT_UVLO,        /* every driver stays above UVLO falling */
     BR_CRIT_DRIVE,       /* every drive voltage above the minimum useful drive */
@@ -90,6 +91,15 @@ typedef struct br_verdict {
  * (ndir of them) into the verdict table. */
 void br_verdict_make(const br_chain *c, const br_startup *su, const br_steady_figs *figs, int ndir,
                      br_verdict *out);
+
+/* 1 for a criterion judged by a margin (figure against a limit); 0 for
+ * one that is a status (the steady state holds, does not hold, or is
+ * undetermined), whose figure is information and which has no margin to
+ * rank, histogram or correlate. */
+int br_crit_has_margin(int crit);
+
+/* The unit of a criterion's figure, limit and margin ("s", "A", "V"). */
+const char *br_crit_unit(int crit);
 
 /* Short names of criteria, for tables and XML. */
 const char *br_crit_name(int crit);

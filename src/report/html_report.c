@@ -196,7 +196,7 @@ static int verdict_row(br_text *out, const br_chain *c, const br_verdict_row *r)
     if (r->applies && !r->undetermined) {
         rc |= cell_si(out, r->figure, 4, u);
         rc |= cell_si(out, r->limit, 4, u);
-        rc |= cell_si(out, r->margin, 4, u);
+        rc |= br_crit_has_margin(r->crit) ? cell_si(out, r->margin, 4, u) : cell(out, NULL, "-");
     } else {
         rc |= cell(out, NULL, "-") | cell(out, NULL, "-") | cell(out, NULL, "-");
     }
