@@ -310,8 +310,6 @@ int br_chart_diode(const br_chain *c, const br_steady_figs *f, int k, const br_t
 
 /* ---- yield histogram ----------------------------------------------------- */
 
-/* The unit of each criterion's margin (as the yield report has them). */
-static const char *const UNITS[BR_CRIT_COUNT] = {"s", "A", "V", "V", "V", "V", "V", "V", "V"};
 #define NBINS 30
 
 static void bars(br_plot *p, const long *cnt, double lo, double w)
@@ -333,7 +331,7 @@ static void histogram_panel(br_svg *s, const br_yield *y, int crit, double x, do
     double lo = HUGE_VAL, hi = -HUGE_VAL;
     for (long i = 0; i < y->n; i++) {
         const br_pt_row *r = &y->pts[i].row[crit];
-        if (y->pts[i].status == BR_OK && r->applies && isfinite(r->margin)) {
+        if (y->pts[i].status == BR_OK && r->applies && !r->undetermined && isfinite(r->margin)) {
             lo = fmin(lo, r->margin);
             hi = fmax(hi, r->margin);
         }
@@ -351,7 +349,7 @@ static void histogram_panel(br_svg *s, const br_yield *y, int crit, double x, do
     double w = (hi - lo) / NBINS;
     for (long i = 0; i < y->n; i++) {
         const br_pt_row *r = &y->pts[i].row[crit];
-        if (y->pts[i].status == BR_OK && r->applies && isfinite(r->margin)) {
+        if (y->pts[i].status == BR_OK && r->applies && !r->undetermined && isfinite(r->margin)) {
             int b = (int)fmin(NBINS - 1, floor((r->margin - lo) / w));
             cnt[b]++;
             peak = cnt[b] > peak ? cnt[b] : peak;
@@ -361,10 +359,14 @@ static void histogram_panel(br_svg *s, const br_yield *y, int crit, double x, do
     char title[128], key[64];
     br_plot_frame(&p, s, x, yy, PANEL_W, PANEL_H);
     br_plot_range(&p, lo, hi, 0, 1.1 * (double)peak, 0);
-    snprintf(title, sizeof title, "%s: %ld of %ld fail", br_crit_title(crit), y->c[crit].fails,
-             y->c[crit].judged);
+    if (y->c[crit].undetermined > 0)
+        snprintf(title, sizeof title, "%s: %ld of %ld fail, %ld undetermined", br_crit_title(crit),
+                 y->c[crit].fails, y->c[crit].judged, y->c[crit].undetermined);
+    else
+        snprintf(title, sizeof title, "%s: %ld of %ld fail", br_crit_title(crit), y->c[crit].fails,
+                 y->c[crit].judged);
     snprintf(key, sizeof key, "yield-%s", br_crit_name(crit));
-    br_plot_axes(&p, key, title, "margin", UNITS[crit], "samples", "");
+    br_plot_axes(&p, key, title, "margin", br_crit_unit(crit), "samples", "");
     bars(&p, cnt, lo, w);
     if (lo <= 0.0)
         br_plot_vline(&p, 0.0, &S_FAILS, "limit");
@@ -377,8 +379,8 @@ static void histogram_panel(br_svg *s, const br_yield *y, int crit, double x, do
 int br_chart_yield(const br_yield *y, int standalone, br_text *out)
 {
     int crits[BR_CRIT_COUNT], n = 0;
-    for (int i = 0; i < BR_CRIT_COUNT; i++)
-        if (y->c[i].applies && y->c[i].judged > 0)
+    for (int i = 0; i < BR_CRIT_COUNT; i++) /* a status has no margin to histogram */
+        if (y->c[i].applies && y->c[i].judged > 0 && y->c[i].has_margin)
             crits[n++] = i;
     br_svg s;
     char head[160];

@@ -121,7 +121,7 @@ static void test_yield_files(void)
     CU_ASSERT_EQUAL(r.status, 0);
     char *c = br_test_slurp(csv, NULL);
     CU_ASSERT_PTR_NOT_NULL_FATAL(c);
-    CU_ASSERT_EQUAL(strncmp(c, "sample,pass,\"supply: voltage\"", 29), 0);
+    CU_ASSERT_EQUAL(strncmp(c, "sample,result,\"supply: voltage\"", 31), 0);
     CU_ASSERT_EQUAL(count_lines(c), 31);
     CU_ASSERT_TRUE(has(c, "margin_drive_V"));
     xmlDoc *doc = xmlReadFile(xml, NULL, XML_PARSE_NONET);
