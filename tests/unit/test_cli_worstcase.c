@@ -167,7 +167,8 @@ static void test_pick(void)
     CU_ASSERT_STRING_EQUAL(r.err, "");
     CU_ASSERT_TRUE(has(r.out, "part pick of design demo-3level"));
     CU_ASSERT_TRUE(has(r.out, "cap-6v3 (capacitor): rated 6.3 V, below the supply's maximum"));
-    CU_ASSERT_TRUE(has(r.out, "cap-2u2 (capacitor): on every rail: fails drive"));
+    CU_ASSERT_TRUE(has(r.out, "cap-2u2 (capacitor): as the only capacitor, on every rail: "
+                              "fails drive"));
     CU_ASSERT_TRUE(has(r.out, "no choice passes"));
     CU_ASSERT_TRUE(has(r.out, "These circuits carry lethal voltages."));
     done(&r);
