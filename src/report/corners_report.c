@@ -268,7 +268,7 @@ static int overall(const br_corners *k, br_text *out)
     if (k->outcome == BR_OUTCOME_UNDETERMINED) /* never a pass: what was not decided may fail */
         return br_text_printf(out,
                               "verdict at the worst corners: UNDETERMINED, none fails, %d of %d "
-                              "criteria are not decided at some points\n",
+                              "criteria undecided at some points\n",
                               undet, judged);
     return br_text_printf(out,
                           "verdict at the worst corners: PASS, all %d criteria judged pass "
