@@ -55,9 +55,25 @@ typedef struct job {
         *start[2]; /* otherwise the state each direction starts from (NULL: cold estimate) */
     pthread_mutex_t lock;
     int next;       /* next point to take */
-    br_error first; /* the first point that failed, and why */
-    int failed;
+    br_error fatal; /* the first failure that ends the run (out of memory, a stop) */
+    int nfatal;
 } job;
+
+/* A point's failure that ends the whole run; the others are recorded in
+ * the point, which is then undetermined. */
+static int fatal(int code)
+{
+    return code == BR_ENOMEM || code == BR_ECANCEL;
+}
+
+/* rc of a run of jb, or the failure of one of its points that ends it. */
+static int job_status(const job *jb, int rc, br_error *err)
+{
+    if (rc != BR_OK || !jb->nfatal)
+        return rc;
+    *err = jb->fatal;
+    return jb->fatal.code;
+}
 
 /* The predicted steady state of direction i at values v. */
 static void predict(const br_spread *s, const double *v, int i, double *x)
@@ -623,10 +639,11 @@ static void *worker(void *arg)
             break;
         br_error err;
         br_error_clear(&err);
-        if (judge(w, jb, i, &err) != BR_OK) {
+        /* any other failure stays in the point, which is undetermined */
+        if (judge(w, jb, i, &err) != BR_OK && fatal(err.code)) {
             pthread_mutex_lock(&jb->lock);
-            if (!jb->failed++)
-                jb->first = err;
+            if (!jb->nfatal++)
+                jb->fatal = err;
             pthread_mutex_unlock(&jb->lock);
         }
         br_meter_add(jb->s->meter, jb->s->meter_weight);
@@ -650,7 +667,7 @@ static int run(job *jb, br_error *err)
         rc = br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "cannot create a lock for the workers");
     if (rc == BR_OK) {
         jb->next = 0;
-        jb->failed = 0;
+        jb->nfatal = 0;
         for (int t = 0; t < nw; t++) {
             args[t][0] = jb;
             args[t][1] = ws[t];
@@ -678,13 +695,6 @@ static void tally(br_spread *s, const br_pt *pts, int n)
     s->points += n;
 }
 
-/* A point's failure that ends the whole run: the others are recorded in
- * the point and make it undetermined. */
-static int fatal(int code)
-{
-    return code == BR_ENOMEM || code == BR_ECANCEL;
-}
-
 int br_spread_eval(br_spread *s, int npts, const double *values, int with_startup, br_pt *out,
                    br_error *err)
 {
@@ -694,11 +704,7 @@ int br_spread_eval(br_spread *s, int npts, const double *values, int with_startu
               .with_startup = with_startup,
               .out = out,
               .predict = s->predict};
-    int rc = run(&jb, err);
-    if (rc == BR_OK && jb.failed && fatal(jb.first.code)) {
-        *err = jb.first;
-        rc = jb.first.code;
-    }
+    int rc = job_status(&jb, run(&jb, err), err);
     if (rc == BR_OK)
         tally(s, out, npts);
     return rc;
@@ -734,12 +740,8 @@ static int judge_nominal(br_spread *s, const double (*start)[NX], br_error *err)
         .s = s, .npts = 1, .values = v, .with_startup = s->startup, .out = &s->nominal, .xout = x};
     jb.start[0] = start ? start[0] : NULL;
     jb.start[1] = start ? start[1] : NULL;
-    rc = run(&jb, err);
+    rc = job_status(&jb, run(&jb, err), err);
     free(v);
-    if (rc == BR_OK && jb.failed && fatal(jb.first.code)) {
-        *err = jb.first;
-        return jb.first.code;
-    }
     if (rc == BR_OK) {
         memcpy(s->xnom[0], x, sizeof s->xnom[0]);
         memcpy(s->xnom[1], x + NX, sizeof s->xnom[1]);
@@ -785,11 +787,7 @@ static int judge_oat(br_spread *s, const int *todo, br_error *err)
          * above a lowered supply), where Newton's first step goes wild */
         job jb = {
             .s = s, .npts = npts, .values = v, .with_startup = s->startup, .out = pts, .xout = x};
-        rc = run(&jb, err);
-        if (rc == BR_OK && jb.failed && fatal(jb.first.code)) {
-            *err = jb.first;
-            rc = jb.first.code;
-        }
+        rc = job_status(&jb, run(&jb, err), err);
     }
     for (int n = 0; rc == BR_OK && n < npts; n++) {
         int r = map[n];
