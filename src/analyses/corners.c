@@ -17,13 +17,14 @@ void br_corners_opts_default(br_corners_opts *o)
     o->startup_max_exhaustive = 4;
     o->startup_max_sensitive = 3;
     o->progress = NULL;
+    o->solver_limit = 0;
 }
 
-/* The steady-state row's margin is the solver's own drift, not a circuit
- * figure: it has no sensitivity worth following. */
+/* A criterion without a margin (the steady state, a status) has no
+ * sensitivity worth following. */
 static int is_searched(int crit)
 {
-    return crit != BR_CRIT_STEADY;
+    return br_crit_has_margin(crit);
 }
 
 /* ---- a list of corners --------------------------------------------------- */
@@ -88,18 +89,27 @@ static int add_corners(corner_list *l, const signed char *base, const int *set, 
 
 /* ---- sensitivities ------------------------------------------------------------ */
 
-/* A row's margin for comparisons: a failing row whose margin does not
- * say so (a steady state that does not hold) ranks below every other. */
+/* A decided row's margin for comparisons: a failing row whose margin
+ * does not say so (a steady state that does not hold) ranks below every
+ * other, a passing one without a margin (a status) above. */
 static double rank(const br_pt_row *r)
 {
-    return !r->pass && !(r->margin < 0) ? -HUGE_VAL : r->margin;
+    if (!r->pass)
+        return r->margin < 0 ? r->margin : -HUGE_VAL;
+    return isnan(r->margin) ? HUGE_VAL : r->margin;
+}
+
+/* The row of crit at p decides it. */
+static int decided(const br_pt *p, int crit)
+{
+    return p->status == BR_OK && p->row[crit].applies && !p->row[crit].undetermined;
 }
 
 static double row_margin(const br_pt *p, int crit, double fallback)
 {
     if (crit == BR_OBJ_HEADROOM)
         return p->status == BR_OK && isfinite(p->headroom) ? p->headroom : fallback;
-    if (p->status != BR_OK || !p->row[crit].applies)
+    if (!decided(p, crit))
         return fallback;
     return rank(&p->row[crit]);
 }
@@ -155,13 +165,29 @@ static int guided_corners(const br_spread *s, int crit, int cap, corner_list *l,
 
 /* ---- judging a list ---------------------------------------------------------------- */
 
-/* Keep p as crit's worst point when its margin is lower. */
+/* crit is not decided at p: a row marked so, or a point not judged at
+ * all where the nominal point says the criterion can apply. */
+static int undecided(const br_corners *c, int crit, const br_pt *p)
+{
+    const br_pt *nom = &c->s->nominal;
+    if (p->status != BR_OK)
+        return nom->status != BR_OK || nom->row[crit].applies;
+    return p->row[crit].applies && p->row[crit].undetermined;
+}
+
+/* Keep p as crit's worst point when its margin is lower; count it apart
+ * when it does not decide crit. */
 static void consider(br_corners *c, int crit, const br_pt *p, const signed char *level)
 {
     br_corner_worst *w = &c->w[crit];
-    if (p->status != BR_OK || !p->row[crit].applies)
-        return;
     if (br_crit_is_startup(crit) && !p->with_startup)
+        return;
+    if (undecided(c, crit, p)) {
+        if (!w->undetermined++)
+            memcpy(w->ulevel, level, (size_t)c->s->tl.n);
+        return;
+    }
+    if (!decided(p, crit))
         return;
     if (w->applies && rank(&p->row[crit]) >= rank(&w->worst))
         return;
@@ -174,7 +200,12 @@ static void consider_all(br_corners *c, const br_pt *p, const signed char *level
 {
     for (int crit = 0; crit < BR_CRIT_COUNT; crit++)
         consider(c, crit, p, level);
-    c->failed += p->status != BR_OK;
+    int undecided = p->status != BR_OK;
+    for (int crit = 0; crit < BR_CRIT_COUNT; crit++)
+        undecided |= p->status == BR_OK && p->row[crit].undetermined;
+    c->unjudged += p->status != BR_OK;
+    c->unsettled += p->status == BR_OK && p->unsettled != 0;
+    c->undetermined += undecided;
 }
 
 /* Judge every corner of l, with or without the cold start. */
@@ -260,10 +291,19 @@ static int run_pass(br_corners *c, int startup, int max_exh, int max_sens, int *
 
 static void verdict(br_corners *c)
 {
-    c->all_pass = 1;
-    for (int crit = 0; crit < BR_CRIT_COUNT; crit++)
-        if (c->w[crit].applies && !c->w[crit].worst.pass)
-            c->all_pass = 0;
+    int failed = 0, undetermined = c->unjudged > 0;
+    for (int crit = 0; crit < BR_CRIT_COUNT; crit++) {
+        br_corner_worst *w = &c->w[crit];
+        w->outcome = w->applies && !w->worst.pass ? BR_OUTCOME_FAIL
+                     : w->undetermined > 0        ? BR_OUTCOME_UNDETERMINED
+                                                  : BR_OUTCOME_PASS;
+        failed |= w->outcome == BR_OUTCOME_FAIL;
+        undetermined |= w->outcome == BR_OUTCOME_UNDETERMINED;
+    }
+    c->outcome = failed         ? BR_OUTCOME_FAIL
+                 : undetermined ? BR_OUTCOME_UNDETERMINED
+                                : BR_OUTCOME_PASS;
+    c->all_pass = c->outcome == BR_OUTCOME_PASS;
 }
 
 /* The spread and both passes into c. */
@@ -275,6 +315,7 @@ static int search(br_corners *c, const br_design *d, const br_corners_opts *o, b
     so.threads = o->threads;
     so.startup = o->startup;
     so.meter = meter;
+    so.solver_limit = o->solver_limit;
     int rc = br_spread_create(d, &so, &c->s, err);
     if (rc == BR_OK) {
         consider_known(c);

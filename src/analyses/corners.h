@@ -19,7 +19,13 @@
  * of the same two kinds (startup_max_exhaustive, startup_max_sensitive).
  * Those points judge the steady-state criteria too and count for them.
  * Every point tried counts: the nominal and the one-at-a-time points
- * included. */
+ * included.
+ *
+ * A point where a criterion cannot be decided (its steady state not
+ * settled, its cold start not finished, the point not judged at all)
+ * does not count towards that criterion's worst point: it is counted
+ * apart, and a criterion that fails nowhere but is undetermined somewhere
+ * is undetermined, never a pass. */
 #ifndef BR_ANALYSES_CORNERS_H
 #define BR_ANALYSES_CORNERS_H
 
@@ -40,15 +46,19 @@ typedef struct br_corners_opts {
     int startup_max_sensitive;  /* guided: corners of up to this many parameters (3) */
     const br_progress *progress; /* points judged of those listed so far (the total grows
                                     as each pass lists its corners); NULL: none */
+    int solver_limit;            /* br_spread_opts.solver_limit (0: none) */
 } br_corners_opts;
 
 /* One criterion's worst point. */
 typedef struct br_corner_worst {
-    int applies;                   /* the criterion was checked at some point */
+    int applies;                   /* the criterion was decided at some point */
     br_pt_row nominal;             /* its row at the nominal point */
     br_pt_row worst;               /* its row at the worst point found */
     signed char level[BR_TOL_MAX]; /* that point: -1 minimum, 0 nominal, +1 maximum per parameter */
     int nsens;                     /* guided: parameters whose corners were all tried */
+    int outcome;                   /* br_outcome (meaningful when applies or undetermined) */
+    long undetermined;             /* points where it could not be decided */
+    signed char ulevel[BR_TOL_MAX]; /* the first of them */
 } br_corner_worst;
 
 typedef struct br_corners {
@@ -59,9 +69,14 @@ typedef struct br_corners {
     int startup_max_exhaustive, startup_max_sensitive;
     long steady_points;  /* corners judged without a cold start */
     long startup_points; /* corners judged with one */
-    long failed;         /* points that could not be judged (solver or model failure) */
+    long unjudged;       /* points that could not be judged at all (solver or model failure) */
+    long unsettled;      /* points judged where the steady state of a direction whose
+                            drivers keep running did not settle */
+    long undetermined;   /* points where some criterion was not decided (these and others) */
     br_corner_worst w[BR_CRIT_COUNT];
-    int all_pass; /* every criterion that applies passes at its worst point */
+    int all_pass; /* every criterion passes at its worst point and none is undetermined */
+    int outcome;  /* br_outcome: fail when a criterion fails somewhere, else undetermined
+                     when one is undetermined somewhere, else pass */
 } br_corners;
 
 void br_corners_opts_default(br_corners_opts *o);

@@ -263,12 +263,23 @@ static void startup_rows(const br_chain *c, const br_startup *su, br_verdict *v)
         snprintf(r->note, sizeof r->note, "no diode surge rating given");
 }
 
+/* The steady state is trusted when the cross-check periods move the rails
+ * by no more than 0.1 mV each. */
+#define DRIFT_LIMIT 1e-4
+
+int br_crit_has_margin(int crit)
+{
+    return crit >= 0 && crit < BR_CRIT_COUNT && crit != BR_CRIT_STEADY;
+}
+
+/* A direction whose steady state the solver settled and trusts. */
+static int settled(const br_steady *ss)
+{
+    return ss->converged && ss->drift <= DRIFT_LIMIT;
+}
+
 static void steady_rows(const br_chain *c, const br_steady_figs *f, br_verdict *v)
 {
-    /* the steady state is trusted when the cross-check periods move the
-     * rails by less than 0.1 mV each */
-    const double lim = 1e-4;
-    consider(&v->row[BR_CRIT_STEADY], f->ss->drift, lim, lim - f->ss->drift, -1, f->dir);
     for (int k = 0; k < c->n; k++) {
         const br_rail_fig *rf = &f->rail[k];
         const br_stage *st = &c->st[k];
@@ -355,9 +366,10 @@ static int can_apply(const br_chain *c, int crit)
     return any;
 }
 
-/* The solver found no periodic steady state for one direction: every row
- * that needs one is undetermined, and the steady row says where it got
- * stuck: which rail, after how many periods, how far from settled. */
+/* The solver found no periodic steady state for one direction (or one
+ * whose cross-check periods still move the rails): every row that needs
+ * one is undetermined, and the steady row says where it got stuck: which
+ * rail, after how many periods, how far from settled. */
 static void unsettled(const br_chain *c, const br_steady *ss, br_verdict *v)
 {
     int again = v->row[BR_CRIT_STEADY].undetermined; /* the other direction too */
@@ -370,34 +382,57 @@ static void unsettled(const br_chain *c, const br_steady *ss, br_verdict *v)
                      again ? "" : dir_word(ss->dir));
     if (again)
         return; /* the steady row keeps the first direction's details */
-    snprintf(v->row[BR_CRIT_STEADY].note, sizeof v->row[BR_CRIT_STEADY].note,
-             "the solver did not converge (current %s): after %ld periods rail %d (%s) still "
-             "moves %.3g V per period",
-             dir_word(ss->dir), ss->periods, k, c->st[k].name, ss->residual);
+    if (ss->converged)
+        snprintf(v->row[BR_CRIT_STEADY].note, sizeof v->row[BR_CRIT_STEADY].note,
+                 "the state the solver found (current %s) is not periodic: the cross-check "
+                 "periods still move the rails by %.3g V per period, more than %.3g V",
+                 dir_word(ss->dir), ss->drift, DRIFT_LIMIT);
+    else
+        snprintf(v->row[BR_CRIT_STEADY].note, sizeof v->row[BR_CRIT_STEADY].note,
+                 "the solver did not converge (current %s): after %ld periods rail %d (%s) "
+                 "still moves %.3g V per period",
+                 dir_word(ss->dir), ss->periods, k, c->st[k].name, ss->residual);
 }
 
-/* Steady rows of each direction; one whose solver did not converge (and
+/* The steady-state row is a status, not a margin: the state holds (found
+ * and trusted in every direction, no driver drops out), does not hold (a
+ * driver drops out: a failure whatever the solver did), or is
+ * undetermined (the solver did not settle).  Its figure is the largest
+ * cross-check drift, shown for information; it has no margin. */
+static void steady_status(const br_steady_figs *figs, int ndir, br_verdict *out)
+{
+    br_verdict_row *r = &out->row[BR_CRIT_STEADY];
+    int holds = 1, decided = 1;
+    r->figure = 0.0;
+    for (int d = 0; d < ndir; d++) {
+        const br_steady *ss = figs[d].ss;
+        holds = holds && ss->holds;
+        decided = decided && (settled(ss) || !ss->holds);
+        if (isfinite(ss->drift) && ss->drift >= r->figure) {
+            r->figure = ss->drift;
+            r->dir = figs[d].dir;
+        }
+    }
+    r->limit = DRIFT_LIMIT;
+    r->margin = NAN;
+    r->applies = !holds || decided; /* an undetermined row is marked by unsettled() */
+    r->pass = holds && decided;
+    if (!holds)
+        snprintf(r->note, sizeof r->note, "%s", "a driver drops out in the periodic steady state");
+}
+
+/* Steady rows of each direction; one whose solver did not settle (and
  * whose drivers did not drop out, which is a failure whatever the state)
  * adds no figures, only undetermined marks. */
 static void steady_all(const br_chain *c, const br_steady_figs *figs, int ndir, br_verdict *out)
 {
     for (int d = 0; d < ndir; d++)
-        if (figs[d].ss->converged || !figs[d].ss->holds)
+        if (settled(figs[d].ss) || !figs[d].ss->holds)
             steady_rows(c, &figs[d], out);
-    br_verdict_row *r = &out->row[BR_CRIT_STEADY];
-    r->pass = r->applies && r->margin >= 0;
     for (int d = 0; d < ndir; d++)
-        if (figs[d].ss->holds && !figs[d].ss->converged)
+        if (figs[d].ss->holds && !settled(figs[d].ss))
             unsettled(c, figs[d].ss, out);
-    for (int d = 0; d < ndir; d++) {
-        if (!figs[d].ss->holds) {
-            r->pass = 0;
-            snprintf(r->note, sizeof r->note, "%s",
-                     "a driver drops out in the periodic steady state");
-        }
-    }
-    if (r->applies && !r->pass && !r->note[0])
-        snprintf(r->note, sizeof r->note, "%s", "the rails did not settle");
+    steady_status(figs, ndir, out);
 }
 
 void br_verdict_make(const br_chain *c, const br_startup *su, const br_steady_figs *figs, int ndir,

@@ -57,7 +57,8 @@ typedef enum br_crit {
     BR_CRIT_DROPOUTS,    /* start-up dropouts of any one stage within the design's
                             limit (max-dropouts); without one, more than
                             BR_DROPOUTS_WARN only warn */
-    BR_CRIT_STEADY,      /* a periodic steady state exists and holds */
+    BR_CRIT_STEADY,      /* a periodic steady state exists and holds (a status: its
+                            figure is the solver's drift, it has no margin) */
     BR_CRIT_RESTART,     /* every rail stays above UVLO rising (restarts after a dropout) */
     BR_CRIT_UVLO,        /* every driver stays above UVLO falling */
     BR_CRIT_DRIVE,       /* every drive voltage above the minimum useful drive */
@@ -100,6 +101,12 @@ typedef struct br_verdict {
  * (ndir of them) into the verdict table. */
 void br_verdict_make(const br_chain *c, const br_startup *su, const br_steady_figs *figs, int ndir,
                      br_verdict *out);
+
+/* 1 for a criterion judged by a margin (figure against a limit); 0 for
+ * one that is a status (the steady state holds, does not hold, or is
+ * undetermined), whose figure is information and which has no margin to
+ * rank, histogram or correlate. */
+int br_crit_has_margin(int crit);
 
 /* Short names of criteria, for tables and XML. */
 const char *br_crit_name(int crit);

@@ -18,6 +18,8 @@ void br_pick_opts_default(br_pick_opts *o)
     o->startup = 1;
     o->per_rail = 1;
     o->progress = NULL;
+    o->min_margin = -1.0;
+    o->solver_limit = 0;
 }
 
 /* ---- placing a choice in a design ------------------------------------------ */
@@ -75,23 +77,44 @@ int br_pick_apply(const br_design *d, const br_catalog *cat, const br_choice *ch
 
 /* ---- judging one choice ----------------------------------------------------- */
 
-/* Smaller is worse; a failing row without a negative margin is the worst. */
+/* Smaller is worse; a failing row without a negative margin is the
+ * worst, a passing one without a margin (a status) the best. */
 static double rank_of(const br_pt_row *r)
 {
-    return !r->pass && !(r->margin < 0) ? -HUGE_VAL : r->margin;
+    if (!r->pass)
+        return r->margin < 0 ? r->margin : -HUGE_VAL;
+    return isnan(r->margin) ? HUGE_VAL : r->margin;
 }
 
-/* Keep p's rows where they are worse than worst[] so far. */
-static void keep_worst(br_pt_row *worst, int *seen, const br_pt *p, int startup_rows)
+/* What a choice's points add up to, for criteria of one kind: the worst
+ * decided row of each criterion, and what was not decided. */
+typedef struct tally {
+    br_pt_row worst[BR_CRIT_COUNT];
+    int seen[BR_CRIT_COUNT];  /* decided somewhere */
+    int undet[BR_CRIT_COUNT]; /* not decided somewhere */
+    int unsettled;            /* points with a steady state not settled */
+    int unjudged;             /* points not judged at all */
+} tally;
+
+/* Keep p's decided rows where they are worse than the tally's so far. */
+static void keep_worst(tally *t, const br_pt *p, int startup_rows)
 {
-    if (p->status != BR_OK)
+    if (p->status != BR_OK) {
+        t->unjudged++;
         return;
+    }
+    t->unsettled += !startup_rows && p->unsettled != 0;
     for (int c = 0; c < BR_CRIT_COUNT; c++) {
-        if (!p->row[c].applies || br_crit_is_startup(c) != startup_rows)
+        const br_pt_row *r = &p->row[c];
+        if (!r->applies || br_crit_is_startup(c) != startup_rows)
             continue;
-        if (!seen[c] || rank_of(&p->row[c]) < rank_of(&worst[c])) {
-            worst[c] = p->row[c];
-            seen[c] = 1;
+        if (r->undetermined) {
+            t->undet[c] = 1;
+            continue;
+        }
+        if (!t->seen[c] || rank_of(r) < rank_of(&t->worst[c])) {
+            t->worst[c] = *r;
+            t->seen[c] = 1;
         }
     }
 }
@@ -128,31 +151,33 @@ static int predicted_corners(const br_spread *s, int startup_rows, signed char *
     return n;
 }
 
-/* Any row of the kind asked for fails at p. */
+/* Any row of the kind asked for fails at p (on figures it can trust). */
 static int fails(const br_pt *p, int startup_rows)
 {
     if (p->status != BR_OK)
         return 0;
-    for (int c = 0; c < BR_CRIT_COUNT; c++)
-        if (p->row[c].applies && !p->row[c].pass && br_crit_is_startup(c) == startup_rows)
+    for (int c = 0; c < BR_CRIT_COUNT; c++) {
+        const br_pt_row *r = &p->row[c];
+        if (r->applies && !r->pass && !r->undetermined && br_crit_is_startup(c) == startup_rows)
             return 1;
+    }
     return 0;
 }
 
 /* The worst rows of criteria of one kind over the points s judged for d
  * itself and its predicted corners, one at a time: a choice is rejected
  * at its first failing point, the rest of its corners untried. */
-static int worst_rows(br_spread *s, int startup_rows, br_pt_row *worst, int *seen, br_error *err)
+static int worst_rows(br_spread *s, int startup_rows, tally *t, br_error *err)
 {
     signed char level[(BR_CRIT_COUNT + 1) * BR_TOL_MAX];
     double v[BR_TOL_MAX];
     br_pt pt;
     int k = s->tl.n;
-    keep_worst(worst, seen, &s->nominal, startup_rows);
+    keep_worst(t, &s->nominal, startup_rows);
     int failed = fails(&s->nominal, startup_rows);
     for (int r = 0; r < 2 * k && !failed; r++)
         if (!s->borrowed[r]) {
-            keep_worst(worst, seen, &s->oat[r], startup_rows);
+            keep_worst(t, &s->oat[r], startup_rows);
             failed = fails(&s->oat[r], startup_rows);
         }
     int n = failed ? 0 : predicted_corners(s, startup_rows, level);
@@ -161,49 +186,71 @@ static int worst_rows(br_spread *s, int startup_rows, br_pt_row *worst, int *see
         int rc = br_spread_eval(s, 1, v, startup_rows, &pt, err);
         if (rc != BR_OK)
             return rc;
-        keep_worst(worst, seen, &pt, startup_rows);
+        keep_worst(t, &pt, startup_rows);
         failed = fails(&pt, startup_rows);
     }
     return BR_OK;
 }
 
-/* Fill the verdict of ch from the worst rows of one kind.  The failing
- * criterion named is a circuit one when any fails: the steady-state row
- * fails too wherever a driver drops out, and says less. */
-static void conclude(br_choice *ch, const br_pt_row *worst, const int *seen, int startup_rows)
+/* The criteria whose margin ranks choices: those with a voltage margin. */
+static int ranks_choices(int c)
+{
+    return br_crit_has_margin(c) && strcmp(br_crit_unit(c), "V") == 0;
+}
+
+/* A choice fails when a criterion fails on figures it can trust; else it
+ * is undetermined when something was not decided (or it could not be
+ * judged at all); else it passes. */
+static void settle(br_choice *ch)
+{
+    ch->outcome = ch->fail_crit >= 0                        ? BR_OUTCOME_FAIL
+                  : ch->status != BR_OK                     ? BR_OUTCOME_UNDETERMINED
+                  : ch->undet_crit >= 0 || ch->unjudged > 0 ? BR_OUTCOME_UNDETERMINED
+                                                            : BR_OUTCOME_PASS;
+    ch->pass = ch->outcome == BR_OUTCOME_PASS;
+}
+
+/* Fill the verdict of ch from the tally of one kind of criteria.  The
+ * failing criterion named is a circuit one when any fails: the
+ * steady-state row fails too wherever a driver drops out, and says less. */
+static void conclude(br_choice *ch, const tally *t, int startup_rows)
 {
     if (!startup_rows) {
-        ch->pass = 1;
         ch->margin = HUGE_VAL;
-        ch->fail_crit = -1;
+        ch->fail_crit = ch->undet_crit = -1;
+        ch->unsettled = ch->unjudged = 0;
     }
+    ch->unsettled += t->unsettled;
+    ch->unjudged += t->unjudged;
     for (int c = 0; c < BR_CRIT_COUNT; c++) {
-        if (!seen[c] || br_crit_is_startup(c) != startup_rows)
+        if (br_crit_is_startup(c) != startup_rows)
             continue;
-        if (!worst[c].pass && (ch->fail_crit < 0 || ch->fail_crit == BR_CRIT_STEADY)) {
-            ch->pass = 0;
+        if (t->undet[c] && ch->undet_crit < 0)
+            ch->undet_crit = c;
+        if (!t->seen[c])
+            continue;
+        if (!t->worst[c].pass && (ch->fail_crit < 0 || ch->fail_crit == BR_CRIT_STEADY)) {
             ch->fail_crit = c;
-            ch->fail_row = worst[c];
+            ch->fail_row = t->worst[c];
         }
-        /* the voltage criteria give the margin that ranks passing choices */
-        if (c >= BR_CRIT_RESTART && worst[c].margin < ch->margin) {
-            ch->margin = worst[c].margin;
+        if (ranks_choices(c) && t->worst[c].margin < ch->margin) {
+            ch->margin = t->worst[c].margin;
             ch->crit = c;
-            ch->stage = worst[c].stage;
-            ch->dir = worst[c].dir;
+            ch->stage = t->worst[c].stage;
+            ch->dir = t->worst[c].dir;
         }
     }
 }
 
 /* Judge ch: steady-state criteria (startup_rows = 0) or the start-up
- * criteria (1).  A choice whose nominal point cannot be judged gets that
- * status; only running out of memory is an error. */
+ * criteria (1).  A choice that cannot be judged gets that status (and is
+ * undetermined); only running out of memory is an error. */
 static int judge(const br_pick *pk, br_choice *ch, int startup_rows, br_error *err)
 {
     br_design *d = NULL;
     br_spread *s = NULL;
-    br_pt_row worst[BR_CRIT_COUNT];
-    int seen[BR_CRIT_COUNT] = {0};
+    tally t;
+    memset(&t, 0, sizeof t);
     br_spread_opts so;
     br_spread_opts_default(&so);
     so.threads = 1;
@@ -213,17 +260,19 @@ static int judge(const br_pick *pk, br_choice *ch, int startup_rows, br_error *e
     so.stop_failed = 1;         /* a choice that fails at its nominal point needs no corners */
     so.meter = pk->base->meter; /* to stop within a choice; the pool counts the choice */
     so.meter_weight = 0.0;
+    so.solver_limit = pk->base->solver_limit;
     int rc = br_pick_apply(pk->base->d, pk->cat, ch, &d, err);
     if (rc == BR_OK)
         rc = br_spread_derive(pk->base, d, &so, &s, err);
     if (rc == BR_OK)
-        rc = worst_rows(s, startup_rows, worst, seen, err);
+        rc = worst_rows(s, startup_rows, &t, err);
     ch->points += s ? s->points : 0;
     if (rc == BR_OK) {
-        conclude(ch, worst, seen, startup_rows);
+        conclude(ch, &t, startup_rows);
         ch->startup_checked |= startup_rows;
     }
     ch->status = rc == BR_ENOMEM ? ch->status : rc;
+    settle(ch);
     br_spread_free(s);
     br_design_free(d);
     return rc == BR_ENOMEM ? rc : BR_OK;
@@ -304,6 +353,7 @@ static char *reject(br_pick *pk, int is_diode, int part)
     br_reject *r = &pk->rej[pk->nrej++];
     r->is_diode = is_diode;
     r->part = part;
+    r->alone = 0;
     return r->why;
 }
 
@@ -354,7 +404,7 @@ static void set_uniform(br_choice *ch, int n, int cap, int diode, const br_catal
 {
     memset(ch, 0, sizeof *ch);
     ch->uniform = 1;
-    ch->fail_crit = -1;
+    ch->fail_crit = ch->undet_crit = -1;
     ch->crit = ch->stage = -1;
     for (int k = 0; k < BR_MAX_SWITCHES; k++)
         ch->cap[k] = ch->diode[k] = -1;
@@ -389,39 +439,43 @@ static int list_uniform(br_pick *pk, int n, const int *cap_ok, const int *dio_ok
     return BR_OK;
 }
 
-/* A part none of whose one-part choices passes is rejected, with the
- * reason of its best combination (the one with the highest margin). */
-static void reject_failing(br_pick *pk, int is_diode, int part)
+/* A part every one of whose one-part choices fails (none passes, none is
+ * undetermined) fails on its own: it is listed with the reason of its
+ * best combination (the one with the highest margin).  It is not
+ * rejected everywhere: a per-rail mix may still place it where it passes,
+ * and the list says so. */
+static void reject_alone(br_pick *pk, int is_diode, int part)
 {
     const br_choice *best = NULL;
     for (int i = 0; i < pk->nuniform; i++) {
         const br_choice *ch = &pk->choice[i];
         if ((is_diode ? ch->diode[1] : ch->cap[1]) != part)
             continue;
-        if (ch->status == BR_OK && ch->pass)
+        if (ch->outcome != BR_OUTCOME_FAIL)
             return;
-        if (!best || (ch->status == BR_OK &&
-                      (best->status != BR_OK || rank_of(&ch->fail_row) > rank_of(&best->fail_row))))
+        if (!best || rank_of(&ch->fail_row) > rank_of(&best->fail_row))
             best = ch;
     }
     if (!best)
         return;
     char *why = reject(pk, is_diode, part);
-    if (best->status != BR_OK)
-        snprintf(why, BR_PICK_WHY, "on every %s, the chain cannot be judged (%s)",
-                 is_diode ? "link" : "rail", br_status_name(best->status));
-    else if (best->fail_crit == BR_CRIT_STEADY)
+    pk->rej[pk->nrej - 1].alone = 1;
+    const char *as = is_diode ? "as the only diode, on every link"
+                              : "as the only capacitor, on "
+                                "every rail";
+    const br_pt_row *r = &best->fail_row;
+    if (best->fail_crit == BR_CRIT_STEADY)
         snprintf(why, BR_PICK_WHY,
-                 "on every %s: no periodic steady state that holds was found at one of its "
-                 "corners",
-                 is_diode ? "link" : "rail");
-    else if (br_crit_never(best->fail_crit, best->fail_row.figure))
-        snprintf(why, BR_PICK_WHY, "on every %s: rail %d never starts at its worst corner",
-                 is_diode ? "link" : "rail", best->fail_row.stage);
-    else
-        snprintf(why, BR_PICK_WHY, "on every %s: fails %s at its worst corner (margin %.4g%s%s)",
-                 is_diode ? "link" : "rail", br_crit_name(best->fail_crit), best->fail_row.margin,
+                 "%s: a driver drops out in the periodic steady state at one of its corners", as);
+    else if (br_crit_never(best->fail_crit, r->figure))
+        snprintf(why, BR_PICK_WHY, "%s: rail %d never starts at its worst corner", as, r->stage);
+    else if (isfinite(r->margin))
+        snprintf(why, BR_PICK_WHY, "%s: fails %s at its worst corner (margin %.4g%s%s)", as,
+                 br_crit_name(best->fail_crit), r->margin,
                  br_crit_unit(best->fail_crit)[0] ? " " : "", br_crit_unit(best->fail_crit));
+    else
+        snprintf(why, BR_PICK_WHY, "%s: fails %s at its worst corner", as,
+                 br_crit_name(best->fail_crit));
 }
 
 /* ---- ranking -------------------------------------------------------------------------- */
@@ -435,13 +489,19 @@ static int better(const br_choice *a, const br_choice *b)
     return a->margin > b->margin;
 }
 
-/* Passing choices by rank, into order (returns their count). */
+/* A choice that may be ranked: it passes with at least the minimum margin. */
+static int qualifies(const br_pick *pk, const br_choice *ch)
+{
+    return ch->status == BR_OK && ch->pass && ch->margin >= pk->min_margin;
+}
+
+/* Qualifying choices by rank, into order (returns their count). */
 static int sorted_passing(const br_pick *pk, int *order)
 {
     int n = 0;
     for (int i = 0; i < pk->nchoice; i++) {
         const br_choice *ch = &pk->choice[i];
-        if (ch->status != BR_OK || !ch->pass)
+        if (!qualifies(pk, ch))
             continue;
         int at = n++;
         while (at > 0 && better(ch, &pk->choice[order[at - 1]])) {
@@ -552,7 +612,7 @@ static int descend_stage(br_pick *pk, br_choice *cur, int is_diode, int k, const
         if (rc != BR_OK)
             return rc;
         for (int b = 0; b < nb; b++)
-            if (batch[b]->status == BR_OK && batch[b]->pass) {
+            if (qualifies(pk, batch[b])) {
                 *cur = *batch[b];
                 return BR_OK;
             }
@@ -602,6 +662,44 @@ static int judge_uniform(br_pick *pk, br_error *err)
     return rc;
 }
 
+/* The passing choices below the minimum margin and the undetermined
+ * ones, for the report; and the outcome of the whole search. */
+static void leftovers(br_pick *pk)
+{
+    pk->thin = -1;
+    for (int i = 0; i < pk->nchoice; i++) {
+        const br_choice *ch = &pk->choice[i];
+        if (ch->status == BR_OK && ch->pass && !qualifies(pk, ch)) {
+            pk->nthin++;
+            if (pk->thin < 0 || ch->margin > pk->choice[pk->thin].margin)
+                pk->thin = i;
+        }
+        if (ch->outcome != BR_OUTCOME_UNDETERMINED)
+            continue;
+        int at = pk->nundet < 8 ? pk->nundet : 8; /* the cheapest 8, insertion */
+        pk->nundet++;
+        while (at > 0 && better(ch, &pk->choice[pk->undet[at - 1]])) {
+            if (at < 8)
+                pk->undet[at] = pk->undet[at - 1];
+            at--;
+        }
+        if (at < 8)
+            pk->undet[at] = i;
+    }
+    pk->outcome = pk->nranked > 0  ? BR_OUTCOME_PASS
+                  : pk->nundet > 0 ? BR_OUTCOME_UNDETERMINED
+                                   : BR_OUTCOME_FAIL;
+}
+
+/* The smallest UVLO hysteresis of the chain's drivers, V (0 or more). */
+static double hysteresis(const br_chain *c)
+{
+    double h = HUGE_VAL;
+    for (int k = 0; k < c->n; k++)
+        h = fmin(h, c->st[k].drv.uvlo_rise - c->st[k].drv.uvlo_fall);
+    return c->n > 0 && h > 0 ? h : 0.0;
+}
+
 static int search(br_pick *pk, const br_design *d, const br_chain *c, const br_pick_opts *o,
                   br_error *err)
 {
@@ -612,14 +710,16 @@ static int search(br_pick *pk, const br_design *d, const br_chain *c, const br_p
     int rc = judge_uniform(pk, err);
     for (int i = 0; rc == BR_OK && pk->pick_caps && i < pk->cat->ncaps; i++)
         if (cap_ok[i])
-            reject_failing(pk, 0, i);
+            reject_alone(pk, 0, i);
     for (int i = 0; rc == BR_OK && pk->pick_diodes && i < pk->cat->ndiodes; i++)
         if (dio_ok[i])
-            reject_failing(pk, 1, i);
+            reject_alone(pk, 1, i);
     if (rc == BR_OK && o->per_rail)
         rc = greedy(pk, cap_ok, dio_ok, c->n, err);
     if (rc == BR_OK)
         rc = verify(pk, o->startup, err);
+    if (rc == BR_OK)
+        leftovers(pk);
     return rc;
 }
 
@@ -645,6 +745,14 @@ int br_pick_run(const br_design *d, const br_catalog *cat, const br_pick_opts *o
         pk->greedy = -1;
         rc = br_chain_build_nominal(d, c, err);
     }
+    if (rc == BR_OK) {
+        /* a quarter of the hysteresis by default: a rail that ends its
+         * worst period that close to UVLO rising has lost most of the
+         * band that lets its driver restart after a dip */
+        pk->hysteresis = hysteresis(c);
+        pk->min_default = !(o->min_margin >= 0);
+        pk->min_margin = pk->min_default ? 0.25 * pk->hysteresis : o->min_margin;
+    }
     br_meter meter;
     int metered = rc == BR_OK && (rc = br_meter_init(&meter, o->progress, 0.0, err)) == BR_OK;
     br_spread_opts so;
@@ -652,6 +760,7 @@ int br_pick_run(const br_design *d, const br_catalog *cat, const br_pick_opts *o
     so.threads = o->threads;
     so.startup = o->startup;
     so.meter = metered ? &meter : NULL;
+    so.solver_limit = o->solver_limit;
     if (rc == BR_OK)
         rc = br_spread_create(d, &so, &pk->base, err);
     if (rc == BR_OK)

@@ -22,6 +22,13 @@ int br_cpu_count(void)
     return n < 1 ? 1 : n > BR_SPREAD_MAX_THREADS ? BR_SPREAD_MAX_THREADS : (int)n;
 }
 
+const char *br_outcome_name(int outcome)
+{
+    return outcome == BR_OUTCOME_PASS   ? "pass"
+           : outcome == BR_OUTCOME_FAIL ? "fail"
+                                        : "undetermined";
+}
+
 void br_spread_opts_default(br_spread_opts *o)
 {
     o->threads = 0;
@@ -31,6 +38,7 @@ void br_spread_opts_default(br_spread_opts *o)
     o->stop_failed = 0;
     o->meter = NULL;
     o->meter_weight = 1.0;
+    o->solver_limit = 0;
 }
 
 /* ---- a batch of points ------------------------------------------------------- */
@@ -47,9 +55,25 @@ typedef struct job {
         *start[2]; /* otherwise the state each direction starts from (NULL: cold estimate) */
     pthread_mutex_t lock;
     int next;       /* next point to take */
-    br_error first; /* the first point that failed, and why */
-    int failed;
+    br_error fatal; /* the first failure that ends the run (out of memory, a stop) */
+    int nfatal;
 } job;
+
+/* A point's failure that ends the whole run; the others are recorded in
+ * the point, which is then undetermined. */
+static int fatal(int code)
+{
+    return code == BR_ENOMEM || code == BR_ECANCEL;
+}
+
+/* rc of a run of jb, or the failure of one of its points that ends it. */
+static int job_status(const job *jb, int rc, br_error *err)
+{
+    if (rc != BR_OK || !jb->nfatal)
+        return rc;
+    *err = jb->fatal;
+    return jb->fatal.code;
+}
 
 /* The predicted steady state of direction i at values v. */
 static void predict(const br_spread *s, const double *v, int i, double *x)
@@ -288,6 +312,12 @@ static workspace *workspace_create(const br_spread *s)
 
 enum { QN_TAKEN = 1, QN_STUCK = 2 };
 
+/* Quasi-Newton steps per round, within the solver limit. */
+static int qn_steps(const br_spread *s)
+{
+    return s->solver_limit > 0 && s->solver_limit < QN_STEPS ? s->solver_limit : QN_STEPS;
+}
+
 /* Quasi-Newton steps from q->x (whose period was the last simulated)
  * with inverse Jacobian h, updated by Broyden.  The period from x is
  * taken as the steady state when it moves no rail by more than the
@@ -308,7 +338,7 @@ static int qn_iterate(qn *q, double *h, int *outcome, br_error *err)
         }
         /* full steps that do not shrink the distance will not converge
          * soon; cut steps need only not lose ground */
-        if (step == QN_STEPS || !isfinite(big) || big > shrink * last)
+        if (step == qn_steps(s) || !isfinite(big) || big > shrink * last)
             return BR_OK;
         last = big;
         /* a step longer than the trust radius is cut to it: far from the
@@ -393,29 +423,60 @@ static int qn_round(workspace *w, int fresh, br_steady *out, int *taken, br_erro
     return rc;
 }
 
-/* The shooting solver from guess (max_plain < 0: its default plain
- * fallback).  A guess can lead Newton astray where the solver's own
- * estimate does not (a link that conducts only in the dead time at one
- * point and in its window at the other), so with `retry` a failure from
- * a guess is tried again from the estimate. */
-static int solve(workspace *w, int dir, int i, const double *guess, long max_plain, int retry,
-                 br_pt *out, br_error *err)
+/* One run of the shooting solver from guess (NULL: its own estimate);
+ * the result replaces w->ss[i] when it converged or when keep is set. */
+static int shoot_once(workspace *w, int dir, int i, const double *guess, long max_plain, int keep,
+                      br_pt *out, br_error *err)
 {
     br_steady_opts o;
+    br_steady again;
     br_steady_opts_default(&o);
     o.guess = guess;
     if (max_plain >= 0)
         o.max_plain = max_plain;
-    int rc = br_steady_solve(&w->c, dir, &o, &w->ss[i], err);
-    out->periods += w->ss[i].periods;
-    if (rc != BR_OK || w->ss[i].converged || !guess || !retry)
-        return rc;
-    br_steady again;
-    o.guess = NULL;
-    rc = br_steady_solve(&w->c, dir, &o, &again, err);
+    long lim = w->s->solver_limit;
+    if (lim > 0) {
+        o.max_iter = lim < o.max_iter ? (int)lim : o.max_iter;
+        o.max_plain = lim < o.max_plain ? lim : o.max_plain;
+    }
+    int rc = br_steady_solve(&w->c, dir, &o, &again, err);
     out->periods += again.periods;
-    if (rc == BR_OK && again.converged)
+    if (rc == BR_OK && (keep || again.converged))
         w->ss[i] = again;
+    return rc;
+}
+
+/* A state whose rails are all numbers. */
+static int finite_rails(const br_chain *c, const double *x)
+{
+    for (int k = 0; k < c->n; k++)
+        if (!isfinite(x[k]))
+            return 0;
+    return 1;
+}
+
+/* The shooting solver from guess (max_plain < 0: its default plain
+ * fallback).  A guess can lead Newton astray where the solver's own
+ * estimate does not (a link that conducts only in the dead time at one
+ * point and in its window at the other), so with `retry` a failure from
+ * a guess is tried again from the estimate.  A run that ends in the
+ * plain fallback without settling has still come close to a periodic
+ * state that holds, when there is one (a slow mode makes the rails creep
+ * by a few uV a period for hundreds of periods); Newton from where it
+ * ended is then tried once more: its Jacobian there is the fixed point's,
+ * whereas from afar a link that does not conduct at all leaves the
+ * Jacobian singular and its step wild. */
+static int solve(workspace *w, int dir, int i, const double *guess, long max_plain, int retry,
+                 br_pt *out, br_error *err)
+{
+    int rc = shoot_once(w, dir, i, guess, max_plain, 1, out, err);
+    if (rc == BR_OK && !w->ss[i].converged && guess && retry)
+        rc = shoot_once(w, dir, i, NULL, max_plain, 0, out, err);
+    if (rc == BR_OK && !w->ss[i].converged && w->ss[i].holds && finite_rails(&w->c, w->ss[i].x)) {
+        double end[NX];
+        memcpy(end, w->ss[i].x, sizeof end);
+        rc = shoot_once(w, dir, i, end, 0, 0, out, err);
+    }
     return rc;
 }
 
@@ -424,7 +485,8 @@ static int solve(workspace *w, int dir, int i, const double *guess, long max_pla
  * and quasi-Newton stage, and is most likely one without a steady state
  * that holds (a driver that sags into UVLO over many periods); when no
  * state tried kept every driver running, fewer still.  A point whose
- * steady state is not found fails the steady-state criterion. */
+ * steady state is not found, and whose drivers keep running, is
+ * undetermined: neither a pass nor a failure. */
 #define PLAIN_LAST 150
 #define PLAIN_HOPELESS 100
 
@@ -501,21 +563,33 @@ static double headroom(const br_chain *c, const br_steady_figs *f)
 
 static void compact(const br_verdict *v, br_pt *out)
 {
-    out->pass = 1;
+    int failed = 0, undetermined = 0;
     for (int r = 0; r < BR_CRIT_COUNT; r++) {
         const br_verdict_row *vr = &v->row[r];
         br_pt_row *pr = &out->row[r];
         pr->applies = (signed char)vr->applies;
         pr->pass = (signed char)vr->pass;
         pr->warn = (signed char)vr->warn;
+        pr->undetermined = (signed char)vr->undetermined;
         pr->dir = (signed char)vr->dir;
         pr->stage = (short)vr->stage;
         pr->figure = vr->figure;
         pr->limit = vr->limit;
         pr->margin = vr->margin;
-        if (vr->applies && !vr->pass)
-            out->pass = 0;
+        undetermined |= vr->undetermined;
+        failed |= vr->applies && !vr->pass && !vr->undetermined;
     }
+    out->outcome = failed         ? BR_OUTCOME_FAIL
+                   : undetermined ? BR_OUTCOME_UNDETERMINED
+                                  : BR_OUTCOME_PASS;
+    out->pass = out->outcome == BR_OUTCOME_PASS;
+}
+
+/* A steady state that is a trusted periodic state that holds: the only
+ * kind worth predicting others from. */
+static int settled_state(const br_steady *ss)
+{
+    return ss->converged && ss->holds && ss->drift <= DRIFT_LIMIT;
 }
 
 /* Judge point i of the job in workspace w. */
@@ -536,6 +610,7 @@ static int judge(workspace *w, const job *jb, int i, br_error *err)
             rc = finite_state(&w->c, &w->ss[d], err);
         if (rc != BR_OK)
             break;
+        out->unsettled |= w->ss[d].holds && !settled_state(&w->ss[d]) ? 1 << d : 0;
         br_steady_figures(&w->c, &w->ss[d], &w->figs[d]);
         out->headroom = d == 0 ? headroom(&w->c, &w->figs[d])
                                : fmin(out->headroom, headroom(&w->c, &w->figs[d]));
@@ -547,6 +622,8 @@ static int judge(workspace *w, const job *jb, int i, br_error *err)
         compact(&w->v, out);
     }
     out->status = rc;
+    if (rc != BR_OK) /* a point that could not be judged decides nothing */
+        out->outcome = BR_OUTCOME_UNDETERMINED;
     return rc;
 }
 
@@ -563,10 +640,11 @@ static void *worker(void *arg)
             break;
         br_error err;
         br_error_clear(&err);
-        if (judge(w, jb, i, &err) != BR_OK) {
+        /* any other failure stays in the point, which is undetermined */
+        if (judge(w, jb, i, &err) != BR_OK && fatal(err.code)) {
             pthread_mutex_lock(&jb->lock);
-            if (!jb->failed++)
-                jb->first = err;
+            if (!jb->nfatal++)
+                jb->fatal = err;
             pthread_mutex_unlock(&jb->lock);
         }
         br_meter_add(jb->s->meter, jb->s->meter_weight);
@@ -590,7 +668,7 @@ static int run(job *jb, br_error *err)
         rc = br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "cannot create a lock for the workers");
     if (rc == BR_OK) {
         jb->next = 0;
-        jb->failed = 0;
+        jb->nfatal = 0;
         for (int t = 0; t < nw; t++) {
             args[t][0] = jb;
             args[t][1] = ws[t];
@@ -626,8 +704,8 @@ int br_spread_eval(br_spread *s, int npts, const double *values, int with_startu
               .values = values,
               .with_startup = with_startup,
               .out = out,
-              .predict = 1};
-    int rc = run(&jb, err);
+              .predict = s->predict};
+    int rc = job_status(&jb, run(&jb, err), err);
     if (rc == BR_OK)
         tally(s, out, npts);
     return rc;
@@ -663,16 +741,15 @@ static int judge_nominal(br_spread *s, const double (*start)[NX], br_error *err)
         .s = s, .npts = 1, .values = v, .with_startup = s->startup, .out = &s->nominal, .xout = x};
     jb.start[0] = start ? start[0] : NULL;
     jb.start[1] = start ? start[1] : NULL;
-    rc = run(&jb, err);
+    rc = job_status(&jb, run(&jb, err), err);
     free(v);
-    if (rc == BR_OK && jb.failed) {
-        *err = jb.first;
-        return jb.first.code ? jb.first.code : BR_ENUMERIC;
-    }
     if (rc == BR_OK) {
         memcpy(s->xnom[0], x, sizeof s->xnom[0]);
         memcpy(s->xnom[1], x + NX, sizeof s->xnom[1]);
         tally(s, &s->nominal, 1);
+        /* predictions from a nominal state that is no periodic state would
+         * start every point astray: they start from the estimate instead */
+        s->predict = s->nominal.status == BR_OK && s->nominal.row[BR_CRIT_STEADY].pass;
     }
     return rc;
 }
@@ -711,17 +788,18 @@ static int judge_oat(br_spread *s, const int *todo, br_error *err)
          * above a lowered supply), where Newton's first step goes wild */
         job jb = {
             .s = s, .npts = npts, .values = v, .with_startup = s->startup, .out = pts, .xout = x};
-        rc = run(&jb, err);
+        rc = job_status(&jb, run(&jb, err), err);
     }
     for (int n = 0; rc == BR_OK && n < npts; n++) {
         int r = map[n];
         s->oat[r] = pts[n];
         for (int i = 0; i < 2; i++) {
             double *d = s->dx + ((size_t)r * 2 + (size_t)i) * NX;
+            /* a state not settled is no sensitivity */
+            int known = s->predict && pts[n].status == BR_OK && !(pts[n].unsettled & (1 << i));
             for (int q = 0; q < NX; q++)
-                d[q] = pts[n].status == BR_OK
-                           ? x[((size_t)n * 2 + (size_t)i) * NX + (size_t)q] - s->xnom[i][q]
-                           : 0.0;
+                d[q] =
+                    known ? x[((size_t)n * 2 + (size_t)i) * NX + (size_t)q] - s->xnom[i][q] : 0.0;
         }
     }
     if (rc == BR_OK)
@@ -806,6 +884,7 @@ static int alloc_spread(const br_design *d, const br_spread_opts *o, br_spread *
     s->accept = o->accept > 0 ? o->accept : ACCEPT_DEFAULT;
     s->meter = o->meter;
     s->meter_weight = o->meter_weight;
+    s->solver_limit = o->solver_limit > 0 ? o->solver_limit : 0;
     int rc = br_tol_list_build(d, &s->tl, err);
     size_t k = (size_t)s->tl.n;
     if (rc == BR_OK) {
@@ -839,11 +918,11 @@ void br_spread_free(br_spread *s)
 static int finish_create(br_spread *s, const double (*start)[NX], const int *todo, br_error *err)
 {
     int rc = judge_nominal(s, start, err);
-    if (rc == BR_OK && s->stop_failed && !s->nominal.pass) {
+    if (rc == BR_OK && s->stop_failed && s->nominal.outcome == BR_OUTCOME_FAIL) {
         s->stopped = 1;
         return BR_OK;
     }
-    if (rc == BR_OK)
+    if (rc == BR_OK && s->predict)
         rc = chord_prepare(s, err);
     if (rc == BR_OK)
         rc = judge_oat(s, todo, err);
@@ -869,7 +948,7 @@ int br_spread_create(const br_design *d, const br_spread_opts *o, br_spread **ou
         br_spread_free(s);
         return rc;
     }
-    s->ndir = s->nominal.status == BR_OK ? (s->d->direction == BR_DIR_BOTH ? 2 : 1) : 0;
+    s->ndir = s->d->direction == BR_DIR_BOTH ? 2 : 1;
     *out = s;
     return BR_OK;
 }

@@ -39,11 +39,28 @@
 #define BR_SPREAD_MAX_THREADS 64
 #define BR_SPREAD_NX (2 * BR_MAX_SWITCHES) /* steady-state vector length */
 
+/* What a point, a criterion over many points, or a whole search comes
+ * to.  Undetermined: nothing fails, but something could not be decided
+ * (a steady state the solver did not settle, a cold start it could not
+ * finish, a point it could not judge at all); never a pass, never a
+ * failure. */
+typedef enum br_outcome {
+    BR_OUTCOME_PASS = 0,
+    BR_OUTCOME_FAIL = 1,
+    BR_OUTCOME_UNDETERMINED = 2
+} br_outcome;
+
+/* "pass", "fail", "undetermined". */
+const char *br_outcome_name(int outcome);
+
 /* One verdict row at one point, compactly. */
 typedef struct br_pt_row {
-    signed char applies; /* the criterion was checked */
+    signed char applies; /* the criterion was checked (or is undetermined) */
     signed char pass;
     signed char warn;             /* passes with a warning (br_verdict_row.warn) */
+    signed char undetermined;     /* applies, but not decided here (pass is 0): its
+                                     figure and margin are NaN or from another
+                                     direction, and mean nothing alone */
     signed char dir;              /* br_dir_index where it binds */
     short stage;                  /* binding rail or link, -1 when none */
     double figure, limit, margin; /* in the criterion's unit */
@@ -51,9 +68,16 @@ typedef struct br_pt_row {
 
 /* One judged point. */
 typedef struct br_pt {
-    int status;       /* br_status of judging it; the rows mean nothing unless BR_OK */
+    int status;       /* br_status of judging it; the rows mean nothing unless BR_OK (a
+                         point that could not be judged is undetermined) */
     int with_startup; /* the cold start was simulated */
-    int pass;         /* status BR_OK and every row that applies passes */
+    int pass;         /* status BR_OK and every row that applies passes (none undetermined) */
+    int outcome;      /* br_outcome: fail when a row fails on trustworthy figures,
+                         undetermined when none fails but one is undetermined or the
+                         point could not be judged, pass otherwise */
+    int unsettled;    /* bit i: the steady state of direction i (0 or 1, the order
+                         br_design_directions gives) was not settled, its drivers
+                         running (a dropout is a failure, not this) */
     int fast;         /* steady states taken from the prediction (count of directions) */
     long periods;     /* periods simulated for the steady states */
     br_pt_row row[BR_CRIT_COUNT];
@@ -77,6 +101,10 @@ typedef struct br_spread_opts {
                             not owned); br_spread_create expects its own points there */
     double meter_weight; /* what each point counts for on the meter (default 1; 0: the
                             meter only stops the run) */
+    int solver_limit;    /* > 0: every steady-state solve of a point takes at most this
+                            many quasi-Newton steps per round, Newton iterations and plain
+                            periods; what it cannot settle within them is undetermined
+                            (0: the solvers' own bounds) */
 } br_spread_opts;
 
 typedef struct br_spread {
@@ -86,6 +114,9 @@ typedef struct br_spread {
     int startup;        /* as in the options */
     int stop_failed;    /* as in the options */
     int stopped;        /* the nominal point failed: no one-at-a-time points were judged */
+    int predict;        /* the nominal point settled every direction, so points start
+                           from predictions around it (else from the solver's estimate) */
+    int solver_limit;   /* as in the options */
     double accept;      /* V: as in the options */
     int ndir;           /* current directions analysed (1 or 2) */
     br_pt nominal;      /* every parameter at its nominal value */
@@ -109,10 +140,10 @@ void br_spread_opts_default(br_spread_opts *o);
 
 /* Judge the nominal point and every parameter alone at each of its limits
  * (growing the meter's total by those 1 + 2 tl.n points).  d must outlive
- * the spread.  A failure of the nominal point is an error (BR_ENUMERIC
- * with its message); a one-at-a-time point that fails is recorded in its
- * status and contributes no sensitivity.  BR_ECANCEL when the meter
- * stops the run. */
+ * the spread.  A point that cannot be judged or settled, the nominal one
+ * included, is recorded as such (its status, its outcome) and contributes
+ * no sensitivity; only running out of memory is an error.  BR_ECANCEL
+ * when the meter stops the run. */
 int br_spread_create(const br_design *d, const br_spread_opts *o, br_spread **out, br_error *err);
 
 /* The same for a design that differs from base only in some parts (the

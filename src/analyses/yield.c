@@ -23,6 +23,7 @@ void br_yield_opts_default(br_yield_opts *o)
     o->startup = 0;
     o->accept = 1e-3;
     o->progress = NULL;
+    o->solver_limit = 0;
 }
 
 /* ---- statistics ------------------------------------------------------------- */
@@ -126,15 +127,25 @@ int br_yield_sample(const br_tol_list *tl, unsigned long seed, long n, double *v
 
 /* ---- per criterion -------------------------------------------------------------- */
 
-/* Margins of crit over the samples that judged it, into m (returns their
- * count), and their sample indexes into idx. */
-static long gather(const br_yield *y, int crit, double *m, long *idx)
+/* Margins of crit over the samples that decided it, into m (returns
+ * their count), and their sample indexes into idx; the samples where it
+ * is undetermined are counted into c. */
+static long gather(const br_yield *y, int crit, br_yield_crit *c, double *m, long *idx)
 {
     long k = 0;
     for (long i = 0; i < y->n; i++) {
         const br_pt *p = &y->pts[i];
-        if (p->status != BR_OK || !p->row[crit].applies)
+        if (p->status != BR_OK) {
+            /* a sample not judged at all decides no criterion the design has */
+            c->undetermined += y->s->nominal.status != BR_OK || y->s->nominal.row[crit].applies;
             continue;
+        }
+        if (!p->row[crit].applies)
+            continue;
+        if (p->row[crit].undetermined) {
+            c->undetermined++;
+            continue;
+        }
         m[k] = p->row[crit].margin;
         idx[k++] = i;
     }
@@ -179,16 +190,20 @@ static int correlate(const br_yield *y, br_yield_crit *c, const double *m, const
 static int crit_stats(br_yield *y, int crit, double *m, long *idx, double *scratch, br_error *err)
 {
     br_yield_crit *c = &y->c[crit];
-    long k = gather(y, crit, m, idx);
+    long k = gather(y, crit, c, m, idx);
     c->judged = k;
     c->applies = k > 0;
+    c->has_margin = br_crit_has_margin(crit);
     for (long a = 0; a < k; a++) {
         c->fails += !y->pts[idx[a]].row[crit].pass;
         c->warns += y->pts[idx[a]].row[crit].pass && y->pts[idx[a]].row[crit].warn;
     }
     for (int j = 0; j < BR_TOL_MAX; j++)
         c->rho[j] = NAN;
-    if (k == 0)
+    for (int q = 0; q < BR_YIELD_NQ; q++)
+        c->q[q] = NAN;
+    /* a status (the steady state) has no margin to rank or take quantiles of */
+    if (k == 0 || !c->has_margin)
         return BR_OK;
     /* ranks first: quantiles sort m in place */
     if (correlate(y, c, m, idx, k, scratch, scratch + y->n, scratch + 2 * y->n) != BR_OK)
@@ -197,27 +212,43 @@ static int crit_stats(br_yield *y, int crit, double *m, long *idx, double *scrat
     return BR_OK;
 }
 
-/* A failing sample whose only failing row is the steady state (the
- * solver did not settle) is worth telling apart. */
-static int fails_steady_only(const br_pt *p)
+int br_yield_outcome(const br_yield *y, double min_yield)
 {
-    if (p->status != BR_OK || p->pass || p->row[BR_CRIT_STEADY].pass)
-        return 0;
-    for (int r = 0; r < BR_CRIT_COUNT; r++)
-        if (r != BR_CRIT_STEADY && p->row[r].applies && !p->row[r].pass)
-            return 0;
-    return 1;
+    if (min_yield <= 0)
+        return y->fail > 0           ? BR_OUTCOME_FAIL
+               : y->undetermined > 0 ? BR_OUTCOME_UNDETERMINED
+                                     : BR_OUTCOME_PASS;
+    if (y->lo >= min_yield)
+        return BR_OUTCOME_PASS;
+    /* the lower bound were every undetermined sample a pass */
+    double best, hi;
+    br_clopper_pearson(y->pass + y->undetermined, y->n, 0.95, &best, &hi);
+    return best < min_yield ? BR_OUTCOME_FAIL : BR_OUTCOME_UNDETERMINED;
+}
+
+static void count(br_yield *y)
+{
+    for (long i = 0; i < y->n; i++) {
+        const br_pt *p = &y->pts[i];
+        y->pass += p->outcome == BR_OUTCOME_PASS;
+        y->fail += p->outcome == BR_OUTCOME_FAIL;
+        y->undetermined += p->outcome == BR_OUTCOME_UNDETERMINED;
+        y->unjudged += p->status != BR_OK;
+        y->unsettled +=
+            p->outcome == BR_OUTCOME_UNDETERMINED && p->status == BR_OK && p->unsettled != 0;
+    }
+    long decided = y->pass + y->fail;
+    y->yield = decided > 0 ? (double)y->pass / (double)decided : NAN;
+    /* the undetermined samples are unknowns: as failures for the lower
+     * bound, as passes for the upper one */
+    double lo, hi;
+    br_clopper_pearson(y->pass, y->n, 0.95, &y->lo, &hi);
+    br_clopper_pearson(y->pass + y->undetermined, y->n, 0.95, &lo, &y->hi);
 }
 
 static int summarise(br_yield *y, br_error *err)
 {
-    for (long i = 0; i < y->n; i++) {
-        y->pass += y->pts[i].pass;
-        y->unjudged += y->pts[i].status != BR_OK;
-        y->steady_only += fails_steady_only(&y->pts[i]);
-    }
-    y->yield = y->n > 0 ? (double)y->pass / (double)y->n : 0.0;
-    br_clopper_pearson(y->pass, y->n, 0.95, &y->lo, &y->hi);
+    count(y);
     double *m = malloc(sizeof(double) * (size_t)y->n * 4);
     long *idx = malloc(sizeof(long) * (size_t)y->n);
     int rc = m && idx ? BR_OK : br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
@@ -240,6 +271,7 @@ static int yield_compute(br_yield *y, const br_design *d, const br_yield_opts *o
     so.startup = o->startup;
     so.accept = o->accept;
     so.meter = meter;
+    so.solver_limit = o->solver_limit;
     int rc = br_spread_create(d, &so, &y->s, err);
     y->accept = rc == BR_OK ? y->s->accept : o->accept;
     if (rc == BR_OK) {

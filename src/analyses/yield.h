@@ -10,10 +10,17 @@
  *
  * A sample passes when every criterion that applies passes (spread.h
  * judges it; the start-up criteria only when the cold start is asked
- * for).  The yield comes with its exact (Clopper-Pearson) confidence
- * interval; per criterion, quantiles of its margin over the samples and
- * Spearman's rank correlation of each parameter with that margin say how
- * close the margins come and which parameters move them. */
+ * for), fails when one fails, and is undetermined when none fails but
+ * one could not be decided (a steady state the solver did not settle, a
+ * sample it could not judge at all).  The yield comes with its exact
+ * (Clopper-Pearson) confidence interval.  Undetermined samples are
+ * unknowns, not failures: the point estimate is the share of the decided
+ * samples that pass, the lower bound counts every undetermined sample as
+ * failing and the upper bound every one as passing, so the interval
+ * covers whatever they would have been.  Per criterion with a margin,
+ * quantiles of its margin over the samples that decide it and Spearman's
+ * rank correlation of each parameter with that margin say how close the
+ * margins come and which parameters move them. */
 #ifndef BR_ANALYSES_YIELD_H
 #define BR_ANALYSES_YIELD_H
 
@@ -30,16 +37,20 @@ typedef struct br_yield_opts {
     int threads;                 /* 0: one per online processor */
     int startup;                 /* judge the start-up criteria (a cold start per sample) */
     double accept;               /* V: steady states within this of periodic (default 1 mV) */
+    int solver_limit;            /* br_spread_opts.solver_limit (0: none) */
     const br_progress *progress; /* points judged (nominal, one-at-a-time, samples) of the
                                     total expected; NULL: none; see core/progress.h */
 } br_yield_opts;
 
 typedef struct br_yield_crit {
-    int applies;            /* judged in at least one sample */
-    long judged;            /* samples where it applies */
+    int applies;            /* decided in at least one sample */
+    long judged;            /* samples where it applies and is decided */
     long fails;             /* samples where it fails */
     long warns;             /* samples where it passes with a warning */
-    double q[BR_YIELD_NQ];  /* margin quantiles, in the criterion's unit */
+    long undetermined;      /* samples where it could not be decided */
+    int has_margin;         /* a margin criterion (else a status: no quantiles, no rho) */
+    double q[BR_YIELD_NQ];  /* margin quantiles over the deciding samples, in the criterion's
+                               unit (NAN without a margin) */
     double rho[BR_TOL_MAX]; /* Spearman's rho of each parameter with the margin (NAN: undefined) */
 } br_yield_crit;
 
@@ -47,19 +58,29 @@ typedef struct br_yield {
     br_spread *s; /* tolerances and nominal point (owned) */
     long n;       /* samples */
     unsigned long seed;
-    int startup;      /* the start-up criteria were judged */
-    double accept;    /* V */
-    double *values;   /* n rows of s->tl.n sampled values */
-    br_pt *pts;       /* n judged samples */
-    long pass;        /* samples that pass */
-    long unjudged;    /* samples that could not be judged (counted as failing) */
-    long steady_only; /* failing samples whose only failure is the steady state not settling */
-    double yield;     /* pass / n */
-    double lo, hi;    /* its exact 95 % confidence interval */
+    int startup;       /* the start-up criteria were judged */
+    double accept;     /* V */
+    double *values;    /* n rows of s->tl.n sampled values */
+    br_pt *pts;        /* n judged samples */
+    long pass;         /* samples that pass */
+    long fail;         /* samples where a criterion fails */
+    long undetermined; /* samples that neither pass nor fail */
+    long unsettled;    /* of those, samples where a steady state did not settle */
+    long unjudged;     /* of those, samples that could not be judged at all */
+    double yield;      /* pass / (pass + fail), the decided samples (NAN when none is) */
+    double lo, hi;     /* exact 95 % confidence interval of the yield: lo as if every
+                          undetermined sample failed, hi as if every one passed */
     br_yield_crit c[BR_CRIT_COUNT];
 } br_yield;
 
 void br_yield_opts_default(br_yield_opts *o);
+
+/* The verdict on y: without a minimum yield (min_yield <= 0), fail when a
+ * sample fails, else undetermined when one is undetermined, else pass.
+ * With one, pass when the lower bound reaches it even if every
+ * undetermined sample failed, fail when it does not even if every one
+ * passed, else undetermined.  A br_outcome. */
+int br_yield_outcome(const br_yield *y, double min_yield);
 
 /* Sample and judge design d (which must outlive the result).  BR_ECANCEL
  * when o->progress asks to stop (the workers stop after their current

@@ -22,11 +22,14 @@ static const char ABOUT[] =
     "the search is guided by one-at-a-time sensitivities (the report says how).\n"
     "The steady-state criteria are judged without a cold start; the start-up\n"
     "criteria get a smaller search of their own with a cold start at each corner\n"
-    "(--no-startup skips them). Exit status 0 when every criterion passes at its\n"
-    "worst corner, 1 when one fails, 2 for bad input.\n";
+    "(--no-startup skips them). A point where the solver cannot settle a steady\n"
+    "state (or finish a cold start) decides nothing: it is counted and shown apart\n"
+    "as undetermined, never as a pass or a failure. Exit status 0 when every\n"
+    "criterion passes at its worst corner, 1 when one fails, 3 when none fails\n"
+    "but one is undetermined somewhere, 2 for bad input.\n";
 
 typedef struct args {
-    const char *xml, *threads, *exhaustive;
+    const char *xml, *threads, *exhaustive, *limit;
     int no_startup, quiet;
 } args;
 
@@ -45,6 +48,11 @@ static int options(const args *a, br_corners_opts *o)
         if (br_cli_long("corners", "exhaustive", a->exhaustive, 0, 16, &v))
             return BR_EXIT_INPUT;
         o->max_exhaustive = (int)v;
+    }
+    if (a->limit) {
+        if (br_cli_long("corners", "solver-limit", a->limit, 1, 100000, &v))
+            return BR_EXIT_INPUT;
+        o->solver_limit = (int)v;
     }
     return BR_EXIT_OK;
 }
@@ -103,6 +111,8 @@ int cmd_corners(int argc, char **argv)
          "try every corner up to N toleranced parameters (default 10, at most 16)"},
         {BR_OPT_FLAG, "no-startup", NULL, &a.no_startup,
          "skip the start-up criteria (no cold starts)"},
+        {BR_OPT_STRING, "solver-limit", "N", &a.limit,
+         "steady-state solver: at most N Newton iterations and plain periods a point"},
         {BR_OPT_STRING, "threads", "N", &a.threads, "worker threads (default: one per processor)"},
         {BR_OPT_FLAG, "quiet", NULL, &a.quiet, BR_QUIET_HELP},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
@@ -126,8 +136,8 @@ int cmd_corners(int argc, char **argv)
     if (status == BR_EXIT_OK)
         status = rc != BR_OK ? br_cli_fail(&err, pos[0]) : write_all(&a, &o);
     br_cli_run_end(&lr);
-    if (status == BR_EXIT_OK && !o.k->all_pass)
-        status = BR_EXIT_FAIL;
+    if (status == BR_EXIT_OK && o.k->outcome != BR_OUTCOME_PASS)
+        status = o.k->outcome == BR_OUTCOME_FAIL ? BR_EXIT_FAIL : BR_EXIT_UNDETERMINED;
     outputs_free(&o);
     return status;
 }

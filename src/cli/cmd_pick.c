@@ -4,6 +4,7 @@
 #include "cli.h"
 
 #include "core/error.h"
+#include "core/units.h"
 #include "model/catalog.h"
 #include "report/pick_report.h"
 
@@ -19,15 +20,34 @@ static const char ABOUT[] =
     "cannot carry the chain are rejected with the reason; every choice of one\n"
     "capacitor for all rails and one diode for all links is judged at its worst\n"
     "corners over the design's tolerances; a greedy descent then looks for\n"
-    "cheaper per-rail mixes. The passing choices are ranked by cost, then board\n"
-    "area, then margin, and the best are checked for start-up too (--no-startup\n"
-    "skips that). Exit status 0 when at least one choice passes, 1 when none\n"
-    "does, 2 for bad input.\n";
+    "cheaper per-rail mixes. The passing choices with at least the minimum\n"
+    "voltage margin (--min-margin, by default a quarter of the smallest UVLO\n"
+    "hysteresis) are ranked by cost, then board area, then margin, and the best\n"
+    "are checked for start-up too (--no-startup skips that). A choice where the\n"
+    "solver cannot settle a steady state, and nothing fails, is undetermined:\n"
+    "never ranked, never rejected. Exit status 0 when at least one choice passes,\n"
+    "1 when none does, 3 when none passes but some are undetermined, 2 for bad\n"
+    "input.\n";
 
 typedef struct args {
-    const char *catalog, *xml, *threads, *top;
+    const char *catalog, *xml, *threads, *top, *min_margin, *limit;
     int no_startup, no_per_rail, quiet;
 } args;
+
+/* --min-margin: a voltage, 0 or more ("50 mV", "0.05"). */
+static int min_margin(const char *text, br_pick_opts *o)
+{
+    br_error err;
+    br_error_clear(&err);
+    if (!text)
+        return BR_EXIT_OK;
+    if (br_unit_parse(text, BR_KIND_VOLTAGE, &o->min_margin, &err) != BR_OK ||
+        !(o->min_margin >= 0 && o->min_margin < 1e6))
+        return br_cli_usage_error("pick", "--min-margin '%s': %s", text,
+                                  err.msg[0] ? err.msg
+                                             : "expected a voltage from 0 V to below 1 MV");
+    return BR_EXIT_OK;
+}
 
 static int options(const args *a, br_pick_opts *o)
 {
@@ -47,7 +67,12 @@ static int options(const args *a, br_pick_opts *o)
             return BR_EXIT_INPUT;
         o->top = (int)v;
     }
-    return BR_EXIT_OK;
+    if (a->limit) {
+        if (br_cli_long("pick", "solver-limit", a->limit, 1, 100000, &v))
+            return BR_EXIT_INPUT;
+        o->solver_limit = (int)v;
+    }
+    return min_margin(a->min_margin, o);
 }
 
 typedef struct outputs {
@@ -112,11 +137,15 @@ int cmd_pick(int argc, char **argv)
         {BR_OPT_STRING, "catalog", "PARTS.xml", &a.catalog,
          "the catalog of candidate parts (required)"},
         {BR_OPT_STRING, "top", "N", &a.top, "rank the N best passing choices (default 10)"},
+        {BR_OPT_STRING, "min-margin", "V", &a.min_margin,
+         "rank only choices with this voltage margin (default: UVLO hysteresis / 4)"},
         {BR_OPT_FLAG, "no-startup", NULL, &a.no_startup,
          "do not check the start-up criteria of the ranked choices"},
         {BR_OPT_FLAG, "no-per-rail", NULL, &a.no_per_rail,
          "judge one-part choices only (no per-rail search)"},
         {BR_OPT_STRING, "xml", "PATH", &a.xml, "also write the results as XML to PATH (- stdout)"},
+        {BR_OPT_STRING, "solver-limit", "N", &a.limit,
+         "steady-state solver: at most N Newton iterations and plain periods a point"},
         {BR_OPT_STRING, "threads", "N", &a.threads, "worker threads (default: one per processor)"},
         {BR_OPT_FLAG, "quiet", NULL, &a.quiet, BR_QUIET_HELP},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
@@ -141,8 +170,8 @@ int cmd_pick(int argc, char **argv)
     if (status == BR_EXIT_OK)
         status = rc != BR_OK ? br_cli_fail(&err, culprit) : write_all(&a, &o);
     br_cli_run_end(&lr);
-    if (status == BR_EXIT_OK && o.p->nranked == 0)
-        status = BR_EXIT_FAIL;
+    if (status == BR_EXIT_OK && o.p->outcome != BR_OUTCOME_PASS)
+        status = o.p->outcome == BR_OUTCOME_FAIL ? BR_EXIT_FAIL : BR_EXIT_UNDETERMINED;
     outputs_free(&o);
     return status;
 }

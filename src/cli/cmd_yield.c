@@ -22,12 +22,16 @@ static const char ABOUT[] =
     "criterion's margin, and the parameters that move the margins most (Spearman's\n"
     "rank correlation). The same seed gives the same samples and results whatever\n"
     "the number of threads. Without --startup the start-up criteria are not judged\n"
-    "(a cold start costs about a hundred periods a sample). Exit status 0 when\n"
-    "every sample passes (or, with --min-yield, when the lower confidence bound\n"
-    "reaches it), 1 otherwise, 2 for bad input.\n";
+    "(a cold start costs about a hundred periods a sample). A sample where the\n"
+    "solver cannot settle a steady state neither passes nor fails: it is counted\n"
+    "apart as undetermined, and the interval treats it as unknown (failing for the\n"
+    "lower bound, passing for the upper). Exit status 0 when every sample passes\n"
+    "(or, with --min-yield, when the lower confidence bound reaches it), 1 when\n"
+    "one fails (or the bound cannot reach the minimum), 3 when the undetermined\n"
+    "samples leave it open, 2 for bad input.\n";
 
 typedef struct args {
-    const char *xml, *csv, *samples, *seed, *threads, *min_yield, *report, *plot;
+    const char *xml, *csv, *samples, *seed, *threads, *min_yield, *report, *plot, *limit;
     int startup, quiet;
 } args;
 
@@ -51,6 +55,11 @@ static int options(const args *a, br_yield_opts *o, double *min_yield)
     }
     if (a->min_yield && br_cli_fraction("yield", "min-yield", a->min_yield, min_yield))
         return BR_EXIT_INPUT;
+    if (a->limit) {
+        if (br_cli_long("yield", "solver-limit", a->limit, 1, 100000, &v))
+            return BR_EXIT_INPUT;
+        o->solver_limit = (int)v;
+    }
     const char *const out[] = {a->xml, a->csv, a->report, a->plot};
     return br_cli_one_stdout("yield", out, 4);
 }
@@ -137,6 +146,8 @@ int cmd_yield(int argc, char **argv)
          "also write a self-contained HTML report with histograms to PATH"},
         {BR_OPT_STRING, "plot", "PATH", &a.plot,
          "also plot the histograms of the margins as SVG to PATH"},
+        {BR_OPT_STRING, "solver-limit", "N", &a.limit,
+         "steady-state solver: at most N Newton iterations and plain periods a sample"},
         {BR_OPT_STRING, "threads", "N", &a.threads, "worker threads (default: one per processor)"},
         {BR_OPT_FLAG, "quiet", NULL, &a.quiet, BR_QUIET_HELP},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
@@ -161,8 +172,12 @@ int cmd_yield(int argc, char **argv)
     if (status == BR_EXIT_OK)
         status = rc != BR_OK ? br_cli_fail(&err, pos[0]) : write_all(&a, &o);
     br_cli_run_end(&lr);
-    if (status == BR_EXIT_OK && br_yield_failed(o.y, min_yield))
-        status = BR_EXIT_FAIL;
+    if (status == BR_EXIT_OK) {
+        int outcome = br_yield_outcome(o.y, min_yield);
+        status = outcome == BR_OUTCOME_PASS   ? BR_EXIT_OK
+                 : outcome == BR_OUTCOME_FAIL ? BR_EXIT_FAIL
+                                              : BR_EXIT_UNDETERMINED;
+    }
     outputs_free(&o);
     return status;
 }

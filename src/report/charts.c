@@ -336,7 +336,7 @@ static void histogram_panel(br_svg *s, const br_yield *y, int crit, double x, do
     double lo = HUGE_VAL, hi = -HUGE_VAL;
     for (long i = 0; i < y->n; i++) {
         const br_pt_row *r = &y->pts[i].row[crit];
-        if (y->pts[i].status == BR_OK && r->applies && isfinite(r->margin)) {
+        if (y->pts[i].status == BR_OK && r->applies && !r->undetermined && isfinite(r->margin)) {
             lo = fmin(lo, r->margin);
             hi = fmax(hi, r->margin);
         }
@@ -354,7 +354,7 @@ static void histogram_panel(br_svg *s, const br_yield *y, int crit, double x, do
     double w = (hi - lo) / NBINS;
     for (long i = 0; i < y->n; i++) {
         const br_pt_row *r = &y->pts[i].row[crit];
-        if (y->pts[i].status == BR_OK && r->applies && isfinite(r->margin)) {
+        if (y->pts[i].status == BR_OK && r->applies && !r->undetermined && isfinite(r->margin)) {
             int b = (int)fmin(NBINS - 1, floor((r->margin - lo) / w));
             cnt[b]++;
             peak = cnt[b] > peak ? cnt[b] : peak;
@@ -366,12 +366,15 @@ static void histogram_panel(br_svg *s, const br_yield *y, int crit, double x, do
     br_plot_range(&p, lo, hi, 0, 1.1 * (double)peak, 0);
     const br_yield_crit *yc = &y->c[crit];
     int warn_only = yc->fails == 0 && yc->warns > 0;
+    char undet[48] = "";
+    if (yc->undetermined > 0)
+        snprintf(undet, sizeof undet, ", %ld undetermined", yc->undetermined);
     if (warn_only)
-        snprintf(title, sizeof title, "%s: %ld of %ld warn", br_crit_title(crit), yc->warns,
-                 yc->judged);
+        snprintf(title, sizeof title, "%s: %ld of %ld warn%s", br_crit_title(crit), yc->warns,
+                 yc->judged, undet);
     else
-        snprintf(title, sizeof title, "%s: %ld of %ld fail", br_crit_title(crit), yc->fails,
-                 yc->judged);
+        snprintf(title, sizeof title, "%s: %ld of %ld fail%s", br_crit_title(crit), yc->fails,
+                 yc->judged, undet);
     snprintf(key, sizeof key, "yield-%s", br_crit_name(crit));
     br_plot_axes(&p, key, title, "margin", br_crit_unit(crit), "samples", "");
     bars(&p, cnt, lo, w, warn_only);
@@ -386,8 +389,8 @@ static void histogram_panel(br_svg *s, const br_yield *y, int crit, double x, do
 int br_chart_yield(const br_yield *y, int standalone, br_text *out)
 {
     int crits[BR_CRIT_COUNT], n = 0;
-    for (int i = 0; i < BR_CRIT_COUNT; i++)
-        if (y->c[i].applies && y->c[i].judged > 0)
+    for (int i = 0; i < BR_CRIT_COUNT; i++) /* a status has no margin to histogram */
+        if (y->c[i].applies && y->c[i].judged > 0 && y->c[i].has_margin)
             crits[n++] = i;
     br_svg s;
     char head[160];

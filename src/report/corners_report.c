@@ -12,7 +12,8 @@
 #include <string.h>
 
 #define KELVIN 273.15
-#define MAX_CORNERS BR_CRIT_COUNT /* distinct worst corners: at most one per criterion */
+/* distinct corners drawn: each criterion's worst, and its first undecided */
+#define MAX_CORNERS (2 * BR_CRIT_COUNT)
 
 /* ---- shared pieces ---------------------------------------------------------- */
 
@@ -76,26 +77,50 @@ const char *br_crit_where(const br_chain *c, int crit, int stage, char *buf, siz
 
 /* ---- the corners ------------------------------------------------------------ */
 
-/* The distinct worst corners, lettered in criterion order; letter[crit]
- * is the index of crit's corner, -1 when it does not apply. */
-static int distinct_corners(const br_corners *k, int letter[BR_CRIT_COUNT], int first[MAX_CORNERS])
+/* A corner drawn in the corner table: which criterion's, and whether its
+ * worst point or its first undecided one. */
+typedef struct drawn {
+    int n;
+    int crit[MAX_CORNERS];
+    int undecided[MAX_CORNERS];
+} drawn;
+
+static const signed char *drawn_level(const br_corners *k, const drawn *d, int a)
 {
-    int n = 0;
+    const br_corner_worst *w = &k->w[d->crit[a]];
+    return d->undecided[a] ? w->ulevel : w->level;
+}
+
+/* The letter of a corner, adding it when it is new. */
+static int letter_of(const br_corners *k, drawn *d, int crit, int undecided)
+{
+    const br_corner_worst *w = &k->w[crit];
+    const signed char *level = undecided ? w->ulevel : w->level;
+    for (int a = 0; a < d->n; a++)
+        if (memcmp(drawn_level(k, d, a), level, (size_t)k->s->tl.n) == 0)
+            return a;
+    d->crit[d->n] = crit;
+    d->undecided[d->n] = undecided;
+    return d->n++;
+}
+
+/* The distinct corners, lettered in criterion order: the worst point of
+ * every criterion decided somewhere (of a status criterion only where it
+ * fails: a state that holds has no worst), then the first undecided
+ * point of every undetermined criterion.  letter[crit] is the index of
+ * crit's worst corner, uletter[crit] of its undecided one, -1 for none. */
+static void distinct_corners(const br_corners *k, int letter[BR_CRIT_COUNT],
+                             int uletter[BR_CRIT_COUNT], drawn *d)
+{
+    d->n = 0;
     for (int crit = 0; crit < BR_CRIT_COUNT; crit++) {
-        letter[crit] = -1;
-        /* the steady-state row's margin is the solver's drift: its worst
-         * point is no corner worth drawing */
-        if (!k->w[crit].applies || crit == BR_CRIT_STEADY)
-            continue;
-        for (int a = 0; a < n && letter[crit] < 0; a++)
-            if (memcmp(k->w[first[a]].level, k->w[crit].level, (size_t)k->s->tl.n) == 0)
-                letter[crit] = a;
-        if (letter[crit] < 0) {
-            first[n] = crit;
-            letter[crit] = n++;
-        }
+        const br_corner_worst *w = &k->w[crit];
+        int shown = w->applies && (br_crit_has_margin(crit) || w->outcome == BR_OUTCOME_FAIL);
+        letter[crit] = shown ? letter_of(k, d, crit, 0) : -1;
     }
-    return n;
+    for (int crit = 0; crit < BR_CRIT_COUNT; crit++)
+        uletter[crit] =
+            k->w[crit].outcome == BR_OUTCOME_UNDETERMINED ? letter_of(k, d, crit, 1) : -1;
 }
 
 static const char *method_name(int m)
@@ -147,13 +172,6 @@ static int method_text(const br_corners *k, br_text *out)
              "the nominal and one-at-a-time points included.",
              br_fmt_si(acc, sizeof acc, k->s->accept, 3, "V"));
     rc |= br_report_wrap(out, "steady states: ", buf, 2);
-    if (k->failed > 0) {
-        snprintf(buf, sizeof buf,
-                 "%ld point%s could not be judged (the chain model refused the values or a "
-                 "solver failed) and %s left out.",
-                 k->failed, k->failed == 1 ? "" : "s", k->failed == 1 ? "is" : "are");
-        rc |= br_report_wrap(out, "  note: ", buf, 2);
-    }
     return rc;
 }
 
@@ -169,32 +187,56 @@ static void value_cell(br_table *t, int col, double v, int crit)
         br_table_set(t, col, "%s", br_crit_fmt(b, sizeof b, crit, v));
 }
 
+static const char *result_word(int outcome)
+{
+    return outcome == BR_OUTCOME_PASS   ? "pass"
+           : outcome == BR_OUTCOME_FAIL ? "FAIL"
+                                        : "UNDETERMINED";
+}
+
+/* The numbers of a criterion's worst decided point; a status criterion
+ * (the steady state) has none: only its result and, where it fails,
+ * where and at which corner. */
+static void worst_numbers(br_table *t, const br_corners *k, int crit)
+{
+    const br_corner_worst *w = &k->w[crit];
+    if (!w->applies || !br_crit_has_margin(crit)) {
+        for (int col = C_FIGURE; col <= C_NOMINAL; col++)
+            br_table_set(t, col, "-");
+        return;
+    }
+    value_cell(t, C_FIGURE, w->worst.figure, crit);
+    value_cell(t, C_LIMIT, w->worst.limit, crit);
+    value_cell(t, C_MARGIN, w->worst.margin, crit);
+    if (w->nominal.applies && !w->nominal.undetermined)
+        value_cell(t, C_NOMINAL, w->nominal.margin, crit);
+    else
+        br_table_set(t, C_NOMINAL, "-");
+}
+
 static void worst_row(br_table *t, const br_chain *c, const br_corners *k, int crit, int letter)
 {
     const br_corner_worst *w = &k->w[crit];
     char b[BR_TABLE_CELL];
     br_table_row(t);
     br_table_set(t, C_NAME, "%s", br_crit_name(crit));
-    if (!w->applies) {
+    if (!w->applies && w->outcome != BR_OUTCOME_UNDETERMINED) {
         br_table_set(t, C_RESULT, "n/a");
         for (int col = C_FIGURE; col < NCOL; col++)
             br_table_set(t, col, "-");
         return;
     }
-    br_table_set(t, C_RESULT, "%s", !w->worst.pass ? "FAIL" : w->worst.warn ? "WARN" : "pass");
-    value_cell(t, C_FIGURE, w->worst.figure, crit);
-    value_cell(t, C_LIMIT, w->worst.limit, crit);
-    value_cell(t, C_MARGIN, w->worst.margin, crit);
-    if (w->nominal.applies)
-        value_cell(t, C_NOMINAL, w->nominal.margin, crit);
-    else
-        br_table_set(t, C_NOMINAL, "-");
-    br_table_set(t, C_AT, "%s", br_crit_where(c, crit, w->worst.stage, b, sizeof b));
-    br_table_set(t, C_DIR, "%s", br_crit_is_startup(crit) ? "-" : br_dir_short(w->worst.dir));
-    if (letter >= 0)
+    br_table_set(t, C_RESULT, "%s",
+                 w->outcome == BR_OUTCOME_PASS && w->worst.warn ? "WARN" : result_word(w->outcome));
+    worst_numbers(t, k, crit);
+    if (w->applies && letter >= 0) {
+        br_table_set(t, C_AT, "%s", br_crit_where(c, crit, w->worst.stage, b, sizeof b));
+        br_table_set(t, C_DIR, "%s", br_crit_is_startup(crit) ? "-" : br_dir_short(w->worst.dir));
         br_table_set(t, C_CORNER, "%c", 'A' + letter);
-    else
-        br_table_set(t, C_CORNER, "-");
+    } else {
+        for (int col = C_AT; col < NCOL; col++)
+            br_table_set(t, col, "-");
+    }
 }
 
 static int worst_table(const br_chain *c, const br_corners *k, const int *letter, br_text *out)
@@ -217,18 +259,60 @@ static int worst_table(const br_chain *c, const br_corners *k, const int *letter
 
 static int overall(const br_corners *k, br_text *out)
 {
-    int judged = 0, failed = 0;
+    int judged = 0, failed = 0, undet = 0, na = 0;
     for (int crit = 0; crit < BR_CRIT_COUNT; crit++) {
-        judged += k->w[crit].applies;
-        failed += k->w[crit].applies && !k->w[crit].worst.pass;
+        const br_corner_worst *w = &k->w[crit];
+        int is_na = !w->applies && w->outcome != BR_OUTCOME_UNDETERMINED;
+        na += is_na;
+        judged += !is_na;
+        failed += !is_na && w->outcome == BR_OUTCOME_FAIL;
+        undet += !is_na && w->outcome == BR_OUTCOME_UNDETERMINED;
     }
-    if (failed == 0)
+    if (k->outcome == BR_OUTCOME_FAIL)
+        return br_text_printf(out, "verdict at the worst corners: FAIL, %d of %d criteria fail%s\n",
+                              failed, judged, undet ? " (others undetermined)" : "");
+    if (k->outcome == BR_OUTCOME_UNDETERMINED) /* never a pass: what was not decided may fail */
         return br_text_printf(out,
-                              "verdict at the worst corners: PASS, all %d criteria judged pass "
-                              "(%d not applicable)\n",
-                              judged, BR_CRIT_COUNT - judged);
-    return br_text_printf(
-        out, "verdict at the worst corners: FAIL, %d of %d criteria judged fail\n", failed, judged);
+                              "verdict at the worst corners: UNDETERMINED, none fails, %d of %d "
+                              "criteria undecided at some points\n",
+                              undet, judged);
+    return br_text_printf(out,
+                          "verdict at the worst corners: PASS, all %d criteria judged pass "
+                          "(%d not applicable)\n",
+                          judged, na);
+}
+
+/* What was not decided, and where to look. */
+static int undecided_text(const br_corners *k, const int *uletter, br_text *out)
+{
+    int any = k->unjudged > 0;
+    for (int crit = 0; crit < BR_CRIT_COUNT; crit++)
+        any |= uletter[crit] >= 0;
+    if (!any)
+        return BR_OK;
+    char buf[900], names[400] = "", first = '-';
+    size_t len = 0;
+    for (int crit = 0; crit < BR_CRIT_COUNT; crit++) {
+        if (uletter[crit] < 0)
+            continue;
+        if (first == '-')
+            first = (char)('A' + uletter[crit]);
+        len += (size_t)snprintf(names + len, sizeof names - len, "%s%s (%ld point%s)",
+                                len ? ", " : "", br_crit_name(crit), k->w[crit].undetermined,
+                                k->w[crit].undetermined == 1 ? "" : "s");
+        if (len >= sizeof names)
+            break;
+    }
+    snprintf(buf, sizeof buf,
+             "at %ld of %ld points some criterion could not be decided: at %ld the solver did "
+             "not settle a steady state whose drivers keep running, %ld could not be judged at "
+             "all (a solver or the chain model failed). A criterion is never judged at such a "
+             "point: it counts neither as passing nor as failing there. %s%s%s%c%s",
+             k->undetermined, k->s->points, k->unsettled, k->unjudged,
+             names[0] ? "Undetermined: " : "", names,
+             names[0] ? "; the first such point is corner " : "", names[0] ? first : ' ',
+             names[0] ? "." : "");
+    return br_report_wrap(out, "not decided: ", buf, 2);
 }
 
 static const char *level_word(int level)
@@ -237,26 +321,26 @@ static const char *level_word(int level)
 }
 
 /* One column per distinct corner, one row per parameter. */
-static int corner_table(const br_corners *k, const int *first, int n, br_text *out)
+static int corner_table(const br_corners *k, const drawn *d, br_text *out)
 {
     const br_tol_list *tl = &k->s->tl;
-    if (n == 0 || tl->n == 0)
+    if (d->n == 0 || tl->n == 0)
         return BR_OK;
     int rc =
         br_text_put(out, "\ncorners (the limit each parameter takes; nom: its nominal value)\n");
-    br_table *t = br_table_create(n + 1, tl->n);
+    br_table *t = br_table_create(d->n + 1, tl->n);
     if (!t)
         return BR_ENOMEM;
     br_table_head(t, 0, "parameter", BR_LEFT);
-    for (int a = 0; a < n; a++) {
+    for (int a = 0; a < d->n; a++) {
         char h[4] = {(char)('A' + a), '\0'};
         br_table_head(t, a + 1, h, BR_LEFT);
     }
     for (int j = 0; j < tl->n; j++) {
         br_table_row(t);
         br_table_set(t, 0, "%s", tl->p[j].name);
-        for (int a = 0; a < n; a++)
-            br_table_set(t, a + 1, "%s", level_word(k->w[first[a]].level[j]));
+        for (int a = 0; a < d->n; a++)
+            br_table_set(t, a + 1, "%s", level_word(drawn_level(k, d, a)[j]));
     }
     rc |= br_table_render(t, 2, out);
     br_table_free(t);
@@ -265,52 +349,66 @@ static int corner_table(const br_corners *k, const int *first, int n, br_text *o
 
 int br_corners_text(const br_chain *c, const br_corners *k, br_text *out)
 {
-    int letter[BR_CRIT_COUNT], first[MAX_CORNERS];
-    int n = distinct_corners(k, letter, first);
+    int letter[BR_CRIT_COUNT], uletter[BR_CRIT_COUNT];
+    drawn d;
+    distinct_corners(k, letter, uletter, &d);
     int rc = br_report_heading(c, "worst-case corners", out);
     rc |= br_param_table(&k->s->tl, out);
     rc |= br_text_put(out, "\n");
     rc |= method_text(k, out);
     rc |= br_text_put(out, "\nworst corner of each criterion (margin = limit - figure for a "
                            "maximum, figure - limit for a\nminimum; nominal: the margin at the "
-                           "nominal point; at = where it binds)\n");
+                           "nominal point; at = where it binds; steady-state is a\nstatus, no "
+                           "margin: it holds, a driver drops out, or it is not settled)\n");
     rc |= worst_table(c, k, letter, out);
     rc |= overall(k, out);
-    rc |= corner_table(k, first, n, out);
+    rc |= undecided_text(k, uletter, out);
+    rc |= corner_table(k, &d, out);
     rc |= br_report_caution(out);
     return rc ? BR_ENOMEM : BR_OK;
 }
 
 /* ---- XML ------------------------------------------------------------------- */
 
-static void xml_row(br_xmlw *w, const br_chain *c, const br_corners *k, int crit, int letter)
+static void xml_row(br_xmlw *w, const br_chain *c, const br_corners *k, int crit, int letter,
+                    int uletter)
 {
     const br_corner_worst *cw = &k->w[crit];
+    int decided = cw->applies, undet = cw->outcome == BR_OUTCOME_UNDETERMINED;
     br_xmlw_start(w, "criterion");
     br_xmlw_attr(w, "name", br_crit_name(crit));
     br_xmlw_attr(w, "title", br_crit_title(crit));
-    br_xmlw_bool(w, "applies", cw->applies);
-    if (cw->applies) {
-        char corner[2] = {letter >= 0 ? (char)('A' + letter) : '-', '\0'};
-        br_xmlw_bool(w, "pass", cw->worst.pass);
-        if (cw->worst.warn)
-            br_xmlw_bool(w, "warn", 1);
-        if (br_crit_never(crit, cw->worst.figure))
-            br_xmlw_bool(w, "never-starts", 1);
+    br_xmlw_bool(w, "applies", decided || undet);
+    if (decided || undet) {
+        br_xmlw_attr(w, "result", br_outcome_name(cw->outcome));
+        br_xmlw_bool(w, "pass", cw->outcome == BR_OUTCOME_PASS);
+        br_xmlw_int(w, "undetermined-points", cw->undetermined);
+    }
+    if (decided && cw->worst.warn)
+        br_xmlw_bool(w, "warn", 1);
+    if (decided && br_crit_never(crit, cw->worst.figure))
+        br_xmlw_bool(w, "never-starts", 1);
+    else if (decided && br_crit_has_margin(crit)) {
         br_xmlw_num(w, "figure", cw->worst.figure);
         br_xmlw_num(w, "limit", cw->worst.limit);
         br_xmlw_num(w, "margin", cw->worst.margin);
-        if (cw->nominal.applies)
+        if (cw->nominal.applies && !cw->nominal.undetermined)
             br_xmlw_num(w, "nominal-margin", cw->nominal.margin);
         br_xmlw_attr(w, "unit", br_crit_unit(crit));
+    }
+    if (decided && letter >= 0) {
+        char corner[2] = {(char)('A' + letter), '\0'};
         if (cw->worst.stage >= 0 && cw->worst.stage < c->n) {
             br_xmlw_int(w, "stage", cw->worst.stage);
             br_xmlw_attr(w, "switch", c->st[cw->worst.stage].name);
         }
         if (!br_crit_is_startup(crit))
             br_xmlw_attr(w, "direction", br_dir_label(cw->worst.dir));
-        if (letter >= 0)
-            br_xmlw_attr(w, "corner", corner);
+        br_xmlw_attr(w, "corner", corner);
+    }
+    if (uletter >= 0) {
+        char corner[2] = {(char)('A' + uletter), '\0'};
+        br_xmlw_attr(w, "undetermined-corner", corner);
     }
     br_xmlw_end(w);
 }
@@ -335,14 +433,15 @@ void br_param_xml(br_xmlw *w, const br_tol_list *tl)
     br_xmlw_end(w);
 }
 
-static void xml_corners(br_xmlw *w, const br_corners *k, const int *first, int n)
+static void xml_corners(br_xmlw *w, const br_corners *k, const drawn *d)
 {
-    for (int a = 0; a < n; a++) {
+    for (int a = 0; a < d->n; a++) {
         char id[2] = {(char)('A' + a), '\0'};
         br_xmlw_start(w, "corner");
         br_xmlw_attr(w, "id", id);
+        br_xmlw_attr(w, "kind", d->undecided[a] ? "undetermined" : "worst");
         for (int j = 0; j < k->s->tl.n; j++) {
-            int level = k->w[first[a]].level[j];
+            int level = drawn_level(k, d, a)[j];
             br_xmlw_start(w, "at");
             br_xmlw_int(w, "parameter", j + 1);
             br_xmlw_attr(w, "limit", level_word(level));
@@ -367,8 +466,9 @@ void br_results_root(br_xmlw *w, const br_chain *c, const char *verb, const char
 int br_corners_xml(const br_chain *c, const br_corners *k, const char *version, br_text *out,
                    br_error *err)
 {
-    int letter[BR_CRIT_COUNT], first[MAX_CORNERS];
-    int n = distinct_corners(k, letter, first);
+    int letter[BR_CRIT_COUNT], uletter[BR_CRIT_COUNT];
+    drawn d;
+    distinct_corners(k, letter, uletter, &d);
     br_xmlw *w;
     int rc = br_xmlw_create(&w, err);
     if (rc != BR_OK)
@@ -381,15 +481,20 @@ int br_corners_xml(const br_chain *c, const br_corners *k, const char *version, 
     br_xmlw_int(w, "steady-corners", k->steady_points);
     br_xmlw_int(w, "startup-corners", k->startup_points);
     br_xmlw_int(w, "points", k->s->points);
-    br_xmlw_int(w, "unjudged", k->failed);
+    br_xmlw_int(w, "undetermined", k->undetermined);
+    br_xmlw_int(w, "unsettled", k->unsettled);
+    br_xmlw_int(w, "unjudged", k->unjudged);
     br_xmlw_num(w, "accept-V", k->s->accept);
+    if (k->s->solver_limit > 0)
+        br_xmlw_int(w, "solver-limit", k->s->solver_limit);
     br_xmlw_end(w);
     br_xmlw_start(w, "worst");
     br_xmlw_bool(w, "pass", k->all_pass);
+    br_xmlw_attr(w, "result", br_outcome_name(k->outcome));
     for (int crit = 0; crit < BR_CRIT_COUNT; crit++)
-        xml_row(w, c, k, crit, letter[crit]);
+        xml_row(w, c, k, crit, letter[crit], uletter[crit]);
     br_xmlw_end(w);
-    xml_corners(w, k, first, n);
+    xml_corners(w, k, &d);
     br_xml_caution(w);
     rc = br_xmlw_finish(w, out, err);
     br_xmlw_free(w);

@@ -209,7 +209,8 @@ static int verdict_row(br_text *out, const br_chain *c, const br_verdict_row *r)
         int never = br_crit_never(r->crit, r->figure);
         rc |= crit_cell(out, r->crit, r->figure);
         rc |= crit_cell(out, r->crit, r->limit);
-        rc |= never ? cell(out, NULL, "-") : crit_cell(out, r->crit, r->margin);
+        rc |= never || !br_crit_has_margin(r->crit) ? cell(out, NULL, "-")
+                                                    : crit_cell(out, r->crit, r->margin);
     } else {
         rc |= cell(out, NULL, "-") | cell(out, NULL, "-") | cell(out, NULL, "-");
     }

@@ -9,6 +9,7 @@
 #include "report/window_report.h"
 #include "report/yield_report.h"
 
+#include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -19,12 +20,22 @@ static int oom(br_error *err)
 }
 
 /* The overall judgement as a badge: the words carry it, colour helps. */
-static int badge(br_text *out, int pass, const char *text)
+static int badge3(br_text *out, int outcome, const char *text)
 {
-    int rc = br_text_put(out, pass ? "<div class=\"badge pass\">" : "<div class=\"badge fail\">");
-    rc |= br_html_text(out, pass ? "PASS \xe2\x9c\x93  " : "FAIL \xe2\x9c\x97  ");
+    static const char *const cls[] = {"<div class=\"badge pass\">", "<div class=\"badge fail\">",
+                                      "<div class=\"badge undet\">"};
+    static const char *const word[] = {"PASS \xe2\x9c\x93  ", "FAIL \xe2\x9c\x97  ",
+                                       "UNDETERMINED ?  "};
+    int o = outcome == BR_OUTCOME_FAIL ? 1 : outcome == BR_OUTCOME_UNDETERMINED ? 2 : 0;
+    int rc = br_text_put(out, cls[o]);
+    rc |= br_html_text(out, word[o]);
     rc |= br_html_text(out, text);
     return rc | br_text_put(out, "</div>\n") ? BR_ENOMEM : BR_OK;
+}
+
+static int badge(br_text *out, int pass, const char *text)
+{
+    return badge3(out, pass ? BR_OUTCOME_PASS : BR_OUTCOME_FAIL, text);
 }
 
 /* The terminal report, without its caution, as preformatted text. */
@@ -105,15 +116,29 @@ static int yield_svg(const void *a, br_text *svg)
     return br_chart_yield(a, 0, svg);
 }
 
+/* The yield and its interval, in words for the badge. */
+static void yield_words(const br_yield *y, char *line, size_t cap)
+{
+    if (isfinite(y->yield))
+        snprintf(line, cap,
+                 "yield %.2f %% (%ld pass, %ld fail, %ld undetermined of %ld), 95 %% interval "
+                 "%.2f to %.2f %%",
+                 100.0 * y->yield, y->pass, y->fail, y->undetermined, y->n, 100.0 * y->lo,
+                 100.0 * y->hi);
+    else
+        snprintf(line, cap,
+                 "no sample decided (%ld undetermined of %ld), 95 %% interval %.2f to %.2f %%",
+                 y->undetermined, y->n, 100.0 * y->lo, 100.0 * y->hi);
+}
+
 int br_yield_html(const br_chain *c, const br_yield *y, double min_yield, const br_text *text,
                   br_text *out, br_error *err)
 {
-    char line[320];
+    char line[480];
     int rc = br_html_begin(out, c, "Monte Carlo yield");
     rc |= br_html_section(out, "Verdict", NULL);
-    snprintf(line, sizeof line, "yield %.2f %% (%ld of %ld), 95 %% interval %.2f to %.2f %%",
-             100.0 * y->yield, y->pass, y->n, 100.0 * y->lo, 100.0 * y->hi);
-    rc |= badge(out, !br_yield_failed(y, min_yield), line);
+    yield_words(y, line, sizeof line);
+    rc |= badge3(out, br_yield_outcome(y, min_yield), line);
     if (min_yield > 0)
         snprintf(line, sizeof line,
                  "Judged on the lower confidence bound against the minimum yield %.2f %%.",
@@ -121,12 +146,22 @@ int br_yield_html(const br_chain *c, const br_yield *y, double min_yield, const 
     else
         snprintf(line, sizeof line, "Passes only when every sample passes (no --min-yield).");
     rc |= br_html_para(out, line);
+    if (y->undetermined > 0) {
+        snprintf(line, sizeof line,
+                 "%ld samples neither pass nor fail: the solver did not settle a steady state at "
+                 "%ld of them and could not judge %ld. The yield is over the decided samples; "
+                 "the lower bound counts the undetermined ones as failing, the upper bound as "
+                 "passing.",
+                 y->undetermined, y->unsettled, y->unjudged);
+        rc |= br_html_para(out, line);
+    }
     snprintf(line, sizeof line, "%ld samples drawn from the design's tolerances, seed %lu%s.", y->n,
              y->seed, y->startup ? ", start-up judged" : ", start-up not judged");
     rc |= br_html_para(out, line);
     rc |= br_html_section_end(out);
     rc |= br_html_section(out, "Margins of the samples",
-                          "One histogram per criterion judged; bars left of the limit fail.");
+                          "One histogram per criterion with a margin, over the samples that "
+                          "decide it; bars left of the limit fail.");
     rc |= figure(out, yield_svg, y, NULL);
     rc |= br_html_section_end(out);
     rc |= full_text(out, text);

@@ -64,7 +64,10 @@ static void row(br_table *t, const br_chain *c, const br_verdict_row *r)
     br_table_set(t, C_RESULT, "%s", br_verdict_word(r));
     value_cell(t, C_FIGURE, r, r->figure);
     value_cell(t, C_LIMIT, r, r->limit);
-    value_cell(t, C_MARGIN, r, r->margin);
+    if (br_crit_has_margin(r->crit))
+        value_cell(t, C_MARGIN, r, r->margin);
+    else /* a status: its figure is information, it has no margin */
+        br_table_set(t, C_MARGIN, "-");
     where(c, r, b, sizeof b);
     br_table_set(t, C_AT, "%s", b);
     br_table_set(t, C_DIR, "%s",

@@ -15,11 +15,6 @@
 #define TOP_DRIVERS 3 /* parameters shown per criterion */
 #define RHO_SHOWN 0.1 /* weaker rank correlations are not worth a line */
 
-int br_yield_failed(const br_yield *y, double min_yield)
-{
-    return min_yield > 0 ? y->lo < min_yield : y->pass < y->n;
-}
-
 /* ---- text ------------------------------------------------------------------ */
 
 static int method_text(const br_yield *y, br_text *out)
@@ -45,61 +40,100 @@ static const char *pct(char *buf, size_t cap, double f)
     return buf;
 }
 
+/* The share of the decided samples that pass, or why there is none. */
+static const char *estimate(char *buf, size_t cap, const br_yield *y)
+{
+    if (!isfinite(y->yield))
+        snprintf(buf, cap, "no estimate, as no sample was decided");
+    else
+        snprintf(buf, cap, "%.4g %% of the decided samples", 100.0 * y->yield);
+    return buf;
+}
+
+static int undetermined_note(const br_yield *y, br_text *out)
+{
+    char buf[600], why[200];
+    if (y->undetermined == 0)
+        return BR_OK;
+    long other = y->undetermined - y->unsettled - y->unjudged;
+    snprintf(why, sizeof why,
+             "%s%ld where the solver did not settle a steady state whose drivers "
+             "keep running, %ld that could not be judged at all",
+             other > 0 ? "of them " : "", y->unsettled, y->unjudged);
+    snprintf(buf, sizeof buf,
+             "%ld sample%s neither pass%s nor fail%s (%s%s). They are unknowns: the estimate is "
+             "over the decided samples, the lower bound counts every undetermined sample as "
+             "failing and the upper bound every one as passing.",
+             y->undetermined, y->undetermined == 1 ? "" : "s", y->undetermined == 1 ? "es" : "",
+             y->undetermined == 1 ? "s" : "", why,
+             other > 0 ? ", the others with a criterion not decided for another reason" : "");
+    return br_report_wrap(out, "  note: ", buf, 8);
+}
+
+static int verdict_line(const br_yield *y, double min_yield, br_text *out)
+{
+    char b[32], d[32], buf[400];
+    int outcome = br_yield_outcome(y, min_yield);
+    if (min_yield > 0) {
+        snprintf(buf, sizeof buf, "%s: the lower confidence bound %s is %s the minimum %s%s",
+                 outcome == BR_OUTCOME_PASS   ? "PASS"
+                 : outcome == BR_OUTCOME_FAIL ? "FAIL"
+                                              : "UNDETERMINED",
+                 pct(b, sizeof b, y->lo), y->lo >= min_yield ? "at or above" : "below",
+                 pct(d, sizeof d, min_yield),
+                 outcome == BR_OUTCOME_UNDETERMINED
+                     ? ", and would reach it were enough undetermined samples to pass"
+                 : outcome == BR_OUTCOME_FAIL && y->undetermined > 0
+                     ? ", even were every undetermined sample to pass"
+                     : "");
+        return br_report_wrap(out, "verdict: ", buf, 2);
+    }
+    return br_text_printf(out, "verdict: %s\n",
+                          outcome == BR_OUTCOME_PASS ? "PASS, every sample passes"
+                          : outcome == BR_OUTCOME_FAIL
+                              ? "FAIL, some samples fail (--min-yield sets the yield to sign off "
+                                "on)"
+                              : "UNDETERMINED, no sample fails but some could not be decided");
+}
+
 static int yield_line(const br_yield *y, double min_yield, br_text *out)
 {
-    char a[32], b[32], c[32], d[32], buf[400];
+    char a[64], b[32], c[32], buf[500];
     snprintf(buf, sizeof buf,
-             "%ld of %ld samples pass: %s (95 %% confidence interval %s to %s, exact, "
-             "Clopper-Pearson)",
-             y->pass, y->n, pct(a, sizeof a, y->yield), pct(b, sizeof b, y->lo),
-             pct(c, sizeof c, y->hi));
+             "%ld of %ld samples pass, %ld fail, %ld undetermined: %s (95 %% confidence "
+             "interval %s to %s, exact, Clopper-Pearson%s)",
+             y->pass, y->n, y->fail, y->undetermined, estimate(a, sizeof a, y),
+             pct(b, sizeof b, y->lo), pct(c, sizeof c, y->hi),
+             y->undetermined > 0 ? ", the undetermined samples as unknowns" : "");
     int rc = br_report_wrap(out, "yield: ", buf, 2);
-    if (y->unjudged > 0) {
-        snprintf(buf, sizeof buf, "%ld sample%s could not be judged and count as failing.",
-                 y->unjudged, y->unjudged == 1 ? "" : "s");
-        rc |= br_report_wrap(out, "  note: ", buf, 8);
-    }
-    if (y->steady_only > 0) {
-        snprintf(buf, sizeof buf,
-                 "%ld failing sample%s fail only because the solver found no periodic steady "
-                 "state there; analyze at those values to see why.",
-                 y->steady_only, y->steady_only == 1 ? "" : "s");
-        rc |= br_report_wrap(out, "  note: ", buf, 8);
-    }
-    if (min_yield > 0) {
-        snprintf(buf, sizeof buf, "%s: the lower confidence bound %s is %s the minimum %s",
-                 y->lo >= min_yield ? "PASS" : "FAIL", pct(b, sizeof b, y->lo),
-                 y->lo >= min_yield ? "at or above" : "below", pct(d, sizeof d, min_yield));
-        rc |= br_report_wrap(out, "verdict: ", buf, 2);
-    } else {
-        rc |= br_text_printf(out, "verdict: %s\n",
-                             y->pass == y->n ? "PASS, every sample passes"
-                                             : "FAIL, some samples fail (--min-yield sets the "
-                                               "yield to sign off on)");
-    }
+    rc |= undetermined_note(y, out);
+    rc |= verdict_line(y, min_yield, out);
     return rc;
 }
 
 static int quantile_table(const br_yield *y, br_text *out)
 {
-    static const char *const heads[] = {"criterion", "fails", "minimum", "0.1 %",
-                                        "1 %",       "10 %",  "median"};
-    int rc = br_text_put(out, "\nmargins over the samples (quantiles of each criterion's margin; "
-                              "fails: samples where it fails;\nwarn: where it passes with a "
-                              "warning)\n");
-    br_table *t = br_table_create(7, BR_CRIT_COUNT);
+    static const char *const heads[] = {"criterion", "fails", "undet.", "minimum",
+                                        "0.1 %",     "1 %",   "10 %",   "median"};
+    enum { NC = 8 };
+    int rc = br_text_put(out, "\nmargins over the samples (quantiles of each criterion's margin "
+                              "where it is decided; fails: samples\nwhere it fails; undet.: "
+                              "samples where it is undetermined; warn: where it passes with a "
+                              "warning;\nsteady-state is a "
+                              "status)\n");
+    br_table *t = br_table_create(NC, BR_CRIT_COUNT);
     if (!t)
         return BR_ENOMEM;
-    for (int col = 0; col < 7; col++)
+    for (int col = 0; col < NC; col++)
         br_table_head(t, col, heads[col], col == 0 ? BR_LEFT : BR_RIGHT);
     for (int crit = 0; crit < BR_CRIT_COUNT; crit++) {
         const br_yield_crit *yc = &y->c[crit];
         char b[BR_TABLE_CELL];
         br_table_row(t);
         br_table_set(t, 0, "%s", br_crit_name(crit));
-        if (!yc->applies) {
+        if (!yc->applies && yc->undetermined == 0) {
             br_table_set(t, 1, "n/a");
-            for (int col = 2; col < 7; col++)
+            for (int col = 2; col < NC; col++)
                 br_table_set(t, col, "-");
             continue;
         }
@@ -107,8 +141,13 @@ static int quantile_table(const br_yield *y, br_text *out)
             br_table_set(t, 1, "%ld, %ld warn", yc->fails, yc->warns);
         else
             br_table_set(t, 1, "%ld", yc->fails);
-        for (int q = 0; q < BR_YIELD_NQ; q++)
-            br_table_set(t, 2 + q, "%s", br_crit_fmt(b, sizeof b, crit, yc->q[q]));
+        br_table_set(t, 2, "%ld", yc->undetermined);
+        for (int q = 0; q < BR_YIELD_NQ; q++) {
+            if (yc->applies && yc->has_margin)
+                br_table_set(t, 3 + q, "%s", br_crit_fmt(b, sizeof b, crit, yc->q[q]));
+            else
+                br_table_set(t, 3 + q, "-");
+        }
     }
     rc |= br_table_render(t, 2, out);
     br_table_free(t);
@@ -157,9 +196,9 @@ static int drivers_table(const br_yield *y, br_text *out)
     static const char *const heads[] = {"criterion", "fails", "parameter", "rho"};
     for (int col = 0; col < 4; col++)
         br_table_head(t, col, heads[col], col == 3 ? BR_RIGHT : BR_LEFT);
-    /* the steady-state row's margin is the solver's drift, not a circuit figure */
+    /* a status (the steady state) has no margin to correlate */
     for (int crit = 0; crit < BR_CRIT_COUNT; crit++)
-        if (crit != BR_CRIT_STEADY && y->c[crit].applies)
+        if (y->c[crit].has_margin && y->c[crit].applies)
             driver_rows(t, y, crit);
     rc |= br_table_render(t, 2, out);
     br_table_free(t);
@@ -188,12 +227,16 @@ static void xml_crit(br_xmlw *w, const br_yield *y, int crit)
     const br_yield_crit *yc = &y->c[crit];
     br_xmlw_start(w, "criterion");
     br_xmlw_attr(w, "name", br_crit_name(crit));
-    br_xmlw_bool(w, "applies", yc->applies);
-    if (yc->applies) {
+    br_xmlw_bool(w, "applies", yc->applies || yc->undetermined > 0);
+    if (yc->applies || yc->undetermined > 0) {
         br_xmlw_int(w, "judged", yc->judged);
         br_xmlw_int(w, "fails", yc->fails);
+        br_xmlw_int(w, "undetermined", yc->undetermined);
         if (yc->warns > 0)
             br_xmlw_int(w, "warns", yc->warns);
+        br_xmlw_attr(w, "kind", yc->has_margin ? "margin" : "status");
+    }
+    if (yc->applies && yc->has_margin) {
         br_xmlw_attr(w, "unit", br_crit_unit(crit));
         for (int q = 0; q < BR_YIELD_NQ; q++)
             br_xmlw_num(w, qname[q], yc->q[q]);
@@ -216,6 +259,7 @@ int br_yield_xml(const br_chain *c, const br_yield *y, double min_yield, const c
     int rc = br_xmlw_create(&w, err);
     if (rc != BR_OK)
         return rc;
+    int outcome = br_yield_outcome(y, min_yield);
     br_results_root(w, c, "yield", version);
     br_param_xml(w, &y->s->tl);
     br_xmlw_start(w, "yield");
@@ -223,15 +267,24 @@ int br_yield_xml(const br_chain *c, const br_yield *y, double min_yield, const c
     br_xmlw_int(w, "seed", (long)y->seed);
     br_xmlw_bool(w, "startup", y->startup);
     br_xmlw_num(w, "accept-V", y->accept);
+    if (y->s->solver_limit > 0)
+        br_xmlw_int(w, "solver-limit", y->s->solver_limit);
     br_xmlw_int(w, "pass", y->pass);
+    br_xmlw_int(w, "fail", y->fail);
+    br_xmlw_int(w, "undetermined", y->undetermined);
+    br_xmlw_int(w, "unsettled", y->unsettled);
     br_xmlw_int(w, "unjudged", y->unjudged);
-    br_xmlw_num(w, "yield", y->yield);
+    br_xmlw_num(w, "yield", y->yield); /* of the decided samples; absent when none is */
     br_xmlw_num(w, "lower", y->lo);
     br_xmlw_num(w, "upper", y->hi);
+    br_xmlw_attr(w, "interval",
+                 "undetermined samples count as failing for the lower bound and as passing "
+                 "for the upper");
     br_xmlw_num(w, "confidence", 0.95);
     if (min_yield > 0)
         br_xmlw_num(w, "min-yield", min_yield);
-    br_xmlw_bool(w, "ok", !br_yield_failed(y, min_yield));
+    br_xmlw_attr(w, "result", br_outcome_name(outcome));
+    br_xmlw_bool(w, "ok", outcome == BR_OUTCOME_PASS);
     for (int crit = 0; crit < BR_CRIT_COUNT; crit++)
         xml_crit(w, y, crit);
     br_xmlw_end(w);
@@ -250,28 +303,43 @@ static int csv_name(br_text *out, const char *name)
     return rc | br_text_put(out, "\"");
 }
 
+/* One criterion's cell of a sample: its margin, or for a status its
+ * result; empty where it does not apply, and a margin where it is not
+ * decided. */
+static int csv_cell(br_text *out, const br_pt *p, int crit)
+{
+    const br_pt_row *r = &p->row[crit];
+    int judged = p->status == BR_OK && r->applies;
+    if (!br_crit_has_margin(crit))
+        return br_text_printf(out, ",%s",
+                              !judged           ? (p->status == BR_OK ? "" : "undetermined")
+                              : r->undetermined ? "undetermined"
+                              : r->pass         ? "pass"
+                                                : "fail");
+    if (judged && !r->undetermined && isfinite(r->margin))
+        return br_text_printf(out, ",%.9g", r->margin);
+    return br_text_put(out, ",");
+}
+
 int br_yield_csv(const br_yield *y, br_text *out)
 {
     int k = y->s->tl.n;
-    int rc = br_text_put(out, "sample,pass");
+    int rc = br_text_put(out, "sample,result");
     for (int j = 0; j < k; j++)
         rc |= csv_name(out, y->s->tl.p[j].name);
     for (int crit = 0; crit < BR_CRIT_COUNT; crit++)
-        rc |= br_text_printf(out, ",margin_%s%s%s", br_crit_name(crit),
-                             br_crit_unit(crit)[0] ? "_" : "", br_crit_unit(crit));
+        rc |= br_crit_has_margin(crit)
+                  ? br_text_printf(out, ",margin_%s%s%s", br_crit_name(crit),
+                                   br_crit_unit(crit)[0] ? "_" : "", br_crit_unit(crit))
+                  : br_text_printf(out, ",%s", br_crit_name(crit));
     rc |= br_text_put(out, "\n");
     for (long i = 0; rc == BR_OK && i < y->n; i++) {
         const br_pt *p = &y->pts[i];
-        rc |= br_text_printf(out, "%ld,%d", i + 1, p->pass);
+        rc |= br_text_printf(out, "%ld,%s", i + 1, br_outcome_name(p->outcome));
         for (int j = 0; j < k; j++)
             rc |= br_text_printf(out, ",%.9g", y->values[i * k + j]);
-        for (int crit = 0; crit < BR_CRIT_COUNT; crit++) {
-            /* no number for a margin that is not one (a rail that never starts) */
-            if (p->status == BR_OK && p->row[crit].applies && isfinite(p->row[crit].margin))
-                rc |= br_text_printf(out, ",%.9g", p->row[crit].margin);
-            else
-                rc |= br_text_put(out, ",");
-        }
+        for (int crit = 0; crit < BR_CRIT_COUNT; crit++)
+            rc |= csv_cell(out, p, crit);
         rc |= br_text_put(out, "\n");
     }
     return rc ? BR_ENOMEM : BR_OK;

@@ -13,12 +13,11 @@ int br_yield_text(const br_chain *c, const br_yield *y, double min_yield, br_tex
 int br_yield_xml(const br_chain *c, const br_yield *y, double min_yield, const char *version,
                  br_text *out, br_error *err);
 
-/* One row per sample: its number, pass, every parameter's value and
- * every criterion's margin (empty where it does not apply), SI units. */
+/* One row per sample: its number, its result (pass, fail, undetermined),
+ * every parameter's value, every margin criterion's margin (empty where
+ * it does not apply or is undetermined) and every status criterion's
+ * result (pass, fail, undetermined, empty where it does not apply), SI
+ * units. */
 int br_yield_csv(const br_yield *y, br_text *out);
-
-/* 1 when the run fails: some sample fails (min_yield <= 0) or the lower
- * confidence bound is below min_yield. */
-int br_yield_failed(const br_yield *y, double min_yield);
 
 #endif

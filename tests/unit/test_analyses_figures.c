@@ -357,6 +357,41 @@ static void test_verdict_dropouts(void)
     br_design_free(d);
 }
 
+/* The steady-state row is a status, not a design margin: it holds with
+ * the solver's cross-check drift as its figure (information) and no
+ * margin.  A state the solver reports converged whose cross-check periods
+ * still move the rails by more than 100 uV a period is not trusted: the
+ * row is undetermined and so is every row read off that state, none
+ * fails. */
+static void test_steady_status(void)
+{
+    br_design *d = br_test_fcml(3, 600.0, 100e3, 0.5, 50e-9);
+    br_chain *c = chain_of(d);
+    br_steady ss;
+    br_steady_figs f;
+    solve(c, BR_DIRI_NONE, &ss, &f);
+    br_verdict v;
+    br_verdict_make(c, NULL, &f, 1, &v);
+    const br_verdict_row *r = &v.row[BR_CRIT_STEADY];
+    CU_ASSERT_TRUE(r->applies && r->pass && !r->undetermined);
+    CU_ASSERT_TRUE(isnan(r->margin));
+    BR_ASSERT_NEAR(r->figure, ss.drift, 0.0);
+    BR_ASSERT_NEAR(r->limit, 1e-4, 0.0);
+    CU_ASSERT_FALSE(br_crit_has_margin(BR_CRIT_STEADY));
+    CU_ASSERT_TRUE(br_crit_has_margin(BR_CRIT_UVLO));
+    ss.drift = 5e-4; /* converged, yet drifting: not a periodic state */
+    br_steady_figures(c, &ss, &f);
+    br_verdict_make(c, NULL, &f, 1, &v);
+    CU_ASSERT_TRUE(r->undetermined);
+    CU_ASSERT_FALSE(r->pass);
+    CU_ASSERT_PTR_NOT_NULL(strstr(r->note, "cross-check"));
+    CU_ASSERT_TRUE(v.row[BR_CRIT_UVLO].undetermined);
+    CU_ASSERT_EQUAL(v.nfail, 0);
+    CU_ASSERT_FALSE(v.all_pass);
+    br_chain_free(c);
+    br_design_free(d);
+}
+
 int main(void)
 {
     static const br_test_case cases[] = {
@@ -369,6 +404,7 @@ int main(void)
         {"verdict: undetermined when not converged", test_verdict_undetermined},
         {"verdict: a rail that never starts", test_verdict_never_starts},
         {"verdict: start-up dropouts", test_verdict_dropouts},
+        {"verdict: the steady state is a status", test_steady_status},
         {NULL, NULL}};
     return br_test_main("analyses/figures", cases);
 }

@@ -198,6 +198,99 @@ static void test_per_rail(void)
     CU_ASSERT_EQUAL(g->cap[2], 1);
     CU_ASSERT_EQUAL(g->cap[1], 1);
     CU_ASSERT_TRUE(g->margin > 0 && g->margin < 1.0);
+    /* the list never contradicts the choices: a part the mix places was
+     * not rejected everywhere, only as the only capacitor of every rail */
+    const br_reject *tiny = rejected(p, 0, 0), *low = rejected(p, 0, 3);
+    CU_ASSERT_TRUE_FATAL(tiny && low);
+    CU_ASSERT_PTR_NOT_NULL(strstr(tiny->why, "as the only capacitor"));
+    CU_ASSERT_TRUE(tiny->alone);
+    CU_ASSERT_FALSE(low->alone); /* below the supply: never placed */
+    for (int i = 0; i < p->nranked; i++) {
+        const br_choice *ch = &p->choice[p->ranked[i]];
+        for (int k = 1; k < 4; k++) {
+            const br_reject *rc = rejected(p, 0, ch->cap[k]), *rd = rejected(p, 1, ch->diode[k]);
+            CU_ASSERT_TRUE(!rc || rc->alone);
+            CU_ASSERT_TRUE(!rd || rd->alone);
+        }
+    }
+    br_pick_free(p);
+    free(cat);
+    br_design_free(d);
+}
+
+/* The ranking honours a minimum margin: by default a quarter of the UVLO
+ * hysteresis (the test driver's 8 V rising, 7 V falling: 1 V, so 250 mV),
+ * which every ranked choice meets; a minimum no choice reaches leaves
+ * none ranked and the verdict a failure, the thin ones counted apart. */
+static void test_min_margin(void)
+{
+    br_design *d = design();
+    br_catalog *cat = catalog();
+    br_pick_opts o;
+    br_pick_opts_default(&o);
+    o.startup = 0;
+    o.per_rail = 0;
+    br_pick *p;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_pick_run(d, cat, &o, &p, &err), BR_OK);
+    BR_ASSERT_NEAR(p->hysteresis, d->drivers[0].uvlo_rise.nom - d->drivers[0].uvlo_fall.nom, 1e-12);
+    BR_ASSERT_NEAR(p->min_margin, 0.25 * p->hysteresis, 1e-12);
+    CU_ASSERT_TRUE(p->min_default);
+    CU_ASSERT_TRUE_FATAL(p->nranked > 0);
+    for (int i = 0; i < p->nranked; i++) {
+        const br_choice *ch = &p->choice[p->ranked[i]];
+        CU_ASSERT_TRUE(ch->margin >= p->min_margin);
+        CU_ASSERT_TRUE(ch->crit >= BR_CRIT_RESTART && ch->crit < BR_CRIT_COUNT);
+    }
+    CU_ASSERT_EQUAL(p->outcome, BR_OUTCOME_PASS);
+    int pass = p->nranked;
+    br_pick_free(p);
+    o.min_margin = 50.0;
+    CU_ASSERT_EQUAL_FATAL(br_pick_run(d, cat, &o, &p, &err), BR_OK);
+    CU_ASSERT_EQUAL(p->nranked, 0);
+    CU_ASSERT_TRUE(p->nthin >= pass);
+    CU_ASSERT_TRUE(p->thin >= 0);
+    CU_ASSERT_EQUAL(p->outcome, BR_OUTCOME_FAIL);
+    br_pick_free(p);
+    free(cat);
+    br_design_free(d);
+}
+
+/* With the solver held to one Newton iteration and one plain period the
+ * choices that pass without it (the 1 uF and 4.7 uF capacitors) settle
+ * nowhere: none is ranked, none counted as failing or held against its
+ * parts, and the search ends undetermined.  The tiny capacitor still
+ * fails: its drivers drop out, which no solver limit makes unsure. */
+static void test_pick_undetermined(void)
+{
+    br_design *d = design();
+    br_catalog *cat = catalog();
+    br_pick_opts o;
+    br_pick_opts_default(&o);
+    o.startup = 0;
+    o.per_rail = 0;
+    o.solver_limit = 1;
+    br_pick *p;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_pick_run(d, cat, &o, &p, &err), BR_OK);
+    CU_ASSERT_EQUAL(p->nranked, 0);
+    CU_ASSERT_EQUAL(p->outcome, BR_OUTCOME_UNDETERMINED);
+    CU_ASSERT_EQUAL(p->nundet, 4); /* 2 capacitors x 2 diodes */
+    for (int i = 0; i < p->nuniform; i++) {
+        const br_choice *ch = &p->choice[i];
+        CU_ASSERT_FALSE(ch->pass);
+        if (ch->cap[1] == 0) {
+            CU_ASSERT_EQUAL(ch->outcome, BR_OUTCOME_FAIL);
+            continue;
+        }
+        CU_ASSERT_EQUAL(ch->outcome, BR_OUTCOME_UNDETERMINED);
+        CU_ASSERT_TRUE(ch->unsettled > 0);
+        CU_ASSERT_EQUAL(ch->fail_crit, -1);
+    }
+    CU_ASSERT_PTR_NULL(rejected(p, 0, 1));
+    CU_ASSERT_PTR_NULL(rejected(p, 0, 2));
+    CU_ASSERT_PTR_NULL(rejected(p, 1, 1));
+    CU_ASSERT_PTR_NULL(rejected(p, 1, 2));
     br_pick_free(p);
     free(cat);
     br_design_free(d);
@@ -261,6 +354,8 @@ int main(void)
         {"rating screens, failures and the ranking", test_screen_and_rank},
         {"per-rail descent", test_per_rail},
         {"start-up dropouts over the design's limit", test_startup_dropouts},
+        {"a minimum margin", test_min_margin},
+        {"unsettled choices are undetermined", test_pick_undetermined},
         {"progress and a stop", test_progress_and_cancel},
         {NULL, NULL},
     };

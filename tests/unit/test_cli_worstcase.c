@@ -8,6 +8,7 @@
 
 #include <fcntl.h>
 #include <libxml/parser.h>
+#include <math.h>
 #include <spawn.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -16,6 +17,7 @@
 #include <unistd.h>
 
 #define DEMO "examples/demo-3level.xml"
+#define CLAMPED "tests/data/fcml5-clamped.xml" /* slow to settle, every corner passes */
 
 /* Exactly one line on stderr, starting with prefix. */
 static void one_line(const run_result *r, const char *prefix)
@@ -44,6 +46,56 @@ static int count_lines(const char *s)
     for (; *s; s++)
         n += *s == '\n';
     return n;
+}
+
+/* The first element called name under n (depth first), or NULL. */
+static xmlNode *find_element(xmlNode *n, const char *name)
+{
+    for (; n; n = n->next) {
+        if (n->type == XML_ELEMENT_NODE && strcmp((const char *)n->name, name) == 0)
+            return n;
+        xmlNode *in = find_element(n->children, name);
+        if (in)
+            return in;
+    }
+    return NULL;
+}
+
+/* Attribute attr of the first element called name, as a number (NAN when
+ * either is missing). */
+static double xml_num(xmlDoc *doc, const char *name, const char *attr)
+{
+    xmlNode *n = find_element(xmlDocGetRootElement(doc), name);
+    xmlChar *v = n ? xmlGetProp(n, BAD_CAST attr) : NULL;
+    double x = v ? strtod((const char *)v, NULL) : NAN;
+    xmlFree(v);
+    return x;
+}
+
+/* Attribute attr of the first element called name is want. */
+static int xml_is(xmlDoc *doc, const char *name, const char *attr, const char *want)
+{
+    xmlNode *n = find_element(xmlDocGetRootElement(doc), name);
+    xmlChar *v = n ? xmlGetProp(n, BAD_CAST attr) : NULL;
+    int same = v && strcmp((const char *)v, want) == 0;
+    if (!same)
+        fprintf(stderr, "<%s %s> is '%s', expected '%s'\n", name, attr, v ? (char *)v : "(none)",
+                want);
+    xmlFree(v);
+    return same;
+}
+
+/* The line of text that starts with prefix (a static copy), or "". */
+static const char *line_of(const char *text, const char *prefix)
+{
+    static char line[512];
+    const char *at = strstr(text, prefix);
+    line[0] = '\0';
+    if (at) {
+        size_t n = strcspn(at, "\n");
+        snprintf(line, sizeof line, "%.*s", (int)(n < sizeof line ? n : sizeof line - 1), at);
+    }
+    return line;
 }
 
 /* ---- corners ------------------------------------------------------------- */
@@ -87,8 +139,8 @@ static void test_corners_xml(void)
     done(&r);
 }
 
-/* The line of text that starts with prefix, copied into line. */
-static int line_of(const char *text, const char *prefix, char *line, size_t cap)
+/* The line of text that starts with prefix, copied into line (1 when found). */
+static int line_starting(const char *text, const char *prefix, char *line, size_t cap)
 {
     for (const char *p = text; p && *p;) {
         const char *nl = strchr(p, '\n');
@@ -124,12 +176,12 @@ static void test_dropouts_judged(void)
     free(src);
     run_result r = run((const char *[]){"corners", path, NULL});
     CU_ASSERT_EQUAL(r.status, 1);
-    CU_ASSERT_TRUE(line_of(r.out, "  dropouts ", row, sizeof row));
+    CU_ASSERT_TRUE(line_starting(r.out, "  dropouts ", row, sizeof row));
     CU_ASSERT_PTR_NOT_NULL(strstr(row, " FAIL "));
     done(&r);
     r = run((const char *[]){"yield", "--startup", "--samples", "4", path, NULL});
     CU_ASSERT_EQUAL(r.status, 1);
-    CU_ASSERT_TRUE(line_of(r.out, "  dropouts ", row, sizeof row));
+    CU_ASSERT_TRUE(line_starting(r.out, "  dropouts ", row, sizeof row));
     long fails = -1;
     CU_ASSERT_EQUAL(sscanf(row, " dropouts %ld", &fails), 1);
     CU_ASSERT_EQUAL(fails, 4);
@@ -161,7 +213,7 @@ static void test_yield_never_starts(void)
     run_result r =
         run((const char *[]){"yield", "--startup", "--samples", "3", "--csv", csv, path, NULL});
     CU_ASSERT_EQUAL(r.status, 1);
-    CU_ASSERT_TRUE(line_of(r.out, "  startup ", row, sizeof row));
+    CU_ASSERT_TRUE(line_starting(r.out, "  startup ", row, sizeof row));
     long fails = -1;
     CU_ASSERT_EQUAL(sscanf(row, " startup %ld", &fails), 1);
     CU_ASSERT_EQUAL(fails, 3);
@@ -173,10 +225,10 @@ static void test_yield_never_starts(void)
     CU_ASSERT_PTR_NOT_NULL_FATAL(text);
     CU_ASSERT_PTR_NULL(strstr(text, "inf"));
     CU_ASSERT_PTR_NULL(strstr(text, "nan"));
-    /* sample 1: pass 0, then the 3 parameters, then an empty start-up margin */
+    /* sample 1: result fail, then the 3 parameters, then an empty start-up margin */
     const char *line = strchr(text, '\n');
     CU_ASSERT_PTR_NOT_NULL_FATAL(line);
-    CU_ASSERT_TRUE(strncmp(line + 1, "1,0,", 4) == 0);
+    CU_ASSERT_TRUE(strncmp(line + 1, "1,fail,", 7) == 0);
     const char *cell = line + 1;
     for (int c = 0; c < 5 && cell; c++) {
         cell = strchr(cell, ',');
@@ -224,7 +276,7 @@ static void test_yield_files(void)
     CU_ASSERT_EQUAL(r.status, 0);
     char *c = br_test_slurp(csv, NULL);
     CU_ASSERT_PTR_NOT_NULL_FATAL(c);
-    CU_ASSERT_EQUAL(strncmp(c, "sample,pass,\"supply: voltage\"", 29), 0);
+    CU_ASSERT_EQUAL(strncmp(c, "sample,result,\"supply: voltage\"", 31), 0);
     CU_ASSERT_EQUAL(count_lines(c), 31);
     CU_ASSERT_TRUE(has(c, "margin_drive_V"));
     xmlDoc *doc = xmlReadFile(xml, NULL, XML_PARSE_NONET);
@@ -234,6 +286,93 @@ static void test_yield_files(void)
     free(c);
     unlink(csv);
     unlink(xml);
+    rmdir(dir);
+    done(&r);
+}
+
+/* ---- points the solver does not settle ---------------------------------------- */
+
+/* A leg whose step-up steady state settles by a slow mode at the top of
+ * its supply range: every corner really passes, and the search says so
+ * (it used to call the unsettled corner a failure of every criterion,
+ * with positive margins).  The steady state is a status: no margin. */
+static void test_corners_settles(void)
+{
+    run_result r = run((const char *[]){"corners", "--no-startup", CLAMPED, NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    CU_ASSERT_TRUE(has(r.out, "verdict at the worst corners: PASS"));
+    const char *st = line_of(r.out, "  steady-state ");
+    CU_ASSERT_TRUE(has(st, "pass"));
+    CU_ASSERT_FALSE(strstr(st, "V ") || strstr(st, "uV")); /* no figure shown as a margin */
+    done(&r);
+}
+
+/* Held to one Newton iteration and one plain period the solver settles no
+ * point: corners, yield and pick say undetermined (status 3) in every
+ * output, never FAIL, and the nominal point that did not settle does not
+ * stop them (no status 2). */
+static void test_corners_undetermined(void)
+{
+    char dir[] = "/tmp/br-wc-XXXXXX", xml[64];
+    CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(dir));
+    snprintf(xml, sizeof xml, "%s/c.xml", dir);
+    run_result r = run((const char *[]){"corners", "--no-startup", "--solver-limit", "1", "--xml",
+                                        xml, CLAMPED, NULL});
+    CU_ASSERT_EQUAL(r.status, 3);
+    CU_ASSERT_TRUE(has(r.out, "verdict at the worst corners: UNDETERMINED"));
+    CU_ASSERT_TRUE(has(r.out, "not decided: at "));
+    CU_ASSERT_TRUE(has(line_of(r.out, "  uvlo "), "UNDETERMINED"));
+    CU_ASSERT_FALSE(strstr(r.out, "FAIL") != NULL);
+    xmlDoc *doc = xmlReadFile(xml, NULL, XML_PARSE_NONET);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(doc);
+    CU_ASSERT_TRUE(xml_is(doc, "worst", "result", "undetermined"));
+    CU_ASSERT_TRUE(xml_num(doc, "method", "undetermined") > 0);
+    CU_ASSERT_TRUE(xml_num(doc, "method", "undetermined") == xml_num(doc, "method", "points"));
+    xmlFreeDoc(doc);
+    unlink(xml);
+    rmdir(dir);
+    done(&r);
+}
+
+static void test_yield_undetermined(void)
+{
+    char dir[] = "/tmp/br-wc-XXXXXX", csv[64], xml[64], html[64];
+    CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(dir));
+    snprintf(csv, sizeof csv, "%s/y.csv", dir);
+    snprintf(xml, sizeof xml, "%s/y.xml", dir);
+    snprintf(html, sizeof html, "%s/y.html", dir);
+    run_result r = run((const char *[]){"yield", "--samples", "8", "--solver-limit", "1", "--csv",
+                                        csv, "--xml", xml, "--report", html, CLAMPED, NULL});
+    CU_ASSERT_EQUAL(r.status, 3);
+    CU_ASSERT_TRUE(has(r.out, "0 of 8 samples pass, 0 fail, 8 undetermined"));
+    CU_ASSERT_TRUE(has(r.out, "verdict: UNDETERMINED"));
+    /* the steady state is a status: counted, never given quantiles */
+    const char *st = line_of(r.out, "  steady-state ");
+    CU_ASSERT_TRUE(has(st, " 0 ") && has(st, " 8 "));
+    CU_ASSERT_FALSE(strstr(st, "V") != NULL);
+    char *c = br_test_slurp(csv, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(c);
+    CU_ASSERT_TRUE(has(c, "\n1,undetermined,"));
+    CU_ASSERT_TRUE(has(c, ",steady-state,"));
+    CU_ASSERT_FALSE(strstr(c, "margin_steady-state") != NULL);
+    xmlDoc *doc = xmlReadFile(xml, NULL, XML_PARSE_NONET);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(doc);
+    CU_ASSERT_TRUE(xml_is(doc, "yield", "result", "undetermined"));
+    CU_ASSERT_TRUE(xml_num(doc, "yield", "undetermined") == 8);
+    CU_ASSERT_TRUE(xml_num(doc, "yield", "fail") == 0);
+    CU_ASSERT_TRUE(xml_num(doc, "yield", "upper") == 1);
+    char *h = br_test_slurp(html, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(h);
+    CU_ASSERT_TRUE(has(h, "badge undet"));
+    CU_ASSERT_TRUE(has(h, "8 undetermined of 8"));
+    for (const char *t[] = {r.out, c, h, NULL}, **p = t; *p; p++)
+        CU_ASSERT_FALSE(strstr(*p, "nan") || strstr(*p, "NaN"));
+    xmlFreeDoc(doc);
+    free(c);
+    free(h);
+    unlink(csv);
+    unlink(xml);
+    unlink(html);
     rmdir(dir);
     done(&r);
 }
@@ -270,7 +409,8 @@ static void test_pick(void)
     CU_ASSERT_STRING_EQUAL(r.err, "");
     CU_ASSERT_TRUE(has(r.out, "part pick of design demo-3level"));
     CU_ASSERT_TRUE(has(r.out, "cap-6v3 (capacitor): rated 6.3 V, below the supply's maximum"));
-    CU_ASSERT_TRUE(has(r.out, "cap-2u2 (capacitor): on every rail: fails drive"));
+    CU_ASSERT_TRUE(has(r.out, "cap-2u2 (capacitor): as the only capacitor, on every rail: "
+                              "fails drive"));
     CU_ASSERT_TRUE(has(r.out, "no choice passes"));
     CU_ASSERT_TRUE(has(r.out, "These circuits carry lethal voltages."));
     done(&r);
@@ -289,6 +429,105 @@ static void test_pick(void)
     rmdir(dir);
 }
 
+/* The demo's passing choices against the example catalog have thin
+ * margins (4.7 mV ranked first): the ranking now asks for a minimum
+ * margin, states it, and names what sets each choice's margin. */
+static void test_pick_min_margin(void)
+{
+    const char *cat = "examples/parts/catalog.xml";
+    run_result r = run((const char *[]){"pick", "--catalog", cat, "--xml", "-", DEMO, NULL});
+    xmlDoc *doc = xmlReadMemory(r.out, (int)strlen(r.out), "pick.xml", NULL, XML_PARSE_NONET);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(doc);
+    double min = xml_num(doc, "search", "min-margin-V");
+    /* a quarter of the demo drivers' hysteresis, 8.0 V - 7.3 V */
+    BR_ASSERT_NEAR(min, 0.25 * 0.7, 1e-9);
+    for (xmlNode *n = find_element(xmlDocGetRootElement(doc), "choice"); n; n = n->next) {
+        xmlChar *rank = xmlGetProp(n, BAD_CAST "rank"), *m = xmlGetProp(n, BAD_CAST "margin-V");
+        if (rank)
+            CU_ASSERT_TRUE(m && strtod((const char *)m, NULL) >= min);
+        xmlFree(rank);
+        xmlFree(m);
+    }
+    xmlFreeDoc(doc);
+    done(&r);
+    r = run((const char *[]){"pick", "--catalog", cat, "--min-margin", "20 mV", DEMO, NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    CU_ASSERT_TRUE(has(r.out, "minimum margin: 20 mV (--min-margin)"));
+    const char *first = line_of(r.out, "   1  cost");
+    CU_ASSERT_TRUE(has(first, ", set by "));
+    const char *m = strstr(first, "margin ");
+    CU_ASSERT_TRUE_FATAL(m != NULL);
+    double v = strtod(m + 7, NULL);
+    CU_ASSERT_TRUE(has(m, " mV") ? v >= 20.0 : v >= 0.02);
+    done(&r);
+}
+
+/* The half-bridge of docs/design-file.md at 100 MHz with no dead time:
+ * points the solver cannot settle.  No NaN reaches the report or the
+ * XML; a choice that could not be decided is shown as such. */
+static void test_pick_no_nan(void)
+{
+    static const char DESIGN[] =
+        "<?xml version=\"1.0\"?>\n"
+        "<bootrung-design version=\"1\" name=\"half-bridge\">\n"
+        "  <operating-point vin=\"400 V\" fsw=\"100 MHz\" duty=\"0.5\" ambient=\"40 C\"/>\n"
+        "  <supply voltage=\"12 V +-5%\" resistance=\"0.2 ohm\"/>\n"
+        "  <topology><fcml levels=\"2\"/></topology>\n"
+        "  <parts>\n"
+        "    <diode id=\"fast-600v\" is=\"100 nA\" n=\"1.5\" rs=\"0.5 ohm\" cj0=\"40 pF\"\n"
+        "           qrr=\"30 nC\" if=\"1 A\" vrrm=\"600 V\"/>\n"
+        "    <capacitor id=\"x7r-1u-25v\" c=\"1 uF +-10%\" esr=\"10 mohm\" rating=\"25 V\">\n"
+        "      <bias v=\"0 V\" factor=\"1\"/><bias v=\"12 V\" factor=\"0.7\"/>\n"
+        "      <bias v=\"25 V\" factor=\"0.45\"/>\n"
+        "    </capacitor>\n"
+        "    <driver id=\"driver-a\" uvlo-rise=\"7.5 V\" uvlo-fall=\"7.0 V\" iq-run=\"2 mA\"\n"
+        "            iq-uvlo=\"0.2 mA\"/>\n"
+        "    <switch id=\"sw-a\" qg=\"10 nC\" qg-at=\"12 V\" gate-pulse=\"20 ns\"/>\n"
+        "  </parts>\n"
+        "  <stages diode=\"fast-600v\" capacitor=\"x7r-1u-25v\" driver=\"driver-a\"\n"
+        "          switch=\"sw-a\" link-resistor=\"1 ohm\"/>\n"
+        "  <analysis min-drive=\"10 V\"/>\n"
+        "</bootrung-design>\n";
+    static const char CAT[] =
+        "<?xml version=\"1.0\"?>\n"
+        "<bootrung-catalog version=\"1\" name=\"small\">\n"
+        "  <capacitor id=\"cap-2u2\" c=\"2.2 uF +-10%\" rating=\"25 V\" cost=\"0.02\" "
+        "area-mm2=\"2\"/>\n"
+        "  <capacitor id=\"cap-10u\" c=\"10 uF +-10%\" rating=\"25 V\" cost=\"0.04\" "
+        "area-mm2=\"3\"/>\n"
+        "  <diode id=\"d-600v\" is=\"1 nA\" n=\"1.8\" rs=\"0.25 ohm\" cj0=\"12 pF\" "
+        "vrrm=\"600 V\" cost=\"0.05\" area-mm2=\"3\"/>\n"
+        "</bootrung-catalog>\n";
+    char dir[] = "/tmp/br-wc-XXXXXX", des[64], cat[64], xml[64];
+    CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(dir));
+    snprintf(des, sizeof des, "%s/hb.xml", dir);
+    snprintf(cat, sizeof cat, "%s/c.xml", dir);
+    snprintf(xml, sizeof xml, "%s/p.xml", dir);
+    write_file(des, DESIGN);
+    write_file(cat, CAT);
+    run_result r =
+        run((const char *[]){"pick", "--catalog", cat, "--no-startup", "--xml", xml, des, NULL});
+    CU_ASSERT_TRUE(r.status == 1 || r.status == 3);
+    CU_ASSERT_TRUE(has(r.out, r.status == 3 ? "verdict: UNDETERMINED" : "verdict: FAIL"));
+    char *x = br_test_slurp(xml, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(x);
+    for (const char *t[] = {r.out, x, NULL}, **p = t; *p; p++)
+        CU_ASSERT_FALSE(strstr(*p, "nan") || strstr(*p, "NaN") || strstr(*p, "inf"));
+    free(x);
+    done(&r);
+    /* held to one iteration, nothing settles: undetermined, status 3 */
+    r = run((const char *[]){"pick", "--catalog", cat, "--no-startup", "--solver-limit", "1",
+                             CLAMPED, NULL});
+    CU_ASSERT_EQUAL(r.status, 3);
+    CU_ASSERT_TRUE(has(r.out, "undetermined choices: "));
+    CU_ASSERT_TRUE(has(r.out, "verdict: UNDETERMINED"));
+    done(&r);
+    unlink(des);
+    unlink(cat);
+    unlink(xml);
+    rmdir(dir);
+}
+
 /* ---- bad input and help ---------------------------------------------------------- */
 
 static void test_bad_input(void)
@@ -301,6 +540,10 @@ static void test_bad_input(void)
         {"corners", "--exhaustive", "20", DEMO, NULL},
         {"corners", "--threads", "0", DEMO, NULL},
         {"yield", "--xml", "-", "--csv", "-", DEMO, NULL},
+        {"yield", "--solver-limit", "0", DEMO, NULL},
+        {"corners", "--solver-limit", "x", DEMO, NULL},
+        {"pick", "--catalog", "examples/parts/catalog.xml", "--min-margin", "-1 V", DEMO, NULL},
+        {"pick", "--catalog", "examples/parts/catalog.xml", "--min-margin", "3 A", DEMO, NULL},
     };
     for (size_t i = 0; i < sizeof cases / sizeof cases[0]; i++) {
         run_result r = run(cases[i]);
@@ -353,7 +596,12 @@ int main(void)
         {"yield: samples where a rail never starts", test_yield_never_starts},
         {"yield: same seed, 1 or 2 threads, same report", test_yield_threads},
         {"yield: CSV and XML files, --min-yield", test_yield_files},
+        {"corners: a slow steady state settles", test_corners_settles},
+        {"corners: unsettled points are undetermined", test_corners_undetermined},
+        {"yield: unsettled samples are undetermined", test_yield_undetermined},
         {"pick: rejections, no passing choice, a broken catalog", test_pick},
+        {"pick: a minimum margin", test_pick_min_margin},
+        {"pick: no NaN, undetermined choices", test_pick_no_nan},
         {"bad input: status 2, one line", test_bad_input},
         {"help texts", test_help_golden},
         {NULL, NULL},
