@@ -147,24 +147,125 @@ void br_sim_sample_stress(const br_sim *s, double t, const double *vrail, int n,
 
 double br_sim_switch_v(const br_sim *s, int k, double t)
 {
-    if (s->sslope[k] != 0.0 && t < s->send[k])
+    if (t < s->send[k])
         return s->sv0[k] + s->sslope[k] * (t - s->st0[k]);
-    return s->starget[k];
+    return s->tv[k] + s->tsl[k] * (t - s->tt0[k]);
+}
+
+/* ---- switch voltages -----------------------------------------------------
+ * Each switch's voltage follows its own state alone: on, its on-state drop
+ * at the load current (+I Rds(on) carrying it forward, -I Rds(on) in
+ * reverse); off and conducting the load current in reverse in a dead
+ * time, minus its reverse drop; otherwise its blocking voltage, which the
+ * flying capacitors' ripple moves linearly between switching events.  A
+ * change of target ramps at the slope Vblock / tedge. */
+
+/* Ripple of flying capacitor k at t, V/A. */
+static double fly_at(const br_sim *s, int k, double t)
+{
+    return s->fly[k] + s->flysl[k] * (t - s->fly_t);
+}
+
+/* Blocking voltage of switch k at t and its slope, V and V/s. */
+static double block_line(const br_sim *s, int k, double t, double *sl)
+{
+    const br_stage *st = &s->c->st[k];
+    *sl = 0.0;
+    if (s->tm.npairs == 0 || s->iamp == 0.0)
+        return st->vblock;
+    /* cell j lies between flying capacitors j-1 and j */
+    int j = st->pair;
+    double i = s->isgn * s->iamp;
+    *sl = i * (s->flysl[j - 1] - s->flysl[j]);
+    return st->vblock + i * (fly_at(s, j - 1, t) - fly_at(s, j, t));
+}
+
+/* The mode of switch k now and the line its voltage heads for at t. */
+static int switch_target(const br_sim *s, int k, double t, double *v, double *sl)
+{
+    const br_stage *st = &s->c->st[k];
+    *sl = 0.0;
+    if ((s->cmd >> k & 1) && s->en[k]) {
+        *v = br_sw_on_drop(st, s->dir, s->iamp);
+        return BR_SW_ON;
+    }
+    if (s->loaded && (s->rev >> k & 1)) {
+        *v = -br_sw_rev_drop(&st->sw, s->iamp);
+        return BR_SW_REV;
+    }
+    *v = block_line(s, k, t, sl);
+    return BR_SW_BLOCK;
+}
+
+/* Two lines closer than this at an update are the same line (the ripple
+ * carried from event to event, against the line extended). */
+#define BR_SW_SAME 1e-9 /* V */
+
+/* Switch k heads for the line v + sl (t' - t): a ramp from its present
+ * voltage at the slope Vblock / tedge (a swing in tedge when it blocks
+ * nothing), ending where it meets the line. */
+static void head_for(br_sim *s, int k, double t, double v, double sl)
+{
+    const br_chain *c = s->c;
+    double cur = br_sim_switch_v(s, k, t), dv = v - cur;
+    double vb = c->st[k].vblock;
+    double rate = c->tedge > 0 ? (vb > 0 ? vb : fabs(dv)) / c->tedge : HUGE_VAL;
+    s->tv[k] = v;
+    s->tt0[k] = t;
+    s->tsl[k] = sl;
+    s->send[k] = -HUGE_VAL;
+    if (fabs(dv) <= BR_SW_SAME || !(rate < HUGE_VAL))
+        return;
+    double sg = dv > 0 ? rate : -rate, dur = dv / (sg - sl);
+    if (!(dur > 0))
+        return;
+    s->sv0[k] = cur;
+    s->st0[k] = t;
+    s->sslope[k] = sg;
+    s->send[k] = t + dur;
 }
 
 /* Settle every switch at its target with no ramp or pulse in progress. */
-static void settle_switches(br_sim *s)
+static void settle_switches(br_sim *s, double t)
 {
     for (int k = 0; k < s->n; k++) {
-        int on = (s->cmd >> k & 1) && s->en[k];
-        double v = on ? 0.0 : ((s->rev >> k & 1) ? -s->c->st[k].sw.vsd : s->c->st[k].vblock);
-        s->starget[k] = s->sv0[k] = v;
+        double v, sl;
+        s->smode[k] = switch_target(s, k, t, &v, &sl);
+        s->tv[k] = s->sv0[k] = v;
+        s->tt0[k] = s->st0[k] = t;
+        s->tsl[k] = sl;
         s->sslope[k] = 0.0;
         s->send[k] = s->pulse_end[k] = -HUGE_VAL;
         s->pulse_i[k] = 0.0;
-        if (on)
+        if (s->smode[k] == BR_SW_ON)
             s->driven |= 1ULL << k;
     }
+}
+
+/* The ripple carried to time t (an event time); at the period's first
+ * event it is set afresh, so that rounding never accumulates. */
+static void fly_to(br_sim *s, double t, int first)
+{
+    for (int k = 1; k < s->tm.npairs; k++)
+        s->fly[k] = first ? s->tm.fly_ev0[k] : fly_at(s, k, t);
+    s->fly_t = t;
+}
+
+/* The ripple at phase ph of the period, at sim time t. */
+static void fly_reset(br_sim *s, double ph, double t)
+{
+    memset(s->fly, 0, sizeof s->fly);
+    memset(s->flysl, 0, sizeof s->flysl);
+    s->fly_t = t;
+    if (s->tm.npairs > 0)
+        br_timing_fly_at(&s->tm, ph, s->fly, s->flysl);
+}
+
+/* The load current starts: for a DC load at the design's magnitude. */
+static void start_load(br_sim *s)
+{
+    s->loaded = 1;
+    s->iamp = s->c->iload;
 }
 
 static void clear_state(br_sim *s)
@@ -178,6 +279,10 @@ static void clear_state(br_sim *s)
     memset(s->vr, 0, sizeof s->vr);
     s->t = 0.0;
     s->cmd = s->rev = s->driven = 0;
+    s->loaded = 0;
+    s->iamp = 0.0;
+    s->load_at = HUGE_VAL;
+    s->isgn = s->dir == BR_DIRI_UP ? 1.0 : -1.0;
     s->per = 0;
     s->ev_idx = 0;
     s->hlast = 0.0;
@@ -204,13 +309,20 @@ void br_sim_reset_cold(br_sim *s)
     s->pre_idx = 0;
     s->pwm_t0 = t;
     s->tramp_end = c->tramp;
-    if (s->npre > 0)
-        s->cmd = c->precharge[0].mask;
-    else {
-        s->cmd = s->tm.on0;
-        s->rev = 0; /* start-up: no load current yet, nothing reverse-conducts */
+    /* start-up runs at no load unless the design starts under load: then
+     * from the first period boundary at or after its start time */
+    if (s->dir >= 0 && c->load_from < HUGE_VAL) {
+        double m = ceil((c->load_from - t) / c->T - 1e-9);
+        s->load_at = t + (m > 0 ? m : 0.0) * c->T;
     }
-    settle_switches(s);
+    fly_reset(s, 0.0, t);
+    if (s->npre > 0) {
+        s->cmd = c->precharge[0].mask;
+    } else {
+        s->cmd = s->tm.on0;
+        s->rev = s->tm.rev0; /* it counts once the load current flows */
+    }
+    settle_switches(s, 0.0);
     s->driven = 0;
 }
 
@@ -234,7 +346,12 @@ void br_sim_reset_running_at(br_sim *s, const double *x, double phase)
     for (int k = 1; k < s->n; k++)
         s->en[k] = br_sim_vdrv(s, k, x[k]) > c->st[k].drv.uvlo_fall;
     br_timing_state_at(&s->tm, phase, &s->cmd, &s->rev);
-    settle_switches(s);
+    if (s->dir >= 0) { /* a running chain carries its load */
+        s->load_at = -HUGE_VAL;
+        start_load(s);
+    }
+    fly_reset(s, phase, 0.0);
+    settle_switches(s, 0.0);
     s->hlast = c->T / 32; /* a fixed first step keeps the period map deterministic */
     phi_identity(s);
 }
@@ -269,6 +386,9 @@ void br_sim_freeze(br_sim *s, br_mask on)
     s->npre = s->pre_idx = 0;
     s->cmd = on;
     s->rev = 0; /* no load current once switching stops */
+    s->loaded = 0;
+    s->iamp = 0.0;
+    s->load_at = HUGE_VAL;
     update_targets(s, s->t);
     s->k1_valid = 0;
 }
@@ -282,6 +402,8 @@ static double next_time(const br_sim *s, double t_end)
         tn = fmin(tn, event_time(s));
     if (s->t < s->tramp_end)
         tn = fmin(tn, s->tramp_end);
+    if (!s->loaded && s->load_at > s->t)
+        tn = fmin(tn, s->load_at);
     for (int k = 0; k < s->n; k++) {
         if (s->send[k] > s->t)
             tn = fmin(tn, s->send[k]);
@@ -300,21 +422,15 @@ static void update_targets(br_sim *s, double t)
     const br_chain *c = s->c;
     for (int k = 0; k < s->n; k++) {
         const br_stage *st = &c->st[k];
-        int on = (s->cmd >> k & 1) && s->en[k];
-        double target = on ? 0.0 : ((s->rev >> k & 1) ? -st->sw.vsd : st->vblock);
-        if (target != s->starget[k]) {
-            double v = br_sim_switch_v(s, k, t);
-            /* the switch starts blocking: the link it returns recovers */
-            if (target > 0 && k + 1 < s->n)
-                recover_link(s, k + 1);
-            double dur = c->tedge * fabs(target - v) / st->vblock;
-            s->starget[k] = target;
-            s->sv0[k] = dur > 0 ? v : target;
-            s->st0[k] = t;
-            s->sslope[k] = dur > 0 ? (target - v) / dur : 0.0;
-            s->send[k] = dur > 0 ? t + dur : -HUGE_VAL;
-        }
+        double v, sl;
+        int mode = switch_target(s, k, t, &v, &sl);
+        /* the switch starts blocking: the link it returns recovers */
+        if (mode == BR_SW_BLOCK && s->smode[k] != BR_SW_BLOCK && st->vblock > 0 && k + 1 < s->n)
+            recover_link(s, k + 1);
+        s->smode[k] = mode;
+        head_for(s, k, t, v, sl);
         br_mask bit = 1ULL << k;
+        int on = mode == BR_SW_ON;
         if (on && !(s->driven & bit)) {
             double q = br_sw_qg_at(&st->sw, br_sim_vdrv(s, k, s->vr[k]));
             if (st->sw.tg > 0) {
@@ -330,29 +446,20 @@ static void update_targets(br_sim *s, double t)
 
 static void apply_pwm_events(br_sim *s, double t)
 {
+    int moved = 0;
     while (s->tm.nev > 0 && event_time(s) <= t) {
-        const br_event *e = &s->tm.ev[s->ev_idx];
-        br_mask bit = 1ULL << e->sw;
-        switch (e->kind) {
-        case BR_EV_ON:
-            s->cmd |= bit;
-            break;
-        case BR_EV_OFF:
-            s->cmd &= ~bit;
-            break;
-        case BR_EV_REV_ON:
-            s->rev |= bit;
-            break;
-        default:
-            s->rev &= ~bit;
-            break;
-        }
+        if (s->tm.npairs > 0)
+            fly_to(s, event_time(s), s->ev_idx == 0);
+        br_event_apply(&s->tm.ev[s->ev_idx], &s->cmd, &s->rev);
+        moved = 1;
         if (++s->ev_idx == s->tm.nev) {
             s->ev_idx = 0;
             s->per++;
             s->iv = 0;
         }
     }
+    if (moved && s->tm.npairs > 0)
+        br_timing_fly_slopes(&s->tm, s->cmd | s->rev, s->flysl);
 }
 
 static void apply_schedule(br_sim *s, double t)
@@ -363,17 +470,17 @@ static void apply_schedule(br_sim *s, double t)
             s->cmd = s->c->precharge[s->pre_idx].mask;
         } else {
             s->cmd = s->tm.on0;
-            s->rev = 0;
+            s->rev = s->tm.rev0;
+            fly_reset(s, 0.0, t);
         }
     }
     if (!in_precharge(s) && !s->frozen)
         apply_pwm_events(s, t);
+    if (!s->loaded && t >= s->load_at)
+        start_load(s);
     for (int k = 0; k < s->n; k++) {
-        if (s->send[k] > -HUGE_VAL && s->send[k] <= t) {
-            s->sslope[k] = 0.0;
-            s->sv0[k] = s->starget[k];
-            s->send[k] = -HUGE_VAL;
-        }
+        if (s->send[k] > -HUGE_VAL && s->send[k] <= t)
+            s->send[k] = -HUGE_VAL; /* the ramp has met its line */
         if (s->pulse_end[k] > -HUGE_VAL && s->pulse_end[k] <= t) {
             s->pulse_i[k] = 0.0;
             s->pulse_end[k] = -HUGE_VAL;
@@ -415,6 +522,17 @@ static double blocked_current(const br_sim *s, int k, double ta, double tb, doub
     return i;
 }
 
+/* Resistance switch k puts in the path of the link it returns: the
+ * bootstrap current adds to or takes from the load current the switch
+ * carries, so it sees the slope of the switch's own law: Rds(on) while on
+ * (and, for the charge a turn-off edge sweeps, while it starts to block),
+ * the reverse law's resistance while it conducts in reverse. */
+static double return_r(const br_sim *s, int k)
+{
+    const br_sw *sw = &s->c->st[k].sw;
+    return s->smode[k] == BR_SW_REV ? sw->rsd : sw->rds_on;
+}
+
 static void build_seg(br_sim *s, double ta, double tb)
 {
     br_seg *g = &s->seg;
@@ -434,7 +552,7 @@ static void build_seg(br_sim *s, double ta, double tb)
         g->d0[k] = br_sim_switch_v(s, k - 1, ta);
         double db = br_sim_switch_v(s, k - 1, tb);
         g->dslope[k] = tb > ta ? (db - g->d0[k]) / (tb - ta) : 0.0;
-        g->rpath[k] = st->r_link + c->st[k - 1].sw.rds_on;
+        g->rpath[k] = st->r_link + return_r(s, k - 1);
         double fa = left_rail(s, k, ta) - s->x[XI(k, F_VC)] - g->d0[k];
         double fb = left_rail(s, k, tb) - s->x[XI(k, F_VC)] - db;
         g->active[k] = fa > -BR_VBLOCKED || fb > -BR_VBLOCKED;
