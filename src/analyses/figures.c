@@ -144,7 +144,7 @@ static void startup_rows(const br_chain *c, const br_startup *su, br_verdict *v)
         return;
     }
     double fig = su->complete ? su->t_total : su->t_simulated;
-    consider(r, fig, c->startup_max, c->startup_max - fig, su->first_stalled, BR_DIRI_NONE);
+    consider(r, fig, c->startup_max, c->startup_max - fig, su->first_stalled, su->dir);
     r->pass = su->complete && fig <= c->startup_max;
     if (!su->complete)
         snprintf(r->note, sizeof r->note, "rail %d never starts for good", su->first_stalled);
@@ -152,7 +152,7 @@ static void startup_rows(const br_chain *c, const br_startup *su, br_verdict *v)
     for (int k = 1; k < c->n; k++) {
         double ifsm = c->st[k].diode.ifsm;
         if (ifsm > 0)
-            consider(r, su->st[k].ipeak, ifsm, ifsm - su->st[k].ipeak, k, BR_DIRI_NONE);
+            consider(r, su->st[k].ipeak, ifsm, ifsm - su->st[k].ipeak, k, su->dir);
     }
     if (!r->applies)
         snprintf(r->note, sizeof r->note, "no diode surge rating given");

@@ -1,6 +1,7 @@
 /* timing.c - the sorted events of one period. */
 #include "model/timing.h"
 
+#include <math.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -100,9 +101,10 @@ void br_timing_fly_slopes(const br_timing *tm, br_mask conducting, double *sl)
 }
 
 /* Walk the period from 0 (ripple fly0) to t: the ripple and slope there,
- * and the integral of the ripple over [0, t]. */
+ * the integral of the ripple over [0, t] and, when swing is not NULL, its
+ * extremes (a line between events has them at its ends). */
 static void fly_walk(const br_timing *tm, const double *fly0, double t, double *fly, double *sl,
-                     double *area)
+                     double *area, double (*swing)[2])
 {
     int P = tm->npairs;
     br_mask on = tm->on0, rev = tm->rev0;
@@ -118,6 +120,10 @@ static void fly_walk(const br_timing *tm, const double *fly0, double t, double *
         for (int k = 1; k < P; k++) {
             area[k] += fly[k] * dt + 0.5 * sl[k] * dt * dt;
             fly[k] += sl[k] * dt;
+            if (swing) {
+                swing[k][0] = fmin(swing[k][0], fly[k]);
+                swing[k][1] = fmax(swing[k][1], fly[k]);
+            }
         }
         at = te;
         if (i == tm->nev || tm->ev[i].t > t)
@@ -130,7 +136,22 @@ static void fly_walk(const br_timing *tm, const double *fly0, double t, double *
 void br_timing_fly_at(const br_timing *tm, double t, double *fly, double *sl)
 {
     double area[BR_MAX_FLY + 1];
-    fly_walk(tm, tm->fly_start, t, fly, sl, area);
+    fly_walk(tm, tm->fly_start, t, fly, sl, area, NULL);
+}
+
+void br_timing_fly_swing(const br_timing *tm, double *pp)
+{
+    double fly[BR_MAX_FLY + 1], sl[BR_MAX_FLY + 1], area[BR_MAX_FLY + 1];
+    double ext[BR_MAX_FLY + 1][2];
+    for (int k = 0; k <= BR_MAX_FLY; k++) {
+        ext[k][0] = ext[k][1] = tm->fly_start[k];
+        pp[k] = 0.0;
+    }
+    if (tm->npairs == 0)
+        return;
+    fly_walk(tm, tm->fly_start, tm->T, fly, sl, area, ext);
+    for (int k = 1; k < tm->npairs; k++)
+        pp[k] = ext[k][1] - ext[k][0];
 }
 
 /* The ripple's value at the period start that gives it zero mean, and
@@ -146,10 +167,10 @@ static void fly_build(const br_chain *c, br_timing *tm)
         return;
     tm->npairs = c->n / 2;
     tm->cfly = c->cfly;
-    fly_walk(tm, zero, tm->T, fly, sl, area);
+    fly_walk(tm, zero, tm->T, fly, sl, area, NULL);
     for (int k = 0; k <= tm->npairs; k++)
         tm->fly_start[k] = -area[k] / tm->T;
-    fly_walk(tm, tm->fly_start, tm->ev[0].t, fly, sl, area);
+    fly_walk(tm, tm->fly_start, tm->ev[0].t, fly, sl, area, NULL);
     memcpy(tm->fly_ev0, fly, sizeof fly);
 }
 

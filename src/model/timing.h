@@ -62,6 +62,10 @@ void br_timing_fly_slopes(const br_timing *tm, br_mask conducting, double *sl);
  * slope there (after the events at t). */
 void br_timing_fly_at(const br_timing *tm, double t, double *fly, double *sl);
 
+/* Peak-to-peak ripple of every flying capacitor over the period, V/A
+ * (pp[0] and pp[P] are 0). */
+void br_timing_fly_swing(const br_timing *tm, double *pp);
+
 /* Apply event e to the commanded and reverse-conducting masks. */
 void br_event_apply(const br_event *e, br_mask *on, br_mask *rev);
 

@@ -22,6 +22,13 @@ static int is_startup_crit(int crit)
     return crit == BR_CRIT_STARTUP || crit == BR_CRIT_INRUSH;
 }
 
+/* A row names its current direction: every steady row, and the start-up
+ * rows of a design that starts under load. */
+static int names_dir(const br_verdict_row *r, int crit)
+{
+    return r->applies && isfinite(r->figure) && (!is_startup_crit(crit) || r->dir >= 0);
+}
+
 const char *br_verdict_word(const br_verdict_row *r)
 {
     return !r->applies ? "n/a" : r->undetermined ? "UNDETERMINED" : r->pass ? "pass" : "FAIL";
@@ -56,10 +63,7 @@ static void row(br_table *t, const br_chain *c, const br_verdict_row *r)
     value_cell(t, C_MARGIN, r, r->margin);
     where(c, r, b, sizeof b);
     br_table_set(t, C_AT, "%s", b);
-    br_table_set(t, C_DIR, "%s",
-                 r->applies && !is_startup_crit(r->crit) && isfinite(r->figure)
-                     ? br_dir_short(r->dir)
-                     : "-");
+    br_table_set(t, C_DIR, "%s", names_dir(r, r->crit) ? br_dir_short(r->dir) : "-");
 }
 
 static int render_table(const br_chain *c, const br_verdict *v, unsigned mask, br_text *out)
@@ -193,7 +197,7 @@ void br_verdict_xml(br_xmlw *w, const br_chain *c, const br_verdict *v, unsigned
             br_xmlw_int(w, "stage", r->stage);
             br_xmlw_attr(w, "switch", c->st[r->stage].name);
         }
-        if (r->applies && !is_startup_crit(i) && isfinite(r->figure))
+        if (names_dir(r, i))
             br_xmlw_attr(w, "direction", br_dir_label(r->dir));
         if (r->note[0])
             br_xmlw_attr(w, "note", r->note);
