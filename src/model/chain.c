@@ -115,11 +115,14 @@ static int fcml_timing(const br_design *d, const br_chain *c, int s, br_stage *s
 static int string_timing(const br_design *d, const br_chain *c, int s, br_stage *st, br_error *err)
 {
     const br_switch_spec *w = &d->sw[s];
+    char field[BR_ID_MAX + 24];
+    snprintf(field, sizeof field, "switch %s: conducts", w->name);
     if (w->carry == BR_CARRY_UNSET && d->iload.max > 0)
-        return br_error_set(err, BR_EINPUT, d->path, w->line, "conducts",
-                            "string switch %s does not say how it carries the %g A load "
-                            "current; expected conducts=\"forward\", \"reverse\" or \"none\"",
-                            w->name, d->iload.max);
+        return br_error_set(err, BR_EINPUT, d->path, w->line, field,
+                            "missing: the design carries a %g A load current, expected "
+                            "conducts=\"forward\", \"reverse\" or \"none\" (how the switch "
+                            "carries it while on)",
+                            d->iload.max);
     st->carry[0] = st->carry[1] = w->carry == BR_CARRY_FORWARD   ? 1
                                   : w->carry == BR_CARRY_REVERSE ? -1
                                                                  : 0;
