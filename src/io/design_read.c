@@ -47,6 +47,11 @@ static int read_load(br_rd *r, xmlNode *n)
 {
     br_design *d = r->d;
     BR_TRY(br_rd_qty(r, n, "load-current", BR_KIND_CURRENT, &br_range_nonneg, &d->iload, NULL));
+    if (d->direction == BR_DIR_NONE && d->iload.max > 0)
+        return br_rd_fail(r, n, "load-current",
+                          "%g A with current=\"none\": idealised commutation carries no load "
+                          "current; expected load-current=\"0 A\" or a current direction",
+                          d->iload.max);
     BR_TRY(br_rd_value(r, n, "load-from", BR_KIND_TIME, &br_range_nonneg, &d->load_from, NULL));
     return br_rd_qty(r, n, "switch-tj", BR_KIND_TEMPERATURE, &r_ambient, &d->tj, &d->tj_given);
 }
@@ -125,6 +130,12 @@ static int read_conducts(br_rd *r, xmlNode *n, br_switch_spec *s)
     if (s->carry < 0)
         return br_rd_fail(r, n, "conducts", "got '%s', expected forward, reverse or none",
                           has > 0 ? v : "(too long)");
+    if (s->carry == BR_CARRY_UNSET && r->d->iload.max > 0)
+        return br_rd_fail(r, n, "conducts",
+                          "missing: the design carries a %g A load current, expected "
+                          "conducts=\"forward\", \"reverse\" or \"none\" (how the switch "
+                          "carries it while on)",
+                          r->d->iload.max);
     return BR_OK;
 }
 
