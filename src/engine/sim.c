@@ -261,11 +261,26 @@ static void fly_reset(br_sim *s, double ph, double t)
         br_timing_fly_at(&s->tm, ph, s->fly, s->flysl);
 }
 
-/* The load current starts: for a DC load at the design's magnitude. */
+/* The load current starts: for a DC load at the design's magnitude.  The
+ * flying capacitors' ripple at that current must leave every switch a
+ * blocking voltage; beyond, the cells collapse and the model does not
+ * apply (br_sim_run_until refuses to go on). */
 static void start_load(br_sim *s)
 {
     s->loaded = 1;
     s->iamp = s->c->iload;
+    s->cell_low = br_timing_cell_min(&s->tm, s->c, s->isgn * s->iamp, &s->cell_stage);
+}
+
+static int cells_collapse(const br_sim *s, br_error *err)
+{
+    const br_chain *c = s->c;
+    const char *name = c->st[s->cell_stage].name;
+    return br_error_set(err, BR_ENUMERIC, c->design ? c->design->path : NULL, 0, "fcml: cfly",
+                        "the flying capacitors' ripple at %g A takes the voltage %s blocks "
+                        "down to %.3g V of its %.4g V: the cells cannot hold and the model does "
+                        "not apply; expected a larger cfly (or a higher fsw)",
+                        s->iamp, name, s->cell_low, c->st[s->cell_stage].vblock);
 }
 
 static void clear_state(br_sim *s)
@@ -282,6 +297,8 @@ static void clear_state(br_sim *s)
     s->loaded = 0;
     s->iamp = 0.0;
     s->load_at = HUGE_VAL;
+    s->cell_low = HUGE_VAL;
+    s->cell_stage = -1;
     s->isgn = s->dir == BR_DIRI_UP ? 1.0 : -1.0;
     s->per = 0;
     s->ev_idx = 0;
@@ -760,6 +777,8 @@ static void settle_uvlo(br_sim *s, double tb)
 int br_sim_run_until(br_sim *s, double t_end, br_error *err)
 {
     while (s->t < t_end) {
+        if (s->loaded && !(s->cell_low > 0.0))
+            return cells_collapse(s, err);
         double tb = next_time(s, t_end);
         settle_uvlo(s, tb);
         if (br_sim_edge_start(s)) {

@@ -107,6 +107,9 @@ struct br_sim {
      * unless loaded), entering the switch node when isgn > 0 (step-up) */
     int loaded;
     double load_at, iamp, isgn;
+    double cell_low; /* lowest blocking voltage the ripple leaves a switch
+                        at the load current in force, V (HUGE_VAL: none) */
+    int cell_stage;  /* the switch it is at */
     /* flying-capacitor ripple per ampere (br_timing): fly[k] at fly_t,
      * moving at flysl[k] until the next switching event */
     double fly[BR_MAX_FLY + 1], flysl[BR_MAX_FLY + 1], fly_t;

@@ -100,11 +100,29 @@ void br_timing_fly_slopes(const br_timing *tm, br_mask conducting, double *sl)
     }
 }
 
+/* Extremes over a walk, per ampere: of each capacitor's ripple and of
+ * each cell's, fly[j-1] - fly[j] (a line between events has them at its
+ * ends). */
+typedef struct fly_ext {
+    double cap[BR_MAX_FLY + 1][2], cell[BR_MAX_FLY + 1][2];
+} fly_ext;
+
+static void ext_take(fly_ext *x, const double *fly, int P)
+{
+    for (int k = 1; k <= P; k++) {
+        double c = fly[k - 1] - fly[k];
+        x->cap[k][0] = fmin(x->cap[k][0], fly[k]);
+        x->cap[k][1] = fmax(x->cap[k][1], fly[k]);
+        x->cell[k][0] = fmin(x->cell[k][0], c);
+        x->cell[k][1] = fmax(x->cell[k][1], c);
+    }
+}
+
 /* Walk the period from 0 (ripple fly0) to t: the ripple and slope there,
- * the integral of the ripple over [0, t] and, when swing is not NULL, its
- * extremes (a line between events has them at its ends). */
+ * the integral of the ripple over [0, t] and, when ext is not NULL, the
+ * extremes on the way. */
 static void fly_walk(const br_timing *tm, const double *fly0, double t, double *fly, double *sl,
-                     double *area, double (*swing)[2])
+                     double *area, fly_ext *ext)
 {
     int P = tm->npairs;
     br_mask on = tm->on0, rev = tm->rev0;
@@ -120,11 +138,9 @@ static void fly_walk(const br_timing *tm, const double *fly0, double t, double *
         for (int k = 1; k < P; k++) {
             area[k] += fly[k] * dt + 0.5 * sl[k] * dt * dt;
             fly[k] += sl[k] * dt;
-            if (swing) {
-                swing[k][0] = fmin(swing[k][0], fly[k]);
-                swing[k][1] = fmax(swing[k][1], fly[k]);
-            }
         }
+        if (ext)
+            ext_take(ext, fly, P);
         at = te;
         if (i == tm->nev || tm->ev[i].t > t)
             break;
@@ -141,17 +157,22 @@ void br_timing_fly_at(const br_timing *tm, double t, double *fly, double *sl)
 
 void br_timing_fly_swing(const br_timing *tm, double *pp)
 {
-    double fly[BR_MAX_FLY + 1], sl[BR_MAX_FLY + 1], area[BR_MAX_FLY + 1];
-    double ext[BR_MAX_FLY + 1][2];
-    for (int k = 0; k <= BR_MAX_FLY; k++) {
-        ext[k][0] = ext[k][1] = tm->fly_start[k];
-        pp[k] = 0.0;
+    memcpy(pp, tm->fly_pp, sizeof tm->fly_pp);
+}
+
+double br_timing_cell_min(const br_timing *tm, const br_chain *c, double i, int *stage)
+{
+    double low = HUGE_VAL;
+    *stage = -1;
+    for (int k = 0; k < c->n && tm->npairs > 0; k++) {
+        int j = c->st[k].pair;
+        double v = c->st[k].vblock + fmin(i * tm->cell_lo[j], i * tm->cell_hi[j]);
+        if (v < low) {
+            low = v;
+            *stage = k;
+        }
     }
-    if (tm->npairs == 0)
-        return;
-    fly_walk(tm, tm->fly_start, tm->T, fly, sl, area, ext);
-    for (int k = 1; k < tm->npairs; k++)
-        pp[k] = ext[k][1] - ext[k][0];
+    return low;
 }
 
 /* The ripple's value at the period start that gives it zero mean, and
@@ -163,6 +184,9 @@ static void fly_build(const br_chain *c, br_timing *tm)
     tm->npairs = 0;
     memset(tm->fly_start, 0, sizeof tm->fly_start);
     memset(tm->fly_ev0, 0, sizeof tm->fly_ev0);
+    memset(tm->fly_pp, 0, sizeof tm->fly_pp);
+    memset(tm->cell_lo, 0, sizeof tm->cell_lo);
+    memset(tm->cell_hi, 0, sizeof tm->cell_hi);
     if (!(c->cfly > 0) || !c->design || c->design->topology != BR_TOPO_FCML || tm->nev == 0)
         return;
     tm->npairs = c->n / 2;
@@ -172,6 +196,18 @@ static void fly_build(const br_chain *c, br_timing *tm)
         tm->fly_start[k] = -area[k] / tm->T;
     fly_walk(tm, tm->fly_start, tm->ev[0].t, fly, sl, area, NULL);
     memcpy(tm->fly_ev0, fly, sizeof fly);
+    fly_ext x;
+    for (int k = 0; k <= BR_MAX_FLY; k++) {
+        x.cap[k][0] = x.cell[k][0] = HUGE_VAL;
+        x.cap[k][1] = x.cell[k][1] = -HUGE_VAL;
+    }
+    ext_take(&x, tm->fly_start, tm->npairs);
+    fly_walk(tm, tm->fly_start, tm->T, fly, sl, area, &x);
+    for (int k = 1; k <= tm->npairs; k++) {
+        tm->fly_pp[k] = k < tm->npairs ? x.cap[k][1] - x.cap[k][0] : 0.0;
+        tm->cell_lo[k] = x.cell[k][0];
+        tm->cell_hi[k] = x.cell[k][1];
+    }
 }
 
 void br_timing_build(const br_chain *c, int dir, br_timing *tm)

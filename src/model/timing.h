@@ -46,6 +46,10 @@ typedef struct br_timing {
     double fly_start[BR_MAX_FLY + 1]; /* ripple of capacitor k at the period
                                          start, V/A; [0] and [P] stay 0 */
     double fly_ev0[BR_MAX_FLY + 1];   /* the same at the first event */
+    double fly_pp[BR_MAX_FLY + 1];    /* its peak-to-peak swing over the period */
+    double cell_lo[BR_MAX_FLY + 1];   /* extremes of cell j's ripple, fly[j-1] -
+                                         fly[j], over the period (j = 1..P), V/A */
+    double cell_hi[BR_MAX_FLY + 1];
 } br_timing;
 
 /* The events of one period for direction dir (a br_dir_index). */
@@ -65,6 +69,12 @@ void br_timing_fly_at(const br_timing *tm, double t, double *fly, double *sl);
 /* Peak-to-peak ripple of every flying capacitor over the period, V/A
  * (pp[0] and pp[P] are 0). */
 void br_timing_fly_swing(const br_timing *tm, double *pp);
+
+/* The lowest voltage any switch of c blocks over the period with the
+ * ripple of load current i (A, step-up positive), and its stage in
+ * *stage (-1 and HUGE_VAL without ripple).  Zero or below: the flying
+ * capacitors cannot hold their cells, and the model does not apply. */
+double br_timing_cell_min(const br_timing *tm, const br_chain *c, double i, int *stage);
 
 /* Apply event e to the commanded and reverse-conducting masks. */
 void br_event_apply(const br_event *e, br_mask *on, br_mask *rev);

@@ -2,6 +2,7 @@
  * table and the design-rule findings. */
 #include "report/check_report.h"
 
+#include "analyses/figures.h"
 #include "core/error.h"
 #include "model/timing.h"
 #include "report/caution.h"
@@ -85,25 +86,36 @@ static int render_load(const br_chain *c, br_text *out)
     return rc;
 }
 
-/* The flying capacitors and their ripple at the load current. */
+/* The flying capacitors, their ripple at the load current and the lowest
+ * voltage a switch then blocks, over the directions analysed. */
 static int render_fly(const br_chain *c, br_text *out)
 {
-    char a[32], b[32];
+    char a[32], b[32], v[32];
     if (!(c->cfly > 0))
         return c->design && c->design->topology == BR_TOPO_FCML
                    ? br_text_put(out, "  flying caps       ideal (no ripple)\n")
                    : BR_OK;
     br_timing tm;
-    double pp[BR_MAX_FLY + 1], worst = 0.0;
-    int dirs[2] = {BR_DIRI_DOWN, BR_DIRI_UP};
-    for (int i = 0; i < 2; i++) {
+    double pp[BR_MAX_FLY + 1], worst = 0.0, low = HUGE_VAL;
+    int dirs[2], nd = br_design_directions(c, dirs), at = -1;
+    for (int i = 0; i < nd && dirs[i] >= 0; i++) {
+        int k;
         br_timing_build(c, dirs[i], &tm);
         br_timing_fly_swing(&tm, pp);
-        for (int k = 1; k < tm.npairs; k++)
-            worst = fmax(worst, pp[k] * c->iload);
+        for (int j = 1; j < tm.npairs; j++)
+            worst = fmax(worst, pp[j] * c->iload);
+        double lv = br_timing_cell_min(&tm, c, (dirs[i] == BR_DIRI_UP ? 1.0 : -1.0) * c->iload, &k);
+        if (lv < low) {
+            low = lv;
+            at = k;
+        }
     }
-    return br_text_printf(out, "  flying caps       %s each, ripple up to %s peak to peak\n",
-                          si(a, sizeof a, c->cfly, "F"), si(b, sizeof b, worst, "V"));
+    int rc = br_text_printf(out, "  flying caps       %s each, ripple up to %s peak to peak",
+                            si(a, sizeof a, c->cfly, "F"), si(b, sizeof b, worst, "V"));
+    if (at >= 0)
+        rc |= br_text_printf(out, ", lowest blocking voltage %s (%s)", si(v, sizeof v, low, "V"),
+                             c->st[at].name);
+    return rc | br_text_put(out, "\n");
 }
 
 static int render_header(const br_chain *c, br_text *out)
@@ -382,6 +394,12 @@ int br_rule_describe(const br_chain *c, const br_rule_hit *h, br_text *out)
         return describe_diode(c, h, out);
     case BR_RULE_SUPPLY_SHORT:
         return describe_supply(c, h, out);
+    case BR_RULE_FLY_COLLAPSE:
+        return br_text_printf(out,
+                              "switch %s: the flying capacitors' ripple at %.4g A takes the "
+                              "voltage it blocks down to %.3g V of its %.4g V; THE LEG CANNOT "
+                              "WORK: its cells collapse (expected a larger cfly)",
+                              h->part, h->current, h->figure, h->limit);
     case BR_RULE_NO_WINDOW:
         return br_text_printf(out,
                               "link %d (rail %s): its return switch %s is never on, so the link "

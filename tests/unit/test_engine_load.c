@@ -2,6 +2,7 @@
  * its temperature law, reverse conduction with current, the flying
  * capacitors' ripple, the rails' shift, and when the load current flows.
  * Each check names its source beside it. */
+#include "analyses/rules.h"
 #include "analyses/startup.h"
 #include "analyses/steady.h"
 #include "testdesign.h"
@@ -278,6 +279,36 @@ static void test_ripple_reaches_the_diode(void)
     BR_ASSERT_NEAR(peak[1] - peak[0], 25.0, 0.05);
 }
 
+/* The same leg with 0.1 uF: the triangle is 25 V/A peak, 250 V at 10 A,
+ * more than the 200 V a cell holds: the cells collapse (the lowest
+ * blocking voltage 200 - 250 = -50 V).  The design rules say so, and the
+ * simulator refuses to run such a period rather than report its rails. */
+static void test_ripple_collapse(void)
+{
+    br_design *d = leg3(BR_DIR_STEP_UP, 10.0, 0.0, 0.0);
+    d->cfly = br_qty_fixed(0.1e-6);
+    br_chain *c = build(d);
+    br_rule_list rules;
+    br_error err;
+    CU_ASSERT_EQUAL(br_rules_check(c, &rules, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(rules.n, 1);
+    CU_ASSERT_EQUAL(rules.hit[0].kind, BR_RULE_FLY_COLLAPSE);
+    CU_ASSERT_TRUE(rules.hit[0].fatal);
+    BR_ASSERT_NEAR(rules.hit[0].figure, -50.0, 1e-6);
+    br_sim *s = running(c, BR_DIRI_UP, 11.0, 10.0, 9.0);
+    CU_ASSERT_EQUAL(br_sim_run_until(s, 1e-6, &err), BR_ENUMERIC);
+    CU_ASSERT_STRING_EQUAL(err.field, "fcml: cfly");
+    br_sim_free(s);
+    br_chain_free(c);
+    /* at 1 uF (175 V left) neither */
+    d->cfly = br_qty_fixed(1e-6);
+    c = build(d);
+    CU_ASSERT_EQUAL(br_rules_check(c, &rules, &err), BR_OK);
+    CU_ASSERT_EQUAL(rules.n, 0);
+    br_chain_free(c);
+    br_design_free(d);
+}
+
 /* Zero mean over the period, and a period that closes, with dead times
  * and an uneven duty (4 levels, D = 0.3, 50 ns). */
 static void test_ripple_zero_mean(void)
@@ -429,6 +460,7 @@ int main(void)
         {"flying-capacitor ripple: the cell relation", test_ripple_cell_relation},
         {"flying-capacitor ripple reaches the diode", test_ripple_reaches_the_diode},
         {"flying-capacitor ripple: zero mean, closed period", test_ripple_zero_mean},
+        {"flying-capacitor ripple: cells that collapse", test_ripple_collapse},
         {"rail shift by the on-state drops, by hand", test_rail_shift_by_hand},
         {"the load starts at a period boundary", test_load_starts_at_a_boundary},
         {"start-up under load", test_startup_under_load},
