@@ -181,20 +181,31 @@ static double block_line(const br_sim *s, int k, double t, double *sl)
 }
 
 /* The mode of switch k now and the line its voltage heads for at t. */
-static int switch_target(const br_sim *s, int k, double t, double *v, double *sl)
+static inline int switch_target(const br_sim *s, int k, double t, double *v, double *sl)
 {
-    const br_stage *st = &s->c->st[k];
     *sl = 0.0;
     if ((s->cmd >> k & 1) && s->en[k]) {
-        *v = br_sw_on_drop(st, s->dir, s->iamp);
+        *v = s->von[k];
         return BR_SW_ON;
     }
     if (s->loaded && (s->rev >> k & 1)) {
-        *v = -br_sw_rev_drop(&st->sw, s->iamp);
+        *v = s->vrv[k];
         return BR_SW_REV;
     }
     *v = block_line(s, k, t, sl);
     return BR_SW_BLOCK;
+}
+
+/* Each switch's voltage on and in reverse at the load current in force
+ * (kept: they change only with the current). */
+static void load_drops(br_sim *s)
+{
+    for (int k = 0; k < s->n; k++) {
+        const br_stage *st = &s->c->st[k];
+        s->von[k] = br_sw_on_drop(st, s->dir, s->iamp);
+        s->vrv[k] = -br_sw_rev_drop(&st->sw, s->iamp);
+    }
+    s->redo = ~0ULL >> (64 - s->n);
 }
 
 /* Two lines closer than this at an update are the same line (the ripple
@@ -240,6 +251,9 @@ static void settle_switches(br_sim *s, double t)
         if (s->smode[k] == BR_SW_ON)
             s->driven |= 1ULL << k;
     }
+    s->on_prev = s->cmd & s->enm;
+    s->rv_prev = s->loaded ? s->rev & ~s->on_prev : 0;
+    s->redo = 0;
 }
 
 /* The ripple carried to time t (an event time); at the period's first
@@ -269,6 +283,7 @@ static void start_load(br_sim *s)
 {
     s->loaded = 1;
     s->iamp = s->c->iload;
+    load_drops(s);
     s->cell_low = br_timing_cell_min(&s->tm, s->c, s->isgn * s->iamp, &s->cell_stage);
 }
 
@@ -289,6 +304,7 @@ static void clear_state(br_sim *s)
      * x is never touched; br_sim_create zeroed it) */
     memset(s->x, 0, sizeof(double) * (size_t)(s->phi0 + s->n * s->n));
     memset(s->en, 0, sizeof s->en);
+    s->enm = 0;
     memset(s->held, 0, sizeof s->held);
     memset(s->il, 0, sizeof s->il);
     memset(s->vr, 0, sizeof s->vr);
@@ -296,6 +312,7 @@ static void clear_state(br_sim *s)
     s->cmd = s->rev = s->driven = 0;
     s->loaded = 0;
     s->iamp = 0.0;
+    load_drops(s);
     s->load_at = HUGE_VAL;
     s->cell_low = HUGE_VAL;
     s->cell_stage = -1;
@@ -362,6 +379,8 @@ void br_sim_reset_running_at(br_sim *s, const double *x, double phase)
     s->en[0] = (br_sim_bypass(s) ? x[0] : c->vsupply) > c->st[0].drv.uvlo_fall;
     for (int k = 1; k < s->n; k++)
         s->en[k] = br_sim_vdrv(s, k, x[k]) > c->st[k].drv.uvlo_fall;
+    for (int k = 0; k < s->n; k++)
+        s->enm |= (br_mask)(s->en[k] != 0) << k;
     br_timing_state_at(&s->tm, phase, &s->cmd, &s->rev);
     if (s->dir >= 0) { /* a running chain carries its load */
         s->load_at = -HUGE_VAL;
@@ -405,6 +424,7 @@ void br_sim_freeze(br_sim *s, br_mask on)
     s->rev = 0; /* no load current once switching stops */
     s->loaded = 0;
     s->iamp = 0.0;
+    load_drops(s);
     s->load_at = HUGE_VAL;
     update_targets(s, s->t);
     s->k1_valid = 0;
@@ -432,33 +452,50 @@ static double next_time(const br_sim *s, double t_end)
 
 static void recover_link(br_sim *s, int k);
 
-/* Bring every switch toward its new target; start gate pulses of the
- * switches that are now driven on. */
+/* Bring switch k toward its target at t. */
+static void update_switch(br_sim *s, int k, double t)
+{
+    double v, sl;
+    int mode = switch_target(s, k, t, &v, &sl);
+    /* the switch starts blocking: the link it returns recovers */
+    if (mode == BR_SW_BLOCK && s->smode[k] != BR_SW_BLOCK && s->c->st[k].vblock > 0 && k + 1 < s->n)
+        recover_link(s, k + 1);
+    /* a switch that keeps its constant target has nothing to do */
+    if (mode != s->smode[k] || t < s->send[k] || sl != 0.0 || s->tsl[k] != 0.0 || v != s->tv[k])
+        head_for(s, k, t, v, sl);
+    s->smode[k] = mode;
+}
+
+/* A gate pulse for switch k, driven on now. */
+static void gate_pulse(br_sim *s, int k, double t)
+{
+    const br_sw *sw = &s->c->st[k].sw;
+    double q = br_sw_qg_at(sw, br_sim_vdrv(s, k, s->vr[k]));
+    if (sw->tg > 0) {
+        s->pulse_i[k] = q / sw->tg;
+        s->pulse_end[k] = t + sw->tg;
+    } else if (k > 0) {
+        s->x[XI(k, F_VC)] -= q / br_sim_cap(s, k, s->x[XI(k, F_VC)]);
+    }
+}
+
+/* Bring the switches whose state changed toward their new targets (with
+ * the ripple every switch: the lines turn at every event); start gate
+ * pulses of the switches that are now driven on. */
 static void update_targets(br_sim *s, double t)
 {
-    const br_chain *c = s->c;
-    for (int k = 0; k < s->n; k++) {
-        const br_stage *st = &c->st[k];
-        double v, sl;
-        int mode = switch_target(s, k, t, &v, &sl);
-        /* the switch starts blocking: the link it returns recovers */
-        if (mode == BR_SW_BLOCK && s->smode[k] != BR_SW_BLOCK && st->vblock > 0 && k + 1 < s->n)
-            recover_link(s, k + 1);
-        s->smode[k] = mode;
-        head_for(s, k, t, v, sl);
-        br_mask bit = 1ULL << k;
-        int on = mode == BR_SW_ON;
-        if (on && !(s->driven & bit)) {
-            double q = br_sw_qg_at(&st->sw, br_sim_vdrv(s, k, s->vr[k]));
-            if (st->sw.tg > 0) {
-                s->pulse_i[k] = q / st->sw.tg;
-                s->pulse_end[k] = t + st->sw.tg;
-            } else if (k > 0) {
-                s->x[XI(k, F_VC)] -= q / br_sim_cap(s, k, s->x[XI(k, F_VC)]);
-            }
-        }
-        s->driven = on ? (s->driven | bit) : (s->driven & ~bit);
-    }
+    br_mask on = s->cmd & s->enm, rv = s->loaded ? s->rev & ~on : 0;
+    br_mask todo = (on ^ s->on_prev) | (rv ^ s->rv_prev) | s->redo;
+    if (s->tm.npairs > 0 && s->iamp != 0.0)
+        todo = ~0ULL >> (64 - s->n);
+    for (; todo; todo &= todo - 1)
+        update_switch(s, __builtin_ctzll(todo), t);
+    for (br_mask fresh = on & ~s->driven; fresh; fresh &= fresh - 1)
+        gate_pulse(s, __builtin_ctzll(fresh), t);
+    s->driven = on;
+    s->on_prev = on;
+    s->rv_prev = rv;
+    s->redo = 0;
 }
 
 static void apply_pwm_events(br_sim *s, double t)
@@ -735,6 +772,7 @@ static int closed_form(br_sim *s, double tb, double *te)
 static void toggle(br_sim *s, int k)
 {
     s->en[k] = !s->en[k];
+    s->enm ^= 1ULL << k;
     if (s->obs.uvlo) {
         br_uvlo_event e = {s->t, k, s->en[k], br_sim_vdrv(s, k, s->vr[k])};
         s->obs.uvlo(s->obs.ctx, &e);

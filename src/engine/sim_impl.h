@@ -95,21 +95,28 @@ struct br_sim {
     /* time and state */
     double t;
     double x[X_SIZE];
-    int en[BR_N];     /* driver enabled (out of UVLO) */
-    int held[BR_N];   /* held off after chattering, until the next edge */
-    br_mask cmd, rev; /* commanded on; reverse conducting */
-    br_mask driven;   /* commanded on with the driver running */
-    double tramp_end; /* supply still ramping before this time, s */
-    int toggles;      /* UVLO toggles at the current instant */
-    int frozen;       /* switching stopped (br_sim_freeze) */
+    int en[BR_N];             /* driver enabled (out of UVLO) */
+    int held[BR_N];           /* held off after chattering, until the next edge */
+    br_mask cmd, rev;         /* commanded on; reverse conducting */
+    br_mask driven;           /* commanded on with the driver running */
+    br_mask enm;              /* drivers enabled (en as a mask) */
+    br_mask on_prev, rv_prev; /* switches on, and conducting the load
+                                 current in reverse, at the last update */
+    br_mask redo;             /* switches whose target must be found again
+                                 at the next update whatever their state */
+    double tramp_end;         /* supply still ramping before this time, s */
+    int toggles;              /* UVLO toggles at the current instant */
+    int frozen;               /* switching stopped (br_sim_freeze) */
     /* the load current: it flows once loaded, from load_at (absolute, s;
      * HUGE_VAL: never), at magnitude iamp in the period in progress (A, 0
      * unless loaded), entering the switch node when isgn > 0 (step-up) */
     int loaded;
     double load_at, iamp, isgn;
-    double cell_low; /* lowest blocking voltage the ripple leaves a switch
-                        at the load current in force, V (HUGE_VAL: none) */
-    int cell_stage;  /* the switch it is at */
+    double von[BR_N]; /* switch k's voltage while on at iamp, V */
+    double vrv[BR_N]; /* and while conducting it in reverse off, V */
+    double cell_low;  /* lowest blocking voltage the ripple leaves a switch
+                         at the load current in force, V (HUGE_VAL: none) */
+    int cell_stage;   /* the switch it is at */
     /* flying-capacitor ripple per ampere (br_timing): fly[k] at fly_t,
      * moving at flysl[k] until the next switching event */
     double fly[BR_MAX_FLY + 1], flysl[BR_MAX_FLY + 1], fly_t;
