@@ -275,7 +275,9 @@ static void fly_reset(br_sim *s, double ph, double t)
         br_timing_fly_at(&s->tm, ph, s->fly, s->flysl);
 }
 
-/* The load current starts: for a DC load at the design's magnitude.  The
+/* The load current starts: for a DC load at the design's magnitude, and
+ * it stays (a load that changes from period to period would set iamp and
+ * isgn, and the drops with them, at each period boundary).  The
  * flying capacitors' ripple at that current must leave every switch a
  * blocking voltage; beyond, the cells collapse and the model does not
  * apply (br_sim_run_until refuses to go on). */
