@@ -193,7 +193,7 @@ static void never_starts(const br_chain *c, const br_startup *su, br_verdict_row
     r->limit = c->startup_max;
     r->margin = -HUGE_VAL;
     r->stage = k;
-    r->dir = BR_DIRI_NONE;
+    r->dir = su->dir;
     if (!isfinite(vneed))
         snprintf(r->note, sizeof r->note,
                  "rail %d (%s) never starts: its regulator's output is below UVLO rising", k,
@@ -225,7 +225,7 @@ static void dropout_row(const br_chain *c, const br_startup *su, br_verdict_row 
     r->limit = limit;
     r->margin = (double)limit - n;
     r->stage = n > 0 ? most : -1;
-    r->dir = BR_DIRI_NONE;
+    r->dir = su->dir;
     r->pass = !stated || n <= limit;
     r->warn = !stated && n > limit;
     if (n == 0)
@@ -247,7 +247,7 @@ static void startup_rows(const br_chain *c, const br_startup *su, br_verdict *v)
     }
     if (su->complete) {
         consider(r, su->t_total, c->startup_max, c->startup_max - su->t_total, last_started(su),
-                 BR_DIRI_NONE);
+                 su->dir);
         r->pass = su->t_total <= c->startup_max;
     } else {
         never_starts(c, su, r);
@@ -257,7 +257,7 @@ static void startup_rows(const br_chain *c, const br_startup *su, br_verdict *v)
     for (int k = 1; k < c->n; k++) {
         double ifsm = c->st[k].diode.ifsm;
         if (ifsm > 0)
-            consider(r, su->st[k].ipeak, ifsm, ifsm - su->st[k].ipeak, k, BR_DIRI_NONE);
+            consider(r, su->st[k].ipeak, ifsm, ifsm - su->st[k].ipeak, k, su->dir);
     }
     if (!r->applies)
         snprintf(r->note, sizeof r->note, "no diode surge rating given");

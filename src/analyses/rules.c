@@ -1,7 +1,9 @@
 /* rules.c - design rules on the nominal chain, without simulation. */
 #include "analyses/rules.h"
 
+#include "analyses/figures.h"
 #include "engine/diode.h"
+#include "model/timing.h"
 
 #include <math.h>
 
@@ -133,6 +135,30 @@ static void supply_rule(const br_chain *c, br_rule_list *out)
     }
 }
 
+/* With a finite flying capacitance the cells' voltages ripple; at the load
+ * current in either direction analysed each switch must still block a
+ * positive voltage, or the cells collapse (and the model with them). */
+static void ripple_rule(const br_chain *c, br_rule_list *out)
+{
+    int dirs[2], nd = br_design_directions(c, dirs), worst = -1;
+    double low = HUGE_VAL;
+    for (int i = 0; i < nd && dirs[i] >= 0; i++) {
+        br_timing tm;
+        int k;
+        br_timing_build(c, dirs[i], &tm);
+        double v = br_timing_cell_min(&tm, c, (dirs[i] == BR_DIRI_UP ? 1.0 : -1.0) * c->iload, &k);
+        if (v < low) {
+            low = v;
+            worst = k;
+        }
+    }
+    if (worst < 0 || low > 0.0)
+        return;
+    add(out, BR_RULE_FLY_COLLAPSE, worst, c->st[worst].name, low, c->st[worst].vblock);
+    out->hit[out->n - 1].current = c->iload;
+    out->hit[out->n - 1].fatal = 1;
+}
+
 int br_rules_check(const br_chain *c, br_rule_list *out, br_error *err)
 {
     (void)err; /* every rule is a comparison of resolved numbers */
@@ -150,6 +176,7 @@ int br_rules_check(const br_chain *c, br_rule_list *out, br_error *err)
         gate_rules(c, k, out);
     }
     supply_rule(c, out);
+    ripple_rule(c, out);
     return BR_OK;
 }
 
@@ -157,7 +184,7 @@ const char *br_rule_name(int kind)
 {
     static const char *const names[BR_RULE_KINDS] = {
         "diode-rating",   "diode-derating",   "diode-unrated",  "uvlo-hysteresis", "supply-short",
-        "aux-below-uvlo", "gate-unprotected", "aux-above-gate", "no-window",
+        "aux-below-uvlo", "gate-unprotected", "aux-above-gate", "no-window",       "fly-collapse",
     };
     return kind >= 0 && kind < BR_RULE_KINDS ? names[kind] : "unknown";
 }

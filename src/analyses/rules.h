@@ -19,6 +19,8 @@ typedef enum br_rule_kind {
     BR_RULE_GATE_UNPROTECTED, /* vgs_max < supply, no regulator or clamp */
     BR_RULE_AUX_ABOVE_GATE,   /* regulator or clamp output above vgs_max */
     BR_RULE_NO_WINDOW,        /* the return switch is never on: the link never charges */
+    BR_RULE_FLY_COLLAPSE,     /* the flying capacitors' ripple at the load current
+                                 leaves a switch no blocking voltage */
     BR_RULE_KINDS
 } br_rule_kind;
 
@@ -29,7 +31,8 @@ typedef struct br_rule_hit {
     const char *part; /* id of the part concerned (points into the design) */
     double figure;    /* the value that breaks the limit, SI (V) */
     double limit;     /* the limit it breaks, SI (V) */
-    double current;   /* SUPPLY_SHORT: estimated link current used, A */
+    double current;   /* SUPPLY_SHORT: estimated link current used, A;
+                         FLY_COLLAPSE: the load current, A */
     int fatal;        /* 1 when the chain cannot work at all */
 } br_rule_hit;
 

@@ -21,6 +21,9 @@ typedef struct br_startup_stage {
 
 typedef struct br_startup {
     int n;              /* stages */
+    int dir;            /* br_dir_index the start-up ran in: BR_DIRI_NONE at no
+                           load; a design that starts under load runs every
+                           direction it carries and keeps the worse */
     int complete;       /* every driver running for good */
     double t_total;     /* start-up time: the last final start, s */
     double t_simulated; /* s */
@@ -47,7 +50,8 @@ typedef struct br_startup_opts {
  * next to simulating them, often enough to stop within a blink. */
 #define BR_STARTUP_PROGRESS_EVERY 64
 
-/* Simulate the cold start of c.  BR_ECANCEL when o->progress asks to stop
+/* Simulate the cold start of c (at no load, unless c starts under load:
+ * see br_startup.dir).  BR_ECANCEL when o->progress asks to stop
  * (out then holds nothing meaningful).  A numerical failure of the
  * integrator is not an error here: it is recorded in out->failed and
  * out->why (so that the verdict can call the start-up undetermined) and

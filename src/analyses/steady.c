@@ -396,8 +396,10 @@ done:
 }
 
 /* A start close enough for Newton: each rail one diode drop (at the
- * charge it must pass on) below the rail beneath. */
-static void estimate(const br_chain *c, double *x)
+ * charge it must pass on) below the rail beneath, and the on-state drop of
+ * the return switch at the load current (which takes from the link's drive
+ * or, carried in reverse, adds to it). */
+static void estimate(const br_chain *c, int dir, double *x)
 {
     memset(x, 0, sizeof(double) * NX);
     double iabove = 0.0;
@@ -412,7 +414,8 @@ static void estimate(const br_chain *c, double *x)
     for (int k = 1; k < c->n; k++) {
         const br_diode *d = &c->st[k].diode;
         double ipk = 2.0 * ilink[k] + 1e-6; /* windows are about half the period */
-        v -= br_diode_vjunction(d, ipk) + ipk * (d->rs + c->st[k].r_link);
+        v -= br_diode_vjunction(d, ipk) + ipk * (d->rs + c->st[k].r_link) +
+             br_sw_on_drop(&c->st[k - 1], dir, c->iload);
         x[k] = v;
     }
 }
@@ -501,7 +504,7 @@ int br_steady_solve(const br_chain *c, int dir, const br_steady_opts *o, br_stea
     if (o->guess)
         memcpy(x, o->guess, sizeof x);
     else
-        estimate(c, x);
+        estimate(c, dir, x);
     memcpy(sh.base, x, sizeof x);
     map_unknowns(&sh);
     for (int i = 0; i < sh.m; i++)

@@ -147,24 +147,157 @@ void br_sim_sample_stress(const br_sim *s, double t, const double *vrail, int n,
 
 double br_sim_switch_v(const br_sim *s, int k, double t)
 {
-    if (s->sslope[k] != 0.0 && t < s->send[k])
+    if (t < s->send[k])
         return s->sv0[k] + s->sslope[k] * (t - s->st0[k]);
-    return s->starget[k];
+    return s->tv[k] + s->tsl[k] * (t - s->tt0[k]);
+}
+
+/* ---- switch voltages -----------------------------------------------------
+ * Each switch's voltage follows its own state alone: on, its on-state drop
+ * at the load current (+I Rds(on) carrying it forward, -I Rds(on) in
+ * reverse); off and conducting the load current in reverse in a dead
+ * time, minus its reverse drop; otherwise its blocking voltage, which the
+ * flying capacitors' ripple moves linearly between switching events.  A
+ * change of target ramps at the slope Vblock / tedge. */
+
+/* Ripple of flying capacitor k at t, V/A. */
+static double fly_at(const br_sim *s, int k, double t)
+{
+    return s->fly[k] + s->flysl[k] * (t - s->fly_t);
+}
+
+/* Blocking voltage of switch k at t and its slope, V and V/s. */
+static double block_line(const br_sim *s, int k, double t, double *sl)
+{
+    const br_stage *st = &s->c->st[k];
+    *sl = 0.0;
+    if (s->tm.npairs == 0 || s->iamp == 0.0)
+        return st->vblock;
+    /* cell j lies between flying capacitors j-1 and j */
+    int j = st->pair;
+    double i = s->isgn * s->iamp;
+    *sl = i * (s->flysl[j - 1] - s->flysl[j]);
+    return st->vblock + i * (fly_at(s, j - 1, t) - fly_at(s, j, t));
+}
+
+/* The mode of switch k now and the line its voltage heads for at t. */
+static inline int switch_target(const br_sim *s, int k, double t, double *v, double *sl)
+{
+    *sl = 0.0;
+    if ((s->cmd >> k & 1) && s->en[k]) {
+        *v = s->von[k];
+        return BR_SW_ON;
+    }
+    if (s->loaded && (s->rev >> k & 1)) {
+        *v = s->vrv[k];
+        return BR_SW_REV;
+    }
+    *v = block_line(s, k, t, sl);
+    return BR_SW_BLOCK;
+}
+
+/* Each switch's voltage on and in reverse at the load current in force
+ * (kept: they change only with the current). */
+static void load_drops(br_sim *s)
+{
+    for (int k = 0; k < s->n; k++) {
+        const br_stage *st = &s->c->st[k];
+        s->von[k] = br_sw_on_drop(st, s->dir, s->iamp);
+        s->vrv[k] = -br_sw_rev_drop(&st->sw, s->iamp);
+    }
+    s->redo = ~0ULL >> (64 - s->n);
+}
+
+/* Two lines closer than this at an update are the same line (the ripple
+ * carried from event to event, against the line extended). */
+#define BR_SW_SAME 1e-9 /* V */
+
+/* Switch k heads for the line v + sl (t' - t): a ramp from its present
+ * voltage at the slope Vblock / tedge (a swing in tedge when it blocks
+ * nothing), ending where it meets the line. */
+static void head_for(br_sim *s, int k, double t, double v, double sl)
+{
+    const br_chain *c = s->c;
+    double cur = br_sim_switch_v(s, k, t), dv = v - cur;
+    double vb = c->st[k].vblock;
+    double rate = c->tedge > 0 ? (vb > 0 ? vb : fabs(dv)) / c->tedge : HUGE_VAL;
+    s->tv[k] = v;
+    s->tt0[k] = t;
+    s->tsl[k] = sl;
+    s->send[k] = -HUGE_VAL;
+    if (fabs(dv) <= BR_SW_SAME || !(rate < HUGE_VAL))
+        return;
+    double sg = dv > 0 ? rate : -rate, dur = dv / (sg - sl);
+    if (!(dur > 0))
+        return;
+    s->sv0[k] = cur;
+    s->st0[k] = t;
+    s->sslope[k] = sg;
+    s->send[k] = t + dur;
 }
 
 /* Settle every switch at its target with no ramp or pulse in progress. */
-static void settle_switches(br_sim *s)
+static void settle_switches(br_sim *s, double t)
 {
     for (int k = 0; k < s->n; k++) {
-        int on = (s->cmd >> k & 1) && s->en[k];
-        double v = on ? 0.0 : ((s->rev >> k & 1) ? -s->c->st[k].sw.vsd : s->c->st[k].vblock);
-        s->starget[k] = s->sv0[k] = v;
+        double v, sl;
+        s->smode[k] = switch_target(s, k, t, &v, &sl);
+        s->tv[k] = s->sv0[k] = v;
+        s->tt0[k] = s->st0[k] = t;
+        s->tsl[k] = sl;
         s->sslope[k] = 0.0;
         s->send[k] = s->pulse_end[k] = -HUGE_VAL;
         s->pulse_i[k] = 0.0;
-        if (on)
+        if (s->smode[k] == BR_SW_ON)
             s->driven |= 1ULL << k;
     }
+    s->on_prev = s->cmd & s->enm;
+    s->rv_prev = s->loaded ? s->rev & ~s->on_prev : 0;
+    s->redo = 0;
+}
+
+/* The ripple carried to time t (an event time); at the period's first
+ * event it is set afresh, so that rounding never accumulates. */
+static void fly_to(br_sim *s, double t, int first)
+{
+    for (int k = 1; k < s->tm.npairs; k++)
+        s->fly[k] = first ? s->tm.fly_ev0[k] : fly_at(s, k, t);
+    s->fly_t = t;
+}
+
+/* The ripple at phase ph of the period, at sim time t. */
+static void fly_reset(br_sim *s, double ph, double t)
+{
+    memset(s->fly, 0, sizeof s->fly);
+    memset(s->flysl, 0, sizeof s->flysl);
+    s->fly_t = t;
+    if (s->tm.npairs > 0)
+        br_timing_fly_at(&s->tm, ph, s->fly, s->flysl);
+}
+
+/* The load current starts: for a DC load at the design's magnitude, and
+ * it stays (a load that changes from period to period would set iamp and
+ * isgn, and the drops with them, at each period boundary).  The
+ * flying capacitors' ripple at that current must leave every switch a
+ * blocking voltage; beyond, the cells collapse and the model does not
+ * apply (br_sim_run_until refuses to go on). */
+static void start_load(br_sim *s)
+{
+    s->loaded = 1;
+    s->iamp = s->c->iload;
+    load_drops(s);
+    s->cell_low = br_timing_cell_min(&s->tm, s->c, s->isgn * s->iamp, &s->cell_stage);
+}
+
+static int cells_collapse(const br_sim *s, br_error *err)
+{
+    const br_chain *c = s->c;
+    const char *name = c->st[s->cell_stage].name;
+    return br_error_set(err, BR_ENUMERIC, c->design ? c->design->path : NULL, 0, "fcml: cfly",
+                        "the flying capacitors' ripple at %g A takes the voltage %s blocks "
+                        "down to %.3g V of its %.4g V: the cells cannot hold and the model does "
+                        "not apply; expected a larger cfly (or a higher fsw)",
+                        s->iamp, name, s->cell_low, c->st[s->cell_stage].vblock);
 }
 
 static void clear_state(br_sim *s)
@@ -173,11 +306,19 @@ static void clear_state(br_sim *s)
      * x is never touched; br_sim_create zeroed it) */
     memset(s->x, 0, sizeof(double) * (size_t)(s->phi0 + s->n * s->n));
     memset(s->en, 0, sizeof s->en);
+    s->enm = 0;
     memset(s->held, 0, sizeof s->held);
     memset(s->il, 0, sizeof s->il);
     memset(s->vr, 0, sizeof s->vr);
     s->t = 0.0;
     s->cmd = s->rev = s->driven = 0;
+    s->loaded = 0;
+    s->iamp = 0.0;
+    load_drops(s);
+    s->load_at = HUGE_VAL;
+    s->cell_low = HUGE_VAL;
+    s->cell_stage = -1;
+    s->isgn = s->dir == BR_DIRI_UP ? 1.0 : -1.0;
     s->per = 0;
     s->ev_idx = 0;
     s->hlast = 0.0;
@@ -204,13 +345,20 @@ void br_sim_reset_cold(br_sim *s)
     s->pre_idx = 0;
     s->pwm_t0 = t;
     s->tramp_end = c->tramp;
-    if (s->npre > 0)
-        s->cmd = c->precharge[0].mask;
-    else {
-        s->cmd = s->tm.on0;
-        s->rev = 0; /* start-up: no load current yet, nothing reverse-conducts */
+    /* start-up runs at no load unless the design starts under load: then
+     * from the first period boundary at or after its start time */
+    if (s->dir >= 0 && c->load_from < HUGE_VAL) {
+        double m = ceil((c->load_from - t) / c->T - 1e-9);
+        s->load_at = t + (m > 0 ? m : 0.0) * c->T;
     }
-    settle_switches(s);
+    fly_reset(s, 0.0, t);
+    if (s->npre > 0) {
+        s->cmd = c->precharge[0].mask;
+    } else {
+        s->cmd = s->tm.on0;
+        s->rev = s->tm.rev0; /* it counts once the load current flows */
+    }
+    settle_switches(s, 0.0);
     s->driven = 0;
 }
 
@@ -233,8 +381,15 @@ void br_sim_reset_running_at(br_sim *s, const double *x, double phase)
     s->en[0] = (br_sim_bypass(s) ? x[0] : c->vsupply) > c->st[0].drv.uvlo_fall;
     for (int k = 1; k < s->n; k++)
         s->en[k] = br_sim_vdrv(s, k, x[k]) > c->st[k].drv.uvlo_fall;
+    for (int k = 0; k < s->n; k++)
+        s->enm |= (br_mask)(s->en[k] != 0) << k;
     br_timing_state_at(&s->tm, phase, &s->cmd, &s->rev);
-    settle_switches(s);
+    if (s->dir >= 0) { /* a running chain carries its load */
+        s->load_at = -HUGE_VAL;
+        start_load(s);
+    }
+    fly_reset(s, phase, 0.0);
+    settle_switches(s, 0.0);
     s->hlast = c->T / 32; /* a fixed first step keeps the period map deterministic */
     phi_identity(s);
 }
@@ -269,6 +424,10 @@ void br_sim_freeze(br_sim *s, br_mask on)
     s->npre = s->pre_idx = 0;
     s->cmd = on;
     s->rev = 0; /* no load current once switching stops */
+    s->loaded = 0;
+    s->iamp = 0.0;
+    load_drops(s);
+    s->load_at = HUGE_VAL;
     update_targets(s, s->t);
     s->k1_valid = 0;
 }
@@ -282,6 +441,8 @@ static double next_time(const br_sim *s, double t_end)
         tn = fmin(tn, event_time(s));
     if (s->t < s->tramp_end)
         tn = fmin(tn, s->tramp_end);
+    if (!s->loaded && s->load_at > s->t)
+        tn = fmin(tn, s->load_at);
     for (int k = 0; k < s->n; k++) {
         if (s->send[k] > s->t)
             tn = fmin(tn, s->send[k]);
@@ -293,66 +454,68 @@ static double next_time(const br_sim *s, double t_end)
 
 static void recover_link(br_sim *s, int k);
 
-/* Bring every switch toward its new target; start gate pulses of the
- * switches that are now driven on. */
+/* Bring switch k toward its target at t. */
+static void update_switch(br_sim *s, int k, double t)
+{
+    double v, sl;
+    int mode = switch_target(s, k, t, &v, &sl);
+    /* the switch starts blocking: the link it returns recovers */
+    if (mode == BR_SW_BLOCK && s->smode[k] != BR_SW_BLOCK && s->c->st[k].vblock > 0 && k + 1 < s->n)
+        recover_link(s, k + 1);
+    /* a switch that keeps its constant target has nothing to do */
+    if (mode != s->smode[k] || t < s->send[k] || sl != 0.0 || s->tsl[k] != 0.0 || v != s->tv[k])
+        head_for(s, k, t, v, sl);
+    s->smode[k] = mode;
+}
+
+/* A gate pulse for switch k, driven on now. */
+static void gate_pulse(br_sim *s, int k, double t)
+{
+    const br_sw *sw = &s->c->st[k].sw;
+    double q = br_sw_qg_at(sw, br_sim_vdrv(s, k, s->vr[k]));
+    if (sw->tg > 0) {
+        s->pulse_i[k] = q / sw->tg;
+        s->pulse_end[k] = t + sw->tg;
+    } else if (k > 0) {
+        s->x[XI(k, F_VC)] -= q / br_sim_cap(s, k, s->x[XI(k, F_VC)]);
+    }
+}
+
+/* Bring the switches whose state changed toward their new targets (with
+ * the ripple every switch: the lines turn at every event); start gate
+ * pulses of the switches that are now driven on. */
 static void update_targets(br_sim *s, double t)
 {
-    const br_chain *c = s->c;
-    for (int k = 0; k < s->n; k++) {
-        const br_stage *st = &c->st[k];
-        int on = (s->cmd >> k & 1) && s->en[k];
-        double target = on ? 0.0 : ((s->rev >> k & 1) ? -st->sw.vsd : st->vblock);
-        if (target != s->starget[k]) {
-            double v = br_sim_switch_v(s, k, t);
-            /* the switch starts blocking: the link it returns recovers */
-            if (target > 0 && k + 1 < s->n)
-                recover_link(s, k + 1);
-            double dur = c->tedge * fabs(target - v) / st->vblock;
-            s->starget[k] = target;
-            s->sv0[k] = dur > 0 ? v : target;
-            s->st0[k] = t;
-            s->sslope[k] = dur > 0 ? (target - v) / dur : 0.0;
-            s->send[k] = dur > 0 ? t + dur : -HUGE_VAL;
-        }
-        br_mask bit = 1ULL << k;
-        if (on && !(s->driven & bit)) {
-            double q = br_sw_qg_at(&st->sw, br_sim_vdrv(s, k, s->vr[k]));
-            if (st->sw.tg > 0) {
-                s->pulse_i[k] = q / st->sw.tg;
-                s->pulse_end[k] = t + st->sw.tg;
-            } else if (k > 0) {
-                s->x[XI(k, F_VC)] -= q / br_sim_cap(s, k, s->x[XI(k, F_VC)]);
-            }
-        }
-        s->driven = on ? (s->driven | bit) : (s->driven & ~bit);
-    }
+    br_mask on = s->cmd & s->enm, rv = s->loaded ? s->rev & ~on : 0;
+    br_mask todo = (on ^ s->on_prev) | (rv ^ s->rv_prev) | s->redo;
+    if (s->tm.npairs > 0 && s->iamp != 0.0)
+        todo = ~0ULL >> (64 - s->n);
+    for (; todo; todo &= todo - 1)
+        update_switch(s, __builtin_ctzll(todo), t);
+    for (br_mask fresh = on & ~s->driven; fresh; fresh &= fresh - 1)
+        gate_pulse(s, __builtin_ctzll(fresh), t);
+    s->driven = on;
+    s->on_prev = on;
+    s->rv_prev = rv;
+    s->redo = 0;
 }
 
 static void apply_pwm_events(br_sim *s, double t)
 {
+    int moved = 0;
     while (s->tm.nev > 0 && event_time(s) <= t) {
-        const br_event *e = &s->tm.ev[s->ev_idx];
-        br_mask bit = 1ULL << e->sw;
-        switch (e->kind) {
-        case BR_EV_ON:
-            s->cmd |= bit;
-            break;
-        case BR_EV_OFF:
-            s->cmd &= ~bit;
-            break;
-        case BR_EV_REV_ON:
-            s->rev |= bit;
-            break;
-        default:
-            s->rev &= ~bit;
-            break;
-        }
+        if (s->tm.npairs > 0)
+            fly_to(s, event_time(s), s->ev_idx == 0);
+        br_event_apply(&s->tm.ev[s->ev_idx], &s->cmd, &s->rev);
+        moved = 1;
         if (++s->ev_idx == s->tm.nev) {
             s->ev_idx = 0;
             s->per++;
             s->iv = 0;
         }
     }
+    if (moved && s->tm.npairs > 0)
+        br_timing_fly_slopes(&s->tm, s->cmd | s->rev, s->flysl);
 }
 
 static void apply_schedule(br_sim *s, double t)
@@ -363,17 +526,17 @@ static void apply_schedule(br_sim *s, double t)
             s->cmd = s->c->precharge[s->pre_idx].mask;
         } else {
             s->cmd = s->tm.on0;
-            s->rev = 0;
+            s->rev = s->tm.rev0;
+            fly_reset(s, 0.0, t);
         }
     }
     if (!in_precharge(s) && !s->frozen)
         apply_pwm_events(s, t);
+    if (!s->loaded && t >= s->load_at)
+        start_load(s);
     for (int k = 0; k < s->n; k++) {
-        if (s->send[k] > -HUGE_VAL && s->send[k] <= t) {
-            s->sslope[k] = 0.0;
-            s->sv0[k] = s->starget[k];
-            s->send[k] = -HUGE_VAL;
-        }
+        if (s->send[k] > -HUGE_VAL && s->send[k] <= t)
+            s->send[k] = -HUGE_VAL; /* the ramp has met its line */
         if (s->pulse_end[k] > -HUGE_VAL && s->pulse_end[k] <= t) {
             s->pulse_i[k] = 0.0;
             s->pulse_end[k] = -HUGE_VAL;
@@ -415,6 +578,17 @@ static double blocked_current(const br_sim *s, int k, double ta, double tb, doub
     return i;
 }
 
+/* Resistance switch k puts in the path of the link it returns: the
+ * bootstrap current adds to or takes from the load current the switch
+ * carries, so it sees the slope of the switch's own law: Rds(on) while on
+ * (and, for the charge a turn-off edge sweeps, while it starts to block),
+ * the reverse law's resistance while it conducts in reverse. */
+static double return_r(const br_sim *s, int k)
+{
+    const br_sw *sw = &s->c->st[k].sw;
+    return s->smode[k] == BR_SW_REV ? sw->rsd : sw->rds_on;
+}
+
 static void build_seg(br_sim *s, double ta, double tb)
 {
     br_seg *g = &s->seg;
@@ -434,7 +608,7 @@ static void build_seg(br_sim *s, double ta, double tb)
         g->d0[k] = br_sim_switch_v(s, k - 1, ta);
         double db = br_sim_switch_v(s, k - 1, tb);
         g->dslope[k] = tb > ta ? (db - g->d0[k]) / (tb - ta) : 0.0;
-        g->rpath[k] = st->r_link + c->st[k - 1].sw.rds_on;
+        g->rpath[k] = st->r_link + return_r(s, k - 1);
         double fa = left_rail(s, k, ta) - s->x[XI(k, F_VC)] - g->d0[k];
         double fb = left_rail(s, k, tb) - s->x[XI(k, F_VC)] - db;
         g->active[k] = fa > -BR_VBLOCKED || fb > -BR_VBLOCKED;
@@ -631,6 +805,7 @@ static int closed_form(br_sim *s, double tb, double *te)
 static void toggle(br_sim *s, int k)
 {
     s->en[k] = !s->en[k];
+    s->enm ^= 1ULL << k;
     if (s->obs.uvlo) {
         br_uvlo_event e = {s->t, k, s->en[k], br_sim_vdrv(s, k, s->vr[k])};
         s->obs.uvlo(s->obs.ctx, &e);
@@ -673,6 +848,8 @@ static void settle_uvlo(br_sim *s, double tb)
 int br_sim_run_until(br_sim *s, double t_end, br_error *err)
 {
     while (s->t < t_end) {
+        if (s->loaded && !(s->cell_low > 0.0))
+            return cells_collapse(s, err);
         double tb = next_time(s, t_end);
         settle_uvlo(s, tb);
         if (br_sim_edge_start(s)) {

@@ -1,8 +1,9 @@
 /* sim.h - the cycle-by-cycle simulator of a chain.
  *
- * The period is cut at every switching event, ramp end, gate-pulse end and
- * UVLO crossing.  Within one interval every switch voltage is linear in
- * time and every load is constant, so:
+ * The period is cut at every switching event, ramp end, gate-pulse end,
+ * UVLO crossing and the start of the load current.  Within one interval
+ * every switch voltage is linear in time (the flying capacitors' ripple
+ * included) and every load is constant, so:
  *  - when no link diode can conduct, every rail discharges linearly and
  *    the interval is taken in closed form (UVLO crossings solved exactly);
  *  - otherwise the rails and diode stored charges are integrated with an
@@ -72,17 +73,24 @@ typedef struct br_sim_observer {
 } br_sim_observer;
 
 /* Create a simulator for chain c (kept by pointer) analysing current
- * direction dir (a br_dir_index). */
+ * direction dir (a br_dir_index): with a direction the chain's load
+ * current flows in it, once the load has started (br_sim_reset_cold,
+ * br_sim_reset_running_at). */
 int br_sim_create(const br_chain *c, int dir, int integrator, br_sim **out, br_error *err);
 void br_sim_free(br_sim *s);
 
 /* Cold start at t = 0: capacitors empty, drivers off, start-up pattern
- * (pre-charge steps, then PWM) armed, supply ramping. */
+ * (pre-charge steps, then PWM) armed, supply ramping; at no load, unless
+ * the chain starts under load (load_from) and a direction is analysed:
+ * then the load current flows from the first PWM period boundary at or
+ * after load_from. */
 void br_sim_reset_cold(br_sim *s);
 
 /* Steady PWM running from time t = 0 (period start) with the given state:
  * x[k] rail capacitor voltages (k = 1..n-1; x[0] ignored), all drivers
- * whose rails are above UVLO falling enabled, no stored charge. */
+ * whose rails are above UVLO falling enabled, no stored charge, the load
+ * current flowing (with a direction).  A run of a loaded period whose
+ * flying-capacitor ripple collapses the cells fails with BR_ENUMERIC. */
 void br_sim_reset_running(br_sim *s, const double *vc);
 
 /* Same, with sim time 0 at `phase` (s) into the PWM period and the full
@@ -124,7 +132,9 @@ void br_sim_sensitivity(const br_sim *s, double *phi);
 void br_sim_set_tolerance(br_sim *s, double rtol, double atol_v);
 
 /* Voltage across switch k at time t (within the interval in progress),
- * V: 0 on, its blocking voltage off, minus its drop reverse conducting,
+ * V: on, its on-state drop at the load current (+-I Rds(on)); conducting
+ * the load current in reverse in a dead time, minus its reverse drop;
+ * otherwise its blocking voltage with the flying capacitors' ripple;
  * ramps between.  For observers that plot diode stress. */
 double br_sim_switch_v(const br_sim *s, int k, double t);
 

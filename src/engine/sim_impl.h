@@ -23,6 +23,13 @@ enum {
     BR_EDGE_END       /* the edge lets the link conduct at the interval end */
 };
 
+/* What a switch's voltage follows. */
+typedef enum br_sw_mode {
+    BR_SW_BLOCK = 0, /* off: its blocking voltage (with the ripple) */
+    BR_SW_ON,        /* on: its on-state drop at the load current */
+    BR_SW_REV        /* conducting the load current in reverse while off */
+} br_sw_mode;
+
 /* The Runge-Kutta pairs, chosen per interval (sim_step.c). */
 typedef enum br_rk_pair {
     BR_PAIR_DP45 = 0, /* Dormand-Prince 5(4): the fast path's longer intervals */
@@ -88,15 +95,37 @@ struct br_sim {
     /* time and state */
     double t;
     double x[X_SIZE];
-    int en[BR_N];     /* driver enabled (out of UVLO) */
-    int held[BR_N];   /* held off after chattering, until the next edge */
-    br_mask cmd, rev; /* commanded on; reverse conducting */
-    br_mask driven;   /* commanded on with the driver running */
-    double tramp_end; /* supply still ramping before this time, s */
-    int toggles;      /* UVLO toggles at the current instant */
-    int frozen;       /* switching stopped (br_sim_freeze) */
-    /* voltage across each switch: linear ramp toward its target */
-    double sv0[BR_N], st0[BR_N], sslope[BR_N], send[BR_N], starget[BR_N];
+    int en[BR_N];             /* driver enabled (out of UVLO) */
+    int held[BR_N];           /* held off after chattering, until the next edge */
+    br_mask cmd, rev;         /* commanded on; reverse conducting */
+    br_mask driven;           /* commanded on with the driver running */
+    br_mask enm;              /* drivers enabled (en as a mask) */
+    br_mask on_prev, rv_prev; /* switches on, and conducting the load
+                                 current in reverse, at the last update */
+    br_mask redo;             /* switches whose target must be found again
+                                 at the next update whatever their state */
+    double tramp_end;         /* supply still ramping before this time, s */
+    int toggles;              /* UVLO toggles at the current instant */
+    int frozen;               /* switching stopped (br_sim_freeze) */
+    /* the load current: it flows once loaded, from load_at (absolute, s;
+     * HUGE_VAL: never), at magnitude iamp in the period in progress (A, 0
+     * unless loaded), entering the switch node when isgn > 0 (step-up) */
+    int loaded;
+    double load_at, iamp, isgn;
+    double von[BR_N]; /* switch k's voltage while on at iamp, V */
+    double vrv[BR_N]; /* and while conducting it in reverse off, V */
+    double cell_low;  /* lowest blocking voltage the ripple leaves a switch
+                         at the load current in force, V (HUGE_VAL: none) */
+    int cell_stage;   /* the switch it is at */
+    /* flying-capacitor ripple per ampere (br_timing): fly[k] at fly_t,
+     * moving at flysl[k] until the next switching event */
+    double fly[BR_MAX_FLY + 1], flysl[BR_MAX_FLY + 1], fly_t;
+    /* voltage across each switch: a linear ramp (sv0 at st0, slope
+     * sslope, until send) toward its target line (tv at tt0, slope tsl),
+     * the voltage of its mode smode (br_sw_mode) */
+    double sv0[BR_N], st0[BR_N], sslope[BR_N], send[BR_N];
+    double tv[BR_N], tt0[BR_N], tsl[BR_N];
+    int smode[BR_N];
     double pulse_end[BR_N], pulse_i[BR_N];
     /* schedule */
     double pwm_t0;                    /* PWM clock origin: events at pwm_t0 + m T + ev.t */
@@ -147,9 +176,6 @@ void br_sim_live_rebuild(br_sim *s);
 /* Continuous equations of the interval seg at time t: fills dx (X_SIZE)
  * and the workspace il/vr/ic.  Shared by both integrators. */
 void br_sim_rhs(br_sim *s, double t, const double *x, double *dx);
-
-/* Voltage across switch k at time t (on 0, off vblock, reverse -vsd). */
-double br_sim_switch_v(const br_sim *s, int k, double t);
 
 /* Driver supply of stage k for a rail voltage vr (after an LDO). */
 double br_sim_vdrv(const br_sim *s, int k, double vr);

@@ -41,6 +41,21 @@ static int read_current(br_rd *r, xmlNode *n)
                       has > 0 ? v : "(too long)");
 }
 
+/* The load current, when it starts, and the switches' junction
+ * temperature (the ambient unless given). */
+static int read_load(br_rd *r, xmlNode *n)
+{
+    br_design *d = r->d;
+    BR_TRY(br_rd_qty(r, n, "load-current", BR_KIND_CURRENT, &br_range_nonneg, &d->iload, NULL));
+    if (d->direction == BR_DIR_NONE && d->iload.max > 0)
+        return br_rd_fail(r, n, "load-current",
+                          "%g A with current=\"none\": idealised commutation carries no load "
+                          "current; expected load-current=\"0 A\" or a current direction",
+                          d->iload.max);
+    BR_TRY(br_rd_value(r, n, "load-from", BR_KIND_TIME, &br_range_nonneg, &d->load_from, NULL));
+    return br_rd_qty(r, n, "switch-tj", BR_KIND_TEMPERATURE, &r_ambient, &d->tj, &d->tj_given);
+}
+
 static int read_operating_point(br_rd *r, xmlNode *n)
 {
     br_design *d = r->d;
@@ -52,7 +67,8 @@ static int read_operating_point(br_rd *r, xmlNode *n)
     BR_TRY(read_current(r, n));
     BR_TRY(br_rd_qty(r, n, "imbalance", BR_KIND_FRACTION, &r_imbalance, &d->imbalance, NULL));
     BR_TRY(br_rd_qty(r, n, "edge-time", BR_KIND_TIME, &br_range_nonneg, &d->tedge, NULL));
-    return br_rd_qty(r, n, "overshoot", BR_KIND_FRACTION, &r_overshoot, &d->overshoot, NULL);
+    BR_TRY(br_rd_qty(r, n, "overshoot", BR_KIND_FRACTION, &r_overshoot, &d->overshoot, NULL));
+    return read_load(r, n);
 }
 
 static int read_supply(br_rd *r, xmlNode *n)
@@ -101,6 +117,28 @@ static int is_word(const char *s)
     return 1;
 }
 
+/* How a string switch carries the load current while on. */
+static int read_conducts(br_rd *r, xmlNode *n, br_switch_spec *s)
+{
+    char v[16];
+    int has = br_xml_attr(n, "conducts", v, sizeof v);
+    s->carry = has == 0                           ? BR_CARRY_UNSET
+               : has > 0 && !strcmp(v, "forward") ? BR_CARRY_FORWARD
+               : has > 0 && !strcmp(v, "reverse") ? BR_CARRY_REVERSE
+               : has > 0 && !strcmp(v, "none")    ? BR_CARRY_NONE
+                                                  : -1;
+    if (s->carry < 0)
+        return br_rd_fail(r, n, "conducts", "got '%s', expected forward, reverse or none",
+                          has > 0 ? v : "(too long)");
+    if (s->carry == BR_CARRY_UNSET && r->d->iload.max > 0)
+        return br_rd_fail(r, n, "conducts",
+                          "missing: the design carries a %g A load current, expected "
+                          "conducts=\"forward\", \"reverse\" or \"none\" (how the switch "
+                          "carries it while on)",
+                          r->d->iload.max);
+    return BR_OK;
+}
+
 static int read_string_switch(br_rd *r, xmlNode *n, int k)
 {
     br_switch_spec *s = &r->d->sw[k];
@@ -115,6 +153,7 @@ static int read_string_switch(br_rd *r, xmlNode *n, int k)
                               s->name);
     s->vblock = br_qty_fixed(0.0);
     BR_TRY(br_rd_qty(r, n, "vblock", BR_KIND_VOLTAGE, &br_range_nonneg, &s->vblock, NULL));
+    BR_TRY(read_conducts(r, n, s));
     BR_TRY(read_intervals(r, n, "on", s->on, &s->nwin));
     BR_TRY(read_intervals(r, n, "reverse", s->rev, &s->nrev));
     s->line = br_rd_line(r, n);
@@ -139,7 +178,8 @@ static int read_topology(br_rd *r, xmlNode *n)
     if (c) {
         r->d->topology = BR_TOPO_FCML;
         /* 33 levels: 64 switches, the widest precharge mask */
-        return br_rd_int(r, c, "levels", 2, (BR_MAX_SWITCHES / 2) + 1, &r->d->levels);
+        BR_TRY(br_rd_int(r, c, "levels", 2, (BR_MAX_SWITCHES / 2) + 1, &r->d->levels));
+        return br_rd_qty(r, c, "cfly", BR_KIND_CAPACITANCE, &br_range_nonneg, &r->d->cfly, NULL);
     }
     c = br_xml_child(n, "string");
     if (!c)

@@ -16,6 +16,8 @@ static const br_range r_xti = {-50.0, 50.0, 0, 0, "a number from -50 to 50"};
 static const br_range r_temp = {173.15, 573.15, 0, 0, "a temperature from -100 C to 300 C"};
 static const br_range r_tfactor = {0.0, 2.0, 1, 0, "a factor in (0, 2]"};
 static const br_range r_unit = {0.0, 1.0, 1, 0, "a factor in (0, 1]"};
+static const br_range r_gate_off = {-50.0, 0.0, 0, 0, "a voltage from -50 V to 0 V"};
+static const br_range r_rds_exp = {-5.0, 10.0, 0, 0, "an exponent from -5 to 10"};
 
 /* ---- ids -------------------------------------------------------------------- */
 
@@ -225,6 +227,7 @@ static int read_driver(br_rd *r, xmlNode *n)
     BR_TRY(br_rd_qty(r, n, "iq-run", BR_KIND_CURRENT, &br_range_nonneg, &p->iq_on, NULL));
     BR_TRY(br_rd_qty(r, n, "iq-uvlo", BR_KIND_CURRENT, &br_range_nonneg, &p->iq_off, NULL));
     BR_TRY(br_rd_qty(r, n, "iq-isolator", BR_KIND_CURRENT, &br_range_nonneg, &p->i_iso, NULL));
+    BR_TRY(br_rd_qty(r, n, "gate-off", BR_KIND_VOLTAGE, &r_gate_off, &p->vgs_off, NULL));
     /* no thresholds at all means no UVLO; otherwise they need hysteresis */
     if ((p->uvlo_rise.nom > 0.0 || p->uvlo_fall.nom > 0.0) &&
         !(p->uvlo_fall.nom < p->uvlo_rise.nom))
@@ -232,6 +235,76 @@ static int read_driver(br_rd *r, xmlNode *n)
                           "%g V is not below uvlo-rise %g V, expected falling < rising",
                           p->uvlo_fall.nom, p->uvlo_rise.nom);
     d->ndrivers++;
+    return BR_OK;
+}
+
+/* Rds(on)(Tj) = rds-on (Tj / rds-on-temp)^a: the exponent a given, or
+ * fixed by a second point, the value rds-on-hot at rds-on-hot-temp, whose
+ * tolerance becomes the exponent's (rds-on's own tolerance scales the
+ * whole law). */
+static int read_rds_law(br_rd *r, xmlNode *n, br_switch_part *p)
+{
+    int has_exp, has_hot, has_ht;
+    br_qty hot = br_qty_fixed(0.0);
+    double th = 0.0;
+    BR_TRY(br_rd_qty(r, n, "rds-on", BR_KIND_RESISTANCE, &br_range_nonneg, &p->rds_on, NULL));
+    BR_TRY(br_rd_value(r, n, "rds-on-temp", BR_KIND_TEMPERATURE, &r_temp, &p->rds_temp.nom, NULL));
+    p->rds_temp.min = p->rds_temp.max = p->rds_temp.nom; /* a condition, not a spread */
+    BR_TRY(br_rd_qty(r, n, "rds-on-exp", BR_KIND_NUMBER, &r_rds_exp, &p->rds_exp, &has_exp));
+    BR_TRY(br_rd_qty(r, n, "rds-on-hot", BR_KIND_RESISTANCE, &br_range_pos, &hot, &has_hot));
+    BR_TRY(br_rd_value(r, n, "rds-on-hot-temp", BR_KIND_TEMPERATURE, &r_temp, &th, &has_ht));
+    if (has_hot != has_ht)
+        return br_rd_fail(r, n, has_hot ? "rds-on-hot-temp" : "rds-on-hot",
+                          "rds-on-hot and rds-on-hot-temp go together, expected both: the "
+                          "on-resistance at a hot junction and that temperature");
+    if (!has_hot)
+        return BR_OK;
+    if (has_exp)
+        return br_rd_fail(r, n, "rds-on-hot",
+                          "rds-on-exp is given too, expected either rds-on-exp or rds-on-hot");
+    if (!(p->rds_on.nom > 0) || fabs(th - p->rds_temp.nom) < 1.0)
+        return br_rd_fail(r, n, "rds-on-hot",
+                          "needs rds-on > 0 and rds-on-hot-temp at least 1 K away from "
+                          "rds-on-temp (%.2f C), expected a second point of the law",
+                          p->rds_temp.nom - 273.15);
+    double lt = log(th / p->rds_temp.nom), a = log(hot.min / p->rds_on.nom) / lt,
+           b = log(hot.max / p->rds_on.nom) / lt;
+    p->rds_exp = hot;
+    p->rds_exp.nom = log(hot.nom / p->rds_on.nom) / lt;
+    p->rds_exp.min = fmin(a, b);
+    p->rds_exp.max = fmax(a, b);
+    if (!(p->rds_exp.min >= r_rds_exp.lo && p->rds_exp.max <= r_rds_exp.hi))
+        return br_rd_fail(r, n, "rds-on-hot", "makes the exponent %.3g, expected %s",
+                          p->rds_exp.nom, r_rds_exp.expect);
+    return BR_OK;
+}
+
+/* The reverse drop: a body diode's vsd, or (reverse="channel", no body
+ * diode) the channel's third-quadrant turn-on at vth plus the driver's
+ * off-state gate voltage; either plus reverse-r times the current. */
+static int read_reverse_law(br_rd *r, xmlNode *n, br_switch_part *p)
+{
+    char v[16];
+    int has = br_xml_attr(n, "reverse", v, sizeof v), has_vsd, has_vth;
+    if (has != 0 && (has < 0 || (strcmp(v, "diode") && strcmp(v, "channel"))))
+        return br_rd_fail(r, n, "reverse", "got '%s', expected diode or channel",
+                          has > 0 ? v : "(too long)");
+    p->reverse = has > 0 && !strcmp(v, "channel") ? BR_REV_CHANNEL : BR_REV_DIODE;
+    BR_TRY(br_rd_qty(r, n, "vsd", BR_KIND_VOLTAGE, &br_range_nonneg, &p->vsd, &has_vsd));
+    BR_TRY(br_rd_qty(r, n, "vth", BR_KIND_VOLTAGE, &br_range_pos, &p->vth, &has_vth));
+    BR_TRY(
+        br_rd_qty(r, n, "reverse-r", BR_KIND_RESISTANCE, &br_range_nonneg, &p->rsd, &p->rsd_given));
+    if (p->reverse == BR_REV_CHANNEL && has_vsd)
+        return br_rd_fail(r, n, "vsd",
+                          "reverse=\"channel\" has no body diode, its drop is vth plus the "
+                          "driver's gate-off; expected vth instead of vsd");
+    if (p->reverse == BR_REV_CHANNEL && !has_vth)
+        return br_rd_fail(r, n, "vth",
+                          "missing, expected the gate threshold voltage for "
+                          "reverse=\"channel\" (the drop is vth + |gate-off| + I reverse-r)");
+    if (p->reverse == BR_REV_DIODE && has_vth)
+        return br_rd_fail(r, n, "vth",
+                          "read only with reverse=\"channel\", expected vsd for a body diode");
     return BR_OK;
 }
 
@@ -244,11 +317,11 @@ static int read_switch(br_rd *r, xmlNode *n)
     br_switch_part_defaults(p);
     BR_TRY(read_id(r, n, p->id));
     p->line = br_rd_line(r, n);
-    BR_TRY(br_rd_qty(r, n, "rds-on", BR_KIND_RESISTANCE, &br_range_nonneg, &p->rds_on, NULL));
+    BR_TRY(read_rds_law(r, n, p));
     BR_TRY(br_rd_qty(r, n, "qg", BR_KIND_CHARGE, &br_range_nonneg, &p->qg, NULL));
     BR_TRY(br_rd_qty(r, n, "qg-at", BR_KIND_VOLTAGE, &br_range_nonneg, &p->qg_v, NULL));
     BR_TRY(br_rd_qty(r, n, "gate-pulse", BR_KIND_TIME, &br_range_pos, &p->tg, NULL));
-    BR_TRY(br_rd_qty(r, n, "vsd", BR_KIND_VOLTAGE, &br_range_nonneg, &p->vsd, NULL));
+    BR_TRY(read_reverse_law(r, n, p));
     BR_TRY(br_rd_qty(r, n, "vgs-rec", BR_KIND_VOLTAGE, &br_range_nonneg, &p->vgs_rec, NULL));
     BR_TRY(br_rd_qty(r, n, "vgs-max", BR_KIND_VOLTAGE, &br_range_nonneg, &p->vgs_max, NULL));
     if (p->vgs_max.nom > 0.0 && p->vgs_rec.nom > p->vgs_max.nom)

@@ -4,6 +4,7 @@
 #include "core/error.h"
 #include "model/fcml.h"
 
+#include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -18,14 +19,25 @@ static void resolve_driver(const br_driver_part *p, br_driver *o)
     o->i_iso = p->i_iso.nom;
 }
 
-static void resolve_switch(const br_switch_part *p, br_sw *o)
+/* The switch at junction temperature T, driven by drv: its reverse drop
+ * is a body diode's, or for a switch without one (reverse = channel) the
+ * channel's third-quadrant turn-on, which the negative gate-off voltage
+ * drv applies pushes further down (Vsd = Vth + |Vgs,off| + I R at first
+ * order); the channel's R defaults to its own Rds(on). */
+static void resolve_switch(const br_switch_part *p, const br_driver_part *drv, double T, br_sw *o)
 {
     o->id = p->id;
-    o->rds_on = p->rds_on.nom;
+    o->rds_on = br_rds_at(p, T);
     o->qg = p->qg.nom;
     o->qg_v = p->qg_v.nom;
     o->tg = p->tg.nom;
-    o->vsd = p->vsd.nom;
+    if (p->reverse == BR_REV_CHANNEL) {
+        o->vsd0 = p->vth.nom + fabs(drv->vgs_off.nom);
+        o->rsd = p->rsd_given ? p->rsd.nom : o->rds_on;
+    } else {
+        o->vsd0 = p->vsd.nom;
+        o->rsd = p->rsd.nom;
+    }
     o->vgs_rec = p->vgs_rec.nom;
     o->vgs_max = p->vgs_max.nom;
 }
@@ -49,7 +61,7 @@ static int part_index_ok(int idx, int count)
     return idx >= 0 && idx < count;
 }
 
-static int resolve_parts(const br_design *d, int k, double T, br_stage *st, br_error *err)
+static int resolve_parts(const br_design *d, const br_chain *c, int k, br_stage *st, br_error *err)
 {
     const br_stage_spec *sp = br_design_stage(d, k);
     int line = sp->line;
@@ -57,7 +69,7 @@ static int resolve_parts(const br_design *d, int k, double T, br_stage *st, br_e
         return br_error_set(err, BR_EINPUT, d->path, line, "stages",
                             "stage %d has no driver or switch part, expected both", k);
     resolve_driver(&d->drivers[sp->driver], &st->drv);
-    resolve_switch(&d->switches[sp->sw], &st->sw);
+    resolve_switch(&d->switches[sp->sw], &d->drivers[sp->driver], c->tj, &st->sw);
     resolve_aux(d, sp->aux, &st->aux);
     if (k == 0)
         return BR_OK; /* rail 0 is the supply: no link, no rail capacitor */
@@ -66,7 +78,7 @@ static int resolve_parts(const br_design *d, int k, double T, br_stage *st, br_e
                             "stage %d has no diode or capacitor part, expected both", k);
     br_cap_at_nominal(&d->caps[sp->cap], &st->cap);
     st->r_link = sp->r_link.nom;
-    return br_diode_at(&d->diodes[sp->diode], T, &st->diode, err);
+    return br_diode_at(&d->diodes[sp->diode], c->tamb, &st->diode, err);
 }
 
 /* FCML: names, windows and dead times from the generator. */
@@ -88,15 +100,32 @@ static int fcml_timing(const br_design *d, const br_chain *c, int s, br_stage *s
     int dir = g.is_top ? 1 : 0; /* step-down: bottoms conduct; step-up: tops */
     st->nrev[dir] = c->deadtime > 0 ? 2 : 0;
     memcpy(st->rev[dir], g.dead, sizeof g.dead);
+    /* every conducting switch of the leg carries the whole load current:
+     * in reverse the one that conducts in the dead times, forward its
+     * partner */
+    st->carry[dir] = -1;
+    st->carry[1 - dir] = 1;
     st->vblock = d->vin.nom / P * (1.0 + d->imbalance.nom);
     return BR_OK;
 }
 
-/* Explicit string: fractions of T from the file; reverse conduction applies
- * to whichever direction is analysed. */
-static void string_timing(const br_design *d, const br_chain *c, int s, br_stage *st)
+/* Explicit string: fractions of T from the file; reverse conduction and
+ * the way each switch carries the load current apply to whichever
+ * direction is analysed. */
+static int string_timing(const br_design *d, const br_chain *c, int s, br_stage *st, br_error *err)
 {
     const br_switch_spec *w = &d->sw[s];
+    char field[BR_ID_MAX + 24];
+    snprintf(field, sizeof field, "switch %s: conducts", w->name);
+    if (w->carry == BR_CARRY_UNSET && d->iload.max > 0)
+        return br_error_set(err, BR_EINPUT, d->path, w->line, field,
+                            "missing: the design carries a %g A load current, expected "
+                            "conducts=\"forward\", \"reverse\" or \"none\" (how the switch "
+                            "carries it while on)",
+                            d->iload.max);
+    st->carry[0] = st->carry[1] = w->carry == BR_CARRY_FORWARD   ? 1
+                                  : w->carry == BR_CARRY_REVERSE ? -1
+                                                                 : 0;
     snprintf(st->name, sizeof st->name, "%s", w->name);
     st->nwin = w->nwin;
     for (int i = 0; i < w->nwin; i++) {
@@ -115,6 +144,7 @@ static void string_timing(const br_design *d, const br_chain *c, int s, br_stage
         }
     }
     st->vblock = w->vblock.nom * (1.0 + d->imbalance.nom);
+    return BR_OK;
 }
 
 static void copy_operating_point(const br_design *d, br_chain *c)
@@ -127,6 +157,10 @@ static void copy_operating_point(const br_design *d, br_chain *c)
     c->tedge = d->tedge.nom;
     c->vin = d->vin.nom;
     c->tamb = d->tamb.nom;
+    c->tj = d->tj_given ? d->tj.nom : d->tamb.nom;
+    c->iload = d->iload.nom;
+    c->load_from = d->load_from;
+    c->cfly = d->topology == BR_TOPO_FCML ? d->cfly.nom : 0.0;
     c->overshoot = d->overshoot.nom;
     c->vsupply = d->vsupply.nom;
     c->rsupply = d->rsupply.nom;
@@ -152,12 +186,17 @@ int br_chain_build_nominal(const br_design *d, br_chain *c, br_error *err)
     if (!(c->fsw > 0) || !(c->duty > 0 && c->duty < 1))
         return br_error_set(err, BR_EINPUT, d->path, d->fsw.line, "operating-point",
                             "fsw must be > 0 and duty inside (0, 1)");
+    if (d->direction == BR_DIR_NONE && d->iload.max > 0)
+        return br_error_set(err, BR_EINPUT, d->path, d->iload.line, "operating-point: load-current",
+                            "%g A with current=\"none\": idealised commutation carries no load "
+                            "current; expected load-current=\"0 A\" or a current direction",
+                            d->iload.max);
     for (int k = 0; k < c->n; k++) {
         br_stage *st = &c->st[k];
         int rc = d->topology == BR_TOPO_FCML ? fcml_timing(d, c, k, st, err)
-                                             : (string_timing(d, c, k, st), BR_OK);
+                                             : string_timing(d, c, k, st, err);
         if (rc == BR_OK)
-            rc = resolve_parts(d, k, c->tamb, st, err);
+            rc = resolve_parts(d, c, k, st, err);
         if (rc != BR_OK)
             return rc;
     }

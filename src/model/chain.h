@@ -47,10 +47,11 @@ typedef struct br_driver {
 
 typedef struct br_sw {
     const char *id;
-    double rds_on;           /* ohm */
+    double rds_on;           /* on-resistance at the junction temperature, ohm */
     double qg, qg_v;         /* gate charge qg at drive voltage qg_v: C, V */
     double tg;               /* gate-charge pulse duration, s */
-    double vsd;              /* reverse-conduction drop, V */
+    double vsd0, rsd;        /* reverse-conduction drop vsd0 + |I| rsd: V, ohm
+                                (vsd0 with this stage's gate-off voltage) */
     double vgs_rec, vgs_max; /* V */
 } br_sw;
 
@@ -78,6 +79,10 @@ typedef struct br_stage {
     double rev[2][BR_MAX_WINDOWS][2]; /* intervals of reverse conduction */
     int is_top;                       /* FCML: 1 for an A (top) switch */
     int pair;                         /* FCML: pair number 1..P, 0 for a string */
+    int carry[2];                     /* per direction: how the switch carries the
+                                         load current while on, +1 forward (drops
+                                         +I Rds(on)), -1 reverse (-I Rds(on)), 0 not
+                                         at all */
 } br_stage;
 
 struct br_chain {
@@ -86,6 +91,12 @@ struct br_chain {
     br_stage st[BR_MAX_SWITCHES];
     double T, fsw, duty, deadtime, tedge; /* s, Hz, -, s, s */
     double vin, tamb;                     /* V, K */
+    double tj;                            /* the switches' junction temperature, K */
+    double iload;                         /* load current magnitude, A */
+    double load_from;                     /* s: the design starts under load from
+                                             the first period boundary at or after
+                                             it; HUGE_VAL: start-up at no load */
+    double cfly;                          /* FCML flying capacitance, F (0: ideal) */
     double overshoot;                     /* fraction of vblock */
     double vsupply, rsupply, tramp;       /* V, ohm, s */
     double csupply;                       /* rail-0 bypass capacitance, F (0: none) */
@@ -127,5 +138,17 @@ double br_cap_after_charge(const br_cap *cap, double v0, double dq);
 
 /* Gate charge drawn at a turn-on edge when the drive voltage is v, C. */
 double br_sw_qg_at(const br_sw *sw, double v);
+
+/* Rds(on) of a switch part at junction temperature T (K), ohm. */
+double br_rds_at(const br_switch_part *p, double T);
+
+/* Voltage across stage k's switch while on and carrying load current i
+ * (A, magnitude) in direction dir (a br_dir_index), V. */
+double br_sw_on_drop(const br_stage *st, int dir, double i);
+
+/* Drop of stage k's switch conducting load current i (A, magnitude) in
+ * reverse while commanded off, V (positive: the switch stands at minus
+ * this). */
+double br_sw_rev_drop(const br_sw *sw, double i);
 
 #endif

@@ -1,6 +1,7 @@
 /* design.c - a design's defaults and stage lookup. */
 #include "model/design.h"
 
+#include <math.h>
 #include <stdlib.h>
 
 #define KELVIN 273.15
@@ -29,7 +30,11 @@ br_design *br_design_create(void)
     d->duty = br_qty_fixed(0.5);
     d->deadtime = br_qty_fixed(0.0);
     d->tamb = br_qty_fixed(25.0 + KELVIN);
+    d->tj = d->tamb;
     d->direction = BR_DIR_BOTH;
+    d->iload = br_qty_fixed(0.0);
+    d->load_from = HUGE_VAL;
+    d->cfly = br_qty_fixed(0.0);
     d->imbalance = br_qty_fixed(0.0);
     d->tedge = br_qty_fixed(10e-9);
     d->overshoot = br_qty_fixed(0.0);
@@ -101,15 +106,22 @@ void br_driver_part_defaults(br_driver_part *p)
     p->iq_on = br_qty_fixed(0.0);
     p->iq_off = br_qty_fixed(0.0);
     p->i_iso = br_qty_fixed(0.0);
+    p->vgs_off = br_qty_fixed(0.0);
 }
 
 void br_switch_part_defaults(br_switch_part *p)
 {
     p->rds_on = br_qty_fixed(0.0);
+    p->rds_temp = br_qty_fixed(25.0 + KELVIN); /* datasheets state it at 25 C, common practice */
+    p->rds_exp = br_qty_fixed(0.0);            /* no temperature law unless the file gives one */
     p->qg = br_qty_fixed(0.0);
     p->qg_v = br_qty_fixed(0.0); /* 0: qg is taken as independent of drive */
     p->tg = br_qty_fixed(20e-9);
+    p->reverse = BR_REV_DIODE;
     p->vsd = br_qty_fixed(0.0);
+    p->vth = br_qty_fixed(0.0);
+    p->rsd = br_qty_fixed(0.0);
+    p->rsd_given = 0;
     p->vgs_rec = br_qty_fixed(0.0);
     p->vgs_max = br_qty_fixed(0.0);
 }

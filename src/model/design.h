@@ -88,18 +88,34 @@ typedef struct br_driver_part {
     br_qty iq_on;     /* quiescent current while running, A */
     br_qty iq_off;    /* quiescent current while held in UVLO, A */
     br_qty i_iso;     /* signal isolator / level shifter current, A */
+    br_qty vgs_off;   /* gate voltage it applies to hold its switch off, V
+                         (<= 0; a channel-law switch's reverse drop rises
+                         by its magnitude) */
 } br_driver_part;
+
+/* How a switch conducts the load current in reverse while commanded off. */
+typedef enum br_reverse_law {
+    BR_REV_DIODE = 0,  /* a body diode: vsd + I rsd */
+    BR_REV_CHANNEL = 1 /* no body diode (GaN): the channel turns on in the
+                          third quadrant, vth + |vgs_off| + I rsd */
+} br_reverse_law;
 
 typedef struct br_switch_part {
     char id[BR_ID_MAX];
     int line;
-    br_qty rds_on;  /* on-resistance in the charging path, ohm */
-    br_qty qg;      /* total gate charge at qg_v, C */
-    br_qty qg_v;    /* drive voltage at which qg is stated, V */
-    br_qty tg;      /* duration of the gate-charge pulse at turn-on, s */
-    br_qty vsd;     /* reverse-conduction drop in dead time, V */
-    br_qty vgs_rec; /* recommended gate drive, V */
-    br_qty vgs_max; /* absolute maximum gate voltage, V */
+    br_qty rds_on;   /* on-resistance at rds_temp, ohm */
+    br_qty rds_temp; /* junction temperature of rds_on, K */
+    br_qty rds_exp;  /* Rds(on)(Tj) = rds_on (Tj / rds_temp)^rds_exp */
+    br_qty qg;       /* total gate charge at qg_v, C */
+    br_qty qg_v;     /* drive voltage at which qg is stated, V */
+    br_qty tg;       /* duration of the gate-charge pulse at turn-on, s */
+    int reverse;     /* br_reverse_law */
+    br_qty vsd;      /* BR_REV_DIODE: fixed part of the reverse drop, V */
+    br_qty vth;      /* BR_REV_CHANNEL: gate threshold voltage, V */
+    br_qty rsd;      /* current-dependent part of the reverse drop, ohm */
+    int rsd_given;   /* 0: rsd defaults (diode 0, channel Rds(on) at Tj) */
+    br_qty vgs_rec;  /* recommended gate drive, V */
+    br_qty vgs_max;  /* absolute maximum gate voltage, V */
 } br_switch_part;
 
 typedef enum br_rail_aux { BR_AUX_NONE = 0, BR_AUX_LDO = 1, BR_AUX_ZENER = 2 } br_rail_aux;
@@ -128,9 +144,18 @@ typedef struct br_stage_spec {
 
 typedef enum br_topology { BR_TOPO_FCML = 0, BR_TOPO_STRING = 1 } br_topology;
 
+/* How a string switch carries the load current while it is on. */
+typedef enum br_carry {
+    BR_CARRY_UNSET = 0, /* the file does not say (refused under load) */
+    BR_CARRY_FORWARD,   /* drain to source: drops +I Rds(on) */
+    BR_CARRY_REVERSE,   /* source to drain: drops -I Rds(on) */
+    BR_CARRY_NONE       /* the load current does not flow through it */
+} br_carry;
+
 /* Explicit string: one switch, its on-intervals as fractions of T. */
 typedef struct br_switch_spec {
     char name[BR_ID_MAX];
+    int carry;                     /* br_carry */
     int nwin;                      /* number of on-intervals */
     double on[BR_MAX_WINDOWS][2];  /* [start, end) fractions; end may wrap */
     br_qty vblock;                 /* voltage it blocks when off, V */
@@ -151,12 +176,20 @@ struct br_design {
     char path[512]; /* file it came from, for messages */
     char name[128]; /* the design's name attribute */
     /* operating point */
-    br_qty vin;       /* DC bus, V */
-    br_qty fsw;       /* switching frequency, Hz */
-    br_qty duty;      /* top-switch duty, fraction in (0,1) */
-    br_qty deadtime;  /* s */
-    br_qty tamb;      /* ambient temperature, K */
+    br_qty vin;      /* DC bus, V */
+    br_qty fsw;      /* switching frequency, Hz */
+    br_qty duty;     /* top-switch duty, fraction in (0,1) */
+    br_qty deadtime; /* s */
+    br_qty tamb;     /* ambient temperature, K */
+    br_qty tj;       /* the switches' junction temperature, K (read when
+                        tj_given; otherwise the ambient) */
+    int tj_given;
     int direction;    /* br_direction */
+    br_qty iload;     /* load current through the leg, magnitude, A */
+    double load_from; /* the load current flows from the first period
+                         boundary at or after this time, s; HUGE_VAL (the
+                         default): start-up at no load, loaded in steady
+                         state */
     br_qty imbalance; /* flying-capacitor imbalance, fraction of Vin/P */
     br_qty tedge;     /* switching-node edge (ramp) time, s */
     br_qty overshoot; /* edge overshoot on blocking voltage, fraction */
@@ -168,6 +201,7 @@ struct br_design {
     /* topology */
     int topology;                       /* br_topology */
     int levels;                         /* FCML: N levels */
+    br_qty cfly;                        /* FCML: flying capacitance, F (0: ideal) */
     int nswitch;                        /* STRING: number of switches */
     br_switch_spec sw[BR_MAX_SWITCHES]; /* STRING: bottom (0) to top */
     /* parts */

@@ -145,3 +145,27 @@ double br_sw_qg_at(const br_sw *sw, double v)
         return sw->qg;
     return v > 0 ? sw->qg * v / sw->qg_v : 0.0;
 }
+
+/* The drift region of a power MOSFET dominates its on-resistance, and the
+ * carrier mobility there falls as a power of the absolute temperature, so
+ * Rds(on) rises as (T / Tref)^a (Baliga, Fundamentals of Power
+ * Semiconductor Devices); the part states a, or a hot value that fixes it
+ * (the reader turns that into a). */
+double br_rds_at(const br_switch_part *p, double T)
+{
+    if (p->rds_exp.nom == 0.0 || !(T > 0) || !(p->rds_temp.nom > 0))
+        return p->rds_on.nom;
+    return p->rds_on.nom * pow(T / p->rds_temp.nom, p->rds_exp.nom);
+}
+
+double br_sw_on_drop(const br_stage *st, int dir, double i)
+{
+    if (dir < 0 || dir > 1)
+        return 0.0;
+    return st->carry[dir] * i * st->sw.rds_on;
+}
+
+double br_sw_rev_drop(const br_sw *sw, double i)
+{
+    return sw->vsd0 + fabs(i) * sw->rsd;
+}

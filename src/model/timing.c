@@ -1,7 +1,9 @@
 /* timing.c - the sorted events of one period. */
 #include "model/timing.h"
 
+#include <math.h>
 #include <stdlib.h>
+#include <string.h>
 
 int br_in_interval(double t, double a, double b)
 {
@@ -48,6 +50,166 @@ static void add_windows(br_timing *tm, int sw, int n, const double (*iv)[2], int
     }
 }
 
+void br_event_apply(const br_event *e, br_mask *on, br_mask *rev)
+{
+    br_mask bit = 1ULL << e->sw;
+    switch (e->kind) {
+    case BR_EV_ON:
+        *on |= bit;
+        break;
+    case BR_EV_OFF:
+        *on &= ~bit;
+        break;
+    case BR_EV_REV_ON:
+        *rev |= bit;
+        break;
+    default:
+        *rev &= ~bit;
+        break;
+    }
+}
+
+void br_timing_state_at(const br_timing *tm, double t, br_mask *on, br_mask *rev)
+{
+    br_mask m = tm->on0, r = tm->rev0;
+    for (int i = 0; i < tm->nev && tm->ev[i].t <= t; i++)
+        br_event_apply(&tm->ev[i], &m, &r);
+    *on = m;
+    *rev = r;
+}
+
+/* ---- flying-capacitor ripple ----------------------------------------------
+ * The string from ground is B1 ... BP, AP ... A1; capacitor k sits between
+ * the node above Bk and the node below Ak, so cell k (Ak, Bk) lies between
+ * capacitors k-1 and k (capacitor 0 is the bus, P the switch node's zero).
+ * A current I entering the switch node climbs to cell k on the A side when
+ * pair k+1's top switch conducts and on the B side otherwise, and leaves
+ * cell k on the side pair k conducts on; when the sides differ it passes
+ * through capacitor k: dV(k)/dt = (I / Cfly) (S(k+1) - S(k)) (the cell
+ * relations of Meynard & Foch, IEEE PESC 1992). */
+
+void br_timing_fly_slopes(const br_timing *tm, br_mask conducting, double *sl)
+{
+    int P = tm->npairs;
+    sl[0] = 0.0;
+    for (int k = 1; k <= P; k++) {
+        /* Aj sits at string position 2P - j */
+        int s_k = (int)(conducting >> (2 * P - k) & 1);
+        int s_k1 = k < P ? (int)(conducting >> (2 * P - k - 1) & 1) : 0;
+        sl[k] = k < P ? (s_k1 - s_k) / tm->cfly : 0.0;
+    }
+}
+
+/* Extremes over a walk, per ampere: of each capacitor's ripple and of
+ * each cell's, fly[j-1] - fly[j] (a line between events has them at its
+ * ends). */
+typedef struct fly_ext {
+    double cap[BR_MAX_FLY + 1][2], cell[BR_MAX_FLY + 1][2];
+} fly_ext;
+
+static void ext_take(fly_ext *x, const double *fly, int P)
+{
+    for (int k = 1; k <= P; k++) {
+        double c = fly[k - 1] - fly[k];
+        x->cap[k][0] = fmin(x->cap[k][0], fly[k]);
+        x->cap[k][1] = fmax(x->cap[k][1], fly[k]);
+        x->cell[k][0] = fmin(x->cell[k][0], c);
+        x->cell[k][1] = fmax(x->cell[k][1], c);
+    }
+}
+
+/* Walk the period from 0 (ripple fly0) to t: the ripple and slope there,
+ * the integral of the ripple over [0, t] and, when ext is not NULL, the
+ * extremes on the way. */
+static void fly_walk(const br_timing *tm, const double *fly0, double t, double *fly, double *sl,
+                     double *area, fly_ext *ext)
+{
+    int P = tm->npairs;
+    br_mask on = tm->on0, rev = tm->rev0;
+    double at = 0.0;
+    for (int k = 0; k <= P; k++) {
+        fly[k] = fly0[k];
+        area[k] = 0.0;
+    }
+    br_timing_fly_slopes(tm, on | rev, sl);
+    for (int i = 0; i <= tm->nev; i++) {
+        double te = i < tm->nev && tm->ev[i].t <= t ? tm->ev[i].t : t;
+        double dt = te - at;
+        for (int k = 1; k < P; k++) {
+            area[k] += fly[k] * dt + 0.5 * sl[k] * dt * dt;
+            fly[k] += sl[k] * dt;
+        }
+        if (ext)
+            ext_take(ext, fly, P);
+        at = te;
+        if (i == tm->nev || tm->ev[i].t > t)
+            break;
+        br_event_apply(&tm->ev[i], &on, &rev);
+        br_timing_fly_slopes(tm, on | rev, sl);
+    }
+}
+
+void br_timing_fly_at(const br_timing *tm, double t, double *fly, double *sl)
+{
+    double area[BR_MAX_FLY + 1];
+    fly_walk(tm, tm->fly_start, t, fly, sl, area, NULL);
+}
+
+void br_timing_fly_swing(const br_timing *tm, double *pp)
+{
+    memcpy(pp, tm->fly_pp, sizeof tm->fly_pp);
+}
+
+double br_timing_cell_min(const br_timing *tm, const br_chain *c, double i, int *stage)
+{
+    double low = HUGE_VAL;
+    *stage = -1;
+    for (int k = 0; k < c->n && tm->npairs > 0; k++) {
+        int j = c->st[k].pair;
+        double v = c->st[k].vblock + fmin(i * tm->cell_lo[j], i * tm->cell_hi[j]);
+        if (v < low) {
+            low = v;
+            *stage = k;
+        }
+    }
+    return low;
+}
+
+/* The ripple's value at the period start that gives it zero mean, and
+ * from it its value at the first event. */
+static void fly_build(const br_chain *c, br_timing *tm)
+{
+    double zero[BR_MAX_FLY + 1] = {0}, fly[BR_MAX_FLY + 1], sl[BR_MAX_FLY + 1];
+    double area[BR_MAX_FLY + 1];
+    tm->npairs = 0;
+    memset(tm->fly_start, 0, sizeof tm->fly_start);
+    memset(tm->fly_ev0, 0, sizeof tm->fly_ev0);
+    memset(tm->fly_pp, 0, sizeof tm->fly_pp);
+    memset(tm->cell_lo, 0, sizeof tm->cell_lo);
+    memset(tm->cell_hi, 0, sizeof tm->cell_hi);
+    if (!(c->cfly > 0) || !c->design || c->design->topology != BR_TOPO_FCML || tm->nev == 0)
+        return;
+    tm->npairs = c->n / 2;
+    tm->cfly = c->cfly;
+    fly_walk(tm, zero, tm->T, fly, sl, area, NULL);
+    for (int k = 0; k <= tm->npairs; k++)
+        tm->fly_start[k] = -area[k] / tm->T;
+    fly_walk(tm, tm->fly_start, tm->ev[0].t, fly, sl, area, NULL);
+    memcpy(tm->fly_ev0, fly, sizeof fly);
+    fly_ext x;
+    for (int k = 0; k <= BR_MAX_FLY; k++) {
+        x.cap[k][0] = x.cell[k][0] = HUGE_VAL;
+        x.cap[k][1] = x.cell[k][1] = -HUGE_VAL;
+    }
+    ext_take(&x, tm->fly_start, tm->npairs);
+    fly_walk(tm, tm->fly_start, tm->T, fly, sl, area, &x);
+    for (int k = 1; k <= tm->npairs; k++) {
+        tm->fly_pp[k] = k < tm->npairs ? x.cap[k][1] - x.cap[k][0] : 0.0;
+        tm->cell_lo[k] = x.cell[k][0];
+        tm->cell_hi[k] = x.cell[k][1];
+    }
+}
+
 void br_timing_build(const br_chain *c, int dir, br_timing *tm)
 {
     tm->T = c->T;
@@ -61,28 +223,5 @@ void br_timing_build(const br_chain *c, int dir, br_timing *tm)
             add_windows(tm, s, st->nrev[dir], st->rev[dir], BR_EV_REV_ON, BR_EV_REV_OFF, &tm->rev0);
     }
     qsort(tm->ev, (size_t)tm->nev, sizeof tm->ev[0], cmp_event);
-}
-
-void br_timing_state_at(const br_timing *tm, double t, br_mask *on, br_mask *rev)
-{
-    br_mask m = tm->on0, r = tm->rev0;
-    for (int i = 0; i < tm->nev && tm->ev[i].t <= t; i++) {
-        br_mask bit = 1ULL << tm->ev[i].sw;
-        switch (tm->ev[i].kind) {
-        case BR_EV_ON:
-            m |= bit;
-            break;
-        case BR_EV_OFF:
-            m &= ~bit;
-            break;
-        case BR_EV_REV_ON:
-            r |= bit;
-            break;
-        default:
-            r &= ~bit;
-            break;
-        }
-    }
-    *on = m;
-    *rev = r;
+    fly_build(c, tm);
 }

@@ -27,6 +27,8 @@ typedef struct br_event {
 
 typedef enum br_dir_index { BR_DIRI_NONE = -1, BR_DIRI_DOWN = 0, BR_DIRI_UP = 1 } br_dir_index;
 
+#define BR_MAX_FLY (BR_MAX_SWITCHES / 2) /* flying capacitors 1..P-1, plus the ends */
+
 typedef struct br_timing {
     double T;                   /* period, s */
     int n;                      /* switches */
@@ -34,6 +36,20 @@ typedef struct br_timing {
     br_event ev[BR_MAX_EVENTS]; /* sorted by t; offs before ons at a tie */
     br_mask on0;                /* commanded-on switches just after t = 0- (period start) */
     br_mask rev0;               /* reverse-conducting switches at the period start */
+    /* Flying-capacitor ripple of an FCML leg, per ampere of load current
+     * entering the switch node (step-up positive): capacitor k (1..P-1)
+     * moves at (S(k+1) - S(k)) / Cfly, S(j) = 1 while pair j's top switch
+     * conducts (commanded on, or in reverse in a dead time).  The ripple
+     * is taken with zero mean over the period. */
+    int npairs;                       /* P when the leg has ripple, else 0 */
+    double cfly;                      /* F */
+    double fly_start[BR_MAX_FLY + 1]; /* ripple of capacitor k at the period
+                                         start, V/A; [0] and [P] stay 0 */
+    double fly_ev0[BR_MAX_FLY + 1];   /* the same at the first event */
+    double fly_pp[BR_MAX_FLY + 1];    /* its peak-to-peak swing over the period */
+    double cell_lo[BR_MAX_FLY + 1];   /* extremes of cell j's ripple, fly[j-1] -
+                                         fly[j], over the period (j = 1..P), V/A */
+    double cell_hi[BR_MAX_FLY + 1];
 } br_timing;
 
 /* The events of one period for direction dir (a br_dir_index). */
@@ -41,6 +57,27 @@ void br_timing_build(const br_chain *c, int dir, br_timing *tm);
 
 /* Masks in force at time t in [0, T). */
 void br_timing_state_at(const br_timing *tm, double t, br_mask *on, br_mask *rev);
+
+/* Ripple slopes, V/(A s), of every flying capacitor while the switches in
+ * `conducting` conduct (sl[0] and sl[P] are 0). */
+void br_timing_fly_slopes(const br_timing *tm, br_mask conducting, double *sl);
+
+/* Ripple of every flying capacitor at time t in [0, T), V/A, and its
+ * slope there (after the events at t). */
+void br_timing_fly_at(const br_timing *tm, double t, double *fly, double *sl);
+
+/* Peak-to-peak ripple of every flying capacitor over the period, V/A
+ * (pp[0] and pp[P] are 0). */
+void br_timing_fly_swing(const br_timing *tm, double *pp);
+
+/* The lowest voltage any switch of c blocks over the period with the
+ * ripple of load current i (A, step-up positive), and its stage in
+ * *stage (-1 and HUGE_VAL without ripple).  Zero or below: the flying
+ * capacitors cannot hold their cells, and the model does not apply. */
+double br_timing_cell_min(const br_timing *tm, const br_chain *c, double i, int *stage);
+
+/* Apply event e to the commanded and reverse-conducting masks. */
+void br_event_apply(const br_event *e, br_mask *on, br_mask *rev);
 
 /* 1 when t lies in the wrapped interval [a, b) of a period T. */
 int br_in_interval(double t, double a, double b);

@@ -41,7 +41,11 @@ static const field op_fields[] = {F(br_design, vin, "vin", BR_KIND_VOLTAGE),
                                   F(br_design, imbalance, "imbalance", BR_KIND_FRACTION),
                                   F(br_design, tedge, "edge-time", BR_KIND_TIME),
                                   F(br_design, overshoot, "overshoot", BR_KIND_FRACTION),
+                                  F(br_design, iload, "load-current", BR_KIND_CURRENT),
+                                  F(br_design, tj, "switch-tj", BR_KIND_TEMPERATURE),
                                   END};
+
+static const field fcml_fields[] = {F(br_design, cfly, "cfly", BR_KIND_CAPACITANCE), END};
 
 static const field supply_fields[] = {F(br_design, vsupply, "voltage", BR_KIND_VOLTAGE),
                                       F(br_design, rsupply, "resistance", BR_KIND_RESISTANCE),
@@ -76,13 +80,17 @@ static const field driver_fields[] = {F(br_driver_part, uvlo_rise, "uvlo-rise", 
                                       F(br_driver_part, iq_on, "iq-run", BR_KIND_CURRENT),
                                       F(br_driver_part, iq_off, "iq-uvlo", BR_KIND_CURRENT),
                                       F(br_driver_part, i_iso, "iq-isolator", BR_KIND_CURRENT),
+                                      F(br_driver_part, vgs_off, "gate-off", BR_KIND_VOLTAGE),
                                       END};
 
 static const field switch_fields[] = {F(br_switch_part, rds_on, "rds-on", BR_KIND_RESISTANCE),
+                                      F(br_switch_part, rds_exp, "rds-on-exp", BR_KIND_NUMBER),
                                       F(br_switch_part, qg, "qg", BR_KIND_CHARGE),
                                       F(br_switch_part, qg_v, "qg-at", BR_KIND_VOLTAGE),
                                       F(br_switch_part, tg, "gate-pulse", BR_KIND_TIME),
                                       F(br_switch_part, vsd, "vsd", BR_KIND_VOLTAGE),
+                                      F(br_switch_part, vth, "vth", BR_KIND_VOLTAGE),
+                                      F(br_switch_part, rsd, "reverse-r", BR_KIND_RESISTANCE),
                                       F(br_switch_part, vgs_rec, "vgs-rec", BR_KIND_VOLTAGE),
                                       F(br_switch_part, vgs_max, "vgs-max", BR_KIND_VOLTAGE),
                                       END};
@@ -253,6 +261,8 @@ int br_tol_list_build(const br_design *d, br_tol_list *out, br_error *err)
     out->n = 0;
     find_usage(d, &u);
     TRY(add_fields(d, out, 0, op_fields, "operating-point", err));
+    if (d->topology == BR_TOPO_FCML)
+        TRY(add_fields(d, out, 0, fcml_fields, "fcml", err));
     TRY(add_fields(d, out, 0, supply_fields, "supply", err));
     TRY(add_parts(d, &u, out, err));
     TRY(add_links(d, &u, out, err));

@@ -2,8 +2,11 @@
  * table and the design-rule findings. */
 #include "report/check_report.h"
 
+#include "analyses/figures.h"
 #include "core/error.h"
+#include "model/timing.h"
 #include "report/caution.h"
+#include "report/table.h"
 
 #include <math.h>
 #include <stdio.h>
@@ -64,6 +67,57 @@ static int render_supply(const br_chain *c, br_text *out)
     return rc | br_text_put(out, "\n");
 }
 
+/* The load current, with its tolerance, and when it starts. */
+static int render_load(const br_chain *c, br_text *out)
+{
+    char a[32], b[32];
+    const br_design *d = c->design;
+    int rc = br_text_printf(out, "  load current      %s", si(a, sizeof a, c->iload, "A"));
+    if (d && (d->iload.min < c->iload || d->iload.max > c->iload))
+        rc |= br_text_printf(out, " (%s to %s)", si(a, sizeof a, d->iload.min, "A"),
+                             si(b, sizeof b, d->iload.max, "A"));
+    if (c->load_from < HUGE_VAL)
+        rc |= br_text_printf(out, ", flowing from %s on (start-up under load)\n",
+                             si(a, sizeof a, c->load_from, "s"));
+    else
+        rc |= br_text_put(out, " in steady state; start-up at no load\n");
+    rc |= br_text_printf(out, "  switch junction   %.1f C%s\n", c->tj - KELVIN,
+                         d && d->tj_given ? "" : " (the ambient)");
+    return rc;
+}
+
+/* The flying capacitors, their ripple at the load current and the lowest
+ * voltage a switch then blocks, over the directions analysed. */
+static int render_fly(const br_chain *c, br_text *out)
+{
+    char a[32], b[32], v[32];
+    if (!(c->cfly > 0))
+        return c->design && c->design->topology == BR_TOPO_FCML
+                   ? br_text_put(out, "  flying caps       ideal (no ripple)\n")
+                   : BR_OK;
+    br_timing tm;
+    double pp[BR_MAX_FLY + 1], worst = 0.0, low = HUGE_VAL;
+    int dirs[2], nd = br_design_directions(c, dirs), at = -1;
+    for (int i = 0; i < nd && dirs[i] >= 0; i++) {
+        int k;
+        br_timing_build(c, dirs[i], &tm);
+        br_timing_fly_swing(&tm, pp);
+        for (int j = 1; j < tm.npairs; j++)
+            worst = fmax(worst, pp[j] * c->iload);
+        double lv = br_timing_cell_min(&tm, c, (dirs[i] == BR_DIRI_UP ? 1.0 : -1.0) * c->iload, &k);
+        if (lv < low) {
+            low = lv;
+            at = k;
+        }
+    }
+    int rc = br_text_printf(out, "  flying caps       %s each, ripple up to %s peak to peak",
+                            si(a, sizeof a, c->cfly, "F"), si(b, sizeof b, worst, "V"));
+    if (at >= 0)
+        rc |= br_text_printf(out, ", lowest blocking voltage %s (%s)", si(v, sizeof v, low, "V"),
+                             c->st[at].name);
+    return rc | br_text_put(out, "\n");
+}
+
 static int render_header(const br_chain *c, br_text *out)
 {
     char a[32], b[32];
@@ -77,8 +131,11 @@ static int render_header(const br_chain *c, br_text *out)
     rc |= br_text_printf(out, "  dead time         %s\n", si(a, sizeof a, c->deadtime, "s"));
     rc |= br_text_printf(out, "  ambient           %.1f C\n", c->tamb - KELVIN);
     rc |= br_text_printf(out, "  current direction %s\n", direction_name(c->direction));
+    if (c->direction != BR_DIR_NONE)
+        rc |= render_load(c, out);
     rc |= render_supply(c, out);
     rc |= render_topology(c, out);
+    rc |= render_fly(c, out);
     rc |= br_text_printf(
         out, "  rules             edge overshoot %.0f %%, diode derating limit %.0f %%\n",
         100.0 * c->overshoot, 100.0 * c->derating);
@@ -217,6 +274,48 @@ static int render_table(const br_chain *c, br_text *out)
     return rc;
 }
 
+/* ---- the switches under load ---------------------------------------- */
+
+enum { S_STAGE, S_NAME, S_PART, S_RDS, S_DOWN, S_UP, S_REV, S_NCOL };
+
+/* Each switch's Rds(on) at its junction temperature, its voltage while on
+ * carrying the load current in each direction analysed, and its drop
+ * conducting it in reverse in a dead time. */
+static int render_switches(const br_chain *c, br_text *out)
+{
+    static const char *const heads[S_NCOL] = {"stage",         "switch",          "sw part",
+                                              "Rds(on) mohm",  "on, step-down V", "on, step-up V",
+                                              "reverse drop V"};
+    int show[2] = {c->direction == BR_DIR_STEP_DOWN || c->direction == BR_DIR_BOTH,
+                   c->direction == BR_DIR_STEP_UP || c->direction == BR_DIR_BOTH};
+    char a[32];
+    br_table *t = br_table_create(S_NCOL, c->n);
+    if (!t)
+        return BR_ENOMEM;
+    for (int col = 0; col < S_NCOL; col++)
+        br_table_head(t, col, heads[col], col == S_NAME || col == S_PART ? BR_LEFT : BR_RIGHT);
+    for (int k = 0; k < c->n; k++) {
+        const br_stage *st = &c->st[k];
+        br_table_row(t);
+        br_table_set(t, S_STAGE, "%d", k);
+        br_table_set(t, S_NAME, "%s", st->name);
+        br_table_set(t, S_PART, "%s", id_or_dash(st->sw.id));
+        br_table_set(t, S_RDS, "%.2f", st->sw.rds_on * 1e3);
+        for (int dir = 0; dir < 2; dir++)
+            br_table_set(
+                t, dir ? S_UP : S_DOWN, "%s",
+                show[dir]
+                    ? (snprintf(a, sizeof a, "%+.3f", br_sw_on_drop(st, dir, c->iload) + 0.0), a)
+                    : "-");
+        br_table_set(t, S_REV, "%.3f", br_sw_rev_drop(&st->sw, c->iload));
+    }
+    int rc = br_text_printf(out, "\nswitches at the load current (%s, junction %.1f C)\n",
+                            si(a, sizeof a, c->iload, "A"), c->tj - KELVIN);
+    rc |= br_table_render(t, 2, out);
+    br_table_free(t);
+    return rc;
+}
+
 /* ---- findings ------------------------------------------------------- */
 
 static int describe_diode(const br_chain *c, const br_rule_hit *h, br_text *out)
@@ -295,6 +394,12 @@ int br_rule_describe(const br_chain *c, const br_rule_hit *h, br_text *out)
         return describe_diode(c, h, out);
     case BR_RULE_SUPPLY_SHORT:
         return describe_supply(c, h, out);
+    case BR_RULE_FLY_COLLAPSE:
+        return br_text_printf(out,
+                              "switch %s: the flying capacitors' ripple at %.4g A takes the "
+                              "voltage it blocks down to %.3g V of its %.4g V; THE LEG CANNOT "
+                              "WORK: its cells collapse (expected a larger cfly)",
+                              h->part, h->current, h->figure, h->limit);
     case BR_RULE_NO_WINDOW:
         return br_text_printf(out,
                               "link %d (rail %s): its return switch %s is never on, so the link "
@@ -324,6 +429,8 @@ int br_check_render(const br_chain *c, const br_rule_list *rules, br_text *out)
 {
     int rc = render_header(c, out);
     rc |= render_table(c, out);
+    if (c->direction != BR_DIR_NONE)
+        rc |= render_switches(c, out);
     rc |= render_findings(c, rules, out);
     rc |= br_report_caution(out);
     return rc ? BR_ENOMEM : BR_OK;

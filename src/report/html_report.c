@@ -73,15 +73,21 @@ int br_html_para(br_text *out, const char *text)
 
 static int operating_point(br_text *out, const br_chain *c)
 {
-    char a[32], b[32], d[32];
-    char line[256];
-    snprintf(line, sizeof line,
-             "%d switches, bus %s, switching at %s, duty %.1f %%, dead time %s, ambient %.0f "
-             "\xc2\xb0"
-             "C",
-             c->n, br_plot_si(a, sizeof a, c->vin, 4, "V"),
-             br_plot_si(b, sizeof b, c->fsw, 4, "Hz"), 100.0 * c->duty,
-             br_plot_si(d, sizeof d, c->deadtime, 3, "s"), c->tamb - 273.15);
+    char a[32], b[32], d[32], i[32];
+    char line[320];
+    int n = snprintf(line, sizeof line,
+                     "%d switches, bus %s, switching at %s, duty %.1f %%, dead time %s, ambient "
+                     "%.0f \xc2\xb0"
+                     "C",
+                     c->n, br_plot_si(a, sizeof a, c->vin, 4, "V"),
+                     br_plot_si(b, sizeof b, c->fsw, 4, "Hz"), 100.0 * c->duty,
+                     br_plot_si(d, sizeof d, c->deadtime, 3, "s"), c->tamb - 273.15);
+    if (c->direction != BR_DIR_NONE && n > 0 && (size_t)n < sizeof line)
+        snprintf(line + n, sizeof line - (size_t)n,
+                 ", load current %s (switches at %.0f \xc2\xb0"
+                 "C; start-up %s)",
+                 br_plot_si(i, sizeof i, c->iload, 4, "A"), c->tj - 273.15,
+                 c->load_from < HUGE_VAL ? "under load" : "at no load");
     return tag_text(out, "<p>", line, "</p>\n");
 }
 

@@ -41,11 +41,31 @@ static int operating_point(const br_chain *c, br_text *out)
         br_fmt_si(vs, sizeof vs, c->vsupply, 4, "V"), c->n, c->n - 1, c->n == 2 ? "" : "s");
 }
 
+/* "load current 25 A (22.5 A to 27.5 A), switches at 100 C; start-up at no
+ * load": what the leg carries, when a direction is analysed. */
+static int load_line(const br_chain *c, br_text *out)
+{
+    char i[24], lo[24], hi[24], t[24];
+    const br_design *d = c->design;
+    if (c->direction == BR_DIR_NONE)
+        return br_text_put(out, "  no load current (idealised commutation)\n");
+    int rc = br_text_printf(out, "  load current %s", br_fmt_si(i, sizeof i, c->iload, 4, "A"));
+    if (d && (d->iload.min < c->iload || d->iload.max > c->iload))
+        rc |= br_text_printf(out, " (%s to %s)", br_fmt_si(lo, sizeof lo, d->iload.min, 4, "A"),
+                             br_fmt_si(hi, sizeof hi, d->iload.max, 4, "A"));
+    rc |= br_text_printf(out, ", switches at %.0f C; ", c->tj - KELVIN);
+    if (c->load_from < HUGE_VAL)
+        return rc | br_text_printf(out, "start-up under load from %s\n",
+                                   br_fmt_si(t, sizeof t, c->load_from, 4, "s"));
+    return rc | br_text_put(out, "start-up at no load\n");
+}
+
 int br_report_heading(const br_chain *c, const char *what, br_text *out)
 {
     int rc = br_text_printf(out, "%s of design %s (%s)\n", what, design_name(c),
                             c->design ? c->design->path : "");
     rc |= operating_point(c, out);
+    rc |= load_line(c, out);
     return rc | br_text_put(out, "\n") ? BR_ENOMEM : BR_OK;
 }
 
@@ -98,6 +118,12 @@ void br_xml_operating_point(br_xmlw *w, const br_chain *c)
     br_xmlw_num(w, "dead-time-s", c->deadtime);
     br_xmlw_num(w, "ambient-K", c->tamb);
     br_xmlw_attr(w, "current", direction_attr(c->direction));
+    br_xmlw_num(w, "load-current-A", c->iload);
+    br_xmlw_num(w, "switch-tj-K", c->tj);
+    if (c->load_from < HUGE_VAL)
+        br_xmlw_num(w, "load-from-s", c->load_from);
+    if (c->cfly > 0)
+        br_xmlw_num(w, "cfly-F", c->cfly);
     br_xmlw_num(w, "supply-V", c->vsupply);
     br_xmlw_int(w, "switches", c->n);
     br_xmlw_int(w, "links", c->n - 1);

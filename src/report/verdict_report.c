@@ -17,6 +17,13 @@ static int is_link_crit(int crit)
     return crit == BR_CRIT_INRUSH || crit == BR_CRIT_DIODE_VR;
 }
 
+/* A row names its current direction: every steady row, and the start-up
+ * rows of a design that starts under load. */
+static int names_dir(const br_verdict_row *r, int crit)
+{
+    return r->applies && isfinite(r->figure) && (!br_crit_is_startup(crit) || r->dir >= 0);
+}
+
 const char *br_verdict_word(const br_verdict_row *r)
 {
     return !r->applies       ? "n/a"
@@ -70,10 +77,7 @@ static void row(br_table *t, const br_chain *c, const br_verdict_row *r)
         br_table_set(t, C_MARGIN, "-");
     where(c, r, b, sizeof b);
     br_table_set(t, C_AT, "%s", b);
-    br_table_set(t, C_DIR, "%s",
-                 r->applies && !br_crit_is_startup(r->crit) && isfinite(r->figure)
-                     ? br_dir_short(r->dir)
-                     : "-");
+    br_table_set(t, C_DIR, "%s", names_dir(r, r->crit) ? br_dir_short(r->dir) : "-");
 }
 
 static int render_table(const br_chain *c, const br_verdict *v, unsigned mask, br_text *out)
@@ -265,7 +269,7 @@ void br_verdict_xml(br_xmlw *w, const br_chain *c, const br_verdict *v, unsigned
             br_xmlw_int(w, "stage", r->stage);
             br_xmlw_attr(w, "switch", c->st[r->stage].name);
         }
-        if (r->applies && !br_crit_is_startup(i) && isfinite(r->figure))
+        if (names_dir(r, i))
             br_xmlw_attr(w, "direction", br_dir_label(r->dir));
         row_note_xml(w, c, v, i, su);
         br_xmlw_end(w);

@@ -85,6 +85,26 @@ static double num_in(const char *json, const char *section, const char *key)
     return s ? br_json_number(json, s, key, NULL) : NAN;
 }
 
+/* The load-current fields of a case (absent: idealised commutation, no
+ * load): the direction, the dead-time drop vsd, the load current and the
+ * on-resistance that carries it, and when the load starts. */
+static void reference_load(const char *json, br_design *d)
+{
+    const char *dir = strstr(json, "\"current\":");
+    if (!dir)
+        return;
+    dir = strchr(dir + strlen("\"current\":"), '"'); /* the value's opening quote */
+    d->direction = dir && strncmp(dir, "\"step-up\"", 9) == 0 ? BR_DIR_STEP_UP : BR_DIR_STEP_DOWN;
+    double vsd = br_json_number(json, NULL, "vsd", NULL);
+    double i = br_json_number(json, NULL, "i_load", NULL);
+    double r = br_json_number(json, NULL, "rds_on", NULL);
+    double from = br_json_number(json, NULL, "current_from", NULL);
+    d->switches[0].vsd = br_qty_fixed(isnan(vsd) ? 0.0 : vsd);
+    d->iload = br_qty_fixed(isnan(i) ? 0.0 : i);
+    d->switches[0].rds_on = br_qty_fixed(isnan(r) ? 0.0 : r);
+    d->load_from = isnan(from) ? HUGE_VAL : from;
+}
+
 br_design *br_test_reference_design(const char *json)
 {
     double J = 0;
@@ -116,6 +136,7 @@ br_design *br_test_reference_design(const char *json)
     rp->uvlo_fall = br_qty_fixed(num_in(json, "\"uvlo\"", "fall"));
     d->switches[0].qg = br_qty_fixed(num_in(json, "\"load\"", "qg"));
     d->switches[0].tg = br_qty_fixed(num_in(json, "\"load\"", "tg"));
+    reference_load(json, d);
     J = dp->is.nom + dp->n.nom + d->caps[0].c.nom + rp->iq_on.nom + d->tedge.nom;
     if (isnan(J)) {
         br_design_free(d);

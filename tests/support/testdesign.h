@@ -16,6 +16,8 @@ br_design *br_test_fcml(int levels, double vin, double fsw, double duty, double 
 double br_json_number(const char *json, const char *from, const char *key, const char **next);
 
 /* The design of a reference case file (an FCML leg with one part of each
- * kind, idealised commutation), or NULL. */
+ * kind; idealised commutation unless the case gives a load current
+ * direction, then that direction, its dead-time drop, load current,
+ * on-resistance and the time the load starts), or NULL. */
 br_design *br_test_reference_design(const char *json);
 #endif

@@ -1,5 +1,6 @@
 /* test_examples_engine.c - the engine on the shipped example designs
  * (they need the design-file reader, hence this layer). */
+#include "analyses/startup.h"
 #include "analyses/steady.h"
 #include "bootrung/bootrung.h"
 #include "testkit.h"
@@ -7,6 +8,17 @@
 #include <gsl/gsl_errno.h>
 #include <math.h>
 #include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+/* The number after "key": in the json text from `at` on. */
+static double ref_number(const char *at, const char *key)
+{
+    char pat[96];
+    snprintf(pat, sizeof pat, "\"%s\":", key);
+    const char *p = strstr(at, pat);
+    return p ? strtod(p + strlen(pat), NULL) : NAN;
+}
 
 static br_design *load(const char *file)
 {
@@ -63,15 +75,15 @@ static void test_edges_vs_gsl(void)
 }
 
 /* Largest difference of any rail between the fast path and rk8pd (GSL
- * odeiv2 at 1e-10) at the period ends of a cold start, V. */
-static double cold_worst(const br_design *d, int periods)
+ * odeiv2 at 1e-10) at the period ends of a cold start in direction dir, V. */
+static double cold_worst(const br_design *d, int dir, int periods)
 {
     br_chain *c;
     br_error err;
     CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
     br_sim *sf, *sg;
-    CU_ASSERT_EQUAL_FATAL(br_sim_create(c, BR_DIRI_NONE, BR_INTEG_FAST, &sf, &err), BR_OK);
-    CU_ASSERT_EQUAL_FATAL(br_sim_create(c, BR_DIRI_NONE, BR_INTEG_REFERENCE, &sg, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_sim_create(c, dir, BR_INTEG_FAST, &sf, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_sim_create(c, dir, BR_INTEG_REFERENCE, &sg, &err), BR_OK);
     double worst = 0.0;
     for (int p = 1; p <= periods; p++) {
         CU_ASSERT_EQUAL(br_sim_run_until(sf, p * c->T, &err), BR_OK);
@@ -90,13 +102,18 @@ static double cold_worst(const br_design *d, int periods)
 
 /* 50 periods of cold start of d against rk8pd within limit (V), said
  * with its name when not; frees d. */
-static void cold_within(br_design *d, const char *name, double limit)
+static void cold_within_dir(br_design *d, int dir, const char *name, double limit)
 {
-    double worst = cold_worst(d, 50);
+    double worst = cold_worst(d, dir, 50);
     if (!(worst <= limit))
         fprintf(stderr, "%s: %.3g mV\n", name, 1e3 * worst);
     CU_ASSERT_TRUE(worst <= limit);
     br_design_free(d);
+}
+
+static void cold_within(br_design *d, const char *name, double limit)
+{
+    cold_within_dir(d, BR_DIRI_NONE, name, limit);
 }
 
 /* Cold starts against rk8pd over 50 periods, on the examples and on the
@@ -131,6 +148,59 @@ static void test_cold_start_stored_charge_vs_gsl(void)
             d->diodes[i].tau = br_qty_fixed(taus[t]);
         cold_within(d, taus[t] < 1e-7 ? "tau 25 ns" : "tau 150 ns", 5e-4);
     }
+}
+
+/* The examples started under load (from the first period, the 7-level
+ * leg stepping up with its flying capacitors' ripple moving every
+ * blocking switch, the 3-level stepping down): the on-state drops, the
+ * reverse drops and the ripple's lines are the same for both paths, which
+ * stay within 0.5 mV over 50 periods. */
+static void test_cold_start_under_load_vs_gsl(void)
+{
+    br_design *d = load("examples/leg-7level.xml");
+    d->load_from = 0.0;
+    cold_within_dir(d, BR_DIRI_UP, "leg-7level under load", 5e-4);
+    d = load("examples/demo-3level.xml");
+    d->load_from = 0.0;
+    cold_within_dir(d, BR_DIRI_DOWN, "demo-3level under load", 5e-4);
+}
+
+/* The reference chain c8 read from its design file, from the reader to
+ * the verdict's figures: the start-up (under load from 1 ms, after every
+ * driver has started) and the steady state at 20 A against the reference
+ * transient of the same model (ngspice 39, tests/data/reference/c8.json),
+ * with the tolerances of test_engine_reference.c: rails within 20 mV,
+ * final start-up times within 5 %, dropouts within 2. */
+static void test_ref_c8_from_file(void)
+{
+    char path[512];
+    snprintf(path, sizeof path, "%s/c8.json", BR_REFERENCE_DIR);
+    char *j = br_test_slurp(path, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(j);
+    br_design *d = load("tests/data/ref-c8.xml");
+    br_chain *c;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    br_startup su;
+    br_steady ss;
+    CU_ASSERT_EQUAL_FATAL(br_startup_run(c, NULL, &su, &err), BR_OK);
+    CU_ASSERT_EQUAL(su.dir, BR_DIRI_UP);
+    CU_ASSERT_EQUAL_FATAL(br_steady_solve(c, BR_DIRI_UP, NULL, &ss, &err), BR_OK);
+    CU_ASSERT_TRUE(ss.converged && ss.holds);
+    double dt = ss.stats.t1 - ss.stats.t0;
+    const char *at = strstr(j, "\"stages\"");
+    for (int k = 0; k < c->n; k++) {
+        at = strstr(at + 1, "\"stage\":");
+        CU_ASSERT_PTR_NOT_NULL_FATAL(at);
+        if (k == 0)
+            continue; /* the supply */
+        BR_ASSERT_REL(su.st[k].final_enable, ref_number(at, "final_enable_time_s"), 0.05);
+        BR_ASSERT_NEAR(su.st[k].ndropouts, ref_number(at, "n_disable_events"), 2.0);
+        BR_ASSERT_NEAR(ss.stats.rail[k].vint / dt, ref_number(at, "vrail_mean_ss_V"), 0.020);
+    }
+    br_chain_free(c);
+    br_design_free(d);
+    free(j);
 }
 
 /* A chain whose drivers drop out period after period has no periodic
@@ -169,6 +239,8 @@ int main(void)
         {"edges swept in closed form against rk8pd", test_edges_vs_gsl},
         {"cold starts of examples and extremes against rk8pd", test_cold_starts_vs_gsl},
         {"cold start with stored charge against rk8pd", test_cold_start_stored_charge_vs_gsl},
+        {"cold starts under load against rk8pd", test_cold_start_under_load_vs_gsl},
+        {"reference chain c8 from its design file", test_ref_c8_from_file},
         {"dropouts end the plain fallback; no abort on a singular Jacobian",
          test_hiccups_end_the_plain_fallback},
         {NULL, NULL},

@@ -303,6 +303,97 @@ static void test_ref_c2(void)
     br_design_free(d);
 }
 
+/* c8 carries a load current: the reader's new attributes against the
+ * case's inputs (reference transient of the same model, ngspice 39). */
+static void test_ref_c8(void)
+{
+    br_design *d = load("tests/data/ref-c8.xml");
+    if (!d)
+        return;
+    CU_ASSERT_EQUAL(br_design_nswitch(d), 8);
+    CU_ASSERT_EQUAL(d->direction, BR_DIR_STEP_UP);
+    BR_ASSERT_REL(d->iload.nom, 20.0, 1e-12);
+    BR_ASSERT_REL(d->load_from, 1e-3, 1e-12);
+    BR_ASSERT_REL(d->switches[0].rds_on.nom, 0.025, 1e-12);
+    BR_ASSERT_REL(d->switches[0].vsd.nom, 2.0, 1e-12);
+    CU_ASSERT_EQUAL(d->switches[0].reverse, BR_REV_DIODE);
+    CU_ASSERT_FALSE(d->tj_given); /* the switches at the ambient, 27 C */
+    CU_ASSERT_EQUAL(d->cfly.nom, 0.0);
+    char path[512];
+    snprintf(path, sizeof path, "%s/c8.json", BR_REFERENCE_DIR);
+    char *j = br_test_slurp(path, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(j);
+    BR_ASSERT_REL(d->iload.nom, json_number(j, "i_load"), 1e-12);
+    BR_ASSERT_REL(d->switches[0].rds_on.nom, json_number(j, "rds_on"), 1e-12);
+    BR_ASSERT_REL(d->switches[0].vsd.nom, json_number(j, "vsd"), 1e-12);
+    BR_ASSERT_REL(d->load_from, json_number(j, "current_from"), 1e-12);
+    free(j);
+    check_against_json(d, "c8.json");
+    br_design_free(d);
+}
+
+/* The attributes of the power stage under load, with their defaults. */
+static void test_load_attributes(void)
+{
+    br_error err;
+    br_design *d = load_text(
+        "<?xml version=\"1.0\"?>\n<bootrung-design version=\"1\">\n"
+        "  <operating-point vin=\"400 V\" fsw=\"100 kHz\" current=\"step-up\"\n"
+        "    load-current=\"12 A +-10%\" load-from=\"2 ms\" switch-tj=\"100 C +-10 K\"/>\n"
+        "  <supply voltage=\"12 V\"/>\n"
+        "  <topology><fcml levels=\"3\" cfly=\"4.7 uF +-20%\"/></topology>\n  <parts>\n"
+        "    <diode id=\"d\"/>\n    <capacitor id=\"c1\" c=\"1 uF\"/>\n"
+        "    <driver id=\"drv\" gate-off=\"-3 V\"/>\n"
+        "    <switch id=\"q\" rds-on=\"10 mohm\" rds-on-hot=\"15 mohm +-10%\" "
+        "rds-on-hot-temp=\"100 C\" reverse=\"channel\" vth=\"1.5 V\"/>\n"
+        "    <switch id=\"q2\" rds-on=\"10 mohm\" rds-on-temp=\"27 C\" rds-on-exp=\"2.3\" "
+        "vsd=\"0.8 V\" reverse-r=\"20 mohm\"/>\n"
+        "  </parts>\n" MINI_STAGES "</bootrung-design>\n",
+        &err);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(d);
+    BR_ASSERT_REL(d->iload.nom, 12.0, 1e-12);
+    BR_ASSERT_REL(d->iload.max, 13.2, 1e-12);
+    BR_ASSERT_REL(d->load_from, 2e-3, 1e-12);
+    CU_ASSERT_TRUE(d->tj_given);
+    BR_ASSERT_REL(d->tj.nom, 100.0 + KELVIN, 1e-12);
+    BR_ASSERT_REL(d->tj.min, 90.0 + KELVIN, 1e-12);
+    BR_ASSERT_REL(d->cfly.min, 3.76e-6, 1e-12);
+    BR_ASSERT_REL(d->drivers[0].vgs_off.nom, -3.0, 1e-12);
+    const br_switch_part *q = &d->switches[0];
+    CU_ASSERT_EQUAL(q->reverse, BR_REV_CHANNEL);
+    BR_ASSERT_REL(q->vth.nom, 1.5, 1e-12);
+    CU_ASSERT_FALSE(q->rsd_given);
+    BR_ASSERT_REL(q->rds_temp.nom, 25.0 + KELVIN, 1e-12); /* the datasheet's 25 C */
+    /* the hot point fixes the exponent: ln(15/10) / ln(373.15/298.15) =
+     * 0.405465 / 0.224386 = 1.80700; the hot value's spread becomes the
+     * exponent's: ln(13.5/10) / 0.224386 = 1.33745, ln(16.5/10) / 0.224386
+     * = 2.23176 */
+    BR_ASSERT_REL(q->rds_exp.nom, 1.80700, 1e-5);
+    BR_ASSERT_REL(q->rds_exp.min, 1.33745, 1e-5);
+    BR_ASSERT_REL(q->rds_exp.max, 2.23176, 1e-5);
+    BR_ASSERT_REL(br_rds_at(q, 100.0 + KELVIN), 0.015, 1e-12);
+    const br_switch_part *q2 = &d->switches[1];
+    CU_ASSERT_EQUAL(q2->reverse, BR_REV_DIODE);
+    BR_ASSERT_REL(q2->rds_temp.nom, 27.0 + KELVIN, 1e-12);
+    BR_ASSERT_REL(q2->rds_exp.nom, 2.3, 1e-12);
+    BR_ASSERT_REL(q2->rsd.nom, 0.020, 1e-12);
+    CU_ASSERT_TRUE(q2->rsd_given);
+    br_design_free(d);
+    /* without them: no load, the ambient, ideal flying capacitors */
+    d = load_text(MINI_HEAD "  <topology><fcml levels=\"2\"/></topology>\n  <parts>\n"
+                            "    <diode id=\"d\"/>\n" MINI_PARTS "  </parts>\n" MINI_STAGES
+                            "</bootrung-design>\n",
+                  &err);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(d);
+    CU_ASSERT_EQUAL(d->iload.nom, 0.0);
+    CU_ASSERT_EQUAL(d->load_from, HUGE_VAL);
+    CU_ASSERT_FALSE(d->tj_given);
+    CU_ASSERT_EQUAL(d->cfly.nom, 0.0);
+    CU_ASSERT_EQUAL(d->switches[0].rds_exp.nom, 0.0);
+    CU_ASSERT_EQUAL(d->drivers[0].vgs_off.nom, 0.0);
+    br_design_free(d);
+}
+
 /* ---- forward-point fit ------------------------------------------------------ */
 
 /* Shockley with series resistance, v(i) = n Vt ln(i/Is + 1) + i Rs. */
@@ -594,23 +685,18 @@ static void test_schema(void)
     CU_ASSERT_EQUAL(schema_validate("examples/leg-7level.xml"), 0);
     CU_ASSERT_EQUAL(schema_validate("tests/data/ref-c1.xml"), 0);
     CU_ASSERT_EQUAL(schema_validate("tests/data/ref-c2.xml"), 0);
+    CU_ASSERT_EQUAL(schema_validate("tests/data/ref-c8.xml"), 0);
 }
 
 /* The loader explains structural faults from its own table of names; the
  * schema must reject the same files, so the two cannot drift apart. */
 static void test_schema_agrees(void)
 {
-    static const char *const structural[] = {"unknown-element.xml",
-                                             "unknown-attribute.xml",
-                                             "missing-attribute.xml",
-                                             "missing-element.xml",
-                                             "out-of-order.xml",
-                                             "two-supplies.xml",
-                                             "text-content.xml",
-                                             "bad-version.xml",
-                                             "current-unknown.xml",
-                                             "wrong-root.xml",
-                                             NULL};
+    static const char *const structural[] = {
+        "unknown-element.xml",  "unknown-attribute.xml", "missing-attribute.xml",
+        "missing-element.xml",  "out-of-order.xml",      "two-supplies.xml",
+        "text-content.xml",     "bad-version.xml",       "current-unknown.xml",
+        "conducts-unknown.xml", "wrong-root.xml",        NULL};
     char rel[256];
     for (int i = 0; structural[i]; i++) {
         snprintf(rel, sizeof rel, "tests/bad/%s", structural[i]);
@@ -653,6 +739,8 @@ int main(void)
         {"7-level leg", test_leg7},
         {"reference chain c1", test_ref_c1},
         {"reference chain c2", test_ref_c2},
+        {"reference chain c8, under load", test_ref_c8},
+        {"the attributes of the load current", test_load_attributes},
         {"forward fit recovers Shockley parameters", test_fit_direct},
         {"forward fit rejects non-diode points", test_fit_rejects},
         {"forward fit from a file", test_fit_from_file},
