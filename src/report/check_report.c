@@ -253,6 +253,8 @@ static int describe_supply(const br_chain *c, const br_rule_hit *h, br_text *out
         rc |=
             br_text_printf(out, " (drops taken at the steady charge currents, %.3g mA in link %d)",
                            h->current * 1e3, k);
+    if (k == c->n - 1)
+        return rc | br_text_printf(out, "; THE CHAIN CANNOT WORK: rail %d never starts", k);
     return rc |
            br_text_printf(out, "; THE CHAIN CANNOT WORK: rails %d to %d never start", k, c->n - 1);
 }
@@ -306,14 +308,31 @@ int br_rule_describe(const br_chain *c, const br_rule_hit *h, br_text *out)
     }
 }
 
+static int count_fatal(const br_rule_list *rules)
+{
+    int n = 0;
+    for (int i = 0; i < rules->n; i++)
+        n += rules->hit[i].fatal != 0;
+    return n;
+}
+
+/* A finding that means the chain cannot work is a failure, not a warning:
+ * its line says FAIL and so does the summary (which `check` exits 1 on). */
 static int render_findings(const br_chain *c, const br_rule_list *rules, br_text *out)
 {
     if (rules->n == 0)
         return br_text_put(out, "\ndesign rules: no warnings\n");
-    int rc =
-        br_text_printf(out, "\ndesign rules: %d warning%s\n", rules->n, rules->n == 1 ? "" : "s");
+    int nfatal = count_fatal(rules), rc;
+    if (nfatal > 0)
+        rc = br_text_printf(out,
+                            "\ndesign rules: FAIL, %d finding%s, %d of them mean%s the chain "
+                            "cannot work\n",
+                            rules->n, rules->n == 1 ? "" : "s", nfatal, nfatal == 1 ? "s" : "");
+    else
+        rc = br_text_printf(out, "\ndesign rules: %d warning%s\n", rules->n,
+                            rules->n == 1 ? "" : "s");
     for (int i = 0; i < rules->n; i++) {
-        rc |= br_text_put(out, "  warning: ");
+        rc |= br_text_put(out, rules->hit[i].fatal ? "  FAIL: " : "  warning: ");
         rc |= br_rule_describe(c, &rules->hit[i], out);
         rc |= br_text_put(out, "\n");
     }
@@ -329,7 +348,7 @@ int br_check_render(const br_chain *c, const br_rule_list *rules, br_text *out)
     return rc ? BR_ENOMEM : BR_OK;
 }
 
-int br_check_report(const br_chain *c, br_text *out, int *nwarn, br_error *err)
+int br_check_report(const br_chain *c, br_text *out, int *nwarn, int *nfatal, br_error *err)
 {
     br_rule_list rules;
     int rc = br_rules_check(c, &rules, err);
@@ -337,6 +356,8 @@ int br_check_report(const br_chain *c, br_text *out, int *nwarn, br_error *err)
         return rc;
     if (nwarn)
         *nwarn = rules.n;
+    if (nfatal)
+        *nfatal = count_fatal(&rules);
     if (br_check_render(c, &rules, out) != BR_OK)
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory rendering the report");
     return BR_OK;

@@ -234,6 +234,59 @@ static void test_strict(void)
     }
 }
 
+/* A design in a scratch file (caller removes it and the directory). */
+static void scratch_design(char *dir, size_t dcap, char *path, size_t pcap, const char *text)
+{
+    snprintf(dir, dcap, "/tmp/br-check-XXXXXX");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(dir));
+    snprintf(path, pcap, "%s/design.xml", dir);
+    FILE *f = fopen(path, "w");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(f);
+    fputs(text, f);
+    fclose(f);
+}
+
+/* A chain that cannot work fails: status 1 without --strict.  Hand
+ * calculation: 8 V supply, link 1 through 200 ohm at its steady current
+ * of about 4 mA (2 mA running, 2 mA gate charge 10 nC x 200 kHz) drops
+ * 0.8 V plus the junction, leaving about 6.8 V for a 7.5 V UVLO rising. */
+static void test_cannot_work(void)
+{
+    static const char design[] =
+        "<bootrung-design version=\"1\" name=\"short\">\n"
+        "  <operating-point vin=\"400 V\" fsw=\"200 kHz\" dead-time=\"50 ns\"/>\n"
+        "  <supply voltage=\"8 V\" resistance=\"0.2 ohm\"/>\n"
+        "  <topology><fcml levels=\"2\"/></topology>\n"
+        "  <parts>\n"
+        "    <diode id=\"d\" is=\"100 nA\" n=\"1.5\" rs=\"0.5 ohm\" vrrm=\"600 V\"/>\n"
+        "    <capacitor id=\"c\" c=\"1 uF\"/>\n"
+        "    <driver id=\"g\" uvlo-rise=\"7.5 V\" uvlo-fall=\"7 V\" iq-run=\"2 mA\"/>\n"
+        "    <switch id=\"s\" qg=\"10 nC\"/>\n"
+        "  </parts>\n"
+        "  <stages diode=\"d\" capacitor=\"c\" driver=\"g\" switch=\"s\" "
+        "link-resistor=\"200 ohm\"/>\n"
+        "</bootrung-design>\n";
+    char dir[64], path[128];
+    scratch_design(dir, sizeof dir, path, sizeof path, design);
+    const char *const *cases[] = {
+        (const char *[]){"check", path, NULL},
+        (const char *[]){"check", "--strict", path, NULL},
+        (const char *[]){"check", "--quiet", path, NULL},
+    };
+    for (size_t i = 0; i < sizeof cases / sizeof cases[0]; i++) {
+        run_result r = run(cases[i]);
+        CU_ASSERT_EQUAL(r.status, 1);
+        CU_ASSERT_STRING_EQUAL(r.err, "");
+        CU_ASSERT_TRUE(has(r.out, "design rules: FAIL, "));
+        done(&r);
+    }
+    run_result r = run((const char *[]){"check", path, NULL});
+    CU_ASSERT_TRUE(has(r.out, "THE CHAIN CANNOT WORK: rail 1 never starts"));
+    done(&r);
+    remove(path);
+    rmdir(dir);
+}
+
 /* A full disk on stdout is an error, not a silent truncation. */
 static void test_stdout_error(void)
 {
@@ -306,6 +359,7 @@ int main(void)
         {"bad-input corpus: exit 2, FILE:LINE:", test_bad_corpus},
         {"check on every example", test_examples},
         {"--strict exit status", test_strict},
+        {"a chain that cannot work: exit 1", test_cannot_work},
         {"write error on stdout: exit 2", test_stdout_error},
         {"golden outputs", test_golden},
         {NULL, NULL},

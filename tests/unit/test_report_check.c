@@ -10,16 +10,21 @@
 
 /* Render the check report of a 3-level leg at 100 kHz (T = 10 us) with
  * 50 ns dead time; returns the text (caller frees) and the warning count. */
-static br_text *render(br_design *d, int *nwarn)
+static br_text *render_fatal(br_design *d, int *nwarn, int *nfatal)
 {
     br_chain *c = NULL;
     br_error err;
     CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
     br_text *t = br_text_create();
     CU_ASSERT_PTR_NOT_NULL_FATAL(t);
-    CU_ASSERT_EQUAL(br_check_report(c, t, nwarn, &err), BR_OK);
+    CU_ASSERT_EQUAL(br_check_report(c, t, nwarn, nfatal, &err), BR_OK);
     br_chain_free(c);
     return t;
+}
+
+static br_text *render(br_design *d, int *nwarn)
+{
+    return render_fatal(d, nwarn, NULL);
 }
 
 static int has(const br_text *t, const char *s)
@@ -109,8 +114,13 @@ static void test_fatal_finding(void)
     br_design *d = br_test_fcml(3, 800.0, 100e3, 0.5, 50e-9);
     d->vsupply = br_qty_fixed(8.0);
     d->def.r_link = br_qty_fixed(200.0);
-    br_text *t = render(d, NULL);
+    int nwarn = -1, nfatal = -1;
+    br_text *t = render_fatal(d, &nwarn, &nfatal);
+    CU_ASSERT_EQUAL(nfatal, 1);
+    CU_ASSERT_TRUE(nwarn >= nfatal);
     CU_ASSERT_TRUE(has(t, "THE CHAIN CANNOT WORK"));
+    CU_ASSERT_TRUE(has(t, "design rules: FAIL, "));
+    CU_ASSERT_TRUE(has(t, "  FAIL: rail "));
     CU_ASSERT_TRUE(has(t, "below its UVLO rising 7.5 V"));
     br_text_free(t);
     br_design_free(d);
