@@ -96,16 +96,19 @@ int br_catalog_load_memory(const char *buf, size_t len, const char *name, br_cat
     *out = NULL;
     name = name ? name : "(memory)";
     BR_TRY(br_xcheck_size(&CATALOG, name, buf ? len : 0, err));
+    char *lf = NULL;
+    BR_TRY(br_xline_ends(buf, len, name, &lf, err));
     br_catalog *cat = calloc(1, sizeof *cat);
     br_design *scratch = br_design_create();
     if (!cat || !scratch) {
         free(cat);
+        free(lf);
         br_design_free(scratch);
         return br_error_set(err, BR_ENOMEM, name, 0, "", "out of memory");
     }
     snprintf(cat->path, sizeof cat->path, "%s", name);
     snprintf(scratch->path, sizeof scratch->path, "%s", name);
-    br_rd r = {name, buf, len, scratch, err};
+    br_rd r = {name, lf ? lf : buf, len, scratch, err};
     br_xcapture c;
     br_xhandlers saved;
     memset(&c, 0, sizeof c);
@@ -113,6 +116,7 @@ int br_catalog_load_memory(const char *buf, size_t len, const char *name, br_cat
     int rc = load_doc(&r, cat, &c);
     br_xcapture_end(&saved);
     br_design_free(scratch);
+    free(lf);
     if (rc != BR_OK) {
         free(cat);
         return rc;

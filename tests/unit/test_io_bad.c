@@ -46,6 +46,7 @@ static const bad_case corpus[] = {
     {"cap-zero.xml", 11, "capacitor c1: c", "a capacitance > 0"},
     {"cap-tolerance-negative.xml", 11, "capacitor c1: c", "lower limit"},
     {"esr-negative.xml", 11, "capacitor c1: esr", ">= 0"},
+    {"line-ends-cr.xml", 13, "capacitor c1: esr", ">= 0"}, /* CR alone ends each line */
     {"link-resistor-negative.xml", 18, "stages: link-resistor", ">= 0"},
     {"bias-not-ascending.xml", 14, "capacitor c1 bias 3: v", "ascending"},
     {"bias-factor-range.xml", 13, "capacitor c1 bias 2: factor", "(0, 1]"},

@@ -524,6 +524,69 @@ static void test_lines(void)
     br_design_free(d);
 }
 
+/* Lines ended by a CR alone (XML allows LF, CR LF and CR) count like any
+ * other: vin sits on line 3 and the dead time on line 4 either way. */
+static void test_lines_cr(void)
+{
+    static const char *const ends[] = {"\n", "\r\n", "\r"};
+    for (int e = 0; e < 3; e++) {
+        char text[1024];
+        const char *nl = ends[e];
+        snprintf(text, sizeof text,
+                 "<?xml version=\"1.0\"?>%s<bootrung-design version=\"1\">%s"
+                 "  <operating-point vin=\"400 V\" fsw=\"100 kHz\"%s"
+                 "                   dead-time=\"50 ns\"/>%s  <supply voltage=\"12 V\"/>%s"
+                 "  <topology><fcml levels=\"2\"/></topology>%s  <parts><diode id=\"d\"/>%s"
+                 "    <capacitor id=\"c1\" c=\"1 uF\"/><driver id=\"drv\"/><switch id=\"q\"/>%s"
+                 "  </parts>%s" MINI_STAGES "</bootrung-design>%s",
+                 nl, nl, nl, nl, nl, nl, nl, nl, nl, nl);
+        br_error err;
+        br_design *d = load_text(text, &err);
+        CU_ASSERT_PTR_NOT_NULL_FATAL(d);
+        CU_ASSERT_EQUAL(d->vin.line, 3);
+        CU_ASSERT_EQUAL(d->deadtime.line, 4);
+        CU_ASSERT_EQUAL(d->caps[0].line, 8);
+        br_design_free(d);
+    }
+}
+
+/* The documented temperature range, -100 C to 300 C, includes its ends
+ * however they are written. */
+static void test_temperature_ends(void)
+{
+    static const char *const ok[] = {"-100 C", "-100.0 C", "173.15 K", "300 C", "573.15 K"};
+    static const char *const bad[] = {"-100.01 C", "300.01 C", "173.14 K"};
+    for (int i = 0; i < 5 + 3; i++) {
+        char text[1024];
+        const char *t = i < 5 ? ok[i] : bad[i - 5];
+        snprintf(text, sizeof text,
+                 MINI_HEAD
+                 "  <topology><fcml levels=\"2\"/></topology>\n"
+                 "  <parts>\n    <diode id=\"d\" ref-temp=\"%s\" ir-temp=\"%s\"/>\n" MINI_PARTS
+                 "  </parts>\n" MINI_STAGES "</bootrung-design>\n",
+                 t, t);
+        br_error err;
+        br_design *d = load_text(text, &err);
+        CU_ASSERT_EQUAL(d != NULL, i < 5);
+        br_design_free(d);
+        char amb[160];
+        snprintf(amb, sizeof amb, "ambient=\"%s\"/>", t);
+        snprintf(text, sizeof text,
+                 "<bootrung-design version=\"1\">\n"
+                 "  <operating-point vin=\"400 V\" fsw=\"100 kHz\" %s\n"
+                 "  <supply voltage=\"12 V\"/>\n"
+                 "  <topology><fcml levels=\"2\"/></topology>\n"
+                 "  <parts>\n    <diode id=\"d\"/>\n" MINI_PARTS "  </parts>\n" MINI_STAGES
+                 "</bootrung-design>\n",
+                 amb);
+        d = load_text(text, &err);
+        CU_ASSERT_EQUAL(d != NULL, i < 5);
+        if (d && i == 0)
+            BR_ASSERT_NEAR(d->tamb.nom, 173.15, 1e-9);
+        br_design_free(d);
+    }
+}
+
 /* ---- the schema ------------------------------------------------------------------ */
 
 /* Validate a file against the embedded schema with libxml2 directly;
@@ -631,6 +694,8 @@ int main(void)
         {"FCML switch names in precharge", test_fcml_switch_names},
         {"tolerance forms in a file", test_tolerance_forms},
         {"line numbers of attributes", test_lines},
+        {"line numbers with CR or CR LF line ends", test_lines_cr},
+        {"temperature range ends -100 C and 300 C", test_temperature_ends},
         {"embedded schema accepts the examples", test_schema},
         {"schema agrees with the structural diagnosis", test_schema_agrees},
         {"the example in the documentation loads", test_doc_example},
