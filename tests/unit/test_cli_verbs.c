@@ -407,6 +407,87 @@ static void test_xml_to_stdout(void)
     done(&r);
 }
 
+/* Copy file src to dst (a small text file). */
+static void copy_file(const char *src, const char *dst)
+{
+    size_t len = 0;
+    char *text = br_test_slurp(src, &len);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(text);
+    FILE *f = fopen(dst, "wb");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(f);
+    CU_ASSERT_EQUAL(fwrite(text, 1, len, f), len);
+    fclose(f);
+    free(text);
+}
+
+/* Parse the XML a verb wrote to stdout; the root's attribute attr must
+ * read want (what the path becomes in XML). */
+static void expect_xml_attr(const run_result *r, const char *attr, const char *want)
+{
+    xmlDoc *doc = xmlReadMemory(r->out, (int)strlen(r->out), "stdout.xml", NULL,
+                                XML_PARSE_NONET | XML_PARSE_NOERROR | XML_PARSE_NOWARNING);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(doc);
+    xmlNode *root = xmlDocGetRootElement(doc);
+    xmlChar *v = root ? xmlGetProp(root, (const xmlChar *)attr) : NULL;
+    CU_ASSERT_PTR_NOT_NULL(v);
+    if (v)
+        CU_ASSERT_STRING_EQUAL((const char *)v, want);
+    xmlFree(v);
+    xmlFreeDoc(doc);
+}
+
+/* A design or catalog path is bytes in no particular encoding (a Latin-1
+ * name, a control character): the result XML stays well-formed, the name
+ * read as Latin-1 where it is not UTF-8 and a control character replaced
+ * by U+FFFD.  By hand: 0xE9 is U+00E9, UTF-8 C3 A9; U+FFFD is EF BF BD. */
+static void test_xml_path_not_utf8(void)
+{
+    char dir[64], design[128], odd[128], catalog[128];
+    temp_dir(dir, sizeof dir);
+    snprintf(design, sizeof design, "%s/caf\xE9.xml", dir);
+    snprintf(odd, sizeof odd, "%s/ctl\x01.xml", dir);
+    snprintf(catalog, sizeof catalog, "%s/parts\x1F\xE9.xml", dir);
+    copy_file("tests/data/ref-c1.xml", design);
+    copy_file("tests/data/ref-c1.xml", odd);
+    FILE *f = fopen(catalog, "w");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(f);
+    fputs("<?xml version=\"1.0\"?>\n<bootrung-catalog version=\"1\">\n"
+          "<capacitor id=\"c\" c=\"1 uF\" rating=\"25 V\" cost=\"1\" area-mm2=\"2\"/>\n"
+          "</bootrung-catalog>\n",
+          f);
+    fclose(f);
+    char want[160], want_odd[160], want_cat[160];
+    snprintf(want, sizeof want, "%s/caf\xC3\xA9.xml", dir);
+    snprintf(want_odd, sizeof want_odd, "%s/ctl\xEF\xBF\xBD.xml", dir);
+    snprintf(want_cat, sizeof want_cat, "%s/parts\xEF\xBF\xBD\xC3\xA9.xml", dir);
+    const char *const *runs[] = {
+        (const char *[]){"startup", "--xml", "-", design, NULL},
+        (const char *[]){"steady", "--xml", "-", odd, NULL},
+        (const char *[]){"window", "--xml", "-", design, NULL},
+        (const char *[]){"corners", "--no-startup", "--xml", "-", odd, NULL},
+        (const char *[]){"yield", "--samples", "8", "--xml", "-", design, NULL},
+    };
+    const char *wants[] = {want, want_odd, want, want_odd, want};
+    for (size_t i = 0; i < sizeof runs / sizeof runs[0]; i++) {
+        run_result r = run(runs[i]);
+        CU_ASSERT_TRUE(r.status == 0 || r.status == 1);
+        expect_xml_attr(&r, "file", wants[i]);
+        done(&r);
+    }
+    run_result r = run((const char *[]){"pick", "--catalog", catalog, "--xml", "-", design, NULL});
+    CU_ASSERT_TRUE(r.status == 0 || r.status == 1);
+    xmlDoc *doc = xmlReadMemory(r.out, (int)strlen(r.out), "pick.xml", NULL,
+                                XML_PARSE_NONET | XML_PARSE_NOERROR | XML_PARSE_NOWARNING);
+    CU_ASSERT_PTR_NOT_NULL(doc);
+    CU_ASSERT_PTR_NOT_NULL(strstr(r.out, want_cat));
+    xmlFreeDoc(doc);
+    done(&r);
+    remove(design);
+    remove(odd);
+    remove(catalog);
+    rmdir(dir);
+}
+
 /* Report the first differing line against a golden file. */
 static int same_as_golden(const char *golden, const char *got)
 {
@@ -452,6 +533,7 @@ int main(void)
         {"bad usage: status 2", test_bad_usage},
         {"unwritable output: status 2, nothing left", test_write_failure},
         {"--xml - goes to stdout", test_xml_to_stdout},
+        {"result XML well-formed for paths that are not UTF-8", test_xml_path_not_utf8},
         {"help texts (golden)", test_help_golden},
         {NULL, NULL},
     };
