@@ -153,7 +153,8 @@ int cmd_window(int argc, char **argv)
         parse_freq("fmax", fmax, &wo.fmax) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
     const char *const out[] = {p.xml, p.report, p.plot};
-    if (br_cli_one_stdout("window", out, 3) != BR_EXIT_OK)
+    const char *const names[] = {"xml", "report", "plot"};
+    if (br_cli_outputs("window", names, out, 3, (const char *const *)pos, 1) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
     return run(pos[0], &p, &wo, quiet);
 }

@@ -114,7 +114,7 @@ int br_yield_html(const br_chain *c, const br_yield *y, double min_yield, const 
     snprintf(line, sizeof line, "yield %.2f %% (%ld of %ld), 95 %% interval %.2f to %.2f %%",
              100.0 * y->yield, y->pass, y->n, 100.0 * y->lo, 100.0 * y->hi);
     rc |= badge(out, !br_yield_failed(y, min_yield), line);
-    if (min_yield > 0)
+    if (min_yield >= 0)
         snprintf(line, sizeof line,
                  "Judged on the lower confidence bound against the minimum yield %.2f %%.",
                  100.0 * min_yield);

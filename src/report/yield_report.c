@@ -18,7 +18,7 @@ static const char *const UNITS[BR_CRIT_COUNT] = {"s", "A", "V", "V", "V", "V", "
 
 int br_yield_failed(const br_yield *y, double min_yield)
 {
-    return min_yield > 0 ? y->lo < min_yield : y->pass < y->n;
+    return min_yield >= 0 ? y->lo < min_yield : y->pass < y->n;
 }
 
 /* ---- text ------------------------------------------------------------------ */
@@ -67,7 +67,7 @@ static int yield_line(const br_yield *y, double min_yield, br_text *out)
                  y->steady_only, y->steady_only == 1 ? "" : "s");
         rc |= br_report_wrap(out, "  note: ", buf, 8);
     }
-    if (min_yield > 0) {
+    if (min_yield >= 0) {
         snprintf(buf, sizeof buf, "%s: the lower confidence bound %s is %s the minimum %s",
                  y->lo >= min_yield ? "PASS" : "FAIL", pct(b, sizeof b, y->lo),
                  y->lo >= min_yield ? "at or above" : "below", pct(d, sizeof d, min_yield));
@@ -224,7 +224,7 @@ int br_yield_xml(const br_chain *c, const br_yield *y, double min_yield, const c
     br_xmlw_num(w, "lower", y->lo);
     br_xmlw_num(w, "upper", y->hi);
     br_xmlw_num(w, "confidence", 0.95);
-    if (min_yield > 0)
+    if (min_yield >= 0)
         br_xmlw_num(w, "min-yield", min_yield);
     br_xmlw_bool(w, "ok", !br_yield_failed(y, min_yield));
     for (int crit = 0; crit < BR_CRIT_COUNT; crit++)

@@ -7,6 +7,7 @@
 
 #include <dirent.h>
 #include <fcntl.h>
+#include <signal.h>
 #include <spawn.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -287,6 +288,52 @@ static void test_cannot_work(void)
     rmdir(dir);
 }
 
+/* Run bootrung with stdout on a pipe nobody reads (`| head -1` once head
+ * has gone) and SIGPIPE at its default action, as a shell leaves it.
+ * Returns the wait status. */
+static int run_closed_pipe(char *const *argv)
+{
+    int fds[2];
+    CU_ASSERT_EQUAL_FATAL(pipe(fds), 0);
+    close(fds[0]);
+    posix_spawn_file_actions_t fa;
+    posix_spawnattr_t at;
+    sigset_t def;
+    posix_spawn_file_actions_init(&fa);
+    posix_spawn_file_actions_adddup2(&fa, fds[1], 1);
+    posix_spawn_file_actions_addopen(&fa, 2, "/dev/null", O_WRONLY, 0);
+    posix_spawnattr_init(&at);
+    sigemptyset(&def);
+    sigaddset(&def, SIGPIPE);
+    posix_spawnattr_setsigdefault(&at, &def);
+    posix_spawnattr_setflags(&at, POSIX_SPAWN_SETSIGDEF);
+    pid_t pid;
+    int ok = posix_spawn(&pid, BR_BINARY, &fa, &at, argv, NULL) == 0, status = -1;
+    close(fds[1]);
+    if (ok)
+        waitpid(pid, &status, 0);
+    posix_spawn_file_actions_destroy(&fa);
+    posix_spawnattr_destroy(&at);
+    CU_ASSERT_TRUE(ok);
+    return status;
+}
+
+/* A reader that has gone is a write error: status 2, not death by
+ * SIGPIPE (status 141 in a shell). */
+static void test_closed_pipe(void)
+{
+    char *const check[] = {"bootrung", "check", "examples/demo-3level.xml", NULL};
+    char *const csv[] = {"bootrung", "startup", "--csv", "-", "tests/data/ref-c1.xml", NULL};
+    char *const *cases[] = {check, csv};
+    for (int i = 0; i < 2; i++) {
+        int st = run_closed_pipe(cases[i]);
+        CU_ASSERT_TRUE(WIFEXITED(st));
+        if (WIFSIGNALED(st))
+            fprintf(stderr, "%s: killed by signal %d\n", cases[i][1], WTERMSIG(st));
+        CU_ASSERT_EQUAL(WIFEXITED(st) ? WEXITSTATUS(st) : -1, 2);
+    }
+}
+
 /* A full disk on stdout is an error, not a silent truncation. */
 static void test_stdout_error(void)
 {
@@ -361,6 +408,7 @@ int main(void)
         {"--strict exit status", test_strict},
         {"a chain that cannot work: exit 1", test_cannot_work},
         {"write error on stdout: exit 2", test_stdout_error},
+        {"a closed pipe on stdout: exit 2, not SIGPIPE", test_closed_pipe},
         {"golden outputs", test_golden},
         {NULL, NULL},
     };
