@@ -4,12 +4,13 @@
 #include "engine/diode.h"
 
 #include <math.h>
+#include <string.h>
 
 static void add(br_rule_list *out, int kind, int stage, const char *part, double figure,
                 double limit)
 {
     if (out->n >= BR_RULES_MAX)
-        return; /* cannot happen: at most five findings per stage plus one */
+        return; /* cannot happen: the bound counts every rule's findings */
     br_rule_hit *h = &out->hit[out->n++];
     h->kind = kind;
     h->stage = stage;
@@ -18,6 +19,8 @@ static void add(br_rule_list *out, int kind, int stage, const char *part, double
     h->limit = limit;
     h->current = 0.0;
     h->fatal = 0;
+    h->what = h->unit = "";
+    h->lo = 0.0;
 }
 
 double br_link_vblock(const br_chain *c, int k)
@@ -133,6 +136,79 @@ static void supply_rule(const br_chain *c, br_rule_list *out)
     }
 }
 
+/* ---- plausibility ----------------------------------------------------------- */
+
+/* One plausible range: what no part of the kind in a gate-drive chain
+ * goes beyond (from memory of the trade; generous by a decade or more). */
+typedef struct plausible {
+    const char *what; /* the attribute, as in the design file */
+    const char *unit;
+    double lo, hi; /* SI */
+} plausible;
+
+static const plausible P_CJ0 = {"cj0", "F", 0.0, 10e-9};
+static const plausible P_RS = {"rs", "ohm", 0.0, 100.0};
+static const plausible P_TAU = {"tau", "s", 0.0, 100e-6};
+static const plausible P_C = {"c", "F", 1e-9, 10e-3};
+static const plausible P_ESR = {"esr", "ohm", 0.0, 10.0};
+static const plausible P_RLINK = {"link-resistor", "ohm", 0.0, 100e3};
+static const plausible P_QG = {"qg", "C", 0.0, 10e-6};
+static const plausible P_TG = {"gate-pulse", "s", 0.0, 10e-6};
+static const plausible P_RDS = {"rds-on", "ohm", 0.0, 100.0};
+static const plausible P_IQ_RUN = {"iq-run", "A", 0.0, 1.0};
+static const plausible P_IQ_UVLO = {"iq-uvlo", "A", 0.0, 1.0};
+static const plausible P_IQ_ISO = {"iq-isolator", "A", 0.0, 1.0};
+static const plausible P_UVLO = {"uvlo-rise", "V", 0.0, 100.0};
+static const plausible P_VSUP = {"supply voltage", "V", 0.0, 100.0};
+static const plausible P_RSUP = {"supply resistance", "ohm", 0.0, 1e3};
+static const plausible P_FSW = {"fsw", "Hz", 0.0, 100e6};
+
+/* Flag v once per part and attribute (a part sits on many stages). */
+static void check_plausible(br_rule_list *out, int stage, const char *part, double v,
+                            const plausible *p)
+{
+    if (v >= p->lo && v <= p->hi)
+        return;
+    for (int i = 0; i < out->n; i++)
+        if (out->hit[i].kind == BR_RULE_IMPLAUSIBLE && out->hit[i].what == p->what &&
+            strcmp(out->hit[i].part, part ? part : "") == 0)
+            return;
+    add(out, BR_RULE_IMPLAUSIBLE, stage, part, v, p->hi);
+    br_rule_hit *h = &out->hit[out->n - 1];
+    h->what = p->what;
+    h->unit = p->unit;
+    h->lo = p->lo;
+}
+
+static void plausible_stage(const br_chain *c, int k, br_rule_list *out)
+{
+    const br_stage *st = &c->st[k];
+    if (k > 0) {
+        check_plausible(out, k, st->diode.id, st->diode.cj0, &P_CJ0);
+        check_plausible(out, k, st->diode.id, st->diode.rs, &P_RS);
+        check_plausible(out, k, st->diode.id, st->diode.tau, &P_TAU);
+        check_plausible(out, k, st->cap.id, st->cap.c, &P_C);
+        check_plausible(out, k, st->cap.id, st->cap.esr, &P_ESR);
+        check_plausible(out, k, NULL, st->r_link, &P_RLINK);
+    }
+    check_plausible(out, k, st->sw.id, st->sw.qg, &P_QG);
+    check_plausible(out, k, st->sw.id, st->sw.tg, &P_TG);
+    check_plausible(out, k, st->sw.id, st->sw.rds_on, &P_RDS);
+    check_plausible(out, k, st->drv.id, st->drv.iq_on, &P_IQ_RUN);
+    check_plausible(out, k, st->drv.id, st->drv.iq_off, &P_IQ_UVLO);
+    check_plausible(out, k, st->drv.id, st->drv.i_iso, &P_IQ_ISO);
+    check_plausible(out, k, st->drv.id, st->drv.uvlo_rise, &P_UVLO);
+}
+
+static void plausible_chain(const br_chain *c, br_rule_list *out)
+{
+    check_plausible(out, -1, NULL, c->vsupply, &P_VSUP);
+    check_plausible(out, -1, NULL, c->rsupply, &P_RSUP);
+    check_plausible(out, -1, NULL, c->fsw, &P_FSW);
+    for (int k = 0; k < c->n; k++)
+        plausible_stage(c, k, out);
+}
+
 int br_rules_check(const br_chain *c, br_rule_list *out, br_error *err)
 {
     (void)err; /* every rule is a comparison of resolved numbers */
@@ -150,6 +226,7 @@ int br_rules_check(const br_chain *c, br_rule_list *out, br_error *err)
         gate_rules(c, k, out);
     }
     supply_rule(c, out);
+    plausible_chain(c, out);
     return BR_OK;
 }
 
@@ -157,7 +234,7 @@ const char *br_rule_name(int kind)
 {
     static const char *const names[BR_RULE_KINDS] = {
         "diode-rating",   "diode-derating",   "diode-unrated",  "uvlo-hysteresis", "supply-short",
-        "aux-below-uvlo", "gate-unprotected", "aux-above-gate", "no-window",
+        "aux-below-uvlo", "gate-unprotected", "aux-above-gate", "no-window",       "implausible",
     };
     return kind >= 0 && kind < BR_RULE_KINDS ? names[kind] : "unknown";
 }

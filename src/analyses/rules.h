@@ -19,6 +19,7 @@ typedef enum br_rule_kind {
     BR_RULE_GATE_UNPROTECTED, /* vgs_max < supply, no regulator or clamp */
     BR_RULE_AUX_ABOVE_GATE,   /* regulator or clamp output above vgs_max */
     BR_RULE_NO_WINDOW,        /* the return switch is never on: the link never charges */
+    BR_RULE_IMPLAUSIBLE,      /* a value no part of its kind has (a unit slip?) */
     BR_RULE_KINDS
 } br_rule_kind;
 
@@ -31,10 +32,16 @@ typedef struct br_rule_hit {
     double limit;     /* the limit it breaks, SI (V) */
     double current;   /* SUPPLY_SHORT: estimated link current used, A */
     int fatal;        /* 1 when the chain cannot work at all */
+    /* IMPLAUSIBLE: the attribute, its SI unit and the plausible range
+     * [lo, limit] the figure lies outside */
+    const char *what;
+    const char *unit;
+    double lo;
 } br_rule_hit;
 
-/* At most a handful of findings per stage plus one for the chain. */
-#define BR_RULES_MAX (5 * BR_MAX_SWITCHES + 4)
+/* A handful of findings per stage, the plausibility findings (once per
+ * part and attribute) and a few for the chain. */
+#define BR_RULES_MAX (8 * BR_MAX_SWITCHES + 32)
 
 typedef struct br_rule_list {
     int n;                         /* findings used */
@@ -42,7 +49,13 @@ typedef struct br_rule_list {
 } br_rule_list;
 
 /* Run every rule on c.  Always succeeds on a chain that br_chain_build
- * accepted; returns BR_OK and the number of findings in out->n. */
+ * accepted; returns BR_OK and the number of findings in out->n.
+ *
+ * The plausibility rule flags a nominal value outside the range any part
+ * of its kind has in a gate-drive chain (a junction capacitance above
+ * 10 nF, a gate charge above 10 uC, ...; the table is in rules.c and in
+ * docs/design-file.md): the reader already insists on units, so such a
+ * value is a slip of the prefix or the unit, not a bare number taken as SI. */
 int br_rules_check(const br_chain *c, br_rule_list *out, br_error *err);
 
 /* Reverse voltage the diode of link k (k >= 1) blocks: the blocking

@@ -129,7 +129,8 @@ int cmd_pick(int argc, char **argv)
     br_pick_opts po;
     const char *const out[] = {a.xml}, *const names[] = {"xml"};
     const char *const in[] = {pos[0], a.catalog};
-    if (options(&a, &po) != BR_EXIT_OK || br_cli_outputs("pick", names, out, 1, in, 2) != BR_EXIT_OK)
+    if (options(&a, &po) != BR_EXIT_OK ||
+        br_cli_outputs("pick", names, out, 1, in, 2) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
     outputs o = {0};
     br_error err;

@@ -112,7 +112,9 @@ static int run(const char *path, const paths *p, br_window_opts *wo, int quiet)
         wo->progress = &lr.hook;
         int rc = compute(path, wo, &o, &err);
         status = br_cli_run_commit(&lr);
-        if (status == BR_EXIT_OK)
+        if (status == BR_EXIT_OK && rc == BR_EUSAGE) /* an option does not fit the design */
+            status = br_cli_usage_error("window", "%s: %s", err.field, err.msg);
+        else if (status == BR_EXIT_OK)
             status = rc != BR_OK ? br_cli_fail(&err, path) : write_all(&o, p, quiet);
         if (status == BR_EXIT_OK && !o.w->design.holds)
             status = BR_EXIT_FAIL;

@@ -42,7 +42,9 @@ static int validate(const char *file, xmlDoc *doc, br_error *err)
 
 /* ---- the parts --------------------------------------------------------------- */
 
-static const br_range r_offer = {0.0, 1e12, 0, 0, "a number >= 0"};
+/* Any cost or area a catalog can mean; beyond, a typo (and sums of them
+ * stay far from overflowing). */
+static const br_range r_offer = {0.0, 1e12, 0, 0, "a number from 0 to 1e12"};
 
 static int read_offer(br_rd *r, xmlNode *n, br_offer *o)
 {

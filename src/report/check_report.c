@@ -288,6 +288,28 @@ static int describe_stage(const br_chain *c, const br_rule_hit *h, br_text *out)
     }
 }
 
+/* "diode d1 (link 2): cj0 12 F is outside ..." */
+static int describe_implausible(const br_chain *c, const br_rule_hit *h, br_text *out)
+{
+    char v[32], lo[32], hi[32];
+    int rc = 0;
+    if (h->part[0])
+        rc |= br_text_printf(out, "part %s (stage %d, %s): ", h->part, h->stage,
+                             c->st[h->stage].name);
+    else if (h->stage >= 0)
+        rc |= br_text_printf(out, "link %d (rail %s): ", h->stage, c->st[h->stage].name);
+    rc |=
+        br_text_printf(out, "%s %s is IMPLAUSIBLE: ", h->what, si(v, sizeof v, h->figure, h->unit));
+    if (h->lo > 0)
+        rc |=
+            br_text_printf(out, "parts of its kind have %s to %s",
+                           si(lo, sizeof lo, h->lo, h->unit), si(hi, sizeof hi, h->limit, h->unit));
+    else
+        rc |= br_text_printf(out, "parts of its kind have at most %s",
+                             si(hi, sizeof hi, h->limit, h->unit));
+    return rc | br_text_put(out, "; check the number and its unit");
+}
+
 int br_rule_describe(const br_chain *c, const br_rule_hit *h, br_text *out)
 {
     switch (h->kind) {
@@ -297,6 +319,8 @@ int br_rule_describe(const br_chain *c, const br_rule_hit *h, br_text *out)
         return describe_diode(c, h, out);
     case BR_RULE_SUPPLY_SHORT:
         return describe_supply(c, h, out);
+    case BR_RULE_IMPLAUSIBLE:
+        return describe_implausible(c, h, out);
     case BR_RULE_NO_WINDOW:
         return br_text_printf(out,
                               "link %d (rail %s): its return switch %s is never on, so the link "

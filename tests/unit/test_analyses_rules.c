@@ -286,6 +286,44 @@ static void test_no_window(void)
     done(d, c);
 }
 
+/* Values no part of their kind has, with their units right but a prefix
+ * slipped: a 62 mC gate charge (meant 62 nC) and a 12 mF junction
+ * capacitance (meant 12 pF).  Each is flagged once, though the parts sit
+ * on every stage; the same values at the edge of the range are not. */
+static void test_implausible(void)
+{
+    br_rule_list r;
+    br_design *d = leg(4, 1000.0);
+    d->switches[0].qg = br_qty_fixed(62e-3);
+    d->diodes[0].cj0 = br_qty_fixed(12e-3);
+    br_chain *c = check(d, &r);
+    CU_ASSERT_EQUAL(count(&r, BR_RULE_IMPLAUSIBLE), 2);
+    int seen_qg = 0, seen_cj0 = 0;
+    for (int i = 0; i < r.n; i++) {
+        const br_rule_hit *h = &r.hit[i];
+        if (h->kind != BR_RULE_IMPLAUSIBLE)
+            continue;
+        CU_ASSERT_FALSE(h->fatal);
+        if (strcmp(h->what, "qg") == 0) {
+            seen_qg = 1;
+            BR_ASSERT_REL(h->figure, 62e-3, 1e-12);
+            BR_ASSERT_REL(h->limit, 10e-6, 1e-12);
+            CU_ASSERT_STRING_EQUAL(h->unit, "C");
+        } else if (strcmp(h->what, "cj0") == 0) {
+            seen_cj0 = 1;
+            CU_ASSERT_EQUAL(h->stage, 1); /* the first link that uses it */
+        }
+    }
+    CU_ASSERT_TRUE(seen_qg && seen_cj0);
+    done(d, c);
+    d = leg(4, 1000.0);
+    d->switches[0].qg = br_qty_fixed(10e-6);
+    d->diodes[0].cj0 = br_qty_fixed(10e-9);
+    c = check(d, &r);
+    CU_ASSERT_EQUAL(count(&r, BR_RULE_IMPLAUSIBLE), 0);
+    done(d, c);
+}
+
 static void test_names(void)
 {
     CU_ASSERT_STRING_EQUAL(br_rule_name(BR_RULE_SUPPLY_SHORT), "supply-short");
@@ -310,6 +348,7 @@ int main(void)
         {"a regulated design has no findings", test_regulated_clean},
         {"regulator output against UVLO and gate maximum", test_aux_limits},
         {"a return switch that is never on", test_no_window},
+        {"implausible values, once per part", test_implausible},
         {"rule names", test_names},
         {NULL, NULL},
     };

@@ -68,7 +68,11 @@ static void expect_fail(const char *body, int line, const char *field, const cha
 static void test_refusals(void)
 {
     expect_fail("<capacitor id=\"c1\" c=\"1 uF\" rating=\"25 V\" cost=\"-1\" area-mm2=\"2\"/>\n", 3,
-                "capacitor c1: cost", "expected a number >= 0");
+                "capacitor c1: cost", "expected a number from 0 to 1e12");
+    /* out of every sane range, but not negative: the message says the range */
+    expect_fail("<capacitor id=\"c1\" c=\"1 uF\" rating=\"25 V\" cost=\"1e307\" "
+                "area-mm2=\"2\"/>\n",
+                3, "capacitor c1: cost", "got '1e307', expected a number from 0 to 1e12");
     expect_fail("<capacitor id=\"c1\" c=\"1 uF\" rating=\"25 V\" area-mm2=\"2\"/>\n", 3, NULL,
                 "catalog schema");
     expect_fail("<capacitor id=\"c1\" c=\"1 uF\" cost=\"1\" area-mm2=\"2\" colour=\"red\"/>\n", 3,
