@@ -21,6 +21,9 @@ static void add(br_rule_list *out, int kind, int stage, const char *part, double
     h->fatal = 0;
     h->what = h->unit = "";
     h->lo = 0.0;
+    h->index = -1;
+    h->mask = 0;
+    h->by_ramp = 0;
 }
 
 double br_link_vblock(const br_chain *c, int k)
@@ -136,6 +139,108 @@ static void supply_rule(const br_chain *c, br_rule_list *out)
     }
 }
 
+/* ---- pre-charge steps ---------------------------------------------------------- */
+
+/* The driver part behind stage k's driver, for its tolerance limits. */
+static const br_driver_part *driver_part(const br_chain *c, int k)
+{
+    const br_design *d = c->design;
+    for (int i = 0; d && i < d->ndrivers; i++)
+        if (d->drivers[i].id == c->st[k].drv.id)
+            return &d->drivers[i];
+    return NULL;
+}
+
+/* The lowest rail voltage at which driver k can leave UVLO: the least
+ * UVLO rising over its tolerance, plus the least dropout of a regulator
+ * in front of it (a Zener clamp takes nothing off below its knee). */
+static double start_need(const br_chain *c, int k)
+{
+    const br_stage *st = &c->st[k];
+    const br_driver_part *p = driver_part(c, k);
+    double need = p ? fmin(p->uvlo_rise.min, st->drv.uvlo_rise) : st->drv.uvlo_rise;
+    if (st->aux.kind == BR_AUX_LDO) {
+        const br_design *d = c->design;
+        double drop = st->aux.dropout;
+        for (int i = 0; d && i < d->naux; i++)
+            if (d->aux[i].id == st->aux.id)
+                drop = fmin(drop, d->aux[i].dropout.min);
+        need += fmax(drop, 0.0);
+    }
+    return need;
+}
+
+/* Earliest time the supply can reach v: it ramps linearly from 0 to its
+ * highest value in the ramp time (INFINITY when it never does). */
+static double ramp_time(const br_chain *c, double v)
+{
+    double vmax = supply_max(c);
+    if (!(v > 0))
+        return 0.0;
+    if (v > vmax)
+        return INFINITY;
+    return c->tramp > 0 ? c->tramp * v / vmax : 0.0;
+}
+
+/* Earliest time switch s is on during the pre-charge, given the earliest
+ * start of its driver: the first step holding it that has not ended by
+ * then (INFINITY when none). */
+static double first_on(const br_chain *c, int s, double start)
+{
+    double t0 = 0.0;
+    for (int i = 0; i < c->nprecharge; i++) {
+        double t1 = t0 + c->precharge[i].duration;
+        if ((c->precharge[i].mask >> s & 1) && fmax(t0, start) < t1)
+            return fmax(t0, start);
+        t0 = t1;
+    }
+    return INFINITY;
+}
+
+/* e[k]: lower bound of when driver k can first leave UVLO before PWM;
+ * ramp[k]: whether the supply ramp sets it. */
+static void earliest_starts(const br_chain *c, double *e, int *ramp)
+{
+    for (int k = 0; k < c->n; k++) {
+        double by_supply = ramp_time(c, start_need(c, k));
+        double by_chain = k == 0 ? 0.0 : first_on(c, k - 1, e[k - 1]);
+        e[k] = fmax(by_supply, by_chain);
+        ramp[k] = by_supply >= by_chain;
+    }
+}
+
+static void precharge_rule(const br_chain *c, br_rule_list *out)
+{
+    double e[BR_MAX_SWITCHES], t0 = 0.0;
+    int ramp[BR_MAX_SWITCHES];
+    earliest_starts(c, e, ramp);
+    for (int i = 0; i < c->nprecharge; i++) {
+        double t1 = t0 + c->precharge[i].duration;
+        unsigned long long blocked = 0;
+        int low = -1;
+        for (int s = 0; s < c->n; s++)
+            if ((c->precharge[i].mask >> s & 1) && !(e[s] < t1)) {
+                blocked |= 1ULL << s;
+                low = low < 0 ? s : low;
+            }
+        if (blocked) {
+            add(out, BR_RULE_PRECHARGE_IDLE, low, c->st[low].drv.id, e[low], t1);
+            br_rule_hit *h = &out->hit[out->n - 1];
+            h->index = i;
+            h->mask = blocked;
+            h->by_ramp = ramp[low];
+            h->lo = t0;
+            h->current = start_need(c, low);
+        }
+        t0 = t1;
+    }
+}
+
+double br_rule_start_need(const br_chain *c, int k)
+{
+    return start_need(c, k);
+}
+
 /* ---- plausibility ----------------------------------------------------------- */
 
 /* One plausible range: what no part of the kind in a gate-drive chain
@@ -226,6 +331,7 @@ int br_rules_check(const br_chain *c, br_rule_list *out, br_error *err)
         gate_rules(c, k, out);
     }
     supply_rule(c, out);
+    precharge_rule(c, out);
     plausible_chain(c, out);
     return BR_OK;
 }
@@ -233,8 +339,9 @@ int br_rules_check(const br_chain *c, br_rule_list *out, br_error *err)
 const char *br_rule_name(int kind)
 {
     static const char *const names[BR_RULE_KINDS] = {
-        "diode-rating",   "diode-derating",   "diode-unrated",  "uvlo-hysteresis", "supply-short",
-        "aux-below-uvlo", "gate-unprotected", "aux-above-gate", "no-window",       "implausible",
+        "diode-rating", "diode-derating", "diode-unrated",    "uvlo-hysteresis",
+        "supply-short", "aux-below-uvlo", "gate-unprotected", "aux-above-gate",
+        "no-window",    "implausible",    "precharge-idle",
     };
     return kind >= 0 && kind < BR_RULE_KINDS ? names[kind] : "unknown";
 }

@@ -25,6 +25,12 @@ static const char *si(char *buf, size_t cap, double v, const char *unit)
     return buf;
 }
 
+/* The supply's highest value over its tolerance, V. */
+static double supply_top(const br_chain *c)
+{
+    return c->design && c->design->vsupply.max > c->vsupply ? c->design->vsupply.max : c->vsupply;
+}
+
 static const char *direction_name(int dir)
 {
     switch (dir) {
@@ -310,6 +316,62 @@ static int describe_implausible(const br_chain *c, const br_rule_hit *h, br_text
     return rc | br_text_put(out, "; check the number and its unit");
 }
 
+/* The names of the switches in mask, space separated. */
+static int put_switches(const br_chain *c, unsigned long long mask, br_text *out)
+{
+    int rc = 0, first = 1;
+    for (int s = 0; s < c->n; s++)
+        if (mask >> s & 1) {
+            rc |= br_text_printf(out, "%s%s", first ? "" : " ", c->st[s].name);
+            first = 0;
+        }
+    return rc;
+}
+
+/* Why the driver of switch k cannot start earlier than h->figure. */
+static int precharge_why(const br_chain *c, const br_rule_hit *h, br_text *out)
+{
+    char a[32], b[32], t[32];
+    int k = h->stage;
+    if (h->by_ramp && isfinite(h->figure))
+        return br_text_printf(out,
+                              " (the supply ramps to at most %s over %s, and the driver needs %s "
+                              "on its rail)",
+                              si(a, sizeof a, supply_top(c), "V"), si(t, sizeof t, c->tramp, "s"),
+                              si(b, sizeof b, h->current, "V"));
+    if (h->by_ramp)
+        return br_text_printf(out, " (its rail needs %s, above the supply's %s)",
+                              si(b, sizeof b, h->current, "V"),
+                              si(a, sizeof a, supply_top(c), "V"));
+    return br_text_printf(out, " (rail %d charges only while %s is on%s)", k, c->st[k - 1].name,
+                          isfinite(h->figure) ? "" : ", and no step turns it on before");
+}
+
+static int describe_precharge(const br_chain *c, const br_rule_hit *h, br_text *out)
+{
+    char a[32], b[32], e[32];
+    unsigned long long held = c->precharge[h->index].mask;
+    int rc = br_text_printf(out, "startup precharge %d (holds ", h->index + 1);
+    rc |= put_switches(c, held, out);
+    rc |= br_text_printf(out, " from %s to %s): ", si(a, sizeof a, h->lo, "s"),
+                         si(b, sizeof b, h->limit, "s"));
+    rc |= h->mask == held ? br_text_put(out, "none of its switches can turn on in it") : 0;
+    if (h->mask != held) {
+        rc |= put_switches(c, h->mask, out);
+        rc |= br_text_put(out, " cannot turn on in it");
+    }
+    if (isfinite(h->figure))
+        rc |= br_text_printf(out, ": the driver of %s leaves UVLO at %s at the earliest",
+                             c->st[h->stage].name, si(e, sizeof e, h->figure, "s"));
+    else
+        rc |= br_text_printf(out, ": the driver of %s cannot leave UVLO before PWM starts",
+                             c->st[h->stage].name);
+    rc |= precharge_why(c, h, out);
+    if (h->mask == held)
+        rc |= br_text_put(out, "; the step does nothing");
+    return rc;
+}
+
 int br_rule_describe(const br_chain *c, const br_rule_hit *h, br_text *out)
 {
     switch (h->kind) {
@@ -321,6 +383,8 @@ int br_rule_describe(const br_chain *c, const br_rule_hit *h, br_text *out)
         return describe_supply(c, h, out);
     case BR_RULE_IMPLAUSIBLE:
         return describe_implausible(c, h, out);
+    case BR_RULE_PRECHARGE_IDLE:
+        return describe_precharge(c, h, out);
     case BR_RULE_NO_WINDOW:
         return br_text_printf(out,
                               "link %d (rail %s): its return switch %s is never on, so the link "

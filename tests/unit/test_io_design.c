@@ -163,7 +163,7 @@ static void test_demo_stages(void)
     CU_ASSERT_EQUAL(br_design_stage(d, 2)->cap, 0);
     CU_ASSERT_EQUAL(d->nprecharge, 1);
     CU_ASSERT_EQUAL(d->precharge[0].mask, 0x3ULL); /* B1 B2 */
-    BR_ASSERT_REL(d->precharge[0].duration, 50e-6, 1e-12);
+    BR_ASSERT_REL(d->precharge[0].duration, 200e-6, 1e-12);
     BR_ASSERT_REL(d->min_drive.nom, 10.0, 1e-12);
     BR_ASSERT_REL(d->derating.nom, 0.8, 1e-12);
     BR_ASSERT_REL(d->startup_max.nom, 5e-3, 1e-12);

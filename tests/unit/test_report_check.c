@@ -126,6 +126,24 @@ static void test_fatal_finding(void)
     br_design_free(d);
 }
 
+/* A pre-charge step that ends before the supply ramp lets the first
+ * driver start: by hand, 200 us * 7.5 V / 12 V = 125 us. */
+static void test_precharge_finding(void)
+{
+    br_design *d = br_test_fcml(3, 800.0, 100e3, 0.5, 50e-9);
+    d->tramp = br_qty_fixed(200e-6);
+    d->nprecharge = 1;
+    d->precharge[0].mask = 0x3;
+    d->precharge[0].duration = 50e-6;
+    br_text *t = render(d, NULL);
+    CU_ASSERT_TRUE(has(t, "warning: startup precharge 1 (holds B1 B2 from 0 s to 50 us): none of "
+                          "its switches can turn on in it: the driver of B1 leaves UVLO at 125 us "
+                          "at the earliest (the supply ramps to at most 12 V over 200 us, and the "
+                          "driver needs 7.5 V on its rail); the step does nothing"));
+    br_text_free(t);
+    br_design_free(d);
+}
+
 /* Every report ends with the caution. */
 static void test_caution_last(void)
 {
@@ -150,6 +168,7 @@ int main(void)
         {"findings name part, figure and limit", test_findings},
         {"a chain that cannot work says so", test_fatal_finding},
         {"the caution closes the report", test_caution_last},
+        {"a pre-charge step that does nothing", test_precharge_finding},
         {NULL, NULL},
     };
     return br_test_main("report_check", cases);
