@@ -76,6 +76,14 @@ static const kind_info kinds[BR_KIND_COUNT] = {
     [BR_KIND_FRACTION] = {"a fraction like '80 %' or '0.8'", "", {NULL}, "", 1, 0, NULL},
     [BR_KIND_NUMBER] = {"a plain number like '1.5'", "", {NULL}, "", 1, 0, NULL},
     [BR_KIND_ENERGY_EV] = {"an energy like '1.12 eV'", "eV", {"eV", NULL}, "m", 0, 1e3, "1 keV"},
+    /* "mA2s" could be read as 1e-3 A^2 s or (1e-3 A)^2 s: no prefixes */
+    [BR_KIND_I2T] = {"an I2t like '4.5 A2s'",
+                     "A2s",
+                     {"A2s", "A^2s", "A\xC2\xB2s", NULL},
+                     "",
+                     0,
+                     1e9,
+                     "1e9 A2s"},
 };
 
 const char *br_kind_expected(br_kind kind)
@@ -181,6 +189,10 @@ static int suffix_scale(const char *suffix, br_kind kind, double *scale, double 
     char p = split_prefix(suffix, &rest);
     if (!p || !(rest[0] == '\0' || is_unit(k, rest)))
         return unit_error(err, suffix, kind);
+    if (!k->prefixes[0])
+        return br_error_set(err, BR_EINPUT, NULL, 0, NULL,
+                            "got '%s', expected %s (no prefix: on this unit it would mislead)",
+                            suffix, k->expected);
     if (!strchr(k->prefixes, p))
         return br_error_set(err, BR_EINPUT, NULL, 0, NULL,
                             "got '%s', expected %s (prefix '%c' does not fit; the prefixes "
@@ -308,10 +320,16 @@ static int scan_number(scan *s, double *out)
     return BR_OK;
 }
 
+/* A unit may hold a power once it has begun ("A2s", "A^2s"). */
+static int continues_suffix(const char *p, size_t n)
+{
+    return n > 0 && (isdigit((unsigned char)*p) || *p == '^');
+}
+
 static int scan_suffix(scan *s, char *buf, size_t cap)
 {
     size_t n = 0;
-    while (*s->p && is_suffix_char(s->p)) {
+    while (*s->p && (is_suffix_char(s->p) || continues_suffix(s->p, n))) {
         if (n + 1 >= cap)
             return br_error_set(s->err, BR_EINPUT, NULL, 0, NULL, "unit too long, expected %s",
                                 kinds[s->kind].expected);

@@ -167,6 +167,8 @@ static int read_diode(br_rd *r, xmlNode *n)
     BR_TRY(br_rd_qty(r, n, "ir-doubling", BR_KIND_TEMP_DELTA, &br_range_pos, &p->ir_double, NULL));
     BR_TRY(br_rd_qty(r, n, "vrrm", BR_KIND_VOLTAGE, &br_range_nonneg, &p->vrrm, NULL));
     BR_TRY(br_rd_qty(r, n, "ifsm", BR_KIND_CURRENT, &br_range_nonneg, &p->ifsm, NULL));
+    BR_TRY(br_rd_qty(r, n, "ifrm", BR_KIND_CURRENT, &br_range_nonneg, &p->ifrm, NULL));
+    BR_TRY(br_rd_qty(r, n, "i2t", BR_KIND_I2T, &br_range_nonneg, &p->i2t, NULL));
     d->ndiodes++;
     return BR_OK;
 }

@@ -155,6 +155,22 @@ static void test_unit_required(void)
     BR_ASSERT_REL(qty("0 V +-1 mV", BR_KIND_VOLTAGE).max, 1e-3, 1e-15);
 }
 
+/* I2t ratings in A^2 s, spelt A2s, A^2s or A²s; no prefix, since "mA2s"
+ * could mean 1e-3 A^2 s or (1 mA)^2 s = 1e-6 A^2 s. */
+static void test_i2t(void)
+{
+    BR_ASSERT_REL(val("4.5 A2s", BR_KIND_I2T), 4.5, 1e-15);
+    BR_ASSERT_REL(val("4.5A^2s", BR_KIND_I2T), 4.5, 1e-15);
+    BR_ASSERT_REL(val("4.5 A\xC2\xB2s", BR_KIND_I2T), 4.5, 1e-15);
+    BR_ASSERT_REL(val("2e-3 A2s", BR_KIND_I2T), 2e-3, 1e-15);
+    BR_ASSERT_REL(qty("4 A2s +-10%", BR_KIND_I2T).min, 3.6, 1e-12);
+    bad("4.5 mA2s", BR_KIND_I2T, "no prefix");
+    bad("4.5", BR_KIND_I2T, "without a unit, expected an I2t like '4.5 A2s'");
+    bad("4.5 A", BR_KIND_I2T, "got 'A'");
+    /* a power in a unit does not open other units to digits */
+    bad("12 V2", BR_KIND_VOLTAGE, "got 'V2'");
+}
+
 /* Magnitudes no design can mean are refused with the bound they break. */
 static void test_sane_limits(void)
 {
@@ -219,7 +235,7 @@ static void test_garbage(void)
     bad("NaN V", BR_KIND_VOLTAGE, "not a number");
     bad("inf", BR_KIND_VOLTAGE, "not a number");
     bad("-inf", BR_KIND_VOLTAGE, "not a number");
-    bad("0x10", BR_KIND_VOLTAGE, "got 'x'");
+    bad("0x10", BR_KIND_VOLTAGE, "got 'x10'");
     bad("12 V extra", BR_KIND_VOLTAGE, "unexpected 'extra'");
     bad("12 V 5", BR_KIND_VOLTAGE, "unexpected '5'");
     bad("12,5 V", BR_KIND_VOLTAGE, "unexpected ',5 V'");
@@ -356,6 +372,7 @@ int main(void)
         {"bare numbers, fractions, eV", test_bare_numbers},
         {"a dimensioned value needs its unit or a prefix", test_unit_required},
         {"magnitudes beyond any design are refused", test_sane_limits},
+        {"I2t in A2s", test_i2t},
         {"temperatures in C and K", test_temperature},
         {"wrong units say what was expected", test_wrong_units},
         {"garbage, NaN, inf, overflow", test_garbage},

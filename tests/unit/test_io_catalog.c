@@ -41,6 +41,10 @@ static void test_example(void)
     /* tau = qrr / if = 60 nC / 0.5 A (charge control, Lauritzen & Ma 1991) */
     BR_ASSERT_REL(cat->diodes[fast].tau.nom, 120e-9, 1e-12);
     BR_ASSERT_NEAR(cat->diode_offer[fast].cost, 0.045, 1e-12);
+    /* the repetitive and I2t ratings of the inrush checks */
+    BR_ASSERT_NEAR(cat->diodes[fast].ifrm.nom, 6.0, 1e-12);
+    BR_ASSERT_NEAR(cat->diodes[fast].i2t.nom, 1.6, 1e-12);
+    BR_ASSERT_NEAR(cat->diodes[sic].ifsm.nom, 12.0, 1e-12);
     br_catalog_free(cat);
 }
 

@@ -520,6 +520,9 @@ static void test_lines(void)
     CU_ASSERT_EQUAL(d->caps[0].aging.line, line_of(f, "aging="));
     CU_ASSERT_EQUAL(d->caps[0].line, line_of(f, "<capacitor id=\"x5r-10u-25v\""));
     CU_ASSERT_EQUAL(d->diodes[1].ifsm.line, line_of(f, "ifsm=\"80 A\""));
+    CU_ASSERT_EQUAL(d->diodes[1].ifrm.line, line_of(f, "ifrm=\"20 A\""));
+    BR_ASSERT_REL(d->diodes[1].ifrm.nom, 20.0, 1e-12);
+    BR_ASSERT_REL(d->diodes[1].i2t.nom, 30.0, 1e-12);
     CU_ASSERT_TRUE(d->overshoot.line > d->vin.line);
     br_design_free(d);
 }
