@@ -10,7 +10,7 @@ int cmd_analyze(int argc, char **argv)
         argc, argv,
         "Analyse design FILE: its start-up from cold, its periodic steady state for\n"
         "each current direction it asks for, and the verdict: one row per criterion\n"
-        "(every driver starts, inrush within the surge ratings, a steady state that\n"
+        "(every driver starts, inrush within IFRM, IFSM and I2t, a steady state that\n"
         "holds, rails above UVLO rising and falling, drive above the minimum, gates\n"
         "below their maximum, diodes within the derated rating, capacitors within\n"
         "their rating) with the figure, the limit, the margin and where it binds.\n"

@@ -10,9 +10,10 @@ int cmd_startup(int argc, char **argv)
         "Simulate the chain of design FILE from cold: capacitors empty, drivers off,\n"
         "the design's pre-charge steps, then PWM. Per stage: when its driver first\n"
         "crosses UVLO rising, when it starts for good, its dropouts, the inrush peak\n"
-        "of its link against the diode's surge rating and where its rail ends; then\n"
+        "of its link against the diode's binding rating (IFRM for every pulse, IFSM\n"
+        "for the largest, I2t for the whole start-up) and where its rail ends; then\n"
         "the start-up time, or which rail never starts, where it settles and why.\n"
-        "Exit status 0 when every driver starts (and no inrush exceeds a surge\n"
+        "Exit status 0 when every driver starts (and the inrush is within every\n"
         "rating), 1 when not, 2 for bad input, 3 when the simulation failed\n"
         "numerically (undetermined).\n",
         BR_RUN_STARTUP);
