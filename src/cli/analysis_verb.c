@@ -76,9 +76,9 @@ static int compute(const char *path, const char *verb, int parts, const br_stead
     return rc;
 }
 
-/* Files first: a failure to write them is reported before any result
- * reaches stdout, so a script never mistakes a partial run for a whole.
- * A file sent to stdout ("-") takes the text report's place. */
+/* The files and the report together, all or none (br_cli_write), so a
+ * script never mistakes a partial run for a whole.  A file sent to stdout
+ * ("-") takes the text report's place. */
 static int write_all(const outputs *o, const paths *p, int quiet)
 {
     /* --quiet: the verdict of steady and analyze, or how the start-up ended */

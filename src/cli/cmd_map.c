@@ -111,8 +111,8 @@ static int compute(const char *path, const br_map_opts *mo, const paths *p, outp
     return rc;
 }
 
-/* Files first, so that a failure to write them comes before any result on
- * stdout; a file sent to stdout takes the summary's place. */
+/* The files and the summary, all or none; a file sent to stdout takes the
+ * summary's place. */
 static int write_all(const outputs *o, const paths *p, int quiet)
 {
     static const char *const verdict[] = {"design point:", NULL};

@@ -87,7 +87,7 @@ static int compute(const char *path, const br_window_opts *wo, outputs *o, br_er
     return rc;
 }
 
-/* Files first, the report last (unless a file took stdout). */
+/* The files and the report, all or none (unless a file took stdout). */
 static int write_all(const outputs *o, const paths *p, int quiet)
 {
     static const char *const verdict[] = {"design point:", NULL};

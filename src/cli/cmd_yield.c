@@ -110,7 +110,7 @@ static int compute(const char *path, const args *a, const br_yield_opts *yo, dou
     return rc;
 }
 
-/* Files first, the report last (unless a file took stdout). */
+/* The files and the report, all or none (unless a file took stdout). */
 static int write_all(const args *a, const outputs *o)
 {
     static const char *const verdict[] = {"verdict:", NULL};
