@@ -95,7 +95,7 @@ static const char *const NAMES[BR_CRIT_COUNT] = {[BR_CRIT_STARTUP] = "startup",
                                                  [BR_CRIT_CAP_V] = "capacitor-voltage"};
 static const char *const TITLES[BR_CRIT_COUNT] = {
     [BR_CRIT_STARTUP] = "every driver starts from cold",
-    [BR_CRIT_INRUSH] = "link inrush within the diode surge rating",
+    [BR_CRIT_INRUSH] = "link inrush within diode IFRM, IFSM, I2t",
     [BR_CRIT_DROPOUTS] = "start-up dropouts per stage within the limit",
     [BR_CRIT_STEADY] = "periodic steady state exists and holds",
     [BR_CRIT_RESTART] = "rails stay above UVLO rising (restart)",
@@ -156,6 +156,107 @@ static void consider(br_verdict_row *r, double figure, double limit, double marg
     r->margin = margin;
     r->stage = stage;
     r->dir = dir;
+}
+
+/* ---- inrush ---------------------------------------------------------------- */
+
+const char *br_rating_name(int rating)
+{
+    static const char *const names[BR_RATING_COUNT] = {"IFRM", "IFSM", "I2t"};
+    return rating >= 0 && rating < BR_RATING_COUNT ? names[rating] : "?";
+}
+
+static void add_check(br_inrush_check *ck, int *n, int rating, double figure, double limit)
+{
+    ck[*n].rating = rating;
+    ck[*n].figure = figure;
+    ck[*n].limit = limit;
+    ck[*n].margin = limit - figure;
+    (*n)++;
+}
+
+int br_inrush_link(const br_chain *c, const br_startup *su, int k, br_inrush_check *ck, int *bind)
+{
+    const br_diode *d = &c->st[k].diode;
+    double ip = su->st[k].ipeak, i2 = su->st[k].i2t;
+    int n = 0;
+    /* start-up pulses repeat at the switching frequency: every one of them,
+     * the largest included, is a repetitive peak */
+    if (d->ifrm > 0)
+        add_check(ck, &n, BR_RATING_IFRM, ip, d->ifrm);
+    /* the single-surge rating still bounds the largest pulse alone */
+    if (d->ifsm > 0)
+        add_check(ck, &n, BR_RATING_IFSM, ip, d->ifsm);
+    /* pulses microseconds apart heat the die as one surge: the whole
+     * start-up's i^2 against the rating (a current scaled by a scales i^2
+     * by a^2, hence the square root) */
+    if (d->i2t > 0 && i2 > 0) /* no current at all cannot break it */
+        add_check(ck, &n, BR_RATING_I2T, ip, ip * sqrt(d->i2t / i2));
+    int b = 0;
+    for (int i = 1; i < n; i++)
+        if (ck[i].margin < ck[b].margin)
+            b = i;
+    if (bind)
+        *bind = n > 0 ? b : -1;
+    return n;
+}
+
+/* Append to the row's note (snprintf keeps it terminated when full). */
+static void note_add(br_verdict_row *r, const char *a, const char *b)
+{
+    size_t n = strlen(r->note);
+    if (n + 1 < sizeof r->note)
+        snprintf(r->note + n, sizeof r->note - n, "%s%s", a, b);
+}
+
+/* Which ratings the inrush row used, and the one that binds it. */
+static void inrush_note(const br_chain *c, unsigned used, const br_inrush_check *b, int link,
+                        br_verdict_row *r)
+{
+    static const char *const role[BR_RATING_COUNT] = {" (every pulse)", " (the largest pulse)",
+                                                      " (i^2 over the whole start-up)"};
+    int count = 0, total = 0;
+    for (int i = 0; i < BR_RATING_COUNT; i++)
+        total += used >> i & 1;
+    snprintf(r->note, sizeof r->note, "judged against");
+    for (int i = 0; i < BR_RATING_COUNT; i++)
+        if (used >> i & 1) {
+            note_add(r, count == 0 ? " " : count == total - 1 ? " and " : ", ", br_rating_name(i));
+            note_add(r, role[i], "");
+            count++;
+        }
+    if (!(used & (1u << BR_RATING_IFRM)))
+        note_add(r, ", no IFRM given", "");
+    note_add(r, "; binds: ", br_rating_name(b->rating));
+    note_add(r, " of diode ", c->st[link].diode.id);
+}
+
+static void inrush_row(const br_chain *c, const br_startup *su, br_verdict *v)
+{
+    br_verdict_row *r = &v->row[BR_CRIT_INRUSH];
+    br_inrush_check best = {0, 0, 0, INFINITY};
+    unsigned used = 0;
+    int link = -1;
+    for (int k = 1; k < c->n; k++) {
+        br_inrush_check ck[BR_RATING_COUNT];
+        const br_diode *d = &c->st[k].diode;
+        int b, n = br_inrush_link(c, su, k, ck, &b);
+        used |= (d->ifrm > 0 ? 1u << BR_RATING_IFRM : 0) |
+                (d->ifsm > 0 ? 1u << BR_RATING_IFSM : 0) | (d->i2t > 0 ? 1u << BR_RATING_I2T : 0);
+        if (n > 0) {
+            consider(r, ck[b].figure, ck[b].limit, ck[b].margin, k, su->dir);
+            if (ck[b].margin < best.margin || link < 0) {
+                best = ck[b];
+                link = k;
+            }
+        }
+    }
+    if (!r->applies && !r->undetermined) {
+        snprintf(r->note, sizeof r->note, "no diode gives IFRM, IFSM or I2t");
+        return;
+    }
+    if (link > 0 && !r->undetermined)
+        inrush_note(c, used, &best, link, r);
 }
 
 /* A start-up the integrator could not finish decides none of its rows. */
@@ -253,14 +354,7 @@ static void startup_rows(const br_chain *c, const br_startup *su, br_verdict *v)
         never_starts(c, su, r);
     }
     dropout_row(c, su, &v->row[BR_CRIT_DROPOUTS]);
-    r = &v->row[BR_CRIT_INRUSH];
-    for (int k = 1; k < c->n; k++) {
-        double ifsm = c->st[k].diode.ifsm;
-        if (ifsm > 0)
-            consider(r, su->st[k].ipeak, ifsm, ifsm - su->st[k].ipeak, k, su->dir);
-    }
-    if (!r->applies)
-        snprintf(r->note, sizeof r->note, "no diode surge rating given");
+    inrush_row(c, su, v);
 }
 
 /* The steady state is trusted when the cross-check periods move the rails

@@ -53,7 +53,7 @@ br_rail_fig br_rail_fig_worst(const br_steady_figs *f, int ndir, int k);
 /* One row of the verdict table. */
 typedef enum br_crit {
     BR_CRIT_STARTUP = 0, /* every driver starts within the allowed time */
-    BR_CRIT_INRUSH,      /* link inrush peak within the diode's surge rating */
+    BR_CRIT_INRUSH,      /* link inrush within the diode's IFRM, IFSM and I2t ratings */
     BR_CRIT_DROPOUTS,    /* start-up dropouts of any one stage within the design's
                             limit (max-dropouts); without one, more than
                             BR_DROPOUTS_WARN only warn */
@@ -107,6 +107,34 @@ void br_verdict_make(const br_chain *c, const br_startup *su, const br_steady_fi
  * undetermined), whose figure is information and which has no margin to
  * rank, histogram or correlate. */
 int br_crit_has_margin(int crit);
+/* The ratings the inrush of a link is judged against. */
+typedef enum br_rating {
+    BR_RATING_IFRM = 0, /* repetitive peak forward current: the peak of every pulse */
+    BR_RATING_IFSM,     /* non-repetitive surge current: the largest single pulse */
+    BR_RATING_I2T,      /* I2t: i^2 integrated over the whole start-up */
+    BR_RATING_COUNT
+} br_rating;
+
+/* One check of a link's inrush against one rating, in amperes: the figure
+ * is the start-up's peak current of the link; for IFRM and IFSM the limit
+ * is the rating; for I2t it is the peak at which the start-up, every
+ * current scaled alike, would reach the rating (peak * sqrt(rating /
+ * I2t)), so that all three compare in the same unit and the margin says
+ * how much more current each allows. */
+typedef struct br_inrush_check {
+    int rating;                   /* br_rating */
+    double figure, limit, margin; /* A */
+} br_inrush_check;
+
+/* Judge the inrush of link k (k >= 1) of a finished start-up against the
+ * ratings its diode gives: fills checks[] (one per rating given, at most
+ * BR_RATING_COUNT) and returns their number (0: no rating).  *bind (may be
+ * NULL) is the index of the check with the smallest margin. */
+int br_inrush_link(const br_chain *c, const br_startup *su, int k, br_inrush_check *checks,
+                   int *bind);
+
+/* "IFRM", "IFSM", "I2t". */
+const char *br_rating_name(int rating);
 
 /* Short names of criteria, for tables and XML. */
 const char *br_crit_name(int crit);

@@ -1,17 +1,18 @@
 /* rules.c - design rules on the nominal chain, without simulation. */
 #include "analyses/rules.h"
-
 #include "analyses/figures.h"
-#include "engine/diode.h"
 #include "model/timing.h"
 
+#include "engine/diode.h"
+
 #include <math.h>
+#include <string.h>
 
 static void add(br_rule_list *out, int kind, int stage, const char *part, double figure,
                 double limit)
 {
     if (out->n >= BR_RULES_MAX)
-        return; /* cannot happen: at most five findings per stage plus one */
+        return; /* cannot happen: the bound counts every rule's findings */
     br_rule_hit *h = &out->hit[out->n++];
     h->kind = kind;
     h->stage = stage;
@@ -20,6 +21,11 @@ static void add(br_rule_list *out, int kind, int stage, const char *part, double
     h->limit = limit;
     h->current = 0.0;
     h->fatal = 0;
+    h->what = h->unit = "";
+    h->lo = 0.0;
+    h->index = -1;
+    h->mask = 0;
+    h->by_ramp = 0;
 }
 
 double br_link_vblock(const br_chain *c, int k)
@@ -159,6 +165,181 @@ static void ripple_rule(const br_chain *c, br_rule_list *out)
     out->hit[out->n - 1].fatal = 1;
 }
 
+/* ---- pre-charge steps ---------------------------------------------------------- */
+
+/* The driver part behind stage k's driver, for its tolerance limits. */
+static const br_driver_part *driver_part(const br_chain *c, int k)
+{
+    const br_design *d = c->design;
+    for (int i = 0; d && i < d->ndrivers; i++)
+        if (d->drivers[i].id == c->st[k].drv.id)
+            return &d->drivers[i];
+    return NULL;
+}
+
+/* The lowest rail voltage at which driver k can leave UVLO: the least
+ * UVLO rising over its tolerance, plus the least dropout of a regulator
+ * in front of it (a Zener clamp takes nothing off below its knee). */
+static double start_need(const br_chain *c, int k)
+{
+    const br_stage *st = &c->st[k];
+    const br_driver_part *p = driver_part(c, k);
+    double need = p ? fmin(p->uvlo_rise.min, st->drv.uvlo_rise) : st->drv.uvlo_rise;
+    if (st->aux.kind == BR_AUX_LDO) {
+        const br_design *d = c->design;
+        double drop = st->aux.dropout;
+        for (int i = 0; d && i < d->naux; i++)
+            if (d->aux[i].id == st->aux.id)
+                drop = fmin(drop, d->aux[i].dropout.min);
+        need += fmax(drop, 0.0);
+    }
+    return need;
+}
+
+/* Earliest time the supply can reach v: it ramps linearly from 0 to its
+ * highest value in the ramp time (INFINITY when it never does). */
+static double ramp_time(const br_chain *c, double v)
+{
+    double vmax = supply_max(c);
+    if (!(v > 0))
+        return 0.0;
+    if (v > vmax)
+        return INFINITY;
+    return c->tramp > 0 ? c->tramp * v / vmax : 0.0;
+}
+
+/* Earliest time switch s is on during the pre-charge, given the earliest
+ * start of its driver: the first step holding it that has not ended by
+ * then (INFINITY when none). */
+static double first_on(const br_chain *c, int s, double start)
+{
+    double t0 = 0.0;
+    for (int i = 0; i < c->nprecharge; i++) {
+        double t1 = t0 + c->precharge[i].duration;
+        if ((c->precharge[i].mask >> s & 1) && fmax(t0, start) < t1)
+            return fmax(t0, start);
+        t0 = t1;
+    }
+    return INFINITY;
+}
+
+/* e[k]: lower bound of when driver k can first leave UVLO before PWM;
+ * ramp[k]: whether the supply ramp sets it. */
+static void earliest_starts(const br_chain *c, double *e, int *ramp)
+{
+    for (int k = 0; k < c->n; k++) {
+        double by_supply = ramp_time(c, start_need(c, k));
+        double by_chain = k == 0 ? 0.0 : first_on(c, k - 1, e[k - 1]);
+        e[k] = fmax(by_supply, by_chain);
+        ramp[k] = by_supply >= by_chain;
+    }
+}
+
+static void precharge_rule(const br_chain *c, br_rule_list *out)
+{
+    double e[BR_MAX_SWITCHES], t0 = 0.0;
+    int ramp[BR_MAX_SWITCHES];
+    earliest_starts(c, e, ramp);
+    for (int i = 0; i < c->nprecharge; i++) {
+        double t1 = t0 + c->precharge[i].duration;
+        unsigned long long blocked = 0;
+        int low = -1;
+        for (int s = 0; s < c->n; s++)
+            if ((c->precharge[i].mask >> s & 1) && !(e[s] < t1)) {
+                blocked |= 1ULL << s;
+                low = low < 0 ? s : low;
+            }
+        if (blocked) {
+            add(out, BR_RULE_PRECHARGE_IDLE, low, c->st[low].drv.id, e[low], t1);
+            br_rule_hit *h = &out->hit[out->n - 1];
+            h->index = i;
+            h->mask = blocked;
+            h->by_ramp = ramp[low];
+            h->lo = t0;
+            h->current = start_need(c, low);
+        }
+        t0 = t1;
+    }
+}
+
+double br_rule_start_need(const br_chain *c, int k)
+{
+    return start_need(c, k);
+}
+
+/* ---- plausibility ----------------------------------------------------------- */
+
+/* One plausible range: what no part of the kind in a gate-drive chain
+ * goes beyond (from memory of the trade; generous by a decade or more). */
+typedef struct plausible {
+    const char *what; /* the attribute, as in the design file */
+    const char *unit;
+    double lo, hi; /* SI */
+} plausible;
+
+static const plausible P_CJ0 = {"cj0", "F", 0.0, 10e-9};
+static const plausible P_RS = {"rs", "ohm", 0.0, 100.0};
+static const plausible P_TAU = {"tau", "s", 0.0, 100e-6};
+static const plausible P_C = {"c", "F", 1e-9, 10e-3};
+static const plausible P_ESR = {"esr", "ohm", 0.0, 10.0};
+static const plausible P_RLINK = {"link-resistor", "ohm", 0.0, 100e3};
+static const plausible P_QG = {"qg", "C", 0.0, 10e-6};
+static const plausible P_TG = {"gate-pulse", "s", 0.0, 10e-6};
+static const plausible P_RDS = {"rds-on", "ohm", 0.0, 100.0};
+static const plausible P_IQ_RUN = {"iq-run", "A", 0.0, 1.0};
+static const plausible P_IQ_UVLO = {"iq-uvlo", "A", 0.0, 1.0};
+static const plausible P_IQ_ISO = {"iq-isolator", "A", 0.0, 1.0};
+static const plausible P_UVLO = {"uvlo-rise", "V", 0.0, 100.0};
+static const plausible P_VSUP = {"supply voltage", "V", 0.0, 100.0};
+static const plausible P_RSUP = {"supply resistance", "ohm", 0.0, 1e3};
+static const plausible P_FSW = {"fsw", "Hz", 0.0, 100e6};
+
+/* Flag v once per part and attribute (a part sits on many stages). */
+static void check_plausible(br_rule_list *out, int stage, const char *part, double v,
+                            const plausible *p)
+{
+    if (v >= p->lo && v <= p->hi)
+        return;
+    for (int i = 0; i < out->n; i++)
+        if (out->hit[i].kind == BR_RULE_IMPLAUSIBLE && out->hit[i].what == p->what &&
+            strcmp(out->hit[i].part, part ? part : "") == 0)
+            return;
+    add(out, BR_RULE_IMPLAUSIBLE, stage, part, v, p->hi);
+    br_rule_hit *h = &out->hit[out->n - 1];
+    h->what = p->what;
+    h->unit = p->unit;
+    h->lo = p->lo;
+}
+
+static void plausible_stage(const br_chain *c, int k, br_rule_list *out)
+{
+    const br_stage *st = &c->st[k];
+    if (k > 0) {
+        check_plausible(out, k, st->diode.id, st->diode.cj0, &P_CJ0);
+        check_plausible(out, k, st->diode.id, st->diode.rs, &P_RS);
+        check_plausible(out, k, st->diode.id, st->diode.tau, &P_TAU);
+        check_plausible(out, k, st->cap.id, st->cap.c, &P_C);
+        check_plausible(out, k, st->cap.id, st->cap.esr, &P_ESR);
+        check_plausible(out, k, NULL, st->r_link, &P_RLINK);
+    }
+    check_plausible(out, k, st->sw.id, st->sw.qg, &P_QG);
+    check_plausible(out, k, st->sw.id, st->sw.tg, &P_TG);
+    check_plausible(out, k, st->sw.id, st->sw.rds_on, &P_RDS);
+    check_plausible(out, k, st->drv.id, st->drv.iq_on, &P_IQ_RUN);
+    check_plausible(out, k, st->drv.id, st->drv.iq_off, &P_IQ_UVLO);
+    check_plausible(out, k, st->drv.id, st->drv.i_iso, &P_IQ_ISO);
+    check_plausible(out, k, st->drv.id, st->drv.uvlo_rise, &P_UVLO);
+}
+
+static void plausible_chain(const br_chain *c, br_rule_list *out)
+{
+    check_plausible(out, -1, NULL, c->vsupply, &P_VSUP);
+    check_plausible(out, -1, NULL, c->rsupply, &P_RSUP);
+    check_plausible(out, -1, NULL, c->fsw, &P_FSW);
+    for (int k = 0; k < c->n; k++)
+        plausible_stage(c, k, out);
+}
+
 int br_rules_check(const br_chain *c, br_rule_list *out, br_error *err)
 {
     (void)err; /* every rule is a comparison of resolved numbers */
@@ -177,14 +358,17 @@ int br_rules_check(const br_chain *c, br_rule_list *out, br_error *err)
     }
     supply_rule(c, out);
     ripple_rule(c, out);
+    precharge_rule(c, out);
+    plausible_chain(c, out);
     return BR_OK;
 }
 
 const char *br_rule_name(int kind)
 {
     static const char *const names[BR_RULE_KINDS] = {
-        "diode-rating",   "diode-derating",   "diode-unrated",  "uvlo-hysteresis", "supply-short",
-        "aux-below-uvlo", "gate-unprotected", "aux-above-gate", "no-window",       "fly-collapse",
+        "diode-rating", "diode-derating", "diode-unrated",    "uvlo-hysteresis",
+        "supply-short", "aux-below-uvlo", "gate-unprotected", "aux-above-gate",
+        "no-window",    "fly-collapse",   "implausible",      "precharge-idle",
     };
     return kind >= 0 && kind < BR_RULE_KINDS ? names[kind] : "unknown";
 }

@@ -62,16 +62,19 @@ static void init_result(br_startup *r, int n)
  * carries (what a stalled rung is losing). */
 static int last_period(br_sim *s, const br_chain *c, br_startup *r, br_error *err)
 {
-    double peaks[BR_MAX_SWITCHES];
+    double peaks[BR_MAX_SWITCHES], i2[BR_MAX_SWITCHES];
     const br_stats *st = br_sim_stats(s);
-    for (int k = 0; k < c->n; k++)
+    for (int k = 0; k < c->n; k++) {
         peaks[k] = st->link[k].ipeak;
+        i2[k] = st->link[k].i2;
+    }
     br_sim_stats_start(s);
     int rc = br_sim_run_until(s, br_sim_time(s) + c->T, err);
     st = br_sim_stats(s);
     double dt = st->t1 - st->t0;
     for (int k = 0; k < c->n; k++) {
         r->st[k].ipeak = fmax(peaks[k], st->link[k].ipeak);
+        r->st[k].i2t = i2[k] + st->link[k].i2;
         r->st[k].vend = st->rail[k].vint / dt;
         r->st[k].iend = st->link[k].q / dt;
         r->st[k].running = br_sim_enabled(s, k);

@@ -14,9 +14,11 @@ typedef struct br_startup_stage {
     int ndropouts;       /* start-up dropouts (disable events) */
     double dropout_t[BR_MAX_DROPOUT_TIMES]; /* the first few of them, s */
     double ipeak;                           /* peak forward current of link k, A */
-    double vend;                            /* rail voltage (mean over the last period), V */
-    double iend;                            /* link k mean current over the last period, A */
-    int running;                            /* driver enabled at the end */
+    double i2t;  /* integral of link k's forward current squared over the whole
+                    simulated start-up, every pulse together, A^2 s */
+    double vend; /* rail voltage (mean over the last period), V */
+    double iend; /* link k mean current over the last period, A */
+    int running; /* driver enabled at the end */
 } br_startup_stage;
 
 typedef struct br_startup {

@@ -495,10 +495,18 @@ static int fsw_range(const br_probe *p, const br_window_opts *o, double *lo, dou
                      br_error *err)
 {
     const br_chain *c = br_probe_design_chain(p);
+    double ceiling = br_probe_fsw_ceiling(p, c->duty, 0.0);
     *lo = o->fmin > 0 ? o->fmin : c->fsw / 100.0;
     *hi = o->fmax > 0 ? o->fmax : fmin(100.0 * c->fsw, br_probe_fsw_ceiling(p, c->duty, 0.01));
+    /* an option that asks for more than the dead time allows is the
+     * option's fault, not the design's */
+    if (o->fmax > 0 && !(o->fmax < ceiling))
+        return br_error_set(err, BR_EUSAGE, NULL, 0, "--fmax",
+                            "%g Hz is not below %g Hz, where two dead times of %g s use up the "
+                            "bottom switches' on-time at duty %g; expected a lower --fmax",
+                            o->fmax, ceiling, c->deadtime, c->duty);
     if (!(*lo < c->fsw && c->fsw < *hi))
-        return br_error_set(err, BR_EINPUT, NULL, 0, "fmin/fmax",
+        return br_error_set(err, BR_EUSAGE, NULL, 0, "--fmin/--fmax",
                             "frequency range %g Hz to %g Hz does not contain the design's %g Hz; "
                             "expected fmin < fsw < fmax",
                             *lo, *hi, c->fsw);

@@ -214,7 +214,7 @@ static int crit_stats(br_yield *y, int crit, double *m, long *idx, double *scrat
 
 int br_yield_outcome(const br_yield *y, double min_yield)
 {
-    if (min_yield <= 0)
+    if (min_yield < 0)
         return y->fail > 0           ? BR_OUTCOME_FAIL
                : y->undetermined > 0 ? BR_OUTCOME_UNDETERMINED
                                      : BR_OUTCOME_PASS;

@@ -75,7 +75,7 @@ typedef struct br_yield {
 
 void br_yield_opts_default(br_yield_opts *o);
 
-/* The verdict on y: without a minimum yield (min_yield <= 0), fail when a
+/* The verdict on y: without a minimum yield (min_yield < 0: BR_MIN_YIELD_NONE), fail when a
  * sample fails, else undetermined when one is undetermined, else pass.
  * With one, pass when the lower bound reaches it even if every
  * undetermined sample failed, fail when it does not even if every one

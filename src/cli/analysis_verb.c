@@ -76,14 +76,14 @@ static int compute(const char *path, const char *verb, int parts, const br_stead
     return rc;
 }
 
-/* Files first: a failure to write them is reported before any result
- * reaches stdout, so a script never mistakes a partial run for a whole.
- * A file sent to stdout ("-") takes the text report's place. */
+/* The files and the report together, all or none (br_cli_write), so a
+ * script never mistakes a partial run for a whole.  A file sent to stdout
+ * ("-") takes the text report's place. */
 static int write_all(const outputs *o, const paths *p, int quiet)
 {
     /* --quiet: the verdict of steady and analyze, or how the start-up ended */
     static const char *const verdict[] = {"verdict:", "start-up complete", "start-up INCOMPLETE",
-                                          NULL};
+                                          "start-up UNDETERMINED", NULL};
     const br_cli_file files[] = {
         {o->xml, p->xml}, {o->csv, p->csv}, {o->html, p->report}, {o->svg, p->plot}};
     return br_cli_write(files, 4, o->text, quiet, verdict, 1);
@@ -154,7 +154,8 @@ int br_cli_analysis(int argc, char **argv, const char *about, int parts)
     if (parsed != 0)
         return br_cli_parse_status(parsed);
     const char *const out[] = {p.xml, p.csv, p.report, p.plot};
-    if (br_cli_one_stdout(argv[0], out, 4) != BR_EXIT_OK)
+    const char *const names[] = {"xml", "csv", "report", "plot"};
+    if (br_cli_outputs(argv[0], names, out, 4, (const char *const *)pos, 1) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
     br_steady_opts so;
     br_steady_opts_default(&so);

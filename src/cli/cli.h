@@ -108,10 +108,13 @@ int br_cli_fraction(const char *verb, const char *opt, const char *text, double 
  * br_cli_emit does. */
 int br_cli_emit_verdict(const br_text *t, const char *const *prefixes, int join);
 
-/* Of the n output paths (NULL: not asked for), at most one may be "-"
- * (stdout); else a usage error of verb is printed and BR_EXIT_INPUT
- * returned. */
-int br_cli_one_stdout(const char *verb, const char *const *paths, int n);
+/* The n output paths of verb's options names[] (NULL: not asked for),
+ * checked before anything runs: at most one may be "-" (stdout), none may
+ * be one of the ninputs input files (also through a link: the design must
+ * not be overwritten by its results), and no two may be the same file.
+ * Otherwise a usage error is printed and BR_EXIT_INPUT returned. */
+int br_cli_outputs(const char *verb, const char *const *names, const char *const *paths, int n,
+                   const char *const *inputs, int ninputs);
 
 /* One output file of a verb: its text and where it goes (path NULL: not
  * asked for; "-": stdout in place of the report). */
@@ -120,11 +123,14 @@ typedef struct br_cli_file {
     const char *path;
 } br_cli_file;
 
-/* Files first, in order, all or nothing each (br_cli_save), stopping at
- * the first failure, so a script never mistakes a partial run for a whole;
- * then the report on stdout unless a file took stdout: the whole report,
- * or with quiet only its lines that start with one of prefixes (joined as
- * br_cli_emit_verdict does).  Returns BR_EXIT_OK or BR_EXIT_INPUT. */
+/* All the files or none, so a script never mistakes a partial run for a
+ * whole: each file is written to a temporary beside it, then stdout gets
+ * the report unless a file took stdout (the whole report, or with quiet
+ * only its lines that start with one of prefixes, joined as
+ * br_cli_emit_verdict does), then the files are renamed into place.  On
+ * any failure (a file, stdout, a rename) no file of the run is left.
+ * Signals that would end the program are held meanwhile.  Returns
+ * BR_EXIT_OK or BR_EXIT_INPUT. */
 int br_cli_write(const br_cli_file *files, int nfiles, const br_text *report, int quiet,
                  const char *const *prefixes, int join);
 

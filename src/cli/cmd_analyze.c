@@ -10,7 +10,7 @@ int cmd_analyze(int argc, char **argv)
         argc, argv,
         "Analyse design FILE: its start-up from cold, its periodic steady state for\n"
         "each current direction it asks for, and the verdict: one row per criterion\n"
-        "(every driver starts, inrush within the surge ratings, start-up dropouts\n"
+        "(every driver starts, inrush within IFRM, IFSM and I2t, start-up dropouts\n"
         "within the limit, a steady state that holds, rails above UVLO rising and\n"
         "falling, drive above the minimum, gates below their maximum, diodes within\n"
         "the derated rating, capacitors within their rating) with the figure, the\n"

@@ -123,7 +123,9 @@ int cmd_corners(int argc, char **argv)
     if (parsed != 0)
         return br_cli_parse_status(parsed);
     br_corners_opts co;
-    if (options(&a, &co) != BR_EXIT_OK)
+    const char *const out[] = {a.xml}, *const names[] = {"xml"};
+    if (options(&a, &co) != BR_EXIT_OK ||
+        br_cli_outputs("corners", names, out, 1, (const char *const *)pos, 1) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
     outputs o = {0};
     br_error err;

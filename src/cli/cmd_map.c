@@ -111,8 +111,8 @@ static int compute(const char *path, const br_map_opts *mo, const paths *p, outp
     return rc;
 }
 
-/* Files first, so that a failure to write them comes before any result on
- * stdout; a file sent to stdout takes the summary's place. */
+/* The files and the summary, all or none; a file sent to stdout takes the
+ * summary's place. */
 static int write_all(const outputs *o, const paths *p, int quiet)
 {
     static const char *const verdict[] = {"design point:", NULL};
@@ -174,7 +174,8 @@ int cmd_map(int argc, char **argv)
     if (!duty || !freq)
         return br_cli_usage_error("map", "--duty and --freq are required");
     const char *const out[] = {p.csv, p.svg, p.plot, p.report};
-    if (br_cli_one_stdout("map", out, 4) != BR_EXIT_OK)
+    const char *const names[] = {"csv", "svg", "plot", "report"};
+    if (br_cli_outputs("map", names, out, 4, (const char *const *)pos, 1) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
     br_map_opts mo = {0};
     if (parse_axis("duty", duty, BR_KIND_FRACTION, &mo.duty_from, &mo.duty_to, &mo.nduty) ||

@@ -156,7 +156,10 @@ int cmd_pick(int argc, char **argv)
     if (parsed != 0)
         return br_cli_parse_status(parsed);
     br_pick_opts po;
-    if (options(&a, &po) != BR_EXIT_OK)
+    const char *const out[] = {a.xml}, *const names[] = {"xml"};
+    const char *const in[] = {pos[0], a.catalog};
+    if (options(&a, &po) != BR_EXIT_OK ||
+        br_cli_outputs("pick", names, out, 1, in, 2) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
     outputs o = {0};
     br_error err;

@@ -88,7 +88,7 @@ static int compute(const char *path, const br_window_opts *wo, outputs *o, br_er
     return rc;
 }
 
-/* Files first, the report last (unless a file took stdout). */
+/* The files and the report, all or none (unless a file took stdout). */
 static int write_all(const outputs *o, const paths *p, int quiet)
 {
     static const char *const verdict[] = {"design point:", NULL};
@@ -113,7 +113,9 @@ static int run(const char *path, const paths *p, br_window_opts *wo, int quiet)
         wo->progress = &lr.hook;
         int rc = compute(path, wo, &o, &err);
         status = br_cli_run_commit(&lr);
-        if (status == BR_EXIT_OK)
+        if (status == BR_EXIT_OK && rc == BR_EUSAGE) /* an option does not fit the design */
+            status = br_cli_usage_error("window", "%s: %s", err.field, err.msg);
+        else if (status == BR_EXIT_OK)
             status = rc != BR_OK ? br_cli_fail(&err, path) : write_all(&o, p, quiet);
         if (status == BR_EXIT_OK && !o.w->design.holds)
             status = BR_EXIT_FAIL;
@@ -154,7 +156,8 @@ int cmd_window(int argc, char **argv)
         parse_freq("fmax", fmax, &wo.fmax) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
     const char *const out[] = {p.xml, p.report, p.plot};
-    if (br_cli_one_stdout("window", out, 3) != BR_EXIT_OK)
+    const char *const names[] = {"xml", "report", "plot"};
+    if (br_cli_outputs("window", names, out, 3, (const char *const *)pos, 1) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
     return run(pos[0], &p, &wo, quiet);
 }

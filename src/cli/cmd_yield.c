@@ -39,7 +39,7 @@ static int options(const args *a, br_yield_opts *o, double *min_yield)
 {
     long v;
     br_yield_opts_default(o);
-    *min_yield = 0.0;
+    *min_yield = BR_MIN_YIELD_NONE;
     o->startup = a->startup;
     if (a->samples && br_cli_long("yield", "samples", a->samples, 1, 10000000L, &o->samples))
         return BR_EXIT_INPUT;
@@ -60,8 +60,7 @@ static int options(const args *a, br_yield_opts *o, double *min_yield)
             return BR_EXIT_INPUT;
         o->solver_limit = (int)v;
     }
-    const char *const out[] = {a->xml, a->csv, a->report, a->plot};
-    return br_cli_one_stdout("yield", out, 4);
+    return BR_EXIT_OK;
 }
 
 typedef struct outputs {
@@ -120,7 +119,7 @@ static int compute(const char *path, const args *a, const br_yield_opts *yo, dou
     return rc;
 }
 
-/* Files first, the report last (unless a file took stdout). */
+/* The files and the report, all or none (unless a file took stdout). */
 static int write_all(const args *a, const outputs *o)
 {
     static const char *const verdict[] = {"verdict:", NULL};
@@ -159,7 +158,10 @@ int cmd_yield(int argc, char **argv)
         return br_cli_parse_status(parsed);
     br_yield_opts yo;
     double min_yield;
-    if (options(&a, &yo, &min_yield) != BR_EXIT_OK)
+    const char *const out[] = {a.xml, a.csv, a.report, a.plot};
+    const char *const names[] = {"xml", "csv", "report", "plot"};
+    if (options(&a, &yo, &min_yield) != BR_EXIT_OK ||
+        br_cli_outputs("yield", names, out, 4, (const char *const *)pos, 1) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
     outputs o = {0};
     br_error err;

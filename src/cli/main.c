@@ -5,6 +5,7 @@
 #include "cli.h"
 
 #include <gsl/gsl_errno.h>
+#include <signal.h>
 #include <string.h>
 
 #ifndef BR_VERSION
@@ -101,5 +102,9 @@ int main(int argc, char **argv)
     /* The library checks every GSL status itself; GSL's default handler
      * would abort the process instead of letting us report. */
     gsl_set_error_handler_off();
+    /* A reader that goes away (`| head -1`) is a write error on stdout,
+     * reported with status 2 like any other, not a silent death by
+     * SIGPIPE: writes then fail with EPIPE instead. */
+    signal(SIGPIPE, SIG_IGN);
     return br_cli_finish(dispatch(argc, argv));
 }

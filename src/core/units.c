@@ -35,28 +35,55 @@ typedef struct kind_info {
     const char *unit;     /* the SI unit */
     const char *units[8]; /* spellings of the unit at scale 1, NULL-terminated */
     const char *prefixes; /* SI prefixes that make sense for this kind */
-    int bare;             /* a bare number is accepted (in SI) */
+    int bare;             /* a bare number is accepted: the kind has no unit */
+    double limit;         /* largest magnitude that can be meant, SI (0: none) */
+    const char *limit_as; /* the same for messages */
 } kind_info;
 
+/* A bare number is a plain number or a fraction.  Every dimensioned kind
+ * needs its unit or at least a prefix ("62 nC", "62n"): "62" for a gate
+ * charge would be 62 C, a scale the writer almost surely did not mean.
+ * A bare 0 is the same in every unit and is accepted.  The limits are far
+ * beyond any gate-drive chain; a value past them is a typo, and keeps the
+ * arithmetic away from overflow. */
 static const kind_info kinds[BR_KIND_COUNT] = {
-    [BR_KIND_VOLTAGE] = {"a voltage like '12 V'", "V", {"V", "v", NULL}, "fpnumkMG", 1},
-    [BR_KIND_CURRENT] = {"a current like '2 mA'", "A", {"A", NULL}, "fpnumkMG", 1},
+    [BR_KIND_VOLTAGE] =
+        {"a voltage like '12 V'", "V", {"V", "v", NULL}, "fpnumkMG", 0, 1e6, "1 MV"},
+    [BR_KIND_CURRENT] = {"a current like '2 mA'", "A", {"A", NULL}, "fpnumkMG", 0, 1e6, "1 MA"},
     /* A mega- or kilofarad is never meant: those are typos for milli. */
-    [BR_KIND_CAPACITANCE] = {"a capacitance like '4.7 uF'", "F", {"F", NULL}, "fpnum", 1},
-    [BR_KIND_FREQUENCY] = {"a frequency like '200 kHz'", "Hz", {"Hz", "hz", "HZ", NULL}, "mkMG", 1},
-    [BR_KIND_TIME] = {"a time like '50 ns'", "s", {"s", NULL}, "fpnum", 1},
+    [BR_KIND_CAPACITANCE] =
+        {"a capacitance like '4.7 uF'", "F", {"F", NULL}, "fpnum", 0, 1.0, "1 F"},
+    [BR_KIND_FREQUENCY] =
+        {"a frequency like '200 kHz'", "Hz", {"Hz", "hz", "HZ", NULL}, "mkMG", 0, 1e12, "1000 GHz"},
+    [BR_KIND_TIME] = {"a time like '50 ns'", "s", {"s", NULL}, "fpnum", 0, 1e4, "10000 s"},
     [BR_KIND_RESISTANCE] = {"a resistance like '10 mohm'",
                             "ohm",
                             {"ohm", "Ohm", "ohms", "Ohms", "OHM", "\xCE\xA9", "\xE2\x84\xA6", NULL},
                             "fpnumkMG",
-                            1},
-    [BR_KIND_CHARGE] = {"a charge like '10 nC'", "C", {"C", NULL}, "fpnum", 1},
-    [BR_KIND_TEMPERATURE] = {"a temperature like '85 C' or '358 K'", "K", {"K", NULL}, "", 0},
-    [BR_KIND_TEMP_DELTA] =
-        {"a temperature difference like '10 K'", "K", {"K", "C", "degC", DEGREE "C", NULL}, "", 1},
-    [BR_KIND_FRACTION] = {"a fraction like '80 %' or '0.8'", "", {NULL}, "", 1},
-    [BR_KIND_NUMBER] = {"a plain number like '1.5'", "", {NULL}, "", 1},
-    [BR_KIND_ENERGY_EV] = {"an energy like '1.12 eV'", "eV", {"eV", NULL}, "m", 1},
+                            0,
+                            1e12,
+                            "1000 Gohm"},
+    [BR_KIND_CHARGE] = {"a charge like '10 nC'", "C", {"C", NULL}, "fpnum", 0, 1.0, "1 C"},
+    [BR_KIND_TEMPERATURE] =
+        {"a temperature like '85 C' or '358 K'", "K", {"K", NULL}, "", 0, 0, NULL},
+    [BR_KIND_TEMP_DELTA] = {"a temperature difference like '10 K'",
+                            "K",
+                            {"K", "C", "degC", DEGREE "C", NULL},
+                            "",
+                            0,
+                            1e4,
+                            "10000 K"},
+    [BR_KIND_FRACTION] = {"a fraction like '80 %' or '0.8'", "", {NULL}, "", 1, 0, NULL},
+    [BR_KIND_NUMBER] = {"a plain number like '1.5'", "", {NULL}, "", 1, 0, NULL},
+    [BR_KIND_ENERGY_EV] = {"an energy like '1.12 eV'", "eV", {"eV", NULL}, "m", 0, 1e3, "1 keV"},
+    /* "mA2s" could be read as 1e-3 A^2 s or (1e-3 A)^2 s: no prefixes */
+    [BR_KIND_I2T] = {"an I2t like '4.5 A2s'",
+                     "A2s",
+                     {"A2s", "A^2s", "A\xC2\xB2s", NULL},
+                     "",
+                     0,
+                     1e9,
+                     "1e9 A2s"},
 };
 
 const char *br_kind_expected(br_kind kind)
@@ -153,7 +180,7 @@ static int suffix_scale(const char *suffix, br_kind kind, double *scale, double 
     if (kind == BR_KIND_TEMPERATURE)
         return temperature_scale(suffix, offset, err);
     if (suffix[0] == '\0' || is_unit(k, suffix))
-        return BR_OK; /* kinds[].bare is 1 for every kind but temperature */
+        return BR_OK; /* a missing unit is to_si's to judge: it knows the number */
     if (kind == BR_KIND_FRACTION && strcmp(suffix, "%") == 0) {
         *scale = 0.01;
         return BR_OK;
@@ -162,6 +189,10 @@ static int suffix_scale(const char *suffix, br_kind kind, double *scale, double 
     char p = split_prefix(suffix, &rest);
     if (!p || !(rest[0] == '\0' || is_unit(k, rest)))
         return unit_error(err, suffix, kind);
+    if (!k->prefixes[0])
+        return br_error_set(err, BR_EINPUT, NULL, 0, NULL,
+                            "got '%s', expected %s (no prefix: on this unit it would mislead)",
+                            suffix, k->expected);
     if (!strchr(k->prefixes, p))
         return br_error_set(err, BR_EINPUT, NULL, 0, NULL,
                             "got '%s', expected %s (prefix '%c' does not fit; the prefixes "
@@ -179,10 +210,12 @@ typedef struct scan {
     br_error *err;
 } scan;
 
-/* One value as written: the number and its (possibly empty) suffix. */
+/* One value as written: the number, its (possibly empty) suffix and the
+ * number's own text, for messages. */
 typedef struct raw {
     double num;
     char suffix[SUFFIX_MAX];
+    char text[DIGITS_MAX + 24];
 } raw;
 
 static void skip_ws(scan *s)
@@ -287,10 +320,16 @@ static int scan_number(scan *s, double *out)
     return BR_OK;
 }
 
+/* A unit may hold a power once it has begun ("A2s", "A^2s"). */
+static int continues_suffix(const char *p, size_t n)
+{
+    return n > 0 && (isdigit((unsigned char)*p) || *p == '^');
+}
+
 static int scan_suffix(scan *s, char *buf, size_t cap)
 {
     size_t n = 0;
-    while (*s->p && is_suffix_char(s->p)) {
+    while (*s->p && (is_suffix_char(s->p) || continues_suffix(s->p, n))) {
         if (n + 1 >= cap)
             return br_error_set(s->err, BR_EINPUT, NULL, 0, NULL, "unit too long, expected %s",
                                 kinds[s->kind].expected);
@@ -308,10 +347,12 @@ static int is_dist_word(const char *w)
 /* number [ws] [suffix]; a distribution word is left for the caller. */
 static int scan_value(scan *s, raw *r)
 {
+    const char *start = s->p;
     int rc = scan_number(s, &r->num);
     if (rc)
         return rc;
     const char *after_number = s->p;
+    snprintf(r->text, sizeof r->text, "%.*s", (int)(after_number - start), start);
     skip_ws(s);
     if ((rc = scan_suffix(s, r->suffix, sizeof r->suffix)) != 0)
         return rc;
@@ -322,16 +363,52 @@ static int scan_value(scan *s, raw *r)
     return BR_OK;
 }
 
+static int expect_end(scan *s);
+
+/* After a value: something that can follow it in a quantity (the end, a
+ * tolerance, a '/', a distribution word), or not. */
+static int junk_follows(const scan *s)
+{
+    const char *p = s->p;
+    while (*p && isspace((unsigned char)*p))
+        p++;
+    return *p &&
+           !(*p == '+' || *p == '-' || *p == '/' || is_plus_minus(p) || isalpha((unsigned char)*p));
+}
+
+/* A magnitude beyond the kind's limit is refused, naming the limit. */
+static int check_limit(scan *s, br_kind kind, double v, const char *what)
+{
+    const kind_info *k = &kinds[kind];
+    if (!(k->limit > 0) || fabs(v) <= k->limit)
+        return BR_OK;
+    return br_error_set(s->err, BR_EINPUT, NULL, 0, NULL,
+                        "got '%.40s', beyond any value that can be meant here; expected %s of "
+                        "at most %s",
+                        what, k->expected, k->limit_as);
+}
+
 static int to_si(scan *s, const raw *r, br_kind kind, double *out)
 {
     double scale, offset;
     int rc = suffix_scale(r->suffix, kind, &scale, &offset, s->err);
     if (rc)
         return rc;
+    if (r->suffix[0] == '\0' && !kinds[kind].bare && r->num != 0.0 && junk_follows(s))
+        return expect_end(s); /* "12,5 V": the comma is the fault, not the unit */
+    if (r->suffix[0] == '\0' && !kinds[kind].bare && r->num != 0.0)
+        return br_error_set(s->err, BR_EINPUT, NULL, 0, NULL,
+                            "got '%s' without a unit, expected %s (a bare number is only for "
+                            "plain numbers, fractions and 0)",
+                            r->text, kinds[kind].expected);
     double v = r->num * scale + offset;
     if (!isfinite(v))
         return br_error_set(s->err, BR_EINPUT, NULL, 0, NULL, "value out of range, expected %s",
                             kinds[kind].expected);
+    char what[DIGITS_MAX + 24 + SUFFIX_MAX + 2];
+    snprintf(what, sizeof what, "%s%s%s", r->text, r->suffix[0] ? " " : "", r->suffix);
+    if ((rc = check_limit(s, kind, v, what)) != 0)
+        return rc;
     *out = v;
     return BR_OK;
 }
@@ -514,6 +591,10 @@ int br_qty_parse(const char *text, br_kind kind, br_qty *q, br_error *err)
     skip_ws(&s);
     if ((rc = scan_value(&s, &v[0])) != 0 || (rc = scan_spread(&s, v, &r)) != 0 ||
         (rc = scan_dist(&s, &r)) != 0 || (rc = expect_end(&s)) != 0)
+        return rc;
+    /* a tolerance in % can carry a limit past the kind's bound */
+    if ((rc = check_limit(&s, kind, r.min, text)) != 0 ||
+        (rc = check_limit(&s, kind, r.max, text)) != 0)
         return rc;
     *q = r;
     return BR_OK;

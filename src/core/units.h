@@ -1,11 +1,13 @@
 /* units.h - reading quantities with SI units ("4.7 uF", "85 C") into SI doubles.
  *
  * The caller says which kind of quantity it expects; the text may then give
- * the value bare ("0.8", "1e-7"), with an SI prefix only ("4.7u", "10 m"), or
- * with prefix and unit ("4.7 uF", "200 kHz", "10 mohm").  Prefixes: f p n u
- * (also the micro sign) m k M G.  A unit that does not fit the kind is an
- * error that says what was expected.  Temperatures need a unit (C or K) and
- * come out in kelvin.
+ * the value with an SI prefix only ("4.7u", "10 m") or with prefix and unit
+ * ("4.7 uF", "200 kHz", "10 mohm").  Only plain numbers and fractions may be
+ * bare ("0.8", "1.5"), and 0 in any kind: a bare "62" for a charge is
+ * refused, not read as 62 C.  Prefixes: f p n u (also the micro sign) m k M
+ * G.  A unit that does not fit the kind is an error that says what was
+ * expected, and so is a magnitude beyond the kind's sane limit (1 MV,
+ * 1 F, ...).  Temperatures need a unit (C or K) and come out in kelvin.
  *
  * Toleranced form (br_qty_parse), for any numeric attribute:
  *   "2.2 uF +-10%"        symmetric, relative (also "±"); "12 V +-0.5 V" absolute
@@ -34,6 +36,7 @@ typedef enum br_kind {
     BR_KIND_FRACTION,    /* "80 %" or a plain number 0.8 */
     BR_KIND_NUMBER,      /* dimensionless, a plain number */
     BR_KIND_ENERGY_EV,   /* eV, kept in eV (bandgaps) */
+    BR_KIND_I2T,         /* A^2 s ("A2s"), no prefixes: on a squared unit they mislead */
     BR_KIND_COUNT
 } br_kind;
 

@@ -42,7 +42,9 @@ static int validate(const char *file, xmlDoc *doc, br_error *err)
 
 /* ---- the parts --------------------------------------------------------------- */
 
-static const br_range r_offer = {0.0, 1e12, 0, 0, "a number >= 0"};
+/* Any cost or area a catalog can mean; beyond, a typo (and sums of them
+ * stay far from overflowing). */
+static const br_range r_offer = {0.0, 1e12, 0, 0, "a number from 0 to 1e12"};
 
 static int read_offer(br_rd *r, xmlNode *n, br_offer *o)
 {
@@ -96,16 +98,19 @@ int br_catalog_load_memory(const char *buf, size_t len, const char *name, br_cat
     *out = NULL;
     name = name ? name : "(memory)";
     BR_TRY(br_xcheck_size(&CATALOG, name, buf ? len : 0, err));
+    char *lf = NULL;
+    BR_TRY(br_xline_ends(buf, len, name, &lf, err));
     br_catalog *cat = calloc(1, sizeof *cat);
     br_design *scratch = br_design_create();
     if (!cat || !scratch) {
         free(cat);
+        free(lf);
         br_design_free(scratch);
         return br_error_set(err, BR_ENOMEM, name, 0, "", "out of memory");
     }
     snprintf(cat->path, sizeof cat->path, "%s", name);
     snprintf(scratch->path, sizeof scratch->path, "%s", name);
-    br_rd r = {name, buf, len, scratch, err};
+    br_rd r = {name, lf ? lf : buf, len, scratch, err};
     br_xcapture c;
     br_xhandlers saved;
     memset(&c, 0, sizeof c);
@@ -113,6 +118,7 @@ int br_catalog_load_memory(const char *buf, size_t len, const char *name, br_cat
     int rc = load_doc(&r, cat, &c);
     br_xcapture_end(&saved);
     br_design_free(scratch);
+    free(lf);
     if (rc != BR_OK) {
         free(cat);
         return rc;

@@ -9,7 +9,8 @@
 #include <string.h>
 
 static const br_range r_duty = {0.0, 1.0, 1, 1, "a duty strictly between 0 and 1"};
-static const br_range r_ambient = {173.15, 573.15, 0, 0, "a temperature from -100 C to 300 C"};
+static const br_range r_ambient = {-100.0 + BR_ZERO_CELSIUS, 300.0 + BR_ZERO_CELSIUS, 0, 0,
+                                   "a temperature from -100 C to 300 C"};
 static const br_range r_imbalance = {0.0, 1.0, 0, 1, "a fraction from 0 to below 1"};
 static const br_range r_overshoot = {0.0, 1.0, 0, 0, "a fraction from 0 to 1"};
 static const br_range r_period = {0.0, 1.0, 0, 0, "a fraction of the period from 0 to 1"};

@@ -82,16 +82,21 @@ int br_design_load_memory(const char *buf, size_t len, const char *name, br_desi
     *out = NULL;
     name = name ? name : "(memory)";
     BR_TRY(br_xcheck_size(&DESIGN, name, len, err));
+    char *lf = NULL;
+    BR_TRY(br_xline_ends(buf, len, name, &lf, err));
     br_design *d = br_design_create();
-    if (!d)
+    if (!d) {
+        free(lf);
         return br_error_set(err, BR_ENOMEM, name, 0, "", "out of memory");
+    }
     snprintf(d->path, sizeof d->path, "%s", name);
-    br_rd r = {name, buf, len, d, err};
+    br_rd r = {name, lf ? lf : buf, len, d, err};
     br_xcapture c;
     memset(&c, 0, sizeof c);
     br_xcapture_begin(&saved, &c);
     int rc = load_doc(&r, &c);
     br_xcapture_end(&saved);
+    free(lf);
     if (rc != BR_OK) {
         br_design_free(d);
         return rc;

@@ -13,7 +13,8 @@ static const br_range r_n = {0.5, 10.0, 0, 0, "an emission coefficient from 0.5 
 static const br_range r_m = {0.0, 1.0, 1, 1, "a grading coefficient strictly between 0 and 1"};
 static const br_range r_eg = {0.1, 10.0, 0, 0, "a bandgap from 0.1 eV to 10 eV"};
 static const br_range r_xti = {-50.0, 50.0, 0, 0, "a number from -50 to 50"};
-static const br_range r_temp = {173.15, 573.15, 0, 0, "a temperature from -100 C to 300 C"};
+static const br_range r_temp = {-100.0 + BR_ZERO_CELSIUS, 300.0 + BR_ZERO_CELSIUS, 0, 0,
+                                "a temperature from -100 C to 300 C"};
 static const br_range r_tfactor = {0.0, 2.0, 1, 0, "a factor in (0, 2]"};
 static const br_range r_unit = {0.0, 1.0, 1, 0, "a factor in (0, 1]"};
 static const br_range r_gate_off = {-50.0, 0.0, 0, 0, "a voltage from -50 V to 0 V"};
@@ -168,6 +169,8 @@ static int read_diode(br_rd *r, xmlNode *n)
     BR_TRY(br_rd_qty(r, n, "ir-doubling", BR_KIND_TEMP_DELTA, &br_range_pos, &p->ir_double, NULL));
     BR_TRY(br_rd_qty(r, n, "vrrm", BR_KIND_VOLTAGE, &br_range_nonneg, &p->vrrm, NULL));
     BR_TRY(br_rd_qty(r, n, "ifsm", BR_KIND_CURRENT, &br_range_nonneg, &p->ifsm, NULL));
+    BR_TRY(br_rd_qty(r, n, "ifrm", BR_KIND_CURRENT, &br_range_nonneg, &p->ifrm, NULL));
+    BR_TRY(br_rd_qty(r, n, "i2t", BR_KIND_I2T, &br_range_nonneg, &p->i2t, NULL));
     d->ndiodes++;
     return BR_OK;
 }

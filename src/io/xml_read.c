@@ -349,8 +349,9 @@ static const rule rules[] = {
     {"switch", "reverse", "!from !to", "", 0},
     {"bootrung-design", "parts", "", "diode capacitor driver switch regulator clamp", 0},
     {"parts", "diode",
-     "!id is n rs ref-temp cj0 vj m tau qrr if eg xti ir ir-temp ir-doubling vrrm ifsm", "forward",
-     0},
+     "!id is n rs ref-temp cj0 vj m tau qrr if eg xti ir ir-temp ir-doubling vrrm ifsm ifrm "
+     "i2t",
+     "forward", 0},
     {"diode", "forward", "!i !v", "", 0},
     {"parts", "capacitor", "!id !c esr rating temp-factor aging", "bias", 0},
     {"capacitor", "bias", "!v !factor", "", 0},

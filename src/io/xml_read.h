@@ -37,6 +37,11 @@ typedef struct br_range {
     const char *expect; /* e.g. "a capacitance > 0" */
 } br_range;
 
+/* 0 C in kelvin.  Temperature bounds are written as "-100.0 +
+ * BR_ZERO_CELSIUS" so that they round exactly as the reader's "-100 C"
+ * does (-100 + 273.15 is not the double nearest 173.15). */
+#define BR_ZERO_CELSIUS 273.15
+
 extern const br_range br_range_pos;    /* (0, inf) */
 extern const br_range br_range_nonneg; /* [0, inf) */
 

@@ -167,6 +167,42 @@ static void refuse_doctype(void *ctx, const xmlChar *name, const xmlChar *ext_id
     xmlStopParser(p);
 }
 
+/* UTF-16 and UTF-32 documents start with a byte-order mark or have a zero
+ * byte among their first four: there a 0x0D byte is half a character. */
+static int ascii_compatible(const unsigned char *b, size_t len)
+{
+    if (len >= 2 && ((b[0] == 0xFE && b[1] == 0xFF) || (b[0] == 0xFF && b[1] == 0xFE)))
+        return 0;
+    for (size_t i = 0; i < len && i < 4; i++)
+        if (b[i] == 0)
+            return 0;
+    return 1;
+}
+
+static int lone_cr(const char *buf, size_t len, size_t i)
+{
+    return buf[i] == '\r' && !(i + 1 < len && buf[i + 1] == '\n');
+}
+
+int br_xline_ends(const char *buf, size_t len, const char *file, char **copy, br_error *err)
+{
+    *copy = NULL;
+    size_t i = 0;
+    while (i < len && !lone_cr(buf, len, i))
+        i++;
+    if (i == len || !ascii_compatible((const unsigned char *)buf, len))
+        return BR_OK;
+    char *c = malloc(len);
+    if (!c)
+        return br_error_set(err, BR_ENOMEM, file, 0, "", "out of memory reading the file");
+    memcpy(c, buf, len);
+    for (; i < len; i++)
+        if (lone_cr(buf, len, i))
+            c[i] = '\n';
+    *copy = c;
+    return BR_OK;
+}
+
 int br_xparse(const br_xkind *k, const char *buf, size_t len, const char *file, br_xcapture *c,
               xmlDoc **out, br_error *err)
 {

@@ -46,6 +46,14 @@ int br_xcheck_size(const br_xkind *k, const char *file, size_t len, br_error *er
 /* Read a whole file (not a directory) of at most k->max_bytes. */
 int br_xread_file(const br_xkind *k, const char *path, char **buf, size_t *len, br_error *err);
 
+/* A file whose lines end in a carriage return alone (XML allows it, and
+ * normalises it to a line feed before parsing) gets a copy in *copy with
+ * each such CR made a LF: libxml2 counts lines only by LF, and the same
+ * length keeps every offset.  *copy is NULL when nothing needs it (no lone
+ * CR, or a document in an encoding where a CR byte need not be one).
+ * BR_ENOMEM when the copy cannot be made. */
+int br_xline_ends(const char *buf, size_t len, const char *file, char **copy, br_error *err);
+
 /* Parse buf into *out; c receives the parser's first error. */
 int br_xparse(const br_xkind *k, const char *buf, size_t len, const char *file, br_xcapture *c,
               xmlDoc **out, br_error *err);

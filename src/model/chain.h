@@ -25,7 +25,9 @@ typedef struct br_diode {
     double tau;     /* charge-control time constant, s */
     double ir;      /* reverse leakage at the operating temperature, A */
     double vrrm;    /* reverse voltage rating, V */
-    double ifsm;    /* surge current rating, A (0: not given) */
+    double ifsm;    /* surge current rating, one pulse, A (0: not given) */
+    double ifrm;    /* repetitive peak forward current rating, A (0: not given) */
+    double i2t;     /* I2t rating, A^2 s (0: not given) */
 } br_diode;
 
 typedef struct br_cap {

@@ -86,6 +86,8 @@ void br_diode_part_defaults(br_diode_part *p)
     p->ir_double = br_qty_fixed(10.0); /* leakage doubles per ~10 K, common practice */
     p->vrrm = br_qty_fixed(0.0);
     p->ifsm = br_qty_fixed(0.0);
+    p->ifrm = br_qty_fixed(0.0);
+    p->i2t = br_qty_fixed(0.0);
     p->tnom = 27.0 + KELVIN; /* the usual reference temperature of diode models */
 }
 

@@ -63,7 +63,9 @@ typedef struct br_diode_part {
     br_qty ir_temp;   /* temperature at which ir is given, K */
     br_qty ir_double; /* temperature rise that doubles the leakage, K */
     br_qty vrrm;      /* repetitive peak reverse voltage rating, V */
-    br_qty ifsm;      /* non-repetitive surge current rating, A */
+    br_qty ifsm;      /* non-repetitive surge current rating (one pulse), A */
+    br_qty ifrm;      /* repetitive peak forward current rating, A */
+    br_qty i2t;       /* I2t rating (integral of i^2 over a surge), A^2 s */
     double tnom;      /* temperature of is/n/rs, K */
 } br_diode_part;
 

@@ -39,6 +39,8 @@ int br_diode_at(const br_diode_part *p, double T, br_diode *out, br_error *err)
     out->ir = p->ir.nom * pow(2.0, (T - p->ir_temp.nom) / p->ir_double.nom);
     out->vrrm = p->vrrm.nom;
     out->ifsm = p->ifsm.nom;
+    out->ifrm = p->ifrm.nom;
+    out->i2t = p->i2t.nom;
     return BR_OK;
 }
 

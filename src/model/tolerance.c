@@ -66,6 +66,8 @@ static const field diode_fields[] = {F(br_diode_part, is, "is", BR_KIND_CURRENT)
                                      F(br_diode_part, ir_double, "ir-doubling", BR_KIND_TEMP_DELTA),
                                      F(br_diode_part, vrrm, "vrrm", BR_KIND_VOLTAGE),
                                      F(br_diode_part, ifsm, "ifsm", BR_KIND_CURRENT),
+                                     F(br_diode_part, ifrm, "ifrm", BR_KIND_CURRENT),
+                                     F(br_diode_part, i2t, "i2t", BR_KIND_I2T),
                                      END};
 
 static const field cap_fields[] = {F(br_cap_part, c, "c", BR_KIND_CAPACITANCE),

@@ -28,6 +28,12 @@ static const char *si(char *buf, size_t cap, double v, const char *unit)
     return buf;
 }
 
+/* The supply's highest value over its tolerance, V. */
+static double supply_top(const br_chain *c)
+{
+    return c->design && c->design->vsupply.max > c->vsupply ? c->design->vsupply.max : c->vsupply;
+}
+
 static const char *direction_name(int dir)
 {
     switch (dir) {
@@ -352,6 +358,8 @@ static int describe_supply(const br_chain *c, const br_rule_hit *h, br_text *out
         rc |=
             br_text_printf(out, " (drops taken at the steady charge currents, %.3g mA in link %d)",
                            h->current * 1e3, k);
+    if (k == c->n - 1)
+        return rc | br_text_printf(out, "; THE CHAIN CANNOT WORK: rail %d never starts", k);
     return rc |
            br_text_printf(out, "; THE CHAIN CANNOT WORK: rails %d to %d never start", k, c->n - 1);
 }
@@ -385,6 +393,84 @@ static int describe_stage(const br_chain *c, const br_rule_hit *h, br_text *out)
     }
 }
 
+/* "diode d1 (link 2): cj0 12 F is outside ..." */
+static int describe_implausible(const br_chain *c, const br_rule_hit *h, br_text *out)
+{
+    char v[32], lo[32], hi[32];
+    int rc = 0;
+    if (h->part[0])
+        rc |= br_text_printf(out, "part %s (stage %d, %s): ", h->part, h->stage,
+                             c->st[h->stage].name);
+    else if (h->stage >= 0)
+        rc |= br_text_printf(out, "link %d (rail %s): ", h->stage, c->st[h->stage].name);
+    rc |=
+        br_text_printf(out, "%s %s is IMPLAUSIBLE: ", h->what, si(v, sizeof v, h->figure, h->unit));
+    if (h->lo > 0)
+        rc |=
+            br_text_printf(out, "parts of its kind have %s to %s",
+                           si(lo, sizeof lo, h->lo, h->unit), si(hi, sizeof hi, h->limit, h->unit));
+    else
+        rc |= br_text_printf(out, "parts of its kind have at most %s",
+                             si(hi, sizeof hi, h->limit, h->unit));
+    return rc | br_text_put(out, "; check the number and its unit");
+}
+
+/* The names of the switches in mask, space separated. */
+static int put_switches(const br_chain *c, unsigned long long mask, br_text *out)
+{
+    int rc = 0, first = 1;
+    for (int s = 0; s < c->n; s++)
+        if (mask >> s & 1) {
+            rc |= br_text_printf(out, "%s%s", first ? "" : " ", c->st[s].name);
+            first = 0;
+        }
+    return rc;
+}
+
+/* Why the driver of switch k cannot start earlier than h->figure. */
+static int precharge_why(const br_chain *c, const br_rule_hit *h, br_text *out)
+{
+    char a[32], b[32], t[32];
+    int k = h->stage;
+    if (h->by_ramp && isfinite(h->figure))
+        return br_text_printf(out,
+                              " (the supply ramps to at most %s over %s, and the driver needs %s "
+                              "on its rail)",
+                              si(a, sizeof a, supply_top(c), "V"), si(t, sizeof t, c->tramp, "s"),
+                              si(b, sizeof b, h->current, "V"));
+    if (h->by_ramp)
+        return br_text_printf(out, " (its rail needs %s, above the supply's %s)",
+                              si(b, sizeof b, h->current, "V"),
+                              si(a, sizeof a, supply_top(c), "V"));
+    return br_text_printf(out, " (rail %d charges only while %s is on%s)", k, c->st[k - 1].name,
+                          isfinite(h->figure) ? "" : ", and no step turns it on before");
+}
+
+static int describe_precharge(const br_chain *c, const br_rule_hit *h, br_text *out)
+{
+    char a[32], b[32], e[32];
+    unsigned long long held = c->precharge[h->index].mask;
+    int rc = br_text_printf(out, "startup precharge %d (holds ", h->index + 1);
+    rc |= put_switches(c, held, out);
+    rc |= br_text_printf(out, " from %s to %s): ", si(a, sizeof a, h->lo, "s"),
+                         si(b, sizeof b, h->limit, "s"));
+    rc |= h->mask == held ? br_text_put(out, "none of its switches can turn on in it") : 0;
+    if (h->mask != held) {
+        rc |= put_switches(c, h->mask, out);
+        rc |= br_text_put(out, " cannot turn on in it");
+    }
+    if (isfinite(h->figure))
+        rc |= br_text_printf(out, ": the driver of %s leaves UVLO at %s at the earliest",
+                             c->st[h->stage].name, si(e, sizeof e, h->figure, "s"));
+    else
+        rc |= br_text_printf(out, ": the driver of %s cannot leave UVLO before PWM starts",
+                             c->st[h->stage].name);
+    rc |= precharge_why(c, h, out);
+    if (h->mask == held)
+        rc |= br_text_put(out, "; the step does nothing");
+    return rc;
+}
+
 int br_rule_describe(const br_chain *c, const br_rule_hit *h, br_text *out)
 {
     switch (h->kind) {
@@ -400,6 +486,10 @@ int br_rule_describe(const br_chain *c, const br_rule_hit *h, br_text *out)
                               "voltage it blocks down to %.3g V of its %.4g V; THE LEG CANNOT "
                               "WORK: its cells collapse (expected a larger cfly)",
                               h->part, h->current, h->figure, h->limit);
+    case BR_RULE_IMPLAUSIBLE:
+        return describe_implausible(c, h, out);
+    case BR_RULE_PRECHARGE_IDLE:
+        return describe_precharge(c, h, out);
     case BR_RULE_NO_WINDOW:
         return br_text_printf(out,
                               "link %d (rail %s): its return switch %s is never on, so the link "
@@ -411,14 +501,31 @@ int br_rule_describe(const br_chain *c, const br_rule_hit *h, br_text *out)
     }
 }
 
+static int count_fatal(const br_rule_list *rules)
+{
+    int n = 0;
+    for (int i = 0; i < rules->n; i++)
+        n += rules->hit[i].fatal != 0;
+    return n;
+}
+
+/* A finding that means the chain cannot work is a failure, not a warning:
+ * its line says FAIL and so does the summary (which `check` exits 1 on). */
 static int render_findings(const br_chain *c, const br_rule_list *rules, br_text *out)
 {
     if (rules->n == 0)
         return br_text_put(out, "\ndesign rules: no warnings\n");
-    int rc =
-        br_text_printf(out, "\ndesign rules: %d warning%s\n", rules->n, rules->n == 1 ? "" : "s");
+    int nfatal = count_fatal(rules), rc;
+    if (nfatal > 0)
+        rc = br_text_printf(out,
+                            "\ndesign rules: FAIL, %d finding%s, %d of them mean%s the chain "
+                            "cannot work\n",
+                            rules->n, rules->n == 1 ? "" : "s", nfatal, nfatal == 1 ? "s" : "");
+    else
+        rc = br_text_printf(out, "\ndesign rules: %d warning%s\n", rules->n,
+                            rules->n == 1 ? "" : "s");
     for (int i = 0; i < rules->n; i++) {
-        rc |= br_text_put(out, "  warning: ");
+        rc |= br_text_put(out, rules->hit[i].fatal ? "  FAIL: " : "  warning: ");
         rc |= br_rule_describe(c, &rules->hit[i], out);
         rc |= br_text_put(out, "\n");
     }
@@ -436,7 +543,7 @@ int br_check_render(const br_chain *c, const br_rule_list *rules, br_text *out)
     return rc ? BR_ENOMEM : BR_OK;
 }
 
-int br_check_report(const br_chain *c, br_text *out, int *nwarn, br_error *err)
+int br_check_report(const br_chain *c, br_text *out, int *nwarn, int *nfatal, br_error *err)
 {
     br_rule_list rules;
     int rc = br_rules_check(c, &rules, err);
@@ -444,6 +551,8 @@ int br_check_report(const br_chain *c, br_text *out, int *nwarn, br_error *err)
         return rc;
     if (nwarn)
         *nwarn = rules.n;
+    if (nfatal)
+        *nfatal = count_fatal(&rules);
     if (br_check_render(c, &rules, out) != BR_OK)
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory rendering the report");
     return BR_OK;

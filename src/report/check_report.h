@@ -10,9 +10,11 @@
 #include "model/chain.h"
 
 /* Run the design rules on c and render the whole report into out.
- * *nwarn (may be NULL) receives the number of findings.  Returns BR_OK,
- * or BR_ENOMEM with err filled (out then holds a truncated report). */
-int br_check_report(const br_chain *c, br_text *out, int *nwarn, br_error *err);
+ * *nwarn (may be NULL) receives the number of findings, *nfatal (may be
+ * NULL) how many of them mean the chain cannot work at all.  Returns
+ * BR_OK, or BR_ENOMEM with err filled (out then holds a truncated
+ * report). */
+int br_check_report(const br_chain *c, br_text *out, int *nwarn, int *nfatal, br_error *err);
 
 /* Render with findings computed by the caller (tests, other reports). */
 int br_check_render(const br_chain *c, const br_rule_list *rules, br_text *out);

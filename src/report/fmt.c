@@ -69,7 +69,12 @@ const char *br_fmt_in(char *buf, size_t cap, double v, const br_scale *sc, int d
         double x = v * sc->factor;
         if (fabs(x) < 0.5 * pow(10.0, -decimals))
             x = 0.0; /* no "-0.000" */
-        snprintf(buf, cap, "%.*f", decimals, x);
+        /* beyond the largest prefix a fixed-point number grows without
+         * bound (1e300 V would print 292 digits): an exponent instead */
+        if (fabs(x) >= 1e6)
+            snprintf(buf, cap, "%.4g", x);
+        else
+            snprintf(buf, cap, "%.*f", decimals, x);
     }
     return buf;
 }

@@ -30,7 +30,9 @@ br_scale br_scale_column(double vmax, double finest, const char *unit);
  * is never printed as a result.  Returns buf. */
 const char *br_fmt_si(char *buf, size_t cap, double v, int digits, const char *unit);
 
-/* v in scale sc with `decimals` decimals, without the unit.  Returns buf. */
+/* v in scale sc with `decimals` decimals, without the unit; a value of a
+ * million or more in that scale (past the largest prefix) with four
+ * significant digits and an exponent.  Returns buf. */
 const char *br_fmt_in(char *buf, size_t cap, double v, const br_scale *sc, int decimals);
 
 /* A time such as "1.234 ms", or "-" when t < 0 (an event that did not

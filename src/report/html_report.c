@@ -238,7 +238,7 @@ static int verdict_notes(br_text *out, const br_chain *c, const br_verdict *v, u
         return BR_ENOMEM;
     for (int i = 0; i < BR_CRIT_COUNT; i++) {
         const br_verdict_row *r = &v->row[i];
-        if (!(mask & (1u << i)) || (r->applies && r->pass && !r->warn))
+        if (!(mask & (1u << i)) || (r->applies && r->pass && !r->warn && !r->note[0]))
             continue;
         br_text_reset(why);
         rc |= br_text_printf(why, "%s %s: ", br_verdict_word(r), br_crit_title(i));
@@ -294,13 +294,14 @@ int br_html_verdict(br_text *out, const br_chain *c, const br_verdict *v, unsign
 int br_html_startup_table(br_text *out, const br_chain *c, const br_startup *su)
 {
     static const char *const heads[] = {"stage",    "first start", "final start",
-                                        "dropouts", "inrush peak", "surge rating",
+                                        "dropouts", "inrush peak", "inrush limit",
                                         "result",   "rail at end"};
     char b[48];
     int rc = head_row(out, heads, 8);
     for (int k = 0; k < c->n; k++) {
         const br_startup_stage *s = &su->st[k];
-        double ifsm = k > 0 ? c->st[k].diode.ifsm : 0.0;
+        br_inrush_check ck[BR_RATING_COUNT];
+        int bind = -1, n = k > 0 ? br_inrush_link(c, su, k, ck, &bind) : 0;
         rc |= br_text_put(out, "<tr>");
         rc |= cell(out, "l", c->st[k].name);
         rc |= cell(out, NULL, br_plot_time(b, sizeof b, s->first_enable));
@@ -309,8 +310,15 @@ int br_html_startup_table(br_text *out, const br_chain *c, const br_startup *su)
         snprintf(b, sizeof b, "%d", s->ndropouts);
         rc |= cell(out, NULL, b);
         rc |= k > 0 ? cell_si(out, s->ipeak, 3, "A") : cell(out, NULL, "-");
-        rc |= ifsm > 0 ? cell_si(out, ifsm, 3, "A") : cell(out, NULL, "-");
-        rc |= cell_result(out, 1, s->final_enable >= 0 && !(ifsm > 0 && s->ipeak > ifsm));
+        if (n > 0) { /* the binding one of IFRM, IFSM and I2t, named */
+            char v[32];
+            snprintf(b, sizeof b, "%s %s", br_plot_si(v, sizeof v, ck[bind].limit, 3, "A"),
+                     br_rating_name(ck[bind].rating));
+            rc |= cell(out, NULL, b);
+        } else {
+            rc |= cell(out, NULL, "-");
+        }
+        rc |= cell_result(out, 1, s->final_enable >= 0 && !(n > 0 && ck[bind].margin < 0));
         rc |= cell_si(out, s->vend, 4, "V");
         rc |= br_text_put(out, "</tr>\n");
     }

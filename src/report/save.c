@@ -68,25 +68,62 @@ static int save_special(const br_text *t, const char *path, br_error *err)
     return e != 0 ? fail(err, path, e) : BR_OK;
 }
 
-int br_text_save(const br_text *t, const char *path, br_error *err)
+int br_text_stage(const br_text *t, const char *path, br_staged *s, br_error *err)
 {
     struct stat st;
-    if (stat(path, &st) == 0 && !S_ISREG(st.st_mode) && !S_ISDIR(st.st_mode))
-        return save_special(t, path, err);
-    char tmp[4096 + 64];
-    int fd = open_temp(path, tmp, sizeof tmp);
-    if (fd < 0)
-        return fail(err, path, errno);
+    s->text = t;
+    s->tmp[0] = '\0';
+    s->special = 0;
+    if ((size_t)snprintf(s->path, sizeof s->path, "%s", path) >= sizeof s->path)
+        return fail(err, path, ENAMETOOLONG);
+    int exists = stat(path, &st) == 0;
+    if (exists && S_ISDIR(st.st_mode))
+        return fail(err, path, EISDIR); /* rename() would refuse it at the end */
+    if (exists && !S_ISREG(st.st_mode)) {
+        s->special = 1;
+        return BR_OK;
+    }
+    int fd = open_temp(path, s->tmp, sizeof s->tmp);
+    if (fd < 0) {
+        int e = errno;
+        s->tmp[0] = '\0';
+        return fail(err, path, e);
+    }
     int e = write_all(fd, br_text_data(t), br_text_len(t));
     if (e == 0 && fsync(fd) != 0)
         e = errno;
     if (close(fd) != 0 && e == 0)
         e = errno;
-    if (e == 0 && rename(tmp, path) != 0)
-        e = errno;
     if (e != 0) {
-        unlink(tmp);
+        br_staged_discard(s);
         return fail(err, path, e);
     }
     return BR_OK;
+}
+
+int br_staged_commit(br_staged *s, br_error *err)
+{
+    if (s->special)
+        return save_special(s->text, s->path, err);
+    int e = rename(s->tmp, s->path) != 0 ? errno : 0;
+    if (e != 0) {
+        br_staged_discard(s);
+        return fail(err, s->path, e);
+    }
+    s->tmp[0] = '\0';
+    return BR_OK;
+}
+
+void br_staged_discard(br_staged *s)
+{
+    if (s->tmp[0])
+        unlink(s->tmp);
+    s->tmp[0] = '\0';
+}
+
+int br_text_save(const br_text *t, const char *path, br_error *err)
+{
+    br_staged s;
+    int rc = br_text_stage(t, path, &s, err);
+    return rc == BR_OK ? br_staged_commit(&s, err) : rc;
 }

@@ -1,6 +1,7 @@
 /* startup_report.c - rendering a cold start. */
 #include "report/startup_report.h"
 
+#include "analyses/figures.h"
 #include "report/fmt.h"
 #include "report/report_common.h"
 #include "report/table.h"
@@ -10,7 +11,7 @@
 
 #define SHOWN_DROPOUTS 4 /* dropout times listed per stage in the text */
 
-enum { C_STAGE, C_SWITCH, C_FIRST, C_FINAL, C_DROPS, C_INRUSH, C_SURGE, C_VEND, NCOL };
+enum { C_STAGE, C_SWITCH, C_FIRST, C_FINAL, C_DROPS, C_INRUSH, C_LIMIT, C_BY, C_VEND, NCOL };
 
 static double latest_start(const br_startup *su)
 {
@@ -20,11 +21,23 @@ static double latest_start(const br_startup *su)
     return t;
 }
 
+/* The binding inrush check of link k, or NULL when its diode gives no
+ * rating to judge it by. */
+static const br_inrush_check *binding(const br_chain *c, const br_startup *su, int k,
+                                      br_inrush_check ck[BR_RATING_COUNT])
+{
+    int b;
+    return k > 0 && br_inrush_link(c, su, k, ck, &b) > 0 ? &ck[b] : NULL;
+}
+
 static double largest_current(const br_chain *c, const br_startup *su)
 {
     double i = 0.0;
-    for (int k = 1; k < su->n; k++)
-        i = fmax(i, fmax(su->st[k].ipeak, c->st[k].diode.ifsm));
+    for (int k = 1; k < su->n; k++) {
+        br_inrush_check ck[BR_RATING_COUNT];
+        const br_inrush_check *b = binding(c, su, k, ck);
+        i = fmax(i, fmax(su->st[k].ipeak, b && isfinite(b->limit) ? b->limit : 0.0));
+    }
     return i;
 }
 
@@ -40,8 +53,9 @@ static void heads(br_table *t, const br_scale *ts, const br_scale *is)
     br_table_head(t, C_DROPS, "dropouts", BR_RIGHT);
     snprintf(h, sizeof h, "inrush %s", is->unit);
     br_table_head(t, C_INRUSH, h, BR_RIGHT);
-    snprintf(h, sizeof h, "surge rating %s", is->unit);
-    br_table_head(t, C_SURGE, h, BR_RIGHT);
+    snprintf(h, sizeof h, "limit %s", is->unit);
+    br_table_head(t, C_LIMIT, h, BR_RIGHT);
+    br_table_head(t, C_BY, "by", BR_LEFT);
     br_table_head(t, C_VEND, "rail at end V", BR_RIGHT);
 }
 
@@ -63,8 +77,10 @@ static void stage_row(br_table *t, const br_chain *c, const br_startup *su, int 
     time_cell(t, C_FINAL, s->final_enable, ts);
     br_table_set(t, C_DROPS, "%d", s->ndropouts);
     br_table_set(t, C_INRUSH, "%s", k > 0 ? br_fmt_in(b, sizeof b, s->ipeak, is, 3) : "-");
-    double ifsm = k > 0 ? c->st[k].diode.ifsm : 0.0;
-    br_table_set(t, C_SURGE, "%s", ifsm > 0 ? br_fmt_in(b, sizeof b, ifsm, is, 3) : "-");
+    br_inrush_check ck[BR_RATING_COUNT];
+    const br_inrush_check *bind = binding(c, su, k, ck);
+    br_table_set(t, C_LIMIT, "%s", bind ? br_fmt_in(b, sizeof b, bind->limit, is, 3) : "-");
+    br_table_set(t, C_BY, "%s", bind ? br_rating_name(bind->rating) : "-");
     if (isfinite(s->vend))
         br_table_set(t, C_VEND, "%.3f", s->vend);
     else
@@ -106,18 +122,30 @@ static int render_dropouts(const br_chain *c, const br_startup *su, br_text *out
     return rc;
 }
 
+/* One line per rating a link's inrush breaks. */
 static int render_inrush(const br_chain *c, const br_startup *su, br_text *out)
 {
     int rc = BR_OK;
     char a[32], b[32];
     for (int k = 1; k < su->n; k++) {
-        double ifsm = c->st[k].diode.ifsm, ip = su->st[k].ipeak;
-        if (ifsm > 0 && ip > ifsm)
-            rc |= br_text_printf(out,
-                                 "  inrush: link %d (into %s) peaks at %s, above diode %s's "
-                                 "%s surge rating\n",
-                                 k, c->st[k].name, br_fmt_si(a, sizeof a, ip, 4, "A"),
-                                 c->st[k].diode.id, br_fmt_si(b, sizeof b, ifsm, 4, "A"));
+        br_inrush_check ck[BR_RATING_COUNT];
+        int n = br_inrush_link(c, su, k, ck, NULL);
+        const br_diode *d = &c->st[k].diode;
+        for (int i = 0; i < n; i++) {
+            if (!(ck[i].margin < 0))
+                continue;
+            rc |= br_text_printf(out, "  inrush: link %d (into %s) ", k, c->st[k].name);
+            if (ck[i].rating == BR_RATING_I2T)
+                rc |= br_text_printf(out,
+                                     "passes an i^2 integral of %.4g A2s over the start-up, above "
+                                     "diode %s's I2t rating %.4g A2s\n",
+                                     su->st[k].i2t, d->id, d->i2t);
+            else
+                rc |= br_text_printf(out, "peaks at %s, above diode %s's %s %s\n",
+                                     br_fmt_si(a, sizeof a, ck[i].figure, 4, "A"), d->id,
+                                     br_rating_name(ck[i].rating),
+                                     br_fmt_si(b, sizeof b, ck[i].limit, 4, "A"));
+        }
     }
     return rc;
 }
@@ -244,9 +272,15 @@ static void stage_xml(br_xmlw *w, const br_chain *c, const br_startup *su, int k
     br_xmlw_num(w, "start-V", br_rail_start_voltage(c, k));
     if (k > 0) {
         br_xmlw_num(w, "link-end-A", s->iend);
+        const br_diode *d = &c->st[k].diode;
         br_xmlw_num(w, "inrush-peak-A", s->ipeak);
-        if (c->st[k].diode.ifsm > 0)
-            br_xmlw_num(w, "surge-rating-A", c->st[k].diode.ifsm);
+        br_xmlw_num(w, "inrush-i2t-A2s", s->i2t);
+        if (d->ifrm > 0)
+            br_xmlw_num(w, "ifrm-A", d->ifrm);
+        if (d->ifsm > 0)
+            br_xmlw_num(w, "surge-rating-A", d->ifsm);
+        if (d->i2t > 0)
+            br_xmlw_num(w, "i2t-rating-A2s", d->i2t);
     }
     int shown = s->ndropouts < BR_MAX_DROPOUT_TIMES ? s->ndropouts : BR_MAX_DROPOUT_TIMES;
     for (int i = 0; i < shown; i++) {

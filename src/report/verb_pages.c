@@ -139,7 +139,7 @@ int br_yield_html(const br_chain *c, const br_yield *y, double min_yield, const 
     rc |= br_html_section(out, "Verdict", NULL);
     yield_words(y, line, sizeof line);
     rc |= badge3(out, br_yield_outcome(y, min_yield), line);
-    if (min_yield > 0)
+    if (min_yield >= 0)
         snprintf(line, sizeof line,
                  "Judged on the lower confidence bound against the minimum yield %.2f %%.",
                  100.0 * min_yield);

@@ -109,7 +109,9 @@ static int render_notes(const br_chain *c, const br_verdict *v, unsigned mask, c
         return BR_ENOMEM;
     for (int i = 0; i < BR_CRIT_COUNT; i++) {
         const br_verdict_row *r = &v->row[i];
-        if (!(mask & BR_CRIT_BIT(i)) || (r->applies && r->pass && !r->warn))
+        /* a passing row says something only with a warning or a note (the
+         * ratings the inrush was judged against) */
+        if (!(mask & BR_CRIT_BIT(i)) || (r->applies && r->pass && !r->warn && !r->note[0]))
             continue;
         br_text_reset(why);
         rc |= br_verdict_why(c, v, i, su, why);

@@ -74,7 +74,7 @@ static int verdict_line(const br_yield *y, double min_yield, br_text *out)
 {
     char b[32], d[32], buf[400];
     int outcome = br_yield_outcome(y, min_yield);
-    if (min_yield > 0) {
+    if (min_yield >= 0) {
         snprintf(buf, sizeof buf, "%s: the lower confidence bound %s is %s the minimum %s%s",
                  outcome == BR_OUTCOME_PASS   ? "PASS"
                  : outcome == BR_OUTCOME_FAIL ? "FAIL"
@@ -281,7 +281,7 @@ int br_yield_xml(const br_chain *c, const br_yield *y, double min_yield, const c
                  "undetermined samples count as failing for the lower bound and as passing "
                  "for the upper");
     br_xmlw_num(w, "confidence", 0.95);
-    if (min_yield > 0)
+    if (min_yield >= 0)
         br_xmlw_num(w, "min-yield", min_yield);
     br_xmlw_attr(w, "result", br_outcome_name(outcome));
     br_xmlw_bool(w, "ok", outcome == BR_OUTCOME_PASS);

@@ -4,8 +4,13 @@
 
 #include "analyses/yield.h"
 
+/* min_yield when no minimum was asked for: then every sample must pass.
+ * Any min_yield >= 0 (0 included) is a minimum for the lower confidence
+ * bound. */
+#define BR_MIN_YIELD_NONE (-1.0)
+
 /* The text report of yield y of chain c (the design at its nominal
- * values), ending with the caution.  min_yield > 0 adds the judgement
+ * values), ending with the caution.  min_yield >= 0 adds the judgement
  * against that minimum (on the lower confidence bound). */
 int br_yield_text(const br_chain *c, const br_yield *y, double min_yield, br_text *out);
 

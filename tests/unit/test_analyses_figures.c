@@ -392,6 +392,114 @@ static void test_steady_status(void)
     br_design_free(d);
 }
 
+/* A start-up written by hand: every driver started at 1 ms, each link
+ * peaking at ipeak with i^2 integral i2t. */
+static void fake_startup(const br_chain *c, double ipeak, double i2t, br_startup *su)
+{
+    memset(su, 0, sizeof *su);
+    su->n = c->n;
+    su->complete = 1;
+    su->first_stalled = -1;
+    su->t_total = su->t_simulated = 1e-3;
+    for (int k = 0; k < c->n; k++) {
+        su->st[k].first_enable = su->st[k].final_enable = 1e-3;
+        su->st[k].running = 1;
+        su->st[k].ipeak = k > 0 ? ipeak : 0.0;
+        su->st[k].i2t = k > 0 ? i2t : 0.0;
+    }
+}
+
+/* The checks of one link, by hand: a 4 A peak and 0.01 A^2 s against
+ * IFRM 5 A (margin 1 A), IFSM 30 A (26 A) and I2t 0.04 A^2 s, which the
+ * start-up would reach with every current doubled: sqrt(0.04 / 0.01) = 2,
+ * a limit of 8 A (margin 4 A). */
+static void test_inrush_checks(void)
+{
+    br_design *d = br_test_fcml(3, 600.0, 100e3, 0.5, 50e-9);
+    d->diodes[0].ifrm = br_qty_fixed(5.0);
+    d->diodes[0].ifsm = br_qty_fixed(30.0);
+    d->diodes[0].i2t = br_qty_fixed(0.04);
+    br_chain *c = chain_of(d);
+    br_startup su;
+    fake_startup(c, 4.0, 0.01, &su);
+    br_inrush_check ck[BR_RATING_COUNT];
+    int b = -1;
+    CU_ASSERT_EQUAL_FATAL(br_inrush_link(c, &su, 1, ck, &b), 3);
+    CU_ASSERT_EQUAL(ck[0].rating, BR_RATING_IFRM);
+    BR_ASSERT_NEAR(ck[0].margin, 1.0, 1e-12);
+    CU_ASSERT_EQUAL(ck[1].rating, BR_RATING_IFSM);
+    BR_ASSERT_NEAR(ck[1].margin, 26.0, 1e-12);
+    CU_ASSERT_EQUAL(ck[2].rating, BR_RATING_I2T);
+    BR_ASSERT_NEAR(ck[2].limit, 8.0, 1e-12);
+    CU_ASSERT_EQUAL(b, 0);
+    CU_ASSERT_STRING_EQUAL(br_rating_name(ck[b].rating), "IFRM");
+    /* a tighter I2t binds: 0.0025 A^2 s gives 4 A * sqrt(0.25) = 2 A */
+    br_chain_free(c);
+    d->diodes[0].i2t = br_qty_fixed(0.0025);
+    c = chain_of(d);
+    CU_ASSERT_EQUAL_FATAL(br_inrush_link(c, &su, 2, ck, &b), 3);
+    CU_ASSERT_EQUAL(ck[b].rating, BR_RATING_I2T);
+    BR_ASSERT_NEAR(ck[b].margin, -2.0, 1e-12);
+    br_chain_free(c);
+    br_design_free(d);
+}
+
+/* Start-up pulses repeat: a 12 A peak passes a 30 A surge rating (IFSM,
+ * one pulse) but fails an 8 A repetitive rating (IFRM), and the verdict
+ * says which rating it used.  With only IFSM given it says so. */
+static void test_inrush_verdict(void)
+{
+    br_design *d = br_test_fcml(3, 600.0, 100e3, 0.5, 50e-9);
+    d->diodes[0].ifsm = br_qty_fixed(30.0);
+    d->diodes[0].ifrm = br_qty_fixed(8.0);
+    br_chain *c = chain_of(d);
+    br_steady ss;
+    br_steady_figs f;
+    solve(c, BR_DIRI_NONE, &ss, &f);
+    br_startup su;
+    fake_startup(c, 12.0, 1e-3, &su);
+    br_verdict v;
+    br_verdict_make(c, &su, &f, 1, &v);
+    const br_verdict_row *r = &v.row[BR_CRIT_INRUSH];
+    CU_ASSERT_TRUE(r->applies);
+    CU_ASSERT_FALSE(r->pass);
+    BR_ASSERT_NEAR(r->limit, 8.0, 1e-12);
+    BR_ASSERT_NEAR(r->margin, -4.0, 1e-12);
+    CU_ASSERT_PTR_NOT_NULL(strstr(r->note, "IFRM (every pulse)"));
+    CU_ASSERT_PTR_NOT_NULL(strstr(r->note, "IFSM (the largest pulse)"));
+    CU_ASSERT_PTR_NOT_NULL(strstr(r->note, "binds: IFRM of diode"));
+    br_chain_free(c);
+    d->diodes[0].ifrm = br_qty_fixed(0.0);
+    c = chain_of(d);
+    br_verdict_make(c, &su, &f, 1, &v);
+    r = &v.row[BR_CRIT_INRUSH];
+    CU_ASSERT_TRUE(r->pass);
+    BR_ASSERT_NEAR(r->limit, 30.0, 1e-12);
+    CU_ASSERT_PTR_NOT_NULL(strstr(r->note, "no IFRM given"));
+    br_chain_free(c);
+    br_design_free(d);
+}
+
+/* The I2t of a real cold start: by the Cauchy-Schwarz inequality the
+ * integral of i^2 over the run is at least (integral of i)^2 / run time,
+ * and the top link carries at least the charge its rail ends with
+ * (C * V at the end, C at zero bias: the test part has no DC-bias table);
+ * and it is at most the peak squared times the run time. */
+static void test_startup_i2t(void)
+{
+    br_design *d = br_test_fcml(3, 600.0, 100e3, 0.5, 50e-9);
+    br_chain *c = chain_of(d);
+    br_startup su;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_startup_run(c, NULL, &su, &err), BR_OK);
+    int k = c->n - 1;
+    double q = c->st[k].cap.c * su.st[k].vend;
+    CU_ASSERT_TRUE(su.st[k].i2t >= q * q / su.t_simulated);
+    CU_ASSERT_TRUE(su.st[k].i2t <= su.st[k].ipeak * su.st[k].ipeak * su.t_simulated);
+    br_chain_free(c);
+    br_design_free(d);
+}
+
 int main(void)
 {
     static const br_test_case cases[] = {
@@ -405,6 +513,9 @@ int main(void)
         {"verdict: a rail that never starts", test_verdict_never_starts},
         {"verdict: start-up dropouts", test_verdict_dropouts},
         {"verdict: the steady state is a status", test_steady_status},
+        {"inrush checks of a link: IFRM, IFSM, I2t", test_inrush_checks},
+        {"inrush verdict: repetitive rating, which rating", test_inrush_verdict},
+        {"start-up I2t bounds", test_startup_i2t},
         {NULL, NULL}};
     return br_test_main("analyses/figures", cases);
 }

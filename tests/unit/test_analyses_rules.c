@@ -4,6 +4,7 @@
 #include "testdesign.h"
 #include "testkit.h"
 
+#include <math.h>
 #include <stdio.h>
 #include <string.h>
 
@@ -286,6 +287,120 @@ static void test_no_window(void)
     done(d, c);
 }
 
+/* Values no part of their kind has, with their units right but a prefix
+ * slipped: a 62 mC gate charge (meant 62 nC) and a 12 mF junction
+ * capacitance (meant 12 pF).  Each is flagged once, though the parts sit
+ * on every stage; the same values at the edge of the range are not. */
+static void test_implausible(void)
+{
+    br_rule_list r;
+    br_design *d = leg(4, 1000.0);
+    d->switches[0].qg = br_qty_fixed(62e-3);
+    d->diodes[0].cj0 = br_qty_fixed(12e-3);
+    br_chain *c = check(d, &r);
+    CU_ASSERT_EQUAL(count(&r, BR_RULE_IMPLAUSIBLE), 2);
+    int seen_qg = 0, seen_cj0 = 0;
+    for (int i = 0; i < r.n; i++) {
+        const br_rule_hit *h = &r.hit[i];
+        if (h->kind != BR_RULE_IMPLAUSIBLE)
+            continue;
+        CU_ASSERT_FALSE(h->fatal);
+        if (strcmp(h->what, "qg") == 0) {
+            seen_qg = 1;
+            BR_ASSERT_REL(h->figure, 62e-3, 1e-12);
+            BR_ASSERT_REL(h->limit, 10e-6, 1e-12);
+            CU_ASSERT_STRING_EQUAL(h->unit, "C");
+        } else if (strcmp(h->what, "cj0") == 0) {
+            seen_cj0 = 1;
+            CU_ASSERT_EQUAL(h->stage, 1); /* the first link that uses it */
+        }
+    }
+    CU_ASSERT_TRUE(seen_qg && seen_cj0);
+    done(d, c);
+    d = leg(4, 1000.0);
+    d->switches[0].qg = br_qty_fixed(10e-6);
+    d->diodes[0].cj0 = br_qty_fixed(10e-9);
+    c = check(d, &r);
+    CU_ASSERT_EQUAL(count(&r, BR_RULE_IMPLAUSIBLE), 0);
+    done(d, c);
+}
+
+/* Pre-charge steps whose held switches cannot turn on.  The test leg has
+ * a 12 V supply and drivers with UVLO rising 7.5 V; with a 200 us ramp the
+ * supply reaches 7.5 V at 200 us * 7.5 / 12 = 125 us at the earliest (by
+ * hand), so a step of the first 50 us holds switches that stay off. */
+static void set_steps(br_design *d, int n, const unsigned long long *mask, const double *dur)
+{
+    d->nprecharge = n;
+    for (int i = 0; i < n; i++) {
+        d->precharge[i].mask = mask[i];
+        d->precharge[i].duration = dur[i];
+    }
+}
+
+static void test_precharge_idle(void)
+{
+    br_rule_list r;
+    br_design *d = leg(3, 800.0);
+    d->tramp = br_qty_fixed(200e-6);
+    set_steps(d, 1, (unsigned long long[]){0x3}, (double[]){50e-6});
+    br_chain *c = check(d, &r);
+    CU_ASSERT_EQUAL(count(&r, BR_RULE_PRECHARGE_IDLE), 1);
+    const br_rule_hit *h = first(&r, BR_RULE_PRECHARGE_IDLE);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(h);
+    CU_ASSERT_EQUAL(h->index, 0);
+    CU_ASSERT_EQUAL(h->stage, 0);
+    CU_ASSERT_EQUAL(h->mask, 0x3ULL); /* neither B1 nor B2: the step does nothing */
+    CU_ASSERT_TRUE(h->by_ramp);
+    BR_ASSERT_REL(h->figure, 125e-6, 1e-12);
+    BR_ASSERT_REL(h->limit, 50e-6, 1e-12);
+    CU_ASSERT_FALSE(h->fatal);
+    done(d, c);
+    /* the highest supply of its tolerance is the earliest: 12.6 V gives
+     * 200 us * 7.5 / 12.6 = 119.05 us */
+    d = leg(3, 800.0);
+    d->tramp = br_qty_fixed(200e-6);
+    d->vsupply = (br_qty){12.0, 11.4, 12.6, BR_DIST_UNIFORM, 3.0, 0};
+    set_steps(d, 1, (unsigned long long[]){0x3}, (double[]){50e-6});
+    c = check(d, &r);
+    h = first(&r, BR_RULE_PRECHARGE_IDLE);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(h);
+    BR_ASSERT_REL(h->figure, 200e-6 * 7.5 / 12.6, 1e-12);
+    done(d, c);
+    /* long enough: the drivers can start inside the step */
+    d = leg(3, 800.0);
+    d->tramp = br_qty_fixed(200e-6);
+    set_steps(d, 1, (unsigned long long[]){0x3}, (double[]){200e-6});
+    c = check(d, &r);
+    CU_ASSERT_EQUAL(count(&r, BR_RULE_PRECHARGE_IDLE), 0);
+    done(d, c);
+    /* no ramp: the supply is there at once */
+    d = leg(3, 800.0);
+    set_steps(d, 1, (unsigned long long[]){0x3}, (double[]){50e-6});
+    c = check(d, &r);
+    CU_ASSERT_EQUAL(count(&r, BR_RULE_PRECHARGE_IDLE), 0);
+    done(d, c);
+    /* B2 alone: its rail charges only while B1 is on, which no step before
+     * PWM turns on, so its driver cannot start however long the step */
+    d = leg(3, 800.0);
+    set_steps(d, 1, (unsigned long long[]){0x2}, (double[]){1e-3});
+    c = check(d, &r);
+    h = first(&r, BR_RULE_PRECHARGE_IDLE);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(h);
+    CU_ASSERT_EQUAL(h->stage, 1);
+    CU_ASSERT_EQUAL(h->mask, 0x2ULL);
+    CU_ASSERT_FALSE(h->by_ramp);
+    CU_ASSERT_TRUE(isinf(h->figure));
+    done(d, c);
+    /* B1 first, then B2 alone: rail 2 (B2's driver) charged in step 1 */
+    d = leg(3, 800.0);
+    d->tramp = br_qty_fixed(200e-6);
+    set_steps(d, 2, (unsigned long long[]){0x1, 0x2}, (double[]){200e-6, 100e-6});
+    c = check(d, &r);
+    CU_ASSERT_EQUAL(count(&r, BR_RULE_PRECHARGE_IDLE), 0);
+    done(d, c);
+}
+
 static void test_names(void)
 {
     CU_ASSERT_STRING_EQUAL(br_rule_name(BR_RULE_SUPPLY_SHORT), "supply-short");
@@ -310,6 +425,8 @@ int main(void)
         {"a regulated design has no findings", test_regulated_clean},
         {"regulator output against UVLO and gate maximum", test_aux_limits},
         {"a return switch that is never on", test_no_window},
+        {"implausible values, once per part", test_implausible},
+        {"pre-charge steps whose switches cannot turn on", test_precharge_idle},
         {"rule names", test_names},
         {NULL, NULL},
     };

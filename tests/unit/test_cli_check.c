@@ -7,6 +7,7 @@
 
 #include <dirent.h>
 #include <fcntl.h>
+#include <signal.h>
 #include <spawn.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -234,6 +235,105 @@ static void test_strict(void)
     }
 }
 
+/* A design in a scratch file (caller removes it and the directory). */
+static void scratch_design(char *dir, size_t dcap, char *path, size_t pcap, const char *text)
+{
+    snprintf(dir, dcap, "/tmp/br-check-XXXXXX");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(dir));
+    snprintf(path, pcap, "%s/design.xml", dir);
+    FILE *f = fopen(path, "w");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(f);
+    fputs(text, f);
+    fclose(f);
+}
+
+/* A chain that cannot work fails: status 1 without --strict.  Hand
+ * calculation: 8 V supply, link 1 through 200 ohm at its steady current
+ * of about 4 mA (2 mA running, 2 mA gate charge 10 nC x 200 kHz) drops
+ * 0.8 V plus the junction, leaving about 6.8 V for a 7.5 V UVLO rising. */
+static void test_cannot_work(void)
+{
+    static const char design[] =
+        "<bootrung-design version=\"1\" name=\"short\">\n"
+        "  <operating-point vin=\"400 V\" fsw=\"200 kHz\" dead-time=\"50 ns\"/>\n"
+        "  <supply voltage=\"8 V\" resistance=\"0.2 ohm\"/>\n"
+        "  <topology><fcml levels=\"2\"/></topology>\n"
+        "  <parts>\n"
+        "    <diode id=\"d\" is=\"100 nA\" n=\"1.5\" rs=\"0.5 ohm\" vrrm=\"600 V\"/>\n"
+        "    <capacitor id=\"c\" c=\"1 uF\"/>\n"
+        "    <driver id=\"g\" uvlo-rise=\"7.5 V\" uvlo-fall=\"7 V\" iq-run=\"2 mA\"/>\n"
+        "    <switch id=\"s\" qg=\"10 nC\"/>\n"
+        "  </parts>\n"
+        "  <stages diode=\"d\" capacitor=\"c\" driver=\"g\" switch=\"s\" "
+        "link-resistor=\"200 ohm\"/>\n"
+        "</bootrung-design>\n";
+    char dir[64], path[128];
+    scratch_design(dir, sizeof dir, path, sizeof path, design);
+    const char *const *cases[] = {
+        (const char *[]){"check", path, NULL},
+        (const char *[]){"check", "--strict", path, NULL},
+        (const char *[]){"check", "--quiet", path, NULL},
+    };
+    for (size_t i = 0; i < sizeof cases / sizeof cases[0]; i++) {
+        run_result r = run(cases[i]);
+        CU_ASSERT_EQUAL(r.status, 1);
+        CU_ASSERT_STRING_EQUAL(r.err, "");
+        CU_ASSERT_TRUE(has(r.out, "design rules: FAIL, "));
+        done(&r);
+    }
+    run_result r = run((const char *[]){"check", path, NULL});
+    CU_ASSERT_TRUE(has(r.out, "THE CHAIN CANNOT WORK: rail 1 never starts"));
+    done(&r);
+    remove(path);
+    rmdir(dir);
+}
+
+/* Run bootrung with stdout on a pipe nobody reads (`| head -1` once head
+ * has gone) and SIGPIPE at its default action, as a shell leaves it.
+ * Returns the wait status. */
+static int run_closed_pipe(char *const *argv)
+{
+    int fds[2];
+    CU_ASSERT_EQUAL_FATAL(pipe(fds), 0);
+    close(fds[0]);
+    posix_spawn_file_actions_t fa;
+    posix_spawnattr_t at;
+    sigset_t def;
+    posix_spawn_file_actions_init(&fa);
+    posix_spawn_file_actions_adddup2(&fa, fds[1], 1);
+    posix_spawn_file_actions_addopen(&fa, 2, "/dev/null", O_WRONLY, 0);
+    posix_spawnattr_init(&at);
+    sigemptyset(&def);
+    sigaddset(&def, SIGPIPE);
+    posix_spawnattr_setsigdefault(&at, &def);
+    posix_spawnattr_setflags(&at, POSIX_SPAWN_SETSIGDEF);
+    pid_t pid;
+    int ok = posix_spawn(&pid, BR_BINARY, &fa, &at, argv, NULL) == 0, status = -1;
+    close(fds[1]);
+    if (ok)
+        waitpid(pid, &status, 0);
+    posix_spawn_file_actions_destroy(&fa);
+    posix_spawnattr_destroy(&at);
+    CU_ASSERT_TRUE(ok);
+    return status;
+}
+
+/* A reader that has gone is a write error: status 2, not death by
+ * SIGPIPE (status 141 in a shell). */
+static void test_closed_pipe(void)
+{
+    char *const check[] = {"bootrung", "check", "examples/demo-3level.xml", NULL};
+    char *const csv[] = {"bootrung", "startup", "--csv", "-", "tests/data/ref-c1.xml", NULL};
+    char *const *cases[] = {check, csv};
+    for (int i = 0; i < 2; i++) {
+        int st = run_closed_pipe(cases[i]);
+        CU_ASSERT_TRUE(WIFEXITED(st));
+        if (WIFSIGNALED(st))
+            fprintf(stderr, "%s: killed by signal %d\n", cases[i][1], WTERMSIG(st));
+        CU_ASSERT_EQUAL(WIFEXITED(st) ? WEXITSTATUS(st) : -1, 2);
+    }
+}
+
 /* A full disk on stdout is an error, not a silent truncation. */
 static void test_stdout_error(void)
 {
@@ -306,7 +406,9 @@ int main(void)
         {"bad-input corpus: exit 2, FILE:LINE:", test_bad_corpus},
         {"check on every example", test_examples},
         {"--strict exit status", test_strict},
+        {"a chain that cannot work: exit 1", test_cannot_work},
         {"write error on stdout: exit 2", test_stdout_error},
+        {"a closed pipe on stdout: exit 2, not SIGPIPE", test_closed_pipe},
         {"golden outputs", test_golden},
         {NULL, NULL},
     };

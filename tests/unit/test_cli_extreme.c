@@ -6,6 +6,7 @@
 #include "testkit.h"
 
 #include <ctype.h>
+#include <libxml/parser.h>
 #include <stdio.h>
 #include <string.h>
 #include <strings.h>
@@ -160,6 +161,9 @@ static void test_undetermined(void)
     CU_ASSERT_TRUE(has(r.out, "result=\"undetermined\" pass=\"false\""));
     CU_ASSERT_TRUE(has(r.out, "converged=\"false\""));
     CU_ASSERT_TRUE(has(r.out, "residual-rail=\""));
+    xmlDoc *doc = xmlReadMemory(r.out, (int)strlen(r.out), "steady.xml", NULL, XML_PARSE_NONET);
+    CU_ASSERT_PTR_NOT_NULL(doc); /* well-formed */
+    xmlFreeDoc(doc);
     done(&r);
     /* the same design with the default solver settles and decides */
     const char *plain[] = {"steady", demo, NULL};

@@ -9,6 +9,7 @@
 #include <dirent.h>
 #include <errno.h>
 #include <fcntl.h>
+#include <libxml/parser.h>
 #include <poll.h>
 #include <pty.h>
 #include <signal.h>
@@ -179,6 +180,9 @@ static void test_quiet_writes_files(void)
     CU_ASSERT_EQUAL(access(path, R_OK), 0);
     CU_ASSERT_TRUE(has(r.out, "verdict: FAIL"));
     done(&r);
+    xmlDoc *doc = xmlReadFile(path, NULL, XML_PARSE_NONET);
+    CU_ASSERT_PTR_NOT_NULL(doc); /* well-formed */
+    xmlFreeDoc(doc);
     unlink(path);
     rmdir(dir);
 }

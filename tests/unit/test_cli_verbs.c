@@ -55,6 +55,43 @@ static br_chain *load_chain(const char *path, br_design **d)
     return c;
 }
 
+/* Copy file src to dst (a small text file). */
+static void copy_file(const char *src, const char *dst)
+{
+    size_t len = 0;
+    char *text = br_test_slurp(src, &len);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(text);
+    FILE *f = fopen(dst, "wb");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(f);
+    CU_ASSERT_EQUAL(fwrite(text, 1, len, f), len);
+    fclose(f);
+    free(text);
+}
+
+/* A path in dir that two options name at once. */
+static const char *xml_twice_path(const char *dir)
+{
+    static char path[128];
+    snprintf(path, sizeof path, "%s/twice.out", dir);
+    return path;
+}
+
+/* Parse the XML a verb wrote to stdout; the root's attribute attr must
+ * read want (what the path becomes in XML). */
+static void expect_xml_attr(const run_result *r, const char *attr, const char *want)
+{
+    xmlDoc *doc = xmlReadMemory(r->out, (int)strlen(r->out), "stdout.xml", NULL,
+                                XML_PARSE_NONET | XML_PARSE_NOERROR | XML_PARSE_NOWARNING);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(doc);
+    xmlNode *root = xmlDocGetRootElement(doc);
+    xmlChar *v = root ? xmlGetProp(root, (const xmlChar *)attr) : NULL;
+    CU_ASSERT_PTR_NOT_NULL(v);
+    if (v)
+        CU_ASSERT_STRING_EQUAL((const char *)v, want);
+    xmlFree(v);
+    xmlFreeDoc(doc);
+}
+
 /* ---- the XML result file ------------------------------------------------ */
 
 static int count_elements(xmlNode *n, const char *name)
@@ -557,6 +594,109 @@ static void test_write_failure(void)
     rmdir(dir);
 }
 
+/* All the outputs or none: a later file that cannot be written, or a
+ * stdout that cannot take the report, leaves no earlier file behind. */
+static void test_all_or_nothing(void)
+{
+    char dir[64], xml[96], csv[128], svg[96];
+    temp_dir(dir, sizeof dir);
+    snprintf(xml, sizeof xml, "%s/r.xml", dir);
+    snprintf(svg, sizeof svg, "%s/r.svg", dir);
+    snprintf(csv, sizeof csv, "%s/no/such/dir/r.csv", dir);
+    run_result r = run((const char *[]){"startup", "--xml", xml, "--plot", svg, "--csv", csv,
+                                        "tests/data/ref-c1.xml", NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    CU_ASSERT_STRING_EQUAL(r.out, "");
+    CU_ASSERT_TRUE(has(r.err, csv));
+    done(&r);
+    CU_ASSERT_EQUAL(entries(dir), 0);
+    if (access("/dev/full", W_OK) == 0) { /* the report cannot be written */
+        r = run_to("/dev/full",
+                   (const char *[]){"startup", "--xml", xml, "tests/data/ref-c1.xml", NULL});
+        CU_ASSERT_EQUAL(r.status, 2);
+        CU_ASSERT_TRUE(has(r.err, "cannot write to standard output"));
+        done(&r);
+        CU_ASSERT_EQUAL(entries(dir), 0);
+    }
+    rmdir(dir);
+}
+
+/* An output path that is an input (the design itself, through a symbolic
+ * or a hard link too) is refused before anything runs; the file is left
+ * as it was. */
+static void test_output_is_input(void)
+{
+    char dir[64], design[96], sym[96], hard[96];
+    temp_dir(dir, sizeof dir);
+    snprintf(design, sizeof design, "%s/d.xml", dir);
+    snprintf(sym, sizeof sym, "%s/sym.xml", dir);
+    snprintf(hard, sizeof hard, "%s/hard.xml", dir);
+    copy_file("tests/data/ref-c1.xml", design);
+    CU_ASSERT_EQUAL_FATAL(symlink("d.xml", sym), 0);
+    CU_ASSERT_EQUAL_FATAL(link(design, hard), 0);
+    size_t before = 0;
+    char *was = br_test_slurp(design, &before);
+    const char *const *cases[] = {
+        (const char *[]){"startup", "--xml", design, design, NULL},
+        (const char *[]){"analyze", "--csv", sym, design, NULL},
+        (const char *[]){"steady", "--report", hard, design, NULL},
+        (const char *[]){"window", "--plot", design, sym, NULL},
+        (const char *[]){"corners", "--xml", hard, sym, NULL},
+        (const char *[]){"yield", "--csv", design, design, NULL},
+        (const char *[]){"map", "--duty", "0.4:0.6:2", "--freq", "100k:200k:2", "--svg", sym,
+                         design, NULL},
+        (const char *[]){"pick", "--catalog", design, "--xml", sym, "tests/data/ref-c1.xml", NULL},
+        (const char *[]){"startup", "--xml", xml_twice_path(dir), "--csv", xml_twice_path(dir),
+                         design, NULL},
+    };
+    for (size_t i = 0; i < sizeof cases / sizeof cases[0]; i++) {
+        run_result r = run(cases[i]);
+        CU_ASSERT_EQUAL(r.status, 2);
+        CU_ASSERT_STRING_EQUAL(r.out, "");
+        CU_ASSERT_EQUAL(count_char(r.err, '\n'), 1);
+        CU_ASSERT_TRUE(has(r.err, i + 1 < sizeof cases / sizeof cases[0] ? "is the input file"
+                                                                         : "both write"));
+        done(&r);
+    }
+    size_t after = 0;
+    char *now = br_test_slurp(design, &after);
+    CU_ASSERT_TRUE(was && now && before == after && memcmp(was, now, before) == 0);
+    free(was);
+    free(now);
+    CU_ASSERT_EQUAL(entries(dir), 3); /* nothing written beside them */
+    unlink(sym);
+    unlink(hard);
+    unlink(design);
+    rmdir(dir);
+}
+
+/* --quiet prints the start-up's verdict line also when it is undetermined.  A
+ * 100 fF rail behind a 12 V supply and a 1 ohm link charges in about
+ * 100 fs, far below what the integrator can step: it stops at once. */
+static void test_quiet_undetermined(void)
+{
+    char dir[64], design[96];
+    temp_dir(dir, sizeof dir);
+    snprintf(design, sizeof design, "%s/tiny.xml", dir);
+    size_t len = 0;
+    char *text = br_test_slurp("tests/data/ref-c1.xml", &len);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(text);
+    char *at = strstr(text, "c=\"1 uF\"");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(at);
+    FILE *f = fopen(design, "w");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(f);
+    fprintf(f, "%.*sc=\"100 fF\"%s", (int)(at - text), text, at + strlen("c=\"1 uF\""));
+    fclose(f);
+    free(text);
+    run_result r = run_limited(20.0, (const char *[]){"startup", "--quiet", design, NULL});
+    CU_ASSERT_EQUAL(r.status, 3);
+    CU_ASSERT_TRUE(strncmp(r.out, "verdict: UNDETERMINED, ", 23) == 0);
+    CU_ASSERT_EQUAL(count_char(r.out, '\n'), 1);
+    done(&r);
+    unlink(design);
+    rmdir(dir);
+}
+
 /* "--xml -" sends the XML to stdout in place of the text report. */
 static void test_xml_to_stdout(void)
 {
@@ -567,6 +707,58 @@ static void test_xml_to_stdout(void)
     CU_ASSERT_PTR_NOT_NULL(doc);
     xmlFreeDoc(doc);
     done(&r);
+}
+
+/* A design or catalog path is bytes in no particular encoding (a Latin-1
+ * name, a control character): the result XML stays well-formed, the name
+ * read as Latin-1 where it is not UTF-8 and a control character replaced
+ * by U+FFFD.  By hand: 0xE9 is U+00E9, UTF-8 C3 A9; U+FFFD is EF BF BD. */
+static void test_xml_path_not_utf8(void)
+{
+    char dir[64], design[128], odd[128], catalog[128];
+    temp_dir(dir, sizeof dir);
+    snprintf(design, sizeof design, "%s/caf\xE9.xml", dir);
+    snprintf(odd, sizeof odd, "%s/ctl\x01.xml", dir);
+    snprintf(catalog, sizeof catalog, "%s/parts\x1F\xE9.xml", dir);
+    copy_file("tests/data/ref-c1.xml", design);
+    copy_file("tests/data/ref-c1.xml", odd);
+    FILE *f = fopen(catalog, "w");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(f);
+    fputs("<?xml version=\"1.0\"?>\n<bootrung-catalog version=\"1\">\n"
+          "<capacitor id=\"c\" c=\"1 uF\" rating=\"25 V\" cost=\"1\" area-mm2=\"2\"/>\n"
+          "</bootrung-catalog>\n",
+          f);
+    fclose(f);
+    char want[160], want_odd[160], want_cat[160];
+    snprintf(want, sizeof want, "%s/caf\xC3\xA9.xml", dir);
+    snprintf(want_odd, sizeof want_odd, "%s/ctl\xEF\xBF\xBD.xml", dir);
+    snprintf(want_cat, sizeof want_cat, "%s/parts\xEF\xBF\xBD\xC3\xA9.xml", dir);
+    const char *const *runs[] = {
+        (const char *[]){"startup", "--xml", "-", design, NULL},
+        (const char *[]){"steady", "--xml", "-", odd, NULL},
+        (const char *[]){"window", "--xml", "-", design, NULL},
+        (const char *[]){"corners", "--no-startup", "--xml", "-", odd, NULL},
+        (const char *[]){"yield", "--samples", "8", "--xml", "-", design, NULL},
+    };
+    const char *wants[] = {want, want_odd, want, want_odd, want};
+    for (size_t i = 0; i < sizeof runs / sizeof runs[0]; i++) {
+        run_result r = run(runs[i]);
+        CU_ASSERT_TRUE(r.status == 0 || r.status == 1);
+        expect_xml_attr(&r, "file", wants[i]);
+        done(&r);
+    }
+    run_result r = run((const char *[]){"pick", "--catalog", catalog, "--xml", "-", design, NULL});
+    CU_ASSERT_TRUE(r.status == 0 || r.status == 1);
+    xmlDoc *doc = xmlReadMemory(r.out, (int)strlen(r.out), "pick.xml", NULL,
+                                XML_PARSE_NONET | XML_PARSE_NOERROR | XML_PARSE_NOWARNING);
+    CU_ASSERT_PTR_NOT_NULL(doc);
+    CU_ASSERT_PTR_NOT_NULL(strstr(r.out, want_cat));
+    xmlFreeDoc(doc);
+    done(&r);
+    remove(design);
+    remove(odd);
+    remove(catalog);
+    rmdir(dir);
 }
 
 /* Report the first differing line against a golden file. */
@@ -615,6 +807,10 @@ int main(void)
         {"bad usage: status 2", test_bad_usage},
         {"unwritable output: status 2, nothing left", test_write_failure},
         {"--xml - goes to stdout", test_xml_to_stdout},
+        {"all outputs or none", test_all_or_nothing},
+        {"an output path that is an input: refused", test_output_is_input},
+        {"--quiet when the start-up is undetermined", test_quiet_undetermined},
+        {"result XML well-formed for paths that are not UTF-8", test_xml_path_not_utf8},
         {"help texts (golden)", test_help_golden},
         {NULL, NULL},
     };

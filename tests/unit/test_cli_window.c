@@ -242,6 +242,17 @@ static void test_window_bad(void)
     CU_ASSERT_TRUE(has(r.err, "fmin < fsw < fmax"));
     CU_ASSERT_STRING_EQUAL(r.out, "");
     done(&r);
+    /* a top frequency above what the dead time allows is the option's
+     * fault: by hand, two dead times of 100 ns fill the bottom on-time
+     * (1 - 0.5) / f at f = 0.5 / 200 ns = 2.5 MHz */
+    r = run((const char *[]){"window", "--fmax", "3M", "examples/demo-3level.xml", NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    CU_ASSERT_EQUAL(lines(r.err), 1);
+    CU_ASSERT_TRUE(has(r.err, "bootrung: window: --fmax: "));
+    CU_ASSERT_TRUE(has(r.err, "2.5e+06 Hz"));
+    CU_ASSERT_PTR_NULL(strstr(r.err, "dead-time:"));
+    CU_ASSERT_STRING_EQUAL(r.out, "");
+    done(&r);
 }
 
 /* ---- map --------------------------------------------------------------- */

@@ -296,6 +296,12 @@ static void test_yield_files(void)
     unlink(xml);
     rmdir(dir);
     done(&r);
+    /* a minimum of 0 is a minimum like any other (every lower bound meets
+     * it), not the absence of one, which would ask every sample to pass */
+    r = run((const char *[]){"yield", "--samples", "20", "--min-yield", "0", DEMO, NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    CU_ASSERT_TRUE(has(r.out, "is at or above the minimum 0 %"));
+    done(&r);
 }
 
 /* ---- points the solver does not settle ---------------------------------------- */

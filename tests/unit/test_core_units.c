@@ -113,9 +113,9 @@ static void test_bare_numbers(void)
     BR_ASSERT_REL(val("0.8", BR_KIND_FRACTION), 0.8, 1e-15);
     BR_ASSERT_REL(val("80 %", BR_KIND_FRACTION), 0.8, 1e-15);
     BR_ASSERT_REL(val("80%", BR_KIND_FRACTION), 0.8, 1e-15);
-    BR_ASSERT_REL(val("1e-7", BR_KIND_CURRENT), 1e-7, 1e-15);
-    BR_ASSERT_REL(val("1E+3", BR_KIND_VOLTAGE), 1e3, 1e-15);
-    BR_ASSERT_REL(val("  12  ", BR_KIND_VOLTAGE), 12.0, 1e-15);
+    BR_ASSERT_REL(val("1e-7 A", BR_KIND_CURRENT), 1e-7, 1e-15);
+    BR_ASSERT_REL(val("1E+3 V", BR_KIND_VOLTAGE), 1e3, 1e-15);
+    BR_ASSERT_REL(val("  12 V  ", BR_KIND_VOLTAGE), 12.0, 1e-15);
     BR_ASSERT_REL(val(".5", BR_KIND_NUMBER), 0.5, 1e-15);
     BR_ASSERT_REL(val("5.", BR_KIND_NUMBER), 5.0, 1e-15);
     BR_ASSERT_REL(val("0.000123", BR_KIND_NUMBER), 1.23e-4, 1e-15);
@@ -124,9 +124,70 @@ static void test_bare_numbers(void)
     BR_ASSERT_REL(val("1.5", BR_KIND_NUMBER), 1.5, 1e-15);
     BR_ASSERT_REL(val("3.26 eV", BR_KIND_ENERGY_EV), 3.26, 1e-15);
     BR_ASSERT_REL(val("3.26eV", BR_KIND_ENERGY_EV), 3.26, 1e-15);
-    BR_ASSERT_REL(val("1.11", BR_KIND_ENERGY_EV), 1.11, 1e-15);
     CU_ASSERT_EQUAL(val("0", BR_KIND_VOLTAGE), 0.0);
     CU_ASSERT_EQUAL(val("0.0e0", BR_KIND_VOLTAGE), 0.0);
+    CU_ASSERT_EQUAL(val("0", BR_KIND_CAPACITANCE), 0.0);
+}
+
+/* A dimensioned value needs its unit, or at least a prefix that states
+ * the scale; only plain numbers, fractions and 0 may be bare.  "62" for a
+ * gate charge would be 62 C, and "12" for a junction capacitance 12 F. */
+static void test_unit_required(void)
+{
+    bad("62", BR_KIND_CHARGE, "got '62' without a unit, expected a charge like '10 nC'");
+    bad("12", BR_KIND_CAPACITANCE, "got '12' without a unit, expected a capacitance");
+    bad("1e-7", BR_KIND_CURRENT, "got '1e-7' without a unit");
+    bad("  12  ", BR_KIND_VOLTAGE, "got '12' without a unit, expected a voltage");
+    bad("200e3", BR_KIND_FREQUENCY, "without a unit");
+    bad("50e-9", BR_KIND_TIME, "without a unit");
+    bad("10", BR_KIND_RESISTANCE, "without a unit");
+    bad("1.11", BR_KIND_ENERGY_EV, "without a unit");
+    bad("10", BR_KIND_TEMP_DELTA, "without a unit");
+    bad("-3", BR_KIND_VOLTAGE, "got '-3' without a unit");
+    /* a prefix alone states the scale: accepted */
+    BR_ASSERT_REL(val("62n", BR_KIND_CHARGE), 62e-9, 1e-15);
+    BR_ASSERT_REL(val("12p", BR_KIND_CAPACITANCE), 12e-12, 1e-15);
+    BR_ASSERT_REL(val("200k", BR_KIND_FREQUENCY), 200e3, 1e-15);
+    /* every value of a toleranced quantity: the absolute tolerance too */
+    bad_qty("12 V +-0.5", BR_KIND_VOLTAGE, "got '0.5' without a unit");
+    bad_qty("-3/-2/-1", BR_KIND_VOLTAGE, "without a unit");
+    BR_ASSERT_REL(qty("12 V +-0.5 V", BR_KIND_VOLTAGE).max, 12.5, 1e-15);
+    BR_ASSERT_REL(qty("0 V +-1 mV", BR_KIND_VOLTAGE).max, 1e-3, 1e-15);
+}
+
+/* I2t ratings in A^2 s, spelt A2s, A^2s or A²s; no prefix, since "mA2s"
+ * could mean 1e-3 A^2 s or (1 mA)^2 s = 1e-6 A^2 s. */
+static void test_i2t(void)
+{
+    BR_ASSERT_REL(val("4.5 A2s", BR_KIND_I2T), 4.5, 1e-15);
+    BR_ASSERT_REL(val("4.5A^2s", BR_KIND_I2T), 4.5, 1e-15);
+    BR_ASSERT_REL(val("4.5 A\xC2\xB2s", BR_KIND_I2T), 4.5, 1e-15);
+    BR_ASSERT_REL(val("2e-3 A2s", BR_KIND_I2T), 2e-3, 1e-15);
+    BR_ASSERT_REL(qty("4 A2s +-10%", BR_KIND_I2T).min, 3.6, 1e-12);
+    bad("4.5 mA2s", BR_KIND_I2T, "no prefix");
+    bad("4.5", BR_KIND_I2T, "without a unit, expected an I2t like '4.5 A2s'");
+    bad("4.5 A", BR_KIND_I2T, "got 'A'");
+    /* a power in a unit does not open other units to digits */
+    bad("12 V2", BR_KIND_VOLTAGE, "got 'V2'");
+}
+
+/* Magnitudes no design can mean are refused with the bound they break. */
+static void test_sane_limits(void)
+{
+    bad("1e300 V", BR_KIND_VOLTAGE,
+        "got '1e300 V', beyond any value that can be meant here; "
+        "expected a voltage like '12 V' of at most 1 MV");
+    bad("1.1 MV", BR_KIND_VOLTAGE, "at most 1 MV");
+    bad("-2 MV", BR_KIND_VOLTAGE, "at most 1 MV");
+    bad("2 F", BR_KIND_CAPACITANCE, "at most 1 F");
+    bad("2 THz", BR_KIND_FREQUENCY, "got 'THz'"); /* T is no prefix: a unit error */
+    bad("2e12 Hz", BR_KIND_FREQUENCY, "at most 1000 GHz");
+    bad("20000 s", BR_KIND_TIME, "at most 10000 s");
+    bad("2 C", BR_KIND_CHARGE, "at most 1 C");
+    bad_qty("1 MV +-50%", BR_KIND_VOLTAGE, "at most 1 MV");
+    BR_ASSERT_REL(val("1 MV", BR_KIND_VOLTAGE), 1e6, 1e-15);
+    BR_ASSERT_REL(val("1e12", BR_KIND_NUMBER), 1e12, 1e-15); /* plain numbers have ranges of
+                                                                their own, per attribute */
 }
 
 static void test_temperature(void)
@@ -141,7 +202,6 @@ static void test_temperature(void)
                    300.15, 1e-12);
     BR_ASSERT_NEAR(val("10 K", BR_KIND_TEMP_DELTA), 10.0, 1e-12);
     BR_ASSERT_NEAR(val("10 C", BR_KIND_TEMP_DELTA), 10.0, 1e-12);
-    BR_ASSERT_NEAR(val("10", BR_KIND_TEMP_DELTA), 10.0, 1e-12);
     bad("85", BR_KIND_TEMPERATURE, "ambiguous");
     bad("85 kC", BR_KIND_TEMPERATURE, "expected a temperature");
     bad("85 V", BR_KIND_TEMPERATURE, "got 'V', expected a temperature like '85 C'");
@@ -175,7 +235,7 @@ static void test_garbage(void)
     bad("NaN V", BR_KIND_VOLTAGE, "not a number");
     bad("inf", BR_KIND_VOLTAGE, "not a number");
     bad("-inf", BR_KIND_VOLTAGE, "not a number");
-    bad("0x10", BR_KIND_VOLTAGE, "got 'x'");
+    bad("0x10", BR_KIND_VOLTAGE, "got 'x10'");
     bad("12 V extra", BR_KIND_VOLTAGE, "unexpected 'extra'");
     bad("12 V 5", BR_KIND_VOLTAGE, "unexpected '5'");
     bad("12,5 V", BR_KIND_VOLTAGE, "unexpected ',5 V'");
@@ -272,7 +332,7 @@ static void test_min_typ_max(void)
     q = qty("20/25/30 C", BR_KIND_TEMPERATURE);
     BR_ASSERT_NEAR(q.min, 293.15, 1e-12);
     BR_ASSERT_NEAR(q.max, 303.15, 1e-12);
-    q = qty("-3/-2/-1", BR_KIND_VOLTAGE);
+    q = qty("-3/-2/-1 V", BR_KIND_VOLTAGE);
     BR_ASSERT_REL(q.min, -3.0, 1e-15);
     BR_ASSERT_REL(q.max, -1.0, 1e-15);
 }
@@ -310,6 +370,9 @@ int main(void)
         {"SI prefixes", test_prefixes},
         {"milli versus a unit letter", test_milli_vs_unit},
         {"bare numbers, fractions, eV", test_bare_numbers},
+        {"a dimensioned value needs its unit or a prefix", test_unit_required},
+        {"magnitudes beyond any design are refused", test_sane_limits},
+        {"I2t in A2s", test_i2t},
         {"temperatures in C and K", test_temperature},
         {"wrong units say what was expected", test_wrong_units},
         {"garbage, NaN, inf, overflow", test_garbage},

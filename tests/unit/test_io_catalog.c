@@ -41,6 +41,10 @@ static void test_example(void)
     /* tau = qrr / if = 60 nC / 0.5 A (charge control, Lauritzen & Ma 1991) */
     BR_ASSERT_REL(cat->diodes[fast].tau.nom, 120e-9, 1e-12);
     BR_ASSERT_NEAR(cat->diode_offer[fast].cost, 0.045, 1e-12);
+    /* the repetitive and I2t ratings of the inrush checks */
+    BR_ASSERT_NEAR(cat->diodes[fast].ifrm.nom, 6.0, 1e-12);
+    BR_ASSERT_NEAR(cat->diodes[fast].i2t.nom, 1.6, 1e-12);
+    BR_ASSERT_NEAR(cat->diodes[sic].ifsm.nom, 12.0, 1e-12);
     br_catalog_free(cat);
 }
 
@@ -68,7 +72,11 @@ static void expect_fail(const char *body, int line, const char *field, const cha
 static void test_refusals(void)
 {
     expect_fail("<capacitor id=\"c1\" c=\"1 uF\" rating=\"25 V\" cost=\"-1\" area-mm2=\"2\"/>\n", 3,
-                "capacitor c1: cost", "expected a number >= 0");
+                "capacitor c1: cost", "expected a number from 0 to 1e12");
+    /* out of every sane range, but not negative: the message says the range */
+    expect_fail("<capacitor id=\"c1\" c=\"1 uF\" rating=\"25 V\" cost=\"1e307\" "
+                "area-mm2=\"2\"/>\n",
+                3, "capacitor c1: cost", "got '1e307', expected a number from 0 to 1e12");
     expect_fail("<capacitor id=\"c1\" c=\"1 uF\" rating=\"25 V\" area-mm2=\"2\"/>\n", 3, NULL,
                 "catalog schema");
     expect_fail("<capacitor id=\"c1\" c=\"1 uF\" cost=\"1\" area-mm2=\"2\" colour=\"red\"/>\n", 3,

@@ -163,7 +163,7 @@ static void test_demo_stages(void)
     CU_ASSERT_EQUAL(br_design_stage(d, 2)->cap, 0);
     CU_ASSERT_EQUAL(d->nprecharge, 1);
     CU_ASSERT_EQUAL(d->precharge[0].mask, 0x3ULL); /* B1 B2 */
-    BR_ASSERT_REL(d->precharge[0].duration, 50e-6, 1e-12);
+    BR_ASSERT_REL(d->precharge[0].duration, 200e-6, 1e-12);
     BR_ASSERT_REL(d->min_drive.nom, 10.0, 1e-12);
     BR_ASSERT_REL(d->derating.nom, 0.8, 1e-12);
     BR_ASSERT_REL(d->startup_max.nom, 5e-3, 1e-12);
@@ -642,8 +642,74 @@ static void test_lines(void)
     CU_ASSERT_EQUAL(d->caps[0].aging.line, line_of(f, "aging="));
     CU_ASSERT_EQUAL(d->caps[0].line, line_of(f, "<capacitor id=\"x5r-10u-25v\""));
     CU_ASSERT_EQUAL(d->diodes[1].ifsm.line, line_of(f, "ifsm=\"80 A\""));
+    CU_ASSERT_EQUAL(d->diodes[1].ifrm.line, line_of(f, "ifrm=\"20 A\""));
+    BR_ASSERT_REL(d->diodes[1].ifrm.nom, 20.0, 1e-12);
+    BR_ASSERT_REL(d->diodes[1].i2t.nom, 30.0, 1e-12);
     CU_ASSERT_TRUE(d->overshoot.line > d->vin.line);
     br_design_free(d);
+}
+
+/* Lines ended by a CR alone (XML allows LF, CR LF and CR) count like any
+ * other: vin sits on line 3 and the dead time on line 4 either way. */
+static void test_lines_cr(void)
+{
+    static const char *const ends[] = {"\n", "\r\n", "\r"};
+    for (int e = 0; e < 3; e++) {
+        char text[1024];
+        const char *nl = ends[e];
+        snprintf(text, sizeof text,
+                 "<?xml version=\"1.0\"?>%s<bootrung-design version=\"1\">%s"
+                 "  <operating-point vin=\"400 V\" fsw=\"100 kHz\"%s"
+                 "                   dead-time=\"50 ns\"/>%s  <supply voltage=\"12 V\"/>%s"
+                 "  <topology><fcml levels=\"2\"/></topology>%s  <parts><diode id=\"d\"/>%s"
+                 "    <capacitor id=\"c1\" c=\"1 uF\"/><driver id=\"drv\"/><switch id=\"q\"/>%s"
+                 "  </parts>%s" MINI_STAGES "</bootrung-design>%s",
+                 nl, nl, nl, nl, nl, nl, nl, nl, nl, nl);
+        br_error err;
+        br_design *d = load_text(text, &err);
+        CU_ASSERT_PTR_NOT_NULL_FATAL(d);
+        CU_ASSERT_EQUAL(d->vin.line, 3);
+        CU_ASSERT_EQUAL(d->deadtime.line, 4);
+        CU_ASSERT_EQUAL(d->caps[0].line, 8);
+        br_design_free(d);
+    }
+}
+
+/* The documented temperature range, -100 C to 300 C, includes its ends
+ * however they are written. */
+static void test_temperature_ends(void)
+{
+    static const char *const ok[] = {"-100 C", "-100.0 C", "173.15 K", "300 C", "573.15 K"};
+    static const char *const bad[] = {"-100.01 C", "300.01 C", "173.14 K"};
+    for (int i = 0; i < 5 + 3; i++) {
+        char text[1024];
+        const char *t = i < 5 ? ok[i] : bad[i - 5];
+        snprintf(text, sizeof text,
+                 MINI_HEAD
+                 "  <topology><fcml levels=\"2\"/></topology>\n"
+                 "  <parts>\n    <diode id=\"d\" ref-temp=\"%s\" ir-temp=\"%s\"/>\n" MINI_PARTS
+                 "  </parts>\n" MINI_STAGES "</bootrung-design>\n",
+                 t, t);
+        br_error err;
+        br_design *d = load_text(text, &err);
+        CU_ASSERT_EQUAL(d != NULL, i < 5);
+        br_design_free(d);
+        char amb[160];
+        snprintf(amb, sizeof amb, "ambient=\"%s\"/>", t);
+        snprintf(text, sizeof text,
+                 "<bootrung-design version=\"1\">\n"
+                 "  <operating-point vin=\"400 V\" fsw=\"100 kHz\" %s\n"
+                 "  <supply voltage=\"12 V\"/>\n"
+                 "  <topology><fcml levels=\"2\"/></topology>\n"
+                 "  <parts>\n    <diode id=\"d\"/>\n" MINI_PARTS "  </parts>\n" MINI_STAGES
+                 "</bootrung-design>\n",
+                 amb);
+        d = load_text(text, &err);
+        CU_ASSERT_EQUAL(d != NULL, i < 5);
+        if (d && i == 0)
+            BR_ASSERT_NEAR(d->tamb.nom, 173.15, 1e-9);
+        br_design_free(d);
+    }
 }
 
 /* ---- the schema ------------------------------------------------------------------ */
@@ -751,6 +817,8 @@ int main(void)
         {"FCML switch names in precharge", test_fcml_switch_names},
         {"tolerance forms in a file", test_tolerance_forms},
         {"line numbers of attributes", test_lines},
+        {"line numbers with CR or CR LF line ends", test_lines_cr},
+        {"temperature range ends -100 C and 300 C", test_temperature_ends},
         {"embedded schema accepts the examples", test_schema},
         {"schema agrees with the structural diagnosis", test_schema_agrees},
         {"the example in the documentation loads", test_doc_example},

@@ -71,6 +71,49 @@ static void test_round_trip(void)
 
 /* After a failure every call is a no-op and finish reports it, leaving
  * the output untouched. */
+/* Names the user chose (a design file's path) are bytes in no particular
+ * encoding: a Latin-1 name, a control byte, a cut UTF-8 sequence, an
+ * overlong form and a surrogate must still give a well-formed document.
+ * Expected values by hand: 0xE9 in Latin-1 is U+00E9, UTF-8 C3 A9; a
+ * forbidden character becomes U+FFFD, UTF-8 EF BF BD. */
+static void test_bytes_not_utf8(void)
+{
+    static const struct {
+        const char *in, *want;
+    } cases[] = {
+        {"caf\xE9.xml", "caf\xC3\xA9.xml"},
+        {"a\x01"
+         "b\x1F.xml",
+         "a\xEF\xBF\xBD"
+         "b\xEF\xBF\xBD.xml"},
+        {"tab\tok \xC3\xA9t\xC3\xA9 \xE2\x82\xAC", "tab\tok \xC3\xA9t\xC3\xA9 \xE2\x82\xAC"},
+        {"cut \xC3", "cut \xC3\x83"},
+        {"overlong \xC0\xAF", "overlong \xC3\x80\xC2\xAF"},
+        {"surrogate \xED\xA0\x80", "surrogate \xC3\xAD\xC2\xA0\xC2\x80"},
+        {"nonchar \xEF\xBF\xBE", "nonchar \xEF\xBF\xBD"},
+    };
+    for (size_t i = 0; i < sizeof cases / sizeof cases[0]; i++) {
+        br_xmlw *w;
+        br_error err;
+        br_text *out = br_text_create();
+        CU_ASSERT_EQUAL_FATAL(br_xmlw_create(&w, &err), BR_OK);
+        br_xmlw_start(w, "r");
+        br_xmlw_attr(w, "file", cases[i].in);
+        br_xmlw_text(w, cases[i].in);
+        CU_ASSERT_EQUAL_FATAL(br_xmlw_finish(w, out, &err), BR_OK);
+        br_xmlw_free(w);
+        xmlDoc *doc = parse(out);
+        CU_ASSERT_PTR_NOT_NULL_FATAL(doc);
+        xmlNode *root = xmlDocGetRootElement(doc);
+        CU_ASSERT_TRUE(prop_is(root, "file", cases[i].want));
+        xmlChar *text = xmlNodeGetContent(root);
+        CU_ASSERT_STRING_EQUAL((const char *)text, cases[i].want);
+        xmlFree(text);
+        xmlFreeDoc(doc);
+        br_text_free(out);
+    }
+}
+
 static void test_sticky_failure(void)
 {
     br_xmlw *w;
@@ -94,6 +137,7 @@ int main(void)
     static const br_test_case cases[] = {
         {"written, read back", test_round_trip},
         {"sticky failure", test_sticky_failure},
+        {"bytes that are not UTF-8 or not XML characters", test_bytes_not_utf8},
         {NULL, NULL},
     };
     return br_test_main("io_xml_write", cases);

@@ -131,7 +131,7 @@ static void test_yield_undetermined(void)
     CU_ASSERT_TRUE(isnan(y->yield));
     BR_ASSERT_NEAR(y->lo, 0.0, 0.0);
     BR_ASSERT_NEAR(y->hi, 1.0, 0.0);
-    CU_ASSERT_EQUAL(br_yield_outcome(y, 0.0), BR_OUTCOME_UNDETERMINED);
+    CU_ASSERT_EQUAL(br_yield_outcome(y, -1.0 /* no minimum */), BR_OUTCOME_UNDETERMINED);
     CU_ASSERT_EQUAL(br_yield_outcome(y, 0.5), BR_OUTCOME_UNDETERMINED);
     CU_ASSERT_EQUAL(br_yield_outcome(y, 0.7), BR_OUTCOME_FAIL);
     for (long i = 0; i < y->n; i++) {

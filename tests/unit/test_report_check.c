@@ -10,16 +10,21 @@
 
 /* Render the check report of a 3-level leg at 100 kHz (T = 10 us) with
  * 50 ns dead time; returns the text (caller frees) and the warning count. */
-static br_text *render(br_design *d, int *nwarn)
+static br_text *render_fatal(br_design *d, int *nwarn, int *nfatal)
 {
     br_chain *c = NULL;
     br_error err;
     CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
     br_text *t = br_text_create();
     CU_ASSERT_PTR_NOT_NULL_FATAL(t);
-    CU_ASSERT_EQUAL(br_check_report(c, t, nwarn, &err), BR_OK);
+    CU_ASSERT_EQUAL(br_check_report(c, t, nwarn, nfatal, &err), BR_OK);
     br_chain_free(c);
     return t;
+}
+
+static br_text *render(br_design *d, int *nwarn)
+{
+    return render_fatal(d, nwarn, NULL);
 }
 
 static int has(const br_text *t, const char *s)
@@ -109,9 +114,32 @@ static void test_fatal_finding(void)
     br_design *d = br_test_fcml(3, 800.0, 100e3, 0.5, 50e-9);
     d->vsupply = br_qty_fixed(8.0);
     d->def.r_link = br_qty_fixed(200.0);
-    br_text *t = render(d, NULL);
+    int nwarn = -1, nfatal = -1;
+    br_text *t = render_fatal(d, &nwarn, &nfatal);
+    CU_ASSERT_EQUAL(nfatal, 1);
+    CU_ASSERT_TRUE(nwarn >= nfatal);
     CU_ASSERT_TRUE(has(t, "THE CHAIN CANNOT WORK"));
+    CU_ASSERT_TRUE(has(t, "design rules: FAIL, "));
+    CU_ASSERT_TRUE(has(t, "  FAIL: rail "));
     CU_ASSERT_TRUE(has(t, "below its UVLO rising 7.5 V"));
+    br_text_free(t);
+    br_design_free(d);
+}
+
+/* A pre-charge step that ends before the supply ramp lets the first
+ * driver start: by hand, 200 us * 7.5 V / 12 V = 125 us. */
+static void test_precharge_finding(void)
+{
+    br_design *d = br_test_fcml(3, 800.0, 100e3, 0.5, 50e-9);
+    d->tramp = br_qty_fixed(200e-6);
+    d->nprecharge = 1;
+    d->precharge[0].mask = 0x3;
+    d->precharge[0].duration = 50e-6;
+    br_text *t = render(d, NULL);
+    CU_ASSERT_TRUE(has(t, "warning: startup precharge 1 (holds B1 B2 from 0 s to 50 us): none of "
+                          "its switches can turn on in it: the driver of B1 leaves UVLO at 125 us "
+                          "at the earliest (the supply ramps to at most 12 V over 200 us, and the "
+                          "driver needs 7.5 V on its rail); the step does nothing"));
     br_text_free(t);
     br_design_free(d);
 }
@@ -140,6 +168,7 @@ int main(void)
         {"findings name part, figure and limit", test_findings},
         {"a chain that cannot work says so", test_fatal_finding},
         {"the caution closes the report", test_caution_last},
+        {"a pre-charge step that does nothing", test_precharge_finding},
         {NULL, NULL},
     };
     return br_test_main("report_check", cases);

@@ -51,6 +51,12 @@ static void test_scale(void)
     char buf[32];
     CU_ASSERT_STRING_EQUAL(br_fmt_in(buf, sizeof buf, -0.00001, &s, 3), "0.000"); /* no -0 */
     CU_ASSERT_STRING_EQUAL(br_fmt_in(buf, sizeof buf, 1.23456, &s, 2), "1.23");
+    /* a value far beyond the column's prefix never prints dozens of digits */
+    s = br_scale_column(1e9, 1e-3, "V"); /* GV, the largest prefix */
+    CU_ASSERT_STRING_EQUAL(s.unit, "GV");
+    CU_ASSERT_STRING_EQUAL(br_fmt_in(buf, sizeof buf, -1.339e147, &s, 3), "-1.339e+138");
+    CU_ASSERT_STRING_EQUAL(br_fmt_in(buf, sizeof buf, 2.5e15, &s, 3), "2.5e+06");
+    CU_ASSERT_STRING_EQUAL(br_fmt_in(buf, sizeof buf, 999.9e12, &s, 1), "999900.0");
     CU_ASSERT_STRING_EQUAL(br_fmt_time(buf, sizeof buf, -1.0), "-");
     CU_ASSERT_STRING_EQUAL(br_fmt_time(buf, sizeof buf, 1.5126e-3), "1.513 ms");
 }
