@@ -225,6 +225,11 @@ void br_sim_reset_running_at(br_sim *s, const double *x, double phase)
     s->pwm_t0 = -phase;
     while (s->ev_idx < s->tm.nev && s->tm.ev[s->ev_idx].t <= phase)
         s->ev_idx++;
+    /* every event lies behind: the next is the first of the next period */
+    if (s->ev_idx == s->tm.nev) {
+        s->ev_idx = 0;
+        s->per = 1;
+    }
     for (int k = 1; k < s->n; k++) {
         s->x[XI(k, F_VC)] = x[k];
         s->x[XI(k, F_Q)] = x[s->n + k];
@@ -347,7 +352,7 @@ static void apply_pwm_events(br_sim *s, double t)
             s->rev &= ~bit;
             break;
         }
-        if (++s->ev_idx == s->tm.nev) {
+        if (++s->ev_idx >= s->tm.nev) {
             s->ev_idx = 0;
             s->per++;
             s->iv = 0;
