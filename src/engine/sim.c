@@ -113,7 +113,6 @@ unsigned long br_sim_evals(const br_sim *s)
 {
     return s->evals;
 }
-
 void br_sim_vc(const br_sim *s, double *vc)
 {
     for (int k = 0; k < s->n; k++)
@@ -648,6 +647,7 @@ int br_sim_run_until(br_sim *s, double t_end, br_error *err)
 {
     while (s->t < t_end) {
         double tb = next_time(s, t_end);
+        br_sim_clamp_limit(s); /* a reset or a gate charge may have left a rail past it */
         settle_uvlo(s, tb);
         if (br_sim_edge_start(s)) {
             /* the rails moved by the sweep's charge: the interval stays
@@ -658,6 +658,7 @@ int br_sim_run_until(br_sim *s, double t_end, br_error *err)
                 settle_uvlo(s, tb);
         }
         recover(s);
+        br_sim_clamp_limit(s); /* a charge moved at an edge may push a rail past it */
         br_sim_track_extremes(s, s->t);
         int due = -1, status = 0;
         s->nintervals++;
@@ -679,6 +680,7 @@ int br_sim_run_until(br_sim *s, double t_end, br_error *err)
         }
         if (s->t >= tb)
             br_sim_edge_end(s, tb);
+        br_sim_clamp_limit(s);
         br_sim_track_extremes(s, s->t);
         if (due >= 0)
             toggle(s, due);

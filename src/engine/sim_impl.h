@@ -111,6 +111,8 @@ struct br_sim {
     double vr[BR_N];           /* rail node voltages at the last evaluation, V */
     double ic[BR_N];           /* capacitor currents at the last evaluation, A */
     double iz[BR_N];           /* clamp currents, A */
+    int pin[BR_N];             /* rail k held at the knee of its ideal clamp (rz = 0) */
+    double esr_now[BR_N];      /* esr[k], or 0 while pin[k]: the node is the capacitor */
     double gd[BR_N];           /* diode conductance at the last solve, S */
     double esr[BR_N];          /* rail k's series resistance (rail 0: the
                                   supply's, unless a bypass capacitor) */
@@ -153,6 +155,12 @@ double br_sim_switch_v(const br_sim *s, int k, double t);
 
 /* Driver supply of stage k for a rail voltage vr (after an LDO). */
 double br_sim_vdrv(const br_sim *s, int k, double vr);
+
+/* An ideal clamp (rz = 0) is a hard limit: a capacitor that a step or an
+ * instantaneous charge took past the knee gives the excess to the clamp
+ * and sits at the knee (a projection onto the limit, so the rail lands on
+ * it exactly, period after period). */
+void br_sim_clamp_limit(br_sim *s);
 
 /* Rail k capacitance at its voltage. */
 double br_sim_cap(const br_sim *s, int k, double v);

@@ -396,6 +396,7 @@ double br_sim_integrate(br_sim *s, double tb, int *status)
         if (br_sim_uvlo_due(s, s->vr) >= 0) {
             double hc = locate_uvlo(s, t, h, s->x, k1, y);
             memcpy(s->x, y, sizeof(double) * (size_t)s->nx);
+            br_sim_clamp_limit(s);
             t = last && hc >= h ? tb : t + hc;
             br_sim_track_extremes(s, t);
             observe(s, t);
@@ -403,6 +404,7 @@ double br_sim_integrate(br_sim *s, double tb, int *status)
             break;
         }
         memcpy(s->x, y, sizeof(double) * (size_t)s->nx);
+        br_sim_clamp_limit(s);
         t = last ? tb : t + h; /* t + (tb - t) need not round to tb */
         s->nsteps++;
         /* remember what the controller proposes after the first step,
