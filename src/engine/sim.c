@@ -113,6 +113,45 @@ unsigned long br_sim_evals(const br_sim *s)
 {
     return s->evals;
 }
+unsigned long br_sim_work(const br_sim *s)
+{
+    return s->work;
+}
+void br_sim_set_stop(br_sim *s, const br_progress *p)
+{
+    s->stop = p;
+}
+
+int br_sim_spend(br_sim *s, unsigned long n)
+{
+    if (s->halt)
+        return s->halt;
+    s->work += n;
+    if (s->work - s->polled < BR_SIM_POLL_EVERY)
+        return 0;
+    s->polled = s->work;
+    double periods = (s->past + s->t) / s->tm.T;
+    if (br_progress_stopped(s->stop))
+        s->halt = BR_ECANCEL;
+    else if (s->work > BR_SIM_WORK_MAX || s->work > BR_SIM_WORK_PER_PERIOD * (1.0 + periods))
+        s->halt = BR_ENUMERIC;
+    s->halt_t = s->t;
+    s->halt_periods = periods;
+    return s->halt;
+}
+
+/* The error of a simulator that stopped on its work limit or a stop. */
+static int halted(const br_sim *s, br_error *err)
+{
+    if (s->halt == BR_ECANCEL)
+        return br_progress_cancelled(err);
+    return br_error_set(err, BR_ENUMERIC, NULL, 0, NULL,
+                        "work limit reached: %lu integrator steps in %.3g periods (limit %.0f "
+                        "a period, %lu in all) at t = %.6g s",
+                        s->work, s->halt_periods, BR_SIM_WORK_PER_PERIOD, BR_SIM_WORK_MAX,
+                        s->halt_t);
+}
+
 void br_sim_vc(const br_sim *s, double *vc)
 {
     for (int k = 0; k < s->n; k++)
@@ -175,6 +214,7 @@ static void clear_state(br_sim *s)
     memset(s->held, 0, sizeof s->held);
     memset(s->il, 0, sizeof s->il);
     memset(s->vr, 0, sizeof s->vr);
+    s->past += s->t; /* the work limit counts every period simulated */
     s->t = 0.0;
     s->cmd = s->rev = s->driven = 0;
     s->per = 0;
@@ -643,9 +683,21 @@ static void settle_uvlo(br_sim *s, double tb)
     evaluate_now(s, tb);
 }
 
+/* Every rail a finite number: an overflow (a bus near the largest
+ * double) would otherwise run on as NaN, which no test below catches. */
+static int finite_state(const br_sim *s)
+{
+    for (int k = 0; k < s->n; k++)
+        if (!isfinite(s->x[XI(k, F_VC)]) || !isfinite(s->vr[k]))
+            return 0;
+    return 1;
+}
+
 int br_sim_run_until(br_sim *s, double t_end, br_error *err)
 {
     while (s->t < t_end) {
+        if (br_sim_spend(s, 1))
+            return halted(s, err);
         double tb = next_time(s, t_end);
         br_sim_clamp_limit(s); /* a reset or a gate charge may have left a rail past it */
         settle_uvlo(s, tb);
@@ -672,6 +724,8 @@ int br_sim_run_until(br_sim *s, double t_end, br_error *err)
                 s->obs.sample(s->obs.ctx, s, s->t, s->vr, s->il, s->n);
         } else {
             br_sim_integrate(s, tb, &status);
+            if (status == -2)
+                return halted(s, err);
             if (status < 0)
                 return br_error_set(err, BR_ENUMERIC, NULL, 0, NULL,
                                     "step size underflow at t = %.9g s", s->t);
@@ -681,6 +735,11 @@ int br_sim_run_until(br_sim *s, double t_end, br_error *err)
         if (s->t >= tb)
             br_sim_edge_end(s, tb);
         br_sim_clamp_limit(s);
+        if (!finite_state(s))
+            return br_error_set(err, BR_ENUMERIC, NULL, 0, NULL,
+                                "the rails are no longer finite numbers at t = %.9g s (values "
+                                "beyond what the arithmetic holds)",
+                                s->t);
         br_sim_track_extremes(s, s->t);
         if (due >= 0)
             toggle(s, due);

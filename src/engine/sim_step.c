@@ -317,6 +317,7 @@ static double locate_uvlo(br_sim *s, double t, double h, const double *x, const 
     double tol = fmax(1e-13, 1e-9 * h);
     while (hi - lo > tol) {
         double mid = 0.5 * (lo + hi);
+        s->work++; /* at most about 60 trials: no limit needed here */
         take_step(s, t, mid, x, k1, y, e, kend);
         if (br_sim_uvlo_due(s, s->vr) >= 0)
             hi = mid;
@@ -384,6 +385,10 @@ double br_sim_integrate(br_sim *s, double tb, int *status)
         }
         if (h < 1e-16 * fmax(1.0, fabs(t)) + 1e-18) {
             *status = -1;
+            break;
+        }
+        if (br_sim_spend(s, 1)) { /* work limit or a stop */
+            *status = -2;
             break;
         }
         take_step(s, t, h, s->x, k1, y, e, kend);
