@@ -16,6 +16,6 @@ int cmd_analyze(int argc, char **argv)
         "their rating) with the figure, the limit, the margin and where it binds.\n"
         "Exit status 0 when every criterion evaluated passes, 1 when one fails, 2 for\n"
         "bad input, 3 when none fails but one is undetermined (a solver did not\n"
-        "converge).\n",
+        "converge, a simulation failed or reached its work limit).\n",
         BR_RUN_ALL);
 }

@@ -14,6 +14,6 @@ int cmd_startup(int argc, char **argv)
         "the start-up time, or which rail never starts, where it settles and why.\n"
         "Exit status 0 when every driver starts (and no inrush exceeds a surge\n"
         "rating), 1 when not, 2 for bad input, 3 when the simulation failed\n"
-        "numerically (undetermined).\n",
+        "numerically or reached its work limit (undetermined).\n",
         BR_RUN_STARTUP);
 }
