@@ -152,7 +152,9 @@ static void test_sigterm_yield(void)
     interrupt_run("yield", "--xml", "y.xml", "--csv", "y.csv", SIGTERM, 143);
 }
 
-/* One phase of one verb, stopped by a signal `after` seconds in. */
+/* One phase of one verb, stopped by a signal `after` seconds after the
+ * run caught its signals (before that, a signal would end the process
+ * through its default action, which says nothing about the run). */
 typedef struct phase_case {
     const char *what;
     const char *args[10]; /* NULL-terminated; "@" stands for the output file */
@@ -171,7 +173,7 @@ static const phase_case phases[] = {
      {"analyze", "--solver-limit", "100000", L33, "--xml", "@", NULL},
      2.0,
      SIGTERM},
-    {"window: the design point", {"window", L33, "--xml", "@", NULL}, 0.2, SIGINT},
+    {"window: the design point", {"window", L33, "--xml", "@", NULL}, 0.03, SIGINT},
     {"window: the sweeps", {"window", L33, "--xml", "@", NULL}, 2.5, SIGTERM},
     {"map: the design column",
      {"map", L33, "--duty", "30%:70%:5", "--freq", "20k:100k:5", "--csv", "@", NULL},
@@ -195,8 +197,25 @@ typedef struct flight {
     pid_t pid;
     char dir[32], out[40], err[40];
     int fo, fe, sent, status;
-    double signalled, ended; /* s, monotonic */
+    double armed, signalled, ended; /* s, monotonic (armed 0: not yet) */
 } flight;
+
+/* 1 once process pid catches SIGINT and SIGTERM (Linux: the SigCgt mask
+ * of /proc/PID/status). */
+static int catching(pid_t pid)
+{
+    char path[64], line[256];
+    snprintf(path, sizeof path, "/proc/%d/status", (int)pid);
+    FILE *f = fopen(path, "r");
+    unsigned long long mask = 0;
+    while (f && fgets(line, sizeof line, f))
+        if (sscanf(line, "SigCgt: %llx", &mask) == 1)
+            break;
+    if (f)
+        fclose(f);
+    unsigned long long want = (1ULL << (SIGINT - 1)) | (1ULL << (SIGTERM - 1));
+    return (mask & want) == want;
+}
 
 static void launch(const phase_case *pc, flight *f)
 {
@@ -215,6 +234,7 @@ static void launch(const phase_case *pc, flight *f)
     f->pid = spawn(args, f->out, f->fe);
     f->sent = 0;
     f->status = -2;
+    f->armed = 0.0;
 }
 
 /* Status 130/143, the one line on stderr, nothing on stdout, no file. */
@@ -247,11 +267,12 @@ static void test_every_phase(void)
     for (int i = 0; i < NPHASES; i++)
         launch(&phases[i], &f[i]);
     for (int left = NPHASES; left > 0;) {
-        double t = now() - t0;
         for (int i = 0; i < NPHASES; i++) {
             if (f[i].status != -2)
                 continue;
-            if (!f[i].sent && t >= phases[i].after) {
+            if (f[i].armed == 0.0 && catching(f[i].pid))
+                f[i].armed = now();
+            if (!f[i].sent && f[i].armed > 0.0 && now() - f[i].armed >= phases[i].after) {
                 f[i].sent = kill(f[i].pid, phases[i].sig) == 0;
                 f[i].signalled = now();
             }
@@ -262,7 +283,8 @@ static void test_every_phase(void)
                 if (!f[i].sent) /* ended before its signal: say so */
                     f[i].signalled = f[i].ended;
                 left--;
-            } else if (f[i].sent && now() - f[i].signalled > STOP_S + 10.0) {
+            } else if ((f[i].sent && now() - f[i].signalled > STOP_S + 10.0) ||
+                       (!f[i].sent && now() - t0 > 60.0)) { /* hung, or never caught */
                 kill(f[i].pid, SIGKILL);
             }
         }
