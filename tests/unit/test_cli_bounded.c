@@ -82,13 +82,14 @@ static void bounded(const char *verb, const char *design, const char *why)
 }
 
 /* A 1 Hz clock: the rails drain within each period and the drivers drop
- * in and out by the thousand; the work limit ends each simulation. */
+ * in and out by the thousand; the work limit ends each simulation.
+ * (window, 4.5 s here and a minute under the sanitizers, is left to the
+ * 1 fF case below.) */
 static void test_slow_clock(void)
 {
-    static const char *const verbs[] = {"startup", "steady",  "analyze", "window",
-                                        "map",     "corners", "yield",   "pick"};
+    static const char *const verbs[] = {"startup", "analyze", "map", "corners", "yield", "pick"};
     bounded("steady", "fsw-1hz.xml", "work limit reached");
-    for (int i = 0; i < 8; i++)
+    for (int i = 0; i < 6; i++)
         bounded(verbs[i], "fsw-1hz.xml", NULL);
 }
 
@@ -135,7 +136,7 @@ static void test_millihertz_grid(void)
 int main(void)
 {
     static const br_test_case cases[] = {
-        {"a 1 Hz clock: every verb bounded, undetermined", test_slow_clock},
+        {"a 1 Hz clock: the verbs bounded, undetermined", test_slow_clock},
         {"1 fF rails: every verb undetermined, not exit 2", test_femtofarad_rails},
         {"other runaways: undetermined", test_other_runaways},
         {"a grid at 1 mHz ends", test_millihertz_grid},
