@@ -415,6 +415,9 @@ static void estimate(const br_chain *c, double *x)
         const br_diode *d = &c->st[k].diode;
         double ipk = 2.0 * ilink[k] + 1e-6; /* windows are about half the period */
         v -= br_diode_vjunction(d, ipk) + ipk * (d->rs + c->st[k].r_link);
+        const br_aux *a = &c->st[k].aux;
+        if (a->kind == BR_AUX_ZENER && v > a->vout)
+            v = a->vout; /* a clamp holds its rail, and the rails above start from there */
         x[k] = v;
     }
 }
