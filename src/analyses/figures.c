@@ -65,15 +65,45 @@ static void link_figure(const br_chain *c, const br_link_stats *l, int k, double
     f->p_rr = l->e_rr / dt;
 }
 
+int br_avg_within(double avg, double vmin, double vmax)
+{
+    /* the extremes are taken at the integrator's points and the average
+     * is its quadrature: they agree to far better than a hundredth of the
+     * ripple plus a part in a million */
+    double tol = 1e-6 * fmax(fabs(vmin), fabs(vmax)) + 0.01 * (vmax - vmin) + 1e-9;
+    return avg >= vmin - tol && avg <= vmax + tol;
+}
+
+/* Every figure NaN: a failed simulation has none. */
+static void no_figures(const br_chain *c, br_steady_figs *out)
+{
+    for (int k = 0; k < c->n; k++) {
+        double *r = (double *)&out->rail[k], *l = (double *)&out->link[k];
+        for (size_t i = 0; i < sizeof out->rail[k] / sizeof(double); i++)
+            r[i] = NAN;
+        for (size_t i = 0; k > 0 && i < sizeof out->link[k] / sizeof(double); i++)
+            l[i] = NAN;
+    }
+    out->supply_iavg = out->supply_p = NAN;
+}
+
 void br_steady_figures(const br_chain *c, const br_steady *ss, br_steady_figs *out)
 {
     memset(out, 0, sizeof *out);
     out->dir = ss->dir;
     out->ss = ss;
     out->n = c->n;
+    out->bad_rail = -1;
+    if (ss->failed) {
+        no_figures(c, out);
+        return;
+    }
     double dt = ss->stats.t1 - ss->stats.t0;
     for (int k = 0; k < c->n; k++) {
+        const br_rail_fig *r = &out->rail[k];
         rail_figure(c, &ss->stats.rail[k], k, dt, &out->rail[k]);
+        if (out->bad_rail < 0 && !br_avg_within(r->vavg, r->vmin, r->vmax))
+            out->bad_rail = k;
         if (k > 0)
             link_figure(c, &ss->stats.link[k], k, dt, &out->link[k]);
     }
@@ -266,7 +296,7 @@ static void startup_failed(const br_startup *su, br_verdict *v)
         if (!br_crit_is_startup(i))
             continue;
         v->row[i].undetermined = 1;
-        snprintf(v->row[i].note, sizeof v->row[i].note, "%.159s", su->why);
+        snprintf(v->row[i].note, sizeof v->row[i].note, "%.255s", su->why);
     }
 }
 
@@ -460,32 +490,63 @@ static int can_apply(const br_chain *c, int crit)
     return any;
 }
 
-/* The solver found no periodic steady state for one direction (or one
- * whose cross-check periods still move the rails): every row that needs
- * one is undetermined, and the steady row says where it got stuck: which
- * rail, after how many periods, how far from settled. */
-static void unsettled(const br_chain *c, const br_steady *ss, br_verdict *v)
+/* The steady row's note for a direction without a trustworthy steady
+ * state: why the simulation failed, which rail's figures contradict each
+ * other, or where the solver got stuck (which rail, after how many
+ * periods, how far from settled). */
+static void unsettled_note(const br_chain *c, const br_steady_figs *f, char *note, size_t cap)
+{
+    const br_steady *ss = f->ss;
+    int k = ss->resid_rail >= 0 && ss->resid_rail < c->n ? ss->resid_rail : 0;
+    if (ss->failed) {
+        snprintf(note, cap, "current %s: %s", dir_word(ss->dir), ss->why);
+    } else if (f->bad_rail >= 0) {
+        const br_rail_fig *r = &f->rail[f->bad_rail];
+        snprintf(note, cap,
+                 "the simulated period contradicts itself (current %s): rail %d (%s) averages "
+                 "%.6g V outside its minimum %.6g V and maximum %.6g V",
+                 dir_word(ss->dir), f->bad_rail, c->st[f->bad_rail].name, r->vavg, r->vmin,
+                 r->vmax);
+    } else if (ss->converged) {
+        snprintf(note, cap,
+                 "the state the solver found (current %s) is not periodic: the cross-check "
+                 "periods still move the rails by %.3g V per period, more than %.3g V",
+                 dir_word(ss->dir), ss->drift, DRIFT_LIMIT);
+    } else {
+        snprintf(note, cap,
+                 "the solver did not converge (current %s): after %ld periods rail %d (%s) "
+                 "still moves %.3g V per period",
+                 dir_word(ss->dir), ss->periods, k, c->st[k].name, ss->residual);
+    }
+}
+
+/* No trustworthy periodic steady state for one direction: every row that
+ * needs one is undetermined, and the steady row says why. */
+static void unsettled(const br_chain *c, const br_steady_figs *f, br_verdict *v)
 {
     int again = v->row[BR_CRIT_STEADY].undetermined; /* the other direction too */
-    int k = ss->resid_rail >= 0 && ss->resid_rail < c->n ? ss->resid_rail : 0;
     v->row[BR_CRIT_STEADY].undetermined = 1;
     for (int i = BR_CRIT_STEADY + 1; i < BR_CRIT_COUNT; i++)
         if ((v->row[i].undetermined = can_apply(c, i)))
             snprintf(v->row[i].note, sizeof v->row[i].note, "no converged steady state %s%s",
                      again ? "in either current direction" : "for current ",
-                     again ? "" : dir_word(ss->dir));
-    if (again)
-        return; /* the steady row keeps the first direction's details */
-    if (ss->converged)
-        snprintf(v->row[BR_CRIT_STEADY].note, sizeof v->row[BR_CRIT_STEADY].note,
-                 "the state the solver found (current %s) is not periodic: the cross-check "
-                 "periods still move the rails by %.3g V per period, more than %.3g V",
-                 dir_word(ss->dir), ss->drift, DRIFT_LIMIT);
-    else
-        snprintf(v->row[BR_CRIT_STEADY].note, sizeof v->row[BR_CRIT_STEADY].note,
-                 "the solver did not converge (current %s): after %ld periods rail %d (%s) "
-                 "still moves %.3g V per period",
-                 dir_word(ss->dir), ss->periods, k, c->st[k].name, ss->residual);
+                     again ? "" : dir_word(f->dir));
+    if (!again) /* the steady row keeps the first direction's details */
+        unsettled_note(c, f, v->row[BR_CRIT_STEADY].note, sizeof v->row[BR_CRIT_STEADY].note);
+}
+
+/* The figures of a direction can be used: its simulation ran and its
+ * period agrees with itself. */
+static int trusted(const br_steady_figs *f)
+{
+    return !f->ss->failed && f->bad_rail < 0;
+}
+
+/* The figures of a direction decide its rows: trusted, and either settled
+ * or failing (a driver that drops out fails whatever the solver did). */
+static int usable(const br_steady_figs *f)
+{
+    return trusted(f) && (settled(f->ss) || !f->ss->holds);
 }
 
 /* The steady-state row is a status, not a margin: the state holds (found
@@ -500,9 +561,10 @@ static void steady_status(const br_steady_figs *figs, int ndir, br_verdict *out)
     r->figure = 0.0;
     for (int d = 0; d < ndir; d++) {
         const br_steady *ss = figs[d].ss;
-        holds = holds && ss->holds;
-        decided = decided && (settled(ss) || !ss->holds);
-        if (isfinite(ss->drift) && ss->drift >= r->figure) {
+        int ok = trusted(&figs[d]);
+        holds = holds && !(ok && !ss->holds);
+        decided = decided && usable(&figs[d]);
+        if (ok && isfinite(ss->drift) && ss->drift >= r->figure) {
             r->figure = ss->drift;
             r->dir = figs[d].dir;
         }
@@ -521,11 +583,11 @@ static void steady_status(const br_steady_figs *figs, int ndir, br_verdict *out)
 static void steady_all(const br_chain *c, const br_steady_figs *figs, int ndir, br_verdict *out)
 {
     for (int d = 0; d < ndir; d++)
-        if (settled(figs[d].ss) || !figs[d].ss->holds)
+        if (usable(&figs[d]))
             steady_rows(c, &figs[d], out);
     for (int d = 0; d < ndir; d++)
-        if (figs[d].ss->holds && !settled(figs[d].ss))
-            unsettled(c, figs[d].ss, out);
+        if (!usable(&figs[d]))
+            unsettled(c, &figs[d], out);
     steady_status(figs, ndir, out);
 }
 

@@ -41,9 +41,20 @@ typedef struct br_steady_figs {
     br_link_fig link[BR_MAX_SWITCHES]; /* [k], k >= 1 */
     double supply_iavg;                /* A */
     double supply_p;                   /* W */
+    int bad_rail;                      /* the first rail whose average lies outside its minimum and
+                                          maximum (the period's figures contradict each other, so
+                                          they decide nothing), or -1 */
 } br_steady_figs;
 
+/* The figures of the period ss->stats.  A steady state whose simulation
+ * failed (ss->failed) has none: every figure is NaN.  The figures are
+ * checked against each other: a rail's average must lie between its
+ * minimum and maximum (bad_rail). */
 void br_steady_figures(const br_chain *c, const br_steady *ss, br_steady_figs *out);
+
+/* 1 when avg lies between vmin and vmax, up to rounding and the
+ * integrator's tolerance. */
+int br_avg_within(double avg, double vmin, double vmax);
 
 /* Rail k's figures at their worst over the ndir directions of f: lowest
  * minima and margins, highest maxima, ripple and stresses (a margin that
@@ -86,7 +97,7 @@ typedef struct br_verdict_row {
     const char *unit;             /* "s", "V", "A", "" (a count) */
     int stage;                    /* binding rail/link, -1 when none */
     int dir;                      /* br_dir_index of the binding case */
-    char note[160];
+    char note[256];
 } br_verdict_row;
 
 typedef struct br_verdict {

@@ -195,6 +195,7 @@ static void *worker(void *arg)
         fail(job, &err, rc);
         return NULL;
     }
+    br_probe_set_stop(p, br_meter_poll(&job->meter));
     for (int t = take_task(job); t >= 0; t = take_task(job)) {
         rc = job->stage == 1 ? column_task(job, p, t, &err) : row_task(job, p, t, &err);
         if (rc != BR_OK) {
@@ -304,6 +305,8 @@ int br_map_run(const br_design *d, const br_map_opts *o, br_map **out, br_error 
     job.m = m;
     if (rc == BR_OK)
         rc = br_probe_create(d, &p, err);
+    if (rc == BR_OK)
+        br_probe_set_stop(p, br_meter_poll(&job.meter));
     if (rc == BR_OK)
         rc = alloc_seeds(p, o->nfsw, &job.seed, err);
     if (rc == BR_OK)

@@ -5,7 +5,7 @@
 
 int br_meter_init(br_meter *m, const br_progress *hook, double total, br_error *err)
 {
-    m->hook = hook && hook->fn ? hook : NULL;
+    m->hook = hook && (hook->fn || hook->stop) ? hook : NULL;
     m->done = 0.0;
     m->total = total;
     m->stop = 0;
@@ -38,7 +38,9 @@ int br_meter_add(br_meter *m, double work)
     if (m->total < m->done)
         m->total = m->done; /* an estimate that fell short */
     /* the hook runs under the lock: one call at a time, counts in order */
-    if (!m->stop && m->hook && m->hook->fn(m->hook->ctx, m->done, m->total))
+    if (!m->stop && m->hook &&
+        (br_progress_stopped(m->hook) ||
+         (m->hook->fn && m->hook->fn(m->hook->ctx, m->done, m->total))))
         m->stop = 1;
     int stop = m->stop;
     pthread_mutex_unlock(&m->lock);
@@ -50,9 +52,16 @@ int br_meter_stopped(br_meter *m)
     if (!m)
         return 0;
     pthread_mutex_lock(&m->lock);
+    if (!m->stop && br_progress_stopped(m->hook))
+        m->stop = 1;
     int stop = m->stop;
     pthread_mutex_unlock(&m->lock);
     return stop;
+}
+
+const br_progress *br_meter_poll(const br_meter *m)
+{
+    return m ? m->hook : NULL;
 }
 
 int br_meter_status(br_meter *m, int rc, br_error *err)

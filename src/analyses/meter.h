@@ -5,7 +5,8 @@
  * its lock, so the hook is never called from two threads at once.  Once
  * the hook asks to stop, the meter stays stopped: workers ask
  * br_meter_stopped before taking more work and the analysis returns
- * BR_ECANCEL.  A meter without a hook only counts. */
+ * BR_ECANCEL; a stop poll the hook carries is honoured the same way.  A
+ * meter without a hook only counts. */
 #ifndef BR_ANALYSES_METER_H
 #define BR_ANALYSES_METER_H
 
@@ -35,6 +36,11 @@ int br_meter_add(br_meter *m, double work);
 
 /* 1 once the hook has asked to stop (m may be NULL: 0). */
 int br_meter_stopped(br_meter *m);
+
+/* The caller's hook, for the simulators of the workers to poll its stop
+ * function (which any thread may call); NULL when there is none.  The
+ * hook's progress function is for the meter alone. */
+const br_progress *br_meter_poll(const br_meter *m);
 
 /* BR_ECANCEL with err filled when stopped, else rc unchanged: what an
  * analysis returns after its workers have finished. */

@@ -52,9 +52,10 @@ struct br_probe {
     double min_drive;                  /* V, 0 when not set */
     int have_x[2];
     int jac_valid[2];
-    double x[2][NX]; /* warm start: the last steady state found */
-    double *jac[2];  /* NJAC doubles each, the solver's working matrix */
-    int stalled;     /* the integrator failed at the point being judged */
+    double x[2][NX];         /* warm start: the last steady state found */
+    double *jac[2];          /* NJAC doubles each, the solver's working matrix */
+    int stalled;             /* the integrator failed at the point being judged */
+    const br_progress *stop; /* polled inside the simulations (NULL: none) */
     /* the last points found, oldest first, for a predictor along a scan */
     int nhist[2];
     double hu[2][HIST][2];  /* (duty, ln fsw) */
@@ -104,6 +105,11 @@ int br_probe_create(const br_design *d, br_probe **out, br_error *err)
     keep_limits(p);
     *out = p;
     return BR_OK;
+}
+
+void br_probe_set_stop(br_probe *p, const br_progress *stop)
+{
+    p->stop = stop;
 }
 
 const br_chain *br_probe_design_chain(const br_probe *p)
@@ -158,6 +164,7 @@ static void scan_opts(br_probe *p, int i, const double *guess, int max_iter, lon
     o->guess = guess;
     o->jac = p->jac[i];
     o->jac_valid = &p->jac_valid[i];
+    o->progress = p->stop;
 }
 
 /* Where u lies on the line through `base` along d, in units of d; 0 when
@@ -215,7 +222,7 @@ static int attempt(br_probe *p, int i, const br_steady_opts *o, br_steady *ss, l
 {
     *rc = br_steady_solve(&p->c, p->dirs[i], o, ss, err);
     *periods += ss->periods;
-    if (*rc == BR_ENUMERIC) {
+    if (*rc == BR_ENUMERIC || (*rc == BR_OK && ss->failed)) {
         br_error_clear(err);
         *rc = BR_OK;
         p->stalled = 1;

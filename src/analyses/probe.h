@@ -43,6 +43,11 @@ typedef struct br_warm br_warm;
 int br_probe_create(const br_design *d, br_probe **out, br_error *err);
 void br_probe_free(br_probe *p);
 
+/* Poll stop's stop function (core/progress.h) inside every simulation of
+ * the probe: a stop asked for ends br_probe_eval with BR_ECANCEL within
+ * milliseconds (NULL: none; it must outlive the probe's use). */
+void br_probe_set_stop(br_probe *p, const br_progress *stop);
+
 /* The chain at the design point with its real thresholds (for reports). */
 const br_chain *br_probe_design_chain(const br_probe *p);
 

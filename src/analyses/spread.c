@@ -112,7 +112,7 @@ static void on_uvlo(void *ctx, const br_uvlo_event *e)
     ((trial *)ctx)->dropped = 1;
 }
 
-static int trial_open(trial *t, const br_chain *c, int dir, br_error *err)
+static int trial_open(trial *t, const br_chain *c, int dir, const br_progress *stop, br_error *err)
 {
     memset(t, 0, sizeof *t);
     t->c = c;
@@ -120,6 +120,7 @@ static int trial_open(trial *t, const br_chain *c, int dir, br_error *err)
     int rc = br_sim_create(c, dir, BR_INTEG_FAST, &t->sim, err);
     if (rc != BR_OK)
         return rc;
+    br_sim_set_stop(t->sim, stop);
     br_sim_observer obs = {t, on_uvlo, NULL};
     br_sim_set_observer(t->sim, &obs);
     br_timing tm;
@@ -432,6 +433,7 @@ static int shoot_once(workspace *w, int dir, int i, const double *guess, long ma
     br_steady again;
     br_steady_opts_default(&o);
     o.guess = guess;
+    o.progress = br_meter_poll(w->s->meter);
     if (max_plain >= 0)
         o.max_plain = max_plain;
     long lim = w->s->solver_limit;
@@ -504,7 +506,7 @@ static int from_prediction(workspace *w, const double *v, int i, int dir, br_pt 
     int taken = 0, rc;
     w->q.periods = 0;
     predict(w->s, v, i, x);
-    if ((rc = trial_open(&t, &w->c, dir, err)) == BR_OK &&
+    if ((rc = trial_open(&t, &w->c, dir, br_meter_poll(w->s->meter), err)) == BR_OK &&
         (rc = qn_start(w, &t, i, x, err)) == BR_OK)
         rc = qn_round(w, 0, &w->ss[i], &taken, err);
     if (rc == BR_OK && taken)
@@ -601,12 +603,15 @@ static int judge(workspace *w, const job *jb, int i, br_error *err)
     out->with_startup = jb->with_startup;
     br_tol_apply(w->d, &jb->s->tl, v);
     int rc = br_chain_build_nominal(w->d, &w->c, err);
+    br_progress only =
+        br_progress_stop_only(br_meter_poll(jb->s->meter)); /* the bar: the meter's */
+    br_startup_opts so = {.progress = &only};
     if (rc == BR_OK && jb->with_startup)
-        rc = br_startup_run(&w->c, NULL, &w->su, err);
+        rc = br_startup_run(&w->c, &so, &w->su, err);
     int dirs[2], ndir = br_design_directions(&w->c, dirs);
     for (int d = 0; rc == BR_OK && d < ndir; d++) {
         rc = steady(w, jb, v, d, dirs[d], out, err);
-        if (rc == BR_OK)
+        if (rc == BR_OK && !w->ss[d].failed) /* a failed one has no figures at all */
             rc = finite_state(&w->c, &w->ss[d], err);
         if (rc != BR_OK)
             break;
@@ -836,7 +841,7 @@ static int chord_jacobian(br_spread *s, const br_chain *c, int i, int dir, br_er
     double *b = malloc(sizeof(double) * (size_t)(m * m + 1));
     size_t *perm = malloc(sizeof(size_t) * (size_t)(m + 1));
     s->hinv[i] = malloc(sizeof(double) * (size_t)(m * m + 1));
-    int rc = b && perm && s->hinv[i] ? trial_open(&t, c, dir, err)
+    int rc = b && perm && s->hinv[i] ? trial_open(&t, c, dir, br_meter_poll(s->meter), err)
                                      : br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     if (rc == BR_OK) {
         rc = trial_period(&t, s->xnom[i], y0, &res, &holds, err);

@@ -86,7 +86,7 @@ static int last_period(br_sim *s, const br_chain *c, br_startup *r, br_error *er
 static void record_failure(br_startup *r, br_error *err)
 {
     r->failed = 1;
-    snprintf(r->why, sizeof r->why, "the start-up simulation stopped at t = %.6g s: %.100s",
+    snprintf(r->why, sizeof r->why, "the start-up simulation stopped at t = %.6g s: %.200s",
              r->t_simulated, err && err->msg[0] ? err->msg : "numerical failure");
     br_error_clear(err);
 }
@@ -105,6 +105,7 @@ static int startup_one(const br_chain *c, int dir, const br_startup_opts *o, int
     watch w = {r, 0.0, o ? o->obs : NULL};
     br_sim_observer obs = {&w, on_uvlo, on_sample};
     br_sim_set_observer(s, &obs);
+    br_sim_set_stop(s, o ? o->progress : NULL);
     double t_max = o && o->t_max > 0 ? o->t_max : c->startup_max;
     int settle = o && o->settle_periods > 0 ? o->settle_periods : 50;
     r->pwm_start = br_sim_pwm_start(s);

@@ -34,7 +34,7 @@ typedef struct br_startup {
     int failed;         /* the simulation stopped at t_simulated on a
                            numerical failure (why says what): the
                            figures are partial and decide nothing */
-    char why[160];
+    char why[256];
     br_startup_stage st[BR_MAX_SWITCHES];
 } br_startup;
 

@@ -7,6 +7,7 @@
 
 #include <gsl/gsl_linalg.h>
 #include <math.h>
+#include <stdio.h>
 #include <string.h>
 
 #define NX (2 * BR_MAX_SWITCHES)
@@ -24,6 +25,7 @@ void br_steady_opts_default(br_steady_opts *o)
     o->guess = NULL;
     o->jac = NULL;
     o->jac_valid = NULL;
+    o->progress = NULL;
 }
 
 double br_steady_quiet_phase(const br_chain *c, const br_timing *tm)
@@ -416,6 +418,9 @@ static void estimate(const br_chain *c, int dir, double *x)
         double ipk = 2.0 * ilink[k] + 1e-6; /* windows are about half the period */
         v -= br_diode_vjunction(d, ipk) + ipk * (d->rs + c->st[k].r_link) +
              br_sw_on_drop(&c->st[k - 1], dir, c->iload);
+        const br_aux *a = &c->st[k].aux;
+        if (a->kind == BR_AUX_ZENER && v > a->vout)
+            v = a->vout; /* a clamp holds its rail, and the rails above start from there */
         x[k] = v;
     }
 }
@@ -481,6 +486,37 @@ static int finish(shoot *sh, const double *x, const br_steady_opts *o, br_steady
     return rc;
 }
 
+/* A state or period that is no number is a failure of the simulation
+ * (overflowing values), not a steady state: the solvers' own tests pass
+ * over a NaN. */
+static int finite_check(const br_chain *c, const br_steady *out, br_error *err)
+{
+    for (int k = 0; k < c->n; k++) {
+        const br_rail_stats *r = &out->stats.rail[k];
+        if (!isfinite(out->x[k]) || !isfinite(r->vmin) || !isfinite(r->vmax) || !isfinite(r->vint))
+            return br_error_set(err, BR_ENUMERIC, NULL, 0, NULL,
+                                "rail %d (%s) is not a finite number over the period", k,
+                                c->st[k].name);
+    }
+    return BR_OK;
+}
+
+/* The simulation failed: keep why for the verdict; nothing converged and
+ * nothing is known to drop out. */
+static int record_failure(br_steady *out, const double *x, br_error *err)
+{
+    out->failed = 1;
+    out->converged = 0;
+    out->holds = 1;
+    out->resid_rail = -1;
+    out->residual = out->drift = NAN;
+    snprintf(out->why, sizeof out->why, "the steady-state simulation failed: %.150s",
+             err->msg[0] ? err->msg : "numerical failure");
+    memcpy(out->x, x, sizeof out->x);
+    br_error_clear(err);
+    return BR_OK;
+}
+
 int br_steady_solve(const br_chain *c, int dir, const br_steady_opts *o, br_steady *out,
                     br_error *err)
 {
@@ -495,6 +531,7 @@ int br_steady_solve(const br_chain *c, int dir, const br_steady_opts *o, br_stea
     int rc = br_sim_create(c, dir, BR_INTEG_FAST, &sh.sim, err);
     if (rc != BR_OK)
         return rc;
+    br_sim_set_stop(sh.sim, o->progress);
     br_sim_observer obs = {&sh, on_uvlo, NULL};
     br_sim_set_observer(sh.sim, &obs);
     br_timing tm;
@@ -525,7 +562,11 @@ int br_steady_solve(const br_chain *c, int dir, const br_steady_opts *o, br_stea
     }
     if (rc == BR_OK)
         rc = finish(&sh, x, o, out, err);
+    if (rc == BR_OK)
+        rc = finite_check(c, out, err);
     out->periods = sh.periods;
     br_sim_free(sh.sim);
+    if (rc == BR_ENUMERIC)
+        rc = record_failure(out, x, err);
     return rc;
 }

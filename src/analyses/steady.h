@@ -16,17 +16,21 @@ typedef enum br_steady_method {
 } br_steady_method;
 
 typedef struct br_steady {
-    int dir;                       /* br_dir_index analysed */
-    int method;                    /* br_steady_method */
-    int converged;                 /* 1 when the residual met the tolerance */
-    int holds;                     /* 1 when no driver dropped out over the period */
-    int iterations;                /* Newton/Broyden iterations */
-    long periods;                  /* periods simulated in all */
-    double residual;               /* max |P(x) - x| over the rails, V */
-    int resid_rail;                /* when not converged: the rail that still moved
-                                      most in the last plain period */
-    double drift;                  /* max rail change over the cross-check periods, V */
-    double phase;                  /* where in the period x is taken, s */
+    int dir;         /* br_dir_index analysed */
+    int method;      /* br_steady_method */
+    int converged;   /* 1 when the residual met the tolerance */
+    int holds;       /* 1 when no driver dropped out over the period */
+    int iterations;  /* Newton/Broyden iterations */
+    long periods;    /* periods simulated in all */
+    double residual; /* max |P(x) - x| over the rails, V */
+    int resid_rail;  /* when not converged: the rail that still moved
+                        most in the last plain period */
+    double drift;    /* max rail change over the cross-check periods, V */
+    double phase;    /* where in the period x is taken, s */
+    int failed;      /* the simulation itself failed (why says how:
+                        the integrator, the work limit): converged is
+                        0 and the figures decide nothing */
+    char why[200];
     double x[2 * BR_MAX_SWITCHES]; /* [k] rail k capacitor, [n + k] stored charge */
     br_stats stats;                /* over one period from x */
 } br_steady;
@@ -44,11 +48,18 @@ typedef struct br_steady_opts {
      * return it holds the latest matrix and *jac_valid is set. */
     double *jac;
     int *jac_valid;
+    const br_progress *progress; /* its stop poll ends the solve with BR_ECANCEL
+                                    (NULL: none) */
 } br_steady_opts;
 
 void br_steady_opts_default(br_steady_opts *o);
 
-/* Solve the periodic steady state of c for current direction dir. */
+/* Solve the periodic steady state of c for current direction dir.  A
+ * failure of the simulation (step size underflow, the work limit of
+ * engine/sim.h) is not an error here: it is recorded in out->failed and
+ * out->why, out->converged is 0, and BR_OK is returned, so that the
+ * verdict calls the steady state undetermined.  BR_ECANCEL when the stop
+ * poll of o->progress asks to stop. */
 int br_steady_solve(const br_chain *c, int dir, const br_steady_opts *o, br_steady *out,
                     br_error *err);
 

@@ -350,7 +350,8 @@ static int sweep_run(br_probe *p, const sweep_args *a, br_meter *meter, br_sweep
 
 /* ---- the start-up window ---------------------------------------------------- */
 
-static int su_point(br_design *d, int axis, double v, br_su_point *pt, br_error *err)
+static int su_point(br_design *d, int axis, double v, const br_progress *stop, br_su_point *pt,
+                    br_error *err)
 {
     if (axis == BR_AXIS_DUTY)
         d->duty.nom = v;
@@ -361,7 +362,9 @@ static int su_point(br_design *d, int axis, double v, br_su_point *pt, br_error 
     if (rc != BR_OK)
         return rc;
     br_startup su;
-    rc = br_startup_run(&c, NULL, &su, err);
+    br_progress only = br_progress_stop_only(stop); /* the bar is the meter's */
+    br_startup_opts so = {.progress = &only};
+    rc = br_startup_run(&c, &so, &su, err);
     pt->value = v;
     pt->complete = su.complete && su.t_total <= c.startup_max;
     pt->t_total = su.t_total;
@@ -385,7 +388,7 @@ static int su_run_at(br_design *d, br_su_window *w, br_meter *meter, double u, b
                      br_error *err)
 {
     double v = su_value(w, u);
-    int rc = su_point(d, w->axis, v, pt, err);
+    int rc = su_point(d, w->axis, v, br_meter_poll(meter), pt, err);
     if (rc == BR_OK && br_meter_add(meter, 1.0))
         rc = br_progress_cancelled(err);
     if (rc == BR_OK && w->npts < BR_MAX_SU_POINTS)
@@ -544,6 +547,8 @@ static int run_sweeps(const br_design *d, br_probe *p, sweep_job *jd, sweep_job 
 {
     pthread_t tid;
     int rc = jd ? br_probe_create(d, &jd->p, err) : BR_OK;
+    if (rc == BR_OK && jd)
+        br_probe_set_stop(jd->p, br_meter_poll(jd->meter));
     int started =
         rc == BR_OK && jd && threads > 1 && pthread_create(&tid, NULL, sweep_thread, jd) == 0;
     if (rc == BR_OK) {
@@ -607,18 +612,25 @@ static int steady_limits(const br_design *d, br_probe *p, const br_window_opts *
     return rc;
 }
 
-/* Hold-up from the real chain's steady state in every direction. */
-static int holdups(const br_design *d, br_window *w, br_error *err)
+/* Hold-up from the real chain's steady state in every direction.  A
+ * steady state whose simulation failed has no state to stop from: the
+ * run is undetermined (BR_ENUMERIC, with why). */
+static int holdups(const br_design *d, br_window *w, const br_progress *stop, br_error *err)
 {
     br_chain *c;
     int rc = br_chain_build(d, &c, err);
     if (rc != BR_OK)
         return rc;
     int dirs[2];
+    br_steady_opts so;
+    br_steady_opts_default(&so);
+    so.progress = stop;
     w->nholdup = br_design_directions(c, dirs);
     for (int i = 0; i < w->nholdup && rc == BR_OK; i++) {
         br_steady ss;
-        rc = br_steady_solve(c, dirs[i], NULL, &ss, err);
+        rc = br_steady_solve(c, dirs[i], &so, &ss, err);
+        if (rc == BR_OK && ss.failed)
+            rc = br_error_set(err, BR_ENUMERIC, NULL, 0, NULL, "hold-up: %s", ss.why);
         if (rc == BR_OK)
             rc = br_holdup_run(c, &ss, d->hold_on, 0.0, &w->holdup[i], err);
     }
@@ -681,9 +693,10 @@ static int window_all(const br_design *d, const br_window_opts *o, br_meter *met
     int rc = br_probe_create(d, &p, err);
     if (rc != BR_OK)
         return rc;
+    br_probe_set_stop(p, br_meter_poll(meter));
     rc = steady_limits(d, p, o, meter, out, err);
     if (rc == BR_OK)
-        rc = holdups(d, out, err);
+        rc = holdups(d, out, br_meter_poll(meter), err);
     if (rc == BR_OK && o->startup)
         rc = startup_window(d, out, o->threads, meter, err);
     br_probe_free(p);

@@ -89,24 +89,21 @@ static int write_all(const outputs *o, const paths *p, int quiet)
     return br_cli_write(files, 4, o->text, quiet, verdict, 1);
 }
 
-/* Compute, then write unless a signal stopped the run (only the runs with
- * a cold start, the long ones, take signals and show progress). */
+/* Compute, then write unless a signal stopped the run.  Every phase takes
+ * signals (a steady state alone can run for seconds on an odd design);
+ * the bar follows the cold start, the part whose length is known. */
 static int run(const char *path, const char *verb, int parts, const br_steady_opts *so, outputs *o,
                const paths *p, int quiet)
 {
     br_error err;
     br_error_clear(&err);
     br_cli_run lr;
-    int longrun = (parts & BR_RUN_STARTUP) != 0;
-    if (longrun) {
-        br_cli_run_begin(&lr, verb, quiet);
-        o->res->progress = &lr.hook;
-    }
+    br_cli_run_begin(&lr, verb, quiet);
+    o->res->progress = &lr.hook;
     int rc = compute(path, verb, parts, so, o, &err);
-    int stop = longrun ? br_cli_run_commit(&lr) : 0;
+    int stop = br_cli_run_commit(&lr);
     int status = stop ? stop : rc != BR_OK ? br_cli_fail(&err, path) : write_all(o, p, quiet);
-    if (longrun)
-        br_cli_run_end(&lr);
+    br_cli_run_end(&lr);
     o->res->progress = NULL;
     return status;
 }

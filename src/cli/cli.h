@@ -77,7 +77,9 @@ int br_cli_emit(const br_text *t);
 int br_cli_save(const br_text *t, const char *path);
 
 /* Print err as the one line "bootrung: FILE:LINE: field: message" (path
- * stands in when err names no file) and return BR_EXIT_INPUT. */
+ * stands in when err names no file) and return BR_EXIT_INPUT; a numerical
+ * failure (BR_ENUMERIC) reads "FILE: undetermined: message" and returns
+ * BR_EXIT_UNDETERMINED. */
 int br_cli_fail(const br_error *err, const char *path);
 
 /* Print "bootrung: VERB: message (see 'bootrung VERB --help')" and return

@@ -17,6 +17,6 @@ int cmd_analyze(int argc, char **argv)
         "limit, the margin and where it binds. Exit status 0 when every criterion\n"
         "evaluated passes (a warning does not count), 1 when one fails, 2 for bad\n"
         "input, 3 when none fails but one is undetermined (a solver did not\n"
-        "converge).\n",
+        "converge, a simulation failed or reached its work limit).\n",
         BR_RUN_ALL);
 }

@@ -9,6 +9,7 @@
 #include "report/map_report.h"
 #include "report/verb_pages.h"
 
+#include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -24,7 +25,8 @@ static const char ABOUT[] =
     "the design point marked, --report an HTML page with the map. Rows are shared\n"
     "between --threads workers (default 2); the result does not depend on their\n"
     "number.\n"
-    "Exit status 0 when the design point holds, 1 when not, 2 for bad input.\n";
+    "Exit status 0 when the design point holds, 1 when not, 3 when no periodic\n"
+    "steady state was found there, 2 for bad input.\n";
 
 /* "FROM:TO:N" with FROM and TO of the given kind. */
 static int parse_axis(const char *opt, const char *text, br_kind kind, double *from, double *to,
@@ -119,7 +121,9 @@ static int write_all(const outputs *o, const paths *p, int quiet)
     const br_cli_file files[] = {
         {o->csv, p->csv}, {o->svg, p->svg}, {o->svg, p->plot}, {o->html, p->report}};
     int status = br_cli_write(files, 4, o->text, quiet, verdict, 0);
-    if (status == BR_EXIT_OK && !o->m->design.holds)
+    if (status == BR_EXIT_OK && isnan(o->m->design.margin))
+        status = BR_EXIT_UNDETERMINED; /* no steady state found: not a failure */
+    else if (status == BR_EXIT_OK && !o->m->design.holds)
         status = BR_EXIT_FAIL;
     return status;
 }

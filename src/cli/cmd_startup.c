@@ -18,6 +18,6 @@ int cmd_startup(int argc, char **argv)
         "one). Exit status 0 when every driver starts, the inrush is within every\n"
         "rating and the dropouts are within the limit (a warning does not count),\n"
         "1 when not, 2 for bad input, 3 when the simulation failed numerically\n"
-        "(undetermined).\n",
+        "or reached its work limit (undetermined).\n",
         BR_RUN_STARTUP);
 }

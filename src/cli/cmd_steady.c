@@ -16,6 +16,7 @@ int cmd_steady(int argc, char **argv)
         "rating, forward currents, recovery and losses; per capacitor: capacitance at\n"
         "bias, peak voltage against its rating, RMS current; the supply's load.\n"
         "Exit status 0 when the steady state holds and every margin is met, 1 when\n"
-        "not, 2 for bad input, 3 when the solver did not converge (undetermined).\n",
+        "not, 2 for bad input, 3 when the solver did not converge or the simulation\n"
+        "failed or reached its work limit (undetermined).\n",
         BR_RUN_STEADY);
 }

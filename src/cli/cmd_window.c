@@ -10,6 +10,7 @@
 #include "report/verb_pages.h"
 #include "report/window_report.h"
 
+#include <math.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -30,7 +31,8 @@ static const char ABOUT[] =
     "--startup the lowest and highest duty and frequency at which the cold start\n"
     "completes within the design's start-up limit, searched over the same ranges\n"
     "(slow: every point is a cold start).\n"
-    "Exit status 0 when the design point holds, 1 when not, 2 for bad input.\n";
+    "Exit status 0 when the design point holds, 1 when not, 3 when no periodic\n"
+    "steady state was found there, 2 for bad input.\n";
 
 /* A frequency option, or 0 when not given. */
 static int parse_freq(const char *opt, const char *text, double *out)
@@ -117,7 +119,9 @@ static int run(const char *path, const paths *p, br_window_opts *wo, int quiet)
             status = br_cli_usage_error("window", "%s: %s", err.field, err.msg);
         else if (status == BR_EXIT_OK)
             status = rc != BR_OK ? br_cli_fail(&err, path) : write_all(&o, p, quiet);
-        if (status == BR_EXIT_OK && !o.w->design.holds)
+        if (status == BR_EXIT_OK && isnan(o.w->design.margin))
+            status = BR_EXIT_UNDETERMINED; /* no steady state found: not a failure */
+        else if (status == BR_EXIT_OK && !o.w->design.holds)
             status = BR_EXIT_FAIL;
         br_cli_run_end(&lr);
         wo->progress = NULL;

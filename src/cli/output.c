@@ -36,10 +36,15 @@ int br_cli_fail(const br_error *err, const char *path)
         snprintf(e.file, sizeof e.file, "%s", path);
     if (!e.msg[0])
         snprintf(e.msg, sizeof e.msg, "%s", br_status_name(e.code));
+    /* a solver that could not finish decides nothing: undetermined, never
+     * the status of bad input */
+    int numeric = e.code == BR_ENUMERIC;
+    if (numeric && !e.field[0])
+        snprintf(e.field, sizeof e.field, "undetermined");
     br_error_format(&e, buf, sizeof buf);
     one_line(buf);
     fprintf(stderr, "bootrung: %s\n", buf);
-    return BR_EXIT_INPUT;
+    return numeric ? BR_EXIT_UNDETERMINED : BR_EXIT_INPUT;
 }
 
 int br_cli_usage_error(const char *verb, const char *fmt, ...)

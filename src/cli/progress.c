@@ -9,8 +9,9 @@
  *
  * The signal handler only records which signal came: `caught` is the one
  * mutable global of the program, because a handler can reach nothing
- * else.  The analysis polls it through the progress hook, which asks the
- * analysis to stop; the verb then writes no output file. */
+ * else.  The analysis polls it through the progress hook and, inside
+ * every simulation, through the hook's stop poll, and stops; the verb then
+ * writes no output file. */
 #include "cli.h"
 
 #include <pthread.h>
@@ -117,6 +118,14 @@ static int on_progress(void *ctx, double done, double total)
     return 0;
 }
 
+/* The stop poll the simulators call every few milliseconds of work, from
+ * any thread: reading the flag is all it does. */
+static int on_stop(void *ctx)
+{
+    (void)ctx;
+    return caught != 0;
+}
+
 static int want_bar(int quiet)
 {
     const char *term = getenv("TERM");
@@ -145,6 +154,7 @@ void br_cli_run_begin(br_cli_run *r, const char *label, int quiet)
     memset(r, 0, sizeof *r);
     r->hook.fn = on_progress;
     r->hook.ctx = r;
+    r->hook.stop = on_stop;
     r->label = label;
     r->draw = want_bar(quiet);
     r->t0 = now();

@@ -113,6 +113,44 @@ unsigned long br_sim_evals(const br_sim *s)
 {
     return s->evals;
 }
+unsigned long br_sim_work(const br_sim *s)
+{
+    return s->work;
+}
+void br_sim_set_stop(br_sim *s, const br_progress *p)
+{
+    s->stop = p;
+}
+
+int br_sim_spend(br_sim *s, unsigned long n)
+{
+    if (s->halt)
+        return s->halt;
+    s->work += n;
+    if (s->work - s->polled < BR_SIM_POLL_EVERY)
+        return 0;
+    s->polled = s->work;
+    double periods = (s->past + s->t) / s->tm.T;
+    if (br_progress_stopped(s->stop))
+        s->halt = BR_ECANCEL;
+    else if (s->work > BR_SIM_WORK_MAX || s->work > BR_SIM_WORK_PER_PERIOD * (1.0 + periods))
+        s->halt = BR_ENUMERIC;
+    s->halt_t = s->t;
+    s->halt_periods = periods;
+    return s->halt;
+}
+
+/* The error of a simulator that stopped on its work limit or a stop. */
+static int halted(const br_sim *s, br_error *err)
+{
+    if (s->halt == BR_ECANCEL)
+        return br_progress_cancelled(err);
+    return br_error_set(err, BR_ENUMERIC, NULL, 0, NULL,
+                        "work limit reached: %lu integrator steps in %.3g periods (limit %.0f "
+                        "a period, %lu in all) at t = %.6g s",
+                        s->work, s->halt_periods, BR_SIM_WORK_PER_PERIOD, BR_SIM_WORK_MAX,
+                        s->halt_t);
+}
 
 void br_sim_vc(const br_sim *s, double *vc)
 {
@@ -310,6 +348,7 @@ static void clear_state(br_sim *s)
     memset(s->held, 0, sizeof s->held);
     memset(s->il, 0, sizeof s->il);
     memset(s->vr, 0, sizeof s->vr);
+    s->past += s->t; /* the work limit counts every period simulated */
     s->t = 0.0;
     s->cmd = s->rev = s->driven = 0;
     s->loaded = 0;
@@ -373,6 +412,11 @@ void br_sim_reset_running_at(br_sim *s, const double *x, double phase)
     s->pwm_t0 = -phase;
     while (s->ev_idx < s->tm.nev && s->tm.ev[s->ev_idx].t <= phase)
         s->ev_idx++;
+    /* every event lies behind: the next is the first of the next period */
+    if (s->ev_idx == s->tm.nev) {
+        s->ev_idx = 0;
+        s->per = 1;
+    }
     for (int k = 1; k < s->n; k++) {
         s->x[XI(k, F_VC)] = x[k];
         s->x[XI(k, F_Q)] = x[s->n + k];
@@ -508,7 +552,7 @@ static void apply_pwm_events(br_sim *s, double t)
             fly_to(s, event_time(s), s->ev_idx == 0);
         br_event_apply(&s->tm.ev[s->ev_idx], &s->cmd, &s->rev);
         moved = 1;
-        if (++s->ev_idx == s->tm.nev) {
+        if (++s->ev_idx >= s->tm.nev) {
             s->ev_idx = 0;
             s->per++;
             s->iv = 0;
@@ -845,12 +889,25 @@ static void settle_uvlo(br_sim *s, double tb)
     evaluate_now(s, tb);
 }
 
+/* Every rail a finite number: an overflow (a bus near the largest
+ * double) would otherwise run on as NaN, which no test below catches. */
+static int finite_state(const br_sim *s)
+{
+    for (int k = 0; k < s->n; k++)
+        if (!isfinite(s->x[XI(k, F_VC)]) || !isfinite(s->vr[k]))
+            return 0;
+    return 1;
+}
+
 int br_sim_run_until(br_sim *s, double t_end, br_error *err)
 {
     while (s->t < t_end) {
         if (s->loaded && !(s->cell_low > 0.0))
             return cells_collapse(s, err);
+        if (br_sim_spend(s, 1))
+            return halted(s, err);
         double tb = next_time(s, t_end);
+        br_sim_clamp_limit(s); /* a reset or a gate charge may have left a rail past it */
         settle_uvlo(s, tb);
         if (br_sim_edge_start(s)) {
             /* the rails moved by the sweep's charge: the interval stays
@@ -861,6 +918,7 @@ int br_sim_run_until(br_sim *s, double t_end, br_error *err)
                 settle_uvlo(s, tb);
         }
         recover(s);
+        br_sim_clamp_limit(s); /* a charge moved at an edge may push a rail past it */
         br_sim_track_extremes(s, s->t);
         int due = -1, status = 0;
         s->nintervals++;
@@ -874,6 +932,8 @@ int br_sim_run_until(br_sim *s, double t_end, br_error *err)
                 s->obs.sample(s->obs.ctx, s, s->t, s->vr, s->il, s->n);
         } else {
             br_sim_integrate(s, tb, &status);
+            if (status == -2)
+                return halted(s, err);
             if (status < 0)
                 return br_error_set(err, BR_ENUMERIC, NULL, 0, NULL,
                                     "step size underflow at t = %.9g s", s->t);
@@ -882,6 +942,12 @@ int br_sim_run_until(br_sim *s, double t_end, br_error *err)
         }
         if (s->t >= tb)
             br_sim_edge_end(s, tb);
+        br_sim_clamp_limit(s);
+        if (!finite_state(s))
+            return br_error_set(err, BR_ENUMERIC, NULL, 0, NULL,
+                                "the rails are no longer finite numbers at t = %.9g s (values "
+                                "beyond what the arithmetic holds)",
+                                s->t);
         br_sim_track_extremes(s, s->t);
         if (due >= 0)
             toggle(s, due);

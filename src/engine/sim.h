@@ -13,6 +13,7 @@
 #ifndef BR_ENGINE_SIM_H
 #define BR_ENGINE_SIM_H
 
+#include "core/progress.h"
 #include "model/chain.h"
 #include "model/timing.h"
 
@@ -154,5 +155,31 @@ double br_sim_pwm_start(const br_sim *s);
 
 /* Evaluations of the link equations so far (for benchmarks). */
 unsigned long br_sim_evals(const br_sim *s);
+
+/* ---- bounded work ----------------------------------------------------------
+ * Every simulator does bounded work, whatever the design.  A unit of work
+ * is an interval begun, a Runge-Kutta step tried or a trial of the UVLO
+ * locator: about half a microsecond on a 4-switch chain, two on a
+ * 64-switch one.  Designs in their working range take 30 to 250 units a
+ * period.  Over its whole life (every reset included) a simulator may
+ * spend BR_SIM_WORK_PER_PERIOD units for each period it has simulated,
+ * plus one period's worth, and never more than BR_SIM_WORK_MAX in all;
+ * beyond either, br_sim_run_until stops with BR_ENUMERIC ("work limit
+ * reached ..."), which the analyses report as undetermined.  So one
+ * simulator runs for at most about 2 s (4 switches) to 12 s (64), and far
+ * less where a single period runs away (steps of picoseconds in a
+ * microsecond period stop after 20 000 of them). */
+#define BR_SIM_WORK_PER_PERIOD 20000.0
+#define BR_SIM_WORK_MAX 5000000UL
+/* Units of work between two polls of the stop function. */
+#define BR_SIM_POLL_EVERY 256UL
+
+/* Poll p's stop function (core/progress.h) while running: once it asks to
+ * stop, br_sim_run_until returns BR_ECANCEL within BR_SIM_POLL_EVERY units
+ * of work.  p (NULL: none) must outlive the simulator's runs. */
+void br_sim_set_stop(br_sim *s, const br_progress *p);
+
+/* Units of work done so far, over the simulator's life. */
+unsigned long br_sim_work(const br_sim *s);
 
 #endif

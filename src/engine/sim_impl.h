@@ -140,6 +140,8 @@ struct br_sim {
     double vr[BR_N];           /* rail node voltages at the last evaluation, V */
     double ic[BR_N];           /* capacitor currents at the last evaluation, A */
     double iz[BR_N];           /* clamp currents, A */
+    int pin[BR_N];             /* rail k held at the knee of its ideal clamp (rz = 0) */
+    double esr_now[BR_N];      /* esr[k], or 0 while pin[k]: the node is the capacitor */
     double gd[BR_N];           /* diode conductance at the last solve, S */
     double esr[BR_N];          /* rail k's series resistance (rail 0: the
                                   supply's, unless a bypass capacitor) */
@@ -148,11 +150,19 @@ struct br_sim {
                                   the last solve (the Newton predictor) */
     unsigned long evals;
     unsigned long nsteps, nrejects, nintervals, nclosed; /* counters for benchmarks */
-    double k1[X_SIZE];    /* derivative at (t, x) for the seg in force */
-    double rk[6][X_SIZE]; /* stages of the Runge-Kutta step */
-    int k1_valid;         /* k1 matches the present state */
-    double hlast;         /* last accepted RK step, s (0: none yet) */
-    int pair;             /* br_rk_pair of the interval in progress */
+    /* bounded work (sim.h) */
+    const br_progress *stop; /* polled for a stop request (NULL: none) */
+    unsigned long work;      /* units of work over the simulator's life */
+    unsigned long polled;    /* work at the last poll */
+    double past;             /* simulated time before the last reset, s */
+    int halt;                /* BR_ENUMERIC (work limit) or BR_ECANCEL: sticky */
+    double halt_t;           /* simulated time when it halted, s (since the reset then) */
+    double halt_periods;     /* periods simulated in all by then */
+    double k1[X_SIZE];       /* derivative at (t, x) for the seg in force */
+    double rk[6][X_SIZE];    /* stages of the Runge-Kutta step */
+    int k1_valid;            /* k1 matches the present state */
+    double hlast;            /* last accepted RK step, s (0: none yet) */
+    int pair;                /* br_rk_pair of the interval in progress */
     /* First step of each interval of the last period, by its place in the
      * period: the next period starts each interval with it (0: none) */
     double hmem[BR_HMEM];
@@ -180,11 +190,19 @@ void br_sim_rhs(br_sim *s, double t, const double *x, double *dx);
 /* Driver supply of stage k for a rail voltage vr (after an LDO). */
 double br_sim_vdrv(const br_sim *s, int k, double vr);
 
+/* An ideal clamp (rz = 0) is a hard limit: a capacitor that a step or an
+ * instantaneous charge took past the knee gives the excess to the clamp
+ * and sits at the knee (a projection onto the limit, so the rail lands on
+ * it exactly, period after period). */
+void br_sim_clamp_limit(br_sim *s);
+
 /* Rail k capacitance at its voltage. */
 double br_sim_cap(const br_sim *s, int k, double v);
 
 /* Integrate the current interval from s->t to tb with the RK pair, stopping
- * early at a UVLO crossing.  Returns the time reached. */
+ * early at a UVLO crossing.  Returns the time reached; *status is 1 at a
+ * UVLO crossing, -1 when the step size underflowed, -2 when the work
+ * limit or a stop halted it (s->halt), else 0. */
 double br_sim_integrate(br_sim *s, double tb, int *status);
 
 void *br_sim_gsl_alloc(int nx);
@@ -234,6 +252,11 @@ static inline double br_sim_stored_in(const br_sim *s, int k)
     double f = br_sim_forward(s, k);
     return f > 0.0 ? f : 0.0;
 }
+
+/* Count n units of work; every BR_SIM_POLL_EVERY of them, poll the stop
+ * function and check the work limits.  Returns non-zero (s->halt set)
+ * once the simulator is to stop. */
+int br_sim_spend(br_sim *s, unsigned long n);
 
 /* Index of the first stage whose driver must toggle for rails vr, or -1. */
 int br_sim_uvlo_due(const br_sim *s, const double *vr);

@@ -111,20 +111,33 @@ static void rail_voltages(br_sim *s, double t, const double *x)
             s->vr[0] = br_sim_bypass(s) ? x[XI(0, F_VC)] : supply_at(g, t) - s->c->rsupply * isup;
             continue;
         }
+        if (s->pin[k]) { /* the clamp takes the surplus: the capacitor holds */
+            s->iz[k] = iin - iout - g->iload[k];
+            s->ic[k] = 0.0;
+            s->vr[k] = x[XI(k, F_VC)];
+            continue;
+        }
         s->ic[k] = iin - iout - g->iload[k] - s->iz[k];
         s->vr[k] = x[XI(k, F_VC)] + s->esr[k] * s->ic[k];
     }
 }
 
 /* Clamp currents from the capacitor voltages (the clamp's own dynamic
- * resistance dominates the ESR, so the capacitor voltage is used). */
+ * resistance dominates the ESR, so the capacitor voltage is used).  An
+ * ideal clamp (rz = 0) is a hard limit: at its knee it takes whatever
+ * would charge the capacitor further, so the rail is pinned there (its
+ * current is found with the links', see pinned_clamps). */
 static void clamp_currents(br_sim *s, const double *x)
 {
     for (int k = 1; k < s->n; k++) {
         const br_aux *a = &s->c->st[k].aux;
         double v = x[XI(k, F_VC)];
-        s->iz[k] = (a->kind == BR_AUX_ZENER && v > a->vout) ? (v - a->vout) / a->rz : 0.0;
+        int zener = a->kind == BR_AUX_ZENER, ideal = zener && !(a->rz > 0);
+        s->pin[k] = ideal && v >= a->vout;
+        s->iz[k] = zener && !ideal && v > a->vout ? (v - a->vout) / a->rz : 0.0;
+        s->esr_now[k] = s->pin[k] ? 0.0 : s->esr[k];
     }
+    s->esr_now[0] = s->esr[0];
 }
 
 /* Junction-capacitance displacement current of link k while the voltage
@@ -149,9 +162,15 @@ static double cj_current(const br_sim *s, int k, double u, double f)
  * them, without recomputing the others). */
 static void shift_link(br_sim *s, int k, double dk)
 {
-    s->ic[k] -= dk;
-    s->vr[k] -= s->esr[k] * dk;
-    if (k > 1) {
+    if (s->pin[k]) { /* a pinned rail's clamp takes the change */
+        s->iz[k] -= dk;
+    } else {
+        s->ic[k] -= dk;
+        s->vr[k] -= s->esr[k] * dk;
+    }
+    if (k > 1 && s->pin[k - 1]) {
+        s->iz[k - 1] += dk;
+    } else if (k > 1) {
         s->ic[k - 1] += dk;
         s->vr[k - 1] += s->esr[k - 1] * dk;
     } else if (br_sim_bypass(s)) {
@@ -193,7 +212,7 @@ static void solve_links(br_sim *s, double t, const double *x)
             br_diode_eval_warm(&s->c->st[k].diode, g->rpath[k], u, &s->dw[k], &f, &gd);
             s->evals++;
             s->gd[k] = gd;
-            double el = s->esr[k - 1], eh = s->esr[k];
+            double el = s->esr_now[k - 1], eh = s->esr_now[k];
             s->gl[k] = gd / (1.0 + gd * (el + eh));
             s->icj[k] = cj_current(s, k, u, f);
             r[k] = s->il[k] - f - s->icj[k];
@@ -239,7 +258,7 @@ static void variational(br_sim *s, const double *x, double *dx)
     double a[BR_N], b[BR_N], c[BR_N], D[BR_N][BR_N], A[BR_N][BR_N];
     for (int k = 1; k < n; k++) {
         int on = g->active[k];
-        double gd = on ? s->gd[k] : 0.0, el = s->esr[k - 1], eh = s->esr[k];
+        double gd = on ? s->gd[k] : 0.0, el = s->esr_now[k - 1], eh = s->esr_now[k];
         b[k] = 1.0 + gd * (el + eh);
         a[k] = on && k > 1 && g->active[k - 1] ? -gd * el : 0.0;
         c[k] = on && k + 1 < n && g->active[k + 1] ? -gd * eh : 0.0;
@@ -270,8 +289,10 @@ static void variational(br_sim *s, const double *x, double *dx)
             }
             const br_aux *z = &s->c->st[k].aux;
             double diz =
-                (j == k && z->kind == BR_AUX_ZENER && x[XI(k, F_VC)] > z->vout) ? 1.0 / z->rz : 0.0;
-            A[k][j] = (D[k][j] - dout - diz) / ck;
+                (j == k && z->kind == BR_AUX_ZENER && z->rz > 0 && x[XI(k, F_VC)] > z->vout)
+                    ? 1.0 / z->rz
+                    : 0.0;
+            A[k][j] = s->pin[k] ? 0.0 : (D[k][j] - dout - diz) / ck; /* a pinned rail holds */
         }
     }
     /* A couples a rail to its neighbours; the ESRs reach further only by
@@ -310,11 +331,45 @@ static void quadratures(br_sim *s, double t, const double *x, double *dx)
     dx[X_SE] = isup * supply_at(g, t);
 }
 
+void br_sim_clamp_limit(br_sim *s)
+{
+    for (int k = 1; k < s->n; k++) {
+        const br_aux *a = &s->c->st[k].aux;
+        double v = s->x[XI(k, F_VC)];
+        if (a->kind != BR_AUX_ZENER || a->rz > 0 || !(v > a->vout))
+            continue;
+        s->x[XI(k, F_RQL)] += br_sim_cap(s, k, v) * (v - a->vout); /* into the clamp */
+        s->x[XI(k, F_VC)] = a->vout;
+        s->k1_valid = 0;
+        for (int j = 0; s->var && j < s->n; j++) /* held: it forgets where it started */
+            s->x[s->phi0 + k * s->n + j] = 0.0;
+    }
+}
+
+/* A pinned rail whose links and load draw more than they deliver is not
+ * held by its clamp (it would have to source current): release it and
+ * solve again.  Returns 1 when some rail was released. */
+static int release_clamps(br_sim *s)
+{
+    int any = 0;
+    for (int k = 1; k < s->n; k++) {
+        if (s->pin[k] && s->iz[k] < 0.0) {
+            s->pin[k] = 0;
+            s->iz[k] = 0.0;
+            s->esr_now[k] = s->esr[k];
+            any = 1;
+        }
+    }
+    return any;
+}
+
 void br_sim_rhs(br_sim *s, double t, const double *x, double *dx)
 {
     int n = s->n;
     clamp_currents(s, x);
     solve_links(s, t, x);
+    if (release_clamps(s))
+        solve_links(s, t, x);
     /* the variational equation writes every entry of its own */
     for (int i = 0, nz = s->var ? s->phi0 : s->nx; i < nz; i++)
         dx[i] = 0.0;

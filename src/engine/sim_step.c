@@ -317,6 +317,7 @@ static double locate_uvlo(br_sim *s, double t, double h, const double *x, const 
     double tol = fmax(1e-13, 1e-9 * h);
     while (hi - lo > tol) {
         double mid = 0.5 * (lo + hi);
+        s->work++; /* at most about 60 trials: no limit needed here */
         take_step(s, t, mid, x, k1, y, e, kend);
         if (br_sim_uvlo_due(s, s->vr) >= 0)
             hi = mid;
@@ -386,6 +387,10 @@ double br_sim_integrate(br_sim *s, double tb, int *status)
             *status = -1;
             break;
         }
+        if (br_sim_spend(s, 1)) { /* work limit or a stop */
+            *status = -2;
+            break;
+        }
         take_step(s, t, h, s->x, k1, y, e, kend);
         double err = error_norm(s, s->x, y, e);
         if (!(err <= 1.0)) {
@@ -396,6 +401,7 @@ double br_sim_integrate(br_sim *s, double tb, int *status)
         if (br_sim_uvlo_due(s, s->vr) >= 0) {
             double hc = locate_uvlo(s, t, h, s->x, k1, y);
             memcpy(s->x, y, sizeof(double) * (size_t)s->nx);
+            br_sim_clamp_limit(s);
             t = last && hc >= h ? tb : t + hc;
             br_sim_track_extremes(s, t);
             observe(s, t);
@@ -403,6 +409,7 @@ double br_sim_integrate(br_sim *s, double tb, int *status)
             break;
         }
         memcpy(s->x, y, sizeof(double) * (size_t)s->nx);
+        br_sim_clamp_limit(s);
         t = last ? tb : t + h; /* t + (tb - t) need not round to tb */
         s->nsteps++;
         /* remember what the controller proposes after the first step,

@@ -203,6 +203,42 @@ int br_chain_build_nominal(const br_design *d, br_chain *c, br_error *err)
     return BR_OK;
 }
 
+/* The shortest on-window of any switch, s (HUGE_VAL when none), and
+ * whose it is. */
+static double shortest_on(const br_chain *c, int *who)
+{
+    double best = HUGE_VAL;
+    for (int k = 0; k < c->n; k++) {
+        for (int i = 0; i < c->st[k].nwin; i++) {
+            double a = c->st[k].win[i][0], b = c->st[k].win[i][1];
+            double len = b >= a ? b - a : c->T - a + b;
+            if (len > 0 && len < best) {
+                best = len;
+                *who = k;
+            }
+        }
+    }
+    return best;
+}
+
+/* A switching edge that outlasts an on-window never completes: the switch
+ * would never be fully on, which is no converter and outside the model
+ * (every edge a ramp that reaches its end).  Checked at the design point;
+ * the scans judge other points by their own rules. */
+static int edges_fit(const br_design *d, const br_chain *c, br_error *err)
+{
+    int who = 0;
+    double on = shortest_on(c, &who);
+    if (!(c->tedge >= on))
+        return BR_OK;
+    return br_error_set(err, BR_EINPUT, d->path, d->tedge.line ? d->tedge.line : d->fsw.line,
+                        "operating-point: edge-time",
+                        "a switching edge of %.3g s outlasts the shortest on-time, %.3g s of "
+                        "switch %s at %.4g Hz, so no switch would finish turning on; expected an "
+                        "edge-time shorter than every on-time (or a lower fsw)",
+                        c->tedge, on, c->st[who].name, c->fsw);
+}
+
 int br_chain_build(const br_design *d, br_chain **out, br_error *err)
 {
     *out = NULL;
@@ -210,6 +246,8 @@ int br_chain_build(const br_design *d, br_chain **out, br_error *err)
     if (!c)
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory building the chain");
     int rc = br_chain_build_nominal(d, c, err);
+    if (rc == BR_OK)
+        rc = edges_fit(d, c, err);
     if (rc != BR_OK) {
         free(c);
         return rc;

@@ -174,9 +174,13 @@ int br_map_text(const br_chain *c, const br_map *m, const char *csv, const char 
     int rc = br_report_heading(c, "hold map", out);
     rc |= grid_line(m, out);
     rc |= counts_line(m, out);
-    rc |= point_line(
-        c, m->design.holds ? "design point: holds, margin" : "design point: FAILS, margin",
-        &m->design, out);
+    if (isnan(m->design.margin)) /* not settled: neither holds nor fails */
+        rc |= br_text_put(out, "design point: UNDETERMINED, the solver found no periodic steady "
+                               "state there\n");
+    else
+        rc |= point_line(
+            c, m->design.holds ? "design point: holds, margin" : "design point: FAILS, margin",
+            &m->design, out);
     rc |= extremes(c, m, out);
     rc |= line_text(m, 1, out);
     rc |= line_text(m, 0, out);

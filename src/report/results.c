@@ -66,8 +66,8 @@ static int run_startup(br_results *r, br_text *csv, br_trace *tr, br_error *err)
 
 /* One more period from the steady state, every accepted step recorded;
  * a trace also gets the period after it. */
-static int steady_series(const br_chain *c, const br_steady *ss, br_text *csv, br_trace *tr,
-                         br_error *err)
+static int steady_series(const br_chain *c, const br_steady *ss, const br_progress *progress,
+                         br_text *csv, br_trace *tr, br_error *err)
 {
     static const char *const labels[] = {"steady-step-down", "steady-step-up", "steady"};
     const char *label = labels[ss->dir == BR_DIRI_DOWN ? 0 : ss->dir == BR_DIRI_UP ? 1 : 2];
@@ -75,6 +75,7 @@ static int steady_series(const br_chain *c, const br_steady *ss, br_text *csv, b
     int rc = br_sim_create(c, ss->dir, BR_INTEG_FAST, &sim, err);
     if (rc != BR_OK)
         return rc;
+    br_sim_set_stop(sim, progress);
     br_csv_series s;
     br_csv_series_init(&s, csv, label, c->n, 0.0, ss->phase);
     if (tr) {
@@ -103,16 +104,24 @@ static int run_steady(br_results *r, const br_steady_opts *so, br_text *csv, br_
                       br_error *err)
 {
     int dirs[2];
+    br_steady_opts o;
+    if (so)
+        o = *so;
+    else
+        br_steady_opts_default(&o);
+    o.progress = r->progress;
     r->ndir = br_design_directions(r->c, dirs);
     for (int d = 0; d < r->ndir; d++) {
-        int rc = br_steady_solve(r->c, dirs[d], so, &r->ss[d], err);
+        int rc = br_steady_solve(r->c, dirs[d], &o, &r->ss[d], err);
+        if (rc == BR_OK && br_progress_stopped(r->progress))
+            rc = br_progress_cancelled(err);
         br_trace *t = NULL;
         if (tr)
             t = tr->steady[d] = br_trace_create(r->c->n);
         if (rc == BR_OK && tr && !t)
             rc = oom(err, "keeping the steady periods");
-        if (rc == BR_OK && (csv || t))
-            rc = steady_series(r->c, &r->ss[d], csv, t, err);
+        if (rc == BR_OK && (csv || t) && !r->ss[d].failed) /* a failed run has no period */
+            rc = steady_series(r->c, &r->ss[d], r->progress, csv, t, err);
         if (rc != BR_OK)
             return rc;
         br_steady_figures(r->c, &r->ss[d], &r->figs[d]);
@@ -138,7 +147,9 @@ int br_results_run_traced(br_results *r, const br_chain *c, const char *verb, in
                           const br_steady_opts *so, br_text *csv, br_results_traces *tr,
                           br_error *err)
 {
+    const br_progress *progress = r->progress; /* set by the caller: kept */
     memset(r, 0, sizeof *r);
+    r->progress = progress;
     r->c = c;
     r->verb = verb;
     r->parts = parts;

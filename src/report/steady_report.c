@@ -13,6 +13,8 @@
 static int method_line(const br_steady *ss, br_text *out)
 {
     char r[32], d[32];
+    if (ss->failed)
+        return br_text_printf(out, "not found (UNDETERMINED): %s", ss->why);
     br_fmt_si(r, sizeof r, ss->residual, 3, "V");
     br_fmt_si(d, sizeof d, ss->drift, 3, "V");
     if (ss->method == BR_STEADY_SHOOTING)
@@ -253,9 +255,12 @@ static int caps_table(const br_chain *c, const br_steady_figs *f, br_text *out)
 int br_steady_text(const br_chain *c, const br_steady_figs *f, br_text *out)
 {
     char a[32], b[32];
-    int rc = br_text_printf(out, "steady state, %s current\n  found by ", br_dir_label(f->dir));
+    int rc = br_text_printf(out, "steady state, %s current\n  %s", br_dir_label(f->dir),
+                            f->ss->failed ? "" : "found by ");
     rc |= method_line(f->ss, out);
     rc |= br_text_put(out, "\n");
+    if (f->ss->failed) /* no period to show figures of */
+        return rc ? BR_ENOMEM : BR_OK;
     rc |= holds_line(f->ss, out);
     rc |= br_text_put(out, "rails (rail = capacitor + ESR; driver = supply after the regulator)\n");
     rc |= rails_table(c, f, out);
@@ -339,8 +344,15 @@ int br_steady_summary_text(const br_chain *c, const br_steady_figs *f, int ndir,
     for (int d = 0; d < ndir; d++) {
         rc |= br_text_printf(out, "  %s: ", br_dir_label(f[d].dir));
         rc |= method_line(f[d].ss, out);
-        rc |= br_text_put(out, f[d].ss->holds ? "; holds\n" : "; DOES NOT HOLD\n");
+        rc |= br_text_put(out, f[d].ss->failed  ? "\n"
+                               : f[d].ss->holds ? "; holds\n"
+                                                : "; DOES NOT HOLD\n");
     }
+    int any = 0; /* a direction with figures to show */
+    for (int d = 0; d < ndir; d++)
+        any |= !f[d].ss->failed;
+    if (!any)
+        return rc ? BR_ENOMEM : BR_OK;
     rc |= summary_table(c, f, ndir, out);
     rc |= br_text_put(out, "  (to UVLO: driver min - UVLO falling; to drive: driver min - minimum "
                            "drive;\n   to gate: gate maximum - driver max; diode %: reverse "
@@ -410,10 +422,16 @@ void br_steady_xml(br_xmlw *w, const br_chain *c, const br_steady_figs *f)
     br_xmlw_int(w, "iterations", ss->iterations);
     br_xmlw_int(w, "periods", ss->periods);
     br_xmlw_num(w, "residual-V", ss->residual);
-    if (!ss->converged)
+    if (!ss->converged && !ss->failed)
         br_xmlw_int(w, "residual-rail", ss->resid_rail);
     br_xmlw_num(w, "drift-V", ss->drift);
     br_xmlw_num(w, "phase-s", ss->phase);
+    if (ss->failed) { /* no figures to trust */
+        br_xmlw_bool(w, "undetermined", 1);
+        br_xmlw_attr(w, "why", ss->why);
+        br_xmlw_end(w);
+        return;
+    }
     for (int k = 0; k < f->n; k++)
         rail_xml(w, c, &f->rail[k], k);
     for (int k = 1; k < f->n; k++)

@@ -205,7 +205,8 @@ static int design_text(const br_chain *c, const br_hold_point *pt, br_text *out)
 {
     char m[32], w[128];
     if (isnan(pt->margin))
-        return br_text_put(out, "design point: FAILS, no periodic steady state found\n");
+        return br_text_put(out, "design point: UNDETERMINED, the solver found no periodic steady "
+                                "state there\n");
     return br_text_printf(out, "design point: %s, worst margin %s (%s)\n",
                           pt->holds ? "holds" : "FAILS", br_fmt_si(m, sizeof m, pt->margin, 4, "V"),
                           br_hold_words(c, pt, w, sizeof w));

@@ -500,6 +500,115 @@ static void test_startup_i2t(void)
     br_design_free(d);
 }
 
+/* An ideal clamp (rz = 0, the part's default) is a hard limit: the rail
+ * it clamps sits at the knee and never above it, the steady state
+ * converges, and it is the limit of clamps ever stiffer (rz of 10 mohm
+ * and 1 mohm let the rail rise above the knee by rz times the clamp's
+ * peak current, about 1.5 A here: 15 mV and 1.5 mV).  An rz of 0 once gave
+ * an infinite clamp current and a step-size underflow. */
+static void test_ideal_clamp(void)
+{
+    const double rz[] = {0.0, 10e-3, 1e-3};
+    double vmax[3], vmin[3];
+    for (int i = 0; i < 3; i++) {
+        br_design *d = br_test_fcml(3, 600.0, 100e3, 0.5, 50e-9);
+        d->switches[0].vsd = br_qty_fixed(3.0);
+        d->direction = BR_DIR_STEP_DOWN; /* rails 1 and 2 over-charge */
+        br_aux_part *z = &d->aux[d->naux++];
+        br_aux_part_defaults(z);
+        snprintf(z->id, sizeof z->id, "clamp");
+        z->kind = BR_AUX_ZENER;
+        z->vout = br_qty_fixed(11.0);
+        z->rz = br_qty_fixed(rz[i]);
+        d->def.aux = 0;
+        br_chain *c = chain_of(d);
+        br_steady ss;
+        br_steady_figs f;
+        solve(c, BR_DIRI_DOWN, &ss, &f);
+        CU_ASSERT_TRUE(ss.converged);
+        vmax[i] = f.rail[2].vcap_peak;
+        vmin[i] = f.rail[2].vmin;
+        br_startup su;
+        br_error err;
+        CU_ASSERT_EQUAL(br_startup_run(c, NULL, &su, &err), BR_OK);
+        CU_ASSERT_FALSE(su.failed);
+        CU_ASSERT_TRUE(su.complete);
+        br_chain_free(c);
+        br_design_free(d);
+    }
+    BR_ASSERT_NEAR(vmax[0], 11.0, 1e-9); /* at the knee: it did clamp, not above */
+    BR_ASSERT_NEAR(vmax[1], 11.0, 20e-3);
+    BR_ASSERT_NEAR(vmax[2], 11.0, 2e-3);
+    BR_ASSERT_NEAR(vmin[1], vmin[0], 10e-3);
+    BR_ASSERT_NEAR(vmin[2], vmin[0], 1e-3);
+    CU_ASSERT_TRUE(vmax[2] - 11.0 < vmax[1] - 11.0); /* converging on the knee */
+}
+
+/* A period whose figures contradict each other decides nothing: a rail
+ * averaging above its own maximum (as a period that ran past its events
+ * once gave, 27 V between 14.8 V and 15 V) makes the steady rows
+ * undetermined, never a pass. */
+static void test_average_outside_extremes(void)
+{
+    br_design *d = br_test_fcml(3, 600.0, 100e3, 0.5, 50e-9);
+    d->switches[0].vgs_max = br_qty_fixed(20.0);
+    br_chain *c = chain_of(d);
+    br_steady ss;
+    br_steady_figs f;
+    solve(c, BR_DIRI_NONE, &ss, &f);
+    br_verdict v;
+    br_verdict_make(c, NULL, &f, 1, &v);
+    CU_ASSERT_TRUE(v.all_pass); /* as solved */
+    ss.stats.rail[1].vint *= 1.8;
+    br_steady_figures(c, &ss, &f);
+    br_verdict_make(c, NULL, &f, 1, &v);
+    CU_ASSERT_FALSE(v.all_pass);
+    CU_ASSERT_TRUE(v.row[BR_CRIT_STEADY].undetermined);
+    CU_ASSERT_TRUE(v.row[BR_CRIT_UVLO].undetermined);
+    CU_ASSERT_FALSE(v.row[BR_CRIT_UVLO].pass);
+    CU_ASSERT_EQUAL(v.nfail, 0);
+    CU_ASSERT_PTR_NOT_NULL(strstr(v.row[BR_CRIT_STEADY].note, "rail 1"));
+    br_chain_free(c);
+    br_design_free(d);
+}
+
+/* The check itself: inside the extremes up to rounding, NaN never. */
+static void test_avg_within(void)
+{
+    CU_ASSERT_TRUE(br_avg_within(14.9, 14.8, 15.0));
+    CU_ASSERT_TRUE(br_avg_within(15.0 + 1e-9, 14.8, 15.0));
+    CU_ASSERT_TRUE(br_avg_within(12.0, 12.0, 12.0));
+    CU_ASSERT_FALSE(br_avg_within(27.015, 14.824, 15.004));
+    CU_ASSERT_FALSE(br_avg_within(14.7, 14.8, 15.0));
+    CU_ASSERT_FALSE(br_avg_within(NAN, 14.8, 15.0));
+}
+
+/* A steady state whose simulation failed (step-size underflow, the work
+ * limit) has no figures: every steady row is undetermined and the steady
+ * row says why. */
+static void test_verdict_failed_simulation(void)
+{
+    br_design *d = br_test_fcml(3, 600.0, 100e3, 0.5, 50e-9);
+    br_chain *c = chain_of(d);
+    br_steady ss;
+    br_steady_figs f;
+    memset(&ss, 0, sizeof ss);
+    ss.dir = BR_DIRI_NONE;
+    ss.failed = 1;
+    ss.holds = 1;
+    snprintf(ss.why, sizeof ss.why, "the steady-state simulation failed: a test");
+    br_steady_figures(c, &ss, &f);
+    CU_ASSERT_TRUE(isnan(f.rail[1].vmin) && isnan(f.link[1].iavg));
+    br_verdict v;
+    br_verdict_make(c, NULL, &f, 1, &v);
+    CU_ASSERT_EQUAL(v.nfail, 0);
+    CU_ASSERT_TRUE(v.row[BR_CRIT_STEADY].undetermined);
+    CU_ASSERT_TRUE(v.row[BR_CRIT_UVLO].undetermined);
+    CU_ASSERT_PTR_NOT_NULL(strstr(v.row[BR_CRIT_STEADY].note, "a test"));
+    br_chain_free(c);
+    br_design_free(d);
+}
+
 int main(void)
 {
     static const br_test_case cases[] = {
@@ -516,6 +625,10 @@ int main(void)
         {"inrush checks of a link: IFRM, IFSM, I2t", test_inrush_checks},
         {"inrush verdict: repetitive rating, which rating", test_inrush_verdict},
         {"start-up I2t bounds", test_startup_i2t},
+        {"an ideal clamp is a hard limit", test_ideal_clamp},
+        {"verdict: an average outside its extremes", test_average_outside_extremes},
+        {"the average-within check", test_avg_within},
+        {"verdict: a failed simulation", test_verdict_failed_simulation},
         {NULL, NULL}};
     return br_test_main("analyses/figures", cases);
 }

@@ -326,7 +326,7 @@ static void test_progress_and_cancel(void)
     o.per_rail = 0; /* the one-part choices are work enough */
     o.startup = 0;
     seen s = {0};
-    br_progress hk = {hook, &s};
+    br_progress hk = {hook, &s, NULL};
     o.progress = &hk;
     br_pick *p = NULL;
     br_error err;

@@ -66,7 +66,7 @@ static void test_map_counts(void)
 {
     br_design *d = br_test_fcml(3, 400.0, 100e3, 0.5, 50e-9);
     seen s = {0};
-    br_progress p = {hook, &s};
+    br_progress p = {hook, &s, NULL};
     br_map_opts o = map_opts(&p);
     br_map *m = NULL;
     br_error err;
@@ -85,7 +85,7 @@ static void test_map_cancel(void)
 {
     br_design *d = br_test_fcml(3, 400.0, 100e3, 0.5, 50e-9);
     seen s = {.stop_at = 5};
-    br_progress p = {hook, &s};
+    br_progress p = {hook, &s, NULL};
     br_map_opts o = map_opts(&p);
     br_map *m = (br_map *)&s; /* must be reset to NULL */
     br_error err;
@@ -102,7 +102,7 @@ static void test_map_cancel_first(void)
 {
     br_design *d = br_test_fcml(3, 400.0, 100e3, 0.5, 50e-9);
     seen s = {.stop_at = 1};
-    br_progress p = {hook, &s};
+    br_progress p = {hook, &s, NULL};
     br_map_opts o = map_opts(&p);
     br_map *m = NULL;
     br_error err;
@@ -116,7 +116,7 @@ static void test_yield_counts(void)
 {
     br_design *d = toleranced();
     seen s = {0};
-    br_progress p = {hook, &s};
+    br_progress p = {hook, &s, NULL};
     br_yield_opts o;
     br_yield_opts_default(&o);
     o.samples = 20;
@@ -139,7 +139,7 @@ static void test_yield_cancel(void)
     for (int stop = 1; stop <= 12; stop += 5) { /* in the preparation, and in the samples */
         br_design *d = toleranced();
         seen s = {.stop_at = stop};
-        br_progress p = {hook, &s};
+        br_progress p = {hook, &s, NULL};
         br_yield_opts o;
         br_yield_opts_default(&o);
         o.samples = 200;
@@ -158,7 +158,7 @@ static void test_corners_cancel(void)
 {
     br_design *d = toleranced();
     seen s = {.stop_at = 6};
-    br_progress p = {hook, &s};
+    br_progress p = {hook, &s, NULL};
     br_corners_opts o;
     br_corners_opts_default(&o);
     o.threads = 2;
@@ -175,7 +175,7 @@ static void test_window_cancel(void)
 {
     br_design *d = br_test_fcml(3, 400.0, 100e3, 0.5, 50e-9);
     seen s = {.stop_at = 4};
-    br_progress p = {hook, &s};
+    br_progress p = {hook, &s, NULL};
     br_window_opts o;
     br_window_opts_default(&o);
     o.progress = &p;
@@ -197,7 +197,7 @@ static void test_startup_cancel(void)
     br_error err;
     CU_ASSERT_EQUAL_FATAL(br_chain_build_nominal(d, &c, &err), BR_OK);
     seen s = {0};
-    br_progress p = {hook, &s};
+    br_progress p = {hook, &s, NULL};
     br_startup_opts o = {0, 0, NULL, &p};
     br_startup su;
     CU_ASSERT_EQUAL_FATAL(br_startup_run(&c, &o, &su, &err), BR_OK);
@@ -215,7 +215,7 @@ static void test_startup_cancel(void)
 static void test_meter(void)
 {
     seen s = {.stop_at = 3};
-    br_progress p = {hook, &s};
+    br_progress p = {hook, &s, NULL};
     br_meter m;
     br_error err;
     CU_ASSERT_EQUAL_FATAL(br_meter_init(&m, &p, 1.0, &err), BR_OK);

@@ -44,6 +44,19 @@ static const extreme_case cases[] = {
     {"fsw-2mhz.xml", WORKS, NULL},
     {"duty-001.xml", WORKS, NULL},
     {"duty-099.xml", WORKS, NULL},
+    /* an on-window across the period end, and a quiet phase after every
+     * event of the period: both read past the period's events once */
+    {"string-wrap.xml", ST(0), NULL},
+    {"halfbridge-d02.xml", ST(0), NULL},
+    /* a clamp with rz = 0 is a hard limit, not an infinite current */
+    {"clamp-ideal.xml", ST(0) | ST(1), NULL},
+    /* runaways: bounded work, undetermined (a numerical failure is never
+     * exit 2); absurd values may also fail on what could be decided */
+    {"fsw-1hz.xml", ST(3), NULL},
+    {"cap-100ff.xml", ST(1) | ST(3), NULL},
+    {"cap-1ff.xml", ST(1) | ST(3), NULL},
+    /* edges of 10 ns in a 1 ps period: refused */
+    {"fsw-1thz.xml", ST(2), "operating-point: edge-time"},
 };
 
 #define NCASES ((int)(sizeof cases / sizeof cases[0]))

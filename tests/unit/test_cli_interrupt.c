@@ -27,6 +27,20 @@ extern char **environ;
 
 #define LEG BR_SOURCE_DIR "/examples/leg-7level.xml"
 #define DEMO BR_SOURCE_DIR "/examples/demo-3level.xml"
+/* a cold start of seconds: a driver that never starts, 1 s simulated */
+#define SLOW_STARTUP BR_SOURCE_DIR "/tests/data/slow-startup.xml"
+/* 64 switches: every simulation is long, and with --solver-limit 100000
+ * the steady state runs its plain periods until the work limit */
+#define L33 BR_SOURCE_DIR "/tests/extreme/levels-33.xml"
+#define CATALOG BR_SOURCE_DIR "/examples/parts/catalog.xml"
+/* How soon after the signal a run must have ended, s (the stop is polled
+ * every few milliseconds of work; the machines running the suite are
+ * shared, and sanitizer builds are slower). */
+#if defined(__SANITIZE_ADDRESS__)
+#define STOP_S 3.0
+#else
+#define STOP_S 1.0
+#endif
 
 static double now(void)
 {
@@ -137,6 +151,148 @@ static void test_sigint_map(void)
 static void test_sigterm_yield(void)
 {
     interrupt_run("yield", "--xml", "y.xml", "--csv", "y.csv", SIGTERM, 143);
+}
+
+/* One phase of one verb, stopped by a signal `after` seconds after the
+ * run caught its signals (before that, a signal would end the process
+ * through its default action, which says nothing about the run). */
+typedef struct phase_case {
+    const char *what;
+    const char *args[10]; /* NULL-terminated; "@" stands for the output file */
+    double after;         /* s */
+    int sig;
+} phase_case;
+
+static const phase_case phases[] = {
+    {"startup: the cold start", {"startup", SLOW_STARTUP, "--xml", "@", NULL}, 0.5, SIGINT},
+    {"analyze: the cold start", {"analyze", SLOW_STARTUP, "--xml", "@", NULL}, 0.5, SIGTERM},
+    {"steady: the steady state",
+     {"steady", "--solver-limit", "100000", L33, "--xml", "@", NULL},
+     0.5,
+     SIGINT},
+    {"analyze: the steady state",
+     {"analyze", "--solver-limit", "100000", L33, "--xml", "@", NULL},
+     2.0,
+     SIGTERM},
+    {"window: the design point", {"window", L33, "--xml", "@", NULL}, 0.03, SIGINT},
+    {"window: the sweeps", {"window", L33, "--xml", "@", NULL}, 2.5, SIGTERM},
+    {"map: the design column",
+     {"map", L33, "--duty", "30%:70%:5", "--freq", "20k:100k:5", "--csv", "@", NULL},
+     0.5,
+     SIGINT},
+    {"corners: the one-at-a-time points", {"corners", L33, "--xml", "@", NULL}, 0.3, SIGTERM},
+    {"yield: the samples", {"yield", L33, "--samples", "40", "--xml", "@", NULL}, 1.5, SIGINT},
+    {"pick: the one-part choices",
+     {"pick", L33, "--catalog", CATALOG, "--xml", "@", NULL},
+     0.5,
+     SIGTERM},
+    {"pick: the per-rail descent",
+     {"pick", L33, "--catalog", CATALOG, "--xml", "@", NULL},
+     3.0,
+     SIGINT},
+};
+#define NPHASES ((int)(sizeof phases / sizeof phases[0]))
+
+/* A run of phases[i] in flight. */
+typedef struct flight {
+    pid_t pid;
+    char dir[32], out[40], err[40];
+    int fo, fe, sent, status;
+    double armed, signalled, ended; /* s, monotonic (armed 0: not yet) */
+} flight;
+
+/* 1 once process pid catches SIGINT and SIGTERM (Linux: the SigCgt mask
+ * of /proc/PID/status). */
+static int catching(pid_t pid)
+{
+    char path[64], line[256];
+    snprintf(path, sizeof path, "/proc/%d/status", (int)pid);
+    FILE *f = fopen(path, "r");
+    unsigned long long mask = 0;
+    while (f && fgets(line, sizeof line, f))
+        if (sscanf(line, "SigCgt: %llx", &mask) == 1)
+            break;
+    if (f)
+        fclose(f);
+    unsigned long long want = (1ULL << (SIGINT - 1)) | (1ULL << (SIGTERM - 1));
+    return (mask & want) == want;
+}
+
+static void launch(const phase_case *pc, flight *f)
+{
+    snprintf(f->dir, sizeof f->dir, "/tmp/br-phase-XXXXXX");
+    snprintf(f->out, sizeof f->out, "/tmp/br-phase-out-XXXXXX");
+    snprintf(f->err, sizeof f->err, "/tmp/br-phase-err-XXXXXX");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(f->dir));
+    f->fo = mkstemp(f->out);
+    f->fe = mkstemp(f->err);
+    CU_ASSERT_TRUE_FATAL(f->fo >= 0 && f->fe >= 0);
+    char file[64];
+    snprintf(file, sizeof file, "%s/result", f->dir);
+    const char *args[10];
+    for (int i = 0; i < 10; i++)
+        args[i] = pc->args[i] && strcmp(pc->args[i], "@") == 0 ? file : pc->args[i];
+    f->pid = spawn(args, f->out, f->fe);
+    f->sent = 0;
+    f->status = -2;
+    f->armed = 0.0;
+}
+
+/* Status 130/143, the one line on stderr, nothing on stdout, no file. */
+static void judge(const phase_case *pc, flight *f)
+{
+    double took = f->ended - f->signalled;
+    fprintf(stderr, "\n  %-36s exit %d, %.3f s after the signal", pc->what, f->status, took);
+    CU_ASSERT_EQUAL(f->status, pc->sig == SIGINT ? 130 : 143);
+    CU_ASSERT_TRUE(took < STOP_S);
+    char *err = br_test_slurp(f->err, NULL), *out = br_test_slurp(f->out, NULL);
+    CU_ASSERT_TRUE(err && strcmp(err, "bootrung: interrupted\n") == 0);
+    CU_ASSERT_TRUE(out && out[0] == '\0');
+    CU_ASSERT_EQUAL(entries(f->dir), 0);
+    free(err);
+    free(out);
+    close(f->fo);
+    close(f->fe);
+    unlink(f->out);
+    unlink(f->err);
+    rmdir(f->dir);
+}
+
+/* Every phase of every long verb stops on its signal within STOP_S: the
+ * runs go in parallel, each signalled at its own time.  A run that has
+ * not ended STOP_S plus a margin after its signal is killed and fails. */
+static void test_every_phase(void)
+{
+    flight f[NPHASES];
+    double t0 = now();
+    for (int i = 0; i < NPHASES; i++)
+        launch(&phases[i], &f[i]);
+    for (int left = NPHASES; left > 0;) {
+        for (int i = 0; i < NPHASES; i++) {
+            if (f[i].status != -2)
+                continue;
+            if (f[i].armed == 0.0 && catching(f[i].pid))
+                f[i].armed = now();
+            if (!f[i].sent && f[i].armed > 0.0 && now() - f[i].armed >= phases[i].after) {
+                f[i].sent = kill(f[i].pid, phases[i].sig) == 0;
+                f[i].signalled = now();
+            }
+            int ws;
+            if (waitpid(f[i].pid, &ws, WNOHANG) == f[i].pid) {
+                f[i].ended = now();
+                f[i].status = WIFEXITED(ws) ? WEXITSTATUS(ws) : -1;
+                if (!f[i].sent) /* ended before its signal: say so */
+                    f[i].signalled = f[i].ended;
+                left--;
+            } else if ((f[i].sent && now() - f[i].signalled > STOP_S + 10.0) ||
+                       (!f[i].sent && now() - t0 > 60.0)) { /* hung, or never caught */
+                kill(f[i].pid, SIGKILL);
+            }
+        }
+        usleep(2000);
+    }
+    for (int i = 0; i < NPHASES; i++)
+        judge(&phases[i], &f[i]);
 }
 
 /* --quiet: one line on stdout, the verdict; nothing on stderr. */
@@ -277,6 +433,19 @@ static void test_bar_on_terminal(void)
     free(tty);
 }
 
+/* The cold start of startup shows its bar too (the verb's results once
+ * wiped the hook that draws it before the run began). */
+static void test_startup_bar_on_terminal(void)
+{
+    const char *args[] = {"startup", SLOW_STARTUP, NULL};
+    int status;
+    char *tty = stopped_run(args, -1, 0.0, " % ", &status);
+    CU_ASSERT_EQUAL(status, 130);
+    CU_ASSERT_TRUE(has(tty, "\rstartup ["));
+    CU_ASSERT_TRUE(has(tty, " \rbootrung: interrupted\r\n"));
+    free(tty);
+}
+
 static void test_quiet_no_bar_on_terminal(void)
 {
     const char *args[] = {"map",    LEG,         "--duty",  "5%:95%:40",
@@ -293,10 +462,12 @@ int main(void)
     static const br_test_case cases[] = {
         {"SIGINT stops map: 130, no files", test_sigint_map},
         {"SIGTERM stops yield: 143, no files", test_sigterm_yield},
+        {"every phase of every verb stops on a signal", test_every_phase},
         {"--quiet prints the verdict line only", test_quiet},
         {"--quiet still writes the files", test_quiet_writes_files},
         {"no progress off a terminal", test_no_bar_off_terminal},
         {"a progress bar on a terminal", test_bar_on_terminal},
+        {"startup: a progress bar on a terminal", test_startup_bar_on_terminal},
         {"--quiet: no bar on a terminal", test_quiet_no_bar_on_terminal},
         {NULL, NULL},
     };

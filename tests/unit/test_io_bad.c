@@ -41,6 +41,8 @@ static const bad_case corpus[] = {
      "got '12' without a unit, expected a capacitance"},
     {"unit-missing-tolerance.xml", 5, "supply: voltage", "got '0.5' without a unit"},
     {"value-absurd.xml", 4, "operating-point: vin", "of at most 1 MV"},
+    {"vin-1e305.xml", 4, "operating-point: vin", "of at most 1 MV"},
+    {"cj0-twelve-farad.xml", 11, "diode d-fast: cj0", "of at most 1 F"},
     {"duty-range.xml", 4, "operating-point: duty", "strictly between 0 and 1"},
     {"duty-tolerance-range.xml", 4, "operating-point: duty", "lower limit"},
     {"dead-time-too-long.xml", 4, "operating-point: dead-time", "expected dead-time <"},

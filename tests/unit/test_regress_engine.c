@@ -95,12 +95,42 @@ static void test_map_hard_points(void)
     br_design_free(d);
 }
 
+/* Ideal 11 V clamps (rz = 0) on rails the links would charge higher: the
+ * shooting solver converges from its start estimate (which once put the
+ * rails above the clamps, where the links stay blocked and the period map
+ * is a translation with no fixed point nearby), and the scans' probe,
+ * which has no plain fallback, finds the design point's steady state. */
+static void test_ideal_clamp_shooting(void)
+{
+    br_design *d;
+    br_chain *c;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_design_load(BR_SOURCE_DIR "/tests/extreme/clamp-ideal.xml", &d, &err),
+                          BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    for (int dir = BR_DIRI_DOWN; dir <= BR_DIRI_UP; dir++) {
+        br_steady ss;
+        CU_ASSERT_EQUAL(br_steady_solve(c, dir, NULL, &ss, &err), BR_OK);
+        CU_ASSERT_TRUE(ss.converged);
+        CU_ASSERT_EQUAL(ss.method, BR_STEADY_SHOOTING);
+    }
+    br_probe *p;
+    CU_ASSERT_EQUAL_FATAL(br_probe_create(d, &p, &err), BR_OK);
+    br_hold_point hp;
+    CU_ASSERT_EQUAL(br_probe_eval(p, c->duty, c->fsw, &hp, &err), BR_OK);
+    CU_ASSERT_TRUE(isfinite(hp.margin));
+    br_probe_free(p);
+    br_chain_free(c);
+    br_design_free(d);
+}
+
 int main(void)
 {
     static const br_test_case cases[] = {
         {"a step lands on its interval end", test_interval_end_rounding},
         {"stored charge with a bypass capacitor", test_stored_charge_with_bypass},
         {"map points that used to stall", test_map_hard_points},
+        {"ideal clamps: shooting and the probe settle", test_ideal_clamp_shooting},
         {NULL, NULL}};
     return br_test_main("regress/engine", cases);
 }
