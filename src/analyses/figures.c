@@ -94,7 +94,7 @@ void br_steady_figures(const br_chain *c, const br_steady *ss, br_steady_figs *o
     out->ss = ss;
     out->n = c->n;
     out->bad_rail = -1;
-    if (ss->failed) {
+    if (!br_steady_has_period(ss)) {
         no_figures(c, out);
         return;
     }
@@ -498,7 +498,7 @@ static void unsettled_note(const br_chain *c, const br_steady_figs *f, char *not
 {
     const br_steady *ss = f->ss;
     int k = ss->resid_rail >= 0 && ss->resid_rail < c->n ? ss->resid_rail : 0;
-    if (ss->failed) {
+    if (ss->failed || ss->collapsed) {
         snprintf(note, cap, "current %s: %s", dir_word(ss->dir), ss->why);
     } else if (f->bad_rail >= 0) {
         const br_rail_fig *r = &f->rail[f->bad_rail];
@@ -539,7 +539,7 @@ static void unsettled(const br_chain *c, const br_steady_figs *f, br_verdict *v)
  * period agrees with itself. */
 static int trusted(const br_steady_figs *f)
 {
-    return !f->ss->failed && f->bad_rail < 0;
+    return !f->ss->failed && !f->ss->collapsed && f->bad_rail < 0;
 }
 
 /* The figures of a direction decide its rows: trusted, and either settled
@@ -557,23 +557,28 @@ static int usable(const br_steady_figs *f)
 static void steady_status(const br_steady_figs *figs, int ndir, br_verdict *out)
 {
     br_verdict_row *r = &out->row[BR_CRIT_STEADY];
-    int holds = 1, decided = 1;
-    r->figure = 0.0;
+    int holds = 1, decided = 1, collapsed = 0;
+    r->figure = -1.0; /* no direction with a period yet */
     for (int d = 0; d < ndir; d++) {
         const br_steady *ss = figs[d].ss;
         int ok = trusted(&figs[d]);
-        holds = holds && !(ok && !ss->holds);
+        collapsed |= ss->collapsed;
+        holds = holds && !(ok && !ss->holds) && !ss->collapsed;
         decided = decided && usable(&figs[d]);
         if (ok && isfinite(ss->drift) && ss->drift >= r->figure) {
             r->figure = ss->drift;
             r->dir = figs[d].dir;
         }
     }
+    if (r->figure < 0) { /* no period to read a drift from */
+        r->figure = NAN;
+        r->dir = BR_DIRI_NONE;
+    }
     r->limit = DRIFT_LIMIT;
     r->margin = NAN;
     r->applies = !holds || decided; /* an undetermined row is marked by unsettled() */
     r->pass = holds && decided;
-    if (!holds)
+    if (!holds && !collapsed) /* a collapse keeps the note unsettled() wrote */
         snprintf(r->note, sizeof r->note, "%s", "a driver drops out in the periodic steady state");
 }
 

@@ -97,7 +97,7 @@ typedef struct br_verdict_row {
     const char *unit;             /* "s", "V", "A", "" (a count) */
     int stage;                    /* binding rail/link, -1 when none */
     int dir;                      /* br_dir_index of the binding case */
-    char note[256];
+    char note[400];
 } br_verdict_row;
 
 typedef struct br_verdict {

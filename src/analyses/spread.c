@@ -611,7 +611,7 @@ static int judge(workspace *w, const job *jb, int i, br_error *err)
     int dirs[2], ndir = br_design_directions(&w->c, dirs);
     for (int d = 0; rc == BR_OK && d < ndir; d++) {
         rc = steady(w, jb, v, d, dirs[d], out, err);
-        if (rc == BR_OK && !w->ss[d].failed) /* a failed one has no figures at all */
+        if (rc == BR_OK && br_steady_has_period(&w->ss[d])) /* a failed one has no figures */
             rc = finite_state(&w->c, &w->ss[d], err);
         if (rc != BR_OK)
             break;

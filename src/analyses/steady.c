@@ -510,11 +510,34 @@ static int record_failure(br_steady *out, const double *x, br_error *err)
     out->holds = 1;
     out->resid_rail = -1;
     out->residual = out->drift = NAN;
-    snprintf(out->why, sizeof out->why, "the steady-state simulation failed: %.150s",
+    snprintf(out->why, sizeof out->why, "the steady-state simulation failed: %.280s",
              err->msg[0] ? err->msg : "numerical failure");
     memcpy(out->x, x, sizeof out->x);
     br_error_clear(err);
     return BR_OK;
+}
+
+/* The load current's ripple on the flying capacitors leaves some switch
+ * no blocking voltage: no steady state of the leg to look for.  Returns 1
+ * (and fills out) when so. */
+static int cells_collapse(const br_chain *c, const br_timing *tm, br_steady *out)
+{
+    if (out->dir < 0 || !(c->iload > 0))
+        return 0;
+    int k = -1;
+    double low = br_timing_cell_min(tm, c, (out->dir == BR_DIRI_UP ? 1.0 : -1.0) * c->iload, &k);
+    if (low > 0.0 || k < 0)
+        return 0;
+    out->collapsed = 1;
+    out->holds = 0;
+    out->resid_rail = -1;
+    out->residual = out->drift = NAN;
+    snprintf(out->why, sizeof out->why,
+             "the flying capacitors' ripple at %.4g A takes the voltage %s blocks down to %.3g V "
+             "of its %.4g V: the cells collapse and the leg cannot work (a larger cfly or a "
+             "higher fsw would hold them)",
+             c->iload, c->st[k].name, low, c->st[k].vblock);
+    return 1;
 }
 
 int br_steady_solve(const br_chain *c, int dir, const br_steady_opts *o, br_steady *out,
@@ -537,6 +560,10 @@ int br_steady_solve(const br_chain *c, int dir, const br_steady_opts *o, br_stea
     br_timing tm;
     br_timing_build(c, dir, &tm);
     sh.phase = out->phase = br_steady_quiet_phase(c, &tm);
+    if (cells_collapse(c, &tm, out)) {
+        br_sim_free(sh.sim);
+        return BR_OK;
+    }
     double x[NX], z[NX];
     if (o->guess)
         memcpy(x, o->guess, sizeof x);

@@ -30,10 +30,22 @@ typedef struct br_steady {
     int failed;      /* the simulation itself failed (why says how:
                         the integrator, the work limit): converged is
                         0 and the figures decide nothing */
-    char why[200];
+    int collapsed;   /* the flying capacitors' ripple at the load current
+                        takes a cell's blocking voltage to zero or below:
+                        the leg cannot work here (a failure of the design,
+                        not of the solver); nothing is simulated, why says
+                        where */
+    char why[320];
     double x[2 * BR_MAX_SWITCHES]; /* [k] rail k capacitor, [n + k] stored charge */
     br_stats stats;                /* over one period from x */
 } br_steady;
+
+/* 1 when ss simulated a period whose figures can be read: its
+ * simulation did not fail and the leg's cells did not collapse. */
+static inline int br_steady_has_period(const br_steady *ss)
+{
+    return !ss->failed && !ss->collapsed;
+}
 
 typedef struct br_steady_opts {
     double tol;          /* residual target, V (default 1e-5) */

@@ -629,7 +629,7 @@ static int holdups(const br_design *d, br_window *w, const br_progress *stop, br
     for (int i = 0; i < w->nholdup && rc == BR_OK; i++) {
         br_steady ss;
         rc = br_steady_solve(c, dirs[i], &so, &ss, err);
-        if (rc == BR_OK && ss.failed)
+        if (rc == BR_OK && !br_steady_has_period(&ss))
             rc = br_error_set(err, BR_ENUMERIC, NULL, 0, NULL, "hold-up: %s", ss.why);
         if (rc == BR_OK)
             rc = br_holdup_run(c, &ss, d->hold_on, 0.0, &w->holdup[i], err);

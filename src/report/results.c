@@ -120,7 +120,8 @@ static int run_steady(br_results *r, const br_steady_opts *so, br_text *csv, br_
             t = tr->steady[d] = br_trace_create(r->c->n);
         if (rc == BR_OK && tr && !t)
             rc = oom(err, "keeping the steady periods");
-        if (rc == BR_OK && (csv || t) && !r->ss[d].failed) /* a failed run has no period */
+        if (rc == BR_OK && (csv || t) &&
+            br_steady_has_period(&r->ss[d])) /* a failed run has no period */
             rc = steady_series(r->c, &r->ss[d], r->progress, csv, t, err);
         if (rc != BR_OK)
             return rc;

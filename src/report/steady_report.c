@@ -10,11 +10,19 @@
 
 /* ---- how it was found -------------------------------------------------- */
 
+/* Why a direction has no period to show, wrapped after lead (the
+ * line's start); ends the line. */
+static int no_period_line(const br_steady *ss, const char *lead, br_text *out)
+{
+    char text[400];
+    snprintf(text, sizeof text, "%s %s",
+             ss->collapsed ? "none (FAIL):" : "not found (UNDETERMINED):", ss->why);
+    return br_report_wrap(out, lead, text, 4);
+}
+
 static int method_line(const br_steady *ss, br_text *out)
 {
     char r[32], d[32];
-    if (ss->failed)
-        return br_text_printf(out, "not found (UNDETERMINED): %s", ss->why);
     br_fmt_si(r, sizeof r, ss->residual, 3, "V");
     br_fmt_si(d, sizeof d, ss->drift, 3, "V");
     if (ss->method == BR_STEADY_SHOOTING)
@@ -255,12 +263,14 @@ static int caps_table(const br_chain *c, const br_steady_figs *f, br_text *out)
 int br_steady_text(const br_chain *c, const br_steady_figs *f, br_text *out)
 {
     char a[32], b[32];
-    int rc = br_text_printf(out, "steady state, %s current\n  %s", br_dir_label(f->dir),
-                            f->ss->failed ? "" : "found by ");
+    int rc = br_text_printf(out, "steady state, %s current\n", br_dir_label(f->dir));
+    if (!br_steady_has_period(f->ss)) { /* no period to show figures of */
+        rc |= no_period_line(f->ss, "  ", out);
+        return rc ? BR_ENOMEM : BR_OK;
+    }
+    rc |= br_text_put(out, "  found by ");
     rc |= method_line(f->ss, out);
     rc |= br_text_put(out, "\n");
-    if (f->ss->failed) /* no period to show figures of */
-        return rc ? BR_ENOMEM : BR_OK;
     rc |= holds_line(f->ss, out);
     rc |= br_text_put(out, "rails (rail = capacitor + ESR; driver = supply after the regulator)\n");
     rc |= rails_table(c, f, out);
@@ -342,15 +352,19 @@ int br_steady_summary_text(const br_chain *c, const br_steady_figs *f, int ndir,
     int rc = br_text_printf(out, "steady state%s\n",
                             ndir > 1 ? " (worst case of both current directions)" : "");
     for (int d = 0; d < ndir; d++) {
-        rc |= br_text_printf(out, "  %s: ", br_dir_label(f[d].dir));
+        char lead[48];
+        snprintf(lead, sizeof lead, "  %s: ", br_dir_label(f[d].dir));
+        if (!br_steady_has_period(f[d].ss)) {
+            rc |= no_period_line(f[d].ss, lead, out);
+            continue;
+        }
+        rc |= br_text_put(out, lead);
         rc |= method_line(f[d].ss, out);
-        rc |= br_text_put(out, f[d].ss->failed  ? "\n"
-                               : f[d].ss->holds ? "; holds\n"
-                                                : "; DOES NOT HOLD\n");
+        rc |= br_text_put(out, f[d].ss->holds ? "; holds\n" : "; DOES NOT HOLD\n");
     }
     int any = 0; /* a direction with figures to show */
     for (int d = 0; d < ndir; d++)
-        any |= !f[d].ss->failed;
+        any |= br_steady_has_period(f[d].ss);
     if (!any)
         return rc ? BR_ENOMEM : BR_OK;
     rc |= summary_table(c, f, ndir, out);
@@ -422,12 +436,12 @@ void br_steady_xml(br_xmlw *w, const br_chain *c, const br_steady_figs *f)
     br_xmlw_int(w, "iterations", ss->iterations);
     br_xmlw_int(w, "periods", ss->periods);
     br_xmlw_num(w, "residual-V", ss->residual);
-    if (!ss->converged && !ss->failed)
+    if (!ss->converged && br_steady_has_period(ss))
         br_xmlw_int(w, "residual-rail", ss->resid_rail);
     br_xmlw_num(w, "drift-V", ss->drift);
     br_xmlw_num(w, "phase-s", ss->phase);
-    if (ss->failed) { /* no figures to trust */
-        br_xmlw_bool(w, "undetermined", 1);
+    if (!br_steady_has_period(ss)) { /* no figures to trust */
+        br_xmlw_bool(w, ss->collapsed ? "cells-collapse" : "undetermined", 1);
         br_xmlw_attr(w, "why", ss->why);
         br_xmlw_end(w);
         return;

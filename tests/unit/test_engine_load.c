@@ -2,6 +2,7 @@
  * its temperature law, reverse conduction with current, the flying
  * capacitors' ripple, the rails' shift, and when the load current flows.
  * Each check names its source beside it. */
+#include "analyses/figures.h"
 #include "analyses/rules.h"
 #include "analyses/startup.h"
 #include "analyses/steady.h"
@@ -281,8 +282,9 @@ static void test_ripple_reaches_the_diode(void)
 
 /* The same leg with 0.1 uF: the triangle is 25 V/A peak, 250 V at 10 A,
  * more than the 200 V a cell holds: the cells collapse (the lowest
- * blocking voltage 200 - 250 = -50 V).  The design rules say so, and the
- * simulator refuses to run such a period rather than report its rails. */
+ * blocking voltage 200 - 250 = -50 V).  The design rules say so, the
+ * simulator refuses to run such a period rather than report its rails, and
+ * the verdict fails the steady state. */
 static void test_ripple_collapse(void)
 {
     br_design *d = leg3(BR_DIR_STEP_UP, 10.0, 0.0, 0.0);
@@ -299,6 +301,20 @@ static void test_ripple_collapse(void)
     CU_ASSERT_EQUAL(br_sim_run_until(s, 1e-6, &err), BR_ENUMERIC);
     CU_ASSERT_STRING_EQUAL(err.field, "fcml: cfly");
     br_sim_free(s);
+    /* and the verdict: the leg cannot work, a failure, never undetermined
+     * (a solver matter) and never a pass */
+    br_steady ss;
+    CU_ASSERT_EQUAL_FATAL(br_steady_solve(c, BR_DIRI_UP, NULL, &ss, &err), BR_OK);
+    CU_ASSERT_TRUE(ss.collapsed && !ss.failed && !ss.holds);
+    CU_ASSERT_FALSE(br_steady_has_period(&ss));
+    br_steady_figs f;
+    br_steady_figures(c, &ss, &f);
+    br_verdict v;
+    br_verdict_make(c, NULL, &f, 1, &v);
+    const br_verdict_row *r = &v.row[BR_CRIT_STEADY];
+    CU_ASSERT_TRUE(r->applies && !r->pass && !r->undetermined);
+    CU_ASSERT_PTR_NOT_NULL(strstr(r->note, "cells collapse"));
+    CU_ASSERT_TRUE(v.nfail >= 1);
     br_chain_free(c);
     /* at 1 uF (175 V left) neither */
     d->cfly = br_qty_fixed(1e-6);
