@@ -65,6 +65,63 @@ static void link_figure(const br_chain *c, const br_link_stats *l, int k, double
     f->p_rr = l->e_rr / dt;
 }
 
+double br_rail_loss_sum(const br_rail_loss *r)
+{
+    return r->run + r->iso + r->standby + r->gate + r->regulator + r->clamp + r->esr;
+}
+
+double br_link_loss_sum(const br_link_loss *l)
+{
+    return l->cond + l->recovery + l->leakage + l->junction + l->resistor + l->sw;
+}
+
+/* The driver's running and isolator currents flow together while it
+ * runs: their energy splits in the ratio of the currents. */
+static void rail_loss(const br_stage *st, const br_rail_stats *r, double dt, br_rail_loss *out)
+{
+    double ion = st->drv.iq_on, iiso = st->drv.i_iso, both = ion + iiso;
+    out->run = both > 0 ? r->e_run * ion / both / dt : 0.0;
+    out->iso = both > 0 ? r->e_run * iiso / both / dt : 0.0;
+    out->standby = r->e_standby / dt;
+    out->gate = r->e_gate / dt;
+    out->regulator = (r->e_load - r->e_run - r->e_standby - r->e_gate) / dt;
+    out->clamp = r->e_clamp / dt;
+    out->esr = st->cap.esr * r->icap2 / dt;
+}
+
+static void link_loss(const br_link_stats *l, double dt, br_link_loss *out)
+{
+    out->cond = l->e_cond / dt;
+    out->recovery = l->e_rr / dt;
+    out->leakage = l->e_leak / dt;
+    out->junction = (l->e_other - l->e_leak) / dt;
+    out->resistor = l->e_res / dt;
+    out->sw = l->e_sw / dt;
+    out->stage = l->e_stage / dt;
+}
+
+void br_budget_make(const br_chain *c, const br_stats *st, br_budget *b)
+{
+    double dt = st->t1 - st->t0;
+    memset(b, 0, sizeof *b);
+    b->supply = st->esupply / dt;
+    b->rsupply = st->e_rsupply / dt;
+    b->stored = st->e_stored / dt;
+    b->losses = b->rsupply;
+    for (int k = 0; k < c->n; k++) {
+        rail_loss(&c->st[k], &st->rail[k], dt, &b->rail[k]);
+        if (k == 0)
+            b->rail[0].esr = 0.0; /* the supply rail: its resistance is the supply's */
+        b->losses += br_rail_loss_sum(&b->rail[k]);
+        if (k == 0)
+            continue;
+        link_loss(&st->link[k], dt, &b->link[k]);
+        b->losses += br_link_loss_sum(&b->link[k]);
+        b->stage -= b->link[k].stage;
+    }
+    b->balance = b->supply + b->stage - b->losses - b->stored;
+}
+
 int br_avg_within(double avg, double vmin, double vmax)
 {
     /* the extremes are taken at the integrator's points and the average
@@ -109,6 +166,10 @@ void br_steady_figures(const br_chain *c, const br_steady *ss, br_steady_figs *o
     }
     out->supply_iavg = ss->stats.qsupply / dt;
     out->supply_p = ss->stats.esupply / dt;
+    out->supply_ipeak = ss->stats.isup_peak;
+    out->supply_limited = ss->stats.t_limit / dt;
+    out->supply_stretch = ss->stats.lim_stretch;
+    br_budget_make(c, &ss->stats, &out->budget);
 }
 
 /* ---- verdict ------------------------------------------------------------- */

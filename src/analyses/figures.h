@@ -33,6 +33,46 @@ typedef struct br_link_fig {
     double p_cond, p_rr;      /* conduction and recovery power, W */
 } br_link_fig;
 
+/* Where the power of a rail goes over a steady period, W: its driver's
+ * running current, its isolator's and its standby (UVLO) current at the
+ * driver supply, its gate charge, the regulator between rail and driver
+ * (its own current and the drop across it), its clamp, and its
+ * capacitor's ESR. */
+typedef struct br_rail_loss {
+    double run, iso, standby, gate, regulator, clamp, esr;
+} br_rail_loss;
+
+/* Where the power of a link goes, W: its diode's conduction, recovery and
+ * leakage, the net of its junction capacitance, its resistor, and the
+ * share of its current in the return switch's resistance; `stage` is
+ * what the power stage takes from the chain through the link's return
+ * switch (negative: gives it, by leakage, recovery and reverse
+ * conduction), not a loss of the chain. */
+typedef struct br_link_loss {
+    double cond, recovery, leakage, junction, resistor, sw;
+    double stage;
+} br_link_loss;
+
+/* The power balance of a steady period, W: what the supply delivers (its
+ * open-circuit voltage times its current) and what the power stage gives
+ * the chain equal every loss plus the change of the energy stored in the
+ * rails (about 0 in a periodic state). */
+typedef struct br_budget {
+    double supply;  /* delivered by the supply */
+    double stage;   /* given by the power stage (minus the links' `stage`) */
+    double rsupply; /* lost in the supply's resistance */
+    double stored;  /* the rails' stored energy, end less start, over the period */
+    double losses;  /* every loss, rsupply included */
+    double balance; /* supply + stage - losses - stored: rounding and the
+                       integrator's error */
+    br_rail_loss rail[BR_MAX_SWITCHES];
+    br_link_loss link[BR_MAX_SWITCHES]; /* [k], k >= 1 */
+} br_budget;
+
+/* Rail k's and link k's total loss, W. */
+double br_rail_loss_sum(const br_rail_loss *r);
+double br_link_loss_sum(const br_link_loss *l);
+
 typedef struct br_steady_figs {
     int dir;             /* br_dir_index */
     const br_steady *ss; /* the steady state they come from */
@@ -41,6 +81,12 @@ typedef struct br_steady_figs {
     br_link_fig link[BR_MAX_SWITCHES]; /* [k], k >= 1 */
     double supply_iavg;                /* A */
     double supply_p;                   /* W */
+    double supply_ipeak;               /* A */
+    double supply_limited;             /* fraction of the period the supply spends in its
+                                          current limit */
+    double supply_stretch;             /* its longest stretch in the limit, s (the whole
+                                          period: in the limit throughout) */
+    br_budget budget;                  /* the power balance of the period */
     int bad_rail;                      /* the first rail whose average lies outside its minimum and
                                           maximum (the period's figures contradict each other, so
                                           they decide nothing), or -1 */
@@ -51,6 +97,9 @@ typedef struct br_steady_figs {
  * checked against each other: a rail's average must lie between its
  * minimum and maximum (bad_rail). */
 void br_steady_figures(const br_chain *c, const br_steady *ss, br_steady_figs *out);
+
+/* The power balance of the simulated stretch st of chain c. */
+void br_budget_make(const br_chain *c, const br_stats *st, br_budget *b);
 
 /* 1 when avg lies between vmin and vmax, up to rounding and the
  * integrator's tolerance. */
