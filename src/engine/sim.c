@@ -671,6 +671,11 @@ static void build_seg(br_sim *s, double ta, double tb)
         if (st->aux.kind == BR_AUX_ZENER && s->x[XI(k, F_VC)] > st->aux.vout - 0.5)
             g->zener = 1;
     }
+    if (br_sim_bypass(s) && !g->zener) { /* the closed form holds off the supply's limit */
+        double i0 = (s->n > 1 ? g->iblk[1] : 0.0) + g->iload[0], rs = c->rsupply;
+        double ia = (g->vs0 - s->x[XI(0, F_VC)]) / rs;
+        g->zener = br_sim_supply_needs_rk(s, ia, i0, g->vs0 - rs * i0);
+    }
 }
 
 /* The charge still stored in the diode of link k recovers: it flows back
