@@ -20,6 +20,8 @@ typedef struct br_rail_fig {
     double vcap_rating;        /* V (0: not given) */
     double icap_rms;           /* capacitor RMS current, A */
     double p_load;             /* power drawn from the rail by its loads, W */
+    double p_aux;              /* the rail's regulator or clamp dissipation, W (0: none) */
+    double tj_aux;             /* its junction temperature, K (NaN: no thermal resistance) */
 } br_rail_fig;
 
 typedef struct br_link_fig {
@@ -31,6 +33,12 @@ typedef struct br_link_fig {
     double qrr;               /* recovery charge per period, C */
     double irrm;              /* peak recovery current, A */
     double p_cond, p_rr;      /* conduction and recovery power, W */
+    double p_diode;           /* the diode's whole loss: conduction, recovery, leakage and
+                                 junction capacitance, W */
+    double tj;                /* junction temperature, K (the ambient without a thermal
+                                 resistance) */
+    int runaway;              /* no junction temperature balances its losses */
+    double onset_amb;         /* the ambient at which it would run away, K (HUGE_VAL: never) */
 } br_link_fig;
 
 /* Where the power of a rail goes over a steady period, W: its driver's
@@ -112,19 +120,28 @@ br_rail_fig br_rail_fig_worst(const br_steady_figs *f, int ndir, int k);
 
 /* One row of the verdict table. */
 typedef enum br_crit {
-    BR_CRIT_STARTUP = 0, /* every driver starts within the allowed time */
-    BR_CRIT_INRUSH,      /* link inrush within the diode's IFRM, IFSM and I2t ratings */
-    BR_CRIT_DROPOUTS,    /* start-up dropouts of any one stage within the design's
-                            limit (max-dropouts); without one, more than
-                            BR_DROPOUTS_WARN only warn */
-    BR_CRIT_STEADY,      /* a periodic steady state exists and holds (a status: its
-                            figure is the solver's drift, it has no margin) */
-    BR_CRIT_RESTART,     /* every rail stays above UVLO rising (restarts after a dropout) */
-    BR_CRIT_UVLO,        /* every driver stays above UVLO falling */
-    BR_CRIT_DRIVE,       /* every drive voltage above the minimum useful drive */
-    BR_CRIT_GATE,        /* no gate above its absolute maximum */
-    BR_CRIT_DIODE_VR,    /* reverse voltage within the derated diode rating */
-    BR_CRIT_CAP_V,       /* capacitor peak within its rating */
+    BR_CRIT_STARTUP = 0,  /* every driver starts within the allowed time */
+    BR_CRIT_INRUSH,       /* link inrush within the diode's IFRM, IFSM and I2t ratings */
+    BR_CRIT_DROPOUTS,     /* start-up dropouts of any one stage within the design's
+                             limit (max-dropouts); without one, more than
+                             BR_DROPOUTS_WARN only warn */
+    BR_CRIT_SUPPLY_START, /* the supply's peak current in the start-up within its rating */
+    BR_CRIT_STEADY,       /* a periodic steady state exists and holds (a status: its
+                             figure is the solver's drift, it has no margin) */
+    BR_CRIT_RESTART,      /* every rail stays above UVLO rising (restarts after a dropout) */
+    BR_CRIT_UVLO,         /* every driver stays above UVLO falling */
+    BR_CRIT_DRIVE,        /* every drive voltage above the minimum useful drive */
+    BR_CRIT_GATE,         /* no gate above its absolute maximum */
+    BR_CRIT_DIODE_VR,     /* reverse voltage within the derated diode rating */
+    BR_CRIT_CAP_V,        /* capacitor peak within its rating */
+    BR_CRIT_SUPPLY,       /* the supply's average current in steady state within its
+                             rating, and a hiccup supply not held in its limit */
+    BR_CRIT_HEADROOM,     /* every regulated rail above the regulator's output plus dropout */
+    BR_CRIT_AUX_POWER,    /* regulator and clamp dissipation within their ratings */
+    BR_CRIT_DIODE_IAVG,   /* diode average forward current within its rating */
+    BR_CRIT_CAP_RIPPLE,   /* capacitor RMS ripple current within its rating */
+    BR_CRIT_TJ,           /* junction temperatures within their maximum, and no thermal
+                             runaway (figure +inf, margin -inf: see br_crit_never) */
     BR_CRIT_COUNT
 } br_crit;
 
@@ -145,6 +162,7 @@ typedef struct br_verdict_row {
                                      start), see br_crit_never */
     const char *unit;             /* "s", "V", "A", "" (a count) */
     int stage;                    /* binding rail/link, -1 when none */
+    int aux;                      /* the binding part is rail `stage`'s regulator or clamp */
     int dir;                      /* br_dir_index of the binding case */
     char note[400];
 } br_verdict_row;
@@ -209,7 +227,8 @@ const char *br_crit_unit(int crit);
 int br_crit_is_startup(int crit);
 
 /* 1 when a figure (or margin) of criterion crit stands for a rail that
- * never starts rather than a time. */
+ * never starts rather than a time, or a junction that runs away rather
+ * than a temperature. */
 int br_crit_never(int crit, double value);
 
 /* The directions a design asks for: fills dirs (br_dir_index), returns

@@ -894,7 +894,7 @@ static int closed_form(br_sim *s, double tb, double *te)
     closed_budget(s, va, vb, dt);
     s->x[X_SQ] += isup * dt;
     s->x[X_SE] += isup * 0.5 * (vs_a + br_sim_supply_v(s, *te)) * dt;
-    s->isup = bp ? (g->vs0 - s->x[XI(0, F_VC)]) / s->c->rsupply : i0;
+    s->isup = s->il[0] = bp ? (g->vs0 - s->x[XI(0, F_VC)]) / s->c->rsupply : i0;
     s->sup_lim = 0; /* the closed form holds only off the limit */
     s->t = *te;
     return first;

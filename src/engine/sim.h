@@ -88,7 +88,8 @@ typedef struct br_sim_observer {
     void *ctx;
     /* each UVLO transition */
     void (*uvlo)(void *ctx, const br_uvlo_event *e);
-    /* samples of the rails (t, vrail[n], ilink[n]) at accepted steps;
+    /* samples of the rails (t, vrail[n], ilink[n]) at accepted steps
+     * (ilink[0] is the supply's current, through its resistance);
      * s is the simulator at that instant, for br_sim_vdrv and
      * br_sim_switch_v (the driver supplies and the diodes' reverse
      * voltages), or NULL when the samples come from elsewhere */

@@ -96,6 +96,7 @@ static double supply_current(br_sim *s, double t, const double *x, double iout)
         s->isup = br_sim_supply_bypass_i(s, supply_at(&s->seg, t), x[XI(0, F_VC)], NULL);
     else
         s->isup = iout + s->seg.iload[0];
+    s->il[0] = s->isup; /* link 0 does not exist: observers read the supply there */
     return s->isup;
 }
 
