@@ -490,6 +490,14 @@ int br_rule_describe(const br_chain *c, const br_rule_hit *h, br_text *out)
         return describe_implausible(c, h, out);
     case BR_RULE_PRECHARGE_IDLE:
         return describe_precharge(c, h, out);
+    case BR_RULE_CAP_DERATING:
+        return br_text_printf(out,
+                              "rail %d (%s) capacitor %s: a class II ceramic that may sit at up to "
+                              "%.4g V, above %.0f %% of its %.4g V rating (%.4g V); common "
+                              "practice keeps class II ceramics near half their rating, where "
+                              "they keep more of their capacitance and age less",
+                              h->stage, c->st[h->stage].name, h->part, h->figure,
+                              100.0 * c->cap_derating, c->st[h->stage].cap.vrated, h->limit);
     case BR_RULE_NO_WINDOW:
         return br_text_printf(out,
                               "link %d (rail %s): its return switch %s is never on, so the link "
