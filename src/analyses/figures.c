@@ -84,7 +84,9 @@ static void rail_loss(const br_stage *st, const br_rail_stats *r, double dt, br_
     out->iso = both > 0 ? r->e_run * iiso / both / dt : 0.0;
     out->standby = r->e_standby / dt;
     out->gate = r->e_gate / dt;
-    out->regulator = (r->e_load - r->e_run - r->e_standby - r->e_gate) / dt;
+    /* without a regulator the loads see the rail itself: nothing between */
+    out->regulator =
+        st->aux.kind == BR_AUX_LDO ? (r->e_load - r->e_run - r->e_standby - r->e_gate) / dt : 0.0;
     out->clamp = r->e_clamp / dt;
     out->esr = st->cap.esr * r->icap2 / dt;
 }
@@ -153,8 +155,10 @@ static void heat_figures(const br_chain *c, const br_steady *ss, br_steady_figs 
     for (int k = 0; k < c->n; k++) {
         const br_aux *a = &c->st[k].aux;
         br_rail_fig *r = &out->rail[k];
+        /* rail 0 is the supply: a clamp there is not modelled, a regulator is */
+        int modelled = a->kind == BR_AUX_LDO || (a->kind == BR_AUX_ZENER && k > 0);
         r->p_aux = b->rail[k].regulator + b->rail[k].clamp;
-        r->tj_aux = a->id && a->rth > 0 ? c->tamb + a->rth * fmax(r->p_aux, 0.0) : NAN;
+        r->tj_aux = modelled && a->rth > 0 ? c->tamb + a->rth * fmax(r->p_aux, 0.0) : NAN;
         if (k == 0)
             continue;
         const br_link_loss *l = &b->link[k];
@@ -218,7 +222,7 @@ static const char *const TITLES[BR_CRIT_COUNT] = {
     [BR_CRIT_STARTUP] = "every driver starts from cold",
     [BR_CRIT_INRUSH] = "link inrush within diode IFRM, IFSM, I2t",
     [BR_CRIT_DROPOUTS] = "start-up dropouts per stage within the limit",
-    [BR_CRIT_SUPPLY_START] = "start-up supply current within its rating",
+    [BR_CRIT_SUPPLY_START] = "supply start-up average within its rating",
     [BR_CRIT_STEADY] = "periodic steady state exists and holds",
     [BR_CRIT_RESTART] = "rails stay above UVLO rising (restart)",
     [BR_CRIT_UVLO] = "rails stay above UVLO falling",
@@ -226,9 +230,9 @@ static const char *const TITLES[BR_CRIT_COUNT] = {
     [BR_CRIT_GATE] = "gate voltage below its absolute maximum",
     [BR_CRIT_DIODE_VR] = "diode reverse voltage within derated rating",
     [BR_CRIT_CAP_V] = "capacitor voltage within its rating",
-    [BR_CRIT_SUPPLY] = "steady supply current within its rating",
+    [BR_CRIT_SUPPLY] = "steady average supply current within rating",
     [BR_CRIT_HEADROOM] = "regulated rails above output plus dropout",
-    [BR_CRIT_AUX_POWER] = "regulator and clamp dissipation within rating",
+    [BR_CRIT_AUX_POWER] = "regulator/clamp dissipation within rating",
     [BR_CRIT_DIODE_IAVG] = "diode average current within its rating",
     [BR_CRIT_CAP_RIPPLE] = "capacitor ripple current within its rating",
     [BR_CRIT_TJ] = "junction temperature within its maximum"};
@@ -400,11 +404,12 @@ static void inrush_row(const br_chain *c, const br_startup *su, br_verdict *v)
         inrush_note(c, used, &best, link, r);
 }
 
-/* A start-up the integrator could not finish decides none of its rows. */
-static void startup_failed(const br_startup *su, br_verdict *v)
+/* A start-up the integrator could not finish decides none of its rows
+ * (a row whose rating the design does not give stays not applicable). */
+static void startup_failed(const br_chain *c, const br_startup *su, br_verdict *v)
 {
     for (int i = 0; i < BR_CRIT_COUNT; i++) {
-        if (!br_crit_is_startup(i))
+        if (!br_crit_is_startup(i) || (i == BR_CRIT_SUPPLY_START && !(c->irating > 0)))
             continue;
         v->row[i].undetermined = 1;
         snprintf(v->row[i].note, sizeof v->row[i].note, "%.255s", su->why);
@@ -482,22 +487,25 @@ static void dropout_row(const br_chain *c, const br_startup *su, br_verdict_row 
 
 static const char *dir_word(int dir);
 
-/* The supply's peak current in the start-up against its rating. */
+/* What the start-up asks of the supply on average, against its rating:
+ * a supply gives its rated current for good, so a start-up that needs
+ * more on average works it above its rating (the peak is the current
+ * limit's business, or the supply's own when the design gives none). */
 static void supply_start_row(const br_chain *c, const br_startup *su, br_verdict_row *r)
 {
     const br_supply_profile *p = &su->supply;
     if (!(c->irating > 0))
         return;
-    consider(r, p->ipeak, c->irating, c->irating - p->ipeak, -1, su->dir);
+    consider(r, p->iavg, c->irating, c->irating - p->iavg, -1, su->dir);
     if (r->undetermined)
         return;
-    int n =
-        snprintf(r->note, sizeof r->note, "peak %.4g A, average %.4g A over %.4g ms, %.4g mC drawn",
-                 p->ipeak, p->iavg, p->span * 1e3, p->charge * 1e3);
-    if (c->limit_mode == BR_SUPPLY_UNLIMITED && p->ipeak > c->irating)
+    int n = snprintf(r->note, sizeof r->note,
+                     "average %.4g A over the %.4g ms start-up (%.4g mC), peak %.4g A", p->iavg,
+                     p->span * 1e3, p->charge * 1e3, p->ipeak);
+    if (c->limit_mode == BR_SUPPLY_UNLIMITED)
         snprintf(r->note + n, sizeof r->note - (size_t)n,
-                 "; the supply is taken to give any current (no current-limit given): a real "
-                 "one limits above its rating, so give its current-limit to simulate that");
+                 "; the supply is taken to give any current (no current-limit given): give its "
+                 "current-limit to simulate what it does at its limit");
     else if (p->t_limit > 0)
         snprintf(r->note + n, sizeof r->note - (size_t)n, "; %.4g ms in its current limit%s",
                  p->t_limit * 1e3, p->trips ? ", with hiccups" : "");
@@ -507,7 +515,7 @@ static void startup_rows(const br_chain *c, const br_startup *su, br_verdict *v)
 {
     br_verdict_row *r = &v->row[BR_CRIT_STARTUP];
     if (su->failed) {
-        startup_failed(su, v);
+        startup_failed(c, su, v);
         return;
     }
     if (su->complete) {
@@ -547,7 +555,7 @@ static void rating_rows(const br_chain *c, const br_steady_figs *f, int k, br_ve
         double need = st->aux.vout + st->aux.dropout;
         consider(&v->row[BR_CRIT_HEADROOM], rf->vmin, need, rf->vmin - need, k, f->dir);
     }
-    if (st->aux.id && st->aux.pmax > 0)
+    if ((st->aux.kind == BR_AUX_LDO || (st->aux.kind == BR_AUX_ZENER && k > 0)) && st->aux.pmax > 0)
         consider(&v->row[BR_CRIT_AUX_POWER], rf->p_aux, st->aux.pmax, st->aux.pmax - rf->p_aux, k,
                  f->dir);
     if (k == 0)

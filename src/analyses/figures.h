@@ -125,7 +125,8 @@ typedef enum br_crit {
     BR_CRIT_DROPOUTS,     /* start-up dropouts of any one stage within the design's
                              limit (max-dropouts); without one, more than
                              BR_DROPOUTS_WARN only warn */
-    BR_CRIT_SUPPLY_START, /* the supply's peak current in the start-up within its rating */
+    BR_CRIT_SUPPLY_START, /* the supply's average current over the start-up within its
+                             rating */
     BR_CRIT_STEADY,       /* a periodic steady state exists and holds (a status: its
                              figure is the solver's drift, it has no margin) */
     BR_CRIT_RESTART,      /* every rail stays above UVLO rising (restarts after a dropout) */

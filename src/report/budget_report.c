@@ -160,6 +160,8 @@ static int heat_lines(const br_chain *c, const br_steady_figs *f, br_text *out)
         if (k == 0 || !(c->st[k].diode.rth > 0))
             continue;
         const br_link_fig *l = &f->link[k];
+        if (f->ss->thermal && !f->ss->thermal_settled)
+            continue; /* the verdict says why */
         if (l->runaway)
             rc |=
                 br_text_printf(out, "  link %d (%s) RUNS AWAY at %.1f C ambient (from %.1f C up)\n",
@@ -226,12 +228,17 @@ static int summary_line(const br_chain *c, const br_steady_figs *f, br_text *out
                      1e3 * k.gate, 1e3 * k.aux, 1e3 * k.diode, 1e3 * k.resistor, 1e3 * k.sw,
                      1e3 * k.esr, 1e3 * b->rsupply);
     int h = hottest(c, f);
-    if (h > 0 && f->link[h].runaway)
+    if (h > 0 && f->ss->thermal && !f->ss->thermal_settled)
+        snprintf(text + n, sizeof text - (size_t)n, "; junction temperatures NOT settled");
+    else if (h > 0 && f->link[h].runaway)
         snprintf(text + n, sizeof text - (size_t)n, "; link %s RUNS AWAY", c->st[h].name);
-    else if (h > 0)
+    else if (h > 0 && isfinite(f->link[h].onset_amb))
         snprintf(text + n, sizeof text - (size_t)n,
                  "; hottest diode link %s at %.1f C (runaway from %.1f C ambient)", c->st[h].name,
                  f->link[h].tj - KELVIN, f->link[h].onset_amb - KELVIN);
+    else if (h > 0)
+        snprintf(text + n, sizeof text - (size_t)n, "; hottest diode link %s at %.1f C",
+                 c->st[h].name, f->link[h].tj - KELVIN);
     snprintf(lead, sizeof lead, "  %s: ", br_dir_label(f->dir));
     return br_report_wrap(out, lead, text, 4);
 }

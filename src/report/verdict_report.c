@@ -67,7 +67,7 @@ static void value_cell(br_table *t, int col, const br_verdict_row *r, double v)
     if (!r->applies || (col == C_MARGIN && br_crit_never(r->crit, v)))
         br_table_set(t, col, "-");
     else if (r->crit == BR_CRIT_TJ && col != C_MARGIN && isfinite(v))
-        br_table_set(t, col, "%.1f C", v - 273.15);
+        br_table_set(t, col, "%.4g C", v - 273.15);
     else
         br_table_set(t, col, "%s", br_crit_fmt(b, sizeof b, r->crit, v));
 }

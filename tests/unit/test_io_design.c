@@ -163,7 +163,7 @@ static void test_demo_stages(void)
     CU_ASSERT_EQUAL(br_design_stage(d, 2)->cap, 0);
     CU_ASSERT_EQUAL(d->nprecharge, 1);
     CU_ASSERT_EQUAL(d->precharge[0].mask, 0x3ULL); /* B1 B2 */
-    BR_ASSERT_REL(d->precharge[0].duration, 200e-6, 1e-12);
+    BR_ASSERT_REL(d->precharge[0].duration, 1.6e-3, 1e-12);
     BR_ASSERT_REL(d->min_drive.nom, 10.0, 1e-12);
     BR_ASSERT_REL(d->derating.nom, 0.8, 1e-12);
     BR_ASSERT_REL(d->startup_max.nom, 5e-3, 1e-12);
@@ -201,6 +201,14 @@ static void test_leg7(void)
     CU_ASSERT_EQUAL(br_design_stage(d, 11)->cap, 0);
     CU_ASSERT_EQUAL(d->precharge[0].mask, 0x3FULL); /* B1..B6 */
     CU_ASSERT_EQUAL(d->caps[0].nbias, 6);
+    /* the supply's limit, the diodes' and regulators' heat, the
+     * capacitors' temperature table */
+    CU_ASSERT_EQUAL(d->limit_mode, BR_SUPPLY_HICCUP);
+    BR_ASSERT_REL(d->ilimit.nom, 0.8, 1e-12);
+    BR_ASSERT_REL(d->irating.nom, 1.0, 1e-12);
+    BR_ASSERT_REL(d->diodes[0].rth.nom, 200.0, 1e-12);
+    BR_ASSERT_REL(d->aux[0].pmax.nom, 0.25, 1e-12);
+    CU_ASSERT_EQUAL(d->caps[0].ntemp, 3);
     br_design_free(d);
 }
 
@@ -710,7 +718,7 @@ static void test_lines(void)
     CU_ASSERT_EQUAL(d->deadtime.line, line_of(f, "dead-time="));
     CU_ASSERT_EQUAL(d->overshoot.line, line_of(f, "overshoot="));
     CU_ASSERT_EQUAL(d->caps[0].aging.line, line_of(f, "aging="));
-    CU_ASSERT_EQUAL(d->caps[0].line, line_of(f, "<capacitor id=\"x5r-10u-25v\""));
+    CU_ASSERT_EQUAL(d->caps[0].line, line_of(f, "<capacitor id=\"x5r-10u-35v\""));
     CU_ASSERT_EQUAL(d->diodes[1].ifsm.line, line_of(f, "ifsm=\"80 A\""));
     CU_ASSERT_EQUAL(d->diodes[1].ifrm.line, line_of(f, "ifrm=\"20 A\""));
     BR_ASSERT_REL(d->diodes[1].ifrm.nom, 20.0, 1e-12);
