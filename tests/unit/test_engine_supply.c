@@ -8,6 +8,7 @@
 
 #include <math.h>
 #include <stdio.h>
+#include <stdlib.h>
 
 /* A 3-level leg (four switches, three links) that draws nothing: no
  * driver currents, no gate charge, no leakage, near-ideal links (Is =
@@ -170,6 +171,50 @@ static void test_soft_start(void)
     br_design_free(d);
 }
 
+/* The fast path against GSL's rk8pd at 1e-10 through a constant-current
+ * start-up: the limit bends the supply current where it engages and
+ * lets go, which both paths must follow.  The test design's own links
+ * (Is 0.1 uA, n 1.5, 0.5 ohm and 1 ohm) on the no-load leg, drivers from
+ * 1.5 V: every rail within 0.5 mV at the end of each period of the first
+ * 2 ms (the bypass charging at the limit, then the rails filling one by
+ * one while the supply stays at it). */
+static void test_limit_vs_reference(void)
+{
+    br_design *d = br_test_fcml(3, 400.0, 100e3, 0.5, 50e-9);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(d);
+    d->drivers[0].iq_on = d->drivers[0].iq_off = br_qty_fixed(0.0);
+    d->drivers[0].uvlo_rise = br_qty_fixed(1.5);
+    d->drivers[0].uvlo_fall = br_qty_fixed(1.0);
+    d->switches[0].qg = br_qty_fixed(0.0);
+    d->csupply = br_qty_fixed(22e-6);
+    d->limit_mode = BR_SUPPLY_CONSTANT;
+    d->ilimit = br_qty_fixed(50e-3);
+    br_chain *c = build(d);
+    br_sim *sf, *sg;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_sim_create(c, BR_DIRI_NONE, BR_INTEG_FAST, &sf, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_sim_create(c, BR_DIRI_NONE, BR_INTEG_REFERENCE, &sg, &err), BR_OK);
+    double worst = 0.0;
+    for (int p = 1; p <= 200; p++) {
+        CU_ASSERT_EQUAL_FATAL(br_sim_run_until(sf, p * c->T, &err), BR_OK);
+        CU_ASSERT_EQUAL_FATAL(br_sim_run_until(sg, p * c->T, &err), BR_OK);
+        double vf[BR_MAX_SWITCHES], vg[BR_MAX_SWITCHES];
+        br_sim_vc(sf, vf);
+        br_sim_vc(sg, vg);
+        for (int k = 0; k < c->n; k++)
+            worst = fmax(worst, fabs(vf[k] - vg[k]));
+    }
+    fprintf(stderr, " (%.3g mV) ", 1e3 * worst);
+    CU_ASSERT_TRUE(worst <= 5e-4);
+    int limited;
+    br_sim_supply_current(sf, &limited);
+    CU_ASSERT_TRUE(limited && br_sim_enabled(sf, 3)); /* at the limit, the chain started */
+    br_sim_free(sf);
+    br_sim_free(sg);
+    br_chain_free(c);
+    br_design_free(d);
+}
+
 int main(void)
 {
     static const br_test_case cases[] = {
@@ -178,6 +223,7 @@ int main(void)
         {"fold-back against its closed form", test_foldback_closed_form},
         {"hiccup: delay, off time, retries", test_hiccup_retries},
         {"soft-start", test_soft_start},
+        {"the limit against rk8pd", test_limit_vs_reference},
         {NULL, NULL},
     };
     return br_test_main("engine_supply", cases);

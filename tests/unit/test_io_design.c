@@ -204,8 +204,8 @@ static void test_leg7(void)
     /* the supply's limit, the diodes' and regulators' heat, the
      * capacitors' temperature table */
     CU_ASSERT_EQUAL(d->limit_mode, BR_SUPPLY_HICCUP);
-    BR_ASSERT_REL(d->ilimit.nom, 0.8, 1e-12);
-    BR_ASSERT_REL(d->irating.nom, 1.0, 1e-12);
+    BR_ASSERT_REL(d->ilimit.nom, 1.5, 1e-12);
+    BR_ASSERT_REL(d->irating.nom, 2.0, 1e-12);
     BR_ASSERT_REL(d->diodes[0].rth.nom, 200.0, 1e-12);
     BR_ASSERT_REL(d->aux[0].pmax.nom, 0.25, 1e-12);
     CU_ASSERT_EQUAL(d->caps[0].ntemp, 3);
