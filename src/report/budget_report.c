@@ -11,8 +11,8 @@
 
 #define KELVIN 273.15
 
-enum { R_STAGE, R_SWITCH, R_RUN, R_ISO, R_STANDBY, R_GATE, R_AUX, R_ESR, R_TOTAL, R_NCOL };
-enum { L_LINK, L_SWITCH, L_COND, L_RR, L_LEAK, L_JCT, L_RES, L_SW, L_TOTAL, L_TJ, L_NCOL };
+enum { R_STAGE, R_SWITCH, R_RUN, R_ISO, R_STANDBY, R_GATE, R_AUX, R_ESR, R_TOTAL, R_TJ, R_NCOL };
+enum { L_LINK, L_SWITCH, L_COND, L_RR, L_LEAK, L_JCT, L_RES, L_SW, L_TOTAL, L_TJ, L_ONSET, L_NCOL };
 
 void br_budget_kinds_of(const br_chain *c, const br_budget *b, br_budget_kinds *o)
 {
@@ -74,17 +74,17 @@ static int render(br_table *t, br_text *out)
     return rc;
 }
 
-static int rails_table(const br_chain *c, const br_budget *b, const br_scale *sc, br_text *out)
+static int rails_table(const br_chain *c, const br_steady_figs *f, const br_scale *sc, br_text *out)
 {
     br_table *t = named_table(R_NCOL, c->n, "stage");
     if (!t)
         return BR_ENOMEM;
     static const char *const heads[] = {"driver",    "isolator", "standby", "gate",
-                                        "reg/clamp", "ESR",      "total"};
+                                        "reg/clamp", "ESR",      "total",   "its Tj C"};
     for (int col = R_RUN; col < R_NCOL; col++)
         head(t, col, heads[col - R_RUN]);
     for (int k = 0; k < c->n; k++) {
-        const br_rail_loss *r = &b->rail[k];
+        const br_rail_loss *r = &f->budget.rail[k];
         br_table_row(t);
         br_table_set(t, R_STAGE, "%d", k);
         br_table_set(t, R_SWITCH, "%s", c->st[k].name);
@@ -92,20 +92,30 @@ static int rails_table(const br_chain *c, const br_budget *b, const br_scale *sc
         for (int col = R_RUN; col < R_TOTAL; col++)
             cell(t, col, v[col - R_RUN], sc);
         cell(t, R_TOTAL, br_rail_loss_sum(r), sc);
+        if (isfinite(f->rail[k].tj_aux))
+            br_table_set(t, R_TJ, "%.1f", f->rail[k].tj_aux - KELVIN);
+        else
+            br_table_set(t, R_TJ, "-");
     }
     return render(t, out);
 }
 
-/* A link's junction temperature in degrees Celsius, "runaway", or "-"
- * when no thermal resistance heats it above the ambient. */
+/* A link's junction temperature in degrees Celsius, "RUNAWAY", or "-"
+ * when no thermal resistance heats it above the ambient; and the ambient
+ * from which it would run away. */
 static void tj_cell(br_table *t, const br_chain *c, const br_link_fig *l, int k)
 {
-    if (!(c->st[k].diode.rth > 0))
+    int heats = c->st[k].diode.rth > 0;
+    if (!heats)
         br_table_set(t, L_TJ, "-");
     else if (l->runaway)
-        br_table_set(t, L_TJ, "runaway");
+        br_table_set(t, L_TJ, "RUNAWAY");
     else
         br_table_set(t, L_TJ, "%.1f", l->tj - KELVIN);
+    if (heats && isfinite(l->onset_amb))
+        br_table_set(t, L_ONSET, "%.1f", l->onset_amb - KELVIN);
+    else
+        br_table_set(t, L_ONSET, "-");
 }
 
 static int links_table(const br_chain *c, const br_steady_figs *f, const br_scale *sc, br_text *out)
@@ -113,8 +123,8 @@ static int links_table(const br_chain *c, const br_steady_figs *f, const br_scal
     br_table *t = named_table(L_NCOL, c->n, "link");
     if (!t)
         return BR_ENOMEM;
-    static const char *const heads[] = {"conduction", "recovery", "leakage", "junction",
-                                        "resistor",   "switch",   "total",   "Tj C"};
+    static const char *const heads[] = {"conduction", "recovery", "leakage", "junction", "resistor",
+                                        "switch",     "total",    "Tj C",    "runaway C"};
     for (int col = L_COND; col < L_NCOL; col++)
         head(t, col, heads[col - L_COND]);
     for (int k = 1; k < c->n; k++) {
@@ -145,33 +155,18 @@ static int balance_line(const br_budget *b, br_text *out)
     return br_report_wrap(out, "  power: ", text, 4);
 }
 
-/* Regulators and clamps with a thermal resistance, and the links' runaway
- * margin: the ambient at which each would run away. */
+/* A link that runs away, said in words. */
 static int heat_lines(const br_chain *c, const br_steady_figs *f, br_text *out)
 {
     int rc = BR_OK;
-    for (int k = 0; k < c->n; k++) {
-        const br_aux *a = &c->st[k].aux;
-        if (isfinite(f->rail[k].tj_aux))
-            rc |=
-                br_text_printf(out, "  %s %s on rail %s: %.1f mW, junction %.1f C behind %g K/W\n",
-                               a->kind == BR_AUX_LDO ? "regulator" : "clamp", a->id, c->st[k].name,
-                               1e3 * f->rail[k].p_aux, f->rail[k].tj_aux - KELVIN, a->rth);
-        if (k == 0 || !(c->st[k].diode.rth > 0))
-            continue;
+    for (int k = 1; k < c->n; k++) {
         const br_link_fig *l = &f->link[k];
-        if (f->ss->thermal && !f->ss->thermal_settled)
-            continue; /* the verdict says why */
-        if (l->runaway)
-            rc |=
-                br_text_printf(out, "  link %d (%s) RUNS AWAY at %.1f C ambient (from %.1f C up)\n",
-                               k, c->st[k].name, c->tamb - KELVIN, l->onset_amb - KELVIN);
-        else if (isfinite(l->onset_amb))
-            rc |= br_text_printf(out,
-                                 "  link %d (%s): %.1f mW at %.1f C; it would run away from an "
-                                 "ambient of %.1f C up\n",
-                                 k, c->st[k].name, 1e3 * l->p_diode, l->tj - KELVIN,
-                                 l->onset_amb - KELVIN);
+        if (!(c->st[k].diode.rth > 0) || !l->runaway)
+            continue;
+        rc |= br_text_printf(out,
+                             "  link %d (%s) RUNS AWAY at %.1f C ambient: no junction temperature "
+                             "balances its losses (from %.1f C up)\n",
+                             k, c->st[k].name, c->tamb - KELVIN, l->onset_amb - KELVIN);
     }
     return rc;
 }
@@ -184,13 +179,14 @@ int br_budget_text(const br_chain *c, const br_steady_figs *f, br_text *out)
     snprintf(lead, sizeof lead, "losses of the rails, %s ", sc.unit);
     int rc = br_report_wrap(out, lead,
                             "(driver: running and standby current; isolator; gate charge; "
-                            "regulator or clamp; capacitor ESR)",
+                            "regulator or clamp, and its junction temperature; capacitor ESR)",
                             2);
-    rc |= rails_table(c, b, &sc, out);
+    rc |= rails_table(c, f, &sc, out);
     snprintf(lead, sizeof lead, "losses of the links, %s ", sc.unit);
     rc |= br_report_wrap(out, lead,
                          "(diode: conduction, recovery, leakage, junction capacitance; resistor; "
-                         "return switch), and the diode's junction temperature",
+                         "return switch), the diode's junction temperature and the ambient from "
+                         "which it would run away thermally",
                          2);
     rc |= links_table(c, f, &sc, out);
     rc |= balance_line(b, out);

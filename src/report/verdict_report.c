@@ -45,7 +45,7 @@ const char *br_crit_fmt(char *buf, size_t cap, int crit, double v)
     return buf;
 }
 
-/* "rail A1", "link B4", "reg A1" (the rail's regulator or clamp), or "-"
+/* "rail A1", "link B4", "reg A1" or "zen A1" (the rail's regulator or Zener clamp), or "-"
  * when no stage binds. */
 static void where(const br_chain *c, const br_verdict_row *r, char *buf, size_t cap)
 {
@@ -53,7 +53,7 @@ static void where(const br_chain *c, const br_verdict_row *r, char *buf, size_t 
         snprintf(buf, cap, "-");
     else
         snprintf(buf, cap, "%s %s",
-                 r->aux ? (c->st[r->stage].aux.kind == BR_AUX_LDO ? "reg" : "clamp")
+                 r->aux                  ? (c->st[r->stage].aux.kind == BR_AUX_LDO ? "reg" : "zen")
                  : is_link_crit(r->crit) ? "link"
                                          : "rail",
                  c->st[r->stage].name);
