@@ -65,7 +65,8 @@ static int stretch_text(const br_chain *c, const br_supply_window *w, int ans, b
     int rc = BR_OK;
     br_fmt_si(v, sizeof v, r->value, DIGITS, unit_of(ans));
     if (isfinite(r->enter)) {
-        rc |= br_text_put(t, "the design's value fails (");
+        rc |= br_text_put(t, ans == BR_SW_LIMIT ? "the highest value searched fails ("
+                                                : "the design's value fails (");
         rc |= failure_text(c, w, ans, &r->pt[0], t);
         rc |= br_text_printf(t, "); values pass from %s",
                              br_fmt_si(e, sizeof e, r->enter, DIGITS, unit_of(ans)));
@@ -129,10 +130,13 @@ static int corners_text(const br_supply_window *w, br_text *out)
 
 static int verdict_line(const br_chain *c, const br_supply_window *w, br_text *out)
 {
-    char v[32], lim[160];
+    char v[32], lim[40];
     int o = br_supply_window_outcome(w);
     br_fmt_si(v, sizeof v, c->vsupply, 4, "V");
-    br_supply_limit_words(c, lim, sizeof lim);
+    if (c->limit_mode == BR_SUPPLY_UNLIMITED)
+        snprintf(lim, sizeof lim, "none");
+    else
+        br_fmt_si(lim, sizeof lim, c->ilimit, 4, "A");
     return br_text_printf(out, "verdict: %s at the design's own supply (%s, current limit %s)\n",
                           o == BR_OUTCOME_PASS   ? "PASS"
                           : o == BR_OUTCOME_FAIL ? "FAIL"
