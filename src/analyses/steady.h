@@ -54,7 +54,7 @@ typedef struct br_steady {
 /* Passes of the junction-temperature loop, and how little they must move
  * the temperatures at the end. */
 #define BR_THERMAL_PASSES 10
-#define BR_THERMAL_TOL 0.01 /* K */
+#define BR_THERMAL_TOL 0.05 /* K */
 
 /* 1 when ss simulated a period whose figures can be read: its
  * simulation did not fail and the leg's cells did not collapse. */

@@ -140,7 +140,10 @@ static void test_steady_loop(void)
                     &oa);
         CU_ASSERT_FALSE(ru);
         CU_ASSERT_FALSE(ss.runaway[k]);
-        BR_ASSERT_NEAR(tj, t, 0.02); /* the loop's tolerance, 0.01 K, and a pass */
+        /* the last period ran within the loop's 0.05 K of the temperature
+         * reported, so the leakage read back here at tj is off by up to
+         * 0.35 % (a 0.05 K): a few mK */
+        BR_ASSERT_NEAR(tj, t, 0.02);
         CU_ASSERT_TRUE(tj > c->tamb + 1.0);
         BR_ASSERT_NEAR(w, 300.0 * 0.5, 0.1 * 300.0); /* ~Vin/2 blocked half the time */
     }
