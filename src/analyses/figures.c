@@ -65,6 +65,65 @@ static void link_figure(const br_chain *c, const br_link_stats *l, int k, double
     f->p_rr = l->e_rr / dt;
 }
 
+double br_rail_loss_sum(const br_rail_loss *r)
+{
+    return r->run + r->iso + r->standby + r->gate + r->regulator + r->clamp + r->esr;
+}
+
+double br_link_loss_sum(const br_link_loss *l)
+{
+    return l->cond + l->recovery + l->leakage + l->junction + l->resistor + l->sw;
+}
+
+/* The driver's running and isolator currents flow together while it
+ * runs: their energy splits in the ratio of the currents. */
+static void rail_loss(const br_stage *st, const br_rail_stats *r, double dt, br_rail_loss *out)
+{
+    double ion = st->drv.iq_on, iiso = st->drv.i_iso, both = ion + iiso;
+    out->run = both > 0 ? r->e_run * ion / both / dt : 0.0;
+    out->iso = both > 0 ? r->e_run * iiso / both / dt : 0.0;
+    out->standby = r->e_standby / dt;
+    out->gate = r->e_gate / dt;
+    /* without a regulator the loads see the rail itself: nothing between */
+    out->regulator =
+        st->aux.kind == BR_AUX_LDO ? (r->e_load - r->e_run - r->e_standby - r->e_gate) / dt : 0.0;
+    out->clamp = r->e_clamp / dt;
+    out->esr = st->cap.esr * r->icap2 / dt;
+}
+
+static void link_loss(const br_link_stats *l, double dt, br_link_loss *out)
+{
+    out->cond = l->e_cond / dt;
+    out->recovery = l->e_rr / dt;
+    out->leakage = l->e_leak / dt;
+    out->junction = (l->e_other - l->e_leak) / dt;
+    out->resistor = l->e_res / dt;
+    out->sw = l->e_sw / dt;
+    out->stage = l->e_stage / dt;
+}
+
+void br_budget_make(const br_chain *c, const br_stats *st, br_budget *b)
+{
+    double dt = st->t1 - st->t0;
+    memset(b, 0, sizeof *b);
+    b->supply = st->esupply / dt;
+    b->rsupply = st->e_rsupply / dt;
+    b->stored = st->e_stored / dt;
+    b->losses = b->rsupply;
+    for (int k = 0; k < c->n; k++) {
+        rail_loss(&c->st[k], &st->rail[k], dt, &b->rail[k]);
+        if (k == 0)
+            b->rail[0].esr = 0.0; /* the supply rail: its resistance is the supply's */
+        b->losses += br_rail_loss_sum(&b->rail[k]);
+        if (k == 0)
+            continue;
+        link_loss(&st->link[k], dt, &b->link[k]);
+        b->losses += br_link_loss_sum(&b->link[k]);
+        b->stage -= b->link[k].stage;
+    }
+    b->balance = b->supply + b->stage - b->losses - b->stored;
+}
+
 int br_avg_within(double avg, double vmin, double vmax)
 {
     /* the extremes are taken at the integrator's points and the average
@@ -83,8 +142,32 @@ static void no_figures(const br_chain *c, br_steady_figs *out)
             r[i] = NAN;
         for (size_t i = 0; k > 0 && i < sizeof out->link[k] / sizeof(double); i++)
             l[i] = NAN;
+        out->link[k].runaway = 0;
     }
-    out->supply_iavg = out->supply_p = NAN;
+    out->supply_iavg = out->supply_p = out->supply_ipeak = NAN;
+    out->supply_limited = out->supply_stretch = NAN;
+}
+
+/* Dissipation and temperature of every regulator, clamp and link diode. */
+static void heat_figures(const br_chain *c, const br_steady *ss, br_steady_figs *out)
+{
+    const br_budget *b = &out->budget;
+    for (int k = 0; k < c->n; k++) {
+        const br_aux *a = &c->st[k].aux;
+        br_rail_fig *r = &out->rail[k];
+        /* rail 0 is the supply: a clamp there is not modelled, a regulator is */
+        int modelled = a->kind == BR_AUX_LDO || (a->kind == BR_AUX_ZENER && k > 0);
+        r->p_aux = b->rail[k].regulator + b->rail[k].clamp;
+        r->tj_aux = modelled && a->rth > 0 ? c->tamb + a->rth * fmax(r->p_aux, 0.0) : NAN;
+        if (k == 0)
+            continue;
+        const br_link_loss *l = &b->link[k];
+        br_link_fig *f = &out->link[k];
+        f->p_diode = l->cond + l->recovery + l->leakage + l->junction;
+        f->tj = ss->thermal ? ss->tj[k] : c->st[k].diode.tj;
+        f->runaway = ss->thermal ? ss->runaway[k] : 0;
+        f->onset_amb = ss->thermal ? ss->onset_amb[k] : HUGE_VAL;
+    }
 }
 
 void br_steady_figures(const br_chain *c, const br_steady *ss, br_steady_figs *out)
@@ -109,6 +192,11 @@ void br_steady_figures(const br_chain *c, const br_steady *ss, br_steady_figs *o
     }
     out->supply_iavg = ss->stats.qsupply / dt;
     out->supply_p = ss->stats.esupply / dt;
+    out->supply_ipeak = ss->stats.isup_peak;
+    out->supply_limited = ss->stats.t_limit / dt;
+    out->supply_stretch = ss->stats.lim_stretch;
+    br_budget_make(c, &ss->stats, &out->budget);
+    heat_figures(c, ss, out);
 }
 
 /* ---- verdict ------------------------------------------------------------- */
@@ -116,29 +204,55 @@ void br_steady_figures(const br_chain *c, const br_steady *ss, br_steady_figs *o
 static const char *const NAMES[BR_CRIT_COUNT] = {[BR_CRIT_STARTUP] = "startup",
                                                  [BR_CRIT_INRUSH] = "inrush",
                                                  [BR_CRIT_DROPOUTS] = "dropouts",
+                                                 [BR_CRIT_SUPPLY_START] = "supply-startup",
                                                  [BR_CRIT_STEADY] = "steady-state",
                                                  [BR_CRIT_RESTART] = "restart",
                                                  [BR_CRIT_UVLO] = "uvlo",
                                                  [BR_CRIT_DRIVE] = "drive",
                                                  [BR_CRIT_GATE] = "gate",
                                                  [BR_CRIT_DIODE_VR] = "diode-reverse",
-                                                 [BR_CRIT_CAP_V] = "capacitor-voltage"};
+                                                 [BR_CRIT_CAP_V] = "capacitor-voltage",
+                                                 [BR_CRIT_SUPPLY] = "supply",
+                                                 [BR_CRIT_HEADROOM] = "headroom",
+                                                 [BR_CRIT_AUX_POWER] = "regulator-power",
+                                                 [BR_CRIT_DIODE_IAVG] = "diode-current",
+                                                 [BR_CRIT_CAP_RIPPLE] = "capacitor-ripple",
+                                                 [BR_CRIT_TJ] = "junction-temperature"};
 static const char *const TITLES[BR_CRIT_COUNT] = {
     [BR_CRIT_STARTUP] = "every driver starts from cold",
     [BR_CRIT_INRUSH] = "link inrush within diode IFRM, IFSM, I2t",
     [BR_CRIT_DROPOUTS] = "start-up dropouts per stage within the limit",
+    [BR_CRIT_SUPPLY_START] = "supply start-up average within its rating",
     [BR_CRIT_STEADY] = "periodic steady state exists and holds",
     [BR_CRIT_RESTART] = "rails stay above UVLO rising (restart)",
     [BR_CRIT_UVLO] = "rails stay above UVLO falling",
     [BR_CRIT_DRIVE] = "drive voltage above the useful minimum",
     [BR_CRIT_GATE] = "gate voltage below its absolute maximum",
     [BR_CRIT_DIODE_VR] = "diode reverse voltage within derated rating",
-    [BR_CRIT_CAP_V] = "capacitor voltage within its rating"};
-static const char *const UNITS[BR_CRIT_COUNT] = {
-    [BR_CRIT_STARTUP] = "s", [BR_CRIT_INRUSH] = "A",  [BR_CRIT_DROPOUTS] = "",
-    [BR_CRIT_STEADY] = "V",  [BR_CRIT_RESTART] = "V", [BR_CRIT_UVLO] = "V",
-    [BR_CRIT_DRIVE] = "V",   [BR_CRIT_GATE] = "V",    [BR_CRIT_DIODE_VR] = "V",
-    [BR_CRIT_CAP_V] = "V"};
+    [BR_CRIT_CAP_V] = "capacitor voltage within its rating",
+    [BR_CRIT_SUPPLY] = "steady average supply current within rating",
+    [BR_CRIT_HEADROOM] = "regulated rails above output plus dropout",
+    [BR_CRIT_AUX_POWER] = "regulator/clamp dissipation within rating",
+    [BR_CRIT_DIODE_IAVG] = "diode average current within its rating",
+    [BR_CRIT_CAP_RIPPLE] = "capacitor ripple current within its rating",
+    [BR_CRIT_TJ] = "junction temperature within its maximum"};
+static const char *const UNITS[BR_CRIT_COUNT] = {[BR_CRIT_STARTUP] = "s",
+                                                 [BR_CRIT_INRUSH] = "A",
+                                                 [BR_CRIT_DROPOUTS] = "",
+                                                 [BR_CRIT_STEADY] = "V",
+                                                 [BR_CRIT_RESTART] = "V",
+                                                 [BR_CRIT_UVLO] = "V",
+                                                 [BR_CRIT_DRIVE] = "V",
+                                                 [BR_CRIT_GATE] = "V",
+                                                 [BR_CRIT_DIODE_VR] = "V",
+                                                 [BR_CRIT_CAP_V] = "V",
+                                                 [BR_CRIT_SUPPLY_START] = "A",
+                                                 [BR_CRIT_SUPPLY] = "A",
+                                                 [BR_CRIT_HEADROOM] = "V",
+                                                 [BR_CRIT_AUX_POWER] = "W",
+                                                 [BR_CRIT_DIODE_IAVG] = "A",
+                                                 [BR_CRIT_CAP_RIPPLE] = "A",
+                                                 [BR_CRIT_TJ] = "K"};
 
 const char *br_crit_name(int crit)
 {
@@ -155,12 +269,13 @@ const char *br_crit_unit(int crit)
 
 int br_crit_is_startup(int crit)
 {
-    return crit == BR_CRIT_STARTUP || crit == BR_CRIT_INRUSH || crit == BR_CRIT_DROPOUTS;
+    return crit == BR_CRIT_STARTUP || crit == BR_CRIT_INRUSH || crit == BR_CRIT_DROPOUTS ||
+           crit == BR_CRIT_SUPPLY_START;
 }
 
 int br_crit_never(int crit, double value)
 {
-    return crit == BR_CRIT_STARTUP && isinf(value);
+    return (crit == BR_CRIT_STARTUP || crit == BR_CRIT_TJ) && isinf(value);
 }
 
 /* Keep the row with the smallest margin. */
@@ -289,11 +404,12 @@ static void inrush_row(const br_chain *c, const br_startup *su, br_verdict *v)
         inrush_note(c, used, &best, link, r);
 }
 
-/* A start-up the integrator could not finish decides none of its rows. */
-static void startup_failed(const br_startup *su, br_verdict *v)
+/* A start-up the integrator could not finish decides none of its rows
+ * (a row whose rating the design does not give stays not applicable). */
+static void startup_failed(const br_chain *c, const br_startup *su, br_verdict *v)
 {
     for (int i = 0; i < BR_CRIT_COUNT; i++) {
-        if (!br_crit_is_startup(i))
+        if (!br_crit_is_startup(i) || (i == BR_CRIT_SUPPLY_START && !(c->irating > 0)))
             continue;
         v->row[i].undetermined = 1;
         snprintf(v->row[i].note, sizeof v->row[i].note, "%.255s", su->why);
@@ -369,11 +485,37 @@ static void dropout_row(const br_chain *c, const br_startup *su, br_verdict_row 
                  stated ? "the design allows" : "no limit stated, a warning above", limit);
 }
 
+static const char *dir_word(int dir);
+
+/* What the start-up asks of the supply on average, against its rating:
+ * a supply gives its rated current for good, so a start-up that needs
+ * more on average works it above its rating (the peak is the current
+ * limit's business, or the supply's own when the design gives none). */
+static void supply_start_row(const br_chain *c, const br_startup *su, br_verdict_row *r)
+{
+    const br_supply_profile *p = &su->supply;
+    if (!(c->irating > 0))
+        return;
+    consider(r, p->iavg, c->irating, c->irating - p->iavg, -1, su->dir);
+    if (r->undetermined)
+        return;
+    int n = snprintf(r->note, sizeof r->note,
+                     "average %.4g A over the %.4g ms start-up (%.4g mC), peak %.4g A", p->iavg,
+                     p->span * 1e3, p->charge * 1e3, p->ipeak);
+    if (c->limit_mode == BR_SUPPLY_UNLIMITED)
+        snprintf(r->note + n, sizeof r->note - (size_t)n,
+                 "; the supply is taken to give any current (no current-limit given): give its "
+                 "current-limit to simulate what it does at its limit");
+    else if (p->t_limit > 0)
+        snprintf(r->note + n, sizeof r->note - (size_t)n, "; %.4g ms in its current limit%s",
+                 p->t_limit * 1e3, p->trips ? ", with hiccups" : "");
+}
+
 static void startup_rows(const br_chain *c, const br_startup *su, br_verdict *v)
 {
     br_verdict_row *r = &v->row[BR_CRIT_STARTUP];
     if (su->failed) {
-        startup_failed(su, v);
+        startup_failed(c, su, v);
         return;
     }
     if (su->complete) {
@@ -385,6 +527,7 @@ static void startup_rows(const br_chain *c, const br_startup *su, br_verdict *v)
     }
     dropout_row(c, su, &v->row[BR_CRIT_DROPOUTS]);
     inrush_row(c, su, v);
+    supply_start_row(c, su, &v->row[BR_CRIT_SUPPLY_START]);
 }
 
 /* The steady state is trusted when the cross-check periods move the rails
@@ -402,8 +545,119 @@ static int settled(const br_steady *ss)
     return ss->converged && ss->drift <= DRIFT_LIMIT;
 }
 
+/* Stage k's regulator headroom and dissipation, its link's average
+ * current and its capacitor's ripple current, each against its rating. */
+static void rating_rows(const br_chain *c, const br_steady_figs *f, int k, br_verdict *v)
+{
+    const br_stage *st = &c->st[k];
+    const br_rail_fig *rf = &f->rail[k];
+    if (st->aux.kind == BR_AUX_LDO) {
+        double need = st->aux.vout + st->aux.dropout;
+        consider(&v->row[BR_CRIT_HEADROOM], rf->vmin, need, rf->vmin - need, k, f->dir);
+    }
+    if ((st->aux.kind == BR_AUX_LDO || (st->aux.kind == BR_AUX_ZENER && k > 0)) && st->aux.pmax > 0)
+        consider(&v->row[BR_CRIT_AUX_POWER], rf->p_aux, st->aux.pmax, st->aux.pmax - rf->p_aux, k,
+                 f->dir);
+    if (k == 0)
+        return;
+    const br_link_fig *lf = &f->link[k];
+    if (st->diode.if_avg > 0)
+        consider(&v->row[BR_CRIT_DIODE_IAVG], lf->iavg, st->diode.if_avg,
+                 st->diode.if_avg - lf->iavg, k, f->dir);
+    if (st->cap.iripple > 0)
+        consider(&v->row[BR_CRIT_CAP_RIPPLE], rf->icap_rms, st->cap.iripple,
+                 st->cap.iripple - rf->icap_rms, k, f->dir);
+}
+
+/* A supply that hiccups once held in its limit for hiccup-delay cannot
+ * stay there in steady state: it turns off. */
+static int supply_hiccups(const br_chain *c, const br_steady_figs *f)
+{
+    double period = f->ss->stats.t1 - f->ss->stats.t0;
+    if (c->limit_mode != BR_SUPPLY_HICCUP || !(f->supply_limited > 0))
+        return 0;
+    return f->supply_stretch >= period * (1.0 - 1e-9) || f->supply_stretch >= c->hiccup_delay;
+}
+
+static void supply_row(const br_chain *c, const br_steady_figs *f, br_verdict_row *r)
+{
+    if (supply_hiccups(c, f)) {
+        r->applies = 1;
+        r->pass = 0;
+        r->figure = f->supply_iavg;
+        r->limit = c->irating > 0 ? c->irating : NAN;
+        r->margin = -HUGE_VAL; /* below every passing point, whatever its rating */
+        r->stage = -1;
+        r->dir = f->dir;
+        snprintf(r->note, sizeof r->note,
+                 "the supply sits in its current limit (%.4g A) %.0f %% of the steady period, "
+                 "longer than its hiccup-delay: it turns off and the chain with it",
+                 c->ilimit, 100.0 * f->supply_limited);
+        return;
+    }
+    if (c->irating > 0 && !(r->applies && r->margin == -HUGE_VAL))
+        consider(r, f->supply_iavg, c->irating, c->irating - f->supply_iavg, -1, f->dir);
+}
+
+/* A link that runs away has no temperature: it fails whatever else. */
+static void runaway_row(const br_chain *c, const br_steady_figs *f, int k, br_verdict_row *r)
+{
+    const br_link_fig *l = &f->link[k];
+    r->applies = 1;
+    r->pass = 0;
+    r->figure = HUGE_VAL;
+    r->limit = c->st[k].diode.tj_max > 0 ? c->st[k].diode.tj_max : NAN;
+    r->margin = -HUGE_VAL;
+    r->stage = k;
+    r->aux = 0;
+    r->dir = f->dir;
+    snprintf(r->note, sizeof r->note,
+             "link %d (%s) runs away: no junction temperature balances its losses behind "
+             "%.4g K/W at a %.1f C ambient; it runs away from an ambient of %.1f C up",
+             k, c->st[k].name, c->st[k].diode.rth, c->tamb - 273.15, l->onset_amb - 273.15);
+}
+
+static int is_runaway(const br_verdict_row *r)
+{
+    return r->applies && r->margin == -HUGE_VAL;
+}
+
+/* Junction temperatures: link diodes with a thermal resistance (from the
+ * steady state at their temperatures), regulators and clamps with one. */
+static void tj_rows(const br_chain *c, const br_steady_figs *f, br_verdict_row *r)
+{
+    if (f->ss->thermal && !f->ss->thermal_settled && !r->undetermined) {
+        r->undetermined = 1;
+        snprintf(r->note, sizeof r->note,
+                 "the junction temperatures did not settle within %d passes (current %s)",
+                 BR_THERMAL_PASSES, dir_word(f->dir));
+    }
+    for (int k = 0; k < c->n; k++) {
+        const br_aux *a = &c->st[k].aux;
+        double ta = f->rail[k].tj_aux;
+        if (isfinite(ta) && a->tj_max > 0 && !is_runaway(r)) {
+            consider(r, ta, a->tj_max, a->tj_max - ta, k, f->dir);
+            if (r->stage == k && r->figure == ta && r->limit == a->tj_max)
+                r->aux = 1; /* it binds now */
+        }
+        if (k == 0 || !(c->st[k].diode.rth > 0))
+            continue;
+        const br_link_fig *l = &f->link[k];
+        double tmax = c->st[k].diode.tj_max;
+        if (l->runaway && !is_runaway(r))
+            runaway_row(c, f, k, r);
+        else if (!l->runaway && tmax > 0 && !is_runaway(r)) {
+            consider(r, l->tj, tmax, tmax - l->tj, k, f->dir);
+            if (r->stage == k && r->figure == l->tj && r->limit == tmax)
+                r->aux = 0;
+        }
+    }
+}
+
 static void steady_rows(const br_chain *c, const br_steady_figs *f, br_verdict *v)
 {
+    supply_row(c, f, &v->row[BR_CRIT_SUPPLY]);
+    tj_rows(c, f, &v->row[BR_CRIT_TJ]);
     for (int k = 0; k < c->n; k++) {
         const br_rail_fig *rf = &f->rail[k];
         const br_stage *st = &c->st[k];
@@ -423,6 +677,7 @@ static void steady_rows(const br_chain *c, const br_steady_figs *f, br_verdict *
         if (rf->vcap_rating > 0)
             consider(&v->row[BR_CRIT_CAP_V], rf->vcap_peak, rf->vcap_rating,
                      rf->vcap_rating - rf->vcap_peak, k, f->dir);
+        rating_rows(c, f, k, v);
     }
 }
 
@@ -447,10 +702,19 @@ static void settle_row(br_verdict_row *r)
 
 static void finish_rows(br_verdict *v)
 {
-    static const char *why[BR_CRIT_COUNT] = {[BR_CRIT_DRIVE] = "no minimum drive voltage set",
-                                             [BR_CRIT_GATE] = "no gate maximum given",
-                                             [BR_CRIT_DIODE_VR] = "no diode voltage rating given",
-                                             [BR_CRIT_CAP_V] = "no capacitor rating given"};
+    static const char *why[BR_CRIT_COUNT] = {
+        [BR_CRIT_DRIVE] = "no minimum drive voltage set",
+        [BR_CRIT_GATE] = "no gate maximum given",
+        [BR_CRIT_DIODE_VR] = "no diode voltage rating given",
+        [BR_CRIT_CAP_V] = "no capacitor rating given",
+        [BR_CRIT_SUPPLY_START] = "no supply rating given",
+        [BR_CRIT_SUPPLY] = "no supply rating given",
+        [BR_CRIT_HEADROOM] = "no rail has a regulator",
+        [BR_CRIT_AUX_POWER] = "no regulator or clamp gives a power-rating",
+        [BR_CRIT_DIODE_IAVG] = "no diode gives an if-avg rating",
+        [BR_CRIT_CAP_RIPPLE] = "no capacitor gives a ripple rating",
+        [BR_CRIT_TJ] = "no part gives both a thermal resistance and a tj-max, and none runs "
+                       "away"};
     for (int i = 0; i < BR_CRIT_COUNT; i++) {
         br_verdict_row *r = &v->row[i];
         r->crit = i;
@@ -481,11 +745,17 @@ static int can_apply(const br_chain *c, int crit)
     int any = 0;
     for (int k = 0; k < c->n && !any; k++) {
         const br_stage *st = &c->st[k];
-        any = crit == BR_CRIT_DRIVE      ? c->min_drive > 0
-              : crit == BR_CRIT_GATE     ? st->sw.vgs_max > 0
-              : crit == BR_CRIT_DIODE_VR ? k > 0 && st->diode.vrrm > 0
-              : crit == BR_CRIT_CAP_V    ? k > 0 && st->cap.vrated > 0
-                                         : 1;
+        any = crit == BR_CRIT_DRIVE        ? c->min_drive > 0
+              : crit == BR_CRIT_GATE       ? st->sw.vgs_max > 0
+              : crit == BR_CRIT_DIODE_VR   ? k > 0 && st->diode.vrrm > 0
+              : crit == BR_CRIT_CAP_V      ? k > 0 && st->cap.vrated > 0
+              : crit == BR_CRIT_SUPPLY     ? c->irating > 0 || c->limit_mode == BR_SUPPLY_HICCUP
+              : crit == BR_CRIT_HEADROOM   ? st->aux.kind == BR_AUX_LDO
+              : crit == BR_CRIT_AUX_POWER  ? st->aux.id && st->aux.pmax > 0
+              : crit == BR_CRIT_DIODE_IAVG ? k > 0 && st->diode.if_avg > 0
+              : crit == BR_CRIT_CAP_RIPPLE ? k > 0 && st->cap.iripple > 0
+              : crit == BR_CRIT_TJ         ? (k > 0 && st->diode.rth > 0) || st->aux.rth > 0
+                                           : 1;
     }
     return any;
 }

@@ -20,6 +20,8 @@ typedef struct br_rail_fig {
     double vcap_rating;        /* V (0: not given) */
     double icap_rms;           /* capacitor RMS current, A */
     double p_load;             /* power drawn from the rail by its loads, W */
+    double p_aux;              /* the rail's regulator or clamp dissipation, W (0: none) */
+    double tj_aux;             /* its junction temperature, K (NaN: no thermal resistance) */
 } br_rail_fig;
 
 typedef struct br_link_fig {
@@ -31,7 +33,53 @@ typedef struct br_link_fig {
     double qrr;               /* recovery charge per period, C */
     double irrm;              /* peak recovery current, A */
     double p_cond, p_rr;      /* conduction and recovery power, W */
+    double p_diode;           /* the diode's whole loss: conduction, recovery, leakage and
+                                 junction capacitance, W */
+    double tj;                /* junction temperature, K (the ambient without a thermal
+                                 resistance) */
+    int runaway;              /* no junction temperature balances its losses */
+    double onset_amb;         /* the ambient at which it would run away, K (HUGE_VAL: never) */
 } br_link_fig;
+
+/* Where the power of a rail goes over a steady period, W: its driver's
+ * running current, its isolator's and its standby (UVLO) current at the
+ * driver supply, its gate charge, the regulator between rail and driver
+ * (its own current and the drop across it), its clamp, and its
+ * capacitor's ESR. */
+typedef struct br_rail_loss {
+    double run, iso, standby, gate, regulator, clamp, esr;
+} br_rail_loss;
+
+/* Where the power of a link goes, W: its diode's conduction, recovery and
+ * leakage, the net of its junction capacitance, its resistor, and the
+ * share of its current in the return switch's resistance; `stage` is
+ * what the power stage takes from the chain through the link's return
+ * switch (negative: gives it, by leakage, recovery and reverse
+ * conduction), not a loss of the chain. */
+typedef struct br_link_loss {
+    double cond, recovery, leakage, junction, resistor, sw;
+    double stage;
+} br_link_loss;
+
+/* The power balance of a steady period, W: what the supply delivers (its
+ * open-circuit voltage times its current) and what the power stage gives
+ * the chain equal every loss plus the change of the energy stored in the
+ * rails (about 0 in a periodic state). */
+typedef struct br_budget {
+    double supply;  /* delivered by the supply */
+    double stage;   /* given by the power stage (minus the links' `stage`) */
+    double rsupply; /* lost in the supply's resistance */
+    double stored;  /* the rails' stored energy, end less start, over the period */
+    double losses;  /* every loss, rsupply included */
+    double balance; /* supply + stage - losses - stored: rounding and the
+                       integrator's error */
+    br_rail_loss rail[BR_MAX_SWITCHES];
+    br_link_loss link[BR_MAX_SWITCHES]; /* [k], k >= 1 */
+} br_budget;
+
+/* Rail k's and link k's total loss, W. */
+double br_rail_loss_sum(const br_rail_loss *r);
+double br_link_loss_sum(const br_link_loss *l);
 
 typedef struct br_steady_figs {
     int dir;             /* br_dir_index */
@@ -41,6 +89,12 @@ typedef struct br_steady_figs {
     br_link_fig link[BR_MAX_SWITCHES]; /* [k], k >= 1 */
     double supply_iavg;                /* A */
     double supply_p;                   /* W */
+    double supply_ipeak;               /* A */
+    double supply_limited;             /* fraction of the period the supply spends in its
+                                          current limit */
+    double supply_stretch;             /* its longest stretch in the limit, s (the whole
+                                          period: in the limit throughout) */
+    br_budget budget;                  /* the power balance of the period */
     int bad_rail;                      /* the first rail whose average lies outside its minimum and
                                           maximum (the period's figures contradict each other, so
                                           they decide nothing), or -1 */
@@ -51,6 +105,9 @@ typedef struct br_steady_figs {
  * checked against each other: a rail's average must lie between its
  * minimum and maximum (bad_rail). */
 void br_steady_figures(const br_chain *c, const br_steady *ss, br_steady_figs *out);
+
+/* The power balance of the simulated stretch st of chain c. */
+void br_budget_make(const br_chain *c, const br_stats *st, br_budget *b);
 
 /* 1 when avg lies between vmin and vmax, up to rounding and the
  * integrator's tolerance. */
@@ -63,19 +120,29 @@ br_rail_fig br_rail_fig_worst(const br_steady_figs *f, int ndir, int k);
 
 /* One row of the verdict table. */
 typedef enum br_crit {
-    BR_CRIT_STARTUP = 0, /* every driver starts within the allowed time */
-    BR_CRIT_INRUSH,      /* link inrush within the diode's IFRM, IFSM and I2t ratings */
-    BR_CRIT_DROPOUTS,    /* start-up dropouts of any one stage within the design's
-                            limit (max-dropouts); without one, more than
-                            BR_DROPOUTS_WARN only warn */
-    BR_CRIT_STEADY,      /* a periodic steady state exists and holds (a status: its
-                            figure is the solver's drift, it has no margin) */
-    BR_CRIT_RESTART,     /* every rail stays above UVLO rising (restarts after a dropout) */
-    BR_CRIT_UVLO,        /* every driver stays above UVLO falling */
-    BR_CRIT_DRIVE,       /* every drive voltage above the minimum useful drive */
-    BR_CRIT_GATE,        /* no gate above its absolute maximum */
-    BR_CRIT_DIODE_VR,    /* reverse voltage within the derated diode rating */
-    BR_CRIT_CAP_V,       /* capacitor peak within its rating */
+    BR_CRIT_STARTUP = 0,  /* every driver starts within the allowed time */
+    BR_CRIT_INRUSH,       /* link inrush within the diode's IFRM, IFSM and I2t ratings */
+    BR_CRIT_DROPOUTS,     /* start-up dropouts of any one stage within the design's
+                             limit (max-dropouts); without one, more than
+                             BR_DROPOUTS_WARN only warn */
+    BR_CRIT_SUPPLY_START, /* the supply's average current over the start-up within its
+                             rating */
+    BR_CRIT_STEADY,       /* a periodic steady state exists and holds (a status: its
+                             figure is the solver's drift, it has no margin) */
+    BR_CRIT_RESTART,      /* every rail stays above UVLO rising (restarts after a dropout) */
+    BR_CRIT_UVLO,         /* every driver stays above UVLO falling */
+    BR_CRIT_DRIVE,        /* every drive voltage above the minimum useful drive */
+    BR_CRIT_GATE,         /* no gate above its absolute maximum */
+    BR_CRIT_DIODE_VR,     /* reverse voltage within the derated diode rating */
+    BR_CRIT_CAP_V,        /* capacitor peak within its rating */
+    BR_CRIT_SUPPLY,       /* the supply's average current in steady state within its
+                             rating, and a hiccup supply not held in its limit */
+    BR_CRIT_HEADROOM,     /* every regulated rail above the regulator's output plus dropout */
+    BR_CRIT_AUX_POWER,    /* regulator and clamp dissipation within their ratings */
+    BR_CRIT_DIODE_IAVG,   /* diode average forward current within its rating */
+    BR_CRIT_CAP_RIPPLE,   /* capacitor RMS ripple current within its rating */
+    BR_CRIT_TJ,           /* junction temperatures within their maximum, and no thermal
+                             runaway (figure +inf, margin -inf: see br_crit_never) */
     BR_CRIT_COUNT
 } br_crit;
 
@@ -96,6 +163,7 @@ typedef struct br_verdict_row {
                                      start), see br_crit_never */
     const char *unit;             /* "s", "V", "A", "" (a count) */
     int stage;                    /* binding rail/link, -1 when none */
+    int aux;                      /* the binding part is rail `stage`'s regulator or clamp */
     int dir;                      /* br_dir_index of the binding case */
     char note[400];
 } br_verdict_row;
@@ -160,7 +228,8 @@ const char *br_crit_unit(int crit);
 int br_crit_is_startup(int crit);
 
 /* 1 when a figure (or margin) of criterion crit stands for a rail that
- * never starts rather than a time. */
+ * never starts rather than a time, or a junction that runs away rather
+ * than a temperature. */
 int br_crit_never(int crit, double value);
 
 /* The directions a design asks for: fills dirs (br_dir_index), returns

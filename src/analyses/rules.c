@@ -110,6 +110,22 @@ static void gate_rules(const br_chain *c, int k, br_rule_list *out)
     }
 }
 
+/* Class II ceramics (X7R, X5R...) lose much of their capacitance under
+ * DC bias and wear faster near their rating: common practice keeps their
+ * working voltage at about half the rating (cap-derating).  A rail sits
+ * below the supply's highest value, or at a clamp's knee. */
+static void cap_rule(const br_chain *c, int k, br_rule_list *out)
+{
+    const br_stage *st = &c->st[k];
+    if (!st->cap.class2 || !(st->cap.vrated > 0))
+        return;
+    double v = supply_max(c), lim = c->cap_derating * st->cap.vrated;
+    if (st->aux.kind == BR_AUX_ZENER && st->aux.vout < v)
+        v = st->aux.vout;
+    if (v > lim)
+        add(out, BR_RULE_CAP_DERATING, k, st->cap.id, v, lim);
+}
+
 /* Voltage the driver of stage k sees when its raw rail sits at v. */
 static double drive_from_rail(const br_stage *st, double v)
 {
@@ -355,6 +371,8 @@ int br_rules_check(const br_chain *c, br_rule_list *out, br_error *err)
         if (drv->uvlo_fall >= drv->uvlo_rise)
             add(out, BR_RULE_UVLO_HYSTERESIS, k, drv->id, drv->uvlo_fall, drv->uvlo_rise);
         gate_rules(c, k, out);
+        if (k > 0)
+            cap_rule(c, k, out);
     }
     supply_rule(c, out);
     ripple_rule(c, out);
@@ -366,9 +384,9 @@ int br_rules_check(const br_chain *c, br_rule_list *out, br_error *err)
 const char *br_rule_name(int kind)
 {
     static const char *const names[BR_RULE_KINDS] = {
-        "diode-rating", "diode-derating", "diode-unrated",    "uvlo-hysteresis",
-        "supply-short", "aux-below-uvlo", "gate-unprotected", "aux-above-gate",
-        "no-window",    "fly-collapse",   "implausible",      "precharge-idle",
+        "diode-rating",   "diode-derating",   "diode-unrated",  "uvlo-hysteresis", "supply-short",
+        "aux-below-uvlo", "gate-unprotected", "aux-above-gate", "no-window",       "fly-collapse",
+        "implausible",    "precharge-idle",   "cap-derating",
     };
     return kind >= 0 && kind < BR_RULE_KINDS ? names[kind] : "unknown";
 }

@@ -24,6 +24,8 @@ typedef enum br_rule_kind {
     BR_RULE_IMPLAUSIBLE,      /* a value no part of its kind has (a unit slip?) */
     BR_RULE_PRECHARGE_IDLE,   /* a pre-charge step holds switches whose drivers are in
                                  UVLO for the whole step: they never turn on in it */
+    BR_RULE_CAP_DERATING,     /* a class II ceramic may reach more than cap-derating of
+                                 its rating (common practice) */
     BR_RULE_KINDS
 } br_rule_kind;
 

@@ -2,6 +2,8 @@
  * each steady state started from a prediction. */
 #include "analyses/spread.h"
 
+#include "analyses/thermal.h"
+
 #include "core/error.h"
 
 #include <gsl/gsl_linalg.h>
@@ -532,9 +534,17 @@ static int from_prediction(workspace *w, const double *v, int i, int dir, br_pt 
 static int steady(workspace *w, const job *jb, const double *v, int i, int dir, br_pt *out,
                   br_error *err)
 {
-    if (jb->predict)
-        return from_prediction(w, v, i, dir, out, err);
-    return solve(w, dir, i, jb->start[i], -1, 1, out, err);
+    if (!jb->predict)
+        return solve(w, dir, i, jb->start[i], -1, 1, out, err);
+    int rc = from_prediction(w, v, i, dir, out, err);
+    /* a state taken from the quasi-Newton steps has its junctions at the
+     * ambient: the shooting solver finds their temperatures from it */
+    if (rc == BR_OK && br_chain_thermal(&w->c) && !w->ss[i].thermal && w->ss[i].converged) {
+        double x[NX];
+        memcpy(x, w->ss[i].x, sizeof x);
+        rc = shoot_once(w, dir, i, x, -1, 1, out, err);
+    }
+    return rc;
 }
 
 /* A steady state whose rails are no numbers cannot be judged (the

@@ -8,11 +8,27 @@
 #include <stdio.h>
 #include <string.h>
 
+/* The supply's running totals at an instant. */
+typedef struct supply_snap {
+    double t, q, e, tlim; /* s, C, J, s */
+} supply_snap;
+
 typedef struct watch {
     br_startup *r;
     double last_event; /* s */
     const br_sim_observer *user;
+    br_sim *sim;                     /* to read the supply's totals at an event */
+    supply_snap at[BR_MAX_SWITCHES]; /* at each stage's latest start */
+    supply_snap end;                 /* before the last period */
+    double peak;                     /* the supply's peak current by then, A */
 } watch;
+
+static supply_snap snap(br_sim *s)
+{
+    const br_stats *st = br_sim_stats(s);
+    supply_snap o = {br_sim_time(s), st->qsupply, st->esupply, st->t_limit};
+    return o;
+}
 
 static void on_uvlo(void *ctx, const br_uvlo_event *e)
 {
@@ -23,6 +39,8 @@ static void on_uvlo(void *ctx, const br_uvlo_event *e)
         if (s->first_enable < 0)
             s->first_enable = e->t;
         s->final_enable = e->t;
+        if (w->sim)
+            w->at[e->stage] = snap(w->sim);
     } else {
         if (s->ndropouts < BR_MAX_DROPOUT_TIMES)
             s->dropout_t[s->ndropouts] = e->t;
@@ -56,6 +74,25 @@ static void init_result(br_startup *r, int n)
     r->first_stalled = -1;
     for (int k = 0; k < n; k++)
         r->st[k].first_enable = r->st[k].final_enable = -1;
+}
+
+/* The supply's figures: up to the last start when the chain started,
+ * over the simulation otherwise (w->end, taken before the last period). */
+static void supply_profile(const br_chain *c, const watch *w, br_startup *r)
+{
+    br_supply_profile *p = &r->supply;
+    int last = 0;
+    for (int k = 0; k < r->n; k++)
+        if (r->st[k].final_enable >= r->st[last].final_enable)
+            last = k;
+    const supply_snap *at = r->complete ? &w->at[last] : &w->end;
+    p->span = at->t;
+    p->ipeak = w->peak;
+    p->charge = at->q;
+    p->energy = at->e;
+    p->iavg = at->t > 0 ? at->q / at->t : 0.0;
+    p->t_limit = at->tlim;
+    p->latched = p->trips > 0 && c->hiccup_retries >= 0 && p->trips > c->hiccup_retries;
 }
 
 /* Figures of the last period: where each rail sits and what its link
@@ -102,7 +139,11 @@ static int startup_one(const br_chain *c, int dir, const br_startup_opts *o, int
         return rc;
     init_result(r, c->n);
     r->dir = dir;
-    watch w = {r, 0.0, o ? o->obs : NULL};
+    watch w;
+    memset(&w, 0, sizeof w);
+    w.r = r;
+    w.user = o ? o->obs : NULL;
+    w.sim = s;
     br_sim_observer obs = {&w, on_uvlo, on_sample};
     br_sim_set_observer(s, &obs);
     br_sim_set_stop(s, o ? o->progress : NULL);
@@ -120,9 +161,12 @@ static int startup_one(const br_chain *c, int dir, const br_startup_opts *o, int
         if (rc == BR_OK && hook && period % BR_STARTUP_PROGRESS_EVERY == 0)
             rc = br_progress_call(hook, part * t_max + t, parts * t_max, err);
     }
+    w.end = snap(s);
+    w.peak = br_sim_stats(s)->isup_peak;
     if (rc == BR_OK)
         rc = last_period(s, c, r, err);
     r->t_simulated = br_sim_time(s);
+    r->supply.trips = br_sim_supply_trips(s, &r->supply.first_trip);
     if (rc == BR_ENUMERIC) {
         record_failure(r, err);
         rc = BR_OK;
@@ -136,6 +180,7 @@ static int startup_one(const br_chain *c, int dir, const br_startup_opts *o, int
         }
         r->t_total = fmax(r->t_total, r->st[k].final_enable);
     }
+    supply_profile(c, &w, r);
     br_sim_free(s);
     return rc;
 }

@@ -21,6 +21,21 @@ typedef struct br_startup_stage {
     int running; /* driver enabled at the end */
 } br_startup_stage;
 
+/* What the start-up draws from the supply: its current (through its
+ * resistance, before the bypass capacitor) from power-up to the start-up
+ * time (the whole simulation when the chain never starts). */
+typedef struct br_supply_profile {
+    double span;       /* the stretch these figures cover, s */
+    double ipeak;      /* peak current, A (over the whole simulation) */
+    double iavg;       /* charge / span, A */
+    double charge;     /* C */
+    double energy;     /* its open-circuit voltage times its current, J */
+    double t_limit;    /* time in its current limit, s */
+    int trips;         /* hiccups: the supply turned itself off */
+    double first_trip; /* the first of them, s (-1: none) */
+    int latched;       /* it has used up its retries and stays off */
+} br_supply_profile;
+
 typedef struct br_startup {
     int n;              /* stages */
     int dir;            /* br_dir_index the start-up ran in: BR_DIRI_NONE at no
@@ -36,6 +51,7 @@ typedef struct br_startup {
                            figures are partial and decide nothing */
     char why[256];
     br_startup_stage st[BR_MAX_SWITCHES];
+    br_supply_profile supply;
 } br_startup;
 
 /* Optional time series of the cold start. */

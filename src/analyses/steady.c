@@ -2,12 +2,14 @@
  * fallback and a cross-check. */
 #include "analyses/steady.h"
 
+#include "analyses/thermal.h"
 #include "core/error.h"
 #include "engine/diode.h"
 
 #include <gsl/gsl_linalg.h>
 #include <math.h>
 #include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
 
 #define NX (2 * BR_MAX_SWITCHES)
@@ -540,8 +542,8 @@ static int cells_collapse(const br_chain *c, const br_timing *tm, br_steady *out
     return 1;
 }
 
-int br_steady_solve(const br_chain *c, int dir, const br_steady_opts *o, br_steady *out,
-                    br_error *err)
+static int solve_electrical(const br_chain *c, int dir, const br_steady_opts *o, br_steady *out,
+                            br_error *err)
 {
     br_steady_opts def;
     if (!o) {
@@ -595,5 +597,102 @@ int br_steady_solve(const br_chain *c, int dir, const br_steady_opts *o, br_stea
     br_sim_free(sh.sim);
     if (rc == BR_ENUMERIC)
         rc = record_failure(out, x, err);
+    return rc;
+}
+
+/* ---- junction temperatures ------------------------------------------------- */
+
+/* Link k's junction temperature from the period just simulated at its
+ * present temperature: the losses other than leakage held, the leakage
+ * following its law through the mean reverse voltage the period showed. */
+static void link_heat(const br_chain *hot, const br_steady *ss, int k, br_thermal *th)
+{
+    const br_link_stats *l = &ss->stats.link[k];
+    const br_diode *d = &hot->st[k].diode;
+    double dt = ss->stats.t1 - ss->stats.t0, ir, t0, td;
+    double pc = fmax((l->e_cond + l->e_rr + l->e_other - l->e_leak) / dt, 0.0);
+    br_link_leak_law(hot, k, &ir, &t0, &td);
+    double w = d->ir > 0 ? fmax(l->e_leak / dt / d->ir, 0.0) : 0.0; /* mean blocking volts */
+    if (br_thermal_solve(hot->tamb, d->rth, pc, w * ir, t0, td, th) != BR_OK)
+        th->tj = hot->tamb;
+}
+
+/* Every link's temperature for the state ss of the chain hot, kept in
+ * ss; the diodes of hot are resolved there.  *moved: the largest move, K. */
+static int next_temperatures(br_chain *hot, br_steady *ss, double *moved, br_error *err)
+{
+    *moved = 0.0;
+    for (int k = 1; k < hot->n; k++) {
+        br_thermal th = {0, hot->tamb, HUGE_VAL, HUGE_VAL};
+        if (hot->st[k].diode.rth > 0)
+            link_heat(hot, ss, k, &th);
+        *moved = fmax(*moved, fabs(th.tj - hot->st[k].diode.tj));
+        ss->tj[k] = th.tj;
+        ss->runaway[k] = th.runaway;
+        ss->onset_tj[k] = th.onset_tj;
+        ss->onset_amb[k] = th.onset_amb;
+        int rc = th.tj != hot->st[k].diode.tj ? br_chain_diode_at(hot, k, th.tj, err) : BR_OK;
+        if (rc != BR_OK)
+            return rc;
+    }
+    return BR_OK;
+}
+
+/* The junction temperatures as the chain holds them (a pass that did
+ * not reach them). */
+static void temperatures_of(const br_chain *c, br_steady *out)
+{
+    for (int k = 1; k < c->n; k++) {
+        out->tj[k] = c->st[k].diode.tj;
+        out->runaway[k] = 0;
+        out->onset_tj[k] = out->onset_amb[k] = HUGE_VAL;
+    }
+}
+
+/* The steady state with every link diode at the junction temperature its
+ * own losses give: solved, temperatures found, solved again from the last
+ * state, until they stand still (BR_THERMAL_PASSES at most). */
+static int solve_thermal(const br_chain *c, int dir, const br_steady_opts *o, br_steady *out,
+                         br_error *err)
+{
+    br_chain *hot = malloc(sizeof *hot);
+    if (!hot)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory for the temperatures");
+    *hot = *c;
+    br_steady_opts oo;
+    if (o)
+        oo = *o;
+    else
+        br_steady_opts_default(&oo);
+    double guess[NX], moved = HUGE_VAL;
+    int rc = BR_OK, pass = 0;
+    long periods = 0;
+    while (rc == BR_OK && pass < BR_THERMAL_PASSES && !(moved < BR_THERMAL_TOL)) {
+        rc = solve_electrical(hot, dir, &oo, out, err);
+        pass++;
+        periods += out->periods;
+        if (rc != BR_OK || !out->converged) {
+            temperatures_of(hot, out);
+            moved = HUGE_VAL;
+            break;
+        }
+        rc = next_temperatures(hot, out, &moved, err);
+        memcpy(guess, out->x, sizeof guess);
+        oo.guess = guess;
+    }
+    out->periods = periods;
+    out->thermal = pass;
+    out->thermal_settled = moved < BR_THERMAL_TOL;
+    free(hot);
+    return rc;
+}
+
+int br_steady_solve(const br_chain *c, int dir, const br_steady_opts *o, br_steady *out,
+                    br_error *err)
+{
+    if (br_chain_thermal(c))
+        return solve_thermal(c, dir, o, out, err);
+    int rc = solve_electrical(c, dir, o, out, err);
+    temperatures_of(c, out);
     return rc;
 }

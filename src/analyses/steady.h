@@ -38,7 +38,23 @@ typedef struct br_steady {
     char why[320];
     double x[2 * BR_MAX_SWITCHES]; /* [k] rail k capacitor, [n + k] stored charge */
     br_stats stats;                /* over one period from x */
+    /* Junction temperatures, when some link diode has a thermal
+     * resistance (analyses/thermal.h): the steady state is solved again
+     * with every diode at the temperature its losses give, until they
+     * move by less than BR_THERMAL_TOL. */
+    int thermal;                       /* temperature passes run (0: junctions at the ambient) */
+    int thermal_settled;               /* the last pass moved them by less than BR_THERMAL_TOL */
+    double tj[BR_MAX_SWITCHES];        /* link k's junction temperature, K */
+    int runaway[BR_MAX_SWITCHES];      /* link k has no temperature where it holds */
+    double onset_tj[BR_MAX_SWITCHES];  /* link k: junction temperature where it would run
+                                          away, K (HUGE_VAL: never) */
+    double onset_amb[BR_MAX_SWITCHES]; /* link k: ambient at which it would, K (HUGE_VAL) */
 } br_steady;
+
+/* Passes of the junction-temperature loop, and how little they must move
+ * the temperatures at the end. */
+#define BR_THERMAL_PASSES 10
+#define BR_THERMAL_TOL 0.05 /* K */
 
 /* 1 when ss simulated a period whose figures can be read: its
  * simulation did not fail and the leg's cells did not collapse. */
@@ -66,7 +82,9 @@ typedef struct br_steady_opts {
 
 void br_steady_opts_default(br_steady_opts *o);
 
-/* Solve the periodic steady state of c for current direction dir.  A
+/* Solve the periodic steady state of c for current direction dir (with
+ * the junction temperatures when some link diode has a thermal
+ * resistance; without, every junction at the ambient).  A
  * failure of the simulation (step size underflow, the work limit of
  * engine/sim.h) is not an error here: it is recorded in out->failed and
  * out->why, out->converged is 0, and BR_OK is returned, so that the

@@ -28,6 +28,7 @@ static const br_verb verbs[] = {
     {"corners", cmd_corners, "worst-case corners of the tolerances, criterion by criterion"},
     {"yield", cmd_yield, "Monte Carlo yield over the tolerances, with its confidence interval"},
     {"pick", cmd_pick, "rail capacitors and link diodes from a catalog, ranked by cost"},
+    {"supply", cmd_supply, "smallest current limit and supply voltage window at the worst corners"},
     {NULL, NULL, NULL},
 };
 

@@ -84,6 +84,15 @@ static const kind_info kinds[BR_KIND_COUNT] = {
                      0,
                      1e9,
                      "1e9 A2s"},
+    [BR_KIND_POWER] = {"a power like '250 mW'", "W", {"W", NULL}, "fpnumk", 0, 1e4, "10 kW"},
+    /* junction to ambient: "mK/W" would be a typo, never a value */
+    [BR_KIND_THERMAL_R] = {"a thermal resistance like '60 K/W'",
+                           "K/W",
+                           {"K/W", "C/W", "degC/W", DEGREE "C/W", NULL},
+                           "",
+                           0,
+                           1e4,
+                           "10000 K/W"},
 };
 
 const char *br_kind_expected(br_kind kind)
@@ -320,10 +329,12 @@ static int scan_number(scan *s, double *out)
     return BR_OK;
 }
 
-/* A unit may hold a power once it has begun ("A2s", "A^2s"). */
+/* A unit may hold a power once it has begun ("A2s", "A^2s"), and a
+ * thermal resistance its "per watt" ("K/W"); any other '/' separates the
+ * values of a min / typ / max. */
 static int continues_suffix(const char *p, size_t n)
 {
-    return n > 0 && (isdigit((unsigned char)*p) || *p == '^');
+    return n > 0 && (isdigit((unsigned char)*p) || *p == '^' || (p[0] == '/' && p[1] == 'W'));
 }
 
 static int scan_suffix(scan *s, char *buf, size_t cap)

@@ -166,14 +166,6 @@ void br_sim_state(const br_sim *s, double *x)
     }
 }
 
-static double supply_v(const br_sim *s, double t)
-{
-    const br_chain *c = s->c;
-    if (t < s->tramp_end && c->tramp > 0)
-        return c->vsupply * (t > 0 ? t / c->tramp : 0.0);
-    return c->vsupply;
-}
-
 void br_sim_sample_stress(const br_sim *s, double t, const double *vrail, int n, double *vdrv,
                           double *vrev)
 {
@@ -368,6 +360,7 @@ static void clear_state(br_sim *s)
     s->toggles = 0;
     s->stats_on = 0;
     s->frozen = 0;
+    br_sim_supply_reset(s, 0);
     br_sim_live_rebuild(s);
 }
 
@@ -384,6 +377,7 @@ void br_sim_reset_cold(br_sim *s)
     s->pre_idx = 0;
     s->pwm_t0 = t;
     s->tramp_end = c->tramp;
+    br_sim_supply_reset(s, 1);
     /* start-up runs at no load unless the design starts under load: then
      * from the first period boundary at or after its start time */
     if (s->dir >= 0 && c->load_from < HUGE_VAL) {
@@ -483,8 +477,7 @@ static double next_time(const br_sim *s, double t_end)
         tn = fmin(tn, s->pre_end[s->pre_idx]);
     else if (!s->frozen)
         tn = fmin(tn, event_time(s));
-    if (s->t < s->tramp_end)
-        tn = fmin(tn, s->tramp_end);
+    tn = fmin(tn, br_sim_supply_next(s)); /* ramps, hiccups */
     if (!s->loaded && s->load_at > s->t)
         tn = fmin(tn, s->load_at);
     for (int k = 0; k < s->n; k++) {
@@ -521,7 +514,11 @@ static void gate_pulse(br_sim *s, int k, double t)
         s->pulse_i[k] = q / sw->tg;
         s->pulse_end[k] = t + sw->tg;
     } else if (k > 0) {
-        s->x[XI(k, F_VC)] -= q / br_sim_cap(s, k, s->x[XI(k, F_VC)]);
+        double v0 = s->x[XI(k, F_VC)];
+        s->x[XI(k, F_VC)] -= q / br_sim_cap(s, k, v0);
+        double vm = 0.5 * (v0 + s->x[XI(k, F_VC)]); /* the energy the rail gives */
+        s->x[XI(k, F_RP)] += q * vm;
+        s->x[XI(k, F_RG)] += q * br_sim_vdrv(s, k, vm);
     }
 }
 
@@ -592,31 +589,34 @@ static void apply_schedule(br_sim *s, double t)
 
 /* ---- one interval -------------------------------------------------------- */
 
-static double stage_load(const br_sim *s, int k, double t)
+/* What rail k's loads draw over the interval from t, by kind. */
+static void stage_load(br_sim *s, int k, double t)
 {
     const br_stage *st = &s->c->st[k];
+    br_seg *g = &s->seg;
     /* a driver held in UVLO draws its standby current only from a charged
      * rail: an empty capacitor is not driven negative */
-    double i = s->en[k] ? st->drv.iq_on + st->drv.i_iso
-                        : (k == 0 || s->x[XI(k, F_VC)] > 0 ? st->drv.iq_off : 0.0);
+    g->irun[k] = s->en[k] ? st->drv.iq_on + st->drv.i_iso : 0.0;
+    g->istb[k] = !s->en[k] && (k == 0 || s->x[XI(k, F_VC)] > 0) ? st->drv.iq_off : 0.0;
+    g->igate[k] = s->pulse_end[k] > t ? s->pulse_i[k] : 0.0;
+    g->iload[k] = g->irun[k] + g->istb[k] + g->igate[k];
     if (st->aux.kind == BR_AUX_LDO)
-        i += st->aux.iq;
-    if (s->pulse_end[k] > t)
-        i += s->pulse_i[k];
-    return i;
+        g->iload[k] += st->aux.iq;
 }
 
 static double left_rail(const br_sim *s, int k, double t)
 {
-    return k == 1 && !br_sim_bypass(s) ? supply_v(s, t) : s->x[XI(k - 1, F_VC)];
+    return k == 1 && !br_sim_bypass(s) ? br_sim_supply_v(s, t) : s->x[XI(k - 1, F_VC)];
 }
 
 /* Blocked link: leakage plus the mean junction-capacitance current of the
  * ramp over [ta, tb] (exact: the charge moved is Qj(vrev_b) - Qj(vrev_a)). */
-static double blocked_current(const br_sim *s, int k, double ta, double tb, double fa, double fb)
+static double blocked_current(const br_sim *s, int k, double ta, double tb, double fa, double fb,
+                              double *leak)
 {
     const br_diode *d = &s->c->st[k].diode;
-    double i = -br_diode_leak(d, -0.5 * (fa + fb));
+    *leak = br_diode_leak(d, -0.5 * (fa + fb));
+    double i = -*leak;
     if (d->cj0 > 0 && tb > ta && fa != fb)
         i -= (br_diode_qj(d, -fb) - br_diode_qj(d, -fa)) / (tb - ta);
     return i;
@@ -638,14 +638,15 @@ static void build_seg(br_sim *s, double ta, double tb)
     br_seg *g = &s->seg;
     const br_chain *c = s->c;
     g->t0 = ta;
-    g->vs0 = supply_v(s, ta);
-    g->vs_slope = (ta < s->tramp_end && c->tramp > 0) ? c->vsupply / c->tramp : 0.0;
+    g->vs0 = br_sim_supply_v(s, ta);
+    /* the supply's law is linear between its breaks (next_time) */
+    g->vs_slope = tb > ta ? (br_sim_supply_v(s, tb) - g->vs0) / (tb - ta) : 0.0;
     g->nactive = 0;
     /* a bypass capacitor charging from a ramping supply has no closed form here */
     g->zener = br_sim_bypass(s) && g->vs_slope != 0.0;
     for (int k = 0; k < s->n; k++) {
-        g->iload[k] = stage_load(s, k, ta);
-        g->igate[k] = s->pulse_end[k] > ta ? s->pulse_i[k] : 0.0;
+        stage_load(s, k, ta);
+        g->ileak[k] = 0.0;
         if (k == 0)
             continue;
         const br_stage *st = &c->st[k];
@@ -656,16 +657,24 @@ static void build_seg(br_sim *s, double ta, double tb)
         double fa = left_rail(s, k, ta) - s->x[XI(k, F_VC)] - g->d0[k];
         double fb = left_rail(s, k, tb) - s->x[XI(k, F_VC)] - db;
         g->active[k] = fa > -BR_VBLOCKED || fb > -BR_VBLOCKED;
-        g->edge[k] =
-            g->active[k] ? br_sim_edge_kind(s, k, ta, tb, fa, fb, &g->iblk[k]) : BR_EDGE_NONE;
+        g->edge[k] = g->active[k]
+                         ? br_sim_edge_kind(s, k, ta, tb, fa, fb, &g->iblk[k], &g->ileak[k])
+                         : BR_EDGE_NONE;
         if (g->edge[k] != BR_EDGE_NONE)
             g->active[k] = 0; /* blocked over it, iblk set */
+        else if (!g->active[k])
+            g->iblk[k] = blocked_current(s, k, ta, tb, fa, fb, &g->ileak[k]);
         else
-            g->iblk[k] = g->active[k] ? 0.0 : blocked_current(s, k, ta, tb, fa, fb);
+            g->iblk[k] = 0.0;
         if (g->active[k])
             g->act[g->nactive++] = k;
         if (st->aux.kind == BR_AUX_ZENER && s->x[XI(k, F_VC)] > st->aux.vout - 0.5)
             g->zener = 1;
+    }
+    if (br_sim_bypass(s) && !g->zener) { /* the closed form holds off the supply's limit */
+        double i0 = (s->n > 1 ? g->iblk[1] : 0.0) + g->iload[0], rs = c->rsupply;
+        double ia = (g->vs0 - s->x[XI(0, F_VC)]) / rs;
+        g->zener = br_sim_supply_needs_rk(s, ia, i0, g->vs0 - rs * i0);
     }
 }
 
@@ -679,11 +688,18 @@ static void recover_link(br_sim *s, int k)
         return;
     s->x[XI(k, F_Q)] = 0.0;
     s->k1_valid = 0;
+    /* the rails lose q times the difference of their mean voltages; the
+     * power stage drives the recovery against the blocking voltage */
+    double vk = s->x[XI(k, F_VC)], vl = left_rail(s, k, s->t);
     s->x[XI(k, F_VC)] -= q / br_sim_cap(s, k, s->x[XI(k, F_VC)]);
     if (k > 1 || br_sim_bypass(s))
         s->x[XI(k - 1, F_VC)] += q / br_sim_cap(s, k - 1, s->x[XI(k - 1, F_VC)]);
     if (k == 1)
         s->x[X_SQ] -= q; /* returned toward the supply */
+    if (k == 1 && !br_sim_bypass(s))
+        s->x[X_SE] -= q * vl; /* into the supply itself */
+    double e_rails = q * (0.5 * (vk + s->x[XI(k, F_VC)]) - 0.5 * (vl + left_rail(s, k, s->t)));
+    s->x[XI(k, F_LD)] -= q * c->st[k - 1].vblock;
     if (!s->stats_on)
         return;
     const br_stage *st = &c->st[k];
@@ -696,7 +712,7 @@ static void recover_link(br_sim *s, int k)
     if (isfinite(didt))
         br_diode_recovery(q, didt, BR_DIODE_SOFTNESS, &r);
     ls->qrr += q;
-    ls->e_rr += q * c->st[k - 1].vblock;
+    ls->e_rr += q * c->st[k - 1].vblock + e_rails;
     ls->irrm = fmax(ls->irrm, r.irrm);
 }
 
@@ -743,6 +759,15 @@ static double bypass_at(const bypass_cf *b, double dt)
     return b->vinf + (b->v0 - b->vinf) * exp(-dt / b->tau);
 }
 
+/* Rs times the integral of the square of the current through it over dt:
+ * the current is i0 + a exp(-t/tau), a = (vinf - v0)/Rs, as the bypass
+ * capacitor relaxes toward vinf = Vs - Rs i0 (i0 what the rail draws). */
+static double bypass_loss(const bypass_cf *b, double rs, double i0, double dt)
+{
+    double a = (b->vinf - b->v0) / rs, e1 = -expm1(-dt / b->tau), e2 = -expm1(-2.0 * dt / b->tau);
+    return rs * (i0 * i0 * dt + 2.0 * i0 * a * b->tau * e1 + a * a * 0.5 * b->tau * e2);
+}
+
 /* Earliest crossing of thr by rail 0 after ta, or HUGE_VAL. */
 static double bypass_cross(const bypass_cf *b, double thr)
 {
@@ -781,6 +806,30 @@ static void rail_charge(br_sim *s, int k, double dq)
         s->x[s->phi0 + k * s->n + j] *= r;
 }
 
+/* The energy budget of a closed-form interval of dt: every rail's loads
+ * by kind at its mean voltage (the rails move linearly in charge), and
+ * every link (all blocked) at its mean drive, with the voltage across its
+ * return switch, which ramps linearly. */
+static void closed_budget(br_sim *s, const double *va, const double *vb, double dt)
+{
+    const br_seg *g = &s->seg;
+    for (int k = 0; k < s->n; k++) {
+        double vm = 0.5 * (va[k] + vb[k]) * dt;
+        double dm = 0.5 * (br_sim_vdrv(s, k, va[k]) + br_sim_vdrv(s, k, vb[k])) * dt;
+        s->x[XI(k, F_RP)] += g->iload[k] * vm;
+        s->x[XI(k, F_RD)] += g->irun[k] * dm;
+        s->x[XI(k, F_RS)] += g->istb[k] * dm;
+        s->x[XI(k, F_RG)] += g->igate[k] * dm;
+        if (k == 0)
+            continue;
+        double sw = (g->d0[k] + 0.5 * g->dslope[k] * dt) * dt; /* integral of its voltage */
+        double vd = 0.5 * (va[k - 1] - va[k] + vb[k - 1] - vb[k]) * dt - sw;
+        s->x[XI(k, F_LX)] += g->iblk[k] * vd;
+        s->x[XI(k, F_LL)] -= g->ileak[k] * vd;
+        s->x[XI(k, F_LD)] += g->iblk[k] * sw;
+    }
+}
+
 /* No link conducts: every floating rail's capacitor carries a constant
  * current, so its charge moves linearly and its voltage follows the
  * DC-bias line exactly (br_cap_after_charge); rail 0 follows the supply
@@ -814,34 +863,39 @@ static int closed_form(br_sim *s, double tb, double *te)
             first = k;
         }
     }
-    double dt = *te - ta, vs_a = supply_v(s, ta);
+    double dt = *te - ta, vs_a = br_sim_supply_v(s, ta), va[BR_N], vb[BR_N];
     double isup = i0, q0 = 0.0;
+    s->x[X_SR] += s->c->rsupply * i0 * i0 * dt;
     if (bp) { /* charge through Rs: (Vs dt - integral of v) / Rs */
         double vint = b.vinf * dt + (b.v0 - b.vinf) * b.tau * (1.0 - exp(-dt / b.tau));
         q0 = (g->vs0 * dt - vint) / s->c->rsupply;
         isup = dt > 0 ? q0 / dt : 0.0;
+        s->x[X_SR] += bypass_loss(&b, s->c->rsupply, i0, dt) - s->c->rsupply * i0 * i0 * dt;
         s->x[XI(0, F_VC)] = bypass_at(&b, dt);
         for (int j = 0; s->var && j < s->n; j++)
             s->x[s->phi0 + j] *= exp(-dt / b.tau);
     }
     for (int k = 0; k < s->n; k++) {
-        double va = s->vr[k];
+        va[k] = s->vr[k];
         if (k > 0) {
             rail_charge(s, k, ic[k] * dt);
             s->x[XI(k, F_LQ)] += g->iblk[k] * dt;
             s->x[XI(k, F_RI2)] += ic[k] * ic[k] * dt;
         }
-        double vb = k > 0 ? s->x[XI(k, F_VC)] + s->c->st[k].cap.esr * ic[k]
-                    : bp  ? s->x[XI(0, F_VC)]
-                          : supply_v(s, *te) - s->c->rsupply * isup;
-        s->x[XI(k, F_RV)] += 0.5 * (va + vb) * dt;
+        vb[k] = k > 0 ? s->x[XI(k, F_VC)] + s->c->st[k].cap.esr * ic[k]
+                : bp  ? s->x[XI(0, F_VC)]
+                      : br_sim_supply_v(s, *te) - s->c->rsupply * isup;
+        s->x[XI(k, F_RV)] += 0.5 * (va[k] + vb[k]) * dt;
         s->x[XI(k, F_RQL)] += g->iload[k] * dt;
-        s->vr[k] = vb;
+        s->vr[k] = vb[k];
         s->ic[k] = ic[k];
         s->il[k] = k > 0 ? g->iblk[k] : 0.0;
     }
+    closed_budget(s, va, vb, dt);
     s->x[X_SQ] += isup * dt;
-    s->x[X_SE] += isup * 0.5 * (vs_a + supply_v(s, *te)) * dt;
+    s->x[X_SE] += isup * 0.5 * (vs_a + br_sim_supply_v(s, *te)) * dt;
+    s->isup = s->il[0] = bp ? (g->vs0 - s->x[XI(0, F_VC)]) / s->c->rsupply : i0;
+    s->sup_lim = 0; /* the closed form holds only off the limit */
     s->t = *te;
     return first;
 }
@@ -906,6 +960,8 @@ int br_sim_run_until(br_sim *s, double t_end, br_error *err)
             return cells_collapse(s, err);
         if (br_sim_spend(s, 1))
             return halted(s, err);
+        if (br_sim_supply_step(s))
+            s->k1_valid = 0; /* a hiccup turned the supply off or on */
         double tb = next_time(s, t_end);
         br_sim_clamp_limit(s); /* a reset or a gate charge may have left a rail past it */
         settle_uvlo(s, tb);
@@ -969,6 +1025,9 @@ void br_sim_stats_start(br_sim *s)
         s->st.rail[k].vmax = s->st.rail[k].vdrv_max = s->st.rail[k].vc_max = -HUGE_VAL;
         s->st.link[k].vrev_peak = -HUGE_VAL;
     }
+    s->st.isup_peak = s->isup;
+    s->lim_t0 = s->sup_lim ? s->t : HUGE_VAL;
+    s->trips0 = s->sup_trips;
     s->stats_on = 1;
     br_sim_live_rebuild(s);
 }
@@ -1002,6 +1061,48 @@ void br_sim_track_extremes(br_sim *s, double t)
         l->ipeak = higher(l->ipeak, br_sim_forward(s, k));
         l->vrev_peak = higher(l->vrev_peak, br_sim_link_vrev(s, s->vr, k, t));
     }
+    s->st.isup_peak = higher(s->st.isup_peak, s->isup);
+    if (!s->sup_lim)
+        s->lim_t0 = HUGE_VAL;
+    else if (s->lim_t0 == HUGE_VAL)
+        s->lim_t0 = t;
+    else
+        s->st.lim_stretch = higher(s->st.lim_stretch, t - s->lim_t0);
+}
+
+/* Energy held by the rail capacitors (and the bypass) in state x, J. */
+static double stored_energy(const br_sim *s, const double *x)
+{
+    double e = br_sim_bypass(s) ? 0.5 * s->c->csupply * x[XI(0, F_VC)] * x[XI(0, F_VC)] : 0.0;
+    for (int k = 1; k < s->n; k++)
+        e += br_cap_energy(&s->c->st[k].cap, x[XI(k, F_VC)]);
+    return e;
+}
+
+/* The rails' energies and the links' beyond their conduction. */
+static void budget_stats(br_sim *s)
+{
+    const double *q0 = s->quad0, *x = s->x;
+    for (int k = 0; k < s->n; k++) {
+        br_rail_stats *r = &s->st.rail[k];
+        r->e_load = x[XI(k, F_RP)] - q0[XI(k, F_RP)];
+        r->e_run = x[XI(k, F_RD)] - q0[XI(k, F_RD)];
+        r->e_standby = x[XI(k, F_RS)] - q0[XI(k, F_RS)];
+        r->e_gate = x[XI(k, F_RG)] - q0[XI(k, F_RG)];
+        r->e_clamp = x[XI(k, F_RZ)] - q0[XI(k, F_RZ)];
+        if (k == 0)
+            continue;
+        br_link_stats *l = &s->st.link[k];
+        l->e_other = x[XI(k, F_LX)] - q0[XI(k, F_LX)];
+        l->e_leak = x[XI(k, F_LL)] - q0[XI(k, F_LL)];
+        l->e_res = x[XI(k, F_LR)] - q0[XI(k, F_LR)];
+        l->e_sw = x[XI(k, F_LS)] - q0[XI(k, F_LS)];
+        l->e_stage = x[XI(k, F_LD)] - q0[XI(k, F_LD)];
+    }
+    s->st.e_rsupply = x[X_SR] - q0[X_SR];
+    s->st.t_limit = x[X_SL] - q0[X_SL];
+    s->st.sup_trips = s->sup_trips - s->trips0;
+    s->st.e_stored = stored_energy(s, x) - stored_energy(s, q0);
 }
 
 const br_stats *br_sim_stats(br_sim *s)
@@ -1021,5 +1122,6 @@ const br_stats *br_sim_stats(br_sim *s)
     }
     st->qsupply = x[X_SQ] - q0[X_SQ];
     st->esupply = x[X_SE] - q0[X_SE];
+    budget_stats(s);
     return st;
 }

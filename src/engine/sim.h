@@ -32,6 +32,12 @@ typedef struct br_rail_stats {
     double icap2;              /* integral of capacitor current squared, A^2 s */
     double qload;              /* charge drawn by the driver, LDO and clamp, C */
     double vc_max;             /* capacitor voltage peak, V */
+    /* energies, J: the rail's loads at the rail (driver, isolator, gate
+     * charge, regulator: what the rail delivers to them), and at the
+     * driver supply (after the regulator) the driver's running and
+     * isolator current, its standby (UVLO) current and its gate charge;
+     * the clamp's; the capacitor's ESR loss is esr * icap2 */
+    double e_load, e_run, e_standby, e_gate, e_clamp;
 } br_rail_stats;
 
 typedef struct br_link_stats {
@@ -43,6 +49,15 @@ typedef struct br_link_stats {
     double irrm;      /* peak recovery current (triangle over the edge), A */
     double e_cond;    /* conduction energy, J */
     double e_rr;      /* recovery energy, J */
+    double e_leak;    /* leakage energy (leakage current times reverse voltage), J */
+    double e_other;   /* energy of the diode's current other than conduction
+                         across it (junction capacitance and leakage), J */
+    double e_res;     /* i^2 in the link resistor, J */
+    double e_sw;      /* i^2 in the return switch's resistance, J */
+    double e_stage;   /* the link current times its return switch's voltage,
+                         J: what the power stage takes from the chain
+                         (negative: what it gives, by leakage, recovery and
+                         reverse conduction) */
 } br_link_stats;
 
 typedef struct br_stats {
@@ -50,7 +65,15 @@ typedef struct br_stats {
     br_rail_stats rail[BR_MAX_SWITCHES];
     br_link_stats link[BR_MAX_SWITCHES]; /* [k] is link k, k >= 1 */
     double qsupply;                      /* charge delivered by the supply, C */
-    double esupply;                      /* energy delivered by the supply, J */
+    double esupply;                      /* energy delivered by the supply (its
+                                            open-circuit voltage times its current), J */
+    double e_rsupply;                    /* of which lost in its resistance, J */
+    double isup_peak;                    /* peak supply current, A */
+    double t_limit;                      /* time the supply spent in its current limit, s */
+    double lim_stretch;                  /* the longest stretch of it, s */
+    int sup_trips;                       /* hiccups (the supply turned itself off) */
+    double e_stored;                     /* energy stored in the rail capacitors (and the
+                                            bypass) at the end less at the start, J */
 } br_stats;
 
 /* One UVLO transition, reported to an observer. */
@@ -65,7 +88,8 @@ typedef struct br_sim_observer {
     void *ctx;
     /* each UVLO transition */
     void (*uvlo)(void *ctx, const br_uvlo_event *e);
-    /* samples of the rails (t, vrail[n], ilink[n]) at accepted steps;
+    /* samples of the rails (t, vrail[n], ilink[n]) at accepted steps
+     * (ilink[0] is the supply's current, through its resistance);
      * s is the simulator at that instant, for br_sim_vdrv and
      * br_sim_switch_v (the driver supplies and the diodes' reverse
      * voltages), or NULL when the samples come from elsewhere */
@@ -152,6 +176,14 @@ double br_sim_vdrv(const br_sim *s, int k, double vr);
 
 /* The time PWM starts after the pre-charge steps, s. */
 double br_sim_pwm_start(const br_sim *s);
+
+/* The supply's current at the last evaluation, A, and whether it is at
+ * its current limit now (*limited may be NULL). */
+double br_sim_supply_current(const br_sim *s, int *limited);
+
+/* Hiccups of the supply since the last reset, and the time of the first
+ * (s, since the reset; -1 when none). */
+int br_sim_supply_trips(const br_sim *s, double *first);
 
 /* Evaluations of the link equations so far (for benchmarks). */
 unsigned long br_sim_evals(const br_sim *s);

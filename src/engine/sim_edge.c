@@ -54,7 +54,7 @@ static double sweep_r(const br_sim *s, int k)
 }
 
 int br_sim_edge_kind(const br_sim *s, int k, double ta, double tb, double fa, double fb,
-                     double *iblk)
+                     double *iblk, double *leak)
 {
     if (s->integ == BR_INTEG_REFERENCE || !(tb > ta))
         return BR_EDGE_NONE;
@@ -81,8 +81,21 @@ int br_sim_edge_kind(const br_sim *s, int k, double ta, double tb, double fa, do
     /* leakage over the mean drive, and the junction charge spread over
      * the interval (it goes back from rail k to rail k-1 as the drive
      * falls, and forward as it rises) */
-    *iblk = -br_diode_leak(d, -0.5 * (vjc + lo)) + (fa > fb ? -qj : qj) / (tb - ta);
+    *leak = br_diode_leak(d, -0.5 * (vjc + lo));
+    *iblk = -*leak + (fa > fb ? -qj : qj) / (tb - ta);
     return fa > fb ? BR_EDGE_START : BR_EDGE_END;
+}
+
+/* The energy budget of link k's sweep of charge q at the rate sig: with
+ * the rails still, the two rails' node voltages drive it through the
+ * diode, every resistance in its path and the return switch, whose share
+ * is what the others leave. */
+static void sweep_budget(br_sim *s, int k, const br_diode_sweep *w, double q, double sig)
+{
+    double rl = s->c->st[k].r_link, rsw = s->seg.rpath[k] - rl;
+    s->x[XI(k, F_LR)] += w->i2 * rl / sig;
+    s->x[XI(k, F_LS)] += w->i2 * rsw / sig;
+    s->x[XI(k, F_LD)] += q * (s->vr[k - 1] - s->vr[k]) - (w->i2 * sweep_r(s, k) + w->e) / sig;
 }
 
 /* Move the charge of link k's sweep to drive u (its value at the
@@ -99,10 +112,12 @@ static int sweep_link(br_sim *s, int k, double u, double t)
     s->x[XI(k, F_VC)] += q / br_sim_cap(s, k, s->x[XI(k, F_VC)]);
     if (k > 1 || br_sim_bypass(s))
         s->x[XI(k - 1, F_VC)] -= q / br_sim_cap(s, k - 1, s->x[XI(k - 1, F_VC)]);
-    if (k == 1 && !br_sim_bypass(s)) { /* straight from the supply */
+    if (k == 1 && !br_sim_bypass(s)) { /* straight from the supply, through its resistance */
         s->x[X_SQ] += q;
         s->x[X_SE] += q * (s->seg.vs0 + s->seg.vs_slope * (t - s->seg.t0));
+        s->x[X_SR] += s->c->rsupply * (w.i2 / sig + 2.0 * s->isup * q);
     }
+    sweep_budget(s, k, &w, q, sig);
     if (s->c->st[k].diode.tau > 0)
         s->x[XI(k, F_Q)] += q; /* the sweep lasts far less than tau */
     s->x[XI(k, F_LQ)] += q;

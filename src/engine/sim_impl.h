@@ -53,11 +53,27 @@ enum {
     F_RV,     /* rail voltage integral, V s */
     F_RI2,    /* capacitor current squared integral, A^2 s */
     F_RQL,    /* load charge (driver, LDO, clamp), C */
+    /* the energy budget: every watt the chain takes in or gives off */
+    F_LX, /* link: its current other than conduction (junction capacitance,
+             leakage) times the voltage across the diode, J */
+    F_LL, /* link: leakage current times reverse voltage, J */
+    F_LR, /* link: i^2 through its resistor, J */
+    F_LS, /* link: i^2 through its return switch's resistance, J */
+    F_LD, /* link: its current times its return switch's voltage, J (what
+             the power stage takes; negative: what it gives) */
+    F_RP, /* rail: its loads' current times the rail voltage, J */
+    F_RD, /* rail: driver running and isolator current times the driver
+             supply, J */
+    F_RS, /* rail: driver standby (UVLO) current times the driver supply, J */
+    F_RG, /* rail: gate-charge current times the driver supply, J */
+    F_RZ, /* rail: clamp current times the rail voltage, J */
     NF
 };
 #define XI(k, f) ((k)*NF + (f))
 #define X_SQ XI(0, F_LQ)  /* supply charge, C */
-#define X_SE XI(0, F_LI2) /* supply energy, J */
+#define X_SE XI(0, F_LI2) /* supply energy (its open-circuit voltage times its current), J */
+#define X_SR XI(0, F_LE)  /* supply resistance loss, J */
+#define X_SL XI(0, F_LR)  /* time the supply spends in its current limit, s */
 /* Optionally followed, from s->phi0 on, by the n x n sensitivity matrix
  * Phi = d vc(t) / d vc(t0) (row-major), integrated with the variational
  * equation dPhi/dt = A Phi, A the Jacobian of the rail equations. */
@@ -69,6 +85,9 @@ typedef struct br_seg {
     double vs0, vs_slope; /* supply voltage Vs(t) = vs0 + slope (t - t0) */
     double iload[BR_N];   /* driver + LDO + gate-pulse current of rail k, A */
     double igate[BR_N];   /* of which gate pulse, A */
+    double irun[BR_N];    /* of which running and isolator current, A */
+    double istb[BR_N];    /* of which standby (UVLO) current, A */
+    double ileak[BR_N];   /* a blocked link k's leakage (in iblk), A */
     int active[BR_N];     /* link k solved from the diode equation */
     int nactive;
     int act[BR_N];                 /* the active links in ascending order (nactive) */
@@ -105,8 +124,20 @@ struct br_sim {
     br_mask redo;             /* switches whose target must be found again
                                  at the next update whatever their state */
     double tramp_end;         /* supply still ramping before this time, s */
-    int toggles;              /* UVLO toggles at the current instant */
-    int frozen;               /* switching stopped (br_sim_freeze) */
+    /* the supply's current limit and its soft-start (sim_supply.c) */
+    double soft_t0;    /* the present soft-start began here, s (-HUGE_VAL: none) */
+    int sup_off;       /* a hiccup turned the supply off */
+    double sup_until;  /* off: the time of the retry, s (HUGE_VAL: off for good) */
+    double lim_since;  /* in its limit continuously since, s (HUGE_VAL: not in it) */
+    int sup_trips;     /* hiccups so far */
+    double sup_trip_t; /* time of the first hiccup, s */
+    int sup_lim;       /* the workspace's supply current is at its limit */
+    double isup;       /* the supply current at the last evaluation, A */
+    int trips0;        /* statistics: hiccups when they started */
+    double lim_t0;     /* statistics: the stretch in the limit began here, s
+                          (HUGE_VAL: not in it) */
+    int toggles;       /* UVLO toggles at the current instant */
+    int frozen;        /* switching stopped (br_sim_freeze) */
     /* the load current: it flows once loaded, from load_at (absolute, s;
      * HUGE_VAL: never), at magnitude iamp in the period in progress (A, 0
      * unless loaded), entering the switch node when isgn > 0 (step-up) */
@@ -177,6 +208,34 @@ struct br_sim {
     br_sim_observer obs;
 };
 
+/* ---- the supply (sim_supply.c) ---------------------------------------------
+ * Rail 0 is the supply: an open-circuit voltage Vs(t) behind Rs, ramped at
+ * power-up (ramp) and at every start by its soft-start; with a current
+ * limit (which needs the bypass capacitor, so that rail 0 is a state) the
+ * current through Rs is min((Vs - v0)/Rs, Ilim(v0)); a hiccup supply that
+ * stays in its limit for hiccup-delay turns off (no current) for
+ * hiccup-off and starts again with its soft-start. */
+
+/* The supply's state at a cold start (cold) or in steady running (0). */
+void br_sim_supply_reset(br_sim *s, int cold);
+/* Open-circuit voltage at t, V (0 while a hiccup holds it off). */
+double br_sim_supply_v(const br_sim *s, double t);
+/* The next instant after s->t at which the supply's law changes (a ramp
+ * ends, a hiccup timer expires, a retry), or HUGE_VAL. */
+double br_sim_supply_next(const br_sim *s);
+/* The hiccup timer at s->t, from the limit state of the last evaluation:
+ * may turn the supply off or on.  Returns 1 when it changed. */
+int br_sim_supply_step(br_sim *s);
+/* The current limit at output voltage v0, A (HUGE_VAL: none). */
+double br_sim_supply_limit(const br_sim *s, double v0);
+/* Current through Rs into the bypass capacitor at x0 from open-circuit
+ * voltage vs; sets s->sup_lim; *didx (may be NULL) its derivative in x0. */
+double br_sim_supply_bypass_i(br_sim *s, double vs, double x0, double *didx);
+/* 1 when the interval from s->t, with supply current ia now and heading
+ * for i0 at vinf, may meet the limit (or the supply is off): the closed
+ * form does not hold, the interval is integrated. */
+int br_sim_supply_needs_rk(const br_sim *s, double ia, double i0, double vinf);
+
 /* Fill s->esr from the chain. */
 void br_sim_cache_esr(br_sim *s);
 
@@ -219,9 +278,9 @@ int br_sim_bypass(const br_sim *s);
  * cross its conduction so fast, and the rails stay so still, that it is
  * taken in closed form?  Returns a BR_EDGE_* kind, and for an edge sets
  * *iblk to the link's current over the interval as blocked (leakage and
- * junction-capacitance charge). */
+ * junction-capacitance charge) and *leak to the leakage in it. */
 int br_sim_edge_kind(const br_sim *s, int k, double ta, double tb, double fa, double fb,
-                     double *iblk);
+                     double *iblk, double *leak);
 
 /* The charge links pass in the instant their edges sweep them through
  * conduction, moved between the rails at the interval's start (links cut

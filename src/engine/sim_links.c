@@ -89,12 +89,15 @@ static double supply_at(const br_seg *g, double t)
     return g->vs0 + g->vs_slope * (t - g->t0);
 }
 
-/* Current the supply delivers through its resistance. */
-static double supply_current(const br_sim *s, double t, const double *x, double iout)
+/* Current the supply delivers through its resistance (kept in s->isup). */
+static double supply_current(br_sim *s, double t, const double *x, double iout)
 {
     if (br_sim_bypass(s))
-        return (supply_at(&s->seg, t) - x[XI(0, F_VC)]) / s->c->rsupply;
-    return iout + s->seg.iload[0];
+        s->isup = br_sim_supply_bypass_i(s, supply_at(&s->seg, t), x[XI(0, F_VC)], NULL);
+    else
+        s->isup = iout + s->seg.iload[0];
+    s->il[0] = s->isup; /* link 0 does not exist: observers read the supply there */
+    return s->isup;
 }
 
 /* Rail node voltages for link currents il (capacitor voltages x). */
@@ -251,11 +254,13 @@ static void solve_links(br_sim *s, double t, const double *x)
  * from the link solve by the implicit-function theorem: the Newton matrix
  * Jr gives dil/dvc_j = -Jr^-1 dr/dvc_j, where r_k depends on vc_{k-1}
  * through +gd_k and on vc_k through -gd_k. */
-static void variational(br_sim *s, const double *x, double *dx)
+static void variational(br_sim *s, double t, const double *x, double *dx)
 {
     const br_seg *g = &s->seg;
     int n = s->n, bp = br_sim_bypass(s);
-    double a[BR_N], b[BR_N], c[BR_N], D[BR_N][BR_N], A[BR_N][BR_N];
+    double a[BR_N], b[BR_N], c[BR_N], D[BR_N][BR_N], A[BR_N][BR_N], di0 = 0.0;
+    if (bp) /* the supply current's slope in the bypass voltage (its limit's, when it limits) */
+        br_sim_supply_bypass_i(s, supply_at(g, t), x[XI(0, F_VC)], &di0);
     for (int k = 1; k < n; k++) {
         int on = g->active[k];
         double gd = on ? s->gd[k] : 0.0, el = s->esr_now[k - 1], eh = s->esr_now[k];
@@ -284,7 +289,7 @@ static void variational(br_sim *s, const double *x, double *dx)
         for (int j = 0; j < n; j++) {
             double dout = k + 1 < n ? D[k + 1][j] : 0.0;
             if (k == 0) {
-                A[0][j] = bp ? (-(j == 0) / s->c->rsupply - dout) / s->c->csupply : 0.0;
+                A[0][j] = bp ? ((j == 0) * di0 - dout) / s->c->csupply : 0.0;
                 continue;
             }
             const br_aux *z = &s->c->st[k].aux;
@@ -310,25 +315,53 @@ static void variational(br_sim *s, const double *x, double *dx)
     }
 }
 
-/* Derivatives of the quadratures behind the statistics. */
+/* Derivatives of the quadratures behind the statistics and the energy
+ * budget.  A link's current times the voltage across it splits into its
+ * diode (conduction, and the rest: junction capacitance, leakage), its
+ * resistor and return switch (i^2 R, active links only: a blocked link is
+ * a current between the rails) and the power stage (the return switch's
+ * voltage at the load current), exactly: u = vr[k-1] - vr[k] - d. */
+static void link_quadratures(br_sim *s, int k, double t, double *dx)
+{
+    const br_seg *g = &s->seg;
+    double i = s->il[k], fw = br_sim_forward(s, k);
+    double d = g->d0[k] + g->dslope[k] * (t - g->t0);
+    double u = s->vr[k - 1] - s->vr[k] - d;
+    double vd = g->active[k] ? u - i * g->rpath[k] : u;
+    double rl = g->active[k] ? s->c->st[k].r_link : 0.0;
+    double rsw = g->active[k] ? g->rpath[k] - s->c->st[k].r_link : 0.0;
+    dx[XI(k, F_LQ)] = i; /* all of it: the mean current */
+    dx[XI(k, F_LI2)] = fw * fw;
+    dx[XI(k, F_LE)] = fw * vd;
+    dx[XI(k, F_LX)] = (i - fw) * vd;
+    dx[XI(k, F_LL)] = g->active[k] ? 0.0 : -g->ileak[k] * u;
+    dx[XI(k, F_LR)] = i * i * rl;
+    dx[XI(k, F_LS)] = i * i * rsw;
+    dx[XI(k, F_LD)] = i * d;
+}
+
 static void quadratures(br_sim *s, double t, const double *x, double *dx)
 {
     const br_seg *g = &s->seg;
     for (int k = 0; k < s->n; k++) {
+        double vd = br_sim_vdrv(s, k, s->vr[k]);
         dx[XI(k, F_RV)] = s->vr[k];
         dx[XI(k, F_RQL)] = g->iload[k] + s->iz[k];
+        dx[XI(k, F_RP)] = g->iload[k] * s->vr[k];
+        dx[XI(k, F_RD)] = g->irun[k] * vd;
+        dx[XI(k, F_RS)] = g->istb[k] * vd;
+        dx[XI(k, F_RG)] = g->igate[k] * vd;
+        dx[XI(k, F_RZ)] = s->iz[k] * s->vr[k];
         if (k == 0)
             continue;
-        double i = s->il[k], fw = br_sim_forward(s, k);
-        double u = s->vr[k - 1] - s->vr[k] - (g->d0[k] + g->dslope[k] * (t - g->t0));
-        dx[XI(k, F_LQ)] = i; /* all of it: the mean current */
-        dx[XI(k, F_LI2)] = fw * fw;
-        dx[XI(k, F_LE)] = fw * (u - i * g->rpath[k]);
+        link_quadratures(s, k, t, dx);
         dx[XI(k, F_RI2)] = s->ic[k] * s->ic[k];
     }
     double isup = supply_current(s, t, x, s->n > 1 ? s->il[1] : 0.0);
     dx[X_SQ] = isup;
     dx[X_SE] = isup * supply_at(g, t);
+    dx[X_SR] = isup * isup * s->c->rsupply;
+    dx[X_SL] = s->sup_lim;
 }
 
 void br_sim_clamp_limit(br_sim *s)
@@ -338,7 +371,9 @@ void br_sim_clamp_limit(br_sim *s)
         double v = s->x[XI(k, F_VC)];
         if (a->kind != BR_AUX_ZENER || a->rz > 0 || !(v > a->vout))
             continue;
-        s->x[XI(k, F_RQL)] += br_sim_cap(s, k, v) * (v - a->vout); /* into the clamp */
+        double q = br_sim_cap(s, k, v) * (v - a->vout);
+        s->x[XI(k, F_RQL)] += q; /* into the clamp */
+        s->x[XI(k, F_RZ)] += q * 0.5 * (v + a->vout);
         s->x[XI(k, F_VC)] = a->vout;
         s->k1_valid = 0;
         for (int j = 0; s->var && j < s->n; j++) /* held: it forgets where it started */
@@ -392,5 +427,5 @@ void br_sim_rhs(br_sim *s, double t, const double *x, double *dx)
     if (s->stats_on || s->integ == BR_INTEG_REFERENCE)
         quadratures(s, t, x, dx);
     if (s->var)
-        variational(s, x, dx);
+        variational(s, t, x, dx);
 }

@@ -72,13 +72,110 @@ static int read_operating_point(br_rd *r, xmlNode *n)
     return read_load(r, n);
 }
 
+/* Attribute attr of n belongs to one limit mode only. */
+static int mode_only(br_rd *r, xmlNode *n, const char *attr, const char *mode)
+{
+    return br_rd_fail(r, n, attr, "read only with limit-mode=\"%s\", expected it left out here",
+                      mode);
+}
+
+/* The mode of the current limit; the limit itself is current-limit. */
+static int read_limit_mode(br_rd *r, xmlNode *n, int has_limit)
+{
+    char v[16];
+    int has = br_xml_attr(n, "limit-mode", v, sizeof v);
+    br_design *d = r->d;
+    if (has != 0 && !has_limit)
+        return br_rd_fail(r, n, "limit-mode",
+                          "given without current-limit, expected current-limit=\"...\" too");
+    d->limit_mode = !has_limit                           ? BR_SUPPLY_UNLIMITED
+                    : has == 0 || !strcmp(v, "constant") ? BR_SUPPLY_CONSTANT
+                    : !strcmp(v, "foldback")             ? BR_SUPPLY_FOLDBACK
+                    : !strcmp(v, "hiccup")               ? BR_SUPPLY_HICCUP
+                                                         : -1;
+    if (d->limit_mode < 0)
+        return br_rd_fail(r, n, "limit-mode", "got '%s', expected constant, foldback or hiccup",
+                          has > 0 ? v : "(too long)");
+    return BR_OK;
+}
+
+/* A limited supply's output voltage is what charges its output
+ * capacitance: the model keeps it as a state, which needs a capacitor
+ * behind a resistance. */
+static int limit_needs_bypass(br_rd *r, xmlNode *n)
+{
+    const br_design *d = r->d;
+    if (d->csupply.min > 0 && d->rsupply.min > 0)
+        return BR_OK;
+    return br_rd_fail(r, n, "current-limit",
+                      "needs bypass > 0 (the supply's output capacitance and the local bypass, "
+                      "which the limited current charges) and resistance > 0 (the output "
+                      "resistance while it regulates), expected both, e.g. bypass=\"22 uF\" "
+                      "resistance=\"50 mohm\"");
+}
+
+static int read_foldback(br_rd *r, xmlNode *n)
+{
+    br_design *d = r->d;
+    int has;
+    const br_range fold = {0.0, d->ilimit.min, 0, 1, "a current from 0 to below current-limit"};
+    BR_TRY(br_rd_qty(r, n, "foldback-current", BR_KIND_CURRENT, &fold, &d->ifold, &has));
+    if (has && d->limit_mode != BR_SUPPLY_FOLDBACK)
+        return mode_only(r, n, "foldback-current", "foldback");
+    if (!has && d->limit_mode == BR_SUPPLY_FOLDBACK)
+        return br_rd_fail(r, n, "foldback-current",
+                          "missing, expected the limit at 0 V output with "
+                          "limit-mode=\"foldback\" (it folds back linearly from current-limit "
+                          "at the set voltage)");
+    return BR_OK;
+}
+
+static int read_hiccup(br_rd *r, xmlNode *n)
+{
+    br_design *d = r->d;
+    int hiccup = d->limit_mode == BR_SUPPLY_HICCUP, has_delay, has_off;
+    BR_TRY(br_rd_qty(r, n, "hiccup-delay", BR_KIND_TIME, &br_range_nonneg, &d->hiccup_delay,
+                     &has_delay));
+    BR_TRY(br_rd_qty(r, n, "hiccup-off", BR_KIND_TIME, &br_range_pos, &d->hiccup_off, &has_off));
+    int has_retries = xmlHasProp(n, (const xmlChar *)"hiccup-retries") != NULL;
+    if (has_retries)
+        BR_TRY(br_rd_int(r, n, "hiccup-retries", 0, BR_DROPOUTS_MAX, &d->hiccup_retries));
+    if (!hiccup && (has_delay || has_off || has_retries))
+        return mode_only(r, n,
+                         has_delay ? "hiccup-delay"
+                         : has_off ? "hiccup-off"
+                                   : "hiccup-retries",
+                         "hiccup");
+    if (hiccup && !has_off)
+        return br_rd_fail(r, n, "hiccup-off",
+                          "missing, expected the time the supply stays off before it retries "
+                          "with limit-mode=\"hiccup\"");
+    return BR_OK;
+}
+
+/* The current limit and how the supply behaves there. */
+static int read_limit(br_rd *r, xmlNode *n)
+{
+    br_design *d = r->d;
+    int has;
+    BR_TRY(br_rd_qty(r, n, "current-limit", BR_KIND_CURRENT, &br_range_pos, &d->ilimit, &has));
+    BR_TRY(read_limit_mode(r, n, has));
+    if (has)
+        BR_TRY(limit_needs_bypass(r, n));
+    BR_TRY(read_foldback(r, n));
+    return read_hiccup(r, n);
+}
+
 static int read_supply(br_rd *r, xmlNode *n)
 {
     br_design *d = r->d;
     BR_TRY(br_rd_qty(r, n, "voltage", BR_KIND_VOLTAGE, &br_range_pos, &d->vsupply, NULL));
     BR_TRY(br_rd_qty(r, n, "resistance", BR_KIND_RESISTANCE, &br_range_nonneg, &d->rsupply, NULL));
     BR_TRY(br_rd_qty(r, n, "ramp", BR_KIND_TIME, &br_range_nonneg, &d->tramp, NULL));
-    return br_rd_qty(r, n, "bypass", BR_KIND_CAPACITANCE, &br_range_nonneg, &d->csupply, NULL);
+    BR_TRY(br_rd_qty(r, n, "bypass", BR_KIND_CAPACITANCE, &br_range_nonneg, &d->csupply, NULL));
+    BR_TRY(br_rd_qty(r, n, "soft-start", BR_KIND_TIME, &br_range_nonneg, &d->tsoft, NULL));
+    BR_TRY(br_rd_qty(r, n, "rating", BR_KIND_CURRENT, &br_range_pos, &d->irating, NULL));
+    return read_limit(r, n);
 }
 
 /* ---- topology --------------------------------------------------------------- */
@@ -272,6 +369,9 @@ static int read_assignment(br_rd *r, xmlNode *n, br_stage_spec *s)
     BR_TRY(resolve(r, n, "driver", PK_DRIVER, &s->driver));
     BR_TRY(resolve(r, n, "switch", PK_SWITCH, &s->sw));
     BR_TRY(resolve(r, n, "rail-extra", PK_AUX, &s->aux));
+    int has_rth;
+    BR_TRY(br_rd_qty(r, n, "diode-rth", BR_KIND_THERMAL_R, &br_range_nonneg, &s->rth, &has_rth));
+    s->rth_given |= has_rth; /* an override keeps the default's unless it gives its own */
     return br_rd_qty(r, n, "link-resistor", BR_KIND_RESISTANCE, &br_range_nonneg, &s->r_link, NULL);
 }
 
@@ -406,6 +506,7 @@ static int read_analysis(br_rd *r, xmlNode *n)
     BR_TRY(br_rd_qty(r, n, "min-drive", BR_KIND_VOLTAGE, &br_range_nonneg, &d->min_drive, NULL));
     BR_TRY(br_rd_qty(r, n, "derating", BR_KIND_FRACTION, &r_derating, &d->derating, NULL));
     BR_TRY(br_rd_qty(r, n, "max-startup", BR_KIND_TIME, &br_range_pos, &d->startup_max, NULL));
+    BR_TRY(br_rd_qty(r, n, "cap-derating", BR_KIND_FRACTION, &r_derating, &d->cap_derating, NULL));
     if (xmlHasProp(n, (const xmlChar *)"max-dropouts"))
         BR_TRY(br_rd_int(r, n, "max-dropouts", 0, BR_DROPOUTS_MAX, &d->max_dropouts));
     if (!xmlHasProp(n, (const xmlChar *)"hold-on"))

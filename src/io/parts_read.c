@@ -69,6 +69,16 @@ static int room(br_rd *r, xmlNode *n, int count, const char *what)
     return BR_OK;
 }
 
+/* ---- heat ------------------------------------------------------------------- */
+
+/* Thermal resistance to ambient and the maximum junction temperature of
+ * a diode, regulator or clamp. */
+static int read_heat(br_rd *r, xmlNode *n, br_qty *rth, br_qty *tj_max)
+{
+    BR_TRY(br_rd_qty(r, n, "rth", BR_KIND_THERMAL_R, &br_range_nonneg, rth, NULL));
+    return br_rd_qty(r, n, "tj-max", BR_KIND_TEMPERATURE, &r_temp, tj_max, NULL);
+}
+
 /* ---- diodes ------------------------------------------------------------------ */
 
 /* tau directly, or from recovery figures: tau = qrr / if (charge control,
@@ -171,6 +181,8 @@ static int read_diode(br_rd *r, xmlNode *n)
     BR_TRY(br_rd_qty(r, n, "ifsm", BR_KIND_CURRENT, &br_range_nonneg, &p->ifsm, NULL));
     BR_TRY(br_rd_qty(r, n, "ifrm", BR_KIND_CURRENT, &br_range_nonneg, &p->ifrm, NULL));
     BR_TRY(br_rd_qty(r, n, "i2t", BR_KIND_I2T, &br_range_nonneg, &p->i2t, NULL));
+    BR_TRY(read_heat(r, n, &p->rth, &p->tj_max));
+    BR_TRY(br_rd_qty(r, n, "if-avg", BR_KIND_CURRENT, &br_range_nonneg, &p->if_avg, NULL));
     d->ndiodes++;
     return BR_OK;
 }
@@ -194,6 +206,45 @@ static int read_bias(br_rd *r, xmlNode *n, br_cap_part *p)
     return BR_OK;
 }
 
+/* C(T)/C(25 C) at temperatures ascending; the ambient picks the factor,
+ * so that corners and samples move it with everything else that heats. */
+static int read_temp_table(br_rd *r, xmlNode *n, br_cap_part *p, int has_tfactor)
+{
+    int k = 0, count = br_xml_count(n, "temp");
+    if (count > BR_MAX_BIAS_POINTS)
+        return br_rd_fail(r, n, "temp", "%d points, expected at most %d", count,
+                          BR_MAX_BIAS_POINTS);
+    if (count > 0 && has_tfactor)
+        return br_rd_fail(r, n, "temp-factor",
+                          "a <temp> table is given too, expected either temp-factor (one "
+                          "factor) or the table (read at the ambient)");
+    for (xmlNode *b = br_xml_child(n, "temp"); b; b = br_xml_next(b, "temp"), k++) {
+        BR_TRY(br_rd_value(r, b, "t", BR_KIND_TEMPERATURE, &r_temp, &p->temp_t[k], NULL));
+        BR_TRY(br_rd_value(r, b, "factor", BR_KIND_FRACTION, &r_tfactor, &p->temp_f[k], NULL));
+        if (k > 0 && !(p->temp_t[k] > p->temp_t[k - 1]))
+            return br_rd_fail(r, b, "t",
+                              "%.2f C after %.2f C, expected temperature points ascending in t",
+                              p->temp_t[k] - BR_ZERO_CELSIUS, p->temp_t[k - 1] - BR_ZERO_CELSIUS);
+    }
+    p->ntemp = k;
+    return BR_OK;
+}
+
+static int read_dielectric(br_rd *r, xmlNode *n, br_cap_part *p)
+{
+    char v[16];
+    int has = br_xml_attr(n, "dielectric", v, sizeof v);
+    p->dielectric = has == 0                           ? BR_DIEL_UNSTATED
+                    : has > 0 && !strcmp(v, "class-1") ? BR_DIEL_CLASS1
+                    : has > 0 && !strcmp(v, "class-2") ? BR_DIEL_CLASS2
+                    : has > 0 && !strcmp(v, "other")   ? BR_DIEL_OTHER
+                                                       : -1;
+    if (p->dielectric < 0)
+        return br_rd_fail(r, n, "dielectric", "got '%s', expected class-1, class-2 or other",
+                          has > 0 ? v : "(too long)");
+    return BR_OK;
+}
+
 static int read_capacitor(br_rd *r, xmlNode *n)
 {
     static const br_range r_c = {0.0, INFINITY, 1, 1, "a capacitance > 0"};
@@ -207,9 +258,13 @@ static int read_capacitor(br_rd *r, xmlNode *n)
     BR_TRY(br_rd_qty(r, n, "c", BR_KIND_CAPACITANCE, &r_c, &p->c, NULL));
     BR_TRY(br_rd_qty(r, n, "esr", BR_KIND_RESISTANCE, &br_range_nonneg, &p->esr, NULL));
     BR_TRY(br_rd_qty(r, n, "rating", BR_KIND_VOLTAGE, &br_range_pos, &p->vrated, NULL));
-    BR_TRY(br_rd_qty(r, n, "temp-factor", BR_KIND_FRACTION, &r_tfactor, &p->tfactor, NULL));
+    int has_tf;
+    BR_TRY(br_rd_qty(r, n, "temp-factor", BR_KIND_FRACTION, &r_tfactor, &p->tfactor, &has_tf));
     BR_TRY(br_rd_qty(r, n, "aging", BR_KIND_FRACTION, &r_unit, &p->aging, NULL));
+    BR_TRY(br_rd_qty(r, n, "ripple", BR_KIND_CURRENT, &br_range_pos, &p->iripple, NULL));
+    BR_TRY(read_dielectric(r, n, p));
     BR_TRY(read_bias(r, n, p));
+    BR_TRY(read_temp_table(r, n, p, has_tf));
     d->ncaps++;
     return BR_OK;
 }
@@ -356,6 +411,8 @@ static int read_aux(br_rd *r, xmlNode *n, int kind)
         BR_TRY(br_rd_qty(r, n, "vz", BR_KIND_VOLTAGE, &br_range_pos, &p->vout, NULL));
         BR_TRY(br_rd_qty(r, n, "rz", BR_KIND_RESISTANCE, &br_range_nonneg, &p->rz, NULL));
     }
+    BR_TRY(br_rd_qty(r, n, "power-rating", BR_KIND_POWER, &br_range_pos, &p->pmax, NULL));
+    BR_TRY(read_heat(r, n, &p->rth, &p->tj_max));
     d->naux++;
     return BR_OK;
 }

@@ -77,7 +77,8 @@ static int ordinal(xmlNode *n)
 /* Elements that repeat without a name of their own are counted. */
 static int is_counted(const char *name)
 {
-    static const char *const counted[] = {"forward", "bias", "on", "reverse", "precharge", NULL};
+    static const char *const counted[] = {"forward", "bias",      "temp", "on",
+                                          "reverse", "precharge", NULL};
     for (int i = 0; counted[i]; i++)
         if (strcmp(name, counted[i]) == 0)
             return 1;
@@ -332,7 +333,8 @@ typedef struct rule {
     int ordered;          /* children at most once each, in the order listed */
 } rule;
 
-#define STAGE_ATTRS "rail-extra link-resistor"
+#define STAGE_ATTRS "rail-extra link-resistor diode-rth"
+#define AUX_HEAT "power-rating rth tj-max"
 static const rule rules[] = {
     {"", "bootrung-design", "!version=1 name",
      "!operating-point !supply !topology !parts !stages startup analysis", 1},
@@ -340,7 +342,10 @@ static const rule rules[] = {
      "!vin !fsw duty dead-time ambient current=step-down|step-up|both|none imbalance edge-time "
      "overshoot load-current load-from switch-tj",
      "", 0},
-    {"bootrung-design", "supply", "!voltage resistance ramp bypass", "", 0},
+    {"bootrung-design", "supply",
+     "!voltage resistance ramp bypass current-limit limit-mode=constant|foldback|hiccup "
+     "foldback-current hiccup-delay hiccup-off hiccup-retries soft-start rating",
+     "", 0},
     {"bootrung-design", "topology", "", "!fcml|string", 1},
     {"topology", "fcml", "!levels cfly", "", 0},
     {"topology", "string", "", "!switch", 0},
@@ -350,23 +355,26 @@ static const rule rules[] = {
     {"bootrung-design", "parts", "", "diode capacitor driver switch regulator clamp", 0},
     {"parts", "diode",
      "!id is n rs ref-temp cj0 vj m tau qrr if eg xti ir ir-temp ir-doubling vrrm ifsm ifrm "
-     "i2t",
+     "i2t if-avg rth tj-max",
      "forward", 0},
     {"diode", "forward", "!i !v", "", 0},
-    {"parts", "capacitor", "!id !c esr rating temp-factor aging", "bias", 0},
+    {"parts", "capacitor",
+     "!id !c esr rating temp-factor aging ripple dielectric=class-1|class-2|other", "bias temp", 0},
     {"capacitor", "bias", "!v !factor", "", 0},
+    {"capacitor", "temp", "!t !factor", "", 0},
     {"parts", "driver", "!id uvlo-rise uvlo-fall iq-run iq-uvlo iq-isolator gate-off", "", 0},
     {"parts", "switch",
      "!id rds-on rds-on-temp rds-on-exp rds-on-hot rds-on-hot-temp qg qg-at gate-pulse "
      "reverse=diode|channel vsd vth reverse-r vgs-rec vgs-max",
      "", 0},
-    {"parts", "regulator", "!id !vout dropout iq", "", 0},
-    {"parts", "clamp", "!id !vz rz", "", 0},
+    {"parts", "regulator", "!id !vout dropout iq " AUX_HEAT, "", 0},
+    {"parts", "clamp", "!id !vz rz " AUX_HEAT, "", 0},
     {"bootrung-design", "stages", "!diode !capacitor !driver !switch " STAGE_ATTRS, "stage", 0},
     {"stages", "stage", "!index diode capacitor driver switch " STAGE_ATTRS, "", 0},
     {"bootrung-design", "startup", "", "precharge", 0},
     {"startup", "precharge", "!switches !duration", "", 0},
-    {"bootrung-design", "analysis", "min-drive derating max-startup max-dropouts hold-on", "", 0},
+    {"bootrung-design", "analysis",
+     "min-drive derating max-startup max-dropouts cap-derating hold-on", "", 0},
 };
 
 static const rule *find_rule(const char *parent, const char *name)

@@ -54,6 +54,9 @@ static void resolve_aux(const br_design *d, int idx, br_aux *o)
     o->dropout = p->dropout.nom;
     o->iq = p->iq.nom;
     o->rz = p->rz.nom;
+    o->pmax = p->pmax.nom;
+    o->rth = p->rth.nom;
+    o->tj_max = p->tj_max.nom;
 }
 
 static int part_index_ok(int idx, int count)
@@ -76,9 +79,22 @@ static int resolve_parts(const br_design *d, const br_chain *c, int k, br_stage 
     if (!part_index_ok(sp->diode, d->ndiodes) || !part_index_ok(sp->cap, d->ncaps))
         return br_error_set(err, BR_EINPUT, d->path, line, "stages",
                             "stage %d has no diode or capacitor part, expected both", k);
-    br_cap_at_nominal(&d->caps[sp->cap], &st->cap);
+    br_cap_at_nominal(&d->caps[sp->cap], c->tamb, &st->cap);
     st->r_link = sp->r_link.nom;
-    return br_diode_at(&d->diodes[sp->diode], c->tamb, &st->diode, err);
+    int rc = br_diode_at(&d->diodes[sp->diode], c->tamb, &st->diode, err);
+    if (rc == BR_OK && sp->rth_given)
+        st->diode.rth = sp->rth.nom; /* the stage's board, not the part's */
+    return rc;
+}
+
+int br_chain_diode_at(br_chain *c, int k, double T, br_error *err)
+{
+    const br_design *d = c->design;
+    const br_stage_spec *sp = br_design_stage(d, k);
+    double rth = c->st[k].diode.rth;
+    int rc = br_diode_at(&d->diodes[sp->diode], T, &c->st[k].diode, err);
+    c->st[k].diode.rth = rth;
+    return rc;
 }
 
 /* FCML: names, windows and dead times from the generator. */
@@ -165,6 +181,14 @@ static void copy_operating_point(const br_design *d, br_chain *c)
     c->vsupply = d->vsupply.nom;
     c->rsupply = d->rsupply.nom;
     c->csupply = d->csupply.nom;
+    c->limit_mode = d->limit_mode;
+    c->ilimit = d->ilimit.nom;
+    c->ifold = d->ifold.nom;
+    c->hiccup_delay = d->hiccup_delay.nom;
+    c->hiccup_off = d->hiccup_off.nom;
+    c->hiccup_retries = d->hiccup_retries;
+    c->tsoft = d->tsoft.nom;
+    c->irating = d->irating.nom;
     c->tramp = d->tramp.nom;
     c->direction = d->direction;
     c->nprecharge = d->nprecharge;
@@ -172,6 +196,7 @@ static void copy_operating_point(const br_design *d, br_chain *c)
     c->min_drive = d->min_drive.nom;
     c->derating = d->derating.nom;
     c->startup_max = d->startup_max.nom;
+    c->cap_derating = d->cap_derating.nom;
     c->max_dropouts = d->max_dropouts;
 }
 

@@ -28,6 +28,11 @@ typedef struct br_diode {
     double ifsm;    /* surge current rating, one pulse, A (0: not given) */
     double ifrm;    /* repetitive peak forward current rating, A (0: not given) */
     double i2t;     /* I2t rating, A^2 s (0: not given) */
+    double if_avg;  /* average forward current rating, A (0: not given) */
+    double rth;     /* thermal resistance junction to ambient on its stage, K/W
+                       (0: the junction stays at the ambient) */
+    double tj_max;  /* maximum junction temperature, K (0: not given) */
+    double tj;      /* junction temperature it is resolved at, K */
 } br_diode;
 
 typedef struct br_cap {
@@ -38,6 +43,9 @@ typedef struct br_cap {
     double vrated; /* V */
     int nbias;     /* DC-bias table (from the part) */
     const double *bias_v, *bias_f;
+    double iripple; /* RMS ripple current rating, A (0: not given) */
+    int class2;     /* a class II ceramic (stated, or a DC-bias table without a
+                       stated dielectric) */
 } br_cap;
 
 typedef struct br_driver {
@@ -61,6 +69,9 @@ typedef struct br_aux {
     const char *id; /* NULL when the rail has none */
     int kind;       /* br_rail_aux */
     double vout, dropout, iq, rz;
+    double pmax;   /* dissipation rating, W (0: not given) */
+    double rth;    /* junction to ambient, K/W (0: not given) */
+    double tj_max; /* K (0: not given) */
 } br_aux;
 
 typedef struct br_stage {
@@ -102,11 +113,18 @@ struct br_chain {
     double overshoot;                     /* fraction of vblock */
     double vsupply, rsupply, tramp;       /* V, ohm, s */
     double csupply;                       /* rail-0 bypass capacitance, F (0: none) */
+    int limit_mode;                       /* br_supply_limit */
+    double ilimit, ifold;                 /* current limit, and its fold-back at 0 V, A */
+    double hiccup_delay, hiccup_off;      /* s */
+    int hiccup_retries;                   /* -1: no end */
+    double tsoft;                         /* soft-start, s */
+    double irating;                       /* supply's rated current, A (0: not given) */
     int direction;                        /* br_direction */
     int nprecharge;
     br_precharge precharge[BR_MAX_PRECHARGE];
     double min_drive, derating, startup_max;
-    int max_dropouts; /* start-up dropouts allowed per stage, -1: not stated */
+    double cap_derating; /* class II ceramics' voltage derating (design rule) */
+    int max_dropouts;    /* start-up dropouts allowed per stage, -1: not stated */
 };
 
 /* Build at explicit values: d with every br_qty read at .nom. */
@@ -123,8 +141,14 @@ double br_thermal_voltage(double T);
 /* Resolve a diode part at junction temperature T (K). */
 int br_diode_at(const br_diode_part *p, double T, br_diode *out, br_error *err);
 
-/* A capacitor part with its tolerance-free nominal factors applied. */
-void br_cap_at_nominal(const br_cap_part *p, br_cap *out);
+/* A capacitor part with its tolerance-free nominal factors applied; its
+ * temperature table, when it has one, read at the ambient T (K) in place
+ * of temp-factor. */
+void br_cap_at_nominal(const br_cap_part *p, double T, br_cap *out);
+
+/* Rebuild link k's diode (k >= 1) of chain c at junction temperature T
+ * (K), keeping its thermal resistance.  BR_EINPUT as br_diode_at. */
+int br_chain_diode_at(br_chain *c, int k, double T, br_error *err);
 
 /* Effective capacitance of rail k at bias v (DC-bias table applied), F. */
 double br_cap_at(const br_cap *cap, double v);
@@ -137,6 +161,10 @@ double br_cap_charge(const br_cap *cap, double va, double vb);
 /* The voltage a capacitor at v0 reaches once it has taken charge dq
  * (negative: given it): the inverse of br_cap_charge, V. */
 double br_cap_after_charge(const br_cap *cap, double v0, double dq);
+
+/* Energy a capacitor holds at v, the integral of br_cap_at(u) u du from
+ * 0 to v, exact for the piecewise-linear DC-bias line, J. */
+double br_cap_energy(const br_cap *cap, double v);
 
 /* Gate charge drawn at a turn-on edge when the drive voltage is v, C. */
 double br_sw_qg_at(const br_sw *sw, double v);

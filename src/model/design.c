@@ -17,6 +17,8 @@ static void default_stage(br_stage_spec *s)
     s->diode = s->cap = s->driver = s->sw = 0;
     s->aux = -1;
     s->r_link = br_qty_fixed(0.0);
+    s->rth = br_qty_fixed(0.0);
+    s->rth_given = 0;
     s->line = 0;
 }
 
@@ -41,12 +43,21 @@ br_design *br_design_create(void)
     d->rsupply = br_qty_fixed(0.0);
     d->tramp = br_qty_fixed(0.0);
     d->csupply = br_qty_fixed(0.0);
+    d->limit_mode = BR_SUPPLY_UNLIMITED;
+    d->ilimit = br_qty_fixed(0.0);
+    d->ifold = br_qty_fixed(0.0);
+    d->hiccup_delay = br_qty_fixed(0.0);
+    d->hiccup_off = br_qty_fixed(0.0);
+    d->hiccup_retries = -1;
+    d->tsoft = br_qty_fixed(0.0);
+    d->irating = br_qty_fixed(0.0);
     d->topology = BR_TOPO_FCML;
     d->levels = 2;
     default_stage(&d->def);
     d->min_drive = br_qty_fixed(0.0);
     d->derating = br_qty_fixed(0.8); /* common practice: 80 % of VRRM */
     d->startup_max = br_qty_fixed(20e-3);
+    d->cap_derating = br_qty_fixed(0.5); /* class II ceramics, common practice */
     d->max_dropouts = -1;
     return d;
 }
@@ -88,6 +99,9 @@ void br_diode_part_defaults(br_diode_part *p)
     p->ifsm = br_qty_fixed(0.0);
     p->ifrm = br_qty_fixed(0.0);
     p->i2t = br_qty_fixed(0.0);
+    p->if_avg = br_qty_fixed(0.0);
+    p->rth = br_qty_fixed(0.0);
+    p->tj_max = br_qty_fixed(0.0);
     p->tnom = 27.0 + KELVIN; /* the usual reference temperature of diode models */
 }
 
@@ -98,7 +112,10 @@ void br_cap_part_defaults(br_cap_part *p)
     p->vrated = br_qty_fixed(0.0);
     p->tfactor = br_qty_fixed(1.0);
     p->aging = br_qty_fixed(1.0);
+    p->iripple = br_qty_fixed(0.0);
+    p->dielectric = BR_DIEL_UNSTATED;
     p->nbias = 0;
+    p->ntemp = 0;
 }
 
 void br_driver_part_defaults(br_driver_part *p)
@@ -135,4 +152,7 @@ void br_aux_part_defaults(br_aux_part *p)
     p->dropout = br_qty_fixed(0.0);
     p->iq = br_qty_fixed(0.0);
     p->rz = br_qty_fixed(0.0);
+    p->pmax = br_qty_fixed(0.0);
+    p->rth = br_qty_fixed(0.0);
+    p->tj_max = br_qty_fixed(0.0);
 }

@@ -66,8 +66,20 @@ typedef struct br_diode_part {
     br_qty ifsm;      /* non-repetitive surge current rating (one pulse), A */
     br_qty ifrm;      /* repetitive peak forward current rating, A */
     br_qty i2t;       /* I2t rating (integral of i^2 over a surge), A^2 s */
+    br_qty if_avg;    /* average forward current rating, A (0: not given) */
+    br_qty rth;       /* thermal resistance junction to ambient, K/W (0: the
+                         junction stays at the ambient); a stage may give its own */
+    br_qty tj_max;    /* maximum junction temperature, K (0: not given) */
     double tnom;      /* temperature of is/n/rs, K */
 } br_diode_part;
+
+/* What a capacitor is made of, for the voltage derating rule. */
+typedef enum br_dielectric {
+    BR_DIEL_UNSTATED = 0, /* class II ceramic when it has a DC-bias table */
+    BR_DIEL_CLASS1,       /* class I ceramic (C0G/NP0): no DC-bias loss */
+    BR_DIEL_CLASS2,       /* class II ceramic (X7R, X5R, ...) */
+    BR_DIEL_OTHER         /* film, electrolytic, polymer */
+} br_dielectric;
 
 typedef struct br_cap_part {
     char id[BR_ID_MAX];
@@ -77,9 +89,16 @@ typedef struct br_cap_part {
     br_qty vrated;                     /* voltage rating, V */
     br_qty tfactor;                    /* capacitance factor at the operating temperature */
     br_qty aging;                      /* capacitance factor after aging (1 = none) */
+    br_qty iripple;                    /* RMS ripple current rating, A (0: not given) */
+    int dielectric;                    /* br_dielectric */
     int nbias;                         /* points in the DC-bias table (0: flat) */
     double bias_v[BR_MAX_BIAS_POINTS]; /* bias voltage, V, ascending */
     double bias_f[BR_MAX_BIAS_POINTS]; /* C(v)/C(0), interpolated linearly */
+    int ntemp;                         /* points of the temperature table (0: none,
+                                          temp-factor applies) */
+    double temp_t[BR_MAX_BIAS_POINTS]; /* temperature, K, ascending */
+    double temp_f[BR_MAX_BIAS_POINTS]; /* C(T)/C(25 C), interpolated linearly at
+                                          the ambient, flat beyond its ends */
 } br_cap_part;
 
 typedef struct br_driver_part {
@@ -131,6 +150,9 @@ typedef struct br_aux_part {
     br_qty dropout; /* LDO: minimum input-output headroom, V */
     br_qty iq;      /* LDO: own quiescent current, A */
     br_qty rz;      /* ZENER: dynamic resistance above the knee, ohm */
+    br_qty pmax;    /* dissipation rating, W (0: not given) */
+    br_qty rth;     /* thermal resistance junction to ambient, K/W (0: not given) */
+    br_qty tj_max;  /* maximum junction temperature, K (0: not given) */
 } br_aux_part;
 
 /* Which parts and extras sit on one stage (switch k, rail k, link k). */
@@ -141,8 +163,19 @@ typedef struct br_stage_spec {
     int sw;        /* index into design->switches */
     int aux;       /* index into design->aux, -1 for none */
     br_qty r_link; /* series resistor in link k, ohm */
+    br_qty rth;    /* link k's diode: thermal resistance junction to ambient on
+                      this stage's board, K/W (read when rth_given) */
+    int rth_given; /* 0: the diode part's own rth */
     int line;      /* line of the <stage> override, 0 for the default */
 } br_stage_spec;
+
+/* How the supply behaves at its current limit. */
+typedef enum br_supply_limit {
+    BR_SUPPLY_UNLIMITED = 0, /* no limit: any current at its voltage behind its resistance */
+    BR_SUPPLY_CONSTANT,      /* constant current at the limit */
+    BR_SUPPLY_FOLDBACK,      /* the limit folds back linearly with the output voltage */
+    BR_SUPPLY_HICCUP         /* constant current, then off for a while and a retry */
+} br_supply_limit;
 
 typedef enum br_topology { BR_TOPO_FCML = 0, BR_TOPO_STRING = 1 } br_topology;
 
@@ -196,10 +229,18 @@ struct br_design {
     br_qty tedge;     /* switching-node edge (ramp) time, s */
     br_qty overshoot; /* edge overshoot on blocking voltage, fraction */
     /* supply (rail 0) */
-    br_qty vsupply; /* V (its tolerance is the supply tolerance) */
-    br_qty rsupply; /* source resistance, ohm */
-    br_qty tramp;   /* start-up ramp time, s (0: step) */
-    br_qty csupply; /* local bypass capacitance on rail 0, F (0: none) */
+    br_qty vsupply;      /* V (its tolerance is the supply tolerance) */
+    br_qty rsupply;      /* source resistance, ohm */
+    br_qty tramp;        /* start-up ramp time, s (0: step) */
+    br_qty csupply;      /* local bypass capacitance on rail 0, F (0: none) */
+    int limit_mode;      /* br_supply_limit */
+    br_qty ilimit;       /* current limit, A (with a limit) */
+    br_qty ifold;        /* fold-back: the limit at 0 V output, A */
+    br_qty hiccup_delay; /* hiccup: time in the limit before it shuts down, s */
+    br_qty hiccup_off;   /* hiccup: time off before a retry, s */
+    int hiccup_retries;  /* hiccup: retries before it stays off (-1: no end) */
+    br_qty tsoft;        /* soft-start: output ramp at every start, s (0: none) */
+    br_qty irating;      /* rated output current, A (0: not given) */
     /* topology */
     int topology;                       /* br_topology */
     int levels;                         /* FCML: N levels */
@@ -224,6 +265,8 @@ struct br_design {
     br_qty min_drive;           /* minimum useful drive voltage, V */
     br_qty derating;            /* diode reverse-voltage derating limit, fraction */
     br_qty startup_max;         /* longest start-up simulated, s */
+    br_qty cap_derating;        /* class II ceramics: largest fraction of the
+                                   rating a rail should reach (design rule) */
     int max_dropouts;           /* start-up dropouts allowed on any one stage
                                    (-1: not stated, then more than
                                    BR_DROPOUTS_WARN only warn) */

@@ -41,15 +41,40 @@ int br_diode_at(const br_diode_part *p, double T, br_diode *out, br_error *err)
     out->ifsm = p->ifsm.nom;
     out->ifrm = p->ifrm.nom;
     out->i2t = p->i2t.nom;
+    out->if_avg = p->if_avg.nom;
+    out->rth = p->rth.nom;
+    out->tj_max = p->tj_max.nom;
+    out->tj = T;
     return BR_OK;
 }
 
-void br_cap_at_nominal(const br_cap_part *p, br_cap *out)
+/* C(T)/C(25 C) from a capacitor's temperature table at T, flat beyond its
+ * ends; temp-factor when it has none. */
+static double temp_factor(const br_cap_part *p, double T)
+{
+    int n = p->ntemp;
+    if (n == 0)
+        return p->tfactor.nom;
+    if (T <= p->temp_t[0])
+        return p->temp_f[0];
+    for (int i = 1; i < n; i++) {
+        if (T <= p->temp_t[i]) {
+            double x = (T - p->temp_t[i - 1]) / (p->temp_t[i] - p->temp_t[i - 1]);
+            return p->temp_f[i - 1] + x * (p->temp_f[i] - p->temp_f[i - 1]);
+        }
+    }
+    return p->temp_f[n - 1];
+}
+
+void br_cap_at_nominal(const br_cap_part *p, double T, br_cap *out)
 {
     out->id = p->id;
-    out->c = p->c.nom * p->tfactor.nom * p->aging.nom;
+    out->c = p->c.nom * temp_factor(p, T) * p->aging.nom;
     out->esr = p->esr.nom;
     out->vrated = p->vrated.nom;
+    out->iripple = p->iripple.nom;
+    out->class2 =
+        p->dielectric == BR_DIEL_CLASS2 || (p->dielectric == BR_DIEL_UNSTATED && p->nbias > 0);
     out->nbias = p->nbias;
     out->bias_v = p->bias_v;
     out->bias_f = p->bias_f;
@@ -70,6 +95,29 @@ double br_cap_at(const br_cap *cap, double v)
         }
     }
     return cap->c * cap->bias_f[n - 1];
+}
+
+/* The integral of (c0 + slope (u - at)) u du over [lo, hi]. */
+static double piece_energy(double c0, double slope, double at, double lo, double hi)
+{
+    double d2 = 0.5 * (hi * hi - lo * lo), d3 = (hi * hi * hi - lo * lo * lo) / 3.0;
+    return c0 * d2 + slope * (d3 - at * d2);
+}
+
+double br_cap_energy(const br_cap *cap, double v)
+{
+    int n = cap->nbias;
+    if (n == 0 || v <= cap->bias_v[0])
+        return (n == 0 ? cap->c : cap->c * cap->bias_f[0]) * 0.5 * v * v;
+    double e = cap->c * cap->bias_f[0] * 0.5 * cap->bias_v[0] * cap->bias_v[0];
+    for (int i = 1; i < n && v > cap->bias_v[i - 1]; i++) {
+        double lo = cap->bias_v[i - 1], hi = v < cap->bias_v[i] ? v : cap->bias_v[i];
+        double slope = cap->c * (cap->bias_f[i] - cap->bias_f[i - 1]) / (cap->bias_v[i] - lo);
+        e += piece_energy(cap->c * cap->bias_f[i - 1], slope, lo, lo, hi);
+    }
+    if (v > cap->bias_v[n - 1])
+        e += piece_energy(cap->c * cap->bias_f[n - 1], 0.0, 0.0, cap->bias_v[n - 1], v);
+    return e;
 }
 
 double br_rail_start_voltage(const br_chain *c, int k)

@@ -50,7 +50,14 @@ static const field fcml_fields[] = {F(br_design, cfly, "cfly", BR_KIND_CAPACITAN
 static const field supply_fields[] = {F(br_design, vsupply, "voltage", BR_KIND_VOLTAGE),
                                       F(br_design, rsupply, "resistance", BR_KIND_RESISTANCE),
                                       F(br_design, tramp, "ramp", BR_KIND_TIME),
-                                      F(br_design, csupply, "bypass", BR_KIND_CAPACITANCE), END};
+                                      F(br_design, csupply, "bypass", BR_KIND_CAPACITANCE),
+                                      F(br_design, ilimit, "current-limit", BR_KIND_CURRENT),
+                                      F(br_design, ifold, "foldback-current", BR_KIND_CURRENT),
+                                      F(br_design, hiccup_delay, "hiccup-delay", BR_KIND_TIME),
+                                      F(br_design, hiccup_off, "hiccup-off", BR_KIND_TIME),
+                                      F(br_design, tsoft, "soft-start", BR_KIND_TIME),
+                                      F(br_design, irating, "rating", BR_KIND_CURRENT),
+                                      END};
 
 static const field diode_fields[] = {F(br_diode_part, is, "is", BR_KIND_CURRENT),
                                      F(br_diode_part, n, "n", BR_KIND_NUMBER),
@@ -68,6 +75,9 @@ static const field diode_fields[] = {F(br_diode_part, is, "is", BR_KIND_CURRENT)
                                      F(br_diode_part, ifsm, "ifsm", BR_KIND_CURRENT),
                                      F(br_diode_part, ifrm, "ifrm", BR_KIND_CURRENT),
                                      F(br_diode_part, i2t, "i2t", BR_KIND_I2T),
+                                     F(br_diode_part, if_avg, "if-avg", BR_KIND_CURRENT),
+                                     F(br_diode_part, rth, "rth", BR_KIND_THERMAL_R),
+                                     F(br_diode_part, tj_max, "tj-max", BR_KIND_TEMPERATURE),
                                      END};
 
 static const field cap_fields[] = {F(br_cap_part, c, "c", BR_KIND_CAPACITANCE),
@@ -75,6 +85,7 @@ static const field cap_fields[] = {F(br_cap_part, c, "c", BR_KIND_CAPACITANCE),
                                    F(br_cap_part, vrated, "rating", BR_KIND_VOLTAGE),
                                    F(br_cap_part, tfactor, "temp-factor", BR_KIND_FRACTION),
                                    F(br_cap_part, aging, "aging", BR_KIND_FRACTION),
+                                   F(br_cap_part, iripple, "ripple", BR_KIND_CURRENT),
                                    END};
 
 static const field driver_fields[] = {F(br_driver_part, uvlo_rise, "uvlo-rise", BR_KIND_VOLTAGE),
@@ -99,10 +110,18 @@ static const field switch_fields[] = {F(br_switch_part, rds_on, "rds-on", BR_KIN
 
 static const field regulator_fields[] = {F(br_aux_part, vout, "vout", BR_KIND_VOLTAGE),
                                          F(br_aux_part, dropout, "dropout", BR_KIND_VOLTAGE),
-                                         F(br_aux_part, iq, "iq", BR_KIND_CURRENT), END};
+                                         F(br_aux_part, iq, "iq", BR_KIND_CURRENT),
+                                         F(br_aux_part, pmax, "power-rating", BR_KIND_POWER),
+                                         F(br_aux_part, rth, "rth", BR_KIND_THERMAL_R),
+                                         F(br_aux_part, tj_max, "tj-max", BR_KIND_TEMPERATURE),
+                                         END};
 
 static const field clamp_fields[] = {F(br_aux_part, vout, "vz", BR_KIND_VOLTAGE),
-                                     F(br_aux_part, rz, "rz", BR_KIND_RESISTANCE), END};
+                                     F(br_aux_part, rz, "rz", BR_KIND_RESISTANCE),
+                                     F(br_aux_part, pmax, "power-rating", BR_KIND_POWER),
+                                     F(br_aux_part, rth, "rth", BR_KIND_THERMAL_R),
+                                     F(br_aux_part, tj_max, "tj-max", BR_KIND_TEMPERATURE),
+                                     END};
 
 #undef F
 #undef END
@@ -112,7 +131,8 @@ typedef struct usage {
     int diode[BR_MAX_PARTS], cap[BR_MAX_PARTS], driver[BR_MAX_PARTS];
     int sw[BR_MAX_PARTS], aux[BR_MAX_PARTS];
     int def_link;                    /* some link takes the default resistor */
-    int stage_link[BR_MAX_SWITCHES]; /* link k takes its override's resistor */
+    int stage_link[BR_MAX_SWITCHES]; /* link k takes its override's resistor (and
+                                        thermal resistance) */
 } usage;
 
 static void mark(int *used, int idx)
@@ -233,6 +253,8 @@ static int add_links(const br_design *d, const usage *u, br_tol_list *l, br_erro
     if (u->def_link)
         TRY(add(d, l, offsetof(br_design, def.r_link), BR_KIND_RESISTANCE, "stages: link-resistor",
                 err));
+    if (u->def_link && d->def.rth_given)
+        TRY(add(d, l, offsetof(br_design, def.rth), BR_KIND_THERMAL_R, "stages: diode-rth", err));
     for (int k = 1; k < BR_MAX_SWITCHES; k++) {
         if (!u->stage_link[k])
             continue;
@@ -240,6 +262,11 @@ static int add_links(const br_design *d, const usage *u, br_tol_list *l, br_erro
         snprintf(name, sizeof name, "stage %d (%s): link-resistor", k, sw);
         size_t off = PART_BASE(stage, k) + offsetof(br_stage_spec, r_link);
         TRY(add(d, l, off, BR_KIND_RESISTANCE, name, err));
+        if (!d->stage[k].rth_given)
+            continue;
+        snprintf(name, sizeof name, "stage %d (%s): diode-rth", k, sw);
+        TRY(add(d, l, PART_BASE(stage, k) + offsetof(br_stage_spec, rth), BR_KIND_THERMAL_R, name,
+                err));
     }
     return BR_OK;
 }

@@ -136,15 +136,17 @@ int br_chart_startup(const br_chain *c, const br_startup *su, const br_trace *tr
 {
     br_svg s;
     int cols = c->n > 1 ? 2 : 1;
-    doc_begin(&s, out, cols * PANEL_W, grid_height(c->n, cols), standalone,
-              "Start-up from cold: every rail with its UVLO thresholds");
+    double x, y;
+    doc_begin(&s, out, cols * PANEL_W, grid_height(c->n + 1, cols), standalone,
+              "Start-up from cold: every rail with its UVLO thresholds, and the supply's current");
     heading(&s, "Start-up from cold");
     startup_key(&s);
     for (int k = 0; k < c->n; k++) {
-        double x, y;
         panel_at(k, cols, &x, &y);
         startup_panel(&s, c, su, tr, k, x, y);
     }
+    panel_at(c->n, cols, &x, &y);
+    br_chart_supply_panel(&s, c, su, tr, x, y);
     return br_svg_end(&s);
 }
 

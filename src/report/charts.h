@@ -10,6 +10,7 @@
 #include "analyses/figures.h"
 #include "analyses/window.h"
 #include "analyses/yield.h"
+#include "report/svg.h"
 #include "report/trace.h"
 
 /* One panel per rail: its voltage from cold, UVLO rising and falling
@@ -40,5 +41,16 @@ int br_chart_yield(const br_yield *y, int standalone, br_text *out);
 
 /* The worst margin of the coarse scans against duty and frequency. */
 int br_chart_window(const br_window *w, int standalone, br_text *out);
+
+/* A panel of the start-up chart (charts_heat.c): the supply's current
+ * through the start-up (trace column 0), with its limit and rating. */
+void br_chart_supply_panel(br_svg *s, const br_chain *c, const br_startup *su, const br_trace *tr,
+                           double x, double y);
+
+/* One stacked bar per stage (rail k and link k) of where the power goes
+ * over a steady period, beside a bar of what the supply and the power
+ * stage deliver; one panel per direction with a period. */
+int br_chart_losses(const br_chain *c, const br_steady_figs *f, int ndir, int standalone,
+                    br_text *out);
 
 #endif

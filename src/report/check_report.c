@@ -6,6 +6,7 @@
 #include "core/error.h"
 #include "model/timing.h"
 #include "report/caution.h"
+#include "report/supply_report.h"
 #include "report/table.h"
 
 #include <math.h>
@@ -59,6 +60,21 @@ static int render_topology(const br_chain *c, br_text *out)
                           c->n - 1);
 }
 
+/* The supply's current limit, soft-start and rating, when it has them. */
+static int supply_limit_line(const br_chain *c, br_text *out)
+{
+    char a[32], lim[160];
+    if (c->limit_mode == BR_SUPPLY_UNLIMITED && !(c->tsoft > 0) && !(c->irating > 0))
+        return BR_OK;
+    int rc =
+        br_text_printf(out, "  supply limit      %s", br_supply_limit_words(c, lim, sizeof lim));
+    if (c->tsoft > 0)
+        rc |= br_text_printf(out, ", soft-start %s", si(a, sizeof a, c->tsoft, "s"));
+    if (c->irating > 0)
+        rc |= br_text_printf(out, ", rated %s", si(a, sizeof a, c->irating, "A"));
+    return rc | br_text_put(out, "\n");
+}
+
 static int render_supply(const br_chain *c, br_text *out)
 {
     char a[32], b[32], r[32];
@@ -70,7 +86,10 @@ static int render_supply(const br_chain *c, br_text *out)
     rc |= br_text_printf(out, ", source resistance %s", si(r, sizeof r, c->rsupply, "ohm"));
     if (c->tramp > 0)
         rc |= br_text_printf(out, ", ramp %s", si(a, sizeof a, c->tramp, "s"));
-    return rc | br_text_put(out, "\n");
+    if (c->csupply > 0)
+        rc |= br_text_printf(out, ", bypass %s", si(a, sizeof a, c->csupply, "F"));
+    rc |= br_text_put(out, "\n");
+    return rc | supply_limit_line(c, out);
 }
 
 /* The load current, with its tolerance, and when it starts. */
@@ -490,6 +509,14 @@ int br_rule_describe(const br_chain *c, const br_rule_hit *h, br_text *out)
         return describe_implausible(c, h, out);
     case BR_RULE_PRECHARGE_IDLE:
         return describe_precharge(c, h, out);
+    case BR_RULE_CAP_DERATING:
+        return br_text_printf(out,
+                              "rail %d (%s) capacitor %s: a class II ceramic that may sit at up to "
+                              "%.4g V, above %.0f %% of its %.4g V rating (%.4g V); common "
+                              "practice keeps class II ceramics near half their rating, where "
+                              "they keep more of their capacitance and age less",
+                              h->stage, c->st[h->stage].name, h->part, h->figure,
+                              100.0 * c->cap_derating, c->st[h->stage].cap.vrated, h->limit);
     case BR_RULE_NO_WINDOW:
         return br_text_printf(out,
                               "link %d (rail %s): its return switch %s is never on, so the link "

@@ -180,9 +180,12 @@ enum { C_NAME, C_RESULT, C_FIGURE, C_LIMIT, C_MARGIN, C_NOMINAL, C_AT, C_DIR, C_
 static void value_cell(br_table *t, int col, double v, int crit)
 {
     char b[BR_TABLE_CELL];
-    /* a rail that never starts has no margin */
+    /* a rail that never starts has no margin; junction temperatures read
+     * in degrees Celsius, their margins in kelvin */
     if (col != C_FIGURE && br_crit_never(crit, v))
         br_table_set(t, col, "-");
+    else if (crit == BR_CRIT_TJ && (col == C_FIGURE || col == C_LIMIT) && isfinite(v))
+        br_table_set(t, col, "%.4g C", v - 273.15);
     else
         br_table_set(t, col, "%s", br_crit_fmt(b, sizeof b, crit, v));
 }

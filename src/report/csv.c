@@ -10,6 +10,7 @@ int br_csv_header(const br_chain *c, br_text *out)
     int rc = br_text_put(out, "series,t_s");
     for (int k = 0; k < c->n; k++)
         rc |= br_text_printf(out, ",rail_%s_V", c->st[k].name);
+    rc |= br_text_put(out, ",supply_A");
     for (int k = 1; k < c->n; k++)
         rc |= br_text_printf(out, ",link_%s_A", c->st[k].name);
     for (int k = 0; k < c->n; k++)
@@ -56,7 +57,7 @@ static void put_row(br_csv_series *s, double t, const double *v, const double *i
         return;
     int rc = br_text_printf(s->out, "%s,%.10g", s->label, t + s->t_offset);
     rc |= put_values(s->out, v, 0, s->n);
-    rc |= put_values(s->out, i, 1, s->n); /* link 0 does not exist */
+    rc |= put_values(s->out, i, 0, s->n); /* [0]: the supply (link 0 does not exist) */
     rc |= put_values(s->out, vd, 0, s->n);
     rc |= put_values(s->out, vr, 1, s->n);
     rc |= br_text_put(s->out, "\n");
@@ -79,14 +80,17 @@ static void on_sample(void *ctx, const br_sim *sim, double t, const double *vrai
                       const double *ilink, int n)
 {
     br_csv_series *s = ctx;
-    double vd[BR_MAX_SWITCHES], vr[BR_MAX_SWITCHES];
+    double vd[BR_MAX_SWITCHES], vr[BR_MAX_SWITCHES], il[BR_MAX_SWITCHES];
     (void)n; /* the chain's n, fixed at init */
     br_sim_sample_stress(sim, t, vrail, s->n, vd, vr);
+    memcpy(il, ilink, sizeof(double) * (size_t)s->n);
+    if (!sim)
+        il[0] = NAN; /* no simulator, no supply current */
     if (s->force || t - s->last_t >= s->min_dt) {
-        put_row(s, t, vrail, ilink, vd, vr);
+        put_row(s, t, vrail, il, vd, vr);
         s->force = 0;
     } else {
-        hold(s, t, vrail, ilink, vd, vr);
+        hold(s, t, vrail, il, vd, vr);
     }
 }
 

@@ -1,11 +1,12 @@
 /* csv.h - time series of a simulation as CSV.
  *
  * One layout for every verb: a header line
- *   series,t_s,rail_<switch>_V,...,link_<switch>_A,...,
+ *   series,t_s,rail_<switch>_V,...,supply_A,link_<switch>_A,...,
  *   drv_<switch>_V,...,vrev_<switch>_V,...
- * (rails 0..n-1 named by their switch, links 1..n-1 by the switch whose
- * rail they charge; drv is the driver supply behind the rail's regulator,
- * vrev the link diode's reverse voltage), then one row per kept sample.
+ * (rails 0..n-1 named by their switch, the supply's current through its
+ * resistance, links 1..n-1 by the switch whose rail they charge; drv is
+ * the driver supply behind the rail's regulator, vrev the link diode's
+ * reverse voltage), then one row per kept sample.
  * A sample fed without a simulator leaves drv equal to the rail and vrev
  * empty.  `series` says which
  * run a row belongs to ("startup", "steady-step-down", ...), so one file

@@ -275,7 +275,8 @@ void br_plot_axes(br_plot *p, const char *key, const char *title, const char *xl
              p->xmin, p->xmax, p->ymin, p->ymax, p->x0, p->y0, p->w, p->h, p->xlog);
     br_svg_raw(p->svg, b);
     br_svg_rect(p->svg, p->x0, p->y0, p->w, p->h, "#fbfcfd", "none", 0);
-    x_ticks(p, xlabel, xunit);
+    if (!p->xcat)
+        x_ticks(p, xlabel, xunit);
     y_ticks(p, ylabel, yunit);
     br_svg_rect(p->svg, p->x0, p->y0, p->w, p->h, "none", "#7a8794", 1.0);
     if (title)

@@ -51,6 +51,7 @@ typedef struct br_plot {
     double xmin, xmax, ymin, ymax; /* data range, SI */
     const char *xunit, *yunit;     /* base units of the axes: "s", "V" */
     int xlog;                      /* logarithmic x axis (xmin > 0) */
+    int xcat;                      /* categories along x: no ticks, the caller labels them */
     int nlab;                      /* right-hand labels placed so far */
     double laby[16];               /* their baselines, px (kept apart) */
 } br_plot;

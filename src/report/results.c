@@ -3,6 +3,7 @@
 #include "report/results.h"
 
 #include "core/error.h"
+#include "report/budget_report.h"
 #include "report/caution.h"
 #include "report/csv.h"
 #include "report/report_common.h"
@@ -225,6 +226,7 @@ int br_results_text(const br_results *r, br_text *out, br_error *err)
     if ((r->parts & BR_RUN_ALL) == BR_RUN_ALL) {
         rc |= br_text_put(out, "\n");
         rc |= br_steady_summary_text(r->c, r->figs, r->ndir, out);
+        rc |= br_budget_summary_text(r->c, r->figs, r->ndir, out);
     } else if (r->parts & BR_RUN_STEADY) {
         rc |= steady_sections(r, out);
     }

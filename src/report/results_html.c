@@ -1,11 +1,15 @@
 /* results_html.c - the HTML report and the --plot of `startup`, `steady`
  * and `analyze`. */
+#include "report/budget_report.h"
 #include "report/charts.h"
 #include "report/html_report.h"
 #include "report/report_common.h"
 #include "report/results.h"
+#include "report/supply_report.h"
 
 #include "core/error.h"
+
+#include <string.h>
 
 static int oom(br_error *err)
 {
@@ -47,6 +51,55 @@ static int diode_chart(const br_results *r, const br_results_traces *tr, int d, 
     return br_chart_diode(r->c, &r->figs[dir], k, tr->steady[dir], 0, svg);
 }
 
+static int losses_chart(const br_results *r, const br_results_traces *tr, int d, br_text *svg)
+{
+    (void)tr;
+    (void)d;
+    return br_chart_losses(r->c, r->figs, r->ndir, 0, svg);
+}
+
+/* Text drawn by fn as paragraphs, one per line. */
+static int paragraphs(br_text *out, const br_results *r, int (*fn)(const br_results *r, br_text *t))
+{
+    br_text *t = br_text_create();
+    if (!t)
+        return BR_ENOMEM;
+    int rc = fn(r, t);
+    char *line = (char *)br_text_data(t);
+    for (char *end; rc == BR_OK && line && *line; line = end ? end + 1 : NULL) {
+        end = strchr(line, '\n');
+        if (end)
+            *end = '\0';
+        rc = br_html_para(out, line);
+    }
+    br_text_free(t);
+    return rc;
+}
+
+static int supply_words(const br_results *r, br_text *t)
+{
+    return br_supply_profile_text(r->c, &r->su, t);
+}
+
+static int budget_words(const br_results *r, br_text *t)
+{
+    return br_budget_summary_text(r->c, r->figs, r->ndir, t);
+}
+
+static int losses_section(br_text *out, const br_results *r, const br_results_traces *tr)
+{
+    int rc = br_html_section(
+        out, "Losses and heat",
+        "Where the power goes over the steady period: what the supply delivers and what the power "
+        "stage gives the chain through the return switches (reverse conduction, on-state drops, "
+        "leakage, recovery) equal the losses of the rails and links.");
+    rc |= paragraphs(out, r, budget_words);
+    rc |= figure(out, r, tr, 0, losses_chart,
+                 "Losses per stage (rail k and link k) beside what the supply and the power stage "
+                 "deliver; the text report has them part by part.");
+    return rc | br_html_section_end(out);
+}
+
 static int startup_section(br_text *out, const br_results *r, const br_results_traces *tr)
 {
     int rc = br_html_section(
@@ -55,6 +108,8 @@ static int startup_section(br_text *out, const br_results *r, const br_results_t
         "drawn where the rail must be for its driver: with a regulator they include its "
         "dropout. The green line marks the start that lasts.");
     rc |= br_html_startup_table(out, r->c, &r->su);
+    if (!r->su.failed)
+        rc |= paragraphs(out, r, supply_words);
     if (tr->startup)
         rc |= figure(out, r, tr, 0, startup_chart,
                      "Rail voltages from cold (the rows of the start-up CSV series).");
@@ -83,7 +138,8 @@ static int steady_section(br_text *out, const br_results *r, const br_results_tr
     rc |= br_html_section_end(out);
     rc |= br_html_section(out, "Capacitor stress", NULL);
     rc |= br_html_cap_table(out, r->c, r->figs, r->ndir);
-    return rc | br_html_section_end(out);
+    rc |= br_html_section_end(out);
+    return rc | losses_section(out, r, tr);
 }
 
 int br_results_html(const br_results *r, const br_results_traces *tr, br_text *out, br_error *err)

@@ -4,6 +4,7 @@
 #include "analyses/figures.h"
 #include "report/fmt.h"
 #include "report/report_common.h"
+#include "report/supply_report.h"
 #include "report/table.h"
 
 #include <math.h>
@@ -251,6 +252,8 @@ int br_startup_text(const br_chain *c, const br_startup *su, int detail, br_text
         rc |= render_dropouts(c, su, out);
     rc |= render_inrush(c, su, out);
     rc |= render_summary(c, su, out);
+    if (!su->failed)
+        rc |= br_supply_profile_text(c, su, out);
     return rc ? BR_ENOMEM : BR_OK;
 }
 
@@ -333,5 +336,7 @@ void br_startup_xml(br_xmlw *w, const br_chain *c, const br_startup *su)
     for (int k = 0; k < su->n; k++)
         stage_xml(w, c, su, k);
     stall_xml(w, c, su);
+    if (!su->failed)
+        br_supply_profile_xml(w, c, su);
     br_xmlw_end(w);
 }

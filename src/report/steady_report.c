@@ -1,6 +1,7 @@
 /* steady_report.c - rendering periodic steady states. */
 #include "report/steady_report.h"
 
+#include "report/budget_report.h"
 #include "report/fmt.h"
 #include "report/report_common.h"
 #include "report/table.h"
@@ -282,6 +283,7 @@ int br_steady_text(const br_chain *c, const br_steady_figs *f, br_text *out)
     rc |= br_text_printf(out, "supply: average current %s, power %s\n",
                          br_fmt_si(a, sizeof a, f->supply_iavg, 4, "A"),
                          br_fmt_si(b, sizeof b, f->supply_p, 4, "W"));
+    rc |= br_budget_text(c, f, out);
     return rc ? BR_ENOMEM : BR_OK;
 }
 
@@ -453,6 +455,9 @@ void br_steady_xml(br_xmlw *w, const br_chain *c, const br_steady_figs *f)
     br_xmlw_start(w, "supply");
     br_xmlw_num(w, "avg-A", f->supply_iavg);
     br_xmlw_num(w, "power-W", f->supply_p);
+    br_xmlw_num(w, "peak-A", f->supply_ipeak);
+    br_xmlw_num(w, "limited", f->supply_limited);
     br_xmlw_end(w);
+    br_budget_xml(w, c, f);
     br_xmlw_end(w);
 }

@@ -15,7 +15,7 @@ typedef struct br_trace {
     long len, cap;   /* rows kept, rows allocated */
     double *t;       /* len times, s (simulator time + t_offset) */
     double *v;       /* len x n rail voltages, V, row-major */
-    double *i;       /* len x n link currents, A ([k], k >= 1) */
+    double *i;       /* len x n link currents, A ([k], k >= 1; [0]: the supply's) */
     double *vd;      /* len x n driver supplies, V */
     double *vr;      /* len x n link reverse voltages, V ([k], k >= 1) */
     double t_offset; /* added to the simulator's time, s */

@@ -14,7 +14,8 @@ enum { C_TITLE, C_RESULT, C_FIGURE, C_LIMIT, C_MARGIN, C_AT, C_DIR, NCOL };
 
 static int is_link_crit(int crit)
 {
-    return crit == BR_CRIT_INRUSH || crit == BR_CRIT_DIODE_VR;
+    return crit == BR_CRIT_INRUSH || crit == BR_CRIT_DIODE_VR || crit == BR_CRIT_DIODE_IAVG ||
+           crit == BR_CRIT_TJ;
 }
 
 /* A row names its current direction: every steady row, and the start-up
@@ -36,7 +37,7 @@ const char *br_verdict_word(const br_verdict_row *r)
 const char *br_crit_fmt(char *buf, size_t cap, int crit, double v)
 {
     if (br_crit_never(crit, v))
-        snprintf(buf, cap, "never starts");
+        snprintf(buf, cap, crit == BR_CRIT_TJ ? "runaway" : "never starts");
     else if (crit == BR_CRIT_DROPOUTS && isfinite(v))
         snprintf(buf, cap, "%.0f", v);
     else
@@ -44,23 +45,31 @@ const char *br_crit_fmt(char *buf, size_t cap, int crit, double v)
     return buf;
 }
 
-/* "rail A1", "link B4", or "-" when no stage binds. */
+/* "rail A1", "link B4", "reg A1" or "zen A1" (the rail's regulator or Zener clamp), or "-"
+ * when no stage binds. */
 static void where(const br_chain *c, const br_verdict_row *r, char *buf, size_t cap)
 {
     if (r->stage < 0 || r->stage >= c->n || !r->applies)
         snprintf(buf, cap, "-");
     else
-        snprintf(buf, cap, "%s %s", is_link_crit(r->crit) ? "link" : "rail", c->st[r->stage].name);
+        snprintf(buf, cap, "%s %s",
+                 r->aux                  ? (c->st[r->stage].aux.kind == BR_AUX_LDO ? "reg" : "zen")
+                 : is_link_crit(r->crit) ? "link"
+                                         : "rail",
+                 c->st[r->stage].name);
 }
 
-/* A rail that never starts has no margin to show. */
+/* A rail that never starts, or a junction that runs away, has no margin
+ * to show; junction temperatures read in degrees Celsius. */
 static void value_cell(br_table *t, int col, const br_verdict_row *r, double v)
 {
     char b[BR_TABLE_CELL];
-    if (r->applies && !(col == C_MARGIN && br_crit_never(r->crit, v)))
-        br_table_set(t, col, "%s", br_crit_fmt(b, sizeof b, r->crit, v));
-    else
+    if (!r->applies || (col == C_MARGIN && br_crit_never(r->crit, v)))
         br_table_set(t, col, "-");
+    else if (r->crit == BR_CRIT_TJ && col != C_MARGIN && isfinite(v))
+        br_table_set(t, col, "%.4g C", v - 273.15);
+    else
+        br_table_set(t, col, "%s", br_crit_fmt(b, sizeof b, r->crit, v));
 }
 
 static void row(br_table *t, const br_chain *c, const br_verdict_row *r)
@@ -214,7 +223,7 @@ static void row_numbers_xml(br_xmlw *w, const br_verdict_row *r)
     int never = br_crit_never(r->crit, r->figure);
     br_xmlw_bool(w, "pass", r->pass);
     if (never)
-        br_xmlw_bool(w, "never-starts", 1);
+        br_xmlw_bool(w, r->crit == BR_CRIT_TJ ? "runaway" : "never-starts", 1);
     else
         br_xmlw_num(w, "figure", r->figure);
     br_xmlw_num(w, "limit", r->limit);

@@ -37,7 +37,7 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
     }
     for (int i = 0; i < cat->ncaps; i++) {
         br_cap c;
-        br_cap_at_nominal(&cat->caps[i], &c);
+        br_cap_at_nominal(&cat->caps[i], 298.15, &c);
         if (!(br_cap_at(&c, 5.0) > 0.0)) /* nor a capacitor a useless one */
             __builtin_trap();
     }

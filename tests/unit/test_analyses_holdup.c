@@ -17,7 +17,7 @@ static const double BIAS_F[] = {1.0, 0.8, 0.5, 0.4};
 
 static br_cap test_cap(void)
 {
-    br_cap cap = {"bias-cap", 1e-6, 0.01, 25.0, 4, BIAS_V, BIAS_F};
+    br_cap cap = {"bias-cap", 1e-6, 0.01, 25.0, 4, BIAS_V, BIAS_F, 0.0, 1};
     return cap;
 }
 
@@ -52,7 +52,7 @@ static void test_charge_against_qags(void)
         BR_ASSERT_NEAR(br_cap_charge(&cap, va, vb), qags_charge(&cap, va, vb), 1e-15);
     }
     /* no table: C (vb - va) */
-    br_cap flat = {"flat", 2.2e-6, 0.0, 0.0, 0, NULL, NULL};
+    br_cap flat = {"flat", 2.2e-6, 0.0, 0.0, 0, NULL, NULL, 0.0, 0};
     BR_ASSERT_REL(br_cap_charge(&flat, 3.0, 11.0), 2.2e-6 * 8.0, 1e-14);
 }
 

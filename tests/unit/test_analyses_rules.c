@@ -401,6 +401,44 @@ static void test_precharge_idle(void)
     done(d, c);
 }
 
+/* Class II ceramics: at most cap-derating (50 %, common practice) of
+ * their rating.  The test capacitor (25 V) on a 12 V supply sits at 48 %;
+ * on 15 V at 60 %, a finding per rail; a class I part, or a clamp at 12 V,
+ * keeps it clear.  A DC-bias table marks a part as class II unless the
+ * file says otherwise. */
+static void test_cap_derating(void)
+{
+    br_design *d = leg(3, 400.0);
+    br_rule_list r;
+    d->caps[0].dielectric = BR_DIEL_CLASS2;
+    br_chain *c = check(d, &r);
+    CU_ASSERT_EQUAL(count(&r, BR_RULE_CAP_DERATING), 0);
+    br_chain_free(c);
+    d->vsupply = br_qty_fixed(15.0);
+    d->drivers[0].uvlo_rise = br_qty_fixed(7.5);
+    c = check(d, &r);
+    CU_ASSERT_EQUAL(count(&r, BR_RULE_CAP_DERATING), 3);
+    const br_rule_hit *h = first(&r, BR_RULE_CAP_DERATING);
+    CU_ASSERT_TRUE_FATAL(h != NULL);
+    BR_ASSERT_REL(h->figure, 15.0, 1e-12);
+    BR_ASSERT_REL(h->limit, 12.5, 1e-12);
+    br_chain_free(c);
+    d->caps[0].dielectric = BR_DIEL_UNSTATED;
+    d->caps[0].nbias = 2;
+    d->caps[0].bias_v[0] = 0.0;
+    d->caps[0].bias_f[0] = 1.0;
+    d->caps[0].bias_v[1] = 25.0;
+    d->caps[0].bias_f[1] = 0.5;
+    c = check(d, &r);
+    CU_ASSERT_EQUAL(count(&r, BR_RULE_CAP_DERATING), 3);
+    br_chain_free(c);
+    d->caps[0].dielectric = BR_DIEL_CLASS1;
+    c = check(d, &r);
+    CU_ASSERT_EQUAL(count(&r, BR_RULE_CAP_DERATING), 0);
+    br_chain_free(c);
+    br_design_free(d);
+}
+
 static void test_names(void)
 {
     CU_ASSERT_STRING_EQUAL(br_rule_name(BR_RULE_SUPPLY_SHORT), "supply-short");
@@ -427,6 +465,7 @@ int main(void)
         {"a return switch that is never on", test_no_window},
         {"implausible values, once per part", test_implausible},
         {"pre-charge steps whose switches cannot turn on", test_precharge_idle},
+        {"class II capacitor voltage derating", test_cap_derating},
         {"rule names", test_names},
         {NULL, NULL},
     };

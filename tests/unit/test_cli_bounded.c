@@ -93,9 +93,9 @@ static void bounded(const char *verb, const char *design, const char *why)
  * about 30 s on two cores, bounded but too slow for the suite.) */
 static void test_slow_clock(void)
 {
-    static const char *const verbs[] = {"startup", "analyze", "map", "corners", "yield"};
+    static const char *const verbs[] = {"startup", "analyze", "map", "corners", "yield", "supply"};
     bounded("steady", "fsw-1hz.xml", "work limit reached");
-    for (int i = 0; i < 5; i++)
+    for (int i = 0; i < 6; i++)
         bounded(verbs[i], "fsw-1hz.xml", NULL);
 }
 
@@ -104,9 +104,10 @@ static void test_slow_clock(void)
  * number in every verb but startup. */
 static void test_femtofarad_rails(void)
 {
-    static const char *const verbs[] = {"startup", "analyze", "window", "map", "corners", "yield"};
+    static const char *const verbs[] = {"startup", "analyze", "window", "map",
+                                        "corners", "yield",   "supply"};
     bounded("steady", "cap-1ff.xml", "step size underflow");
-    for (int i = 0; i < 6; i++)
+    for (int i = 0; i < 7; i++)
         bounded(verbs[i], "cap-1ff.xml", NULL);
     /* pick puts catalog capacitors on every rail in place of the 1 fF
      * ones: its choices are decided, and some pass */

@@ -181,6 +181,7 @@ static const phase_case phases[] = {
      0.5,
      SIGINT},
     {"corners: the one-at-a-time points", {"corners", L33, "--xml", "@", NULL}, 0.3, SIGTERM},
+    {"supply: the one-at-a-time points", {"supply", L33, "--xml", "@", NULL}, 0.3, SIGINT},
     {"yield: the samples", {"yield", L33, "--samples", "40", "--xml", "@", NULL}, 1.5, SIGINT},
     {"pick: the one-part choices",
      {"pick", L33, "--catalog", CATALOG, "--xml", "@", NULL},

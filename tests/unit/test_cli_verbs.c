@@ -154,7 +154,7 @@ static xmlDoc *check_xml(const char *path, const char *verb, int n, int ndir, in
     int nsu = 0;
     for (int i = 0; i < BR_CRIT_COUNT; i++)
         nsu += br_crit_is_startup(i);
-    CU_ASSERT_EQUAL(nsu, 3);
+    CU_ASSERT_EQUAL(nsu, 4);
     int ncrit = startup && steady ? BR_CRIT_COUNT : startup ? nsu : BR_CRIT_COUNT - nsu;
     CU_ASSERT_EQUAL(count_elements(root, "criterion"), ncrit);
     CU_ASSERT_TRUE(attr_is(find_element(root, "verdict"), "pass", status == 0 ? "true" : "false"));
@@ -180,8 +180,9 @@ static int check_csv(const char *path, int n, csv_series *s, int cap)
     char *csv = br_test_slurp(path, NULL);
     CU_ASSERT_PTR_NOT_NULL_FATAL(csv);
     CU_ASSERT_TRUE(strncmp(csv, "series,t_s,rail_", 16) == 0);
-    /* series, time; rails and links; driver supplies and reverse voltages */
-    int fields = 2 + 2 * (n + (n - 1)), ns = 0, bad = 0;
+    /* series, time; rails, the supply's current and links; driver supplies
+     * and reverse voltages */
+    int fields = 2 + 2 * (n + (n - 1)) + 1, ns = 0, bad = 0;
     char *save = NULL;
     char *line = strtok_r(csv, "\n", &save);
     CU_ASSERT_EQUAL(count_char(line, ',') + 1, fields);

@@ -171,6 +171,31 @@ static void test_i2t(void)
     bad("12 V2", BR_KIND_VOLTAGE, "got 'V2'");
 }
 
+/* Powers in W with prefixes; thermal resistances in K/W (C/W the same,
+ * a difference of one kelvin is one of a degree Celsius), without
+ * prefixes, and whose '/' must not be taken for a min / typ / max. */
+static void test_power_thermal(void)
+{
+    BR_ASSERT_REL(val("250 mW", BR_KIND_POWER), 0.25, 1e-15);
+    BR_ASSERT_REL(val("1.5 W", BR_KIND_POWER), 1.5, 1e-15);
+    bad("2", BR_KIND_POWER, "without a unit, expected a power like '250 mW'");
+    bad("2 MW", BR_KIND_POWER, "prefix 'M' does not fit");
+    BR_ASSERT_REL(val("60 K/W", BR_KIND_THERMAL_R), 60.0, 1e-15);
+    BR_ASSERT_REL(val("60 C/W", BR_KIND_THERMAL_R), 60.0, 1e-15);
+    BR_ASSERT_REL(val("60K/W", BR_KIND_THERMAL_R), 60.0, 1e-15);
+    br_qty q = qty("60 K/W +-10%", BR_KIND_THERMAL_R);
+    BR_ASSERT_REL(q.min, 54.0, 1e-12);
+    BR_ASSERT_REL(q.max, 66.0, 1e-12);
+    q = qty("50/60/70 K/W", BR_KIND_THERMAL_R);
+    BR_ASSERT_REL(q.min, 50.0, 1e-12);
+    BR_ASSERT_REL(q.nom, 60.0, 1e-12);
+    BR_ASSERT_REL(q.max, 70.0, 1e-12);
+    bad("60 mK/W", BR_KIND_THERMAL_R, "no prefix");
+    bad("60", BR_KIND_THERMAL_R, "without a unit");
+    bad("60 K", BR_KIND_THERMAL_R, "got 'K'");
+    bad("2e5 K/W", BR_KIND_THERMAL_R, "at most 10000 K/W");
+}
+
 /* Magnitudes no design can mean are refused with the bound they break. */
 static void test_sane_limits(void)
 {
@@ -373,6 +398,7 @@ int main(void)
         {"a dimensioned value needs its unit or a prefix", test_unit_required},
         {"magnitudes beyond any design are refused", test_sane_limits},
         {"I2t in A2s", test_i2t},
+        {"powers and thermal resistances", test_power_thermal},
         {"temperatures in C and K", test_temperature},
         {"wrong units say what was expected", test_wrong_units},
         {"garbage, NaN, inf, overflow", test_garbage},

@@ -148,6 +148,16 @@ static void test_cold_start_stored_charge_vs_gsl(void)
     for (int t = 0; t < 2; t++) {
         br_design *d = load("examples/leg-7level.xml");
         d->nprecharge = 0;
+        /* the stored charge alone, on the leg as it was measured (the
+         * instants of the hiccups a lifetime brings hang on the last
+         * digits, so a rail a percent smaller moves them): the supply's
+         * limit has its own check against rk8pd (test_engine_supply.c),
+         * and the capacitors keep their 0.95 factor for the ambient */
+        d->limit_mode = BR_SUPPLY_UNLIMITED;
+        for (int i = 0; i < d->ncaps; i++) {
+            d->caps[i].ntemp = 0;
+            d->caps[i].tfactor = br_qty_fixed(0.95);
+        }
         for (int i = 0; i < d->ndiodes; i++)
             d->diodes[i].tau = br_qty_fixed(taus[t]);
         cold_within(d, taus[t] < 1e-7 ? "tau 25 ns" : "tau 150 ns", 5e-4);

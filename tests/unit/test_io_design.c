@@ -163,7 +163,7 @@ static void test_demo_stages(void)
     CU_ASSERT_EQUAL(br_design_stage(d, 2)->cap, 0);
     CU_ASSERT_EQUAL(d->nprecharge, 1);
     CU_ASSERT_EQUAL(d->precharge[0].mask, 0x3ULL); /* B1 B2 */
-    BR_ASSERT_REL(d->precharge[0].duration, 200e-6, 1e-12);
+    BR_ASSERT_REL(d->precharge[0].duration, 1.6e-3, 1e-12);
     BR_ASSERT_REL(d->min_drive.nom, 10.0, 1e-12);
     BR_ASSERT_REL(d->derating.nom, 0.8, 1e-12);
     BR_ASSERT_REL(d->startup_max.nom, 5e-3, 1e-12);
@@ -201,6 +201,14 @@ static void test_leg7(void)
     CU_ASSERT_EQUAL(br_design_stage(d, 11)->cap, 0);
     CU_ASSERT_EQUAL(d->precharge[0].mask, 0x3FULL); /* B1..B6 */
     CU_ASSERT_EQUAL(d->caps[0].nbias, 6);
+    /* the supply's limit, the diodes' and regulators' heat, the
+     * capacitors' temperature table */
+    CU_ASSERT_EQUAL(d->limit_mode, BR_SUPPLY_HICCUP);
+    BR_ASSERT_REL(d->ilimit.nom, 1.5, 1e-12);
+    BR_ASSERT_REL(d->irating.nom, 2.0, 1e-12);
+    BR_ASSERT_REL(d->diodes[0].rth.nom, 200.0, 1e-12);
+    BR_ASSERT_REL(d->aux[0].pmax.nom, 0.25, 1e-12);
+    CU_ASSERT_EQUAL(d->caps[0].ntemp, 3);
     br_design_free(d);
 }
 
@@ -391,6 +399,76 @@ static void test_load_attributes(void)
     CU_ASSERT_EQUAL(d->cfly.nom, 0.0);
     CU_ASSERT_EQUAL(d->switches[0].rds_exp.nom, 0.0);
     CU_ASSERT_EQUAL(d->drivers[0].vgs_off.nom, 0.0);
+    br_design_free(d);
+}
+
+/* The supply's limit, soft-start and rating; heat and ratings of diodes,
+ * capacitors, regulators and clamps; a stage's own thermal resistance;
+ * the class II derating.  All in SI, temperatures in kelvin. */
+static void test_heat_attributes(void)
+{
+    br_error err;
+    br_design *d = load_text(
+        "<?xml version=\"1.0\"?>\n<bootrung-design version=\"1\">\n"
+        "  <operating-point vin=\"400 V\" fsw=\"100 kHz\"/>\n"
+        "  <supply voltage=\"12 V\" resistance=\"50 mohm\" bypass=\"22 uF\"\n"
+        "    current-limit=\"150 mA +-10%\" limit-mode=\"hiccup\" hiccup-delay=\"2 ms\"\n"
+        "    hiccup-off=\"20 ms\" hiccup-retries=\"3\" soft-start=\"1 ms\" rating=\"200 mA\"/>\n"
+        "  <topology><fcml levels=\"3\"/></topology>\n  <parts>\n"
+        "    <diode id=\"d\" rth=\"120 K/W +-10%\" tj-max=\"150 C\" if-avg=\"1 A\"/>\n"
+        "    <capacitor id=\"c1\" c=\"1 uF\" ripple=\"1.2 A\" dielectric=\"class-1\">\n"
+        "      <temp t=\"-40 C\" factor=\"0.9\"/>\n      <temp t=\"25 C\" factor=\"1\"/>\n"
+        "      <temp t=\"125 C\" factor=\"0.8\"/>\n    </capacitor>\n"
+        "    <driver id=\"drv\"/>\n    <switch id=\"q\"/>\n"
+        "    <regulator id=\"ldo\" vout=\"10 V\" power-rating=\"250 mW\" rth=\"200 C/W\" "
+        "tj-max=\"125 C\"/>\n"
+        "  </parts>\n"
+        "  <stages diode=\"d\" capacitor=\"c1\" driver=\"drv\" switch=\"q\" rail-extra=\"ldo\">\n"
+        "    <stage index=\"1\" diode-rth=\"60 K/W\"/>\n  </stages>\n"
+        "  <analysis cap-derating=\"60 %\"/>\n</bootrung-design>\n",
+        &err);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(d);
+    CU_ASSERT_EQUAL(d->limit_mode, BR_SUPPLY_HICCUP);
+    BR_ASSERT_REL(d->ilimit.nom, 0.15, 1e-12);
+    BR_ASSERT_REL(d->ilimit.min, 0.135, 1e-12);
+    BR_ASSERT_REL(d->hiccup_delay.nom, 2e-3, 1e-12);
+    BR_ASSERT_REL(d->hiccup_off.nom, 20e-3, 1e-12);
+    CU_ASSERT_EQUAL(d->hiccup_retries, 3);
+    BR_ASSERT_REL(d->tsoft.nom, 1e-3, 1e-12);
+    BR_ASSERT_REL(d->irating.nom, 0.2, 1e-12);
+    BR_ASSERT_REL(d->diodes[0].rth.max, 132.0, 1e-12);
+    BR_ASSERT_REL(d->diodes[0].tj_max.nom, 150.0 + KELVIN, 1e-12);
+    BR_ASSERT_REL(d->diodes[0].if_avg.nom, 1.0, 1e-12);
+    const br_cap_part *c = &d->caps[0];
+    BR_ASSERT_REL(c->iripple.nom, 1.2, 1e-12);
+    CU_ASSERT_EQUAL(c->dielectric, BR_DIEL_CLASS1);
+    CU_ASSERT_EQUAL_FATAL(c->ntemp, 3);
+    BR_ASSERT_REL(c->temp_t[0], -40.0 + KELVIN, 1e-12);
+    BR_ASSERT_REL(c->temp_f[2], 0.8, 1e-12);
+    BR_ASSERT_REL(d->aux[0].pmax.nom, 0.25, 1e-12);
+    BR_ASSERT_REL(d->aux[0].rth.nom, 200.0, 1e-12);
+    CU_ASSERT_FALSE(d->def.rth_given);
+    CU_ASSERT_TRUE(d->stage[1].rth_given);
+    BR_ASSERT_REL(d->stage[1].rth.nom, 60.0, 1e-12);
+    BR_ASSERT_REL(d->cap_derating.nom, 0.6, 1e-12);
+    /* at 75 C the table gives 1 + (50/100) (0.8 - 1) = 0.9, by hand */
+    br_cap cap;
+    br_cap_at_nominal(c, 75.0 + KELVIN, &cap);
+    BR_ASSERT_REL(cap.c, 0.9e-6, 1e-12);
+    CU_ASSERT_FALSE(cap.class2);
+    br_design_free(d);
+    /* without them: no limit, unrated, the part's own (no) thermal resistance */
+    d = load_text(MINI_HEAD "  <topology><fcml levels=\"2\"/></topology>\n  <parts>\n"
+                            "    <diode id=\"d\"/>\n" MINI_PARTS "  </parts>\n" MINI_STAGES
+                            "</bootrung-design>\n",
+                  &err);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(d);
+    CU_ASSERT_EQUAL(d->limit_mode, BR_SUPPLY_UNLIMITED);
+    CU_ASSERT_EQUAL(d->hiccup_retries, -1);
+    CU_ASSERT_EQUAL(d->irating.nom, 0.0);
+    CU_ASSERT_EQUAL(d->diodes[0].rth.nom, 0.0);
+    CU_ASSERT_EQUAL(d->caps[0].dielectric, BR_DIEL_UNSTATED);
+    BR_ASSERT_REL(d->cap_derating.nom, 0.5, 1e-12); /* common practice for class II */
     br_design_free(d);
 }
 
@@ -640,7 +718,7 @@ static void test_lines(void)
     CU_ASSERT_EQUAL(d->deadtime.line, line_of(f, "dead-time="));
     CU_ASSERT_EQUAL(d->overshoot.line, line_of(f, "overshoot="));
     CU_ASSERT_EQUAL(d->caps[0].aging.line, line_of(f, "aging="));
-    CU_ASSERT_EQUAL(d->caps[0].line, line_of(f, "<capacitor id=\"x5r-10u-25v\""));
+    CU_ASSERT_EQUAL(d->caps[0].line, line_of(f, "<capacitor id=\"x5r-10u-35v\""));
     CU_ASSERT_EQUAL(d->diodes[1].ifsm.line, line_of(f, "ifsm=\"80 A\""));
     CU_ASSERT_EQUAL(d->diodes[1].ifrm.line, line_of(f, "ifrm=\"20 A\""));
     BR_ASSERT_REL(d->diodes[1].ifrm.nom, 20.0, 1e-12);
@@ -758,11 +836,20 @@ static void test_schema(void)
  * schema must reject the same files, so the two cannot drift apart. */
 static void test_schema_agrees(void)
 {
-    static const char *const structural[] = {
-        "unknown-element.xml",  "unknown-attribute.xml", "missing-attribute.xml",
-        "missing-element.xml",  "out-of-order.xml",      "two-supplies.xml",
-        "text-content.xml",     "bad-version.xml",       "current-unknown.xml",
-        "conducts-unknown.xml", "wrong-root.xml",        NULL};
+    static const char *const structural[] = {"unknown-element.xml",
+                                             "unknown-attribute.xml",
+                                             "missing-attribute.xml",
+                                             "missing-element.xml",
+                                             "out-of-order.xml",
+                                             "two-supplies.xml",
+                                             "text-content.xml",
+                                             "bad-version.xml",
+                                             "current-unknown.xml",
+                                             "conducts-unknown.xml",
+                                             "wrong-root.xml",
+                                             "supply-limit-mode-unknown.xml",
+                                             "cap-dielectric-unknown.xml",
+                                             NULL};
     char rel[256];
     for (int i = 0; structural[i]; i++) {
         snprintf(rel, sizeof rel, "tests/bad/%s", structural[i]);
@@ -807,6 +894,7 @@ int main(void)
         {"reference chain c2", test_ref_c2},
         {"reference chain c8, under load", test_ref_c8},
         {"the attributes of the load current", test_load_attributes},
+        {"heat, ratings and the supply's limit", test_heat_attributes},
         {"forward fit recovers Shockley parameters", test_fit_direct},
         {"forward fit rejects non-diode points", test_fit_rejects},
         {"forward fit from a file", test_fit_from_file},

@@ -1,5 +1,6 @@
 /* test_model_tolerance.c - listing, naming, reading and writing the
  * toleranced values of a design. */
+#include "model/chain.h"
 #include "model/tolerance.h"
 #include "testdesign.h"
 #include "testkit.h"
@@ -125,6 +126,52 @@ static void test_set_in_copy(void)
 
 /* A design with more toleranced values than the list holds is refused
  * with a message that says so. */
+/* One ambient for every part: a design whose capacitor follows a
+ * temperature table and whose diodes leak by the usual law has a single
+ * temperature parameter, and at its hot limit the capacitor is at its
+ * hot capacitance and the diode leaks its hot leakage in the same chain
+ * (hot diodes come with hot capacitors, not independently).  By hand: at
+ * 85 C the table gives 0.85 (1 uF -> 0.85 uF), the leakage 1 uA x
+ * 2^((85 - 25)/10) = 64 uA; at -15 C, 1 + (40/80) (0.9 - 1) = 0.95 and
+ * 1 uA x 2^-4 = 62.5 nA. */
+static void test_one_ambient(void)
+{
+    br_design *d = br_test_fcml(2, 400.0, 100e3, 0.5, 50e-9);
+    br_error err;
+    br_tol_list l;
+    d->tamb = br_qty_fixed(298.15);
+    d->tamb.min = 258.15;
+    d->tamb.max = 358.15;
+    br_cap_part *cp = &d->caps[0];
+    cp->ntemp = 3;
+    cp->temp_t[0] = 218.15; /* -55 C */
+    cp->temp_f[0] = 0.9;
+    cp->temp_t[1] = 298.15;
+    cp->temp_f[1] = 1.0;
+    cp->temp_t[2] = 378.15; /* 105 C */
+    cp->temp_f[2] = 0.8;
+    d->diodes[0].ir = br_qty_fixed(1e-6);
+    d->diodes[0].ir_temp = br_qty_fixed(298.15);
+    d->diodes[0].ir_double = br_qty_fixed(10.0);
+    CU_ASSERT_EQUAL_FATAL(br_tol_list_build(d, &l, &err), BR_OK);
+    CU_ASSERT_EQUAL(l.n, 1);
+    CU_ASSERT_STRING_EQUAL(l.p[0].name, "operating-point: ambient");
+    br_design *hot = br_design_copy(d);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(hot);
+    double levels[2] = {br_tol_level(&l.p[0], 1), br_tol_level(&l.p[0], -1)};
+    double want_c[2] = {0.85e-6, 0.95e-6}, want_ir[2] = {64e-6, 62.5e-9};
+    for (int i = 0; i < 2; i++) {
+        br_tol_apply(hot, &l, &levels[i]);
+        br_chain *c;
+        CU_ASSERT_EQUAL_FATAL(br_chain_build(hot, &c, &err), BR_OK);
+        BR_ASSERT_REL(c->st[1].cap.c, want_c[i], 1e-12);
+        BR_ASSERT_REL(c->st[1].diode.ir, want_ir[i], 1e-12);
+        br_chain_free(c);
+    }
+    br_design_free(hot);
+    br_design_free(d);
+}
+
 static void test_too_many(void)
 {
     br_design *d = br_test_fcml(33, 6400.0, 100e3, 0.5, 50e-9);
@@ -158,6 +205,7 @@ int main(void)
         {"unused parts are not parameters", test_unused_parts_left_out},
         {"link resistors of overridden stages", test_stage_resistors},
         {"values written into a copy", test_set_in_copy},
+        {"one ambient for capacitors and diodes", test_one_ambient},
         {"too many toleranced values refused", test_too_many},
         {NULL, NULL},
     };

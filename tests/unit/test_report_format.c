@@ -139,11 +139,12 @@ static void test_csv_series(void)
         rows += *t == '\n';
     CU_ASSERT_EQUAL(s.rows, 13);
     CU_ASSERT_EQUAL(rows, 13);
-    /* rail 0 is the supply; links start at 1 (link 0 does not exist);
-     * fed without a simulator, the driver supplies are the rails and the
-     * reverse voltages are empty */
+    /* rail 0 is the supply; then the supply's current, and the links from
+     * 1 (link 0 does not exist); fed without a simulator, the supply's
+     * current is empty, the driver supplies are the rails and the reverse
+     * voltages are empty */
     CU_ASSERT_PTR_NOT_NULL(
-        strstr(br_text_data(out), "startup,5.4e-05,12,11,10,0.1,0.05,12,11,10,,\n"));
+        strstr(br_text_data(out), "startup,5.4e-05,12,11,10,,0.1,0.05,12,11,10,,\n"));
     CU_ASSERT_PTR_NOT_NULL(strstr(br_text_data(out), "\nstartup,5.5e-05,"));
     CU_ASSERT_PTR_NOT_NULL(strstr(br_text_data(out), "\nstartup,6.5e-05,"));
     CU_ASSERT_PTR_NULL(strstr(br_text_data(out), "\nstartup,6e-05,"));
