@@ -37,6 +37,7 @@ typedef enum br_kind {
     BR_KIND_NUMBER,      /* dimensionless, a plain number */
     BR_KIND_ENERGY_EV,   /* eV, kept in eV (bandgaps) */
     BR_KIND_I2T,         /* A^2 s ("A2s"), no prefixes: on a squared unit they mislead */
+    BR_KIND_ANGLE,       /* an angle in degrees ("30 deg", or the degree sign), in radians */
     BR_KIND_COUNT
 } br_kind;
 
