@@ -77,7 +77,8 @@ static int ordinal(xmlNode *n)
 /* Elements that repeat without a name of their own are counted. */
 static int is_counted(const char *name)
 {
-    static const char *const counted[] = {"forward", "bias", "on", "reverse", "precharge", NULL};
+    static const char *const counted[] = {"forward",   "bias", "on", "reverse",
+                                          "precharge", "duty", NULL};
     for (int i = 0; counted[i]; i++)
         if (strcmp(name, counted[i]) == 0)
             return 1;
@@ -339,7 +340,9 @@ static const rule rules[] = {
     {"bootrung-design", "operating-point",
      "!vin !fsw duty dead-time ambient current=step-down|step-up|both|none imbalance edge-time "
      "overshoot load-current load-from switch-tj",
-     "", 0},
+     "line-cycle", 1},
+    {"operating-point", "line-cycle", "!frequency !peak-current phase depth", "duty", 0},
+    {"line-cycle", "duty", "!at !value", "", 0},
     {"bootrung-design", "supply", "!voltage resistance ramp bypass", "", 0},
     {"bootrung-design", "topology", "", "!fcml|string", 1},
     {"topology", "fcml", "!levels cfly", "", 0},
