@@ -1,0 +1,172 @@
+/* line.c - the line cycle's switching periods: their phase, duty,
+ * current, and the events of each one (phase-shifted carriers that each
+ * take a new duty at the start of their own period). */
+#include "model/line.h"
+
+#include "model/fcml.h"
+#include "model/timing.h"
+
+#include <math.h>
+#include <string.h>
+
+void br_line_resolve(const br_line_spec *ac, double fsw, br_line *l)
+{
+    memset(l, 0, sizeof *l);
+    if (!ac->on || !(ac->freq.nom > 0) || !(fsw > 0))
+        return;
+    l->on = 1;
+    l->freq_given = ac->freq.nom;
+    double k = floor(fsw / ac->freq.nom + 0.5);
+    l->K = k < 1.0 ? 1 : (long)k;
+    l->freq = fsw / (double)l->K;
+    l->ipk = ac->ipk.nom;
+    l->phase = ac->phase.nom;
+    l->depth = ac->depth.nom;
+    l->ntab = ac->ntab;
+    l->tab_at = ac->tab_at;
+    l->tab_duty = ac->tab_duty;
+}
+
+long br_line_index(const br_line *l, long m)
+{
+    if (l->K <= 0)
+        return 0;
+    long r = m % l->K;
+    return r < 0 ? r + l->K : r;
+}
+
+double br_line_theta(const br_line *l, long m)
+{
+    return 2.0 * BR_PI * ((double)br_line_index(l, m) + 0.5) / (double)l->K;
+}
+
+/* The table between its points, closing the circle from the last point
+ * to the first one a line period later. */
+static double table_at(const br_line *l, double th)
+{
+    int n = l->ntab, i = 0;
+    while (i < n && l->tab_at[i] <= th)
+        i++;
+    double a0, d0, a1, d1;
+    if (i == 0 || i == n) { /* between the last point and the first */
+        a0 = l->tab_at[n - 1] - (i == 0 ? 2.0 * BR_PI : 0.0);
+        a1 = l->tab_at[0] + (i == n ? 2.0 * BR_PI : 0.0);
+        d0 = l->tab_duty[n - 1];
+        d1 = l->tab_duty[0];
+    } else {
+        a0 = l->tab_at[i - 1];
+        a1 = l->tab_at[i];
+        d0 = l->tab_duty[i - 1];
+        d1 = l->tab_duty[i];
+    }
+    return a1 > a0 ? d0 + (d1 - d0) * (th - a0) / (a1 - a0) : d0;
+}
+
+double br_line_duty_at(const br_line *l, double theta)
+{
+    if (l->ntab > 0)
+        return table_at(l, theta);
+    return 0.5 * (1.0 + l->depth * sin(theta));
+}
+
+double br_line_duty(const br_line *l, long m)
+{
+    return br_line_duty_at(l, br_line_theta(l, m));
+}
+
+double br_line_current(const br_line *l, long m)
+{
+    return l->ipk * sin(br_line_theta(l, m) - l->phase);
+}
+
+void br_line_window(const br_line *l, double T, double offset, long w, double *theta, long *m)
+{
+    double at = offset / T + (double)br_line_index(l, w) + 0.5; /* in switching periods */
+    long k = (long)floor(at);
+    *m = br_line_index(l, k);
+    double f = at / (double)l->K;
+    *theta = 2.0 * BR_PI * (f - floor(f));
+}
+
+int br_line_dir(const br_line *l, long m)
+{
+    double i = br_line_current(l, m);
+    return i > 0.0 ? BR_DIRI_DOWN : i < 0.0 ? BR_DIRI_UP : BR_DIRI_NONE;
+}
+
+/* ---- the events of one switching period ----------------------------------
+ * Pair j's carrier is delayed by a = (j-1) T/P.  Each carrier takes the
+ * duty of the switching period in which its own period begins (a shadow
+ * register loaded at its own zero): in common period m, the edges of pair
+ * j before a still belong to its period that began in m-1 (duty D[m-1]),
+ * those from a on to its period m (duty D[m]).  So every pulse is a whole
+ * D T and every dead time stays whole.  The edges are those of the
+ * fixed-duty leg (br_fcml_switch) at either duty, exactly. */
+
+typedef struct line_pair {
+    br_fcml_sw prev, cur; /* switch s at D[m-1] and at D[m] */
+    double a;             /* its carrier's delay, s */
+} line_pair;
+
+static void add_event(br_timing *tm, double t, int sw, int kind)
+{
+    br_event *e = &tm->ev[tm->nev++];
+    e->t = t;
+    e->sw = sw;
+    e->kind = kind;
+}
+
+/* One edge of an interval: the one of the carrier period that began in
+ * this common period (at or after a), and the one of the carrier period
+ * that began in the last (wrapped into [0, a)): none, one or both fall in
+ * this common period when the duty moves. */
+static void add_edge(br_timing *tm, const line_pair *lp, double pv, double cv, int s, int kind)
+{
+    if (lp->a == 0.0 || cv >= lp->a)
+        add_event(tm, cv, s, kind);
+    if (lp->a > 0.0 && pv < lp->a)
+        add_event(tm, pv, s, kind);
+}
+
+/* The edges of one kind of interval of switch s in this period. */
+static void add_edges(br_timing *tm, const line_pair *lp, int s, int which, int on_kind,
+                      int off_kind, br_mask *mask0)
+{
+    const double *pv = which < 0 ? lp->prev.on : lp->prev.dead[which];
+    const double *cv = which < 0 ? lp->cur.on : lp->cur.dead[which];
+    if (cv[0] == cv[1])
+        return;
+    add_edge(tm, lp, pv[0], cv[0], s, on_kind);
+    add_edge(tm, lp, pv[1], cv[1], s, off_kind);
+    /* the state at t = 0 is the carrier period in progress there */
+    const double *at0 = lp->a > 0.0 ? pv : cv;
+    if (br_in_interval(0.0, at0[0], at0[1]))
+        *mask0 |= 1ULL << s;
+}
+
+void br_timing_line(const br_chain *c, long m, int dir, int held, br_timing *tm)
+{
+    const br_line *l = &c->line;
+    int P = c->n / 2;
+    double dc = br_line_duty(l, m), dp = held ? dc : br_line_duty(l, m - 1);
+    tm->T = c->T;
+    tm->n = c->n;
+    tm->nev = 0;
+    tm->on0 = tm->rev0 = 0;
+    for (int s = 0; s < c->n; s++) {
+        line_pair lp;
+        br_fcml_switch(P, s, c->T, dp, c->deadtime, &lp.prev);
+        br_fcml_switch(P, s, c->T, dc, c->deadtime, &lp.cur);
+        lp.a = (lp.cur.pair - 1) * c->T / P;
+        add_edges(tm, &lp, s, -1, BR_EV_ON, BR_EV_OFF, &tm->on0);
+        /* in the dead times the direction of this period's current picks
+         * the switch that conducts in reverse: the bottom one stepping
+         * down, the top one stepping up */
+        int conducts = dir == BR_DIRI_DOWN ? !lp.cur.is_top : dir == BR_DIRI_UP && lp.cur.is_top;
+        if (conducts && c->deadtime > 0) {
+            add_edges(tm, &lp, s, 0, BR_EV_REV_ON, BR_EV_REV_OFF, &tm->rev0);
+            add_edges(tm, &lp, s, 1, BR_EV_REV_ON, BR_EV_REV_OFF, &tm->rev0);
+        }
+    }
+    br_timing_sort(c, tm);
+}
