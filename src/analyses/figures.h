@@ -86,6 +86,11 @@ typedef struct br_verdict_row {
     const char *unit;             /* "s", "V", "A", "" (a count) */
     int stage;                    /* binding rail/link, -1 when none */
     int dir;                      /* br_dir_index of the binding case */
+    /* on a line cycle (dir BR_DIRI_LINE): where in it the row binds, the
+     * line phase (rad, [0, 2 pi)) and the switching period (0 .. K-1)
+     * whose duty and current hold there; NaN and -1 otherwise */
+    double line_theta;
+    long line_period;
     char note[160];
 } br_verdict_row;
 

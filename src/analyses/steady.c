@@ -24,6 +24,9 @@ void br_steady_opts_default(br_steady_opts *o)
     o->guess = NULL;
     o->jac = NULL;
     o->jac_valid = NULL;
+    o->line_hold = -1;
+    o->envelope = NULL;
+    o->progress = NULL;
 }
 
 double br_steady_quiet_phase(const br_chain *c, const br_timing *tm)
@@ -399,7 +402,7 @@ done:
  * charge it must pass on) below the rail beneath, and the on-state drop of
  * the return switch at the load current (which takes from the link's drive
  * or, carried in reverse, adds to it). */
-static void estimate(const br_chain *c, int dir, double *x)
+void br_steady_estimate(const br_chain *c, int dir, double *x)
 {
     memset(x, 0, sizeof(double) * NX);
     double iabove = 0.0;
@@ -489,6 +492,8 @@ int br_steady_solve(const br_chain *c, int dir, const br_steady_opts *o, br_stea
         br_steady_opts_default(&def);
         o = &def;
     }
+    if (dir == BR_DIRI_LINE && c->line.on && o->line_hold < 0)
+        return br_line_solve(c, o, out, err);
     memset(out, 0, sizeof *out);
     out->dir = dir;
     shoot sh = {.c = c};
@@ -498,13 +503,19 @@ int br_steady_solve(const br_chain *c, int dir, const br_steady_opts *o, br_stea
     br_sim_observer obs = {&sh, on_uvlo, NULL};
     br_sim_set_observer(sh.sim, &obs);
     br_timing tm;
-    br_timing_build(c, dir, &tm);
+    if (c->line.on && o->line_hold >= 0) { /* one switching period, repeated */
+        br_sim_line_hold(sh.sim, o->line_hold);
+        br_timing_line(c, o->line_hold,
+                       dir == BR_DIRI_NONE ? dir : br_line_dir(&c->line, o->line_hold), 1, &tm);
+    } else {
+        br_timing_build(c, dir, &tm);
+    }
     sh.phase = out->phase = br_steady_quiet_phase(c, &tm);
     double x[NX], z[NX];
     if (o->guess)
         memcpy(x, o->guess, sizeof x);
     else
-        estimate(c, dir, x);
+        br_steady_estimate(c, dir, x);
     memcpy(sh.base, x, sizeof x);
     map_unknowns(&sh);
     for (int i = 0; i < sh.m; i++)
