@@ -45,6 +45,19 @@ int br_meter_add(br_meter *m, double work)
     return stop;
 }
 
+static int poll_meter(void *ctx, double done, double total)
+{
+    (void)done;
+    (void)total;
+    return br_meter_add(ctx, 0.0);
+}
+
+br_progress br_meter_poller(br_meter *m)
+{
+    br_progress p = {m ? poll_meter : NULL, m};
+    return p;
+}
+
 int br_meter_stopped(br_meter *m)
 {
     if (!m)

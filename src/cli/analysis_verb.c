@@ -89,15 +89,16 @@ static int write_all(const outputs *o, const paths *p, int quiet)
     return br_cli_write(files, 4, o->text, quiet, verdict, 1);
 }
 
-/* Compute, then write unless a signal stopped the run (only the runs with
- * a cold start, the long ones, take signals and show progress). */
+/* Compute, then write unless a signal stopped the run (the cold start and
+ * the steady state of a line cycle take seconds: every run takes signals
+ * and shows progress). */
 static int run(const char *path, const char *verb, int parts, const br_steady_opts *so, outputs *o,
                const paths *p, int quiet)
 {
     br_error err;
     br_error_clear(&err);
     br_cli_run lr;
-    int longrun = (parts & BR_RUN_STARTUP) != 0;
+    int longrun = (parts & (BR_RUN_STARTUP | BR_RUN_STEADY)) != 0;
     if (longrun) {
         br_cli_run_begin(&lr, verb, quiet);
         o->res->progress = &lr.hook;

@@ -170,3 +170,28 @@ void br_timing_line(const br_chain *c, long m, int dir, int held, br_timing *tm)
     }
     br_timing_sort(c, tm);
 }
+
+double br_line_cell_min(const br_chain *c, long *m, int *stage, double *pp)
+{
+    const br_line *l = &c->line;
+    double low = HUGE_VAL, fpp[BR_MAX_FLY + 1];
+    *m = -1;
+    *stage = -1;
+    *pp = 0.0;
+    for (long p = 0; p < l->K && c->cfly > 0; p++) {
+        br_timing tm;
+        int k, dir = br_line_dir(l, p);
+        double i = br_line_current(l, p);
+        br_timing_line(c, p, dir, 0, &tm);
+        br_timing_fly_swing(&tm, fpp);
+        for (int j = 1; j < tm.npairs; j++)
+            *pp = fmax(*pp, fpp[j] * fabs(i));
+        double v = br_timing_cell_min(&tm, c, -i, &k); /* step-up positive */
+        if (v < low) {
+            low = v;
+            *m = p;
+            *stage = k;
+        }
+    }
+    return low;
+}

@@ -73,6 +73,12 @@ void br_timing_build(const br_chain *c, int dir, br_timing *tm);
  * quasi-static state). */
 void br_timing_line(const br_chain *c, long m, int dir, int held, br_timing *tm);
 
+/* Over c's line cycle: the lowest voltage any switch blocks with the
+ * flying capacitors' ripple of each period's current (HUGE_VAL without
+ * ripple), the switching period *m and stage *stage where, and in *pp the
+ * largest peak-to-peak ripple of a flying capacitor, V. */
+double br_line_cell_min(const br_chain *c, long *m, int *stage, double *pp);
+
 /* Sort tm's events and derive the flying capacitors' ripple from them
  * (the last step of building a timing). */
 void br_timing_sort(const br_chain *c, br_timing *tm);

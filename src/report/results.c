@@ -116,6 +116,8 @@ static int run_line(br_results *r, const br_steady_opts *so, br_text *csv, br_er
     if (!(r->env = br_line_env_create(r->c->line.K, r->c->n)))
         return oom(err, "keeping the line cycle's envelope");
     o.envelope = r->env;
+    if (!o.progress)
+        o.progress = r->progress; /* a line period is thousands of switching periods */
     int rc = br_steady_solve(r->c, BR_DIRI_LINE, &o, &r->ss[0], err);
     if (rc == BR_OK && csv && br_line_csv(r->c, r->env, csv) != BR_OK)
         rc = oom(err, "recording the line cycle's envelope");

@@ -28,8 +28,9 @@ typedef struct br_results {
     br_steady_figs figs[2];      /* figs[d].ss points at ss[d] */
     br_verdict verdict;          /* over what was run */
     br_line_env *env;            /* a line cycle's rail envelope (NULL otherwise; owned) */
-    const br_progress *progress; /* the cold start's progress hook (NULL: none); set it
-                                    before br_results_run */
+    const br_progress *progress; /* the cold start's and a line cycle's steady state's
+                                    progress hook (NULL: none); set it before
+                                    br_results_run */
 } br_results;
 
 /* Allocate (the structure is large).  Returns NULL when out of memory. */
