@@ -3,7 +3,6 @@
  * take a new duty at the start of their own period). */
 #include "model/line.h"
 
-#include "model/fcml.h"
 #include "model/timing.h"
 
 #include <math.h>
@@ -100,13 +99,13 @@ int br_line_dir(const br_line *l, long m)
  * register loaded at its own zero): in common period m, the edges of pair
  * j before a still belong to its period that began in m-1 (duty D[m-1]),
  * those from a on to its period m (duty D[m]).  So every pulse is a whole
- * D T and every dead time stays whole.  The edges are those of the
- * fixed-duty leg (br_fcml_switch) at either duty, exactly. */
-
-typedef struct line_pair {
-    br_fcml_sw prev, cur; /* switch s at D[m-1] and at D[m] */
-    double a;             /* its carrier's delay, s */
-} line_pair;
+ * D T and every dead time stays whole.  Within its own period, starting
+ * at o, the pair makes the fixed-duty leg's pulses (br_fcml_switch): the
+ * top switch on over [0, D T), the bottom one over [D T + td, T - td),
+ * dead times [D T, D T + td) and [T - td, T).  Each edge is placed by its
+ * offset in the carrier period it belongs to, so that an edge on a
+ * period boundary (td = 0) falls in exactly one common period whatever
+ * the rounding. */
 
 static void add_event(br_timing *tm, double t, int sw, int kind)
 {
@@ -116,32 +115,50 @@ static void add_event(br_timing *tm, double t, int sw, int kind)
     e->kind = kind;
 }
 
-/* One edge of an interval: the one of the carrier period that began in
- * this common period (at or after a), and the one of the carrier period
- * that began in the last (wrapped into [0, a)): none, one or both fall in
- * this common period when the duty moves. */
-static void add_edge(br_timing *tm, const line_pair *lp, double pv, double cv, int s, int kind)
+/* A carrier period: where it begins and ends (the next one's start, so
+ * that an edge at its end and the next one's first edge are one instant
+ * exactly), and its duty. */
+typedef struct frame {
+    double o, end, D;
+} frame;
+
+static double frame_at(const frame *f, double T, double x)
 {
-    if (lp->a == 0.0 || cv >= lp->a)
-        add_event(tm, cv, s, kind);
-    if (lp->a > 0.0 && pv < lp->a)
-        add_event(tm, pv, s, kind);
+    return x >= T ? f->end : f->o + x;
 }
 
-/* The edges of one kind of interval of switch s in this period. */
-static void add_edges(br_timing *tm, const line_pair *lp, int s, int which, int on_kind,
-                      int off_kind, br_mask *mask0)
+/* Interval [x0, x1) of switch s in carrier period f: its edges that fall
+ * in this common period [0, T), and whether it holds t = 0 (after the
+ * events there). */
+static void frame_interval(br_timing *tm, const frame *f, double x0, double x1, int s,
+                           const int kinds[2], br_mask *mask0)
 {
-    const double *pv = which < 0 ? lp->prev.on : lp->prev.dead[which];
-    const double *cv = which < 0 ? lp->cur.on : lp->cur.dead[which];
-    if (cv[0] == cv[1])
+    double t0 = frame_at(f, tm->T, x0), t1 = frame_at(f, tm->T, x1);
+    if (!(x1 > x0))
         return;
-    add_edge(tm, lp, pv[0], cv[0], s, on_kind);
-    add_edge(tm, lp, pv[1], cv[1], s, off_kind);
-    /* the state at t = 0 is the carrier period in progress there */
-    const double *at0 = lp->a > 0.0 ? pv : cv;
-    if (br_in_interval(0.0, at0[0], at0[1]))
+    if (t0 >= 0.0 && t0 < tm->T)
+        add_event(tm, t0, s, kinds[0]);
+    if (t1 >= 0.0 && t1 < tm->T)
+        add_event(tm, t1, s, kinds[1]);
+    if (t0 <= 0.0 && 0.0 < t1)
         *mask0 |= 1ULL << s;
+}
+
+/* Pair j's carrier period f, for direction dir (which switch conducts in
+ * reverse in the dead times: the bottom one stepping down, the top one
+ * stepping up). */
+static void frame_pair(br_timing *tm, const br_chain *c, int j, const frame *f, int dir)
+{
+    static const int on[2] = {BR_EV_ON, BR_EV_OFF}, rev[2] = {BR_EV_REV_ON, BR_EV_REV_OFF};
+    int P = c->n / 2, top = 2 * P - j, bottom = j - 1;
+    double T = c->T, td = c->deadtime, dT = f->D * T;
+    frame_interval(tm, f, 0.0, dT, top, on, &tm->on0);
+    frame_interval(tm, f, dT + td, T - td, bottom, on, &tm->on0);
+    if (td > 0 && dir >= 0) {
+        int s = dir == BR_DIRI_DOWN ? bottom : top;
+        frame_interval(tm, f, dT, dT + td, s, rev, &tm->rev0);
+        frame_interval(tm, f, T - td, T, s, rev, &tm->rev0);
+    }
 }
 
 void br_timing_line(const br_chain *c, long m, int dir, int held, br_timing *tm)
@@ -153,20 +170,11 @@ void br_timing_line(const br_chain *c, long m, int dir, int held, br_timing *tm)
     tm->n = c->n;
     tm->nev = 0;
     tm->on0 = tm->rev0 = 0;
-    for (int s = 0; s < c->n; s++) {
-        line_pair lp;
-        br_fcml_switch(P, s, c->T, dp, c->deadtime, &lp.prev);
-        br_fcml_switch(P, s, c->T, dc, c->deadtime, &lp.cur);
-        lp.a = (lp.cur.pair - 1) * c->T / P;
-        add_edges(tm, &lp, s, -1, BR_EV_ON, BR_EV_OFF, &tm->on0);
-        /* in the dead times the direction of this period's current picks
-         * the switch that conducts in reverse: the bottom one stepping
-         * down, the top one stepping up */
-        int conducts = dir == BR_DIRI_DOWN ? !lp.cur.is_top : dir == BR_DIRI_UP && lp.cur.is_top;
-        if (conducts && c->deadtime > 0) {
-            add_edges(tm, &lp, s, 0, BR_EV_REV_ON, BR_EV_REV_OFF, &tm->rev0);
-            add_edges(tm, &lp, s, 1, BR_EV_REV_ON, BR_EV_REV_OFF, &tm->rev0);
-        }
+    for (int j = 1; j <= P; j++) {
+        double a = (j - 1) * c->T / P;
+        frame last = {a - c->T, a, dp}, now = {a, a + c->T, dc};
+        frame_pair(tm, c, j, &last, dir); /* began in the last period */
+        frame_pair(tm, c, j, &now, dir);  /* begins in this one */
     }
     br_timing_sort(c, tm);
 }
