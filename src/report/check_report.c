@@ -138,7 +138,7 @@ static int render_line_fly(const br_chain *c, br_text *out)
     int rc = br_text_printf(out, "  flying caps       %s each, ripple up to %s peak to peak",
                             si(a, sizeof a, c->cfly, "F"), si(b, sizeof b, pp, "V"));
     if (at >= 0)
-        rc |= br_text_printf(out, ", lowest blocking voltage %s (%s, line phase %.1f deg)",
+        rc |= br_text_printf(out, ", lowest blocking voltage %s (%s at %.1f deg)",
                              si(v, sizeof v, low, "V"), c->st[at].name,
                              br_line_theta(&c->line, m) * 180.0 / BR_PI);
     return rc | br_text_put(out, "\n");

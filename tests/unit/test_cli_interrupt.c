@@ -27,6 +27,7 @@ extern char **environ;
 
 #define LEG BR_SOURCE_DIR "/examples/leg-7level.xml"
 #define DEMO BR_SOURCE_DIR "/examples/demo-3level.xml"
+#define INVERTER BR_SOURCE_DIR "/examples/inverter-7level.xml"
 
 static double now(void)
 {
@@ -108,7 +109,12 @@ static void interrupt_run(const char *verb, const char *o1, const char *f1, cons
     const char *map[] = {verb, LEG, "--duty", "5%:95%:40", "--freq", "10k:1M:40",
                          o1,   p1,  o2,       p2,          NULL};
     const char *yield[] = {verb, LEG, "--samples", "100000", o1, p1, o2, p2, NULL};
-    pid_t pid = spawn(strcmp(verb, "map") == 0 ? map : yield, po, fe);
+    /* a line cycle's steady state: thousands of switching periods */
+    const char *steady[] = {verb, INVERTER, o1, p1, o2, p2, NULL};
+    pid_t pid = spawn(strcmp(verb, "map") == 0      ? map
+                      : strcmp(verb, "steady") == 0 ? steady
+                                                    : yield,
+                      po, fe);
     usleep(300000);
     double t = now();
     kill(pid, sig);
@@ -137,6 +143,11 @@ static void test_sigint_map(void)
 static void test_sigterm_yield(void)
 {
     interrupt_run("yield", "--xml", "y.xml", "--csv", "y.csv", SIGTERM, 143);
+}
+
+static void test_sigint_line_steady(void)
+{
+    interrupt_run("steady", "--xml", "s.xml", "--csv", "s.csv", SIGINT, 130);
 }
 
 /* --quiet: one line on stdout, the verdict; nothing on stderr. */
@@ -292,6 +303,7 @@ int main(void)
 {
     static const br_test_case cases[] = {
         {"SIGINT stops map: 130, no files", test_sigint_map},
+        {"SIGINT stops the steady state of a line cycle", test_sigint_line_steady},
         {"SIGTERM stops yield: 143, no files", test_sigterm_yield},
         {"--quiet prints the verdict line only", test_quiet},
         {"--quiet still writes the files", test_quiet_writes_files},
