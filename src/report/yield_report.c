@@ -48,10 +48,9 @@ static int line_cost_text(const br_chain *c, const br_yield *y, br_text *out)
     snprintf(buf, sizeof buf,
              "each sample's steady state is solved over the whole line cycle (%ld switching "
              "periods a line period); this run simulated %.0f switching periods a sample "
-             "(%.1f line periods). That is about a thousand times the cost of a sample at a "
-             "DC operating point: 10 000 samples of a 12-switch leg at 2000 periods a line "
-             "take hours on two cores (docs/engine.md gives measured times), so size --samples "
-             "to the time at hand (a few hundred give the yield to a few percent).",
+             "(%.1f line periods), about a thousand times what a sample at a DC operating "
+             "point takes. Size --samples to the time at hand: the README gives measured "
+             "times, and a few hundred samples give the yield to a few percent.",
              c->line.K, periods, periods / (double)c->line.K);
     return br_report_wrap(out, "line cycle: ", buf, 2);
 }
