@@ -504,28 +504,41 @@ static int can_apply(const br_chain *c, int crit)
  * whose cross-check periods still move the rails): every row that needs
  * one is undetermined, and the steady row says where it got stuck: which
  * rail, after how many periods, how far from settled. */
+/* "for current step-down", or "over the line cycle". */
+static const char *case_words(int dir, char *buf, size_t cap)
+{
+    if (dir == BR_DIRI_LINE)
+        snprintf(buf, cap, "over the line cycle");
+    else
+        snprintf(buf, cap, "for current %s", dir_word(dir));
+    return buf;
+}
+
 static void unsettled(const br_chain *c, const br_steady *ss, br_verdict *v)
 {
     int again = v->row[BR_CRIT_STEADY].undetermined; /* the other direction too */
     int k = ss->resid_rail >= 0 && ss->resid_rail < c->n ? ss->resid_rail : 0;
+    int line = ss->dir == BR_DIRI_LINE;
+    char what[24];
+    case_words(ss->dir, what, sizeof what);
     v->row[BR_CRIT_STEADY].undetermined = 1;
     for (int i = BR_CRIT_STEADY + 1; i < BR_CRIT_COUNT; i++)
         if ((v->row[i].undetermined = can_apply(c, i)))
-            snprintf(v->row[i].note, sizeof v->row[i].note, "no converged steady state %s%s",
-                     again ? "in either current direction" : "for current ",
-                     again ? "" : dir_word(ss->dir));
+            snprintf(v->row[i].note, sizeof v->row[i].note, "no converged steady state %s",
+                     again ? "in either current direction" : what);
     if (again)
         return; /* the steady row keeps the first direction's details */
     if (ss->converged)
         snprintf(v->row[BR_CRIT_STEADY].note, sizeof v->row[BR_CRIT_STEADY].note,
-                 "the state the solver found (current %s) is not periodic: the cross-check "
-                 "periods still move the rails by %.3g V per period, more than %.3g V",
-                 dir_word(ss->dir), ss->drift, DRIFT_LIMIT);
+                 "the state the solver found (%s) is not periodic: the cross-check moves the "
+                 "rails by %.3g V per %speriod, more than %.3g V",
+                 what, ss->drift, line ? "line " : "", DRIFT_LIMIT);
     else
         snprintf(v->row[BR_CRIT_STEADY].note, sizeof v->row[BR_CRIT_STEADY].note,
-                 "the solver did not converge (current %s): after %ld periods rail %d (%s) "
-                 "still moves %.3g V per period",
-                 dir_word(ss->dir), ss->periods, k, c->st[k].name, ss->residual);
+                 "the solver did not converge (%s): after %ld %speriods rail %d (%s) still "
+                 "moves %.3g V per %speriod",
+                 what, ss->periods, line ? "switching " : "", k, c->st[k].name, ss->residual,
+                 line ? "line " : "");
 }
 
 /* The steady-state row is a status, not a margin: the state holds (found

@@ -383,9 +383,10 @@ static int iterate(line_run *lr, double *z, br_steady *out, int maps, br_error *
     if ((*rc = newton_alloc(&nw, m, err)) != BR_OK)
         return 0;
     for (int it = 0; it < maps && *rc == BR_OK; it++) {
-        /* the figures of a map are kept when it may be the answer: not
-         * the first one from the quasi-static start, a quarter volt away */
-        int record = it > 0 || lr->o->guess;
+        /* the figures of a map are kept when it may be the answer (not
+         * the first one from the quasi-static start, a quarter volt away)
+         * and from the last one, which an unsettled state reports */
+        int record = it > 0 || lr->o->guess || it == maps - 1;
         br_sim_set_variational(lr->sim, exact);
         if ((*rc = line_map(lr, z, pz, record, err)) != BR_OK)
             break;

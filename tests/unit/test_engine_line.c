@@ -257,9 +257,40 @@ static void test_droop_follows_current(void)
     br_design_free(dn);
 }
 
+/* A solver held to one map cannot settle a line cycle: the state is
+ * undetermined, never a pass or a failure, and the figures shown are
+ * those of the last map, not an empty record. */
+static void test_unsettled_is_undetermined(void)
+{
+    br_design *d = leg(3, 1, 1000.0, 10.0, 30.0, 0.8, 100e-9);
+    br_chain *c = build(d);
+    br_steady_opts o;
+    br_steady ss;
+    br_steady_figs f;
+    br_error err;
+    br_steady_opts_default(&o);
+    o.max_iter = 1;
+    CU_ASSERT_EQUAL_FATAL(br_steady_solve(c, BR_DIRI_LINE, &o, &ss, &err), BR_OK);
+    CU_ASSERT_FALSE(ss.converged);
+    CU_ASSERT_EQUAL(ss.iterations, 1);
+    br_steady_figures(c, &ss, &f);
+    for (int k = 1; k < c->n; k++)
+        CU_ASSERT(f.rail[k].vmin > 5.0 && f.rail[k].vmax < 13.0);
+    br_verdict v;
+    br_verdict_make(c, NULL, &f, 1, &v);
+    CU_ASSERT_TRUE(v.row[BR_CRIT_STEADY].undetermined);
+    CU_ASSERT_TRUE(v.row[BR_CRIT_UVLO].undetermined && !v.row[BR_CRIT_UVLO].pass);
+    CU_ASSERT_FALSE(v.all_pass);
+    CU_ASSERT_EQUAL(v.nfail, 0);
+    CU_ASSERT_PTR_NOT_NULL(strstr(v.row[BR_CRIT_STEADY].note, "per line period"));
+    br_chain_free(c);
+    br_design_free(d);
+}
+
 int main(void)
 {
     static const br_test_case cases[] = {
+        {"an unsettled line cycle is undetermined", test_unsettled_is_undetermined},
         {"a vanishing line cycle is the DC steady state", test_tiny_line_is_dc},
         {"no current is the chain at no load", test_zero_current_is_no_load},
         {"the line cycle's state matches plain simulation", test_matches_plain},
