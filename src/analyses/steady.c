@@ -492,7 +492,10 @@ int br_steady_solve(const br_chain *c, int dir, const br_steady_opts *o, br_stea
         br_steady_opts_default(&def);
         o = &def;
     }
-    if (dir == BR_DIRI_LINE && c->line.on && o->line_hold < 0)
+    if (dir == BR_DIRI_LINE && !c->line.on)
+        return br_error_set(err, BR_EINPUT, NULL, 0, NULL,
+                            "a line cycle's steady state asked of a chain without one");
+    if (dir == BR_DIRI_LINE && o->line_hold < 0)
         return br_line_solve(c, o, out, err);
     memset(out, 0, sizeof *out);
     out->dir = dir;
