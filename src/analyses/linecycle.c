@@ -18,16 +18,17 @@
  *    costs about five plain maps, so only then);
  *  - converged when the Newton step, the distance to the periodic state,
  *    is below the tolerance and no driver dropped out; the figures are
- *    those of the map from that state, and one more line period is
- *    simulated as the cross-check (its drift is reported).
+ *    those of the map from that state, and its change over the line
+ *    period is the drift the verdict checks (as one period's is at DC;
+ *    check_periods above one simulate more line periods).
  *
  * The start is the quasi-static state of the line period's first
  * switching period: that period repeated for ever (one-period shooting,
  * br_steady_solve with line_hold).  Stored charges forget their start
  * within a switching period and are carried from map to map.
  *
- * Bounded: at most BR_LINE_MAPS maps (fewer with the options' max_iter)
- * and the cross-check; cancellable through the progress hook, called
+ * Bounded: at most BR_LINE_MAPS maps (fewer with the options' max_iter),
+ * each map with the exact Jacobian about five maps' work; cancellable through the progress hook, called
  * every BR_LINE_PROGRESS_EVERY switching periods.  Deterministic: every
  * map starts from a reset simulator. */
 #include "analyses/steady.h"
