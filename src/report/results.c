@@ -167,8 +167,10 @@ int br_results_run_traced(br_results *r, const br_chain *c, const char *verb, in
                           const br_steady_opts *so, br_text *csv, br_results_traces *tr,
                           br_error *err)
 {
+    const br_progress *hook = r->progress; /* the caller's, set before the run */
     br_line_env_free(r->env);
     memset(r, 0, sizeof *r);
+    r->progress = hook;
     r->c = c;
     r->verb = verb;
     r->parts = parts;
