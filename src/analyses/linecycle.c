@@ -28,9 +28,9 @@
  * within a switching period and are carried from map to map.
  *
  * Bounded: at most BR_LINE_MAPS maps (fewer with the options' max_iter),
- * each map with the exact Jacobian about five maps' work; cancellable through the progress hook, called
- * every BR_LINE_PROGRESS_EVERY switching periods.  Deterministic: every
- * map starts from a reset simulator. */
+ * each map with the exact Jacobian about five maps' work; cancellable through the progress hook,
+ * called every BR_LINE_PROGRESS_EVERY switching periods.  Deterministic: every map starts from a
+ * reset simulator. */
 #include "analyses/steady.h"
 
 #include "core/error.h"
