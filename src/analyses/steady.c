@@ -426,7 +426,7 @@ void br_steady_estimate(const br_chain *c, int dir, double *x)
 /* Plain simulation from x until the rails move less than tol per period. */
 static int plain(shoot *sh, double *x, const br_steady_opts *o, br_steady *out, br_error *err)
 {
-    double prev[NX], now[NX];
+    double prev[NX] = {0}, now[NX] = {0}; /* br_sim_state fills 2 n of them */
     br_sim_reset_running_at(sh->sim, x, sh->phase);
     br_sim_state(sh->sim, prev);
     out->method = BR_STEADY_PLAIN;
