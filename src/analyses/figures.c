@@ -8,6 +8,10 @@
 
 int br_design_directions(const br_chain *c, int dirs[2])
 {
+    if (c->line.on) { /* one line cycle, both directions in it */
+        dirs[0] = BR_DIRI_LINE;
+        return 1;
+    }
     switch (c->direction) {
     case BR_DIR_STEP_DOWN:
         dirs[0] = BR_DIRI_DOWN;
@@ -278,9 +282,9 @@ int br_crit_never(int crit, double value)
     return (crit == BR_CRIT_STARTUP || crit == BR_CRIT_TJ) && isinf(value);
 }
 
-/* Keep the row with the smallest margin. */
-static void consider(br_verdict_row *r, double figure, double limit, double margin, int stage,
-                     int dir)
+/* Keep the row with the smallest margin; returns 1 when it took this one. */
+static int consider(br_verdict_row *r, double figure, double limit, double margin, int stage,
+                    int dir)
 {
     /* a figure that is not a number decides nothing; a NaN margin with a
      * finite figure is a limit that is not set */
@@ -289,18 +293,29 @@ static void consider(br_verdict_row *r, double figure, double limit, double marg
             snprintf(r->note, sizeof r->note, "a figure is not finite (stage %d): not decided",
                      stage);
         r->undetermined = 1;
-        return;
+        return 0;
     }
     if (isnan(margin))
-        return;
+        return 0;
     if (r->applies && margin >= r->margin)
-        return;
+        return 0;
     r->applies = 1;
     r->figure = figure;
     r->limit = limit;
     r->margin = margin;
     r->stage = stage;
     r->dir = dir;
+    r->line_theta = NAN;
+    r->line_period = -1;
+    return 1;
+}
+
+/* A row a line cycle's steady state just set binds in window w of it. */
+static void line_at(const br_chain *c, const br_steady *ss, long w, br_verdict_row *r)
+{
+    if (ss->dir != BR_DIRI_LINE || !c->line.on || w < 0)
+        return;
+    br_line_window(&c->line, c->T, ss->phase, w, &r->line_theta, &r->line_period);
 }
 
 /* ---- inrush ---------------------------------------------------------------- */
@@ -658,27 +673,49 @@ static void steady_rows(const br_chain *c, const br_steady_figs *f, br_verdict *
 {
     supply_row(c, f, &v->row[BR_CRIT_SUPPLY]);
     tj_rows(c, f, &v->row[BR_CRIT_TJ]);
+    const br_steady *ss = f->ss;
     for (int k = 0; k < c->n; k++) {
         const br_rail_fig *rf = &f->rail[k];
         const br_stage *st = &c->st[k];
-        consider(&v->row[BR_CRIT_RESTART], rf->vdrv_min, st->drv.uvlo_rise, rf->m_restart, k,
-                 f->dir);
-        consider(&v->row[BR_CRIT_UVLO], rf->vdrv_min, st->drv.uvlo_fall, rf->m_uvlo, k, f->dir);
-        consider(&v->row[BR_CRIT_DRIVE], rf->vdrv_min, c->min_drive, rf->m_drive, k, f->dir);
-        consider(&v->row[BR_CRIT_GATE], rf->vdrv_max, st->sw.vgs_max, rf->m_gate, k, f->dir);
+        br_verdict_row *row = v->row;
+        if (consider(&row[BR_CRIT_RESTART], rf->vdrv_min, st->drv.uvlo_rise, rf->m_restart, k,
+                     f->dir))
+            line_at(c, ss, ss->at_dmin[k], &row[BR_CRIT_RESTART]);
+        if (consider(&row[BR_CRIT_UVLO], rf->vdrv_min, st->drv.uvlo_fall, rf->m_uvlo, k, f->dir))
+            line_at(c, ss, ss->at_dmin[k], &row[BR_CRIT_UVLO]);
+        if (consider(&row[BR_CRIT_DRIVE], rf->vdrv_min, c->min_drive, rf->m_drive, k, f->dir))
+            line_at(c, ss, ss->at_dmin[k], &row[BR_CRIT_DRIVE]);
+        if (consider(&row[BR_CRIT_GATE], rf->vdrv_max, st->sw.vgs_max, rf->m_gate, k, f->dir))
+            line_at(c, ss, ss->at_dmax[k], &row[BR_CRIT_GATE]);
         if (k == 0)
             continue;
         const br_link_fig *lf = &f->link[k];
-        if (lf->vrrm > 0) {
-            double lim_v = c->derating * lf->vrrm;
-            consider(&v->row[BR_CRIT_DIODE_VR], lf->vrev_stress, lim_v, lim_v - lf->vrev_stress, k,
-                     f->dir);
-        }
-        if (rf->vcap_rating > 0)
-            consider(&v->row[BR_CRIT_CAP_V], rf->vcap_peak, rf->vcap_rating,
-                     rf->vcap_rating - rf->vcap_peak, k, f->dir);
+        double lim_v = c->derating * lf->vrrm;
+        if (lf->vrrm > 0 && consider(&row[BR_CRIT_DIODE_VR], lf->vrev_stress, lim_v,
+                                     lim_v - lf->vrev_stress, k, f->dir))
+            line_at(c, ss, ss->at_vrev[k], &row[BR_CRIT_DIODE_VR]);
+        if (rf->vcap_rating > 0 && consider(&row[BR_CRIT_CAP_V], rf->vcap_peak, rf->vcap_rating,
+                                            rf->vcap_rating - rf->vcap_peak, k, f->dir))
+            line_at(c, ss, ss->at_vcap[k], &row[BR_CRIT_CAP_V]);
         rating_rows(c, f, k, v);
     }
+}
+
+/* A decided row of a line cycle says where in it it binds: the line
+ * phase, and the duty and current of the switching period there. */
+static void line_note(const br_chain *c, br_verdict_row *r)
+{
+    if (r->line_period < 0 || r->undetermined || r->note[0] || !r->applies)
+        return;
+    double i = br_line_current(&c->line, r->line_period);
+    snprintf(r->note, sizeof r->note,
+             "binds at line phase %.1f deg: switching period %ld of %ld, duty %.3f, current "
+             "%.3g A (%s)",
+             r->line_theta * 180.0 / BR_PI, r->line_period, c->line.K,
+             br_line_duty(&c->line, r->line_period), i,
+             i > 0   ? "step-down"
+             : i < 0 ? "step-up"
+                     : "none");
 }
 
 /* An undetermined row stays undetermined unless trustworthy data make it
@@ -735,7 +772,10 @@ static void finish_rows(br_verdict *v)
 
 static const char *dir_word(int dir)
 {
-    return dir == BR_DIRI_DOWN ? "step-down" : dir == BR_DIRI_UP ? "step-up" : "idealised";
+    return dir == BR_DIRI_DOWN   ? "step-down"
+           : dir == BR_DIRI_UP   ? "step-up"
+           : dir == BR_DIRI_LINE ? "line-cycle"
+                                 : "idealised";
 }
 
 /* Whether a steady row can apply at all: a limit the design does not
@@ -764,29 +804,42 @@ static int can_apply(const br_chain *c, int crit)
  * state: why the simulation failed, which rail's figures contradict each
  * other, or where the solver got stuck (which rail, after how many
  * periods, how far from settled). */
+/* "current step-down", or "over the line cycle". */
+static const char *case_words(int dir, char *buf, size_t cap)
+{
+    if (dir == BR_DIRI_LINE)
+        snprintf(buf, cap, "over the line cycle");
+    else
+        snprintf(buf, cap, "current %s", dir_word(dir));
+    return buf;
+}
+
 static void unsettled_note(const br_chain *c, const br_steady_figs *f, char *note, size_t cap)
 {
     const br_steady *ss = f->ss;
     int k = ss->resid_rail >= 0 && ss->resid_rail < c->n ? ss->resid_rail : 0;
+    int line = ss->dir == BR_DIRI_LINE;
+    char what[24];
+    case_words(ss->dir, what, sizeof what);
     if (ss->failed || ss->collapsed) {
-        snprintf(note, cap, "current %s: %s", dir_word(ss->dir), ss->why);
+        snprintf(note, cap, "%s: %s", what, ss->why);
     } else if (f->bad_rail >= 0) {
         const br_rail_fig *r = &f->rail[f->bad_rail];
         snprintf(note, cap,
-                 "the simulated period contradicts itself (current %s): rail %d (%s) averages "
-                 "%.6g V outside its minimum %.6g V and maximum %.6g V",
-                 dir_word(ss->dir), f->bad_rail, c->st[f->bad_rail].name, r->vavg, r->vmin,
-                 r->vmax);
+                 "the simulated period contradicts itself (%s): rail %d (%s) averages %.6g V "
+                 "outside its minimum %.6g V and maximum %.6g V",
+                 what, f->bad_rail, c->st[f->bad_rail].name, r->vavg, r->vmin, r->vmax);
     } else if (ss->converged) {
         snprintf(note, cap,
-                 "the state the solver found (current %s) is not periodic: the cross-check "
-                 "periods still move the rails by %.3g V per period, more than %.3g V",
-                 dir_word(ss->dir), ss->drift, DRIFT_LIMIT);
+                 "the state the solver found (%s) is not periodic: the cross-check moves the "
+                 "rails by %.3g V per %speriod, more than %.3g V",
+                 what, ss->drift, line ? "line " : "", DRIFT_LIMIT);
     } else {
         snprintf(note, cap,
-                 "the solver did not converge (current %s): after %ld periods rail %d (%s) "
-                 "still moves %.3g V per period",
-                 dir_word(ss->dir), ss->periods, k, c->st[k].name, ss->residual);
+                 "the solver did not converge (%s): after %ld %speriods rail %d (%s) still "
+                 "moves %.3g V per %speriod",
+                 what, ss->periods, line ? "switching " : "", k, c->st[k].name, ss->residual,
+                 line ? "line " : "");
     }
 }
 
@@ -795,12 +848,15 @@ static void unsettled_note(const br_chain *c, const br_steady_figs *f, char *not
 static void unsettled(const br_chain *c, const br_steady_figs *f, br_verdict *v)
 {
     int again = v->row[BR_CRIT_STEADY].undetermined; /* the other direction too */
+    char what[24];
     v->row[BR_CRIT_STEADY].undetermined = 1;
     for (int i = BR_CRIT_STEADY + 1; i < BR_CRIT_COUNT; i++)
         if ((v->row[i].undetermined = can_apply(c, i)))
             snprintf(v->row[i].note, sizeof v->row[i].note, "no converged steady state %s%s",
-                     again ? "in either current direction" : "for current ",
-                     again ? "" : dir_word(f->dir));
+                     again                    ? "in either current direction"
+                     : f->dir == BR_DIRI_LINE ? ""
+                                              : "for ",
+                     again ? "" : case_words(f->dir, what, sizeof what));
     if (!again) /* the steady row keeps the first direction's details */
         unsettled_note(c, f, v->row[BR_CRIT_STEADY].note, sizeof v->row[BR_CRIT_STEADY].note);
 }
@@ -870,11 +926,16 @@ void br_verdict_make(const br_chain *c, const br_startup *su, const br_steady_fi
                      br_verdict *out)
 {
     memset(out, 0, sizeof *out);
-    for (int i = 0; i < BR_CRIT_COUNT; i++)
+    for (int i = 0; i < BR_CRIT_COUNT; i++) {
         out->row[i].stage = -1;
+        out->row[i].line_theta = NAN;
+        out->row[i].line_period = -1;
+    }
     if (su)
         startup_rows(c, su, out);
     steady_all(c, figs, ndir, out);
+    for (int i = 0; i < BR_CRIT_COUNT; i++)
+        line_note(c, &out->row[i]);
     finish_rows(out);
 }
 

@@ -165,6 +165,11 @@ typedef struct br_verdict_row {
     int stage;                    /* binding rail/link, -1 when none */
     int aux;                      /* the binding part is rail `stage`'s regulator or clamp */
     int dir;                      /* br_dir_index of the binding case */
+    /* on a line cycle (dir BR_DIRI_LINE): where in it the row binds, the
+     * line phase (rad, [0, 2 pi)) and the switching period (0 .. K-1)
+     * whose duty and current hold there; NaN and -1 otherwise */
+    double line_theta;
+    long line_period;
     char note[400];
 } br_verdict_row;
 

@@ -295,6 +295,12 @@ int br_map_run(const br_design *d, const br_map_opts *o, br_map **out, br_error 
     br_map *m = NULL;
     br_probe *p = NULL;
     map_job job = {.d = d, .rc = BR_OK};
+    if (d->ac.on) /* its modulation sets every period's duty */
+        return br_error_set(err, BR_EINPUT, d->path, d->ac.line, "operating-point: line-cycle",
+                            "map moves a fixed duty and switching frequency, and a line cycle's "
+                            "modulation sets the duty of every switching period; expected a "
+                            "design with a DC load (window gives a line cycle's limits in peak "
+                            "current and line frequency)");
     int rc = br_map_opts_check(o, err);
     if (rc != BR_OK)
         return rc;

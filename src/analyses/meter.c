@@ -47,6 +47,24 @@ int br_meter_add(br_meter *m, double work)
     return stop;
 }
 
+static int poll_meter(void *ctx, double done, double total)
+{
+    (void)done;
+    (void)total;
+    return br_meter_add(ctx, 0.0);
+}
+
+static int stop_meter(void *ctx)
+{
+    return br_meter_stopped(ctx);
+}
+
+br_progress br_meter_poller(br_meter *m)
+{
+    br_progress p = {m ? poll_meter : NULL, m, m ? stop_meter : NULL};
+    return p;
+}
+
 int br_meter_stopped(br_meter *m)
 {
     if (!m)

@@ -34,6 +34,13 @@ void br_meter_grow(br_meter *m, double more);
  * stop (m may be NULL: returns 0). */
 int br_meter_add(br_meter *m, double work);
 
+/* A progress hook for a long step inside one piece of work (a line
+ * cycle's steady state): it counts nothing, passes the meter's count to
+ * the caller's hook, which may stop the run, and says whether the run is
+ * to stop; its stop poll (safe from any thread) says the same without
+ * calling the hook.  The hook keeps m (which must outlive it). */
+br_progress br_meter_poller(br_meter *m);
+
 /* 1 once the hook has asked to stop (m may be NULL: 0). */
 int br_meter_stopped(br_meter *m);
 

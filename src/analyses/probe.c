@@ -58,8 +58,9 @@ struct br_probe {
     const br_progress *stop; /* polled inside the simulations (NULL: none) */
     /* the last points found, oldest first, for a predictor along a scan */
     int nhist[2];
-    double hu[2][HIST][2];  /* (duty, ln fsw) */
-    double hx[2][HIST][NX]; /* their steady states */
+    double hu[2][HIST][2];       /* (duty, ln fsw), or (ipk, ln fline) */
+    double hx[2][HIST][NX];      /* their steady states */
+    const br_progress *progress; /* for the solves of a line cycle (NULL: none) */
 };
 
 void br_probe_free(br_probe *p)
@@ -126,28 +127,36 @@ void br_probe_forget(br_probe *p)
 
 /* ---- judging ----------------------------------------------------------- */
 
-/* Keep the smallest margin and what it belongs to. */
-static void consider(br_hold_point *pt, double m, int stage, int crit, int dir)
+/* Keep the smallest margin and what it belongs to; on a line cycle the
+ * line phase of window w where it occurs. */
+static void consider(const br_probe *p, const br_steady *ss, br_hold_point *pt, double m, int stage,
+                     int crit, long w)
 {
     if (isnan(m) || m >= pt->margin)
         return;
     pt->margin = m;
     pt->stage = stage;
     pt->crit = crit;
-    pt->dir = dir;
+    pt->dir = ss->dir;
+    pt->theta = NAN;
+    if (ss->dir == BR_DIRI_LINE && p->c.line.on) {
+        long at;
+        br_line_window(&p->c.line, p->c.T, ss->phase, w, &pt->theta, &at);
+    }
 }
 
 /* The criteria of every rail in one direction's steady state; the same
  * definitions as the verdict's margins (figures.c). */
-static void judge(const br_probe *p, const br_steady_figs *f, int dir, br_hold_point *pt)
+static void judge(const br_probe *p, const br_steady_figs *f, br_hold_point *pt)
 {
+    const br_steady *ss = f->ss;
     for (int k = 0; k < f->n; k++) {
         const br_rail_fig *r = &f->rail[k];
-        consider(pt, r->vdrv_min - p->uvlo_fall[k], k, BR_CRIT_UVLO, dir);
+        consider(p, ss, pt, r->vdrv_min - p->uvlo_fall[k], k, BR_CRIT_UVLO, ss->at_dmin[k]);
         if (p->min_drive > 0)
-            consider(pt, r->vdrv_min - p->min_drive, k, BR_CRIT_DRIVE, dir);
+            consider(p, ss, pt, r->vdrv_min - p->min_drive, k, BR_CRIT_DRIVE, ss->at_dmin[k]);
         if (p->vgs_max[k] > 0)
-            consider(pt, p->vgs_max[k] - r->vdrv_max, k, BR_CRIT_GATE, dir);
+            consider(p, ss, pt, p->vgs_max[k] - r->vdrv_max, k, BR_CRIT_GATE, ss->at_dmax[k]);
     }
 }
 
@@ -164,7 +173,9 @@ static void scan_opts(br_probe *p, int i, const double *guess, int max_iter, lon
     o->guess = guess;
     o->jac = p->jac[i];
     o->jac_valid = &p->jac_valid[i];
-    o->progress = p->stop;
+    /* a line cycle's solves report their progress (the meter's poller,
+     * which also stops them); elsewhere the stop poll alone */
+    o->progress = p->progress ? p->progress : p->stop;
 }
 
 /* Where u lies on the line through `base` along d, in units of d; 0 when
@@ -222,6 +233,8 @@ static int attempt(br_probe *p, int i, const br_steady_opts *o, br_steady *ss, l
 {
     *rc = br_steady_solve(&p->c, p->dirs[i], o, ss, err);
     *periods += ss->periods;
+    if (*rc == BR_ECANCEL)
+        return 0;
     if (*rc == BR_ENUMERIC || (*rc == BR_OK && ss->failed)) {
         br_error_clear(err);
         *rc = BR_OK;
@@ -271,14 +284,14 @@ static int solve_dir(br_probe *p, int i, const double *u, br_hold_point *pt, br_
     br_steady_figs f;
     br_steady_figures(&p->c, &ss, &f);
     br_hold_point own = {.margin = HUGE_VAL};
-    judge(p, &f, p->dirs[i], &own);
+    judge(p, &f, &own);
     if (fabs(own.margin) < BR_POLISH_BAND) {
         if (polish(p, i, &ss, &pt->periods, err, rc) != BR_OK)
             return 0;
         br_steady_figures(&p->c, &ss, &f);
     }
     remember(p, i, u, ss.x);
-    judge(p, &f, p->dirs[i], pt);
+    judge(p, &f, pt);
     return 1;
 }
 
@@ -290,16 +303,15 @@ static void keep_running(br_chain *c)
     }
 }
 
-/* Judge (duty, fsw) into out, scan position u. */
-static int judge_point(br_probe *p, double duty, double fsw, const double *u, br_hold_point *out,
-                       br_error *err)
+/* Judge the point the design copy now describes into out, scan position
+ * u. */
+static int judge_point(br_probe *p, const double *u, br_hold_point *out, br_error *err)
 {
     out->margin = HUGE_VAL;
     out->stage = -1;
     out->crit = 0;
     out->dir = BR_DIRI_NONE;
-    p->d->duty.nom = duty;
-    p->d->fsw.nom = fsw;
+    out->theta = NAN;
     p->stalled = 0;
     int rc = br_chain_build_nominal(p->d, &p->c, err);
     if (rc != BR_OK)
@@ -331,9 +343,43 @@ int br_probe_eval(br_probe *p, double duty, double fsw, br_hold_point *out, br_e
     out->duty = duty;
     out->fsw = fsw;
     double u[2] = {duty, log(fsw)};
-    int rc = judge_point(p, duty, fsw, u, out, err);
-    if (rc == BR_OK && isnan(out->margin) && p->stalled)
-        rc = judge_point(p, duty * (1.0 - BR_NUDGE), fsw * (1.0 + BR_NUDGE), u, out, err);
+    p->d->duty.nom = duty;
+    p->d->fsw.nom = fsw;
+    int rc = judge_point(p, u, out, err);
+    if (rc == BR_OK && isnan(out->margin) && p->stalled) {
+        p->d->duty.nom = duty * (1.0 - BR_NUDGE);
+        p->d->fsw.nom = fsw * (1.0 + BR_NUDGE);
+        rc = judge_point(p, u, out, err);
+    }
+    return rc;
+}
+
+int br_probe_line(const br_probe *p)
+{
+    return p->real.line.on;
+}
+
+void br_probe_set_progress(br_probe *p, const br_progress *hook)
+{
+    p->progress = hook;
+}
+
+int br_probe_eval_line(br_probe *p, double ipk, double fline, br_hold_point *out, br_error *err)
+{
+    memset(out, 0, sizeof *out);
+    out->duty = p->real.duty;
+    out->fsw = p->real.fsw;
+    out->ipk = ipk;
+    out->fline = fline;
+    double u[2] = {ipk, log(fline)};
+    p->d->ac.ipk.nom = ipk;
+    p->d->ac.freq.nom = fline;
+    int rc = judge_point(p, u, out, err);
+    if (rc == BR_OK && isnan(out->margin) && p->stalled) {
+        p->d->ac.ipk.nom = ipk * (1.0 + BR_NUDGE);
+        p->d->ac.freq.nom = fline * (1.0 + BR_NUDGE);
+        rc = judge_point(p, u, out, err);
+    }
     return rc;
 }
 

@@ -31,6 +31,10 @@ typedef struct br_hold_point {
     int crit;      /* binding br_crit: UVLO, DRIVE or GATE; STEADY when not found */
     int dir;       /* binding br_dir_index */
     long periods;  /* periods simulated to judge it */
+    /* a line cycle: the point's peak current (A) and line frequency (Hz),
+     * and the line phase where the binding margin occurs (rad; NAN
+     * without a line cycle or a binding rail) */
+    double ipk, fline, theta;
 } br_hold_point;
 
 typedef struct br_probe br_probe;
@@ -55,6 +59,18 @@ const br_chain *br_probe_design_chain(const br_probe *p);
  * A point the chain model refuses (on-times that the dead time makes
  * negative) is BR_EINPUT. */
 int br_probe_eval(br_probe *p, double duty, double fsw, br_hold_point *out, br_error *err);
+
+/* A design on a line cycle: judge the point (peak current ipk, line
+ * frequency fline) at the design's duty modulation and switching
+ * frequency, warm-started as br_probe_eval. */
+int br_probe_eval_line(br_probe *p, double ipk, double fline, br_hold_point *out, br_error *err);
+
+/* 1 when the design runs a line cycle (br_probe_eval_line applies). */
+int br_probe_line(const br_probe *p);
+
+/* A hook the steady-state solves of a line cycle call while they run
+ * (seconds each), to stop them (NULL: none). */
+void br_probe_set_progress(br_probe *p, const br_progress *hook);
 
 /* Forget the warm start: the next point starts cold. */
 void br_probe_forget(br_probe *p);

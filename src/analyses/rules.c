@@ -163,7 +163,14 @@ static void supply_rule(const br_chain *c, br_rule_list *out)
 static void ripple_rule(const br_chain *c, br_rule_list *out)
 {
     int dirs[2], nd = br_design_directions(c, dirs), worst = -1;
-    double low = HUGE_VAL;
+    double low = HUGE_VAL, current = c->iload;
+    if (c->line.on) { /* over the line cycle, at each period's current */
+        long m;
+        double pp;
+        low = br_line_cell_min(c, &m, &worst, &pp);
+        current = m >= 0 ? fabs(br_line_current(&c->line, m)) : 0.0;
+        nd = 0;
+    }
     for (int i = 0; i < nd && dirs[i] >= 0; i++) {
         br_timing tm;
         int k;
@@ -177,7 +184,7 @@ static void ripple_rule(const br_chain *c, br_rule_list *out)
     if (worst < 0 || low > 0.0)
         return;
     add(out, BR_RULE_FLY_COLLAPSE, worst, c->st[worst].name, low, c->st[worst].vblock);
-    out->hit[out->n - 1].current = c->iload;
+    out->hit[out->n - 1].current = current;
     out->hit[out->n - 1].fatal = 1;
 }
 

@@ -435,7 +435,6 @@ static int shoot_once(workspace *w, int dir, int i, const double *guess, long ma
     br_steady again;
     br_steady_opts_default(&o);
     o.guess = guess;
-    o.progress = br_meter_poll(w->s->meter);
     if (max_plain >= 0)
         o.max_plain = max_plain;
     long lim = w->s->solver_limit;
@@ -443,6 +442,10 @@ static int shoot_once(workspace *w, int dir, int i, const double *guess, long ma
         o.max_iter = lim < o.max_iter ? (int)lim : o.max_iter;
         o.max_plain = lim < o.max_plain ? lim : o.max_plain;
     }
+    /* the meter's poller: its stop poll reaches the simulations, and a
+     * line cycle (seconds) reports through it */
+    br_progress poll = br_meter_poller(w->s->meter);
+    o.progress = w->s->meter ? &poll : NULL;
     int rc = br_steady_solve(&w->c, dir, &o, &again, err);
     out->periods += again.periods;
     if (rc == BR_OK && (keep || again.converged))
@@ -534,6 +537,11 @@ static int from_prediction(workspace *w, const double *v, int i, int dir, br_pt 
 static int steady(workspace *w, const job *jb, const double *v, int i, int dir, br_pt *out,
                   br_error *err)
 {
+    if (w->c.line.on && jb->predict) { /* the line cycle's own solver, from the prediction */
+        double x[NX];
+        predict(w->s, v, i, x);
+        return solve(w, dir, i, x, -1, 1, out, err);
+    }
     if (!jb->predict)
         return solve(w, dir, i, jb->start[i], -1, 1, out, err);
     int rc = from_prediction(w, v, i, dir, out, err);
@@ -873,7 +881,9 @@ static int chord_prepare(br_spread *s, br_error *err)
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     int dirs[2], rc = br_chain_build_nominal(s->d, c, err);
     int ndir = rc == BR_OK ? br_design_directions(c, dirs) : 0;
-    for (int i = 0; rc == BR_OK && i < ndir; i++)
+    /* a line cycle has no one-period map to take chord steps on: its
+     * points go to its own solver from the prediction */
+    for (int i = 0; rc == BR_OK && i < ndir && !c->line.on; i++)
         rc = chord_jacobian(s, c, i, dirs[i], err);
     free(c);
     return rc;
@@ -963,7 +973,7 @@ int br_spread_create(const br_design *d, const br_spread_opts *o, br_spread **ou
         br_spread_free(s);
         return rc;
     }
-    s->ndir = s->d->direction == BR_DIR_BOTH ? 2 : 1;
+    s->ndir = s->d->direction == BR_DIR_BOTH && !s->d->ac.on ? 2 : 1;
     *out = s;
     return BR_OK;
 }

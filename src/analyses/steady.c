@@ -27,6 +27,8 @@ void br_steady_opts_default(br_steady_opts *o)
     o->guess = NULL;
     o->jac = NULL;
     o->jac_valid = NULL;
+    o->line_hold = -1;
+    o->envelope = NULL;
     o->progress = NULL;
 }
 
@@ -403,7 +405,7 @@ done:
  * charge it must pass on) below the rail beneath, and the on-state drop of
  * the return switch at the load current (which takes from the link's drive
  * or, carried in reverse, adds to it). */
-static void estimate(const br_chain *c, int dir, double *x)
+void br_steady_estimate(const br_chain *c, int dir, double *x)
 {
     memset(x, 0, sizeof(double) * NX);
     double iabove = 0.0;
@@ -430,7 +432,7 @@ static void estimate(const br_chain *c, int dir, double *x)
 /* Plain simulation from x until the rails move less than tol per period. */
 static int plain(shoot *sh, double *x, const br_steady_opts *o, br_steady *out, br_error *err)
 {
-    double prev[NX], now[NX];
+    double prev[NX] = {0}, now[NX] = {0}; /* br_sim_state fills 2 n of them */
     br_sim_reset_running_at(sh->sim, x, sh->phase);
     br_sim_state(sh->sim, prev);
     out->method = BR_STEADY_PLAIN;
@@ -550,6 +552,11 @@ static int solve_electrical(const br_chain *c, int dir, const br_steady_opts *o,
         br_steady_opts_default(&def);
         o = &def;
     }
+    if (dir == BR_DIRI_LINE && !c->line.on)
+        return br_error_set(err, BR_EINPUT, NULL, 0, NULL,
+                            "a line cycle's steady state asked of a chain without one");
+    if (dir == BR_DIRI_LINE && o->line_hold < 0)
+        return br_line_solve(c, o, out, err);
     memset(out, 0, sizeof *out);
     out->dir = dir;
     shoot sh = {.c = c};
@@ -560,7 +567,13 @@ static int solve_electrical(const br_chain *c, int dir, const br_steady_opts *o,
     br_sim_observer obs = {&sh, on_uvlo, NULL};
     br_sim_set_observer(sh.sim, &obs);
     br_timing tm;
-    br_timing_build(c, dir, &tm);
+    if (c->line.on && o->line_hold >= 0) { /* one switching period, repeated */
+        br_sim_line_hold(sh.sim, o->line_hold);
+        br_timing_line(c, o->line_hold,
+                       dir == BR_DIRI_NONE ? dir : br_line_dir(&c->line, o->line_hold), 1, &tm);
+    } else {
+        br_timing_build(c, dir, &tm);
+    }
     sh.phase = out->phase = br_steady_quiet_phase(c, &tm);
     if (cells_collapse(c, &tm, out)) {
         br_sim_free(sh.sim);
@@ -570,7 +583,7 @@ static int solve_electrical(const br_chain *c, int dir, const br_steady_opts *o,
     if (o->guess)
         memcpy(x, o->guess, sizeof x);
     else
-        estimate(c, dir, x);
+        br_steady_estimate(c, dir, x);
     memcpy(sh.base, x, sizeof x);
     map_unknowns(&sh);
     for (int i = 0; i < sh.m; i++)

@@ -8,6 +8,7 @@
 #ifndef BR_ANALYSES_STEADY_H
 #define BR_ANALYSES_STEADY_H
 
+#include "core/progress.h"
 #include "engine/sim.h"
 
 typedef enum br_steady_method {
@@ -37,7 +38,8 @@ typedef struct br_steady {
                         where */
     char why[320];
     double x[2 * BR_MAX_SWITCHES]; /* [k] rail k capacitor, [n + k] stored charge */
-    br_stats stats;                /* over one period from x */
+    br_stats stats;                /* over one period from x (a line cycle: over
+                                      the whole line period) */
     /* Junction temperatures, when some link diode has a thermal
      * resistance (analyses/thermal.h): the steady state is solved again
      * with every diode at the temperature its losses give, until they
@@ -49,6 +51,14 @@ typedef struct br_steady {
     double onset_tj[BR_MAX_SWITCHES];  /* link k: junction temperature where it would run
                                           away, K (HUGE_VAL: never) */
     double onset_amb[BR_MAX_SWITCHES]; /* link k: ambient at which it would, K (HUGE_VAL) */
+    /* On a line cycle (dir BR_DIRI_LINE): the window of the line period
+     * (0 .. K-1, the switching period simulated from `phase` into period m
+     * to `phase` into period m+1) in which each extreme of the line cycle
+     * occurs, for each rail k: the lowest and the highest driver supply,
+     * the capacitor's peak; for each link k: the peak reverse voltage.
+     * -1 elsewhere. */
+    long at_dmin[BR_MAX_SWITCHES], at_dmax[BR_MAX_SWITCHES];
+    long at_vcap[BR_MAX_SWITCHES], at_vrev[BR_MAX_SWITCHES];
 } br_steady;
 
 /* Passes of the junction-temperature loop, and how little they must move
@@ -63,6 +73,20 @@ static inline int br_steady_has_period(const br_steady *ss)
     return !ss->failed && !ss->collapsed;
 }
 
+/* The rail envelope over a line cycle: each rail's extremes per switching
+ * period, for plots and the CSV.  Row r covers windows m0(r) .. m0(r+1)-1
+ * of the line period (one window each while K <= BR_ENV_ROWS). */
+#define BR_ENV_ROWS 4096
+typedef struct br_line_env {
+    long K;              /* windows in the line period */
+    int rows, n;         /* rows kept, rails */
+    double phase;        /* where in the switching period the windows start, s */
+    double *vmin, *vmax; /* [r * n + k] rail k's extremes in row r, V */
+    double *dmin, *dmax; /* the same of its driver supply, V */
+    double *vrev;        /* link k's peak reverse voltage in row r (k >= 1), V */
+    double *q;           /* the charge link k passed in row r (k >= 1), C */
+} br_line_env;
+
 typedef struct br_steady_opts {
     double tol;          /* residual target, V (default 1e-5) */
     int max_iter;        /* Newton iterations (default 12) */
@@ -76,8 +100,15 @@ typedef struct br_steady_opts {
      * return it holds the latest matrix and *jac_valid is set. */
     double *jac;
     int *jac_valid;
-    const br_progress *progress; /* its stop poll ends the solve with BR_ECANCEL
-                                    (NULL: none) */
+    /* On a line cycle: >= 0 repeats switching period line_hold for ever
+     * (every carrier at its duty, the current at its value): the
+     * quasi-static state there, one switching period long; -1 (default):
+     * the periodic state over the whole line period. */
+    long line_hold;
+    br_line_env *envelope;       /* line cycle: filled with the envelope (NULL: none) */
+    const br_progress *progress; /* its stop poll ends the solve with BR_ECANCEL; on a line
+                                    cycle also the switching periods simulated against an
+                                    estimate (NULL: none) */
 } br_steady_opts;
 
 void br_steady_opts_default(br_steady_opts *o);
@@ -96,5 +127,19 @@ int br_steady_solve(const br_chain *c, int dir, const br_steady_opts *o, br_stea
 /* A quiet instant of the period: as far as possible from every edge,
  * gate pulse and ramp. */
 double br_steady_quiet_phase(const br_chain *c, const br_timing *tm);
+
+/* A start close enough for Newton (see steady.c), into x (2 BR_MAX_SWITCHES). */
+void br_steady_estimate(const br_chain *c, int dir, double *x);
+
+/* The periodic steady state over a line cycle (linecycle.c): what
+ * br_steady_solve does for dir BR_DIRI_LINE. */
+int br_line_solve(const br_chain *c, const br_steady_opts *o, br_steady *out, br_error *err);
+
+/* An envelope for K windows and n rails (rows: min(K, BR_ENV_ROWS));
+ * NULL when out of memory. */
+br_line_env *br_line_env_create(long K, int n);
+void br_line_env_free(br_line_env *e);
+/* The first window of row r. */
+long br_line_env_first(const br_line_env *e, int r);
 
 #endif

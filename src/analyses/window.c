@@ -21,6 +21,7 @@ void br_window_opts_default(br_window_opts *o)
     memset(o, 0, sizeof *o);
     o->nscan_duty = 21;
     o->nscan_fsw = 25;
+    o->nscan_line = 9;
     o->threads = 2;
 }
 
@@ -40,13 +41,34 @@ typedef struct sweep_ctx {
     br_hold_point mpt[MEMO];
 } sweep_ctx;
 
+/* Frequencies are searched on a logarithmic scale, duty and current on
+ * a linear one. */
+static int log_axis(int axis)
+{
+    return axis == BR_AXIS_FSW || axis == BR_AXIS_FLINE;
+}
 static double axis_value(const br_sweep *s, double u)
 {
-    return s->axis == BR_AXIS_FSW ? exp(u) : u;
+    return log_axis(s->axis) ? exp(u) : u;
 }
 static double axis_u(const br_sweep *s, double v)
 {
-    return s->axis == BR_AXIS_FSW ? log(v) : v;
+    return log_axis(s->axis) ? log(v) : v;
+}
+
+/* The point at v on the sweep's axis, the other coordinate held. */
+static int probe_at(br_probe *p, const br_sweep *s, double v, br_hold_point *pt, br_error *err)
+{
+    switch (s->axis) {
+    case BR_AXIS_DUTY:
+        return br_probe_eval(p, v, s->fixed, pt, err);
+    case BR_AXIS_FSW:
+        return br_probe_eval(p, s->fixed, v, pt, err);
+    case BR_AXIS_IPK:
+        return br_probe_eval_line(p, v, s->fixed, pt, err);
+    default:
+        return br_probe_eval_line(p, s->fixed, v, pt, err);
+    }
 }
 
 /* Exact match on purpose: Brent hands back the very values it was given
@@ -76,10 +98,7 @@ static int judge_at(sweep_ctx *x, double u, br_hold_point *pt)
         return BR_OK;
     }
     br_sweep *s = x->out;
-    double v = axis_value(s, u);
-    double duty = s->axis == BR_AXIS_DUTY ? v : s->fixed;
-    double fsw = s->axis == BR_AXIS_FSW ? v : s->fixed;
-    int rc = br_probe_eval(x->p, duty, fsw, pt, x->err);
+    int rc = probe_at(x->p, s, axis_value(s, u), pt, x->err);
     if (rc == BR_OK && br_meter_add(x->meter, 1.0))
         rc = br_progress_cancelled(x->err);
     if (rc != BR_OK)
@@ -320,8 +339,14 @@ static int sweep_run(br_probe *p, const sweep_args *a, br_meter *meter, br_sweep
     out->lo = lo;
     out->hi = hi;
     out->fixed = fixed;
-    out->design = axis == BR_AXIS_FSW ? at->fsw : at->duty;
-    out->resolution = axis == BR_AXIS_FSW ? BR_RES_FSW : BR_RES_DUTY;
+    static const double res[] = {BR_RES_DUTY, BR_RES_FSW, BR_RES_IPK, BR_RES_FLINE};
+    out->design = axis == BR_AXIS_FSW     ? at->fsw
+                  : axis == BR_AXIS_IPK   ? at->ipk
+                  : axis == BR_AXIS_FLINE ? at->fline
+                                          : at->duty;
+    out->resolution = res[axis];
+    if (axis == BR_AXIS_IPK) /* relative to the design's current */
+        out->resolution *= at->ipk > 0 ? at->ipk : 1.0;
     out->nscan = nscan < 3 ? 3 : nscan > BR_MAX_SCAN ? BR_MAX_SCAN : nscan;
     sweep_ctx *x = calloc(1, sizeof *x);
     br_limit *edge = calloc(BR_MAX_SCAN, sizeof *edge);
@@ -331,7 +356,7 @@ static int sweep_run(br_probe *p, const sweep_args *a, br_meter *meter, br_sweep
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory for a sweep");
     }
     *x = (sweep_ctx){.p = p, .out = out, .err = err, .meter = meter};
-    x->res = axis == BR_AXIS_FSW ? log1p(BR_RES_FSW) : BR_RES_DUTY;
+    x->res = log_axis(axis) ? log1p(out->resolution) : out->resolution;
     double u[BR_MAX_SCAN];
     int jd = scan_grid(axis_u(out, lo), axis_u(out, hi), axis_u(out, out->design), out->nscan, u);
     out->scan[jd] = *at;
@@ -526,6 +551,7 @@ typedef struct sweep_job {
     const br_warm *w0;
     br_sweep *out;
     br_meter *meter;
+    const br_progress *poll; /* a line cycle: stops its long solves (NULL: none) */
     br_error err;
     int rc;
 } sweep_job;
@@ -534,6 +560,7 @@ static void *sweep_thread(void *arg)
 {
     sweep_job *j = arg;
     br_error_clear(&j->err);
+    br_probe_set_progress(j->p, j->poll);
     sweep_args a = {j->axis, j->fixed, j->lo, j->hi, j->at, j->w0, j->nscan};
     j->rc = sweep_run(j->p, &a, j->meter, j->out, &j->err);
     return NULL;
@@ -612,6 +639,77 @@ static int steady_limits(const br_design *d, br_probe *p, const br_window_opts *
     return rc;
 }
 
+/* A line cycle's ranges: the peak current from 0 to four times the
+ * design's, the line frequency from a tenth to four times the design's
+ * (or the options'), within the periods a line cycle may hold. */
+static int line_ranges(const br_probe *p, const br_window_opts *o, double r[4], br_error *err)
+{
+    const br_chain *c = br_probe_design_chain(p);
+    double ipk = c->line.ipk, f = c->line.freq_given;
+    double fa = c->fsw / BR_LINE_MAX_PERIODS, fb = c->fsw / BR_LINE_MIN_PERIODS;
+    r[0] = 0.0;
+    r[1] = ipk > 0 ? 4.0 * ipk : 10.0;
+    r[2] = o->fmin > 0 ? o->fmin : fmax(f / 10.0, fa);
+    r[3] = o->fmax > 0 ? o->fmax : fmin(4.0 * f, fb);
+    if (!(r[2] >= fa * (1.0 - 1e-12) && r[3] <= fb * (1.0 + 1e-12)))
+        return br_error_set(err, BR_EUSAGE, NULL, 0, "--fmin/--fmax",
+                            "line frequency range %g Hz to %g Hz leaves %g Hz to %g Hz, where a "
+                            "line period holds %d to %d switching periods of %g Hz; expected a "
+                            "range within it",
+                            r[2], r[3], fa, fb, BR_LINE_MIN_PERIODS, BR_LINE_MAX_PERIODS, c->fsw);
+    if (!(r[2] < f && f < r[3]))
+        return br_error_set(err, BR_EUSAGE, NULL, 0, "--fmin/--fmax",
+                            "line frequency range %g Hz to %g Hz does not contain the design's "
+                            "%g Hz; expected fmin < line frequency < fmax",
+                            r[2], r[3], f);
+    return BR_OK;
+}
+
+/* A line cycle: the peak current at the design's line frequency and the
+ * line frequency at the design's peak current, side by side. */
+static int line_limits(const br_design *d, br_probe *p, const br_window_opts *o, br_meter *meter,
+                       br_window *w, br_error *err)
+{
+    const br_chain *c = br_probe_design_chain(p);
+    double r[4];
+    int rc = line_ranges(p, o, r, err);
+    if (rc != BR_OK)
+        return rc;
+    br_progress poll = br_meter_poller(meter);
+    const br_progress *hook = meter ? &poll : NULL;
+    br_warm *w0 = br_warm_create(p);
+    if (!w0)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory for a warm start");
+    w->line = 1;
+    w->duty.axis = BR_AXIS_DUTY;
+    w->fsw.axis = BR_AXIS_FSW;
+    br_probe_set_progress(p, hook);
+    rc = br_probe_eval_line(p, c->line.ipk, c->line.freq_given, &w->design, err);
+    if (rc == BR_OK && br_meter_add(meter, 1.0))
+        rc = br_progress_cancelled(err);
+    br_probe_save(p, w0);
+    sweep_job ji = {.axis = BR_AXIS_IPK,
+                    .fixed = c->line.freq_given,
+                    .lo = r[0],
+                    .hi = r[1],
+                    .nscan = o->nscan_line,
+                    .at = &w->design,
+                    .w0 = w0,
+                    .out = &w->ipk,
+                    .meter = meter,
+                    .poll = hook};
+    sweep_job jf = ji;
+    jf.axis = BR_AXIS_FLINE;
+    jf.fixed = c->line.ipk;
+    jf.lo = r[2];
+    jf.hi = r[3];
+    jf.out = &w->fline;
+    if (rc == BR_OK)
+        rc = run_sweeps(d, p, &ji, &jf, o->threads, err);
+    br_warm_free(w0);
+    return rc;
+}
+
 /* Hold-up from the real chain's steady state in every direction.  A
  * steady state whose simulation failed has no state to stop from: the
  * run is undetermined (BR_ENUMERIC, with why). */
@@ -658,17 +756,37 @@ static void *su_thread(void *arg)
     return NULL;
 }
 
-static int startup_window(const br_design *d, br_window *w, int threads, br_meter *meter,
-                          br_error *err)
+/* A line cycle's switching frequencies for the start-up window: from a
+ * hundredth of the design's up to where the dead time leaves no on-time
+ * at the modulation's highest duty, 1 % kept off (or a hundred times the
+ * design's). */
+static int line_fsw_range(const br_probe *p, double *lo, double *hi)
 {
-    /* the ranges the steady-state limits searched */
+    const br_chain *c = br_probe_design_chain(p);
+    double top = 0.0;
+    for (long m = 0; m < c->line.K; m++)
+        top = fmax(top, br_line_duty(&c->line, m));
+    *lo = c->fsw / 100.0;
+    *hi = 100.0 * c->fsw;
+    if (c->deadtime > 0)
+        *hi = fmin(*hi, (1.0 - top) / (2.0 * c->deadtime) * 0.99);
+    return *lo < c->fsw && c->fsw < *hi;
+}
+
+static int startup_window(const br_design *d, const br_probe *p, br_window *w, int threads,
+                          br_meter *meter, br_error *err)
+{
+    /* the ranges the steady-state limits searched (a line cycle: its own) */
+    double flo = w->fsw.lo, fhi = w->fsw.hi;
+    int fsw = !w->line || line_fsw_range(p, &flo, &fhi);
     su_job jd = {d, BR_AXIS_DUTY, w->duty.lo, w->duty.hi, &w->su_duty, meter, {0}, BR_OK};
-    su_job jf = {d, BR_AXIS_FSW, w->fsw.lo, w->fsw.hi, &w->su_fsw, meter, {0}, BR_OK};
+    su_job jf = {d, BR_AXIS_FSW, flo, fhi, &w->su_fsw, meter, {0}, BR_OK};
     pthread_t tid;
     w->startup = 1;
     int duty = w->duty.applies;
     int started = duty && threads > 1 && pthread_create(&tid, NULL, su_thread, &jd) == 0;
-    su_thread(&jf);
+    if (fsw)
+        su_thread(&jf);
     if (started)
         pthread_join(tid, NULL);
     else if (duty)
@@ -680,9 +798,10 @@ static int startup_window(const br_design *d, br_window *w, int threads, br_mete
 }
 
 /* The work the window expects, for the progress estimate. */
-static double expected_points(const br_window_opts *o)
+static double expected_points(const br_design *d, const br_window_opts *o)
 {
-    double n = 1.0 + o->nscan_duty + o->nscan_fsw + 2.0 * REFINE_GUESS;
+    double n = 1.0 + 2.0 * REFINE_GUESS +
+               (d->ac.on ? 2.0 * o->nscan_line : (double)(o->nscan_duty + o->nscan_fsw));
     return o->startup ? n + 4.0 * SU_GUESS : n; /* two axes, two ends each */
 }
 
@@ -694,11 +813,12 @@ static int window_all(const br_design *d, const br_window_opts *o, br_meter *met
     if (rc != BR_OK)
         return rc;
     br_probe_set_stop(p, br_meter_poll(meter));
-    rc = steady_limits(d, p, o, meter, out, err);
+    rc = br_probe_line(p) ? line_limits(d, p, o, meter, out, err)
+                          : steady_limits(d, p, o, meter, out, err);
     if (rc == BR_OK)
         rc = holdups(d, out, br_meter_poll(meter), err);
     if (rc == BR_OK && o->startup)
-        rc = startup_window(d, out, o->threads, meter, err);
+        rc = startup_window(d, p, out, o->threads, meter, err);
     br_probe_free(p);
     return rc;
 }
@@ -712,7 +832,7 @@ int br_window_run(const br_design *d, const br_window_opts *o, br_window *out, b
     }
     memset(out, 0, sizeof *out);
     br_meter meter;
-    int rc = br_meter_init(&meter, o->progress, expected_points(o), err);
+    int rc = br_meter_init(&meter, o->progress, expected_points(d, o), err);
     if (rc != BR_OK)
         return rc;
     rc = window_all(d, o, &meter, out, err);

@@ -22,7 +22,9 @@
 
 typedef enum br_axis {
     BR_AXIS_DUTY = 0, /* duty at the design frequency */
-    BR_AXIS_FSW = 1   /* frequency at the design duty */
+    BR_AXIS_FSW = 1,  /* frequency at the design duty */
+    BR_AXIS_IPK = 2,  /* a line cycle's peak current at the design line frequency */
+    BR_AXIS_FLINE = 3 /* a line cycle's frequency at the design peak current */
 } br_axis;
 
 typedef enum br_limit_kind {
@@ -52,7 +54,9 @@ typedef struct br_sweep {
     double design;              /* the design's value */
     double fixed;               /* the other coordinate, held: Hz, or duty */
     double resolution;          /* duty: absolute (0.001 = 0.1 % of duty);
-                                   frequency: relative (0.005 = 0.5 %) */
+                                   frequency: relative (0.005 = 0.5 %);
+                                   peak current: absolute, A; line frequency:
+                                   relative */
     int nspans;                 /* holding intervals found (0: never holds) */
     int truncated;              /* more intervals than BR_MAX_SPANS */
     br_span span[BR_MAX_SPANS]; /* ascending */
@@ -100,9 +104,14 @@ typedef struct br_su_window {
 
 typedef struct br_window_opts {
     double fmin, fmax;           /* frequency range, Hz; 0: the design's / 100 and * 100
-                                    (the top kept below what the dead time allows) */
+                                    (the top kept below what the dead time allows); on a
+                                    line cycle the line frequency's, 0: the design's / 10
+                                    and * 4 (within BR_LINE_MIN_PERIODS and
+                                    BR_LINE_MAX_PERIODS switching periods) */
     int nscan_duty;              /* coarse scan points (default 21) */
     int nscan_fsw;               /* default 25 */
+    int nscan_line;              /* a line cycle's axes (default 9 each: a point is a whole
+                                    line cycle) */
     int startup;                 /* 1: also the start-up window (a cold start per point) */
     int threads;                 /* 2 (default): duty and frequency swept side by side */
     const br_progress *progress; /* points judged of an estimate (scan points, about a
@@ -114,8 +123,11 @@ void br_window_opts_default(br_window_opts *o);
 
 typedef struct br_window {
     br_hold_point design; /* the design point judged */
+    int line;             /* the design runs a line cycle: ipk and fline are swept, duty
+                             and fsw not (applies 0) */
     br_sweep duty, fsw;
-    int nholdup; /* one per direction the design asks for */
+    br_sweep ipk, fline; /* a line cycle: peak current and line frequency */
+    int nholdup;         /* one per direction the design asks for */
     br_holdup holdup[2];
     int startup; /* the start-up window was computed */
     br_su_window su_duty, su_fsw;
@@ -138,8 +150,11 @@ int br_su_window_run(const br_design *d, int axis, double lo, double hi, br_su_w
                      br_error *err);
 
 /* The resolution the limits are found to: duty absolute, frequency
- * relative. */
+ * relative; a line cycle's peak current relative to the design's (or to
+ * 1 A when that is 0), its line frequency relative. */
 #define BR_RES_DUTY 0.001
 #define BR_RES_FSW 0.005
+#define BR_RES_IPK 0.01
+#define BR_RES_FLINE 0.01
 
 #endif

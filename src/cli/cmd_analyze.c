@@ -14,9 +14,10 @@ int cmd_analyze(int argc, char **argv)
         "within the limit, a steady state that holds, rails above UVLO rising and\n"
         "falling, drive above the minimum, gates below their maximum, diodes within\n"
         "the derated rating, capacitors within their rating) with the figure, the\n"
-        "limit, the margin and where it binds. Exit status 0 when every criterion\n"
-        "evaluated passes (a warning does not count), 1 when one fails, 2 for bad\n"
-        "input, 3 when none fails but one is undetermined (a solver did not\n"
-        "converge, a simulation failed or reached its work limit).\n",
+        "limit, the margin and where it binds (on an AC line cycle: the line phase\n"
+        "too, the steady state being over the whole line period). Exit status 0 when\n"
+        "every criterion evaluated passes (a warning does not count), 1 when one\n"
+        "fails, 2 for bad input, 3 when none fails but one is undetermined (a solver\n"
+        "did not converge, a simulation failed or reached its work limit).\n",
         BR_RUN_ALL);
 }

@@ -15,6 +15,10 @@ int cmd_steady(int argc, char **argv)
         "the gate maximum; per diode: reverse-voltage stress against its derated\n"
         "rating, forward currents, recovery and losses; per capacitor: capacitance at\n"
         "bias, peak voltage against its rating, RMS current; the supply's load.\n"
+        "On an AC line cycle the steady state is periodic in the line period: the\n"
+        "figures are over the whole line cycle, with the line phase where each rail\n"
+        "is lowest and highest and each diode most stressed; --csv and --plot give\n"
+        "every rail's envelope per switching period.\n"
         "Exit status 0 when the steady state holds and every margin is met, 1 when\n"
         "not, 2 for bad input, 3 when the solver did not converge or the simulation\n"
         "failed or reached its work limit (undetermined).\n",

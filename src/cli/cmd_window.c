@@ -31,6 +31,12 @@ static const char ABOUT[] =
     "--startup the lowest and highest duty and frequency at which the cold start\n"
     "completes within the design's start-up limit, searched over the same ranges\n"
     "(slow: every point is a cold start).\n"
+    "On a design with an AC line cycle the steady-state limits are the largest\n"
+    "peak current (searched from 0 to four times the design's, to 1 % of it) and\n"
+    "the lowest line frequency (a tenth to four times the design's unless\n"
+    "--fmin/--fmax say otherwise, to 1 %) at which every rail holds over the whole\n"
+    "line cycle, each at the design's other value, with the rail and the line\n"
+    "phase that fail beyond them; every point is a line cycle's steady state.\n"
     "Exit status 0 when the design point holds, 1 when not, 3 when no periodic\n"
     "steady state was found there, 2 for bad input.\n";
 
@@ -141,9 +147,10 @@ int cmd_window(int argc, char **argv)
          "also write a self-contained HTML report with the plot to PATH"},
         {BR_OPT_STRING, "plot", "PATH", &p.plot,
          "also plot the worst margin along duty and frequency as SVG to PATH"},
-        {BR_OPT_STRING, "fmin", "FREQ", &fmin, "lowest frequency searched (default fsw/100)"},
+        {BR_OPT_STRING, "fmin", "FREQ", &fmin,
+         "lowest frequency searched (default fsw/100; a line cycle's: line/10)"},
         {BR_OPT_STRING, "fmax", "FREQ", &fmax,
-         "highest frequency searched (default fsw*100, within the dead time)"},
+         "highest frequency searched (default fsw*100 within the dead time; line*4)"},
         {BR_OPT_FLAG, "startup", NULL, &startup, "also the start-up window (slow)"},
         {BR_OPT_FLAG, "quiet", NULL, &quiet, BR_QUIET_HELP},
         {BR_OPT_END, NULL, NULL, NULL, NULL},

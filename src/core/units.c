@@ -93,6 +93,9 @@ static const kind_info kinds[BR_KIND_COUNT] = {
                            0,
                            1e4,
                            "10000 K/W"},
+    /* a phase angle: degrees as the trade writes them, radians inside */
+    [BR_KIND_ANGLE] =
+        {"an angle like '30 deg'", "rad", {"deg", DEGREE, NULL}, "", 0, 1e3, "1000 rad"},
 };
 
 const char *br_kind_expected(br_kind kind)
@@ -188,6 +191,10 @@ static int suffix_scale(const char *suffix, br_kind kind, double *scale, double 
     *offset = 0.0;
     if (kind == BR_KIND_TEMPERATURE)
         return temperature_scale(suffix, offset, err);
+    if (kind == BR_KIND_ANGLE && suffix[0] != '\0' && is_unit(k, suffix)) {
+        *scale = 3.14159265358979323846 / 180.0; /* every spelling is a degree */
+        return BR_OK;
+    }
     if (suffix[0] == '\0' || is_unit(k, suffix))
         return BR_OK; /* a missing unit is to_si's to judge: it knows the number */
     if (kind == BR_KIND_FRACTION && strcmp(suffix, "%") == 0) {

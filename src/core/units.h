@@ -39,6 +39,7 @@ typedef enum br_kind {
     BR_KIND_I2T,         /* A^2 s ("A2s"), no prefixes: on a squared unit they mislead */
     BR_KIND_POWER,       /* W */
     BR_KIND_THERMAL_R,   /* thermal resistance, K/W ("C/W" accepted); no prefixes */
+    BR_KIND_ANGLE,       /* an angle in degrees ("30 deg", or the degree sign), in radians */
     BR_KIND_COUNT
 } br_kind;
 

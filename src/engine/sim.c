@@ -21,7 +21,9 @@ int br_sim_create(const br_chain *c, int dir, int integrator, br_sim **out, br_e
     br_sim_cache_esr(s);
     for (int k = 1; k < s->n; k++)
         s->stored |= c->st[k].diode.tau > 0;
-    s->dir = dir;
+    s->dir = s->dir0 = dir;
+    s->ac = c->line.on;
+    s->ac_hold = -1;
     s->integ = integrator;
     br_timing_build(c, dir, &s->tm);
     if (integrator == BR_INTEG_REFERENCE) {
@@ -228,7 +230,7 @@ static inline int switch_target(const br_sim *s, int k, double t, double *v, dou
 
 /* Each switch's voltage on and in reverse at the load current in force
  * (kept: they change only with the current). */
-static void load_drops(br_sim *s)
+void br_sim_load_drops(br_sim *s)
 {
     for (int k = 0; k < s->n; k++) {
         const br_stage *st = &s->c->st[k];
@@ -314,8 +316,8 @@ static void fly_reset(br_sim *s, double ph, double t)
 static void start_load(br_sim *s)
 {
     s->loaded = 1;
-    s->iamp = s->c->iload;
-    load_drops(s);
+    s->iamp = s->ac ? fabs(s->ac_i) : s->c->iload;
+    br_sim_load_drops(s);
     s->cell_low = br_timing_cell_min(&s->tm, s->c, s->isgn * s->iamp, &s->cell_stage);
 }
 
@@ -345,7 +347,7 @@ static void clear_state(br_sim *s)
     s->cmd = s->rev = s->driven = 0;
     s->loaded = 0;
     s->iamp = 0.0;
-    load_drops(s);
+    br_sim_load_drops(s);
     s->load_at = HUGE_VAL;
     s->cell_low = HUGE_VAL;
     s->cell_stage = -1;
@@ -378,9 +380,11 @@ void br_sim_reset_cold(br_sim *s)
     s->pwm_t0 = t;
     s->tramp_end = c->tramp;
     br_sim_supply_reset(s, 1);
+    if (s->ac)
+        br_sim_line_reset(s);
     /* start-up runs at no load unless the design starts under load: then
      * from the first period boundary at or after its start time */
-    if (s->dir >= 0 && c->load_from < HUGE_VAL) {
+    if (s->dir0 >= 0 && c->load_from < HUGE_VAL) {
         double m = ceil((c->load_from - t) / c->T - 1e-9);
         s->load_at = t + (m > 0 ? m : 0.0) * c->T;
     }
@@ -404,6 +408,8 @@ void br_sim_reset_running_at(br_sim *s, const double *x, double phase)
     s->npre = s->pre_idx = 0;
     s->tramp_end = -HUGE_VAL;
     s->pwm_t0 = -phase;
+    if (s->ac)
+        br_sim_line_reset(s);
     while (s->ev_idx < s->tm.nev && s->tm.ev[s->ev_idx].t <= phase)
         s->ev_idx++;
     /* every event lies behind: the next is the first of the next period */
@@ -422,7 +428,7 @@ void br_sim_reset_running_at(br_sim *s, const double *x, double phase)
     for (int k = 0; k < s->n; k++)
         s->enm |= (br_mask)(s->en[k] != 0) << k;
     br_timing_state_at(&s->tm, phase, &s->cmd, &s->rev);
-    if (s->dir >= 0) { /* a running chain carries its load */
+    if (s->dir0 >= 0) { /* a running chain carries its load */
         s->load_at = -HUGE_VAL;
         start_load(s);
     }
@@ -464,7 +470,7 @@ void br_sim_freeze(br_sim *s, br_mask on)
     s->rev = 0; /* no load current once switching stops */
     s->loaded = 0;
     s->iamp = 0.0;
-    load_drops(s);
+    br_sim_load_drops(s);
     s->load_at = HUGE_VAL;
     update_targets(s, s->t);
     s->k1_valid = 0;
@@ -545,6 +551,8 @@ static void apply_pwm_events(br_sim *s, double t)
 {
     int moved = 0;
     while (s->tm.nev > 0 && event_time(s) <= t) {
+        if (s->ac && s->ev_idx == 0)
+            br_sim_line_enter(s);
         if (s->tm.npairs > 0)
             fly_to(s, event_time(s), s->ev_idx == 0);
         br_event_apply(&s->tm.ev[s->ev_idx], &s->cmd, &s->rev);
@@ -553,6 +561,8 @@ static void apply_pwm_events(br_sim *s, double t)
             s->ev_idx = 0;
             s->per++;
             s->iv = 0;
+            if (s->ac)
+                br_sim_line_build(s, s->per);
         }
     }
     if (moved && s->tm.npairs > 0)

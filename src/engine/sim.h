@@ -174,6 +174,16 @@ void br_sim_sample_stress(const br_sim *s, double t, const double *vrail, int n,
 /* Driver supply of stage k for rail voltage vr (after its regulator), V. */
 double br_sim_vdrv(const br_sim *s, int k, double vr);
 
+/* On a line cycle (c->line.on): from the next reset on, repeat switching
+ * period m of the line cycle for ever, every carrier at its duty and the
+ * load current at its value (a quasi-static state); m < 0 runs the line
+ * cycle again.  No effect on a chain without a line cycle. */
+void br_sim_line_hold(br_sim *s, long m);
+
+/* On a line cycle: the line period (0 .. K-1) of the switching period in
+ * progress, or about to begin once its first event comes; -1 without. */
+long br_sim_line_period(const br_sim *s);
+
 /* The time PWM starts after the pre-charge steps, s. */
 double br_sim_pwm_start(const br_sim *s);
 

@@ -107,8 +107,18 @@ struct br_sim {
     int live[X_SIZE]; /* states, quadratures only while statistics
                          are kept, the sensitivity when asked */
     int phi0;         /* where it starts in x: n * NF */
-    int dir;          /* br_dir_index */
-    int integ;        /* br_integrator */
+    int dir;          /* br_dir_index: the direction analysed; on a line cycle
+                         the direction of the period in progress */
+    int dir0;         /* the direction asked for at creation (on a line
+                         cycle BR_DIRI_LINE, or BR_DIRI_NONE at no load) */
+    /* an AC line cycle (sim_line.c): s->tm is the timing of line period
+     * ac_m; ac_i is the signed current of the period in progress (> 0
+     * out of the switch node), ac_next that of the period tm describes
+     * once it begins; ac_hold >= 0 repeats that period at its own duty */
+    int ac;
+    long ac_m, ac_hold;
+    double ac_i, ac_next;
+    int integ; /* br_integrator */
     br_timing tm;
     double rtol, atol_v, atol_q;
     /* time and state */
@@ -235,6 +245,17 @@ double br_sim_supply_bypass_i(br_sim *s, double vs, double x0, double *didx);
  * for i0 at vinf, may meet the limit (or the supply is off): the closed
  * form does not hold, the interval is integrated. */
 int br_sim_supply_needs_rk(const br_sim *s, double ia, double i0, double vinf);
+/* Each switch's voltage on and in reverse at the load current in force;
+ * every switch looks for its target again at the next update. */
+void br_sim_load_drops(br_sim *s);
+
+/* The line cycle (sim_line.c).  After a reset: period 0 (or the held
+ * one) built and in force.  When the period counter moves on: the next
+ * period's timing built.  At a period's first event (its start): its
+ * current, direction and masks take over. */
+void br_sim_line_reset(br_sim *s);
+void br_sim_line_build(br_sim *s, long per);
+void br_sim_line_enter(br_sim *s);
 
 /* Fill s->esr from the chain. */
 void br_sim_cache_esr(br_sim *s);

@@ -69,7 +69,8 @@ static int read_operating_point(br_rd *r, xmlNode *n)
     BR_TRY(br_rd_qty(r, n, "imbalance", BR_KIND_FRACTION, &r_imbalance, &d->imbalance, NULL));
     BR_TRY(br_rd_qty(r, n, "edge-time", BR_KIND_TIME, &br_range_nonneg, &d->tedge, NULL));
     BR_TRY(br_rd_qty(r, n, "overshoot", BR_KIND_FRACTION, &r_overshoot, &d->overshoot, NULL));
-    return read_load(r, n);
+    BR_TRY(read_load(r, n));
+    return br_rd_line_cycle(r, n);
 }
 
 /* Attribute attr of n belongs to one limit mode only. */
@@ -522,8 +523,8 @@ static int read_analysis(br_rd *r, xmlNode *n)
 static int check_dead_time(br_rd *r, xmlNode *op)
 {
     const br_design *d = r->d;
-    if (d->topology != BR_TOPO_FCML || !op)
-        return BR_OK;
+    if (d->topology != BR_TOPO_FCML || !op || d->ac.on)
+        return BR_OK; /* a line cycle's duty span is checked with it */
     double tmin = 1.0 / d->fsw.max;
     double on = fmin(d->duty.min, 1.0 - d->duty.max) * tmin;
     if (2.0 * d->deadtime.max < on)
@@ -572,6 +573,7 @@ int br_rd_design(br_rd *r, xmlNode *root)
     BR_TRY(read_supply(r, br_xml_child(root, "supply")));
     BR_TRY(read_topology(r, br_xml_child(root, "topology")));
     BR_TRY(check_dead_time(r, op));
+    BR_TRY(br_rd_line_check(r, op));
     BR_TRY(br_rd_parts(r, parts));
     BR_TRY(check_parts_present(r, parts));
     BR_TRY(read_stages(r, br_xml_child(root, "stages")));

@@ -78,7 +78,7 @@ static int ordinal(xmlNode *n)
 static int is_counted(const char *name)
 {
     static const char *const counted[] = {"forward", "bias",      "temp", "on",
-                                          "reverse", "precharge", NULL};
+                                          "reverse", "precharge", "duty", NULL};
     for (int i = 0; counted[i]; i++)
         if (strcmp(name, counted[i]) == 0)
             return 1;
@@ -341,7 +341,9 @@ static const rule rules[] = {
     {"bootrung-design", "operating-point",
      "!vin !fsw duty dead-time ambient current=step-down|step-up|both|none imbalance edge-time "
      "overshoot load-current load-from switch-tj",
-     "", 0},
+     "line-cycle", 1},
+    {"operating-point", "line-cycle", "!frequency !peak-current phase depth", "duty", 0},
+    {"line-cycle", "duty", "!at !value", "", 0},
     {"bootrung-design", "supply",
      "!voltage resistance ramp bypass current-limit limit-mode=constant|foldback|hiccup "
      "foldback-current hiccup-delay hiccup-off hiccup-retries soft-start rating",

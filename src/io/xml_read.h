@@ -94,6 +94,12 @@ int br_rd_int(br_rd *r, xmlNode *n, const char *attr, int lo, int hi, int *v);
 /* Fill r->d from the validated root element. */
 int br_rd_design(br_rd *r, xmlNode *root);
 
+/* The operating point's <line-cycle> (line_read.c): read it, refusing
+ * the DC attributes it replaces; then, once the topology is known, check
+ * it against the leg, the switching frequency and the dead time. */
+int br_rd_line_cycle(br_rd *r, xmlNode *op);
+int br_rd_line_check(br_rd *r, xmlNode *op);
+
 /* Parts (parts_read.c). */
 int br_rd_parts(br_rd *r, xmlNode *parts);
 

@@ -177,6 +177,11 @@ static void copy_operating_point(const br_design *d, br_chain *c)
     c->iload = d->iload.nom;
     c->load_from = d->load_from;
     c->cfly = d->topology == BR_TOPO_FCML ? d->cfly.nom : 0.0;
+    br_line_resolve(&d->ac, c->fsw, &c->line);
+    if (c->line.on) { /* the line cycle gives every period its duty and current */
+        c->duty = 0.5;
+        c->iload = 0.0;
+    }
     c->overshoot = d->overshoot.nom;
     c->vsupply = d->vsupply.nom;
     c->rsupply = d->rsupply.nom;

@@ -12,6 +12,7 @@
 #define BR_MODEL_CHAIN_H
 
 #include "model/design.h"
+#include "model/line.h"
 
 typedef struct br_diode {
     const char *id; /* part id (points into the design) */
@@ -110,6 +111,9 @@ struct br_chain {
                                              the first period boundary at or after
                                              it; HUGE_VAL: start-up at no load */
     double cfly;                          /* FCML flying capacitance, F (0: ideal) */
+    br_line line;                         /* an AC line cycle instead of the DC load
+                                             (line.on; then iload is 0 and duty is the
+                                             modulation's centre, 0.5) */
     double overshoot;                     /* fraction of vblock */
     double vsupply, rsupply, tramp;       /* V, ohm, s */
     double csupply;                       /* rail-0 bypass capacitance, F (0: none) */

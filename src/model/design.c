@@ -36,6 +36,10 @@ br_design *br_design_create(void)
     d->direction = BR_DIR_BOTH;
     d->iload = br_qty_fixed(0.0);
     d->load_from = HUGE_VAL;
+    d->ac.freq = br_qty_fixed(0.0);
+    d->ac.ipk = br_qty_fixed(0.0);
+    d->ac.phase = br_qty_fixed(0.0);
+    d->ac.depth = br_qty_fixed(0.0);
     d->cfly = br_qty_fixed(0.0);
     d->imbalance = br_qty_fixed(0.0);
     d->tedge = br_qty_fixed(10e-9);

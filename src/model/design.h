@@ -14,6 +14,13 @@
 #define BR_MAX_WINDOWS 4   /* on-intervals per switch per period */
 #define BR_MAX_BIAS_POINTS 32
 #define BR_MAX_PRECHARGE 16
+#define BR_MAX_DUTY_POINTS 64 /* points of a line cycle's duty table */
+/* A line cycle holds from BR_LINE_MIN_PERIODS to BR_LINE_MAX_PERIODS
+ * switching periods: fewer make the line frequency no longer far below
+ * the switching frequency (each period's duty and current are taken as
+ * constant), more make one line period tens of seconds of simulation. */
+#define BR_LINE_MIN_PERIODS 20
+#define BR_LINE_MAX_PERIODS 100000
 #define BR_MAX_PARTS 64 /* of each kind */
 /* Start-up dropouts (UVLO hiccups) of one stage: more than BR_DROPOUTS_WARN
  * is worth a warning when the design states no limit of its own (a chain
@@ -187,6 +194,24 @@ typedef enum br_carry {
     BR_CARRY_NONE       /* the load current does not flow through it */
 } br_carry;
 
+/* An AC line cycle at the operating point, instead of a DC load current:
+ * the leg's load current is i(theta) = ipk sin(theta - phase), positive
+ * out of the switch node (step-down), and each switching period takes its
+ * duty from the modulation at its line phase theta: 1/2 (1 + depth sin
+ * theta) (sine modulation), or the duty table interpolated linearly and
+ * periodically over the line period. */
+typedef struct br_line_spec {
+    int on;                              /* the design gives <line-cycle> */
+    int line;                            /* its source line */
+    br_qty freq;                         /* line frequency, Hz */
+    br_qty ipk;                          /* peak load current, A */
+    br_qty phase;                        /* the current lags the modulation by this, rad */
+    br_qty depth;                        /* sine modulation depth, [0, 1) (ntab == 0) */
+    int ntab;                            /* points of the duty table (0: sine) */
+    double tab_at[BR_MAX_DUTY_POINTS];   /* line phase, rad, ascending in [0, 2 pi) */
+    double tab_duty[BR_MAX_DUTY_POINTS]; /* duty there, in (0, 1) */
+} br_line_spec;
+
 /* Explicit string: one switch, its on-intervals as fractions of T. */
 typedef struct br_switch_spec {
     char name[BR_ID_MAX];
@@ -225,6 +250,7 @@ struct br_design {
                          boundary at or after this time, s; HUGE_VAL (the
                          default): start-up at no load, loaded in steady
                          state */
+    br_line_spec ac;  /* an AC line cycle instead of the DC load (ac.on) */
     br_qty imbalance; /* flying-capacitor imbalance, fraction of Vin/P */
     br_qty tedge;     /* switching-node edge (ramp) time, s */
     br_qty overshoot; /* edge overshoot on blocking voltage, fraction */

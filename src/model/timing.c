@@ -210,8 +210,18 @@ static void fly_build(const br_chain *c, br_timing *tm)
     }
 }
 
+void br_timing_sort(const br_chain *c, br_timing *tm)
+{
+    qsort(tm->ev, (size_t)tm->nev, sizeof tm->ev[0], cmp_event);
+    fly_build(c, tm);
+}
+
 void br_timing_build(const br_chain *c, int dir, br_timing *tm)
 {
+    if (c->line.on) {
+        br_timing_line(c, 0, dir == BR_DIRI_NONE ? dir : br_line_dir(&c->line, 0), 0, tm);
+        return;
+    }
     tm->T = c->T;
     tm->n = c->n;
     tm->nev = 0;
@@ -222,6 +232,5 @@ void br_timing_build(const br_chain *c, int dir, br_timing *tm)
         if (dir >= 0)
             add_windows(tm, s, st->nrev[dir], st->rev[dir], BR_EV_REV_ON, BR_EV_REV_OFF, &tm->rev0);
     }
-    qsort(tm->ev, (size_t)tm->nev, sizeof tm->ev[0], cmp_event);
-    fly_build(c, tm);
+    br_timing_sort(c, tm);
 }

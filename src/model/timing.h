@@ -25,7 +25,15 @@ typedef struct br_event {
 
 #define BR_MAX_EVENTS (4 * BR_MAX_SWITCHES * BR_MAX_WINDOWS)
 
-typedef enum br_dir_index { BR_DIRI_NONE = -1, BR_DIRI_DOWN = 0, BR_DIRI_UP = 1 } br_dir_index;
+/* BR_DIRI_LINE: an AC line cycle, whose current changes direction period
+ * by period (never an index into the per-direction tables of a stage:
+ * each switching period takes BR_DIRI_DOWN or BR_DIRI_UP, br_line_dir). */
+typedef enum br_dir_index {
+    BR_DIRI_NONE = -1,
+    BR_DIRI_DOWN = 0,
+    BR_DIRI_UP = 1,
+    BR_DIRI_LINE = 2
+} br_dir_index;
 
 #define BR_MAX_FLY (BR_MAX_SWITCHES / 2) /* flying capacitors 1..P-1, plus the ends */
 
@@ -52,8 +60,28 @@ typedef struct br_timing {
     double cell_hi[BR_MAX_FLY + 1];
 } br_timing;
 
-/* The events of one period for direction dir (a br_dir_index). */
+/* The events of one period for direction dir (a br_dir_index).  For a
+ * chain on a line cycle: the first switching period of the line period
+ * (br_timing_line, m = 0), its reverse conduction in the direction of its
+ * own current unless dir is BR_DIRI_NONE. */
 void br_timing_build(const br_chain *c, int dir, br_timing *tm);
+
+/* The events of switching period m of c's line cycle (an FCML leg): the
+ * pulses of each pair at the duty its carrier took, reverse conduction in
+ * the dead times for direction dir (BR_DIRI_NONE: none).  held: every
+ * carrier at period m's duty (the period repeated for ever, a
+ * quasi-static state). */
+void br_timing_line(const br_chain *c, long m, int dir, int held, br_timing *tm);
+
+/* Over c's line cycle: the lowest voltage any switch blocks with the
+ * flying capacitors' ripple of each period's current (HUGE_VAL without
+ * ripple), the switching period *m and stage *stage where, and in *pp the
+ * largest peak-to-peak ripple of a flying capacitor, V. */
+double br_line_cell_min(const br_chain *c, long *m, int *stage, double *pp);
+
+/* Sort tm's events and derive the flying capacitors' ripple from them
+ * (the last step of building a timing). */
+void br_timing_sort(const br_chain *c, br_timing *tm);
 
 /* Masks in force at time t in [0, T). */
 void br_timing_state_at(const br_timing *tm, double t, br_mask *on, br_mask *rev);

@@ -45,6 +45,11 @@ static const field op_fields[] = {F(br_design, vin, "vin", BR_KIND_VOLTAGE),
                                   F(br_design, tj, "switch-tj", BR_KIND_TEMPERATURE),
                                   END};
 
+static const field line_fields[] = {F(br_design, ac.freq, "frequency", BR_KIND_FREQUENCY),
+                                    F(br_design, ac.ipk, "peak-current", BR_KIND_CURRENT),
+                                    F(br_design, ac.phase, "phase", BR_KIND_ANGLE),
+                                    F(br_design, ac.depth, "depth", BR_KIND_FRACTION), END};
+
 static const field fcml_fields[] = {F(br_design, cfly, "cfly", BR_KIND_CAPACITANCE), END};
 
 static const field supply_fields[] = {F(br_design, vsupply, "voltage", BR_KIND_VOLTAGE),
@@ -290,6 +295,8 @@ int br_tol_list_build(const br_design *d, br_tol_list *out, br_error *err)
     out->n = 0;
     find_usage(d, &u);
     TRY(add_fields(d, out, 0, op_fields, "operating-point", err));
+    if (d->ac.on)
+        TRY(add_fields(d, out, 0, line_fields, "line-cycle", err));
     if (d->topology == BR_TOPO_FCML)
         TRY(add_fields(d, out, 0, fcml_fields, "fcml", err));
     TRY(add_fields(d, out, 0, supply_fields, "supply", err));

@@ -411,12 +411,38 @@ int br_chart_yield(const br_yield *y, int standalone, br_text *out)
 
 /* ---- hold window --------------------------------------------------------- */
 
+/* The value of scan point i on the sweep's axis, as plotted (duty in %). */
+static double scan_x(const br_sweep *sw, int i)
+{
+    const br_hold_point *pt = &sw->scan[i];
+    switch (sw->axis) {
+    case BR_AXIS_FSW:
+        return pt->fsw;
+    case BR_AXIS_IPK:
+        return pt->ipk;
+    case BR_AXIS_FLINE:
+        return pt->fline;
+    default:
+        return 100.0 * pt->duty;
+    }
+}
+
 static void sweep_panel(br_svg *s, const br_sweep *sw, double y)
 {
+    static const char *const key[] = {"window-duty", "window-fsw", "window-ipk", "window-fline"};
+    static const char *const title[] = {"worst margin against duty",
+                                        "worst margin against switching frequency",
+                                        "worst margin against the line cycle's peak current",
+                                        "worst margin against the line frequency"};
+    static const char *const label[] = {"duty", "switching frequency", "peak current",
+                                        "line frequency"};
+    static const char *const unit[] = {"%", "Hz", "A", "Hz"};
+    static const char *const series[] = {"margin_vs_duty_V", "margin_vs_fsw_V", "margin_vs_ipk_V",
+                                         "margin_vs_fline_V"};
     double x[BR_MAX_SCAN], m[BR_MAX_SCAN], lo = 0.0, hi = 0.0;
-    int fsw = sw->axis == BR_AXIS_FSW;
+    int a = sw->axis >= 0 && sw->axis <= BR_AXIS_FLINE ? sw->axis : 0;
     for (int i = 0; i < sw->nscan; i++) {
-        x[i] = fsw ? sw->scan[i].fsw : 100.0 * sw->scan[i].duty; /* duty in % */
+        x[i] = scan_x(sw, i);
         m[i] = sw->scan[i].margin;
         if (isfinite(m[i])) {
             lo = fmin(lo, m[i]);
@@ -425,14 +451,12 @@ static void sweep_panel(br_svg *s, const br_sweep *sw, double y)
     }
     br_plot p;
     br_plot_frame(&p, s, 0, y, 2 * PANEL_W, PANEL_H);
-    p.xlog = fsw && sw->lo > 0;
-    double k = fsw ? 1.0 : 100.0;
+    p.xlog = (a == BR_AXIS_FSW || a == BR_AXIS_FLINE) && sw->lo > 0;
+    double k = a == BR_AXIS_DUTY ? 100.0 : 1.0;
     br_plot_range(&p, k * sw->lo, k * sw->hi, lo, hi, 1);
-    br_plot_axes(&p, fsw ? "window-fsw" : "window-duty",
-                 fsw ? "worst margin against switching frequency" : "worst margin against duty",
-                 fsw ? "switching frequency" : "duty", fsw ? "Hz" : "%", "margin", "V");
+    br_plot_axes(&p, key[a], title[a], label[a], unit[a], "margin", "V");
     br_plot_hline(&p, 0.0, &S_FAILS, "fails below");
-    br_plot_line(&p, x, m, sw->nscan, 1, &S_RAIL, fsw ? "margin_vs_fsw_V" : "margin_vs_duty_V");
+    br_plot_line(&p, x, m, sw->nscan, 1, &S_RAIL, series[a]);
     for (int i = 0; i < sw->nscan; i++)
         if (isfinite(m[i]))
             br_svg_circle(s, br_plot_px(&p, x[i]), br_plot_py(&p, m[i]), 3.0,
@@ -444,7 +468,7 @@ static void sweep_panel(br_svg *s, const br_sweep *sw, double y)
 int br_chart_window(const br_window *w, int standalone, br_text *out)
 {
     br_svg s;
-    const br_sweep *sw[2] = {&w->duty, &w->fsw};
+    const br_sweep *sw[2] = {w->line ? &w->ipk : &w->duty, w->line ? &w->fline : &w->fsw};
     int n = 0;
     for (int i = 0; i < 2; i++)
         n += sw[i]->applies && sw[i]->nscan > 1;

@@ -25,6 +25,14 @@ int br_chart_startup(const br_chain *c, const br_startup *su, const br_trace *tr
 int br_chart_ripple(const br_chain *c, const br_steady_figs *f, const br_trace *tr, int standalone,
                     br_text *out);
 
+/* A line cycle (charts_line.c): the load current and the duty against
+ * line phase, then one panel per rail with its lowest and highest voltage
+ * (and driver supply behind a regulator) per switching period of the
+ * envelope e, UVLO falling, the minimum drive, the gate maximum, and
+ * where its driver supply is lowest. */
+int br_chart_line(const br_chain *c, const br_steady_figs *f, const br_line_env *e, int standalone,
+                  br_text *out);
+
 /* The link that comes closest to its derated reverse rating (or, with no
  * rating anywhere, that blocks the most) over the ndir directions;
  * *dir gets the index in f of the direction where it does. */

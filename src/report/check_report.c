@@ -111,6 +111,58 @@ static int render_load(const br_chain *c, br_text *out)
     return rc;
 }
 
+/* A line cycle: its frequency and periods, its current and the duty span
+ * of its modulation. */
+static int render_line(const br_chain *c, br_text *out)
+{
+    char a[32], b[32], g[32];
+    const br_line *l = &c->line;
+    const br_design *d = c->design;
+    double lo = HUGE_VAL, hi = -HUGE_VAL;
+    for (long m = 0; m < l->K; m++) {
+        lo = fmin(lo, br_line_duty(l, m));
+        hi = fmax(hi, br_line_duty(l, m));
+    }
+    int rc = br_text_printf(out, "  duty              %.4g to %.4g over the line cycle (", lo, hi);
+    rc |= l->ntab > 0 ? br_text_printf(out, "a table of %d points)\n", l->ntab)
+                      : br_text_printf(out, "sine modulation, depth %.4g)\n", l->depth);
+    rc |= br_text_printf(out, "  dead time         %s\n", si(a, sizeof a, c->deadtime, "s"));
+    rc |= br_text_printf(out, "  ambient           %.1f C\n", c->tamb - KELVIN);
+    rc |=
+        br_text_printf(out, "  line cycle        %s (%ld switching periods; %s given)\n",
+                       si(a, sizeof a, l->freq, "Hz"), l->K, si(g, sizeof g, l->freq_given, "Hz"));
+    rc |= br_text_printf(out, "  load current      %s peak", si(a, sizeof a, l->ipk, "A"));
+    if (d && (d->ac.ipk.min < l->ipk || d->ac.ipk.max > l->ipk))
+        rc |= br_text_printf(out, " (%s to %s)", si(a, sizeof a, d->ac.ipk.min, "A"),
+                             si(b, sizeof b, d->ac.ipk.max, "A"));
+    rc |= br_text_printf(out, ", %.4g deg behind the modulation; direction alternating\n",
+                         l->phase * 180.0 / BR_PI);
+    if (c->load_from < HUGE_VAL)
+        rc |= br_text_printf(out, "  start-up          under load from %s\n",
+                             si(a, sizeof a, c->load_from, "s"));
+    else
+        rc |= br_text_put(out, "  start-up          at no load\n");
+    rc |= br_text_printf(out, "  switch junction   %.1f C%s\n", c->tj - KELVIN,
+                         d && d->tj_given ? "" : " (the ambient)");
+    return rc;
+}
+
+/* The same over a line cycle: each period's ripple at its own current. */
+static int render_line_fly(const br_chain *c, br_text *out)
+{
+    char a[32], b[32], v[32];
+    long m;
+    int at;
+    double pp, low = br_line_cell_min(c, &m, &at, &pp);
+    int rc = br_text_printf(out, "  flying caps       %s each, ripple up to %s peak to peak",
+                            si(a, sizeof a, c->cfly, "F"), si(b, sizeof b, pp, "V"));
+    if (at >= 0)
+        rc |= br_text_printf(out, ", lowest blocking voltage %s (%s at %.1f deg)",
+                             si(v, sizeof v, low, "V"), c->st[at].name,
+                             br_line_theta(&c->line, m) * 180.0 / BR_PI);
+    return rc | br_text_put(out, "\n");
+}
+
 /* The flying capacitors, their ripple at the load current and the lowest
  * voltage a switch then blocks, over the directions analysed. */
 static int render_fly(const br_chain *c, br_text *out)
@@ -120,6 +172,8 @@ static int render_fly(const br_chain *c, br_text *out)
         return c->design && c->design->topology == BR_TOPO_FCML
                    ? br_text_put(out, "  flying caps       ideal (no ripple)\n")
                    : BR_OK;
+    if (c->line.on)
+        return render_line_fly(c, out);
     br_timing tm;
     double pp[BR_MAX_FLY + 1], worst = 0.0, low = HUGE_VAL;
     int dirs[2], nd = br_design_directions(c, dirs), at = -1;
@@ -152,12 +206,16 @@ static int render_header(const br_chain *c, br_text *out)
     rc |= br_text_printf(out, "  input voltage     %s\n", si(a, sizeof a, c->vin, "V"));
     rc |= br_text_printf(out, "  switching freq    %s (period %s)\n", si(a, sizeof a, c->fsw, "Hz"),
                          si(b, sizeof b, c->T, "s"));
-    rc |= br_text_printf(out, "  duty              %.4g (%.1f %%)\n", c->duty, 100.0 * c->duty);
-    rc |= br_text_printf(out, "  dead time         %s\n", si(a, sizeof a, c->deadtime, "s"));
-    rc |= br_text_printf(out, "  ambient           %.1f C\n", c->tamb - KELVIN);
-    rc |= br_text_printf(out, "  current direction %s\n", direction_name(c->direction));
-    if (c->direction != BR_DIR_NONE)
-        rc |= render_load(c, out);
+    if (c->line.on) {
+        rc |= render_line(c, out);
+    } else {
+        rc |= br_text_printf(out, "  duty              %.4g (%.1f %%)\n", c->duty, 100.0 * c->duty);
+        rc |= br_text_printf(out, "  dead time         %s\n", si(a, sizeof a, c->deadtime, "s"));
+        rc |= br_text_printf(out, "  ambient           %.1f C\n", c->tamb - KELVIN);
+        rc |= br_text_printf(out, "  current direction %s\n", direction_name(c->direction));
+        if (c->direction != BR_DIR_NONE)
+            rc |= render_load(c, out);
+    }
     rc |= render_supply(c, out);
     rc |= render_topology(c, out);
     rc |= render_fly(c, out);
@@ -285,8 +343,11 @@ static int render_table(const br_chain *c, br_text *out)
     int width[NCOL];
     char cells[NCOL][CELL];
     column_widths(c, width);
-    int rc = br_text_put(
-        out, "\nstages (bottom to top; link k charges rail k while its return switch is on)\n");
+    int rc = br_text_printf(
+        out, "\nstages (bottom to top; link k charges rail k while its return switch is on%s)\n",
+        c->line.on ? ";\n  windows at duty 0.5, the modulation's centre: each switching period "
+                     "moves them with its duty"
+                   : "");
     for (int col = 0; col < NCOL; col++)
         snprintf(cells[col], CELL, "%s", col_head[col]);
     rc |= put_line(out, cells, width);
@@ -314,6 +375,7 @@ static int render_switches(const br_chain *c, br_text *out)
     int show[2] = {c->direction == BR_DIR_STEP_DOWN || c->direction == BR_DIR_BOTH,
                    c->direction == BR_DIR_STEP_UP || c->direction == BR_DIR_BOTH};
     char a[32];
+    double i = c->line.on ? c->line.ipk : c->iload; /* a line cycle: at its peak */
     br_table *t = br_table_create(S_NCOL, c->n);
     if (!t)
         return BR_ENOMEM;
@@ -327,15 +389,15 @@ static int render_switches(const br_chain *c, br_text *out)
         br_table_set(t, S_PART, "%s", id_or_dash(st->sw.id));
         br_table_set(t, S_RDS, "%.2f", st->sw.rds_on * 1e3);
         for (int dir = 0; dir < 2; dir++)
-            br_table_set(
-                t, dir ? S_UP : S_DOWN, "%s",
-                show[dir]
-                    ? (snprintf(a, sizeof a, "%+.3f", br_sw_on_drop(st, dir, c->iload) + 0.0), a)
-                    : "-");
-        br_table_set(t, S_REV, "%.3f", br_sw_rev_drop(&st->sw, c->iload));
+            br_table_set(t, dir ? S_UP : S_DOWN, "%s",
+                         show[dir]
+                             ? (snprintf(a, sizeof a, "%+.3f", br_sw_on_drop(st, dir, i) + 0.0), a)
+                             : "-");
+        br_table_set(t, S_REV, "%.3f", br_sw_rev_drop(&st->sw, i));
     }
-    int rc = br_text_printf(out, "\nswitches at the load current (%s, junction %.1f C)\n",
-                            si(a, sizeof a, c->iload, "A"), c->tj - KELVIN);
+    int rc = br_text_printf(out, "\nswitches at the %s current (%s, junction %.1f C)\n",
+                            c->line.on ? "line cycle's peak" : "load", si(a, sizeof a, i, "A"),
+                            c->tj - KELVIN);
     rc |= br_table_render(t, 2, out);
     br_table_free(t);
     return rc;

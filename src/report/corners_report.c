@@ -23,6 +23,10 @@ const char *br_param_value(const br_tol_param *p, double v, char *buf, size_t ca
         snprintf(buf, cap, "%.4g C", v - KELVIN);
         return buf;
     }
+    if (p->kind == BR_KIND_ANGLE) {
+        snprintf(buf, cap, "%.4g deg", v * 180.0 / 3.14159265358979323846);
+        return buf;
+    }
     return br_fmt_si(buf, cap, v, 4, br_kind_unit((br_kind)p->kind));
 }
 

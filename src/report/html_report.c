@@ -2,6 +2,8 @@
  * the HTML reports. */
 #include "report/html_report.h"
 
+#include "report/line_report.h"
+
 #include "report/caution.h"
 #include "report/plot.h"
 #include "report/report_common.h"
@@ -73,16 +75,26 @@ int br_html_para(br_text *out, const char *text)
 
 static int operating_point(br_text *out, const br_chain *c)
 {
-    char a[32], b[32], d[32], i[32];
-    char line[320];
+    char a[32], b[32], d[32], i[32], duty[32], what[160];
+    char line[400];
+    if (c->line.on)
+        snprintf(duty, sizeof duty, "duty from the modulation");
+    else
+        snprintf(duty, sizeof duty, "duty %.1f %%", 100.0 * c->duty);
     int n = snprintf(line, sizeof line,
-                     "%d switches, bus %s, switching at %s, duty %.1f %%, dead time %s, ambient "
+                     "%d switches, bus %s, switching at %s, %s, dead time %s, ambient "
                      "%.0f \xc2\xb0"
                      "C",
                      c->n, br_plot_si(a, sizeof a, c->vin, 4, "V"),
-                     br_plot_si(b, sizeof b, c->fsw, 4, "Hz"), 100.0 * c->duty,
+                     br_plot_si(b, sizeof b, c->fsw, 4, "Hz"), duty,
                      br_plot_si(d, sizeof d, c->deadtime, 3, "s"), c->tamb - 273.15);
-    if (c->direction != BR_DIR_NONE && n > 0 && (size_t)n < sizeof line)
+    if (c->line.on && n > 0 && (size_t)n < sizeof line)
+        snprintf(line + n, sizeof line - (size_t)n,
+                 ", %s (switches at %.0f \xc2\xb0"
+                 "C; start-up %s)",
+                 br_line_describe(c, what, sizeof what), c->tj - 273.15,
+                 c->load_from < HUGE_VAL ? "under load" : "at no load");
+    else if (c->direction != BR_DIR_NONE && n > 0 && (size_t)n < sizeof line)
         snprintf(line + n, sizeof line - (size_t)n,
                  ", load current %s (switches at %.0f \xc2\xb0"
                  "C; start-up %s)",
@@ -225,7 +237,11 @@ static int verdict_row(br_text *out, const br_chain *c, const br_verdict_row *r)
     else
         snprintf(at, sizeof at, "-");
     rc |= cell(out, "l", at);
-    rc |= cell(out, "l", r->applies && !startup ? br_dir_label(r->dir) : "-");
+    if (r->applies && !startup && r->dir == BR_DIRI_LINE && r->line_period >= 0)
+        snprintf(at, sizeof at, "line cycle at %.0f\xc2\xb0", br_line_deg(r->line_theta));
+    else
+        snprintf(at, sizeof at, "%s", r->applies && !startup ? br_dir_label(r->dir) : "-");
+    rc |= cell(out, "l", at);
     return rc | br_text_put(out, "</tr>\n") ? BR_ENOMEM : BR_OK;
 }
 

@@ -142,7 +142,8 @@ static int tick_decimals(double step, double factor)
  * that the tick labels need more than three decimals. */
 static br_scale axis_scale(double lo, double hi, double step, const char *unit)
 {
-    if (!unit[0] || strcmp(unit, "%") == 0) { /* counts and shares take no prefix */
+    /* counts, shares and angles take no prefix */
+    if (!unit[0] || strcmp(unit, "%") == 0 || strcmp(unit, "deg") == 0) {
         br_scale plain = {1.0, ""};
         snprintf(plain.unit, sizeof plain.unit, "%s", unit);
         return plain;

@@ -4,6 +4,7 @@
 
 #include "report/caution.h"
 #include "report/fmt.h"
+#include "report/line_report.h"
 
 #include <math.h>
 #include <stdio.h>
@@ -13,12 +14,18 @@
 
 const char *br_dir_label(int dir)
 {
-    return dir == BR_DIRI_DOWN ? "step-down" : dir == BR_DIRI_UP ? "step-up" : "idealised";
+    return dir == BR_DIRI_DOWN   ? "step-down"
+           : dir == BR_DIRI_UP   ? "step-up"
+           : dir == BR_DIRI_LINE ? "line-cycle"
+                                 : "idealised";
 }
 
 const char *br_dir_short(int dir)
 {
-    return dir == BR_DIRI_DOWN ? "down" : dir == BR_DIRI_UP ? "up" : "-";
+    return dir == BR_DIRI_DOWN   ? "down"
+           : dir == BR_DIRI_UP   ? "up"
+           : dir == BR_DIRI_LINE ? "line"
+                                 : "-";
 }
 
 static const char *design_name(const br_chain *c)
@@ -30,15 +37,19 @@ static const char *design_name(const br_chain *c)
  * supply 15 V, 12 switches / 11 links" */
 static int operating_point(const br_chain *c, br_text *out)
 {
-    char vin[24], f[24], t[24], dt[24], vs[24];
+    char vin[24], f[24], t[24], dt[24], vs[24], duty[32];
+    if (c->line.on)
+        snprintf(duty, sizeof duty, "duty from the modulation");
+    else
+        snprintf(duty, sizeof duty, "duty %.3g", c->duty);
     return br_text_printf(
         out,
-        "  %s bus, %s (T %s), duty %.3g, dead time %s, %.0f C\n"
+        "  %s bus, %s (T %s), %s, dead time %s, %.0f C\n"
         "  supply %s, %d switches, %d link%s\n",
         br_fmt_si(vin, sizeof vin, c->vin, 4, "V"), br_fmt_si(f, sizeof f, c->fsw, 4, "Hz"),
-        br_fmt_si(t, sizeof t, c->T, 4, "s"), c->duty,
-        br_fmt_si(dt, sizeof dt, c->deadtime, 3, "s"), c->tamb - KELVIN,
-        br_fmt_si(vs, sizeof vs, c->vsupply, 4, "V"), c->n, c->n - 1, c->n == 2 ? "" : "s");
+        br_fmt_si(t, sizeof t, c->T, 4, "s"), duty, br_fmt_si(dt, sizeof dt, c->deadtime, 3, "s"),
+        c->tamb - KELVIN, br_fmt_si(vs, sizeof vs, c->vsupply, 4, "V"), c->n, c->n - 1,
+        c->n == 2 ? "" : "s");
 }
 
 /* "load current 25 A (22.5 A to 27.5 A), switches at 100 C; start-up at no
@@ -47,6 +58,8 @@ static int load_line(const br_chain *c, br_text *out)
 {
     char i[24], lo[24], hi[24], t[24];
     const br_design *d = c->design;
+    if (c->line.on)
+        return br_line_heading(c, out);
     if (c->direction == BR_DIR_NONE)
         return br_text_put(out, "  no load current (idealised commutation)\n");
     int rc = br_text_printf(out, "  load current %s", br_fmt_si(i, sizeof i, c->iload, 4, "A"));
@@ -127,6 +140,7 @@ void br_xml_operating_point(br_xmlw *w, const br_chain *c)
     br_xmlw_num(w, "supply-V", c->vsupply);
     br_xmlw_int(w, "switches", c->n);
     br_xmlw_int(w, "links", c->n - 1);
+    br_line_xml_operating(w, c);
     br_xmlw_end(w);
 }
 

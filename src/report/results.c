@@ -6,6 +6,7 @@
 #include "report/budget_report.h"
 #include "report/caution.h"
 #include "report/csv.h"
+#include "report/line_report.h"
 #include "report/report_common.h"
 #include "report/startup_report.h"
 #include "report/steady_report.h"
@@ -27,6 +28,8 @@ br_results *br_results_create(void)
 
 void br_results_free(br_results *r)
 {
+    if (r)
+        br_line_env_free(r->env);
     free(r);
 }
 
@@ -101,9 +104,35 @@ static int steady_series(const br_chain *c, const br_steady *ss, const br_progre
     return rc;
 }
 
+/* A line cycle: its steady state with the envelope, which is what its
+ * CSV rows and plots show (a line period of waveforms would be thousands
+ * of switching periods of samples). */
+static int run_line(br_results *r, const br_steady_opts *so, br_text *csv, br_error *err)
+{
+    br_steady_opts o;
+    if (so)
+        o = *so;
+    else
+        br_steady_opts_default(&o);
+    r->ndir = 1;
+    if (!(r->env = br_line_env_create(r->c->line.K, r->c->n)))
+        return oom(err, "keeping the line cycle's envelope");
+    o.envelope = r->env;
+    if (!o.progress)
+        o.progress = r->progress; /* a line period is thousands of switching periods */
+    int rc = br_steady_solve(r->c, BR_DIRI_LINE, &o, &r->ss[0], err);
+    if (rc == BR_OK && csv && br_line_csv(r->c, r->env, csv) != BR_OK)
+        rc = oom(err, "recording the line cycle's envelope");
+    if (rc == BR_OK)
+        br_steady_figures(r->c, &r->ss[0], &r->figs[0]);
+    return rc;
+}
+
 static int run_steady(br_results *r, const br_steady_opts *so, br_text *csv, br_results_traces *tr,
                       br_error *err)
 {
+    if (r->c->line.on)
+        return run_line(r, so, csv, err);
     int dirs[2];
     br_steady_opts o;
     if (so)
@@ -149,9 +178,10 @@ int br_results_run_traced(br_results *r, const br_chain *c, const char *verb, in
                           const br_steady_opts *so, br_text *csv, br_results_traces *tr,
                           br_error *err)
 {
-    const br_progress *progress = r->progress; /* set by the caller: kept */
+    const br_progress *hook = r->progress; /* the caller's, set before the run */
+    br_line_env_free(r->env);
     memset(r, 0, sizeof *r);
-    r->progress = progress;
+    r->progress = hook;
     r->c = c;
     r->verb = verb;
     r->parts = parts;

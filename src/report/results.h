@@ -27,9 +27,11 @@ typedef struct br_results {
     br_steady ss[2];             /* one per direction of br_design_directions */
     br_steady_figs figs[2];      /* figs[d].ss points at ss[d] */
     br_verdict verdict;          /* over what was run */
-    const br_progress *progress; /* the cold start's progress hook, and the stop
-                                    poll of every simulation (NULL: none); set it
-                                    before br_results_run, which keeps it */
+    br_line_env *env;            /* a line cycle's rail envelope (NULL otherwise; owned) */
+    const br_progress *progress; /* the cold start's and a line cycle's steady state's
+                                    progress hook, and the stop poll of every
+                                    simulation (NULL: none); set it before
+                                    br_results_run, which keeps it */
 } br_results;
 
 /* Allocate (the structure is large).  Returns NULL when out of memory. */

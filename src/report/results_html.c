@@ -43,6 +43,12 @@ static int ripple_chart(const br_results *r, const br_results_traces *tr, int d,
     return br_chart_ripple(r->c, &r->figs[d], tr->steady[d], 0, svg);
 }
 
+static int line_chart(const br_results *r, const br_results_traces *tr, int d, br_text *svg)
+{
+    (void)tr;
+    return br_chart_line(r->c, &r->figs[d], r->env, 0, svg);
+}
+
 static int diode_chart(const br_results *r, const br_results_traces *tr, int d, br_text *svg)
 {
     (void)d;
@@ -119,10 +125,19 @@ static int startup_section(br_text *out, const br_results *r, const br_results_t
 static int steady_section(br_text *out, const br_results *r, const br_results_traces *tr)
 {
     int rc = br_html_section(out, "Steady state: rails",
-                             "Worst case over the current directions analysed. The plots show "
-                             "two periods from the steady state found; limits too far from the "
-                             "ripple to draw are pointed at from the edge.");
+                             r->env ? "Over the whole line cycle: each figure is the worst of "
+                                      "every switching period of the line period, and the "
+                                      "verdict names the line phase where it binds."
+                                    : "Worst case over the current directions analysed. The "
+                                      "plots show two periods from the steady state found; "
+                                      "limits too far from the ripple to draw are pointed at "
+                                      "from the edge.");
     rc |= br_html_rail_table(out, r->c, r->figs, r->ndir);
+    if (r->env)
+        rc |= figure(out, r, tr, 0, line_chart,
+                     "Each rail's lowest and highest voltage per switching period over the line "
+                     "cycle (the rows of the line-min and line-max CSV series), with the load "
+                     "current and the duty of each period.");
     for (int d = 0; d < r->ndir; d++)
         if (tr->steady[d])
             rc |= figure(out, r, tr, d, ripple_chart, NULL);
@@ -172,6 +187,8 @@ int br_results_plot(const br_results *r, const br_results_traces *tr, br_text *o
     int rc = BR_OK;
     if ((r->parts & BR_RUN_STARTUP) && tr->startup) {
         rc = br_chart_startup(r->c, &r->su, tr->startup, 1, out);
+    } else if (r->env) {
+        rc = br_chart_line(r->c, &r->figs[0], r->env, 1, out);
     } else if (r->ndir > 0) {
         int d = binding_dir(r);
         if (tr->steady[d])

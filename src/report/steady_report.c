@@ -3,6 +3,7 @@
 
 #include "report/budget_report.h"
 #include "report/fmt.h"
+#include "report/line_report.h"
 #include "report/report_common.h"
 #include "report/table.h"
 
@@ -26,6 +27,12 @@ static int method_line(const br_steady *ss, br_text *out)
     char r[32], d[32];
     br_fmt_si(r, sizeof r, ss->residual, 3, "V");
     br_fmt_si(d, sizeof d, ss->drift, 3, "V");
+    if (ss->dir == BR_DIRI_LINE)
+        return br_text_printf(out,
+                              "shooting over the line period, %d line period%s%s (%ld switching "
+                              "periods),\n    residual %s, drift %s/line period",
+                              ss->iterations, ss->iterations == 1 ? "" : "s",
+                              ss->converged ? "" : " (NOT converged)", ss->periods, r, d);
     if (ss->method == BR_STEADY_SHOOTING)
         return br_text_printf(out,
                               "shooting, %d iteration%s, %ld periods, residual %s, drift %s/period",
@@ -38,9 +45,10 @@ static int method_line(const br_steady *ss, br_text *out)
 
 static int holds_line(const br_steady *ss, br_text *out)
 {
+    const char *over = ss->dir == BR_DIRI_LINE ? "the line cycle" : "the period";
     if (ss->holds)
-        return br_text_put(out, "  holds: every driver stays enabled over the period\n");
-    return br_text_put(out, "  holds: NO, a driver drops out over the period\n");
+        return br_text_printf(out, "  holds: every driver stays enabled over %s\n", over);
+    return br_text_printf(out, "  holds: NO, a driver drops out over %s\n", over);
 }
 
 /* ---- tables ------------------------------------------------------------ */
@@ -263,8 +271,11 @@ static int caps_table(const br_chain *c, const br_steady_figs *f, br_text *out)
 
 int br_steady_text(const br_chain *c, const br_steady_figs *f, br_text *out)
 {
-    char a[32], b[32];
-    int rc = br_text_printf(out, "steady state, %s current\n", br_dir_label(f->dir));
+    char a[32], b[32], what[160];
+    int line = f->dir == BR_DIRI_LINE;
+    int rc = line ? br_report_wrap(out, "steady state over the line cycle: ",
+                                   br_line_describe(c, what, sizeof what), 2)
+                  : br_text_printf(out, "steady state, %s current\n", br_dir_label(f->dir));
     if (!br_steady_has_period(f->ss)) { /* no period to show figures of */
         rc |= no_period_line(f->ss, "  ", out);
         return rc ? BR_ENOMEM : BR_OK;
@@ -273,8 +284,13 @@ int br_steady_text(const br_chain *c, const br_steady_figs *f, br_text *out)
     rc |= method_line(f->ss, out);
     rc |= br_text_put(out, "\n");
     rc |= holds_line(f->ss, out);
-    rc |= br_text_put(out, "rails (rail = capacitor + ESR; driver = supply after the regulator)\n");
+    rc |= br_text_printf(out,
+                         "rails%s (rail = capacitor + ESR; driver = supply after the "
+                         "regulator)\n",
+                         line ? " over the line cycle" : "");
     rc |= rails_table(c, f, out);
+    if (line)
+        rc |= br_line_where_text(c, f, out);
     rc |= br_text_put(out, "margins of the driver supply\n");
     rc |= margins_table(c, f, out);
     rc |= diodes(c, f, out);
@@ -373,13 +389,16 @@ int br_steady_summary_text(const br_chain *c, const br_steady_figs *f, int ndir,
     rc |= br_text_put(out, "  (to UVLO: driver min - UVLO falling; to drive: driver min - minimum "
                            "drive;\n   to gate: gate maximum - driver max; diode %: reverse "
                            "stress in % of the rating)\n");
+    if (ndir == 1 && f[0].dir == BR_DIRI_LINE)
+        rc |= br_line_where_text(c, &f[0], out);
     return rc ? BR_ENOMEM : BR_OK;
 }
 
 /* ---- XML ------------------------------------------------------------------ */
 
-static void rail_xml(br_xmlw *w, const br_chain *c, const br_rail_fig *r, int k)
+static void rail_xml(br_xmlw *w, const br_chain *c, const br_steady_figs *f, int k)
 {
+    const br_rail_fig *r = &f->rail[k];
     br_xmlw_start(w, "rail");
     br_xmlw_int(w, "index", k);
     br_xmlw_attr(w, "switch", c->st[k].name);
@@ -402,11 +421,14 @@ static void rail_xml(br_xmlw *w, const br_chain *c, const br_rail_fig *r, int k)
             br_xmlw_num(w, "cap-rating-V", r->vcap_rating);
         br_xmlw_num(w, "cap-rms-A", r->icap_rms);
     }
+    if (f->dir == BR_DIRI_LINE)
+        br_line_xml_rail(w, c, f->ss, k);
     br_xmlw_end(w);
 }
 
-static void link_xml(br_xmlw *w, const br_chain *c, const br_link_fig *l, int k)
+static void link_xml(br_xmlw *w, const br_chain *c, const br_steady_figs *f, int k)
 {
+    const br_link_fig *l = &f->link[k];
     br_xmlw_start(w, "link");
     br_xmlw_int(w, "index", k);
     br_xmlw_attr(w, "switch", c->st[k].name);
@@ -424,6 +446,8 @@ static void link_xml(br_xmlw *w, const br_chain *c, const br_link_fig *l, int k)
     br_xmlw_num(w, "irrm-A", l->irrm);
     br_xmlw_num(w, "conduction-W", l->p_cond);
     br_xmlw_num(w, "recovery-W", l->p_rr);
+    if (f->dir == BR_DIRI_LINE)
+        br_line_xml_link(w, c, f->ss, k);
     br_xmlw_end(w);
 }
 
@@ -442,6 +466,8 @@ void br_steady_xml(br_xmlw *w, const br_chain *c, const br_steady_figs *f)
         br_xmlw_int(w, "residual-rail", ss->resid_rail);
     br_xmlw_num(w, "drift-V", ss->drift);
     br_xmlw_num(w, "phase-s", ss->phase);
+    if (f->dir == BR_DIRI_LINE)
+        br_line_xml_steady(w, c);
     if (!br_steady_has_period(ss)) { /* no figures to trust */
         br_xmlw_bool(w, ss->collapsed ? "cells-collapse" : "undetermined", 1);
         br_xmlw_attr(w, "why", ss->why);
@@ -449,9 +475,9 @@ void br_steady_xml(br_xmlw *w, const br_chain *c, const br_steady_figs *f)
         return;
     }
     for (int k = 0; k < f->n; k++)
-        rail_xml(w, c, &f->rail[k], k);
+        rail_xml(w, c, f, k);
     for (int k = 1; k < f->n; k++)
-        link_xml(w, c, &f->link[k], k);
+        link_xml(w, c, f, k);
     br_xmlw_start(w, "supply");
     br_xmlw_num(w, "avg-A", f->supply_iavg);
     br_xmlw_num(w, "power-W", f->supply_p);

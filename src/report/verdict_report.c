@@ -2,6 +2,7 @@
 #include "report/verdict_report.h"
 
 #include "report/fmt.h"
+#include "report/line_report.h"
 #include "report/report_common.h"
 #include "report/startup_report.h"
 #include "report/table.h"
@@ -86,7 +87,10 @@ static void row(br_table *t, const br_chain *c, const br_verdict_row *r)
         br_table_set(t, C_MARGIN, "-");
     where(c, r, b, sizeof b);
     br_table_set(t, C_AT, "%s", b);
-    br_table_set(t, C_DIR, "%s", names_dir(r, r->crit) ? br_dir_short(r->dir) : "-");
+    if (names_dir(r, r->crit) && r->dir == BR_DIRI_LINE && r->line_period >= 0)
+        br_table_set(t, C_DIR, "%.0f deg", br_line_deg(r->line_theta));
+    else
+        br_table_set(t, C_DIR, "%s", names_dir(r, r->crit) ? br_dir_short(r->dir) : "-");
 }
 
 static int render_table(const br_chain *c, const br_verdict *v, unsigned mask, br_text *out)
@@ -282,6 +286,8 @@ void br_verdict_xml(br_xmlw *w, const br_chain *c, const br_verdict *v, unsigned
         }
         if (names_dir(r, i))
             br_xmlw_attr(w, "direction", br_dir_label(r->dir));
+        if (r->applies && !r->undetermined)
+            br_line_xml_row(w, c, r);
         row_note_xml(w, c, v, i, su);
         br_xmlw_end(w);
     }

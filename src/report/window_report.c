@@ -5,6 +5,7 @@
 #include "core/error.h"
 #include "report/caution.h"
 #include "report/fmt.h"
+#include "report/line_report.h"
 #include "report/report_common.h"
 #include "report/table.h"
 
@@ -45,25 +46,37 @@ const char *br_hold_words(const br_chain *c, const br_hold_point *pt, char *buf,
         snprintf(buf, cap, "the dead time leaves no on-time");
     else if (pt->crit == BR_CRIT_STEADY || pt->stage < 0 || pt->stage >= c->n)
         snprintf(buf, cap, "no periodic steady state found");
+    else if (pt->dir == BR_DIRI_LINE && isfinite(pt->theta))
+        snprintf(buf, cap, "%s, rail %s at line phase %.0f deg", crit_words(pt->crit),
+                 c->st[pt->stage].name, br_line_deg(pt->theta));
     else
         snprintf(buf, cap, "%s, rail %s, %s", crit_words(pt->crit), c->st[pt->stage].name,
                  br_dir_label(pt->dir));
     return buf;
 }
 
-/* A value of the axis: "12.34 %" for duty, "2.011 MHz" for frequency. */
+/* A value of the axis: "12.34 %" for duty, "2.011 MHz" for frequency,
+ * "31.25 A" for a peak current. */
 static const char *axis_value(int axis, double v, char *buf, size_t cap)
 {
     if (axis == BR_AXIS_DUTY)
         snprintf(buf, cap, "%.2f %%", 100.0 * v);
     else
-        br_fmt_si(buf, cap, v, 4, "Hz");
+        br_fmt_si(buf, cap, v, 4, axis == BR_AXIS_IPK ? "A" : "Hz");
     return buf;
 }
 
 static const char *axis_name(int axis)
 {
-    return axis == BR_AXIS_DUTY ? "duty" : "frequency";
+    static const char *const names[] = {"duty", "frequency", "peak current", "line frequency"};
+    return axis >= 0 && axis <= BR_AXIS_FLINE ? names[axis] : "?";
+}
+
+/* The axis as an XML word. */
+static const char *axis_word(int axis)
+{
+    static const char *const words[] = {"duty", "frequency", "peak-current", "line-frequency"};
+    return axis >= 0 && axis <= BR_AXIS_FLINE ? words[axis] : "?";
 }
 
 /* ---- text: one axis ------------------------------------------------------- */
@@ -88,9 +101,15 @@ static int sweep_heading(const br_sweep *s, br_text *out)
     int rc;
     if (s->axis == BR_AXIS_DUTY)
         rc = br_text_printf(out, "duty at %s: ", br_fmt_si(v, sizeof v, s->fixed, 4, "Hz"));
-    else
+    else if (s->axis == BR_AXIS_FSW)
         rc = br_text_printf(
             out, "frequency at duty %s: ", axis_value(BR_AXIS_DUTY, s->fixed, v, sizeof v));
+    else if (s->axis == BR_AXIS_IPK)
+        rc = br_text_printf(
+            out, "peak current at %s line frequency: ", br_fmt_si(v, sizeof v, s->fixed, 4, "Hz"));
+    else
+        rc = br_text_printf(
+            out, "line frequency at %s peak current: ", br_fmt_si(v, sizeof v, s->fixed, 4, "A"));
     if (s->nspans == 0)
         rc |= br_text_put(out, "NEVER holds in the range searched");
     else if (s->home < 0)
@@ -102,11 +121,16 @@ static int sweep_heading(const br_sweep *s, br_text *out)
 
 static int sweep_range(const br_sweep *s, br_text *out)
 {
-    char a[32], b[32];
+    char a[32], b[32], r[48];
+    if (s->axis == BR_AXIS_DUTY)
+        snprintf(r, sizeof r, "0.1 %% of duty");
+    else if (s->axis == BR_AXIS_IPK)
+        br_fmt_si(r, sizeof r, s->resolution, 3, "A");
+    else
+        snprintf(r, sizeof r, "%.3g %% of frequency", 100.0 * s->resolution);
     return br_text_printf(out, "  searched %s to %s, resolution %s\n",
                           axis_value(s->axis, s->lo, a, sizeof a),
-                          axis_value(s->axis, s->hi, b, sizeof b),
-                          s->axis == BR_AXIS_DUTY ? "0.1 % of duty" : "0.5 % of frequency");
+                          axis_value(s->axis, s->hi, b, sizeof b), r);
 }
 
 enum { L_NAME, L_IN, L_OUT, L_MARGIN, L_WHAT, LCOLS };
@@ -195,9 +219,13 @@ static int criteria_text(const br_chain *c, br_text *out)
     else
         snprintf(buf, sizeof buf, "above UVLO falling and below the gate maximum");
     char text[512];
-    snprintf(text, sizeof text, "every driver supply %s over the periodic steady state, %s%s%s",
-             buf, br_dir_label(dirs[0]), nd > 1 ? " and " : "",
-             nd > 1 ? br_dir_label(dirs[1]) : "");
+    if (c->line.on)
+        snprintf(text, sizeof text,
+                 "every driver supply %s over the periodic steady state of the line cycle", buf);
+    else
+        snprintf(text, sizeof text, "every driver supply %s over the periodic steady state, %s%s%s",
+                 buf, br_dir_label(dirs[0]), nd > 1 ? " and " : "",
+                 nd > 1 ? br_dir_label(dirs[1]) : "");
     return br_report_wrap(out, "criteria: ", text, 2);
 }
 
@@ -341,9 +369,9 @@ int br_window_text(const br_chain *c, const br_window *w, br_text *out, br_error
     rc |= criteria_text(c, out);
     rc |= design_text(c, &w->design, out);
     rc |= br_text_put(out, "\n");
-    rc |= sweep_text(c, &w->duty, out);
+    rc |= sweep_text(c, w->line ? &w->ipk : &w->duty, out);
     rc |= br_text_put(out, "\n");
-    rc |= sweep_text(c, &w->fsw, out);
+    rc |= sweep_text(c, w->line ? &w->fline : &w->fsw, out);
     rc |= br_text_put(out, "\n");
     rc |= holdup_text(c, w, out);
     rc |= br_text_put(out, "\n");
@@ -364,14 +392,18 @@ static void point_attrs(br_xmlw *x, const br_chain *c, const br_hold_point *pt)
         br_xmlw_int(x, "stage", pt->stage);
         br_xmlw_attr(x, "switch", c->st[pt->stage].name);
         br_xmlw_attr(x, "direction", br_dir_label(pt->dir));
+        if (pt->dir == BR_DIRI_LINE && isfinite(pt->theta))
+            br_xmlw_num(x, "line-phase-deg", br_line_deg(pt->theta));
     }
 }
 
-/* duty values are fractions, frequencies Hz: the attribute says which */
+/* duty values are fractions, frequencies Hz, currents A: the attribute
+ * says which */
 static void axis_num(br_xmlw *x, int axis, const char *name, double v)
 {
+    static const char *const unit[] = {"", "-Hz", "-A", "-Hz"};
     char key[48];
-    snprintf(key, sizeof key, "%s%s", name, axis == BR_AXIS_FSW ? "-Hz" : "");
+    snprintf(key, sizeof key, "%s%s", name, axis >= 0 && axis <= BR_AXIS_FLINE ? unit[axis] : "");
     br_xmlw_num(x, key, v);
 }
 
@@ -393,16 +425,19 @@ static void limit_xml(br_xmlw *x, const br_chain *c, const br_sweep *s, const ch
 
 static void sweep_xml(br_xmlw *x, const br_chain *c, const br_sweep *s)
 {
+    static const char *const fixed[] = {"at-fsw-Hz", "at-duty", "at-line-frequency-Hz",
+                                        "at-peak-current-A"};
+    static const char *const res[] = {"resolution", "resolution-relative", "resolution-A",
+                                      "resolution-relative"};
     br_xmlw_start(x, "sweep");
-    br_xmlw_attr(x, "axis", axis_name(s->axis));
+    br_xmlw_attr(x, "axis", axis_word(s->axis));
     br_xmlw_bool(x, "applies", s->applies);
     if (s->applies) {
         axis_num(x, s->axis, "from", s->lo);
         axis_num(x, s->axis, "to", s->hi);
         axis_num(x, s->axis, "design", s->design);
-        br_xmlw_num(x, s->axis == BR_AXIS_DUTY ? "at-fsw-Hz" : "at-duty", s->fixed);
-        br_xmlw_num(x, s->axis == BR_AXIS_DUTY ? "resolution" : "resolution-relative",
-                    s->resolution);
+        br_xmlw_num(x, fixed[s->axis], s->fixed);
+        br_xmlw_num(x, res[s->axis], s->resolution);
         br_xmlw_bool(x, "design-holds", s->home >= 0);
         br_xmlw_int(x, "points", s->evals);
     }
@@ -451,7 +486,7 @@ static void su_end_xml(br_xmlw *x, const br_chain *c, int axis, const char *end,
 static void su_xml(br_xmlw *x, const br_chain *c, const br_su_window *s)
 {
     br_xmlw_start(x, "startup-window");
-    br_xmlw_attr(x, "axis", axis_name(s->axis));
+    br_xmlw_attr(x, "axis", axis_word(s->axis));
     br_xmlw_bool(x, "applies", s->applies);
     if (s->applies) {
         axis_num(x, s->axis, "from", s->lo);
@@ -489,8 +524,8 @@ int br_window_xml(const br_chain *c, const br_window *w, const char *version, br
     br_xmlw_start(x, "design-point");
     point_attrs(x, c, &w->design);
     br_xmlw_end(x);
-    sweep_xml(x, c, &w->duty);
-    sweep_xml(x, c, &w->fsw);
+    sweep_xml(x, c, w->line ? &w->ipk : &w->duty);
+    sweep_xml(x, c, w->line ? &w->fline : &w->fsw);
     for (int i = 0; i < w->nholdup; i++)
         holdup_xml(x, c, &w->holdup[i]);
     if (w->startup) {

@@ -34,6 +34,27 @@ static int method_text(const br_yield *y, br_text *out)
     return br_report_wrap(out, "method: ", buf, 2);
 }
 
+/* A line cycle: what each sample costs, so that the reader can size the
+ * run (every sample is whole line periods of simulation). */
+static int line_cost_text(const br_chain *c, const br_yield *y, br_text *out)
+{
+    if (!c->line.on || y->n <= 0)
+        return BR_OK;
+    double periods = 0.0;
+    for (long i = 0; i < y->n; i++)
+        periods += (double)y->pts[i].periods;
+    periods /= (double)y->n;
+    char buf[700];
+    snprintf(buf, sizeof buf,
+             "each sample's steady state is solved over the whole line cycle (%ld switching "
+             "periods a line period); this run simulated %.0f switching periods a sample "
+             "(%.1f line periods), about a thousand times what a sample at a DC operating "
+             "point takes. Size --samples to the time at hand: the README gives measured "
+             "times, and a few hundred samples give the yield to a few percent.",
+             c->line.K, periods, periods / (double)c->line.K);
+    return br_report_wrap(out, "line cycle: ", buf, 2);
+}
+
 static const char *pct(char *buf, size_t cap, double f)
 {
     snprintf(buf, cap, "%.4g %%", 100.0 * f);
@@ -211,6 +232,7 @@ int br_yield_text(const br_chain *c, const br_yield *y, double min_yield, br_tex
     rc |= br_param_table(&y->s->tl, out);
     rc |= br_text_put(out, "\n");
     rc |= method_text(y, out);
+    rc |= line_cost_text(c, y, out);
     rc |= br_text_put(out, "\n");
     rc |= yield_line(y, min_yield, out);
     rc |= quantile_table(y, out);

@@ -41,6 +41,7 @@ extern char **environ;
 #else
 #define STOP_S 1.0
 #endif
+#define INVERTER BR_SOURCE_DIR "/examples/inverter-7level.xml"
 
 static double now(void)
 {
@@ -109,8 +110,8 @@ static int entries(const char *dir)
 /* Start a long run writing files into a fresh directory, send sig after
  * 0.3 s, and check the status, the one line on stderr, and that nothing
  * was written. */
-static void interrupt_run(const char *verb, const char *o1, const char *f1, const char *o2,
-                          const char *f2, int sig, int expect)
+static void interrupt_run_on(const char *design, double within, const char *verb, const char *o1,
+                             const char *f1, const char *o2, const char *f2, int sig, int expect)
 {
     char dir[] = "/tmp/br-int-XXXXXX", p1[128], p2[128], po[] = "/tmp/br-int-out-XXXXXX",
          pe[] = "/tmp/br-int-err-XXXXXX";
@@ -119,18 +120,26 @@ static void interrupt_run(const char *verb, const char *o1, const char *f1, cons
     snprintf(p2, sizeof p2, "%s/%s", dir, f2);
     int fo = mkstemp(po), fe = mkstemp(pe);
     CU_ASSERT_TRUE_FATAL(fo >= 0 && fe >= 0);
-    const char *map[] = {verb, LEG, "--duty", "5%:95%:40", "--freq", "10k:1M:40",
-                         o1,   p1,  o2,       p2,          NULL};
-    const char *yield[] = {verb, LEG, "--samples", "100000", o1, p1, o2, p2, NULL};
-    pid_t pid = spawn(strcmp(verb, "map") == 0 ? map : yield, po, fe);
+    const char *map[] = {verb, design, "--duty", "5%:95%:40", "--freq", "10k:1M:40",
+                         o1,   p1,     o2,       p2,          NULL};
+    const char *yield[] = {verb, design, "--samples", "100000", o1, p1, o2, p2, NULL};
+    const char *steady[] = {verb, design, o1, p1, o2, p2, NULL};
+    int one = strcmp(verb, "steady") == 0 || strcmp(verb, "analyze") == 0;
+    pid_t pid = spawn(strcmp(verb, "map") == 0 ? map : one ? steady : yield, po, fe);
     usleep(300000);
     double t = now();
     kill(pid, sig);
     int status = wait_status(pid);
     double took = now() - t;
+    if (status != expect)
+        fprintf(stderr, "%s on %s: status %d, expected %d\n", verb, design, status, expect);
     CU_ASSERT_EQUAL(status, expect);
-    CU_ASSERT_TRUE(took < 5.0); /* the workers stop after their current point */
+    if (!(took < within))
+        fprintf(stderr, "%s took %.2f s to stop, expected under %.1f s\n", verb, took, within);
+    CU_ASSERT_TRUE(took < within);
     char *err = br_test_slurp(pe, NULL), *out = br_test_slurp(po, NULL);
+    if (err && strcmp(err, "bootrung: interrupted\n") != 0)
+        fprintf(stderr, "stderr: %s\n", err);
     CU_ASSERT_TRUE(err && strcmp(err, "bootrung: interrupted\n") == 0);
     CU_ASSERT_TRUE(out && out[0] == '\0');
     CU_ASSERT_EQUAL(entries(dir), 0);
@@ -141,6 +150,13 @@ static void interrupt_run(const char *verb, const char *o1, const char *f1, cons
     unlink(po);
     unlink(pe);
     rmdir(dir);
+}
+
+static void interrupt_run(const char *verb, const char *o1, const char *f1, const char *o2,
+                          const char *f2, int sig, int expect)
+{
+    /* the workers stop after their current point */
+    interrupt_run_on(LEG, 5.0, verb, o1, f1, o2, f2, sig, expect);
 }
 
 static void test_sigint_map(void)
@@ -296,6 +312,18 @@ static void test_every_phase(void)
         judge(&phases[i], &f[i]);
 }
 
+/* A line cycle's steady state (thousands of switching periods, one
+ * solve of a second or more) stops inside the solve, and so does a yield
+ * whose every point is one (the workers' solves poll the meter), well
+ * before the solve would end. */
+static void test_sigint_line_steady(void)
+{
+    interrupt_run_on(INVERTER, 0.5, "steady", "--xml", "s.xml", "--csv", "s.csv", SIGINT, 130);
+    /* analyze: the cold start first, then the line cycle */
+    interrupt_run_on(INVERTER, 0.5, "analyze", "--xml", "a.xml", "--csv", "a.csv", SIGINT, 130);
+    interrupt_run_on(INVERTER, 0.5, "yield", "--xml", "y.xml", "--csv", "y.csv", SIGTERM, 143);
+}
+
 /* --quiet: one line on stdout, the verdict; nothing on stderr. */
 static void quiet_line(const char *const *args, const char *prefix, int expect)
 {
@@ -407,6 +435,8 @@ static void test_no_bar_off_terminal(void)
     free(stopped_run(long_map, fe, 1.5, NULL, &status));
     CU_ASSERT_EQUAL(status, 130);
     char *err = br_test_slurp(pe, NULL);
+    if (err && strcmp(err, "bootrung: interrupted\n") != 0)
+        fprintf(stderr, "stderr: %s\n", err);
     CU_ASSERT_TRUE(err && strcmp(err, "bootrung: interrupted\n") == 0);
     free(err);
     close(fe);
@@ -462,6 +492,7 @@ int main(void)
 {
     static const br_test_case cases[] = {
         {"SIGINT stops map: 130, no files", test_sigint_map},
+        {"signals stop a line cycle's steady state and yield", test_sigint_line_steady},
         {"SIGTERM stops yield: 143, no files", test_sigterm_yield},
         {"every phase of every verb stops on a signal", test_every_phase},
         {"--quiet prints the verdict line only", test_quiet},

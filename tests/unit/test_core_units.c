@@ -232,6 +232,23 @@ static void test_temperature(void)
     bad("85 V", BR_KIND_TEMPERATURE, "got 'V', expected a temperature like '85 C'");
 }
 
+/* A phase angle: degrees as written, radians inside (1 deg = pi/180 rad,
+ * the definition of the degree). */
+static void test_angle(void)
+{
+    const double deg = 3.14159265358979323846 / 180.0;
+    BR_ASSERT_NEAR(val("30 deg", BR_KIND_ANGLE), 30.0 * deg, 1e-15);
+    BR_ASSERT_NEAR(val("-90deg", BR_KIND_ANGLE), -90.0 * deg, 1e-15);
+    BR_ASSERT_NEAR(val("45 \xC2\xB0", BR_KIND_ANGLE), 45.0 * deg, 1e-15);
+    BR_ASSERT_NEAR(val("0", BR_KIND_ANGLE), 0.0, 0.0);
+    br_qty q = qty("20 deg +-5 deg", BR_KIND_ANGLE);
+    BR_ASSERT_NEAR(q.min, 15.0 * deg, 1e-15);
+    BR_ASSERT_NEAR(q.max, 25.0 * deg, 1e-15);
+    bad("30", BR_KIND_ANGLE, "an angle like '30 deg'");
+    bad("30 kdeg", BR_KIND_ANGLE, "no prefix");
+    bad("30 V", BR_KIND_ANGLE, "expected an angle");
+}
+
 static void test_wrong_units(void)
 {
     bad("4.7 uF", BR_KIND_VOLTAGE, "got 'uF', expected a voltage like '12 V'");
@@ -400,6 +417,7 @@ int main(void)
         {"I2t in A2s", test_i2t},
         {"powers and thermal resistances", test_power_thermal},
         {"temperatures in C and K", test_temperature},
+        {"angles in degrees, radians inside", test_angle},
         {"wrong units say what was expected", test_wrong_units},
         {"garbage, NaN, inf, overflow", test_garbage},
         {"decimal point independent of locale", test_locale_independent},

@@ -341,6 +341,44 @@ static void test_ref_c8(void)
 }
 
 /* The attributes of the power stage under load, with their defaults. */
+/* A line cycle: its values in SI (the phase in radians), the modulation as
+ * a sine depth or as a table of points in ascending phase. */
+static void test_line_cycle(void)
+{
+    const double deg = 3.14159265358979323846 / 180.0;
+    br_design *d = load("examples/inverter-7level.xml");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(d);
+    CU_ASSERT_TRUE(d->ac.on);
+    BR_ASSERT_REL(d->ac.freq.nom, 60.0, 1e-12);
+    BR_ASSERT_REL(d->ac.ipk.nom, 40.0, 1e-12);
+    BR_ASSERT_REL(d->ac.ipk.max, 44.0, 1e-12);
+    BR_ASSERT_REL(d->ac.phase.nom, 20.0 * deg, 1e-12);
+    BR_ASSERT_REL(d->ac.depth.nom, 0.9, 1e-12);
+    CU_ASSERT_EQUAL(d->ac.ntab, 0);
+    CU_ASSERT_EQUAL(d->ac.line, line_of("examples/inverter-7level.xml", "<line-cycle"));
+    CU_ASSERT_EQUAL(d->ac.ipk.line, d->ac.line);
+    CU_ASSERT_EQUAL(d->direction, BR_DIR_BOTH);
+    br_design_free(d);
+    br_error err;
+    d = load_text(
+        "<?xml version=\"1.0\"?>\n<bootrung-design version=\"1\">\n"
+        "  <operating-point vin=\"400 V\" fsw=\"100 kHz\">\n"
+        "    <line-cycle frequency=\"50 Hz\" peak-current=\"8 A\" phase=\"-15 deg\">\n"
+        "      <duty at=\"0 deg\" value=\"0.5\"/>\n      <duty at=\"90 deg\" value=\"80 %\"/>\n"
+        "      <duty at=\"270 deg\" value=\"0.2\"/>\n"
+        "    </line-cycle>\n  </operating-point>\n  <supply voltage=\"12 V\"/>\n"
+        "  <topology><fcml levels=\"3\"/></topology>\n  <parts>\n"
+        "    <diode id=\"d\"/>\n" MINI_PARTS "  </parts>\n" MINI_STAGES "</bootrung-design>\n",
+        &err);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(d);
+    CU_ASSERT_EQUAL(d->ac.ntab, 3);
+    BR_ASSERT_REL(d->ac.tab_at[1], 90.0 * deg, 1e-12);
+    BR_ASSERT_REL(d->ac.tab_duty[1], 0.8, 1e-12);
+    BR_ASSERT_REL(d->ac.phase.nom, -15.0 * deg, 1e-12);
+    BR_ASSERT_NEAR(d->ac.depth.nom, 0.0, 0.0);
+    br_design_free(d);
+}
+
 static void test_load_attributes(void)
 {
     br_error err;
@@ -893,6 +931,7 @@ int main(void)
         {"reference chain c1", test_ref_c1},
         {"reference chain c2", test_ref_c2},
         {"reference chain c8, under load", test_ref_c8},
+        {"a line cycle: sine depth or duty table", test_line_cycle},
         {"the attributes of the load current", test_load_attributes},
         {"heat, ratings and the supply's limit", test_heat_attributes},
         {"forward fit recovers Shockley parameters", test_fit_direct},
