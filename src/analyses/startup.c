@@ -186,8 +186,13 @@ static int startup_one(const br_chain *c, int dir, const br_startup_opts *o, int
     br_sim_observer obs = {&w, on_uvlo, on_sample};
     br_sim_set_observer(s, &obs);
     br_sim_set_stop(s, o ? o->progress : NULL);
-    run u = {c, s, &w, o && o->t_max > 0 ? o->t_max : c->startup_max,
-             o && o->settle_periods > 0 ? o->settle_periods : 50, o ? o->progress : NULL, part,
+    run u = {c,
+             s,
+             &w,
+             o && o->t_max > 0 ? o->t_max : c->startup_max,
+             o && o->settle_periods > 0 ? o->settle_periods : 50,
+             o ? o->progress : NULL,
+             part,
              parts};
     r->pwm_start = br_sim_pwm_start(s);
     br_sim_stats_start(s);

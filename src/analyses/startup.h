@@ -31,14 +31,17 @@ typedef struct br_startup {
     double t_simulated; /* s */
     double pwm_start;   /* end of the pre-charge steps, s */
     int first_stalled;  /* lowest stage never running at the end, -1 */
-    int method;         /* br_su_method it was simulated by (the chain's) */
-    long periods_integrated; /* periods integrated, the last one's figures included */
-    long periods_stepped;    /* periods stepped over along the envelope */
     int failed;         /* the simulation stopped at t_simulated on a
                            numerical failure (why says what): the
                            figures are partial and decide nothing */
     char why[256];
     br_startup_stage st[BR_MAX_SWITCHES];
+
+    /* how it was simulated: its br_su_method (the chain's), the periods
+     * integrated (the last one's figures included) and those stepped over
+     * along the rails' envelope */
+    int method;
+    long periods_integrated, periods_stepped;
 } br_startup;
 
 /* Optional time series of the cold start. */

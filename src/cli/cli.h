@@ -107,7 +107,7 @@ int br_cli_fraction(const char *verb, const char *opt, const char *text, double 
  * br_su_method (unchanged when text is NULL). */
 int br_cli_startup_method(const char *verb, const char *text, int *out);
 #define BR_STARTUP_METHOD_HELP                                                                     \
-    "start-ups by envelope (the default: repeating periods stepped over) or periods (every one)"
+    "start-ups by envelope (default: repeating periods stepped over) or periods"
 
 /* The help line of --quiet, the same for every verb. */
 #define BR_QUIET_HELP "print only the verdict line on stdout (no report, no progress bar)"

@@ -408,8 +408,8 @@ static int trial(br_envelope *e, const step_plan *sp, double t, br_error *err)
  * rails after the landing period by B err (the period map's response);
  * each stepped period's quadratures move from the last integrated
  * period's increments toward the landing period's by its progress. */
-static int keep(br_envelope *e, const step_plan *sp, double t, const double *pl,
-                const double *errv, const double *hb, br_error *err)
+static int keep(br_envelope *e, const step_plan *sp, double t, const double *pl, const double *errv,
+                const double *hb, br_error *err)
 {
     br_sim *s = e->s;
     if (e->replay) {

@@ -141,13 +141,6 @@ int br_sim_spend(br_sim *s, unsigned long n)
 }
 
 /* The error of a simulator that stopped on its work limit or a stop. */
-static int halted(const br_sim *s, br_error *err);
-
-int br_sim_charge(br_sim *s, unsigned long units, br_error *err)
-{
-    return br_sim_spend(s, units) ? halted(s, err) : BR_OK;
-}
-
 static int halted(const br_sim *s, br_error *err)
 {
     if (s->halt == BR_ECANCEL)
@@ -157,6 +150,11 @@ static int halted(const br_sim *s, br_error *err)
                         "a period, %lu in all) at t = %.6g s",
                         s->work, s->halt_periods, BR_SIM_WORK_PER_PERIOD, BR_SIM_WORK_MAX,
                         s->halt_t);
+}
+
+int br_sim_charge(br_sim *s, unsigned long units, br_error *err)
+{
+    return br_sim_spend(s, units) ? halted(s, err) : BR_OK;
 }
 
 void br_sim_vc(const br_sim *s, double *vc)

@@ -296,8 +296,8 @@ typedef struct work_count {
 
 static work_count work_get(const br_sim *s)
 {
-    work_count w = {s->work,   s->polled, s->evals,  s->nsteps,
-                    s->nrejects, s->halt, s->halt_t, s->halt_periods};
+    work_count w = {s->work,     s->polled, s->evals,  s->nsteps,
+                    s->nrejects, s->halt,   s->halt_t, s->halt_periods};
     return w;
 }
 

@@ -42,11 +42,11 @@ typedef enum br_rk_pair {
 
 /* What the simulation saw since br_sim_window_begin (sim_env.c). */
 typedef struct br_sim_win {
-    int on;                       /* a window is open: extremes are tracked */
-    double t0;                    /* its start, s */
+    int on;                        /* a window is open: extremes are tracked */
+    double t0;                     /* its start, s */
     double vmin[BR_N], vmax[BR_N]; /* rail node extremes, V */
-    int toggles;                  /* UVLO transitions */
-    int pre_idx, loaded;          /* pre-charge step and load state at the start */
+    int toggles;                   /* UVLO transitions */
+    int pre_idx, loaded;           /* pre-charge step and load state at the start */
 } br_sim_win;
 
 /* Layout of the integrated vector, stage by stage so that only n * NF
@@ -184,9 +184,9 @@ struct br_sim {
     br_stats st;
     double quad0[X_SIZE]; /* quadratures when stats started */
     br_sim_observer obs;
-    int secant_locate;         /* UVLO crossings by regula falsi (br_sim_set_locator) */
-    br_sim_win win;            /* the envelope driver's window */
-    double winq[BR_N * NF];    /* quadratures at the window's start */
+    int secant_locate;      /* UVLO crossings by regula falsi (br_sim_set_locator) */
+    br_sim_win win;         /* the envelope driver's window */
+    double winq[BR_N * NF]; /* quadratures at the window's start */
 };
 
 /* Fill s->esr from the chain. */

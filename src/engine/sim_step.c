@@ -312,8 +312,8 @@ static double next_h(double h, double err, int p)
  * end lies past the nearest threshold (br_sim_uvlo_excess; Dowell and
  * Jarratt, "A modified regula falsi method for computing the root of an
  * equation", BIT 11, 1971), with a bisection whenever the bracket failed
- * to halve over two trials: the same bracket as bisection's, in five to
- * eight trial steps instead of about thirty.  ex_hi: the excess at h. */
+ * to halve over three trials: the same bracket as bisection's, in six or
+ * seven trial steps instead of about twenty-five.  ex_hi: the excess at h. */
 static double locate_secant(br_sim *s, double t, double h, const double *x, const double *k1,
                             double *y, double ex_hi)
 {

@@ -106,7 +106,8 @@ struct br_chain {
     int nprecharge;
     br_precharge precharge[BR_MAX_PRECHARGE];
     double min_drive, derating, startup_max;
-    int max_dropouts;   /* start-up dropouts allowed per stage, -1: not stated */
+    int max_dropouts; /* start-up dropouts allowed per stage, -1: not stated */
+
     int startup_method; /* br_su_method */
 };
 

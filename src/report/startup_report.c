@@ -243,7 +243,8 @@ static int render_summary(const br_chain *c, const br_startup *su, br_text *out)
 static int render_method(const br_startup *su, br_text *out)
 {
     if (su->method == BR_SU_PERIODS)
-        return br_text_printf(out, "  %ld periods, every one integrated (--startup-method periods)\n",
+        return br_text_printf(out,
+                              "  %ld periods, every one integrated (--startup-method periods)\n",
                               su->periods_integrated);
     return br_text_printf(out,
                           "  %ld periods: %ld integrated, %ld stepped over along the rails' "

@@ -189,25 +189,34 @@ static void test_window_cancel(void)
 
 /* The cold start calls every BR_STARTUP_PROGRESS_EVERY periods with the
  * simulated time, and stops when asked (at 1 MHz the start takes a few
- * hundred periods). */
+ * hundred periods), by either method: every period integrated, the call
+ * exactly at the period; by envelope following, at the end of the step
+ * that passed it. */
 static void test_startup_cancel(void)
 {
     br_design *d = br_test_fcml(3, 400.0, 1e6, 0.5, 50e-9);
     br_chain c;
     br_error err;
     CU_ASSERT_EQUAL_FATAL(br_chain_build_nominal(d, &c, &err), BR_OK);
-    seen s = {0};
-    br_progress p = {hook, &s, NULL};
-    br_startup_opts o = {0, 0, NULL, &p};
-    br_startup su;
-    CU_ASSERT_EQUAL_FATAL(br_startup_run(&c, &o, &su, &err), BR_OK);
-    CU_ASSERT_TRUE(s.calls >= 1);
-    CU_ASSERT_TRUE(s.calls * BR_STARTUP_PROGRESS_EVERY * c.T <= su.t_simulated);
-    BR_ASSERT_REL(s.total, c.startup_max, 1e-12);
-    s = (seen){.stop_at = 1};
-    CU_ASSERT_EQUAL(br_startup_run(&c, &o, &su, &err), BR_ECANCEL);
-    CU_ASSERT_EQUAL(s.calls, 1);
-    BR_ASSERT_REL(s.done, BR_STARTUP_PROGRESS_EVERY * c.T, 1e-9);
+    for (int m = BR_SU_ENVELOPE; m <= BR_SU_PERIODS; m++) {
+        c.startup_method = m;
+        seen s = {0};
+        br_progress p = {hook, &s, NULL};
+        br_startup_opts o = {0, 0, NULL, &p};
+        br_startup su;
+        CU_ASSERT_EQUAL_FATAL(br_startup_run(&c, &o, &su, &err), BR_OK);
+        CU_ASSERT_TRUE(s.calls >= 1);
+        CU_ASSERT_TRUE(s.calls * BR_STARTUP_PROGRESS_EVERY * c.T <= su.t_simulated);
+        BR_ASSERT_REL(s.total, c.startup_max, 1e-12);
+        s = (seen){.stop_at = 1};
+        CU_ASSERT_EQUAL(br_startup_run(&c, &o, &su, &err), BR_ECANCEL);
+        CU_ASSERT_EQUAL(s.calls, 1);
+        if (m == BR_SU_PERIODS)
+            BR_ASSERT_REL(s.done, BR_STARTUP_PROGRESS_EVERY * c.T, 1e-9);
+        else
+            CU_ASSERT_TRUE(s.done >= BR_STARTUP_PROGRESS_EVERY * c.T * (1 - 1e-9) &&
+                           s.done < 2 * BR_STARTUP_PROGRESS_EVERY * c.T);
+    }
     br_design_free(d);
 }
 
