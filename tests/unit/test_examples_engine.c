@@ -365,6 +365,45 @@ static void test_envelope_load_and_storage(void)
     }
 }
 
+/* An observer that records samples sees only what is kept: the steps of
+ * the envelope are tried on a copy and taken again for it.  So the
+ * samples run forward in time, and the start-up is the same, bit for
+ * bit, as without the observer. */
+typedef struct samples {
+    long n, backwards;
+    double last;
+} samples;
+
+static void on_sample(void *ctx, const br_sim *s, double t, const double *v, const double *i, int n)
+{
+    samples *p = ctx;
+    (void)s, (void)v, (void)i, (void)n;
+    p->backwards += t < p->last;
+    p->last = t;
+    p->n++;
+}
+
+static void test_envelope_observer(void)
+{
+    br_design *d = load("examples/leg-7level.xml");
+    br_chain *c;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    br_startup with, without;
+    samples sm = {0, 0, -1.0};
+    br_sim_observer obs = {&sm, NULL, on_sample};
+    br_startup_opts o = {0};
+    o.obs = &obs;
+    CU_ASSERT_EQUAL_FATAL(br_startup_run(c, &o, &with, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_startup_run(c, NULL, &without, &err), BR_OK);
+    CU_ASSERT_TRUE(with.periods_stepped > 0);
+    CU_ASSERT_TRUE(sm.n > 1000);
+    CU_ASSERT_EQUAL(sm.backwards, 0);
+    CU_ASSERT_EQUAL(memcmp(&with, &without, sizeof with), 0);
+    br_chain_free(c);
+    br_design_free(d);
+}
+
 /* A rail that never starts (tests/data/slow-startup.xml, its top driver's
  * UVLO above anything the rail reaches), over 50 ms: envelope following
  * steps over nearly every period of the stalled rail's creep toward where
@@ -409,6 +448,7 @@ int main(void)
          test_hiccups_end_the_plain_fallback},
         {"examples started by envelope against every period", test_examples_envelope},
         {"envelope: start-up under load, stored charge", test_envelope_load_and_storage},
+        {"envelope: an observer of samples sees what is kept", test_envelope_observer},
         {"a stalled rail stepped over", test_stall_stepped_over},
         {"hiccups every period: every period integrated", test_hiccups_integrated},
         {NULL, NULL},
