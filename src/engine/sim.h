@@ -168,7 +168,9 @@ unsigned long br_sim_evals(const br_sim *s);
  * reached ..."), which the analyses report as undetermined.  So one
  * simulator runs for at most about 2 s (4 switches) to 12 s (64), and far
  * less where a single period runs away (steps of picoseconds in a
- * microsecond period stop after 20 000 of them). */
+ * microsecond period stop after 20 000 of them).  Periods stepped over
+ * along the envelope (br_sim_leap) are not simulated and allow nothing;
+ * the envelope's own arithmetic counts through br_sim_charge. */
 #define BR_SIM_WORK_PER_PERIOD 20000.0
 #define BR_SIM_WORK_MAX 5000000UL
 /* Units of work between two polls of the stop function. */

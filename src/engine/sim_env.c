@@ -159,6 +159,7 @@ int br_sim_leap(br_sim *s, long m, const double *vc, const double *dq)
     if (m < 0 || (m > 0 && next_scheduled(s) < s->t + dt) || s->frozen)
         return BR_EUSAGE;
     s->t += dt;
+    s->past -= dt;             /* the work limit allows for the periods simulated, not these */
     if (s->pre_idx >= s->npre) /* the PWM runs: its clock moves on with the rest */
         s->per += m;
     shift(&s->fly_t, dt);

@@ -207,7 +207,8 @@ static void test_locators_agree(void)
 }
 
 /* The envelope's own arithmetic counts against the work limit and polls
- * the stop function like the simulator's steps. */
+ * the stop function like the simulator's steps; the periods it steps over
+ * do not raise the limit (20 000 units for each period simulated). */
 static int stop_now(void *ctx)
 {
     (void)ctx;
@@ -222,6 +223,8 @@ static void test_charge(void)
     br_error err;
     CU_ASSERT_EQUAL(br_sim_charge(s, 100, &err), BR_OK);
     CU_ASSERT_EQUAL(br_sim_work(s), 100UL);
+    /* periods stepped over are not simulated: they allow no more work */
+    CU_ASSERT_EQUAL(br_sim_leap(s, 100000, NULL, NULL), BR_OK);
     CU_ASSERT_EQUAL(br_sim_charge(s, 2 * (unsigned long)BR_SIM_WORK_PER_PERIOD, &err), BR_ENUMERIC);
     CU_ASSERT_PTR_NOT_NULL(strstr(err.msg, "work limit"));
     br_sim_free(s);
