@@ -446,8 +446,18 @@ static int try_step(br_envelope *e, const step_plan *sp, int *kept, br_error *er
     double t = br_sim_time(s), pl[N], d[N], dx[N], dp[N], errv[N], hb[NQ];
     *kept = 0;
     int rc = trial(e, sp, t, err);
-    if (rc != BR_OK)
-        return rc;
+    if (rc != BR_OK) {
+        /* a trial that failed (a step size underflow from where the leap
+         * landed, the work limit, a stop) decides nothing: back to where
+         * it began, and the period is integrated; a limit or a stop holds
+         * there too (the simulator keeps it) */
+        if (!e->replay)
+            br_sim_restore(s, e->snap);
+        br_error_clear(err);
+        e->count.rejected++;
+        e->kmax = (long)fmax(1.0, floor(0.25 * (double)sp->k));
+        return BR_OK;
+    }
     br_sim_vc(run, pl);
     br_sim_window_quad(run, hb);
     int quiet = br_sim_window_quiet(run);
