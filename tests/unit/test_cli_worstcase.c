@@ -178,6 +178,7 @@ static void test_dropouts_judged(void)
     CU_ASSERT_EQUAL(r.status, 1);
     CU_ASSERT_TRUE(line_starting(r.out, "  dropouts ", row, sizeof row));
     CU_ASSERT_PTR_NOT_NULL(strstr(row, " FAIL "));
+    CU_ASSERT_TRUE(has(r.out, " stepped over along the"));
     done(&r);
     r = run((const char *[]){"yield", "--startup", "--samples", "4", path, NULL});
     CU_ASSERT_EQUAL(r.status, 1);
@@ -201,6 +202,8 @@ static void test_dropouts_judged(void)
     CU_ASSERT_EQUAL(r.status, 1);
     CU_ASSERT_TRUE(line_starting(r.out, "  dropouts ", row, sizeof row));
     CU_ASSERT_PTR_NOT_NULL(strstr(row, " FAIL "));
+    CU_ASSERT_TRUE(has(r.out, " Their periods: "));
+    CU_ASSERT_PTR_NULL(strstr(r.out, "stepped over"));
     done(&r);
     unlink(path);
     rmdir(dir);
