@@ -222,8 +222,11 @@ static int judge_list(br_corners *c, const corner_list *l, int with_startup, br_
     br_meter_grow(c->s->meter, l->n);
     if (rc == BR_OK)
         rc = br_spread_eval(c->s, l->n, v, with_startup, pts, err);
-    for (int i = 0; rc == BR_OK && i < l->n; i++)
+    for (int i = 0; rc == BR_OK && i < l->n; i++) {
         consider_all(c, &pts[i], ROW(l, i));
+        c->su_integrated += pts[i].su_integrated;
+        c->su_stepped += pts[i].su_stepped;
+    }
     if (rc == BR_OK)
         *(with_startup ? &c->startup_points : &c->steady_points) += l->n;
     free(v);

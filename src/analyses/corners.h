@@ -74,6 +74,8 @@ typedef struct br_corners {
                             drivers keep running did not settle */
     long undetermined;   /* points where some criterion was not decided (these and others) */
     br_corner_worst w[BR_CRIT_COUNT];
+    long su_integrated, su_stepped; /* the corners' cold starts: periods integrated and
+                                       stepped over along the rails' envelope */
     int all_pass; /* every criterion passes at its worst point and none is undetermined */
     int outcome;  /* br_outcome: fail when a criterion fails somewhere, else undetermined
                      when one is undetermined somewhere, else pass */

@@ -624,8 +624,11 @@ static int judge(workspace *w, const job *jb, int i, br_error *err)
     br_progress only =
         br_progress_stop_only(br_meter_poll(jb->s->meter)); /* the bar: the meter's */
     br_startup_opts so = {.progress = &only};
-    if (rc == BR_OK && jb->with_startup)
+    if (rc == BR_OK && jb->with_startup) {
         rc = br_startup_run(&w->c, &so, &w->su, err);
+        out->su_integrated = w->su.periods_integrated;
+        out->su_stepped = w->su.periods_stepped;
+    }
     int dirs[2], ndir = br_design_directions(&w->c, dirs);
     for (int d = 0; rc == BR_OK && d < ndir; d++) {
         rc = steady(w, jb, v, d, dirs[d], out, err);

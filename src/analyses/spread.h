@@ -88,6 +88,9 @@ typedef struct br_pt {
      * UVLO and drive margins stay flat until it does; the headroom is
      * the smooth figure that searches follow to find that corner. */
     double headroom;
+
+    /* its cold start's periods integrated and stepped over (with_startup) */
+    long su_integrated, su_stepped;
 } br_pt;
 
 typedef struct br_spread_opts {

@@ -3,6 +3,7 @@
 
 #include "analyses/figures.h"
 #include "core/error.h"
+#include "engine/envelope.h"
 
 #include <math.h>
 #include <stdio.h>
@@ -128,6 +129,84 @@ static void record_failure(br_startup *r, br_error *err)
     br_error_clear(err);
 }
 
+/* How a start-up runs: to t_max, or until every driver has run for
+ * `settle` periods without a UVLO event; the progress hook sees part
+ * `part` of `parts` of the work. */
+typedef struct run {
+    const br_chain *c;
+    br_sim *s;
+    watch *w;
+    double t_max;
+    int settle;
+    const br_progress *hook;
+    int part, parts;
+} run;
+
+static int settled(const run *u, double t)
+{
+    return all_running(u->s, u->c->n) && t - u->w->last_event >= u->settle * u->c->T;
+}
+
+/* Every period integrated. */
+static int run_periods(const run *u, br_startup *r, br_error *err)
+{
+    const br_chain *c = u->c;
+    double t = 0.0;
+    int rc = BR_OK;
+    for (long period = 1; rc == BR_OK && t < u->t_max; period++) {
+        t = fmin(t + c->T, u->t_max);
+        rc = br_sim_run_until(u->s, t, err);
+        r->periods_integrated++;
+        if (settled(u, t))
+            break;
+        if (rc == BR_OK && u->hook && period % BR_STARTUP_PROGRESS_EVERY == 0)
+            rc = br_progress_call(u->hook, u->part * u->t_max + t, u->parts * u->t_max, err);
+    }
+    return rc;
+}
+
+/* The first loop boundary at which the run may end: `settle` periods
+ * after the last UVLO event once every driver runs, else t_max; never
+ * less than a period ahead of t. */
+static double goal(const run *u, double t)
+{
+    const br_chain *c = u->c;
+    double g = u->t_max;
+    if (all_running(u->s, c->n)) {
+        double m = ceil((u->w->last_event + u->settle * c->T) / c->T - 1e-9);
+        g = fmin(g, m * c->T);
+    }
+    return g > t + 0.5 * c->T ? g : fmin(t + c->T, u->t_max);
+}
+
+/* Envelope following (engine/envelope.h): the same loop boundaries, some
+ * periods stepped over; the samples of an observer come from integrated
+ * periods only. */
+static int run_envelope(const run *u, const br_startup_opts *o, br_startup *r, br_error *err)
+{
+    br_envelope *env;
+    int replay = o && o->obs && o->obs->sample;
+    int rc = br_envelope_create(u->s, replay, &env, err);
+    double t = 0.0, per = BR_STARTUP_PROGRESS_EVERY * u->c->T;
+    long shown = 0;
+    while (rc == BR_OK && t < u->t_max) {
+        rc = br_envelope_advance(env, goal(u, t), err);
+        t = br_sim_time(u->s);
+        if (settled(u, t))
+            break;
+        if (rc == BR_OK && u->hook && (long)(t / per) > shown) {
+            shown = (long)(t / per);
+            rc = br_progress_call(u->hook, u->part * u->t_max + t, u->parts * u->t_max, err);
+        }
+    }
+    if (env) {
+        r->periods_integrated = br_envelope_count(env)->integrated;
+        r->periods_stepped = br_envelope_count(env)->stepped;
+    }
+    br_envelope_free(env);
+    return rc;
+}
+
 /* One cold start in current direction dir; the progress hook sees part
  * `part` of `parts` of the work. */
 static int startup_one(const br_chain *c, int dir, const br_startup_opts *o, int part, int parts,
@@ -139,6 +218,7 @@ static int startup_one(const br_chain *c, int dir, const br_startup_opts *o, int
         return rc;
     init_result(r, c->n);
     r->dir = dir;
+    r->method = c->startup_method;
     watch w;
     memset(&w, 0, sizeof w);
     w.r = r;
@@ -147,24 +227,23 @@ static int startup_one(const br_chain *c, int dir, const br_startup_opts *o, int
     br_sim_observer obs = {&w, on_uvlo, on_sample};
     br_sim_set_observer(s, &obs);
     br_sim_set_stop(s, o ? o->progress : NULL);
-    double t_max = o && o->t_max > 0 ? o->t_max : c->startup_max;
-    int settle = o && o->settle_periods > 0 ? o->settle_periods : 50;
+    run u = {c,
+             s,
+             &w,
+             o && o->t_max > 0 ? o->t_max : c->startup_max,
+             o && o->settle_periods > 0 ? o->settle_periods : 50,
+             o ? o->progress : NULL,
+             part,
+             parts};
     r->pwm_start = br_sim_pwm_start(s);
     br_sim_stats_start(s);
-    double t = 0.0;
-    const br_progress *hook = o ? o->progress : NULL;
-    for (long period = 1; rc == BR_OK && t < t_max; period++) {
-        t = fmin(t + c->T, t_max);
-        rc = br_sim_run_until(s, t, err);
-        if (all_running(s, c->n) && t - w.last_event >= settle * c->T)
-            break;
-        if (rc == BR_OK && hook && period % BR_STARTUP_PROGRESS_EVERY == 0)
-            rc = br_progress_call(hook, part * t_max + t, parts * t_max, err);
-    }
+    rc = c->startup_method == BR_SU_PERIODS ? run_periods(&u, r, err) : run_envelope(&u, o, r, err);
     w.end = snap(s);
     w.peak = br_sim_stats(s)->isup_peak;
-    if (rc == BR_OK)
+    if (rc == BR_OK) {
         rc = last_period(s, c, r, err);
+        r->periods_integrated++;
+    }
     r->t_simulated = br_sim_time(s);
     r->supply.trips = br_sim_supply_trips(s, &r->supply.first_trip);
     if (rc == BR_ENUMERIC) {

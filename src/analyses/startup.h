@@ -52,6 +52,12 @@ typedef struct br_startup {
     char why[256];
     br_startup_stage st[BR_MAX_SWITCHES];
     br_supply_profile supply;
+
+    /* how it was simulated: its br_su_method (the chain's), the periods
+     * integrated (the last one's figures included) and those stepped over
+     * along the rails' envelope */
+    int method;
+    long periods_integrated, periods_stepped;
 } br_startup;
 
 /* Optional time series of the cold start. */
@@ -69,7 +75,17 @@ typedef struct br_startup_opts {
 #define BR_STARTUP_PROGRESS_EVERY 64
 
 /* Simulate the cold start of c (at no load, unless c starts under load:
- * see br_startup.dir).  BR_ECANCEL when o->progress asks to stop
+ * see br_startup.dir), by c->startup_method: every period integrated, or
+ * (the default) by envelope following (engine/envelope.h), which
+ * integrates the periods in which something discrete happens and steps
+ * over the others.  The figures of a stepped-over period: no UVLO event
+ * happens in it (the step is planned and checked so); the integrals (I2t,
+ * link charge, the supply's charge and energy) grow by the increments of
+ * the integrated periods on either side, weighted by how far the rails
+ * have gone from one to the other; peaks and extremes are those of the
+ * integrated periods (a step is never taken across a rail's turning
+ * point, so they lie at its ends); the rail at the end and the last
+ * period's figures come from an integrated period.  BR_ECANCEL when o->progress asks to stop
  * (out then holds nothing meaningful).  A numerical failure of the
  * integrator is not an error here: it is recorded in out->failed and
  * out->why (so that the verdict can call the start-up undetermined) and

@@ -4,6 +4,7 @@
 #include "cli.h"
 
 #include "core/error.h"
+#include "model/design.h"
 #include "report/results.h"
 
 #include <string.h>
@@ -52,13 +53,15 @@ static int outputs_alloc(outputs *o, const paths *p, br_error *err)
 /* Load, build, run and render everything in memory; nothing is written
  * unless all of it succeeded. */
 static int compute(const char *path, const char *verb, int parts, const br_steady_opts *so,
-                   outputs *o, br_error *err)
+                   int su_method, outputs *o, br_error *err)
 {
     br_design *d = NULL;
     br_chain *c = NULL;
     int rc = br_design_load(path, &d, err);
-    if (rc == BR_OK)
+    if (rc == BR_OK) {
+        d->startup_method = su_method;
         rc = br_chain_build(d, &c, err);
+    }
     br_results_traces *tr = o->html || o->svg ? &o->tr : NULL;
     if (rc == BR_OK)
         rc = br_results_run_traced(o->res, c, verb, parts, so, o->csv, tr, err);
@@ -92,15 +95,15 @@ static int write_all(const outputs *o, const paths *p, int quiet)
 /* Compute, then write unless a signal stopped the run.  Every phase takes
  * signals (a steady state alone can run for seconds on an odd design);
  * the bar follows the cold start, the part whose length is known. */
-static int run(const char *path, const char *verb, int parts, const br_steady_opts *so, outputs *o,
-               const paths *p, int quiet)
+static int run(const char *path, const char *verb, int parts, const br_steady_opts *so,
+               int su_method, outputs *o, const paths *p, int quiet)
 {
     br_error err;
     br_error_clear(&err);
     br_cli_run lr;
     br_cli_run_begin(&lr, verb, quiet);
     o->res->progress = &lr.hook;
-    int rc = compute(path, verb, parts, so, o, &err);
+    int rc = compute(path, verb, parts, so, su_method, o, &err);
     int stop = br_cli_run_commit(&lr);
     int status = stop ? stop : rc != BR_OK ? br_cli_fail(&err, path) : write_all(o, p, quiet);
     br_cli_run_end(&lr);
@@ -125,7 +128,8 @@ int br_cli_analysis(int argc, char **argv, const char *about, int parts)
 {
     paths p = {0};
     int quiet = 0;
-    const char *limit = NULL;
+    const char *limit = NULL, *method = NULL;
+    int su_method = BR_SU_ENVELOPE;
     br_opt opts[] = {
         /* "-" for any sends it to stdout in place of the text report */
         {BR_OPT_STRING, "xml", "PATH", &p.xml, "also write the results as XML to PATH (- stdout)"},
@@ -140,8 +144,11 @@ int br_cli_analysis(int argc, char **argv, const char *about, int parts)
         {BR_OPT_FLAG, "quiet", NULL, &quiet, BR_QUIET_HELP},
         {BR_OPT_STRING, "solver-limit", "N", &limit,
          "steady-state solver: at most N Newton iterations and N plain periods"},
+        {BR_OPT_STRING, "startup-method", "M", &method, BR_STARTUP_METHOD_HELP},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
     };
+    if (parts == BR_RUN_STEADY) /* no start-up: no method for it */
+        opts[sizeof opts / sizeof opts[0] - 2] = opts[sizeof opts / sizeof opts[0] - 1];
     if (parts == BR_RUN_ALL) /* analyze has many plots: they are in the report */
         for (int i = 3; opts[i].type != BR_OPT_END; i++)
             opts[i] = opts[i + 1];
@@ -156,7 +163,8 @@ int br_cli_analysis(int argc, char **argv, const char *about, int parts)
         return BR_EXIT_INPUT;
     br_steady_opts so;
     br_steady_opts_default(&so);
-    if (limit && solver_limit(argv[0], limit, &so) != BR_EXIT_OK)
+    if ((limit && solver_limit(argv[0], limit, &so) != BR_EXIT_OK) ||
+        br_cli_startup_method(argv[0], method, &su_method) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
     outputs o = {0};
     br_error err;
@@ -165,7 +173,7 @@ int br_cli_analysis(int argc, char **argv, const char *about, int parts)
     if (outputs_alloc(&o, &p, &err) != BR_OK)
         status = br_cli_fail(&err, NULL);
     else
-        status = run(pos[0], argv[0], parts, &so, &o, &p, quiet);
+        status = run(pos[0], argv[0], parts, &so, su_method, &o, &p, quiet);
     if (status == BR_EXIT_OK && br_results_failed(o.res))
         status = BR_EXIT_FAIL;
     else if (status == BR_EXIT_OK && br_results_undetermined(o.res))

@@ -99,6 +99,16 @@ int br_cli_long(const char *verb, const char *opt, const char *text, long lo, lo
 /* The same for a fraction from 0 to 1, also written as a percentage ("95%"). */
 int br_cli_fraction(const char *verb, const char *opt, const char *text, double *out);
 
+/* --startup-method M of every verb that runs a start-up: "envelope" (the
+ * default: periods in which something discrete happens integrated, the
+ * others stepped over along the rails' envelope) or "periods" (every
+ * period integrated, the reference).  On a bad value print one
+ * diagnostic line and return BR_EXIT_INPUT, else BR_EXIT_OK with *out a
+ * br_su_method (unchanged when text is NULL). */
+int br_cli_startup_method(const char *verb, const char *text, int *out);
+#define BR_STARTUP_METHOD_HELP                                                                     \
+    "start-ups by envelope (default: repeating periods stepped over) or periods"
+
 /* The help line of --quiet, the same for every verb. */
 #define BR_QUIET_HELP "print only the verdict line on stdout (no report, no progress bar)"
 

@@ -29,15 +29,18 @@ static const char ABOUT[] =
     "but one is undetermined somewhere, 2 for bad input.\n";
 
 typedef struct args {
-    const char *xml, *threads, *exhaustive, *limit;
+    const char *xml, *threads, *exhaustive, *limit, *method;
     int no_startup, quiet;
+    int su_method; /* br_su_method */
 } args;
 
 /* Options into corners options; BR_EXIT_OK or a usage error's status. */
-static int options(const args *a, br_corners_opts *o)
+static int options(args *a, br_corners_opts *o)
 {
     long v;
     br_corners_opts_default(o);
+    if (br_cli_startup_method("corners", a->method, &a->su_method))
+        return BR_EXIT_INPUT;
     o->startup = !a->no_startup;
     if (a->threads) {
         if (br_cli_long("corners", "threads", a->threads, 1, BR_SPREAD_MAX_THREADS, &v))
@@ -73,21 +76,23 @@ static void outputs_free(outputs *o)
     br_text_free(o->xml);
 }
 
-static int compute(const char *path, const br_corners_opts *opts, int want_xml, outputs *o,
+static int compute(const char *path, const br_corners_opts *opts, const args *a, outputs *o,
                    br_error *err)
 {
     o->text = br_text_create();
-    o->xml = want_xml ? br_text_create() : NULL;
-    if (!o->text || (want_xml && !o->xml))
+    o->xml = a->xml ? br_text_create() : NULL;
+    if (!o->text || (a->xml && !o->xml))
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     int rc = br_design_load(path, &o->d, err);
-    if (rc == BR_OK)
+    if (rc == BR_OK) {
+        o->d->startup_method = a->su_method;
         rc = br_chain_build(o->d, &o->c, err);
+    }
     if (rc == BR_OK)
         rc = br_corners_run(o->d, opts, &o->k, err);
     if (rc == BR_OK)
         rc = br_corners_text(o->c, o->k, o->text);
-    if (rc == BR_OK && want_xml)
+    if (rc == BR_OK && a->xml)
         rc = br_corners_xml(o->c, o->k, BR_VERSION, o->xml, err);
     if (rc == BR_ENOMEM && !err->msg[0])
         br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory rendering the report");
@@ -113,6 +118,7 @@ int cmd_corners(int argc, char **argv)
          "skip the start-up criteria (no cold starts)"},
         {BR_OPT_STRING, "solver-limit", "N", &a.limit,
          "steady-state solver: at most N Newton iterations and plain periods a point"},
+        {BR_OPT_STRING, "startup-method", "M", &a.method, BR_STARTUP_METHOD_HELP},
         {BR_OPT_STRING, "threads", "N", &a.threads, "worker threads (default: one per processor)"},
         {BR_OPT_FLAG, "quiet", NULL, &a.quiet, BR_QUIET_HELP},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
@@ -133,7 +139,7 @@ int cmd_corners(int argc, char **argv)
     br_cli_run lr;
     br_cli_run_begin(&lr, "corners", a.quiet);
     co.progress = &lr.hook;
-    int rc = compute(pos[0], &co, a.xml != NULL, &o, &err);
+    int rc = compute(pos[0], &co, &a, &o, &err);
     int status = br_cli_run_commit(&lr);
     if (status == BR_EXIT_OK)
         status = rc != BR_OK ? br_cli_fail(&err, pos[0]) : write_all(&a, &o);

@@ -30,8 +30,9 @@ static const char ABOUT[] =
     "input.\n";
 
 typedef struct args {
-    const char *catalog, *xml, *threads, *top, *min_margin, *limit;
+    const char *catalog, *xml, *threads, *top, *min_margin, *limit, *method;
     int no_startup, no_per_rail, quiet;
+    int su_method; /* br_su_method */
 } args;
 
 /* --min-margin: a voltage, 0 or more ("50 mV", "0.05"). */
@@ -49,10 +50,12 @@ static int min_margin(const char *text, br_pick_opts *o)
     return BR_EXIT_OK;
 }
 
-static int options(const args *a, br_pick_opts *o)
+static int options(args *a, br_pick_opts *o)
 {
     long v;
     br_pick_opts_default(o);
+    if (br_cli_startup_method("pick", a->method, &a->su_method))
+        return BR_EXIT_INPUT;
     o->startup = !a->no_startup;
     o->per_rail = !a->no_per_rail;
     if (!a->catalog)
@@ -103,8 +106,10 @@ static int compute(const char *path, const args *a, const br_pick_opts *po, outp
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     *culprit = path;
     int rc = br_design_load(path, &o->d, err);
-    if (rc == BR_OK)
+    if (rc == BR_OK) {
+        o->d->startup_method = a->su_method;
         rc = br_chain_build(o->d, &o->c, err);
+    }
     if (rc == BR_OK) {
         *culprit = a->catalog;
         rc = br_catalog_load(a->catalog, &o->cat, err);
@@ -146,6 +151,7 @@ int cmd_pick(int argc, char **argv)
         {BR_OPT_STRING, "xml", "PATH", &a.xml, "also write the results as XML to PATH (- stdout)"},
         {BR_OPT_STRING, "solver-limit", "N", &a.limit,
          "steady-state solver: at most N Newton iterations and plain periods a point"},
+        {BR_OPT_STRING, "startup-method", "M", &a.method, BR_STARTUP_METHOD_HELP},
         {BR_OPT_STRING, "threads", "N", &a.threads, "worker threads (default: one per processor)"},
         {BR_OPT_FLAG, "quiet", NULL, &a.quiet, BR_QUIET_HELP},
         {BR_OPT_END, NULL, NULL, NULL, NULL},

@@ -18,6 +18,11 @@ int cmd_startup(int argc, char **argv)
         "one). Exit status 0 when every driver starts, the inrush is within every\n"
         "rating and the dropouts are within the limit (a warning does not count),\n"
         "1 when not, 2 for bad input, 3 when the simulation failed numerically\n"
-        "or reached its work limit (undetermined).\n",
+        "or reached its work limit (undetermined). The periods in which something\n"
+        "discrete happens (a driver starting or dropping out, a pre-charge step\n"
+        "ending, the supply ramp, the load current starting) are integrated; the\n"
+        "others, where the rails move slowly from one period to the next, are\n"
+        "stepped over along the rails' envelope, and the report says how many of\n"
+        "each (--startup-method periods integrates every one).\n",
         BR_RUN_STARTUP);
 }

@@ -30,8 +30,9 @@ static const char ABOUT[] =
     "not, 3 when a corner is undetermined there, 2 for bad input.\n";
 
 typedef struct args {
-    const char *xml, *threads;
+    const char *xml, *threads, *method;
     int quiet;
+    int su_method; /* br_su_method */
 } args;
 
 typedef struct outputs {
@@ -50,14 +51,17 @@ static void outputs_free(outputs *o)
     br_text_free(o->xml);
 }
 
-static int compute(const char *path, const br_supply_window_opts *opts, int want_xml, outputs *o,
+static int compute(const char *path, const args *a, const br_supply_window_opts *opts, outputs *o,
                    br_error *err)
 {
+    int want_xml = a->xml != NULL;
     o->text = br_text_create();
     o->xml = want_xml ? br_text_create() : NULL;
     if (!o->text || (want_xml && !o->xml))
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     int rc = br_design_load(path, &o->d, err);
+    if (rc == BR_OK && a->method) /* every cold start of the search, by this method */
+        o->d->startup_method = a->su_method;
     if (rc == BR_OK)
         rc = br_chain_build(o->d, &o->c, err);
     if (rc == BR_OK)
@@ -84,6 +88,7 @@ int cmd_supply(int argc, char **argv)
     const br_opt opts[] = {
         {BR_OPT_STRING, "xml", "PATH", &a.xml, "also write the results as XML to PATH (- stdout)"},
         {BR_OPT_STRING, "threads", "N", &a.threads, "worker threads (default: one per processor)"},
+        {BR_OPT_STRING, "startup-method", "M", &a.method, BR_STARTUP_METHOD_HELP},
         {BR_OPT_FLAG, "quiet", NULL, &a.quiet, BR_QUIET_HELP},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
     };
@@ -97,6 +102,8 @@ int cmd_supply(int argc, char **argv)
     if (a.threads && br_cli_long("supply", "threads", a.threads, 1, BR_SPREAD_MAX_THREADS, &v))
         return BR_EXIT_INPUT;
     so.threads = a.threads ? (int)v : 0;
+    if (br_cli_startup_method("supply", a.method, &a.su_method))
+        return BR_EXIT_INPUT;
     const char *const out[] = {a.xml}, *const names[] = {"xml"};
     if (br_cli_outputs("supply", names, out, 1, (const char *const *)pos, 1) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
@@ -106,7 +113,7 @@ int cmd_supply(int argc, char **argv)
     br_cli_run lr;
     br_cli_run_begin(&lr, "supply", a.quiet);
     so.progress = &lr.hook;
-    int rc = compute(pos[0], &so, a.xml != NULL, &o, &err);
+    int rc = compute(pos[0], &a, &so, &o, &err);
     int status = br_cli_run_commit(&lr);
     if (status == BR_EXIT_OK)
         status = rc != BR_OK ? br_cli_fail(&err, pos[0]) : write_all(&a, &o);

@@ -74,13 +74,16 @@ static void outputs_free(outputs *o)
 }
 
 /* Load, analyse and render everything in memory. */
-static int compute(const char *path, const br_window_opts *wo, outputs *o, br_error *err)
+static int compute(const char *path, const br_window_opts *wo, int su_method, outputs *o,
+                   br_error *err)
 {
     br_design *d = NULL;
     br_chain *c = NULL;
     int rc = br_design_load(path, &d, err);
-    if (rc == BR_OK)
+    if (rc == BR_OK) {
+        d->startup_method = su_method;
         rc = br_chain_build(d, &c, err);
+    }
     if (rc == BR_OK)
         rc = br_window_run(d, wo, o->w, err);
     if (rc == BR_OK)
@@ -104,7 +107,7 @@ static int write_all(const outputs *o, const paths *p, int quiet)
     return br_cli_write(files, 3, o->text, quiet, verdict, 0);
 }
 
-static int run(const char *path, const paths *p, br_window_opts *wo, int quiet)
+static int run(const char *path, const paths *p, br_window_opts *wo, int su_method, int quiet)
 {
     outputs o = {br_text_create(), p->xml ? br_text_create() : NULL,
                  p->report ? br_text_create() : NULL, p->plot ? br_text_create() : NULL,
@@ -119,7 +122,7 @@ static int run(const char *path, const paths *p, br_window_opts *wo, int quiet)
         br_cli_run lr;
         br_cli_run_begin(&lr, "window", quiet);
         wo->progress = &lr.hook;
-        int rc = compute(path, wo, &o, &err);
+        int rc = compute(path, wo, su_method, &o, &err);
         status = br_cli_run_commit(&lr);
         if (status == BR_EXIT_OK && rc == BR_EUSAGE) /* an option does not fit the design */
             status = br_cli_usage_error("window", "%s: %s", err.field, err.msg);
@@ -140,7 +143,8 @@ int cmd_window(int argc, char **argv)
 {
     const char *fmin = NULL, *fmax = NULL;
     paths p = {0};
-    int startup = 0, quiet = 0;
+    const char *method = NULL;
+    int startup = 0, quiet = 0, su_method = 0;
     const br_opt opts[] = {
         {BR_OPT_STRING, "xml", "PATH", &p.xml, "also write the results as XML to PATH (- stdout)"},
         {BR_OPT_STRING, "report", "PATH", &p.report,
@@ -152,6 +156,7 @@ int cmd_window(int argc, char **argv)
         {BR_OPT_STRING, "fmax", "FREQ", &fmax,
          "highest frequency searched (default fsw*100 within the dead time; line*4)"},
         {BR_OPT_FLAG, "startup", NULL, &startup, "also the start-up window (slow)"},
+        {BR_OPT_STRING, "startup-method", "M", &method, BR_STARTUP_METHOD_HELP},
         {BR_OPT_FLAG, "quiet", NULL, &quiet, BR_QUIET_HELP},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
     };
@@ -164,11 +169,12 @@ int cmd_window(int argc, char **argv)
     br_window_opts_default(&wo);
     wo.startup = startup;
     if (parse_freq("fmin", fmin, &wo.fmin) != BR_EXIT_OK ||
-        parse_freq("fmax", fmax, &wo.fmax) != BR_EXIT_OK)
+        parse_freq("fmax", fmax, &wo.fmax) != BR_EXIT_OK ||
+        br_cli_startup_method("window", method, &su_method) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
     const char *const out[] = {p.xml, p.report, p.plot};
     const char *const names[] = {"xml", "report", "plot"};
     if (br_cli_outputs("window", names, out, 3, (const char *const *)pos, 1) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
-    return run(pos[0], &p, &wo, quiet);
+    return run(pos[0], &p, &wo, su_method, quiet);
 }

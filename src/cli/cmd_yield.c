@@ -31,14 +31,17 @@ static const char ABOUT[] =
     "samples leave it open, 2 for bad input.\n";
 
 typedef struct args {
-    const char *xml, *csv, *samples, *seed, *threads, *min_yield, *report, *plot, *limit;
+    const char *xml, *csv, *samples, *seed, *threads, *min_yield, *report, *plot, *limit, *method;
     int startup, quiet;
+    int su_method; /* br_su_method */
 } args;
 
-static int options(const args *a, br_yield_opts *o, double *min_yield)
+static int options(args *a, br_yield_opts *o, double *min_yield)
 {
     long v;
     br_yield_opts_default(o);
+    if (br_cli_startup_method("yield", a->method, &a->su_method))
+        return BR_EXIT_INPUT;
     *min_yield = BR_MIN_YIELD_NONE;
     o->startup = a->startup;
     if (a->samples && br_cli_long("yield", "samples", a->samples, 1, 10000000L, &o->samples))
@@ -110,8 +113,10 @@ static int compute(const char *path, const args *a, const br_yield_opts *yo, dou
         (a->plot && !o->svg))
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     int rc = br_design_load(path, &o->d, err);
-    if (rc == BR_OK)
+    if (rc == BR_OK) {
+        o->d->startup_method = a->su_method;
         rc = br_chain_build(o->d, &o->c, err);
+    }
     if (rc == BR_OK)
         rc = br_yield_run(o->d, yo, &o->y, err);
     if (rc == BR_OK)
@@ -147,6 +152,7 @@ int cmd_yield(int argc, char **argv)
          "also plot the histograms of the margins as SVG to PATH"},
         {BR_OPT_STRING, "solver-limit", "N", &a.limit,
          "steady-state solver: at most N Newton iterations and plain periods a sample"},
+        {BR_OPT_STRING, "startup-method", "M", &a.method, BR_STARTUP_METHOD_HELP},
         {BR_OPT_STRING, "threads", "N", &a.threads, "worker threads (default: one per processor)"},
         {BR_OPT_FLAG, "quiet", NULL, &a.quiet, BR_QUIET_HELP},
         {BR_OPT_END, NULL, NULL, NULL, NULL},

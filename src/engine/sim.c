@@ -154,6 +154,11 @@ static int halted(const br_sim *s, br_error *err)
                         s->halt_t);
 }
 
+int br_sim_charge(br_sim *s, unsigned long units, br_error *err)
+{
+    return br_sim_spend(s, units) ? halted(s, err) : BR_OK;
+}
+
 void br_sim_vc(const br_sim *s, double *vc)
 {
     for (int k = 0; k < s->n; k++)
@@ -912,6 +917,7 @@ static int closed_form(br_sim *s, double tb, double *te)
 
 static void toggle(br_sim *s, int k)
 {
+    s->win.toggles++;
     s->en[k] = !s->en[k];
     s->enm ^= 1ULL << k;
     if (s->obs.uvlo) {
@@ -1055,6 +1061,8 @@ static inline double higher(double a, double b)
 
 void br_sim_track_extremes(br_sim *s, double t)
 {
+    if (s->win.on)
+        br_sim_window_track(s);
     if (!s->stats_on)
         return;
     for (int k = 0; k < s->n; k++) {

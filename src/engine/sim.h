@@ -210,7 +210,9 @@ unsigned long br_sim_evals(const br_sim *s);
  * reached ..."), which the analyses report as undetermined.  So one
  * simulator runs for at most about 2 s (4 switches) to 12 s (64), and far
  * less where a single period runs away (steps of picoseconds in a
- * microsecond period stop after 20 000 of them). */
+ * microsecond period stop after 20 000 of them).  Periods stepped over
+ * along the envelope (br_sim_leap) are not simulated and allow nothing;
+ * the envelope's own arithmetic counts through br_sim_charge. */
 #define BR_SIM_WORK_PER_PERIOD 20000.0
 #define BR_SIM_WORK_MAX 5000000UL
 /* Units of work between two polls of the stop function. */
@@ -223,5 +225,93 @@ void br_sim_set_stop(br_sim *s, const br_progress *p);
 
 /* Units of work done so far, over the simulator's life. */
 unsigned long br_sim_work(const br_sim *s);
+
+/* ---- envelope following (sim_env.c) ----------------------------------------
+ * What a driver that steps along the envelope of the rails needs: a
+ * window that records what one stretch of simulation (normally one
+ * period) saw, the one question of whether anything discrete is about to
+ * change, a leap of whole periods, and copies of the whole state. */
+
+/* Start a window at the present instant: rail extremes, UVLO transitions
+ * and the quadratures from here on.  With the variational equation on
+ * (br_sim_set_variational), the sensitivity starts again from the
+ * identity, so the next period gives the Jacobian of the period map. */
+void br_sim_window_begin(br_sim *s);
+
+/* Whether the window was quiet: no UVLO transition, no change of the
+ * start-up pattern (a pre-charge step's end, the supply ramp, the load
+ * current's start) inside it or in progress (the supply still ramping),
+ * so that the period it spans could repeat. */
+int br_sim_window_quiet(const br_sim *s);
+
+/* Whether something discrete may change by absolute time t_end if every
+ * rail (capacitor voltage) moves by dvc[k] from where it stood over the
+ * window: a scheduled change (pre-charge step, supply ramp, load current)
+ * at or before t_end, or a driver's supply coming within guard[k] of the
+ * UVLO threshold it would toggle at, its extremes over the window moved
+ * by dvc[k].  1: something may change (the caller integrates), 0: nothing
+ * discrete lies ahead.  New kinds of discrete change answer here. */
+int br_sim_discrete_ahead(const br_sim *s, const double *dvc, const double *guard, double t_end);
+
+/* The most quadrature entries any chain has: what a caller's buffer for
+ * br_sim_quad and br_sim_window_quad must hold (sim_env.c checks it
+ * against the state layout at compile time). */
+#define BR_SIM_QUAD_MAX (24 * BR_MAX_SWITCHES)
+
+/* Number of quadratures (the integrals behind the statistics), and
+ * their values now; and their increments since br_sim_window_begin. */
+int br_sim_quad_count(const br_sim *s);
+void br_sim_quad(const br_sim *s, double *q);
+void br_sim_window_quad(const br_sim *s, double *dq);
+
+/* Move on by m whole periods at once, to the same phase m periods later:
+ * the rail capacitor voltages become vc[k] (k >= 1, and rail 0 where a
+ * bypass capacitor makes it a state; NULL: unchanged), the quadratures
+ * grow by dq (NULL: none), and the clock, the PWM schedule and every
+ * edge, ramp and pulse in progress move by m T.  Only for a stretch with
+ * nothing discrete in it (br_sim_discrete_ahead); returns BR_EUSAGE (and
+ * changes nothing) where the leap would cross a scheduled change. */
+int br_sim_leap(br_sim *s, long m, const double *vc, const double *dq);
+
+/* A copy of s (the observer left out), and making dst a copy of src while
+ * keeping dst's observer; the count of work goes with the state, so that
+ * work done on a copy counts where the copy is taken back. */
+int br_sim_clone(const br_sim *s, br_sim **out, br_error *err);
+void br_sim_assign(br_sim *dst, const br_sim *src);
+
+/* A saved state: what changes as a simulator runs (a tenth of it, or
+ * less), to take it back to where it was.  br_sim_restore keeps the
+ * observer and the work counted since (a trial thrown away still counts
+ * against the work limit). */
+typedef struct br_sim_snap br_sim_snap;
+int br_sim_snap_create(const br_sim *s, br_sim_snap **out, br_error *err);
+void br_sim_snap_free(br_sim_snap *p);
+void br_sim_save(const br_sim *s, br_sim_snap *p);
+void br_sim_restore(br_sim *s, const br_sim_snap *p);
+
+/* The observer in force (br_sim_set_observer). */
+br_sim_observer br_sim_observer_get(const br_sim *s);
+
+/* dst takes over the work src has counted (src a copy of dst, run on its
+ * own and thrown away): work done on a trial counts all the same. */
+void br_sim_take_work(br_sim *dst, const br_sim *src);
+
+/* Count units of work done on the simulator's behalf outside it (the
+ * envelope's own arithmetic), polling the stop function as its own steps
+ * do.  BR_OK, or the error of a simulator that is to stop (the work
+ * limit: BR_ENUMERIC; a stop: BR_ECANCEL). */
+int br_sim_charge(br_sim *s, unsigned long units, br_error *err);
+
+/* How a UVLO crossing inside a step is located, to the same bracket
+ * (1e-9 of the step): by bisection (0, the default and the reference) or
+ * by regula falsi (1: a fifth of the trial steps; the envelope path). */
+void br_sim_set_locator(br_sim *s, int secant);
+
+/* The longest lifetime of a link diode's stored charge, s (0: none). */
+double br_sim_longest_lifetime(const br_sim *s);
+
+/* Number of stages, and the PWM period, s. */
+int br_sim_stages(const br_sim *s);
+double br_sim_period(const br_sim *s);
 
 #endif

@@ -40,6 +40,15 @@ typedef enum br_rk_pair {
 
 #define BR_HMEM 512 /* intervals of one period remembered for their steps */
 
+/* What the simulation saw since br_sim_window_begin (sim_env.c). */
+typedef struct br_sim_win {
+    int on;                        /* a window is open: extremes are tracked */
+    double t0;                     /* its start, s */
+    double vmin[BR_N], vmax[BR_N]; /* rail node extremes, V */
+    int toggles;                   /* UVLO transitions */
+    int pre_idx, loaded;           /* pre-charge step and load state at the start */
+} br_sim_win;
+
 /* Layout of the integrated vector, stage by stage so that only n * NF
  * entries are in use: rail capacitor voltage and diode stored charge
  * (controlled by the step-size error), then quadratures integrated
@@ -216,6 +225,9 @@ struct br_sim {
     br_stats st;
     double quad0[X_SIZE]; /* quadratures when stats started */
     br_sim_observer obs;
+    int secant_locate;      /* UVLO crossings by regula falsi (br_sim_set_locator) */
+    br_sim_win win;         /* the envelope driver's window */
+    double winq[BR_N * NF]; /* quadratures at the window's start */
 };
 
 /* ---- the supply (sim_supply.c) ---------------------------------------------
@@ -337,6 +349,13 @@ static inline double br_sim_stored_in(const br_sim *s, int k)
  * function and check the work limits.  Returns non-zero (s->halt set)
  * once the simulator is to stop. */
 int br_sim_spend(br_sim *s, unsigned long n);
+
+/* Record the workspace's rail voltages in the open window. */
+void br_sim_window_track(br_sim *s);
+
+/* How far past its threshold the driver supply furthest past one lies
+ * for rails vr, V: > 0 exactly when br_sim_uvlo_due finds a stage. */
+double br_sim_uvlo_excess(const br_sim *s, const double *vr);
 
 /* Index of the first stage whose driver must toggle for rails vr, or -1. */
 int br_sim_uvlo_due(const br_sim *s, const double *vr);

@@ -203,6 +203,7 @@ static void copy_operating_point(const br_design *d, br_chain *c)
     c->startup_max = d->startup_max.nom;
     c->cap_derating = d->cap_derating.nom;
     c->max_dropouts = d->max_dropouts;
+    c->startup_method = d->startup_method;
 }
 
 int br_chain_build_nominal(const br_design *d, br_chain *c, br_error *err)

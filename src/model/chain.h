@@ -129,6 +129,8 @@ struct br_chain {
     double min_drive, derating, startup_max;
     double cap_derating; /* class II ceramics' voltage derating (design rule) */
     int max_dropouts;    /* start-up dropouts allowed per stage, -1: not stated */
+
+    int startup_method; /* br_su_method */
 };
 
 /* Build at explicit values: d with every br_qty read at .nom. */

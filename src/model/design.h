@@ -298,7 +298,18 @@ struct br_design {
                                    BR_DROPOUTS_WARN only warn) */
     unsigned long long hold_on; /* hold-up: switches held on once switching
                                    stops (bit s: switch s); 0: all off */
+    int startup_method;         /* br_su_method: how every start-up is simulated
+                                   (a numerical setting, from the command line) */
 };
+
+/* How a start-up is simulated.  Both give the same figures within the
+ * envelope's tolerance; the second is the reference the tests hold the
+ * first to. */
+typedef enum br_su_method {
+    BR_SU_ENVELOPE = 0, /* periods integrated where something discrete happens,
+                           stepped over along the rails' envelope elsewhere */
+    BR_SU_PERIODS = 1   /* every period integrated */
+} br_su_method;
 
 /* A design with every optional field at its documented default and no
  * parts.  Returns NULL when out of memory. */

@@ -169,6 +169,16 @@ static int method_text(const br_corners *k, br_text *out)
                  "parameters per criterion: %ld corners, each with a cold start (which also "
                  "judges the steady-state criteria there).",
                  k->startup_max_sensitive, k->startup_points);
+    if (k->su_method != BR_CORNERS_SKIPPED) {
+        size_t len = strlen(buf);
+        if (k->su_stepped > 0 || k->s->d->startup_method != BR_SU_PERIODS)
+            snprintf(buf + len, sizeof buf - len,
+                     " Their periods: %ld integrated, %ld stepped over along the rails' envelope.",
+                     k->su_integrated, k->su_stepped);
+        else
+            snprintf(buf + len, sizeof buf - len, " Their periods: %ld, every one integrated.",
+                     k->su_integrated);
+    }
     rc |= br_report_wrap(out, "method, start-up criteria: ", buf, 2);
     snprintf(buf, sizeof buf,
              "at every point each steady state is found to within %s of periodic (a quasi-Newton "

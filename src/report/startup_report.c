@@ -239,6 +239,21 @@ static int render_summary(const br_chain *c, const br_startup *su, br_text *out)
     return rc | br_text_put(out, "\n");
 }
 
+/* How the start-up was simulated: the periods integrated and those
+ * stepped over along the rails' envelope. */
+static int render_method(const br_startup *su, br_text *out)
+{
+    if (su->method == BR_SU_PERIODS)
+        return br_text_printf(out,
+                              "  %ld periods, every one integrated (--startup-method periods)\n",
+                              su->periods_integrated);
+    return br_text_printf(out,
+                          "  %ld periods: %ld integrated, %ld stepped over along the rails' "
+                          "envelope\n",
+                          su->periods_integrated + su->periods_stepped, su->periods_integrated,
+                          su->periods_stepped);
+}
+
 int br_startup_text(const br_chain *c, const br_startup *su, int detail, br_text *out)
 {
     char a[32], b[32];
@@ -247,6 +262,7 @@ int br_startup_text(const br_chain *c, const br_startup *su, int detail, br_text
         rc |= br_text_printf(out, "pre-charge steps until %s, then PWM; ",
                              br_fmt_time(a, sizeof a, su->pwm_start));
     rc |= br_text_printf(out, "%s simulated)\n", br_fmt_time(b, sizeof b, su->t_simulated));
+    rc |= render_method(su, out);
     rc |= render_table(c, su, out);
     if (detail)
         rc |= render_dropouts(c, su, out);
@@ -331,6 +347,9 @@ void br_startup_xml(br_xmlw *w, const br_chain *c, const br_startup *su)
         br_xmlw_num(w, "total-s", su->t_total);
     br_xmlw_num(w, "simulated-s", su->t_simulated);
     br_xmlw_num(w, "pwm-start-s", su->pwm_start);
+    br_xmlw_attr(w, "method", su->method == BR_SU_PERIODS ? "periods" : "envelope");
+    br_xmlw_int(w, "periods-integrated", su->periods_integrated);
+    br_xmlw_int(w, "periods-stepped", su->periods_stepped);
     if (su->first_stalled >= 0)
         br_xmlw_int(w, "first-stalled", su->first_stalled);
     for (int k = 0; k < su->n; k++)

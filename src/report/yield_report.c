@@ -17,20 +17,47 @@
 
 /* ---- text ------------------------------------------------------------------ */
 
+/* The samples' cold starts: periods integrated and stepped over in all. */
+static void startup_sums(const br_yield *y, long *in, long *st)
+{
+    *in = *st = 0;
+    for (long i = 0; i < y->n; i++) {
+        *in += y->pts[i].su_integrated;
+        *st += y->pts[i].su_stepped;
+    }
+}
+
+/* How the samples' cold starts were simulated, summed over them. */
+static void startup_periods(const br_yield *y, char *buf, size_t cap)
+{
+    long in, st;
+    startup_sums(y, &in, &st);
+    if (st > 0 || y->s->d->startup_method != BR_SU_PERIODS)
+        snprintf(buf, cap,
+                 " Their periods: %ld integrated, %ld stepped over along the rails' "
+                 "envelope.",
+                 in, st);
+    else
+        snprintf(buf, cap, " Their periods: %ld, every one integrated.", in);
+}
+
 static int method_text(const br_yield *y, br_text *out)
 {
-    char buf[900], acc[32];
+    char buf[1100], acc[32], su[160] = "";
+    if (y->startup)
+        startup_periods(y, su, sizeof su);
     snprintf(buf, sizeof buf,
              "%ld samples from seed %lu. Each toleranced parameter is drawn from its "
              "distribution (uniform between its limits, or normal about the nominal with the "
              "limits at the stated sigma, truncated at them) by the GSL Mersenne Twister, one "
              "value per parameter, shared by every stage that uses it (parts of one reel). "
              "Each sample's steady states are found to within %s of periodic (a quasi-Newton "
-             "solve from the nominal state, the shooting solver behind it). %s",
+             "solve from the nominal state, the shooting solver behind it). %s%s",
              y->n, y->seed, br_fmt_si(acc, sizeof acc, y->accept, 3, "V"),
              y->startup ? "Every sample has a cold start, so the start-up criteria count."
                         : "No cold start: the start-up criteria are not judged (--startup "
-                          "judges them, at about a hundred simulated periods a sample).");
+                          "judges them, at about a hundred simulated periods a sample).",
+             su);
     return br_report_wrap(out, "method: ", buf, 2);
 }
 
@@ -288,6 +315,12 @@ int br_yield_xml(const br_chain *c, const br_yield *y, double min_yield, const c
     br_xmlw_int(w, "samples", y->n);
     br_xmlw_int(w, "seed", (long)y->seed);
     br_xmlw_bool(w, "startup", y->startup);
+    if (y->startup) {
+        long in, st;
+        startup_sums(y, &in, &st);
+        br_xmlw_int(w, "startup-periods-integrated", in);
+        br_xmlw_int(w, "startup-periods-stepped", st);
+    }
     br_xmlw_num(w, "accept-V", y->accept);
     if (y->s->solver_limit > 0)
         br_xmlw_int(w, "solver-limit", y->s->solver_limit);

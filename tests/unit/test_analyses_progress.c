@@ -189,25 +189,74 @@ static void test_window_cancel(void)
 
 /* The cold start calls every BR_STARTUP_PROGRESS_EVERY periods with the
  * simulated time, and stops when asked (at 1 MHz the start takes a few
- * hundred periods). */
+ * hundred periods), by either method: every period integrated, the call
+ * exactly at the period; by envelope following, at the end of the step
+ * that passed it. */
 static void test_startup_cancel(void)
 {
     br_design *d = br_test_fcml(3, 400.0, 1e6, 0.5, 50e-9);
     br_chain c;
     br_error err;
     CU_ASSERT_EQUAL_FATAL(br_chain_build_nominal(d, &c, &err), BR_OK);
-    seen s = {0};
-    br_progress p = {hook, &s, NULL};
-    br_startup_opts o = {0, 0, NULL, &p};
+    for (int m = BR_SU_ENVELOPE; m <= BR_SU_PERIODS; m++) {
+        c.startup_method = m;
+        seen s = {0};
+        br_progress p = {hook, &s, NULL};
+        br_startup_opts o = {0, 0, NULL, &p};
+        br_startup su;
+        CU_ASSERT_EQUAL_FATAL(br_startup_run(&c, &o, &su, &err), BR_OK);
+        CU_ASSERT_TRUE(s.calls >= 1);
+        CU_ASSERT_TRUE(s.calls * BR_STARTUP_PROGRESS_EVERY * c.T <= su.t_simulated);
+        BR_ASSERT_REL(s.total, c.startup_max, 1e-12);
+        s = (seen){.stop_at = 1};
+        CU_ASSERT_EQUAL(br_startup_run(&c, &o, &su, &err), BR_ECANCEL);
+        CU_ASSERT_EQUAL(s.calls, 1);
+        if (m == BR_SU_PERIODS)
+            BR_ASSERT_REL(s.done, BR_STARTUP_PROGRESS_EVERY * c.T, 1e-9);
+        else
+            CU_ASSERT_TRUE(s.done >= BR_STARTUP_PROGRESS_EVERY * c.T * (1 - 1e-9) &&
+                           s.done < 2 * BR_STARTUP_PROGRESS_EVERY * c.T);
+    }
+    br_design_free(d);
+}
+
+/* A stop poll that asks to stop at its n-th call. */
+typedef struct countdown {
+    int calls, stop_at;
+} countdown;
+
+static int stop_at_call(void *ctx)
+{
+    countdown *c = ctx;
+    return ++c->calls >= c->stop_at;
+}
+
+/* A stop takes effect wherever the envelope path is: in a period
+ * integrated, in a step's trial (undone, the stop held), in the model's
+ * arithmetic.  Stopped at each of the polls of a run of 0.2 s (waiting
+ * for a settling it is never granted, the tail stepped over by thousands
+ * of periods a step), every run ends with BR_ECANCEL within a few polls
+ * of the stop. */
+static void test_startup_envelope_stop(void)
+{
+    br_design *d = br_test_fcml(4, 400.0, 200e3, 0.5, 50e-9);
+    br_chain c;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_chain_build_nominal(d, &c, &err), BR_OK);
+    countdown all = {0, 1 << 30};
+    br_progress p = {NULL, &all, stop_at_call};
+    br_startup_opts o = {0.2, 1 << 20, NULL, &p}; /* to 0.2 s: no settling before */
     br_startup su;
     CU_ASSERT_EQUAL_FATAL(br_startup_run(&c, &o, &su, &err), BR_OK);
-    CU_ASSERT_TRUE(s.calls >= 1);
-    CU_ASSERT_TRUE(s.calls * BR_STARTUP_PROGRESS_EVERY * c.T <= su.t_simulated);
-    BR_ASSERT_REL(s.total, c.startup_max, 1e-12);
-    s = (seen){.stop_at = 1};
-    CU_ASSERT_EQUAL(br_startup_run(&c, &o, &su, &err), BR_ECANCEL);
-    CU_ASSERT_EQUAL(s.calls, 1);
-    BR_ASSERT_REL(s.done, BR_STARTUP_PROGRESS_EVERY * c.T, 1e-9);
+    CU_ASSERT_TRUE(su.periods_stepped > 30000);
+    int polls = all.calls;
+    CU_ASSERT_TRUE(polls >= 3);
+    for (int n = 1; n <= polls; n++) {
+        countdown cd = {0, n};
+        p.ctx = &cd;
+        CU_ASSERT_EQUAL(br_startup_run(&c, &o, &su, &err), BR_ECANCEL);
+        CU_ASSERT_TRUE(cd.calls <= n + 2);
+    }
     br_design_free(d);
 }
 
@@ -247,6 +296,7 @@ int main(void)
         {"corners: a stop", test_corners_cancel},
         {"window: a stop", test_window_cancel},
         {"startup: periodic calls and a stop", test_startup_cancel},
+        {"startup: a stop anywhere on the envelope path", test_startup_envelope_stop},
         {NULL, NULL},
     };
     return br_test_main("progress", cases);

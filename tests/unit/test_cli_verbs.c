@@ -307,6 +307,27 @@ static void test_startup(void)
     xmlNode *su = doc ? find_element(xmlDocGetRootElement(doc), "startup") : NULL;
     CU_ASSERT_TRUE(attr_is(su, "complete", "true"));
     CU_ASSERT_TRUE(attr_num(su, "total-s") > 0);
+    /* by envelope following (the default): how many periods of each kind */
+    CU_ASSERT_TRUE(attr_is(su, "method", "envelope"));
+    double integrated = attr_num(su, "periods-integrated"),
+           stepped = attr_num(su, "periods-stepped");
+    CU_ASSERT_TRUE(integrated > 0 && stepped > 0);
+    char line[160];
+    snprintf(line, sizeof line, "  %.0f periods: %.0f integrated, %.0f stepped over",
+             integrated + stepped, integrated, stepped);
+    CU_ASSERT_TRUE(has(r.out, line));
+    xmlFreeDoc(doc);
+    done(&r);
+    /* every period integrated: the same periods, the report says so */
+    r = run((const char *[]){"startup", "--startup-method", "periods", "tests/data/ref-c2.xml",
+                             "--xml", xml, NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    snprintf(line, sizeof line, "  %.0f periods, every one integrated", integrated + stepped);
+    CU_ASSERT_TRUE(has(r.out, line));
+    doc = check_xml(xml, "startup", c->n, 0, r.status);
+    su = doc ? find_element(xmlDocGetRootElement(doc), "startup") : NULL;
+    CU_ASSERT_TRUE(attr_is(su, "method", "periods"));
+    CU_ASSERT_TRUE(attr_num(su, "periods-stepped") == 0);
     xmlFreeDoc(doc);
     unlink(xml);
     rmdir(dir);
@@ -555,6 +576,9 @@ static void test_bad_usage(void)
         (const char *[]){"startup", "--csv=", "tests/data/ref-c1.xml", NULL},
         (const char *[]){"analyze", "--xml", "-", "--csv", "-", "tests/data/ref-c1.xml", NULL},
         (const char *[]){"analyze", "--strict", "tests/data/ref-c1.xml", NULL},
+        (const char *[]){"startup", "--startup-method", "every", "tests/data/ref-c1.xml", NULL},
+        (const char *[]){"yield", "--startup-method=", "tests/data/ref-c1.xml", NULL},
+        (const char *[]){"steady", "--startup-method", "periods", "tests/data/ref-c1.xml", NULL},
     };
     for (size_t i = 0; i < sizeof cases / sizeof cases[0]; i++) {
         run_result r = run(cases[i]);

@@ -178,6 +178,7 @@ static void test_dropouts_judged(void)
     CU_ASSERT_EQUAL(r.status, 1);
     CU_ASSERT_TRUE(line_starting(r.out, "  dropouts ", row, sizeof row));
     CU_ASSERT_PTR_NOT_NULL(strstr(row, " FAIL "));
+    CU_ASSERT_TRUE(has(r.out, " stepped over along the"));
     done(&r);
     r = run((const char *[]){"yield", "--startup", "--samples", "4", path, NULL});
     CU_ASSERT_EQUAL(r.status, 1);
@@ -185,6 +186,24 @@ static void test_dropouts_judged(void)
     long fails = -1;
     CU_ASSERT_EQUAL(sscanf(row, " dropouts %ld", &fails), 1);
     CU_ASSERT_EQUAL(fails, 4);
+    /* its cold starts by envelope following: the report says how */
+    CU_ASSERT_TRUE(has(r.out, " stepped over along the"));
+    done(&r);
+    /* every period integrated: the same verdict on every sample */
+    r = run((const char *[]){"yield", "--startup", "--samples", "4", "--startup-method", "periods",
+                             path, NULL});
+    CU_ASSERT_EQUAL(r.status, 1);
+    CU_ASSERT_TRUE(line_starting(r.out, "  dropouts ", row, sizeof row));
+    CU_ASSERT_EQUAL(sscanf(row, " dropouts %ld", &fails), 1);
+    CU_ASSERT_EQUAL(fails, 4);
+    CU_ASSERT_TRUE(has(r.out, ", every one integrated."));
+    done(&r);
+    r = run((const char *[]){"corners", "--startup-method", "periods", path, NULL});
+    CU_ASSERT_EQUAL(r.status, 1);
+    CU_ASSERT_TRUE(line_starting(r.out, "  dropouts ", row, sizeof row));
+    CU_ASSERT_PTR_NOT_NULL(strstr(row, " FAIL "));
+    CU_ASSERT_TRUE(has(r.out, " Their periods: "));
+    CU_ASSERT_PTR_NULL(strstr(r.out, "stepped over"));
     done(&r);
     unlink(path);
     rmdir(dir);

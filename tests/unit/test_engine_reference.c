@@ -100,6 +100,52 @@ static void check_startup(ref_case *rc)
     }
 }
 
+/* Start-up by envelope following (the default) against every period
+ * integrated (--startup-method periods, the reference path) and, with
+ * against_ref, against the reference transient of the same model
+ * (ngspice 39, the json): every stage's first and final start within 2 %
+ * of both, its dropouts within 2 of both, its rail at the end within 5 mV
+ * and its link's inrush peak and I2t within 1 % of every period
+ * integrated (the tolerances issue 17 set for the envelope).  It must
+ * have stepped over periods, and the two must have covered the same
+ * periods.  (On c6 and c8 the engine itself differs from the reference by
+ * up to 3.2 %, see the top of this file: they are held to every period
+ * integrated, and to the reference by check_startup's 5 %.) */
+static void check_methods(ref_case *rc, int against_ref)
+{
+    br_startup su[2];
+    br_error err;
+    for (int m = 0; m < 2; m++) {
+        rc->c->startup_method = m ? BR_SU_PERIODS : BR_SU_ENVELOPE;
+        CU_ASSERT_EQUAL_FATAL(br_startup_run(rc->c, NULL, &su[m], &err), BR_OK);
+        CU_ASSERT_TRUE_FATAL(su[m].complete);
+        CU_ASSERT_EQUAL(su[m].method, rc->c->startup_method);
+    }
+    rc->c->startup_method = BR_SU_ENVELOPE;
+    const br_startup *e = &su[0], *p = &su[1];
+    CU_ASSERT_TRUE(e->periods_stepped > 0);
+    CU_ASSERT_EQUAL(p->periods_stepped, 0);
+    CU_ASSERT_EQUAL(e->periods_integrated + e->periods_stepped, p->periods_integrated);
+    BR_ASSERT_REL(e->t_simulated, p->t_simulated, 1e-9);
+    for (int k = 1; k < rc->c->n; k++) {
+        const char *s = stage_at(rc->json, k);
+        double fin = br_json_number(rc->json, s, "final_enable_time_s", NULL);
+        double first = br_json_number(rc->json, s, "enable_time_s", NULL);
+        double ndis = br_json_number(rc->json, s, "n_disable_events", NULL);
+        BR_ASSERT_REL(e->st[k].first_enable, p->st[k].first_enable, 0.02);
+        BR_ASSERT_REL(e->st[k].final_enable, p->st[k].final_enable, 0.02);
+        if (against_ref) {
+            BR_ASSERT_REL(e->st[k].first_enable, first, 0.02);
+            BR_ASSERT_REL(e->st[k].final_enable, fin, 0.02);
+        }
+        BR_ASSERT_NEAR((double)e->st[k].ndropouts, (double)p->st[k].ndropouts, 2.0);
+        BR_ASSERT_NEAR((double)e->st[k].ndropouts, ndis, 2.0);
+        BR_ASSERT_NEAR(e->st[k].vend, p->st[k].vend, 5e-3);
+        BR_ASSERT_REL(e->st[k].ipeak, p->st[k].ipeak, 0.01);
+        BR_ASSERT_REL(e->st[k].i2t, p->st[k].i2t, 0.01);
+    }
+}
+
 /* The direction a case is analysed in: its own, or none. */
 static int case_dir(const ref_case *rc)
 {
@@ -266,6 +312,35 @@ static void test_c8_transient(void)
     }
 }
 
+static void methods_case(const char *name, int against_ref)
+{
+    ref_case rc;
+    if (open_case(&rc, name)) {
+        check_methods(&rc, against_ref);
+        close_case(&rc);
+    }
+}
+
+static void test_c1_envelope(void)
+{
+    methods_case("c1.json", 1);
+}
+
+static void test_c2_envelope(void)
+{
+    methods_case("c2.json", 1);
+}
+
+static void test_c6_envelope(void)
+{
+    methods_case("c6.json", 0);
+}
+
+static void test_c8_envelope(void)
+{
+    methods_case("c8.json", 0);
+}
+
 int main(void)
 {
     static const br_test_case cases[] = {
@@ -280,6 +355,10 @@ int main(void)
         {"c8 5-level leg at 20 A: start-up at no load", test_c8_startup},
         {"c8 5-level leg at 20 A: steady state", test_c8_steady},
         {"c8 5-level leg at 20 A: the reference's transient", test_c8_transient},
+        {"c1: start-up by envelope against every period and the reference", test_c1_envelope},
+        {"c2: start-up by envelope against every period and the reference", test_c2_envelope},
+        {"c6: start-up by envelope against every period", test_c6_envelope},
+        {"c8: start-up by envelope against every period", test_c8_envelope},
         {NULL, NULL}};
     return br_test_main("engine/reference", cases);
 }

@@ -1,0 +1,202 @@
+/* bench_startup.c - start-ups by envelope following and with every period
+ * integrated, side by side in one run.  Run on demand:
+ *   make bench_startup && ./bench_startup [RUNS]
+ *     every design below, RUNS runs of each method in turn (default 11): medians
+ *     of wall-clock time, the periods each integrated and stepped over;
+ *   ./bench_startup RUNS DESIGN METHOD
+ *     one design (a path) by one method (envelope or periods), for
+ *     valgrind --tool=callgrind (instruction counts, which the machine's
+ *     load does not move);
+ *   ./bench_startup --yield SAMPLES [THREADS] [DESIGN]
+ *     yield with a cold start per sample (default: the 11-link example),
+ *     by each method: wall and processor time.
+ * The machines are shared and noisy: medians, and instruction counts
+ * where it matters. */
+#include "analyses/startup.h"
+#include "analyses/yield.h"
+#include "bootrung/bootrung.h"
+#include "model/chain.h"
+#include "testdesign.h"
+#include "testkit.h"
+
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <time.h>
+
+static double now(void)
+{
+    struct timespec ts;
+    clock_gettime(CLOCK_MONOTONIC, &ts);
+    return ts.tv_sec + 1e-9 * ts.tv_nsec;
+}
+
+static double cpu(void)
+{
+    struct timespec ts;
+    clock_gettime(CLOCK_PROCESS_CPUTIME_ID, &ts);
+    return ts.tv_sec + 1e-9 * ts.tv_nsec;
+}
+
+static int cmp(const void *a, const void *b)
+{
+    double x = *(const double *)a, y = *(const double *)b;
+    return (x > y) - (x < y);
+}
+
+static double median(double *v, int n)
+{
+    qsort(v, (size_t)n, sizeof *v, cmp);
+    return v[n / 2];
+}
+
+/* A design file, or a reference case's json (tests/data/reference). */
+static br_design *open_design(const char *path)
+{
+    br_design *d = NULL;
+    br_error err;
+    char buf[2048];
+    size_t len = strlen(path);
+    if (len > 5 && strcmp(path + len - 5, ".json") == 0) {
+        char *json = br_test_slurp(path, NULL);
+        d = json ? br_test_reference_design(json) : NULL;
+        free(json);
+    } else if (br_design_load(path, &d, &err) != BR_OK) {
+        fprintf(stderr, "bench: %s\n", br_error_format(&err, buf, sizeof buf));
+    }
+    return d;
+}
+
+/* Median wall time of runs start-ups of c by method m (s); the last result in su. */
+static double time_startup(br_chain *c, int m, int runs, const br_startup_opts *o, br_startup *su)
+{
+    double t[64];
+    br_error err;
+    c->startup_method = m;
+    for (int r = 0; r < runs; r++) {
+        double t0 = now();
+        if (br_startup_run(c, o, su, &err) != BR_OK)
+            fprintf(stderr, "bench: %s\n", err.msg);
+        t[r] = now() - t0;
+    }
+    return median(t, runs);
+}
+
+/* Both methods, their runs taken in turn (the machine's load drifts), into
+ * tm[method] (medians, s) and su[method]. */
+static void time_both(br_chain *c, int runs, const br_startup_opts *o, double *tm, br_startup *su)
+{
+    double t[2][64];
+    for (int r = 0; r < runs; r++)
+        for (int m = 0; m < 2; m++)
+            t[m][r] = time_startup(c, m, 1, o, &su[m]);
+    for (int m = 0; m < 2; m++)
+        tm[m] = median(t[m], runs);
+}
+
+typedef struct bench_case {
+    const char *name, *path;
+    double t_max; /* s, 0: the design's */
+} bench_case;
+
+static void one_case(const bench_case *bc, int runs)
+{
+    br_design *d = open_design(bc->path);
+    br_chain *c = NULL;
+    br_error err;
+    if (!d || br_chain_build(d, &c, &err) != BR_OK) {
+        printf("%-34s could not be built\n", bc->name);
+        br_design_free(d);
+        return;
+    }
+    br_startup_opts o = {0};
+    o.t_max = bc->t_max;
+    br_startup su[2];
+    double tm[2];
+    time_both(c, runs, &o, tm, su);
+    printf("%-34s %9.2f %9.2f %6.1fx %8ld %8ld %8ld\n", bc->name, 1e3 * tm[BR_SU_PERIODS],
+           1e3 * tm[BR_SU_ENVELOPE], tm[BR_SU_PERIODS] / tm[BR_SU_ENVELOPE],
+           su[BR_SU_PERIODS].periods_integrated, su[BR_SU_ENVELOPE].periods_integrated,
+           su[BR_SU_ENVELOPE].periods_stepped);
+    br_chain_free(c);
+    br_design_free(d);
+}
+
+static void all_cases(int runs)
+{
+    static const bench_case cases[] = {
+        {"examples/leg-7level.xml (11 links)", BR_SOURCE_DIR "/examples/leg-7level.xml", 0.0},
+        {"examples/demo-3level.xml", BR_SOURCE_DIR "/examples/demo-3level.xml", 0.0},
+        {"reference c1 (1 link)", BR_REFERENCE_DIR "/c1.json", 0.0},
+        {"reference c2 (5 links)", BR_REFERENCE_DIR "/c2.json", 0.0},
+        {"reference c6 (5 links, step-up)", BR_REFERENCE_DIR "/c6.json", 0.0},
+        {"reference c8 (7 links, 20 A)", BR_SOURCE_DIR "/tests/data/ref-c8.xml", 0.0},
+        {"stalled rail, 1 s (slow-startup)", BR_SOURCE_DIR "/tests/data/slow-startup.xml", 0.0},
+        {"hiccups, 20 ms (hiccup-startup)", BR_SOURCE_DIR "/tests/data/hiccup-startup.xml", 20e-3},
+    };
+    printf("start-up, median of %d runs each      periods  envelope  speed-  periods integrated  "
+           "stepped\n",
+           runs);
+    printf("%-34s %9s %9s %7s %8s %8s %8s\n", "design", "ms", "ms", "up", "periods", "envelope",
+           "envelope");
+    for (size_t i = 0; i < sizeof cases / sizeof cases[0]; i++)
+        one_case(&cases[i], runs);
+}
+
+/* One design by one method, for callgrind. */
+static int single(int runs, const char *path, const char *method)
+{
+    br_design *d = open_design(path);
+    br_chain *c = NULL;
+    br_error err;
+    if (!d || br_chain_build(d, &c, &err) != BR_OK)
+        return 2;
+    br_startup su;
+    double t = time_startup(c, strcmp(method, "periods") == 0 ? BR_SU_PERIODS : BR_SU_ENVELOPE,
+                            runs, NULL, &su);
+    printf("%s by %s: median %.3f ms, %ld periods integrated, %ld stepped over\n", path, method,
+           1e3 * t, su.periods_integrated, su.periods_stepped);
+    br_chain_free(c);
+    br_design_free(d);
+    return 0;
+}
+
+/* Yield with a cold start per sample, by each method. */
+static int yield(long samples, int threads, const char *path)
+{
+    br_design *d = open_design(path);
+    if (!d)
+        return 2;
+    printf("yield --startup --samples %ld on %s, %d threads\n", samples, path, threads);
+    for (int m = BR_SU_PERIODS; m >= BR_SU_ENVELOPE; m--) {
+        br_yield_opts o;
+        br_yield_opts_default(&o);
+        o.samples = samples;
+        o.threads = threads;
+        o.startup = 1;
+        d->startup_method = m;
+        br_yield *y = NULL;
+        br_error err;
+        double w0 = now(), c0 = cpu();
+        int rc = br_yield_run(d, &o, &y, &err);
+        double w = now() - w0, c = cpu() - c0;
+        printf("  %-8s %8.1f s wall %8.1f s processor  %s\n", m ? "periods" : "envelope", w, c,
+               rc == BR_OK ? "" : err.msg);
+        br_yield_free(y);
+    }
+    br_design_free(d);
+    return 0;
+}
+
+int main(int argc, char **argv)
+{
+    if (argc > 2 && strcmp(argv[1], "--yield") == 0)
+        return yield(atol(argv[2]), argc > 3 ? atoi(argv[3]) : 2,
+                     argc > 4 ? argv[4] : BR_SOURCE_DIR "/examples/leg-7level.xml");
+    int runs = argc > 1 ? atoi(argv[1]) : 11;
+    runs = runs < 1 ? 1 : runs > 64 ? 64 : runs;
+    if (argc > 3)
+        return single(runs, argv[2], argv[3]);
+    all_cases(runs);
+    return 0;
+}
