@@ -3,7 +3,7 @@
 # Installed to share/bash-completion/completions/bootrung; tests/lib/docs.sh
 # checks that every verb and option the program's help lists is here.
 
-_bootrung_verbs="check startup steady analyze window map corners yield pick supply help"
+_bootrung_verbs="check startup steady analyze window map corners yield pick supply netlist help"
 
 # The options of one verb (--help and --quiet are everybody's).
 _bootrung_options()
@@ -20,6 +20,7 @@ _bootrung_options()
     yield) echo "--samples --seed --startup --min-yield --xml --csv --report --plot --solver-limit --startup-method --threads $common" ;;
     pick) echo "--catalog --top --min-margin --no-startup --no-per-rail --xml --solver-limit --startup-method --threads $common" ;;
     supply) echo "--xml --threads --startup-method $common" ;;
+    netlist) echo "--out --current --periods $common" ;;
     esac
 }
 
@@ -44,7 +45,7 @@ _bootrung()
         return
     fi
     case $prev in
-    --xml | --csv | --report | --plot | --svg)
+    --xml | --csv | --report | --plot | --svg | --out)
         compopt -o filenames 2>/dev/null
         COMPREPLY=($(compgen -f -- "$cur"))
         return ;;
@@ -55,8 +56,11 @@ _bootrung()
     --startup-method)
         COMPREPLY=($(compgen -W "envelope periods" -- "$cur"))
         return ;;
+    --current)
+        COMPREPLY=($(compgen -W "step-down step-up none" -- "$cur"))
+        return ;;
     --solver-limit | --threads | --fmin | --fmax | --duty | --freq | --exhaustive | \
-        --samples | --seed | --min-yield | --top | --min-margin)
+        --samples | --seed | --min-yield | --top | --min-margin | --periods)
         return ;; # a number or a range: nothing to offer
     esac
     if [[ $cur == -* ]]; then
