@@ -257,13 +257,27 @@ static void write_models(nl *w, const br_chain *c)
 
 /* ---- the whole netlist ------------------------------------------------------ */
 
+/* A name for a comment or the title: a control character (a newline in
+ * a path) would end the line and start an element. */
+static const char *printable(const char *s, char *buf, size_t cap)
+{
+    size_t n = 0;
+    for (; *s && n + 1 < cap; s++)
+        buf[n++] = (unsigned char)*s < 0x20 || *s == 0x7f ? '?' : *s;
+    buf[n] = '\0';
+    return buf;
+}
+
 static void write_head(nl *w, const br_chain *c, const br_netlist_opts *o)
 {
     static const char *const dirs[] = {"step-down", "step-up"};
     const char *dir = o->dir == BR_DIRI_NONE ? "none" : dirs[o->dir];
-    put(w, "bootrung %s netlist of design %s\n", o->version, c->design->name);
+    const br_design *d = c->design;
+    char name[160], path[160];
+    put(w, "bootrung %s netlist of design %s\n", o->version,
+        printable(d->name[0] ? d->name : d->path, name, sizeof name));
     put(w, "* From %s. Berkeley SPICE3 syntax; what it leaves out or simplifies:\n",
-        c->design->path);
+        printable(d->path, path, sizeof path));
     put(w, "* docs/spice.md of bootrung. Cross-check aid only: these circuits carry\n"
            "* lethal voltages; the netlist does not replace measurement on the board.\n");
     put(w,
