@@ -53,6 +53,7 @@ typedef struct pwl {
     double t0, v0; /* the last point written */
     double t1, v1; /* the next point, not yet written: a ramp's end may move */
     int npts;      /* points written */
+    double eps;    /* s: points closer than this are one instant */
 } pwl;
 
 static void pwl_emit(pwl *p, double t, double v)
@@ -68,11 +69,11 @@ static void pwl_emit(pwl *p, double t, double v)
 static void pwl_ramp(pwl *p, double t, double v, double dur)
 {
     double cur = p->v1;
-    if (t < p->t1) /* inside the ramp toward (t1, v1) */
+    if (t < p->t1 - p->eps) /* inside the ramp toward (t1, v1) */
         cur = p->v0 + (p->v1 - p->v0) * (t - p->t0) / (p->t1 - p->t0);
     else if (p->t1 > p->t0) /* the last ramp has ended: its end is final */
         pwl_emit(p, p->t1, p->v1);
-    if (t > p->t0)
+    if (t > p->t0 + p->eps)
         pwl_emit(p, t, cur);
     p->t1 = fmax(t, p->t0) + fmax(dur, MIN_RAMP);
     p->v1 = v;
@@ -103,7 +104,7 @@ static void write_command(nl *w, const br_chain *c, const br_timing *tm, int k,
     double i = o->dir == BR_DIRI_NONE ? 0.0 : c->iload;
     br_mask on = tm->on0, rev = tm->rev0;
     double v = sw_level(c, k, o->dir, i, on, rev);
-    pwl p = {w, 0.0, v, 0.0, v, 0};
+    pwl p = {w, 0.0, v, 0.0, v, 0, SAME_INSTANT * tm->T};
     put(w, "VC%d c%d 0 PWL(", k, k);
     pwl_emit(&p, 0.0, v);
     p.t1 = 0.0;
@@ -118,10 +119,15 @@ static void write_command(nl *w, const br_chain *c, const br_timing *tm, int k,
             if (fabs(lv - p.v1) > 1e-12)
                 pwl_ramp(&p, (double)m * tm->T + te, lv, ramp_time(c, k, lv - p.v1));
         }
+    /* the run ends at tend: a ramp still going is cut there */
     double tend = (double)o->periods * tm->T;
+    if (p.t1 > tend) {
+        p.v1 = p.v0 + (p.v1 - p.v0) * (tend - p.t0) / (p.t1 - p.t0);
+        p.t1 = tend;
+    }
     if (p.t1 > p.t0)
         pwl_emit(&p, p.t1, p.v1);
-    if (tend > p.t0)
+    if (tend > p.t0 + p.eps)
         pwl_emit(&p, tend, p.v1);
     put(w, ")\n");
 }
