@@ -132,6 +132,44 @@ static void write_command(nl *w, const br_chain *c, const br_timing *tm, int k,
     put(w, ")\n");
 }
 
+/* Driver k's gate charge: a pulse of Qg/tg for tg at every turn-on of
+ * switch k (tg 0: over the edge time, or 1 ns), in amperes per volt of
+ * node gK, drawn from rail k while the driver runs, scaled linearly with
+ * the rail voltage from the stated drive voltage (as the simulator
+ * scales it with the drive voltage). */
+static void write_gate(nl *w, const br_chain *c, const br_timing *tm, int k,
+                       const br_netlist_opts *o)
+{
+    const br_sw *sw = &c->st[k].sw;
+    double dur = sw->tg > 0.0 ? sw->tg : c->tedge > 0.0 ? c->tedge : 1e-9;
+    double h = sw->qg / dur, tend = (double)o->periods * tm->T;
+    pwl p = {w, 0.0, 0.0, 0.0, 0.0, 0, SAME_INSTANT * tm->T};
+    put(w, "VG%d g%d 0 PWL(", k, k);
+    pwl_emit(&p, 0.0, 0.0);
+    for (long m = 0; m < o->periods; m++)
+        for (int e = 0; e < tm->nev; e++) {
+            double t = (double)m * tm->T + tm->ev[e].t;
+            /* a pulse that would overlap the last, or outlast the run, is
+             * not drawn (a gate pulse is far shorter than a period) */
+            if (tm->ev[e].sw != k || tm->ev[e].kind != BR_EV_ON ||
+                (p.npts > 1 && t <= p.t0 + p.eps) || t + dur + MIN_RAMP > tend)
+                continue;
+            if (t > p.t0 + p.eps)
+                pwl_emit(&p, t, 0.0);
+            pwl_emit(&p, t + MIN_RAMP, h);
+            pwl_emit(&p, t + dur, h);
+            pwl_emit(&p, t + dur + MIN_RAMP, 0.0);
+        }
+    if (tend > p.t0 + p.eps)
+        pwl_emit(&p, tend, 0.0);
+    put(w, ")\n");
+    char s[16], scale[64] = "";
+    if (sw->qg_v > 0.0)
+        snprintf(scale, sizeof scale, "*(V(r%d)-V(%s))/%.6g", k, src_node(k, s, sizeof s),
+                 sw->qg_v);
+    put(w, "BQG%d r%d %s I=V(u%d)*V(g%d)%s\n", k, k, src_node(k, s, sizeof s), k, k, scale);
+}
+
 /* ---- elements --------------------------------------------------------------- */
 
 static void write_supply(nl *w, const br_chain *c)
@@ -159,14 +197,15 @@ static void write_switch(nl *w, const br_chain *c, const br_timing *tm, int k,
 
 /* Driver k: a hysteretic switch on rail k sets u_k (1 V running, 0 V in
  * UVLO); running it draws iq_on, the isolator's current and its gate
- * charge averaged over the period; its UVLO current is a resistor that
- * draws it at UVLO rising. */
-static void write_driver(nl *w, const br_chain *c, int k, int model)
+ * charge at each turn-on; its UVLO current is a resistor that draws it
+ * at UVLO rising. */
+static void write_driver(nl *w, const br_chain *c, const br_timing *tm, int k, int model,
+                         const br_netlist_opts *o)
 {
     const br_stage *st = &c->st[k];
     char s[16];
     src_node(k, s, sizeof s);
-    double run = st->drv.iq_on + st->drv.i_iso + st->sw.qg * c->fsw;
+    double run = st->drv.iq_on + st->drv.i_iso;
     put(w, "* driver %d (%s): UVLO %.6g V rising, %.6g V falling\n", k, st->drv.id,
         st->drv.uvlo_rise, st->drv.uvlo_fall);
     put(w, "SUV%d one u%d r%d %s uv%d\n", k, k, k, s, model);
@@ -174,6 +213,8 @@ static void write_driver(nl *w, const br_chain *c, int k, int model)
     put(w, "GRUN%d r%d %s u%d 0 %.6g\n", k, k, s, k, run);
     if (st->drv.iq_off > 0.0 && st->drv.uvlo_rise > 0.0)
         put(w, "RSTB%d r%d %s %.6g\n", k, k, s, st->drv.uvlo_rise / st->drv.iq_off);
+    if (st->sw.qg > 0.0)
+        write_gate(w, c, tm, k, o);
 }
 
 /* Link k and rail k (k >= 1): the diode from rail k-1, its resistor plus
@@ -292,7 +333,8 @@ static void write_head(nl *w, const br_chain *c, const br_netlist_opts *o)
         c->fsw, c->duty, c->deadtime, c->tedge, o->dir == BR_DIRI_NONE ? 0.0 : c->iload, dir);
     put(w, "* %ld periods from a cold start, ambient %.2f C.\n", o->periods, c->tamb - ZERO_C);
     put(w, "* Nodes: 0 source of switch 0; sK source of switch K; rK top of rail K\n"
-           "* (rail K = V(rK)-V(sK)); cK switch K's command; uK driver K running (1 V).\n");
+           "* (rail K = V(rK)-V(sK)); cK switch K's command; uK driver K running (1 V);\n"
+           "* gK driver K's gate-charge pulses (1 V = 1 A at the stated drive voltage).\n");
     put(w, "VONE one 0 DC 1\n");
 }
 
@@ -336,7 +378,7 @@ int br_netlist_render(const br_chain *c, const br_netlist_opts *o, br_text *out,
     for (int k = 0; k < c->n; k++) {
         if (k + 1 < c->n)
             write_switch(&w, c, tm, k, o);
-        write_driver(&w, c, k, driver_model(c, k));
+        write_driver(&w, c, tm, k, driver_model(c, k), o);
         if (k >= 1)
             write_stage(&w, c, k, diode_model(c, k));
     }
