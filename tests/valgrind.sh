@@ -56,6 +56,9 @@ vg "1 3" steady --solver-limit 1 tests/data/line-3level.xml  # an unsettled line
 vg "0 1" window tests/data/line-3level.xml
 vg "0 1 3" yield --samples 4 --threads 2 tests/data/line-3level.xml
 vg 2 map --duty 0.2:0.8:3 --freq 50k:200k:3 tests/data/line-3level.xml
+vg 0 netlist --periods 5 --out "$tmp/out.cir" examples/leg-7level.xml
+vg 2 netlist tests/data/line-3level.xml
+vg 2 check tests/bad/spice-model-range.xml
 vg 2 analyze no-such-file.xml
 vg 2 analyze tests/bad/unit-nan.xml
 vg 2 check tests/bad/doctype-billion-laughs.xml

@@ -20,9 +20,20 @@
 
 #include <stddef.h>
 
+/* BR_API marks what the shared library exports: it is built with hidden
+ * visibility, so a function declared without it stays internal. */
+#if defined(__GNUC__) || defined(__clang__)
+#define BR_API __attribute__((visibility("default")))
+#else
+#define BR_API
+#endif
+
 #ifdef __cplusplus
 extern "C" {
 #endif
+
+/* The library's version, "MAJOR.MINOR.PATCH" (the project's version). */
+BR_API const char *br_version(void);
 
 /* ---- status and errors ------------------------------------------------ */
 
@@ -45,22 +56,22 @@ typedef struct br_error {
     char msg[768];  /* what is wrong and what is expected */
 } br_error;
 
-void br_error_clear(br_error *err);
+BR_API void br_error_clear(br_error *err);
 /* Render err as "FILE:LINE: field: message" into buf; returns buf. */
-const char *br_error_format(const br_error *err, char *buf, size_t cap);
-const char *br_status_name(int code);
+BR_API const char *br_error_format(const br_error *err, char *buf, size_t cap);
+BR_API const char *br_status_name(int code);
 
 /* ---- a growable text buffer that reports render into ------------------ */
 
 typedef struct br_text br_text;
-br_text *br_text_create(void);
-void br_text_free(br_text *t);
-const char *br_text_data(const br_text *t); /* NUL-terminated */
-size_t br_text_len(const br_text *t);
+BR_API br_text *br_text_create(void);
+BR_API void br_text_free(br_text *t);
+BR_API const char *br_text_data(const br_text *t); /* NUL-terminated */
+BR_API size_t br_text_len(const br_text *t);
 /* Appends; returns BR_OK or BR_ENOMEM (the buffer then stays as it was). */
-int br_text_printf(br_text *t, const char *fmt, ...) __attribute__((format(printf, 2, 3)));
-int br_text_put(br_text *t, const char *s);
-void br_text_reset(br_text *t);
+BR_API int br_text_printf(br_text *t, const char *fmt, ...) __attribute__((format(printf, 2, 3)));
+BR_API int br_text_put(br_text *t, const char *s);
+BR_API void br_text_reset(br_text *t);
 
 /* ---- design files ------------------------------------------------------ */
 
@@ -68,21 +79,21 @@ typedef struct br_design br_design;
 
 /* Parse, validate against the embedded schema and check every value.
  * On failure *out is NULL and err says FILE:LINE: field: what is wrong. */
-int br_design_load(const char *path, br_design **out, br_error *err);
+BR_API int br_design_load(const char *path, br_design **out, br_error *err);
 /* Same, from memory; name is used in messages. */
-int br_design_load_memory(const char *buf, size_t len, const char *name, br_design **out,
-                          br_error *err);
-void br_design_free(br_design *d);
+BR_API int br_design_load_memory(const char *buf, size_t len, const char *name, br_design **out,
+                                 br_error *err);
+BR_API void br_design_free(br_design *d);
 /* The RELAX NG schema the loader enforces (NUL-terminated). */
-const char *br_design_schema(void);
+BR_API const char *br_design_schema(void);
 
 /* ---- the chain model --------------------------------------------------- */
 
 typedef struct br_chain br_chain;
 
 /* Build the immutable chain model of d at its nominal values. */
-int br_chain_build(const br_design *d, br_chain **out, br_error *err);
-void br_chain_free(br_chain *c);
+BR_API int br_chain_build(const br_design *d, br_chain **out, br_error *err);
+BR_API void br_chain_free(br_chain *c);
 
 #ifdef __cplusplus
 }

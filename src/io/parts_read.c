@@ -2,10 +2,12 @@
  * switches, regulators and clamps, each defined once by id. */
 #include "core/error.h"
 #include "io/forward_fit.h"
+#include "io/spice_model.h"
 #include "io/xml_read.h"
 
 #include <ctype.h>
 #include <math.h>
+#include <stddef.h>
 #include <string.h>
 
 static const br_range r_is = {0.0, 1.0, 1, 1, "a saturation current > 0 and < 1 A"};
@@ -148,9 +150,114 @@ static int read_forward(br_rd *r, xmlNode *n, br_diode_part *p)
     return BR_OK;
 }
 
+/* ---- a SPICE .model line ------------------------------------------------------ */
+
+/* The attributes a <spice-model> line replaces: it is the diode's law. */
+static const char *const spice_law[] = {"is",  "n",   "rs", "cj0", "vj",  "m",
+                                        "tau", "qrr", "if", "eg",  "xti", NULL};
+
+typedef struct spice_map {
+    int param;             /* br_sp_param */
+    size_t off;            /* offset of its br_qty in br_diode_part, or (size_t)-1 */
+    const br_range *range; /* the values our model takes */
+} spice_map;
+
+static const br_range r_sp_fc = {0.0, 1.0, 0, 1, "a coefficient from 0 to below 1"};
+static const br_range r_sp_tnom = {-100.0, 300.0, 0, 0, "a temperature from -100 to 300 (C)"};
+#define SP_QTY(f) offsetof(br_diode_part, f)
+#define SP_NONE ((size_t)-1)
+static const spice_map spice_maps[] = {
+    {BR_SP_IS, SP_QTY(is), &r_is},
+    {BR_SP_N, SP_QTY(n), &r_n},
+    {BR_SP_RS, SP_QTY(rs), &br_range_nonneg},
+    {BR_SP_CJO, SP_QTY(cj0), &br_range_nonneg},
+    {BR_SP_VJ, SP_QTY(vj), &br_range_pos},
+    {BR_SP_M, SP_QTY(m), &r_m},
+    {BR_SP_TT, SP_QTY(tau), &br_range_nonneg},
+    {BR_SP_EG, SP_QTY(eg), &r_eg},
+    {BR_SP_XTI, SP_QTY(xti), &r_xti},
+    {BR_SP_BV, SP_NONE, &br_range_pos},
+    {BR_SP_IBV, SP_NONE, &br_range_pos},
+    {BR_SP_FC, SP_NONE, &r_sp_fc},
+    {BR_SP_KF, SP_NONE, &br_range_nonneg},
+    {BR_SP_AF, SP_NONE, &br_range_pos},
+    {BR_SP_TNOM, SP_NONE, &r_sp_tnom},
+};
+
+static int sp_in_range(double v, const br_range *g)
+{
+    if (g->lo_open ? !(v > g->lo) : !(v >= g->lo))
+        return 0;
+    return g->hi_open ? v < g->hi : v <= g->hi;
+}
+
+/* Check each parameter the line gives and put it where our model keeps
+ * it; those it leaves out take SPICE's defaults (ours, but VJ = 1 V). */
+static int map_spice(br_rd *r, const char *where, const br_spice_model *m, br_diode_part *p)
+{
+    p->vj = br_qty_fixed(1.0);
+    for (size_t i = 0; i < sizeof spice_maps / sizeof spice_maps[0]; i++) {
+        const spice_map *s = &spice_maps[i];
+        if (!m->given[s->param])
+            continue;
+        double v = m->v[s->param];
+        if (!sp_in_range(v, s->range)) {
+            char field[192];
+            snprintf(field, sizeof field, "%s: %s", where, br_sp_param_name(s->param));
+            return br_error_set(r->err, BR_EINPUT, r->file, m->line[s->param], field,
+                                "got %g, expected %s", v, s->range->expect);
+        }
+        if (s->off != SP_NONE) {
+            br_qty *q = (br_qty *)((char *)p + s->off);
+            *q = br_qty_fixed(v);
+            q->line = m->line[s->param];
+        }
+    }
+    if (m->given[BR_SP_TNOM])
+        p->tnom = m->v[BR_SP_TNOM] + BR_ZERO_CELSIUS;
+    p->bv = m->given[BR_SP_BV] ? m->v[BR_SP_BV] : 0.0;
+    p->ibv = m->given[BR_SP_IBV] ? m->v[BR_SP_IBV] : 0.0;
+    return BR_OK;
+}
+
+static int read_spice(br_rd *r, xmlNode *n, xmlNode *sm, br_diode_part *p)
+{
+    char where[160];
+    br_spice_model m;
+    for (int j = 0; spice_law[j]; j++)
+        if (xmlHasProp(n, BAD_CAST spice_law[j]))
+            return br_rd_fail(r, n, spice_law[j],
+                              "a <spice-model> line is given too, expected either the "
+                              "attribute or the line's parameter");
+    if (br_xml_child(n, "forward"))
+        return br_rd_fail(r, n, "forward",
+                          "a <spice-model> line is given too, expected either forward points "
+                          "or the line");
+    if (br_xml_count(n, "spice-model") > 1)
+        return br_rd_fail(r, br_xml_next(sm, "spice-model"), NULL,
+                          "a second <spice-model>, expected one");
+    br_xml_where(n, where, sizeof where - 16);
+    snprintf(where + strlen(where), 16, ": spice-model");
+    xmlChar *text = xmlNodeGetContent(sm);
+    if (!text)
+        return br_error_set(r->err, BR_ENOMEM, r->file, br_rd_line(r, sm), where,
+                            "out of memory reading the line");
+    int rc =
+        br_spice_model_parse((const char *)text, r->file, br_rd_line(r, sm), where, &m, r->err);
+    xmlFree(text);
+    BR_TRY(rc);
+    if (m.given[BR_SP_TNOM] && xmlHasProp(n, BAD_CAST "ref-temp"))
+        return br_rd_fail(r, n, "ref-temp",
+                          "the <spice-model> line gives TNOM too, expected one of them");
+    return map_spice(r, where, &m, p);
+}
+
 static int read_diode_law(br_rd *r, xmlNode *n, br_diode_part *p)
 {
     BR_TRY(br_rd_value(r, n, "ref-temp", BR_KIND_TEMPERATURE, &r_temp, &p->tnom, NULL));
+    xmlNode *sm = br_xml_child(n, "spice-model");
+    if (sm)
+        return read_spice(r, n, sm, p);
     if (br_xml_child(n, "forward"))
         return read_forward(r, n, p);
     BR_TRY(br_rd_qty(r, n, "is", BR_KIND_CURRENT, &r_is, &p->is, NULL));

@@ -358,8 +358,9 @@ static const rule rules[] = {
     {"parts", "diode",
      "!id is n rs ref-temp cj0 vj m tau qrr if eg xti ir ir-temp ir-doubling vrrm ifsm ifrm "
      "i2t if-avg rth tj-max",
-     "forward", 0},
+     "forward spice-model", 0},
     {"diode", "forward", "!i !v", "", 0},
+    {"diode", "spice-model", "", "", 0},
     {"parts", "capacitor",
      "!id !c esr rating temp-factor aging ripple dielectric=class-1|class-2|other", "bias temp", 0},
     {"capacitor", "bias", "!v !factor", "", 0},

@@ -78,6 +78,9 @@ typedef struct br_diode_part {
                          junction stays at the ambient); a stage may give its own */
     br_qty tj_max;    /* maximum junction temperature, K (0: not given) */
     double tnom;      /* temperature of is/n/rs, K */
+    double bv, ibv;   /* reverse breakdown voltage and its current from a SPICE
+                         .model (V, A; 0: not given): not a rating and not
+                         simulated, only written back into netlists */
 } br_diode_part;
 
 /* What a capacitor is made of, for the voltage derating rule. */

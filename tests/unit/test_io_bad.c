@@ -84,6 +84,8 @@ static const bad_case corpus[] = {
     {"conducts-unknown.xml", 8, "switch S1: conducts", "expected one of"},
     {"vgs-rec-above-max.xml", 16, "switch q1: vgs-rec", "vgs-max"},
     {"diode-n-range.xml", 10, "diode d1: n", "0.5 to 10"},
+    {"spice-model-range.xml", 13, "diode d1: spice-model: M", "got 1.5, expected a grading"},
+    {"spice-model-type.xml", 10, "diode d1: spice-model", "model type 'NPN', expected D"},
     {"forward-too-few.xml", 10, "diode d1: forward", "expected 3 to"},
     {"forward-and-law.xml", 10, "diode d1: is", "either"},
     {"forward-descending.xml", 13, "diode d1 forward 3: i", "ascend"},
