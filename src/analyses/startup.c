@@ -228,6 +228,7 @@ static int startup_one(const br_chain *c, int dir, const br_startup_opts *o, int
     br_sim_observer obs = {&w, on_uvlo, on_sample};
     br_sim_set_observer(s, &obs);
     br_sim_set_stop(s, o ? o->progress : NULL);
+    br_sim_set_locator(s, 1); /* crossings in a fifth of the trial steps (engine/sim.h) */
     run u = {c,
              s,
              &w,

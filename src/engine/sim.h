@@ -316,8 +316,8 @@ void br_sim_take_work(br_sim *dst, const br_sim *src);
 int br_sim_charge(br_sim *s, unsigned long units, br_error *err);
 
 /* How a UVLO crossing inside a step is located, to the same bracket
- * (1e-9 of the step): by bisection (0, the default and the reference) or
- * by regula falsi (1: a fifth of the trial steps; the envelope path). */
+ * (1e-9 of the step): by bisection (0, the default) or by regula falsi
+ * (1: a fifth of the trial steps; every start-up, by either method). */
 void br_sim_set_locator(br_sim *s, int secant);
 
 /* The longest lifetime of a link diode's stored charge, s (0: none). */
