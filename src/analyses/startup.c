@@ -203,6 +203,7 @@ static int run_envelope(const run *u, const br_startup_opts *o, br_startup *r, b
     if (env) {
         r->periods_integrated = br_envelope_count(env)->integrated;
         r->periods_stepped = br_envelope_count(env)->stepped;
+        memcpy(r->integrated_why, br_envelope_count(env)->why, sizeof r->integrated_why);
     }
     br_envelope_free(env);
     return rc;

@@ -342,8 +342,10 @@ static void remember(br_envelope *e, int quiet, int var, const double *a, const 
     e->have_last = 1;
 }
 
-/* Integrate one period (or what is left to t_goal) and learn from it. */
-static int integrate(br_envelope *e, double t_goal, br_error *err)
+/* Integrate one period (or what is left to t_goal) and learn from it;
+ * why: what kept it from being stepped over, unless the period itself
+ * saw something discrete. */
+static int integrate(br_envelope *e, double t_goal, int why, br_error *err)
 {
     br_sim *s = e->s;
     double t = br_sim_time(s), tn = fmin(t + e->T, t_goal);
@@ -359,6 +361,8 @@ static int integrate(br_envelope *e, double t_goal, br_error *err)
         return rc;
     br_sim_vc(s, pa);
     br_sim_window_quad(s, h);
+    int seen = br_sim_window_why(s);
+    e->count.why[seen != BR_WIN_QUIET ? seen : var ? BR_ENV_WHY_MODEL : why]++;
     remember(e, whole && br_sim_window_quiet(s), var, a, pa, h);
     br_sim_set_variational(s, 0);
     e->var_next = e->have_last && !e->have_B && worth_variational(e, tn, t_goal);
@@ -431,6 +435,7 @@ static int keep(br_envelope *e, const step_plan *sp, double t, const double *pl,
     memcpy(e->h, hb, sizeof(double) * (size_t)e->nq);
     e->count.stepped += sp->k;
     e->count.integrated++;
+    e->count.why[BR_ENV_WHY_LANDING]++;
     e->count.steps++;
     return BR_OK;
 }
@@ -487,6 +492,12 @@ static int try_step(br_envelope *e, const step_plan *sp, int *kept, br_error *er
 
 int br_envelope_advance(br_envelope *e, double t_goal, br_error *err)
 {
+    /* a quiet last period with no model and none coming: a step would
+     * not get far enough to pay for it (worth_variational) */
+    int building = !e->have_last || (!e->have_B && e->var_next);
+    int why = building                   ? BR_ENV_WHY_MODEL
+              : e->have_B && e->kmax < 2 ? BR_ENV_WHY_REJECTED /* the error control's */
+                                         : BR_ENV_WHY_AHEAD;
     for (int tries = 0; e->have_last && e->have_B && tries < BR_ENV_TRIES; tries++) {
         long k = plan(e, br_sim_time(e->s), t_goal);
         if (k < 2)
@@ -496,6 +507,7 @@ int br_envelope_advance(br_envelope *e, double t_goal, br_error *err)
         int kept, rc = try_step(e, &sp, &kept, err);
         if (rc != BR_OK || kept)
             return rc;
+        why = BR_ENV_WHY_REJECTED;
     }
-    return integrate(e, t_goal, err);
+    return integrate(e, t_goal, why, err);
 }

@@ -257,6 +257,14 @@ void br_sim_window_begin(br_sim *s);
  * so that the period it spans could repeat. */
 int br_sim_window_quiet(const br_sim *s);
 
+/* What kept the window from being a period that could repeat: a driver
+ * started or dropped out in it (BR_WIN_UVLO); the supply ramped, soft-
+ * started, limited its current or was off, or a loaded line cycle moved
+ * on (BR_WIN_SUPPLY); a pre-charge step ended or the load current started
+ * (BR_WIN_SCHEDULE); nothing (BR_WIN_QUIET).  The first that applies. */
+enum { BR_WIN_QUIET = 0, BR_WIN_UVLO, BR_WIN_SUPPLY, BR_WIN_SCHEDULE };
+int br_sim_window_why(const br_sim *s);
+
 /* Whether something discrete may change by absolute time t_end if every
  * rail (capacitor voltage) moves by dvc[k] from where it stood over the
  * window: a scheduled change (pre-charge step, supply ramp, load current)

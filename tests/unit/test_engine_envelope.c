@@ -237,6 +237,27 @@ static void test_charge(void)
     br_design_free(d);
 }
 
+/* The driver's account of why it integrated its periods covers each of
+ * them once; each period with a UVLO transition (ev, loop boundaries at
+ * multiples of T) is one where a driver toggled, and each kept step has
+ * its landing period. */
+static void why_counted(const br_env_count *n, const events *ev, double T)
+{
+    long sum = 0, toggled = 0, last = -1;
+    for (int w = 1; w < BR_ENV_WHY_COUNT; w++)
+        sum += n->why[w];
+    CU_ASSERT_EQUAL(n->why[0], 0);
+    CU_ASSERT_EQUAL(sum, n->integrated);
+    CU_ASSERT_EQUAL(n->why[BR_ENV_WHY_LANDING], n->steps);
+    for (int i = 0; i < ev->n; i++) {
+        long p = (long)floor(ev->t[i] / T);
+        toggled += p != last;
+        last = p;
+    }
+    CU_ASSERT_TRUE(toggled > 0);
+    CU_ASSERT_EQUAL(n->why[BR_WIN_UVLO], toggled);
+}
+
 /* The driver on the same leg: it steps over most of the 300 periods to
  * its goal and lands within its tolerance of every period integrated,
  * with the same UVLO transitions and the same integrals behind the
@@ -287,6 +308,7 @@ static void test_driver_lands(void)
     CU_ASSERT_EQUAL_FATAL(ev[0].n, ev[1].n);
     for (int i = 0; i < ev[0].n; i++)
         BR_ASSERT_NEAR(ev[1].t[i], ev[0].t[i], 1e-9);
+    why_counted(n, &ev[1], T);
     br_envelope_free(e);
     br_sim_free(a);
     br_sim_free(b);
