@@ -51,6 +51,7 @@ struct br_envelope {
     int have_B;
     int var_next; /* the next period integrates the variational equation */
     long kmax;    /* longest next step the error control allows */
+    int refused;  /* a step was thrown away since the last one kept */
     br_env_count count;
 };
 
@@ -460,6 +461,7 @@ static int try_step(br_envelope *e, const step_plan *sp, int *kept, br_error *er
             br_sim_restore(s, e->snap);
         br_error_clear(err);
         e->count.rejected++;
+        e->refused = 1;
         e->kmax = (long)fmax(1.0, floor(0.25 * (double)sp->k));
         return BR_OK;
     }
@@ -480,12 +482,20 @@ static int try_step(br_envelope *e, const step_plan *sp, int *kept, br_error *er
         broyden(e->B, dx, dp, e->n);
     if (!quiet || !(est <= BR_ENV_TOL)) {
         e->count.rejected++;
+        e->refused = 1;
         e->kmax = (long)fmax(1.0, floor(sp->k * (quiet ? fmin(f, 0.5) : 0.25)));
         if (!e->replay) /* back to where the step began, the work counted */
             br_sim_restore(s, e->snap);
         return BR_OK;
     }
-    e->kmax = (long)fmin((double)BR_ENV_KMAX, floor(sp->k * fmin(f, 4.0)));
+    /* the first step kept after one thrown away does not grow: the
+     * estimate just failed to see the error coming (as after a rejected
+     * Runge-Kutta step: Hairer, Norsett and Wanner, Solving Ordinary
+     * Differential Equations I, section II.4); growing again at once
+     * threw every other step away in the tail of reference c2 */
+    double grow = e->refused ? 1.0 : 4.0;
+    e->refused = 0;
+    e->kmax = (long)fmin((double)BR_ENV_KMAX, floor(sp->k * fmin(f, grow)));
     *kept = 1;
     return keep(e, sp, t, pl, errv, hb, err);
 }
