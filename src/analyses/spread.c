@@ -15,6 +15,7 @@
 #include <unistd.h>
 
 #define NX BR_SPREAD_NX
+#define NT BR_MAX_SWITCHES  /* junction temperatures, one per link */
 #define ACCEPT_DEFAULT 1e-4 /* V: distance to the steady state accepted by default */
 #define DRIFT_LIMIT 1e-4    /* V: the change per period the verdict allows a steady state */
 
@@ -41,6 +42,7 @@ void br_spread_opts_default(br_spread_opts *o)
     o->meter = NULL;
     o->meter_weight = 1.0;
     o->solver_limit = 0;
+    o->thermal_loop = 0;
 }
 
 /* ---- a batch of points ------------------------------------------------------- */
@@ -51,8 +53,9 @@ typedef struct job {
     const double *values; /* npts rows of tl.n */
     int with_startup;
     br_pt *out;
-    double *xout; /* NULL, or npts * 2 * NX: the steady states found */
-    int predict;  /* start from the prediction and try it as it is */
+    double *xout;  /* NULL, or npts * 2 * NX: the steady states found */
+    double *tjout; /* NULL, or npts * 2 * NT: their junction temperatures */
+    int predict;   /* start from the prediction and try it as it is */
     const double
         *start[2]; /* otherwise the state each direction starts from (NULL: cold estimate) */
     pthread_mutex_t lock;
@@ -92,6 +95,26 @@ static void predict(const br_spread *s, const double *v, int i, double *x)
         for (int k = 0; k < NX; k++)
             x[k] += t * d[k];
     }
+}
+
+/* The predicted junction temperatures of direction i at values v (never
+ * below the point's ambient: losses only heat). */
+static void predict_tj(const br_spread *s, const double *v, int i, double ta, double *tj)
+{
+    memcpy(tj, s->tjnom[i], sizeof(double) * NT);
+    for (int j = 0; j < s->tl.n; j++) {
+        const br_tol_param *p = &s->tl.p[j];
+        int e = v[j] > p->nom;
+        double lim = e ? p->max : p->min, dv = v[j] - p->nom;
+        if (dv == 0.0 || lim == p->nom)
+            continue;
+        const double *d = s->dtj + ((size_t)(2 * j + e) * 2 + (size_t)i) * NT;
+        double t = dv / (lim - p->nom);
+        for (int k = 0; k < NT; k++)
+            tj[k] += t * d[k];
+    }
+    for (int k = 0; k < NT; k++)
+        tj[k] = fmax(tj[k], ta);
 }
 
 #define QN_STEPS 8   /* quasi-Newton steps from one Jacobian */
@@ -284,6 +307,7 @@ typedef struct workspace {
     const br_spread *s;
     br_design *d; /* its own copy of the design, values moved */
     br_chain c;   /* built from d at each point */
+    br_chain hot; /* c with its link diodes at the junction temperatures assumed */
     br_startup su;
     br_steady ss[2];
     br_steady_figs figs[2]; /* figs[i].ss points at ss[i] */
@@ -497,6 +521,93 @@ static int solve(workspace *w, int dir, int i, const double *guess, long max_pla
 #define PLAIN_LAST 150
 #define PLAIN_HOPELESS 100
 
+/* Junction temperatures come with the prediction (spread.h): the chain
+ * has link diodes with a thermal resistance, the nominal point settled
+ * them, and the options do not ask for the full loop at every point. */
+static int predicts_heat(const workspace *w)
+{
+    return br_chain_thermal(&w->c) && !w->s->thermal_loop;
+}
+
+/* w->hot: the point's chain with every link diode that has a thermal
+ * resistance at its predicted junction temperature (direction i). */
+static int hot_chain(workspace *w, const double *v, int i, br_error *err)
+{
+    double tj[NT];
+    w->hot = w->c;
+    predict_tj(w->s, v, i, w->c.tamb, tj);
+    for (int k = 1; k < w->c.n; k++) {
+        int rc = w->c.st[k].diode.rth > 0 ? br_chain_diode_at(&w->hot, k, tj[k], err) : BR_OK;
+        if (rc != BR_OK)
+            return rc;
+    }
+    return BR_OK;
+}
+
+/* The period taken at the assumed junction temperatures (w->hot) passes
+ * as the loop of steady.c passes: the temperatures its losses give lie
+ * within BR_THERMAL_TOL of those assumed (w->ss[i].thermal is then set).
+ * Otherwise the quasi-Newton steps go on from it at the temperatures
+ * found, a pass each, up to BR_THERMAL_PASSES.  A state that does not
+ * pass keeps thermal at 0 (a link that runs away, steps that do not
+ * settle, temperatures that keep moving). */
+static int qn_thermal(workspace *w, int i, br_error *err)
+{
+    br_steady *ss = &w->ss[i];
+    int rc = BR_OK, taken = 1;
+    for (int pass = 1; rc == BR_OK && taken && pass <= BR_THERMAL_PASSES; pass++) {
+        double moved;
+        if ((rc = br_steady_temperatures(&w->hot, ss, &moved, err)) != BR_OK)
+            break;
+        int runaway = 0;
+        for (int k = 1; k < w->c.n; k++)
+            runaway |= ss->runaway[k];
+        if (runaway)
+            break;
+        if (moved < BR_THERMAL_TOL) {
+            ss->thermal = pass;
+            ss->thermal_settled = 1;
+            break;
+        }
+        /* the diodes of w->hot are at the new temperatures, and the
+         * simulator reads them there: the steps again, their Jacobian
+         * kept, from the state just taken; the best state so far was
+         * at other temperatures, so it is forgotten */
+        w->q.bres = HUGE_VAL;
+        memcpy(w->q.x, ss->x, sizeof w->q.x);
+        if ((rc = qn_period(&w->q, err)) == BR_OK)
+            rc = qn_round(w, 0, ss, &taken, err);
+    }
+    return rc;
+}
+
+/* The quick way where junction temperatures come with the prediction
+ * (spread.h): quasi-Newton steps from the nominal Jacobian with the link
+ * diodes at their predicted temperatures, and the state taken checked by
+ * qn_thermal.  *passed when it passed (w->ss[i] holds it); otherwise
+ * nothing of it is kept, and the point goes the way the full loop
+ * takes. */
+static int from_heat(workspace *w, const double *v, int i, int dir, int *passed, br_pt *out,
+                     br_error *err)
+{
+    trial t = {0};
+    double x[NX];
+    int taken = 0, rc;
+    w->q.periods = 0;
+    predict(w->s, v, i, x);
+    if ((rc = hot_chain(w, v, i, err)) == BR_OK &&
+        (rc = trial_open(&t, &w->hot, dir, br_meter_poll(w->s->meter), err)) == BR_OK &&
+        (rc = qn_start(w, &t, i, x, err)) == BR_OK)
+        rc = qn_round(w, 0, &w->ss[i], &taken, err);
+    if (rc == BR_OK && taken)
+        rc = qn_thermal(w, i, err);
+    *passed = rc == BR_OK && taken && w->ss[i].thermal;
+    out->fast += *passed;
+    out->periods += w->q.periods;
+    br_sim_free(t.sim);
+    return rc;
+}
+
 /* From the prediction: quasi-Newton steps from the nominal Jacobian; the
  * shooting solver's Newton from the best state, and from its own
  * estimate; quasi-Newton steps from a fresh Jacobian at the best state;
@@ -544,9 +655,11 @@ static int steady(workspace *w, const job *jb, const double *v, int i, int dir, 
     }
     if (!jb->predict)
         return solve(w, dir, i, jb->start[i], -1, 1, out, err);
-    int rc = from_prediction(w, v, i, dir, out, err);
-    /* a state taken from the quasi-Newton steps has its junctions at the
-     * ambient: the shooting solver finds their temperatures from it */
+    int passed = 0, rc = predicts_heat(w) ? from_heat(w, v, i, dir, &passed, out, err) : BR_OK;
+    if (rc == BR_OK && !passed)
+        rc = from_prediction(w, v, i, dir, out, err);
+    /* a state taken from the quasi-Newton steps at the ambient: the
+     * shooting solver's loop finds its junction temperatures from it */
     if (rc == BR_OK && br_chain_thermal(&w->c) && !w->ss[i].thermal && w->ss[i].converged) {
         double x[NX];
         memcpy(x, w->ss[i].x, sizeof x);
@@ -642,6 +755,8 @@ static int judge(workspace *w, const job *jb, int i, br_error *err)
                                : fmin(out->headroom, headroom(&w->c, &w->figs[d]));
         if (jb->xout)
             memcpy(jb->xout + ((size_t)i * 2 + (size_t)d) * NX, w->ss[d].x, sizeof(double) * NX);
+        if (jb->tjout)
+            memcpy(jb->tjout + ((size_t)i * 2 + (size_t)d) * NT, w->ss[d].tj, sizeof(double) * NT);
     }
     if (rc == BR_OK) {
         br_verdict_make(&w->c, jb->with_startup ? &w->su : NULL, w->figs, ndir, &w->v);
@@ -759,12 +874,17 @@ static int nominal_values(const br_spread *s, double **out, br_error *err)
  * direction's steady state from. */
 static int judge_nominal(br_spread *s, const double (*start)[NX], br_error *err)
 {
-    double *v, x[2 * NX];
+    double *v, x[2 * NX], tj[2 * NT];
     int rc = nominal_values(s, &v, err);
     if (rc != BR_OK)
         return rc;
-    job jb = {
-        .s = s, .npts = 1, .values = v, .with_startup = s->startup, .out = &s->nominal, .xout = x};
+    job jb = {.s = s,
+              .npts = 1,
+              .values = v,
+              .with_startup = s->startup,
+              .out = &s->nominal,
+              .xout = x,
+              .tjout = tj};
     jb.start[0] = start ? start[0] : NULL;
     jb.start[1] = start ? start[1] : NULL;
     rc = job_status(&jb, run(&jb, err), err);
@@ -772,6 +892,8 @@ static int judge_nominal(br_spread *s, const double (*start)[NX], br_error *err)
     if (rc == BR_OK) {
         memcpy(s->xnom[0], x, sizeof s->xnom[0]);
         memcpy(s->xnom[1], x + NX, sizeof s->xnom[1]);
+        memcpy(s->tjnom[0], tj, sizeof s->tjnom[0]);
+        memcpy(s->tjnom[1], tj + NT, sizeof s->tjnom[1]);
         tally(s, &s->nominal, 1);
         /* predictions from a nominal state that is no periodic state would
          * start every point astray: they start from the estimate instead */
@@ -799,6 +921,18 @@ static double *oat_values(const br_spread *s, const int *todo, int *npts, int *m
     return v;
 }
 
+/* The change one-at-a-time point r made to direction i: its steady state
+ * x (NULL: none known) and junction temperatures tj less the nominal. */
+static void oat_change(br_spread *s, int r, int i, const double *x, const double *tj)
+{
+    double *d = s->dx + ((size_t)r * 2 + (size_t)i) * NX;
+    double *dt = s->dtj + ((size_t)r * 2 + (size_t)i) * NT;
+    for (int q = 0; q < NX; q++)
+        d[q] = x ? x[q] - s->xnom[i][q] : 0.0;
+    for (int k = 0; k < NT; k++)
+        dt[k] = x ? tj[k] - s->tjnom[i][k] : 0.0;
+}
+
 /* Judge the one-at-a-time points of the parameters todo marks. */
 static int judge_oat(br_spread *s, const int *todo, br_error *err)
 {
@@ -806,26 +940,31 @@ static int judge_oat(br_spread *s, const int *todo, br_error *err)
     double *v = map ? oat_values(s, todo, &npts, map) : NULL;
     br_pt *pts = malloc(sizeof(br_pt) * (size_t)(npts + 1));
     double *x = malloc(sizeof(double) * 2 * NX * (size_t)(npts + 1));
-    int rc = (map && v && pts && x) ? BR_OK
-                                    : br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    double *tj = malloc(sizeof(double) * 2 * NT * (size_t)(npts + 1));
+    int rc = (map && v && pts && x && tj)
+                 ? BR_OK
+                 : br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     if (rc == BR_OK && npts > 0) {
         /* from the solver's own estimate, as analyze starts: the nominal
          * state can sit on the wrong side of a link's conduction (a rail
          * above a lowered supply), where Newton's first step goes wild */
-        job jb = {
-            .s = s, .npts = npts, .values = v, .with_startup = s->startup, .out = pts, .xout = x};
+        job jb = {.s = s,
+                  .npts = npts,
+                  .values = v,
+                  .with_startup = s->startup,
+                  .out = pts,
+                  .xout = x,
+                  .tjout = tj};
         rc = job_status(&jb, run(&jb, err), err);
     }
     for (int n = 0; rc == BR_OK && n < npts; n++) {
         int r = map[n];
         s->oat[r] = pts[n];
         for (int i = 0; i < 2; i++) {
-            double *d = s->dx + ((size_t)r * 2 + (size_t)i) * NX;
             /* a state not settled is no sensitivity */
             int known = s->predict && pts[n].status == BR_OK && !(pts[n].unsettled & (1 << i));
-            for (int q = 0; q < NX; q++)
-                d[q] =
-                    known ? x[((size_t)n * 2 + (size_t)i) * NX + (size_t)q] - s->xnom[i][q] : 0.0;
+            oat_change(s, r, i, known ? x + ((size_t)n * 2 + (size_t)i) * NX : NULL,
+                       tj + ((size_t)n * 2 + (size_t)i) * NT);
         }
     }
     if (rc == BR_OK)
@@ -834,6 +973,7 @@ static int judge_oat(br_spread *s, const int *todo, br_error *err)
     free(v);
     free(pts);
     free(x);
+    free(tj);
     return rc;
 }
 
@@ -851,10 +991,22 @@ static int chord_unknowns(const br_chain *c, int *idx)
     return m;
 }
 
+/* c's link diodes at the nominal junction temperatures of direction i,
+ * where the points' quasi-Newton steps take their temperatures from the
+ * prediction (spread.h): the chord Jacobian is then the one they need. */
+static int nominal_heat(const br_spread *s, br_chain *c, int i, br_error *err)
+{
+    int rc = BR_OK;
+    for (int k = 1; rc == BR_OK && k < c->n && !s->thermal_loop; k++)
+        if (c->st[k].diode.rth > 0)
+            rc = br_chain_diode_at(c, k, fmax(s->tjnom[i][k], c->tamb), err);
+    return rc;
+}
+
 /* The inverse of J - I at the nominal steady state of direction i, by
  * finite differences.  m = 0 when that fails (the points then go
  * straight to the shooting solver). */
-static int chord_jacobian(br_spread *s, const br_chain *c, int i, int dir, br_error *err)
+static int chord_jacobian(br_spread *s, br_chain *c, int i, int dir, br_error *err)
 {
     trial t;
     int m = chord_unknowns(c, s->idx[i]), holds, ok = 0;
@@ -862,8 +1014,10 @@ static int chord_jacobian(br_spread *s, const br_chain *c, int i, int dir, br_er
     double *b = malloc(sizeof(double) * (size_t)(m * m + 1));
     size_t *perm = malloc(sizeof(size_t) * (size_t)(m + 1));
     s->hinv[i] = malloc(sizeof(double) * (size_t)(m * m + 1));
-    int rc = b && perm && s->hinv[i] ? trial_open(&t, c, dir, br_meter_poll(s->meter), err)
+    int rc = b && perm && s->hinv[i] ? nominal_heat(s, c, i, err)
                                      : br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    if (rc == BR_OK)
+        rc = trial_open(&t, c, dir, br_meter_poll(s->meter), err);
     if (rc == BR_OK) {
         rc = trial_period(&t, s->xnom[i], y0, &res, &holds, err);
         if (rc == BR_OK)
@@ -913,13 +1067,15 @@ static int alloc_spread(const br_design *d, const br_spread_opts *o, br_spread *
     s->meter = o->meter;
     s->meter_weight = o->meter_weight;
     s->solver_limit = o->solver_limit > 0 ? o->solver_limit : 0;
+    s->thermal_loop = o->thermal_loop;
     int rc = br_tol_list_build(d, &s->tl, err);
     size_t k = (size_t)s->tl.n;
     if (rc == BR_OK) {
         s->oat = calloc(2 * k + 1, sizeof *s->oat);
         s->borrowed = calloc(2 * k + 1, sizeof *s->borrowed);
         s->dx = calloc((2 * k + 1) * 2 * NX, sizeof *s->dx);
-        if (!s->oat || !s->borrowed || !s->dx)
+        s->dtj = calloc((2 * k + 1) * 2 * NT, sizeof *s->dtj);
+        if (!s->oat || !s->borrowed || !s->dx || !s->dtj)
             rc = br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     }
     if (rc != BR_OK) {
@@ -937,6 +1093,7 @@ void br_spread_free(br_spread *s)
     free(s->oat);
     free(s->borrowed);
     free(s->dx);
+    free(s->dtj);
     for (int i = 0; i < 2; i++) {
         free(s->hinv[i]);
     }
@@ -1032,9 +1189,12 @@ static void borrow(br_spread *s, const br_spread *base, int similar, int *todo)
             s->oat[2 * j + e] = base->oat[2 * b + e];
             s->borrowed[2 * j + e] = 1;
             /* a similar part's states say nothing about this one's */
-            if (same)
+            if (same) {
                 memcpy(s->dx + (size_t)(2 * j + e) * 2 * NX,
                        base->dx + (size_t)(2 * b + e) * 2 * NX, sizeof(double) * 2 * NX);
+                memcpy(s->dtj + (size_t)(2 * j + e) * 2 * NT,
+                       base->dtj + (size_t)(2 * b + e) * 2 * NT, sizeof(double) * 2 * NT);
+            }
         }
     }
 }

@@ -24,7 +24,22 @@
  * the shooting solver takes over from the best state so far.  Every
  * figure comes from a simulated period of the point's own chain, within
  * about `accept` of its periodic steady state.
-
+ *
+ * Junction temperatures.  Where link diodes have a thermal resistance,
+ * the prediction carries their temperatures too (the nominal ones plus
+ * their one-at-a-time changes, scaled alike), and the quasi-Newton steps
+ * run with every such diode at its predicted temperature.  The period
+ * taken is checked as the loop of steady.c checks its passes: the
+ * temperatures its losses give must lie within BR_THERMAL_TOL of those
+ * assumed; if not, the steps go on from it at the temperatures found (a
+ * pass, BR_THERMAL_PASSES at most).  So a point's figures are those of a
+ * period within about `accept` of its periodic steady state at junction
+ * temperatures that its own losses reproduce within BR_THERMAL_TOL: what
+ * the full loop accepts.  A point where this does not settle (steps that
+ * stall, a link that runs away) is solved as without the prediction:
+ * quasi-Newton steps with the junctions at the ambient, then the full
+ * loop of shooting passes from the state they reach.
+ *
  * Reproducibility.  A point's result depends only on its values and on
  * the nominal and one-at-a-time results, never on which thread took it or
  * what that thread did before, so any number of threads gives identical
@@ -108,6 +123,9 @@ typedef struct br_spread_opts {
                             many quasi-Newton steps per round, Newton iterations and plain
                             periods; what it cannot settle within them is undetermined
                             (0: the solvers' own bounds) */
+    int thermal_loop;    /* 1: no predicted junction temperatures: every point's steady state
+                            at the ambient, then the full loop of shooting passes (slower;
+                            what the prediction is checked against) */
 } br_spread_opts;
 
 typedef struct br_spread {
@@ -120,6 +138,7 @@ typedef struct br_spread {
     int predict;        /* the nominal point settled every direction, so points start
                            from predictions around it (else from the solver's estimate) */
     int solver_limit;   /* as in the options */
+    int thermal_loop;   /* as in the options */
     double accept;      /* V: as in the options */
     int ndir;           /* current directions analysed (1 or 2) */
     br_pt nominal;      /* every parameter at its nominal value */
@@ -129,7 +148,9 @@ typedef struct br_spread {
                               compare with (the nominal point itself otherwise) */
     double xnom[2][BR_SPREAD_NX]; /* nominal steady state of each direction */
     double *dx; /* [(2j+e) * 2 + i]: steady-state change of direction i at oat[2j+e] */
-    int m[2];   /* chord unknowns of direction i (0: no chord steps) */
+    double tjnom[2][BR_MAX_SWITCHES]; /* nominal junction temperature of each link, K */
+    double *dtj; /* [((2j+e) * 2 + i) * BR_MAX_SWITCHES + k]: its change at oat[2j+e] */
+    int m[2];    /* chord unknowns of direction i (0: no chord steps) */
     int idx[2][BR_SPREAD_NX]; /* their places in the state vector */
     double *hinv[2];          /* m x m inverse of (J - I) at the nominal point, row-major */
     long periods;             /* periods simulated for steady states so far */

@@ -106,6 +106,7 @@ static int last_period(br_sim *s, const br_chain *c, br_startup *r, br_error *er
         peaks[k] = st->link[k].ipeak;
         i2[k] = st->link[k].i2;
     }
+    br_sim_stats_select(s, BR_STATS_ALL); /* the rail's mean, the link's charge */
     br_sim_stats_start(s);
     int rc = br_sim_run_until(s, br_sim_time(s) + c->T, err);
     st = br_sim_stats(s);
@@ -202,6 +203,7 @@ static int run_envelope(const run *u, const br_startup_opts *o, br_startup *r, b
     if (env) {
         r->periods_integrated = br_envelope_count(env)->integrated;
         r->periods_stepped = br_envelope_count(env)->stepped;
+        memcpy(r->integrated_why, br_envelope_count(env)->why, sizeof r->integrated_why);
     }
     br_envelope_free(env);
     return rc;
@@ -227,6 +229,7 @@ static int startup_one(const br_chain *c, int dir, const br_startup_opts *o, int
     br_sim_observer obs = {&w, on_uvlo, on_sample};
     br_sim_set_observer(s, &obs);
     br_sim_set_stop(s, o ? o->progress : NULL);
+    br_sim_set_locator(s, 1); /* crossings in a fifth of the trial steps (engine/sim.h) */
     run u = {c,
              s,
              &w,
@@ -236,6 +239,9 @@ static int startup_one(const br_chain *c, int dir, const br_startup_opts *o, int
              part,
              parts};
     r->pwm_start = br_sim_pwm_start(s);
+    /* over its course a start-up reads the links' i^2 and peaks and the
+     * supply's totals: the other statistics would cost most of each step */
+    br_sim_stats_select(s, BR_STATS_STARTUP);
     br_sim_stats_start(s);
     rc = c->startup_method == BR_SU_PERIODS ? run_periods(&u, r, err) : run_envelope(&u, o, r, err);
     w.end = snap(s);

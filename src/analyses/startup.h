@@ -4,6 +4,7 @@
 #define BR_ANALYSES_STARTUP_H
 
 #include "core/progress.h"
+#include "engine/envelope.h"
 #include "engine/sim.h"
 
 #define BR_MAX_DROPOUT_TIMES 16
@@ -58,6 +59,9 @@ typedef struct br_startup {
      * along the rails' envelope */
     int method;
     long periods_integrated, periods_stepped;
+    /* by envelope: its integrated periods by why (engine/envelope.h; the
+     * last period, integrated for the figures, not among them) */
+    long integrated_why[BR_ENV_WHY_COUNT];
 } br_startup;
 
 /* Optional time series of the cold start. */

@@ -630,9 +630,7 @@ static void link_heat(const br_chain *hot, const br_steady *ss, int k, br_therma
         th->tj = hot->tamb;
 }
 
-/* Every link's temperature for the state ss of the chain hot, kept in
- * ss; the diodes of hot are resolved there.  *moved: the largest move, K. */
-static int next_temperatures(br_chain *hot, br_steady *ss, double *moved, br_error *err)
+int br_steady_temperatures(br_chain *hot, br_steady *ss, double *moved, br_error *err)
 {
     *moved = 0.0;
     for (int k = 1; k < hot->n; k++) {
@@ -689,7 +687,7 @@ static int solve_thermal(const br_chain *c, int dir, const br_steady_opts *o, br
             moved = HUGE_VAL;
             break;
         }
-        rc = next_temperatures(hot, out, &moved, err);
+        rc = br_steady_temperatures(hot, out, &moved, err);
         memcpy(guess, out->x, sizeof guess);
         oo.guess = guess;
     }

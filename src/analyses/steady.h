@@ -66,6 +66,14 @@ typedef struct br_steady {
 #define BR_THERMAL_PASSES 10
 #define BR_THERMAL_TOL 0.05 /* K */
 
+/* One step of the loop: every link's junction temperature from the
+ * losses of the period ss->stats, simulated with the diodes of hot at
+ * their temperatures (the losses other than leakage held, the leakage
+ * following its law through the period's mean reverse voltage), kept in
+ * ss (tj, runaway, onsets); the diodes of hot are resolved at them.
+ * *moved: the largest change of a temperature, K. */
+int br_steady_temperatures(br_chain *hot, br_steady *ss, double *moved, br_error *err);
+
 /* 1 when ss simulated a period whose figures can be read: its
  * simulation did not fail and the leg's cells did not collapse. */
 static inline int br_steady_has_period(const br_steady *ss)

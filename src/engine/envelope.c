@@ -51,6 +51,7 @@ struct br_envelope {
     int have_B;
     int var_next; /* the next period integrates the variational equation */
     long kmax;    /* longest next step the error control allows */
+    int refused;  /* a step was thrown away since the last one kept */
     br_env_count count;
 };
 
@@ -342,8 +343,10 @@ static void remember(br_envelope *e, int quiet, int var, const double *a, const 
     e->have_last = 1;
 }
 
-/* Integrate one period (or what is left to t_goal) and learn from it. */
-static int integrate(br_envelope *e, double t_goal, br_error *err)
+/* Integrate one period (or what is left to t_goal) and learn from it;
+ * why: what kept it from being stepped over, unless the period itself
+ * saw something discrete. */
+static int integrate(br_envelope *e, double t_goal, int why, br_error *err)
 {
     br_sim *s = e->s;
     double t = br_sim_time(s), tn = fmin(t + e->T, t_goal);
@@ -359,6 +362,8 @@ static int integrate(br_envelope *e, double t_goal, br_error *err)
         return rc;
     br_sim_vc(s, pa);
     br_sim_window_quad(s, h);
+    int seen = br_sim_window_why(s);
+    e->count.why[seen != BR_WIN_QUIET ? seen : var ? BR_ENV_WHY_MODEL : why]++;
     remember(e, whole && br_sim_window_quiet(s), var, a, pa, h);
     br_sim_set_variational(s, 0);
     e->var_next = e->have_last && !e->have_B && worth_variational(e, tn, t_goal);
@@ -431,6 +436,7 @@ static int keep(br_envelope *e, const step_plan *sp, double t, const double *pl,
     memcpy(e->h, hb, sizeof(double) * (size_t)e->nq);
     e->count.stepped += sp->k;
     e->count.integrated++;
+    e->count.why[BR_ENV_WHY_LANDING]++;
     e->count.steps++;
     return BR_OK;
 }
@@ -455,6 +461,7 @@ static int try_step(br_envelope *e, const step_plan *sp, int *kept, br_error *er
             br_sim_restore(s, e->snap);
         br_error_clear(err);
         e->count.rejected++;
+        e->refused = 1;
         e->kmax = (long)fmax(1.0, floor(0.25 * (double)sp->k));
         return BR_OK;
     }
@@ -475,18 +482,32 @@ static int try_step(br_envelope *e, const step_plan *sp, int *kept, br_error *er
         broyden(e->B, dx, dp, e->n);
     if (!quiet || !(est <= BR_ENV_TOL)) {
         e->count.rejected++;
+        e->refused = 1;
         e->kmax = (long)fmax(1.0, floor(sp->k * (quiet ? fmin(f, 0.5) : 0.25)));
         if (!e->replay) /* back to where the step began, the work counted */
             br_sim_restore(s, e->snap);
         return BR_OK;
     }
-    e->kmax = (long)fmin((double)BR_ENV_KMAX, floor(sp->k * fmin(f, 4.0)));
+    /* the first step kept after one thrown away does not grow: the
+     * estimate just failed to see the error coming (as after a rejected
+     * Runge-Kutta step: Hairer, Norsett and Wanner, Solving Ordinary
+     * Differential Equations I, section II.4); growing again at once
+     * threw every other step away in the tail of reference c2 */
+    double grow = e->refused ? 1.0 : 4.0;
+    e->refused = 0;
+    e->kmax = (long)fmin((double)BR_ENV_KMAX, floor(sp->k * fmin(f, grow)));
     *kept = 1;
     return keep(e, sp, t, pl, errv, hb, err);
 }
 
 int br_envelope_advance(br_envelope *e, double t_goal, br_error *err)
 {
+    /* a quiet last period with no model and none coming: a step would
+     * not get far enough to pay for it (worth_variational) */
+    int building = !e->have_last || (!e->have_B && e->var_next);
+    int why = building                   ? BR_ENV_WHY_MODEL
+              : e->have_B && e->kmax < 2 ? BR_ENV_WHY_REJECTED /* the error control's */
+                                         : BR_ENV_WHY_AHEAD;
     for (int tries = 0; e->have_last && e->have_B && tries < BR_ENV_TRIES; tries++) {
         long k = plan(e, br_sim_time(e->s), t_goal);
         if (k < 2)
@@ -496,6 +517,7 @@ int br_envelope_advance(br_envelope *e, double t_goal, br_error *err)
         int kept, rc = try_step(e, &sp, &kept, err);
         if (rc != BR_OK || kept)
             return rc;
+        why = BR_ENV_WHY_REJECTED;
     }
-    return integrate(e, t_goal, err);
+    return integrate(e, t_goal, why, err);
 }

@@ -49,12 +49,30 @@
 
 typedef struct br_envelope br_envelope;
 
+/* Why a period was integrated rather than stepped over: something
+ * discrete happened in it (BR_WIN_UVLO, BR_WIN_SUPPLY, BR_WIN_SCHEDULE of
+ * engine/sim.h, the same numbers); the model of the period map was being
+ * built after such a period (the first quiet period after it, the one
+ * with the variational equation); a UVLO threshold, a scheduled change or
+ * the goal lay within reach of any step (or of one long enough to pay for
+ * the variational equation); the error control threw the steps tried
+ * away, or allows none of two periods yet; or it was the landing period
+ * of a step kept. */
+enum {
+    BR_ENV_WHY_MODEL = BR_WIN_SCHEDULE + 1,
+    BR_ENV_WHY_AHEAD,
+    BR_ENV_WHY_REJECTED,
+    BR_ENV_WHY_LANDING,
+    BR_ENV_WHY_COUNT
+};
+
 /* What the driver did so far. */
 typedef struct br_env_count {
-    long integrated; /* periods integrated (each partial period counts once) */
-    long stepped;    /* periods stepped over along the envelope */
-    long steps;      /* steps along the envelope kept */
-    long rejected;   /* steps thrown away by the error control */
+    long integrated;            /* periods integrated (each partial period counts once) */
+    long stepped;               /* periods stepped over along the envelope */
+    long steps;                 /* steps along the envelope kept */
+    long rejected;              /* steps thrown away by the error control */
+    long why[BR_ENV_WHY_COUNT]; /* the integrated periods by why (why[0]: none) */
 } br_env_count;
 
 /* A driver for simulator s (kept by pointer, must outlive it), which

@@ -70,7 +70,7 @@ void br_sim_live_rebuild(br_sim *s)
     s->nlive = 0;
     for (int k = 0; k < s->n; k++)
         for (int f = 0; f < NF; f++)
-            if (f <= F_Q || s->stats_on)
+            if (f <= F_Q || (s->stats_on && br_sim_quad_kept(s, k, f)))
                 s->live[s->nlive++] = XI(k, f);
     for (int i = s->phi0; i < s->nx; i++)
         s->live[s->nlive++] = i;
@@ -1048,6 +1048,11 @@ void br_sim_stats_start(br_sim *s)
     br_sim_live_rebuild(s);
 }
 
+void br_sim_stats_select(br_sim *s, br_stats_set set)
+{
+    s->stats_set = set;
+}
+
 /* fmin and fmax, inlined (they are library calls), and like them passing
  * over a NaN in b. */
 static inline double lower(double a, double b)
@@ -1065,7 +1070,9 @@ void br_sim_track_extremes(br_sim *s, double t)
         br_sim_window_track(s);
     if (!s->stats_on)
         return;
-    for (int k = 0; k < s->n; k++) {
+    for (int k = 1; s->stats_set == BR_STATS_STARTUP && k < s->n; k++)
+        s->st.link[k].ipeak = higher(s->st.link[k].ipeak, br_sim_forward(s, k));
+    for (int k = 0; s->stats_set != BR_STATS_STARTUP && k < s->n; k++) {
         br_rail_stats *r = &s->st.rail[k];
         double vd = br_sim_vdrv(s, k, s->vr[k]);
         r->vmin = lower(r->vmin, s->vr[k]);
@@ -1123,6 +1130,20 @@ static void budget_stats(br_sim *s)
     s->st.e_stored = stored_energy(s, x) - stored_energy(s, q0);
 }
 
+/* The figures a start-up's statistics do not keep (BR_STATS_STARTUP)
+ * read NaN: whatever reads one by mistake shows it. */
+static void unkept(const br_sim *s, br_stats *st)
+{
+    for (int k = 0; k < s->n; k++) {
+        br_rail_stats *r = &st->rail[k];
+        br_link_stats *l = &st->link[k];
+        *r = (br_rail_stats){NAN, NAN, NAN, NAN, NAN, NAN, NAN, NAN, NAN, NAN, NAN, NAN, NAN};
+        *l =
+            (br_link_stats){NAN, l->i2, l->ipeak, NAN, NAN, NAN, NAN, NAN, NAN, NAN, NAN, NAN, NAN};
+    }
+    st->e_rsupply = st->e_stored = NAN;
+}
+
 const br_stats *br_sim_stats(br_sim *s)
 {
     br_stats *st = &s->st;
@@ -1141,5 +1162,7 @@ const br_stats *br_sim_stats(br_sim *s)
     st->qsupply = x[X_SQ] - q0[X_SQ];
     st->esupply = x[X_SE] - q0[X_SE];
     budget_stats(s);
+    if (s->stats_set == BR_STATS_STARTUP)
+        unkept(s, st);
     return st;
 }

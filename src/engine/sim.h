@@ -142,6 +142,19 @@ int br_sim_enabled(const br_sim *s, int k);
 void br_sim_stats_start(br_sim *s);
 const br_stats *br_sim_stats(br_sim *s);
 
+/* Which statistics are kept, from the next br_sim_stats_start on. */
+typedef enum br_stats_set {
+    BR_STATS_ALL = 0, /* every figure of br_stats (the default) */
+    /* what a start-up reads over its course: each link's forward i^2 and
+     * peak current, the supply's charge, energy, time in its limit and
+     * peak current.  The other figures are not kept and read NaN: the
+     * Runge-Kutta steps carry about a fifth of the entries on a 12-switch
+     * chain, and no other extreme is tracked.  The rails, the steps and
+     * the figures kept are those of every statistic kept, bit for bit. */
+    BR_STATS_STARTUP = 1
+} br_stats_set;
+void br_sim_stats_select(br_sim *s, br_stats_set set);
+
 void br_sim_set_observer(br_sim *s, const br_sim_observer *obs);
 
 /* Integrate the sensitivity of the rail voltages to their values at the
@@ -244,6 +257,14 @@ void br_sim_window_begin(br_sim *s);
  * so that the period it spans could repeat. */
 int br_sim_window_quiet(const br_sim *s);
 
+/* What kept the window from being a period that could repeat: a driver
+ * started or dropped out in it (BR_WIN_UVLO); the supply ramped, soft-
+ * started, limited its current or was off, or a loaded line cycle moved
+ * on (BR_WIN_SUPPLY); a pre-charge step ended or the load current started
+ * (BR_WIN_SCHEDULE); nothing (BR_WIN_QUIET).  The first that applies. */
+enum { BR_WIN_QUIET = 0, BR_WIN_UVLO, BR_WIN_SUPPLY, BR_WIN_SCHEDULE };
+int br_sim_window_why(const br_sim *s);
+
 /* Whether something discrete may change by absolute time t_end if every
  * rail (capacitor voltage) moves by dvc[k] from where it stood over the
  * window: a scheduled change (pre-charge step, supply ramp, load current)
@@ -303,8 +324,8 @@ void br_sim_take_work(br_sim *dst, const br_sim *src);
 int br_sim_charge(br_sim *s, unsigned long units, br_error *err);
 
 /* How a UVLO crossing inside a step is located, to the same bracket
- * (1e-9 of the step): by bisection (0, the default and the reference) or
- * by regula falsi (1: a fifth of the trial steps; the envelope path). */
+ * (1e-9 of the step): by bisection (0, the default) or by regula falsi
+ * (1: a fifth of the trial steps; every start-up, by either method). */
 void br_sim_set_locator(br_sim *s, int secant);
 
 /* The longest lifetime of a link diode's stored charge, s (0: none). */

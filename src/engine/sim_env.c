@@ -131,6 +131,18 @@ static double next_scheduled(const br_sim *s)
     return t;
 }
 
+int br_sim_window_why(const br_sim *s)
+{
+    const br_sim_win *w = &s->win;
+    if (w->toggles > 0)
+        return BR_WIN_UVLO;
+    if (ramping(s, w->t0) || next_scheduled(s) <= s->t)
+        return BR_WIN_SUPPLY;
+    if (!w->on || w->pre_idx != s->pre_idx || w->loaded != s->loaded || s->frozen)
+        return BR_WIN_SCHEDULE;
+    return BR_WIN_QUIET;
+}
+
 /* Does driver k come within guard of its threshold with its rail's
  * extremes over the window moved by dv?  A running driver toggles at the
  * falling threshold, one held in UVLO at the rising one. */

@@ -222,6 +222,7 @@ struct br_sim {
     void *gsl_step;         /* rk8pd stepper of the reference path */
     /* results */
     int stats_on;
+    int stats_set; /* br_stats_set: what they keep */
     br_stats st;
     double quad0[X_SIZE]; /* quadratures when stats started */
     br_sim_observer obs;
@@ -274,6 +275,16 @@ void br_sim_cache_esr(br_sim *s);
 
 /* Rebuild the list of live entries after stats or sensitivity change. */
 void br_sim_live_rebuild(br_sim *s);
+
+/* Is entry f (a quadrature, f > F_Q) of stage k kept by the statistics
+ * selected (br_stats_set)?  A start-up's: each link's forward i^2 and
+ * the supply's charge, energy and time in its limit. */
+static inline int br_sim_quad_kept(const br_sim *s, int k, int f)
+{
+    if (s->stats_set != BR_STATS_STARTUP)
+        return 1;
+    return k == 0 ? f == F_LQ || f == F_LI2 || f == F_LR : f == F_LI2;
+}
 
 /* Continuous equations of the interval seg at time t: fills dx (X_SIZE)
  * and the workspace il/vr/ic.  Shared by both integrators. */

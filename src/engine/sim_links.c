@@ -364,6 +364,20 @@ static void quadratures(br_sim *s, double t, const double *x, double *dx)
     dx[X_SL] = s->sup_lim;
 }
 
+/* The few a start-up reads (BR_STATS_STARTUP, br_sim_quad_kept): each
+ * link's forward i^2, the supply's charge, energy and time in its limit. */
+static void startup_quadratures(br_sim *s, double t, const double *x, double *dx)
+{
+    for (int k = 1; k < s->n; k++) {
+        double fw = br_sim_forward(s, k);
+        dx[XI(k, F_LI2)] = fw * fw;
+    }
+    double isup = supply_current(s, t, x, s->n > 1 ? s->il[1] : 0.0);
+    dx[X_SQ] = isup;
+    dx[X_SE] = isup * supply_at(&s->seg, t);
+    dx[X_SL] = s->sup_lim;
+}
+
 void br_sim_clamp_limit(br_sim *s)
 {
     for (int k = 1; k < s->n; k++) {
@@ -424,8 +438,10 @@ void br_sim_rhs(br_sim *s, double t, const double *x, double *dx)
     }
     if (br_sim_bypass(s))
         dx[XI(0, F_VC)] = s->ic[0] / s->c->csupply;
-    if (s->stats_on || s->integ == BR_INTEG_REFERENCE)
+    if (s->integ == BR_INTEG_REFERENCE || (s->stats_on && s->stats_set != BR_STATS_STARTUP))
         quadratures(s, t, x, dx);
+    else if (s->stats_on)
+        startup_quadratures(s, t, x, dx);
     if (s->var)
         variational(s, t, x, dx);
 }

@@ -2,7 +2,9 @@
  * integrated, side by side in one run.  Run on demand:
  *   make bench_startup && ./bench_startup [RUNS]
  *     every design below, RUNS runs of each method in turn (default 11): medians
- *     of wall-clock time, the periods each integrated and stepped over;
+ *     of wall-clock time, the periods each integrated and stepped over, and
+ *     why the envelope integrated the periods it did (the events of the
+ *     start-up each need theirs);
  *   ./bench_startup RUNS DESIGN METHOD
  *     one design (a path) by one method (envelope or periods), for
  *     valgrind --tool=callgrind (instruction counts, which the machine's
@@ -99,6 +101,19 @@ typedef struct bench_case {
     double t_max; /* s, 0: the design's */
 } bench_case;
 
+/* Why the envelope integrated the periods it did (engine/envelope.h). */
+static void why_line(const char *name, const br_startup *su)
+{
+    const long *w = su->integrated_why;
+    printf("%-34s %6ld %6ld %6ld %6ld %6ld %6ld %6ld %6ld\n", name, w[BR_WIN_UVLO],
+           w[BR_WIN_SUPPLY], w[BR_WIN_SCHEDULE], w[BR_ENV_WHY_MODEL], w[BR_ENV_WHY_AHEAD],
+           w[BR_ENV_WHY_REJECTED], w[BR_ENV_WHY_LANDING], su->periods_integrated);
+}
+
+static br_startup why_su[16];
+static const char *why_name[16];
+static int nwhy;
+
 static void one_case(const bench_case *bc, int runs)
 {
     br_design *d = open_design(bc->path);
@@ -118,6 +133,10 @@ static void one_case(const bench_case *bc, int runs)
            1e3 * tm[BR_SU_ENVELOPE], tm[BR_SU_PERIODS] / tm[BR_SU_ENVELOPE],
            su[BR_SU_PERIODS].periods_integrated, su[BR_SU_ENVELOPE].periods_integrated,
            su[BR_SU_ENVELOPE].periods_stepped);
+    if (nwhy < 16) {
+        why_su[nwhy] = su[BR_SU_ENVELOPE];
+        why_name[nwhy++] = bc->name;
+    }
     br_chain_free(c);
     br_design_free(d);
 }
@@ -141,6 +160,16 @@ static void all_cases(int runs)
            "envelope");
     for (size_t i = 0; i < sizeof cases / sizeof cases[0]; i++)
         one_case(&cases[i], runs);
+    printf("\nwhy the envelope integrated its periods: a driver started or dropped out in it"
+           "\n(uvlo); the supply ramped, limited or was off (supply); a pre-charge step ended or"
+           "\nthe load started (sched); the model was being built after such a period (model); a"
+           "\nthreshold, a scheduled change or the end lay within reach (ahead); the error control"
+           "\nrefused the steps or allowed none yet (error); the landing period of a step kept"
+           "\n(land); total with the last period, integrated for the figures\n");
+    printf("%-34s %6s %6s %6s %6s %6s %6s %6s %6s\n", "design", "uvlo", "supply", "sched", "model",
+           "ahead", "error", "land", "total");
+    for (int i = 0; i < nwhy; i++)
+        why_line(why_name[i], &why_su[i]);
 }
 
 /* One design by one method, for callgrind. */

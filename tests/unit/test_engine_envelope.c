@@ -237,6 +237,27 @@ static void test_charge(void)
     br_design_free(d);
 }
 
+/* The driver's account of why it integrated its periods covers each of
+ * them once; each period with a UVLO transition (ev, loop boundaries at
+ * multiples of T) is one where a driver toggled, and each kept step has
+ * its landing period. */
+static void why_counted(const br_env_count *n, const events *ev, double T)
+{
+    long sum = 0, toggled = 0, last = -1;
+    for (int w = 1; w < BR_ENV_WHY_COUNT; w++)
+        sum += n->why[w];
+    CU_ASSERT_EQUAL(n->why[0], 0);
+    CU_ASSERT_EQUAL(sum, n->integrated);
+    CU_ASSERT_EQUAL(n->why[BR_ENV_WHY_LANDING], n->steps);
+    for (int i = 0; i < ev->n; i++) {
+        long p = (long)floor(ev->t[i] / T);
+        toggled += p != last;
+        last = p;
+    }
+    CU_ASSERT_TRUE(toggled > 0);
+    CU_ASSERT_EQUAL(n->why[BR_WIN_UVLO], toggled);
+}
+
 /* The driver on the same leg: it steps over most of the 300 periods to
  * its goal and lands within its tolerance of every period integrated,
  * with the same UVLO transitions and the same integrals behind the
@@ -287,7 +308,48 @@ static void test_driver_lands(void)
     CU_ASSERT_EQUAL_FATAL(ev[0].n, ev[1].n);
     for (int i = 0; i < ev[0].n; i++)
         BR_ASSERT_NEAR(ev[1].t[i], ev[0].t[i], 1e-9);
+    why_counted(n, &ev[1], T);
     br_envelope_free(e);
+    br_sim_free(a);
+    br_sim_free(b);
+    br_chain_free(c);
+    br_design_free(d);
+}
+
+/* A start-up's statistics (BR_STATS_STARTUP) against every one kept,
+ * over a cold start of 150 periods with its hiccups: the same rails and
+ * transitions bit for bit, and the same figures a start-up reads (each
+ * link's i^2 and peak, the supply's charge, energy, time in its limit and
+ * peak); the others are not kept and read NaN. */
+static void test_startup_stats(void)
+{
+    br_design *d;
+    br_chain *c = leg(&d);
+    br_sim *a = cold(c), *b = cold(c);
+    br_error err;
+    double va[2 * N], vb[2 * N];
+    br_sim_stats_select(b, BR_STATS_STARTUP);
+    br_sim_stats_start(a);
+    br_sim_stats_start(b);
+    CU_ASSERT_EQUAL_FATAL(br_sim_run_until(a, 150 * c->T, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_sim_run_until(b, 150 * c->T, &err), BR_OK);
+    br_sim_state(a, va);
+    br_sim_state(b, vb);
+    CU_ASSERT_EQUAL(memcmp(va, vb, sizeof(double) * 2 * (size_t)c->n), 0);
+    CU_ASSERT_EQUAL(br_sim_evals(a), br_sim_evals(b));
+    const br_stats *sa = br_sim_stats(a), *sb = br_sim_stats(b);
+    for (int k = 1; k < c->n; k++) {
+        CU_ASSERT_TRUE(sa->link[k].i2 > 0.0);
+        CU_ASSERT_EQUAL(sb->link[k].i2, sa->link[k].i2);
+        CU_ASSERT_EQUAL(sb->link[k].ipeak, sa->link[k].ipeak);
+        CU_ASSERT_TRUE(isnan(sb->rail[k].vint)); /* not kept */
+        CU_ASSERT_TRUE(isnan(sb->rail[k].vmin));
+        CU_ASSERT_TRUE(isnan(sb->link[k].q));
+    }
+    CU_ASSERT_EQUAL(sb->qsupply, sa->qsupply);
+    CU_ASSERT_EQUAL(sb->esupply, sa->esupply);
+    CU_ASSERT_EQUAL(sb->t_limit, sa->t_limit);
+    CU_ASSERT_EQUAL(sb->isup_peak, sa->isup_peak);
     br_sim_free(a);
     br_sim_free(b);
     br_chain_free(c);
@@ -303,6 +365,7 @@ int main(void)
         {"regula falsi and bisection find the same crossings", test_locators_agree},
         {"the envelope's work counts and polls", test_charge},
         {"the driver lands where every period lands", test_driver_lands},
+        {"a start-up's statistics are those of every statistic kept", test_startup_stats},
         {NULL, NULL}};
     return br_test_main("engine/envelope", cases);
 }
