@@ -225,6 +225,8 @@ int br_line_csv(const br_chain *c, const br_line_env *e, br_text *csv)
             rc |= csv_block(csv, hi ? e->vmax : e->vmin, r, e->n, 0);
             rc |= br_text_put(csv, ","); /* supply_A: the envelope keeps none */
             rc |= csv_links(csv, e, r, dt);
+            for (int k = 1; k < e->n; k++) /* disp_: the envelope keeps none */
+                rc |= br_text_put(csv, ",");
             rc |= csv_block(csv, hi ? e->dmax : e->dmin, r, e->n, 0);
             if (hi) {
                 rc |= csv_block(csv, e->vrev, r, e->n, 1);
