@@ -140,7 +140,7 @@ int br_cli_analysis(int argc, char **argv, const char *about, int parts)
         {BR_OPT_STRING, "plot", "PATH", &p.plot,
          parts == BR_RUN_STARTUP
              ? "also plot the rail waveforms from cold as SVG to PATH"
-             : "also plot the ripple nearest UVLO (a line cycle: envelope) as SVG to PATH"},
+             : "also plot the steady ripple (a line cycle: the envelope) as SVG to PATH"},
         {BR_OPT_FLAG, "quiet", NULL, &quiet, BR_QUIET_HELP},
         {BR_OPT_STRING, "solver-limit", "N", &limit,
          "steady-state solver: at most N Newton iterations and N plain periods"},

@@ -17,7 +17,7 @@
 /* Exit statuses, the same for every verb (README: "Exit status").  The
  * interrupted ones follow the shells' 128 + signal number. */
 enum {
-    BR_EXIT_OK = 0,            /* done; every criterion evaluated passes */
+    BR_EXIT_OK = 0,            /* done; every criterion judged passes */
     BR_EXIT_FAIL = 1,          /* done; a design criterion fails */
     BR_EXIT_INPUT = 2,         /* not done: bad input, bad usage or an I/O error */
     BR_EXIT_UNDETERMINED = 3,  /* done; nothing fails but a criterion could not be

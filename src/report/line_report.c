@@ -35,7 +35,7 @@ const char *br_line_describe(const br_chain *c, char *buf, size_t cap)
 int br_line_heading(const br_chain *c, br_text *out)
 {
     char what[160], t[24], line[320];
-    int n = snprintf(line, sizeof line, "%s, switches at %.0f C; ",
+    int n = snprintf(line, sizeof line, "%s, switches at %.0f degC; ",
                      br_line_describe(c, what, sizeof what), c->tj - KELVIN);
     size_t at = n > 0 && (size_t)n < sizeof line ? (size_t)n : 0;
     if (c->load_from < HUGE_VAL)
