@@ -277,6 +277,57 @@ static void plot_of(const char *const *args, const char *plot, const char *repor
     }
 }
 
+/* One verb's --report: an XHTML page with the verdict first as a badge
+ * (its class the outcome the status gives), the terminal report's text in
+ * it (want), the caution last. */
+static void report_of(const char *const *args, const char *html, int status, const char *badge,
+                      const char *want)
+{
+    run_result r = run(args);
+    CU_ASSERT_EQUAL(r.status, status);
+    if (r.status != status)
+        fprintf(stderr, "%s: status %d: %s\n", args[0], r.status, r.err);
+    done(&r);
+    char *text = NULL;
+    xmlDocPtr doc = parse_file(html, &text);
+    CU_ASSERT_STRING_EQUAL(xmlDocGetRootElement(doc)->name, "html");
+    const char *b = strstr(text, badge), *w = strstr(text, want);
+    const char *caution = strstr(text, "lethal voltages");
+    CU_ASSERT_TRUE(b && w && caution && b < w && w < caution);
+    if (!b || !w)
+        fprintf(stderr, "%s: missing [%s] or [%s]\n", args[0], badge, want);
+    CU_ASSERT_PTR_NULL(strstr(text, "<script"));
+    xmlFreeDoc(doc);
+    free(text);
+    unlink(html);
+}
+
+/* check, corners, pick and supply take --report like the other verbs: a
+ * design review holds the chain, the worst-case table and the chosen
+ * parts as pages. */
+static void test_text_verb_reports(void)
+{
+    char dir[64], html[96];
+    temp_dir(dir, sizeof dir);
+    snprintf(html, sizeof html, "%s/v.html", dir);
+    const char *f = "examples/demo-3level.xml", *cat = "examples/parts/catalog.xml";
+    const char *ck[] = {"check", f, "--report", html, NULL};
+    report_of(ck, html, 0, "badge pass\">PASS", "stages (bottom to top;");
+    const char *cn[] = {"corners", f, "--report", html, NULL};
+    report_of(cn, html, 1, "badge fail\">FAIL", "worst corner of each criterion");
+    const char *pk[] = {"pick", f, "--catalog", cat, "--report", html, NULL};
+    report_of(pk, html, 1, "badge fail\">FAIL", "verdict: FAIL, no choice passes");
+    const char *sp[] = {"supply", f, "--report", html, NULL};
+    report_of(sp, html, 1, "badge fail\">FAIL", "at the design's own supply");
+    /* the page is one of the verb's outputs: never the design itself */
+    const char *same[] = {"corners", f, "--report", f, NULL};
+    run_result r = run(same);
+    CU_ASSERT_EQUAL(r.status, 2);
+    done(&r);
+    const char *names[] = {"v.html", NULL};
+    remove_all(dir, names);
+}
+
 static void test_every_plot_parses(void)
 {
     char dir[64], svg[96], html[96];
@@ -397,6 +448,7 @@ int main(void)
     static const br_test_case cases[] = {
         {"analyze --report: parses, self-contained, points are CSV rows", test_analyze_report},
         {"every verb's --plot and --report parse", test_every_plot_parses},
+        {"check, corners, pick, supply: --report", test_text_verb_reports},
         {"steady --plot draws the direction nearest UVLO", test_steady_plot_binding_direction},
         {"undetermined verdict in the report", test_undetermined_report},
         {"unwritable or clashing outputs: status 2", test_unwritable_report},
