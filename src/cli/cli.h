@@ -199,4 +199,11 @@ int cmd_supply(int argc, char **argv);
  * help text `about`, the analyses `parts` (BR_RUN_* of report/results.h). */
 int br_cli_analysis(int argc, char **argv, const char *about, int parts);
 
+/* `analyze --pack DIR`: every verb run on design (and pick on catalog,
+ * may be NULL) into the new folder dir with an index page, the design
+ * copied in, checksums and the command lines (pack.c).  Returns the exit
+ * status: 2 when it could not be made (nothing is left behind), else the
+ * verbs' statuses together (1 a criterion fails, 3 undetermined). */
+int br_cli_pack(const char *dir, const char *design, const char *catalog, int quiet);
+
 #endif

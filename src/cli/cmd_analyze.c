@@ -19,6 +19,10 @@ int cmd_analyze(int argc, char **argv)
         "too, the steady state being over the whole line period). Exit status 0 when\n"
         "every criterion judged passes (a warning does not count), 1 when one\n"
         "fails, 2 for bad input, 3 when none fails but one is undetermined (a solver\n"
-        "did not converge, a simulation failed or reached its work limit).\n",
+        "did not converge, a simulation failed or reached its work limit).\n"
+        "--pack DIR writes the sign-off pack instead: every verb run on the design\n"
+        "into the new folder DIR (each one's HTML page, text, XML and CSV), the\n"
+        "design copied in, index.html linking them with the model's assumptions and\n"
+        "each part's source, SHA256SUMS and commands.sh to run them again there.\n",
         BR_RUN_ALL);
 }
