@@ -14,7 +14,7 @@
 #define PAD_TOP 50.0
 #define PAD_BOTTOM 46.0
 #define PAD_LEFT 74.0
-#define PAD_RIGHT 150.0
+#define PAD_RIGHT 215.0
 #define STRIP_BASE 7.0 /* marker labels' baseline above the plot area, px */
 #define LINE_H 14.0    /* one line of label text, px */
 #define CHAR_W 8.2     /* a character of 13 px bold text, px, generously */
@@ -454,6 +454,70 @@ int br_plot_limit(br_plot *p, double y, const br_style *st, const char *key, con
     label_lines(p, p->x0 + p->w + 6, label_slot(p, py + 4.5, count_lines(label)), st->colour,
                 label);
     return 1;
+}
+
+/* The line of a limit across the area, named key, without its label. */
+static void limit_line(br_plot *p, double y, const br_style *st, const char *key)
+{
+    double py = br_plot_py(p, y);
+    int rc = br_text_printf(p->svg->out, "<line data-limit=\"");
+    rc |= br_xml_escape_put(p->svg->out, key ? key : "");
+    rc |= br_text_printf(p->svg->out,
+                         "\" data-value=\"%.10g\" x1=\"%.2f\" y1=\"%.2f\" x2=\"%.2f\" y2=\"%.2f\" "
+                         "stroke=\"%s\" stroke-width=\"%.2f\"",
+                         y, p->x0, py, p->x0 + p->w, py, st->colour, st->width);
+    if (st->dash)
+        rc |= br_text_printf(p->svg->out, " stroke-dasharray=\"%s\"", st->dash);
+    rc |= br_text_put(p->svg->out, "/>\n");
+    if (rc)
+        p->svg->failed = 1;
+}
+
+/* Label tops for n labels wanted at tops want[] (sorted, top first) of
+ * heights h[]: each at its place or just below the one above, then, where
+ * that runs past the panel's foot, pushed back up; in the order of their
+ * lines. */
+static void stack_labels(const br_plot *p, int n, const double *want, const double *h, double *top)
+{
+    for (int i = 0; i < n; i++)
+        top[i] = i ? fmax(want[i], top[i - 1] + h[i - 1]) : fmax(want[i], p->fy + 2.0);
+    double foot = p->fy + p->fh - 2.0;
+    for (int i = n - 1; i >= 0; i--) {
+        double limit = i == n - 1 ? foot : top[i + 1];
+        top[i] = fmin(top[i], limit - h[i]);
+    }
+}
+
+void br_plot_limits(br_plot *p, int n, const double *y, const br_style *const *st,
+                    const char *const *key, const char *const *label)
+{
+    int order[BR_PLOT_LIMITS], m = 0;
+    double want[BR_PLOT_LIMITS], h[BR_PLOT_LIMITS], top[BR_PLOT_LIMITS];
+    for (int i = 0; i < n && m < BR_PLOT_LIMITS; i++)
+        if (y[i] >= p->ymin && y[i] <= p->ymax)
+            order[m++] = i;
+    for (int i = 1; i < m; i++) /* top first: the highest value */
+        for (int j = i; j > 0 && y[order[j - 1]] < y[order[j]]; j--) {
+            int t = order[j];
+            order[j] = order[j - 1];
+            order[j - 1] = t;
+        }
+    for (int i = 0; i < m; i++) {
+        int lines = count_lines(label[order[i]]);
+        h[i] = LINE_H * lines + 2.0;
+        /* the first line's middle on the limit */
+        want[i] = br_plot_py(p, y[order[i]]) - 0.5 * LINE_H;
+    }
+    stack_labels(p, m, want, h, top);
+    double xl = p->x0 + p->w;
+    for (int i = 0; i < m; i++) {
+        const br_style *s = st[order[i]];
+        double py = br_plot_py(p, y[order[i]]);
+        limit_line(p, y[order[i]], s, key[order[i]]);
+        /* a leader from the line's end to its label when it had to move */
+        br_svg_line(p->svg, xl, py, xl + 6, top[i] + 0.5 * LINE_H, s->colour, 1.0);
+        label_lines(p, xl + 8, top[i] + LINE_H - 3.0, s->colour, label[order[i]]);
+    }
 }
 
 /* The left edge of a marker label of width w near centre x in the strip,

@@ -100,6 +100,16 @@ void br_plot_hline(br_plot *p, double y, const br_style *st, const char *label);
  * must show a limit sets its range to take it in. */
 int br_plot_limit(br_plot *p, double y, const br_style *st, const char *key, const char *label);
 
+/* n limits at once (at most BR_PLOT_LIMITS): each a line as
+ * br_plot_limit draws it, their labels (one or two lines) in the right
+ * margin in the order of their lines, each beside its line or, where
+ * lines lie closer than their labels are tall, stacked and joined to it
+ * by a short leader; never over the plot area.  Limits outside the y
+ * range are left out. */
+#define BR_PLOT_LIMITS 8
+void br_plot_limits(br_plot *p, int n, const double *y, const br_style *const *st,
+                    const char *const *key, const char *const *label);
+
 /* A vertical marker at x across the plot area, named key (data-mark,
  * with data-value x), its label in the strip above the area, clear of
  * the other markers' labels and of every trace.  Nothing when x lies
