@@ -8,13 +8,20 @@
 #include "runbin.h"
 #include "testkit.h"
 
+#include <fcntl.h>
 #include <libxml/parser.h>
 #include <libxml/tree.h>
+#include <signal.h>
+#include <spawn.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
+#include <sys/wait.h>
+#include <time.h>
 #include <unistd.h>
+
+extern char **environ;
 
 #define DEMO "examples/demo-3level.xml"
 #define CATALOG "examples/parts/catalog.xml"
@@ -185,11 +192,37 @@ static void test_pack_refused(void)
     CU_ASSERT_EQUAL(rmdir(d), 0); /* empty: nothing was left in it */
 }
 
+/* Ctrl-C while the verbs run (the 12-switch demo's take minutes): the
+ * running verb is stopped, status 130, "bootrung: interrupted", and
+ * neither the folder nor its temporary is left. */
+static void test_pack_interrupted(void)
+{
+    char d[] = "/tmp/br-pack-XXXXXX", p[96];
+    CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(d));
+    snprintf(p, sizeof p, "%s/review", d);
+    char *argv[] = {"bootrung", "analyze", "--pack", p, "examples/leg-7level.xml", NULL};
+    posix_spawn_file_actions_t fa;
+    posix_spawn_file_actions_init(&fa);
+    posix_spawn_file_actions_addopen(&fa, 1, "/dev/null", O_WRONLY, 0);
+    posix_spawn_file_actions_addopen(&fa, 2, "/dev/null", O_WRONLY, 0);
+    pid_t pid;
+    CU_ASSERT_EQUAL_FATAL(posix_spawn(&pid, BR_BINARY, &fa, NULL, argv, environ), 0);
+    posix_spawn_file_actions_destroy(&fa);
+    const struct timespec wait = {1, 500 * 1000 * 1000};
+    nanosleep(&wait, NULL);
+    kill(pid, SIGINT);
+    int st = 0;
+    CU_ASSERT_EQUAL(waitpid(pid, &st, 0), pid);
+    CU_ASSERT_TRUE(WIFEXITED(st) && WEXITSTATUS(st) == 130);
+    CU_ASSERT_EQUAL(rmdir(d), 0); /* empty: no pack, no temporary folder */
+}
+
 int main(void)
 {
     static const br_test_case cases[] = {
         {"analyze --pack: a folder to review and reproduce from", test_pack},
         {"--pack refused: nothing left behind", test_pack_refused},
+        {"--pack interrupted: nothing left behind", test_pack_interrupted},
         {NULL, NULL},
     };
     return br_test_main("cli_pack", cases);
