@@ -37,9 +37,12 @@ static int para(br_text *out, const char *text)
     return br_html_para(out, text);
 }
 
+/* Cells wrap: the verdicts and file lists are long. */
+#define TD "<td class=\"l\" style=\"white-space:normal\">"
+
 static int cell(br_text *out, const char *text)
 {
-    int rc = br_text_put(out, "<td class=\"l\">");
+    int rc = br_text_put(out, TD);
     rc |= br_html_text(out, text);
     return rc | br_text_put(out, "</td>");
 }
@@ -90,7 +93,7 @@ static int step_row(br_text *out, const br_pack_step *s)
                                           : "undet");
     rc |= br_html_text(out, b) | br_text_put(out, "</td>");
     rc |= cell(out, s->verdict);
-    rc |= br_text_put(out, "<td class=\"l\">");
+    rc |= br_text_put(out, TD);
     for (int i = 0; i < s->nfile; i++)
         rc |= (i ? br_text_put(out, " ") : 0) | link(out, s->file[i]);
     return rc | br_text_put(out, "</td></tr>\n");
