@@ -75,6 +75,10 @@ int br_design_load_memory(const char *buf, size_t len, const char *name, br_desi
 void br_design_free(br_design *d);
 /* The RELAX NG schema the loader enforces (NUL-terminated). */
 const char *br_design_schema(void);
+/* The design file's own notes: its XML comments in order, each as "-
+ * text" on a line of its own (white space run together), appended to out.
+ * Read as safely as a load reads it. */
+int br_design_notes(const char *path, br_text *out, br_error *err);
 
 /* ---- the chain model --------------------------------------------------- */
 

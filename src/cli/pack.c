@@ -378,6 +378,13 @@ int br_cli_pack(const char *dir, const char *design, const char *catalog, int qu
         br_design_free(d);
         return br_cli_fail(&err, design);
     }
+    br_text *notes = br_text_create();
+    if (notes && br_design_notes(design, notes, &err) != BR_OK) {
+        br_text_free(notes);
+        br_chain_free(c);
+        br_design_free(d);
+        return br_cli_fail(&err, design);
+    }
     char tmp[PATH_CAP];
     br_pack *p = calloc(1, sizeof *p);
     int status = BR_EXIT_INPUT;
@@ -386,6 +393,7 @@ int br_cli_pack(const char *dir, const char *design, const char *catalog, int qu
                 p ? strerror(errno) : "out of memory");
     } else {
         p->version = BR_VERSION;
+        p->notes = notes ? br_text_data(notes) : NULL;
         p->design_path = design;
         p->catalog_path = catalog;
         br_cli_run lr;
@@ -403,6 +411,7 @@ int br_cli_pack(const char *dir, const char *design, const char *catalog, int qu
     if (status == BR_EXIT_OK)
         status = summary(dir, p, quiet);
     free(p);
+    br_text_free(notes);
     br_chain_free(c);
     br_design_free(d);
     return status;

@@ -163,12 +163,12 @@ static int part_row(br_text *out, const char *kind, const char *id, const char *
     return rc | br_text_put(out, "</tr>\n");
 }
 
-static int sources_section(br_text *out, const br_design *d)
+static int sources_section(br_text *out, const br_design *d, const char *notes)
 {
     static const char *const h[] = {"part", "id", "source of its values"};
     int rc = br_html_section(out, "Where the parameters come from",
-                             "Each part's source attribute as the design file states it; the "
-                             "design file's own notes are its comments (design.xml).");
+                             "Each part's source attribute as the design file states it, then "
+                             "the design file's own notes.");
     rc |= head(out, h, 3);
     for (int k = 0; d && k < d->ndiodes; k++)
         rc |= part_row(out, "diode", d->diodes[k].id, d->diodes[k].source);
@@ -182,6 +182,13 @@ static int sources_section(br_text *out, const br_design *d)
         rc |= part_row(out, d->aux[k].kind == BR_AUX_LDO ? "regulator" : "clamp", d->aux[k].id,
                        d->aux[k].source);
     rc |= br_text_put(out, "</tbody></table>\n");
+    rc |= br_html_para(out, notes && notes[0] ? "The design file's own notes (its comments):"
+                                              : "The design file has no notes (no comments).");
+    if (notes && notes[0]) {
+        rc |= br_text_put(out, "<pre style=\"white-space:pre-wrap\">");
+        rc |= br_html_text(out, notes);
+        rc |= br_text_put(out, "</pre>\n");
+    }
     return rc | br_html_section_end(out);
 }
 
@@ -191,7 +198,7 @@ int br_pack_index(const br_chain *c, const br_pack *p, br_text *out)
     rc |= steps_section(out, p);
     rc |= reproduce_section(out, p);
     rc |= assumptions_section(out);
-    rc |= sources_section(out, c->design);
+    rc |= sources_section(out, c->design, p->notes);
     rc |= br_html_end(out);
     return rc ? BR_ENOMEM : BR_OK;
 }

@@ -32,6 +32,7 @@ typedef struct br_pack {
     char design_sha[65];      /* of design.xml, the copy in the folder */
     const char *catalog_path; /* as given, NULL: none */
     char catalog_sha[65];     /* of catalog.xml */
+    const char *notes;        /* the design file's comments (br_design_notes), NULL: none */
     br_pack_step step[BR_PACK_STEPS];
     int nstep;
 } br_pack;

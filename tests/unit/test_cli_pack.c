@@ -133,6 +133,8 @@ static void test_pack(void)
     CU_ASSERT_TRUE(has(index, "assumptions</h2>"));
     CU_ASSERT_TRUE(has(index, "Edge overshoot: a fixed fraction"));
     CU_ASSERT_TRUE(has(index, "invented for the demo, rev 2"));
+    /* and the design file's own notes, its comments */
+    CU_ASSERT_TRUE(has(index, "- demo-3level.xml - a small invented design to try bootrung on."));
     CU_ASSERT_TRUE(has(index, "lethal voltages"));
     free(index);
     CU_ASSERT_TRUE(sums_hold() >= 20);
