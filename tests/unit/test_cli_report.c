@@ -254,6 +254,45 @@ static void test_analyze_report(void)
     remove_all(dir, names);
 }
 
+/* The largest value series draws in panel (the points mapped back to
+ * data), and one pixel's worth of value there; NaN when not found. */
+static double plotted_max(xmlNodePtr n, const char *panel, const char *series, double *pixel)
+{
+    for (; n; n = n->next) {
+        if (n->type != XML_ELEMENT_NODE)
+            continue;
+        xmlChar *name = xmlGetProp(n, BAD_CAST "data-panel");
+        int match = name && strcmp((const char *)name, panel) == 0;
+        xmlFree(name);
+        if (!match) {
+            double m = plotted_max(n->children, panel, series, pixel);
+            if (!isnan(m))
+                return m;
+            continue;
+        }
+        frame f = {prop(n, "data-xmin"), prop(n, "data-xmax"), prop(n, "data-ymin"),
+                   prop(n, "data-ymax"), prop(n, "data-px0"),  prop(n, "data-py0"),
+                   prop(n, "data-pw"),   prop(n, "data-ph")};
+        *pixel = (f.ymax - f.ymin) / f.ph;
+        double most = NAN, px, py;
+        for (xmlNodePtr l = n->children; l; l = l->next) {
+            xmlChar *key = xmlGetProp(l, BAD_CAST "data-series");
+            xmlChar *pts = key && strcmp((const char *)key, series) == 0
+                               ? xmlGetProp(l, BAD_CAST "points")
+                               : NULL;
+            for (const char *p = (const char *)pts; p && sscanf(p, "%lf,%lf", &px, &py) == 2;
+                 p = strchr(p, ' '), p = p ? p + 1 : NULL) {
+                double v = f.ymax - (py - f.py0) / f.ph * (f.ymax - f.ymin);
+                most = isnan(most) ? v : fmax(most, v);
+            }
+            xmlFree(pts);
+            xmlFree(key);
+        }
+        return most;
+    }
+    return NAN;
+}
+
 /* The data-value of the first <line data-limit="key"> after from, or NaN. */
 static double limit_at(const char *from, const char *key)
 {
@@ -304,6 +343,23 @@ static void test_report_agrees(void)
     CU_ASSERT_TRUE(has(text, "data-series=\"disp_"));
     CU_ASSERT_TRUE(has(text, ">displacement peak<"));
     CU_ASSERT_TRUE(has(text, "displacement current (peak "));
+    /* the diode plot's forward current reaches the forward peak of the
+     * results (link A1 stepping up, the most stressed diode): the plot
+     * is thinned to each pixel column's lowest and highest sample */
+    char *xr = br_test_slurp(xmlp, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(xr);
+    const char *upx = strstr(xr, "<steady direction=\"step-up\"");
+    const char *a1 = upx ? strstr(upx, "<link index=\"11\" switch=\"A1\"") : NULL;
+    const char *pk = a1 ? strstr(a1, " peak-A=\"") : NULL;
+    CU_ASSERT_PTR_NOT_NULL_FATAL(pk);
+    double ipeak = strtod(pk + 9, NULL), pixel = 0.0;
+    free(xr);
+    xmlDocPtr doc = parse_file(html, NULL);
+    double drawn =
+        plotted_max(xmlDocGetRootElement(doc), "diode-step-up-A1-i", "link_A1_A", &pixel);
+    xmlFreeDoc(doc);
+    CU_ASSERT_TRUE(ipeak > 0.1); /* 783 mA: a peak worth drawing */
+    BR_ASSERT_NEAR(drawn, ipeak, 0.06 * pixel + 1e-6 * ipeak);
     /* charges in nC, never a bare C */
     CU_ASSERT_TRUE(has(text, ">0 nC<"));
     /* our own palette: not the code-hosting site's grey for code blocks */
