@@ -10,16 +10,16 @@ _bootrung_options()
 {
     local common="--quiet --help"
     case $1 in
-    check) echo "--strict $common" ;;
+    check) echo "--strict --report $common" ;;
     startup) echo "--xml --csv --report --plot --solver-limit --startup-method $common" ;;
     steady) echo "--xml --csv --report --plot --solver-limit $common" ;;
-    analyze) echo "--xml --csv --report --solver-limit --startup-method $common" ;;
+    analyze | analyse) echo "--xml --csv --report --pack --catalog --solver-limit --startup-method $common" ;;
     window) echo "--xml --report --plot --fmin --fmax --startup --startup-method $common" ;;
     map) echo "--duty --freq --csv --svg --plot --report --threads $common" ;;
-    corners) echo "--xml --exhaustive --no-startup --solver-limit --startup-method --threads $common" ;;
+    corners) echo "--xml --report --exhaustive --no-startup --solver-limit --startup-method --threads $common" ;;
     yield) echo "--samples --seed --startup --min-yield --xml --csv --report --plot --solver-limit --startup-method --threads $common" ;;
-    pick) echo "--catalog --top --min-margin --no-startup --no-per-rail --xml --solver-limit --startup-method --threads $common" ;;
-    supply) echo "--xml --threads --startup-method $common" ;;
+    pick) echo "--catalog --top --min-margin --no-startup --no-per-rail --xml --report --solver-limit --startup-method --threads $common" ;;
+    supply) echo "--xml --report --threads --startup-method $common" ;;
     netlist) echo "--out --current --periods $common" ;;
     esac
 }
@@ -48,6 +48,10 @@ _bootrung()
     --xml | --csv | --report | --plot | --svg | --out)
         compopt -o filenames 2>/dev/null
         COMPREPLY=($(compgen -f -- "$cur"))
+        return ;;
+    --pack)
+        compopt -o dirnames 2>/dev/null
+        COMPREPLY=($(compgen -d -- "$cur"))
         return ;;
     --catalog)
         compopt -o filenames 2>/dev/null

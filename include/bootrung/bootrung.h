@@ -86,6 +86,10 @@ BR_API int br_design_load_memory(const char *buf, size_t len, const char *name, 
 BR_API void br_design_free(br_design *d);
 /* The RELAX NG schema the loader enforces (NUL-terminated). */
 BR_API const char *br_design_schema(void);
+/* The design file's own notes: its XML comments in order, each as "-
+ * text" on a line of its own (white space run together), appended to out.
+ * Read as safely as a load reads it. */
+BR_API int br_design_notes(const char *path, br_text *out, br_error *err);
 
 /* ---- the chain model --------------------------------------------------- */
 

@@ -30,6 +30,8 @@ typedef struct br_link_fig {
     double vrrm;              /* rating, V (0: not given) */
     double share;             /* vrev_stress / vrrm (0 when unrated) */
     double iavg, irms, ipeak; /* forward current figures, A */
+    double idisp;             /* largest displacement current of the junction capacitance
+                                 (Cj dv/dt at the edges), either sign, A */
     double qrr;               /* recovery charge per period, C */
     double irrm;              /* peak recovery current, A */
     double p_cond, p_rr;      /* conduction and recovery power, W */

@@ -205,6 +205,11 @@ static void stats_merge(line_run *lr, const br_stats *p, long m)
         r->vmax = fmax(r->vmax, q->vmax);
         r->icap2 += q->icap2;
         r->qload += q->qload;
+        r->e_load += q->e_load;
+        r->e_run += q->e_run;
+        r->e_standby += q->e_standby;
+        r->e_gate += q->e_gate;
+        r->e_clamp += q->e_clamp;
         keep_max(&r->vc_max, &lr->at_vcap[k], q->vc_max, m);
         br_link_stats *l = &t->link[k];
         const br_link_stats *b = &p->link[k];
@@ -214,11 +219,25 @@ static void stats_merge(line_run *lr, const br_stats *p, long m)
         keep_max(&l->vrev_peak, &lr->at_vrev[k], b->vrev_peak, m);
         l->qrr += b->qrr;
         l->irrm = fmax(l->irrm, b->irrm);
+        l->dpeak = fmax(l->dpeak, b->dpeak);
         l->e_cond += b->e_cond;
         l->e_rr += b->e_rr;
+        l->e_leak += b->e_leak;
+        l->e_other += b->e_other;
+        l->e_res += b->e_res;
+        l->e_sw += b->e_sw;
+        l->e_stage += b->e_stage;
     }
+    /* every energy of the budget is a sum over the line period, so that
+     * the losses balance what the supply and the power stage deliver */
     t->qsupply += p->qsupply;
     t->esupply += p->esupply;
+    t->e_rsupply += p->e_rsupply;
+    t->isup_peak = fmax(t->isup_peak, p->isup_peak);
+    t->t_limit += p->t_limit;
+    t->lim_stretch = fmax(t->lim_stretch, p->lim_stretch);
+    t->sup_trips += p->sup_trips;
+    t->e_stored += p->e_stored;
 }
 
 /* The next switching period of a map, recorded when asked. */

@@ -705,6 +705,7 @@ static void compact(const br_verdict *v, br_pt *out)
         pr->warn = (signed char)vr->warn;
         pr->undetermined = (signed char)vr->undetermined;
         pr->dir = (signed char)vr->dir;
+        pr->aux = (signed char)vr->aux;
         pr->stage = (short)vr->stage;
         pr->figure = vr->figure;
         pr->limit = vr->limit;

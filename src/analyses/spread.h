@@ -77,6 +77,7 @@ typedef struct br_pt_row {
                                      figure and margin are NaN or from another
                                      direction, and mean nothing alone */
     signed char dir;              /* br_dir_index where it binds */
+    signed char aux;              /* the binding part is rail `stage`'s regulator or clamp */
     short stage;                  /* binding rail or link, -1 when none */
     double figure, limit, margin; /* in the criterion's unit */
 } br_pt_row;

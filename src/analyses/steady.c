@@ -63,8 +63,7 @@ typedef struct shoot {
     int idx[NX];     /* position in the full x of unknown i */
     double base[NX]; /* full x the unknowns are written into */
     long periods;
-    int dropped;    /* a driver toggled during the last map */
-    int have_stats; /* out->stats already hold the converged period */
+    int dropped; /* a driver toggled during the last map */
 } shoot;
 
 static void on_uvlo(void *ctx, const br_uvlo_event *e)
@@ -313,11 +312,8 @@ static int shoot_variational(shoot *sh, double *z, const br_steady_opts *o, br_s
          * stepping back and forth; a state that already repeats within
          * the tolerance is then the answer. */
         int stalled = it >= 3 && step > 0.5 * last_step && out->residual <= o->tol;
-        if ((ok = (step <= o->tol || stalled) && !sh->dropped)) {
-            out->stats = *br_sim_stats(sh->sim);
-            sh->have_stats = 1;
+        if ((ok = (step <= o->tol || stalled) && !sh->dropped))
             break;
-        }
         out->iterations = it + 1;
         limit_step(sh, dz);
         for (int i = 0; i < m; i++)
@@ -463,21 +459,24 @@ static int plain(shoot *sh, double *x, const br_steady_opts *o, br_steady *out, 
     return BR_OK;
 }
 
-/* Simulate from x: the period's figures, and the drift over more periods. */
+/* Simulate from x: the period's figures, and the drift over more periods.
+ * The figures' period is simulated as br_steady_replay simulates it (no
+ * sensitivities, a fresh start at the quiet phase), so that a replay for
+ * the samples of a plot or a file reaches the same extremes. */
 static int finish(shoot *sh, const double *x, const br_steady_opts *o, br_steady *out,
                   br_error *err)
 {
     double after[NX];
-    int checks = o->check_periods > 0 ? o->check_periods : 1, rc = BR_OK;
+    int checks = 1 + (o->check_periods > 0 ? o->check_periods : 1), rc;
+    br_sim_set_variational(sh->sim, 0);
     br_sim_reset_running_at(sh->sim, x, sh->phase);
     sh->dropped = 0;
-    if (!sh->have_stats) {
-        br_sim_stats_start(sh->sim);
-        rc = br_sim_run_until(sh->sim, sh->c->T, err);
-        out->stats = *br_sim_stats(sh->sim);
-        sh->periods++;
-        checks++;
-    }
+    br_sim_stats_start(sh->sim);
+    rc = br_sim_run_until(sh->sim, sh->c->T, err);
+    out->stats = *br_sim_stats(sh->sim);
+    sh->periods++;
+    for (int k = 1; k < sh->c->n; k++)
+        out->tj_run[k] = sh->c->st[k].diode.tj;
     if (rc == BR_OK)
         rc = br_sim_run_until(sh->sim, checks * sh->c->T, err);
     sh->periods += o->check_periods > 0 ? o->check_periods : 1;
@@ -705,5 +704,47 @@ int br_steady_solve(const br_chain *c, int dir, const br_steady_opts *o, br_stea
         return solve_thermal(c, dir, o, out, err);
     int rc = solve_electrical(c, dir, o, out, err);
     temperatures_of(c, out);
+    return rc;
+}
+
+/* ---- a replay for samples -------------------------------------------------- */
+
+static int replay_run(const br_chain *c, const br_steady *ss, const br_sim_observer *first,
+                      const br_sim_observer *then, int more, const br_progress *progress,
+                      br_error *err)
+{
+    br_sim *sim;
+    int rc = br_sim_create(c, ss->dir, BR_INTEG_FAST, &sim, err);
+    if (rc != BR_OK)
+        return rc;
+    br_sim_set_stop(sim, progress);
+    br_sim_set_observer(sim, first);
+    br_sim_reset_running_at(sim, ss->x, ss->phase);
+    rc = br_sim_run_until(sim, c->T, err);
+    if (rc == BR_OK && then && more > 0) {
+        br_sim_set_observer(sim, then);
+        rc = br_sim_run_until(sim, (1 + more) * c->T, err);
+    }
+    br_sim_free(sim);
+    return rc;
+}
+
+int br_steady_replay(const br_chain *c, const br_steady *ss, const br_sim_observer *first,
+                     const br_sim_observer *then, int more, const br_progress *progress,
+                     br_error *err)
+{
+    if (!ss->thermal)
+        return replay_run(c, ss, first, then, more, progress, err);
+    br_chain *hot = malloc(sizeof *hot);
+    if (!hot)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory for the temperatures");
+    *hot = *c;
+    int rc = BR_OK;
+    for (int k = 1; k < c->n && rc == BR_OK; k++)
+        if (ss->tj_run[k] != hot->st[k].diode.tj)
+            rc = br_chain_diode_at(hot, k, ss->tj_run[k], err);
+    if (rc == BR_OK)
+        rc = replay_run(hot, ss, first, then, more, progress, err);
+    free(hot);
     return rc;
 }

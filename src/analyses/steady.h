@@ -47,6 +47,9 @@ typedef struct br_steady {
     int thermal;                       /* temperature passes run (0: junctions at the ambient) */
     int thermal_settled;               /* the last pass moved them by less than BR_THERMAL_TOL */
     double tj[BR_MAX_SWITCHES];        /* link k's junction temperature, K */
+    double tj_run[BR_MAX_SWITCHES];    /* link k's junction temperature in the period
+                                          the figures come from, K (the pass before
+                                          the last move of the temperatures) */
     int runaway[BR_MAX_SWITCHES];      /* link k has no temperature where it holds */
     double onset_tj[BR_MAX_SWITCHES];  /* link k: junction temperature where it would run
                                           away, K (HUGE_VAL: never) */
@@ -131,6 +134,17 @@ void br_steady_opts_default(br_steady_opts *o);
  * poll of o->progress asks to stop. */
 int br_steady_solve(const br_chain *c, int dir, const br_steady_opts *o, br_steady *out,
                     br_error *err);
+
+/* Simulate again, for the samples of a plot or a file, the period the
+ * figures of ss (solved for c, not on a line cycle) come from: from ss->x
+ * at its quiet phase, every link diode at the temperature that period was
+ * simulated at; the observer `first` sees that period (its extremes are
+ * the figures'), `then` (may be NULL) the `more` periods after it.  Time
+ * 0 of the samples is ss->phase into the PWM period.  BR_ECANCEL when the
+ * stop poll of progress (may be NULL) asks to stop. */
+int br_steady_replay(const br_chain *c, const br_steady *ss, const br_sim_observer *first,
+                     const br_sim_observer *then, int more, const br_progress *progress,
+                     br_error *err);
 
 /* A quiet instant of the period: as far as possible from every edge,
  * gate pulse and ramp. */

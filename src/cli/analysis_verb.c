@@ -124,39 +124,72 @@ static int solver_limit(const char *verb, const char *text, br_steady_opts *so)
     return BR_EXIT_OK;
 }
 
+/* The verb's options: --plot only where there is one plot (startup,
+ * steady), --startup-method where a start-up runs, --pack and --catalog
+ * on analyze. */
+static int verb_options(br_opt *o, int parts, paths *p, int *quiet, const char **limit,
+                        const char **method, const char **pack, const char **catalog)
+{
+    int n = 0;
+    /* "-" for any sends it to stdout in place of the text report */
+    o[n++] = (br_opt){BR_OPT_STRING, "xml", "PATH", &p->xml,
+                      "also write the results as XML to PATH (- stdout)"};
+    o[n++] = (br_opt){BR_OPT_STRING, "csv", "PATH", &p->csv,
+                      "also write the time series as CSV to PATH (- stdout)"};
+    o[n++] = (br_opt){BR_OPT_STRING, "report", "PATH", &p->report,
+                      "also write a self-contained HTML report with plots to PATH"};
+    if (parts != BR_RUN_ALL) /* analyze has many plots: they are in the report */
+        o[n++] = (br_opt){BR_OPT_STRING, "plot", "PATH", &p->plot,
+                          parts == BR_RUN_STARTUP
+                              ? "also plot the rail waveforms from cold as SVG to PATH"
+                              : "also plot the steady ripple (a line cycle: the envelope) as SVG "
+                                "to PATH"};
+    if (parts == BR_RUN_ALL) {
+        o[n++] =
+            (br_opt){BR_OPT_STRING, "pack", "DIR", pack,
+                     "write the sign-off pack (every verb's pages and files) to new folder DIR"};
+        o[n++] = (br_opt){BR_OPT_STRING, "catalog", "PARTS.xml", catalog,
+                          "with --pack: the catalog pick chooses from"};
+    }
+    o[n++] = (br_opt){BR_OPT_FLAG, "quiet", NULL, quiet, BR_QUIET_HELP};
+    o[n++] = (br_opt){BR_OPT_STRING, "solver-limit", "N", limit,
+                      "steady-state solver: at most N Newton iterations and N plain periods"};
+    if (parts != BR_RUN_STEADY) /* no start-up: no method for it */
+        o[n++] = (br_opt){BR_OPT_STRING, "startup-method", "M", method, BR_STARTUP_METHOD_HELP};
+    o[n] = (br_opt){BR_OPT_END, NULL, NULL, NULL, NULL};
+    return n;
+}
+
+/* --pack runs every verb with its defaults, into files of its own. */
+static int pack_usage(const paths *p, const char *limit, const char *method, const char *pack,
+                      const char *catalog)
+{
+    if (catalog && !pack)
+        return br_cli_usage_error("analyze", "--catalog goes with --pack");
+    if (pack && (p->xml || p->csv || p->report || limit || method))
+        return br_cli_usage_error("analyze", "--pack writes every file itself and runs every "
+                                             "verb with its defaults, expected it without --xml, "
+                                             "--csv, --report, --solver-limit, --startup-method");
+    return BR_EXIT_OK;
+}
+
 int br_cli_analysis(int argc, char **argv, const char *about, int parts)
 {
     paths p = {0};
     int quiet = 0;
-    const char *limit = NULL, *method = NULL;
+    const char *limit = NULL, *method = NULL, *pack = NULL, *catalog = NULL;
     int su_method = BR_SU_ENVELOPE;
-    br_opt opts[] = {
-        /* "-" for any sends it to stdout in place of the text report */
-        {BR_OPT_STRING, "xml", "PATH", &p.xml, "also write the results as XML to PATH (- stdout)"},
-        {BR_OPT_STRING, "csv", "PATH", &p.csv,
-         "also write the time series as CSV to PATH (- stdout)"},
-        {BR_OPT_STRING, "report", "PATH", &p.report,
-         "also write a self-contained HTML report with plots to PATH"},
-        {BR_OPT_STRING, "plot", "PATH", &p.plot,
-         parts == BR_RUN_STARTUP
-             ? "also plot the rail waveforms from cold as SVG to PATH"
-             : "also plot the ripple nearest UVLO (a line cycle: envelope) as SVG to PATH"},
-        {BR_OPT_FLAG, "quiet", NULL, &quiet, BR_QUIET_HELP},
-        {BR_OPT_STRING, "solver-limit", "N", &limit,
-         "steady-state solver: at most N Newton iterations and N plain periods"},
-        {BR_OPT_STRING, "startup-method", "M", &method, BR_STARTUP_METHOD_HELP},
-        {BR_OPT_END, NULL, NULL, NULL, NULL},
-    };
-    if (parts == BR_RUN_STEADY) /* no start-up: no method for it */
-        opts[sizeof opts / sizeof opts[0] - 2] = opts[sizeof opts / sizeof opts[0] - 1];
-    if (parts == BR_RUN_ALL) /* analyze has many plots: they are in the report */
-        for (int i = 3; opts[i].type != BR_OPT_END; i++)
-            opts[i] = opts[i + 1];
+    br_opt opts[12];
+    verb_options(opts, parts, &p, &quiet, &limit, &method, &pack, &catalog);
     const br_cmd_doc doc = {argv[0], "FILE", about, opts, 1};
     char *pos[1];
     int parsed = br_cli_parse(&doc, argc, argv, pos);
     if (parsed != 0)
         return br_cli_parse_status(parsed);
+    if (pack_usage(&p, limit, method, pack, catalog) != BR_EXIT_OK)
+        return BR_EXIT_INPUT;
+    if (pack)
+        return br_cli_pack(pack, pos[0], catalog, quiet);
     const char *const out[] = {p.xml, p.csv, p.report, p.plot};
     const char *const names[] = {"xml", "csv", "report", "plot"};
     if (br_cli_outputs(argv[0], names, out, 4, (const char *const *)pos, 1) != BR_EXIT_OK)

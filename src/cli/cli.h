@@ -17,7 +17,7 @@
 /* Exit statuses, the same for every verb (README: "Exit status").  The
  * interrupted ones follow the shells' 128 + signal number. */
 enum {
-    BR_EXIT_OK = 0,            /* done; every criterion evaluated passes */
+    BR_EXIT_OK = 0,            /* done; every criterion judged passes */
     BR_EXIT_FAIL = 1,          /* done; a design criterion fails */
     BR_EXIT_INPUT = 2,         /* not done: bad input, bad usage or an I/O error */
     BR_EXIT_UNDETERMINED = 3,  /* done; nothing fails but a criterion could not be
@@ -199,5 +199,12 @@ int cmd_netlist(int argc, char **argv);
 /* The shared body of the analysis verbs: options --xml/--csv/--quiet, the
  * help text `about`, the analyses `parts` (BR_RUN_* of report/results.h). */
 int br_cli_analysis(int argc, char **argv, const char *about, int parts);
+
+/* `analyze --pack DIR`: every verb run on design (and pick on catalog,
+ * may be NULL) into the new folder dir with an index page, the design
+ * copied in, checksums and the command lines (pack.c).  Returns the exit
+ * status: 2 when it could not be made (nothing is left behind), else the
+ * verbs' statuses together (1 a criterion fails, 3 undetermined). */
+int br_cli_pack(const char *dir, const char *design, const char *catalog, int quiet);
 
 #endif

@@ -4,6 +4,7 @@
 
 #include "core/error.h"
 #include "report/corners_report.h"
+#include "report/verb_pages.h"
 
 #include <string.h>
 
@@ -28,8 +29,10 @@ static const char ABOUT[] =
     "criterion passes at its worst corner, 1 when one fails, 3 when none fails\n"
     "but one is undetermined somewhere, 2 for bad input.\n";
 
+static const char *const VERDICT[] = {"verdict at the worst corners:", NULL};
+
 typedef struct args {
-    const char *xml, *threads, *exhaustive, *limit, *method;
+    const char *xml, *report, *threads, *exhaustive, *limit, *method;
     int no_startup, quiet;
     int su_method; /* br_su_method */
 } args;
@@ -64,7 +67,7 @@ typedef struct outputs {
     br_design *d;
     br_chain *c;
     br_corners *k;
-    br_text *text, *xml;
+    br_text *text, *xml, *html;
 } outputs;
 
 static void outputs_free(outputs *o)
@@ -74,6 +77,7 @@ static void outputs_free(outputs *o)
     br_design_free(o->d);
     br_text_free(o->text);
     br_text_free(o->xml);
+    br_text_free(o->html);
 }
 
 static int compute(const char *path, const br_corners_opts *opts, const args *a, outputs *o,
@@ -81,7 +85,8 @@ static int compute(const char *path, const br_corners_opts *opts, const args *a,
 {
     o->text = br_text_create();
     o->xml = a->xml ? br_text_create() : NULL;
-    if (!o->text || (a->xml && !o->xml))
+    o->html = a->report ? br_text_create() : NULL;
+    if (!o->text || (a->xml && !o->xml) || (a->report && !o->html))
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     int rc = br_design_load(path, &o->d, err);
     if (rc == BR_OK) {
@@ -94,17 +99,19 @@ static int compute(const char *path, const br_corners_opts *opts, const args *a,
         rc = br_corners_text(o->c, o->k, o->text);
     if (rc == BR_OK && a->xml)
         rc = br_corners_xml(o->c, o->k, BR_VERSION, o->xml, err);
+    if (rc == BR_OK && a->report)
+        rc = br_text_html(o->c, "worst-case corners", o->k->outcome, VERDICT, 1, o->text, o->html,
+                          err);
     if (rc == BR_ENOMEM && !err->msg[0])
         br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory rendering the report");
     return rc;
 }
 
-/* The XML file first, then the report (unless the XML took stdout). */
+/* The files first, then the report (unless a file took stdout). */
 static int write_all(const args *a, const outputs *o)
 {
-    static const char *const verdict[] = {"verdict at the worst corners:", NULL};
-    const br_cli_file files[] = {{o->xml, a->xml}};
-    return br_cli_write(files, 1, o->text, a->quiet, verdict, 0);
+    const br_cli_file files[] = {{o->xml, a->xml}, {o->html, a->report}};
+    return br_cli_write(files, 2, o->text, a->quiet, VERDICT, 0);
 }
 
 int cmd_corners(int argc, char **argv)
@@ -112,6 +119,8 @@ int cmd_corners(int argc, char **argv)
     args a = {0};
     const br_opt opts[] = {
         {BR_OPT_STRING, "xml", "PATH", &a.xml, "also write the results as XML to PATH (- stdout)"},
+        {BR_OPT_STRING, "report", "PATH", &a.report,
+         "also write a self-contained HTML report to PATH (- stdout)"},
         {BR_OPT_STRING, "exhaustive", "N", &a.exhaustive,
          "try every corner up to N toleranced parameters (default 10, at most 16)"},
         {BR_OPT_FLAG, "no-startup", NULL, &a.no_startup,
@@ -129,9 +138,9 @@ int cmd_corners(int argc, char **argv)
     if (parsed != 0)
         return br_cli_parse_status(parsed);
     br_corners_opts co;
-    const char *const out[] = {a.xml}, *const names[] = {"xml"};
+    const char *const out[] = {a.xml, a.report}, *const names[] = {"xml", "report"};
     if (options(&a, &co) != BR_EXIT_OK ||
-        br_cli_outputs("corners", names, out, 1, (const char *const *)pos, 1) != BR_EXIT_OK)
+        br_cli_outputs("corners", names, out, 2, (const char *const *)pos, 1) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
     outputs o = {0};
     br_error err;

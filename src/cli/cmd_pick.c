@@ -7,6 +7,7 @@
 #include "core/units.h"
 #include "model/catalog.h"
 #include "report/pick_report.h"
+#include "report/verb_pages.h"
 
 #include <string.h>
 
@@ -29,8 +30,10 @@ static const char ABOUT[] =
     "1 when none does, 3 when none passes but some are undetermined, 2 for bad\n"
     "input.\n";
 
+static const char *const VERDICT[] = {"verdict:", NULL};
+
 typedef struct args {
-    const char *catalog, *xml, *threads, *top, *min_margin, *limit, *method;
+    const char *catalog, *xml, *report, *threads, *top, *min_margin, *limit, *method;
     int no_startup, no_per_rail, quiet;
     int su_method; /* br_su_method */
 } args;
@@ -83,7 +86,7 @@ typedef struct outputs {
     br_chain *c;
     br_catalog *cat;
     br_pick *p;
-    br_text *text, *xml;
+    br_text *text, *xml, *html;
 } outputs;
 
 static void outputs_free(outputs *o)
@@ -94,6 +97,7 @@ static void outputs_free(outputs *o)
     br_design_free(o->d);
     br_text_free(o->text);
     br_text_free(o->xml);
+    br_text_free(o->html);
 }
 
 /* Returns a br_status; *culprit is the file a failure is about. */
@@ -102,7 +106,8 @@ static int compute(const char *path, const args *a, const br_pick_opts *po, outp
 {
     o->text = br_text_create();
     o->xml = a->xml ? br_text_create() : NULL;
-    if (!o->text || (a->xml && !o->xml))
+    o->html = a->report ? br_text_create() : NULL;
+    if (!o->text || (a->xml && !o->xml) || (a->report && !o->html))
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     *culprit = path;
     int rc = br_design_load(path, &o->d, err);
@@ -122,17 +127,18 @@ static int compute(const char *path, const args *a, const br_pick_opts *po, outp
         rc = br_pick_text(o->c, o->p, o->text);
     if (rc == BR_OK && a->xml)
         rc = br_pick_xml(o->c, o->p, BR_VERSION, o->xml, err);
+    if (rc == BR_OK && a->report)
+        rc = br_text_html(o->c, "part choice", o->p->outcome, VERDICT, 1, o->text, o->html, err);
     if (rc == BR_ENOMEM && !err->msg[0])
         br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory rendering the report");
     return rc;
 }
 
-/* The XML file first, then the report (unless the XML took stdout). */
+/* The files first, then the report (unless a file took stdout). */
 static int write_all(const args *a, const outputs *o)
 {
-    static const char *const verdict[] = {"verdict:", NULL};
-    const br_cli_file files[] = {{o->xml, a->xml}};
-    return br_cli_write(files, 1, o->text, a->quiet, verdict, 0);
+    const br_cli_file files[] = {{o->xml, a->xml}, {o->html, a->report}};
+    return br_cli_write(files, 2, o->text, a->quiet, VERDICT, 0);
 }
 
 int cmd_pick(int argc, char **argv)
@@ -149,6 +155,8 @@ int cmd_pick(int argc, char **argv)
         {BR_OPT_FLAG, "no-per-rail", NULL, &a.no_per_rail,
          "judge one-part choices only (no per-rail search)"},
         {BR_OPT_STRING, "xml", "PATH", &a.xml, "also write the results as XML to PATH (- stdout)"},
+        {BR_OPT_STRING, "report", "PATH", &a.report,
+         "also write a self-contained HTML report to PATH (- stdout)"},
         {BR_OPT_STRING, "solver-limit", "N", &a.limit,
          "steady-state solver: at most N Newton iterations and plain periods a point"},
         {BR_OPT_STRING, "startup-method", "M", &a.method, BR_STARTUP_METHOD_HELP},
@@ -162,10 +170,10 @@ int cmd_pick(int argc, char **argv)
     if (parsed != 0)
         return br_cli_parse_status(parsed);
     br_pick_opts po;
-    const char *const out[] = {a.xml}, *const names[] = {"xml"};
+    const char *const out[] = {a.xml, a.report}, *const names[] = {"xml", "report"};
     const char *const in[] = {pos[0], a.catalog};
     if (options(&a, &po) != BR_EXIT_OK ||
-        br_cli_outputs("pick", names, out, 1, in, 2) != BR_EXIT_OK)
+        br_cli_outputs("pick", names, out, 2, in, 2) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
     outputs o = {0};
     br_error err;

@@ -6,6 +6,7 @@
 #include "analyses/supply_window.h"
 #include "core/error.h"
 #include "report/supply_window_report.h"
+#include "report/verb_pages.h"
 
 #ifndef BR_VERSION
 #define BR_VERSION "unknown"
@@ -29,8 +30,10 @@ static const char ABOUT[] =
     "Exit status 0 when the design's own supply passes at every corner, 1 when\n"
     "not, 3 when a corner is undetermined there, 2 for bad input.\n";
 
+static const char *const VERDICT[] = {"verdict:", NULL};
+
 typedef struct args {
-    const char *xml, *threads, *method;
+    const char *xml, *report, *threads, *method;
     int quiet;
     int su_method; /* br_su_method */
 } args;
@@ -39,7 +42,7 @@ typedef struct outputs {
     br_design *d;
     br_chain *c;
     br_supply_window *w;
-    br_text *text, *xml;
+    br_text *text, *xml, *html;
 } outputs;
 
 static void outputs_free(outputs *o)
@@ -49,6 +52,7 @@ static void outputs_free(outputs *o)
     br_design_free(o->d);
     br_text_free(o->text);
     br_text_free(o->xml);
+    br_text_free(o->html);
 }
 
 static int compute(const char *path, const args *a, const br_supply_window_opts *opts, outputs *o,
@@ -57,7 +61,8 @@ static int compute(const char *path, const args *a, const br_supply_window_opts 
     int want_xml = a->xml != NULL;
     o->text = br_text_create();
     o->xml = want_xml ? br_text_create() : NULL;
-    if (!o->text || (want_xml && !o->xml))
+    o->html = a->report ? br_text_create() : NULL;
+    if (!o->text || (want_xml && !o->xml) || (a->report && !o->html))
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     int rc = br_design_load(path, &o->d, err);
     if (rc == BR_OK && a->method) /* every cold start of the search, by this method */
@@ -70,6 +75,9 @@ static int compute(const char *path, const args *a, const br_supply_window_opts 
         rc = br_supply_window_text(o->c, o->w, o->text);
     if (rc == BR_OK && want_xml)
         rc = br_supply_window_xml(o->c, o->w, BR_VERSION, o->xml, err);
+    if (rc == BR_OK && a->report)
+        rc = br_text_html(o->c, "supply window", br_supply_window_outcome(o->w), VERDICT, 1,
+                          o->text, o->html, err);
     if (rc == BR_ENOMEM && !err->msg[0])
         br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory rendering the report");
     return rc;
@@ -77,9 +85,8 @@ static int compute(const char *path, const args *a, const br_supply_window_opts 
 
 static int write_all(const args *a, const outputs *o)
 {
-    static const char *const verdict[] = {"verdict:", NULL};
-    const br_cli_file files[] = {{o->xml, a->xml}};
-    return br_cli_write(files, 1, o->text, a->quiet, verdict, 0);
+    const br_cli_file files[] = {{o->xml, a->xml}, {o->html, a->report}};
+    return br_cli_write(files, 2, o->text, a->quiet, VERDICT, 0);
 }
 
 int cmd_supply(int argc, char **argv)
@@ -87,6 +94,8 @@ int cmd_supply(int argc, char **argv)
     args a = {0};
     const br_opt opts[] = {
         {BR_OPT_STRING, "xml", "PATH", &a.xml, "also write the results as XML to PATH (- stdout)"},
+        {BR_OPT_STRING, "report", "PATH", &a.report,
+         "also write a self-contained HTML report to PATH (- stdout)"},
         {BR_OPT_STRING, "threads", "N", &a.threads, "worker threads (default: one per processor)"},
         {BR_OPT_STRING, "startup-method", "M", &a.method, BR_STARTUP_METHOD_HELP},
         {BR_OPT_FLAG, "quiet", NULL, &a.quiet, BR_QUIET_HELP},
@@ -104,8 +113,8 @@ int cmd_supply(int argc, char **argv)
     so.threads = a.threads ? (int)v : 0;
     if (br_cli_startup_method("supply", a.method, &a.su_method))
         return BR_EXIT_INPUT;
-    const char *const out[] = {a.xml}, *const names[] = {"xml"};
-    if (br_cli_outputs("supply", names, out, 1, (const char *const *)pos, 1) != BR_EXIT_OK)
+    const char *const out[] = {a.xml, a.report}, *const names[] = {"xml", "report"};
+    if (br_cli_outputs("supply", names, out, 2, (const char *const *)pos, 1) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
     outputs o = {0};
     br_error err;

@@ -33,8 +33,21 @@ static const br_verb verbs[] = {
     {NULL, NULL, NULL},
 };
 
+/* Other spellings of a verb: British "analyse" is the verb analyze. */
+static const char *const ALIASES[][2] = {{"analyse", "analyze"}};
+
+/* The verb's own name for name (an alias's verb; name otherwise). */
+static const char *verb_name(const char *name)
+{
+    for (size_t i = 0; i < sizeof ALIASES / sizeof ALIASES[0]; i++)
+        if (strcmp(name, ALIASES[i][0]) == 0)
+            return ALIASES[i][1];
+    return name;
+}
+
 static const br_verb *find_verb(const char *name)
 {
+    name = verb_name(name);
     for (const br_verb *v = verbs; v->name; v++)
         if (strcmp(v->name, name) == 0)
             return v;
@@ -50,7 +63,8 @@ static int main_help(FILE *f)
                "verbs:\n");
     for (const br_verb *v = verbs; v->name; v++)
         fprintf(f, "  %-10s %s\n", v->name, v->summary);
-    fprintf(f, "\n'bootrung help VERB' or 'bootrung VERB --help' describes a verb.\n"
+    fprintf(f, "\n'bootrung help VERB' or 'bootrung VERB --help' describes a verb ('analyse'\n"
+               "is accepted for analyze).\n"
                "exit status: 0 done and every criterion passes, 1 a design criterion fails,\n"
                "2 bad input, bad usage or an output error, 3 undetermined (a solver did not\n"
                "converge; nothing fails), 130 interrupted (Ctrl-C), 143 stopped by SIGTERM.\n"
@@ -76,7 +90,7 @@ static int help(int argc, char **argv)
     const br_verb *v = find_verb(argv[1]);
     if (!v)
         return br_cli_usage_error(NULL, "no verb '%s'", argv[1]);
-    char *args[] = {argv[1], "--help", NULL};
+    char *args[] = {(char *)v->name, "--help", NULL};
     return v->fn(2, args);
 }
 
@@ -96,6 +110,7 @@ static int dispatch(int argc, char **argv)
     const br_verb *v = find_verb(a);
     if (!v)
         return br_cli_usage_error(NULL, "unknown verb '%s'", a);
+    argv[1] = (char *)v->name; /* messages and help name the verb as it is spelt here */
     return v->fn(argc - 1, argv + 1);
 }
 

@@ -347,6 +347,14 @@ static void clear_state(br_sim *s)
     memset(s->held, 0, sizeof s->held);
     memset(s->il, 0, sizeof s->il);
     memset(s->vr, 0, sizeof s->vr);
+    memset(s->sweep_i, 0, sizeof s->sweep_i);
+    /* the link solve's warm starts too: a run from a reset does not
+     * depend on what the simulator ran before (a replay of a period
+     * samples it as the first run did) */
+    memset(s->dw, 0, sizeof s->dw);
+    memset(s->ul, 0, sizeof s->ul);
+    memset(s->gl, 0, sizeof s->gl);
+    memset(s->icj, 0, sizeof s->icj);
     s->past += s->t; /* the work limit counts every period simulated */
     s->t = 0.0;
     s->cmd = s->rev = s->driven = 0;
@@ -998,10 +1006,10 @@ int br_sim_run_until(br_sim *s, double t_end, br_error *err)
             s->nclosed++;
             double te;
             due = closed_form(s, tb, &te);
-            /* the corner at the end of a linear stretch, for observers
-             * that plot (the integrator reports its own steps) */
-            if (s->obs.sample)
-                s->obs.sample(s->obs.ctx, s, s->t, s->vr, s->il, s->n);
+            /* the corner at the end of a linear stretch, before an edge
+             * at its end moves charge (the integrator tracks its own
+             * steps) */
+            br_sim_track_extremes(s, s->t);
         } else {
             br_sim_integrate(s, tb, &status);
             if (status == -2)
@@ -1064,14 +1072,32 @@ static inline double higher(double a, double b)
     return b > a ? b : a;
 }
 
-void br_sim_track_extremes(br_sim *s, double t)
+/* Each link's forward and displacement current at this track point: an
+ * active link's from the last evaluation, a blocked one's displacement is
+ * its current less its leakage; a sweep moved at this instant shows its
+ * peak.  The sweeps are then done with. */
+static void track_links(br_sim *s)
 {
-    if (s->win.on)
-        br_sim_window_track(s);
-    if (!s->stats_on)
-        return;
+    const br_seg *g = &s->seg;
+    for (int k = 1; k < s->n; k++) {
+        s->tr_fwd[k] = higher(br_sim_forward(s, k), s->sweep_i[k]);
+        s->tr_disp[k] = g->active[k] ? s->icj[k] : s->il[k] + g->ileak[k];
+        s->sweep_i[k] = 0.0;
+    }
+}
+
+void br_sim_sample_links(const br_sim *s, const double *ilink, int n, double *fwd, double *disp)
+{
+    for (int k = 1; k < n; k++) {
+        fwd[k] = s ? s->tr_fwd[k] : ilink[k];
+        disp[k] = s ? s->tr_disp[k] : NAN;
+    }
+}
+
+static void track_stats(br_sim *s, double t)
+{
     for (int k = 1; s->stats_set == BR_STATS_STARTUP && k < s->n; k++)
-        s->st.link[k].ipeak = higher(s->st.link[k].ipeak, br_sim_forward(s, k));
+        s->st.link[k].ipeak = higher(s->st.link[k].ipeak, s->tr_fwd[k]);
     for (int k = 0; s->stats_set != BR_STATS_STARTUP && k < s->n; k++) {
         br_rail_stats *r = &s->st.rail[k];
         double vd = br_sim_vdrv(s, k, s->vr[k]);
@@ -1083,7 +1109,8 @@ void br_sim_track_extremes(br_sim *s, double t)
         if (k == 0)
             continue;
         br_link_stats *l = &s->st.link[k];
-        l->ipeak = higher(l->ipeak, br_sim_forward(s, k));
+        l->ipeak = higher(l->ipeak, s->tr_fwd[k]);
+        l->dpeak = higher(l->dpeak, fabs(s->tr_disp[k]));
         l->vrev_peak = higher(l->vrev_peak, br_sim_link_vrev(s, s->vr, k, t));
     }
     s->st.isup_peak = higher(s->st.isup_peak, s->isup);
@@ -1093,6 +1120,19 @@ void br_sim_track_extremes(br_sim *s, double t)
         s->lim_t0 = t;
     else
         s->st.lim_stretch = higher(s->st.lim_stretch, t - s->lim_t0);
+}
+
+/* Every point the statistics see is a sample for the observer, so that
+ * what an observer plots reaches the extremes the figures report. */
+void br_sim_track_extremes(br_sim *s, double t)
+{
+    track_links(s);
+    if (s->win.on)
+        br_sim_window_track(s);
+    if (s->stats_on)
+        track_stats(s, t);
+    if (s->obs.sample)
+        s->obs.sample(s->obs.ctx, s, t, s->vr, s->il, s->n);
 }
 
 /* Energy held by the rail capacitors (and the bypass) in state x, J. */
@@ -1132,14 +1172,29 @@ static void budget_stats(br_sim *s)
 
 /* The figures a start-up's statistics do not keep (BR_STATS_STARTUP)
  * read NaN: whatever reads one by mistake shows it. */
+/* A field added to either struct must be named here too. */
+_Static_assert(sizeof(br_link_stats) == 14 * sizeof(double), "unkept() names every link field");
+_Static_assert(sizeof(br_rail_stats) == 13 * sizeof(double), "unkept() names every rail field");
 static void unkept(const br_sim *s, br_stats *st)
 {
     for (int k = 0; k < s->n; k++) {
         br_rail_stats *r = &st->rail[k];
         br_link_stats *l = &st->link[k];
         *r = (br_rail_stats){NAN, NAN, NAN, NAN, NAN, NAN, NAN, NAN, NAN, NAN, NAN, NAN, NAN};
-        *l =
-            (br_link_stats){NAN, l->i2, l->ipeak, NAN, NAN, NAN, NAN, NAN, NAN, NAN, NAN, NAN, NAN};
+        *l = (br_link_stats){.q = NAN,
+                             .i2 = l->i2,
+                             .ipeak = l->ipeak,
+                             .vrev_peak = NAN,
+                             .qrr = NAN,
+                             .irrm = NAN,
+                             .dpeak = NAN,
+                             .e_cond = NAN,
+                             .e_rr = NAN,
+                             .e_leak = NAN,
+                             .e_other = NAN,
+                             .e_res = NAN,
+                             .e_sw = NAN,
+                             .e_stage = NAN};
     }
     st->e_rsupply = st->e_stored = NAN;
 }

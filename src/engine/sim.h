@@ -47,6 +47,9 @@ typedef struct br_link_stats {
     double vrev_peak; /* peak reverse voltage (simulated), V */
     double qrr;       /* recovery charge returned to the rail below, C */
     double irrm;      /* peak recovery current (triangle over the edge), A */
+    double dpeak;     /* largest displacement current of the junction capacitance
+                         (Cj dv/dt while the return switch's voltage ramps), either
+                         sign, as a magnitude, A */
     double e_cond;    /* conduction energy, J */
     double e_rr;      /* recovery energy, J */
     double e_leak;    /* leakage energy (leakage current times reverse voltage), J */
@@ -88,11 +91,14 @@ typedef struct br_sim_observer {
     void *ctx;
     /* each UVLO transition */
     void (*uvlo)(void *ctx, const br_uvlo_event *e);
-    /* samples of the rails (t, vrail[n], ilink[n]) at accepted steps
-     * (ilink[0] is the supply's current, through its resistance);
-     * s is the simulator at that instant, for br_sim_vdrv and
-     * br_sim_switch_v (the driver supplies and the diodes' reverse
-     * voltages), or NULL when the samples come from elsewhere */
+    /* samples of the rails (t, vrail[n], ilink[n]) at every point the
+     * statistics are taken (accepted steps, the ends of intervals and the
+     * instants where an edge moves charge), so that the extremes of the
+     * samples are the statistics' extremes (ilink[0] is the supply's
+     * current, through its resistance); s is the simulator at that
+     * instant, for br_sim_sample_stress and br_sim_sample_links (the
+     * driver supplies, the diodes' reverse voltages and the parts of the
+     * link currents), or NULL when the samples come from elsewhere */
     void (*sample)(void *ctx, const br_sim *s, double t, const double *vrail, const double *ilink,
                    int n);
 } br_sim_observer;
@@ -183,6 +189,17 @@ double br_sim_switch_v(const br_sim *s, int k, double t);
  * elsewhere) the driver supplies are the rails and vrev is NaN. */
 void br_sim_sample_stress(const br_sim *s, double t, const double *vrail, int n, double *vdrv,
                           double *vrev);
+
+/* The link currents of the sample s is at, split into their parts, A,
+ * k >= 1: fwd[k] the forward (conduction) current through the junction,
+ * of which the peak, RMS and conduction figures are taken (a sweep
+ * through conduction at an edge, which moves its charge at once, shows
+ * its peak at the edge's instant), and disp[k] the displacement current
+ * of the junction capacitance (Cj dv/dt while the return switch's
+ * voltage ramps); what is left of the link's current is its leakage.
+ * With s NULL (samples from elsewhere) fwd is the link current given in
+ * ilink and disp is NaN.  [0] is left alone. */
+void br_sim_sample_links(const br_sim *s, const double *ilink, int n, double *fwd, double *disp);
 
 /* Driver supply of stage k for rail voltage vr (after its regulator), V. */
 double br_sim_vdrv(const br_sim *s, int k, double vr);

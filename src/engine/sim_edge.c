@@ -128,8 +128,7 @@ static int sweep_link(br_sim *s, int k, double u, double t)
     s->x[XI(k, F_RI2)] += w.i2 / sig + 2.0 * s->ic[k] * q;
     if (k > 1)
         s->x[XI(k - 1, F_RI2)] += w.i2 / sig - 2.0 * s->ic[k - 1] * q;
-    if (s->stats_on)
-        s->st.link[k].ipeak = fmax(s->st.link[k].ipeak, w.i);
+    s->sweep_i[k] = fmax(s->sweep_i[k], w.i); /* the next track point shows it */
     return 1;
 }
 

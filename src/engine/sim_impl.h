@@ -187,6 +187,13 @@ struct br_sim {
     br_seg seg;
     double il[BR_N];           /* link currents at the last evaluation, A */
     double icj[BR_N];          /* of which junction-capacitance current, A */
+    double sweep_i[BR_N];      /* peak forward current of an edge's sweep through
+                                  conduction moved at the present instant, A (0:
+                                  none): the next track point shows it */
+    double tr_fwd[BR_N];       /* each link's forward current at the last track
+                                  point (the sweep's peak included), A */
+    double tr_disp[BR_N];      /* and its junction capacitance's displacement
+                                  current there, A */
     double vr[BR_N];           /* rail node voltages at the last evaluation, V */
     double ic[BR_N];           /* capacitor currents at the last evaluation, A */
     double iz[BR_N];           /* clamp currents, A */

@@ -383,12 +383,6 @@ static int choose_pair(const br_sim *s, double len)
     return len <= BR_SHORT_INTERVAL * s->tm.T ? BR_PAIR_BS23 : BR_PAIR_DP45;
 }
 
-static void observe(br_sim *s, double t)
-{
-    if (s->obs.sample)
-        s->obs.sample(s->obs.ctx, s, t, s->vr, s->il, s->n);
-}
-
 double br_sim_integrate(br_sim *s, double tb, int *status)
 {
     double t = s->t, k1[X_SIZE], y[X_SIZE], e[X_SIZE], kend[X_SIZE];
@@ -446,8 +440,7 @@ double br_sim_integrate(br_sim *s, double tb, int *status)
             memcpy(s->x, y, sizeof(double) * (size_t)s->nx);
             br_sim_clamp_limit(s);
             t = last && hc >= h ? tb : t + hc;
-            br_sim_track_extremes(s, t);
-            observe(s, t);
+            br_sim_track_extremes(s, t); /* and the observer's sample */
             *status = 1;
             break;
         }
@@ -461,8 +454,7 @@ double br_sim_integrate(br_sim *s, double tb, int *status)
          * a period instead of 68 and 6.6) */
         if (slot >= 0 && naccepted++ == 0)
             s->hmem[slot] = fmax(h, 0.6 * next_h(h, err, p));
-        br_sim_track_extremes(s, t);
-        observe(s, t);
+        br_sim_track_extremes(s, t); /* and the observer's sample */
         /* a step cut short by the interval end says nothing about the
          * step the dynamics allow: do not let it shrink the next one */
         double hn = next_h(h, err, p);

@@ -119,3 +119,61 @@ int br_design_load(const char *path, br_design **out, br_error *err)
     free(buf);
     return rc;
 }
+
+/* ---- notes ------------------------------------------------------------------------ */
+
+/* A comment's text on one line: white space run together, trimmed. */
+static int note_line(br_text *out, xmlNode *n)
+{
+    xmlChar *v = xmlNodeGetContent(n);
+    if (!v)
+        return BR_ENOMEM;
+    char *t = (char *)v, *w = t;
+    int space = 1;
+    for (const char *p = t; *p; p++) {
+        int blank = *p == ' ' || *p == '\t' || *p == '\n' || *p == '\r';
+        if (blank && !space)
+            *w++ = ' ';
+        else if (!blank)
+            *w++ = *p;
+        space = blank;
+    }
+    while (w > t && w[-1] == ' ')
+        w--;
+    *w = '\0';
+    /* no line number: libxml2 gives a comment the line where it ends */
+    int rc = t[0] ? br_text_printf(out, "- %s\n", t) : BR_OK;
+    xmlFree(v);
+    return rc;
+}
+
+static int notes_below(br_text *out, xmlNode *n)
+{
+    int rc = BR_OK;
+    for (; n && rc == BR_OK; n = n->next) {
+        if (n->type == XML_COMMENT_NODE)
+            rc = note_line(out, n);
+        else if (n->type == XML_ELEMENT_NODE)
+            rc = notes_below(out, n->children);
+    }
+    return rc;
+}
+
+int br_design_notes(const char *path, br_text *out, br_error *err)
+{
+    char *buf = NULL;
+    size_t len = 0;
+    BR_TRY(br_xread_file(&DESIGN, path, &buf, &len, err));
+    br_xhandlers saved;
+    br_xcapture c;
+    memset(&c, 0, sizeof c);
+    br_xcapture_begin(&saved, &c);
+    xmlDoc *doc = NULL;
+    int rc = br_xparse(&DESIGN, buf, len, path, &c, &doc, err);
+    br_xcapture_end(&saved);
+    if (rc == BR_OK && notes_below(out, doc->children) != BR_OK)
+        rc = br_error_set(err, BR_ENOMEM, path, 0, "", "out of memory reading the notes");
+    xmlFreeDoc(doc);
+    free(buf);
+    return rc;
+}

@@ -45,8 +45,14 @@ static const char *id_owner(const br_design *d, const char *id)
     return NULL;
 }
 
-static int read_id(br_rd *r, xmlNode *n, char id[BR_ID_MAX])
+/* The part's id, and the source of its values when it states one (a
+ * datasheet and its revision, a measurement: shown in a sign-off pack). */
+static int read_id(br_rd *r, xmlNode *n, char id[BR_ID_MAX], char source[BR_SOURCE_MAX])
 {
+    source[0] = '\0';
+    if (br_xml_attr(n, "source", source, BR_SOURCE_MAX) < 0)
+        return br_rd_fail(r, n, "source", "too long, expected at most %d characters",
+                          BR_SOURCE_MAX - 1);
     int has = br_xml_attr(n, "id", id, BR_ID_MAX);
     if (has <= 0 || id[0] == '\0')
         return br_rd_fail(r, n, "id", "%s, expected a name of 1 to %d characters",
@@ -272,7 +278,7 @@ static int read_diode(br_rd *r, xmlNode *n)
     br_diode_part *p = &d->diodes[d->ndiodes];
     memset(p, 0, sizeof *p);
     br_diode_part_defaults(p);
-    BR_TRY(read_id(r, n, p->id));
+    BR_TRY(read_id(r, n, p->id, p->source));
     p->line = br_rd_line(r, n);
     BR_TRY(read_diode_law(r, n, p));
     BR_TRY(br_rd_qty(r, n, "cj0", BR_KIND_CAPACITANCE, &br_range_nonneg, &p->cj0, NULL));
@@ -360,7 +366,7 @@ static int read_capacitor(br_rd *r, xmlNode *n)
     br_cap_part *p = &d->caps[d->ncaps];
     memset(p, 0, sizeof *p);
     br_cap_part_defaults(p);
-    BR_TRY(read_id(r, n, p->id));
+    BR_TRY(read_id(r, n, p->id, p->source));
     p->line = br_rd_line(r, n);
     BR_TRY(br_rd_qty(r, n, "c", BR_KIND_CAPACITANCE, &r_c, &p->c, NULL));
     BR_TRY(br_rd_qty(r, n, "esr", BR_KIND_RESISTANCE, &br_range_nonneg, &p->esr, NULL));
@@ -385,7 +391,7 @@ static int read_driver(br_rd *r, xmlNode *n)
     br_driver_part *p = &d->drivers[d->ndrivers];
     memset(p, 0, sizeof *p);
     br_driver_part_defaults(p);
-    BR_TRY(read_id(r, n, p->id));
+    BR_TRY(read_id(r, n, p->id, p->source));
     p->line = br_rd_line(r, n);
     BR_TRY(br_rd_qty(r, n, "uvlo-rise", BR_KIND_VOLTAGE, &br_range_nonneg, &p->uvlo_rise, NULL));
     BR_TRY(br_rd_qty(r, n, "uvlo-fall", BR_KIND_VOLTAGE, &br_range_nonneg, &p->uvlo_fall, NULL));
@@ -480,7 +486,7 @@ static int read_switch(br_rd *r, xmlNode *n)
     br_switch_part *p = &d->switches[d->nswitches];
     memset(p, 0, sizeof *p);
     br_switch_part_defaults(p);
-    BR_TRY(read_id(r, n, p->id));
+    BR_TRY(read_id(r, n, p->id, p->source));
     p->line = br_rd_line(r, n);
     BR_TRY(read_rds_law(r, n, p));
     BR_TRY(br_rd_qty(r, n, "qg", BR_KIND_CHARGE, &br_range_nonneg, &p->qg, NULL));
@@ -507,7 +513,7 @@ static int read_aux(br_rd *r, xmlNode *n, int kind)
     br_aux_part *p = &d->aux[d->naux];
     memset(p, 0, sizeof *p);
     br_aux_part_defaults(p);
-    BR_TRY(read_id(r, n, p->id));
+    BR_TRY(read_id(r, n, p->id, p->source));
     p->line = br_rd_line(r, n);
     p->kind = kind;
     if (kind == BR_AUX_LDO) {

@@ -356,22 +356,24 @@ static const rule rules[] = {
     {"switch", "reverse", "!from !to", "", 0},
     {"bootrung-design", "parts", "", "diode capacitor driver switch regulator clamp", 0},
     {"parts", "diode",
-     "!id is n rs ref-temp cj0 vj m tau qrr if eg xti ir ir-temp ir-doubling vrrm ifsm ifrm "
+     "!id source is n rs ref-temp cj0 vj m tau qrr if eg xti ir ir-temp ir-doubling vrrm ifsm ifrm "
      "i2t if-avg rth tj-max",
      "forward spice-model", 0},
     {"diode", "forward", "!i !v", "", 0},
     {"diode", "spice-model", "", "", 0},
     {"parts", "capacitor",
-     "!id !c esr rating temp-factor aging ripple dielectric=class-1|class-2|other", "bias temp", 0},
+     "!id source !c esr rating temp-factor aging ripple dielectric=class-1|class-2|other",
+     "bias temp", 0},
     {"capacitor", "bias", "!v !factor", "", 0},
     {"capacitor", "temp", "!t !factor", "", 0},
-    {"parts", "driver", "!id uvlo-rise uvlo-fall iq-run iq-uvlo iq-isolator gate-off", "", 0},
+    {"parts", "driver", "!id source uvlo-rise uvlo-fall iq-run iq-uvlo iq-isolator gate-off", "",
+     0},
     {"parts", "switch",
-     "!id rds-on rds-on-temp rds-on-exp rds-on-hot rds-on-hot-temp qg qg-at gate-pulse "
+     "!id source rds-on rds-on-temp rds-on-exp rds-on-hot rds-on-hot-temp qg qg-at gate-pulse "
      "reverse=diode|channel vsd vth reverse-r vgs-rec vgs-max",
      "", 0},
-    {"parts", "regulator", "!id !vout dropout iq " AUX_HEAT, "", 0},
-    {"parts", "clamp", "!id !vz rz " AUX_HEAT, "", 0},
+    {"parts", "regulator", "!id source !vout dropout iq " AUX_HEAT, "", 0},
+    {"parts", "clamp", "!id source !vz rz " AUX_HEAT, "", 0},
     {"bootrung-design", "stages", "!diode !capacitor !driver !switch " STAGE_ATTRS, "stage", 0},
     {"stages", "stage", "!index diode capacitor driver switch " STAGE_ATTRS, "", 0},
     {"bootrung-design", "startup", "", "precharge", 0},
@@ -379,6 +381,20 @@ static const rule rules[] = {
     {"bootrung-design", "analysis",
      "min-drive derating max-startup max-dropouts cap-derating hold-on", "", 0},
 };
+
+int br_xml_rule_count(void)
+{
+    return (int)(sizeof rules / sizeof rules[0]);
+}
+
+void br_xml_rule(int i, const char **parent, const char **name, const char **attrs,
+                 const char **children)
+{
+    *parent = rules[i].parent;
+    *name = rules[i].name;
+    *attrs = rules[i].attrs;
+    *children = rules[i].children;
+}
 
 static const rule *find_rule(const char *parent, const char *name)
 {

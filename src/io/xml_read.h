@@ -71,6 +71,16 @@ int br_xml_attr(xmlNode *n, const char *attr, char *buf, size_t cap);
  * BR_OK if it finds nothing it can explain. */
 int br_xml_diagnose(br_rd *r, xmlNode *root);
 
+/* The diagnosis's table, one rule per element of design.rng, for the test
+ * that holds it to the schema (test_io_schema.c): rule i's parent element
+ * ("" for the root), element, attributes ("!a" required, "a=x|y" with
+ * its values) and children ("!a" at least one, "a|b" either), space
+ * separated.  Every "expected one of" list of the diagnosis is built from
+ * it. */
+int br_xml_rule_count(void);
+void br_xml_rule(int i, const char **parent, const char **name, const char **attrs,
+                 const char **children);
+
 /* ---- errors and values (xml_read.c) ------------------------------------ */
 
 /* Fail at element n (attr may be NULL): sets file, line, field. */

@@ -10,6 +10,7 @@
 #include "bootrung/bootrung.h"
 
 #define BR_ID_MAX 48       /* part ids and switch names, with NUL */
+#define BR_SOURCE_MAX 160  /* a part's source attribute, with NUL */
 #define BR_MAX_SWITCHES 64 /* longest string accepted (levels <= 33) */
 #define BR_MAX_WINDOWS 4   /* on-intervals per switch per period */
 #define BR_MAX_BIAS_POINTS 32
@@ -56,31 +57,32 @@ typedef enum br_direction {
 
 typedef struct br_diode_part {
     char id[BR_ID_MAX];
-    int line;         /* line of the <diode> element */
-    br_qty is;        /* Shockley saturation current at tnom, A */
-    br_qty n;         /* emission coefficient */
-    br_qty rs;        /* series (ohmic) resistance, ohm */
-    br_qty cj0;       /* zero-bias junction capacitance, F */
-    br_qty vj;        /* junction built-in potential, V */
-    br_qty m;         /* junction grading coefficient */
-    br_qty tau;       /* charge-control stored-charge time constant, s (0: none) */
-    br_qty eg;        /* bandgap for Is(T), eV (1.11 Si, 3.26 SiC) */
-    br_qty xti;       /* Is(T) temperature exponent */
-    br_qty ir;        /* reverse leakage at ir_temp, A */
-    br_qty ir_temp;   /* temperature at which ir is given, K */
-    br_qty ir_double; /* temperature rise that doubles the leakage, K */
-    br_qty vrrm;      /* repetitive peak reverse voltage rating, V */
-    br_qty ifsm;      /* non-repetitive surge current rating (one pulse), A */
-    br_qty ifrm;      /* repetitive peak forward current rating, A */
-    br_qty i2t;       /* I2t rating (integral of i^2 over a surge), A^2 s */
-    br_qty if_avg;    /* average forward current rating, A (0: not given) */
-    br_qty rth;       /* thermal resistance junction to ambient, K/W (0: the
-                         junction stays at the ambient); a stage may give its own */
-    br_qty tj_max;    /* maximum junction temperature, K (0: not given) */
-    double tnom;      /* temperature of is/n/rs, K */
-    double bv, ibv;   /* reverse breakdown voltage and its current from a SPICE
-                         .model (V, A; 0: not given): not a rating and not
-                         simulated, only written back into netlists */
+    char source[BR_SOURCE_MAX]; /* where its values come from ("": not stated) */
+    int line;                   /* line of the <diode> element */
+    br_qty is;                  /* Shockley saturation current at tnom, A */
+    br_qty n;                   /* emission coefficient */
+    br_qty rs;                  /* series (ohmic) resistance, ohm */
+    br_qty cj0;                 /* zero-bias junction capacitance, F */
+    br_qty vj;                  /* junction built-in potential, V */
+    br_qty m;                   /* junction grading coefficient */
+    br_qty tau;                 /* charge-control stored-charge time constant, s (0: none) */
+    br_qty eg;                  /* bandgap for Is(T), eV (1.11 Si, 3.26 SiC) */
+    br_qty xti;                 /* Is(T) temperature exponent */
+    br_qty ir;                  /* reverse leakage at ir_temp, A */
+    br_qty ir_temp;             /* temperature at which ir is given, K */
+    br_qty ir_double;           /* temperature rise that doubles the leakage, K */
+    br_qty vrrm;                /* repetitive peak reverse voltage rating, V */
+    br_qty ifsm;                /* non-repetitive surge current rating (one pulse), A */
+    br_qty ifrm;                /* repetitive peak forward current rating, A */
+    br_qty i2t;                 /* I2t rating (integral of i^2 over a surge), A^2 s */
+    br_qty if_avg;              /* average forward current rating, A (0: not given) */
+    br_qty rth;                 /* thermal resistance junction to ambient, K/W (0: the
+                                   junction stays at the ambient); a stage may give its own */
+    br_qty tj_max;              /* maximum junction temperature, K (0: not given) */
+    double tnom;                /* temperature of is/n/rs, K */
+    double bv, ibv;             /* reverse breakdown voltage and its current from a SPICE
+                                   .model (V, A; 0: not given): not a rating and not
+                                   simulated, only written back into netlists */
 } br_diode_part;
 
 /* What a capacitor is made of, for the voltage derating rule. */
@@ -93,6 +95,7 @@ typedef enum br_dielectric {
 
 typedef struct br_cap_part {
     char id[BR_ID_MAX];
+    char source[BR_SOURCE_MAX]; /* where its values come from ("": not stated) */
     int line;
     br_qty c;                          /* nominal capacitance, F (tolerance lives here) */
     br_qty esr;                        /* equivalent series resistance, ohm */
@@ -113,6 +116,7 @@ typedef struct br_cap_part {
 
 typedef struct br_driver_part {
     char id[BR_ID_MAX];
+    char source[BR_SOURCE_MAX]; /* where its values come from ("": not stated) */
     int line;
     br_qty uvlo_rise; /* enable threshold on a rising rail, V */
     br_qty uvlo_fall; /* disable threshold on a falling rail, V */
@@ -133,6 +137,7 @@ typedef enum br_reverse_law {
 
 typedef struct br_switch_part {
     char id[BR_ID_MAX];
+    char source[BR_SOURCE_MAX]; /* where its values come from ("": not stated) */
     int line;
     br_qty rds_on;   /* on-resistance at rds_temp, ohm */
     br_qty rds_temp; /* junction temperature of rds_on, K */
@@ -154,6 +159,7 @@ typedef enum br_rail_aux { BR_AUX_NONE = 0, BR_AUX_LDO = 1, BR_AUX_ZENER = 2 } b
 /* Optional per-rail linear regulator (kind LDO) or Zener clamp (ZENER). */
 typedef struct br_aux_part {
     char id[BR_ID_MAX];
+    char source[BR_SOURCE_MAX]; /* where its values come from ("": not stated) */
     int line;
     int kind;       /* br_rail_aux */
     br_qty vout;    /* LDO: regulated output, V; ZENER: knee voltage, V */

@@ -79,8 +79,8 @@ static int rails_table(const br_chain *c, const br_steady_figs *f, const br_scal
     br_table *t = named_table(R_NCOL, c->n, "stage");
     if (!t)
         return BR_ENOMEM;
-    static const char *const heads[] = {"driver",    "isolator", "standby", "gate",
-                                        "reg/clamp", "ESR",      "total",   "its Tj C"};
+    static const char *const heads[] = {"driver",          "isolator", "standby", "gate",
+                                        "regulator/clamp", "ESR",      "total",   "its Tj degC"};
     for (int col = R_RUN; col < R_NCOL; col++)
         head(t, col, heads[col - R_RUN]);
     for (int k = 0; k < c->n; k++) {
@@ -123,8 +123,9 @@ static int links_table(const br_chain *c, const br_steady_figs *f, const br_scal
     br_table *t = named_table(L_NCOL, c->n, "link");
     if (!t)
         return BR_ENOMEM;
-    static const char *const heads[] = {"conduction", "recovery", "leakage", "junction", "resistor",
-                                        "switch",     "total",    "Tj C",    "runaway C"};
+    static const char *const heads[] = {"conduction", "recovery", "leakage",
+                                        "junction",   "resistor", "switch",
+                                        "total",      "Tj degC",  "runaway degC"};
     for (int col = L_COND; col < L_NCOL; col++)
         head(t, col, heads[col - L_COND]);
     for (int k = 1; k < c->n; k++) {
@@ -163,10 +164,11 @@ static int heat_lines(const br_chain *c, const br_steady_figs *f, br_text *out)
         const br_link_fig *l = &f->link[k];
         if (!(c->st[k].diode.rth > 0) || !l->runaway)
             continue;
-        rc |= br_text_printf(out,
-                             "  link %d (%s) RUNS AWAY at %.1f C ambient: no junction temperature "
-                             "balances its losses (from %.1f C up)\n",
-                             k, c->st[k].name, c->tamb - KELVIN, l->onset_amb - KELVIN);
+        rc |=
+            br_text_printf(out,
+                           "  link %d (%s) RUNS AWAY at %.1f degC ambient: no junction temperature "
+                           "balances its losses (from %.1f degC up)\n",
+                           k, c->st[k].name, c->tamb - KELVIN, l->onset_amb - KELVIN);
     }
     return rc;
 }
@@ -230,10 +232,10 @@ static int summary_line(const br_chain *c, const br_steady_figs *f, br_text *out
         snprintf(text + n, sizeof text - (size_t)n, "; link %s RUNS AWAY", c->st[h].name);
     else if (h > 0 && isfinite(f->link[h].onset_amb))
         snprintf(text + n, sizeof text - (size_t)n,
-                 "; hottest diode link %s at %.1f C (runaway from %.1f C ambient)", c->st[h].name,
-                 f->link[h].tj - KELVIN, f->link[h].onset_amb - KELVIN);
+                 "; hottest diode link %s at %.1f degC (runaway from %.1f degC ambient)",
+                 c->st[h].name, f->link[h].tj - KELVIN, f->link[h].onset_amb - KELVIN);
     else if (h > 0)
-        snprintf(text + n, sizeof text - (size_t)n, "; hottest diode link %s at %.1f C",
+        snprintf(text + n, sizeof text - (size_t)n, "; hottest diode link %s at %.1f degC",
                  c->st[h].name, f->link[h].tj - KELVIN);
     snprintf(lead, sizeof lead, "  %s: ", br_dir_label(f->dir));
     return br_report_wrap(out, lead, text, 4);

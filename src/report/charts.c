@@ -3,15 +3,17 @@
 
 #include "report/plot.h"
 #include "report/report_common.h"
+#include "report/vocab.h"
 
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 
 /* Panels of the small-multiple grids, px. */
-#define PANEL_W 600.0
+#define PANEL_W 680.0
 #define PANEL_H 250.0
-#define HEAD_H 44.0 /* the document's own heading and key */
+#define HEAD_H 62.0 /* the document's own heading, its key on a line below */
+#define KEY_Y 50.0
 
 static const br_style S_RAIL = {BR_BLUE, NULL, 2.0};
 static const br_style S_DRV = {BR_GREEN, "7 4", 2.0};
@@ -21,6 +23,93 @@ static const br_style S_START = {BR_GREEN, NULL, 1.6};
 static const br_style S_DRIVE = {BR_VERMILION, "2 3", 2.0};
 static const br_style S_GATE = {BR_PURPLE, "8 4", 2.0};
 static const br_style S_FAILS = {BR_VERMILION, NULL, 2.0};
+static const br_style S_HEAD = {BR_SKY, "10 3 2 3", 2.0};
+static const br_style S_DISP = {BR_ORANGE, NULL, 1.4};
+
+/* ---- a rail's limits ---------------------------------------------------- */
+
+/* Each limit of the rail's driver, where the rail must be for it (vocab.h:
+ * the same values and names as the tables), in its own style: the
+ * regulator output + dropout, the minimum drive, UVLO rising and falling,
+ * the gate maximum. */
+static const int RAIL_LIMS[] = {BR_LIM_HEADROOM, BR_LIM_DRIVE, BR_LIM_UVLO_RISE, BR_LIM_UVLO_FALL,
+                                BR_LIM_GATE};
+#define NRAIL_LIMS (int)(sizeof RAIL_LIMS / sizeof RAIL_LIMS[0])
+
+static const br_style *lim_style(int lim)
+{
+    switch (lim) {
+    case BR_LIM_HEADROOM:
+        return &S_HEAD;
+    case BR_LIM_DRIVE:
+        return &S_DRIVE;
+    case BR_LIM_UVLO_RISE:
+        return &S_RISE;
+    case BR_LIM_UVLO_FALL:
+        return &S_FALL;
+    default:
+        return &S_GATE;
+    }
+}
+
+static const char *lim_key(int lim)
+{
+    static const char *const key[BR_LIM_COUNT] = {"uvlo-rising", "uvlo-falling", "minimum-drive",
+                                                  "gate-maximum", "regulator-headroom"};
+    return key[lim];
+}
+
+/* Grow [lo, hi] to take in every limit of rail k that a rail voltage can
+ * meet. */
+void br_chart_take_limits(const br_chain *c, int k, double *lo, double *hi)
+{
+    for (int i = 0; i < NRAIL_LIMS; i++) {
+        double v = br_rail_limit(c, k, RAIL_LIMS[i]);
+        if (isfinite(v)) {
+            *lo = fmin(*lo, v);
+            *hi = fmax(*hi, v);
+        }
+    }
+}
+
+/* Every limit of rail k as a labelled line: its name on the first line of
+ * the label, its value on the second, "floor" before the value of the
+ * one that is the rail's floor. */
+void br_chart_rail_limits(br_plot *p, const br_chain *c, int k)
+{
+    int which, n = 0;
+    br_rail_floor(c, k, &which);
+    double y[NRAIL_LIMS];
+    const br_style *st[NRAIL_LIMS];
+    const char *key[NRAIL_LIMS], *lab[NRAIL_LIMS];
+    char text[NRAIL_LIMS][112];
+    for (int i = 0; i < NRAIL_LIMS; i++) {
+        int lim = RAIL_LIMS[i];
+        double v = br_rail_limit(c, k, lim);
+        if (!isfinite(v))
+            continue;
+        char name[64], val[32];
+        br_rail_limit_label(c, k, lim, name, sizeof name);
+        snprintf(text[n], sizeof text[n], "%s\n%s%s", name, lim == which ? "floor " : "",
+                 br_plot_si(val, sizeof val, v, 3, "V"));
+        y[n] = v;
+        st[n] = lim_style(lim);
+        key[n] = lim_key(lim);
+        lab[n] = text[n];
+        n++;
+    }
+    br_plot_limits(p, n, y, st, key, lab);
+}
+
+/* The key of the limits' styles. */
+double br_chart_limits_key(br_plot *p, double x, double y)
+{
+    x = br_plot_key(p, x, y, &S_HEAD, br_limit_name(BR_LIM_HEADROOM));
+    x = br_plot_key(p, x, y, &S_DRIVE, br_limit_name(BR_LIM_DRIVE));
+    x = br_plot_key(p, x, y, &S_RISE, br_limit_name(BR_LIM_UVLO_RISE));
+    x = br_plot_key(p, x, y, &S_FALL, br_limit_name(BR_LIM_UVLO_FALL));
+    return br_plot_key(p, x, y, &S_GATE, br_limit_name(BR_LIM_GATE));
+}
 
 static void doc_begin(br_svg *s, br_text *out, double w, double h, int standalone,
                       const char *title)
@@ -50,18 +139,6 @@ static void heading(br_svg *s, const char *text)
 
 /* ---- start-up ------------------------------------------------------------ */
 
-/* The rail voltage driver k starts at and drops out at: its UVLO
- * thresholds, raised by the regulator's dropout when it has one. */
-static void rail_thresholds(const br_chain *c, int k, double *rise, double *fall)
-{
-    const br_stage *st = &c->st[k];
-    double drop = st->aux.kind == BR_AUX_LDO ? st->aux.dropout : 0.0;
-    *rise = br_rail_start_voltage(c, k);
-    if (!isfinite(*rise))
-        *rise = st->drv.uvlo_rise + drop;
-    *fall = st->drv.uvlo_fall + drop;
-}
-
 static double column_max(const br_trace *tr, const double *a, int k)
 {
     double m = -HUGE_VAL;
@@ -90,22 +167,18 @@ static void startup_panel(br_svg *s, const br_chain *c, const br_startup *su, co
                           int k, double x, double y)
 {
     br_plot p;
-    char title[96], key[64], lab[64], v[32];
-    double rise, fall;
-    rail_thresholds(c, k, &rise, &fall);
+    char title[96], key[64], lab[64];
     br_plot_frame(&p, s, x, y, PANEL_W, PANEL_H);
     double tend = tr->len ? tr->t[tr->len - 1] : su->t_simulated;
-    double vmax = fmax(column_max(tr, tr->v, k), rise);
     /* a rail can dip a little below zero (leakage, recovery) */
     double vmin = fmin(0.0, column_min(tr, tr->v, k, 0, tr->len));
+    double vmax = column_max(tr, tr->v, k);
+    br_chart_take_limits(c, k, &vmin, &vmax);
     br_plot_range(&p, 0.0, tend, vmin - 0.02 * vmax, 1.08 * vmax, 0);
     snprintf(title, sizeof title, k == 0 ? "rail %s (supply)" : "rail %s", c->st[k].name);
     snprintf(key, sizeof key, "startup-%s", c->st[k].name);
     br_plot_axes(&p, key, title, "time", "s", "voltage", "V");
-    snprintf(lab, sizeof lab, "UVLO rise %s", br_plot_si(v, sizeof v, rise, 3, "V"));
-    br_plot_hline(&p, rise, &S_RISE, lab);
-    snprintf(lab, sizeof lab, "UVLO fall %s", br_plot_si(v, sizeof v, fall, 3, "V"));
-    br_plot_hline(&p, fall, &S_FALL, lab);
+    br_chart_rail_limits(&p, c, k);
     snprintf(key, sizeof key, "rail_%s_V", c->st[k].name);
     br_plot_line(&p, tr->t, tr->v + k, tr->len, tr->n, &S_RAIL, key);
     double ts = su->st[k].final_enable;
@@ -114,7 +187,8 @@ static void startup_panel(br_svg *s, const br_chain *c, const br_startup *su, co
         snprintf(lab, sizeof lab, "starts %s", br_plot_time(tb, sizeof tb, ts));
         br_plot_vline(&p, ts, &S_START, lab);
     } else {
-        br_svg_text_in(s, p.x0 + 8, p.y0 + 18, BR_FONT_LABEL, "start", BR_VERMILION, 1,
+        /* in the strip above the area, where no trace runs */
+        br_svg_text_in(s, p.x0 + 8, p.y0 - 7, BR_FONT_TICK, "start", BR_VERMILION, 1,
                        "driver never starts for good");
     }
     br_plot_done(&p);
@@ -124,11 +198,10 @@ static void startup_key(br_svg *s)
 {
     br_plot p;
     br_plot_frame(&p, s, 0, 0, 10, 10);
-    double x = 520;
-    x = br_plot_key(&p, x, 30, &S_RAIL, "rail");
-    x = br_plot_key(&p, x, 30, &S_RISE, "UVLO rising");
-    x = br_plot_key(&p, x, 30, &S_FALL, "UVLO falling");
-    br_plot_key(&p, x, 30, &S_START, "driver starts");
+    double x = 12;
+    x = br_plot_key(&p, x, KEY_Y, &S_RAIL, "rail");
+    x = br_plot_key(&p, x, KEY_Y, &S_START, "driver starts");
+    br_chart_limits_key(&p, x, KEY_Y);
 }
 
 int br_chart_startup(const br_chain *c, const br_startup *su, const br_trace *tr, int standalone,
@@ -152,17 +225,6 @@ int br_chart_startup(const br_chain *c, const br_startup *su, const br_trace *tr
 
 /* ---- steady-state ripple ------------------------------------------------- */
 
-/* Grow [lo, hi] to take in a limit that lies within reach: a limit far
- * away would flatten the ripple, so it is only pointed at. */
-static void reach(double *lo, double *hi, double lim)
-{
-    double span = fmax(*hi - *lo, 0.02 * fabs(*hi));
-    if (lim < *lo && *lo - lim < 1.5 * span)
-        *lo = lim;
-    if (lim > *hi && lim - *hi < 1.5 * span)
-        *hi = lim;
-}
-
 /* The driver supply behind a regulator: drawn when it fits the rail's
  * range, otherwise pointed at from the edge with its mean. */
 static void driver_supply(br_plot *p, const br_trace *tr, int k, const char *name)
@@ -183,29 +245,21 @@ static void ripple_panel(br_svg *s, const br_chain *c, const br_steady_figs *f, 
                          int k, double x, double y)
 {
     br_plot p;
-    char title[96], key[64], lab[64], v[32];
+    char title[96], key[64], v[32];
     const br_stage *st = &c->st[k];
     long cnt = tr->len;
     double lo = column_min(tr, tr->v, k, 0, cnt), hi = column_max_in(tr, tr->v, k, 0, cnt);
-    double drive = c->min_drive, gate = st->sw.vgs_max, fall = st->drv.uvlo_fall;
-    reach(&lo, &hi, gate);
-    reach(&lo, &hi, drive);
+    /* every limit is drawn as a line in the plot, never pointed at */
+    br_chart_take_limits(c, k, &lo, &hi);
     br_plot_frame(&p, s, x, y, PANEL_W, PANEL_H);
     br_plot_range(&p, tr->t[0], tr->t[tr->len - 1], lo, hi, 1);
     snprintf(title, sizeof title, "rail %s: ripple %s", st->name,
              br_plot_si(v, sizeof v, f->rail[k].ripple, 3, "V"));
     snprintf(key, sizeof key, "ripple-%s-%s", br_dir_short(f->dir), st->name);
     br_plot_axes(&p, key, title, "time", "s", "voltage", "V");
-    snprintf(lab, sizeof lab, "gate max %s", br_plot_si(v, sizeof v, gate, 3, "V"));
-    if (gate > 0)
-        br_plot_hline(&p, gate, &S_GATE, lab);
+    br_chart_rail_limits(&p, c, k);
     if (st->aux.kind == BR_AUX_LDO)
         driver_supply(&p, tr, k, st->name);
-    snprintf(lab, sizeof lab, "min drive %s", br_plot_si(v, sizeof v, drive, 3, "V"));
-    if (drive > 0)
-        br_plot_hline(&p, drive, &S_DRIVE, lab);
-    snprintf(lab, sizeof lab, "UVLO fall %s", br_plot_si(v, sizeof v, fall, 3, "V"));
-    br_plot_hline(&p, fall, &S_FALL, lab);
     snprintf(key, sizeof key, "rail_%s_V", st->name);
     br_plot_line(&p, tr->t, tr->v + k, tr->len, tr->n, &S_RAIL, key);
     br_plot_done(&p);
@@ -222,11 +276,10 @@ int br_chart_ripple(const br_chain *c, const br_steady_figs *f, const br_trace *
     doc_begin(&s, out, cols * PANEL_W, grid_height(c->n, cols), standalone, head);
     heading(&s, head);
     br_plot_frame(&p, &s, 0, 0, 10, 10);
-    double x = 560;
-    x = br_plot_key(&p, x, 30, &S_RAIL, "rail");
-    x = br_plot_key(&p, x, 30, &S_DRV, "driver supply");
-    x = br_plot_key(&p, x, 30, &S_DRIVE, "min drive");
-    br_plot_key(&p, x, 30, &S_GATE, "gate max");
+    double x = 12;
+    x = br_plot_key(&p, x, KEY_Y, &S_RAIL, "rail");
+    x = br_plot_key(&p, x, KEY_Y, &S_DRV, "driver supply");
+    br_chart_limits_key(&p, x, KEY_Y);
     for (int k = 0; k < c->n && tr->len > 1; k++) {
         double px, py;
         panel_at(k, cols, &px, &py);
@@ -262,14 +315,18 @@ static void diode_panel(br_svg *s, const br_chain *c, const br_steady_figs *f, i
                         const br_trace *tr, int which, double y)
 {
     br_plot p;
-    char title[128], key[64], lab[64], v[32];
+    char title[160], key[64], lab[64], v[32], dp[32];
     const char *name = c->st[k].name;
     long cnt, a = br_trace_find(tr, tr->t[0], tr->t[0] + c->T, &cnt);
     const double *col = which ? tr->vr : tr->i;
     double lo = column_min(tr, col, k, a, cnt), hi = column_max_in(tr, col, k, a, cnt);
+    if (!which) { /* the displacement current is drawn beside the forward current */
+        lo = fmin(lo, column_min(tr, tr->j, k, a, cnt));
+        hi = fmax(hi, column_max_in(tr, tr->j, k, a, cnt));
+    }
     double vrrm = f->link[k].vrrm, derated = vrrm * c->derating;
-    if (which && derated > 0)
-        reach(&lo, &hi, derated);
+    if (which && vrrm > 0) /* the rating and its derated value as lines in the plot */
+        hi = fmax(hi, vrrm);
     lo = fmin(lo, 0.0);
     br_plot_frame(&p, s, 0, y, 2 * PANEL_W, PANEL_H);
     br_plot_range(&p, tr->t[a], tr->t[a + cnt - 1], lo, hi, 1);
@@ -277,17 +334,26 @@ static void diode_panel(br_svg *s, const br_chain *c, const br_steady_figs *f, i
         snprintf(title, sizeof title, "link %s: reverse voltage (peak with overshoot %s)", name,
                  br_plot_si(v, sizeof v, f->link[k].vrev_stress, 4, "V"));
     else
-        snprintf(title, sizeof title, "link %s: forward current (peak %s, RMS %s)", name,
+        snprintf(title, sizeof title,
+                 "link %s: forward current (peak %s, RMS %s), displacement current (peak %s)", name,
                  br_plot_si(v, sizeof v, f->link[k].ipeak, 3, "A"),
-                 br_plot_si(lab, sizeof lab, f->link[k].irms, 3, "A"));
+                 br_plot_si(lab, sizeof lab, f->link[k].irms, 3, "A"),
+                 br_plot_si(dp, sizeof dp, f->link[k].idisp, 3, "A"));
     snprintf(key, sizeof key, "diode-%s-%s-%s", br_dir_short(f->dir), name, which ? "vr" : "i");
     br_plot_axes(&p, key, title, "time", "s", which ? "reverse voltage" : "current",
                  which ? "V" : "A");
     if (which && vrrm > 0) {
-        snprintf(lab, sizeof lab, "rating %s", br_plot_si(v, sizeof v, vrrm, 3, "V"));
-        br_plot_hline(&p, vrrm, &S_GATE, lab);
-        snprintf(lab, sizeof lab, "derated %s", br_plot_si(v, sizeof v, derated, 3, "V"));
-        br_plot_hline(&p, derated, &S_DRIVE, lab);
+        char rated[64];
+        snprintf(rated, sizeof rated, "rating\n%s", br_plot_si(v, sizeof v, vrrm, 3, "V"));
+        snprintf(lab, sizeof lab, "derated rating\n%s", br_plot_si(v, sizeof v, derated, 3, "V"));
+        const double at[] = {vrrm, derated};
+        const br_style *st[] = {&S_GATE, &S_DRIVE};
+        const char *keys[] = {"rating", "derated-rating"}, *labs[] = {rated, lab};
+        br_plot_limits(&p, 2, at, st, keys, labs);
+    }
+    if (!which) {
+        snprintf(key, sizeof key, "disp_%s_A", name);
+        br_plot_line(&p, tr->t + a, tr->j + a * tr->n + k, cnt, tr->n, &S_DISP, key);
     }
     snprintf(key, sizeof key, which ? "vrev_%s_V" : "link_%s_A", name);
     br_plot_line(&p, tr->t + a, col + a * tr->n + k, cnt, tr->n, &S_RAIL, key);
@@ -303,6 +369,10 @@ int br_chart_diode(const br_chain *c, const br_steady_figs *f, int k, const br_t
              c->st[k].name, br_dir_label(f->dir));
     doc_begin(&s, out, 2 * PANEL_W, HEAD_H + 2 * PANEL_H, standalone, head);
     heading(&s, head);
+    br_plot p;
+    br_plot_frame(&p, &s, 0, 0, 10, 10);
+    double x = br_plot_key(&p, 12, KEY_Y, &S_RAIL, "forward current, reverse voltage");
+    br_plot_key(&p, x, KEY_Y, &S_DISP, "displacement current (Cj dv/dt)");
     if (tr->len > 1 && k > 0) {
         diode_panel(&s, c, f, k, tr, 0, HEAD_H);
         diode_panel(&s, c, f, k, tr, 1, HEAD_H + PANEL_H);
@@ -427,6 +497,29 @@ static double scan_x(const br_sweep *sw, int i)
     }
 }
 
+/* The limits the search found (not the ends of the range scanned): a
+ * marker at each end of every interval where the chain holds, labelled
+ * with its value. */
+static void limit_marks(br_plot *p, const br_sweep *sw, double k, const char *unit)
+{
+    static const br_style S_LIMIT = {BR_VERMILION, "6 3", 1.6};
+    for (int i = 0; i < sw->nspans; i++) {
+        const br_limit *ends[2] = {&sw->span[i].lo, &sw->span[i].hi};
+        for (int e = 0; e < 2; e++) {
+            if (ends[e]->kind != BR_LIMIT_FOUND)
+                continue;
+            char v[32], lab[64];
+            double x = k * ends[e]->value;
+            if (unit[0] == '%')
+                snprintf(v, sizeof v, "%.3g %%", x);
+            else
+                br_plot_si(v, sizeof v, x, 4, unit);
+            snprintf(lab, sizeof lab, "%s %s", e ? "holds to" : "holds from", v);
+            br_plot_mark(p, x, &S_LIMIT, "found-limit", lab);
+        }
+    }
+}
+
 static void sweep_panel(br_svg *s, const br_sweep *sw, double y)
 {
     static const char *const key[] = {"window-duty", "window-fsw", "window-ipk", "window-fline"};
@@ -461,7 +554,8 @@ static void sweep_panel(br_svg *s, const br_sweep *sw, double y)
         if (isfinite(m[i]))
             br_svg_circle(s, br_plot_px(&p, x[i]), br_plot_py(&p, m[i]), 3.0,
                           sw->scan[i].holds ? BR_BLUE : BR_VERMILION, "none", 0);
-    br_plot_vline(&p, k * sw->design, &S_START, "design");
+    br_plot_mark(&p, k * sw->design, &S_START, "design", "design");
+    limit_marks(&p, sw, k, unit[a]);
     br_plot_done(&p);
 }
 

@@ -10,6 +10,7 @@
 #include "analyses/figures.h"
 #include "analyses/window.h"
 #include "analyses/yield.h"
+#include "report/plot.h"
 #include "report/svg.h"
 #include "report/trace.h"
 
@@ -30,6 +31,15 @@ int br_chart_ripple(const br_chain *c, const br_steady_figs *f, const br_trace *
  * (and driver supply behind a regulator) per switching period of the
  * envelope e, UVLO falling, the minimum drive, the gate maximum, and
  * where its driver supply is lowest. */
+/* The limits of rail k's driver where the rail must be for them (vocab.h),
+ * the same in every plot of a rail: br_chart_take_limits grows [lo, hi]
+ * to take them in, br_chart_rail_limits draws them as labelled lines
+ * (the floor named), br_chart_limits_key gives their styles' key at (x,
+ * y) and returns the x after it. */
+void br_chart_take_limits(const br_chain *c, int k, double *lo, double *hi);
+void br_chart_rail_limits(br_plot *p, const br_chain *c, int k);
+double br_chart_limits_key(br_plot *p, double x, double y);
+
 int br_chart_line(const br_chain *c, const br_steady_figs *f, const br_line_env *e, int standalone,
                   br_text *out);
 

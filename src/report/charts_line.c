@@ -19,8 +19,6 @@ static const br_style S_HI = {BR_SKY, "6 3", 2.0};
 static const br_style S_DLO = {BR_GREEN, NULL, 1.6};
 static const br_style S_DHI = {BR_GREEN, "7 4", 1.6};
 static const br_style S_FALL = {BR_ORANGE, "2 3", 2.0};
-static const br_style S_DRIVE = {BR_VERMILION, "2 3", 2.0};
-static const br_style S_GATE = {BR_PURPLE, "8 4", 2.0};
 static const br_style S_AT = {BR_VERMILION, NULL, 1.2};
 static const br_style S_WAVE = {BR_BLUE, NULL, 2.0};
 
@@ -95,33 +93,6 @@ static void range_of(const br_line_env *e, const double *lo, const double *hi, i
     }
 }
 
-/* Grow [lo, hi] to take in a limit within reach (charts.c does the same
- * for the ripple plots). */
-static void reach(double *lo, double *hi, double lim)
-{
-    double span = fmax(*hi - *lo, 0.02 * fabs(*hi));
-    if (lim < *lo && *lo - lim < 1.5 * span)
-        *lo = lim;
-    if (lim > *hi && lim - *hi < 1.5 * span)
-        *hi = lim;
-}
-
-static void rail_limits(br_plot *p, const br_chain *c, int k)
-{
-    char lab[64], v[32];
-    const br_stage *st = &c->st[k];
-    if (st->sw.vgs_max > 0) {
-        snprintf(lab, sizeof lab, "gate max %s", br_plot_si(v, sizeof v, st->sw.vgs_max, 3, "V"));
-        br_plot_hline(p, st->sw.vgs_max, &S_GATE, lab);
-    }
-    if (c->min_drive > 0) {
-        snprintf(lab, sizeof lab, "min drive %s", br_plot_si(v, sizeof v, c->min_drive, 3, "V"));
-        br_plot_hline(p, c->min_drive, &S_DRIVE, lab);
-    }
-    snprintf(lab, sizeof lab, "UVLO fall %s", br_plot_si(v, sizeof v, st->drv.uvlo_fall, 3, "V"));
-    br_plot_hline(p, st->drv.uvlo_fall, &S_FALL, lab);
-}
-
 static void rail_panel(br_svg *s, const br_chain *c, const br_steady_figs *f, const br_line_env *e,
                        const line_axes *a, int k, double x, double y)
 {
@@ -136,15 +107,13 @@ static void rail_panel(br_svg *s, const br_chain *c, const br_steady_figs *f, co
         lo = fmin(lo, dlo);
         hi = fmax(hi, dhi);
     }
-    reach(&lo, &hi, st->sw.vgs_max);
-    reach(&lo, &hi, c->min_drive);
-    reach(&lo, &hi, st->drv.uvlo_fall);
+    br_chart_take_limits(c, k, &lo, &hi);
     br_plot_frame(&p, s, x, y, PANEL_W, PANEL_H);
     br_plot_range(&p, 0.0, 360.0, lo, hi, 1);
     snprintf(title, sizeof title, "rail %s over the line cycle", st->name);
     snprintf(key, sizeof key, "line-%s", st->name);
     br_plot_axes(&p, key, title, "line phase", "deg", "voltage", "V");
-    rail_limits(&p, c, k);
+    br_chart_rail_limits(&p, c, k);
     snprintf(key, sizeof key, "rail_%s_V", st->name);
     br_plot_line(&p, a->deg, e->vmin + k, e->rows, e->n, &S_LO, key);
     br_plot_line(&p, a->deg, e->vmax + k, e->rows, e->n, &S_HI, key);
@@ -183,9 +152,7 @@ int br_chart_line(const br_chain *c, const br_steady_figs *f, const br_line_env 
     x = br_plot_key(&p, x, 40, &S_LO, "rail lowest");
     x = br_plot_key(&p, x, 40, &S_HI, "rail highest");
     x = br_plot_key(&p, x, 40, &S_DLO, "driver supply");
-    x = br_plot_key(&p, x, 40, &S_FALL, "UVLO falling");
-    x = br_plot_key(&p, x, 40, &S_DRIVE, "min drive");
-    br_plot_key(&p, x, 40, &S_GATE, "gate max");
+    br_chart_limits_key(&p, x, 40);
     for (int i = 0; i < panels; i++) {
         double px = (i % cols) * PANEL_W, py = HEAD_H + 10 + (i / cols) * PANEL_H;
         if (i < 2)

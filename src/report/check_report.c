@@ -106,7 +106,7 @@ static int render_load(const br_chain *c, br_text *out)
                              si(a, sizeof a, c->load_from, "s"));
     else
         rc |= br_text_put(out, " in steady state; start-up at no load\n");
-    rc |= br_text_printf(out, "  switch junction   %.1f C%s\n", c->tj - KELVIN,
+    rc |= br_text_printf(out, "  switch junction   %.1f degC%s\n", c->tj - KELVIN,
                          d && d->tj_given ? "" : " (the ambient)");
     return rc;
 }
@@ -127,7 +127,7 @@ static int render_line(const br_chain *c, br_text *out)
     rc |= l->ntab > 0 ? br_text_printf(out, "a table of %d points)\n", l->ntab)
                       : br_text_printf(out, "sine modulation, depth %.4g)\n", l->depth);
     rc |= br_text_printf(out, "  dead time         %s\n", si(a, sizeof a, c->deadtime, "s"));
-    rc |= br_text_printf(out, "  ambient           %.1f C\n", c->tamb - KELVIN);
+    rc |= br_text_printf(out, "  ambient           %.1f degC\n", c->tamb - KELVIN);
     rc |=
         br_text_printf(out, "  line cycle        %s (%ld switching periods; %s given)\n",
                        si(a, sizeof a, l->freq, "Hz"), l->K, si(g, sizeof g, l->freq_given, "Hz"));
@@ -142,7 +142,7 @@ static int render_line(const br_chain *c, br_text *out)
                              si(a, sizeof a, c->load_from, "s"));
     else
         rc |= br_text_put(out, "  start-up          at no load\n");
-    rc |= br_text_printf(out, "  switch junction   %.1f C%s\n", c->tj - KELVIN,
+    rc |= br_text_printf(out, "  switch junction   %.1f degC%s\n", c->tj - KELVIN,
                          d && d->tj_given ? "" : " (the ambient)");
     return rc;
 }
@@ -211,7 +211,7 @@ static int render_header(const br_chain *c, br_text *out)
     } else {
         rc |= br_text_printf(out, "  duty              %.4g (%.1f %%)\n", c->duty, 100.0 * c->duty);
         rc |= br_text_printf(out, "  dead time         %s\n", si(a, sizeof a, c->deadtime, "s"));
-        rc |= br_text_printf(out, "  ambient           %.1f C\n", c->tamb - KELVIN);
+        rc |= br_text_printf(out, "  ambient           %.1f degC\n", c->tamb - KELVIN);
         rc |= br_text_printf(out, "  current direction %s\n", direction_name(c->direction));
         if (c->direction != BR_DIR_NONE)
             rc |= render_load(c, out);
@@ -395,7 +395,7 @@ static int render_switches(const br_chain *c, br_text *out)
                              : "-");
         br_table_set(t, S_REV, "%.3f", br_sw_rev_drop(&st->sw, i));
     }
-    int rc = br_text_printf(out, "\nswitches at the %s current (%s, junction %.1f C)\n",
+    int rc = br_text_printf(out, "\nswitches at the %s current (%s, junction %.1f degC)\n",
                             c->line.on ? "line cycle's peak" : "load", si(a, sizeof a, i, "A"),
                             c->tj - KELVIN);
     rc |= br_table_render(t, 2, out);

@@ -6,6 +6,7 @@
 #include "report/report_common.h"
 #include "report/table.h"
 #include "report/verdict_report.h"
+#include "report/vocab.h"
 
 #include <math.h>
 #include <stdio.h>
@@ -20,7 +21,7 @@
 const char *br_param_value(const br_tol_param *p, double v, char *buf, size_t cap)
 {
     if (p->kind == BR_KIND_TEMPERATURE) {
-        snprintf(buf, cap, "%.4g C", v - KELVIN);
+        snprintf(buf, cap, "%.4g " BR_DEGC, v - KELVIN);
         return buf;
     }
     if (p->kind == BR_KIND_ANGLE) {
@@ -71,12 +72,7 @@ int br_param_table(const br_tol_list *tl, br_text *out)
 
 const char *br_crit_where(const br_chain *c, int crit, int stage, char *buf, size_t cap)
 {
-    int link = crit == BR_CRIT_INRUSH || crit == BR_CRIT_DIODE_VR;
-    if (stage < 0 || stage >= c->n)
-        snprintf(buf, cap, "-");
-    else
-        snprintf(buf, cap, "%s %s", link ? "link" : "rail", c->st[stage].name);
-    return buf;
+    return br_crit_place(c, crit, stage, 0, buf, cap);
 }
 
 /* ---- the corners ------------------------------------------------------------ */
@@ -189,17 +185,21 @@ static int method_text(const br_corners *k, br_text *out)
     return rc;
 }
 
-enum { C_NAME, C_RESULT, C_FIGURE, C_LIMIT, C_MARGIN, C_NOMINAL, C_AT, C_DIR, C_CORNER, NCOL };
+/* The worst corner of each criterion in two tables of the same rows (the
+ * criterion's name and its numbers, then where it binds), which keeps
+ * each within the report's width. */
+enum { C_NAME, C_RESULT, C_FIGURE, C_LIMIT, C_MARGIN, C_NOMINAL, C_CORNER, NCOL };
+enum { W_NAME, W_AT, W_DIR, W_CORNER, NWCOL };
 
 static void value_cell(br_table *t, int col, double v, int crit)
 {
     char b[BR_TABLE_CELL];
     /* a rail that never starts has no margin; junction temperatures read
-     * in degrees Celsius, their margins in kelvin */
+     * in degC, their margins in kelvin */
     if (col != C_FIGURE && br_crit_never(crit, v))
         br_table_set(t, col, "-");
-    else if (crit == BR_CRIT_TJ && (col == C_FIGURE || col == C_LIMIT) && isfinite(v))
-        br_table_set(t, col, "%.4g C", v - 273.15);
+    else if (col == C_FIGURE || col == C_LIMIT)
+        br_table_set(t, col, "%s", br_crit_fmt_value(b, sizeof b, crit, v));
     else
         br_table_set(t, col, "%s", br_crit_fmt(b, sizeof b, crit, v));
 }
@@ -231,13 +231,17 @@ static void worst_numbers(br_table *t, const br_corners *k, int crit)
         br_table_set(t, C_NOMINAL, "-");
 }
 
-static void worst_row(br_table *t, const br_chain *c, const br_corners *k, int crit, int letter)
+static int is_na(const br_corner_worst *w)
+{
+    return !w->applies && w->outcome != BR_OUTCOME_UNDETERMINED;
+}
+
+static void worst_row(br_table *t, const br_corners *k, int crit, int letter)
 {
     const br_corner_worst *w = &k->w[crit];
-    char b[BR_TABLE_CELL];
     br_table_row(t);
-    br_table_set(t, C_NAME, "%s", br_crit_name(crit));
-    if (!w->applies && w->outcome != BR_OUTCOME_UNDETERMINED) {
+    br_table_set(t, C_NAME, "%s", br_crit_title(crit));
+    if (is_na(w)) {
         br_table_set(t, C_RESULT, "n/a");
         for (int col = C_FIGURE; col < NCOL; col++)
             br_table_set(t, col, "-");
@@ -246,31 +250,57 @@ static void worst_row(br_table *t, const br_chain *c, const br_corners *k, int c
     br_table_set(t, C_RESULT, "%s",
                  w->outcome == BR_OUTCOME_PASS && w->worst.warn ? "WARN" : result_word(w->outcome));
     worst_numbers(t, k, crit);
-    if (w->applies && letter >= 0) {
-        br_table_set(t, C_AT, "%s", br_crit_where(c, crit, w->worst.stage, b, sizeof b));
-        br_table_set(t, C_DIR, "%s", br_crit_is_startup(crit) ? "-" : br_dir_short(w->worst.dir));
+    if (w->applies && letter >= 0)
         br_table_set(t, C_CORNER, "%c", 'A' + letter);
-    } else {
-        for (int col = C_AT; col < NCOL; col++)
-            br_table_set(t, col, "-");
-    }
+    else
+        br_table_set(t, C_CORNER, "-");
+}
+
+static void where_row(br_table *t, const br_chain *c, const br_corners *k, int crit, int letter)
+{
+    const br_corner_worst *w = &k->w[crit];
+    char b[BR_TABLE_CELL];
+    br_table_row(t);
+    br_table_set(t, W_NAME, "%s", br_crit_title(crit));
+    int shown = w->applies && letter >= 0;
+    br_table_set(t, W_AT, "%s",
+                 shown ? br_crit_place(c, crit, w->worst.stage, w->worst.aux, b, sizeof b) : "-");
+    br_table_set(t, W_DIR, "%s",
+                 shown && !br_crit_is_startup(crit) ? br_dir_label(w->worst.dir) : "-");
+    if (shown)
+        br_table_set(t, W_CORNER, "%c", 'A' + letter);
+    else
+        br_table_set(t, W_CORNER, "-");
 }
 
 static int worst_table(const br_chain *c, const br_corners *k, const int *letter, br_text *out)
 {
-    static const char *const heads[NCOL] = {"criterion", "result", "figure",  "limit", "margin",
-                                            "nominal",   "at",     "current", "corner"};
+    static const char *const heads[NCOL] = {"criterion", "result",  "figure", "limit",
+                                            "margin",    "nominal", "corner"};
+    static const char *const wheads[NWCOL] = {"criterion", "at", "direction", "corner"};
     br_table *t = br_table_create(NCOL, BR_CRIT_COUNT);
-    if (!t)
-        return BR_ENOMEM;
-    for (int col = 0; col < NCOL; col++) {
-        int left = col == C_NAME || col == C_RESULT || col >= C_AT;
+    br_table *wt = br_table_create(NWCOL, BR_CRIT_COUNT);
+    int rc = t && wt ? BR_OK : BR_ENOMEM;
+    for (int col = 0; t && col < NCOL; col++) {
+        int left = col == C_NAME || col == C_RESULT || col == C_CORNER;
         br_table_head(t, col, heads[col], left ? BR_LEFT : BR_RIGHT);
     }
-    for (int crit = 0; crit < BR_CRIT_COUNT; crit++)
-        worst_row(t, c, k, crit, letter[crit]);
-    int rc = br_table_render(t, 2, out);
+    for (int col = 0; wt && col < NWCOL; col++)
+        br_table_head(wt, col, wheads[col], BR_LEFT);
+    for (int crit = 0; rc == BR_OK && crit < BR_CRIT_COUNT; crit++) {
+        worst_row(t, k, crit, letter[crit]);
+        if (!is_na(&k->w[crit]) && letter[crit] >= 0)
+            where_row(wt, c, k, crit, letter[crit]);
+    }
+    if (rc == BR_OK)
+        rc = br_table_render(t, 2, out);
+    if (rc == BR_OK)
+        rc = br_text_put(out, "where each worst corner binds (at: the rail or link; direction: "
+                              "the current direction there)\n");
+    if (rc == BR_OK)
+        rc = br_table_render(wt, 2, out);
     br_table_free(t);
+    br_table_free(wt);
     return rc;
 }
 
@@ -315,7 +345,7 @@ static int undecided_text(const br_corners *k, const int *uletter, br_text *out)
         if (first == '-')
             first = (char)('A' + uletter[crit]);
         len += (size_t)snprintf(names + len, sizeof names - len, "%s%s (%ld point%s)",
-                                len ? ", " : "", br_crit_name(crit), k->w[crit].undetermined,
+                                len ? ", " : "", br_crit_title(crit), k->w[crit].undetermined,
                                 k->w[crit].undetermined == 1 ? "" : "s");
         if (len >= sizeof names)
             break;
@@ -373,10 +403,13 @@ int br_corners_text(const br_chain *c, const br_corners *k, br_text *out)
     rc |= br_param_table(&k->s->tl, out);
     rc |= br_text_put(out, "\n");
     rc |= method_text(k, out);
-    rc |= br_text_put(out, "\nworst corner of each criterion (margin = limit - figure for a "
-                           "maximum, figure - limit for a\nminimum; nominal: the margin at the "
-                           "nominal point; at = where it binds; steady-state is a\nstatus, no "
-                           "margin: it holds, a driver drops out, or it is not settled)\n");
+    rc |= br_text_put(out, "\n");
+    rc |= br_report_wrap(out, "worst corner of each criterion ",
+                         "(margin = limit - figure for a maximum, figure - limit for a minimum; "
+                         "nominal: the margin at the nominal point; corner: the limits the "
+                         "parameters take there, below; the periodic steady state is a status, "
+                         "no margin: it holds, a driver drops out, or it is not settled)",
+                         0);
     rc |= worst_table(c, k, letter, out);
     rc |= overall(k, out);
     rc |= undecided_text(k, uletter, out);

@@ -1,9 +1,10 @@
-/* csv.c - decimated simulator samples as CSV rows. */
+/* csv.c - simulator samples as CSV rows, thinned to a min/max envelope. */
 #include "report/csv.h"
 
 #include <math.h>
-
 #include <string.h>
+
+#define M BR_MAX_SWITCHES
 
 int br_csv_header(const br_chain *c, br_text *out)
 {
@@ -13,6 +14,8 @@ int br_csv_header(const br_chain *c, br_text *out)
     rc |= br_text_put(out, ",supply_A");
     for (int k = 1; k < c->n; k++)
         rc |= br_text_printf(out, ",link_%s_A", c->st[k].name);
+    for (int k = 1; k < c->n; k++)
+        rc |= br_text_printf(out, ",disp_%s_A", c->st[k].name);
     for (int k = 0; k < c->n; k++)
         rc |= br_text_printf(out, ",drv_%s_V", c->st[k].name);
     for (int k = 1; k < c->n; k++)
@@ -32,8 +35,8 @@ void br_csv_series_init(br_csv_series *s, br_text *out, const char *label, int n
     s->force = 1; /* the first sample always */
 }
 
-/* One column block: n values from `from`, a value that is not finite as
- * an empty field. */
+/* One column block: values from `from` to n-1, a value that is not
+ * finite as an empty field. */
 static int put_values(br_text *out, const double *x, int from, int n)
 {
     int rc = 0;
@@ -45,62 +48,129 @@ static int put_values(br_text *out, const double *x, int from, int n)
 
 /* 7 significant digits: 10 uV on a 15 V rail, finer than any figure the
  * reports quote; time gets more so that the rows of one period differ. */
-static void put_row(br_csv_series *s, double t, const double *v, const double *i, const double *vd,
-                    const double *vr)
+static void put_row(br_csv_series *s, const br_csv_row *r)
 {
+    const double *v = r->x + BR_CSV_V * M, *i = r->x + BR_CSV_I * M, *j = r->x + BR_CSV_J * M;
+    const double *d = r->x + BR_CSV_D * M, *q = r->x + BR_CSV_R * M;
     if (s->row)
-        s->row(s->row_ctx, t, v, i, vd, vr);
-    s->last_t = t;
+        s->row(s->row_ctx, r->t, v, i, d, q, j);
     s->rows++;
-    s->held = 0;
     if (!s->out)
         return;
-    int rc = br_text_printf(s->out, "%s,%.10g", s->label, t + s->t_offset);
+    int rc = br_text_printf(s->out, "%s,%.10g", s->label, r->t + s->t_offset);
     rc |= put_values(s->out, v, 0, s->n);
     rc |= put_values(s->out, i, 0, s->n); /* [0]: the supply (link 0 does not exist) */
-    rc |= put_values(s->out, vd, 0, s->n);
-    rc |= put_values(s->out, vr, 1, s->n);
+    rc |= put_values(s->out, j, 1, s->n);
+    rc |= put_values(s->out, d, 0, s->n);
+    rc |= put_values(s->out, q, 1, s->n);
     rc |= br_text_put(s->out, "\n");
     s->failed |= rc != 0;
 }
 
-static void hold(br_csv_series *s, double t, const double *v, const double *i, const double *vd,
-                 const double *vr)
+/* The columns a row uses, as indexes into x. */
+static int in_use(const br_csv_series *s, int col)
 {
-    size_t bytes = sizeof(double) * (size_t)s->n;
+    return col % M < s->n;
+}
+
+/* Take sample r into the envelope. */
+static void envelope_add(br_csv_series *s, const br_csv_row *r)
+{
+    if (s->nenv++ == 0) {
+        s->lo = s->hi = *r;
+        memset(s->lo_first, 1, sizeof s->lo_first);
+        return;
+    }
+    s->hi.t = r->t;
+    for (int col = 0; col < BR_CSV_BLOCKS * M; col++) {
+        double x = r->x[col];
+        if (!in_use(s, col) || !isfinite(x))
+            continue;
+        /* the first value of a column is both its low and its high; the
+         * one that moves later came second */
+        if (x < s->lo.x[col] || !isfinite(s->lo.x[col])) {
+            s->lo.x[col] = x;
+            s->lo_first[col] = 0;
+        } else if (x > s->hi.x[col] || !isfinite(s->hi.x[col])) {
+            s->hi.x[col] = x;
+            s->lo_first[col] = 1;
+        }
+    }
+}
+
+/* The envelope as rows: one for a single sample, else two, each column's
+ * extremes in the order they came, at the first and the last time. */
+static void envelope_flush(br_csv_series *s)
+{
+    if (s->nenv == 1) {
+        put_row(s, &s->lo);
+    } else if (s->nenv > 1) {
+        br_csv_row a, b;
+        a.t = s->lo.t;
+        b.t = s->hi.t;
+        for (int col = 0; col < BR_CSV_BLOCKS * M; col++) {
+            int lo_first = s->lo_first[col];
+            a.x[col] = lo_first ? s->lo.x[col] : s->hi.x[col];
+            b.x[col] = lo_first ? s->hi.x[col] : s->lo.x[col];
+        }
+        put_row(s, &a);
+        put_row(s, &b);
+    }
+    s->nenv = 0;
+}
+
+static void take(br_csv_series *s, const br_csv_row *r)
+{
+    if (s->force) { /* kept as it is, and a new bucket starts after it */
+        envelope_flush(s);
+        put_row(s, r);
+        s->force = 0;
+        s->held = 0;
+        return;
+    }
+    double start = s->nenv > 0 ? s->lo.t : s->last.t; /* the bucket's first sample */
+    if (s->held && r->t - start >= s->min_dt) {
+        envelope_add(s, &s->last); /* the bucket is full: out with it */
+        envelope_flush(s);
+        s->held = 0;
+    }
+    if (s->held)
+        envelope_add(s, &s->last);
+    s->last = *r;
     s->held = 1;
-    s->ht = t;
-    memcpy(s->hv, v, bytes);
-    memcpy(s->hi, i, bytes);
-    memcpy(s->hd, vd, bytes);
-    memcpy(s->hr, vr, bytes);
 }
 
 static void on_sample(void *ctx, const br_sim *sim, double t, const double *vrail,
                       const double *ilink, int n)
 {
     br_csv_series *s = ctx;
-    double vd[BR_MAX_SWITCHES], vr[BR_MAX_SWITCHES], il[BR_MAX_SWITCHES];
+    br_csv_row r;
+    double *i = r.x + BR_CSV_I * M;
     (void)n; /* the chain's n, fixed at init */
-    br_sim_sample_stress(sim, t, vrail, s->n, vd, vr);
-    memcpy(il, ilink, sizeof(double) * (size_t)s->n);
-    if (!sim)
-        il[0] = NAN; /* no simulator, no supply current */
-    if (s->force || t - s->last_t >= s->min_dt) {
-        put_row(s, t, vrail, il, vd, vr);
-        s->force = 0;
-    } else {
-        hold(s, t, vrail, il, vd, vr);
+    r.t = t;
+    for (int col = 0; col < BR_CSV_BLOCKS * M; col++)
+        r.x[col] = NAN;
+    memcpy(r.x + BR_CSV_V * M, vrail, sizeof(double) * (size_t)s->n);
+    br_sim_sample_stress(sim, t, vrail, s->n, r.x + BR_CSV_D * M, r.x + BR_CSV_R * M);
+    br_sim_sample_links(sim, ilink, s->n, i, r.x + BR_CSV_J * M);
+    i[0] = sim ? ilink[0] : NAN; /* no simulator, no supply current */
+    if (s->min_dt <= 0.0) {
+        put_row(s, &r);
+        return;
     }
+    take(s, &r);
 }
 
-/* A transition: keep the state just before it and the first one after. */
+/* A transition: the bucket so far, the sample just before it as it is,
+ * and the first one after it as it is. */
 static void on_uvlo(void *ctx, const br_uvlo_event *e)
 {
     br_csv_series *s = ctx;
     (void)e;
+    envelope_flush(s);
     if (s->held)
-        put_row(s, s->ht, s->hv, s->hi, s->hd, s->hr);
+        put_row(s, &s->last);
+    s->held = 0;
     s->force = 1;
 }
 
@@ -113,6 +183,8 @@ br_sim_observer br_csv_observer(br_csv_series *s)
 int br_csv_series_end(br_csv_series *s)
 {
     if (s->held)
-        put_row(s, s->ht, s->hv, s->hi, s->hd, s->hr);
+        envelope_add(s, &s->last);
+    envelope_flush(s);
+    s->held = 0;
     return s->failed ? BR_ENOMEM : BR_OK;
 }

@@ -4,6 +4,7 @@
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
+#include <string.h>
 
 /* Prefixes from 1e-15 to 1e9; index PREFIX_ZERO is no prefix. */
 static const char *const prefix[] = {"f", "p", "n", "u", "m", "", "k", "M", "G"};
@@ -11,10 +12,19 @@ static const char *const prefix[] = {"f", "p", "n", "u", "m", "", "k", "M", "G"}
 #define PREFIX_MIN (-5)
 #define PREFIX_MAX 3
 
+/* A charge always carries a prefix (nC, uC, mC): a bare "C" reads as
+ * degrees Celsius next to a temperature. */
+static int is_charge(const char *unit)
+{
+    return strcmp(unit, "C") == 0;
+}
+
 static br_scale scale_of(int e, const char *unit)
 {
     br_scale sc;
     e = e < PREFIX_MIN ? PREFIX_MIN : e > PREFIX_MAX ? PREFIX_MAX : e;
+    if (is_charge(unit) && e > -1)
+        e = -1;
     sc.factor = pow(10.0, -3.0 * e);
     snprintf(sc.unit, sizeof sc.unit, "%s%s", prefix[e + PREFIX_ZERO], unit);
     return sc;
@@ -48,7 +58,7 @@ const char *br_fmt_si(char *buf, size_t cap, double v, int digits, const char *u
         snprintf(buf, cap, "n/a");
         return buf;
     }
-    int e = exponent3(v);
+    int e = v == 0.0 && is_charge(unit) ? -3 : exponent3(v); /* "0 nC" */
     br_scale sc = scale_of(e, unit);
     char num[40];
     snprintf(num, sizeof num, "%.*g", digits, v * sc.factor);

@@ -17,7 +17,9 @@ typedef struct br_scale {
 } br_scale;
 
 /* The engineering prefix (a power of 1000 from femto to giga) that puts
- * |v| in [1, 1000); v = 0 or non-finite keeps the plain unit. */
+ * |v| in [1, 1000); v = 0 or non-finite keeps the plain unit.  A charge
+ * ("C") always has a prefix, milli at most and nano for 0: a bare "C"
+ * would read as degrees Celsius. */
 br_scale br_scale_for(double v, const char *unit);
 
 /* The scale for a column whose largest magnitude is vmax, never finer

@@ -15,28 +15,36 @@
 #include <stdio.h>
 #include <string.h>
 
-/* Our own look: a slate header, white cards, tables that read in print.
- * Results are told apart by words and symbols as well as by colour. */
+/* Our own look: a deep slate header on a warm stone page, white cards,
+ * tables that read in print, preformatted text on parchment with a
+ * brass rule.  Results are told apart by words and symbols as well as by
+ * colour.  The palette:
+ *   ink #20262d, page #efede6, card #ffffff, rules #d8d3c7,
+ *   header #2a3846 on #f4f1ea, table heads #ebe7dc, zebra rows #f8f6f1,
+ *   preformatted #f4efe2 with a #b89f5f rule, accents from the plots'
+ *   Okabe-Ito colours. */
 static const char STYLE[] =
-    "body{margin:0;background:#eef1f4;color:#1d2733;"
+    "body{margin:0;background:#efede6;color:#20262d;"
     "font:16px/1.45 'DejaVu Sans',Verdana,system-ui,sans-serif}\n"
-    "header{background:#1d2733;color:#fff;padding:20px 32px}\n"
+    "header{background:#2a3846;color:#f4f1ea;padding:20px 32px}\n"
     "header h1{margin:0 0 4px;font-size:26px;letter-spacing:.5px}\n"
-    "header p{margin:2px 0;color:#d4dbe3}\n"
+    "header p{margin:2px 0;color:#dcd6c8}\n"
     "main{max-width:1240px;margin:0 auto;padding:16px 20px 40px}\n"
-    "section{background:#fff;border:1px solid #d3dae2;border-radius:6px;margin:18px 0;"
+    "section{background:#fff;border:1px solid #d8d3c7;border-radius:6px;margin:18px 0;"
     "padding:14px 22px}\n"
     "h2{font-size:21px;margin:4px 0 10px;border-bottom:3px solid #0072B2;"
     "display:inline-block;padding-bottom:2px}\n"
+    "h3{font-size:17px;margin:14px 0 4px}\n"
     "table{border-collapse:collapse;margin:8px 0;font-size:15px}\n"
-    "th,td{border-bottom:1px solid #d3dae2;padding:5px 12px;text-align:right;"
+    "th,td{border-bottom:1px solid #d8d3c7;padding:5px 12px;text-align:right;"
     "white-space:nowrap}\n"
-    "th{background:#f3f5f8;text-align:center}\n"
+    "th{background:#ebe7dc;text-align:center}\n"
     "td.l,th.l{text-align:left}\n"
-    "tbody tr:nth-child(even){background:#f8fafb}\n"
+    "tbody tr:nth-child(even){background:#f8f6f1}\n"
+    "tr.group th{background:#2a3846;color:#f4f1ea;text-align:left}\n"
     ".pass{color:#00603f;font-weight:bold}\n"
     ".fail{color:#a33a00;font-weight:bold;background:#fbe9dd}\n"
-    ".na{color:#5b6670}\n"
+    ".na{color:#5d6268}\n"
     ".badge{display:inline-block;font-size:22px;font-weight:bold;padding:6px 18px;"
     "border-radius:4px;margin:4px 0 8px}\n"
     ".badge.pass{background:#dff3eb;border:2px solid #009E73}\n"
@@ -44,17 +52,18 @@ static const char STYLE[] =
     ".undet{color:#6b4e00;font-weight:bold;background:#fdf3d0}\n"
     ".badge.undet{border:2px solid #E69F00}\n"
     ".warn{color:#6b4e00;font-weight:bold}\n"
-    ".note{margin:4px 0;color:#3a4652}\n"
+    ".note{margin:4px 0;color:#3b4148}\n"
     "figure{margin:10px 0;overflow-x:auto}\n"
-    "pre{font-size:14px;background:#f6f8fa;padding:10px;overflow-x:auto}\n"
+    "pre{font-size:14px;background:#f4efe2;border-left:4px solid #b89f5f;padding:10px;"
+    "overflow-x:auto}\n"
     "figure svg{max-width:100%;height:auto;display:block}\n"
-    "figcaption{font-size:15px;color:#3a4652;margin-top:4px}\n"
+    "figcaption{font-size:15px;color:#3b4148;margin-top:4px}\n"
     ".caution{background:#fff6df;border:2px solid #E69F00}\n"
     ".caution h2{border-bottom-color:#E69F00}\n"
-    "footer{text-align:center;color:#5b6670;font-size:14px}\n"
+    "footer{text-align:center;color:#5d6268;font-size:14px}\n"
     "@media print{body{background:#fff}section{border:none;break-inside:avoid}"
     "header{background:#fff;color:#000;border-bottom:3px solid #000}"
-    "header p{color:#000}}\n";
+    "header p{color:#000}tr.group th{background:#fff;color:#000}}\n";
 
 int br_html_text(br_text *out, const char *text)
 {
@@ -81,24 +90,21 @@ static int operating_point(br_text *out, const br_chain *c)
         snprintf(duty, sizeof duty, "duty from the modulation");
     else
         snprintf(duty, sizeof duty, "duty %.1f %%", 100.0 * c->duty);
-    int n = snprintf(line, sizeof line,
-                     "%d switches, bus %s, switching at %s, %s, dead time %s, ambient "
-                     "%.0f \xc2\xb0"
-                     "C",
-                     c->n, br_plot_si(a, sizeof a, c->vin, 4, "V"),
-                     br_plot_si(b, sizeof b, c->fsw, 4, "Hz"), duty,
-                     br_plot_si(d, sizeof d, c->deadtime, 3, "s"), c->tamb - 273.15);
+    char ta[32], tj[32];
+    br_fmt_temp(ta, sizeof ta, c->tamb, 0);
+    br_fmt_temp(tj, sizeof tj, c->tj, 0);
+    int n = snprintf(
+        line, sizeof line, "%d switches, bus %s, switching at %s, %s, dead time %s, ambient %s",
+        c->n, br_plot_si(a, sizeof a, c->vin, 4, "V"), br_plot_si(b, sizeof b, c->fsw, 4, "Hz"),
+        duty, br_plot_si(d, sizeof d, c->deadtime, 3, "s"), ta);
     if (c->line.on && n > 0 && (size_t)n < sizeof line)
-        snprintf(line + n, sizeof line - (size_t)n,
-                 ", %s (switches at %.0f \xc2\xb0"
-                 "C; start-up %s)",
-                 br_line_describe(c, what, sizeof what), c->tj - 273.15,
+        snprintf(line + n, sizeof line - (size_t)n, ", %s (switches at %s; start-up %s)",
+                 br_line_describe(c, what, sizeof what), tj,
                  c->load_from < HUGE_VAL ? "under load" : "at no load");
     else if (c->direction != BR_DIR_NONE && n > 0 && (size_t)n < sizeof line)
         snprintf(line + n, sizeof line - (size_t)n,
-                 ", load current %s (switches at %.0f \xc2\xb0"
-                 "C; start-up %s)",
-                 br_plot_si(i, sizeof i, c->iload, 4, "A"), c->tj - 273.15,
+                 ", load current %s (switches at %s; start-up %s)",
+                 br_plot_si(i, sizeof i, c->iload, 4, "A"), tj,
                  c->load_from < HUGE_VAL ? "under load" : "at no load");
     return tag_text(out, "<p>", line, "</p>\n");
 }
@@ -205,19 +211,21 @@ static int table_end(br_text *out)
 
 /* ---- verdict --------------------------------------------------------------- */
 
-/* As br_crit_fmt, with the plots' number style for the rest. */
-static int crit_cell(br_text *out, int crit, double v)
+/* As br_crit_fmt (a figure or limit: br_crit_fmt_value), with the plots'
+ * number style for the rest. */
+static int crit_cell(br_text *out, int crit, double v, int margin)
 {
     char b[48];
     if (br_crit_never(crit, v) || crit == BR_CRIT_DROPOUTS)
         return cell(out, NULL, br_crit_fmt(b, sizeof b, crit, v));
+    if (crit == BR_CRIT_TJ && !margin)
+        return cell(out, NULL, br_crit_fmt_value(b, sizeof b, crit, v));
     return cell_si(out, v, 4, br_crit_unit(crit));
 }
 
 static int verdict_row(br_text *out, const br_chain *c, const br_verdict_row *r)
 {
     char at[64];
-    int link = r->crit == BR_CRIT_INRUSH || r->crit == BR_CRIT_DIODE_VR;
     int startup = br_crit_is_startup(r->crit);
     int rc = br_text_put(out, "<tr>");
     rc |= cell(out, "l", br_crit_title(r->crit));
@@ -225,20 +233,20 @@ static int verdict_row(br_text *out, const br_chain *c, const br_verdict_row *r)
     if (r->applies && !r->undetermined) {
         /* a rail that never starts has no start-up time and no margin */
         int never = br_crit_never(r->crit, r->figure);
-        rc |= crit_cell(out, r->crit, r->figure);
-        rc |= crit_cell(out, r->crit, r->limit);
+        rc |= crit_cell(out, r->crit, r->figure, 0);
+        rc |= crit_cell(out, r->crit, r->limit, 0);
         rc |= never || !br_crit_has_margin(r->crit) ? cell(out, NULL, "-")
-                                                    : crit_cell(out, r->crit, r->margin);
+                                                    : crit_cell(out, r->crit, r->margin, 1);
     } else {
         rc |= cell(out, NULL, "-") | cell(out, NULL, "-") | cell(out, NULL, "-");
     }
-    if (r->applies && r->stage >= 0 && r->stage < c->n)
-        snprintf(at, sizeof at, "%s %s", link ? "link" : "rail", c->st[r->stage].name);
+    if (r->applies)
+        br_crit_place(c, r->crit, r->stage, r->aux, at, sizeof at);
     else
         snprintf(at, sizeof at, "-");
     rc |= cell(out, "l", at);
     if (r->applies && !startup && r->dir == BR_DIRI_LINE && r->line_period >= 0)
-        snprintf(at, sizeof at, "line cycle at %.0f\xc2\xb0", br_line_deg(r->line_theta));
+        snprintf(at, sizeof at, "line cycle at %.0f deg", br_line_deg(r->line_theta));
     else
         snprintf(at, sizeof at, "%s", r->applies && !startup ? br_dir_label(r->dir) : "-");
     rc |= cell(out, "l", at);
@@ -270,16 +278,16 @@ static int verdict_notes(br_text *out, const br_chain *c, const br_verdict *v, u
 int br_html_verdict(br_text *out, const br_chain *c, const br_verdict *v, unsigned mask,
                     const br_startup *su)
 {
-    static const char *const heads[] = {"criterion", "result",   "figure",           "limit",
-                                        "margin",    "binds at", "current direction"};
+    static const char *const heads[] = {"criterion", "result",   "figure",   "limit",
+                                        "margin",    "binds at", "direction"};
     br_verdict_count n;
     br_verdict_count_rows(v, mask, &n);
     int rc = br_html_section(out, "Verdict", NULL);
     char line[160];
     const char *cls = "<div class=\"badge pass\">";
     if (n.failed) {
-        snprintf(line, sizeof line, "FAIL \xe2\x9c\x97  %d of %d criteria evaluated fail", n.failed,
-                 n.evaluated);
+        snprintf(line, sizeof line, "FAIL \xe2\x9c\x97  %d of %d criteria judged fail", n.failed,
+                 n.judged);
         cls = "<div class=\"badge fail\">";
     } else if (n.undetermined) { /* never a pass: what was not decided may fail */
         snprintf(line, sizeof line, "UNDETERMINED ?  %d criteria could not be decided",
@@ -287,11 +295,10 @@ int br_html_verdict(br_text *out, const br_chain *c, const br_verdict *v, unsign
         cls = "<div class=\"badge undet\">";
     } else if (n.warned) {
         snprintf(line, sizeof line,
-                 "PASS \xe2\x9c\x93  all %d criteria evaluated pass, %d with a warning",
-                 n.evaluated, n.warned);
+                 "PASS \xe2\x9c\x93  all %d criteria judged pass, %d with a warning", n.judged,
+                 n.warned);
     } else {
-        snprintf(line, sizeof line, "PASS \xe2\x9c\x93  all %d criteria evaluated pass",
-                 n.evaluated);
+        snprintf(line, sizeof line, "PASS \xe2\x9c\x93  all %d criteria judged pass", n.judged);
     }
     rc |= tag_text(out, cls, line, "</div>\n");
     rc |= head_row(out, heads, 7);
@@ -341,62 +348,123 @@ int br_html_startup_table(br_text *out, const br_chain *c, const br_startup *su)
     return rc | table_end(out) ? BR_ENOMEM : BR_OK;
 }
 
+/* One group of rows per current direction: a heading row naming it,
+ * then its rows, each row's figures all from that direction.  A
+ * direction without a period says why instead. */
+static int group_row(br_text *out, const br_steady_figs *f, int ncol)
+{
+    char what[400];
+    int rc = br_text_printf(out, "<tr class=\"group\" data-direction=\"%s\"><th colspan=\"%d\">",
+                            br_dir_label(f->dir), ncol);
+    snprintf(what, sizeof what, "%s", br_dir_label(f->dir));
+    if (!br_steady_has_period(f->ss))
+        snprintf(what, sizeof what, "%s: no period to take figures from (%s)", br_dir_label(f->dir),
+                 f->ss->why);
+    rc |= br_html_text(out, what);
+    return rc | br_text_put(out, "</th></tr>\n");
+}
+
+static int row_open(br_text *out, const br_steady_figs *f)
+{
+    return br_text_printf(out, "<tr data-direction=\"%s\">", br_dir_label(f->dir));
+}
+
+/* Rail k's row: every figure and margin from direction f. */
+static int rail_row(br_text *out, const br_chain *c, const br_steady_figs *f, int k)
+{
+    const br_rail_fig *r = &f->rail[k];
+    char b[96], lab[48];
+    int what, drive = c->min_drive > 0, gate = c->st[k].sw.vgs_max > 0;
+    double floor = br_rail_floor(c, k, &what), above = r->vmin - floor;
+    int pass = r->m_uvlo >= 0 && r->m_restart >= 0 && (!drive || r->m_drive >= 0) &&
+               (!gate || r->m_gate >= 0) && !(above < 0);
+    int rc = row_open(out, f) | cell(out, "l", c->st[k].name);
+    rc |= cell_si(out, r->vmin, 4, "V") | cell_si(out, r->vmax, 4, "V");
+    rc |= cell_si(out, r->ripple, 3, "V");
+    if (isfinite(floor)) {
+        char v[32];
+        snprintf(b, sizeof b, "%s (%s)", br_plot_si(v, sizeof v, floor, 3, "V"),
+                 br_rail_limit_label(c, k, what, lab, sizeof lab));
+        rc |= cell(out, "l", b) | cell_si(out, above, 3, "V");
+    } else {
+        rc |=
+            cell(out, "l", isinf(floor) && floor > 0 ? "out of reach" : "-") | cell(out, NULL, "-");
+    }
+    rc |= cell_si(out, r->vdrv_min, 4, "V") | cell_si(out, r->vdrv_max, 4, "V");
+    rc |= cell_si(out, r->m_uvlo, 3, "V") | cell_si(out, r->m_restart, 3, "V");
+    rc |= drive ? cell_si(out, r->m_drive, 3, "V") : cell(out, NULL, "-");
+    rc |= gate ? cell_si(out, r->m_gate, 3, "V") : cell(out, NULL, "-");
+    rc |= cell_result(out, 1, pass);
+    return rc | br_text_put(out, "</tr>\n") ? BR_ENOMEM : BR_OK;
+}
+
 int br_html_rail_table(br_text *out, const br_chain *c, const br_steady_figs *f, int ndir)
 {
-    static const char *const heads[] = {
-        "rail",           "min",          "max",         "ripple", "driver min", "driver max",
-        "margin to UVLO", "to min drive", "to gate max", "result"};
-    int rc = head_row(out, heads, 10);
-    for (int k = 0; k < c->n; k++) {
-        br_rail_fig r = br_rail_fig_worst(f, ndir, k);
-        int drive = c->min_drive > 0, gate = c->st[k].sw.vgs_max > 0;
-        int pass = r.m_uvlo >= 0 && (!drive || r.m_drive >= 0) && (!gate || r.m_gate >= 0);
-        rc |= br_text_put(out, "<tr>");
-        rc |= cell(out, "l", c->st[k].name);
-        rc |= cell_si(out, r.vmin, 4, "V") | cell_si(out, r.vmax, 4, "V");
-        rc |= cell_si(out, r.ripple, 3, "V");
-        rc |= cell_si(out, r.vdrv_min, 4, "V") | cell_si(out, r.vdrv_max, 4, "V");
-        rc |= cell_si(out, r.m_uvlo, 3, "V");
-        rc |= drive ? cell_si(out, r.m_drive, 3, "V") : cell(out, NULL, "-");
-        rc |= gate ? cell_si(out, r.m_gate, 3, "V") : cell(out, NULL, "-");
-        rc |= cell_result(out, 1, pass);
-        rc |= br_text_put(out, "</tr>\n");
+    static const char *const heads[] = {"rail",
+                                        "min",
+                                        "max",
+                                        "ripple",
+                                        "floor",
+                                        "above floor",
+                                        "driver min",
+                                        "driver max",
+                                        "to UVLO falling",
+                                        "to UVLO rising",
+                                        "to minimum drive",
+                                        "to gate maximum",
+                                        "result"};
+    int rc = head_row(out, heads, 13);
+    for (int d = 0; d < ndir; d++) {
+        rc |= group_row(out, &f[d], 13);
+        for (int k = 0; k < c->n && br_steady_has_period(f[d].ss); k++)
+            rc |= rail_row(out, c, &f[d], k);
     }
     return rc | table_end(out) ? BR_ENOMEM : BR_OK;
 }
 
+static int diode_row(br_text *out, const br_chain *c, const br_steady_figs *f, int k)
+{
+    const br_link_fig *w = &f->link[k];
+    char b[48];
+    double lim = c->derating * w->vrrm;
+    int rc = row_open(out, f) | cell(out, "l", c->st[k].name);
+    rc |= cell_si(out, w->vrev_sim, 4, "V") | cell_si(out, w->vrev_stress, 4, "V");
+    rc |= w->vrrm > 0 ? cell_si(out, lim, 4, "V") : cell(out, NULL, "unrated");
+    snprintf(b, sizeof b, "%.0f %%", 100.0 * w->share);
+    rc |= cell(out, NULL, w->vrrm > 0 ? b : "-");
+    rc |= cell_si(out, w->ipeak, 3, "A") | cell_si(out, w->irms, 3, "A");
+    rc |= cell_si(out, w->iavg, 3, "A") | cell_si(out, w->idisp, 3, "A");
+    rc |= cell_si(out, w->qrr, 3, "C") | cell_si(out, w->irrm, 3, "A");
+    rc |= cell_si(out, w->p_diode, 3, "W");
+    rc |= cell_result(out, w->vrrm > 0, w->vrev_stress <= lim);
+    return rc | br_text_put(out, "</tr>\n") ? BR_ENOMEM : BR_OK;
+}
+
 int br_html_diode_table(br_text *out, const br_chain *c, const br_steady_figs *f, int ndir)
 {
-    static const char *const heads[] = {"link",   "reverse peak", "derated limit", "of rating",
-                                        "I peak", "I RMS",        "I average",     "Qrr",
-                                        "loss",   "result"};
-    int rc = head_row(out, heads, 10);
-    char b[48];
-    for (int k = 1; k < c->n; k++) {
-        br_link_fig w = f[0].link[k];
-        for (int d = 1; d < ndir; d++) {
-            const br_link_fig *l = &f[d].link[k];
-            w.vrev_stress = fmax(w.vrev_stress, l->vrev_stress);
-            w.ipeak = fmax(w.ipeak, l->ipeak);
-            w.irms = fmax(w.irms, l->irms);
-            w.iavg = fmax(w.iavg, l->iavg);
-            w.qrr = fmax(w.qrr, l->qrr);
-            w.p_cond = fmax(w.p_cond + w.p_rr, l->p_cond + l->p_rr) - w.p_rr;
-        }
-        double lim = c->derating * w.vrrm;
-        rc |= br_text_put(out, "<tr>");
-        rc |= cell(out, "l", c->st[k].name);
-        rc |= cell_si(out, w.vrev_stress, 4, "V");
-        rc |= w.vrrm > 0 ? cell_si(out, lim, 4, "V") : cell(out, NULL, "unrated");
-        snprintf(b, sizeof b, "%.0f %%", 100.0 * (w.vrrm > 0 ? w.vrev_stress / w.vrrm : 0.0));
-        rc |= cell(out, NULL, w.vrrm > 0 ? b : "-");
-        rc |= cell_si(out, w.ipeak, 3, "A") | cell_si(out, w.irms, 3, "A");
-        rc |= cell_si(out, w.iavg, 3, "A") | cell_si(out, w.qrr, 3, "C");
-        rc |= cell_si(out, w.p_cond + w.p_rr, 3, "W");
-        rc |= cell_result(out, w.vrrm > 0, w.vrev_stress <= lim);
-        rc |= br_text_put(out, "</tr>\n");
+    static const char *const heads[] = {
+        "link",         "peak reverse", "reverse stress",  "derated rating",    "share of rating",
+        "forward peak", "forward RMS",  "forward average", "displacement peak", "Qrr",
+        "Irrm",         "diode loss",   "result"};
+    int rc = head_row(out, heads, 13);
+    for (int d = 0; d < ndir; d++) {
+        rc |= group_row(out, &f[d], 13);
+        for (int k = 1; k < c->n && br_steady_has_period(f[d].ss); k++)
+            rc |= diode_row(out, c, &f[d], k);
     }
     return rc | table_end(out) ? BR_ENOMEM : BR_OK;
+}
+
+static int cap_row(br_text *out, const br_chain *c, const br_steady_figs *f, int k)
+{
+    const br_rail_fig *r = &f->rail[k];
+    int rc = row_open(out, f) | cell(out, "l", c->st[k].name);
+    rc |= cell(out, "l", c->st[k].cap.id ? c->st[k].cap.id : "-");
+    rc |= cell_si(out, r->c_eff, 3, "F") | cell_si(out, r->vcap_peak, 4, "V");
+    rc |= r->vcap_rating > 0 ? cell_si(out, r->vcap_rating, 3, "V") : cell(out, NULL, "-");
+    rc |= cell_si(out, r->icap_rms, 3, "A");
+    rc |= cell_result(out, r->vcap_rating > 0, r->vcap_peak <= r->vcap_rating);
+    return rc | br_text_put(out, "</tr>\n") ? BR_ENOMEM : BR_OK;
 }
 
 int br_html_cap_table(br_text *out, const br_chain *c, const br_steady_figs *f, int ndir)
@@ -404,16 +472,10 @@ int br_html_cap_table(br_text *out, const br_chain *c, const br_steady_figs *f, 
     static const char *const heads[] = {"rail",   "part",        "C at bias", "peak",
                                         "rating", "RMS current", "result"};
     int rc = head_row(out, heads, 7);
-    for (int k = 1; k < c->n; k++) {
-        br_rail_fig r = br_rail_fig_worst(f, ndir, k);
-        rc |= br_text_put(out, "<tr>");
-        rc |= cell(out, "l", c->st[k].name);
-        rc |= cell(out, "l", c->st[k].cap.id ? c->st[k].cap.id : "-");
-        rc |= cell_si(out, r.c_eff, 3, "F") | cell_si(out, r.vcap_peak, 4, "V");
-        rc |= r.vcap_rating > 0 ? cell_si(out, r.vcap_rating, 3, "V") : cell(out, NULL, "-");
-        rc |= cell_si(out, r.icap_rms, 3, "A");
-        rc |= cell_result(out, r.vcap_rating > 0, r.vcap_peak <= r.vcap_rating);
-        rc |= br_text_put(out, "</tr>\n");
+    for (int d = 0; d < ndir; d++) {
+        rc |= group_row(out, &f[d], 7);
+        for (int k = 1; k < c->n && br_steady_has_period(f[d].ss); k++)
+            rc |= cap_row(out, c, &f[d], k);
     }
     return rc | table_end(out) ? BR_ENOMEM : BR_OK;
 }

@@ -35,8 +35,10 @@ int br_html_para(br_text *out, const char *text);
  * inrush peak against the surge rating. */
 int br_html_startup_table(br_text *out, const br_chain *c, const br_startup *su);
 
-/* Stress tables over ndir directions (worst of them per row), each row
- * with its pass/fail: rails, diodes, capacitors. */
+/* Stress tables over ndir directions: one group of rows per direction
+ * (every figure of a row from that direction, the group named), each row
+ * with its pass/fail: rails (with each rail's floor and the margin above
+ * it), diodes (forward and displacement currents apart), capacitors. */
 int br_html_rail_table(br_text *out, const br_chain *c, const br_steady_figs *f, int ndir);
 int br_html_diode_table(br_text *out, const br_chain *c, const br_steady_figs *f, int ndir);
 int br_html_cap_table(br_text *out, const br_chain *c, const br_steady_figs *f, int ndir);

@@ -35,7 +35,7 @@ const char *br_line_describe(const br_chain *c, char *buf, size_t cap)
 int br_line_heading(const br_chain *c, br_text *out)
 {
     char what[160], t[24], line[320];
-    int n = snprintf(line, sizeof line, "%s, switches at %.0f C; ",
+    int n = snprintf(line, sizeof line, "%s, switches at %.0f degC; ",
                      br_line_describe(c, what, sizeof what), c->tj - KELVIN);
     size_t at = n > 0 && (size_t)n < sizeof line ? (size_t)n : 0;
     if (c->load_from < HUGE_VAL)
@@ -225,6 +225,8 @@ int br_line_csv(const br_chain *c, const br_line_env *e, br_text *csv)
             rc |= csv_block(csv, hi ? e->vmax : e->vmin, r, e->n, 0);
             rc |= br_text_put(csv, ","); /* supply_A: the envelope keeps none */
             rc |= csv_links(csv, e, r, dt);
+            for (int k = 1; k < e->n; k++) /* disp_: the envelope keeps none */
+                rc |= br_text_put(csv, ",");
             rc |= csv_block(csv, hi ? e->dmax : e->dmin, r, e->n, 0);
             if (hi) {
                 rc |= csv_block(csv, e->vrev, r, e->n, 1);

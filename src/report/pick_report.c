@@ -104,7 +104,8 @@ static int method_text(const br_pick *p, br_text *out)
     return br_report_wrap(out, "method: ", buf, 2);
 }
 
-/* "880 mV, set by drive at rail B1 (down)", never a number that is none. */
+/* "880 mV, set by "above minimum drive" at rail B1, step-down", never a
+ * number that is none. */
 static const char *margin_words(const br_chain *c, const br_choice *ch, char *buf, size_t cap)
 {
     char m[32], where[32];
@@ -112,9 +113,9 @@ static const char *margin_words(const br_chain *c, const br_choice *ch, char *bu
         snprintf(buf, cap, "none (no voltage criterion applies)");
         return buf;
     }
-    snprintf(buf, cap, "%s, set by %s at %s (%s)",
-             br_fmt_si(m, sizeof m, ch->margin, 4, br_crit_unit(ch->crit)), br_crit_name(ch->crit),
-             br_crit_where(c, ch->crit, ch->stage, where, sizeof where), br_dir_short(ch->dir));
+    snprintf(buf, cap, "%s, set by \"%s\" at %s, %s",
+             br_fmt_si(m, sizeof m, ch->margin, 4, br_crit_unit(ch->crit)), br_crit_title(ch->crit),
+             br_crit_where(c, ch->crit, ch->stage, where, sizeof where), br_dir_label(ch->dir));
     return buf;
 }
 
@@ -194,15 +195,15 @@ static void undet_words(const br_choice *ch, char *buf, size_t cap)
         snprintf(buf, cap, "it could not be judged (%s)", br_status_name(ch->status));
     else if (ch->unsettled > 0)
         snprintf(buf, cap,
-                 "the solver did not settle a steady state at %d of its corners, so %s and "
-                 "what needs it are not decided there",
+                 "the solver did not settle a steady state at %d of its corners, so \"%s\" "
+                 "and what needs it are not decided there",
                  ch->unsettled,
-                 br_crit_name(ch->undet_crit >= 0 ? ch->undet_crit : BR_CRIT_STEADY));
+                 br_crit_title(ch->undet_crit >= 0 ? ch->undet_crit : BR_CRIT_STEADY));
     else if (ch->unjudged > 0)
         snprintf(buf, cap, "%d of its corners could not be judged at all", ch->unjudged);
     else
-        snprintf(buf, cap, "%s could not be decided at one of its corners",
-                 br_crit_name(ch->undet_crit));
+        snprintf(buf, cap, "\"%s\" could not be decided at one of its corners",
+                 br_crit_title(ch->undet_crit));
 }
 
 /* Choices that neither pass nor fail, the cheapest first. */

@@ -6,13 +6,18 @@
 #include <stdlib.h>
 #include <string.h>
 
-/* Space around the plot area inside a panel, px: title above, tick labels
- * and the x title below, tick labels and the y title on the left, room for
- * direct labels of reference lines on the right. */
-#define PAD_TOP 34.0
+/* Space around the plot area inside a panel, px: the title and under it
+ * a strip for the labels of vertical markers above, tick labels and the x
+ * title below, tick labels and the y title on the left, room for the
+ * labels of limit lines on the right.  No label is drawn inside the plot
+ * area, where it could hide a trace. */
+#define PAD_TOP 50.0
 #define PAD_BOTTOM 46.0
 #define PAD_LEFT 74.0
-#define PAD_RIGHT 132.0
+#define PAD_RIGHT 215.0
+#define STRIP_BASE 7.0 /* marker labels' baseline above the plot area, px */
+#define LINE_H 14.0    /* one line of label text, px */
+#define CHAR_W 8.2     /* a character of 13 px bold text, px, generously */
 
 br_style br_plot_style(int i)
 {
@@ -367,56 +372,210 @@ void br_plot_line(br_plot *p, const double *x, const double *y, long n, long yst
     free(pl.py);
 }
 
-/* A baseline near want that keeps clear of the labels already placed:
- * a clash pushes the new label away from the one it meets, so labels stay
- * in the order of their lines; at an edge (dir 1 top, -1 bottom) they
- * stack inwards. */
-static double label_slot(br_plot *p, double want, int dir)
+double br_plot_text_width(const char *text)
 {
-    for (int tries = 0; tries < 16; tries++) {
-        int moved = 0;
-        for (int i = 0; i < p->nlab; i++)
-            if (fabs(p->laby[i] - want) < 14.0) {
-                int down = dir ? dir > 0 : want >= p->laby[i];
-                want = down ? p->laby[i] + 14.0 : p->laby[i] - 14.0;
-                moved = 1;
-            }
-        if (!moved)
+    int chars = 0;
+    for (const unsigned char *c = (const unsigned char *)text; *c; c++)
+        chars += (*c & 0xC0) != 0x80; /* a UTF-8 sequence is one character */
+    return CHAR_W * chars;
+}
+
+/* A baseline near want for a label of nlines lines in the right margin,
+ * clear of the labels already placed: the nearest free slot above or
+ * below, within the panel. */
+static double label_slot(br_plot *p, double want, int nlines)
+{
+    double h = LINE_H * nlines, best = want, dist = HUGE_VAL;
+    for (int step = 0; step < 2 * 24 + 2; step++) {
+        double y = want + (step % 2 ? -1.0 : 1.0) * LINE_H * 0.5 * ((step + 1) / 2);
+        double top = y - 11.0, bot = y - 11.0 + h;
+        if (top < p->fy + 2.0 || bot > p->fy + p->fh - 2.0)
+            continue;
+        int clash = 0;
+        for (int i = 0; i < p->nlab && !clash; i++)
+            clash = top < p->labbot[i] && bot > p->labtop[i];
+        if (!clash && fabs(y - want) < dist) {
+            best = y;
+            dist = fabs(y - want);
             break;
+        }
     }
-    if (p->nlab < (int)(sizeof p->laby / sizeof p->laby[0]))
-        p->laby[p->nlab++] = want;
-    return want;
+    if (p->nlab < (int)(sizeof p->labtop / sizeof p->labtop[0])) {
+        p->labtop[p->nlab] = best - 11.0;
+        p->labbot[p->nlab++] = best - 11.0 + h;
+    }
+    return best;
+}
+
+/* Text of up to two lines (split at '\n') from baseline y down. */
+static void label_lines(br_plot *p, double x, double y, const char *colour, const char *label)
+{
+    char first[160];
+    const char *nl = strchr(label, '\n');
+    snprintf(first, sizeof first, "%.*s", nl ? (int)(nl - label) : (int)strlen(label), label);
+    br_svg_text_in(p->svg, x, y, BR_FONT_TICK, "start", colour, 1, first);
+    if (nl)
+        br_svg_text_in(p->svg, x, y + LINE_H, BR_FONT_TICK, "start", colour, 0, nl + 1);
+}
+
+static int count_lines(const char *label)
+{
+    return strchr(label, '\n') ? 2 : 1;
 }
 
 void br_plot_hline(br_plot *p, double y, const br_style *st, const char *label)
 {
-    double xl = p->x0 + p->w + 6;
-    if (y >= p->ymin && y <= p->ymax) {
-        double py = br_plot_py(p, y);
-        br_svg_dashed(p->svg, p->x0, py, p->x0 + p->w, py, st->colour, st->width, st->dash);
-        br_svg_text_in(p->svg, xl, label_slot(p, py + 4.5, 0), BR_FONT_TICK, "start", st->colour, 1,
-                       label);
+    if (br_plot_limit(p, y, st, NULL, label))
         return;
-    }
     /* off the range: say where it is instead of squashing the data */
     int above = y > p->ymax;
-    double py = label_slot(p, above ? p->y0 + 12 : p->y0 + 0.55 * p->h, 1);
+    double py = label_slot(p, above ? p->y0 + 12 : p->y0 + 0.55 * p->h, count_lines(label));
     char b[160];
     snprintf(b, sizeof b, "%s %s", above ? "\xe2\x86\x91" : "\xe2\x86\x93", label);
-    br_svg_text_in(p->svg, xl, py, BR_FONT_TICK, "start", st->colour, 1, b);
+    label_lines(p, p->x0 + p->w + 6, py, st->colour, b);
 }
 
-void br_plot_vline(br_plot *p, double x, const br_style *st, const char *label)
+int br_plot_limit(br_plot *p, double y, const br_style *st, const char *key, const char *label)
+{
+    if (!(y >= p->ymin && y <= p->ymax))
+        return 0;
+    double py = br_plot_py(p, y);
+    int rc = br_text_printf(p->svg->out, "<line data-limit=\"");
+    rc |= br_xml_escape_put(p->svg->out, key ? key : "");
+    rc |= br_text_printf(p->svg->out,
+                         "\" data-value=\"%.10g\" x1=\"%.2f\" y1=\"%.2f\" x2=\"%.2f\" y2=\"%.2f\" "
+                         "stroke=\"%s\" stroke-width=\"%.2f\"",
+                         y, p->x0, py, p->x0 + p->w, py, st->colour, st->width);
+    if (st->dash)
+        rc |= br_text_printf(p->svg->out, " stroke-dasharray=\"%s\"", st->dash);
+    rc |= br_text_put(p->svg->out, "/>\n");
+    if (rc)
+        p->svg->failed = 1;
+    label_lines(p, p->x0 + p->w + 6, label_slot(p, py + 4.5, count_lines(label)), st->colour,
+                label);
+    return 1;
+}
+
+/* The line of a limit across the area, named key, without its label. */
+static void limit_line(br_plot *p, double y, const br_style *st, const char *key)
+{
+    double py = br_plot_py(p, y);
+    int rc = br_text_printf(p->svg->out, "<line data-limit=\"");
+    rc |= br_xml_escape_put(p->svg->out, key ? key : "");
+    rc |= br_text_printf(p->svg->out,
+                         "\" data-value=\"%.10g\" x1=\"%.2f\" y1=\"%.2f\" x2=\"%.2f\" y2=\"%.2f\" "
+                         "stroke=\"%s\" stroke-width=\"%.2f\"",
+                         y, p->x0, py, p->x0 + p->w, py, st->colour, st->width);
+    if (st->dash)
+        rc |= br_text_printf(p->svg->out, " stroke-dasharray=\"%s\"", st->dash);
+    rc |= br_text_put(p->svg->out, "/>\n");
+    if (rc)
+        p->svg->failed = 1;
+}
+
+/* Label tops for n labels wanted at tops want[] (sorted, top first) of
+ * heights h[]: each at its place or just below the one above, then, where
+ * that runs past the panel's foot, pushed back up; in the order of their
+ * lines. */
+static void stack_labels(const br_plot *p, int n, const double *want, const double *h, double *top)
+{
+    for (int i = 0; i < n; i++)
+        top[i] = i ? fmax(want[i], top[i - 1] + h[i - 1]) : fmax(want[i], p->fy + 2.0);
+    double foot = p->fy + p->fh - 2.0;
+    for (int i = n - 1; i >= 0; i--) {
+        double limit = i == n - 1 ? foot : top[i + 1];
+        top[i] = fmin(top[i], limit - h[i]);
+    }
+}
+
+void br_plot_limits(br_plot *p, int n, const double *y, const br_style *const *st,
+                    const char *const *key, const char *const *label)
+{
+    int order[BR_PLOT_LIMITS], m = 0;
+    double want[BR_PLOT_LIMITS], h[BR_PLOT_LIMITS], top[BR_PLOT_LIMITS];
+    for (int i = 0; i < n && m < BR_PLOT_LIMITS; i++)
+        if (y[i] >= p->ymin && y[i] <= p->ymax)
+            order[m++] = i;
+    for (int i = 1; i < m; i++) /* top first: the highest value */
+        for (int j = i; j > 0 && y[order[j - 1]] < y[order[j]]; j--) {
+            int t = order[j];
+            order[j] = order[j - 1];
+            order[j - 1] = t;
+        }
+    for (int i = 0; i < m; i++) {
+        int lines = count_lines(label[order[i]]);
+        h[i] = LINE_H * lines + 2.0;
+        /* the first line's middle on the limit */
+        want[i] = br_plot_py(p, y[order[i]]) - 0.5 * LINE_H;
+    }
+    stack_labels(p, m, want, h, top);
+    double xl = p->x0 + p->w;
+    for (int i = 0; i < m; i++) {
+        const br_style *s = st[order[i]];
+        double py = br_plot_py(p, y[order[i]]);
+        limit_line(p, y[order[i]], s, key[order[i]]);
+        /* a leader from the line's end to its label when it had to move */
+        br_svg_line(p->svg, xl, py, xl + 6, top[i] + 0.5 * LINE_H, s->colour, 1.0);
+        label_lines(p, xl + 8, top[i] + LINE_H - 3.0, s->colour, label[order[i]]);
+    }
+}
+
+/* The left edge of a marker label of width w near centre x in the strip,
+ * clear of the labels there and within the panel. */
+static double strip_slot(br_plot *p, double x, double w)
+{
+    double lo = p->fx + 2.0, hi = p->fx + p->fw - 2.0 - w;
+    double cand[2 * 24 + 1];
+    int nc = 0;
+    cand[nc++] = x - w / 2;
+    for (int i = 0; i < p->nmark; i++) {
+        cand[nc++] = p->markx1[i] + 6.0;
+        cand[nc++] = p->markx0[i] - 6.0 - w;
+    }
+    double best = fmin(fmax(x - w / 2, lo), hi), dist = HUGE_VAL;
+    for (int j = 0; j < nc; j++) {
+        double a = fmin(fmax(cand[j], lo), hi);
+        int clash = 0;
+        for (int i = 0; i < p->nmark && !clash; i++)
+            clash = a < p->markx1[i] + 4.0 && a + w > p->markx0[i] - 4.0;
+        if (!clash && fabs(a + w / 2 - x) < dist) {
+            best = a;
+            dist = fabs(a + w / 2 - x);
+        }
+    }
+    if (p->nmark < (int)(sizeof p->markx0 / sizeof p->markx0[0])) {
+        p->markx0[p->nmark] = best;
+        p->markx1[p->nmark++] = best + w;
+    }
+    return best;
+}
+
+void br_plot_mark(br_plot *p, double x, const br_style *st, const char *key, const char *label)
 {
     if (!(x >= p->xmin && x <= p->xmax))
         return;
     double px = br_plot_px(p, x);
-    br_svg_dashed(p->svg, px, p->y0, px, p->y0 + p->h, st->colour, st->width, st->dash);
-    /* the label sits inside the area, on the side with more room */
-    int left = px > p->x0 + 0.6 * p->w;
-    br_svg_text_in(p->svg, left ? px - 5 : px + 5, p->y0 + 16, BR_FONT_TICK, left ? "end" : "start",
-                   st->colour, 1, label);
+    int rc = br_text_printf(p->svg->out, "<line data-mark=\"");
+    rc |= br_xml_escape_put(p->svg->out, key ? key : "");
+    rc |= br_text_printf(p->svg->out,
+                         "\" data-value=\"%.10g\" x1=\"%.2f\" y1=\"%.2f\" x2=\"%.2f\" y2=\"%.2f\" "
+                         "stroke=\"%s\" stroke-width=\"%.2f\"",
+                         x, px, p->y0, px, p->y0 + p->h, st->colour, st->width);
+    if (st->dash)
+        rc |= br_text_printf(p->svg->out, " stroke-dasharray=\"%s\"", st->dash);
+    rc |= br_text_put(p->svg->out, "/>\n");
+    if (rc)
+        p->svg->failed = 1;
+    if (label && label[0]) {
+        double w = br_plot_text_width(label);
+        br_svg_text_in(p->svg, strip_slot(p, px, w), p->y0 - STRIP_BASE, BR_FONT_TICK, "start",
+                       st->colour, 1, label);
+    }
+}
+
+void br_plot_vline(br_plot *p, double x, const br_style *st, const char *label)
+{
+    br_plot_mark(p, x, st, NULL, label);
 }
 
 double br_plot_key(br_plot *p, double x, double y, const br_style *st, const char *label)

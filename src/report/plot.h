@@ -53,8 +53,14 @@ typedef struct br_plot {
     int xlog;                      /* logarithmic x axis (xmin > 0) */
     int xcat;                      /* categories along x: no ticks, the caller labels them */
     int nlab;                      /* right-hand labels placed so far */
-    double laby[16];               /* their baselines, px (kept apart) */
+    double labtop[24], labbot[24]; /* their extents, px (kept apart) */
+    int nmark;                     /* marker labels placed in the strip above the area */
+    double markx0[24], markx1[24]; /* their extents, px (kept apart) */
 } br_plot;
+
+/* Estimated width of text in the plots' label font (13 px bold), px: a
+ * label is placed where it fits whole. */
+double br_plot_text_width(const char *text);
 
 /* A panel of w x h px at (x, y) in the document s. */
 void br_plot_frame(br_plot *p, br_svg *s, double x, double y, double w, double h);
@@ -82,11 +88,35 @@ void br_plot_done(br_plot *p);
 void br_plot_line(br_plot *p, const double *x, const double *y, long n, long ystride,
                   const br_style *st, const char *key);
 
-/* A horizontal reference line at y with its label at the right end, or,
- * when y is outside the range, an arrow and the label at that edge. */
+/* A horizontal reference line at y with its label in the right margin,
+ * or, when y is outside the range, an arrow and the label at that edge. */
 void br_plot_hline(br_plot *p, double y, const br_style *st, const char *label);
 
-/* A vertical marker at x with its label at the top. */
+/* A limit: a horizontal line at y across the plot area, named key
+ * (data-limit, with data-value y, so that a reader can find it), its
+ * label (one or two lines, split at '\n') in the right margin beside it,
+ * clear of the labels already there and of every trace.  Nothing is
+ * drawn, and 0 returned, when y lies outside the y range: a plot that
+ * must show a limit sets its range to take it in. */
+int br_plot_limit(br_plot *p, double y, const br_style *st, const char *key, const char *label);
+
+/* n limits at once (at most BR_PLOT_LIMITS): each a line as
+ * br_plot_limit draws it, their labels (one or two lines) in the right
+ * margin in the order of their lines, each beside its line or, where
+ * lines lie closer than their labels are tall, stacked and joined to it
+ * by a short leader; never over the plot area.  Limits outside the y
+ * range are left out. */
+#define BR_PLOT_LIMITS 8
+void br_plot_limits(br_plot *p, int n, const double *y, const br_style *const *st,
+                    const char *const *key, const char *const *label);
+
+/* A vertical marker at x across the plot area, named key (data-mark,
+ * with data-value x), its label in the strip above the area, clear of
+ * the other markers' labels and of every trace.  Nothing when x lies
+ * outside the x range. */
+void br_plot_mark(br_plot *p, double x, const br_style *st, const char *key, const char *label);
+
+/* A vertical marker at x with its label: br_plot_mark without a key. */
 void br_plot_vline(br_plot *p, double x, const br_style *st, const char *label);
 
 /* A legend entry: a short line sample and its label, at (x, y) in the

@@ -12,20 +12,9 @@
 
 #define KELVIN 273.15
 
-const char *br_dir_label(int dir)
-{
-    return dir == BR_DIRI_DOWN   ? "step-down"
-           : dir == BR_DIRI_UP   ? "step-up"
-           : dir == BR_DIRI_LINE ? "line-cycle"
-                                 : "idealised";
-}
-
 const char *br_dir_short(int dir)
 {
-    return dir == BR_DIRI_DOWN   ? "down"
-           : dir == BR_DIRI_UP   ? "up"
-           : dir == BR_DIRI_LINE ? "line"
-                                 : "-";
+    return br_dir_label(dir);
 }
 
 static const char *design_name(const br_chain *c)
@@ -44,7 +33,7 @@ static int operating_point(const br_chain *c, br_text *out)
         snprintf(duty, sizeof duty, "duty %.3g", c->duty);
     return br_text_printf(
         out,
-        "  %s bus, %s (T %s), %s, dead time %s, %.0f C\n"
+        "  %s bus, %s (T %s), %s, dead time %s, %.0f degC\n"
         "  supply %s, %d switches, %d link%s\n",
         br_fmt_si(vin, sizeof vin, c->vin, 4, "V"), br_fmt_si(f, sizeof f, c->fsw, 4, "Hz"),
         br_fmt_si(t, sizeof t, c->T, 4, "s"), duty, br_fmt_si(dt, sizeof dt, c->deadtime, 3, "s"),
@@ -66,7 +55,7 @@ static int load_line(const br_chain *c, br_text *out)
     if (d && (d->iload.min < c->iload || d->iload.max > c->iload))
         rc |= br_text_printf(out, " (%s to %s)", br_fmt_si(lo, sizeof lo, d->iload.min, 4, "A"),
                              br_fmt_si(hi, sizeof hi, d->iload.max, 4, "A"));
-    rc |= br_text_printf(out, ", switches at %.0f C; ", c->tj - KELVIN);
+    rc |= br_text_printf(out, ", switches at %.0f degC; ", c->tj - KELVIN);
     if (c->load_from < HUGE_VAL)
         return rc | br_text_printf(out, "start-up under load from %s\n",
                                    br_fmt_si(t, sizeof t, c->load_from, 4, "s"));

@@ -6,11 +6,10 @@
 
 #include "io/xml_write.h"
 #include "model/timing.h"
+#include "report/vocab.h"
 
-/* "step-down", "step-up" or "idealised" for a br_dir_index. */
-const char *br_dir_label(int dir);
-
-/* The short form used in narrow columns: "down", "up", "-". */
+/* The same as br_dir_label (vocab.h): a direction has one name, narrow
+ * columns included.  Kept for callers that asked for a short form. */
 const char *br_dir_short(int dir);
 
 /* "design NAME (PATH)" and a one-line operating point, then a blank line. */

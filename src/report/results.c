@@ -16,10 +16,11 @@
 #include <stdlib.h>
 #include <string.h>
 
-/* A start-up series keeps at most one row per T/20, and over a long
- * simulation no more than about this many rows in all. */
-#define STARTUP_ROWS 20000
-#define ROWS_PER_PERIOD 20
+/* A start-up series keeps the min/max envelope of buckets of T/10 (two
+ * rows each), and over a long simulation no more than about this many
+ * buckets in all. */
+#define STARTUP_BUCKETS 10000
+#define BUCKETS_PER_PERIOD 10
 
 br_results *br_results_create(void)
 {
@@ -40,9 +41,9 @@ static int oom(br_error *err, const char *what)
 
 /* A row kept by a CSV series goes into a trace as well. */
 static void trace_row(void *ctx, double t, const double *v, const double *i, const double *vd,
-                      const double *vr)
+                      const double *vr, const double *disp)
 {
-    br_trace_add(ctx, t, v, i, vd, vr);
+    br_trace_add(ctx, t, v, i, vd, vr, disp);
 }
 
 static int run_startup(br_results *r, br_text *csv, br_trace *tr, br_error *err)
@@ -53,7 +54,7 @@ static int run_startup(br_results *r, br_text *csv, br_trace *tr, br_error *err)
     br_startup_opts o = {0};
     o.progress = r->progress;
     if (csv || tr) {
-        double dt = fmax(c->T / ROWS_PER_PERIOD, c->startup_max / STARTUP_ROWS);
+        double dt = fmax(c->T / BUCKETS_PER_PERIOD, c->startup_max / STARTUP_BUCKETS);
         br_csv_series_init(&s, csv, "startup", c->n, dt, 0.0);
         if (tr) {
             s.row = trace_row;
@@ -68,18 +69,14 @@ static int run_startup(br_results *r, br_text *csv, br_trace *tr, br_error *err)
     return rc;
 }
 
-/* One more period from the steady state, every accepted step recorded;
- * a trace also gets the period after it. */
+/* The period the figures come from again, every sample recorded (so
+ * that the file's and the plot's extremes are the figures'); a trace
+ * also gets the period after it. */
 static int steady_series(const br_chain *c, const br_steady *ss, const br_progress *progress,
                          br_text *csv, br_trace *tr, br_error *err)
 {
     static const char *const labels[] = {"steady-step-down", "steady-step-up", "steady"};
     const char *label = labels[ss->dir == BR_DIRI_DOWN ? 0 : ss->dir == BR_DIRI_UP ? 1 : 2];
-    br_sim *sim;
-    int rc = br_sim_create(c, ss->dir, BR_INTEG_FAST, &sim, err);
-    if (rc != BR_OK)
-        return rc;
-    br_sim_set_stop(sim, progress);
     br_csv_series s;
     br_csv_series_init(&s, csv, label, c->n, 0.0, ss->phase);
     if (tr) {
@@ -87,20 +84,12 @@ static int steady_series(const br_chain *c, const br_steady *ss, const br_progre
         s.row = trace_row;
         s.row_ctx = tr;
     }
-    br_sim_observer obs = br_csv_observer(&s);
-    br_sim_set_observer(sim, &obs);
-    br_sim_reset_running_at(sim, ss->x, ss->phase);
-    rc = br_sim_run_until(sim, c->T, err);
+    br_sim_observer first = br_csv_observer(&s), then = tr ? br_trace_observer(tr) : first;
+    int rc = br_steady_replay(c, ss, &first, tr ? &then : NULL, 1, progress, err);
     if (rc == BR_OK && br_csv_series_end(&s) != BR_OK)
         rc = oom(err, "recording the steady period");
-    if (rc == BR_OK && tr) {
-        obs = br_trace_observer(tr);
-        br_sim_set_observer(sim, &obs);
-        rc = br_sim_run_until(sim, 2 * c->T, err);
-    }
     if (rc == BR_OK && tr && tr->failed)
         rc = oom(err, "recording the steady periods");
-    br_sim_free(sim);
     return rc;
 }
 

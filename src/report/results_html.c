@@ -128,10 +128,10 @@ static int steady_section(br_text *out, const br_results *r, const br_results_tr
                              r->env ? "Over the whole line cycle: each figure is the worst of "
                                       "every switching period of the line period, and the "
                                       "verdict names the line phase where it binds."
-                                    : "Worst case over the current directions analysed. The "
-                                      "plots show two periods from the steady state found; "
-                                      "limits too far from the ripple to draw are pointed at "
-                                      "from the edge.");
+                                    : "One group of rows per current direction, every figure "
+                                      "of a row from that direction. A rail's floor is the "
+                                      "highest lower limit at the rail itself. The plots show "
+                                      "two periods from the steady state found.");
     rc |= br_html_rail_table(out, r->c, r->figs, r->ndir);
     if (r->env)
         rc |= figure(out, r, tr, 0, line_chart,

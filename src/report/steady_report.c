@@ -6,6 +6,7 @@
 #include "report/line_report.h"
 #include "report/report_common.h"
 #include "report/table.h"
+#include "report/vocab.h"
 
 #include <math.h>
 #include <stdio.h>
@@ -108,24 +109,29 @@ static int rails_table(const br_chain *c, const br_steady_figs *f, br_text *out)
     for (int k = 0; k < f->n; k++)
         rmax = fmax(rmax, f->rail[k].ripple);
     br_scale mv = br_scale_column(rmax, 1e-3, "V");
-    br_table *t = stage_table(8, f->n, "stage");
+    br_table *t = stage_table(10, f->n, "stage");
     if (!t)
         return BR_ENOMEM;
     head_unit(t, 2, "min", &V);
     head_unit(t, 3, "max", &V);
     head_unit(t, 4, "avg", &V);
     head_unit(t, 5, "ripple", &mv);
-    head_unit(t, 6, "driver min", &V);
-    head_unit(t, 7, "driver max", &V);
+    head_unit(t, 6, "floor", &V);
+    head_unit(t, 7, "above floor", &V);
+    head_unit(t, 8, "driver min", &V);
+    head_unit(t, 9, "driver max", &V);
     for (int k = 0; k < f->n; k++) {
         const br_rail_fig *r = &f->rail[k];
+        double floor = br_rail_floor(c, k, NULL);
         name_cells(t, c, k);
         num(t, 2, r->vmin, &V, 3);
         num(t, 3, r->vmax, &V, 3);
         num(t, 4, r->vavg, &V, 3);
         num(t, 5, r->ripple, &mv, mv.factor > 1 ? 1 : 3);
-        num(t, 6, r->vdrv_min, &V, 3);
-        num(t, 7, r->vdrv_max, &V, 3);
+        num(t, 6, floor, &V, 3);
+        num(t, 7, r->vmin - floor, &V, 3);
+        num(t, 8, r->vdrv_min, &V, 3);
+        num(t, 9, r->vdrv_max, &V, 3);
     }
     return finish_table(t, out);
 }
@@ -138,8 +144,8 @@ static int margins_table(const br_chain *c, const br_steady_figs *f, br_text *ou
         return BR_ENOMEM;
     head_unit(t, 2, "to UVLO falling", &V);
     head_unit(t, 3, "to UVLO rising", &V);
-    head_unit(t, 4, "to min drive", &V);
-    head_unit(t, 5, "to gate max", &V);
+    head_unit(t, 4, "to minimum drive", &V);
+    head_unit(t, 5, "to gate maximum", &V);
     for (int k = 0; k < f->n; k++) {
         const br_rail_fig *r = &f->rail[k];
         name_cells(t, c, k);
@@ -153,23 +159,24 @@ static int margins_table(const br_chain *c, const br_steady_figs *f, br_text *ou
 
 /* Display scales for the diode columns, from their largest entries. */
 typedef struct link_scales {
-    br_scale i, ipk, q, irr, p;
+    br_scale i, ipk, jd, q, irr, p;
 } link_scales;
 
 static link_scales pick_link_scales(const br_steady_figs *f)
 {
-    double i = 0, ipk = 0, q = 0, irr = 0, p = 0;
+    double i = 0, ipk = 0, jd = 0, q = 0, irr = 0, p = 0;
     for (int k = 1; k < f->n; k++) {
         const br_link_fig *l = &f->link[k];
         i = fmax(i, fmax(l->iavg, l->irms));
         ipk = fmax(ipk, l->ipeak);
+        jd = fmax(jd, l->idisp);
         q = fmax(q, l->qrr);
         irr = fmax(irr, l->irrm);
         p = fmax(p, fmax(l->p_cond, l->p_rr));
     }
-    link_scales s = {br_scale_column(i, 1e-3, "A"), br_scale_column(ipk, 1e-3, "A"),
-                     br_scale_column(q, 1e-12, "C"), br_scale_column(irr, 1e-3, "A"),
-                     br_scale_column(p, 1e-3, "W")};
+    link_scales s = {br_scale_column(i, 1e-3, "A"),   br_scale_column(ipk, 1e-3, "A"),
+                     br_scale_column(jd, 1e-3, "A"),  br_scale_column(q, 1e-9, "C"),
+                     br_scale_column(irr, 1e-3, "A"), br_scale_column(p, 1e-3, "W")};
     return s;
 }
 
@@ -180,12 +187,12 @@ static int diode_stress_table(const br_chain *c, const br_steady_figs *f, const 
     br_table *t = stage_table(8, f->n, "link");
     if (!t)
         return BR_ENOMEM;
-    head_unit(t, 2, "reverse", &V);
-    head_unit(t, 3, "stress", &V);
+    head_unit(t, 2, "peak reverse", &V);
+    head_unit(t, 3, "reverse stress", &V);
     head_unit(t, 4, "rating", &V);
     br_table_head(t, 5, "share %", BR_RIGHT);
-    head_unit(t, 6, "avg", &s->i);
-    head_unit(t, 7, "RMS", &s->i);
+    head_unit(t, 6, "forward average", &s->i);
+    head_unit(t, 7, "forward RMS", &s->i);
     for (int k = 1; k < f->n; k++) {
         const br_link_fig *l = &f->link[k];
         name_cells(t, c, k);
@@ -204,22 +211,24 @@ static int diode_stress_table(const br_chain *c, const br_steady_figs *f, const 
 static int diode_recovery_table(const br_chain *c, const br_steady_figs *f, const link_scales *s,
                                 br_text *out)
 {
-    br_table *t = stage_table(7, f->n, "link");
+    br_table *t = stage_table(8, f->n, "link");
     if (!t)
         return BR_ENOMEM;
-    head_unit(t, 2, "peak", &s->ipk);
-    head_unit(t, 3, "Qrr", &s->q);
-    head_unit(t, 4, "Irrm", &s->irr);
-    head_unit(t, 5, "conduction", &s->p);
-    head_unit(t, 6, "recovery", &s->p);
+    head_unit(t, 2, "forward peak", &s->ipk);
+    head_unit(t, 3, "displacement peak", &s->jd);
+    head_unit(t, 4, "Qrr", &s->q);
+    head_unit(t, 5, "Irrm", &s->irr);
+    head_unit(t, 6, "conduction", &s->p);
+    head_unit(t, 7, "recovery", &s->p);
     for (int k = 1; k < f->n; k++) {
         const br_link_fig *l = &f->link[k];
         name_cells(t, c, k);
         num(t, 2, l->ipeak, &s->ipk, 3);
-        num(t, 3, l->qrr, &s->q, 3);
-        num(t, 4, l->irrm, &s->irr, 3);
-        num(t, 5, l->p_cond, &s->p, 3);
-        num(t, 6, l->p_rr, &s->p, 3);
+        num(t, 3, l->idisp, &s->jd, 3);
+        num(t, 4, l->qrr, &s->q, 3);
+        num(t, 5, l->irrm, &s->irr, 3);
+        num(t, 6, l->p_cond, &s->p, 3);
+        num(t, 7, l->p_rr, &s->p, 3);
     }
     return finish_table(t, out);
 }
@@ -227,14 +236,19 @@ static int diode_recovery_table(const br_chain *c, const br_steady_figs *f, cons
 static int diodes(const br_chain *c, const br_steady_figs *f, br_text *out)
 {
     link_scales s = pick_link_scales(f);
-    int rc = br_text_printf(out,
-                            "diodes (link k charges rail k; stress = simulated peak reverse "
-                            "voltage plus %.0f %% edge overshoot;\n"
-                            "  share of the rating, derating limit %.0f %%; forward current)\n",
-                            100.0 * c->overshoot, 100.0 * c->derating);
+    char text[400];
+    snprintf(text, sizeof text,
+             "(link k charges rail k; reverse stress = peak reverse voltage plus %.0f %% edge "
+             "overshoot; share of the rating, derated rating %.0f %% of it; forward current "
+             "through the junction)",
+             100.0 * c->overshoot, 100.0 * c->derating);
+    int rc = br_report_wrap(out, "diodes ", text, 2);
     rc |= diode_stress_table(c, f, &s, out);
-    rc |= br_text_put(out, "diodes: forward peak current, recovery charge per period, peak "
-                           "recovery current, losses\n");
+    rc |= br_report_wrap(out, "diodes: ",
+                         "forward peak; displacement peak, the junction capacitance's Cj dv/dt "
+                         "at the edges (not conduction); recovery charge per period and peak "
+                         "recovery current; losses",
+                         2);
     return rc | diode_recovery_table(c, f, &s, out);
 }
 
@@ -284,14 +298,17 @@ int br_steady_text(const br_chain *c, const br_steady_figs *f, br_text *out)
     rc |= method_line(f->ss, out);
     rc |= br_text_put(out, "\n");
     rc |= holds_line(f->ss, out);
-    rc |= br_text_printf(out,
-                         "rails%s (rail = capacitor + ESR; driver = supply after the "
-                         "regulator)\n",
-                         line ? " over the line cycle" : "");
+    rc |= br_report_wrap(out, line ? "rails over the line cycle " : "rails ",
+                         "(rail = capacitor + ESR; driver = driver supply, after the regulator; "
+                         "floor = the highest lower limit at the rail: UVLO rising and the "
+                         "minimum drive, plus the regulator's dropout, or the regulator output + "
+                         "dropout)",
+                         2);
     rc |= rails_table(c, f, out);
     if (line)
         rc |= br_line_where_text(c, f, out);
-    rc |= br_text_put(out, "margins of the driver supply\n");
+    rc |= br_text_put(out, "margins of the driver supply (driver min - lower limit, gate maximum - "
+                           "driver max)\n");
     rc |= margins_table(c, f, out);
     rc |= diodes(c, f, out);
     rc |= br_text_put(out, "capacitors\n");
@@ -305,70 +322,62 @@ int br_steady_text(const br_chain *c, const br_steady_figs *f, br_text *out)
 
 /* ---- the compact form ---------------------------------------------------- */
 
-/* The worst case of one stage over every direction. */
-typedef struct worst {
-    double ripple, drv_min, drv_max, m_uvlo, m_drive, m_gate, share, iavg;
-} worst;
-
-static worst worst_of(const br_steady_figs *f, int ndir, int k)
-{
-    br_rail_fig r = br_rail_fig_worst(f, ndir, k);
-    worst w = {r.ripple, r.vdrv_min, r.vdrv_max, r.m_uvlo, r.m_drive, r.m_gate, 0, 0};
-    for (int d = 0; d < ndir && k > 0; d++) {
-        w.share = fmax(w.share, f[d].link[k].share);
-        w.iavg = fmax(w.iavg, f[d].link[k].iavg);
-    }
-    return w;
-}
-
-static void summary_row(br_table *t, const br_chain *c, const worst *w, int k, const br_scale *mv,
-                        const br_scale *ia)
+/* One row per stage of direction f: every figure of a row from it. */
+static void summary_row(br_table *t, const br_chain *c, const br_steady_figs *f, int k,
+                        const br_scale *mv, const br_scale *ia)
 {
     static const br_scale V = {1.0, "V"};
+    const br_rail_fig *r = &f->rail[k];
+    double floor = br_rail_floor(c, k, NULL);
     name_cells(t, c, k);
-    num(t, 2, w->ripple, mv, mv->factor > 1 ? 1 : 3);
-    num(t, 3, w->drv_min, &V, 3);
-    num(t, 4, w->drv_max, &V, 3);
-    num(t, 5, w->m_uvlo, &V, 3);
-    num(t, 6, w->m_drive, &V, 3);
-    num(t, 7, w->m_gate, &V, 3);
-    pct(t, 8, k > 0 && c->st[k].diode.vrrm > 0, w->share);
-    br_table_set(t, 9, "-");
+    num(t, 2, r->ripple, mv, mv->factor > 1 ? 1 : 3);
+    num(t, 3, r->vdrv_min, &V, 3);
+    num(t, 4, floor, &V, 3);
+    num(t, 5, r->vmin - floor, &V, 3);
+    num(t, 6, r->m_gate, &V, 3);
+    pct(t, 7, k > 0 && c->st[k].diode.vrrm > 0, k > 0 ? f->link[k].share : 0.0);
+    br_table_set(t, 8, "-");
     if (k > 0)
-        num(t, 9, w->iavg, ia, 3);
+        num(t, 8, f->link[k].iavg, ia, 3);
 }
 
-static int summary_table(const br_chain *c, const br_steady_figs *f, int ndir, br_text *out)
+/* The column scales, shared by every direction's table so they line up. */
+static void summary_scales(const br_chain *c, const br_steady_figs *f, int ndir, br_scale *mv,
+                           br_scale *ia)
+{
+    double rmax = 0, imax = 0;
+    for (int d = 0; d < ndir; d++)
+        for (int k = 0; k < c->n && br_steady_has_period(f[d].ss); k++) {
+            rmax = fmax(rmax, f[d].rail[k].ripple);
+            imax = fmax(imax, k > 0 ? f[d].link[k].iavg : 0.0);
+        }
+    *mv = br_scale_column(rmax, 1e-3, "V");
+    *ia = br_scale_column(imax, 1e-3, "A");
+}
+
+static int summary_table(const br_chain *c, const br_steady_figs *f, const br_scale *mv,
+                         const br_scale *ia, br_text *out)
 {
     static const br_scale V = {1.0, "V"};
-    worst w[BR_MAX_SWITCHES];
-    double rmax = 0, imax = 0;
-    for (int k = 0; k < c->n; k++) {
-        w[k] = worst_of(f, ndir, k);
-        rmax = fmax(rmax, w[k].ripple);
-        imax = fmax(imax, w[k].iavg);
-    }
-    br_scale mv = br_scale_column(rmax, 1e-3, "V"), ia = br_scale_column(imax, 1e-3, "A");
-    br_table *t = stage_table(10, c->n, "stage");
+    br_table *t = stage_table(9, c->n, "stage");
     if (!t)
         return BR_ENOMEM;
-    head_unit(t, 2, "ripple", &mv);
-    head_unit(t, 3, "drv min", &V);
-    head_unit(t, 4, "drv max", &V);
-    head_unit(t, 5, "to UVLO", &V);
-    head_unit(t, 6, "to drive", &V);
-    head_unit(t, 7, "to gate", &V);
-    br_table_head(t, 8, "diode %", BR_RIGHT);
-    head_unit(t, 9, "link", &ia);
+    head_unit(t, 2, "ripple", mv);
+    head_unit(t, 3, "driver min", &V);
+    head_unit(t, 4, "floor", &V);
+    head_unit(t, 5, "above floor", &V);
+    head_unit(t, 6, "to gate maximum", &V);
+    br_table_head(t, 7, "diode %", BR_RIGHT);
+    head_unit(t, 8, "link", ia);
     for (int k = 0; k < c->n; k++)
-        summary_row(t, c, &w[k], k, &mv, &ia);
+        summary_row(t, c, f, k, mv, ia);
     return finish_table(t, out);
 }
 
 int br_steady_summary_text(const br_chain *c, const br_steady_figs *f, int ndir, br_text *out)
 {
     int rc = br_text_printf(out, "steady state%s\n",
-                            ndir > 1 ? " (worst case of both current directions)" : "");
+                            ndir > 1 ? " (one table per current direction)" : "");
     for (int d = 0; d < ndir; d++) {
         char lead[48];
         snprintf(lead, sizeof lead, "  %s: ", br_dir_label(f[d].dir));
@@ -380,16 +389,22 @@ int br_steady_summary_text(const br_chain *c, const br_steady_figs *f, int ndir,
         rc |= method_line(f[d].ss, out);
         rc |= br_text_put(out, f[d].ss->holds ? "; holds\n" : "; DOES NOT HOLD\n");
     }
-    int any = 0; /* a direction with figures to show */
-    for (int d = 0; d < ndir; d++)
-        any |= br_steady_has_period(f[d].ss);
-    if (!any)
-        return rc ? BR_ENOMEM : BR_OK;
-    rc |= summary_table(c, f, ndir, out);
-    rc |= br_text_put(out, "  (to UVLO: driver min - UVLO falling; to drive: driver min - minimum "
-                           "drive;\n   to gate: gate maximum - driver max; diode %: reverse "
-                           "stress in % of the rating)\n");
-    if (ndir == 1 && f[0].dir == BR_DIRI_LINE)
+    br_scale mv, ia;
+    summary_scales(c, f, ndir, &mv, &ia);
+    for (int d = 0; d < ndir; d++) {
+        if (!br_steady_has_period(f[d].ss))
+            continue;
+        if (ndir > 1)
+            rc |= br_text_printf(out, "  %s\n", br_dir_label(f[d].dir));
+        rc |= summary_table(c, &f[d], &mv, &ia, out);
+    }
+    rc |= br_report_wrap(out, "  ",
+                         "(floor: the highest lower limit at the rail, UVLO rising or the minimum "
+                         "drive plus a regulator's dropout, or the regulator output + dropout; "
+                         "above floor: rail min - floor; to gate maximum: gate maximum - driver "
+                         "max; diode %: reverse stress in % of the rating; link: forward average)",
+                         3);
+    if (ndir == 1 && f[0].dir == BR_DIRI_LINE && br_steady_has_period(f[0].ss))
         rc |= br_line_where_text(c, &f[0], out);
     return rc ? BR_ENOMEM : BR_OK;
 }
@@ -412,6 +427,11 @@ static void rail_xml(br_xmlw *w, const br_chain *c, const br_steady_figs *f, int
     br_xmlw_num(w, "margin-restart-V", r->m_restart);
     br_xmlw_num(w, "margin-drive-V", r->m_drive);
     br_xmlw_num(w, "margin-gate-V", r->m_gate);
+    double floor = br_rail_floor(c, k, NULL);
+    if (isfinite(floor)) {
+        br_xmlw_num(w, "floor-V", floor);
+        br_xmlw_num(w, "margin-floor-V", r->vmin - floor);
+    }
     br_xmlw_num(w, "load-W", r->p_load);
     if (k > 0) {
         br_xmlw_attr(w, "capacitor", c->st[k].cap.id ? c->st[k].cap.id : "");
@@ -442,6 +462,7 @@ static void link_xml(br_xmlw *w, const br_chain *c, const br_steady_figs *f, int
     br_xmlw_num(w, "avg-A", l->iavg);
     br_xmlw_num(w, "rms-A", l->irms);
     br_xmlw_num(w, "peak-A", l->ipeak);
+    br_xmlw_num(w, "displacement-peak-A", l->idisp);
     br_xmlw_num(w, "qrr-C", l->qrr);
     br_xmlw_num(w, "irrm-A", l->irrm);
     br_xmlw_num(w, "conduction-W", l->p_cond);

@@ -1,6 +1,7 @@
 /* trace.c - simulator samples in memory. */
 #include "report/trace.h"
 
+#include <math.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -21,6 +22,7 @@ void br_trace_free(br_trace *tr)
     free(tr->i);
     free(tr->vd);
     free(tr->vr);
+    free(tr->j);
     free(tr);
 }
 
@@ -46,14 +48,14 @@ static int reserve(br_trace *tr)
     long cap = tr->cap ? 2 * tr->cap : 1024;
     size_t rows = (size_t)cap, cells = rows * (size_t)tr->n;
     if (!grow_one(&tr->t, rows) || !grow_one(&tr->v, cells) || !grow_one(&tr->i, cells) ||
-        !grow_one(&tr->vd, cells) || !grow_one(&tr->vr, cells))
+        !grow_one(&tr->vd, cells) || !grow_one(&tr->vr, cells) || !grow_one(&tr->j, cells))
         return 0;
     tr->cap = cap;
     return 1;
 }
 
 void br_trace_add(br_trace *tr, double t, const double *v, const double *i, const double *vd,
-                  const double *vr)
+                  const double *vr, const double *disp)
 {
     if (tr->failed || !reserve(tr)) {
         tr->failed = 1;
@@ -65,6 +67,7 @@ void br_trace_add(br_trace *tr, double t, const double *v, const double *i, cons
     memcpy(tr->i + at, i, bytes);
     memcpy(tr->vd + at, vd, bytes);
     memcpy(tr->vr + at, vr, bytes);
+    memcpy(tr->j + at, disp, bytes);
     tr->len++;
 }
 
@@ -72,10 +75,13 @@ static void on_sample(void *ctx, const br_sim *sim, double t, const double *vrai
                       const double *ilink, int n)
 {
     br_trace *tr = ctx;
-    double vd[BR_MAX_SWITCHES], vr[BR_MAX_SWITCHES];
+    double vd[BR_MAX_SWITCHES], vr[BR_MAX_SWITCHES], fwd[BR_MAX_SWITCHES], disp[BR_MAX_SWITCHES];
     (void)n; /* the trace's n, fixed at creation */
     br_sim_sample_stress(sim, t, vrail, tr->n, vd, vr);
-    br_trace_add(tr, t, vrail, ilink, vd, vr);
+    br_sim_sample_links(sim, ilink, tr->n, fwd, disp);
+    fwd[0] = ilink[0];
+    disp[0] = NAN;
+    br_trace_add(tr, t, vrail, fwd, vd, vr, disp);
 }
 
 br_sim_observer br_trace_observer(br_trace *tr)

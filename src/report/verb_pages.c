@@ -199,3 +199,45 @@ int br_window_html(const br_chain *c, const br_window *w, const br_text *text, b
     rc |= br_html_end(out);
     return rc ? oom(err) : BR_OK;
 }
+
+/* ---- a verb's text as a page -------------------------------------------- */
+
+/* The verdict line of text: the first line starting with one of
+ * prefixes, joined with the lines indented by two spaces after it. */
+static void verdict_line(const char *text, const char *const *prefixes, int join, char *buf,
+                         size_t cap)
+{
+    const char *at = NULL;
+    buf[0] = '\0';
+    for (int i = 0; prefixes[i] && !at; i++)
+        for (const char *l = text; l && *l && !at; l = strchr(l, '\n') ? strchr(l, '\n') + 1 : NULL)
+            if (strncmp(l, prefixes[i], strlen(prefixes[i])) == 0)
+                at = l;
+    size_t n = 0;
+    for (const char *l = at; l && *l && n + 1 < cap; l++) {
+        if (*l == '\n') {
+            if (!join || strncmp(l + 1, "  ", 2) != 0)
+                break;
+            while (l[1] == ' ')
+                l++;
+            buf[n++] = ' ';
+            continue;
+        }
+        buf[n++] = *l;
+    }
+    buf[n] = '\0';
+}
+
+int br_text_html(const br_chain *c, const char *what, int outcome, const char *const *prefixes,
+                 int join, const br_text *text, br_text *out, br_error *err)
+{
+    char line[640];
+    verdict_line(br_text_data(text), prefixes, join, line, sizeof line);
+    int rc = br_html_begin(out, c, what);
+    rc |= br_html_section(out, "Verdict", NULL);
+    rc |= badge3(out, outcome, line[0] ? line : "see the report below");
+    rc |= br_html_section_end(out);
+    rc |= full_text(out, text);
+    rc |= br_html_end(out);
+    return rc ? oom(err) : BR_OK;
+}

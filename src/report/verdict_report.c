@@ -6,18 +6,13 @@
 #include "report/report_common.h"
 #include "report/startup_report.h"
 #include "report/table.h"
+#include "report/vocab.h"
 
 #include <math.h>
 #include <stdio.h>
 #include <string.h>
 
 enum { C_TITLE, C_RESULT, C_FIGURE, C_LIMIT, C_MARGIN, C_AT, C_DIR, NCOL };
-
-static int is_link_crit(int crit)
-{
-    return crit == BR_CRIT_INRUSH || crit == BR_CRIT_DIODE_VR || crit == BR_CRIT_DIODE_IAVG ||
-           crit == BR_CRIT_TJ;
-}
 
 /* A row names its current direction: every steady row, and the start-up
  * rows of a design that starts under load. */
@@ -46,18 +41,11 @@ const char *br_crit_fmt(char *buf, size_t cap, int crit, double v)
     return buf;
 }
 
-/* "rail A1", "link B4", "reg A1" or "zen A1" (the rail's regulator or Zener clamp), or "-"
- * when no stage binds. */
-static void where(const br_chain *c, const br_verdict_row *r, char *buf, size_t cap)
+const char *br_crit_fmt_value(char *buf, size_t cap, int crit, double v)
 {
-    if (r->stage < 0 || r->stage >= c->n || !r->applies)
-        snprintf(buf, cap, "-");
-    else
-        snprintf(buf, cap, "%s %s",
-                 r->aux                  ? (c->st[r->stage].aux.kind == BR_AUX_LDO ? "reg" : "zen")
-                 : is_link_crit(r->crit) ? "link"
-                                         : "rail",
-                 c->st[r->stage].name);
+    if (crit == BR_CRIT_TJ && isfinite(v))
+        return br_fmt_temp(buf, cap, v, 1);
+    return br_crit_fmt(buf, cap, crit, v);
 }
 
 /* A rail that never starts, or a junction that runs away, has no margin
@@ -67,8 +55,8 @@ static void value_cell(br_table *t, int col, const br_verdict_row *r, double v)
     char b[BR_TABLE_CELL];
     if (!r->applies || (col == C_MARGIN && br_crit_never(r->crit, v)))
         br_table_set(t, col, "-");
-    else if (r->crit == BR_CRIT_TJ && col != C_MARGIN && isfinite(v))
-        br_table_set(t, col, "%.4g C", v - 273.15);
+    else if (col != C_MARGIN)
+        br_table_set(t, col, "%s", br_crit_fmt_value(b, sizeof b, r->crit, v));
     else
         br_table_set(t, col, "%s", br_crit_fmt(b, sizeof b, r->crit, v));
 }
@@ -85,12 +73,12 @@ static void row(br_table *t, const br_chain *c, const br_verdict_row *r)
         value_cell(t, C_MARGIN, r, r->margin);
     else /* a status: its figure is information, it has no margin */
         br_table_set(t, C_MARGIN, "-");
-    where(c, r, b, sizeof b);
-    br_table_set(t, C_AT, "%s", b);
+    br_table_set(t, C_AT, "%s",
+                 r->applies ? br_crit_place(c, r->crit, r->stage, r->aux, b, sizeof b) : "-");
     if (names_dir(r, r->crit) && r->dir == BR_DIRI_LINE && r->line_period >= 0)
         br_table_set(t, C_DIR, "%.0f deg", br_line_deg(r->line_theta));
     else
-        br_table_set(t, C_DIR, "%s", names_dir(r, r->crit) ? br_dir_short(r->dir) : "-");
+        br_table_set(t, C_DIR, "%s", names_dir(r, r->crit) ? br_dir_label(r->dir) : "-");
 }
 
 static int render_table(const br_chain *c, const br_verdict *v, unsigned mask, br_text *out)
@@ -98,8 +86,8 @@ static int render_table(const br_chain *c, const br_verdict *v, unsigned mask, b
     br_table *t = br_table_create(NCOL, BR_CRIT_COUNT);
     if (!t)
         return BR_ENOMEM;
-    static const char *const heads[NCOL] = {"criterion", "result", "figure", "limit",
-                                            "margin",    "at",     "current"};
+    static const char *const heads[NCOL] = {"criterion", "result", "figure",   "limit",
+                                            "margin",    "at",     "direction"};
     for (int col = 0; col < NCOL; col++) {
         int left = col == C_TITLE || col == C_RESULT || col >= C_AT;
         br_table_head(t, col, heads[col], left ? BR_LEFT : BR_RIGHT);
@@ -179,7 +167,7 @@ void br_verdict_count_rows(const br_verdict *v, unsigned mask, br_verdict_count 
         if (!(mask & BR_CRIT_BIT(i)))
             continue;
         const br_verdict_row *r = &v->row[i];
-        n->evaluated += r->applies && !r->undetermined;
+        n->judged += r->applies && !r->undetermined;
         n->undetermined += r->undetermined;
         n->failed += r->applies && !r->pass && !r->undetermined;
         n->warned += r->applies && r->pass && r->warn && !r->undetermined;
@@ -191,22 +179,21 @@ static int render_overall(const br_verdict *v, unsigned mask, br_text *out)
 {
     br_verdict_count n;
     br_verdict_count_rows(v, mask, &n);
-    int evaluated = n.evaluated, failed = n.failed, na = n.na, undet = n.undetermined;
-    if (failed > 0)
-        return br_text_printf(out, "verdict: FAIL, %d of %d criteria evaluated fail%s\n", failed,
-                              evaluated, undet ? " (others undetermined)" : "");
-    if (undet > 0) /* never a pass: what was not decided may fail */
+    if (n.failed > 0)
+        return br_text_printf(out, "verdict: FAIL, %d of %d criteria judged fail%s\n", n.failed,
+                              n.judged, n.undetermined ? " (others undetermined)" : "");
+    if (n.undetermined > 0) /* never a pass: what was not decided may fail */
         return br_text_printf(out,
                               "verdict: UNDETERMINED, %d criteria could not be decided (see "
-                              "above), %d evaluated pass\n",
-                              undet, evaluated);
+                              "above), %d judged pass\n",
+                              n.undetermined, n.judged);
     if (n.warned > 0)
         return br_text_printf(out,
-                              "verdict: PASS, all %d criteria evaluated pass, %d with a warning "
+                              "verdict: PASS, all %d criteria judged pass, %d with a warning "
                               "(%d not applicable)\n",
-                              evaluated, n.warned, na);
-    return br_text_printf(
-        out, "verdict: PASS, all %d criteria evaluated pass (%d not applicable)\n", evaluated, na);
+                              n.judged, n.warned, n.na);
+    return br_text_printf(out, "verdict: PASS, all %d criteria judged pass (%d not applicable)\n",
+                          n.judged, n.na);
 }
 
 int br_verdict_text(const br_chain *c, const br_verdict *v, unsigned mask, const br_startup *su,

@@ -19,13 +19,17 @@ const char *br_verdict_word(const br_verdict_row *r);
 
 /* A figure, limit or margin v of criterion crit for a table cell: in the
  * criterion's unit, a count as a whole number, a rail that never starts
- * as "never starts". */
+ * as "never starts", a junction that runs away as "runaway". */
 const char *br_crit_fmt(char *buf, size_t cap, int crit, double v);
 
-/* The rows in mask: evaluated (applies, decided), failed, passing with a
+/* The same for a figure or limit (not a margin): a temperature in degC
+ * (its margin stays a difference, in kelvin). */
+const char *br_crit_fmt_value(char *buf, size_t cap, int crit, double v);
+
+/* The rows in mask: judged (applies, decided), failed, passing with a
  * warning, not applicable and undetermined. */
 typedef struct br_verdict_count {
-    int evaluated, failed, warned, na, undetermined;
+    int judged, failed, warned, na, undetermined;
 } br_verdict_count;
 void br_verdict_count_rows(const br_verdict *v, unsigned mask, br_verdict_count *n);
 

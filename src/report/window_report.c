@@ -8,6 +8,7 @@
 #include "report/line_report.h"
 #include "report/report_common.h"
 #include "report/table.h"
+#include "report/vocab.h"
 
 #include <math.h>
 #include <stdio.h>
@@ -26,15 +27,16 @@ const char *br_hold_crit_name(const br_hold_point *pt)
     }
 }
 
+/* The limit a scan's criterion holds the driver supplies to. */
 static const char *crit_words(int crit)
 {
     switch (crit) {
     case BR_CRIT_UVLO:
-        return "UVLO falling";
+        return br_limit_name(BR_LIM_UVLO_FALL);
     case BR_CRIT_DRIVE:
-        return "minimum drive";
+        return br_limit_name(BR_LIM_DRIVE);
     case BR_CRIT_GATE:
-        return "gate maximum";
+        return br_limit_name(BR_LIM_GATE);
     default:
         return "?";
     }

@@ -161,14 +161,16 @@ static int yield_line(const br_yield *y, double min_yield, br_text *out)
 
 static int quantile_table(const br_yield *y, br_text *out)
 {
-    static const char *const heads[] = {"criterion", "fails", "undet.", "minimum",
-                                        "0.1 %",     "1 %",   "10 %",   "median"};
+    static const char *const heads[] = {"criterion", "fails", "undetermined", "minimum",
+                                        "0.1 %",     "1 %",   "10 %",         "median"};
     enum { NC = 8 };
-    int rc = br_text_put(out, "\nmargins over the samples (quantiles of each criterion's margin "
-                              "where it is decided; fails: samples\nwhere it fails; undet.: "
-                              "samples where it is undetermined; warn: where it passes with a "
-                              "warning;\nsteady-state is a "
-                              "status)\n");
+    int rc = br_text_put(out, "\n");
+    rc |= br_report_wrap(out, "margins over the samples ",
+                         "(quantiles of each criterion's margin where it is decided; fails: "
+                         "samples where it fails; undetermined: samples where it is not decided; "
+                         "warn: where it passes with a warning; the periodic steady state is a "
+                         "status)",
+                         0);
     br_table *t = br_table_create(NC, BR_CRIT_COUNT);
     if (!t)
         return BR_ENOMEM;
@@ -178,7 +180,7 @@ static int quantile_table(const br_yield *y, br_text *out)
         const br_yield_crit *yc = &y->c[crit];
         char b[BR_TABLE_CELL];
         br_table_row(t);
-        br_table_set(t, 0, "%s", br_crit_name(crit));
+        br_table_set(t, 0, "%s", br_crit_title(crit));
         if (!yc->applies && yc->undetermined == 0) {
             br_table_set(t, 1, "n/a");
             for (int col = 2; col < NC; col++)
@@ -224,7 +226,7 @@ static void driver_rows(br_table *t, const br_yield *y, int crit)
     int order[BR_TOL_MAX], n = strongest(y, crit, order);
     for (int a = 0; a < n; a++) {
         br_table_row(t);
-        br_table_set(t, 0, "%s", a == 0 ? br_crit_name(crit) : "");
+        br_table_set(t, 0, "%s", a == 0 ? br_crit_title(crit) : "");
         br_table_set(t, 1, "%s", a == 0 && y->c[crit].fails > 0 ? "yes" : "");
         br_table_set(t, 2, "%s", y->s->tl.p[order[a]].name);
         br_table_set(t, 3, "%+.2f", y->c[crit].rho[order[a]]);

@@ -92,5 +92,24 @@ if [ "$svgs" -lt 4 ] || [ -n "$errors" ]; then
     exit 1
 fi
 
+# 4. What the page must show, as the browser built it: one group of rows
+# per current direction, one floor per rail (the regulator's output plus
+# its dropout), the displacement current as its own series, limit lines.
+want() {
+    local n
+    n=$({ grep -o -- "$1" "$dom" || true; } | wc -l)
+    if [ "$n" -lt "$2" ]; then
+        echo "FAIL: the rendered page has $n of '$1' (want at least $2)"
+        exit 1
+    fi
+}
+want 'class="group" data-direction="step-down"' 3
+want 'class="group" data-direction="step-up"' 3
+want '6.3 V (regulator output + dropout)' 24
+want 'data-series="disp_' 1
+want 'data-limit="regulator-headroom"' 36
+want 'data-limit="uvlo-falling"' 36
+want 'data-limit="minimum-drive"' 36
+
 echo "PASS: demo report shown without console messages, $svgs plots rendered"
 echo "screenshot: $png ($(stat -c %s "$page") bytes of HTML)"

@@ -98,7 +98,7 @@ static void test_steady_files_agree(void)
     CU_ASSERT_EQUAL(r.status, 0);
     CU_ASSERT_TRUE(has(r.out, "steady state over the line cycle: 2 kHz line (50 switching"));
     CU_ASSERT_TRUE(has(r.out, "where in the line cycle"));
-    CU_ASSERT_TRUE(has(r.out, "pass drive voltage above the useful minimum: binds at line phase"));
+    CU_ASSERT_TRUE(has(r.out, "pass above minimum drive: binds at line phase"));
     xmlDoc *doc = xmlReadFile(xml, NULL, XML_PARSE_NONET);
     CU_ASSERT_PTR_NOT_NULL_FATAL(doc);
     xmlNode *root = xmlDocGetRootElement(doc);
@@ -150,7 +150,7 @@ static void test_analyze(void)
 {
     run_result r = run((const char *[]){"analyze", LINE3, NULL});
     CU_ASSERT_EQUAL(r.status, 0);
-    CU_ASSERT_TRUE(has(r.out, "periodic steady state exists and holds        pass"));
+    CU_ASSERT_TRUE(has(r.out, "periodic steady state     pass"));
     CU_ASSERT_TRUE(has(r.out, " deg\n"));
     CU_ASSERT_TRUE(has(r.out, "start-up complete"));
     done(&r);

@@ -235,9 +235,8 @@ static void test_analyze_report(void)
     const char *verdict = strstr(text, ">Verdict<"), *caution = strstr(text, "lethal voltages");
     CU_ASSERT_TRUE(verdict && caution && verdict < caution);
     CU_ASSERT_TRUE(caution && !strstr(caution, "<section"));
-    CU_ASSERT_EQUAL(count(text, "data-panel=\"startup-"), 12); /* every rail */
-    CU_ASSERT_TRUE(count(text, "UVLO rise") >= 12);
-    CU_ASSERT_TRUE(count(text, "gate max") >= 12);
+    CU_ASSERT_EQUAL(count(text, "data-panel=\"startup-"), 12);       /* every rail */
+    CU_ASSERT_TRUE(count(text, "data-limit=\"uvlo-rising\"") >= 24); /* start-up and steady */
     CU_ASSERT_TRUE(has(text, "data-series=\"vrev_"));
     CU_ASSERT_TRUE(has(text, "\xc2\xb5s")); /* prefixes as people write them */
     CU_ASSERT_TRUE(strlen(text) < 600000);  /* decimated: a page, not a data dump */
@@ -252,6 +251,179 @@ static void test_analyze_report(void)
     xmlFreeDoc(doc);
     free(text);
     const char *names[] = {"r.html", "r.csv", NULL};
+    remove_all(dir, names);
+}
+
+/* The largest value series draws in panel (the points mapped back to
+ * data), and one pixel's worth of value there; NaN when not found. */
+static double plotted_max(xmlNodePtr n, const char *panel, const char *series, double *pixel)
+{
+    for (; n; n = n->next) {
+        if (n->type != XML_ELEMENT_NODE)
+            continue;
+        xmlChar *name = xmlGetProp(n, BAD_CAST "data-panel");
+        int match = name && strcmp((const char *)name, panel) == 0;
+        xmlFree(name);
+        if (!match) {
+            double m = plotted_max(n->children, panel, series, pixel);
+            if (!isnan(m))
+                return m;
+            continue;
+        }
+        frame f = {prop(n, "data-xmin"), prop(n, "data-xmax"), prop(n, "data-ymin"),
+                   prop(n, "data-ymax"), prop(n, "data-px0"),  prop(n, "data-py0"),
+                   prop(n, "data-pw"),   prop(n, "data-ph")};
+        *pixel = (f.ymax - f.ymin) / f.ph;
+        double most = NAN, px, py;
+        for (xmlNodePtr l = n->children; l; l = l->next) {
+            xmlChar *key = xmlGetProp(l, BAD_CAST "data-series");
+            xmlChar *pts = key && strcmp((const char *)key, series) == 0
+                               ? xmlGetProp(l, BAD_CAST "points")
+                               : NULL;
+            for (const char *p = (const char *)pts; p && sscanf(p, "%lf,%lf", &px, &py) == 2;
+                 p = strchr(p, ' '), p = p ? p + 1 : NULL) {
+                double v = f.ymax - (py - f.py0) / f.ph * (f.ymax - f.ymin);
+                most = isnan(most) ? v : fmax(most, v);
+            }
+            xmlFree(pts);
+            xmlFree(key);
+        }
+        return most;
+    }
+    return NAN;
+}
+
+/* The data-value of the first <line data-limit="key"> after from, or NaN. */
+static double limit_at(const char *from, const char *key)
+{
+    char needle[64];
+    snprintf(needle, sizeof needle, "data-limit=\"%s\" data-value=\"", key);
+    const char *p = from ? strstr(from, needle) : NULL;
+    return p ? strtod(p + strlen(needle), NULL) : NAN;
+}
+
+/* The 12-switch demo's page agrees with itself and with its files: one
+ * group of rows per current direction, one floor per rail drawn and
+ * tabulated (its regulator's output + dropout, 6 V + 0.3 V), the same
+ * limit lines in the start-up and the steady plots, the displacement
+ * current as a series of its own, and the start-up CSV reaching the
+ * inrush peaks the results report. */
+static void test_report_agrees(void)
+{
+    char dir[64], html[96], csvp[96], xmlp[96];
+    temp_dir(dir, sizeof dir);
+    snprintf(html, sizeof html, "%s/r.html", dir);
+    snprintf(csvp, sizeof csvp, "%s/r.csv", dir);
+    snprintf(xmlp, sizeof xmlp, "%s/r.xml", dir);
+    run_result r = run((const char *[]){"analyze", "examples/leg-7level.xml", "--report", html,
+                                        "--csv", csvp, "--xml", xmlp, NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    done(&r);
+    char *text = br_test_slurp(html, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(text);
+    /* rails, diodes, capacitors: a group per direction, every row in one */
+    CU_ASSERT_EQUAL(count(text, "<tr class=\"group\" data-direction=\"step-down\">"), 3);
+    CU_ASSERT_EQUAL(count(text, "<tr class=\"group\" data-direction=\"step-up\">"), 3);
+    CU_ASSERT_EQUAL(count(text, "<tr data-direction=\"step-down\">"), 12 + 11 + 11);
+    CU_ASSERT_EQUAL(count(text, "<tr data-direction=\"step-up\">"), 12 + 11 + 11);
+    /* the floor: 6 V + 0.3 V, in the table and as the plots' line */
+    CU_ASSERT_EQUAL(count(text, ">6.3 V (regulator output + dropout)<"), 24);
+    CU_ASSERT_EQUAL(count(text, "data-limit=\"regulator-headroom\" data-value=\"6.3\""), 36);
+    /* one set of limits: rail A1's UVLO falling where the start-up plot
+     * and both steady plots draw it, 4.2 V + 0.3 V (the regulator's
+     * dropout): the steady plots drew 4.2 V, the start-up 4.5 V */
+    const char *su = strstr(text, "data-panel=\"startup-A1\"");
+    const char *dn = strstr(text, "data-panel=\"ripple-step-down-A1\"");
+    const char *up = strstr(text, "data-panel=\"ripple-step-up-A1\"");
+    BR_ASSERT_NEAR(limit_at(su, "uvlo-falling"), 4.5, 1e-9);
+    BR_ASSERT_NEAR(limit_at(dn, "uvlo-falling"), 4.5, 1e-9);
+    BR_ASSERT_NEAR(limit_at(up, "uvlo-falling"), 4.5, 1e-9);
+    BR_ASSERT_NEAR(limit_at(dn, "minimum-drive"), 5.3, 1e-9);
+    /* the junction capacitance's current: a series and a figure of its own */
+    CU_ASSERT_TRUE(has(text, "data-series=\"disp_"));
+    CU_ASSERT_TRUE(has(text, ">displacement peak<"));
+    CU_ASSERT_TRUE(has(text, "displacement current (peak "));
+    /* the diode plot's forward current reaches the forward peak of the
+     * results (link A1 stepping up, the most stressed diode): the plot
+     * is thinned to each pixel column's lowest and highest sample */
+    char *xr = br_test_slurp(xmlp, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(xr);
+    const char *upx = strstr(xr, "<steady direction=\"step-up\"");
+    const char *a1 = upx ? strstr(upx, "<link index=\"11\" switch=\"A1\"") : NULL;
+    const char *pk = a1 ? strstr(a1, " peak-A=\"") : NULL;
+    CU_ASSERT_PTR_NOT_NULL_FATAL(pk);
+    double ipeak = strtod(pk + 9, NULL), pixel = 0.0;
+    free(xr);
+    xmlDocPtr doc = parse_file(html, NULL);
+    double drawn =
+        plotted_max(xmlDocGetRootElement(doc), "diode-step-up-A1-i", "link_A1_A", &pixel);
+    xmlFreeDoc(doc);
+    CU_ASSERT_TRUE(ipeak > 0.1); /* 783 mA: a peak worth drawing */
+    BR_ASSERT_NEAR(drawn, ipeak, 0.06 * pixel + 1e-6 * ipeak);
+    /* charges in nC, never a bare C */
+    CU_ASSERT_TRUE(has(text, ">0 nC<"));
+    /* our own palette: not the code-hosting site's grey for code blocks */
+    CU_ASSERT_PTR_NULL(strstr(text, "#f6f8fa"));
+    free(text);
+    /* the start-up CSV reaches every link's reported inrush peak */
+    csv c;
+    csv_load(&c, csvp);
+    char *x = br_test_slurp(xmlp, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(x);
+    int links = 0;
+    for (const char *p = strstr(x, "inrush-peak-A=\""); p; p = strstr(p + 1, "inrush-peak-A=\"")) {
+        const char *sw = p;
+        while (sw > x && strncmp(sw, " switch=\"", 9) != 0)
+            sw--;
+        char name[32], col[48];
+        CU_ASSERT_EQUAL_FATAL(sscanf(sw + 9, "%31[^\"]", name), 1);
+        snprintf(col, sizeof col, "link_%s_A", name);
+        int k = csv_col(&c, col);
+        CU_ASSERT_TRUE_FATAL(k >= 0);
+        double peak = strtod(p + 15, NULL), most = -HUGE_VAL;
+        for (long i = 0; i < c.nrow; i++)
+            if (strcmp(c.series[i], "startup") == 0)
+                most = fmax(most, c.v[i][k]);
+        BR_ASSERT_REL(most, peak, 1e-6);
+        links++;
+    }
+    CU_ASSERT_EQUAL(links, 11);
+    free(x);
+    csv_free(&c);
+    const char *names[] = {"r.html", "r.csv", "r.xml", NULL};
+    remove_all(dir, names);
+}
+
+/* The demo fails its 10 V minimum drive: the steady plots draw that limit
+ * as a labelled line in the plot (it was pointed at from the edge), and
+ * the window plot marks the limits its search found (holds from 1.47 %
+ * to 94.7 % of duty on the 12-switch demo). */
+static void test_limits_drawn(void)
+{
+    char dir[64], html[96];
+    temp_dir(dir, sizeof dir);
+    snprintf(html, sizeof html, "%s/r.html", dir);
+    run_result r =
+        run((const char *[]){"steady", "examples/demo-3level.xml", "--report", html, NULL});
+    CU_ASSERT_EQUAL(r.status, 1);
+    done(&r);
+    char *text = br_test_slurp(html, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(text);
+    /* 4 rails, 2 directions */
+    CU_ASSERT_EQUAL(count(text, "data-limit=\"minimum-drive\" data-value=\"10\""), 8);
+    CU_ASSERT_TRUE(has(text, ">minimum drive</text>"));
+    CU_ASSERT_PTR_NULL(strstr(text, "\xe2\x86\x93 ")); /* no arrow pointing off the plot */
+    free(text);
+    /* the 12-switch demo holds: its duty and frequency limits are found */
+    r = run((const char *[]){"window", "examples/leg-7level.xml", "--report", html, NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    done(&r);
+    text = br_test_slurp(html, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(text);
+    CU_ASSERT_TRUE(count(text, "data-mark=\"found-limit\"") >= 2);
+    CU_ASSERT_TRUE(has(text, ">holds to "));
+    free(text);
+    const char *names[] = {"r.html", NULL};
     remove_all(dir, names);
 }
 
@@ -275,6 +447,57 @@ static void plot_of(const char *const *args, const char *plot, const char *repor
         xmlFreeDoc(doc);
         free(text);
     }
+}
+
+/* One verb's --report: an XHTML page with the verdict first as a badge
+ * (its class the outcome the status gives), the terminal report's text in
+ * it (want), the caution last. */
+static void report_of(const char *const *args, const char *html, int status, const char *badge,
+                      const char *want)
+{
+    run_result r = run(args);
+    CU_ASSERT_EQUAL(r.status, status);
+    if (r.status != status)
+        fprintf(stderr, "%s: status %d: %s\n", args[0], r.status, r.err);
+    done(&r);
+    char *text = NULL;
+    xmlDocPtr doc = parse_file(html, &text);
+    CU_ASSERT_STRING_EQUAL(xmlDocGetRootElement(doc)->name, "html");
+    const char *b = strstr(text, badge), *w = strstr(text, want);
+    const char *caution = strstr(text, "lethal voltages");
+    CU_ASSERT_TRUE(b && w && caution && b < w && w < caution);
+    if (!b || !w)
+        fprintf(stderr, "%s: missing [%s] or [%s]\n", args[0], badge, want);
+    CU_ASSERT_PTR_NULL(strstr(text, "<script"));
+    xmlFreeDoc(doc);
+    free(text);
+    unlink(html);
+}
+
+/* check, corners, pick and supply take --report like the other verbs: a
+ * design review holds the chain, the worst-case table and the chosen
+ * parts as pages. */
+static void test_text_verb_reports(void)
+{
+    char dir[64], html[96];
+    temp_dir(dir, sizeof dir);
+    snprintf(html, sizeof html, "%s/v.html", dir);
+    const char *f = "examples/demo-3level.xml", *cat = "examples/parts/catalog.xml";
+    const char *ck[] = {"check", f, "--report", html, NULL};
+    report_of(ck, html, 0, "badge pass\">PASS", "stages (bottom to top;");
+    const char *cn[] = {"corners", f, "--report", html, NULL};
+    report_of(cn, html, 1, "badge fail\">FAIL", "worst corner of each criterion");
+    const char *pk[] = {"pick", f, "--catalog", cat, "--report", html, NULL};
+    report_of(pk, html, 1, "badge fail\">FAIL", "verdict: FAIL, no choice passes");
+    const char *sp[] = {"supply", f, "--report", html, NULL};
+    report_of(sp, html, 1, "badge fail\">FAIL", "at the design's own supply");
+    /* the page is one of the verb's outputs: never the design itself */
+    const char *same[] = {"corners", f, "--report", f, NULL};
+    run_result r = run(same);
+    CU_ASSERT_EQUAL(r.status, 2);
+    done(&r);
+    const char *names[] = {"v.html", NULL};
+    remove_all(dir, names);
 }
 
 static void test_every_plot_parses(void)
@@ -397,6 +620,9 @@ int main(void)
     static const br_test_case cases[] = {
         {"analyze --report: parses, self-contained, points are CSV rows", test_analyze_report},
         {"every verb's --plot and --report parse", test_every_plot_parses},
+        {"the page agrees with itself and its files", test_report_agrees},
+        {"limits drawn as lines, limits found marked", test_limits_drawn},
+        {"check, corners, pick, supply: --report", test_text_verb_reports},
         {"steady --plot draws the direction nearest UVLO", test_steady_plot_binding_direction},
         {"undetermined verdict in the report", test_undetermined_report},
         {"unwritable or clashing outputs: status 2", test_unwritable_report},

@@ -662,6 +662,34 @@ static void test_max_dropouts(void)
     CU_ASSERT_PTR_NOT_NULL(strstr(err.msg, "unknown element <extra>"));
 }
 
+/* A part may say where its values come from (source="..."): kept as
+ * written for the sign-off pack; a part without one has "". */
+static void test_part_source(void)
+{
+    br_error err;
+    br_design *d = load_text(MINI_HEAD "  <topology><fcml levels=\"3\"/></topology>\n"
+                                       "  <parts>\n    <diode id=\"d\" source=\"bench run 12, "
+                                       "2026-11-30\"/>\n" MINI_PARTS "  </parts>\n" MINI_STAGES
+                                       "</bootrung-design>\n",
+                             &err);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(d);
+    CU_ASSERT_STRING_EQUAL(d->diodes[0].source, "bench run 12, 2026-11-30");
+    CU_ASSERT_STRING_EQUAL(d->caps[0].source, "");
+    br_design_free(d);
+    char text[2048], longer[300];
+    memset(longer, 'x', sizeof longer - 1);
+    longer[sizeof longer - 1] = '\0';
+    snprintf(text, sizeof text,
+             MINI_HEAD "  <topology><fcml levels=\"3\"/></topology>\n"
+                       "  <parts>\n    <diode id=\"d\" source=\"%s\"/>\n" MINI_PARTS
+                       "  </parts>\n" MINI_STAGES "</bootrung-design>\n",
+             longer);
+    d = load_text(text, &err);
+    CU_ASSERT_PTR_NULL(d);
+    CU_ASSERT_STRING_EQUAL(err.field, "diode d: source");
+    CU_ASSERT_PTR_NOT_NULL(strstr(err.msg, "expected at most 159 characters"));
+}
+
 static void test_string_topology(void)
 {
     br_error err;
@@ -940,6 +968,7 @@ int main(void)
         {"tau from qrr and if", test_recovery_charge},
         {"omitted attributes keep their defaults", test_defaults_kept},
         {"max-dropouts read", test_max_dropouts},
+        {"a part's source", test_part_source},
         {"explicit string topology", test_string_topology},
         {"FCML switch names in precharge", test_fcml_switch_names},
         {"tolerance forms in a file", test_tolerance_forms},

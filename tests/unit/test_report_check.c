@@ -49,7 +49,7 @@ static void test_table(void)
     CU_ASSERT_TRUE(has(t, "input voltage     800 V"));
     CU_ASSERT_TRUE(has(t, "switching freq    100 kHz (period 10 us)"));
     CU_ASSERT_TRUE(has(t, "dead time         50 ns"));
-    CU_ASSERT_TRUE(has(t, "ambient           27.0 C"));
+    CU_ASSERT_TRUE(has(t, "ambient           27.0 degC"));
     CU_ASSERT_TRUE(has(t, "flying-capacitor leg, 3 levels: 4 switches, 3 links"));
     CU_ASSERT_TRUE(has(t, "5050.0-9950.0"));
     CU_ASSERT_TRUE(has(t, "50.5-99.5"));

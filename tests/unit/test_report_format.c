@@ -7,6 +7,7 @@
 #include "report/table.h"
 #include "testkit.h"
 
+#include <math.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -112,11 +113,32 @@ static void test_wrap(void)
     br_text_free(out);
 }
 
-/* Feed a series by hand: a sample every 1 us with min_dt 9.5 us keeps
- * one row in ten; a UVLO transition before the sample at 55 us keeps the
- * held sample before it (54 us) and the one after it (55 us), and the
- * grid restarts there; the end keeps the last sample.  Rows: 0, 10, 20,
- * 30, 40, 50, 54, 55, 65, 75, 85, 95, 100 us: 13. */
+/* Rows of a series' text, and the value of one column (0 = series) of
+ * row r (0-based) as a number. */
+static int count_rows(const char *t)
+{
+    int rows = 0;
+    for (; *t; t++)
+        rows += *t == '\n';
+    return rows;
+}
+
+static double field(const char *t, int row, int col)
+{
+    for (int r = 0; r < row; r++)
+        t = strchr(t, '\n') + 1;
+    for (int c = 0; c < col; c++)
+        t = strchr(t, ',') + 1;
+    return *t == ',' || *t == '\n' ? NAN : strtod(t, NULL);
+}
+
+/* Feed a series by hand: a sample every 1 us with min_dt 9.5 us makes
+ * buckets of ten samples, each kept as two rows (the min/max envelope).
+ * Link 1 carries a spike of 7 A at 23 us, between two kept rows' times,
+ * and rail 2 a dip to 4 V at 37 us: the rows of their buckets hold them,
+ * each at its own place in the bucket's order.  A UVLO transition before
+ * the sample at 55 us keeps the sample before it (54 us) and the one
+ * after it (55 us) as they are; the end keeps the last samples. */
 static void test_csv_series(void)
 {
     br_text *out = br_text_create();
@@ -124,8 +146,8 @@ static void test_csv_series(void)
     br_csv_series s;
     br_csv_series_init(&s, out, "startup", 3, 9.5e-6, 0.0);
     br_sim_observer o = br_csv_observer(&s);
-    double v[3] = {12.0, 11.0, 10.0}, i[3] = {0.0, 0.1, 0.05};
     for (int k = 0; k <= 100; k++) {
+        double v[3] = {12.0, 11.0, k == 37 ? 4.0 : 10.0}, i[3] = {0.0, k == 23 ? 7.0 : 0.1, 0.05};
         if (k == 55) {
             br_uvlo_event e = {k * 1e-6, 2, 1, 10.0};
             o.uvlo(o.ctx, &e);
@@ -134,21 +156,49 @@ static void test_csv_series(void)
     }
     CU_ASSERT_EQUAL(br_csv_series_end(&s), BR_OK);
     const char *t = br_text_data(out);
-    int rows = 0;
-    for (; *t; t++)
-        rows += *t == '\n';
-    CU_ASSERT_EQUAL(s.rows, 13);
-    CU_ASSERT_EQUAL(rows, 13);
-    /* rail 0 is the supply; then the supply's current, and the links from
-     * 1 (link 0 does not exist); fed without a simulator, the supply's
-     * current is empty, the driver supplies are the rails and the reverse
-     * voltages are empty */
-    CU_ASSERT_PTR_NOT_NULL(
-        strstr(br_text_data(out), "startup,5.4e-05,12,11,10,,0.1,0.05,12,11,10,,\n"));
-    CU_ASSERT_PTR_NOT_NULL(strstr(br_text_data(out), "\nstartup,5.5e-05,"));
-    CU_ASSERT_PTR_NOT_NULL(strstr(br_text_data(out), "\nstartup,6.5e-05,"));
-    CU_ASSERT_PTR_NULL(strstr(br_text_data(out), "\nstartup,6e-05,"));
-    CU_ASSERT_PTR_NOT_NULL(strstr(br_text_data(out), "\nstartup,0.0001,"));
+    CU_ASSERT_EQUAL(count_rows(t), s.rows);
+    /* buckets: 0 alone (the first sample), 1-10, 11-20, 21-30, 31-40,
+     * 41-50, 51-53 (cut by the transition), then 54 and 55 alone, 56-65,
+     * 66-75, 76-85, 86-95, 96-100: 2 + 9 x 2 + 2 rows... counted below */
+    double peak = 0.0, dip = HUGE_VAL;
+    for (int r = 0; r < s.rows; r++) {
+        peak = fmax(peak, field(t, r, 6)); /* series,t,rail x3,supply,link1 */
+        dip = fmin(dip, field(t, r, 4));
+    }
+    CU_ASSERT_DOUBLE_EQUAL(peak, 7.0, 0.0);
+    CU_ASSERT_DOUBLE_EQUAL(dip, 4.0, 0.0);
+    /* every row is 2 + 3 rails + supply + 2 links + 2 displacement + 3
+     * drivers + 2 reverse voltages = 15 fields; fed without a simulator,
+     * the supply, the displacement and the reverse voltages are empty */
+    CU_ASSERT_PTR_NOT_NULL(strstr(t, "startup,5.4e-05,12,11,10,,0.1,0.05,,,12,11,10,,\n"));
+    CU_ASSERT_PTR_NOT_NULL(strstr(t, "\nstartup,5.5e-05,12,11,10,"));
+    CU_ASSERT_PTR_NOT_NULL(strstr(t, "\nstartup,0.0001,"));
+    /* a bucket's two rows sit at its first and last sample */
+    CU_ASSERT_PTR_NOT_NULL(strstr(t, "\nstartup,2.1e-05,"));
+    CU_ASSERT_PTR_NOT_NULL(strstr(t, "\nstartup,3e-05,"));
+    CU_ASSERT_PTR_NULL(strstr(t, "\nstartup,2.3e-05,"));
+    /* about two rows per bucket, against one per sample */
+    CU_ASSERT_TRUE(s.rows >= 20 && s.rows <= 26);
+    br_text_free(out);
+}
+
+/* min_dt 0 keeps every sample as it is. */
+static void test_csv_every_sample(void)
+{
+    br_text *out = br_text_create();
+    CU_ASSERT_PTR_NOT_NULL_FATAL(out);
+    br_csv_series s;
+    br_csv_series_init(&s, out, "steady", 2, 0.0, 1e-6);
+    br_sim_observer o = br_csv_observer(&s);
+    for (int k = 0; k < 7; k++) {
+        double v[2] = {12.0, 11.0 + k}, i[2] = {0.0, 0.1 * k};
+        o.sample(o.ctx, NULL, k * 1e-6, v, i, 2);
+    }
+    CU_ASSERT_EQUAL(br_csv_series_end(&s), BR_OK);
+    CU_ASSERT_EQUAL(s.rows, 7);
+    CU_ASSERT_EQUAL(count_rows(br_text_data(out)), 7);
+    /* t_offset is added: the first row is at 1 us */
+    CU_ASSERT_TRUE(strncmp(br_text_data(out), "steady,1e-06,12,11,", 19) == 0);
     br_text_free(out);
 }
 
@@ -159,7 +209,8 @@ int main(void)
         {"column scales and fixed decimals", test_scale},
         {"table layout", test_table},
         {"wrapped paragraphs", test_wrap},
-        {"CSV series decimation and events", test_csv_series},
+        {"CSV series: min/max envelope and events", test_csv_series},
+        {"CSV series: every sample", test_csv_every_sample},
         {NULL, NULL},
     };
     return br_test_main("report_format", cases);
