@@ -29,6 +29,7 @@ static const br_verb verbs[] = {
     {"yield", cmd_yield, "Monte Carlo yield over the tolerances, with its confidence interval"},
     {"pick", cmd_pick, "rail capacitors and link diodes from a catalog, ranked by cost"},
     {"supply", cmd_supply, "smallest current limit and supply voltage window at the worst corners"},
+    {"size", cmd_size, "size rail capacitors and link resistance to a margin target"},
     {NULL, NULL, NULL},
 };
 

@@ -11,6 +11,7 @@
 #include <math.h>
 #include <stdarg.h>
 #include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
 
 #define WIDTH 96 /* wrap attributes before a line grows past this */
@@ -87,9 +88,16 @@ static const unit U_V = {"V", 1}, U_A = {"A", 1}, U_F = {"F", 1}, U_HZ = {"Hz", 
                   U_EV = {"eV", 1}, U_A2S = {"A2s", 1}, U_W = {"W", 1}, U_KW = {"K/W", 1},
                   U_DEG = {"deg", 57.295779513082320876798154814105};
 
+/* The shortest of 15 to 17 significant digits that reads back as the
+ * same double. */
 static void number(char *buf, size_t cap, double v, const unit *u)
 {
-    snprintf(buf, cap, "%.17g", v * u->factor);
+    double x = v * u->factor;
+    for (int digits = 15; digits <= 17; digits++) {
+        snprintf(buf, cap, "%.*g", digits, x);
+        if (strtod(buf, NULL) == x)
+            return;
+    }
 }
 
 static void value(wr *w, const char *name, double v, const unit *u)
