@@ -211,23 +211,52 @@ static void rail_name(const br_design *d, int k, char *buf, size_t cap)
     free(c);
 }
 
-/* The index of part p in t's capacitors, appended when t has no part of
- * its id (a catalog part whose id a different part of the design has
- * takes the id with "-catalog" added). */
-static int cap_slot(br_design *t, br_cap_part *p, br_error *err)
+/* Whether t uses capacitor i anywhere but on rail k (the default stage
+ * counts as elsewhere). */
+static int cap_used_elsewhere(const br_design *t, int k, int i)
 {
-    for (int i = 0; i < t->ncaps; i++) {
-        if (strcmp(t->caps[i].id, p->id) != 0)
-            continue;
+    if (t->def.cap == i)
+        return 1;
+    for (int j = 0; j < BR_MAX_SWITCHES; j++)
+        if (j != k && t->has_override[j] && t->stage[j].cap == i)
+            return 1;
+    return 0;
+}
+
+static int cap_find(const br_design *t, const char *id)
+{
+    for (int i = 0; i < t->ncaps; i++)
+        if (strcmp(t->caps[i].id, id) == 0)
+            return i;
+    return -1;
+}
+
+/* The index of part p in t's capacitors for rail k: the part of its id
+ * when that is p, else the slot of its id that only rail k uses
+ * (overwritten: an earlier value of this search), else appended; an id
+ * that a different part holds elsewhere gets a number ("-2", "-3"...). */
+static int cap_slot(br_design *t, int k, br_cap_part *p, br_error *err)
+{
+    char base[BR_ID_MAX - 4]; /* room for "-99" */
+    size_t len = strnlen(p->id, sizeof base - 1);
+    memcpy(base, p->id, len);
+    base[len] = '\0';
+    for (int n = 1; n < 100; n++) {
+        if (n > 1)
+            snprintf(p->id, BR_ID_MAX, "%s-%d", base, n);
+        int i = cap_find(t, p->id);
+        if (i < 0)
+            break;
         br_cap_part a = t->caps[i];
         a.line = p->line;
         if (memcmp(&a, p, sizeof a) == 0)
             return i;
-        size_t len = strlen(p->id);
-        snprintf(p->id + (len < BR_ID_MAX - 9 ? len : BR_ID_MAX - 9), 9, "-catalog");
-        return cap_slot(t, p, err);
+        if (!cap_used_elsewhere(t, k, i)) {
+            t->caps[i] = *p;
+            return i;
+        }
     }
-    if (t->ncaps >= BR_MAX_PARTS)
+    if (t->ncaps >= BR_MAX_PARTS || cap_find(t, p->id) >= 0)
         return -br_error_set(err, BR_EINPUT, t->path, 0, "parts",
                              "no room for another capacitor: a design holds at most %d",
                              BR_MAX_PARTS);
@@ -253,7 +282,7 @@ static int with_cap(const sizer *q, const br_design *cur, int k, int part, doubl
         rail_name(cur, k, sw, sizeof sw);
         snprintf(p.id, sizeof p.id, "cap-%.40s", sw);
     }
-    int slot = cap_slot(t, &p, err);
+    int slot = cap_slot(t, k, &p, err);
     if (slot < 0) {
         br_design_free(t);
         return -slot;
@@ -621,4 +650,30 @@ void br_size_free(br_size *s)
     br_design_free(s->d);
     br_supply_window_free(s->sw);
     free(s);
+}
+
+int br_size_judge(const br_design *d, const br_design *t, const br_size_opts *o, br_size_verdict *v,
+                  br_error *err)
+{
+    br_size *z = calloc(1, sizeof *z);
+    br_chain *c = malloc(sizeof *c);
+    int rc = z && c ? BR_OK : br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    sizer q = {.d0 = d, .o = o, .z = z};
+    if (rc == BR_OK)
+        rc = br_chain_build_nominal(d, c, err);
+    if (rc == BR_OK)
+        prepare(&q, c);
+    br_spread_opts so;
+    br_spread_opts_default(&so);
+    so.threads = o->threads;
+    so.startup = 1;
+    so.solver_limit = o->solver_limit;
+    if (rc == BR_OK)
+        rc = br_spread_create(d, &so, &q.base, err);
+    if (rc == BR_OK)
+        rc = judge_whole(&q, t, v, err);
+    br_spread_free(q.base);
+    free(c);
+    free(z);
+    return rc;
 }

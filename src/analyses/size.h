@@ -129,4 +129,11 @@ void br_size_opts_default(br_size_opts *o);
 int br_size_run(const br_design *d, const br_size_opts *o, br_size **out, br_error *err);
 void br_size_free(br_size *s);
 
+/* Judge design t (d with some parts or values changed, the same topology
+ * and stages) as the search judges a value: at its worst corners from d's
+ * spread, cold start included when the steady-state criteria qualify,
+ * against o's target (o->cat is not used).  For checks and tests. */
+int br_size_judge(const br_design *d, const br_design *t, const br_size_opts *o, br_size_verdict *v,
+                  br_error *err);
+
 #endif
