@@ -117,6 +117,8 @@ static int check_head(merged *m, const char *path, long ln, char *head, const ch
              strncmp(head, br_text_data(t), br_text_len(t)) == 0;
     br_text_free(t);
     if (!ok)
+        free(head);
+    if (!ok)
         return fail(path, 1, "%s: not a shard file of this version of bootrung on this machine",
                     "shard");
     if (!m->head) {
@@ -238,9 +240,9 @@ static int same_design(const merged *m, const char *path)
     const char *p = strstr(m->head, "\ndesign ");
     unsigned long long hash;
     long size, used = 0;
-    char hex[2 * 4096 + 2], file[4097];
+    char hex[2 * 4096 + 3], file[4097];
     if (!p || sscanf(p, "\ndesign %llx %ld %8194s%ln", &hash, &size, hex, &used) != 3 ||
-        unhex(hex, (unsigned char *)file, strlen(hex) / 2) != 0)
+        strlen(hex) > 2 * 4096 || unhex(hex, (unsigned char *)file, strlen(hex) / 2) != 0)
         return fail(path, 0, "%s: no design line", "design");
     file[strlen(hex) / 2] = '\0';
     br_error err;
