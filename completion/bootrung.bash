@@ -3,7 +3,7 @@
 # Installed to share/bash-completion/completions/bootrung; tests/lib/docs.sh
 # checks that every verb and option the program's help lists is here.
 
-_bootrung_verbs="check startup steady analyze window map corners yield pick supply netlist help"
+_bootrung_verbs="check startup steady analyze window map corners yield pick supply netlist size merge help"
 
 # The options of one verb (--help and --quiet are everybody's).
 _bootrung_options()
@@ -15,12 +15,14 @@ _bootrung_options()
     steady) echo "--xml --csv --report --plot --solver-limit $common" ;;
     analyze | analyse) echo "--xml --csv --report --pack --catalog --solver-limit --startup-method $common" ;;
     window) echo "--xml --report --plot --fmin --fmax --startup --startup-method $common" ;;
-    map) echo "--duty --freq --csv --svg --plot --report --threads $common" ;;
+    map) echo "--duty --freq --csv --svg --plot --report --threads --shard --shard-file $common" ;;
     corners) echo "--xml --report --exhaustive --no-startup --solver-limit --startup-method --threads $common" ;;
-    yield) echo "--samples --seed --startup --min-yield --xml --csv --report --plot --solver-limit --startup-method --threads $common" ;;
+    yield) echo "--samples --seed --startup --min-yield --xml --csv --report --plot --solver-limit --startup-method --threads --shard --shard-file $common" ;;
     pick) echo "--catalog --top --min-margin --no-startup --no-per-rail --xml --report --solver-limit --startup-method --threads $common" ;;
     supply) echo "--xml --report --threads --startup-method $common" ;;
     netlist) echo "--out --current --periods $common" ;;
+    size) echo "--catalog --target --no-links --supply --write-design --threads --solver-limit --startup-method $common" ;;
+    merge) echo "--help" ;;
     esac
 }
 
@@ -45,7 +47,7 @@ _bootrung()
         return
     fi
     case $prev in
-    --xml | --csv | --report | --plot | --svg | --out)
+    --xml | --csv | --report | --plot | --svg | --out | --shard-file | --write-design)
         compopt -o filenames 2>/dev/null
         COMPREPLY=($(compgen -f -- "$cur"))
         return ;;
@@ -64,11 +66,14 @@ _bootrung()
         COMPREPLY=($(compgen -W "step-down step-up none" -- "$cur"))
         return ;;
     --solver-limit | --threads | --fmin | --fmax | --duty | --freq | --exhaustive | \
-        --samples | --seed | --min-yield | --top | --min-margin | --periods)
+        --samples | --seed | --min-yield | --top | --min-margin | --periods | --shard | --target)
         return ;; # a number or a range: nothing to offer
     esac
     if [[ $cur == -* ]]; then
         COMPREPLY=($(compgen -W "$(_bootrung_options "$verb")" -- "$cur"))
+    elif [[ $verb == merge ]]; then
+        compopt -o filenames 2>/dev/null
+        COMPREPLY=($(compgen -f -- "$cur")) # shard files: any name
     else
         compopt -o filenames 2>/dev/null
         COMPREPLY=($(compgen -f -X '!*.xml' -- "$cur") $(compgen -d -- "$cur"))

@@ -59,6 +59,13 @@ vg 2 map --duty 0.2:0.8:3 --freq 50k:200k:3 tests/data/line-3level.xml
 vg 0 netlist --periods 5 --out "$tmp/out.cir" examples/leg-7level.xml
 vg 2 netlist tests/data/line-3level.xml
 vg 2 check tests/bad/spice-model-range.xml
+# a sweep in two shards and their merge, and a merge that is refused
+for k in 1 2; do
+    vg 0 map --duty 0.3:0.7:3 --freq 50k:200k:3 --shard $k/2 --shard-file "$tmp/m$k.shard" \
+        examples/demo-3level.xml
+done
+vg "0 1 3" merge "$tmp/m1.shard" "$tmp/m2.shard"
+vg 2 merge "$tmp/m1.shard"
 vg 2 analyze no-such-file.xml
 vg 2 analyze tests/bad/unit-nan.xml
 vg 2 check tests/bad/doctype-billion-laughs.xml

@@ -26,6 +26,9 @@ int br_map_opts_check(const br_map_opts *o, br_error *err)
         return br_error_set(err, BR_EINPUT, NULL, 0, "freq",
                             "%g Hz to %g Hz; expected 0 < FROM < TO (FROM = TO for one point)",
                             o->fsw_from, o->fsw_to);
+    if (o->shard_n < 0 || (o->shard_n > 0 && (o->shard_k < 1 || o->shard_k > o->shard_n)))
+        return br_error_set(err, BR_EINPUT, NULL, 0, "shard",
+                            "%d/%d; expected K/N with 1 <= K <= N", o->shard_k, o->shard_n);
     if (o->threads < 1 || o->threads > BR_MAP_MAX_THREADS)
         return br_error_set(err, BR_EINPUT, NULL, 0, "threads", "%d; expected 1 to %d", o->threads,
                             BR_MAP_MAX_THREADS);
@@ -45,6 +48,19 @@ void br_map_free(br_map *m)
 const br_hold_point *br_map_at(const br_map *m, int i, int j)
 {
     return &m->pt[j * m->nduty + i];
+}
+
+int br_map_shard_has(const br_map *m, const br_map_opts *o, int i, int j)
+{
+    return o->shard_n <= 0 || i == m->col0 || j % o->shard_n == o->shard_k - 1;
+}
+
+/* The rows shard K of N walks (all of them without a shard). */
+static int shard_rows(const br_map_opts *o, int nfsw)
+{
+    if (o->shard_n <= 0)
+        return nfsw;
+    return o->shard_k - 1 < nfsw ? (nfsw - o->shard_k + o->shard_n) / o->shard_n : 0;
 }
 
 static br_hold_point *at(br_map *m, int i, int j)
@@ -94,6 +110,7 @@ static int map_alloc(const br_map_opts *o, br_map **out, br_error *err)
 
 typedef struct map_job {
     const br_design *d;
+    const br_map_opts *o;
     br_map *m;
     br_warm **seed; /* per row: the warm start at (duty[col0], fsw[j]) */
     int stage;      /* 1: the design column, 2: the rows */
@@ -157,6 +174,8 @@ static int row_task(map_job *job, br_probe *p, int task, br_error *err)
 {
     br_map *m = job->m;
     int j = task / 2, step = task % 2 == 0 ? 1 : -1;
+    if (job->o->shard_n > 0)
+        j = job->o->shard_k - 1 + job->o->shard_n * j;
     br_probe_load(p, job->seed[j]);
     for (int i = m->col0 + step; i >= 0 && i < m->nduty; i += step) {
         int rc = grid_point(job, p, i, j, err);
@@ -282,11 +301,39 @@ static int run_stages(map_job *job, int threads, br_error *err)
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "cannot create a lock for the workers");
     int rc = run_stage(job, 1, 2, threads);
     if (rc == BR_OK)
-        rc = run_stage(job, 2, 2 * m->nfsw, threads);
+        rc = run_stage(job, 2, 2 * shard_rows(job->o, m->nfsw), threads);
     pthread_mutex_destroy(&job->lock);
     if (rc != BR_OK && err)
         *err = job->err;
     return rc;
+}
+
+/* The map from its points as judged (merging shards). */
+static int map_given(const br_map_opts *o, br_map **out, br_error *err)
+{
+    br_map *m;
+    int rc = map_alloc(o, &m, err);
+    if (rc != BR_OK)
+        return rc;
+    size_t n = (size_t)m->nduty * (size_t)m->nfsw;
+    memcpy(m->pt, o->given, n * sizeof *m->pt);
+    m->design = o->given[n];
+    m->col0 = nearest(m->duty, m->nduty, m->design.duty, 0);
+    m->row0 = nearest(m->fsw, m->nfsw, m->design.fsw, 1);
+    m->threads = o->threads;
+    m->periods = total_periods(m);
+    *out = m;
+    return BR_OK;
+}
+
+/* Points judged by the run: the design point, and the grid (its design
+ * column and own rows for a shard). */
+static double points_expected(const br_map_opts *o)
+{
+    int rows = shard_rows(o, o->nfsw);
+    if (o->shard_n <= 0)
+        return (double)o->nduty * o->nfsw + 1.0;
+    return 1.0 + o->nfsw + (double)rows * (o->nduty - 1);
 }
 
 int br_map_run(const br_design *d, const br_map_opts *o, br_map **out, br_error *err)
@@ -294,7 +341,7 @@ int br_map_run(const br_design *d, const br_map_opts *o, br_map **out, br_error 
     *out = NULL;
     br_map *m = NULL;
     br_probe *p = NULL;
-    map_job job = {.d = d, .rc = BR_OK};
+    map_job job = {.d = d, .o = o, .rc = BR_OK};
     if (d->ac.on) /* its modulation sets every period's duty */
         return br_error_set(err, BR_EINPUT, d->path, d->ac.line, "operating-point: line-cycle",
                             "map moves a fixed duty and switching frequency, and a line cycle's "
@@ -304,7 +351,9 @@ int br_map_run(const br_design *d, const br_map_opts *o, br_map **out, br_error 
     int rc = br_map_opts_check(o, err);
     if (rc != BR_OK)
         return rc;
-    rc = br_meter_init(&job.meter, o->progress, (double)o->nduty * o->nfsw + 1.0, err);
+    if (o->given)
+        return map_given(o, out, err);
+    rc = br_meter_init(&job.meter, o->progress, points_expected(o), err);
     if (rc != BR_OK)
         return rc;
     rc = map_alloc(o, &m, err);

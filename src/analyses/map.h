@@ -30,6 +30,14 @@ typedef struct br_map_opts {
     int threads;                 /* worker threads (default 2) */
     const br_progress *progress; /* grid points judged of nduty * nfsw + 1 (NULL: none);
                                     called from the workers one at a time */
+    /* A shard (shard_n > 0): the design point and column and the rows j
+     * with j % shard_n == shard_k - 1 only (br_map_shard_has); the other
+     * points are left zero.  Every shard starts its rows from the same
+     * column, so the shards' points are the unsharded map's. */
+    int shard_k, shard_n;
+    /* Merging shards: the nduty * nfsw grid points, then the design point,
+     * as judged; nothing is simulated (NULL: judge them). */
+    const br_hold_point *given;
 } br_map_opts;
 
 typedef struct br_map {
@@ -51,6 +59,10 @@ int br_map_opts_check(const br_map_opts *o, br_error *err);
  * (every worker stops after its current point; nothing is returned). */
 int br_map_run(const br_design *d, const br_map_opts *o, br_map **out, br_error *err);
 void br_map_free(br_map *m);
+
+/* Whether shard o->shard_k of o->shard_n judges point (i, j) of m: the
+ * design column, and its own rows (every point without a shard). */
+int br_map_shard_has(const br_map *m, const br_map_opts *o, int i, int j);
 
 /* The point at column i, row j. */
 const br_hold_point *br_map_at(const br_map *m, int i, int j);

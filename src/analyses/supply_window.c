@@ -279,9 +279,14 @@ static int voltage_answer(search *q, const br_design *d, int ans, br_error *err)
     return rc;
 }
 
-static int answers(search *q, const br_design *d, br_error *err)
+static int answers(search *q, const br_design *d, int voltage_only, br_error *err)
 {
-    int rc = limit_answer(q, d, err);
+    int rc = BR_OK;
+    if (voltage_only)
+        snprintf(q->w->r[BR_SW_LIMIT].why, sizeof q->w->r[BR_SW_LIMIT].why,
+                 "not searched: the supply voltage window only was asked for");
+    else
+        rc = limit_answer(q, d, err);
     if (rc == BR_OK)
         rc = voltage_answer(q, d, BR_SW_VMIN, err);
     if (rc == BR_OK)
@@ -306,7 +311,7 @@ static int run(br_supply_window *w, const br_design *d, const br_supply_window_o
         worst_corners(w, q.s);
         q.values = malloc(sizeof(double) * (size_t)BR_SW_MAXCORNERS * (size_t)(w->tl.n + 1));
         q.pts = malloc(sizeof(br_pt) * BR_SW_MAXCORNERS);
-        rc = q.values && q.pts ? answers(&q, d, err)
+        rc = q.values && q.pts ? answers(&q, d, o && o->voltage_only, err)
                                : br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     }
     free(q.values);

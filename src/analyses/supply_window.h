@@ -83,6 +83,7 @@ typedef struct br_supply_window {
 typedef struct br_supply_window_opts {
     int threads;                 /* worker threads; 0: one per processor */
     const br_progress *progress; /* corners judged of an estimate; NULL: none */
+    int voltage_only;            /* the supply voltage window only (no current limit) */
 } br_supply_window_opts;
 
 /* Search design d (not changed).  BR_ECANCEL when the progress hook asks

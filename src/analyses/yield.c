@@ -17,6 +17,7 @@ const double br_yield_quantiles[BR_YIELD_NQ] = {0.0, 0.001, 0.01, 0.1, 0.5};
 
 void br_yield_opts_default(br_yield_opts *o)
 {
+    memset(o, 0, sizeof *o);
     o->samples = 1000;
     o->seed = 1;
     o->threads = 0;
@@ -261,6 +262,41 @@ static int summarise(br_yield *y, br_error *err)
 
 /* ---- the run ------------------------------------------------------------------ */
 
+int br_yield_shard_has(const br_yield_opts *o, long i)
+{
+    return o->shard_n <= 0 || i % o->shard_n == o->shard_k - 1;
+}
+
+static long shard_count(const br_yield_opts *o, long n)
+{
+    if (o->shard_n <= 0)
+        return n;
+    return o->shard_k - 1 < n ? (n - o->shard_k + o->shard_n) / o->shard_n : 0;
+}
+
+/* Judge the shard's samples of y (every one without a shard): gathered,
+ * judged as one batch, scattered back. */
+static int judge_samples(br_yield *y, const br_yield_opts *o, br_error *err)
+{
+    if (o->shard_n <= 0)
+        return br_spread_eval(y->s, (int)y->n, y->values, o->startup, y->pts, err);
+    int np = y->s->tl.n > 0 ? y->s->tl.n : 1;
+    long m = shard_count(o, y->n);
+    double *v = malloc(sizeof(double) * (size_t)(m > 0 ? m : 1) * (size_t)np);
+    br_pt *pts = malloc(sizeof(br_pt) * (size_t)(m > 0 ? m : 1));
+    int rc = v && pts ? BR_OK : br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    for (long a = 0, i = o->shard_k - 1; rc == BR_OK && a < m; a++, i += o->shard_n)
+        memcpy(v + a * np, y->values + i * np, sizeof(double) * (size_t)np);
+    if (rc == BR_OK && m > 0)
+        rc = br_spread_eval(y->s, (int)m, v, o->startup, pts, err);
+    memset(y->pts, 0, sizeof(br_pt) * (size_t)y->n);
+    for (long a = 0, i = o->shard_k - 1; rc == BR_OK && a < m; a++, i += o->shard_n)
+        y->pts[i] = pts[a];
+    free(v);
+    free(pts);
+    return rc;
+}
+
 /* The spread, the samples, their verdicts and the statistics into y. */
 static int yield_compute(br_yield *y, const br_design *d, const br_yield_opts *o, br_meter *meter,
                          br_error *err)
@@ -283,9 +319,11 @@ static int yield_compute(br_yield *y, const br_design *d, const br_yield_opts *o
     }
     if (rc == BR_OK)
         rc = br_yield_sample(&y->s->tl, y->seed, y->n, y->values, err);
-    if (rc == BR_OK)
-        rc = br_spread_eval(y->s, (int)y->n, y->values, o->startup, y->pts, err);
-    if (rc == BR_OK)
+    if (rc == BR_OK && o->given)
+        memcpy(y->pts, o->given, sizeof(br_pt) * (size_t)y->n);
+    else if (rc == BR_OK)
+        rc = judge_samples(y, o, err);
+    if (rc == BR_OK && o->shard_n <= 0)
         rc = summarise(y, err);
     return rc;
 }
@@ -301,6 +339,9 @@ int br_yield_run(const br_design *d, const br_yield_opts *o, br_yield **out, br_
     if (o->samples < 1 || o->samples > 100000000L)
         return br_error_set(err, BR_EINPUT, NULL, 0, "--samples",
                             "%ld samples, expected 1 to 100000000", o->samples);
+    if (o->shard_n < 0 || (o->shard_n > 0 && (o->shard_k < 1 || o->shard_k > o->shard_n)))
+        return br_error_set(err, BR_EINPUT, NULL, 0, "--shard",
+                            "%d/%d; expected K/N with 1 <= K <= N", o->shard_k, o->shard_n);
     br_yield *y = calloc(1, sizeof *y);
     if (!y)
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
@@ -308,7 +349,7 @@ int br_yield_run(const br_design *d, const br_yield_opts *o, br_yield **out, br_
     y->seed = o->seed;
     y->startup = o->startup;
     br_meter meter;
-    int rc = br_meter_init(&meter, o->progress, (double)y->n, err);
+    int rc = br_meter_init(&meter, o->progress, o->given ? 0.0 : (double)shard_count(o, y->n), err);
     if (rc == BR_OK) {
         rc = yield_compute(y, d, o, &meter, err);
         br_meter_destroy(&meter);

@@ -40,6 +40,14 @@ typedef struct br_yield_opts {
     int solver_limit;            /* br_spread_opts.solver_limit (0: none) */
     const br_progress *progress; /* points judged (nominal, one-at-a-time, samples) of the
                                     total expected; NULL: none; see core/progress.h */
+    /* A shard (shard_n > 0): only the samples i with i % shard_n ==
+     * shard_k - 1 are judged (br_yield_shard_has), the others left zero,
+     * and no statistics are taken.  Every shard draws every sample. */
+    int shard_k, shard_n;
+    /* Merging shards: the samples' points as judged (samples of them);
+     * the nominal and one-at-a-time points are judged again, not the
+     * samples (NULL: judge them). */
+    const br_pt *given;
 } br_yield_opts;
 
 typedef struct br_yield_crit {
@@ -74,6 +82,10 @@ typedef struct br_yield {
 } br_yield;
 
 void br_yield_opts_default(br_yield_opts *o);
+
+/* Whether shard o->shard_k of o->shard_n judges sample i (every sample
+ * without a shard). */
+int br_yield_shard_has(const br_yield_opts *o, long i);
 
 /* The verdict on y: without a minimum yield (min_yield < 0: BR_MIN_YIELD_NONE), fail when a
  * sample fails, else undetermined when one is undetermined, else pass.

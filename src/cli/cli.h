@@ -195,6 +195,8 @@ int cmd_window(int argc, char **argv);
 int cmd_map(int argc, char **argv);
 int cmd_supply(int argc, char **argv);
 int cmd_netlist(int argc, char **argv);
+int cmd_size(int argc, char **argv);
+int cmd_merge(int argc, char **argv);
 
 /* The shared body of the analysis verbs: options --xml/--csv/--quiet, the
  * help text `about`, the analyses `parts` (BR_RUN_* of report/results.h). */

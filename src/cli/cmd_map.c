@@ -2,6 +2,7 @@
  * worst margin and what binds it over a duty x frequency grid, as CSV and
  * an SVG heat map. */
 #include "cli.h"
+#include "shard.h"
 
 #include "analyses/map.h"
 #include "core/error.h"
@@ -24,7 +25,9 @@ static const char ABOUT[] =
     "point, --svg (or --plot) a heat map with the edge of the holding region and\n"
     "the design point marked, --report an HTML page with the map. Rows are shared\n"
     "between --threads workers (default 2); the result does not depend on their\n"
-    "number.\n"
+    "number. --shard K/N judges only every N-th row (and the design column) and\n"
+    "writes a shard file instead (--shard-file, default stdout); 'bootrung merge'\n"
+    "puts the N files together into this verb's output.\n"
     "Exit status 0 when the design point holds, 1 when not, 3 when no periodic\n"
     "steady state was found there, 2 for bad input.\n";
 
@@ -74,6 +77,7 @@ static int parse_threads(const char *text, int *out)
 /* The files asked for (NULL when not). */
 typedef struct paths {
     const char *csv, *svg, *report, *plot;
+    const char *shard, *shard_file; /* --shard K/N and its file */
 } paths;
 
 typedef struct outputs {
@@ -100,6 +104,11 @@ static int compute(const char *path, const br_map_opts *mo, const paths *p, outp
         rc = br_chain_build(d, &c, err);
     if (rc == BR_OK)
         rc = br_map_run(d, mo, &o->m, err);
+    if (mo->shard_n > 0) { /* a slice: no report */
+        br_chain_free(c);
+        br_design_free(d);
+        return rc;
+    }
     if (rc == BR_OK)
         rc = br_map_text(c, o->m, p->csv, p->svg ? p->svg : p->plot, o->text, err);
     if (rc == BR_OK && o->csv)
@@ -128,7 +137,35 @@ static int write_all(const outputs *o, const paths *p, int quiet)
     return status;
 }
 
-static int run(const char *path, br_map_opts *mo, const paths *p, int quiet)
+/* The shard's points (its rows and the design column), then the design point. */
+static int write_shard(int argc, char **argv, const char *path, const br_map_opts *mo,
+                       const paths *p, const br_map *m)
+{
+    long n = (long)m->nduty * m->nfsw;
+    br_hold_point *rec = malloc(sizeof *rec * (size_t)(n + 1));
+    unsigned char *mine = malloc((size_t)(n + 1));
+    int status;
+    if (!rec || !mine) {
+        br_error err;
+        br_error_set(&err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+        status = br_cli_fail(&err, NULL);
+    } else {
+        for (long k = 0; k < n; k++) {
+            rec[k] = *br_map_at(m, (int)(k % m->nduty), (int)(k / m->nduty));
+            mine[k] =
+                (unsigned char)br_map_shard_has(m, mo, (int)(k % m->nduty), (int)(k / m->nduty));
+        }
+        rec[n] = m->design;
+        mine[n] = 1;
+        br_shard_head h = {argc, argv, path, mo->shard_k, mo->shard_n, sizeof *rec, n + 1};
+        status = br_cli_shard_write(&h, rec, mine, p->shard_file ? p->shard_file : "-");
+    }
+    free(rec);
+    free(mine);
+    return status;
+}
+
+static int run(int argc, char **argv, const char *path, br_map_opts *mo, const paths *p, int quiet)
 {
     int want_svg = p->svg || p->plot;
     outputs o = {br_text_create(), p->csv ? br_text_create() : NULL,
@@ -145,7 +182,10 @@ static int run(const char *path, br_map_opts *mo, const paths *p, int quiet)
         mo->progress = &lr.hook;
         int rc = compute(path, mo, p, &o, &err);
         int stop = br_cli_run_commit(&lr);
-        status = stop ? stop : rc != BR_OK ? br_cli_fail(&err, path) : write_all(&o, p, quiet);
+        status = stop              ? stop
+                 : rc != BR_OK     ? br_cli_fail(&err, path)
+                 : mo->shard_n > 0 ? write_shard(argc, argv, path, mo, p, o.m)
+                                   : write_all(&o, p, quiet);
         br_cli_run_end(&lr);
         mo->progress = NULL;
     }
@@ -153,7 +193,23 @@ static int run(const char *path, br_map_opts *mo, const paths *p, int quiet)
     return status;
 }
 
+/* The points merged from shards, checked against the grid asked for. */
+static int take_given(br_map_opts *mo, const br_cli_given *given)
+{
+    if (!given)
+        return BR_EXIT_OK;
+    if (given->size != sizeof(br_hold_point) || given->total != (long)mo->nduty * mo->nfsw + 1)
+        return br_cli_usage_error("merge", "the shards' points do not fit the map's grid");
+    mo->given = given->rec;
+    return BR_EXIT_OK;
+}
+
 int cmd_map(int argc, char **argv)
+{
+    return br_cli_map_main(argc, argv, NULL);
+}
+
+int br_cli_map_main(int argc, char **argv, const br_cli_given *given)
 {
     const char *duty = NULL, *freq = NULL, *threads = NULL;
     paths p = {0};
@@ -167,6 +223,9 @@ int cmd_map(int argc, char **argv)
         {BR_OPT_STRING, "report", "PATH", &p.report,
          "also write a self-contained HTML report with the map to PATH"},
         {BR_OPT_STRING, "threads", "N", &threads, "worker threads, 1 to 16 (default 2)"},
+        {BR_OPT_STRING, "shard", "K/N", &p.shard, "judge slice K of N only, write a shard file"},
+        {BR_OPT_STRING, "shard-file", "PATH", &p.shard_file,
+         "the shard file's path (default - stdout)"},
         {BR_OPT_FLAG, "quiet", NULL, &quiet, BR_QUIET_HELP},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
     };
@@ -177,18 +236,22 @@ int cmd_map(int argc, char **argv)
         return br_cli_parse_status(parsed);
     if (!duty || !freq)
         return br_cli_usage_error("map", "--duty and --freq are required");
-    const char *const out[] = {p.csv, p.svg, p.plot, p.report};
-    const char *const names[] = {"csv", "svg", "plot", "report"};
-    if (br_cli_outputs("map", names, out, 4, (const char *const *)pos, 1) != BR_EXIT_OK)
+    const char *const out[] = {p.csv, p.svg, p.plot, p.report, p.shard_file};
+    const char *const names[] = {"csv", "svg", "plot", "report", "shard-file"};
+    if (br_cli_outputs("map", names, out, 5, (const char *const *)pos, 1) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
     br_map_opts mo = {0};
     if (parse_axis("duty", duty, BR_KIND_FRACTION, &mo.duty_from, &mo.duty_to, &mo.nduty) ||
         parse_axis("freq", freq, BR_KIND_FREQUENCY, &mo.fsw_from, &mo.fsw_to, &mo.nfsw) ||
-        parse_threads(threads, &mo.threads))
+        parse_threads(threads, &mo.threads) ||
+        (p.shard && br_cli_shard_parse("map", p.shard, &mo.shard_k, &mo.shard_n)) ||
+        take_given(&mo, given))
         return BR_EXIT_INPUT;
+    if (p.shard_file && !p.shard)
+        return br_cli_usage_error("map", "--shard-file without --shard");
     br_error err;
     br_error_clear(&err);
     if (br_map_opts_check(&mo, &err) != BR_OK)
         return br_cli_usage_error("map", "--%s: %s", err.field, err.msg);
-    return run(pos[0], &mo, &p, quiet);
+    return run(argc, argv, pos[0], &mo, &p, quiet);
 }

@@ -1,12 +1,14 @@
 /* cmd_yield.c - `bootrung yield FILE --samples N --seed S`: Monte Carlo
  * yield over the tolerances of the design file. */
 #include "cli.h"
+#include "shard.h"
 
 #include "core/error.h"
 #include "report/charts.h"
 #include "report/verb_pages.h"
 #include "report/yield_report.h"
 
+#include <stdlib.h>
 #include <string.h>
 
 #ifndef BR_VERSION
@@ -28,10 +30,13 @@ static const char ABOUT[] =
     "lower bound, passing for the upper). Exit status 0 when every sample passes\n"
     "(or, with --min-yield, when the lower confidence bound reaches it), 1 when\n"
     "one fails (or the bound cannot reach the minimum), 3 when the undetermined\n"
-    "samples leave it open, 2 for bad input.\n";
+    "samples leave it open, 2 for bad input. --shard K/N judges only the samples\n"
+    "i with i mod N = K-1 and writes a shard file instead (--shard-file, default\n"
+    "stdout); 'bootrung merge' puts the N files together into this verb's output.\n";
 
 typedef struct args {
     const char *xml, *csv, *samples, *seed, *threads, *min_yield, *report, *plot, *limit, *method;
+    const char *shard, *shard_file;
     int startup, quiet;
     int su_method; /* br_su_method */
 } args;
@@ -119,7 +124,7 @@ static int compute(const char *path, const args *a, const br_yield_opts *yo, dou
     }
     if (rc == BR_OK)
         rc = br_yield_run(o->d, yo, &o->y, err);
-    if (rc == BR_OK)
+    if (rc == BR_OK && yo->shard_n <= 0)
         rc = render(a, min_yield, o, err);
     return rc;
 }
@@ -133,7 +138,45 @@ static int write_all(const args *a, const outputs *o)
     return br_cli_write(files, 4, o->text, a->quiet, verdict, 1);
 }
 
+/* The shard's samples, judged. */
+static int write_shard(int argc, char **argv, const char *path, const args *a,
+                       const br_yield_opts *yo, const br_yield *y)
+{
+    unsigned char *mine = malloc((size_t)y->n);
+    if (!mine) {
+        br_error err;
+        br_error_set(&err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+        return br_cli_fail(&err, NULL);
+    }
+    for (long i = 0; i < y->n; i++)
+        mine[i] = (unsigned char)br_yield_shard_has(yo, i);
+    br_shard_head h = {argc, argv, path, yo->shard_k, yo->shard_n, sizeof(br_pt), y->n};
+    int status = br_cli_shard_write(&h, y->pts, mine, a->shard_file ? a->shard_file : "-");
+    free(mine);
+    return status;
+}
+
+/* --shard, or the samples merged from shards checked against --samples. */
+static int shard_options(const args *a, br_yield_opts *yo, const br_cli_given *given)
+{
+    if (a->shard_file && !a->shard)
+        return br_cli_usage_error("yield", "--shard-file without --shard");
+    if (a->shard && br_cli_shard_parse("yield", a->shard, &yo->shard_k, &yo->shard_n))
+        return BR_EXIT_INPUT;
+    if (!given)
+        return BR_EXIT_OK;
+    if (given->size != sizeof(br_pt) || given->total != yo->samples)
+        return br_cli_usage_error("merge", "the shards' samples do not fit --samples");
+    yo->given = given->rec;
+    return BR_EXIT_OK;
+}
+
 int cmd_yield(int argc, char **argv)
+{
+    return br_cli_yield_main(argc, argv, NULL);
+}
+
+int br_cli_yield_main(int argc, char **argv, const br_cli_given *given)
 {
     args a = {0};
     const br_opt opts[] = {
@@ -154,6 +197,9 @@ int cmd_yield(int argc, char **argv)
          "steady-state solver: at most N Newton iterations and plain periods a sample"},
         {BR_OPT_STRING, "startup-method", "M", &a.method, BR_STARTUP_METHOD_HELP},
         {BR_OPT_STRING, "threads", "N", &a.threads, "worker threads (default: one per processor)"},
+        {BR_OPT_STRING, "shard", "K/N", &a.shard, "judge slice K of N only, write a shard file"},
+        {BR_OPT_STRING, "shard-file", "PATH", &a.shard_file,
+         "the shard file's path (default - stdout)"},
         {BR_OPT_FLAG, "quiet", NULL, &a.quiet, BR_QUIET_HELP},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
     };
@@ -164,10 +210,10 @@ int cmd_yield(int argc, char **argv)
         return br_cli_parse_status(parsed);
     br_yield_opts yo;
     double min_yield;
-    const char *const out[] = {a.xml, a.csv, a.report, a.plot};
-    const char *const names[] = {"xml", "csv", "report", "plot"};
-    if (options(&a, &yo, &min_yield) != BR_EXIT_OK ||
-        br_cli_outputs("yield", names, out, 4, (const char *const *)pos, 1) != BR_EXIT_OK)
+    const char *const out[] = {a.xml, a.csv, a.report, a.plot, a.shard_file};
+    const char *const names[] = {"xml", "csv", "report", "plot", "shard-file"};
+    if (options(&a, &yo, &min_yield) != BR_EXIT_OK || shard_options(&a, &yo, given) ||
+        br_cli_outputs("yield", names, out, 5, (const char *const *)pos, 1) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
     outputs o = {0};
     br_error err;
@@ -178,9 +224,11 @@ int cmd_yield(int argc, char **argv)
     int rc = compute(pos[0], &a, &yo, min_yield, &o, &err);
     int status = br_cli_run_commit(&lr);
     if (status == BR_EXIT_OK)
-        status = rc != BR_OK ? br_cli_fail(&err, pos[0]) : write_all(&a, &o);
+        status = rc != BR_OK      ? br_cli_fail(&err, pos[0])
+                 : yo.shard_n > 0 ? write_shard(argc, argv, pos[0], &a, &yo, o.y)
+                                  : write_all(&a, &o);
     br_cli_run_end(&lr);
-    if (status == BR_EXIT_OK) {
+    if (status == BR_EXIT_OK && yo.shard_n <= 0) {
         int outcome = br_yield_outcome(o.y, min_yield);
         status = outcome == BR_OUTCOME_PASS   ? BR_EXIT_OK
                  : outcome == BR_OUTCOME_FAIL ? BR_EXIT_FAIL

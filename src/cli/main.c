@@ -30,6 +30,8 @@ static const br_verb verbs[] = {
     {"pick", cmd_pick, "rail capacitors and link diodes from a catalog, ranked by cost"},
     {"supply", cmd_supply, "smallest current limit and supply voltage window at the worst corners"},
     {"netlist", cmd_netlist, "the chain as a Berkeley SPICE3 netlist for another simulator"},
+    {"size", cmd_size, "size rail capacitors and link resistance to a margin target"},
+    {"merge", cmd_merge, "put the shard files of a sweep (--shard K/N) back together"},
     {NULL, NULL, NULL},
 };
 

@@ -80,7 +80,8 @@ static int stretch_text(const br_chain *c, const br_supply_window *w, int ans, b
     return rc;
 }
 
-static int answer_text(const br_chain *c, const br_supply_window *w, int ans, br_text *out)
+int br_supply_window_answer_text(const br_chain *c, const br_supply_window *w, int ans,
+                                 br_text *out)
 {
     const br_sw_result *r = &w->r[ans];
     char a[32], b[32], lead[160];
@@ -150,7 +151,7 @@ int br_supply_window_text(const br_chain *c, const br_supply_window *w, br_text 
     rc |= corners_text(w, out);
     rc |= br_text_put(out, "\n");
     for (int a = 0; a < BR_SW_COUNT; a++)
-        rc |= answer_text(c, w, a, out);
+        rc |= br_supply_window_answer_text(c, w, a, out);
     rc |= br_text_put(out, "\n");
     rc |= verdict_line(c, w, out);
     rc |= br_report_caution(out);

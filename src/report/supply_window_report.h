@@ -10,6 +10,10 @@
  * worst corner): a br_outcome. */
 int br_supply_window_outcome(const br_supply_window *w);
 
+/* One answer (a br_sw_answer) as a wrapped paragraph. */
+int br_supply_window_answer_text(const br_chain *c, const br_supply_window *w, int ans,
+                                 br_text *out);
+
 /* The report, ending with its verdict line and the caution. */
 int br_supply_window_text(const br_chain *c, const br_supply_window *w, br_text *out);
 

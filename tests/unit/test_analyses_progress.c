@@ -56,7 +56,7 @@ static br_design *toleranced(void)
 
 static br_map_opts map_opts(const br_progress *p)
 {
-    br_map_opts o = {0.2, 0.8, 6, 50e3, 200e3, 6, 2, p};
+    br_map_opts o = {0.2, 0.8, 6, 50e3, 200e3, 6, 2, p, 0, 0, NULL};
     return o;
 }
 

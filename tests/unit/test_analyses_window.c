@@ -383,7 +383,7 @@ static void test_startup_window_high_duty(void)
 static br_map *run_map(const br_design *d, int threads)
 {
     /* 9 x 9 through the design point: duty 0.5 is column 4, 20 kHz row 4 */
-    br_map_opts o = {0.1, 0.9, 9, 500.0, 800e3, 9, threads, NULL};
+    br_map_opts o = {0.1, 0.9, 9, 500.0, 800e3, 9, threads, NULL, 0, 0, NULL};
     br_map *m;
     br_error err;
     CU_ASSERT_EQUAL_FATAL(br_map_run(d, &o, &m, &err), BR_OK);
@@ -490,7 +490,7 @@ static void test_window_threads(void)
 static void test_map_no_ontime(void)
 {
     br_design *d = three_level(0.0);
-    br_map_opts o = {0.5, 0.95, 2, 20e3, 800e3, 2, 1, NULL};
+    br_map_opts o = {0.5, 0.95, 2, 20e3, 800e3, 2, 1, NULL, 0, 0, NULL};
     br_map *m;
     br_error err;
     CU_ASSERT_EQUAL_FATAL(br_map_run(d, &o, &m, &err), BR_OK);
@@ -508,7 +508,7 @@ static void test_map_no_ontime(void)
 static void test_bad_options(void)
 {
     br_error err;
-    br_map_opts o = {0.1, 0.9, 0, 1e3, 1e4, 3, 2, NULL};
+    br_map_opts o = {0.1, 0.9, 0, 1e3, 1e4, 3, 2, NULL, 0, 0, NULL};
     CU_ASSERT_EQUAL(br_map_opts_check(&o, &err), BR_EINPUT);
     o.nduty = 3;
     o.duty_to = 1.2;

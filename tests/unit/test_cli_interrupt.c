@@ -214,6 +214,11 @@ static const phase_case phases[] = {
      {"pick", L33, "--catalog", CATALOG, "--xml", "@", NULL},
      3.0,
      SIGINT},
+    {"size: the search", {"size", L33, "--write-design", "@", NULL}, 1.0, SIGTERM},
+    {"yield: a shard's samples",
+     {"yield", L33, "--samples", "40", "--shard", "1/2", "--shard-file", "@", NULL},
+     1.5,
+     SIGTERM},
 };
 #define NPHASES ((int)(sizeof phases / sizeof phases[0]))
 

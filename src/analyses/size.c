@@ -1,0 +1,679 @@
+/* size.c - the smallest capacitor per rail, the largest link resistance
+ * and the headroom of one design at a margin target (size.h). */
+#include "analyses/size.h"
+
+#include "analyses/corners.h"
+#include "core/error.h"
+
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+typedef struct sizer {
+    const br_design *d0; /* the design as given */
+    const br_size_opts *o;
+    br_size *z;
+    br_spread *base; /* its spread, cold starts included */
+    br_meter *meter;
+    int ncand;                        /* admissible catalog capacitors */
+    int cand[BR_MAX_PARTS];           /* in order of capacitance, then cost */
+    br_cap_part own[BR_MAX_SWITCHES]; /* each rail's part in the design as given */
+} sizer;
+
+void br_size_opts_default(br_size_opts *o)
+{
+    memset(o, 0, sizeof *o);
+    o->target = -1.0;
+    o->links = 1;
+}
+
+/* ---- judging a design at its worst corners ------------------------------------------ */
+
+/* Smaller is worse; a failing row without a negative margin is the
+ * worst, a passing one without a margin (a status) the best. */
+static double rank_of(const br_pt_row *r)
+{
+    if (!r->pass)
+        return r->margin < 0 ? r->margin : -HUGE_VAL;
+    return isnan(r->margin) ? HUGE_VAL : r->margin;
+}
+
+/* The criteria the target applies to: those with a margin in volts. */
+static int in_volts(int c)
+{
+    return br_crit_has_margin(c) && strcmp(br_crit_unit(c), "V") == 0;
+}
+
+static void take(br_size_verdict *v, const br_pt *p, int all, int *undet)
+{
+    v->points++;
+    if (p->status != BR_OK) {
+        *undet = *undet < 0 ? BR_CRIT_STEADY : *undet;
+        return;
+    }
+    v->headroom = fmin(v->headroom, p->headroom);
+    for (int c = 0; c < BR_CRIT_COUNT; c++) {
+        const br_pt_row *r = &p->row[c];
+        if (!r->applies || (!all && br_crit_is_startup(c)))
+            continue;
+        if (r->undetermined) {
+            *undet = *undet < 0 ? c : *undet;
+            continue;
+        }
+        if (!v->seen[c] || rank_of(r) < rank_of(&v->worst[c])) {
+            v->worst[c] = *r;
+            v->seen[c] = 1;
+        }
+    }
+}
+
+/* Fail when a criterion fails; else undetermined when one is; else pass.
+ * The failing criterion named is a circuit one where there is one (the
+ * steady-state row fails too wherever a driver drops out). */
+static void conclude(br_size_verdict *v, int undet, double target)
+{
+    v->fail_crit = v->crit = -1;
+    v->margin = HUGE_VAL;
+    for (int c = 0; c < BR_CRIT_COUNT; c++) {
+        if (!v->seen[c])
+            continue;
+        if (!v->worst[c].pass && (v->fail_crit < 0 || v->fail_crit == BR_CRIT_STEADY)) {
+            v->fail_crit = c;
+            v->fail_row = v->worst[c];
+        }
+        if (in_volts(c) && v->worst[c].margin < v->margin) {
+            v->margin = v->worst[c].margin;
+            v->crit = c;
+            v->stage = v->worst[c].stage;
+            v->dir = v->worst[c].dir;
+        }
+    }
+    v->outcome = v->fail_crit >= 0 ? BR_OUTCOME_FAIL
+                 : undet >= 0      ? BR_OUTCOME_UNDETERMINED
+                                   : BR_OUTCOME_PASS;
+    if (v->outcome == BR_OUTCOME_UNDETERMINED)
+        v->fail_crit = undet;
+    v->qualifies = v->outcome == BR_OUTCOME_PASS && v->margin >= target;
+    if (v->outcome == BR_OUTCOME_PASS && !v->qualifies) {
+        v->fail_crit = v->crit;
+        v->fail_row = v->worst[v->crit];
+    }
+}
+
+/* The predicted worst corner of every objective (the steady-state ones,
+ * or all), each once, into level (rows of BR_TOL_MAX); their count. */
+static int corners_of(const br_spread *s, int all, signed char *level)
+{
+    int n = 0;
+    for (int a = 0; a <= BR_CRIT_COUNT; a++) {
+        int c = a == 0 ? BR_OBJ_HEADROOM : a - 1;
+        if (c != BR_OBJ_HEADROOM &&
+            (c == BR_CRIT_STEADY || (!all && br_crit_is_startup(c)) || !s->nominal.row[c].applies))
+            continue;
+        signed char *row = level + (size_t)n * BR_TOL_MAX;
+        memset(row, 0, BR_TOL_MAX);
+        br_corner_sensitivity(s, c, row, NULL);
+        int dup = 0, moved = 0;
+        for (int j = 0; j < s->tl.n; j++)
+            moved |= row[j] != 0;
+        for (int b = 0; b < n && !dup; b++)
+            dup = memcmp(level + (size_t)b * BR_TOL_MAX, row, BR_TOL_MAX) == 0;
+        n += moved && !dup;
+    }
+    return n;
+}
+
+/* The nominal point and the one-at-a-time points the spread judged for t
+ * itself, then each predicted worst corner (unless the nominal point
+ * fails already). */
+static int judge_spread(br_spread *s, int all, br_size_verdict *v, int *undet, br_error *err)
+{
+    take(v, &s->nominal, all, undet);
+    for (int r = 0; r < 2 * s->tl.n; r++)
+        if (!s->borrowed[r])
+            take(v, &s->oat[r], all, undet);
+    if (s->stopped || s->nominal.outcome == BR_OUTCOME_FAIL)
+        return BR_OK;
+    signed char *level = malloc((size_t)(BR_CRIT_COUNT + 1) * BR_TOL_MAX);
+    double *values = malloc(sizeof(double) * (BR_CRIT_COUNT + 1) * (size_t)(s->tl.n + 1));
+    br_pt *pts = malloc(sizeof(br_pt) * (BR_CRIT_COUNT + 1));
+    int rc = level && values && pts ? BR_OK
+                                    : br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    int n = rc == BR_OK ? corners_of(s, all, level) : 0;
+    for (int i = 0; i < n; i++)
+        br_spread_levels(s, level + (size_t)i * BR_TOL_MAX, values + (size_t)i * (size_t)s->tl.n);
+    br_meter_grow(s->meter, n);
+    if (rc == BR_OK && n > 0)
+        rc = br_spread_eval(s, n, values, all, pts, err);
+    for (int i = 0; rc == BR_OK && i < n; i++)
+        take(v, &pts[i], all, undet);
+    free(level);
+    free(values);
+    free(pts);
+    return rc;
+}
+
+/* Judge t at its worst corners: the steady-state criteria, or all of
+ * them (the cold start included).  Only running out of memory or a stop
+ * is an error; a design that cannot be judged is undetermined. */
+static int judge(sizer *q, const br_design *t, int all, br_size_verdict *v, br_error *err)
+{
+    memset(v, 0, sizeof *v);
+    v->headroom = HUGE_VAL;
+    br_spread_opts so;
+    br_spread_opts_default(&so);
+    so.threads = q->base->threads;
+    so.startup = all;
+    so.accept = q->base->accept;
+    so.similar = 1;
+    so.stop_failed = 1; /* a design that fails at its nominal point needs no corners */
+    so.meter = q->meter;
+    so.solver_limit = q->o->solver_limit;
+    br_spread *s = NULL;
+    int undet = -1;
+    br_meter_grow(q->meter, 1);
+    int rc = br_spread_derive(q->base, t, &so, &s, err);
+    if (rc == BR_OK)
+        rc = judge_spread(s, all, v, &undet, err);
+    q->z->points += v->points;
+    br_spread_free(s);
+    if (rc == BR_ENOMEM || rc == BR_ECANCEL)
+        return rc;
+    if (rc != BR_OK) { /* a design the model refuses decides nothing */
+        v->status = rc;
+        undet = BR_CRIT_STEADY;
+    }
+    conclude(v, undet, q->z->target);
+    return BR_OK;
+}
+
+/* Judge t whole: the steady-state criteria first (no cold start), and
+ * only when they qualify every criterion with the cold start, which
+ * costs most. */
+static int judge_whole(sizer *q, const br_design *t, br_size_verdict *v, br_error *err)
+{
+    int rc = judge(q, t, 0, v, err);
+    if (rc == BR_OK && v->qualifies)
+        rc = judge(q, t, 1, v, err);
+    return rc;
+}
+
+/* ---- capacitors ---------------------------------------------------------------------- */
+
+static void rail_name(const br_design *d, int k, char *buf, size_t cap)
+{
+    br_chain *c = malloc(sizeof *c);
+    br_error err;
+    buf[0] = '\0';
+    if (c && br_chain_build_nominal(d, c, &err) == BR_OK)
+        snprintf(buf, cap, "%s", c->st[k].name);
+    free(c);
+}
+
+/* Whether t uses capacitor i anywhere but on rail k (the default stage
+ * counts as elsewhere). */
+static int cap_used_elsewhere(const br_design *t, int k, int i)
+{
+    if (t->def.cap == i)
+        return 1;
+    for (int j = 0; j < BR_MAX_SWITCHES; j++)
+        if (j != k && t->has_override[j] && t->stage[j].cap == i)
+            return 1;
+    return 0;
+}
+
+static int cap_find(const br_design *t, const char *id)
+{
+    for (int i = 0; i < t->ncaps; i++)
+        if (strcmp(t->caps[i].id, id) == 0)
+            return i;
+    return -1;
+}
+
+/* The index of part p in t's capacitors for rail k: the part of its id
+ * when that is p, else the slot of its id that only rail k uses
+ * (overwritten: an earlier value of this search), else appended; an id
+ * that a different part holds elsewhere gets a number ("-2", "-3"...). */
+static int cap_slot(br_design *t, int k, br_cap_part *p, br_error *err)
+{
+    char base[BR_ID_MAX - 4]; /* room for "-99" */
+    size_t len = strnlen(p->id, sizeof base - 1);
+    memcpy(base, p->id, len);
+    base[len] = '\0';
+    for (int n = 1; n < 100; n++) {
+        if (n > 1)
+            snprintf(p->id, BR_ID_MAX, "%s-%d", base, n);
+        int i = cap_find(t, p->id);
+        if (i < 0)
+            break;
+        br_cap_part a = t->caps[i];
+        a.line = p->line;
+        if (memcmp(&a, p, sizeof a) == 0)
+            return i;
+        if (!cap_used_elsewhere(t, k, i)) {
+            t->caps[i] = *p;
+            return i;
+        }
+    }
+    if (t->ncaps >= BR_MAX_PARTS || cap_find(t, p->id) >= 0)
+        return -br_error_set(err, BR_EINPUT, t->path, 0, "parts",
+                             "no room for another capacitor: a design holds at most %d",
+                             BR_MAX_PARTS);
+    t->caps[t->ncaps] = *p;
+    return t->ncaps++;
+}
+
+/* Rail k of cur with catalog part `part`, or (part < 0) its own part of
+ * the design as given scaled to capacitance c, as a new design. */
+static int with_cap(const sizer *q, const br_design *cur, int k, int part, double c,
+                    br_size_value *val, br_design **out, br_error *err)
+{
+    br_design *t = br_design_copy(cur);
+    if (!t)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    br_cap_part p = part >= 0 ? q->o->cat->caps[part] : q->own[k];
+    if (part < 0) {
+        double f = c / p.c.nom;
+        p.c.nom = c;
+        p.c.min *= f;
+        p.c.max *= f;
+        char sw[BR_ID_MAX];
+        rail_name(cur, k, sw, sizeof sw);
+        snprintf(p.id, sizeof p.id, "cap-%.40s", sw);
+    }
+    int slot = cap_slot(t, k, &p, err);
+    if (slot < 0) {
+        br_design_free(t);
+        return -slot;
+    }
+    br_stage_spec spec = *br_design_stage(t, k);
+    spec.cap = slot;
+    t->stage[k] = spec;
+    t->has_override[k] = 1;
+    val->v = p.c.nom;
+    val->part = part;
+    snprintf(val->id, sizeof val->id, "%s", p.id);
+    *out = t;
+    return BR_OK;
+}
+
+/* Judge rail k of *cur at a value; *cur takes it when it qualifies. */
+static int try_cap(sizer *q, br_design **cur, int k, int part, double c, br_size_value *val,
+                   br_error *err)
+{
+    br_design *t = NULL;
+    int rc = with_cap(q, *cur, k, part, c, val, &t, err);
+    if (rc == BR_OK)
+        rc = judge_whole(q, t, &val->ver, err);
+    q->z->cap[k].trials++;
+    if (rc == BR_OK && val->ver.qualifies) {
+        br_design_free(*cur);
+        *cur = t;
+        return BR_OK;
+    }
+    br_design_free(t);
+    return rc;
+}
+
+static int undetermined(const br_size_value *v)
+{
+    return v->ver.outcome == BR_OUTCOME_UNDETERMINED;
+}
+
+/* Catalog: walk down from position i while parts qualify, up while they
+ * do not. */
+static int walk_catalog(sizer *q, br_design **cur, int k, int i, br_error *err)
+{
+    br_size_answer *a = &q->z->cap[k];
+    br_size_value v;
+    int rc = try_cap(q, cur, k, q->cand[i], 0, &v, err);
+    int dir = v.ver.qualifies ? -1 : +1;
+    br_size_value last = v;
+    while (rc == BR_OK && !undetermined(&v) && a->trials < BR_SIZE_MAXTRY) {
+        if (v.ver.qualifies)
+            a->at = v;
+        int next = i + dir;
+        if ((dir < 0 && (!v.ver.qualifies || next < 0)) ||
+            (dir > 0 && (v.ver.qualifies || next >= q->ncand)))
+            break;
+        last = v;
+        i = next;
+        rc = try_cap(q, cur, k, q->cand[i], 0, &v, err);
+    }
+    if (rc != BR_OK)
+        return rc;
+    if (undetermined(&v)) {
+        a->kind = BR_SIZE_UNDETERMINED;
+        a->beyond = v;
+        a->have_beyond = 1;
+    } else if (dir < 0) {
+        a->kind = v.ver.qualifies ? BR_SIZE_END : BR_SIZE_FOUND;
+        a->have_beyond = !v.ver.qualifies;
+        a->beyond = v;
+    } else {
+        a->kind = v.ver.qualifies ? BR_SIZE_FOUND : BR_SIZE_NONE;
+        a->have_beyond = v.ver.qualifies && a->trials > 1;
+        a->beyond = v.ver.qualifies ? last : v;
+    }
+    return BR_OK;
+}
+
+/* Continuous: halve (or double) from c until the answer changes, then
+ * bisect on a logarithmic scale to BR_SIZE_RES_C. */
+static int walk_continuous(sizer *q, br_design **cur, int k, double c, br_error *err)
+{
+    br_size_answer *a = &q->z->cap[k];
+    double lo_bound = a->from / BR_SIZE_SPAN, hi_bound = a->from * BR_SIZE_SPAN;
+    br_size_value v, pass = {0}, fail = {0};
+    int rc = try_cap(q, cur, k, -1, c, &v, err), have_pass = 0, have_fail = 0;
+    while (rc == BR_OK && !undetermined(&v) && a->trials < BR_SIZE_MAXTRY) {
+        if (v.ver.qualifies)
+            pass = v, have_pass = 1;
+        else
+            fail = v, have_fail = 1;
+        double next;
+        if (have_pass && have_fail) {
+            if (pass.v / fail.v - 1.0 <= BR_SIZE_RES_C)
+                break;
+            next = sqrt(pass.v * fail.v);
+        } else {
+            next = have_pass ? v.v / 2 : v.v * 2;
+            if (next < lo_bound || next > hi_bound)
+                break;
+        }
+        rc = try_cap(q, cur, k, -1, next, &v, err);
+    }
+    if (rc != BR_OK)
+        return rc;
+    a->at = pass;
+    a->beyond = undetermined(&v) ? v : fail;
+    a->have_beyond = undetermined(&v) || have_fail;
+    a->kind = undetermined(&v) ? BR_SIZE_UNDETERMINED
+              : !have_pass     ? BR_SIZE_NONE
+              : !have_fail     ? BR_SIZE_END
+                               : BR_SIZE_FOUND;
+    return BR_OK;
+}
+
+/* Where rail k's search starts: the answer of the rail above (rails
+ * lower down carry more), or the design's own value for the top rail. */
+static int start_of(const sizer *q, int k, double *c)
+{
+    const br_size_answer *above = k + 1 < q->z->n ? &q->z->cap[k + 1] : NULL;
+    int from_above =
+        above && (above->kind == BR_SIZE_FOUND || above->kind == BR_SIZE_END) && above->at.v > 0;
+    *c = from_above ? above->at.v : q->z->cap[k].from;
+    if (!q->z->catalog)
+        return -1;
+    int i = 0;
+    while (i + 1 < q->ncand && q->o->cat->caps[q->cand[i]].c.nom < *c * (1 - 1e-9))
+        i++;
+    return i;
+}
+
+static int size_caps(sizer *q, br_design **cur, br_error *err)
+{
+    for (int k = q->z->n - 1; k >= 1; k--) {
+        double c;
+        int i = start_of(q, k, &c);
+        int rc =
+            q->z->catalog ? walk_catalog(q, cur, k, i, err) : walk_continuous(q, cur, k, c, err);
+        if (rc != BR_OK)
+            return rc;
+    }
+    return BR_OK;
+}
+
+/* ---- the link resistance ------------------------------------------------------------ */
+
+static br_qty scaled(const br_qty *q, double v)
+{
+    br_qty r = *q;
+    double f = q->nom > 0 ? v / q->nom : 0.0;
+    if (!(q->nom > 0))
+        return br_qty_fixed(v);
+    r.nom = v;
+    r.min *= f;
+    r.max *= f;
+    return r;
+}
+
+static int try_link(sizer *q, br_design **cur, double r, br_size_value *val, br_error *err)
+{
+    br_design *t = br_design_copy(*cur);
+    if (!t)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    br_qty base = q->d0->def.r_link;
+    t->def.r_link = scaled(&base, r);
+    for (int k = 0; k < BR_MAX_SWITCHES; k++)
+        if (t->has_override[k])
+            t->stage[k].r_link = t->def.r_link;
+    val->v = r;
+    val->part = -1;
+    val->id[0] = '\0';
+    int rc = judge_whole(q, t, &val->ver, err);
+    q->z->link.trials++;
+    if (rc == BR_OK && val->ver.qualifies) {
+        br_design_free(*cur);
+        *cur = t;
+        return BR_OK;
+    }
+    br_design_free(t);
+    return rc;
+}
+
+/* Doubling from the design's largest resistance while it qualifies (or
+ * halving while it does not, then 0), then bisection to BR_SIZE_RES_R. */
+static int size_link(sizer *q, br_design **cur, br_error *err)
+{
+    br_size_answer *a = &q->z->link;
+    double r = a->from > 0 ? a->from : 1.0;
+    br_size_value v, pass = {0}, fail = {0};
+    int rc = try_link(q, cur, r, &v, err), have_pass = 0, have_fail = 0;
+    while (rc == BR_OK && !undetermined(&v) && a->trials < BR_SIZE_MAXTRY) {
+        if (v.ver.qualifies)
+            pass = v, have_pass = 1;
+        else
+            fail = v, have_fail = 1;
+        double next;
+        if (have_pass && have_fail) {
+            if (fail.v / pass.v - 1.0 <= BR_SIZE_RES_R || pass.v == 0)
+                break;
+            next = sqrt(pass.v * fail.v);
+        } else if (have_pass) {
+            if ((next = v.v * 2) > r * BR_SIZE_SPAN)
+                break;
+        } else {
+            if (v.v == 0)
+                break;
+            next = v.v / 2 < r / BR_SIZE_SPAN ? 0.0 : v.v / 2;
+        }
+        rc = try_link(q, cur, next, &v, err);
+    }
+    if (rc != BR_OK)
+        return rc;
+    a->at = pass;
+    a->beyond = undetermined(&v) ? v : fail;
+    a->have_beyond = undetermined(&v) || have_fail;
+    a->kind = undetermined(&v) ? BR_SIZE_UNDETERMINED
+              : !have_pass     ? BR_SIZE_NONE
+              : !have_fail     ? BR_SIZE_END
+                               : BR_SIZE_FOUND;
+    return BR_OK;
+}
+
+/* ---- the whole run ------------------------------------------------------------------ */
+
+static int by_capacitance(const br_catalog *cat, int a, int b)
+{
+    double ca = cat->caps[a].c.nom, cb = cat->caps[b].c.nom;
+    if (ca != cb)
+        return ca < cb;
+    return cat->cap_offer[a].cost < cat->cap_offer[b].cost;
+}
+
+/* The catalog capacitors rated for the supply's highest voltage, in order. */
+static void candidates(sizer *q)
+{
+    const br_catalog *cat = q->o->cat;
+    for (int i = 0; i < cat->ncaps; i++) {
+        if (!(cat->caps[i].vrated.nom >= q->d0->vsupply.max))
+            continue;
+        int at = q->ncand++;
+        while (at > 0 && by_capacitance(cat, i, q->cand[at - 1])) {
+            q->cand[at] = q->cand[at - 1];
+            at--;
+        }
+        q->cand[at] = i;
+    }
+}
+
+static void prepare(sizer *q, const br_chain *c)
+{
+    br_size *z = q->z;
+    z->n = c->n;
+    double hyst = HUGE_VAL;
+    for (int k = 0; k < c->n; k++) {
+        hyst = fmin(hyst, c->st[k].drv.uvlo_rise - c->st[k].drv.uvlo_fall);
+        const br_stage_spec *s = br_design_stage(q->d0, k);
+        q->own[k] = q->d0->caps[s->cap];
+        z->cap[k].from = q->own[k].c.nom;
+        snprintf(z->cap[k].from_id, BR_ID_MAX, "%s", q->own[k].id);
+        z->cap[k].kind = k == 0 ? BR_SIZE_KEPT : BR_SIZE_NONE;
+        z->link.from = fmax(z->link.from, k > 0 ? s->r_link.nom : 0.0);
+        if (c->st[k].aux.kind == BR_AUX_LDO) {
+            z->reg_vout = fmax(z->reg_vout, c->st[k].aux.vout);
+            z->reg_dropout = fmax(z->reg_dropout, c->st[k].aux.dropout);
+        }
+    }
+    z->target_default = !(q->o->target >= 0);
+    z->target = z->target_default ? 0.25 * (hyst > 0 && isfinite(hyst) ? hyst : 0.0) : q->o->target;
+    z->link.kind = z->links ? BR_SIZE_NONE : BR_SIZE_KEPT;
+}
+
+static int search(sizer *q, br_error *err)
+{
+    br_size *z = q->z;
+    br_design *cur = br_design_copy(q->d0);
+    if (!cur)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    int rc = judge_whole(q, q->d0, &z->start, err);
+    if (rc == BR_OK)
+        rc = size_caps(q, &cur, err);
+    if (rc == BR_OK && z->links)
+        rc = size_link(q, &cur, err);
+    if (rc == BR_OK)
+        rc = judge(q, cur, 1, &z->final, err);
+    z->d = cur;
+    z->outcome = z->final.qualifies                            ? BR_OUTCOME_PASS
+                 : z->final.outcome == BR_OUTCOME_UNDETERMINED ? BR_OUTCOME_UNDETERMINED
+                                                               : BR_OUTCOME_FAIL;
+    return rc;
+}
+
+static int supply_window(sizer *q, br_error *err)
+{
+    br_supply_window_opts so = {0};
+    so.threads = q->o->threads;
+    so.progress = q->o->progress;
+    so.voltage_only = 1;
+    return br_supply_window_run(q->z->d, &so, &q->z->sw, err);
+}
+
+static int run(sizer *q, br_error *err)
+{
+    br_chain *c = malloc(sizeof *c);
+    if (!c)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    int rc = br_chain_build_nominal(q->d0, c, err);
+    if (rc == BR_OK)
+        prepare(q, c);
+    free(c);
+    if (rc == BR_OK && q->z->catalog)
+        candidates(q);
+    if (rc == BR_OK && q->z->catalog && q->ncand == 0)
+        rc = br_error_set(err, BR_EINPUT, q->o->cat->path, 0, "capacitor",
+                          "no capacitor of the catalog is rated for the supply's highest "
+                          "voltage %.4g V, expected at least one to size the rails with",
+                          q->d0->vsupply.max);
+    br_spread_opts so;
+    br_spread_opts_default(&so);
+    so.threads = q->o->threads;
+    so.startup = 1;
+    so.meter = q->meter;
+    so.solver_limit = q->o->solver_limit;
+    if (rc == BR_OK)
+        rc = br_spread_create(q->d0, &so, &q->base, err);
+    if (rc == BR_OK)
+        rc = search(q, err);
+    br_spread_free(q->base);
+    return rc;
+}
+
+int br_size_run(const br_design *d, const br_size_opts *o, br_size **out, br_error *err)
+{
+    br_size_opts def;
+    if (!o) {
+        br_size_opts_default(&def);
+        o = &def;
+    }
+    *out = NULL;
+    br_size *z = calloc(1, sizeof *z);
+    if (!z)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    z->catalog = o->cat && o->cat->ncaps > 0;
+    z->links = o->links;
+    sizer q = {.d0 = d, .o = o, .z = z};
+    br_meter meter;
+    int rc = br_meter_init(&meter, o->progress, 0.0, err);
+    if (rc == BR_OK) {
+        q.meter = &meter;
+        rc = run(&q, err);
+        rc = br_meter_status(&meter, rc, err);
+        br_meter_destroy(&meter);
+    }
+    if (rc == BR_OK && o->supply)
+        rc = supply_window(&q, err);
+    if (rc != BR_OK) {
+        br_size_free(z);
+        return rc;
+    }
+    *out = z;
+    return BR_OK;
+}
+
+void br_size_free(br_size *s)
+{
+    if (!s)
+        return;
+    br_design_free(s->d);
+    br_supply_window_free(s->sw);
+    free(s);
+}
+
+int br_size_judge(const br_design *d, const br_design *t, const br_size_opts *o, br_size_verdict *v,
+                  br_error *err)
+{
+    br_size *z = calloc(1, sizeof *z);
+    br_chain *c = malloc(sizeof *c);
+    int rc = z && c ? BR_OK : br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    sizer q = {.d0 = d, .o = o, .z = z};
+    if (rc == BR_OK)
+        rc = br_chain_build_nominal(d, c, err);
+    if (rc == BR_OK)
+        prepare(&q, c);
+    br_spread_opts so;
+    br_spread_opts_default(&so);
+    so.threads = o->threads;
+    so.startup = 1;
+    so.solver_limit = o->solver_limit;
+    if (rc == BR_OK)
+        rc = br_spread_create(d, &so, &q.base, err);
+    if (rc == BR_OK)
+        rc = judge_whole(&q, t, v, err);
+    br_spread_free(q.base);
+    free(c);
+    free(z);
+    return rc;
+}

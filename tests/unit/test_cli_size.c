@@ -1,0 +1,199 @@
+/* test_cli_size.c - sizing one design: the sized capacitor is the
+ * smallest that qualifies (the next smaller catalog value, judged on its
+ * own, does not), the continuous answer is within 1 % of failing, and the
+ * verb writes a design file that reads back, never over its input. */
+#include "analyses/size.h"
+#include "runbin.h"
+#include "testkit.h"
+
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <unistd.h>
+
+#define DESIGN BR_SOURCE_DIR "/tests/data/ref-c2.xml"
+#define CATALOG BR_SOURCE_DIR "/examples/parts/catalog.xml"
+
+static br_design *load(const char *path)
+{
+    br_design *d = NULL;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_design_load(path, &d, &err), BR_OK);
+    return d;
+}
+
+/* The catalog's capacitors rated for the supply, in the order the search
+ * walks them (capacitance, then cost), written out independently. */
+static int order(const br_catalog *cat, double vmax, int *out)
+{
+    int n = 0;
+    for (int i = 0; i < cat->ncaps; i++)
+        if (cat->caps[i].vrated.nom >= vmax)
+            out[n++] = i;
+    for (int a = 1; a < n; a++)
+        for (int b = a; b > 0; b--) {
+            const br_cap_part *x = &cat->caps[out[b]], *y = &cat->caps[out[b - 1]];
+            int before = x->c.nom < y->c.nom ||
+                         (x->c.nom == y->c.nom &&
+                          cat->cap_offer[out[b]].cost < cat->cap_offer[out[b - 1]].cost);
+            if (!before)
+                break;
+            int t = out[b];
+            out[b] = out[b - 1];
+            out[b - 1] = t;
+        }
+    return n;
+}
+
+/* d with rail k's capacitor replaced by catalog part `part`. */
+static br_design *with_part(const br_design *d, const br_catalog *cat, int k, int part)
+{
+    br_design *t = br_design_copy(d);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(t);
+    t->caps[t->ncaps] = cat->caps[part];
+    snprintf(t->caps[t->ncaps].id, BR_ID_MAX, "test-part");
+    br_stage_spec s = *br_design_stage(t, k);
+    s.cap = t->ncaps++;
+    t->stage[k] = s;
+    t->has_override[k] = 1;
+    return t;
+}
+
+static int qualifies(const br_design *d, const br_design *t, const br_size_opts *o)
+{
+    br_size_verdict v;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_size_judge(d, t, o, &v, &err), BR_OK);
+    return v.qualifies;
+}
+
+/* Every rail's answer qualifies and the catalog part just below it in the
+ * walk's order does not, each judged afresh in the sized design. */
+static void test_catalog_smallest(void)
+{
+    br_design *d = load(DESIGN);
+    br_catalog *cat;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_catalog_load(CATALOG, &cat, &err), BR_OK);
+    br_size_opts o;
+    br_size_opts_default(&o);
+    o.threads = 2;
+    o.links = 0;
+    o.cat = cat;
+    o.target = 2.1; /* V: above what the catalog's smallest part keeps on the lower rails */
+    br_size *z;
+    CU_ASSERT_EQUAL_FATAL(br_size_run(d, &o, &z, &err), BR_OK);
+    o.target = z->target;
+    CU_ASSERT_EQUAL(z->outcome, BR_OUTCOME_PASS);
+    int ord[BR_MAX_PARTS], n = order(cat, d->vsupply.max, ord), checked = 0;
+    for (int k = 1; k < z->n; k++) {
+        const br_size_answer *a = &z->cap[k];
+        CU_ASSERT_TRUE(a->kind == BR_SIZE_FOUND || a->kind == BR_SIZE_END);
+        int at = -1;
+        for (int i = 0; i < n; i++)
+            at = ord[i] == a->at.part ? i : at;
+        CU_ASSERT_TRUE_FATAL(at >= 0);
+        br_design *same = with_part(z->d, cat, k, ord[at]);
+        CU_ASSERT_TRUE(qualifies(d, same, &o));
+        br_design_free(same);
+        if (a->kind == BR_SIZE_END) { /* the smallest rated part of the catalog */
+            CU_ASSERT_EQUAL(at, 0);
+            continue;
+        }
+        CU_ASSERT_EQUAL(a->beyond.part, ord[at - 1]);
+        br_design *smaller = with_part(z->d, cat, k, ord[at - 1]);
+        CU_ASSERT_FALSE(qualifies(d, smaller, &o));
+        br_design_free(smaller);
+        checked++;
+    }
+    CU_ASSERT_TRUE(checked > 0); /* some rail's answer is not the catalog's smallest */
+    br_size_free(z);
+    br_catalog_free(cat);
+    br_design_free(d);
+}
+
+/* Continuous values: the answer qualifies, a value 1 % below it was judged
+ * and does not. */
+static void test_continuous(void)
+{
+    br_design *d = load(DESIGN);
+    br_size_opts o;
+    br_size_opts_default(&o);
+    o.threads = 2;
+    o.links = 0;
+    br_size *z;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_size_run(d, &o, &z, &err), BR_OK);
+    for (int k = 1; k < z->n; k++) {
+        const br_size_answer *a = &z->cap[k];
+        CU_ASSERT_EQUAL_FATAL(a->kind, BR_SIZE_FOUND);
+        CU_ASSERT_TRUE(a->at.ver.qualifies);
+        CU_ASSERT_FALSE(a->beyond.ver.qualifies);
+        CU_ASSERT_TRUE(a->beyond.v < a->at.v && a->beyond.v >= a->at.v / (1 + BR_SIZE_RES_C));
+        CU_ASSERT_TRUE(a->at.v < a->from); /* ref-c2's rails are larger than they need */
+    }
+    br_size_free(z);
+    br_design_free(d);
+}
+
+/* The verb: a report, a design file that reads back with the sized parts,
+ * and no writing over the input. */
+static void test_cli(void)
+{
+    char dir[] = "/tmp/br-size-XXXXXX", out[96];
+    CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(dir));
+    snprintf(out, sizeof out, "%s/sized.xml", dir);
+    run_result r = run((const char *[]){"size", "--catalog", CATALOG, "--threads", "2",
+                                        "--write-design", out, DESIGN, NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    CU_ASSERT_TRUE(has(r.out, "rail capacitors, from the top"));
+    CU_ASSERT_TRUE(has(r.out, "largest link resistance"));
+    CU_ASSERT_TRUE(has(r.out, "verdict: PASS"));
+    CU_ASSERT_TRUE(has(r.out, "lethal voltages"));
+    done(&r);
+    char *text = br_test_slurp(out, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(text);
+    CU_ASSERT_TRUE(has(text, "Sized by bootrung size from"));
+    free(text);
+    r = run((const char *[]){"analyze", "--quiet", out, NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    done(&r);
+    /* the design file is never an output */
+    char *before = br_test_slurp(DESIGN, NULL);
+    r = run((const char *[]){"size", "--write-design", DESIGN, DESIGN, NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    char *after = br_test_slurp(DESIGN, NULL);
+    CU_ASSERT_STRING_EQUAL(before, after);
+    free(before);
+    free(after);
+    done(&r);
+    r = run((const char *[]){"size", "--target", "lots", DESIGN, NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    done(&r);
+    unlink(out);
+    rmdir(dir);
+}
+
+static void test_help_golden(void)
+{
+    run_result a = run((const char *[]){"size", "--help", NULL});
+    CU_ASSERT_EQUAL(a.status, 0);
+    char *want = br_test_slurp("tests/golden/size-help.txt", NULL);
+    CU_ASSERT_PTR_NOT_NULL(want);
+    if (want)
+        CU_ASSERT_STRING_EQUAL(want, a.out);
+    free(want);
+    done(&a);
+}
+
+int main(void)
+{
+    static const br_test_case cases[] = {
+        {"catalog: the next smaller value fails", test_catalog_smallest},
+        {"continuous: within 1 % of failing", test_continuous},
+        {"the verb", test_cli},
+        {"help (golden)", test_help_golden},
+        {NULL, NULL},
+    };
+    return br_test_main("cli_size", cases);
+}
