@@ -80,39 +80,38 @@ static int job_status(const job *jb, int rc, br_error *err)
     return jb->fatal.code;
 }
 
-/* The predicted steady state of direction i at values v. */
-static void predict(const br_spread *s, const double *v, int i, double *x)
+/* A quantity of n values predicted at values v for direction i: its
+ * nominal plus, per toleranced parameter, the one-sided sensitivity d
+ * (held per parameter, side and direction) scaled to how far toward its
+ * limit the parameter sits. */
+static void interpolate(const br_spread *s, const double *nom, const double *d, int n,
+                        const double *v, int i, double *out)
 {
-    memcpy(x, s->xnom[i], sizeof(double) * NX);
+    memcpy(out, nom, sizeof(double) * (size_t)n);
     for (int j = 0; j < s->tl.n; j++) {
         const br_tol_param *p = &s->tl.p[j];
         int e = v[j] > p->nom;
         double lim = e ? p->max : p->min, dv = v[j] - p->nom;
         if (dv == 0.0 || lim == p->nom)
             continue;
-        const double *d = s->dx + ((size_t)(2 * j + e) * 2 + (size_t)i) * NX;
+        const double *dj = d + ((size_t)(2 * j + e) * 2 + (size_t)i) * (size_t)n;
         double t = dv / (lim - p->nom);
-        for (int k = 0; k < NX; k++)
-            x[k] += t * d[k];
+        for (int k = 0; k < n; k++)
+            out[k] += t * dj[k];
     }
+}
+
+/* The predicted steady state of direction i at values v. */
+static void predict(const br_spread *s, const double *v, int i, double *x)
+{
+    interpolate(s, s->xnom[i], s->dx, NX, v, i, x);
 }
 
 /* The predicted junction temperatures of direction i at values v (never
  * below the point's ambient: losses only heat). */
 static void predict_tj(const br_spread *s, const double *v, int i, double ta, double *tj)
 {
-    memcpy(tj, s->tjnom[i], sizeof(double) * NT);
-    for (int j = 0; j < s->tl.n; j++) {
-        const br_tol_param *p = &s->tl.p[j];
-        int e = v[j] > p->nom;
-        double lim = e ? p->max : p->min, dv = v[j] - p->nom;
-        if (dv == 0.0 || lim == p->nom)
-            continue;
-        const double *d = s->dtj + ((size_t)(2 * j + e) * 2 + (size_t)i) * NT;
-        double t = dv / (lim - p->nom);
-        for (int k = 0; k < NT; k++)
-            tj[k] += t * d[k];
-    }
+    interpolate(s, s->tjnom[i], s->dtj, NT, v, i, tj);
     for (int k = 0; k < NT; k++)
         tj[k] = fmax(tj[k], ta);
 }

@@ -435,27 +435,6 @@ void br_plot_hline(br_plot *p, double y, const br_style *st, const char *label)
     label_lines(p, p->x0 + p->w + 6, py, st->colour, b);
 }
 
-int br_plot_limit(br_plot *p, double y, const br_style *st, const char *key, const char *label)
-{
-    if (!(y >= p->ymin && y <= p->ymax))
-        return 0;
-    double py = br_plot_py(p, y);
-    int rc = br_text_printf(p->svg->out, "<line data-limit=\"");
-    rc |= br_xml_escape_put(p->svg->out, key ? key : "");
-    rc |= br_text_printf(p->svg->out,
-                         "\" data-value=\"%.10g\" x1=\"%.2f\" y1=\"%.2f\" x2=\"%.2f\" y2=\"%.2f\" "
-                         "stroke=\"%s\" stroke-width=\"%.2f\"",
-                         y, p->x0, py, p->x0 + p->w, py, st->colour, st->width);
-    if (st->dash)
-        rc |= br_text_printf(p->svg->out, " stroke-dasharray=\"%s\"", st->dash);
-    rc |= br_text_put(p->svg->out, "/>\n");
-    if (rc)
-        p->svg->failed = 1;
-    label_lines(p, p->x0 + p->w + 6, label_slot(p, py + 4.5, count_lines(label)), st->colour,
-                label);
-    return 1;
-}
-
 /* The line of a limit across the area, named key, without its label. */
 static void limit_line(br_plot *p, double y, const br_style *st, const char *key)
 {
@@ -471,6 +450,17 @@ static void limit_line(br_plot *p, double y, const br_style *st, const char *key
     rc |= br_text_put(p->svg->out, "/>\n");
     if (rc)
         p->svg->failed = 1;
+}
+
+int br_plot_limit(br_plot *p, double y, const br_style *st, const char *key, const char *label)
+{
+    if (!(y >= p->ymin && y <= p->ymax))
+        return 0;
+    double py = br_plot_py(p, y);
+    limit_line(p, y, st, key);
+    label_lines(p, p->x0 + p->w + 6, label_slot(p, py + 4.5, count_lines(label)), st->colour,
+                label);
+    return 1;
 }
 
 /* Label tops for n labels wanted at tops want[] (sorted, top first) of
