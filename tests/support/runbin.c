@@ -109,3 +109,35 @@ int has(const char *haystack, const char *needle)
         fprintf(stderr, "missing from the output: [%s]\n", needle);
     return ok;
 }
+
+int same_as_golden(const char *golden, const char *got)
+{
+    char *want = br_test_slurp(golden, NULL);
+    if (!want) {
+        fprintf(stderr, "%s is missing: run tests/golden/update.sh\n", golden);
+        return 0;
+    }
+    int ok = strcmp(want, got) == 0, line = 1;
+    for (const char *a = want, *b = got; !ok && *a && *a == *b; a++, b++)
+        line += *a == '\n';
+    if (!ok)
+        fprintf(stderr, "%s:%d: output differs (see tests/golden/update.sh)\n", golden, line);
+    free(want);
+    return ok;
+}
+
+int help_is_golden(const char *verb)
+{
+    char golden[96];
+    snprintf(golden, sizeof golden, "tests/golden/%s-help.txt", verb);
+    run_result a = run((const char *[]){verb, "--help", NULL});
+    run_result b = run((const char *[]){"help", verb, NULL});
+    int ok = a.status == 0 && b.status == 0 && same_as_golden(golden, a.out);
+    if (ok && strcmp(a.out, b.out) != 0) {
+        fprintf(stderr, "'help %s' differs from '%s --help'\n", verb, verb);
+        ok = 0;
+    }
+    done(&a);
+    done(&b);
+    return ok;
+}

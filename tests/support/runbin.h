@@ -23,4 +23,11 @@ void done(run_result *r);
 /* 1 when needle is in haystack; says on stderr what is missing when not. */
 int has(const char *haystack, const char *needle);
 
+/* 1 when got equals the golden file (a path from the source tree); says
+ * on stderr at which line they part when not. */
+int same_as_golden(const char *golden, const char *got);
+/* 1 when `VERB --help` exits 0, prints tests/golden/VERB-help.txt and
+ * `help VERB` prints the same; says on stderr what differs when not. */
+int help_is_golden(const char *verb);
+
 #endif

@@ -351,26 +351,6 @@ static void test_stdout_error(void)
 
 /* ---- golden outputs -------------------------------------------------- */
 
-/* Report the first differing line of got against the golden file. */
-static int same_as_golden(const char *golden, const char *got)
-{
-    char *want = br_test_slurp(golden, NULL);
-    if (!want) {
-        fprintf(stderr, "%s is missing: run tests/golden/update.sh\n", golden);
-        return 0;
-    }
-    int ok = strcmp(want, got) == 0;
-    if (!ok) {
-        const char *a = want, *b = got;
-        int line = 1;
-        for (; *a && *a == *b; a++, b++)
-            line += *a == '\n';
-        fprintf(stderr, "%s:%d: output differs (see tests/golden/update.sh)\n", golden, line);
-    }
-    free(want);
-    return ok;
-}
-
 static void test_golden(void)
 {
     static char names[MAX_FILES][256];

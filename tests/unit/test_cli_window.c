@@ -361,22 +361,6 @@ static void test_map_unwritable(void)
     done(&r);
 }
 
-/* ---- help --------------------------------------------------------------- */
-
-static int same_as_golden(const char *golden, const char *got)
-{
-    char *want = br_test_slurp(golden, NULL);
-    if (!want) {
-        fprintf(stderr, "%s is missing: run tests/golden/update.sh\n", golden);
-        return 0;
-    }
-    int ok = strcmp(want, got) == 0;
-    if (!ok)
-        fprintf(stderr, "%s: output differs (see tests/golden/update.sh)\n", golden);
-    free(want);
-    return ok;
-}
-
 static void test_help(void)
 {
     run_result r = run((const char *[]){"window", "--help", NULL});
