@@ -359,6 +359,22 @@ static int walk_catalog(sizer *q, br_design **cur, int k, int i, br_error *err)
     return BR_OK;
 }
 
+/* A bisection's answer from its last value tried v and its closest
+ * passing and failing values (NULL: none found). */
+static void settle(br_size_answer *a, const br_size_value *v, const br_size_value *pass,
+                   const br_size_value *fail)
+{
+    static const br_size_value none = {0};
+    int und = undetermined(v);
+    a->at = pass ? *pass : none;
+    a->beyond = und ? *v : fail ? *fail : none;
+    a->have_beyond = und || fail;
+    a->kind = und     ? BR_SIZE_UNDETERMINED
+              : !pass ? BR_SIZE_NONE
+              : !fail ? BR_SIZE_END
+                      : BR_SIZE_FOUND;
+}
+
 /* Continuous: halve (or double) from c until the answer changes, then
  * bisect on a logarithmic scale to BR_SIZE_RES_C. */
 static int walk_continuous(sizer *q, br_design **cur, int k, double c, br_error *err)
@@ -386,13 +402,7 @@ static int walk_continuous(sizer *q, br_design **cur, int k, double c, br_error 
     }
     if (rc != BR_OK)
         return rc;
-    a->at = pass;
-    a->beyond = undetermined(&v) ? v : fail;
-    a->have_beyond = undetermined(&v) || have_fail;
-    a->kind = undetermined(&v) ? BR_SIZE_UNDETERMINED
-              : !have_pass     ? BR_SIZE_NONE
-              : !have_fail     ? BR_SIZE_END
-                               : BR_SIZE_FOUND;
+    settle(a, &v, have_pass ? &pass : NULL, have_fail ? &fail : NULL);
     return BR_OK;
 }
 
@@ -493,13 +503,7 @@ static int size_link(sizer *q, br_design **cur, br_error *err)
     }
     if (rc != BR_OK)
         return rc;
-    a->at = pass;
-    a->beyond = undetermined(&v) ? v : fail;
-    a->have_beyond = undetermined(&v) || have_fail;
-    a->kind = undetermined(&v) ? BR_SIZE_UNDETERMINED
-              : !have_pass     ? BR_SIZE_NONE
-              : !have_fail     ? BR_SIZE_END
-                               : BR_SIZE_FOUND;
+    settle(a, &v, have_pass ? &pass : NULL, have_fail ? &fail : NULL);
     return BR_OK;
 }
 
