@@ -1,0 +1,222 @@
+/* analysis.h - the analyses of the public API: the cold start, the
+ * periodic steady state and the verdict over them, run on a br_chain.
+ *
+ * A br_analysis is an opaque result object: create it, optionally give it
+ * a progress hook and a stop poll, run it on a chain, read its figures
+ * through the accessors, free it.  It owns everything it returns: strings
+ * and figures stay valid until the next run or the free; the chain may be
+ * freed once the run has returned.
+ *
+ * Accessors return BR_OK and write *out, or BR_EUSAGE (out untouched)
+ * when the object is NULL, the part was not run, or an index or key is
+ * out of range.  Every figure is an SI double; a figure that does not
+ * apply (a margin against a rating the design does not give) is NaN.
+ *
+ * Copyright (C) 2026 the bootrung developers.  GPL-3.0-or-later. */
+#ifndef BOOTRUNG_ANALYSIS_H
+#define BOOTRUNG_ANALYSIS_H
+
+#include "bootrung/bootrung.h"
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+/* What a run computes (bits). */
+enum {
+    BR_PART_STARTUP = 1, /* the cold start */
+    BR_PART_STEADY = 2,  /* the periodic steady state, per current direction */
+    BR_PART_ALL = 3      /* both, and the full verdict */
+};
+
+/* How far a run has come, in whatever unit the analysis uses (done of
+ * total, total an estimate); return non-zero to stop the run.  Called
+ * from the thread that runs the analysis. */
+typedef int (*br_progress_hook)(void *ctx, double done, double total);
+/* Non-zero once the run is to stop: cheap, safe from any thread, called
+ * every few milliseconds of simulation. */
+typedef int (*br_stop_poll)(void *ctx);
+
+typedef struct br_analysis br_analysis;
+
+/* NULL when out of memory. */
+BR_API br_analysis *br_analysis_create(void);
+BR_API void br_analysis_free(br_analysis *a);
+/* Either may be NULL; ctx is handed back to both. */
+BR_API int br_analysis_set_progress(br_analysis *a, br_progress_hook hook, br_stop_poll stop,
+                                    void *ctx);
+/* Keep the time series (start-up and two steady periods per direction)
+ * of the next runs: 1 to keep, 0 (the default) not to. */
+BR_API int br_analysis_set_series(br_analysis *a, int keep);
+/* Run the parts (BR_PART_* bits) on c.  BR_ECANCEL when the hook or the
+ * stop poll stopped it (the object then holds no results); BR_EUSAGE for
+ * bad arguments; a numerical failure of a solver is not an error: it
+ * makes the figures it concerns undetermined. */
+BR_API int br_analysis_run(br_analysis *a, const br_chain *c, int parts, br_error *err);
+/* The parts the last successful run computed (0: none yet). */
+BR_API int br_analysis_parts(const br_analysis *a);
+/* Stages (rails) of the chain analysed; 0 before a run. */
+BR_API int br_analysis_stages(const br_analysis *a);
+
+/* ---- the cold start ---------------------------------------------------- */
+
+typedef enum br_startup_key {
+    BR_SU_COMPLETE = 0,  /* 1 when every driver runs for good at the end */
+    BR_SU_TIME,          /* start-up time (the last start that lasts), s; +inf when
+                            some rail never starts */
+    BR_SU_SIMULATED,     /* how long was simulated, s */
+    BR_SU_PWM_START,     /* end of the pre-charge steps, s */
+    BR_SU_FIRST_STALLED, /* the lowest rail not running at the end, -1 */
+    BR_SU_FAILED,        /* 1: the simulation failed numerically (undetermined) */
+    BR_SU_PERIODS_INTEGRATED,
+    BR_SU_PERIODS_STEPPED,
+    BR_SU_KEY_COUNT
+} br_startup_key;
+BR_API int br_startup_get(const br_analysis *a, int key, double *out);
+/* Why the simulation failed ("" when it did not). */
+BR_API int br_startup_why(const br_analysis *a, const char **out);
+
+typedef enum br_startup_rail_key {
+    BR_SUR_START = 0,   /* when its driver starts for good, s; +inf: never starts */
+    BR_SUR_FIRST_START, /* its first crossing of UVLO rising, s; +inf: never */
+    BR_SUR_DROPOUTS,    /* how many times its driver dropped out */
+    BR_SUR_FINAL,       /* the rail voltage at the end (mean of the last period), V */
+    BR_SUR_RUNNING,     /* 1 when its driver runs at the end */
+    BR_SUR_LINK_IPEAK,  /* peak forward current of link k (k >= 1; NaN for 0), A */
+    BR_SUR_LINK_I2T,    /* its I2t over the whole start-up, A^2 s */
+    BR_SUR_KEY_COUNT
+} br_startup_rail_key;
+BR_API int br_startup_rail(const br_analysis *a, int k, int key, double *out);
+/* The time of rail k's i-th dropout (the first few are kept: i below
+ * min(dropouts, BR_DROPOUT_TIMES)), s. */
+#define BR_DROPOUT_TIMES 16
+BR_API int br_startup_dropout(const br_analysis *a, int k, int i, double *out);
+
+typedef enum br_supply_key {
+    BR_SUP_SPAN = 0,   /* the stretch the figures cover, s */
+    BR_SUP_IPEAK,      /* peak current, A */
+    BR_SUP_IAVG,       /* charge / span, A */
+    BR_SUP_CHARGE,     /* C */
+    BR_SUP_ENERGY,     /* J */
+    BR_SUP_T_LIMIT,    /* time in its current limit, s */
+    BR_SUP_TRIPS,      /* hiccups */
+    BR_SUP_FIRST_TRIP, /* s; -1: none */
+    BR_SUP_LATCHED,    /* 1: it stays off */
+    BR_SUP_KEY_COUNT
+} br_supply_key;
+/* What the start-up draws from the supply. */
+BR_API int br_startup_supply(const br_analysis *a, int key, double *out);
+
+/* ---- the periodic steady state ----------------------------------------- */
+
+/* The current directions analysed (1 or 2; a line cycle is one). */
+BR_API int br_steady_cases(const br_analysis *a, int *out);
+/* Case d's direction: "step-down", "step-up", "line cycle" or "no load". */
+BR_API int br_steady_case_name(const br_analysis *a, int d, const char **out);
+
+typedef enum br_steady_status {
+    BR_STEADY_HOLDS = 0,     /* found and trusted, no driver drops out */
+    BR_STEADY_DOES_NOT_HOLD, /* a driver drops out (or the leg's cells collapse) */
+    BR_STEADY_UNDETERMINED   /* the solver did not settle or the simulation failed */
+} br_steady_status;
+
+typedef enum br_steady_key {
+    BR_SS_STATUS = 0,  /* a br_steady_status */
+    BR_SS_RESIDUAL,    /* max |P(x) - x| over the rails, V */
+    BR_SS_DRIFT,       /* max rail change over the cross-check periods, V */
+    BR_SS_ITERATIONS,  /* Newton/Broyden iterations */
+    BR_SS_PERIODS,     /* periods simulated */
+    BR_SS_SHOOTING,    /* 1: Newton converged; 0: plain simulation */
+    BR_SS_SUPPLY_IAVG, /* the supply's average current, A */
+    BR_SS_SUPPLY_P,    /* the power it delivers, W */
+    BR_SS_KEY_COUNT
+} br_steady_key;
+BR_API int br_steady_get(const br_analysis *a, int d, int key, double *out);
+/* Why case d is undetermined or does not hold ("" otherwise). */
+BR_API int br_steady_why(const br_analysis *a, int d, const char **out);
+
+typedef enum br_rail_key {
+    BR_RAIL_VMIN = 0, /* rail (capacitor and ESR), V */
+    BR_RAIL_VMAX,
+    BR_RAIL_VAVG,
+    BR_RAIL_RIPPLE,
+    BR_RAIL_DRV_MIN, /* driver supply behind the regulator, V */
+    BR_RAIL_DRV_MAX,
+    BR_RAIL_M_UVLO,    /* driver supply minimum above UVLO falling, V */
+    BR_RAIL_M_RESTART, /* above UVLO rising, V */
+    BR_RAIL_M_DRIVE,   /* above the minimum useful drive, V */
+    BR_RAIL_M_GATE,    /* gate absolute maximum above the driver supply maximum, V */
+    BR_RAIL_CAP_PEAK,  /* capacitor voltage peak, V */
+    BR_RAIL_CAP_RMS,   /* capacitor RMS current, A */
+    BR_RAIL_KEY_COUNT
+} br_rail_key;
+BR_API int br_steady_rail(const br_analysis *a, int d, int k, int key, double *out);
+
+typedef enum br_link_key {
+    BR_LINK_VREV = 0, /* peak reverse voltage with the edge overshoot, V */
+    BR_LINK_VRRM,     /* its rating, V (0: not given) */
+    BR_LINK_IAVG,     /* forward current, A */
+    BR_LINK_IRMS,
+    BR_LINK_IPEAK,
+    BR_LINK_QRR,     /* recovery charge per period, C */
+    BR_LINK_P_DIODE, /* the diode's whole loss, W */
+    BR_LINK_TJ,      /* junction temperature, K */
+    BR_LINK_KEY_COUNT
+} br_link_key;
+/* Link k (1 <= k < stages) of case d. */
+BR_API int br_steady_link(const br_analysis *a, int d, int k, int key, double *out);
+
+/* ---- time series ------------------------------------------------------- */
+
+/* Which series: the start-up, or steady case d as BR_SERIES_STEADY + d. */
+enum { BR_SERIES_STARTUP = 0, BR_SERIES_STEADY = 1 };
+typedef enum br_series_key {
+    BR_SERIES_TIME = 0, /* s (k ignored) */
+    BR_SERIES_RAIL,     /* rail k, V */
+    BR_SERIES_LINK_I,   /* link k's forward current (k = 0: the supply's), A */
+    BR_SERIES_DRIVER,   /* driver supply k, V */
+    BR_SERIES_VREV,     /* link k's reverse voltage, V */
+    BR_SERIES_KEY_COUNT
+} br_series_key;
+/* Copies up to cap samples of the series into buf (may be NULL with cap
+ * 0) and sets *len to the series' length: call once to size the buffer.
+ * BR_EUSAGE when the series were not kept (br_analysis_set_series). */
+BR_API int br_series_get(const br_analysis *a, int series, int key, int k, double *buf, size_t cap,
+                         size_t *len);
+
+/* ---- the verdict ------------------------------------------------------- */
+
+typedef enum br_result {
+    BR_RESULT_PASS = 0,
+    BR_RESULT_FAIL = 1,
+    BR_RESULT_WARN = 2,         /* passes, with a finding the note states */
+    BR_RESULT_UNDETERMINED = 3, /* the figures it needs could not be settled */
+    BR_RESULT_NOT_APPLICABLE = 4
+} br_result;
+
+/* The run's verdict: FAIL when a criterion fails, else UNDETERMINED when
+ * one is, else PASS (a warning passes). */
+BR_API int br_verdict_result(const br_analysis *a, int *out);
+/* The criteria the run judged. */
+BR_API int br_verdict_rows(const br_analysis *a, int *out);
+BR_API int br_verdict_result_of(const br_analysis *a, int i, int *out);
+/* Short key (e.g. "uvlo"), title, unit ("s", "V", "A", "" for a count). */
+BR_API int br_verdict_key(const br_analysis *a, int i, const char **out);
+BR_API int br_verdict_title(const br_analysis *a, int i, const char **out);
+BR_API int br_verdict_unit(const br_analysis *a, int i, const char **out);
+/* The note: where it binds or why it is undetermined ("" when none). */
+BR_API int br_verdict_note(const br_analysis *a, int i, const char **out);
+/* The binding rail or link, -1 when none. */
+BR_API int br_verdict_stage(const br_analysis *a, int i, int *out);
+typedef enum br_verdict_value_key {
+    BR_VERDICT_FIGURE = 0,
+    BR_VERDICT_LIMIT,
+    BR_VERDICT_MARGIN, /* NaN for a status row (the steady state) */
+    BR_VERDICT_KEY_COUNT
+} br_verdict_value_key;
+BR_API int br_verdict_value(const br_analysis *a, int i, int key, double *out);
+
+#ifdef __cplusplus
+}
+#endif
+#endif
