@@ -1,0 +1,395 @@
+"""bootrung for Python: load a design, run its analyses, read the results.
+
+A thin layer over the shared library libbootrung (ctypes, no compiled
+extension): the figures are the library's, the very numbers the command
+line prints.  Time series come back as numpy arrays when numpy can be
+imported, as lists of floats otherwise.  A design the library refuses
+raises bootrung.Error with its file, line, field and message; a run
+stopped by the progress callback raises bootrung.Cancelled.
+
+    import bootrung
+    design = bootrung.load("examples/demo-3level.xml")
+    result = design.analyze()
+    print(result.verdict.result, result.startup.time)
+
+Results are design aids, not a substitute for measurement on the bench."""
+
+import ctypes
+import math
+from dataclasses import dataclass, field
+from typing import Callable, List, Optional
+
+from . import _lib as L
+
+try:
+    import numpy as _np
+except ImportError:  # plain lists then
+    _np = None
+
+__all__ = ["Error", "Cancelled", "Design", "load", "load_string", "version", "Analysis",
+           "Startup", "StartupRail", "SupplyProfile", "SteadyCase", "SteadyRail",
+           "SteadyLink", "Series", "Criterion", "Verdict"]
+
+
+class Error(Exception):
+    """The library refused a design or an argument: code (a status name),
+    file, line (0: not known), field and message, as the library gave
+    them."""
+
+    def __init__(self, code, file, line, field, message):
+        self.code, self.file, self.line, self.field, self.message = (
+            code, file, line, field, message)
+        where = ":".join(p for p in (file, str(line) if line else "") if p)
+        text = ": ".join(p for p in (where, field, message) if p)
+        super().__init__(text)
+
+
+class Cancelled(Error):
+    """The progress callback asked the run to stop."""
+
+
+def _raise(rc, err):
+    dec = lambda b: b.decode("utf-8", "replace")
+    code = L.lib().br_status_name(rc).decode()
+    cls = Cancelled if rc == L.ECANCEL else Error
+    raise cls(code, dec(err.file), err.line, dec(err.field), dec(err.msg))
+
+
+def _check(rc, what):
+    """An accessor's status: anything but OK is a broken precondition."""
+    if rc != L.OK:
+        raise Error(L.lib().br_status_name(rc).decode(), "", 0, what, "refused by the library")
+
+
+def version() -> str:
+    """The library's version."""
+    return L.lib().br_version().decode()
+
+
+def _array(values):
+    return _np.array(values, dtype=float) if _np is not None else list(values)
+
+
+@dataclass
+class Series:
+    """Samples of a simulated stretch: time (s), and per stage k the rail
+    voltage, the link's forward current (k = 0: the supply's), the driver
+    supply and the link's reverse voltage."""
+    time: object
+    rail: List[object]
+    link_current: List[object]
+    driver: List[object]
+    reverse: List[object]
+
+
+@dataclass
+class StartupRail:
+    index: int
+    start: float          # when its driver starts for good, s (inf: never starts)
+    first_start: float    # first crossing of UVLO rising, s (inf: never)
+    dropouts: int
+    dropout_times: List[float]  # the first few, s
+    final_voltage: float  # V
+    running: bool
+    link_ipeak: float     # A (NaN for rail 0, which has no link)
+    link_i2t: float       # A^2 s
+
+    @property
+    def never_starts(self) -> bool:
+        return math.isinf(self.start)
+
+
+@dataclass
+class SupplyProfile:
+    span: float
+    ipeak: float
+    iavg: float
+    charge: float
+    energy: float
+    t_limit: float
+    trips: int
+    first_trip: float
+    latched: bool
+
+
+@dataclass
+class Startup:
+    complete: bool
+    time: float           # s (inf when a rail never starts)
+    simulated: float
+    pwm_start: float
+    first_stalled: int    # -1: none
+    failed: bool          # the simulation failed numerically: nothing is decided
+    why: str
+    periods_integrated: int
+    periods_stepped: int
+    rails: List[StartupRail]
+    supply: SupplyProfile
+    series: Optional[Series] = None
+
+
+@dataclass
+class SteadyRail:
+    index: int
+    vmin: float
+    vmax: float
+    vavg: float
+    ripple: float
+    drv_min: float
+    drv_max: float
+    m_uvlo: float
+    m_restart: float
+    m_drive: float
+    m_gate: float
+    cap_peak: float
+    cap_rms: float
+
+
+@dataclass
+class SteadyLink:
+    index: int
+    vrev: float
+    vrrm: float
+    iavg: float
+    irms: float
+    ipeak: float
+    qrr: float
+    p_diode: float
+    tj: float
+
+
+@dataclass
+class SteadyCase:
+    name: str             # "step-down", "step-up", "line-cycle", ...
+    status: str           # "holds", "does not hold", "undetermined"
+    why: str
+    residual: float
+    drift: float
+    iterations: int
+    periods: int
+    shooting: bool
+    supply_iavg: float
+    supply_p: float
+    rails: List[SteadyRail]
+    links: List[SteadyLink]  # links 1 .. n-1
+    series: Optional[Series] = None
+
+
+@dataclass
+class Criterion:
+    key: str
+    title: str
+    result: str           # "pass", "fail", "warn", "undetermined", "not applicable"
+    figure: float
+    limit: float
+    margin: float
+    unit: str
+    stage: int            # the binding rail or link, -1
+    note: str             # where it binds, or why it is undetermined
+
+
+@dataclass
+class Verdict:
+    result: str           # "pass", "fail" or "undetermined"
+    criteria: List[Criterion] = field(default_factory=list)
+
+
+@dataclass
+class Analysis:
+    startup: Optional[Startup]
+    steady: List[SteadyCase]
+    verdict: Verdict
+
+
+class _Run:
+    """One br_analysis, read into plain objects and freed."""
+
+    def __init__(self, handle):
+        self.h, self.lib = handle, L.lib()
+
+    def num(self, fn, *args):
+        out = ctypes.c_double()
+        _check(getattr(self.lib, fn)(self.h, *args, ctypes.byref(out)), fn)
+        return out.value
+
+    def int_(self, fn, *args):
+        out = ctypes.c_int()
+        _check(getattr(self.lib, fn)(self.h, *args, ctypes.byref(out)), fn)
+        return out.value
+
+    def text(self, fn, *args):
+        out = ctypes.c_char_p()
+        _check(getattr(self.lib, fn)(self.h, *args, ctypes.byref(out)), fn)
+        return out.value.decode("utf-8", "replace")
+
+    def column(self, series, key, k):
+        n = ctypes.c_size_t()
+        _check(self.lib.br_series_get(self.h, series, key, k, None, 0, ctypes.byref(n)),
+               "br_series_get")
+        buf = (ctypes.c_double * n.value)()
+        _check(self.lib.br_series_get(self.h, series, key, k, buf, n.value, ctypes.byref(n)),
+               "br_series_get")
+        if _np is not None:
+            return _np.ctypeslib.as_array(buf).copy()
+        return list(buf)
+
+    def series(self, which, stages):
+        cols = [[self.column(which, key, k) for k in range(stages)]
+                for key in range(1, len(L.SERIES_KEYS))]
+        return Series(self.column(which, 0, 0), *cols)
+
+    def startup(self, stages, keep):
+        g = {key: self.num("br_startup_get", i) for i, key in enumerate(L.SU_KEYS)}
+        rails = []
+        for k in range(stages):
+            r = {key: self.num("br_startup_rail", k, i) for i, key in enumerate(L.SUR_KEYS)}
+            n = min(int(r["dropouts"]), L.DROPOUT_TIMES)
+            times = [self.num("br_startup_dropout", k, i) for i in range(n)]
+            rails.append(StartupRail(k, r["start"], r["first_start"], int(r["dropouts"]), times,
+                                     r["final_voltage"], bool(r["running"]), r["link_ipeak"],
+                                     r["link_i2t"]))
+        s = {key: self.num("br_startup_supply", i) for i, key in enumerate(L.SUP_KEYS)}
+        s["trips"], s["latched"] = int(s["trips"]), bool(s["latched"])
+        return Startup(bool(g["complete"]), g["time"], g["simulated"], g["pwm_start"],
+                       int(g["first_stalled"]), bool(g["failed"]), self.text("br_startup_why"),
+                       int(g["periods_integrated"]), int(g["periods_stepped"]), rails,
+                       SupplyProfile(**s),
+                       self.series(L.SERIES_STARTUP, stages) if keep else None)
+
+    def case(self, d, stages, keep):
+        g = {key: self.num("br_steady_get", d, i) for i, key in enumerate(L.SS_KEYS)}
+        rails = [SteadyRail(k, **{key: self.num("br_steady_rail", d, k, i)
+                                  for i, key in enumerate(L.RAIL_KEYS)}) for k in range(stages)]
+        links = [SteadyLink(k, **{key: self.num("br_steady_link", d, k, i)
+                                  for i, key in enumerate(L.LINK_KEYS)})
+                 for k in range(1, stages)]
+        return SteadyCase(self.text("br_steady_case_name", d), L.STEADY_STATUS[int(g["status"])],
+                          self.text("br_steady_why", d), g["residual"], g["drift"],
+                          int(g["iterations"]), int(g["periods"]), bool(g["shooting"]),
+                          g["supply_iavg"], g["supply_p"], rails, links,
+                          self.series(L.SERIES_STEADY + d, stages) if keep else None)
+
+    def criterion(self, i):
+        v = [self.num("br_verdict_value", i, j) for j in range(len(L.VERDICT_KEYS))]
+        return Criterion(self.text("br_verdict_key", i), self.text("br_verdict_title", i),
+                         L.RESULTS[self.int_("br_verdict_result_of", i)], v[0], v[1], v[2],
+                         self.text("br_verdict_unit", i), self.int_("br_verdict_stage", i),
+                         self.text("br_verdict_note", i))
+
+    def verdict(self):
+        rows = [self.criterion(i) for i in range(self.int_("br_verdict_rows"))]
+        return Verdict(L.RESULTS[self.int_("br_verdict_result")], rows)
+
+    def read(self, parts, keep):
+        stages = self.lib.br_analysis_stages(self.h)
+        su = self.startup(stages, keep) if parts & L.PART_STARTUP else None
+        cases = []
+        if parts & L.PART_STEADY:
+            cases = [self.case(d, stages, keep) for d in range(self.int_("br_steady_cases"))]
+        return Analysis(su, cases, self.verdict())
+
+
+class Design:
+    """A loaded design and its chain at nominal values."""
+
+    def __init__(self, design, chain, name):
+        self._lib, self._design, self._chain, self.name = L.lib(), design, chain, name
+
+    def close(self):
+        """Free the library's objects now (else when garbage-collected)."""
+        if self._chain:
+            self._lib.br_chain_free(self._chain)
+            self._chain = None
+        if self._design:
+            self._lib.br_design_free(self._design)
+            self._design = None
+
+    def __del__(self):
+        self.close()
+
+    def __enter__(self):
+        return self
+
+    def __exit__(self, *exc):
+        self.close()
+
+    def _run(self, parts, series, progress):
+        if not self._chain:
+            raise Error(L.lib().br_status_name(L.EUSAGE).decode(), "", 0, "design",
+                        "the design was closed; load it again")
+        lib = self._lib
+        h = lib.br_analysis_create()
+        if not h:
+            raise MemoryError("bootrung: out of memory")
+        # The callback lives until the run returns; a Python exception in
+        # it stops the run rather than vanish.
+        failure = []
+
+        def hook(_ctx, done, total):
+            try:
+                return 1 if progress(done, total) else 0
+            except BaseException as e:  # KeyboardInterrupt included
+                failure.append(e)
+                return 1
+
+        cb = L.PROGRESS(hook) if progress else L.PROGRESS()
+        try:
+            _check(lib.br_analysis_set_progress(h, cb, L.STOP(), None), "progress")
+            _check(lib.br_analysis_set_series(h, 1 if series else 0), "series")
+            err = L.BrError()
+            rc = lib.br_analysis_run(h, self._chain, parts, ctypes.byref(err))
+            if failure:
+                raise failure[0]
+            if rc != L.OK:
+                _raise(rc, err)
+            return _Run(h).read(parts, series)
+        finally:
+            lib.br_analysis_free(h)
+
+    def startup(self, series: bool = True,
+                progress: Optional[Callable[[float, float], bool]] = None) -> Analysis:
+        """The cold start and its criteria.  progress(done, total) is
+        called now and then (simulated seconds); a true return stops the
+        run with Cancelled."""
+        return self._run(L.PART_STARTUP, series, progress)
+
+    def steady(self, series: bool = True,
+               progress: Optional[Callable[[float, float], bool]] = None) -> Analysis:
+        """The periodic steady state of each current direction, and its
+        criteria."""
+        return self._run(L.PART_STEADY, series, progress)
+
+    def analyze(self, series: bool = True,
+                progress: Optional[Callable[[float, float], bool]] = None) -> Analysis:
+        """Both, and the full verdict."""
+        return self._run(L.PART_ALL, series, progress)
+
+
+def _build(rc, err, design):
+    lib = L.lib()
+    if rc != L.OK:
+        _raise(rc, err)
+    chain = ctypes.c_void_p()
+    rc = lib.br_chain_build(design, ctypes.byref(chain), ctypes.byref(err))
+    if rc != L.OK:
+        lib.br_design_free(design)
+        _raise(rc, err)
+    return chain
+
+
+def load(path: str) -> Design:
+    """Load, check and build the design file at path."""
+    lib, err, d = L.lib(), L.BrError(), ctypes.c_void_p()
+    rc = lib.br_design_load(str(path).encode(), ctypes.byref(d), ctypes.byref(err))
+    chain = _build(rc, err, d)
+    return Design(d, chain, str(path))
+
+
+def load_string(text: str, name: str = "<string>") -> Design:
+    """The same from the text of a design file; name appears in errors."""
+    lib, err, d = L.lib(), L.BrError(), ctypes.c_void_p()
+    data = text.encode("utf-8")
+    rc = lib.br_design_load_memory(data, len(data), name.encode(), ctypes.byref(d),
+                                   ctypes.byref(err))
+    chain = _build(rc, err, d)
+    return Design(d, chain, name)

@@ -1,0 +1,163 @@
+/* dump.c - the figures of one analysis through the C API, one per line as
+ * "NAME VALUE" (%.17g: a double read back is the same double), for the
+ * Python package's test to compare with what it reads through ctypes.
+ * Names are spelled here from the C enumerators, so a key the package
+ * maps to the wrong enumerator shows as a mismatch.
+ *
+ * usage: dump DESIGN   (runs BR_PART_ALL with the series kept) */
+#include <bootrung/analysis.h>
+#include <bootrung/bootrung.h>
+
+#include <stdio.h>
+#include <stdlib.h>
+
+typedef struct key {
+    int key;
+    const char *name;
+} key;
+
+static const key su_keys[] = {{BR_SU_COMPLETE, "complete"},
+                              {BR_SU_TIME, "time"},
+                              {BR_SU_SIMULATED, "simulated"},
+                              {BR_SU_FIRST_STALLED, "first_stalled"},
+                              {BR_SU_PERIODS_STEPPED, "periods_stepped"},
+                              {-1, NULL}};
+static const key sur_keys[] = {{BR_SUR_START, "start"},
+                               {BR_SUR_FIRST_START, "first_start"},
+                               {BR_SUR_DROPOUTS, "dropouts"},
+                               {BR_SUR_FINAL, "final_voltage"},
+                               {BR_SUR_LINK_IPEAK, "link_ipeak"},
+                               {BR_SUR_LINK_I2T, "link_i2t"},
+                               {-1, NULL}};
+static const key sup_keys[] = {
+    {BR_SUP_IPEAK, "ipeak"}, {BR_SUP_CHARGE, "charge"}, {BR_SUP_ENERGY, "energy"}, {-1, NULL}};
+static const key ss_keys[] = {{BR_SS_RESIDUAL, "residual"},
+                              {BR_SS_DRIFT, "drift"},
+                              {BR_SS_PERIODS, "periods"},
+                              {BR_SS_SUPPLY_IAVG, "supply_iavg"},
+                              {-1, NULL}};
+static const key rail_keys[] = {{BR_RAIL_VMIN, "vmin"},       {BR_RAIL_VMAX, "vmax"},
+                                {BR_RAIL_VAVG, "vavg"},       {BR_RAIL_DRV_MIN, "drv_min"},
+                                {BR_RAIL_M_UVLO, "m_uvlo"},   {BR_RAIL_M_GATE, "m_gate"},
+                                {BR_RAIL_CAP_RMS, "cap_rms"}, {-1, NULL}};
+static const key link_keys[] = {{BR_LINK_VREV, "vrev"},   {BR_LINK_IAVG, "iavg"},
+                                {BR_LINK_IPEAK, "ipeak"}, {BR_LINK_QRR, "qrr"},
+                                {BR_LINK_TJ, "tj"},       {-1, NULL}};
+static const key verdict_keys[] = {{BR_VERDICT_FIGURE, "figure"},
+                                   {BR_VERDICT_LIMIT, "limit"},
+                                   {BR_VERDICT_MARGIN, "margin"},
+                                   {-1, NULL}};
+static const key series_keys[] = {{BR_SERIES_RAIL, "rail"},
+                                  {BR_SERIES_LINK_I, "link_current"},
+                                  {BR_SERIES_DRIVER, "driver"},
+                                  {BR_SERIES_VREV, "reverse"},
+                                  {-1, NULL}};
+
+static void put(const char *prefix, const char *name, double v)
+{
+    printf("%s%s %.17g\n", prefix, name, v);
+}
+
+static void startup(const br_analysis *a, int n)
+{
+    double v;
+    char p[64];
+    for (const key *k = su_keys; k->name; k++)
+        if (br_startup_get(a, k->key, &v) == BR_OK)
+            put("startup.", k->name, v);
+    for (const key *k = sup_keys; k->name; k++)
+        if (br_startup_supply(a, k->key, &v) == BR_OK)
+            put("startup.supply.", k->name, v);
+    for (int r = 0; r < n; r++) {
+        snprintf(p, sizeof p, "startup.rails.%d.", r);
+        for (const key *k = sur_keys; k->name; k++)
+            if (br_startup_rail(a, r, k->key, &v) == BR_OK)
+                put(p, k->name, v);
+    }
+}
+
+static void steady(const br_analysis *a, int n)
+{
+    double v;
+    char p[64];
+    int nd = 0;
+    br_steady_cases(a, &nd);
+    for (int d = 0; d < nd; d++) {
+        snprintf(p, sizeof p, "steady.%d.", d);
+        for (const key *k = ss_keys; k->name; k++)
+            if (br_steady_get(a, d, k->key, &v) == BR_OK)
+                put(p, k->name, v);
+        for (int r = 0; r < n; r++) {
+            snprintf(p, sizeof p, "steady.%d.rails.%d.", d, r);
+            for (const key *k = rail_keys; k->name; k++)
+                if (br_steady_rail(a, d, r, k->key, &v) == BR_OK)
+                    put(p, k->name, v);
+            snprintf(p, sizeof p, "steady.%d.links.%d.", d, r - 1);
+            for (const key *k = link_keys; k->name && r > 0; k++)
+                if (br_steady_link(a, d, r, k->key, &v) == BR_OK)
+                    put(p, k->name, v);
+        }
+    }
+}
+
+static void verdict(const br_analysis *a)
+{
+    int n = 0;
+    double v;
+    char p[64];
+    br_verdict_rows(a, &n);
+    for (int i = 0; i < n; i++) {
+        snprintf(p, sizeof p, "verdict.criteria.%d.", i);
+        for (const key *k = verdict_keys; k->name; k++)
+            if (br_verdict_value(a, i, k->key, &v) == BR_OK)
+                put(p, k->name, v);
+    }
+}
+
+/* A series by its length, its sum and its last sample (every sample
+ * enters the sum). */
+static void series(const br_analysis *a, int which, const char *label, int n)
+{
+    char p[96];
+    for (const key *k = series_keys; k->name; k++)
+        for (int r = 0; r < n; r++) {
+            size_t len = 0;
+            if (br_series_get(a, which, k->key, r, NULL, 0, &len) != BR_OK || len == 0)
+                continue;
+            double *buf = malloc(len * sizeof *buf), sum = 0;
+            if (!buf)
+                exit(2);
+            br_series_get(a, which, k->key, r, buf, len, &len);
+            for (size_t i = 0; i < len; i++)
+                sum += buf[i];
+            snprintf(p, sizeof p, "%s.series.%s.%d.", label, k->name, r);
+            put(p, "len", (double)len);
+            put(p, "sum", sum);
+            put(p, "last", buf[len - 1]);
+            free(buf);
+        }
+}
+
+int main(int argc, char **argv)
+{
+    br_error err;
+    br_design *d = NULL;
+    br_chain *c = NULL;
+    br_analysis *a = br_analysis_create();
+    if (argc != 2 || !a || br_design_load(argv[1], &d, &err) != BR_OK ||
+        br_chain_build(d, &c, &err) != BR_OK || br_analysis_set_series(a, 1) != BR_OK ||
+        br_analysis_run(a, c, BR_PART_ALL, &err) != BR_OK) {
+        fprintf(stderr, "dump: cannot analyse %s\n", argc > 1 ? argv[1] : "(none)");
+        return 2;
+    }
+    int n = br_analysis_stages(a);
+    startup(a, n);
+    steady(a, n);
+    verdict(a);
+    series(a, BR_SERIES_STARTUP, "startup", n);
+    series(a, BR_SERIES_STEADY, "steady.0", n);
+    br_analysis_free(a);
+    br_chain_free(c);
+    br_design_free(d);
+    return 0;
+}

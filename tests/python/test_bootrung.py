@@ -1,0 +1,162 @@
+"""The Python package (python/bootrung) against the C API: the numbers it
+reads through ctypes are those a C program reads (tests/python/dump.c,
+printed at full precision), its errors carry the library's file, line and
+field, a progress callback stops a run.
+
+Run by ctest (tests/CMakeLists.txt) with BOOTRUNG_LIBRARY, the built
+libbootrung.so, BOOTRUNG_DUMP, the dump program, and BOOTRUNG_SOURCE, the
+source tree, in the environment."""
+
+import math
+import os
+import subprocess
+import unittest
+
+import bootrung
+
+SOURCE = os.environ.get("BOOTRUNG_SOURCE", ".")
+DUMP = os.environ.get("BOOTRUNG_DUMP")
+DESIGNS = ["examples/demo-3level.xml", "examples/leg-7level.xml"]
+
+try:
+    import numpy
+except ImportError:
+    numpy = None
+
+
+def path(rel):
+    return os.path.join(SOURCE, rel)
+
+
+def walk(obj, dotted):
+    """obj.a.0.b -> obj.a[0].b"""
+    for part in dotted.split("."):
+        obj = obj[int(part)] if part.isdigit() else getattr(obj, part)
+    return obj
+
+
+def plain_sum(values):
+    """Left to right in doubles, as the C dump sums (Python's sum() may
+    compensate)."""
+    s = 0.0
+    for v in values:
+        s += float(v)
+    return s
+
+
+def read_series(result, name):
+    """'startup.series.rail.2.len' and the like."""
+    head, _, tail = name.partition(".series.")
+    quantity, k, what = tail.split(".")
+    samples = getattr(walk(result, head).series, quantity)[int(k)]
+    return {"len": float(len(samples)), "sum": plain_sum(samples),
+            "last": float(samples[-1])}[what]
+
+
+class SameAsC(unittest.TestCase):
+    def check(self, design):
+        out = subprocess.run([DUMP, path(design)], check=True, capture_output=True,
+                             text=True).stdout
+        result = bootrung.load(path(design)).analyze()
+        lines = out.splitlines()
+        self.assertGreater(len(lines), 100)
+        for line in lines:
+            name, value = line.split()
+            want = float(value)
+            got = read_series(result, name) if ".series." in name else float(walk(result, name))
+            with self.subTest(design=design, name=name):
+                if math.isnan(want):
+                    self.assertTrue(math.isnan(got))
+                else:
+                    self.assertEqual(got, want)
+
+    @unittest.skipUnless(DUMP, "BOOTRUNG_DUMP is not set")
+    def test_demo(self):
+        self.check(DESIGNS[0])
+
+    @unittest.skipUnless(DUMP, "BOOTRUNG_DUMP is not set")
+    def test_leg(self):
+        self.check(DESIGNS[1])
+
+
+class Results(unittest.TestCase):
+    def test_verdicts_and_kinds(self):
+        demo = bootrung.load(path(DESIGNS[0])).analyze()
+        self.assertEqual(demo.verdict.result, "fail")  # the drive margin of the demo
+        failing = [c.key for c in demo.verdict.criteria if c.result == "fail"]
+        self.assertEqual(failing, ["drive"])
+        leg = bootrung.load(path(DESIGNS[1])).analyze()
+        self.assertEqual(leg.verdict.result, "pass")
+        self.assertTrue(leg.startup.complete)
+        self.assertTrue(all(not r.never_starts for r in leg.startup.rails))
+        self.assertEqual({c.status for c in leg.steady}, {"holds"})
+        kind = numpy.ndarray if numpy is not None else list
+        self.assertIsInstance(leg.startup.series.time, kind)
+        self.assertIsInstance(leg.steady[0].series.rail[1], kind)
+
+    def test_parts(self):
+        design = bootrung.load(path(DESIGNS[0]))
+        steady = design.steady(series=False)
+        self.assertIsNone(steady.startup)
+        self.assertIsNone(steady.steady[0].series)
+        self.assertTrue(all(c.key != "startup" for c in steady.verdict.criteria))
+        startup = design.startup()
+        self.assertEqual(startup.steady, [])
+        self.assertEqual(startup.verdict.criteria[0].key, "startup")
+
+
+class Errors(unittest.TestCase):
+    def test_bad_file(self):
+        bad = path("tests/bad/bad-version.xml")
+        with self.assertRaises(bootrung.Error) as ctx:
+            bootrung.load(bad)
+        e = ctx.exception
+        self.assertEqual(e.file, bad)
+        self.assertEqual(e.line, 3)
+        self.assertEqual(e.field, "bootrung-design: version")
+        self.assertEqual(e.code, "bad input")
+        self.assertIn("expected 1", e.message)
+        self.assertTrue(str(e).startswith(bad + ":3: "))
+
+    def test_missing_file_and_string(self):
+        with self.assertRaises(bootrung.Error) as ctx:
+            bootrung.load(path("no/such/design.xml"))
+        self.assertIn("design.xml", ctx.exception.file)
+        with self.assertRaises(bootrung.Error) as ctx:
+            bootrung.load_string("<bootrung-design", name="typed-in")
+        self.assertEqual(ctx.exception.file, "typed-in")
+
+    def test_closed(self):
+        design = bootrung.load(path(DESIGNS[0]))
+        design.close()
+        with self.assertRaises(bootrung.Error):
+            design.startup()
+
+
+class Stop(unittest.TestCase):
+    def test_progress_stops(self):
+        design = bootrung.load(path(DESIGNS[1]))
+        calls = []
+
+        def hook(done, total):
+            calls.append((done, total))
+            return len(calls) >= 2
+
+        with self.assertRaises(bootrung.Cancelled) as ctx:
+            design.startup(progress=hook)
+        self.assertEqual(len(calls), 2)
+        self.assertEqual(ctx.exception.code, "cancelled")
+        self.assertTrue(design.startup(progress=lambda d, t: False).startup.complete)
+
+    def test_exception_in_callback(self):
+        design = bootrung.load(path(DESIGNS[1]))
+
+        def hook(done, total):
+            raise KeyboardInterrupt
+
+        with self.assertRaises(KeyboardInterrupt):
+            design.startup(progress=hook)
+
+
+if __name__ == "__main__":
+    unittest.main()
