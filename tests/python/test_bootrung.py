@@ -10,6 +10,7 @@ source tree, in the environment."""
 import math
 import os
 import subprocess
+import sys
 import unittest
 
 import bootrung
@@ -156,6 +157,26 @@ class Stop(unittest.TestCase):
 
         with self.assertRaises(KeyboardInterrupt):
             design.startup(progress=hook)
+
+
+class SweepExample(unittest.TestCase):
+    """examples/python/sweep.py: one row per value, the nominal row the
+    figures of the unchanged design."""
+
+    def test_supply_sweep(self):
+        script = path("examples/python/sweep.py")
+        design = path(DESIGNS[0])
+        out = subprocess.run([sys.executable, script, design, "--from", "11", "--to", "13",
+                              "--steps", "3"], check=True, capture_output=True, text=True,
+                             env=os.environ).stdout
+        rows = [l.split() for l in out.splitlines()[1:] if l.strip() and l.split()[0][0].isdigit()]
+        self.assertEqual([r[0] for r in rows], ["11", "12", "13"])
+        nominal = bootrung.load(design).analyze(series=False)  # the demo's supply is 12 V
+        self.assertEqual(rows[1][1], f"{nominal.startup.time * 1e3:.3f}")
+        drive = min(r.m_drive for c in nominal.steady for r in c.rails)
+        self.assertEqual(rows[1][3], f"{drive:.3f}")
+        self.assertEqual(rows[1][4], nominal.verdict.result)
+        self.assertNotEqual(rows[0][2], rows[2][2])  # the UVLO margin follows the supply
 
 
 if __name__ == "__main__":
