@@ -26,7 +26,8 @@ extern "C" {
 enum {
     BR_PART_STARTUP = 1, /* the cold start */
     BR_PART_STEADY = 2,  /* the periodic steady state, per current direction */
-    BR_PART_ALL = 3      /* both, and the full verdict */
+    BR_PART_ALL = 3,     /* both, and the full verdict */
+    BR_PART_HOLDUP = 4   /* with BR_PART_STEADY: the hold-up time from each steady case */
 };
 
 /* How far a run has come, in whatever unit the analysis uses (done of
@@ -48,10 +49,10 @@ BR_API int br_analysis_set_progress(br_analysis *a, br_progress_hook hook, br_st
 /* Keep the time series (start-up and two steady periods per direction)
  * of the next runs: 1 to keep, 0 (the default) not to. */
 BR_API int br_analysis_set_series(br_analysis *a, int keep);
-/* Run the parts (BR_PART_* bits) on c.  BR_ECANCEL when the hook or the
- * stop poll stopped it (the object then holds no results); BR_EUSAGE for
- * bad arguments; a numerical failure of a solver is not an error: it
- * makes the figures it concerns undetermined. */
+/* Run the parts (BR_PART_* bits; BR_PART_HOLDUP only with BR_PART_STEADY) on c.  BR_ECANCEL when
+ * the hook or the stop poll stopped it (the object then holds no results); BR_EUSAGE for bad
+ * arguments; a numerical failure of a solver is not an error: it makes the figures it concerns
+ * undetermined. */
 BR_API int br_analysis_run(br_analysis *a, const br_chain *c, int parts, br_error *err);
 /* The parts the last successful run computed (0: none yet). */
 BR_API int br_analysis_parts(const br_analysis *a);
@@ -111,7 +112,8 @@ BR_API int br_startup_supply(const br_analysis *a, int key, double *out);
 
 /* The current directions analysed (1 or 2; a line cycle is one). */
 BR_API int br_steady_cases(const br_analysis *a, int *out);
-/* Case d's direction: "step-down", "step-up", "line cycle" or "no load". */
+/* Case d's direction: "step-down", "step-up", "line-cycle" or "idealised"
+ * (a design without a load current). */
 BR_API int br_steady_case_name(const br_analysis *a, int d, const char **out);
 
 typedef enum br_steady_status {
@@ -165,6 +167,23 @@ typedef enum br_link_key {
 } br_link_key;
 /* Link k (1 <= k < stages) of case d. */
 BR_API int br_steady_link(const br_analysis *a, int d, int k, int key, double *out);
+
+/* ---- the hold-up time (BR_PART_HOLDUP) ---------------------------------- */
+
+/* From steady case d, at its quiet instant, switching stops (the switches
+ * the design's hold-on names stay on, every other turns off) and the
+ * rails drain until the first driver supply crosses UVLO falling. */
+typedef enum br_holdup_key {
+    BR_HU_DECIDED = 0, /* 1: simulated; 0: the steady case has no period to start
+                          from (br_steady_why says why), the figures are NaN */
+    BR_HU_DROPPED,     /* 1: a driver crossed UVLO falling within the time simulated */
+    BR_HU_TIME,        /* hold-up time, s; +inf when none dropped (see BR_HU_SIMULATED) */
+    BR_HU_STAGE,       /* the driver that dropped first, -1 */
+    BR_HU_V_AT,        /* its driver supply at the crossing, V */
+    BR_HU_SIMULATED,   /* the time simulated when none dropped, s */
+    BR_HU_KEY_COUNT
+} br_holdup_key;
+BR_API int br_holdup_get(const br_analysis *a, int d, int key, double *out);
 
 /* ---- time series ------------------------------------------------------- */
 

@@ -21,14 +21,18 @@ from typing import Callable, List, Optional
 
 from . import _lib as L
 
-try:
+import os as _os
+
+try:  # BOOTRUNG_NUMPY=0 asks for lists even where numpy is installed
     import numpy as _np
+    if _os.environ.get("BOOTRUNG_NUMPY") == "0":
+        _np = None
 except ImportError:  # plain lists then
     _np = None
 
 __all__ = ["Error", "Cancelled", "Design", "load", "load_string", "version", "Analysis",
            "Startup", "StartupRail", "SupplyProfile", "SteadyCase", "SteadyRail",
-           "SteadyLink", "Series", "Criterion", "Verdict"]
+           "SteadyLink", "Holdup", "Series", "Criterion", "Verdict"]
 
 
 class Error(Exception):
@@ -159,6 +163,19 @@ class SteadyLink:
 
 
 @dataclass
+class Holdup:
+    """Switching stops at the steady case's quiet instant (the design's
+    hold-on switches stay on); the rails drain until the first driver
+    supply crosses UVLO falling."""
+    decided: bool         # False: the case has no period to start from (see its why)
+    dropped: bool         # a driver dropped within the time simulated
+    time: float           # hold-up time, s (inf: none dropped; NaN: not decided)
+    stage: int            # the driver that dropped first, -1
+    v_at: float           # its driver supply then, V
+    simulated: float      # s
+
+
+@dataclass
 class SteadyCase:
     name: str             # "step-down", "step-up", "line-cycle", ...
     status: str           # "holds", "does not hold", "undetermined"
@@ -173,6 +190,7 @@ class SteadyCase:
     rails: List[SteadyRail]
     links: List[SteadyLink]  # links 1 .. n-1
     series: Optional[Series] = None
+    holdup: Optional[Holdup] = None  # with holdup=True
 
 
 @dataclass
@@ -256,7 +274,12 @@ class _Run:
                        SupplyProfile(**s),
                        self.series(L.SERIES_STARTUP, stages) if keep else None)
 
-    def case(self, d, stages, keep):
+    def holdup(self, d):
+        h = {key: self.num("br_holdup_get", d, i) for i, key in enumerate(L.HU_KEYS)}
+        return Holdup(bool(h["decided"]), h["dropped"] == 1, h["time"], int(h["stage"]),
+                      h["v_at"], h["simulated"])
+
+    def case(self, d, stages, keep, holdup):
         g = {key: self.num("br_steady_get", d, i) for i, key in enumerate(L.SS_KEYS)}
         rails = [SteadyRail(k, **{key: self.num("br_steady_rail", d, k, i)
                                   for i, key in enumerate(L.RAIL_KEYS)}) for k in range(stages)]
@@ -267,7 +290,8 @@ class _Run:
                           self.text("br_steady_why", d), g["residual"], g["drift"],
                           int(g["iterations"]), int(g["periods"]), bool(g["shooting"]),
                           g["supply_iavg"], g["supply_p"], rails, links,
-                          self.series(L.SERIES_STEADY + d, stages) if keep else None)
+                          self.series(L.SERIES_STEADY + d, stages) if keep else None,
+                          self.holdup(d) if holdup else None)
 
     def criterion(self, i):
         v = [self.num("br_verdict_value", i, j) for j in range(len(L.VERDICT_KEYS))]
@@ -285,7 +309,8 @@ class _Run:
         su = self.startup(stages, keep) if parts & L.PART_STARTUP else None
         cases = []
         if parts & L.PART_STEADY:
-            cases = [self.case(d, stages, keep) for d in range(self.int_("br_steady_cases"))]
+            cases = [self.case(d, stages, keep, parts & L.PART_HOLDUP)
+                     for d in range(self.int_("br_steady_cases"))]
         return Analysis(su, cases, self.verdict())
 
 
@@ -353,16 +378,17 @@ class Design:
         run with Cancelled."""
         return self._run(L.PART_STARTUP, series, progress)
 
-    def steady(self, series: bool = True,
+    def steady(self, series: bool = True, holdup: bool = False,
                progress: Optional[Callable[[float, float], bool]] = None) -> Analysis:
         """The periodic steady state of each current direction, and its
-        criteria."""
-        return self._run(L.PART_STEADY, series, progress)
+        criteria; with holdup=True each case's hold-up time too."""
+        return self._run(L.PART_STEADY | (L.PART_HOLDUP if holdup else 0), series, progress)
 
-    def analyze(self, series: bool = True,
+    def analyze(self, series: bool = True, holdup: bool = False,
                 progress: Optional[Callable[[float, float], bool]] = None) -> Analysis:
-        """Both, and the full verdict."""
-        return self._run(L.PART_ALL, series, progress)
+        """Both, and the full verdict (and the hold-up times with
+        holdup=True)."""
+        return self._run(L.PART_ALL | (L.PART_HOLDUP if holdup else 0), series, progress)
 
 
 def _build(rc, err, design):

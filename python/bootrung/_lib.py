@@ -62,6 +62,7 @@ _SIGNATURES = {
     "br_steady_why": (_INT, [_P, _INT, c_char_pp]),
     "br_steady_rail": (_INT, [_P, _INT, _INT, _INT, c_double_p]),
     "br_steady_link": (_INT, [_P, _INT, _INT, _INT, c_double_p]),
+    "br_holdup_get": (_INT, [_P, _INT, _INT, c_double_p]),
     "br_series_get": (
         _INT,
         [_P, _INT, _INT, _INT, c_double_p, ctypes.c_size_t, ctypes.POINTER(ctypes.c_size_t)],
@@ -79,7 +80,7 @@ _SIGNATURES = {
 
 # The constants of bootrung.h and bootrung/analysis.h the package uses.
 OK, EINPUT, ENOMEM, EIO, ENUMERIC, EUSAGE, ECANCEL = range(7)
-PART_STARTUP, PART_STEADY, PART_ALL = 1, 2, 3
+PART_STARTUP, PART_STEADY, PART_ALL, PART_HOLDUP = 1, 2, 3, 4
 SU_KEYS = ("complete", "time", "simulated", "pwm_start", "first_stalled", "failed",
            "periods_integrated", "periods_stepped")
 SUR_KEYS = ("start", "first_start", "dropouts", "final_voltage", "running", "link_ipeak",
@@ -90,6 +91,7 @@ SS_KEYS = ("status", "residual", "drift", "iterations", "periods", "shooting", "
            "supply_p")
 RAIL_KEYS = ("vmin", "vmax", "vavg", "ripple", "drv_min", "drv_max", "m_uvlo", "m_restart",
              "m_drive", "m_gate", "cap_peak", "cap_rms")
+HU_KEYS = ("decided", "dropped", "time", "stage", "v_at", "simulated")
 LINK_KEYS = ("vrev", "vrrm", "iavg", "irms", "ipeak", "qrr", "p_diode", "tj")
 SERIES_KEYS = ("time", "rail", "link_current", "driver", "reverse")
 SERIES_STARTUP, SERIES_STEADY = 0, 1

@@ -4,8 +4,10 @@
  * bookkeeping of what to hand out. */
 #include "bootrung/analysis.h"
 
+#include "analyses/holdup.h"
 #include "core/error.h"
 #include "core/progress.h"
+#include "model/design.h"
 #include "report/results.h"
 #include "report/verdict_report.h"
 #include "report/vocab.h"
@@ -26,6 +28,8 @@ struct br_analysis {
     int parts, n;
     int ss_status[2];
     char ss_why[2][400];
+    br_holdup hu[2];         /* per steady case, with BR_PART_HOLDUP */
+    int hu_decided[2];       /* hu[d] was simulated */
     int nrows;               /* the criteria the run judged */
     int crit[BR_CRIT_COUNT]; /* row i's br_crit */
 };
@@ -96,17 +100,36 @@ static void judged_rows(br_analysis *a)
             a->crit[a->nrows++] = i;
 }
 
+/* The hold-up from every steady case that has a period to start from
+ * (one without has none: its hold-up is left undecided, not guessed). */
+static int holdups(br_analysis *a, const br_chain *c, br_error *err)
+{
+    int rc = BR_OK;
+    for (int d = 0; d < a->res->ndir && rc == BR_OK; d++) {
+        const br_steady *ss = &a->res->ss[d];
+        a->hu_decided[d] = br_steady_has_period(ss);
+        if (a->hu_decided[d] && (rc = br_progress_call(&a->prog, d, a->res->ndir, err)) == BR_OK)
+            rc = br_holdup_run(c, ss, c->design->hold_on, 0.0, &a->hu[d], err);
+    }
+    return rc;
+}
+
 int br_analysis_run(br_analysis *a, const br_chain *c, int parts, br_error *err)
 {
     static const char *const verbs[] = {"", "startup", "steady", "analyze"};
-    if (!a || !c || parts < BR_PART_STARTUP || parts > BR_PART_ALL)
+    int base = parts & BR_PART_ALL;
+    if (!a || !c || !base || (parts & ~(BR_PART_ALL | BR_PART_HOLDUP)) ||
+        ((parts & BR_PART_HOLDUP) && !(parts & BR_PART_STEADY)))
         return br_error_set(err, BR_EUSAGE, NULL, 0, NULL,
-                            "br_analysis_run: expected an analysis, a chain and parts 1 to 3");
+                            "br_analysis_run: expected an analysis, a chain and parts 1 to 3, "
+                            "with BR_PART_HOLDUP only beside BR_PART_STEADY");
     forget(a);
     a->res->progress = &a->prog;
-    int rc = br_results_run_traced(a->res, c, verbs[parts], parts, NULL, NULL,
+    int rc = br_results_run_traced(a->res, c, verbs[base], base, NULL, NULL,
                                    a->keep_series ? &a->tr : NULL, err);
     a->res->progress = NULL;
+    if (rc == BR_OK && (parts & BR_PART_HOLDUP))
+        rc = holdups(a, c, err);
     if (rc != BR_OK) {
         forget(a);
         return rc;
@@ -296,6 +319,29 @@ int br_steady_link(const br_analysis *a, int d, int k, int key, double *out)
         [BR_LINK_VREV] = l->vrev_stress, [BR_LINK_VRRM] = l->vrrm,   [BR_LINK_IAVG] = l->iavg,
         [BR_LINK_IRMS] = l->irms,        [BR_LINK_IPEAK] = l->ipeak, [BR_LINK_QRR] = l->qrr,
         [BR_LINK_P_DIODE] = l->p_diode,  [BR_LINK_TJ] = l->tj,
+    };
+    *out = v[key];
+    return BR_OK;
+}
+
+/* ---- the hold-up time ---------------------------------------------------- */
+
+int br_holdup_get(const br_analysis *a, int d, int key, double *out)
+{
+    if (!a || !(a->parts & BR_PART_HOLDUP) || !figs_of(a, d) || !out || key < 0 ||
+        key >= BR_HU_KEY_COUNT)
+        return BR_EUSAGE;
+    const br_holdup *h = &a->hu[d];
+    int ok = a->hu_decided[d];
+    const double v[BR_HU_KEY_COUNT] = {
+        [BR_HU_DECIDED] = ok,
+        [BR_HU_DROPPED] = ok ? h->dropped : NAN,
+        [BR_HU_TIME] = !ok          ? NAN
+                       : h->dropped ? h->t
+                                    : INFINITY,
+        [BR_HU_STAGE] = ok ? h->stage : -1,
+        [BR_HU_V_AT] = ok && h->dropped ? h->v_at : NAN,
+        [BR_HU_SIMULATED] = ok ? h->t_max : NAN,
     };
     *out = v[key];
     return BR_OK;

@@ -4,7 +4,7 @@
  * Names are spelled here from the C enumerators, so a key the package
  * maps to the wrong enumerator shows as a mismatch.
  *
- * usage: dump DESIGN   (runs BR_PART_ALL with the series kept) */
+ * usage: dump DESIGN   (runs BR_PART_ALL and the hold-up, the series kept) */
 #include <bootrung/analysis.h>
 #include <bootrung/bootrung.h>
 
@@ -43,6 +43,11 @@ static const key rail_keys[] = {{BR_RAIL_VMIN, "vmin"},       {BR_RAIL_VMAX, "vm
 static const key link_keys[] = {{BR_LINK_VREV, "vrev"},   {BR_LINK_IAVG, "iavg"},
                                 {BR_LINK_IPEAK, "ipeak"}, {BR_LINK_QRR, "qrr"},
                                 {BR_LINK_TJ, "tj"},       {-1, NULL}};
+static const key hu_keys[] = {{BR_HU_DECIDED, "decided"},
+                              {BR_HU_TIME, "time"},
+                              {BR_HU_STAGE, "stage"},
+                              {BR_HU_V_AT, "v_at"},
+                              {-1, NULL}};
 static const key verdict_keys[] = {{BR_VERDICT_FIGURE, "figure"},
                                    {BR_VERDICT_LIMIT, "limit"},
                                    {BR_VERDICT_MARGIN, "margin"},
@@ -86,6 +91,10 @@ static void steady(const br_analysis *a, int n)
         snprintf(p, sizeof p, "steady.%d.", d);
         for (const key *k = ss_keys; k->name; k++)
             if (br_steady_get(a, d, k->key, &v) == BR_OK)
+                put(p, k->name, v);
+        snprintf(p, sizeof p, "steady.%d.holdup.", d);
+        for (const key *k = hu_keys; k->name; k++)
+            if (br_holdup_get(a, d, k->key, &v) == BR_OK)
                 put(p, k->name, v);
         for (int r = 0; r < n; r++) {
             snprintf(p, sizeof p, "steady.%d.rails.%d.", d, r);
@@ -146,7 +155,7 @@ int main(int argc, char **argv)
     br_analysis *a = br_analysis_create();
     if (argc != 2 || !a || br_design_load(argv[1], &d, &err) != BR_OK ||
         br_chain_build(d, &c, &err) != BR_OK || br_analysis_set_series(a, 1) != BR_OK ||
-        br_analysis_run(a, c, BR_PART_ALL, &err) != BR_OK) {
+        br_analysis_run(a, c, BR_PART_ALL | BR_PART_HOLDUP, &err) != BR_OK) {
         fprintf(stderr, "dump: cannot analyse %s\n", argc > 1 ? argv[1] : "(none)");
         return 2;
     }

@@ -6,6 +6,9 @@
 #include "bootrung/analysis.h"
 #include "bootrung/bootrung.h"
 
+#include "analyses/holdup.h"
+#include "model/chain.h"
+#include "model/design.h"
 #include "report/results.h"
 #include "testkit.h"
 
@@ -186,6 +189,40 @@ static void test_same_numbers(void)
     }
 }
 
+/* The hold-up from each steady case is the one br_holdup_run gives from
+ * the reference's steady state. */
+static void test_holdup(void)
+{
+    for (int i = 0; i < 2; i++) {
+        pair p;
+        pair_open(&p, designs[i], BR_PART_ALL);
+        br_error err;
+        CU_ASSERT_EQUAL_FATAL(br_analysis_run(p.a, p.c, BR_PART_STEADY | BR_PART_HOLDUP, &err),
+                              BR_OK);
+        for (int d = 0; d < p.r->ndir; d++) {
+            br_holdup h;
+            CU_ASSERT_EQUAL_FATAL(br_holdup_run(p.c, &p.r->ss[d], p.d->hold_on, 0.0, &h, &err),
+                                  BR_OK);
+            CU_ASSERT_TRUE_FATAL(h.dropped); /* the examples drop within the bound */
+            double v;
+            CU_ASSERT_EQUAL(br_holdup_get(p.a, d, BR_HU_DECIDED, &v), BR_OK);
+            ASSERT_SAME(v, 1.0);
+            CU_ASSERT_EQUAL(br_holdup_get(p.a, d, BR_HU_TIME, &v), BR_OK);
+            ASSERT_SAME(v, h.t);
+            CU_ASSERT_EQUAL(br_holdup_get(p.a, d, BR_HU_STAGE, &v), BR_OK);
+            ASSERT_SAME(v, h.stage);
+            CU_ASSERT_EQUAL(br_holdup_get(p.a, d, BR_HU_V_AT, &v), BR_OK);
+            ASSERT_SAME(v, h.v_at);
+            CU_ASSERT_TRUE(h.t > 0);
+        }
+        double v;
+        CU_ASSERT_EQUAL(br_holdup_get(p.a, p.r->ndir, BR_HU_TIME, &v), BR_EUSAGE);
+        CU_ASSERT_EQUAL(br_analysis_run(p.a, p.c, BR_PART_STEADY, &err), BR_OK);
+        CU_ASSERT_EQUAL(br_holdup_get(p.a, 0, BR_HU_TIME, &v), BR_EUSAGE); /* not asked for */
+        pair_close(&p);
+    }
+}
+
 /* The demo fails one criterion, the leg passes (the README's demo). */
 static void test_verdicts(void)
 {
@@ -260,6 +297,9 @@ static void test_bad_arguments(void)
     CU_ASSERT_EQUAL(br_analysis_run(a, c, 0, &err), BR_EUSAGE);
     CU_ASSERT_EQUAL(br_analysis_run(a, c, 4, &err), BR_EUSAGE);
     CU_ASSERT_TRUE(strstr(err.msg, "parts") != NULL);
+    CU_ASSERT_EQUAL(br_analysis_run(a, c, BR_PART_STARTUP | BR_PART_HOLDUP, &err), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_analysis_run(a, c, BR_PART_HOLDUP, &err), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_analysis_run(a, c, 8 | BR_PART_STEADY, &err), BR_EUSAGE);
     CU_ASSERT_EQUAL(br_analysis_set_series(a, 2), BR_EUSAGE);
     CU_ASSERT_EQUAL(br_startup_get(a, BR_SU_TIME, &v), BR_EUSAGE); /* not run yet */
     CU_ASSERT_EQUAL(br_analysis_run(a, c, BR_PART_STARTUP, &err), BR_OK);
@@ -288,6 +328,7 @@ int main(void)
     static const br_test_case cases[] = {
         {"same numbers as the internal results", test_same_numbers},
         {"the examples' verdicts", test_verdicts},
+        {"hold-up as the internal one", test_holdup},
         {"a stop poll and a hook stop a run", test_cancel},
         {"bad arguments are refused", test_bad_arguments},
         {NULL, NULL}};
