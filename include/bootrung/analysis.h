@@ -235,6 +235,63 @@ typedef enum br_verdict_value_key {
 } br_verdict_value_key;
 BR_API int br_verdict_value(const br_analysis *a, int i, int key, double *out);
 
+/* ---- the worst-case corners --------------------------------------------- */
+
+/* Every toleranced value of a design at its minimum or maximum: for each
+ * criterion the corner with the smallest margin (a failing one before any
+ * passing one); every corner when there are few parameters, else the
+ * corners of the parameters each criterion is most sensitive to.  A
+ * corner where a criterion cannot be decided is counted apart: a
+ * criterion that fails nowhere but is undetermined somewhere is
+ * undetermined, never a pass. */
+typedef struct br_corner_search br_corner_search;
+
+BR_API br_corner_search *br_corner_search_create(void);
+BR_API void br_corner_search_free(br_corner_search *s);
+/* The hook counts corners judged of those listed so far. */
+BR_API int br_corner_search_set_progress(br_corner_search *s, br_progress_hook hook,
+                                         br_stop_poll stop, void *ctx);
+/* 1 (the default): search the start-up criteria too (a cold start per
+ * corner, slower); 0: the steady-state criteria alone. */
+BR_API int br_corner_search_set_startup(br_corner_search *s, int on);
+/* Search d (it may be freed once this returns).  BR_ECANCEL when stopped. */
+BR_API int br_corner_search_run(br_corner_search *s, const br_design *d, br_error *err);
+
+/* FAIL when a criterion fails at some corner, else UNDETERMINED when one
+ * is undetermined at some corner, else PASS. */
+BR_API int br_corner_result(const br_corner_search *s, int *out);
+/* Rows: one per criterion of the verdict (NOT_APPLICABLE when never
+ * checked). */
+BR_API int br_corner_rows(const br_corner_search *s, int *out);
+BR_API int br_corner_key(const br_corner_search *s, int i, const char **out);
+BR_API int br_corner_result_of(const br_corner_search *s, int i, int *out);
+/* The binding rail or link at the worst corner, -1. */
+BR_API int br_corner_stage(const br_corner_search *s, int i, int *out);
+typedef enum br_corner_key_kind {
+    BR_CORNER_WORST_FIGURE = 0, /* at the worst corner, in the criterion's unit */
+    BR_CORNER_WORST_LIMIT,
+    BR_CORNER_WORST_MARGIN,
+    BR_CORNER_NOMINAL_FIGURE, /* at the nominal point */
+    BR_CORNER_NOMINAL_MARGIN,
+    BR_CORNER_UNDETERMINED, /* corners where it could not be decided */
+    BR_CORNER_KEY_COUNT
+} br_corner_key_kind;
+BR_API int br_corner_value(const br_corner_search *s, int i, int key, double *out);
+/* The toleranced parameters, their names ("capacitor x7r-2u2-25v: c"),
+ * and where parameter j sits at row i's worst corner: -1 its minimum, 0
+ * nominal, +1 its maximum. */
+BR_API int br_corner_params(const br_corner_search *s, int *out);
+BR_API int br_corner_param_name(const br_corner_search *s, int j, const char **out);
+BR_API int br_corner_level(const br_corner_search *s, int i, int j, int *out);
+typedef enum br_corner_count {
+    BR_CORNERS_STEADY_POINTS = 0, /* corners judged without a cold start */
+    BR_CORNERS_STARTUP_POINTS,    /* with one */
+    BR_CORNERS_UNJUDGED,          /* corners that could not be judged at all */
+    BR_CORNERS_UNDETERMINED,      /* corners where some criterion was not decided */
+    BR_CORNERS_COUNT_KEYS
+} br_corner_count;
+BR_API int br_corner_count_of(const br_corner_search *s, int key, long *out);
+
 #ifdef __cplusplus
 }
 #endif

@@ -32,7 +32,8 @@ except ImportError:  # plain lists then
 
 __all__ = ["Error", "Cancelled", "Design", "load", "load_string", "version", "Analysis",
            "Startup", "StartupRail", "SupplyProfile", "SteadyCase", "SteadyRail",
-           "SteadyLink", "Holdup", "Series", "Criterion", "Verdict"]
+           "SteadyLink", "Holdup", "Series", "Criterion", "Verdict", "Corners",
+           "CornerRow"]
 
 
 class Error(Exception):
@@ -219,6 +220,67 @@ class Analysis:
     verdict: Verdict
 
 
+@dataclass
+class CornerRow:
+    """One criterion at its worst corner (and at the nominal point)."""
+    key: str
+    result: str           # "pass", "fail", "warn", "undetermined", "not applicable"
+    worst_figure: float
+    worst_limit: float
+    worst_margin: float
+    nominal_figure: float
+    nominal_margin: float
+    undetermined: int     # corners where it could not be decided
+    stage: int            # the binding rail or link at the worst corner, -1
+    levels: List[int]     # per parameter at the worst corner: -1 minimum, 0 nominal, +1 maximum
+
+
+@dataclass
+class Corners:
+    result: str           # "pass", "fail" or "undetermined" over every corner
+    parameters: List[str]  # the toleranced values, in the design file's order
+    rows: List[CornerRow]
+    steady_points: int
+    startup_points: int
+    unjudged: int
+    undetermined: int
+
+
+def _read_corners(h):
+    r = _Run(h)
+    names = [r.text("br_corner_param_name", j) for j in range(r.int_("br_corner_params"))]
+    rows = []
+    for i in range(r.int_("br_corner_rows")):
+        v = {key: r.num("br_corner_value", i, k) for k, key in enumerate(L.CORNER_KEYS)}
+        v["undetermined"] = int(v["undetermined"])
+        levels = [r.int_("br_corner_level", i, j) for j in range(len(names))]
+        rows.append(CornerRow(r.text("br_corner_key", i),
+                              L.RESULTS[r.int_("br_corner_result_of", i)],
+                              stage=r.int_("br_corner_stage", i), levels=levels, **v))
+    counts = {}
+    for k, key in enumerate(L.CORNER_COUNTS):
+        out = ctypes.c_long()
+        _check(r.lib.br_corner_count_of(h, k, ctypes.byref(out)), "br_corner_count_of")
+        counts[key] = out.value
+    return Corners(L.RESULTS[r.int_("br_corner_result")], names, rows, **counts)
+
+
+def _hook(progress, failure):
+    """A C progress hook around a Python callable (None: no hook); an
+    exception it raises is kept in failure and stops the run."""
+    if not progress:
+        return L.PROGRESS()
+
+    def hook(_ctx, done, total):
+        try:
+            return 1 if progress(done, total) else 0
+        except BaseException as e:  # KeyboardInterrupt included
+            failure.append(e)
+            return 1
+
+    return L.PROGRESS(hook)
+
+
 class _Run:
     """One br_analysis, read into plain objects and freed."""
 
@@ -349,15 +411,7 @@ class Design:
         # The callback lives until the run returns; a Python exception in
         # it stops the run rather than vanish.
         failure = []
-
-        def hook(_ctx, done, total):
-            try:
-                return 1 if progress(done, total) else 0
-            except BaseException as e:  # KeyboardInterrupt included
-                failure.append(e)
-                return 1
-
-        cb = L.PROGRESS(hook) if progress else L.PROGRESS()
+        cb = _hook(progress, failure)
         try:
             _check(lib.br_analysis_set_progress(h, cb, L.STOP(), None), "progress")
             _check(lib.br_analysis_set_series(h, 1 if series else 0), "series")
@@ -389,6 +443,34 @@ class Design:
         """Both, and the full verdict (and the hold-up times with
         holdup=True)."""
         return self._run(L.PART_ALL | (L.PART_HOLDUP if holdup else 0), series, progress)
+
+
+    def corners(self, startup: bool = True,
+                progress: Optional[Callable[[float, float], bool]] = None) -> Corners:
+        """The worst-case corners of every criterion over the design's
+        tolerances (startup=False: the steady-state criteria alone, no
+        cold starts).  progress(done, total) counts corners judged."""
+        if not self._design:
+            raise Error(L.lib().br_status_name(L.EUSAGE).decode(), "", 0, "design",
+                        "the design was closed; load it again")
+        lib = self._lib
+        h = lib.br_corner_search_create()
+        if not h:
+            raise MemoryError("bootrung: out of memory")
+        failure = []
+        cb = _hook(progress, failure)
+        try:
+            _check(lib.br_corner_search_set_progress(h, cb, L.STOP(), None), "progress")
+            _check(lib.br_corner_search_set_startup(h, 1 if startup else 0), "startup")
+            err = L.BrError()
+            rc = lib.br_corner_search_run(h, self._design, ctypes.byref(err))
+            if failure:
+                raise failure[0]
+            if rc != L.OK:
+                _raise(rc, err)
+            return _read_corners(h)
+        finally:
+            lib.br_corner_search_free(h)
 
 
 def _build(rc, err, design):

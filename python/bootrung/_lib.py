@@ -63,6 +63,21 @@ _SIGNATURES = {
     "br_steady_rail": (_INT, [_P, _INT, _INT, _INT, c_double_p]),
     "br_steady_link": (_INT, [_P, _INT, _INT, _INT, c_double_p]),
     "br_holdup_get": (_INT, [_P, _INT, _INT, c_double_p]),
+    "br_corner_search_create": (_P, []),
+    "br_corner_search_free": (None, [_P]),
+    "br_corner_search_set_progress": (_INT, [_P, PROGRESS, STOP, _P]),
+    "br_corner_search_set_startup": (_INT, [_P, _INT]),
+    "br_corner_search_run": (_INT, [_P, _P, ctypes.POINTER(BrError)]),
+    "br_corner_result": (_INT, [_P, c_int_p]),
+    "br_corner_rows": (_INT, [_P, c_int_p]),
+    "br_corner_key": (_INT, [_P, _INT, c_char_pp]),
+    "br_corner_result_of": (_INT, [_P, _INT, c_int_p]),
+    "br_corner_stage": (_INT, [_P, _INT, c_int_p]),
+    "br_corner_value": (_INT, [_P, _INT, _INT, c_double_p]),
+    "br_corner_params": (_INT, [_P, c_int_p]),
+    "br_corner_param_name": (_INT, [_P, _INT, c_char_pp]),
+    "br_corner_level": (_INT, [_P, _INT, _INT, c_int_p]),
+    "br_corner_count_of": (_INT, [_P, _INT, ctypes.POINTER(ctypes.c_long)]),
     "br_series_get": (
         _INT,
         [_P, _INT, _INT, _INT, c_double_p, ctypes.c_size_t, ctypes.POINTER(ctypes.c_size_t)],
@@ -96,6 +111,9 @@ LINK_KEYS = ("vrev", "vrrm", "iavg", "irms", "ipeak", "qrr", "p_diode", "tj")
 SERIES_KEYS = ("time", "rail", "link_current", "driver", "reverse")
 SERIES_STARTUP, SERIES_STEADY = 0, 1
 VERDICT_KEYS = ("figure", "limit", "margin")
+CORNER_KEYS = ("worst_figure", "worst_limit", "worst_margin", "nominal_figure",
+               "nominal_margin", "undetermined")
+CORNER_COUNTS = ("steady_points", "startup_points", "unjudged", "undetermined")
 RESULTS = ("pass", "fail", "warn", "undetermined", "not applicable")
 STEADY_STATUS = ("holds", "does not hold", "undetermined")
 DROPOUT_TIMES = 16

@@ -4,7 +4,9 @@
  * Names are spelled here from the C enumerators, so a key the package
  * maps to the wrong enumerator shows as a mismatch.
  *
- * usage: dump DESIGN   (runs BR_PART_ALL and the hold-up, the series kept) */
+ * usage: dump DESIGN [corners]
+ * (runs BR_PART_ALL and the hold-up, the series kept; with "corners" the
+ * worst-case corners too) */
 #include <bootrung/analysis.h>
 #include <bootrung/bootrung.h>
 
@@ -48,6 +50,11 @@ static const key hu_keys[] = {{BR_HU_DECIDED, "decided"},
                               {BR_HU_STAGE, "stage"},
                               {BR_HU_V_AT, "v_at"},
                               {-1, NULL}};
+static const key corner_keys[] = {{BR_CORNER_WORST_FIGURE, "worst_figure"},
+                                  {BR_CORNER_WORST_MARGIN, "worst_margin"},
+                                  {BR_CORNER_NOMINAL_MARGIN, "nominal_margin"},
+                                  {BR_CORNER_UNDETERMINED, "undetermined"},
+                                  {-1, NULL}};
 static const key verdict_keys[] = {{BR_VERDICT_FIGURE, "figure"},
                                    {BR_VERDICT_LIMIT, "limit"},
                                    {BR_VERDICT_MARGIN, "margin"},
@@ -147,13 +154,47 @@ static void series(const br_analysis *a, int which, const char *label, int n)
         }
 }
 
+/* The worst-case corners: every row's figures and levels, the counts. */
+static int corners(const br_design *d)
+{
+    br_error err;
+    br_corner_search *s = br_corner_search_create();
+    if (!s || br_corner_search_run(s, d, &err) != BR_OK)
+        return 2;
+    int n = 0, np = 0, level;
+    long count;
+    double v;
+    char p[64];
+    br_corner_rows(s, &n);
+    br_corner_params(s, &np);
+    for (int i = 0; i < n; i++) {
+        snprintf(p, sizeof p, "corners.rows.%d.", i);
+        for (const key *k = corner_keys; k->name; k++)
+            if (br_corner_value(s, i, k->key, &v) == BR_OK)
+                put(p, k->name, v);
+        for (int j = 0; j < np; j++) {
+            snprintf(p, sizeof p, "corners.rows.%d.levels.", i);
+            char idx[16];
+            snprintf(idx, sizeof idx, "%d", j);
+            if (br_corner_level(s, i, j, &level) == BR_OK)
+                put(p, idx, level);
+        }
+    }
+    if (br_corner_count_of(s, BR_CORNERS_STARTUP_POINTS, &count) == BR_OK)
+        put("corners.", "startup_points", (double)count);
+    if (br_corner_count_of(s, BR_CORNERS_STEADY_POINTS, &count) == BR_OK)
+        put("corners.", "steady_points", (double)count);
+    br_corner_search_free(s);
+    return 0;
+}
+
 int main(int argc, char **argv)
 {
     br_error err;
     br_design *d = NULL;
     br_chain *c = NULL;
     br_analysis *a = br_analysis_create();
-    if (argc != 2 || !a || br_design_load(argv[1], &d, &err) != BR_OK ||
+    if (argc < 2 || argc > 3 || !a || br_design_load(argv[1], &d, &err) != BR_OK ||
         br_chain_build(d, &c, &err) != BR_OK || br_analysis_set_series(a, 1) != BR_OK ||
         br_analysis_run(a, c, BR_PART_ALL | BR_PART_HOLDUP, &err) != BR_OK) {
         fprintf(stderr, "dump: cannot analyse %s\n", argc > 1 ? argv[1] : "(none)");
@@ -165,8 +206,9 @@ int main(int argc, char **argv)
     verdict(a);
     series(a, BR_SERIES_STARTUP, "startup", n);
     series(a, BR_SERIES_STEADY, "steady.0", n);
+    int rc = argc == 3 ? corners(d) : 0;
     br_analysis_free(a);
     br_chain_free(c);
     br_design_free(d);
-    return 0;
+    return rc;
 }

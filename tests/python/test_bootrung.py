@@ -55,10 +55,13 @@ def read_series(result, name):
 
 
 class SameAsC(unittest.TestCase):
-    def check(self, design):
-        out = subprocess.run([DUMP, path(design)], check=True, capture_output=True,
-                             text=True).stdout
-        result = bootrung.load(path(design)).analyze(holdup=True)
+    def check(self, design, corners=False):
+        out = subprocess.run([DUMP, path(design)] + (["corners"] if corners else []),
+                             check=True, capture_output=True, text=True).stdout
+        loaded = bootrung.load(path(design))
+        result = loaded.analyze(holdup=True)
+        if corners:  # the dump's names start "corners."
+            result.corners = loaded.corners()
         lines = out.splitlines()
         self.assertGreater(len(lines), 100)
         for line in lines:
@@ -73,7 +76,7 @@ class SameAsC(unittest.TestCase):
 
     @unittest.skipUnless(DUMP, "BOOTRUNG_DUMP is not set")
     def test_demo(self):
-        self.check(DESIGNS[0])
+        self.check(DESIGNS[0], corners=True)  # the demo's corners take a blink
 
     @unittest.skipUnless(DUMP, "BOOTRUNG_DUMP is not set")
     def test_leg(self):
@@ -108,6 +111,27 @@ class Results(unittest.TestCase):
         startup = design.startup()
         self.assertEqual(startup.steady, [])
         self.assertEqual(startup.verdict.criteria[0].key, "startup")
+
+
+class CornersRun(unittest.TestCase):
+    def test_demo_corners(self):
+        design = bootrung.load(path(DESIGNS[0]))
+        k = design.corners()
+        self.assertEqual(k.result, "fail")
+        self.assertEqual(k.parameters[0], "supply: voltage")
+        drive = next(r for r in k.rows if r.key == "drive")
+        self.assertEqual(drive.result, "fail")
+        self.assertLessEqual(drive.worst_margin, drive.nominal_margin)
+        self.assertEqual(drive.levels[0], -1)  # the lowest supply drives worst
+        self.assertGreater(k.startup_points, 0)
+        quick = design.corners(startup=False)
+        self.assertEqual(quick.startup_points, 0)
+        self.assertEqual(next(r for r in quick.rows if r.key == "startup").result,
+                         "not applicable")
+
+    def test_corners_stop(self):
+        with self.assertRaises(bootrung.Cancelled):
+            bootrung.load(path(DESIGNS[1])).corners(progress=lambda d, t: True)
 
 
 class Errors(unittest.TestCase):
