@@ -235,6 +235,13 @@ typedef enum br_verdict_value_key {
 } br_verdict_value_key;
 BR_API int br_verdict_value(const br_analysis *a, int i, int key, double *out);
 
+/* Every criterion of the verdict: how many, and criterion i's key and
+ * title (NULL for i out of range).  The corners' and the yield's rows are
+ * these, in this order. */
+BR_API int br_criteria(void);
+BR_API const char *br_criterion_key(int i);
+BR_API const char *br_criterion_title(int i);
+
 /* ---- the worst-case corners --------------------------------------------- */
 
 /* Every toleranced value of a design at its minimum or maximum: for each
@@ -291,6 +298,68 @@ typedef enum br_corner_count {
     BR_CORNERS_COUNT_KEYS
 } br_corner_count;
 BR_API int br_corner_count_of(const br_corner_search *s, int key, long *out);
+
+/* ---- Monte Carlo yield -------------------------------------------------- */
+
+/* Samples draw every toleranced value from its distribution (one seeded
+ * generator: sample i is the same whatever the sample count or threads);
+ * a sample passes when every criterion that applies passes, fails when
+ * one fails, and is undetermined otherwise.  The yield is the share of
+ * the decided samples that pass, with its exact (Clopper-Pearson) 95 %
+ * interval: its lower end counts every undetermined sample as failing,
+ * its upper end as passing. */
+typedef struct br_yield_study br_yield_study;
+
+BR_API br_yield_study *br_yield_study_create(void);
+BR_API void br_yield_study_free(br_yield_study *y);
+/* The hook counts points judged (nominal, one-at-a-time, samples). */
+BR_API int br_yield_study_set_progress(br_yield_study *y, br_progress_hook hook, br_stop_poll stop,
+                                       void *ctx);
+/* samples >= 1 (default 1000), the generator's seed (default 1). */
+BR_API int br_yield_study_set_samples(br_yield_study *y, long samples, unsigned long seed);
+/* 1: judge the start-up criteria too (a cold start per sample); 0 (the
+ * default): the steady-state criteria. */
+BR_API int br_yield_study_set_startup(br_yield_study *y, int on);
+/* Sample and judge d (it may be freed once this returns). */
+BR_API int br_yield_study_run(br_yield_study *y, const br_design *d, br_error *err);
+
+typedef enum br_yield_key {
+    BR_YIELD_SAMPLES = 0,
+    BR_YIELD_PASS,         /* samples that pass */
+    BR_YIELD_FAIL,         /* samples where a criterion fails */
+    BR_YIELD_UNDETERMINED, /* samples that neither pass nor fail */
+    BR_YIELD_YIELD,        /* pass / (pass + fail); NaN when no sample is decided */
+    BR_YIELD_LO,           /* the interval's ends */
+    BR_YIELD_HI,
+    BR_YIELD_KEY_COUNT
+} br_yield_key;
+BR_API int br_yield_get(const br_yield_study *y, int key, double *out);
+/* FAIL when a sample fails, else UNDETERMINED when one is, else PASS. */
+BR_API int br_yield_result(const br_yield_study *y, int *out);
+
+/* Per criterion i (0 .. br_criteria() - 1, as br_criterion_key names
+ * them): */
+typedef enum br_yield_crit_key {
+    BR_YC_JUDGED = 0,   /* samples where it applies and is decided */
+    BR_YC_FAILS,        /* samples where it fails */
+    BR_YC_UNDETERMINED, /* samples where it could not be decided */
+    BR_YC_MIN,          /* its margin over the deciding samples: the minimum, */
+    BR_YC_Q001,         /* the 0.1 %, 1 %, 10 % quantiles and the median, in the */
+    BR_YC_Q01,          /* criterion's unit (NaN for a status criterion) */
+    BR_YC_Q10,
+    BR_YC_MEDIAN,
+    BR_YC_KEY_COUNT
+} br_yield_crit_key;
+BR_API int br_yield_criterion(const br_yield_study *y, int i, int key, double *out);
+/* Spearman's rank correlation of parameter j with criterion i's margin
+ * (NaN: undefined). */
+BR_API int br_yield_rho(const br_yield_study *y, int i, int j, double *out);
+/* The toleranced parameters, as br_corner_params gives them. */
+BR_API int br_yield_params(const br_yield_study *y, int *out);
+BR_API int br_yield_param_name(const br_yield_study *y, int j, const char **out);
+/* Sample i: parameter j's drawn value (SI), and its result (BR_RESULT_*). */
+BR_API int br_yield_sample_value(const br_yield_study *y, long i, int j, double *out);
+BR_API int br_yield_sample_result(const br_yield_study *y, long i, int *out);
 
 #ifdef __cplusplus
 }

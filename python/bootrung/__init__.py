@@ -33,7 +33,7 @@ except ImportError:  # plain lists then
 __all__ = ["Error", "Cancelled", "Design", "load", "load_string", "version", "Analysis",
            "Startup", "StartupRail", "SupplyProfile", "SteadyCase", "SteadyRail",
            "SteadyLink", "Holdup", "Series", "Criterion", "Verdict", "Corners",
-           "CornerRow"]
+           "CornerRow", "Yield", "YieldRow"]
 
 
 class Error(Exception):
@@ -265,6 +265,59 @@ def _read_corners(h):
     return Corners(L.RESULTS[r.int_("br_corner_result")], names, rows, **counts)
 
 
+@dataclass
+class YieldRow:
+    """One criterion over the samples: its counts, the quantiles of its
+    margin over the samples that decide it (NaN for a status criterion),
+    and each parameter's rank correlation with that margin."""
+    key: str
+    judged: int
+    fails: int
+    undetermined: int
+    q_min: float
+    q_0_1: float
+    q_1: float
+    q_10: float
+    median: float
+    rho: List[float]
+
+
+@dataclass
+class Yield:
+    result: str           # "pass", "fail" or "undetermined" over the samples
+    samples: int
+    passed: int
+    failed: int
+    undetermined: int
+    yield_: float         # passed / (passed + failed); NaN when none is decided
+    lo: float             # exact 95 % interval (undetermined samples as failing ...
+    hi: float             # ... and as passing)
+    parameters: List[str]
+    rows: List[YieldRow]
+    values: List[object]  # per sample, the drawn values (an array per sample)
+    results: List[str]    # per sample
+
+
+def _read_yield(h):
+    r = _Run(h)
+    g = {key: r.num("br_yield_get", k) for k, key in enumerate(L.YIELD_KEYS)}
+    for key in ("samples", "passed", "failed", "undetermined"):
+        g[key] = int(g[key])
+    names = [r.text("br_yield_param_name", j) for j in range(r.int_("br_yield_params"))]
+    rows = []
+    for i in range(r.lib.br_criteria()):
+        v = {key: r.num("br_yield_criterion", i, k) for k, key in enumerate(L.YC_KEYS)}
+        for key in ("judged", "fails", "undetermined"):
+            v[key] = int(v[key])
+        rho = [r.num("br_yield_rho", i, j) for j in range(len(names))]
+        rows.append(YieldRow(r.lib.br_criterion_key(i).decode(), rho=rho, **v))
+    values = [_array([r.num("br_yield_sample_value", i, j) for j in range(len(names))])
+              for i in range(g["samples"])]
+    results = [L.RESULTS[r.int_("br_yield_sample_result", i)] for i in range(g["samples"])]
+    return Yield(L.RESULTS[r.int_("br_yield_result")], parameters=names, rows=rows,
+                 values=values, results=results, **g)
+
+
 def _hook(progress, failure):
     """A C progress hook around a Python callable (None: no hook); an
     exception it raises is kept in failure and stops the run."""
@@ -471,6 +524,35 @@ class Design:
             return _read_corners(h)
         finally:
             lib.br_corner_search_free(h)
+
+
+    def yield_(self, samples: int = 1000, seed: int = 1, startup: bool = False,
+               progress: Optional[Callable[[float, float], bool]] = None) -> Yield:
+        """Monte Carlo yield over the design's tolerances: samples drawn
+        from one generator seeded with seed; startup=True judges the
+        start-up criteria too (a cold start per sample)."""
+        if not self._design:
+            raise Error(L.lib().br_status_name(L.EUSAGE).decode(), "", 0, "design",
+                        "the design was closed; load it again")
+        lib = self._lib
+        h = lib.br_yield_study_create()
+        if not h:
+            raise MemoryError("bootrung: out of memory")
+        failure = []
+        cb = _hook(progress, failure)
+        try:
+            _check(lib.br_yield_study_set_progress(h, cb, L.STOP(), None), "progress")
+            _check(lib.br_yield_study_set_samples(h, samples, seed), "samples")
+            _check(lib.br_yield_study_set_startup(h, 1 if startup else 0), "startup")
+            err = L.BrError()
+            rc = lib.br_yield_study_run(h, self._design, ctypes.byref(err))
+            if failure:
+                raise failure[0]
+            if rc != L.OK:
+                _raise(rc, err)
+            return _read_yield(h)
+        finally:
+            lib.br_yield_study_free(h)
 
 
 def _build(rc, err, design):

@@ -78,6 +78,22 @@ _SIGNATURES = {
     "br_corner_param_name": (_INT, [_P, _INT, c_char_pp]),
     "br_corner_level": (_INT, [_P, _INT, _INT, c_int_p]),
     "br_corner_count_of": (_INT, [_P, _INT, ctypes.POINTER(ctypes.c_long)]),
+    "br_criteria": (_INT, []),
+    "br_criterion_key": (ctypes.c_char_p, [_INT]),
+    "br_yield_study_create": (_P, []),
+    "br_yield_study_free": (None, [_P]),
+    "br_yield_study_set_progress": (_INT, [_P, PROGRESS, STOP, _P]),
+    "br_yield_study_set_samples": (_INT, [_P, ctypes.c_long, ctypes.c_ulong]),
+    "br_yield_study_set_startup": (_INT, [_P, _INT]),
+    "br_yield_study_run": (_INT, [_P, _P, ctypes.POINTER(BrError)]),
+    "br_yield_get": (_INT, [_P, _INT, c_double_p]),
+    "br_yield_result": (_INT, [_P, c_int_p]),
+    "br_yield_criterion": (_INT, [_P, _INT, _INT, c_double_p]),
+    "br_yield_rho": (_INT, [_P, _INT, _INT, c_double_p]),
+    "br_yield_params": (_INT, [_P, c_int_p]),
+    "br_yield_param_name": (_INT, [_P, _INT, c_char_pp]),
+    "br_yield_sample_value": (_INT, [_P, ctypes.c_long, _INT, c_double_p]),
+    "br_yield_sample_result": (_INT, [_P, ctypes.c_long, c_int_p]),
     "br_series_get": (
         _INT,
         [_P, _INT, _INT, _INT, c_double_p, ctypes.c_size_t, ctypes.POINTER(ctypes.c_size_t)],
@@ -114,6 +130,8 @@ VERDICT_KEYS = ("figure", "limit", "margin")
 CORNER_KEYS = ("worst_figure", "worst_limit", "worst_margin", "nominal_figure",
                "nominal_margin", "undetermined")
 CORNER_COUNTS = ("steady_points", "startup_points", "unjudged", "undetermined")
+YIELD_KEYS = ("samples", "passed", "failed", "undetermined", "yield_", "lo", "hi")
+YC_KEYS = ("judged", "fails", "undetermined", "q_min", "q_0_1", "q_1", "q_10", "median")
 RESULTS = ("pass", "fail", "warn", "undetermined", "not applicable")
 STEADY_STATUS = ("holds", "does not hold", "undetermined")
 DROPOUT_TIMES = 16

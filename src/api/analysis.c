@@ -476,3 +476,18 @@ int br_verdict_value(const br_analysis *a, int i, int key, double *out)
     *out = v[key];
     return BR_OK;
 }
+
+int br_criteria(void)
+{
+    return BR_CRIT_COUNT;
+}
+
+const char *br_criterion_key(int i)
+{
+    return i >= 0 && i < BR_CRIT_COUNT ? br_crit_name(i) : NULL;
+}
+
+const char *br_criterion_title(int i)
+{
+    return i >= 0 && i < BR_CRIT_COUNT ? br_crit_title(i) : NULL;
+}

@@ -6,7 +6,7 @@
  *
  * usage: dump DESIGN [corners]
  * (runs BR_PART_ALL and the hold-up, the series kept; with "corners" the
- * worst-case corners too) */
+ * worst-case corners and a yield of 200 samples too) */
 #include <bootrung/analysis.h>
 #include <bootrung/bootrung.h>
 
@@ -55,6 +55,14 @@ static const key corner_keys[] = {{BR_CORNER_WORST_FIGURE, "worst_figure"},
                                   {BR_CORNER_NOMINAL_MARGIN, "nominal_margin"},
                                   {BR_CORNER_UNDETERMINED, "undetermined"},
                                   {-1, NULL}};
+static const key yield_keys[] = {{BR_YIELD_PASS, "passed"},  {BR_YIELD_FAIL, "failed"},
+                                 {BR_YIELD_YIELD, "yield_"}, {BR_YIELD_LO, "lo"},
+                                 {BR_YIELD_HI, "hi"},        {-1, NULL}};
+static const key yc_keys[] = {{BR_YC_FAILS, "fails"},
+                              {BR_YC_MIN, "q_min"},
+                              {BR_YC_Q01, "q_1"},
+                              {BR_YC_MEDIAN, "median"},
+                              {-1, NULL}};
 static const key verdict_keys[] = {{BR_VERDICT_FIGURE, "figure"},
                                    {BR_VERDICT_LIMIT, "limit"},
                                    {BR_VERDICT_MARGIN, "margin"},
@@ -188,6 +196,39 @@ static int corners(const br_design *d)
     return 0;
 }
 
+/* Monte Carlo yield, 200 samples from seed 3: the counts, the interval,
+ * the statistics of every criterion, the first sample's values. */
+static int yield(const br_design *d)
+{
+    br_error err;
+    br_yield_study *y = br_yield_study_create();
+    if (!y || br_yield_study_set_samples(y, 200, 3) != BR_OK ||
+        br_yield_study_run(y, d, &err) != BR_OK)
+        return 2;
+    double v;
+    char p[64];
+    for (const key *k = yield_keys; k->name; k++)
+        if (br_yield_get(y, k->key, &v) == BR_OK)
+            put("yield.", k->name, v);
+    int np = 0;
+    br_yield_params(y, &np);
+    for (int i = 0; i < br_criteria(); i++) {
+        snprintf(p, sizeof p, "yield.rows.%d.", i);
+        for (const key *k = yc_keys; k->name; k++)
+            if (br_yield_criterion(y, i, k->key, &v) == BR_OK)
+                put(p, k->name, v);
+        snprintf(p, sizeof p, "yield.rows.%d.rho.", i);
+        for (int j = 0; j < np; j++)
+            if (br_yield_rho(y, i, j, &v) == BR_OK)
+                printf("%s%d %.17g\n", p, j, v);
+    }
+    for (int j = 0; j < np; j++)
+        if (br_yield_sample_value(y, 0, j, &v) == BR_OK)
+            printf("yield.values.0.%d %.17g\n", j, v);
+    br_yield_study_free(y);
+    return 0;
+}
+
 int main(int argc, char **argv)
 {
     br_error err;
@@ -206,7 +247,7 @@ int main(int argc, char **argv)
     verdict(a);
     series(a, BR_SERIES_STARTUP, "startup", n);
     series(a, BR_SERIES_STEADY, "steady.0", n);
-    int rc = argc == 3 ? corners(d) : 0;
+    int rc = argc == 3 ? corners(d) | yield(d) : 0;
     br_analysis_free(a);
     br_chain_free(c);
     br_design_free(d);

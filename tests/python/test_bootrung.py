@@ -60,8 +60,9 @@ class SameAsC(unittest.TestCase):
                              check=True, capture_output=True, text=True).stdout
         loaded = bootrung.load(path(design))
         result = loaded.analyze(holdup=True)
-        if corners:  # the dump's names start "corners."
+        if corners:  # the dump's names start "corners." and "yield."
             result.corners = loaded.corners()
+            setattr(result, "yield", loaded.yield_(samples=200, seed=3))
         lines = out.splitlines()
         self.assertGreater(len(lines), 100)
         for line in lines:
@@ -132,6 +133,26 @@ class CornersRun(unittest.TestCase):
     def test_corners_stop(self):
         with self.assertRaises(bootrung.Cancelled):
             bootrung.load(path(DESIGNS[1])).corners(progress=lambda d, t: True)
+
+
+class YieldRun(unittest.TestCase):
+    def test_demo_yield(self):
+        design = bootrung.load(path(DESIGNS[0]))
+        y = design.yield_(samples=50, seed=5)
+        self.assertEqual(y.samples, 50)
+        self.assertEqual(len(y.values), 50)
+        self.assertEqual(y.passed + y.failed + y.undetermined, 50)
+        self.assertEqual(y.results.count("fail"), y.failed)
+        self.assertTrue(y.lo <= y.yield_ <= y.hi)
+        self.assertEqual(y.parameters[0], "supply: voltage")
+        self.assertTrue(all(11.4 <= v[0] <= 12.6 for v in y.values))  # 12 V +-5 %
+        self.assertEqual(y.rows[0].key, "startup")
+        again = design.yield_(samples=50, seed=5)
+        self.assertEqual(again.values[7][1], y.values[7][1])  # one seed, one draw
+
+    def test_yield_stop(self):
+        with self.assertRaises(bootrung.Cancelled):
+            bootrung.load(path(DESIGNS[0])).yield_(samples=50, progress=lambda d, t: True)
 
 
 class Errors(unittest.TestCase):
