@@ -299,6 +299,71 @@ typedef enum br_corner_count {
 } br_corner_count;
 BR_API int br_corner_count_of(const br_corner_search *s, int key, long *out);
 
+/* ---- the window: how far duty and frequency can move -------------------- */
+
+/* Along each axis (duty at the design frequency, frequency at the design
+ * duty; on a line cycle the peak current and the line frequency) a scan
+ * from the design point outward, each change between holding and failing
+ * narrowed by Brent's method: every interval where every criterion holds,
+ * the one around the design point giving the limits.  Optionally the
+ * start-up window: how far duty and frequency can go with the cold start
+ * still completing in time (a cold start per point: slow). */
+typedef struct br_window_study br_window_study;
+
+BR_API br_window_study *br_window_study_create(void);
+BR_API void br_window_study_free(br_window_study *w);
+BR_API int br_window_study_set_progress(br_window_study *w, br_progress_hook hook,
+                                        br_stop_poll stop, void *ctx);
+/* 1: the start-up window too; 0 (the default): the steady-state limits. */
+BR_API int br_window_study_set_startup(br_window_study *w, int on);
+/* Search d (it may be freed once this returns). */
+BR_API int br_window_study_run(br_window_study *w, const br_design *d, br_error *err);
+
+enum {
+    BR_WINDOW_DUTY = 0,      /* duty (a fraction) at the design frequency */
+    BR_WINDOW_FREQUENCY = 1, /* switching frequency (Hz) at the design duty */
+    BR_WINDOW_PEAK = 2,      /* a line cycle's peak current (A) */
+    BR_WINDOW_LINE = 3       /* a line cycle's frequency (Hz) */
+};
+typedef enum br_window_axis_key {
+    BR_WA_APPLIES = 0, /* 1: this axis was searched */
+    BR_WA_LO,          /* the range searched */
+    BR_WA_HI,
+    BR_WA_DESIGN,     /* the design's value */
+    BR_WA_FIXED,      /* the other coordinate, held */
+    BR_WA_RESOLUTION, /* duty and peak current: absolute; frequencies: relative */
+    BR_WA_SPANS,      /* intervals found where it holds (0: never holds) */
+    BR_WA_HOME,       /* the interval holding the design point, -1 when it fails there */
+    BR_WA_KEY_COUNT
+} br_window_axis_key;
+BR_API int br_window_axis(const br_window_study *w, int axis, int key, double *out);
+
+typedef enum br_window_span_key {
+    BR_WS_LOW = 0,     /* the lowest value that holds */
+    BR_WS_LOW_FOUND,   /* 1: a failing value lies just below it (else the range ends) */
+    BR_WS_LOW_OUTSIDE, /* that failing value (NaN when the range ends) */
+    BR_WS_HIGH,        /* the highest value that holds */
+    BR_WS_HIGH_FOUND,
+    BR_WS_HIGH_OUTSIDE,
+    BR_WS_KEY_COUNT
+} br_window_span_key;
+/* Interval s (0 .. BR_WA_SPANS - 1, ascending) of an axis. */
+BR_API int br_window_span(const br_window_study *w, int axis, int s, int key, double *out);
+
+typedef enum br_window_startup_key {
+    BR_WU_APPLIES = 0,   /* 1: searched (br_window_study_set_startup) on this axis */
+    BR_WU_DESIGN_STARTS, /* 1: the cold start completes at the design point */
+    BR_WU_LOW,           /* the furthest value found starting, toward the low end */
+    BR_WU_LOW_FAILING,   /* the nearest failing one beyond it (NaN: none found) */
+    BR_WU_LOW_STALLED,   /* the first stalled rail there, -1 */
+    BR_WU_HIGH,          /* the same toward the high end */
+    BR_WU_HIGH_FAILING,
+    BR_WU_HIGH_STALLED,
+    BR_WU_KEY_COUNT
+} br_window_startup_key;
+/* The start-up window along BR_WINDOW_DUTY or BR_WINDOW_FREQUENCY. */
+BR_API int br_window_startup(const br_window_study *w, int axis, int key, double *out);
+
 /* ---- Monte Carlo yield -------------------------------------------------- */
 
 /* Samples draw every toleranced value from its distribution (one seeded

@@ -33,7 +33,8 @@ except ImportError:  # plain lists then
 __all__ = ["Error", "Cancelled", "Design", "load", "load_string", "version", "Analysis",
            "Startup", "StartupRail", "SupplyProfile", "SteadyCase", "SteadyRail",
            "SteadyLink", "Holdup", "Series", "Criterion", "Verdict", "Corners",
-           "CornerRow", "Yield", "YieldRow"]
+           "CornerRow", "Yield", "YieldRow", "Window", "WindowAxis", "WindowSpan",
+           "StartupWindow"]
 
 
 class Error(Exception):
@@ -263,6 +264,81 @@ def _read_corners(h):
         _check(r.lib.br_corner_count_of(h, k, ctypes.byref(out)), "br_corner_count_of")
         counts[key] = out.value
     return Corners(L.RESULTS[r.int_("br_corner_result")], names, rows, **counts)
+
+
+@dataclass
+class WindowSpan:
+    """An interval of the axis where every criterion holds: its ends, and
+    whether a failing value was found just beyond each (else the range
+    searched ends there)."""
+    low: float
+    low_found: bool
+    low_outside: float    # the failing value below it (NaN when the range ends)
+    high: float
+    high_found: bool
+    high_outside: float
+
+
+@dataclass
+class StartupWindow:
+    """How far the axis goes either way with the cold start completing."""
+    design_starts: bool
+    low: float            # the furthest value found starting, low end
+    low_failing: float    # the nearest failing one beyond it (NaN: none found)
+    low_stalled: int      # the first stalled rail there, -1
+    high: float
+    high_failing: float
+    high_stalled: int
+
+
+@dataclass
+class WindowAxis:
+    name: str             # "duty", "frequency", "peak_current", "line_frequency"
+    lo: float             # the range searched (duty a fraction, frequencies Hz, current A)
+    hi: float
+    design: float
+    fixed: float          # the other coordinate, held
+    resolution: float
+    spans: List[WindowSpan]
+    home: int             # the span holding the design point, -1 when it fails there
+    startup: Optional[StartupWindow] = None
+
+    @property
+    def limits(self):
+        """(lowest, highest) value around the design point, or None."""
+        return None if self.home < 0 else (self.spans[self.home].low, self.spans[self.home].high)
+
+
+@dataclass
+class Window:
+    axes: List[WindowAxis]  # only those searched (duty and frequency, or a line cycle's)
+
+    def axis(self, name: str) -> WindowAxis:
+        return next(a for a in self.axes if a.name == name)
+
+
+def _read_window(h):
+    r = _Run(h)
+    axes = []
+    for a, name in enumerate(L.WINDOW_AXES):
+        v = {key: r.num("br_window_axis", a, k) for k, key in enumerate(L.WA_KEYS)}
+        if not v["applies"]:
+            continue
+        spans = []
+        for i in range(int(v["spans"])):
+            sp = {key: r.num("br_window_span", a, i, k) for k, key in enumerate(L.WS_KEYS)}
+            sp["low_found"], sp["high_found"] = bool(sp["low_found"]), bool(sp["high_found"])
+            spans.append(WindowSpan(**sp))
+        su = None
+        if a < 2 and r.num("br_window_startup", a, 0):
+            u = {key: r.num("br_window_startup", a, k) for k, key in enumerate(L.WU_KEYS)}
+            del u["applies"]
+            u["design_starts"] = bool(u["design_starts"])
+            u["low_stalled"], u["high_stalled"] = int(u["low_stalled"]), int(u["high_stalled"])
+            su = StartupWindow(**u)
+        axes.append(WindowAxis(name, v["lo"], v["hi"], v["design"], v["fixed"],
+                               v["resolution"], spans, int(v["home"]), su))
+    return Window(axes)
 
 
 @dataclass
@@ -525,6 +601,40 @@ class Design:
         finally:
             lib.br_corner_search_free(h)
 
+
+    def _study(self, prefix, reader, progress, setup):
+        """Create, set up, run on the design, read and free one of the
+        design-level studies (corners, window, yield)."""
+        if not self._design:
+            raise Error(L.lib().br_status_name(L.EUSAGE).decode(), "", 0, "design",
+                        "the design was closed; load it again")
+        lib = self._lib
+        h = getattr(lib, prefix + "_create")()
+        if not h:
+            raise MemoryError("bootrung: out of memory")
+        failure = []
+        cb = _hook(progress, failure)
+        try:
+            _check(getattr(lib, prefix + "_set_progress")(h, cb, L.STOP(), None), "progress")
+            setup(h)
+            err = L.BrError()
+            rc = getattr(lib, prefix + "_run")(h, self._design, ctypes.byref(err))
+            if failure:
+                raise failure[0]
+            if rc != L.OK:
+                _raise(rc, err)
+            return reader(h)
+        finally:
+            getattr(lib, prefix + "_free")(h)
+
+    def window(self, startup: bool = False,
+               progress: Optional[Callable[[float, float], bool]] = None) -> Window:
+        """How far duty and frequency (or a line cycle's peak current and
+        frequency) can move with every criterion holding; startup=True
+        also the start-up window (a cold start per point: slow)."""
+        setup = lambda h: _check(self._lib.br_window_study_set_startup(h, int(startup)),
+                                 "startup")
+        return self._study("br_window_study", _read_window, progress, setup)
 
     def yield_(self, samples: int = 1000, seed: int = 1, startup: bool = False,
                progress: Optional[Callable[[float, float], bool]] = None) -> Yield:

@@ -80,6 +80,14 @@ _SIGNATURES = {
     "br_corner_count_of": (_INT, [_P, _INT, ctypes.POINTER(ctypes.c_long)]),
     "br_criteria": (_INT, []),
     "br_criterion_key": (ctypes.c_char_p, [_INT]),
+    "br_window_study_create": (_P, []),
+    "br_window_study_free": (None, [_P]),
+    "br_window_study_set_progress": (_INT, [_P, PROGRESS, STOP, _P]),
+    "br_window_study_set_startup": (_INT, [_P, _INT]),
+    "br_window_study_run": (_INT, [_P, _P, ctypes.POINTER(BrError)]),
+    "br_window_axis": (_INT, [_P, _INT, _INT, c_double_p]),
+    "br_window_span": (_INT, [_P, _INT, _INT, _INT, c_double_p]),
+    "br_window_startup": (_INT, [_P, _INT, _INT, c_double_p]),
     "br_yield_study_create": (_P, []),
     "br_yield_study_free": (None, [_P]),
     "br_yield_study_set_progress": (_INT, [_P, PROGRESS, STOP, _P]),
@@ -130,6 +138,11 @@ VERDICT_KEYS = ("figure", "limit", "margin")
 CORNER_KEYS = ("worst_figure", "worst_limit", "worst_margin", "nominal_figure",
                "nominal_margin", "undetermined")
 CORNER_COUNTS = ("steady_points", "startup_points", "unjudged", "undetermined")
+WINDOW_AXES = ("duty", "frequency", "peak_current", "line_frequency")
+WA_KEYS = ("applies", "lo", "hi", "design", "fixed", "resolution", "spans", "home")
+WS_KEYS = ("low", "low_found", "low_outside", "high", "high_found", "high_outside")
+WU_KEYS = ("applies", "design_starts", "low", "low_failing", "low_stalled", "high",
+           "high_failing", "high_stalled")
 YIELD_KEYS = ("samples", "passed", "failed", "undetermined", "yield_", "lo", "hi")
 YC_KEYS = ("judged", "fails", "undetermined", "q_min", "q_0_1", "q_1", "q_10", "median")
 RESULTS = ("pass", "fail", "warn", "undetermined", "not applicable")

@@ -4,14 +4,16 @@
  * Names are spelled here from the C enumerators, so a key the package
  * maps to the wrong enumerator shows as a mismatch.
  *
- * usage: dump DESIGN [corners]
+ * usage: dump DESIGN [corners|window]
  * (runs BR_PART_ALL and the hold-up, the series kept; with "corners" the
- * worst-case corners and a yield of 200 samples too) */
+ * worst-case corners, a yield of 200 samples and the window too; with
+ * "window" the window alone) */
 #include <bootrung/analysis.h>
 #include <bootrung/bootrung.h>
 
 #include <stdio.h>
 #include <stdlib.h>
+#include <string.h>
 
 typedef struct key {
     int key;
@@ -196,6 +198,32 @@ static int corners(const br_design *d)
     return 0;
 }
 
+/* The window: each duty and frequency interval's ends. */
+static int window(const br_design *d)
+{
+    static const key ws[] = {{BR_WS_LOW, "low"}, {BR_WS_HIGH, "high"}, {-1, NULL}};
+    br_error err;
+    br_window_study *w = br_window_study_create();
+    if (!w || br_window_study_run(w, d, &err) != BR_OK)
+        return 2;
+    double n, v;
+    char p[64];
+    for (int a = 0; a < 2; a++) {
+        br_window_axis(w, a, BR_WA_SPANS, &n);
+        for (int i = 0; i < (int)n; i++) {
+            snprintf(p, sizeof p, "window.axes.%d.spans.%d.", a, i);
+            for (const key *k = ws; k->name; k++)
+                if (br_window_span(w, a, i, k->key, &v) == BR_OK)
+                    put(p, k->name, v);
+        }
+        br_window_axis(w, a, BR_WA_DESIGN, &v);
+        snprintf(p, sizeof p, "window.axes.%d.", a);
+        put(p, "design", v);
+    }
+    br_window_study_free(w);
+    return 0;
+}
+
 /* Monte Carlo yield, 200 samples from seed 3: the counts, the interval,
  * the statistics of every criterion, the first sample's values. */
 static int yield(const br_design *d)
@@ -247,7 +275,11 @@ int main(int argc, char **argv)
     verdict(a);
     series(a, BR_SERIES_STARTUP, "startup", n);
     series(a, BR_SERIES_STEADY, "steady.0", n);
-    int rc = argc == 3 ? corners(d) | yield(d) : 0;
+    int rc = 0;
+    if (argc == 3 && strcmp(argv[2], "window") == 0)
+        rc = window(d);
+    else if (argc == 3)
+        rc = corners(d) | yield(d) | window(d);
     br_analysis_free(a);
     br_chain_free(c);
     br_design_free(d);

@@ -55,14 +55,16 @@ def read_series(result, name):
 
 
 class SameAsC(unittest.TestCase):
-    def check(self, design, corners=False):
-        out = subprocess.run([DUMP, path(design)] + (["corners"] if corners else []),
+    def check(self, design, more=None):
+        out = subprocess.run([DUMP, path(design)] + ([more] if more else []),
                              check=True, capture_output=True, text=True).stdout
         loaded = bootrung.load(path(design))
         result = loaded.analyze(holdup=True)
-        if corners:  # the dump's names start "corners." and "yield."
+        if more == "corners":  # the dump's names start "corners." and "yield."
             result.corners = loaded.corners()
             setattr(result, "yield", loaded.yield_(samples=200, seed=3))
+        if more:
+            result.window = loaded.window()
         lines = out.splitlines()
         self.assertGreater(len(lines), 100)
         for line in lines:
@@ -77,11 +79,11 @@ class SameAsC(unittest.TestCase):
 
     @unittest.skipUnless(DUMP, "BOOTRUNG_DUMP is not set")
     def test_demo(self):
-        self.check(DESIGNS[0], corners=True)  # the demo's corners take a blink
+        self.check(DESIGNS[0], "corners")  # the demo's corners take a blink
 
     @unittest.skipUnless(DUMP, "BOOTRUNG_DUMP is not set")
     def test_leg(self):
-        self.check(DESIGNS[1])
+        self.check(DESIGNS[1], "window")  # the demo's window has no interval to compare
 
 
 class Results(unittest.TestCase):
@@ -133,6 +135,21 @@ class CornersRun(unittest.TestCase):
     def test_corners_stop(self):
         with self.assertRaises(bootrung.Cancelled):
             bootrung.load(path(DESIGNS[1])).corners(progress=lambda d, t: True)
+
+
+class WindowRun(unittest.TestCase):
+    def test_demo_window(self):
+        w = bootrung.load(path(DESIGNS[0])).window()
+        self.assertEqual([a.name for a in w.axes], ["duty", "frequency"])
+        duty = w.axis("duty")
+        self.assertEqual(duty.design, 0.5)
+        self.assertIsNone(duty.limits)  # the demo fails its drive margin at its design point
+        self.assertEqual(duty.home, -1)
+        self.assertIsNone(duty.startup)
+
+    def test_window_stop(self):
+        with self.assertRaises(bootrung.Cancelled):
+            bootrung.load(path(DESIGNS[0])).window(progress=lambda d, t: True)
 
 
 class YieldRun(unittest.TestCase):
