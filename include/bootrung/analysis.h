@@ -364,6 +364,42 @@ typedef enum br_window_startup_key {
 /* The start-up window along BR_WINDOW_DUTY or BR_WINDOW_FREQUENCY. */
 BR_API int br_window_startup(const br_window_study *w, int axis, int key, double *out);
 
+/* ---- the map: the worst margin over a duty-frequency grid --------------- */
+
+/* Every grid point judged as the window judges one: its steady states,
+ * its worst margin (V, negative fails; NaN when a steady state was not
+ * found) and what binds it. */
+typedef struct br_map_study br_map_study;
+
+BR_API br_map_study *br_map_study_create(void);
+BR_API void br_map_study_free(br_map_study *m);
+/* The hook counts grid points judged (called from the workers, one at a
+ * time). */
+BR_API int br_map_study_set_progress(br_map_study *m, br_progress_hook hook, br_stop_poll stop,
+                                     void *ctx);
+/* The grid: nduty duties from duty_from to duty_to (fractions) times nfsw
+ * frequencies from fsw_from to fsw_to (Hz, spaced by equal ratios), each
+ * count 1 .. 400.  Required before a run; checked by the run. */
+BR_API int br_map_study_set_grid(br_map_study *m, double duty_from, double duty_to, int nduty,
+                                 double fsw_from, double fsw_to, int nfsw);
+BR_API int br_map_study_run(br_map_study *m, const br_design *d, br_error *err);
+
+/* The grid's size. */
+BR_API int br_map_size(const br_map_study *m, int *nduty, int *nfsw);
+typedef enum br_map_key {
+    BR_MAP_DUTY = 0,  /* the point's duty (fraction) */
+    BR_MAP_FSW,       /* its frequency, Hz */
+    BR_MAP_MARGIN,    /* its worst margin, V (NaN: a steady state was not found) */
+    BR_MAP_HOLDS,     /* 1: every steady state found and the margin >= 0 */
+    BR_MAP_STAGE,     /* the binding rail, -1 */
+    BR_MAP_CRITERION, /* the binding criterion (br_criterion_key); -1 where the dead
+                         time leaves the bottom switches no on-time (no operating
+                         point at all) */
+    BR_MAP_KEY_COUNT
+} br_map_key;
+/* Point (i, j): duty i, frequency j; i = j = -1 is the design point. */
+BR_API int br_map_point(const br_map_study *m, int i, int j, int key, double *out);
+
 /* ---- Monte Carlo yield -------------------------------------------------- */
 
 /* Samples draw every toleranced value from its distribution (one seeded

@@ -34,7 +34,7 @@ __all__ = ["Error", "Cancelled", "Design", "load", "load_string", "version", "An
            "Startup", "StartupRail", "SupplyProfile", "SteadyCase", "SteadyRail",
            "SteadyLink", "Holdup", "Series", "Criterion", "Verdict", "Corners",
            "CornerRow", "Yield", "YieldRow", "Window", "WindowAxis", "WindowSpan",
-           "StartupWindow"]
+           "StartupWindow", "Map", "MapPoint"]
 
 
 class Error(Exception):
@@ -342,6 +342,44 @@ def _read_window(h):
 
 
 @dataclass
+class MapPoint:
+    duty: float           # fraction
+    fsw: float            # Hz
+    margin: float         # worst margin, V (< 0 fails; NaN: a steady state was not found)
+    holds: bool
+    stage: int            # the binding rail, -1
+    criterion: str        # the binding criterion's key; "no on-time" where the dead time
+                          # leaves the bottom switches none (no operating point at all)
+
+
+@dataclass
+class Map:
+    duty: List[float]     # the grid's duties
+    fsw: List[float]      # its frequencies, Hz
+    points: List[List[MapPoint]]  # points[j][i] at (duty[i], fsw[j])
+    design: MapPoint      # the design point itself
+    margin: object        # the margins as rows per frequency (a 2-D numpy array, or lists)
+
+
+def _read_map(h):
+    r = _Run(h)
+    nd, nf = ctypes.c_int(), ctypes.c_int()
+    _check(r.lib.br_map_size(h, ctypes.byref(nd), ctypes.byref(nf)), "br_map_size")
+
+    def point(i, j):
+        v = {key: r.num("br_map_point", i, j, k) for k, key in enumerate(L.MAP_KEYS)}
+        crit = int(v["criterion"])
+        v["criterion"] = "no on-time" if crit < 0 else r.lib.br_criterion_key(crit).decode()
+        v["holds"], v["stage"] = bool(v["holds"]), int(v["stage"])
+        return MapPoint(**v)
+
+    points = [[point(i, j) for i in range(nd.value)] for j in range(nf.value)]
+    margin = [[p.margin for p in row] for row in points]
+    return Map([p.duty for p in points[0]], [row[0].fsw for row in points], points,
+               point(-1, -1), _np.array(margin) if _np is not None else margin)
+
+
+@dataclass
 class YieldRow:
     """One criterion over the samples: its counts, the quantiles of its
     margin over the samples that decide it (NaN for a status criterion),
@@ -635,6 +673,15 @@ class Design:
         setup = lambda h: _check(self._lib.br_window_study_set_startup(h, int(startup)),
                                  "startup")
         return self._study("br_window_study", _read_window, progress, setup)
+
+    def map(self, duty: tuple, fsw: tuple,
+            progress: Optional[Callable[[float, float], bool]] = None) -> Map:
+        """The worst margin over a grid: duty=(from, to, n) as fractions,
+        fsw=(from, to, n) in Hz (spaced by equal ratios); n up to 400."""
+        setup = lambda h: _check(self._lib.br_map_study_set_grid(
+            h, float(duty[0]), float(duty[1]), int(duty[2]), float(fsw[0]), float(fsw[1]),
+            int(fsw[2])), "grid")
+        return self._study("br_map_study", _read_map, progress, setup)
 
     def yield_(self, samples: int = 1000, seed: int = 1, startup: bool = False,
                progress: Optional[Callable[[float, float], bool]] = None) -> Yield:

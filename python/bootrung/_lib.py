@@ -88,6 +88,14 @@ _SIGNATURES = {
     "br_window_axis": (_INT, [_P, _INT, _INT, c_double_p]),
     "br_window_span": (_INT, [_P, _INT, _INT, _INT, c_double_p]),
     "br_window_startup": (_INT, [_P, _INT, _INT, c_double_p]),
+    "br_map_study_create": (_P, []),
+    "br_map_study_free": (None, [_P]),
+    "br_map_study_set_progress": (_INT, [_P, PROGRESS, STOP, _P]),
+    "br_map_study_set_grid": (
+        _INT, [_P, ctypes.c_double, ctypes.c_double, _INT, ctypes.c_double, ctypes.c_double, _INT]),
+    "br_map_study_run": (_INT, [_P, _P, ctypes.POINTER(BrError)]),
+    "br_map_size": (_INT, [_P, c_int_p, c_int_p]),
+    "br_map_point": (_INT, [_P, _INT, _INT, _INT, c_double_p]),
     "br_yield_study_create": (_P, []),
     "br_yield_study_free": (None, [_P]),
     "br_yield_study_set_progress": (_INT, [_P, PROGRESS, STOP, _P]),
@@ -143,6 +151,7 @@ WA_KEYS = ("applies", "lo", "hi", "design", "fixed", "resolution", "spans", "hom
 WS_KEYS = ("low", "low_found", "low_outside", "high", "high_found", "high_outside")
 WU_KEYS = ("applies", "design_starts", "low", "low_failing", "low_stalled", "high",
            "high_failing", "high_stalled")
+MAP_KEYS = ("duty", "fsw", "margin", "holds", "stage", "criterion")
 YIELD_KEYS = ("samples", "passed", "failed", "undetermined", "yield_", "lo", "hi")
 YC_KEYS = ("judged", "fails", "undetermined", "q_min", "q_0_1", "q_1", "q_10", "median")
 RESULTS = ("pass", "fail", "warn", "undetermined", "not applicable")

@@ -7,7 +7,7 @@
  * usage: dump DESIGN [corners|window]
  * (runs BR_PART_ALL and the hold-up, the series kept; with "corners" the
  * worst-case corners, a yield of 200 samples and the window too; with
- * "window" the window alone) */
+ * "window" the window and a small map) */
 #include <bootrung/analysis.h>
 #include <bootrung/bootrung.h>
 
@@ -224,6 +224,33 @@ static int window(const br_design *d)
     return 0;
 }
 
+/* A 4 x 3 map from where the leg holds to where it does not. */
+static int map(const br_design *d)
+{
+    static const key mk[] = {
+        {BR_MAP_MARGIN, "margin"}, {BR_MAP_FSW, "fsw"}, {BR_MAP_STAGE, "stage"}, {-1, NULL}};
+    br_error err;
+    br_map_study *m = br_map_study_create();
+    if (!m || br_map_study_set_grid(m, 0.005, 0.5, 4, 2e3, 120e3, 3) != BR_OK ||
+        br_map_study_run(m, d, &err) != BR_OK)
+        return 2;
+    int nd = 0, nf = 0;
+    double v;
+    char p[64];
+    br_map_size(m, &nd, &nf);
+    for (int j = 0; j < nf; j++)
+        for (int i = 0; i < nd; i++) {
+            snprintf(p, sizeof p, "map.points.%d.%d.", j, i);
+            for (const key *k = mk; k->name; k++)
+                if (br_map_point(m, i, j, k->key, &v) == BR_OK)
+                    put(p, k->name, v);
+        }
+    if (br_map_point(m, -1, -1, BR_MAP_MARGIN, &v) == BR_OK)
+        put("map.design.", "margin", v);
+    br_map_study_free(m);
+    return 0;
+}
+
 /* Monte Carlo yield, 200 samples from seed 3: the counts, the interval,
  * the statistics of every criterion, the first sample's values. */
 static int yield(const br_design *d)
@@ -277,7 +304,7 @@ int main(int argc, char **argv)
     series(a, BR_SERIES_STEADY, "steady.0", n);
     int rc = 0;
     if (argc == 3 && strcmp(argv[2], "window") == 0)
-        rc = window(d);
+        rc = window(d) | map(d);
     else if (argc == 3)
         rc = corners(d) | yield(d) | window(d);
     br_analysis_free(a);

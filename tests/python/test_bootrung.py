@@ -65,6 +65,8 @@ class SameAsC(unittest.TestCase):
             setattr(result, "yield", loaded.yield_(samples=200, seed=3))
         if more:
             result.window = loaded.window()
+        if more == "window":
+            result.map = loaded.map((0.005, 0.5, 4), (2e3, 120e3, 3))
         lines = out.splitlines()
         self.assertGreater(len(lines), 100)
         for line in lines:
@@ -150,6 +152,24 @@ class WindowRun(unittest.TestCase):
     def test_window_stop(self):
         with self.assertRaises(bootrung.Cancelled):
             bootrung.load(path(DESIGNS[0])).window(progress=lambda d, t: True)
+
+
+class MapRun(unittest.TestCase):
+    def test_leg_map(self):
+        m = bootrung.load(path(DESIGNS[1])).map((0.005, 0.5, 4), (2e3, 120e3, 3))
+        self.assertEqual(len(m.points), 3)
+        self.assertEqual(len(m.points[0]), 4)
+        self.assertEqual(m.duty[0], 0.005)
+        self.assertEqual(m.fsw[-1], 120e3)
+        self.assertTrue(m.design.holds)  # the leg holds at its design point
+        kinds = {p.holds for row in m.points for p in row}
+        self.assertEqual(kinds, {True, False})
+        self.assertEqual(float(m.margin[2][3]), m.points[2][3].margin)
+
+    def test_bad_grid(self):
+        with self.assertRaises(bootrung.Error) as ctx:
+            bootrung.load(path(DESIGNS[1])).map((0.2, 1.5, 3), (50e3, 100e3, 2))
+        self.assertEqual(ctx.exception.field, "duty")
 
 
 class YieldRun(unittest.TestCase):
