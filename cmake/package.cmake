@@ -20,7 +20,8 @@ else()
 endif()
 
 set(BR_LIB_OBJECTS $<TARGET_OBJECTS:br_core> $<TARGET_OBJECTS:br_io>
-                   $<TARGET_OBJECTS:br_engine> $<TARGET_OBJECTS:br_report>)
+                   $<TARGET_OBJECTS:br_engine> $<TARGET_OBJECTS:br_report>
+                   $<TARGET_OBJECTS:br_api>)
 set(BR_LIB_DEPS GSL::gsl LibXml2::LibXml2 Threads::Threads m)
 
 add_library(bootrung_shared SHARED ${BR_LIB_OBJECTS})

@@ -1,11 +1,13 @@
 /* cmd_netlist.c - `bootrung netlist FILE`: the design's chain as a plain
- * Berkeley SPICE3 netlist, to cross-check a rail in another simulator. */
+ * Berkeley SPICE3 netlist, to cross-check a rail in another simulator.
+ * A client of the public API only (tests/lib/cli_includes.sh holds it to
+ * that). */
 #include "cli.h"
 
-#include "core/error.h"
-#include "report/caution.h"
-#include "report/netlist.h"
+#include "bootrung/bootrung.h"
+#include "bootrung/export.h"
 
+#include <stdio.h>
 #include <string.h>
 
 #define ABOUT                                                                                      \
@@ -20,17 +22,17 @@
     "0 when written, 2 for bad input.\n"
 
 /* --current: which way the load current flows in the switch waveforms. */
-static int parse_current(const char *text, const br_chain *c, int *dir)
+static int parse_current(const char *text, int *dir)
 {
-    *dir = br_netlist_default_dir(c);
+    *dir = BR_CURRENT_DEFAULT;
     if (!text)
         return BR_EXIT_OK;
     if (strcmp(text, "step-down") == 0)
-        *dir = BR_DIRI_DOWN;
+        *dir = BR_CURRENT_STEP_DOWN;
     else if (strcmp(text, "step-up") == 0)
-        *dir = BR_DIRI_UP;
+        *dir = BR_CURRENT_STEP_UP;
     else if (strcmp(text, "none") == 0)
-        *dir = BR_DIRI_NONE;
+        *dir = BR_CURRENT_NONE;
     else
         return br_cli_usage_error("netlist",
                                   "--current: got '%s', expected step-down, step-up "
@@ -39,32 +41,41 @@ static int parse_current(const char *text, const br_chain *c, int *dir)
     return BR_EXIT_OK;
 }
 
-static int summary(const br_chain *c, const br_netlist_opts *o, const char *path, br_text *t)
+static int summary(const br_chain *c, long periods, const char *path, br_text *t)
 {
-    int rc = br_text_printf(t,
-                            "netlist: design %s, %d switches, %d links, %ld periods (%.6g s) "
-                            "written to %s\n",
-                            c->design->name, c->n, c->n - 1, o->periods, o->periods * c->T, path);
+    int n = br_chain_stages(c);
+    int rc =
+        br_text_printf(t,
+                       "netlist: design %s, %d switches, %d links, %ld periods (%.6g s) "
+                       "written to %s\n",
+                       br_chain_name(c), n, n - 1, periods, periods * br_chain_period(c), path);
     if (rc == BR_OK)
         rc = br_text_put(t, "What the netlist simplifies: docs/spice.md.\n");
-    return rc == BR_OK ? br_report_caution(t) : rc;
+    return rc == BR_OK ? br_text_caution(t) : rc;
+}
+
+static void out_of_memory(br_error *err)
+{
+    br_error_clear(err);
+    err->code = BR_ENOMEM;
+    snprintf(err->msg, sizeof err->msg, "out of memory");
 }
 
 /* Render into net and sum; the options come from the command line. */
-static int render(const br_chain *c, const char *current, const char *periods, const char *out,
-                  br_text *net, br_text *sum)
+static int render(const br_chain *c, const char *path, const char *current, const char *periods,
+                  const char *out, br_text *net, br_text *sum)
 {
-    br_netlist_opts o = {BR_DIRI_NONE, br_netlist_default_periods(c), br_version()};
+    int dir;
+    long n = 0;
     br_error err;
     br_error_clear(&err);
-    if (parse_current(current, c, &o.dir) ||
-        (periods &&
-         br_cli_long("netlist", "periods", periods, 1, BR_NETLIST_MAX_PERIODS, &o.periods)))
+    if (parse_current(current, &dir) ||
+        (periods && br_cli_long("netlist", "periods", periods, 1, BR_NETLIST_PERIODS_MAX, &n)))
         return BR_EXIT_INPUT;
-    if (br_netlist_render(c, &o, net, &err) != BR_OK || summary(c, &o, out, sum) != BR_OK) {
+    if (br_netlist_write(c, dir, n, net, &n, &err) != BR_OK || summary(c, n, out, sum) != BR_OK) {
         if (err.code == BR_OK)
-            br_error_set(&err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
-        return br_cli_fail(&err, c->design->path);
+            out_of_memory(&err);
+        return br_cli_fail(&err, path);
     }
     return BR_EXIT_OK;
 }
@@ -80,12 +91,12 @@ static int run(const char *path, const char *current, const char *periods, const
     br_error_clear(&err);
     int status;
     if (!net || !sum) {
-        br_error_set(&err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+        out_of_memory(&err);
         status = br_cli_fail(&err, path);
     } else if (br_design_load(path, &d, &err) != BR_OK || br_chain_build(d, &c, &err) != BR_OK)
         status = br_cli_fail(&err, path);
     else
-        status = render(c, current, periods, out, net, sum);
+        status = render(c, path, current, periods, out, net, sum);
     if (status == BR_EXIT_OK) {
         const br_cli_file files[] = {{net, out}};
         status = br_cli_write(files, 1, sum, quiet, verdict, 0);

@@ -35,6 +35,7 @@ run() { # LABEL PROGRAM: run the consumer, expect exit 0 and its lines
     out=$("${@:2}" "$version" "$good" "$bad" 2>&1)
     local rc=$?
     if [ $rc -ne 0 ] || ! grep -q "^loaded .* built its chain" <<<"$out" \
+        || ! grep -q "^start-up time [0-9.e-]* s over [0-9]* rails" <<<"$out" \
         || ! grep -q "^refused: .*bad-version.xml" <<<"$out"; then
         echo "FAIL: $1 (status $rc):"
         sed 's/^/  /' <<<"$out"

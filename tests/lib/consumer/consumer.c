@@ -1,16 +1,31 @@
 /* consumer.c - a program built against an installed bootrung, as a user
- * would build one: it includes only <bootrung/bootrung.h> and links the
+ * would build one: it includes only the public headers and links the
  * installed library (tests/lib/install.sh builds it with pkg-config and
  * with find_package).
  *
  * usage: consumer VERSION DESIGN BAD-DESIGN
- * Loads DESIGN and builds its chain, then loads BAD-DESIGN and checks that
+ * Loads DESIGN, builds its chain and runs its cold start, then loads BAD-DESIGN and checks that
  * the failure comes back as a record that names the file.  Prints one line
  * per step; exit 0 when every step went as expected. */
+#include <bootrung/analysis.h>
 #include <bootrung/bootrung.h>
 
 #include <stdio.h>
 #include <string.h>
+
+/* The cold start through the analysis API: a start-up time, or +inf. */
+static int cold_start(const br_chain *c, br_error *err)
+{
+    br_analysis *a = br_analysis_create();
+    double t = 0;
+    int rc = a ? br_analysis_run(a, c, BR_PART_STARTUP, err) : BR_ENOMEM;
+    if (rc == BR_OK)
+        rc = br_startup_get(a, BR_SU_TIME, &t);
+    if (rc == BR_OK)
+        printf("start-up time %.6g s over %d rails\n", t, br_analysis_stages(a));
+    br_analysis_free(a);
+    return rc;
+}
 
 static int load_good(const char *path)
 {
@@ -24,7 +39,9 @@ static int load_good(const char *path)
         return 1;
     }
     int rc = br_chain_build(d, &c, &err);
-    if (rc != BR_OK)
+    if (rc == BR_OK && (rc = cold_start(c, &err)) != BR_OK)
+        printf("start-up failed: %s\n", br_error_format(&err, buf, sizeof buf));
+    else if (rc != BR_OK)
         printf("chain failed: %s\n", br_error_format(&err, buf, sizeof buf));
     else
         printf("loaded %s and built its chain\n", path);
