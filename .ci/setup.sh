@@ -4,7 +4,7 @@
 # when needed) and build out of tree.  Sourced, not run; the caller has
 # already done `set -euo pipefail` and changed to the repository root.
 
-BR_PACKAGES=(cmake make gcc libc6-dev pkg-config libgsl-dev libxml2-dev libcunit1-dev)
+BR_PACKAGES=(cmake make gcc libc6-dev pkg-config libgsl-dev libxml2-dev libcunit1-dev python3)
 # The browser test's headless Chromium, for CI only (.ci/run sets this).
 if [ "${BR_WITH_BROWSER:-0}" = 1 ]; then
     BR_PACKAGES+=(chromium)
