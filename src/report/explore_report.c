@@ -164,20 +164,31 @@ int br_explore_text(const br_explore *x, const br_catalog *cat, const char *desi
     return rc ? BR_ENOMEM : BR_OK;
 }
 
+/* A CSV number: empty when the combination has none (not simulated). */
+static const char *num(char *buf, size_t cap, double v)
+{
+    if (isfinite(v))
+        snprintf(buf, cap, "%.10g", v);
+    else
+        buf[0] = '\0';
+    return buf;
+}
+
 int br_explore_csv(const br_explore *x, const br_catalog *cat, br_text *out)
 {
     int rc = br_text_put(out, "levels,switch,class_V,need_V,diode,fsw_Hz,state,cost,loss_W,"
                               "margin_V,startup_s,binds,split_at,corners,front,rank\n");
+    char a[32], b[32], c[32];
     for (int i = 0; i < x->n; i++) {
         const br_explore_row *r = &x->rows[i];
-        rc |= br_text_printf(out,
-                             "%d,%s,%.10g,%.10g,%s,%.10g,%s,%.10g,%.10g,%.10g,%.10g,%s,%d,%d,"
-                             "%d,%d\n",
-                             r->levels, cat->switches[r->sw].id, cat->switch_rating[r->sw], r->need,
+        rc |= br_text_printf(out, "%d,%s,%.10g,%.10g,%s,%.10g,%s,%.10g,", r->levels,
+                             cat->switches[r->sw].id, cat->switch_rating[r->sw], r->need,
                              r->diode >= 0 ? cat->diodes[r->diode].id : "", r->fsw,
-                             br_explore_state_name(r->state), r->cost, r->loss, r->margin,
-                             r->tstart, r->crit >= 0 ? br_crit_name(r->crit) : "", r->split_at,
-                             r->corners, r->front, r->rank);
+                             br_explore_state_name(r->state), r->cost);
+        rc |= br_text_printf(out, "%s,%s,%s,%s,%d,%d,%d,%d\n", num(a, sizeof a, r->loss),
+                             num(b, sizeof b, r->margin), num(c, sizeof c, r->tstart),
+                             r->crit >= 0 ? br_crit_name(r->crit) : "", r->split_at, r->corners,
+                             r->front, r->rank);
     }
     return rc ? BR_ENOMEM : BR_OK;
 }

@@ -1,0 +1,217 @@
+/* test_cli_explore.c - exploring around a template: a small exploration
+ * end to end (report, CSV, plots, the front's design files), the
+ * combinations the rule of the trade must reject, the front's design
+ * files loading and passing `analyze`, and bad input. */
+#include "runbin.h"
+#include "testkit.h"
+
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <unistd.h>
+
+#define LEG BR_SOURCE_DIR "/examples/leg-7level.xml"
+#define SWITCHES BR_SOURCE_DIR "/examples/parts/switches.xml"
+#define PICKCAT BR_SOURCE_DIR "/examples/parts/catalog.xml"
+/* A two-switch string: a template whose level count cannot be varied. */
+static const char STRING_XML[] =
+    "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n"
+    "<bootrung-design version=\"1\" name=\"pair\">\n"
+    "  <operating-point vin=\"100 V\" fsw=\"100 kHz\"/>\n"
+    "  <supply voltage=\"12 V\"/>\n"
+    "  <topology><string>\n"
+    "    <switch name=\"S1\" vblock=\"50 V\"><on from=\"0.0\" to=\"0.45\"/></switch>\n"
+    "    <switch name=\"S2\" vblock=\"50 V\"><on from=\"0.5\" to=\"0.95\"/></switch>\n"
+    "  </string></topology>\n"
+    "  <parts><diode id=\"d1\"/><capacitor id=\"c1\" c=\"1 uF\"/><driver id=\"drv1\"/>"
+    "<switch id=\"q1\"/></parts>\n"
+    "  <stages diode=\"d1\" capacitor=\"c1\" driver=\"drv1\" switch=\"q1\"/>\n"
+    "</bootrung-design>\n";
+
+typedef struct files {
+    char dir[40], csv[64], svg[64];
+} files;
+
+static void files_make(files *f)
+{
+    snprintf(f->dir, sizeof f->dir, "/tmp/br-explore-XXXXXX");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(f->dir));
+    snprintf(f->csv, sizeof f->csv, "%s/x.csv", f->dir);
+    snprintf(f->svg, sizeof f->svg, "%s/x.svg", f->dir);
+}
+
+static void files_drop(files *f)
+{
+    char cmd[128];
+    snprintf(cmd, sizeof cmd, "rm -rf '%s'", f->dir);
+    CU_ASSERT_EQUAL(system(cmd), 0);
+}
+
+/* The CSV line of (levels, switch, fsw) or NULL. */
+static const char *csv_line(const char *csv, const char *key)
+{
+    const char *p = csv;
+    size_t n = strlen(key);
+    while (p && *p) {
+        if (strncmp(p, key, n) == 0)
+            return p;
+        p = strchr(p, '\n');
+        p = p ? p + 1 : NULL;
+    }
+    return NULL;
+}
+
+/* The field-th comma-separated field of a CSV line, as a number. */
+static double field(const char *line, int k)
+{
+    for (int i = 0; i < k && line; i++) {
+        line = strchr(line, ',');
+        line = line ? line + 1 : NULL;
+    }
+    return line ? strtod(line, NULL) : -1.0;
+}
+
+static int count_lines(const char *s)
+{
+    int n = 0;
+    for (; *s; s++)
+        n += *s == '\n';
+    return n;
+}
+
+/* Levels 3 to 8 at 60 kHz around the 7-level example on its 1.1 kV bus:
+ * 18 combinations.  Hand calculation of the rule (derating 80 %, the
+ * template's): 3 levels need 1100 / 2 / 0.8 = 687.5 V, above every
+ * switch of the catalog (650 V at most), so all three are rejected
+ * without a simulation; 8 levels need 1100 / 7 / 0.8 = 196.4 V, which
+ * the 200 V class meets. */
+static void test_small(void)
+{
+    files f;
+    files_make(&f);
+    run_result r = run((const char *[]){"explore", LEG, "--catalog", SWITCHES, "--vin", "1.1k",
+                                        "--levels", "3:8", "--fsw", "60k", "--csv", f.csv, "--svg",
+                                        f.svg, "--designs", f.dir, NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    CU_ASSERT_TRUE(has(r.out, "18 combinations"));
+    CU_ASSERT_TRUE(has(r.out, "verdict: PASS"));
+    CU_ASSERT_TRUE(has(r.out, "lethal voltages"));
+    char *csv = br_test_slurp(f.csv, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(csv);
+    CU_ASSERT_EQUAL(count_lines(csv), 19);
+    static const char *const sw[] = {"gan-200v-g", "gan-400v-g", "gan-650v-g"};
+    for (int i = 0; i < 3; i++) {
+        char key[64];
+        snprintf(key, sizeof key, "3,%s,", sw[i]);
+        const char *line = csv_line(csv, key);
+        CU_ASSERT_PTR_NOT_NULL_FATAL(line);
+        BR_ASSERT_NEAR(field(line, 3), 687.5, 1e-6);
+        CU_ASSERT_TRUE(strstr(line, ",rating,") != NULL &&
+                       strstr(line, ",rating,") < strchr(line, '\n'));
+    }
+    const char *l8 = csv_line(csv, "8,gan-200v-g,");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(l8);
+    BR_ASSERT_NEAR(field(l8, 3), 1100.0 / 7.0 / 0.8, 1e-6);
+    CU_ASSERT_FALSE(strncmp(strstr(l8, "60000,") + 6, "rating", 6) == 0);
+    free(csv);
+    char *svg = br_test_slurp(f.svg, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(svg);
+    CU_ASSERT_TRUE(has(svg, "<svg"));
+    CU_ASSERT_TRUE(has(svg, "data-series=\"margin_V_60000Hz\""));
+    CU_ASSERT_TRUE(has(svg, "data-series=\"cost_60000Hz\""));
+    free(svg);
+    done(&r);
+    files_drop(&f);
+}
+
+/* Every front member's design file loads and passes `analyze`, and the
+ * number of files is the front's size in the CSV. */
+static void test_front_designs(void)
+{
+    files f;
+    files_make(&f);
+    run_result r = run((const char *[]){"explore", LEG, "--catalog", SWITCHES, "--vin", "1.1k",
+                                        "--levels", "6:8", "--fsw", "60k,120k", "--csv", f.csv,
+                                        "--designs", f.dir, "--quiet", NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    done(&r);
+    char *csv = br_test_slurp(f.csv, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(csv);
+    int front = 0;
+    for (const char *p = strchr(csv, '\n'); p && p[1]; p = strchr(p + 1, '\n'))
+        front += (int)field(p + 1, 14) == 1;
+    free(csv);
+    CU_ASSERT_TRUE(front >= 1);
+    for (int k = 1; k <= front + 1; k++) {
+        char path[96];
+        snprintf(path, sizeof path, "%s/explore-%d.xml", f.dir, k);
+        if (k == front + 1) { /* only the front is written; ranks run 1.. along it */
+            CU_ASSERT_NOT_EQUAL(access(path, F_OK), 0);
+            break;
+        }
+        run_result a = run((const char *[]){"analyze", "--quiet", path, NULL});
+        CU_ASSERT_EQUAL(a.status, 0);
+        CU_ASSERT_TRUE(has(a.out, "verdict: PASS"));
+        done(&a);
+    }
+    files_drop(&f);
+}
+
+/* A bus no catalog switch can take at any level count asked: nothing is
+ * feasible, exit 1.  Hand calculation: 3 levels on 1.1 kV need 687.5 V. */
+static void test_none_feasible(void)
+{
+    run_result r = run((const char *[]){"explore", LEG, "--catalog", SWITCHES, "--vin", "1.1k",
+                                        "--levels", "3:3", "--fsw", "60k", NULL});
+    CU_ASSERT_EQUAL(r.status, 1);
+    CU_ASSERT_TRUE(has(r.out, "verdict: FAIL (0 of 3"));
+    CU_ASSERT_TRUE(has(r.out, "switch class below the 688 V the rule asks"));
+    done(&r);
+}
+
+static void test_bad_input(void)
+{
+    run_result r = run((const char *[]){"explore", LEG, "--catalog", PICKCAT, "--vin", "1.1k",
+                                        "--levels", "5:7", "--fsw", "60k", NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    CU_ASSERT_TRUE(has(r.err, "the catalog offers no switch"));
+    done(&r);
+    files f;
+    files_make(&f);
+    char path[96];
+    snprintf(path, sizeof path, "%s/pair.xml", f.dir);
+    FILE *fp = fopen(path, "w");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(fp);
+    fputs(STRING_XML, fp);
+    fclose(fp);
+    r = run((const char *[]){"analyze", "--quiet", path, NULL}); /* a design that reads */
+    CU_ASSERT_NOT_EQUAL(r.status, 2);
+    done(&r);
+    r = run((const char *[]){"explore", path, "--catalog", SWITCHES, "--vin", "1.1k", "--levels",
+                             "5:7", "--fsw", "60k", NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    CU_ASSERT_TRUE(has(r.err, "expected an <fcml> leg"));
+    done(&r);
+    files_drop(&f);
+    r = run((const char *[]){"explore", LEG, "--catalog", SWITCHES, "--vin", "1.1k", "--levels",
+                             "9:5", "--fsw", "60k", NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    CU_ASSERT_TRUE(has(r.err, "--levels"));
+    done(&r);
+    r = run(
+        (const char *[]){"explore", LEG, "--vin", "1.1k", "--levels", "5:7", "--fsw", "60k", NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    done(&r);
+}
+
+int main(void)
+{
+    static const br_test_case cases[] = {
+        {"a small exploration end to end", test_small},
+        {"the front's design files pass analyze", test_front_designs},
+        {"the rule rejects what it must", test_none_feasible},
+        {"bad input", test_bad_input},
+        {NULL, NULL},
+    };
+    return br_test_main("cli_explore", cases);
+}
