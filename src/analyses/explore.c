@@ -418,7 +418,7 @@ static int check_input(const br_design *t, const br_explore_opts *o, int count, 
         return br_error_set(err, BR_EINPUT, o->cat ? o->cat->path : "", 0, "switch",
                             "the catalog offers no switch, expected at least one with its "
                             "voltage class");
-    if (o->lmin < 2 || o->lmax > BR_MAX_SWITCHES / 2 || o->lmin > o->lmax || o->nfsw < 1 ||
+    if (o->lmin < 2 || o->lmax > BR_MAX_SWITCHES / 2 + 1 || o->lmin > o->lmax || o->nfsw < 1 ||
         o->nfsw > BR_EXPLORE_MAX_FSW || !(o->vbus > 0) || !(o->vbus_max >= o->vbus))
         return br_error_set(err, BR_EUSAGE, NULL, 0, "",
                             "explore: levels, frequencies or bus voltage out of range");

@@ -73,9 +73,9 @@ static int parse_levels(const char *text, br_explore_opts *eo)
     long lo = strtol(text, &end, 10), hi = lo;
     if (*end == ':')
         hi = strtol(end + 1, &end, 10);
-    if (*end || lo < 2 || hi < lo || hi > BR_MAX_SWITCHES / 2)
+    if (*end || lo < 2 || hi < lo || hi > BR_MAX_SWITCHES / 2 + 1)
         return br_cli_usage_error("explore", "--levels '%s': expected LO:HI, from 2 to %d", text,
-                                  BR_MAX_SWITCHES / 2);
+                                  BR_MAX_SWITCHES / 2 + 1);
     eo->lmin = (int)lo;
     eo->lmax = (int)hi;
     return BR_EXIT_OK;

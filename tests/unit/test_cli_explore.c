@@ -204,6 +204,18 @@ static void test_bad_input(void)
     done(&r);
 }
 
+static void test_help_golden(void)
+{
+    run_result a = run((const char *[]){"explore", "--help", NULL});
+    CU_ASSERT_EQUAL(a.status, 0);
+    char *want = br_test_slurp("tests/golden/explore-help.txt", NULL);
+    CU_ASSERT_PTR_NOT_NULL(want);
+    if (want)
+        CU_ASSERT_STRING_EQUAL(want, a.out);
+    free(want);
+    done(&a);
+}
+
 int main(void)
 {
     static const br_test_case cases[] = {
@@ -211,6 +223,7 @@ int main(void)
         {"the front's design files pass analyze", test_front_designs},
         {"the rule rejects what it must", test_none_feasible},
         {"bad input", test_bad_input},
+        {"help (golden)", test_help_golden},
         {NULL, NULL},
     };
     return br_test_main("cli_explore", cases);
