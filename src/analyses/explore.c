@@ -86,45 +86,40 @@ static void set_stages(br_design *d, size_t off, int v)
         *(int *)((char *)&d->stage[k] + off) = v;
 }
 
-/* The links whose template diode falls short of the rule take the
- * catalog's diode (placed once, as the last diode of d). */
-static int place_diodes(br_design *d, const br_design *t, int n, const br_diode_part *cd,
-                        double need, br_error *err)
+/* The links whose diode (the template's) falls short of the rule take
+ * the catalog's diode (placed once, as the last diode of d). */
+static int place_diodes(br_design *d, int n, const br_diode_part *cd, double need, br_error *err)
 {
     TRY(add_part_room(d, d->ndiodes, "diode", err));
     int at = d->ndiodes++;
     d->diodes[at] = *cd;
-    if (t->diodes[t->def.diode].vrrm.nom < need)
+    if (d->diodes[d->def.diode].vrrm.nom < need)
         d->def.diode = at;
     for (int k = 1; k < n; k++)
-        if (d->has_override[k] && t->diodes[t->stage[k].diode].vrrm.nom < need)
+        if (d->has_override[k] && d->diodes[d->stage[k].diode].vrrm.nom < need)
             d->stage[k].diode = at;
     return BR_OK;
 }
 
 /* The cheapest catalog diode that meets need and is as strong as every
- * template diode it replaces on the n - 1 links; -1 when one is needed
- * and none fits, -2 when the template's diodes all meet the rule. */
-static int choose_diode(const br_design *t, const br_catalog *cat, int n, double need)
+ * diode of the template's links that falls short of it; -1 when one is
+ * needed and none fits, -2 when the template's diodes all meet the rule. */
+static int choose_diode(const br_design *t, const br_catalog *cat, double need)
 {
-    int best = -2;
-    for (int k = 1; k < n; k++) {
-        const br_diode_part *p = &t->diodes[br_design_stage(t, k)->diode];
-        if (p->vrrm.nom >= need)
-            continue;
-        best = best == -2 ? -1 : best;
-        for (int i = 0; cat && i < cat->ndiodes; i++) {
-            if (!(cat->diodes[i].vrrm.nom >= need))
-                continue;
-            int ok = 1;
-            for (int j = 1; j < n && ok; j++) {
-                const br_diode_part *q = &t->diodes[br_design_stage(t, j)->diode];
-                ok = q->vrrm.nom >= need || as_strong(&cat->diodes[i], q);
-            }
-            if (ok && (best < 0 || cat->diode_offer[i].cost < cat->diode_offer[best].cost))
-                best = i;
+    int n0 = 2 * (t->levels - 1), short_any = 0;
+    for (int k = 1; k < n0; k++)
+        short_any |= t->diodes[br_design_stage(t, k)->diode].vrrm.nom < need;
+    if (!short_any)
+        return -2;
+    int best = -1;
+    for (int i = 0; cat && i < cat->ndiodes; i++) {
+        int ok = cat->diodes[i].vrrm.nom >= need;
+        for (int k = 1; k < n0 && ok; k++) {
+            const br_diode_part *q = &t->diodes[br_design_stage(t, k)->diode];
+            ok = q->vrrm.nom >= need || as_strong(&cat->diodes[i], q);
         }
-        break;
+        if (ok && (best < 0 || cat->diode_offer[i].cost < cat->diode_offer[best].cost))
+            best = i;
     }
     return best;
 }
@@ -159,6 +154,89 @@ static void place_switch(br_design *d, const br_explore_opts *o, int sw)
     }
 }
 
+/* ---- the rail capacitors ------------------------------------------------- */
+
+/* Charge one rail gives its driver and switch per period, C: the gate
+ * charge and the driver's running and isolator currents over a period. */
+static double rail_charge(const br_design *d, const br_stage_spec *s, double fsw)
+{
+    const br_driver_part *drv = &d->drivers[s->driver];
+    return d->switches[s->sw].qg.nom + (drv->iq_on.nom + drv->i_iso.nom) / fsw;
+}
+
+/* v rounded up to the E6 series (1, 1.5, 2.2, 3.3, 4.7, 6.8 per decade):
+ * the values capacitors come in (common practice). */
+static double e6_up(double v)
+{
+    static const double e6[] = {1.0, 1.5, 2.2, 3.3, 4.7, 6.8, 10.0};
+    double dec = pow(10.0, floor(log10(v)));
+    for (int i = 0; i < 7; i++)
+        if (e6[i] * dec >= v * (1.0 - 1e-9))
+            return e6[i] * dec;
+    return 10.0 * dec;
+}
+
+/* The index in d of template capacitor `part` with its capacitance (and
+ * tolerance limits) set to c: an existing scaled copy, or a new one. */
+static int scaled_cap(br_design *d, const br_cap_part *part, double c, br_error *err)
+{
+    char id[BR_ID_MAX];
+    char val[16];
+    snprintf(val, sizeof val, "%.3g", c * 1e6);
+    snprintf(id, sizeof id, "%.28s-%suF", part->id, val);
+    for (int i = 0; i < d->ncaps; i++)
+        if (strcmp(d->caps[i].id, id) == 0)
+            return i;
+    if (add_part_room(d, d->ncaps, "capacitor", err) != BR_OK)
+        return -1;
+    br_cap_part *p = &d->caps[d->ncaps];
+    *p = *part;
+    p->c = scaled(part->c, c);
+    p->line = 0;
+    snprintf(p->id, sizeof p->id, "%s", id);
+    snprintf(p->source, sizeof p->source, "%s scaled by bootrung explore", part->id);
+    return d->ncaps++;
+}
+
+/* Rail k of a chain of n stages carries the charge of the n - k rails
+ * from it up (each rail refills the one above it).  It takes the stage of
+ * the template's rail that carries as many (counted from the top: its
+ * capacitor, link diode and resistor), or, below the template's bottom
+ * rail, the bottom rail's. */
+static int template_rail(const br_design *t, int n, int k, double *carried)
+{
+    int n0 = 2 * (t->levels - 1), k0 = n0 - (n - k);
+    *carried = k0 < 1 ? (double)(n - k) / (n0 - 1) : 1.0;
+    return k0 < 1 ? 1 : k0;
+}
+
+static void map_stages(br_design *d, const br_design *t, int n)
+{
+    double carried;
+    for (int k = 1; k < n; k++) {
+        d->stage[k] = *br_design_stage(t, template_rail(t, n, k, &carried));
+        d->stage[k].line = 0;
+        d->has_override[k] = 1;
+    }
+}
+
+/* Each rail's capacitor: the template rail's (template_rail), scaled by
+ * the rails it carries beyond that one's and by the charge a rail gives
+ * per period, rounded up to the E6 series. */
+static int scale_caps(br_design *d, const br_design *t, int n, br_error *err)
+{
+    for (int k = 1; k < n; k++) {
+        double f;
+        const br_stage_spec *ts = br_design_stage(t, template_rail(t, n, k, &f));
+        f *= rail_charge(d, &d->stage[k], d->fsw.nom) / rail_charge(t, ts, t->fsw.nom);
+        const br_cap_part *part = &t->caps[ts->cap];
+        d->stage[k].cap = scaled_cap(d, part, e6_up(part->c.nom * f), err);
+        if (d->stage[k].cap < 0)
+            return BR_EINPUT;
+    }
+    return BR_OK;
+}
+
 static int build_design(const br_design *t, const br_explore_opts *o, const br_explore_row *r,
                         br_design *d, br_error *err)
 {
@@ -173,11 +251,15 @@ static int build_design(const br_design *t, const br_explore_opts *o, const br_e
     for (int k = n; k < BR_MAX_SWITCHES; k++)
         d->has_override[k] = 0;
     map_precharge(d, t, r->levels);
+    if (o->scale_caps)
+        map_stages(d, t, n);
     TRY(add_part_room(d, d->nswitches, "switch", err));
     TRY(add_part_room(d, d->ndrivers, "driver", err));
     place_switch(d, o, r->sw);
     if (r->diode >= 0)
-        TRY(place_diodes(d, t, n, &o->cat->diodes[r->diode], r->need, err));
+        TRY(place_diodes(d, n, &o->cat->diodes[r->diode], r->need, err));
+    if (o->scale_caps)
+        TRY(scale_caps(d, t, n, err));
     snprintf(d->name, sizeof d->name, "%.60s-%dL-%.40s-%.0fkHz", t->name, r->levels,
              o->cat->switches[r->sw].id, r->fsw / 1e3);
     return BR_OK;
@@ -364,9 +446,10 @@ static int corners(const br_design *d, const br_explore_opts *o, double target, 
 
 /* ---- the combinations ---------------------------------------------------- */
 
-/* What the catalog parts placed on a string of n switches cost: a switch
- * and its driver per stage, the catalog diode on each link it replaces. */
-static double cost_of(const br_design *t, const br_explore_opts *o, const br_explore_row *r, int n)
+/* What the catalog parts placed in d (a chain of n stages) cost: a switch
+ * and its driver per stage, the catalog diode on each link that has it
+ * (the last diode of d). */
+static double cost_of(const br_design *d, const br_explore_opts *o, const br_explore_row *r, int n)
 {
     const br_catalog *cat = o->cat;
     double per = cat->switch_offer[r->sw].cost;
@@ -374,18 +457,18 @@ static double cost_of(const br_design *t, const br_explore_opts *o, const br_exp
         per += cat->driver_offer[cat->switch_driver[r->sw]].cost;
     double sum = per * n;
     for (int k = 1; r->diode >= 0 && k < n; k++)
-        if (t->diodes[br_design_stage(t, k)->diode].vrrm.nom < r->need)
+        if (br_design_stage(d, k)->diode == d->ndiodes - 1)
             sum += cat->diode_offer[r->diode].cost;
     return sum;
 }
 
 /* The rule for combination r (levels, switch and frequency set): the
- * voltage class and the diode, or BR_EX_RATING. */
+ * voltage class and the diode, or BR_EX_RATING (its design is still built,
+ * for its cost, but not simulated). */
 static void apply_rule(const br_design *t, const br_explore_opts *o, br_explore_row *r)
 {
-    int n = 2 * (r->levels - 1);
     r->need = br_rating_needed(o->vbus_max, r->levels - 1, derating_of(t, o));
-    r->diode = choose_diode(t, o->cat, n, r->need);
+    r->diode = choose_diode(t, o->cat, r->need);
     r->state = BR_EX_FEASIBLE;
     r->margin = r->loss = r->tstart = NAN;
     r->crit = r->stage = -1;
@@ -393,7 +476,6 @@ static void apply_rule(const br_design *t, const br_explore_opts *o, br_explore_
     if (!r->sw_ok || r->diode == -1)
         r->state = BR_EX_RATING;
     r->diode = r->diode < 0 ? -1 : r->diode;
-    r->cost = cost_of(t, o, r, n);
 }
 
 static double default_target(const br_design *t, const br_explore_opts *o)
@@ -450,6 +532,11 @@ static int judge_row(const br_design *t, const br_explore_opts *o, double target
         return BR_OK;
     br_design *d = NULL;
     TRY(br_explore_design(t, o, r, &d, err));
+    r->cost = cost_of(d, o, r, 2 * (r->levels - 1));
+    if (r->state != BR_EX_FEASIBLE) {
+        br_design_free(d);
+        return BR_OK;
+    }
     int rc = screen(d, o, target, e, r, err);
     if (rc == BR_OK && r->state == BR_EX_FEASIBLE && o->corners)
         rc = corners(d, o, target, r, err);

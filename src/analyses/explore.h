@@ -76,6 +76,7 @@ typedef struct br_explore_opts {
     double max_startup;          /* s (HUGE_VAL: the template's limit only) */
     double max_cost;             /* currency units (HUGE_VAL: none) */
     int corners;                 /* judge survivors at their worst corners */
+    int scale_caps;              /* the rail capacitors by the scaling rule (else the template's) */
     int threads;                 /* worker threads of the corner judgement (0: all) */
     const br_progress *progress; /* combinations judged; stop poll */
 } br_explore_opts;

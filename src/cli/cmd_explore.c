@@ -39,7 +39,7 @@ static const char ABOUT[] =
 typedef struct args {
     const char *catalog, *vin, *levels, *fsw, *iload, *derating, *margin, *max_startup, *max_cost,
         *threads, *csv, *svg, *designs;
-    int quiet, corners;
+    int quiet, corners, scale_caps;
 } args;
 
 typedef struct outputs {
@@ -135,6 +135,7 @@ static int options(const args *a, br_explore_opts *eo)
 {
     br_explore_opts_default(eo);
     eo->corners = a->corners;
+    eo->scale_caps = a->scale_caps;
     if (!a->catalog || !a->vin || !a->levels || !a->fsw)
         return br_cli_usage_error("explore", "--catalog, --vin, --levels and --fsw are required");
     if (parse_vin(a->vin, eo) || parse_levels(a->levels, eo) || parse_fsw(a->fsw, eo))
@@ -247,6 +248,8 @@ int cmd_explore(int argc, char **argv)
          "smallest margin in volts (default: a quarter of the UVLO hysteresis)"},
         {BR_OPT_STRING, "max-startup", "S", &a.max_startup, "longest start-up accepted"},
         {BR_OPT_STRING, "max-cost", "X", &a.max_cost, "highest cost of the catalog parts placed"},
+        {BR_OPT_FLAG, "scale-caps", NULL, &a.scale_caps,
+         "rail capacitors scaled by the rails each carries (default: the design's)"},
         {BR_OPT_FLAG, "corners", NULL, &a.corners,
          "judge the survivors at their worst corners too (slow)"},
         {BR_OPT_STRING, "csv", "PATH", &a.csv, "every combination as CSV to PATH (- stdout)"},

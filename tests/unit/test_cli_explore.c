@@ -2,6 +2,7 @@
  * end to end (report, CSV, plots, the front's design files), the
  * combinations the rule of the trade must reject, the front's design
  * files loading and passing `analyze`, and bad input. */
+#include "analyses/explore.h"
 #include "runbin.h"
 #include "testkit.h"
 
@@ -124,15 +125,16 @@ static void test_small(void)
     files_drop(&f);
 }
 
-/* Every front member's design file loads and passes `analyze`, and the
- * number of files is the front's size in the CSV. */
+/* Every front member's design file (rail capacitors scaled: parts of its
+ * own) loads and passes `analyze`, and the number of files is the
+ * front's size in the CSV. */
 static void test_front_designs(void)
 {
     files f;
     files_make(&f);
     run_result r = run((const char *[]){"explore", LEG, "--catalog", SWITCHES, "--vin", "1.1k",
-                                        "--levels", "6:8", "--fsw", "60k,120k", "--csv", f.csv,
-                                        "--designs", f.dir, "--quiet", NULL});
+                                        "--levels", "6:9", "--fsw", "60k,120k", "--scale-caps",
+                                        "--csv", f.csv, "--designs", f.dir, "--quiet", NULL});
     CU_ASSERT_EQUAL(r.status, 0);
     done(&r);
     char *csv = br_test_slurp(f.csv, NULL);
@@ -204,6 +206,66 @@ static void test_bad_input(void)
     done(&r);
 }
 
+/* The capacitor of rail k of design d, F. */
+static double cap_of(const br_design *d, int k)
+{
+    return d->caps[br_design_stage(d, k)->cap].c.nom;
+}
+
+/* The scaling rule on the 7-level example (12 stages; rails 1 and 2 have
+ * 22 uF, the others 10 uF; 1.2 mA + 1.5 mA of driver current and 10 nC of
+ * gate charge at 120 kHz) made 9 levels (16 stages) with the 200 V switch
+ * (10 nC, a driver drawing the same).  Hand calculation, rail k carries
+ * 16 - k rails, the template's rail carrying as many is 12 - (16 - k):
+ *  - at 120 kHz the charge per rail is unchanged; rail 15 is the
+ *    template's rail 11 (10 uF), rail 6 its rail 2 (22 uF), rail 5 its
+ *    rail 1 (22 uF), rail 1 carries 15 rails where the template's rail 1
+ *    carries 11: 22 uF * 15 / 11 = 30 uF, 33 uF in E6; rail 4: 22 * 12 /
+ *    11 = 24 uF, 33 uF;
+ *  - at 60 kHz each rail gives 10 nC + 2.7 mA / 60 kHz = 55 nC a period
+ *    against 10 nC + 2.7 mA / 120 kHz = 32.5 nC: rail 15 needs 10 uF *
+ *    55 / 32.5 = 16.9 uF, 22 uF in E6.
+ * Without the rule the template's capacitors stay, counted from the
+ * bottom (rail 1 22 uF, rail 7 10 uF). */
+static void test_scale_caps(void)
+{
+    br_design *t = NULL;
+    br_catalog *cat = NULL;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_design_load(LEG, &t, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_catalog_load(SWITCHES, &cat, &err), BR_OK);
+    br_explore_opts o;
+    br_explore_opts_default(&o);
+    o.cat = cat;
+    o.vbus = o.vbus_max = 1100.0;
+    o.scale_caps = 1;
+    br_explore_row r = {.levels = 9, .fsw = 120e3, .sw = 0, .diode = -1, .need = 196.4};
+    br_design *d = NULL;
+    CU_ASSERT_EQUAL_FATAL(br_explore_design(t, &o, &r, &d, &err), BR_OK);
+    BR_ASSERT_REL(cap_of(d, 15), 10e-6, 1e-9);
+    BR_ASSERT_REL(cap_of(d, 6), 22e-6, 1e-9);
+    BR_ASSERT_REL(cap_of(d, 5), 22e-6, 1e-9);
+    BR_ASSERT_REL(cap_of(d, 4), 33e-6, 1e-9);
+    BR_ASSERT_REL(cap_of(d, 1), 33e-6, 1e-9);
+    BR_ASSERT_REL(br_design_stage(d, 1)->r_link.nom, 0.5, 1e-12);
+    br_design_free(d);
+    r.fsw = 60e3;
+    CU_ASSERT_EQUAL_FATAL(br_explore_design(t, &o, &r, &d, &err), BR_OK);
+    BR_ASSERT_REL(cap_of(d, 15), 22e-6, 1e-9);
+    br_design_free(d);
+    o.scale_caps = 0;
+    CU_ASSERT_EQUAL_FATAL(br_explore_design(t, &o, &r, &d, &err), BR_OK);
+    BR_ASSERT_REL(cap_of(d, 1), 22e-6, 1e-9);
+    BR_ASSERT_REL(cap_of(d, 7), 10e-6, 1e-9);
+    CU_ASSERT_EQUAL(d->levels, 9);
+    BR_ASSERT_REL(d->fsw.nom, 60e3, 1e-12);
+    CU_ASSERT_STRING_EQUAL(d->switches[br_design_stage(d, 3)->sw].id, "gan-200v-g");
+    CU_ASSERT_STRING_EQUAL(d->drivers[br_design_stage(d, 3)->driver].id, "iso-drv-basic");
+    br_design_free(d);
+    br_catalog_free(cat);
+    br_design_free(t);
+}
+
 static void test_help_golden(void)
 {
     run_result a = run((const char *[]){"explore", "--help", NULL});
@@ -223,6 +285,7 @@ int main(void)
         {"the front's design files pass analyze", test_front_designs},
         {"the rule rejects what it must", test_none_feasible},
         {"bad input", test_bad_input},
+        {"the capacitor scaling rule by hand", test_scale_caps},
         {"help (golden)", test_help_golden},
         {NULL, NULL},
     };
