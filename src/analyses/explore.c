@@ -544,14 +544,27 @@ static int judge_row(const br_design *t, const br_explore_opts *o, double target
     return rc;
 }
 
+int br_explore_shard_has(const br_explore_opts *o, int i)
+{
+    return o->shard_n <= 0 || i % o->shard_n == o->shard_k - 1;
+}
+
 static int run_rows(const br_design *t, const br_explore_opts *o, br_explore *x, br_error *err)
 {
+    if (o->given) { /* merged from shards: the rows as they were judged */
+        if (o->ngiven != x->n)
+            return br_error_set(err, BR_EINPUT, NULL, 0, "points",
+                                "the shards hold %ld combinations, expected %d", o->ngiven, x->n);
+        memcpy(x->rows, o->given, sizeof *x->rows * (size_t)x->n);
+        return BR_OK;
+    }
     br_evaluation *e = malloc(sizeof *e);
     if (!e)
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     int rc = BR_OK;
     for (int i = 0; rc == BR_OK && i < x->n; i++) {
-        rc = judge_row(t, o, x->target, e, &x->rows[i], err);
+        if (br_explore_shard_has(o, i))
+            rc = judge_row(t, o, x->target, e, &x->rows[i], err);
         if (rc == BR_OK)
             rc = br_progress_call(o->progress, i + 1, x->n, err);
     }

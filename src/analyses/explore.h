@@ -63,6 +63,8 @@ typedef enum br_explore_state {
     BR_EX_REFUSED       /* the model refuses the design built (why: the row's note) */
 } br_explore_state;
 
+typedef struct br_explore_row br_explore_row;
+
 typedef struct br_explore_opts {
     const br_catalog *cat; /* switches (required), diodes, drivers */
     double vbus, vbus_max; /* nominal and highest bus voltage, V */
@@ -79,6 +81,13 @@ typedef struct br_explore_opts {
     int scale_caps;              /* the rail capacitors by the scaling rule (else the template's) */
     int threads;                 /* worker threads of the corner judgement (0: all) */
     const br_progress *progress; /* combinations judged; stop poll */
+    /* A shard (shard_n > 0): the combinations i with i % shard_n ==
+     * shard_k - 1 are judged, the others get the rule only.  Merging
+     * shards: `given` holds every row as the shards judged it (n of them,
+     * in the order judged), and nothing is judged again. */
+    int shard_k, shard_n;
+    const br_explore_row *given;
+    long ngiven;
 } br_explore_opts;
 
 typedef struct br_explore_row {
@@ -127,6 +136,10 @@ int br_explore_design(const br_design *t, const br_explore_opts *o, const br_exp
  * (higher) and better in one.  Then rank the feasible rows: front first,
  * then by margin (highest first), cost, loss.  Returns the front's size. */
 int br_explore_pareto(br_explore_row *rows, int n);
+
+/* Whether shard o->shard_k of o->shard_n judges combination i (every one
+ * without a shard). */
+int br_explore_shard_has(const br_explore_opts *o, int i);
 
 /* "feasible", "rating", ... */
 const char *br_explore_state_name(int state);

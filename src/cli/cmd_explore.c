@@ -3,6 +3,7 @@
  * template design, each judged; the feasible set ranked, its Pareto front
  * of cost, gate-supply loss and margin, and the front's design files. */
 #include "cli.h"
+#include "shard.h"
 
 #include "analyses/explore.h"
 #include "core/error.h"
@@ -32,13 +33,15 @@ static const char ABOUT[] =
     "second isolated supply there (not simulated: the model has one supply).\n"
     "The report ranks the feasible set and marks its Pareto front of cost,\n"
     "supply power and margin; --csv, --svg and --designs DIR (the front's design\n"
-    "files) write the rest.\n"
+    "files) write the rest. --shard K/N judges every N-th combination only and\n"
+    "writes a shard file (--shard-file, default stdout); 'bootrung merge' puts\n"
+    "the N files together into this verb's output.\n"
     "Exit status 0 when some combination is feasible, 1 when none is, 3 when\n"
     "none is and some could not be decided, 2 for bad input.\n";
 
 typedef struct args {
     const char *catalog, *vin, *levels, *fsw, *iload, *derating, *margin, *max_startup, *max_cost,
-        *threads, *csv, *svg, *designs;
+        *threads, *csv, *svg, *designs, *shard, *shard_file;
     int quiet, corners, scale_caps;
 } args;
 
@@ -200,6 +203,8 @@ static int compute(const char *path, const args *a, br_explore_opts *eo, outputs
     eo->cat = o->cat;
     if (rc == BR_OK)
         rc = br_explore_run(o->d, eo, &o->x, err);
+    if (eo->shard_n > 0) /* a slice: no report */
+        return rc;
     if (rc == BR_OK)
         rc = br_explore_text(o->x, o->cat, path, o->text);
     if (rc == BR_OK && o->csv)
@@ -231,7 +236,42 @@ static int write_all(const args *a, outputs *o)
     return status;
 }
 
+/* The shard's combinations. */
+static int write_shard(int argc, char **argv, const char *path, const args *a,
+                       const br_explore_opts *eo, const br_explore *x)
+{
+    unsigned char *mine = malloc((size_t)x->n);
+    if (!mine) {
+        fprintf(stderr, "bootrung: explore: out of memory\n");
+        return BR_EXIT_INPUT;
+    }
+    for (int i = 0; i < x->n; i++)
+        mine[i] = (unsigned char)br_explore_shard_has(eo, i);
+    br_shard_head h = {argc, argv,      path, eo->shard_k, eo->shard_n, sizeof *x->rows,
+                       x->n, a->catalog};
+    int status = br_cli_shard_write(&h, x->rows, mine, a->shard_file ? a->shard_file : "-");
+    free(mine);
+    return status;
+}
+
+/* The rows merged from shards. */
+static int take_given(br_explore_opts *eo, const br_cli_given *given)
+{
+    if (!given)
+        return BR_EXIT_OK;
+    if (given->size != sizeof(br_explore_row))
+        return br_cli_usage_error("merge", "the shards' records are not explore's");
+    eo->given = given->rec;
+    eo->ngiven = given->total;
+    return BR_EXIT_OK;
+}
+
 int cmd_explore(int argc, char **argv)
+{
+    return br_cli_explore_main(argc, argv, NULL);
+}
+
+int br_cli_explore_main(int argc, char **argv, const br_cli_given *given)
 {
     args a = {0};
     const br_opt opts[] = {
@@ -258,6 +298,10 @@ int cmd_explore(int argc, char **argv)
          "the design file of each front member into DIR (explore-RANK.xml)"},
         {BR_OPT_STRING, "threads", "N", &a.threads,
          "worker threads of --corners (default: one per processor)"},
+        {BR_OPT_STRING, "shard", "K/N", &a.shard,
+         "judge every N-th combination from the K-th only, write a shard file"},
+        {BR_OPT_STRING, "shard-file", "PATH", &a.shard_file,
+         "the shard file's path (default - stdout)"},
         {BR_OPT_FLAG, "quiet", NULL, &a.quiet, BR_QUIET_HELP},
         {BR_OPT_END, NULL, NULL, NULL, NULL},
     };
@@ -267,11 +311,16 @@ int cmd_explore(int argc, char **argv)
     if (parsed != 0)
         return br_cli_parse_status(parsed);
     br_explore_opts eo;
-    if (options(&a, &eo) != BR_EXIT_OK)
+    if (options(&a, &eo) != BR_EXIT_OK ||
+        (a.shard && br_cli_shard_parse("explore", a.shard, &eo.shard_k, &eo.shard_n)) ||
+        take_given(&eo, given))
         return BR_EXIT_INPUT;
-    const char *const out[] = {a.csv, a.svg}, *const names[] = {"csv", "svg"};
+    if (a.shard_file && !a.shard)
+        return br_cli_usage_error("explore", "--shard-file without --shard");
+    const char *const out[] = {a.csv, a.svg, a.shard_file};
+    const char *const names[] = {"csv", "svg", "shard-file"};
     const char *const in[] = {pos[0], a.catalog};
-    if (br_cli_outputs("explore", names, out, 2, in, 2) != BR_EXIT_OK)
+    if (br_cli_outputs("explore", names, out, 3, in, 2) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
     outputs o = {0};
     br_error err;
@@ -283,10 +332,12 @@ int cmd_explore(int argc, char **argv)
     int status = br_cli_run_commit(&lr);
     if (status == BR_EXIT_OK && rc != BR_OK)
         status = br_cli_fail(&err, rc == BR_EINPUT && err.file[0] ? err.file : pos[0]);
+    else if (status == BR_EXIT_OK && eo.shard_n > 0)
+        status = write_shard(argc, argv, pos[0], &a, &eo, o.x);
     else if (status == BR_EXIT_OK)
         status = write_all(&a, &o);
     br_cli_run_end(&lr);
-    if (status == BR_EXIT_OK) {
+    if (status == BR_EXIT_OK && eo.shard_n == 0) {
         int oc = br_explore_outcome(o.x);
         status = oc == BR_OUTCOME_PASS   ? BR_EXIT_OK
                  : oc == BR_OUTCOME_FAIL ? BR_EXIT_FAIL
