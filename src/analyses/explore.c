@@ -590,6 +590,7 @@ int br_explore_run(const br_design *t, const br_explore_opts *o, br_explore **ou
     x->vbus = o->vbus;
     x->vbus_max = o->vbus_max;
     x->derating = derating_of(t, o);
+    x->corners = o->corners;
     lay_out(t, o, x);
     int rc = run_rows(t, o, x, err);
     if (rc != BR_OK) {

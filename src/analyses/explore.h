@@ -112,6 +112,7 @@ typedef struct br_explore_row {
 
 typedef struct br_explore {
     double target; /* V */
+    int corners;   /* the feasible rows were judged at their worst corners */
     double vbus, vbus_max, derating;
     int n;                /* combinations */
     br_explore_row *rows; /* n, in the order judged */

@@ -101,27 +101,32 @@ static void feasible_row(br_table *t, const br_explore_row *r, const br_catalog 
     br_table_set(t, 8, "%.1f", r->loss * 1e3);
     br_table_set(t, 9, "%.3f", r->margin);
     br_table_set(t, 10, "%.3f", r->tstart * 1e3);
-    br_table_set(t, 11, "%s", r->corners ? "corners" : "nominal");
 }
 
 static int feasible(const br_explore *x, const br_catalog *cat, br_text *out)
 {
     if (x->nfeasible == 0)
         return br_text_put(out, "feasible: none\n\n");
-    static const char *const heads[] = {"rank",    "front",    "levels",   "switch",
-                                        "class V", "diode",    "fsw kHz",  "cost",
-                                        "loss mW", "margin V", "start ms", "judged at"};
-    br_table *t = br_table_create(12, x->nfeasible);
+    static const char *const heads[] = {"rank",    "front",    "levels",  "switch",
+                                        "class V", "diode",    "fsw kHz", "cost",
+                                        "loss mW", "margin V", "start ms"};
+    br_table *t = br_table_create(11, x->nfeasible);
     if (!t)
         return BR_ENOMEM;
-    for (int c = 0; c < 12; c++)
-        br_table_head(t, c, heads[c], c == 3 || c == 5 || c == 11 ? 0 : 1);
+    for (int c = 0; c < 11; c++)
+        br_table_head(t, c, heads[c], c == 3 || c == 5 ? BR_LEFT : BR_RIGHT);
     for (int k = 1; k <= x->nfeasible; k++)
         for (int i = 0; i < x->n; i++)
             if (x->rows[i].rank == k)
                 feasible_row(t, &x->rows[i], cat);
-    int rc = br_text_put(out, "feasible, ranked (front first, then margin, cost, loss; "
-                              "* on the Pareto front of cost, loss and margin):\n");
+    int rc = br_report_wrap(out, "feasible, ",
+                            x->corners ? "ranked (front first, then margin, cost, loss; * on the "
+                                         "Pareto front of cost, loss and margin; margins at the "
+                                         "worst corners):"
+                                       : "ranked (front first, then margin, cost, loss; * on the "
+                                         "Pareto front of cost, loss and margin; margins at the "
+                                         "nominal point):",
+                            2);
     rc |= br_table_render(t, 2, out);
     rc |= br_text_put(out, "\n");
     br_table_free(t);

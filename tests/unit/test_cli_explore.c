@@ -97,6 +97,12 @@ static void test_small(void)
     CU_ASSERT_TRUE(has(r.out, "18 combinations"));
     CU_ASSERT_TRUE(has(r.out, "verdict: PASS"));
     CU_ASSERT_TRUE(has(r.out, "lethal voltages"));
+    for (const char *l = r.out; *l;) { /* reports keep to 100 columns */
+        const char *e = strchr(l, '\n');
+        size_t len = e ? (size_t)(e - l) : strlen(l);
+        CU_ASSERT_TRUE(len <= 100);
+        l += len + (e != NULL);
+    }
     char *csv = br_test_slurp(f.csv, NULL);
     CU_ASSERT_PTR_NOT_NULL_FATAL(csv);
     CU_ASSERT_EQUAL(count_lines(csv), 19);
