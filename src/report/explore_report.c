@@ -245,9 +245,34 @@ static void level_range(const br_explore *x, int *lo, int *hi)
     }
 }
 
+/* One frequency's line, broken where a level count has nothing feasible
+ * (a line across the gap would claim values there), with a mark at each
+ * point. */
+static void series(br_plot *p, const br_explore *x, int what, double fsw, int j, int lo, int hi)
+{
+    double lx[MAX_LEVELS], ly[MAX_LEVELS];
+    char key[64];
+    snprintf(key, sizeof key, "%s_%.0fHz", what == 0 ? "margin_V" : "cost", fsw);
+    br_style st = br_plot_style(j);
+    int n = 0;
+    for (int l = lo; l <= hi + 1; l++) {
+        double v = l <= hi ? best_at(x, l, fsw, what) : NAN;
+        if (!isnan(v)) {
+            lx[n] = l;
+            ly[n++] = v;
+            br_svg_circle(p->svg, br_plot_px(p, l), br_plot_py(p, v), 3.5, st.colour, st.colour,
+                          1.0);
+            continue;
+        }
+        if (n > 1)
+            br_plot_line(p, lx, ly, n, 1, &st, key);
+        n = 0;
+    }
+}
+
 static void panel(br_svg *s, const br_explore *x, int what, double px, double py)
 {
-    double f[BR_EXPLORE_MAX_FSW], lx[MAX_LEVELS], ly[MAX_LEVELS];
+    double f[BR_EXPLORE_MAX_FSW];
     int nf = freqs(x, f), lo, hi;
     level_range(x, &lo, &hi);
     double ymin = HUGE_VAL, ymax = -HUGE_VAL;
@@ -267,23 +292,8 @@ static void panel(br_svg *s, const br_explore *x, int what, double px, double py
     br_plot_axes(&p, what == 0 ? "explore-margin" : "explore-cost",
                  what == 0 ? "smallest margin, best switch class" : "cost, cheapest switch class",
                  "levels", "", what == 0 ? "margin" : "cost", what == 0 ? "V" : "");
-    for (int j = 0; j < nf; j++) {
-        int n = 0;
-        for (int l = lo; l <= hi; l++) {
-            double v = best_at(x, l, f[j], what);
-            if (!isnan(v)) {
-                lx[n] = l;
-                ly[n++] = v;
-            }
-        }
-        char key[64];
-        snprintf(key, sizeof key, "%s_%.0fHz", what == 0 ? "margin_V" : "cost", f[j]);
-        br_style st = br_plot_style(j);
-        br_plot_line(&p, lx, ly, n, 1, &st, key);
-        for (int i = 0; i < n; i++)
-            br_svg_circle(s, br_plot_px(&p, lx[i]), br_plot_py(&p, ly[i]), 3.5, st.colour,
-                          st.colour, 1.0);
-    }
+    for (int j = 0; j < nf; j++)
+        series(&p, x, what, f[j], j, lo, hi);
     br_plot_done(&p);
 }
 
