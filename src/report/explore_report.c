@@ -15,7 +15,7 @@ int br_explore_outcome(const br_explore *x)
 {
     int undet = 0;
     for (int i = 0; i < x->n; i++)
-        undet |= x->rows[i].state == BR_EX_UNDETERMINED;
+        undet |= x->rows[i].state == BR_EX_UNDETERMINED || x->rows[i].state == BR_EX_REFUSED;
     return x->nfeasible > 0 ? BR_OUTCOME_PASS : undet ? BR_OUTCOME_UNDETERMINED : BR_OUTCOME_FAIL;
 }
 
@@ -158,11 +158,12 @@ int br_explore_text(const br_explore *x, const br_catalog *cat, const char *desi
     rc |= feasible(x, cat, out);
     rc |= rejected(x, cat, out);
     int o = br_explore_outcome(x);
-    rc |= br_text_printf(out, "verdict: %s (%d of %d combinations feasible)\n\n",
+    rc |= br_text_printf(out, "verdict: %s (%d of %d combinations feasible, %s)\n\n",
                          o == BR_OUTCOME_PASS   ? "PASS"
                          : o == BR_OUTCOME_FAIL ? "FAIL"
                                                 : "UNDETERMINED",
-                         x->nfeasible, x->n);
+                         x->nfeasible, x->n,
+                         x->corners ? "at their worst corners" : "at the nominal point");
     rc |= br_text_put(out, "A chain that needs a second supply is reported, not simulated split: "
                            "the model has one\nsupply, at rail 0.\n\n");
     rc |= br_report_caution(out);

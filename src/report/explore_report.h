@@ -24,8 +24,9 @@ int br_explore_svg(const br_explore *x, br_text *out);
 int br_explore_comment(const br_explore *x, const br_catalog *cat, const br_explore_row *r,
                        const char *design, br_text *out);
 
-/* 0 some combination is feasible, 1 none is (and none is undetermined),
- * 3 none is and some is undetermined: a br_outcome. */
+/* Pass: some combination is feasible; fail: none is, and every one was
+ * decided; undetermined: none is, and some could not be decided (or the
+ * model refused its design).  A br_outcome. */
 int br_explore_outcome(const br_explore *x);
 
 #endif
