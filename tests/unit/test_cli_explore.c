@@ -139,7 +139,7 @@ static void test_front_designs(void)
     files f;
     files_make(&f);
     run_result r = run((const char *[]){"explore", LEG, "--catalog", SWITCHES, "--vin", "1.1k",
-                                        "--levels", "6:9", "--fsw", "60k,120k", "--scale-caps",
+                                        "--levels", "7:8", "--fsw", "60k,120k", "--scale-caps",
                                         "--csv", f.csv, "--designs", f.dir, "--quiet", NULL});
     CU_ASSERT_EQUAL(r.status, 0);
     done(&r);
@@ -162,6 +162,41 @@ static void test_front_designs(void)
         CU_ASSERT_TRUE(has(a.out, "verdict: PASS"));
         done(&a);
     }
+    files_drop(&f);
+}
+
+/* With --corners a survivor is judged again at its worst corners: its
+ * margin there is at most the nominal one (the nominal point is one of
+ * the points judged), and the CSV says it was. */
+static void test_corners(void)
+{
+    files f;
+    files_make(&f);
+    char nominal[96];
+    snprintf(nominal, sizeof nominal, "%s/n.csv", f.dir);
+    run_result r =
+        run((const char *[]){"explore", LEG, "--catalog", SWITCHES, "--vin", "1.1k", "--levels",
+                             "8:8", "--fsw", "60k", "--csv", nominal, "--quiet", NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    CU_ASSERT_TRUE(has(r.out, "at the nominal point)"));
+    done(&r);
+    r = run((const char *[]){"explore", LEG, "--catalog", SWITCHES, "--vin", "1.1k", "--levels",
+                             "8:8", "--fsw", "60k", "--corners", "--threads", "2", "--csv", f.csv,
+                             "--quiet", NULL});
+    CU_ASSERT_TRUE(r.status == 0 || r.status == 1);
+    CU_ASSERT_TRUE(has(r.out, "at their worst corners)"));
+    done(&r);
+    char *a = br_test_slurp(nominal, NULL), *b = br_test_slurp(f.csv, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(a);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(b);
+    const char *la = csv_line(a, "8,gan-200v-g,"), *lb = csv_line(b, "8,gan-200v-g,");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(la);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(lb);
+    CU_ASSERT_TRUE(strstr(la, ",feasible,") != NULL); /* survives the screen */
+    CU_ASSERT_EQUAL((int)field(lb, 13), 1);           /* judged at the corners */
+    CU_ASSERT_TRUE(field(lb, 9) <= field(la, 9) + 1e-12);
+    free(a);
+    free(b);
     files_drop(&f);
 }
 
@@ -290,6 +325,7 @@ int main(void)
         {"a small exploration end to end", test_small},
         {"the front's design files pass analyze", test_front_designs},
         {"the rule rejects what it must", test_none_feasible},
+        {"survivors at their worst corners", test_corners},
         {"bad input", test_bad_input},
         {"the capacitor scaling rule by hand", test_scale_caps},
         {"help (golden)", test_help_golden},
