@@ -218,21 +218,34 @@ static int compute(const char *path, const args *a, br_explore_opts *eo, outputs
     return rc;
 }
 
-static int write_all(const args *a, outputs *o)
+/* Every output, the front's design files included, checked against the
+ * inputs (a template named like a front member's file is not overwritten)
+ * and then written, all or none. */
+static int write_all(const args *a, const char *design, outputs *o)
 {
     int n = 2 + o->ndesigns;
     br_cli_file *files = calloc((size_t)n, sizeof *files);
-    if (!files) {
+    const char **paths = calloc((size_t)n, sizeof *paths);
+    const char **names = calloc((size_t)n, sizeof *names);
+    int status = files && paths && names ? BR_EXIT_OK : BR_EXIT_INPUT;
+    if (status != BR_EXIT_OK)
         fprintf(stderr, "bootrung: explore: out of memory\n");
-        return BR_EXIT_INPUT;
+    for (int i = 0; status == BR_EXIT_OK && i < n; i++) {
+        files[i] = i == 0   ? (br_cli_file){o->csv, a->csv}
+                   : i == 1 ? (br_cli_file){o->svg, a->svg}
+                            : (br_cli_file){o->design[i - 2], o->path[i - 2]};
+        paths[i] = files[i].path;
+        names[i] = i == 0 ? "csv" : i == 1 ? "svg" : "designs";
     }
-    files[0] = (br_cli_file){o->csv, a->csv};
-    files[1] = (br_cli_file){o->svg, a->svg};
-    for (int i = 0; i < o->ndesigns; i++)
-        files[2 + i] = (br_cli_file){o->design[i], o->path[i]};
+    const char *const in[] = {design, a->catalog};
+    if (status == BR_EXIT_OK)
+        status = br_cli_outputs("explore", names, paths, n, in, 2);
     static const char *const verdict[] = {"verdict:", NULL};
-    int status = br_cli_write(files, n, o->text, a->quiet, verdict, 0);
+    if (status == BR_EXIT_OK)
+        status = br_cli_write(files, n, o->text, a->quiet, verdict, 0);
     free(files);
+    free(paths);
+    free(names);
     return status;
 }
 
@@ -335,7 +348,7 @@ int br_cli_explore_main(int argc, char **argv, const br_cli_given *given)
     else if (status == BR_EXIT_OK && eo.shard_n > 0)
         status = write_shard(argc, argv, pos[0], &a, &eo, o.x);
     else if (status == BR_EXIT_OK)
-        status = write_all(&a, &o);
+        status = write_all(&a, pos[0], &o);
     br_cli_run_end(&lr);
     if (status == BR_EXIT_OK && eo.shard_n == 0) {
         int oc = br_explore_outcome(o.x);

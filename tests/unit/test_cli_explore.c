@@ -327,6 +327,7 @@ int main(void)
         {"the rule rejects what it must", test_none_feasible},
         {"survivors at their worst corners", test_corners},
         {"bad input", test_bad_input},
+        {"the front's files never overwrite the template", test_designs_not_over_input},
         {"the capacitor scaling rule by hand", test_scale_caps},
         {"help (golden)", test_help_golden},
         {NULL, NULL},
