@@ -307,6 +307,35 @@ static void test_scale_caps(void)
     br_design_free(t);
 }
 
+/* A template named like a front member's file, in the --designs folder, is
+ * an input: refused, and left as it was. */
+static void test_designs_not_over_input(void)
+{
+    files f;
+    files_make(&f);
+    char path[96];
+    snprintf(path, sizeof path, "%s/explore-1.xml", f.dir);
+    size_t n;
+    char *text = br_test_slurp(LEG, &n);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(text);
+    FILE *fp = fopen(path, "w");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(fp);
+    CU_ASSERT_EQUAL(fwrite(text, 1, n, fp), n);
+    fclose(fp);
+    run_result r =
+        run((const char *[]){"explore", path, "--catalog", SWITCHES, "--vin", "1.1k", "--levels",
+                             "8:8", "--fsw", "60k", "--designs", f.dir, NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    CU_ASSERT_TRUE(has(r.err, "does not overwrite an input"));
+    done(&r);
+    size_t m;
+    char *after = br_test_slurp(path, &m);
+    CU_ASSERT_TRUE(after && m == n && memcmp(after, text, n) == 0);
+    free(after);
+    free(text);
+    files_drop(&f);
+}
+
 static void test_help_golden(void)
 {
     run_result a = run((const char *[]){"explore", "--help", NULL});
