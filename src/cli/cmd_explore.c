@@ -149,8 +149,9 @@ static int options(const args *a, br_explore_opts *eo)
          parse_value("max-startup", a->max_startup, BR_KIND_TIME, 0, &eo->max_startup)) ||
         (a->max_cost && parse_value("max-cost", a->max_cost, BR_KIND_NUMBER, 0, &eo->max_cost)))
         return BR_EXIT_INPUT;
-    if (a->derating &&
-        (br_cli_fraction("explore", "derating", a->derating, &eo->derating) || !(eo->derating > 0)))
+    if (a->derating && br_cli_fraction("explore", "derating", a->derating, &eo->derating))
+        return BR_EXIT_INPUT;
+    if (a->derating && !(eo->derating > 0))
         return br_cli_usage_error("explore", "--derating '%s': expected a fraction above 0",
                                   a->derating);
     long v;
