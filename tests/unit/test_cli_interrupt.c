@@ -270,8 +270,9 @@ static void launch(const phase_case *pc, flight *f)
     CU_ASSERT_TRUE_FATAL(f->fo >= 0 && f->fe >= 0);
     char file[64];
     snprintf(file, sizeof file, "%s/result", f->dir);
-    const char *args[10];
-    for (int i = 0; i < 10; i++)
+    enum { NARGS = sizeof pc->args / sizeof pc->args[0] };
+    const char *args[NARGS];
+    for (int i = 0; i < NARGS; i++)
         args[i] = pc->args[i] && strcmp(pc->args[i], "@") == 0 ? file : pc->args[i];
     f->pid = spawn(args, f->out, f->fe);
     f->sent = 0;
