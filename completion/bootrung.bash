@@ -3,7 +3,7 @@
 # Installed to share/bash-completion/completions/bootrung; tests/lib/docs.sh
 # checks that every verb and option the program's help lists is here.
 
-_bootrung_verbs="check startup steady analyze window map corners yield pick supply netlist size merge help"
+_bootrung_verbs="check startup steady analyze window map corners yield pick supply netlist size explore merge help"
 
 # The options of one verb (--help and --quiet are everybody's).
 _bootrung_options()
@@ -22,6 +22,7 @@ _bootrung_options()
     supply) echo "--xml --report --threads --startup-method $common" ;;
     netlist) echo "--out --current --periods $common" ;;
     size) echo "--catalog --target --no-links --supply --write-design --threads --solver-limit --startup-method $common" ;;
+    explore) echo "--catalog --vin --levels --fsw --load-current --derating --min-margin --max-startup --max-cost --scale-caps --corners --csv --svg --designs --threads --shard --shard-file $common" ;;
     merge) echo "--help" ;;
     esac
 }
@@ -51,7 +52,7 @@ _bootrung()
         compopt -o filenames 2>/dev/null
         COMPREPLY=($(compgen -f -- "$cur"))
         return ;;
-    --pack)
+    --pack | --designs)
         compopt -o dirnames 2>/dev/null
         COMPREPLY=($(compgen -d -- "$cur"))
         return ;;
@@ -66,7 +67,8 @@ _bootrung()
         COMPREPLY=($(compgen -W "step-down step-up none" -- "$cur"))
         return ;;
     --solver-limit | --threads | --fmin | --fmax | --duty | --freq | --exhaustive | \
-        --samples | --seed | --min-yield | --top | --min-margin | --periods | --shard | --target)
+        --samples | --seed | --min-yield | --top | --min-margin | --periods | --shard | --target | \
+        --vin | --levels | --fsw | --load-current | --derating | --max-startup | --max-cost)
         return ;; # a number or a range: nothing to offer
     esac
     if [[ $cur == -* ]]; then

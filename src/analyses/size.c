@@ -656,28 +656,45 @@ void br_size_free(br_size *s)
     free(s);
 }
 
+static int judge_alone(sizer *q, const br_design *t, br_size_verdict *v, br_error *err)
+{
+    br_chain *c = malloc(sizeof *c);
+    int rc = c ? BR_OK : br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    if (rc == BR_OK)
+        rc = br_chain_build_nominal(q->d0, c, err);
+    if (rc == BR_OK)
+        prepare(q, c);
+    free(c);
+    br_spread_opts so;
+    br_spread_opts_default(&so);
+    so.threads = q->o->threads;
+    so.startup = 1;
+    so.meter = q->meter;
+    so.solver_limit = q->o->solver_limit;
+    if (rc == BR_OK)
+        rc = br_spread_create(q->d0, &so, &q->base, err);
+    if (rc == BR_OK)
+        rc = judge_whole(q, t, v, err);
+    br_spread_free(q->base);
+    return rc;
+}
+
 int br_size_judge(const br_design *d, const br_design *t, const br_size_opts *o, br_size_verdict *v,
                   br_error *err)
 {
     br_size *z = calloc(1, sizeof *z);
-    br_chain *c = malloc(sizeof *c);
-    int rc = z && c ? BR_OK : br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    if (!z)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     sizer q = {.d0 = d, .o = o, .z = z};
-    if (rc == BR_OK)
-        rc = br_chain_build_nominal(d, c, err);
-    if (rc == BR_OK)
-        prepare(&q, c);
-    br_spread_opts so;
-    br_spread_opts_default(&so);
-    so.threads = o->threads;
-    so.startup = 1;
-    so.solver_limit = o->solver_limit;
-    if (rc == BR_OK)
-        rc = br_spread_create(d, &so, &q.base, err);
-    if (rc == BR_OK)
-        rc = judge_whole(&q, t, v, err);
-    br_spread_free(q.base);
-    free(c);
+    /* the meter carries o's stop poll to every simulation of the spread */
+    br_meter meter;
+    int rc = br_meter_init(&meter, o->progress, 0.0, err);
+    if (rc == BR_OK) {
+        q.meter = &meter;
+        rc = judge_alone(&q, t, v, err);
+        rc = br_meter_status(&meter, rc, err);
+        br_meter_destroy(&meter);
+    }
     free(z);
     return rc;
 }

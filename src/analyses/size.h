@@ -132,7 +132,9 @@ void br_size_free(br_size *s);
 /* Judge design t (d with some parts or values changed, the same topology
  * and stages) as the search judges a value: at its worst corners from d's
  * spread, cold start included when the steady-state criteria qualify,
- * against o's target (o->cat is not used).  For checks and tests. */
+ * against o's target (o->cat is not used); o->progress counts its points
+ * and its stop poll stops it (BR_ECANCEL).  For the exploration, checks
+ * and tests. */
 int br_size_judge(const br_design *d, const br_design *t, const br_size_opts *o, br_size_verdict *v,
                   br_error *err);
 

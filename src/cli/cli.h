@@ -196,6 +196,7 @@ int cmd_map(int argc, char **argv);
 int cmd_supply(int argc, char **argv);
 int cmd_netlist(int argc, char **argv);
 int cmd_size(int argc, char **argv);
+int cmd_explore(int argc, char **argv);
 int cmd_merge(int argc, char **argv);
 
 /* The shared body of the analysis verbs: options --xml/--csv/--quiet, the

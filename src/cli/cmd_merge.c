@@ -13,15 +13,16 @@
 #include <string.h>
 
 static const char ABOUT[] =
-    "Merge the shard files of one sweep: map or yield run N times with\n"
+    "Merge the shard files of one sweep: map, yield or explore run N times with\n"
     "--shard 1/N ... --shard N/N, each judging its own slice of the points.\n"
     "The files must come from the same version of bootrung on the same kind of\n"
-    "machine, with the same arguments and the same design file (unchanged since),\n"
-    "and hold every shard once. merge then writes the report and every file the\n"
-    "arguments ask for, exactly as the run without --shard would have (yield\n"
-    "judges its nominal and one-at-a-time points again, in seconds; the samples\n"
-    "come from the shards). Run it where the arguments' paths lead to the design\n"
-    "file and to where the outputs should go.\n"
+    "machine, with the same arguments, the same design file and (explore) the\n"
+    "same catalog, unchanged since, and hold every shard once. merge then writes\n"
+    "the report and every file the arguments ask for, exactly as the run without\n"
+    "--shard would have (yield judges its nominal and one-at-a-time points\n"
+    "again, in seconds; the samples come from the shards). Run it where the\n"
+    "arguments' paths lead to the design file and to where the outputs should\n"
+    "go.\n"
     "Exit status: that of the verb merged; 2 when the shards do not fit together.\n";
 
 #define MAX_LINE 64
@@ -234,16 +235,20 @@ static int unpack_args(const merged *m, char **argv, int max, char *verb)
     return argc;
 }
 
-/* The design file as the shards saw it. */
-static int same_design(const merged *m, const char *path)
+/* The file of header line `key` ("design", "input") as the shards saw it. */
+static int same_file(const merged *m, const char *path, const char *key)
 {
-    const char *p = strstr(m->head, "\ndesign ");
+    char look[16];
+    snprintf(look, sizeof look, "\n%s ", key);
+    const char *p = strstr(m->head, look);
     unsigned long long hash;
-    long size, used = 0;
+    long size;
     char hex[2 * 4096 + 3], file[4097];
-    if (!p || sscanf(p, "\ndesign %llx %ld %8194s%ln", &hash, &size, hex, &used) != 3 ||
+    if (!p && strcmp(key, "input") == 0)
+        return BR_EXIT_OK; /* a verb with one input */
+    if (!p || sscanf(p + strlen(look), "%llx %ld %8194s", &hash, &size, hex) != 3 ||
         strlen(hex) > 2 * 4096 || unhex(hex, (unsigned char *)file, strlen(hex) / 2) != 0)
-        return fail(path, 0, "%s: no design line", "design");
+        return fail(path, 0, "%s: no %s line", key, key);
     file[strlen(hex) / 2] = '\0';
     br_error err;
     br_error_clear(&err);
@@ -252,8 +257,15 @@ static int same_design(const merged *m, const char *path)
     if (br_cli_shard_hash(file, &now, &now_size, &err) != BR_OK)
         return br_cli_fail(&err, file);
     if (now != hash || now_size != size)
-        return fail(file, 0, "%s: the design file changed since the shards ran", "design");
+        return fail(file, 0, "%s: the %s file changed since the shards ran", key,
+                    strcmp(key, "design") == 0 ? "design" : "input");
     return BR_EXIT_OK;
+}
+
+static int same_design(const merged *m, const char *path)
+{
+    int status = same_file(m, path, "design");
+    return status == BR_EXIT_OK ? same_file(m, path, "input") : status;
 }
 
 static int dispatch(const merged *m, const char *path)
@@ -271,6 +283,8 @@ static int dispatch(const merged *m, const char *path)
         status = br_cli_map_main(argc, argv, &given);
     else if (strcmp(verb, "yield") == 0)
         status = br_cli_yield_main(argc, argv, &given);
+    else if (strcmp(verb, "explore") == 0)
+        status = br_cli_explore_main(argc, argv, &given);
     else
         status = fail(path, 0, "verb: '%s' has no shards", verb);
     for (int i = 1; i < argc; i++)

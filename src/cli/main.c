@@ -31,6 +31,8 @@ static const br_verb verbs[] = {
     {"supply", cmd_supply, "smallest current limit and supply voltage window at the worst corners"},
     {"netlist", cmd_netlist, "the chain as a Berkeley SPICE3 netlist for another simulator"},
     {"size", cmd_size, "size rail capacitors and link resistance to a margin target"},
+    {"explore", cmd_explore,
+     "explore level counts, switch classes and frequencies around a design"},
     {"merge", cmd_merge, "put the shard files of a sweep (--shard K/N) back together"},
     {NULL, NULL, NULL},
 };

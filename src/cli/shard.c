@@ -13,6 +13,7 @@
  *   program VERSION RECORD-BYTES LAYOUT-CHECK
  *   verb map
  *   design HASH BYTES HEXPATH  FNV-1a 64 of the design file, its size, its path
+ *   input HASH BYTES HEXPATH   the same of another input (explore's catalog), when there is one
  *   arg HEX                    each argument of the verb, hex-coded
  *   shard K N
  *   points TOTAL
@@ -127,6 +128,14 @@ static int put_head(br_text *t, const br_shard_head *h, br_error *err)
                          size);
     rc |= br_cli_shard_hex(t, h->design, strlen(h->design));
     rc |= br_text_put(t, "\n");
+    if (rc == BR_OK && h->other) {
+        rc = br_cli_shard_hash(h->other, &hash, &size, err);
+        if (rc != BR_OK)
+            return rc;
+        rc |= br_text_printf(t, "input %016llx %ld ", (unsigned long long)hash, size);
+        rc |= br_cli_shard_hex(t, h->other, strlen(h->other));
+        rc |= br_text_put(t, "\n");
+    }
     for (int i = 1, opts = 1; i < h->argc; i++) {
         if (opts && strcmp(h->argv[i], "--") == 0)
             opts = 0;

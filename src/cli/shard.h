@@ -17,6 +17,8 @@ typedef struct br_shard_head {
     int k, n;           /* shard K of N */
     size_t size;        /* bytes of one record */
     long total;         /* records of the whole run */
+    const char *other;  /* another input file whose identity is checked like the
+                           design's (a catalog), or NULL */
 } br_shard_head;
 
 /* --shard K/N; on a bad value a usage error and BR_EXIT_INPUT. */
@@ -47,5 +49,6 @@ typedef struct br_cli_given {
 /* The verbs with their points given (merge) or judged (given NULL). */
 int br_cli_map_main(int argc, char **argv, const br_cli_given *given);
 int br_cli_yield_main(int argc, char **argv, const br_cli_given *given);
+int br_cli_explore_main(int argc, char **argv, const br_cli_given *given);
 
 #endif

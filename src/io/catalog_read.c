@@ -1,6 +1,7 @@
 /* catalog_read.c - loading a part catalog: the bytes, a safe parse, the
  * embedded RELAX NG schema (src/io/catalog.rng), then the parts through
- * the design file's own part readers, and each part's cost and area.
+ * the design file's own part readers, and each part's cost and area (and a
+ * switch's voltage class and driver).
  *
  * The same safety rules as for design files (design_xml.c): a size limit,
  * no network, no DTD, no entity substitution, and any DOCTYPE refused;
@@ -54,22 +55,69 @@ static int read_offer(br_rd *r, xmlNode *n, br_offer *o)
     return BR_OK;
 }
 
+/* A switch's voltage class: a plain voltage, at most what any bus in a
+ * design may be. */
+static const br_range r_class = {0.0, 1e6, 1, 0, "a voltage above 0 V up to 1 MV"};
+
+/* The offer of each part, in the order the part readers took them, and a
+ * switch's voltage class and driver (its driver attribute names a driver
+ * of the catalog, resolved once every part is read). */
+typedef struct counts {
+    int nd, nc, ns, ndrv;
+    xmlNode *sw_node[BR_MAX_PARTS];
+} counts;
+
+static int read_extras(br_rd *r, xmlNode *n, br_catalog *cat, counts *k)
+{
+    const char *name = (const char *)n->name;
+    if (strcmp(name, "diode") == 0)
+        return read_offer(r, n, &cat->diode_offer[k->nd++]);
+    if (strcmp(name, "capacitor") == 0)
+        return read_offer(r, n, &cat->cap_offer[k->nc++]);
+    if (strcmp(name, "driver") == 0)
+        return read_offer(r, n, &cat->driver_offer[k->ndrv++]);
+    k->sw_node[k->ns] = n;
+    BR_TRY(
+        br_rd_value(r, n, "rating", BR_KIND_VOLTAGE, &r_class, &cat->switch_rating[k->ns], NULL));
+    return read_offer(r, n, &cat->switch_offer[k->ns++]);
+}
+
+static int resolve_driver(br_rd *r, xmlNode *n, const br_design *parts, int *out)
+{
+    char id[BR_ID_MAX];
+    *out = -1;
+    int len = br_xml_attr(n, "driver", id, sizeof id);
+    if (len == 0)
+        return BR_OK;
+    for (int i = 0; len > 0 && i < parts->ndrivers; i++)
+        if (strcmp(parts->drivers[i].id, id) == 0) {
+            *out = i;
+            return BR_OK;
+        }
+    return br_rd_fail(r, n, "driver", "names no <driver> of this catalog, expected the id of one");
+}
+
 /* The parts through the design reader's own part readers (into a scratch
  * design), then each part's offer in the same order. */
 static int read_catalog(br_rd *r, xmlNode *root, br_catalog *cat)
 {
-    int nd = 0, nc = 0;
+    counts k;
+    memset(&k, 0, sizeof k);
     if (br_xml_attr(root, "name", cat->name, sizeof cat->name) < 0)
         return br_rd_fail(r, root, "name", "longer than %zu characters", sizeof cat->name - 1);
     BR_TRY(br_rd_parts(r, root));
-    for (xmlNode *n = br_xml_child(root, NULL); n; n = br_xml_next(n, NULL)) {
-        int diode = xmlStrcmp(n->name, BAD_CAST "diode") == 0;
-        BR_TRY(read_offer(r, n, diode ? &cat->diode_offer[nd++] : &cat->cap_offer[nc++]));
-    }
+    for (xmlNode *n = br_xml_child(root, NULL); n; n = br_xml_next(n, NULL))
+        BR_TRY(read_extras(r, n, cat, &k));
+    for (int i = 0; i < k.ns; i++)
+        BR_TRY(resolve_driver(r, k.sw_node[i], r->d, &cat->switch_driver[i]));
     cat->ndiodes = r->d->ndiodes;
     cat->ncaps = r->d->ncaps;
+    cat->nswitches = r->d->nswitches;
+    cat->ndrivers = r->d->ndrivers;
     memcpy(cat->diodes, r->d->diodes, sizeof cat->diodes);
     memcpy(cat->caps, r->d->caps, sizeof cat->caps);
+    memcpy(cat->switches, r->d->switches, sizeof cat->switches);
+    memcpy(cat->drivers, r->d->drivers, sizeof cat->drivers);
     return BR_OK;
 }
 

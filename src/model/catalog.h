@@ -1,4 +1,5 @@
-/* catalog.h - candidate parts for `pick`: link diodes and rail capacitors
+/* catalog.h - candidate parts for `pick` (link diodes and rail capacitors)
+ * and for the exploration (switches by voltage class, and their drivers),
  * with what each costs and the board area it takes.
  *
  * The io layer fills a catalog from our own XML (docs/catalog.md, schema
@@ -23,6 +24,13 @@ typedef struct br_catalog {
     br_offer diode_offer[BR_MAX_PARTS];
     br_cap_part caps[BR_MAX_PARTS];
     br_offer cap_offer[BR_MAX_PARTS];
+    int nswitches, ndrivers;
+    br_switch_part switches[BR_MAX_PARTS];
+    br_offer switch_offer[BR_MAX_PARTS];
+    double switch_rating[BR_MAX_PARTS]; /* the switch's voltage class (drain-source), V */
+    int switch_driver[BR_MAX_PARTS];    /* index into drivers (-1: the design's own) */
+    br_driver_part drivers[BR_MAX_PARTS];
+    br_offer driver_offer[BR_MAX_PARTS];
 } br_catalog;
 
 /* Parse and validate the catalog file at path (io layer).  On failure

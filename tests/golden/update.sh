@@ -8,7 +8,7 @@ bin=${1:-build}/bootrung
 [ -x "$bin" ] || { echo "no $bin: build first (tests/run.sh)" >&2; exit 2; }
 "$bin" --help >tests/golden/help.txt
 "$bin" check --help >tests/golden/check-help.txt
-for verb in startup steady analyze window map corners yield pick supply netlist size merge; do
+for verb in startup steady analyze window map corners yield pick supply netlist size explore merge; do
     "$bin" "$verb" --help >"tests/golden/$verb-help.txt"
 done
 for f in examples/*.xml; do

@@ -37,6 +37,7 @@ extern char **environ;
  * the steady state runs its plain periods until the work limit */
 #define L33 BR_SOURCE_DIR "/tests/extreme/levels-33.xml"
 #define CATALOG BR_SOURCE_DIR "/examples/parts/catalog.xml"
+#define SWITCHES BR_SOURCE_DIR "/examples/parts/switches.xml"
 /* How soon after the signal a run must have ended, s (the stop is polled
  * every few milliseconds of work; the machines running the suite are
  * shared, and sanitizer builds are slower). */
@@ -178,7 +179,7 @@ static void test_sigterm_yield(void)
  * through its default action, which says nothing about the run). */
 typedef struct phase_case {
     const char *what;
-    const char *args[10]; /* NULL-terminated; "@" stands for the output file */
+    const char *args[16]; /* NULL-terminated; "@" stands for the output file */
     double after;         /* s */
     int sig;
 } phase_case;
@@ -215,6 +216,17 @@ static const phase_case phases[] = {
      3.0,
      SIGINT},
     {"size: the search", {"size", L33, "--write-design", "@", NULL}, 1.0, SIGTERM},
+    /* chains of 48 to 64 switches: every screen is long */
+    {"explore: the screen",
+     {"explore", LEG, "--catalog", SWITCHES, "--vin", "1.1k", "--levels", "25:33", "--fsw", "60k",
+      "--csv", "@", NULL},
+     0.5,
+     SIGINT},
+    {"explore: the corners",
+     {"explore", LEG, "--catalog", SWITCHES, "--vin", "1.1k", "--levels", "8:8", "--fsw", "60k",
+      "--corners", "--csv", "@", NULL},
+     1.0,
+     SIGTERM},
     {"yield: a shard's samples",
      {"yield", L33, "--samples", "40", "--shard", "1/2", "--shard-file", "@", NULL},
      1.5,
@@ -258,8 +270,9 @@ static void launch(const phase_case *pc, flight *f)
     CU_ASSERT_TRUE_FATAL(f->fo >= 0 && f->fe >= 0);
     char file[64];
     snprintf(file, sizeof file, "%s/result", f->dir);
-    const char *args[10];
-    for (int i = 0; i < 10; i++)
+    enum { NARGS = sizeof pc->args / sizeof pc->args[0] };
+    const char *args[NARGS];
+    for (int i = 0; i < NARGS; i++)
         args[i] = pc->args[i] && strcmp(pc->args[i], "@") == 0 ? file : pc->args[i];
     f->pid = spawn(args, f->out, f->fe);
     f->sent = 0;

@@ -10,6 +10,8 @@
 #include <unistd.h>
 
 #define DESIGN BR_SOURCE_DIR "/examples/demo-3level.xml"
+#define LEG BR_SOURCE_DIR "/examples/leg-7level.xml"
+#define SWITCHES BR_SOURCE_DIR "/examples/parts/switches.xml"
 
 static char dir[] = "/tmp/br-shard-XXXXXX";
 
@@ -134,6 +136,42 @@ static void write_text(const char *path, const char *text, size_t n)
     fclose(f);
 }
 
+static void test_explore(void)
+{
+    char csv[128], svg[128], cat[128];
+    in_dir(csv, sizeof csv, "explore.csv");
+    in_dir(svg, sizeof svg, "explore.svg");
+    const char *args[] = {"explore", LEG,        "--catalog", SWITCHES, "--vin",
+                          "1.1k",    "--levels", "6:8",       "--fsw",  "60k,120k",
+                          "--csv",   csv,        "--svg",     svg,      NULL};
+    const char *files[] = {csv, svg, NULL};
+    check_identical(args, 3, files);
+    /* the catalog is an input too: changed after the shards ran, refused */
+    in_dir(cat, sizeof cat, "switches.xml");
+    size_t n;
+    char *text = br_test_slurp(SWITCHES, &n);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(text);
+    write_text(cat, text, n);
+    const char *cargs[] = {"explore",  LEG,   "--catalog", cat,   "--vin", "1.1k",
+                           "--levels", "6:6", "--fsw",     "60k", NULL};
+    char s1[128], s2[128];
+    in_dir(s1, sizeof s1, "e1.shard");
+    in_dir(s2, sizeof s2, "e2.shard");
+    run_result r = run_shard(cargs, 1, 2, s1);
+    CU_ASSERT_EQUAL(r.status, 0);
+    done(&r);
+    r = run_shard(cargs, 2, 2, s2);
+    CU_ASSERT_EQUAL(r.status, 0);
+    done(&r);
+    write_text(cat, text, n);
+    FILE *f = fopen(cat, "a");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(f);
+    fputs("<!-- changed -->\n", f);
+    fclose(f);
+    expect_refused((const char *[]){"merge", s1, s2, NULL}, "changed since the shards ran");
+    free(text);
+}
+
 /* Shards that do not make one whole run are refused, and nothing is written. */
 static void test_refused(void)
 {
@@ -197,6 +235,7 @@ int main(void)
     static const br_test_case cases[] = {
         {"map: merged shards are the whole run", test_map},
         {"yield: merged shards are the whole run", test_yield},
+        {"explore: merged shards are the whole run; a changed catalog refused", test_explore},
         {"shards that do not fit are refused", test_refused},
         {"help (golden)", test_help_golden},
         {NULL, NULL},

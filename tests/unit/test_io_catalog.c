@@ -89,6 +89,45 @@ static void test_refusals(void)
     expect_fail("<driver id=\"x\"/>\n", 3, NULL, "catalog schema");
 }
 
+/* The switch catalog: three switches by voltage class, each naming its
+ * driver, two drivers and four diodes, each with its offer. */
+static void test_switches(void)
+{
+    br_catalog *cat = NULL;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_catalog_load(BR_SOURCE_DIR "/examples/parts/switches.xml", &cat, &err),
+                          BR_OK);
+    CU_ASSERT_EQUAL(cat->nswitches, 3);
+    CU_ASSERT_EQUAL(cat->ndrivers, 2);
+    CU_ASSERT_EQUAL(cat->ndiodes, 4);
+    CU_ASSERT_EQUAL(cat->ncaps, 0);
+    static const double rating[3] = {200.0, 400.0, 650.0};
+    static const char *const driver[3] = {"iso-drv-basic", "iso-drv-basic", "iso-drv-reinf"};
+    for (int i = 0; i < 3; i++) {
+        BR_ASSERT_NEAR(cat->switch_rating[i], rating[i], 1e-9);
+        CU_ASSERT_TRUE_FATAL(cat->switch_driver[i] >= 0);
+        CU_ASSERT_STRING_EQUAL(cat->drivers[cat->switch_driver[i]].id, driver[i]);
+    }
+    CU_ASSERT_STRING_EQUAL(cat->switches[1].id, "gan-400v-g");
+    BR_ASSERT_NEAR(cat->switch_offer[1].cost, 4.1, 1e-12);
+    BR_ASSERT_NEAR(cat->switches[1].qg.nom, 9e-9, 1e-18);
+    BR_ASSERT_NEAR(cat->driver_offer[1].cost, 1.6, 1e-12);
+    BR_ASSERT_NEAR(cat->drivers[1].iq_on.nom, 1.6e-3, 1e-12);
+    br_catalog_free(cat);
+}
+
+static void test_switch_refusals(void)
+{
+    expect_fail("<switch id=\"q1\" rating=\"200 V\" driver=\"nobody\" cost=\"1\" "
+                "area-mm2=\"2\"/>\n",
+                3, "switch q1: driver", "names no <driver> of this catalog");
+    expect_fail("<switch id=\"q1\" rating=\"200 uF\" cost=\"1\" area-mm2=\"2\"/>\n", 3,
+                "switch q1: rating", "expected a voltage");
+    expect_fail("<switch id=\"q1\" cost=\"1\" area-mm2=\"2\"/>\n", 3, NULL, "catalog schema");
+    expect_fail("<switch id=\"q1\" rating=\"0 V\" cost=\"1\" area-mm2=\"2\"/>\n", 3,
+                "switch q1: rating", "above 0 V");
+}
+
 static void test_document_refusals(void)
 {
     br_catalog *cat;
@@ -116,6 +155,8 @@ int main(void)
         {"the example catalog", test_example},
         {"part refusals with line and field", test_refusals},
         {"document refusals", test_document_refusals},
+        {"the switch catalog", test_switches},
+        {"switch refusals with line and field", test_switch_refusals},
         {NULL, NULL},
     };
     return br_test_main("io_catalog", cases);

@@ -1,0 +1,362 @@
+/* cmd_explore.c - `bootrung explore FILE --catalog PARTS.xml`: level
+ * counts, switch voltage classes and switching frequencies around a
+ * template design, each judged; the feasible set ranked, its Pareto front
+ * of cost, gate-supply loss and margin, and the front's design files. */
+#include "cli.h"
+#include "shard.h"
+
+#include "analyses/explore.h"
+#include "core/error.h"
+#include "core/units.h"
+#include "io/design_write.h"
+#include "model/catalog.h"
+#include "report/explore_report.h"
+
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+static const char ABOUT[] =
+    "Explore level counts, switch voltage classes and switching frequencies\n"
+    "around design FILE, an FCML leg that gives the supply, drivers, regulators,\n"
+    "timing, start-up pattern, link diodes and rail capacitors. For every level\n"
+    "count of --levels, switch of --catalog and frequency of --fsw: the rule of\n"
+    "the trade first (each of the N-1 series switches of a side, and each link\n"
+    "diode, blocks the highest bus voltage over N-1; a part is used up to the\n"
+    "derating), then the chain built by the FCML generator with the catalog\n"
+    "switch and its driver, its cold start and steady state at the nominal\n"
+    "point, and the verdict; with --corners the survivors again at their worst\n"
+    "corners, as 'size' judges a value (slow). A combination is feasible when\n"
+    "every criterion passes, its smallest margin in volts reaches the target and\n"
+    "its start-up time and cost are within --max-startup and --max-cost. A\n"
+    "chain whose rails fall short from some rail up is reported as needing a\n"
+    "second isolated supply there (not simulated: the model has one supply).\n"
+    "The report ranks the feasible set and marks its Pareto front of cost,\n"
+    "supply power and margin; --csv, --svg and --designs DIR (the front's design\n"
+    "files) write the rest. --shard K/N judges every N-th combination only and\n"
+    "writes a shard file (--shard-file, default stdout); 'bootrung merge' puts\n"
+    "the N files together into this verb's output.\n"
+    "Exit status 0 when some combination is feasible, 1 when none is, 3 when\n"
+    "none is and some could not be decided, 2 for bad input.\n";
+
+typedef struct args {
+    const char *catalog, *vin, *levels, *fsw, *iload, *derating, *margin, *max_startup, *max_cost,
+        *threads, *csv, *svg, *designs, *shard, *shard_file;
+    int quiet, corners, scale_caps;
+} args;
+
+typedef struct outputs {
+    br_design *d;
+    br_catalog *cat;
+    br_explore *x;
+    br_text *text, *csv, *svg;
+    int ndesigns;
+    br_text **design;
+    char (*path)[1024];
+} outputs;
+
+static void outputs_free(outputs *o)
+{
+    br_explore_free(o->x);
+    br_design_free(o->d);
+    br_catalog_free(o->cat);
+    br_text_free(o->text);
+    br_text_free(o->csv);
+    br_text_free(o->svg);
+    for (int i = 0; i < o->ndesigns; i++)
+        br_text_free(o->design[i]);
+    free(o->design);
+    free(o->path);
+}
+
+/* "LO:HI" or one level count. */
+static int parse_levels(const char *text, br_explore_opts *eo)
+{
+    char *end = NULL;
+    long lo = strtol(text, &end, 10), hi = lo;
+    if (*end == ':')
+        hi = strtol(end + 1, &end, 10);
+    if (*end || lo < 2 || hi < lo || hi > BR_MAX_SWITCHES / 2 + 1)
+        return br_cli_usage_error("explore", "--levels '%s': expected LO:HI, from 2 to %d", text,
+                                  BR_MAX_SWITCHES / 2 + 1);
+    eo->lmin = (int)lo;
+    eo->lmax = (int)hi;
+    return BR_EXIT_OK;
+}
+
+/* "F1,F2,...": frequencies. */
+static int parse_fsw(const char *text, br_explore_opts *eo)
+{
+    char buf[512];
+    snprintf(buf, sizeof buf, "%s", text);
+    eo->nfsw = 0;
+    for (char *save = NULL, *tok = strtok_r(buf, ",", &save); tok;
+         tok = strtok_r(NULL, ",", &save)) {
+        br_error err;
+        double f;
+        if (eo->nfsw == BR_EXPLORE_MAX_FSW)
+            return br_cli_usage_error("explore", "--fsw: at most %d frequencies",
+                                      BR_EXPLORE_MAX_FSW);
+        if (br_unit_parse(tok, BR_KIND_FREQUENCY, &f, &err) != BR_OK || !(f > 0 && f < 1e9))
+            return br_cli_usage_error("explore", "--fsw '%s': expected frequencies like 60k,120k",
+                                      text);
+        eo->fsw[eo->nfsw++] = f;
+    }
+    return eo->nfsw > 0 ? BR_EXIT_OK
+                        : br_cli_usage_error("explore", "--fsw '%s': no frequency", text);
+}
+
+/* "V" or "V/VMAX": the nominal and the highest bus voltage. */
+static int parse_vin(const char *text, br_explore_opts *eo)
+{
+    char buf[128];
+    snprintf(buf, sizeof buf, "%s", text);
+    char *slash = strchr(buf, '/');
+    if (slash)
+        *slash = '\0';
+    br_error err;
+    if (br_unit_parse(buf, BR_KIND_VOLTAGE, &eo->vbus, &err) != BR_OK ||
+        (slash && br_unit_parse(slash + 1, BR_KIND_VOLTAGE, &eo->vbus_max, &err) != BR_OK))
+        return br_cli_usage_error("explore", "--vin '%s': expected V or V/VMAX", text);
+    if (!slash)
+        eo->vbus_max = eo->vbus;
+    if (!(eo->vbus > 0 && eo->vbus < 1e6 && eo->vbus_max >= eo->vbus && eo->vbus_max < 1e6))
+        return br_cli_usage_error("explore", "--vin '%s': expected 0 < V <= VMAX < 1 MV", text);
+    return BR_EXIT_OK;
+}
+
+static int parse_value(const char *opt, const char *text, br_kind kind, double lo, double *out)
+{
+    br_error err;
+    if (br_unit_parse(text, kind, out, &err) != BR_OK || !(*out >= lo && *out < 1e12))
+        return br_cli_usage_error("explore", "--%s '%s': expected a value of at least %g", opt,
+                                  text, lo);
+    return BR_EXIT_OK;
+}
+
+static int options(const args *a, br_explore_opts *eo)
+{
+    br_explore_opts_default(eo);
+    eo->corners = a->corners;
+    eo->scale_caps = a->scale_caps;
+    if (!a->catalog || !a->vin || !a->levels || !a->fsw)
+        return br_cli_usage_error("explore", "--catalog, --vin, --levels and --fsw are required");
+    if (parse_vin(a->vin, eo) || parse_levels(a->levels, eo) || parse_fsw(a->fsw, eo))
+        return BR_EXIT_INPUT;
+    if ((a->iload && parse_value("load-current", a->iload, BR_KIND_CURRENT, 0, &eo->iload)) ||
+        (a->margin && parse_value("min-margin", a->margin, BR_KIND_VOLTAGE, 0, &eo->target)) ||
+        (a->max_startup &&
+         parse_value("max-startup", a->max_startup, BR_KIND_TIME, 0, &eo->max_startup)) ||
+        (a->max_cost && parse_value("max-cost", a->max_cost, BR_KIND_NUMBER, 0, &eo->max_cost)))
+        return BR_EXIT_INPUT;
+    if (a->derating && br_cli_fraction("explore", "derating", a->derating, &eo->derating))
+        return BR_EXIT_INPUT;
+    if (a->derating && !(eo->derating > 0))
+        return br_cli_usage_error("explore", "--derating '%s': expected a fraction above 0",
+                                  a->derating);
+    long v;
+    if (a->threads && br_cli_long("explore", "threads", a->threads, 1, 64, &v))
+        return BR_EXIT_INPUT;
+    eo->threads = a->threads ? (int)v : 0;
+    return BR_EXIT_OK;
+}
+
+/* The design file of each front member, DIR/explore-RANK.xml. */
+static int front_designs(const args *a, br_explore_opts *eo, outputs *o, const char *path,
+                         br_error *err)
+{
+    o->design = calloc((size_t)o->x->nfront + 1, sizeof *o->design);
+    o->path = calloc((size_t)o->x->nfront + 1, sizeof *o->path);
+    if (!o->design || !o->path)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    int rc = BR_OK;
+    for (int i = 0; rc == BR_OK && i < o->x->n; i++) {
+        const br_explore_row *r = &o->x->rows[i];
+        if (!r->front)
+            continue;
+        br_design *d = NULL;
+        br_text *comment = br_text_create();
+        br_text *t = br_text_create();
+        o->design[o->ndesigns] = t;
+        snprintf(o->path[o->ndesigns++], sizeof o->path[0], "%s/explore-%d.xml", a->designs,
+                 r->rank);
+        rc = comment && t ? br_explore_design(o->d, eo, r, &d, err) : BR_ENOMEM;
+        if (rc == BR_OK)
+            rc = br_explore_comment(o->x, o->cat, r, path, comment);
+        if (rc == BR_OK)
+            rc = br_design_write(d, br_text_data(comment), t, err);
+        br_design_free(d);
+        br_text_free(comment);
+    }
+    return rc;
+}
+
+static int compute(const char *path, const args *a, br_explore_opts *eo, outputs *o, br_error *err)
+{
+    o->text = br_text_create();
+    o->csv = a->csv ? br_text_create() : NULL;
+    o->svg = a->svg ? br_text_create() : NULL;
+    if (!o->text || (a->csv && !o->csv) || (a->svg && !o->svg))
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    int rc = br_design_load(path, &o->d, err);
+    if (rc == BR_OK)
+        rc = br_catalog_load(a->catalog, &o->cat, err);
+    eo->cat = o->cat;
+    if (rc == BR_OK)
+        rc = br_explore_run(o->d, eo, &o->x, err);
+    if (eo->shard_n > 0) /* a slice: no report */
+        return rc;
+    if (rc == BR_OK)
+        rc = br_explore_text(o->x, o->cat, path, o->text);
+    if (rc == BR_OK && o->csv)
+        rc = br_explore_csv(o->x, o->cat, o->csv);
+    if (rc == BR_OK && o->svg)
+        rc = br_explore_svg(o->x, o->svg);
+    if (rc == BR_OK && a->designs)
+        rc = front_designs(a, eo, o, path, err);
+    if (rc == BR_ENOMEM && !err->msg[0])
+        br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory rendering the report");
+    return rc;
+}
+
+/* Every output, the front's design files included, checked against the
+ * inputs (a template named like a front member's file is not overwritten)
+ * and then written, all or none. */
+static int write_all(const args *a, const char *design, outputs *o)
+{
+    int n = 2 + o->ndesigns;
+    br_cli_file *files = calloc((size_t)n, sizeof *files);
+    const char **paths = calloc((size_t)n, sizeof *paths);
+    const char **names = calloc((size_t)n, sizeof *names);
+    int status = files && paths && names ? BR_EXIT_OK : BR_EXIT_INPUT;
+    if (status != BR_EXIT_OK)
+        fprintf(stderr, "bootrung: explore: out of memory\n");
+    for (int i = 0; status == BR_EXIT_OK && i < n; i++) {
+        files[i] = i == 0   ? (br_cli_file){o->csv, a->csv}
+                   : i == 1 ? (br_cli_file){o->svg, a->svg}
+                            : (br_cli_file){o->design[i - 2], o->path[i - 2]};
+        paths[i] = files[i].path;
+        names[i] = i == 0 ? "csv" : i == 1 ? "svg" : "designs";
+    }
+    const char *const in[] = {design, a->catalog};
+    if (status == BR_EXIT_OK)
+        status = br_cli_outputs("explore", names, paths, n, in, 2);
+    static const char *const verdict[] = {"verdict:", NULL};
+    if (status == BR_EXIT_OK)
+        status = br_cli_write(files, n, o->text, a->quiet, verdict, 0);
+    free(files);
+    free(paths);
+    free(names);
+    return status;
+}
+
+/* The shard's combinations. */
+static int write_shard(int argc, char **argv, const char *path, const args *a,
+                       const br_explore_opts *eo, const br_explore *x)
+{
+    unsigned char *mine = malloc((size_t)x->n);
+    if (!mine) {
+        fprintf(stderr, "bootrung: explore: out of memory\n");
+        return BR_EXIT_INPUT;
+    }
+    for (int i = 0; i < x->n; i++)
+        mine[i] = (unsigned char)br_explore_shard_has(eo, i);
+    br_shard_head h = {argc, argv,      path, eo->shard_k, eo->shard_n, sizeof *x->rows,
+                       x->n, a->catalog};
+    int status = br_cli_shard_write(&h, x->rows, mine, a->shard_file ? a->shard_file : "-");
+    free(mine);
+    return status;
+}
+
+/* The rows merged from shards. */
+static int take_given(br_explore_opts *eo, const br_cli_given *given)
+{
+    if (!given)
+        return BR_EXIT_OK;
+    if (given->size != sizeof(br_explore_row))
+        return br_cli_usage_error("merge", "the shards' records are not explore's");
+    eo->given = given->rec;
+    eo->ngiven = given->total;
+    return BR_EXIT_OK;
+}
+
+int cmd_explore(int argc, char **argv)
+{
+    return br_cli_explore_main(argc, argv, NULL);
+}
+
+int br_cli_explore_main(int argc, char **argv, const br_cli_given *given)
+{
+    args a = {0};
+    const br_opt opts[] = {
+        {BR_OPT_STRING, "catalog", "PARTS.xml", &a.catalog,
+         "switches by voltage class (rating), their drivers, link diodes (required)"},
+        {BR_OPT_STRING, "vin", "V[/VMAX]", &a.vin,
+         "bus voltage, and the highest the parts are rated for (required)"},
+        {BR_OPT_STRING, "levels", "LO:HI", &a.levels, "level counts of the leg (required)"},
+        {BR_OPT_STRING, "fsw", "F1,F2,...", &a.fsw, "switching frequencies (required)"},
+        {BR_OPT_STRING, "load-current", "A", &a.iload, "load current (default: the design's)"},
+        {BR_OPT_STRING, "derating", "F", &a.derating,
+         "fraction of a voltage rating used (default: the design's diode derating)"},
+        {BR_OPT_STRING, "min-margin", "V", &a.margin,
+         "smallest margin in volts (default: a quarter of the UVLO hysteresis)"},
+        {BR_OPT_STRING, "max-startup", "S", &a.max_startup, "longest start-up accepted"},
+        {BR_OPT_STRING, "max-cost", "X", &a.max_cost, "highest cost of the catalog parts placed"},
+        {BR_OPT_FLAG, "scale-caps", NULL, &a.scale_caps,
+         "rail capacitors scaled by the rails each carries (default: the design's)"},
+        {BR_OPT_FLAG, "corners", NULL, &a.corners,
+         "judge the survivors at their worst corners too (slow)"},
+        {BR_OPT_STRING, "csv", "PATH", &a.csv, "every combination as CSV to PATH (- stdout)"},
+        {BR_OPT_STRING, "svg", "PATH", &a.svg, "plots of margin and cost against levels to PATH"},
+        {BR_OPT_STRING, "designs", "DIR", &a.designs,
+         "the design file of each front member into DIR (explore-RANK.xml)"},
+        {BR_OPT_STRING, "threads", "N", &a.threads,
+         "worker threads of --corners (default: one per processor)"},
+        {BR_OPT_STRING, "shard", "K/N", &a.shard,
+         "judge every N-th combination from the K-th only, write a shard file"},
+        {BR_OPT_STRING, "shard-file", "PATH", &a.shard_file,
+         "the shard file's path (default - stdout)"},
+        {BR_OPT_FLAG, "quiet", NULL, &a.quiet, BR_QUIET_HELP},
+        {BR_OPT_END, NULL, NULL, NULL, NULL},
+    };
+    const br_cmd_doc doc = {"explore", "FILE", ABOUT, opts, 1};
+    char *pos[2];
+    int parsed = br_cli_parse(&doc, argc, argv, pos);
+    if (parsed != 0)
+        return br_cli_parse_status(parsed);
+    br_explore_opts eo;
+    if (options(&a, &eo) != BR_EXIT_OK ||
+        (a.shard && br_cli_shard_parse("explore", a.shard, &eo.shard_k, &eo.shard_n)) ||
+        take_given(&eo, given))
+        return BR_EXIT_INPUT;
+    if (a.shard_file && !a.shard)
+        return br_cli_usage_error("explore", "--shard-file without --shard");
+    const char *const out[] = {a.csv, a.svg, a.shard_file};
+    const char *const names[] = {"csv", "svg", "shard-file"};
+    const char *const in[] = {pos[0], a.catalog};
+    if (br_cli_outputs("explore", names, out, 3, in, 2) != BR_EXIT_OK)
+        return BR_EXIT_INPUT;
+    outputs o = {0};
+    br_error err;
+    br_error_clear(&err);
+    br_cli_run lr;
+    br_cli_run_begin(&lr, "explore", a.quiet);
+    eo.progress = &lr.hook;
+    int rc = compute(pos[0], &a, &eo, &o, &err);
+    int status = br_cli_run_commit(&lr);
+    if (status == BR_EXIT_OK && rc != BR_OK)
+        status = br_cli_fail(&err, rc == BR_EINPUT && err.file[0] ? err.file : pos[0]);
+    else if (status == BR_EXIT_OK && eo.shard_n > 0)
+        status = write_shard(argc, argv, pos[0], &a, &eo, o.x);
+    else if (status == BR_EXIT_OK)
+        status = write_all(&a, pos[0], &o);
+    br_cli_run_end(&lr);
+    if (status == BR_EXIT_OK && eo.shard_n == 0) {
+        int oc = br_explore_outcome(o.x);
+        status = oc == BR_OUTCOME_PASS   ? BR_EXIT_OK
+                 : oc == BR_OUTCOME_FAIL ? BR_EXIT_FAIL
+                                         : BR_EXIT_UNDETERMINED;
+    }
+    outputs_free(&o);
+    return status;
+}

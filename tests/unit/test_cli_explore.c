@@ -1,0 +1,365 @@
+/* test_cli_explore.c - exploring around a template: a small exploration
+ * end to end (report, CSV, plots, the front's design files), the
+ * combinations the rule of the trade must reject, the front's design
+ * files loading and passing `analyze`, and bad input. */
+#include "analyses/explore.h"
+#include "runbin.h"
+#include "testkit.h"
+
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <unistd.h>
+
+#define LEG BR_SOURCE_DIR "/examples/leg-7level.xml"
+#define SWITCHES BR_SOURCE_DIR "/examples/parts/switches.xml"
+#define PICKCAT BR_SOURCE_DIR "/examples/parts/catalog.xml"
+/* A two-switch string: a template whose level count cannot be varied. */
+static const char STRING_XML[] =
+    "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n"
+    "<bootrung-design version=\"1\" name=\"pair\">\n"
+    "  <operating-point vin=\"100 V\" fsw=\"100 kHz\"/>\n"
+    "  <supply voltage=\"12 V\"/>\n"
+    "  <topology><string>\n"
+    "    <switch name=\"S1\" vblock=\"50 V\"><on from=\"0.0\" to=\"0.45\"/></switch>\n"
+    "    <switch name=\"S2\" vblock=\"50 V\"><on from=\"0.5\" to=\"0.95\"/></switch>\n"
+    "  </string></topology>\n"
+    "  <parts><diode id=\"d1\"/><capacitor id=\"c1\" c=\"1 uF\"/><driver id=\"drv1\"/>"
+    "<switch id=\"q1\"/></parts>\n"
+    "  <stages diode=\"d1\" capacitor=\"c1\" driver=\"drv1\" switch=\"q1\"/>\n"
+    "</bootrung-design>\n";
+
+typedef struct files {
+    char dir[40], csv[64], svg[64];
+} files;
+
+static void files_make(files *f)
+{
+    snprintf(f->dir, sizeof f->dir, "/tmp/br-explore-XXXXXX");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(f->dir));
+    snprintf(f->csv, sizeof f->csv, "%s/x.csv", f->dir);
+    snprintf(f->svg, sizeof f->svg, "%s/x.svg", f->dir);
+}
+
+static void files_drop(files *f)
+{
+    char cmd[128];
+    snprintf(cmd, sizeof cmd, "rm -rf '%s'", f->dir);
+    CU_ASSERT_EQUAL(system(cmd), 0);
+}
+
+/* The CSV line of (levels, switch, fsw) or NULL. */
+static const char *csv_line(const char *csv, const char *key)
+{
+    const char *p = csv;
+    size_t n = strlen(key);
+    while (p && *p) {
+        if (strncmp(p, key, n) == 0)
+            return p;
+        p = strchr(p, '\n');
+        p = p ? p + 1 : NULL;
+    }
+    return NULL;
+}
+
+/* The field-th comma-separated field of a CSV line, as a number. */
+static double field(const char *line, int k)
+{
+    for (int i = 0; i < k && line; i++) {
+        line = strchr(line, ',');
+        line = line ? line + 1 : NULL;
+    }
+    return line ? strtod(line, NULL) : -1.0;
+}
+
+static int count_lines(const char *s)
+{
+    int n = 0;
+    for (; *s; s++)
+        n += *s == '\n';
+    return n;
+}
+
+/* Levels 3 to 8 at 60 kHz around the 7-level example on its 1.1 kV bus:
+ * 18 combinations.  Hand calculation of the rule (derating 80 %, the
+ * template's): 3 levels need 1100 / 2 / 0.8 = 687.5 V, above every
+ * switch of the catalog (650 V at most), so all three are rejected
+ * without a simulation; 8 levels need 1100 / 7 / 0.8 = 196.4 V, which
+ * the 200 V class meets. */
+static void test_small(void)
+{
+    files f;
+    files_make(&f);
+    run_result r = run((const char *[]){"explore", LEG, "--catalog", SWITCHES, "--vin", "1.1k",
+                                        "--levels", "3:8", "--fsw", "60k", "--csv", f.csv, "--svg",
+                                        f.svg, "--designs", f.dir, NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    CU_ASSERT_TRUE(has(r.out, "18 combinations"));
+    CU_ASSERT_TRUE(has(r.out, "verdict: PASS"));
+    CU_ASSERT_TRUE(has(r.out, "lethal voltages"));
+    for (const char *l = r.out; *l;) { /* reports keep to 100 columns */
+        const char *e = strchr(l, '\n');
+        size_t len = e ? (size_t)(e - l) : strlen(l);
+        CU_ASSERT_TRUE(len <= 100);
+        l += len + (e != NULL);
+    }
+    char *csv = br_test_slurp(f.csv, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(csv);
+    CU_ASSERT_EQUAL(count_lines(csv), 19);
+    static const char *const sw[] = {"gan-200v-g", "gan-400v-g", "gan-650v-g"};
+    for (int i = 0; i < 3; i++) {
+        char key[64];
+        snprintf(key, sizeof key, "3,%s,", sw[i]);
+        const char *line = csv_line(csv, key);
+        CU_ASSERT_PTR_NOT_NULL_FATAL(line);
+        BR_ASSERT_NEAR(field(line, 3), 687.5, 1e-6);
+        CU_ASSERT_TRUE(strstr(line, ",rating,") != NULL &&
+                       strstr(line, ",rating,") < strchr(line, '\n'));
+    }
+    const char *l8 = csv_line(csv, "8,gan-200v-g,");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(l8);
+    BR_ASSERT_NEAR(field(l8, 3), 1100.0 / 7.0 / 0.8, 1e-6);
+    CU_ASSERT_FALSE(strncmp(strstr(l8, "60000,") + 6, "rating", 6) == 0);
+    free(csv);
+    char *svg = br_test_slurp(f.svg, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(svg);
+    CU_ASSERT_TRUE(has(svg, "<svg"));
+    CU_ASSERT_TRUE(has(svg, "data-series=\"margin_V_60000Hz\""));
+    CU_ASSERT_TRUE(has(svg, "data-series=\"cost_60000Hz\""));
+    free(svg);
+    done(&r);
+    files_drop(&f);
+}
+
+/* Every front member's design file (rail capacitors scaled: parts of its
+ * own) loads and passes `analyze`, and the number of files is the
+ * front's size in the CSV. */
+static void test_front_designs(void)
+{
+    files f;
+    files_make(&f);
+    run_result r = run((const char *[]){"explore", LEG, "--catalog", SWITCHES, "--vin", "1.1k",
+                                        "--levels", "7:8", "--fsw", "60k,120k", "--scale-caps",
+                                        "--csv", f.csv, "--designs", f.dir, "--quiet", NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    done(&r);
+    char *csv = br_test_slurp(f.csv, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(csv);
+    int front = 0;
+    for (const char *p = strchr(csv, '\n'); p && p[1]; p = strchr(p + 1, '\n'))
+        front += (int)field(p + 1, 14) == 1;
+    free(csv);
+    CU_ASSERT_TRUE(front >= 1);
+    for (int k = 1; k <= front + 1; k++) {
+        char path[96];
+        snprintf(path, sizeof path, "%s/explore-%d.xml", f.dir, k);
+        if (k == front + 1) { /* only the front is written; ranks run 1.. along it */
+            CU_ASSERT_NOT_EQUAL(access(path, F_OK), 0);
+            break;
+        }
+        run_result a = run((const char *[]){"analyze", "--quiet", path, NULL});
+        CU_ASSERT_EQUAL(a.status, 0);
+        CU_ASSERT_TRUE(has(a.out, "verdict: PASS"));
+        done(&a);
+    }
+    files_drop(&f);
+}
+
+/* With --corners a survivor is judged again at its worst corners: its
+ * margin there is at most the nominal one (the nominal point is one of
+ * the points judged), and the CSV says it was. */
+static void test_corners(void)
+{
+    files f;
+    files_make(&f);
+    char nominal[96];
+    snprintf(nominal, sizeof nominal, "%s/n.csv", f.dir);
+    run_result r =
+        run((const char *[]){"explore", LEG, "--catalog", SWITCHES, "--vin", "1.1k", "--levels",
+                             "8:8", "--fsw", "60k", "--csv", nominal, "--quiet", NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    CU_ASSERT_TRUE(has(r.out, "at the nominal point)"));
+    done(&r);
+    r = run((const char *[]){"explore", LEG, "--catalog", SWITCHES, "--vin", "1.1k", "--levels",
+                             "8:8", "--fsw", "60k", "--corners", "--threads", "2", "--csv", f.csv,
+                             "--quiet", NULL});
+    CU_ASSERT_TRUE(r.status == 0 || r.status == 1);
+    CU_ASSERT_TRUE(has(r.out, "at their worst corners)"));
+    done(&r);
+    char *a = br_test_slurp(nominal, NULL), *b = br_test_slurp(f.csv, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(a);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(b);
+    const char *la = csv_line(a, "8,gan-200v-g,"), *lb = csv_line(b, "8,gan-200v-g,");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(la);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(lb);
+    CU_ASSERT_TRUE(strstr(la, ",feasible,") != NULL); /* survives the screen */
+    CU_ASSERT_EQUAL((int)field(lb, 13), 1);           /* judged at the corners */
+    CU_ASSERT_TRUE(field(lb, 9) <= field(la, 9) + 1e-12);
+    free(a);
+    free(b);
+    files_drop(&f);
+}
+
+/* A bus no catalog switch can take at any level count asked: nothing is
+ * feasible, exit 1.  Hand calculation: 3 levels on 1.1 kV need 687.5 V. */
+static void test_none_feasible(void)
+{
+    run_result r = run((const char *[]){"explore", LEG, "--catalog", SWITCHES, "--vin", "1.1k",
+                                        "--levels", "3:3", "--fsw", "60k", NULL});
+    CU_ASSERT_EQUAL(r.status, 1);
+    CU_ASSERT_TRUE(has(r.out, "verdict: FAIL (0 of 3"));
+    CU_ASSERT_TRUE(has(r.out, "switch class below the 688 V the rule asks"));
+    done(&r);
+}
+
+static void test_bad_input(void)
+{
+    run_result r = run((const char *[]){"explore", LEG, "--catalog", PICKCAT, "--vin", "1.1k",
+                                        "--levels", "5:7", "--fsw", "60k", NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    CU_ASSERT_TRUE(has(r.err, "the catalog offers no switch"));
+    done(&r);
+    files f;
+    files_make(&f);
+    char path[96];
+    snprintf(path, sizeof path, "%s/pair.xml", f.dir);
+    FILE *fp = fopen(path, "w");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(fp);
+    fputs(STRING_XML, fp);
+    fclose(fp);
+    r = run((const char *[]){"analyze", "--quiet", path, NULL}); /* a design that reads */
+    CU_ASSERT_NOT_EQUAL(r.status, 2);
+    done(&r);
+    r = run((const char *[]){"explore", path, "--catalog", SWITCHES, "--vin", "1.1k", "--levels",
+                             "5:7", "--fsw", "60k", NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    CU_ASSERT_TRUE(has(r.err, "expected an <fcml> leg"));
+    done(&r);
+    files_drop(&f);
+    r = run((const char *[]){"explore", LEG, "--catalog", SWITCHES, "--vin", "1.1k", "--levels",
+                             "9:5", "--fsw", "60k", NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    CU_ASSERT_TRUE(has(r.err, "--levels"));
+    done(&r);
+    r = run(
+        (const char *[]){"explore", LEG, "--vin", "1.1k", "--levels", "5:7", "--fsw", "60k", NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    done(&r);
+}
+
+/* The capacitor of rail k of design d, F. */
+static double cap_of(const br_design *d, int k)
+{
+    return d->caps[br_design_stage(d, k)->cap].c.nom;
+}
+
+/* The scaling rule on the 7-level example (12 stages; rails 1 and 2 have
+ * 22 uF, the others 10 uF; 1.2 mA + 1.5 mA of driver current and 10 nC of
+ * gate charge at 120 kHz) made 9 levels (16 stages) with the 200 V switch
+ * (10 nC, a driver drawing the same).  Hand calculation, rail k carries
+ * 16 - k rails, the template's rail carrying as many is 12 - (16 - k):
+ *  - at 120 kHz the charge per rail is unchanged; rail 15 is the
+ *    template's rail 11 (10 uF), rail 6 its rail 2 (22 uF), rail 5 its
+ *    rail 1 (22 uF), rail 1 carries 15 rails where the template's rail 1
+ *    carries 11: 22 uF * 15 / 11 = 30 uF, 33 uF in E6; rail 4: 22 * 12 /
+ *    11 = 24 uF, 33 uF;
+ *  - at 60 kHz each rail gives 10 nC + 2.7 mA / 60 kHz = 55 nC a period
+ *    against 10 nC + 2.7 mA / 120 kHz = 32.5 nC: rail 15 needs 10 uF *
+ *    55 / 32.5 = 16.9 uF, 22 uF in E6.
+ * Without the rule the template's capacitors stay, counted from the
+ * bottom (rail 1 22 uF, rail 7 10 uF). */
+static void test_scale_caps(void)
+{
+    br_design *t = NULL;
+    br_catalog *cat = NULL;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_design_load(LEG, &t, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_catalog_load(SWITCHES, &cat, &err), BR_OK);
+    br_explore_opts o;
+    br_explore_opts_default(&o);
+    o.cat = cat;
+    o.vbus = o.vbus_max = 1100.0;
+    o.scale_caps = 1;
+    br_explore_row r = {.levels = 9, .fsw = 120e3, .sw = 0, .diode = -1, .need = 196.4};
+    br_design *d = NULL;
+    CU_ASSERT_EQUAL_FATAL(br_explore_design(t, &o, &r, &d, &err), BR_OK);
+    BR_ASSERT_REL(cap_of(d, 15), 10e-6, 1e-9);
+    BR_ASSERT_REL(cap_of(d, 6), 22e-6, 1e-9);
+    BR_ASSERT_REL(cap_of(d, 5), 22e-6, 1e-9);
+    BR_ASSERT_REL(cap_of(d, 4), 33e-6, 1e-9);
+    BR_ASSERT_REL(cap_of(d, 1), 33e-6, 1e-9);
+    BR_ASSERT_REL(br_design_stage(d, 1)->r_link.nom, 0.5, 1e-12);
+    br_design_free(d);
+    r.fsw = 60e3;
+    CU_ASSERT_EQUAL_FATAL(br_explore_design(t, &o, &r, &d, &err), BR_OK);
+    BR_ASSERT_REL(cap_of(d, 15), 22e-6, 1e-9);
+    br_design_free(d);
+    o.scale_caps = 0;
+    CU_ASSERT_EQUAL_FATAL(br_explore_design(t, &o, &r, &d, &err), BR_OK);
+    BR_ASSERT_REL(cap_of(d, 1), 22e-6, 1e-9);
+    BR_ASSERT_REL(cap_of(d, 7), 10e-6, 1e-9);
+    CU_ASSERT_EQUAL(d->levels, 9);
+    BR_ASSERT_REL(d->fsw.nom, 60e3, 1e-12);
+    CU_ASSERT_STRING_EQUAL(d->switches[br_design_stage(d, 3)->sw].id, "gan-200v-g");
+    CU_ASSERT_STRING_EQUAL(d->drivers[br_design_stage(d, 3)->driver].id, "iso-drv-basic");
+    br_design_free(d);
+    br_catalog_free(cat);
+    br_design_free(t);
+}
+
+/* A template named like a front member's file, in the --designs folder, is
+ * an input: refused, and left as it was. */
+static void test_designs_not_over_input(void)
+{
+    files f;
+    files_make(&f);
+    char path[96];
+    snprintf(path, sizeof path, "%s/explore-1.xml", f.dir);
+    size_t n;
+    char *text = br_test_slurp(LEG, &n);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(text);
+    FILE *fp = fopen(path, "w");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(fp);
+    CU_ASSERT_EQUAL(fwrite(text, 1, n, fp), n);
+    fclose(fp);
+    run_result r =
+        run((const char *[]){"explore", path, "--catalog", SWITCHES, "--vin", "1.1k", "--levels",
+                             "8:8", "--fsw", "60k", "--designs", f.dir, NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    CU_ASSERT_TRUE(has(r.err, "does not overwrite an input"));
+    done(&r);
+    size_t m;
+    char *after = br_test_slurp(path, &m);
+    CU_ASSERT_TRUE(after && m == n && memcmp(after, text, n) == 0);
+    free(after);
+    free(text);
+    files_drop(&f);
+}
+
+static void test_help_golden(void)
+{
+    run_result a = run((const char *[]){"explore", "--help", NULL});
+    CU_ASSERT_EQUAL(a.status, 0);
+    char *want = br_test_slurp("tests/golden/explore-help.txt", NULL);
+    CU_ASSERT_PTR_NOT_NULL(want);
+    if (want)
+        CU_ASSERT_STRING_EQUAL(want, a.out);
+    free(want);
+    done(&a);
+}
+
+int main(void)
+{
+    static const br_test_case cases[] = {
+        {"a small exploration end to end", test_small},
+        {"the front's design files pass analyze", test_front_designs},
+        {"the rule rejects what it must", test_none_feasible},
+        {"survivors at their worst corners", test_corners},
+        {"bad input", test_bad_input},
+        {"the front's files never overwrite the template", test_designs_not_over_input},
+        {"the capacitor scaling rule by hand", test_scale_caps},
+        {"help (golden)", test_help_golden},
+        {NULL, NULL},
+    };
+    return br_test_main("cli_explore", cases);
+}
