@@ -2,6 +2,7 @@
  * 11-link example).  Run on demand: make bench_engine && ./bench_engine.
  * Prints medians over repeated runs; the machines are shared and noisy. */
 #include "analyses/steady.h"
+#include "benchkit.h"
 #include "bootrung/bootrung.h"
 #include "model/chain.h"
 
@@ -9,25 +10,6 @@
 #include <stdlib.h>
 #include <sys/resource.h>
 #include <time.h>
-
-static double now(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_MONOTONIC, &ts);
-    return ts.tv_sec + 1e-9 * ts.tv_nsec;
-}
-
-static int cmp(const void *a, const void *b)
-{
-    double x = *(const double *)a, y = *(const double *)b;
-    return (x > y) - (x < y);
-}
-
-static double median(double *v, int n)
-{
-    qsort(v, (size_t)n, sizeof *v, cmp);
-    return v[n / 2];
-}
 
 int main(int argc, char **argv)
 {
@@ -46,15 +28,15 @@ int main(int argc, char **argv)
     unsigned long evals = 0; /* link-equation evaluations of the cold start */
     for (int r = 0; r < reps && r < 32; r++) {
         br_steady ss;
-        double t0 = now();
+        double t0 = br_bench_wall();
         br_steady_solve(c, BR_DIRI_NONE, NULL, &ss, &err);
-        ts[r] = now() - t0;
+        ts[r] = br_bench_wall() - t0;
         shoot_periods = ss.periods;
         br_sim *s;
         br_sim_create(c, BR_DIRI_NONE, BR_INTEG_FAST, &s, &err);
-        t0 = now();
+        t0 = br_bench_wall();
         br_sim_run_until(s, 4000 * c->T, &err);
-        tc[r] = now() - t0;
+        tc[r] = br_bench_wall() - t0;
         evals = br_sim_evals(s);
         /* plain simulation to the same steady state: from the shooting
          * start estimate until the rails move less than 1e-7 V a period */
@@ -63,13 +45,14 @@ int main(int argc, char **argv)
         o.max_iter = 0;
         o.max_plain = 200000;
         br_steady sp;
-        t0 = now();
+        t0 = br_bench_wall();
         br_steady_solve(c, BR_DIRI_NONE, &o, &sp, &err);
-        tp[r] = now() - t0;
+        tp[r] = br_bench_wall() - t0;
         plain_periods = sp.periods;
         br_sim_free(s);
     }
-    double ms = median(ts, reps), mc = median(tc, reps), mp = median(tp, reps);
+    double ms = br_bench_median(ts, reps), mc = br_bench_median(tc, reps),
+           mp = br_bench_median(tp, reps);
     printf("design: %s (%d stages)\n", path, c->n);
     printf("steady state by shooting: median %.2f ms (%ld periods simulated)\n", 1e3 * ms,
            shoot_periods);

@@ -8,43 +8,14 @@
 #include "bootrung/bootrung.h"
 #include "model/catalog.h"
 
+#include "benchkit.h"
+
 #include <gsl/gsl_errno.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <time.h>
 
 #define MAX_RUNS 16
-
-static double now(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_MONOTONIC, &ts);
-    return ts.tv_sec + 1e-9 * ts.tv_nsec;
-}
-
-static double cpu(void)
-{
-    return (double)clock() / CLOCKS_PER_SEC;
-}
-
-static int cmp(const void *a, const void *b)
-{
-    double x = *(const double *)a, y = *(const double *)b;
-    return (x > y) - (x < y);
-}
-
-static double median(double *v, int n)
-{
-    qsort(v, (size_t)n, sizeof *v, cmp);
-    return n % 2 ? v[n / 2] : 0.5 * (v[n / 2 - 1] + v[n / 2]);
-}
-
-static int fail(const br_error *err)
-{
-    char buf[2048];
-    fprintf(stderr, "bench_explore: %s\n", br_error_format(err, buf, sizeof buf));
-    return 2;
-}
 
 int main(int argc, char **argv)
 {
@@ -57,7 +28,7 @@ int main(int argc, char **argv)
     br_error err;
     if (br_design_load(path, &d, &err) != BR_OK ||
         br_catalog_load(BR_SOURCE_DIR "/examples/parts/switches.xml", &cat, &err) != BR_OK)
-        return fail(&err);
+        return br_bench_fail("bench_explore", &err);
     br_explore_opts o;
     br_explore_opts_default(&o);
     o.cat = cat;
@@ -71,11 +42,11 @@ int main(int argc, char **argv)
     int n = 0, feasible = 0, simulated = 0;
     for (int r = 0; r < runs; r++) {
         br_explore *x;
-        double t0 = now(), c0 = cpu();
+        double t0 = br_bench_wall(), c0 = br_bench_cpu();
         if (br_explore_run(d, &o, &x, &err) != BR_OK)
-            return fail(&err);
-        tw[r] = now() - t0;
-        tc[r] = cpu() - c0;
+            return br_bench_fail("bench_explore", &err);
+        tw[r] = br_bench_wall() - t0;
+        tc[r] = br_bench_cpu() - c0;
         n = x->n;
         feasible = x->nfeasible;
         simulated = 0;
@@ -86,7 +57,7 @@ int main(int argc, char **argv)
     printf("explore %s: %d combinations, %d simulated, %d feasible\n", path, n, simulated,
            feasible);
     printf("median of %d runs: %.2f s wall, %.2f s CPU (target: 60 s on two cores)\n", runs,
-           median(tw, runs), median(tc, runs));
+           br_bench_median(tw, runs), br_bench_median(tc, runs));
     br_catalog_free(cat);
     br_design_free(d);
     return 0;

@@ -7,6 +7,7 @@
  * work, which their load does not move: switching periods simulated and
  * link-equation evaluations. */
 #include "analyses/steady.h"
+#include "benchkit.h"
 #include "bootrung/bootrung.h"
 #include "model/chain.h"
 
@@ -15,26 +16,6 @@
 #include <time.h>
 
 #define PI 3.14159265358979323846
-
-static double now(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_MONOTONIC, &ts);
-    return (double)ts.tv_sec + 1e-9 * (double)ts.tv_nsec;
-}
-
-static double cpu(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_PROCESS_CPUTIME_ID, &ts);
-    return (double)ts.tv_sec + 1e-9 * (double)ts.tv_nsec;
-}
-
-static int cmp(const void *a, const void *b)
-{
-    double x = *(const double *)a, y = *(const double *)b;
-    return (x > y) - (x < y);
-}
 
 /* The example's DC load becomes the line cycle (its fsw and parts kept). */
 static void make_ac(br_design *d)
@@ -71,16 +52,16 @@ int main(int argc, char **argv)
     br_steady ss;
     reps = reps < 1 ? 1 : reps > 32 ? 32 : reps;
     for (int r = 0; r < reps; r++) {
-        double t0 = now(), p0 = cpu();
+        double t0 = br_bench_wall(), p0 = br_bench_cpu();
         if (br_steady_solve(c, BR_DIRI_LINE, NULL, &ss, &err) != BR_OK) {
             fprintf(stderr, "bench: %s\n", br_error_format(&err, buf, sizeof buf));
             return 2;
         }
-        wall[r] = now() - t0;
-        proc[r] = cpu() - p0;
+        wall[r] = br_bench_wall() - t0;
+        proc[r] = br_bench_cpu() - p0;
     }
-    qsort(wall, (size_t)reps, sizeof wall[0], cmp);
-    qsort(proc, (size_t)reps, sizeof proc[0], cmp);
+    br_bench_median(wall, reps);
+    br_bench_median(proc, reps);
     printf("design: %s (%d switches), line %.4g Hz at %.4g Hz: %ld switching periods a line\n",
            path, c->n, c->line.freq, c->fsw, c->line.K);
     printf("line-cycle steady state: median %.3f s wall, %.3f s processor over %d runs "

@@ -16,6 +16,7 @@
  * where it matters. */
 #include "analyses/startup.h"
 #include "analyses/yield.h"
+#include "benchkit.h"
 #include "bootrung/bootrung.h"
 #include "model/chain.h"
 #include "testdesign.h"
@@ -25,32 +26,6 @@
 #include <stdlib.h>
 #include <string.h>
 #include <time.h>
-
-static double now(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_MONOTONIC, &ts);
-    return ts.tv_sec + 1e-9 * ts.tv_nsec;
-}
-
-static double cpu(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_PROCESS_CPUTIME_ID, &ts);
-    return ts.tv_sec + 1e-9 * ts.tv_nsec;
-}
-
-static int cmp(const void *a, const void *b)
-{
-    double x = *(const double *)a, y = *(const double *)b;
-    return (x > y) - (x < y);
-}
-
-static double median(double *v, int n)
-{
-    qsort(v, (size_t)n, sizeof *v, cmp);
-    return v[n / 2];
-}
 
 /* A design file, or a reference case's json (tests/data/reference). */
 static br_design *open_design(const char *path)
@@ -76,12 +51,12 @@ static double time_startup(br_chain *c, int m, int runs, const br_startup_opts *
     br_error err;
     c->startup_method = m;
     for (int r = 0; r < runs; r++) {
-        double t0 = now();
+        double t0 = br_bench_wall();
         if (br_startup_run(c, o, su, &err) != BR_OK)
             fprintf(stderr, "bench: %s\n", err.msg);
-        t[r] = now() - t0;
+        t[r] = br_bench_wall() - t0;
     }
-    return median(t, runs);
+    return br_bench_median(t, runs);
 }
 
 /* Both methods, their runs taken in turn (the machine's load drifts), into
@@ -93,7 +68,7 @@ static void time_both(br_chain *c, int runs, const br_startup_opts *o, double *t
         for (int m = 0; m < 2; m++)
             t[m][r] = time_startup(c, m, 1, o, &su[m]);
     for (int m = 0; m < 2; m++)
-        tm[m] = median(t[m], runs);
+        tm[m] = br_bench_median(t[m], runs);
 }
 
 typedef struct bench_case {
@@ -206,9 +181,9 @@ static int yield(long samples, int threads, const char *path)
         d->startup_method = m;
         br_yield *y = NULL;
         br_error err;
-        double w0 = now(), c0 = cpu();
+        double w0 = br_bench_wall(), c0 = br_bench_cpu();
         int rc = br_yield_run(d, &o, &y, &err);
-        double w = now() - w0, c = cpu() - c0;
+        double w = br_bench_wall() - w0, c = br_bench_cpu() - c0;
         printf("  %-8s %8.1f s wall %8.1f s processor  %s\n", m ? "periods" : "envelope", w, c,
                rc == BR_OK ? "" : err.msg);
         br_yield_free(y);

@@ -8,45 +8,14 @@
 #include "analyses/window.h"
 #include "bootrung/bootrung.h"
 
+#include "benchkit.h"
+
 #include <gsl/gsl_errno.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <time.h>
 
 #define MAX_RUNS 32
-
-static double now(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_MONOTONIC, &ts);
-    return ts.tv_sec + 1e-9 * ts.tv_nsec;
-}
-
-/* CPU time of the process, every thread, s: on a shared machine the
- * wall time of two threads says little unless both cores were free. */
-static double cpu(void)
-{
-    return (double)clock() / CLOCKS_PER_SEC;
-}
-
-static int cmp(const void *a, const void *b)
-{
-    double x = *(const double *)a, y = *(const double *)b;
-    return (x > y) - (x < y);
-}
-
-static double median(double *v, int n)
-{
-    qsort(v, (size_t)n, sizeof *v, cmp);
-    return n % 2 ? v[n / 2] : 0.5 * (v[n / 2 - 1] + v[n / 2]);
-}
-
-static int fail(const br_error *err)
-{
-    char buf[2048];
-    fprintf(stderr, "bench_window: %s\n", br_error_format(err, buf, sizeof buf));
-    return 2;
-}
 
 int main(int argc, char **argv)
 {
@@ -58,7 +27,7 @@ int main(int argc, char **argv)
     br_design *d;
     br_error err;
     if (br_design_load(path, &d, &err) != BR_OK)
-        return fail(&err);
+        return br_bench_fail("bench_window", &err);
     br_map_opts mo = {.duty_from = 0.02,
                       .duty_to = 0.98,
                       .nduty = 40,
@@ -74,33 +43,33 @@ int main(int argc, char **argv)
     int holding = 0;
     for (int r = 0; r < runs && w; r++) {
         br_map *m;
-        double t0 = now(), c0 = cpu();
+        double t0 = br_bench_wall(), c0 = br_bench_cpu();
         if (br_map_run(d, &mo, &m, &err) != BR_OK)
-            return fail(&err);
-        tm[r] = now() - t0;
-        cm[r] = cpu() - c0;
+            return br_bench_fail("bench_window", &err);
+        tm[r] = br_bench_wall() - t0;
+        cm[r] = br_bench_cpu() - c0;
         map_periods = m->periods;
         holding = 0;
         for (int k = 0; k < m->nduty * m->nfsw; k++)
             holding += m->pt[k].holds;
         br_map_free(m);
-        t0 = now();
-        c0 = cpu();
+        t0 = br_bench_wall();
+        c0 = br_bench_cpu();
         if (br_window_run(d, &wo, w, &err) != BR_OK)
-            return fail(&err);
-        tw[r] = now() - t0;
-        cw[r] = cpu() - c0;
+            return br_bench_fail("bench_window", &err);
+        tw[r] = br_bench_wall() - t0;
+        cw[r] = br_bench_cpu() - c0;
         win_periods = w->duty.periods + w->fsw.periods;
     }
     printf("design: %s\n", path);
     printf("map 40 x 40 (duty 2 %% to 98 %%, %.4g Hz to %.4g Hz) on %d thread%s: median %.2f s "
            "over %d runs, CPU %.2f s (%ld periods, %d points hold)\n",
-           mo.fsw_from, mo.fsw_to, threads, threads == 1 ? "" : "s", median(tm, runs), runs,
-           median(cm, runs), map_periods, holding);
+           mo.fsw_from, mo.fsw_to, threads, threads == 1 ? "" : "s", br_bench_median(tm, runs),
+           runs, br_bench_median(cm, runs), map_periods, holding);
     printf("window: median %.3f s over %d runs, CPU %.3f s (%d + %d points judged, %ld "
            "periods)\n",
-           median(tw, runs), runs, median(cw, runs), w ? w->duty.evals : 0, w ? w->fsw.evals : 0,
-           win_periods);
+           br_bench_median(tw, runs), runs, br_bench_median(cw, runs), w ? w->duty.evals : 0,
+           w ? w->fsw.evals : 0, win_periods);
     free(w);
     br_design_free(d);
     return 0;

@@ -8,38 +8,14 @@
 #include "analyses/yield.h"
 #include "bootrung/bootrung.h"
 
+#include "benchkit.h"
+
 #include <gsl/gsl_errno.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <time.h>
 
 #define MAX_REPS 16
-
-static double wall(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_MONOTONIC, &ts);
-    return ts.tv_sec + 1e-9 * ts.tv_nsec;
-}
-
-static double cpu(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_PROCESS_CPUTIME_ID, &ts);
-    return ts.tv_sec + 1e-9 * ts.tv_nsec;
-}
-
-static int cmp(const void *a, const void *b)
-{
-    double x = *(const double *)a, y = *(const double *)b;
-    return (x > y) - (x < y);
-}
-
-static double median(double *v, int n)
-{
-    qsort(v, (size_t)n, sizeof *v, cmp);
-    return v[n / 2];
-}
 
 typedef struct job {
     const br_design *d;
@@ -95,16 +71,16 @@ static int bench(const char *name, int (*fn)(job *, br_error *), job *j, int rep
     char buf[1024];
     br_error err;
     for (int r = 0; r < reps; r++) {
-        double w0 = wall(), c0 = cpu();
+        double w0 = br_bench_wall(), c0 = br_bench_cpu();
         if (fn(j, &err) != BR_OK) {
             fprintf(stderr, "bench: %s: %s\n", name, br_error_format(&err, buf, sizeof buf));
             return 2;
         }
-        tw[r] = wall() - w0;
-        tc[r] = cpu() - c0;
+        tw[r] = br_bench_wall() - w0;
+        tc[r] = br_bench_cpu() - c0;
     }
-    printf("%-8s median %.2f s wall, %.2f s processor (%d runs): %s\n", name, median(tw, reps),
-           median(tc, reps), reps, j->what);
+    printf("%-8s median %.2f s wall, %.2f s processor (%d runs): %s\n", name,
+           br_bench_median(tw, reps), br_bench_median(tc, reps), reps, j->what);
     return 0;
 }
 
