@@ -585,6 +585,17 @@ static int supply_window(sizer *q, br_error *err)
     return br_supply_window_run(q->z->d, &so, &q->z->sw, err);
 }
 
+/* The spread every judgement of a run shares: its threads, cold starts,
+ * meter and solver limit. */
+static void spread_opts(const sizer *q, br_spread_opts *so)
+{
+    br_spread_opts_default(so);
+    so->threads = q->o->threads;
+    so->startup = 1;
+    so->meter = q->meter;
+    so->solver_limit = q->o->solver_limit;
+}
+
 static int run(sizer *q, br_error *err)
 {
     br_chain *c = malloc(sizeof *c);
@@ -602,11 +613,7 @@ static int run(sizer *q, br_error *err)
                           "voltage %.4g V, expected at least one to size the rails with",
                           q->d0->vsupply.max);
     br_spread_opts so;
-    br_spread_opts_default(&so);
-    so.threads = q->o->threads;
-    so.startup = 1;
-    so.meter = q->meter;
-    so.solver_limit = q->o->solver_limit;
+    spread_opts(q, &so);
     if (rc == BR_OK)
         rc = br_spread_create(q->d0, &so, &q->base, err);
     if (rc == BR_OK)
@@ -666,11 +673,7 @@ static int judge_alone(sizer *q, const br_design *t, br_size_verdict *v, br_erro
         prepare(q, c);
     free(c);
     br_spread_opts so;
-    br_spread_opts_default(&so);
-    so.threads = q->o->threads;
-    so.startup = 1;
-    so.meter = q->meter;
-    so.solver_limit = q->o->solver_limit;
+    spread_opts(q, &so);
     if (rc == BR_OK)
         rc = br_spread_create(q->d0, &so, &q->base, err);
     if (rc == BR_OK)
