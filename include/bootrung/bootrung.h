@@ -91,6 +91,28 @@ BR_API const char *br_design_schema(void);
  * Read as safely as a load reads it. */
 BR_API int br_design_notes(const char *path, br_text *out, br_error *err);
 
+/* How every start-up of a design is simulated.  Both give the same
+ * figures within the envelope's tolerance; the second is the reference the
+ * tests hold the first to. */
+typedef enum br_su_method {
+    BR_SU_ENVELOPE = 0, /* periods integrated where something discrete happens,
+                           stepped over along the rails' envelope elsewhere */
+    BR_SU_PERIODS = 1   /* every period integrated */
+} br_su_method;
+/* Set d's start-up method (a br_su_method): every analysis run on d, or
+ * on a chain built from it afterwards, uses it.  BR_EUSAGE for a NULL
+ * design or an unknown method. */
+BR_API int br_design_set_startup_method(br_design *d, int method);
+
+/* ---- reports ------------------------------------------------------------ */
+
+/* The forms a study renders its report in (br_*_render). */
+typedef enum br_format {
+    BR_FORMAT_TEXT = 0, /* the plain-text report */
+    BR_FORMAT_XML = 1,  /* the result file (our own XML vocabulary) */
+    BR_FORMAT_HTML = 2  /* a self-contained HTML page */
+} br_format;
+
 /* ---- the chain model --------------------------------------------------- */
 
 typedef struct br_chain br_chain;

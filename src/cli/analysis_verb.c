@@ -59,7 +59,7 @@ static int compute(const char *path, const char *verb, int parts, const br_stead
     br_chain *c = NULL;
     int rc = br_design_load(path, &d, err);
     if (rc == BR_OK) {
-        d->startup_method = su_method;
+        br_design_set_startup_method(d, su_method);
         rc = br_chain_build(d, &c, err);
     }
     br_results_traces *tr = o->html || o->svg ? &o->tr : NULL;

@@ -90,7 +90,7 @@ static int compute(const char *path, const br_corners_opts *opts, const args *a,
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     int rc = br_design_load(path, &o->d, err);
     if (rc == BR_OK) {
-        o->d->startup_method = a->su_method;
+        br_design_set_startup_method(o->d, a->su_method);
         rc = br_chain_build(o->d, &o->c, err);
     }
     if (rc == BR_OK)

@@ -112,7 +112,7 @@ static int compute(const char *path, const args *a, const br_pick_opts *po, outp
     *culprit = path;
     int rc = br_design_load(path, &o->d, err);
     if (rc == BR_OK) {
-        o->d->startup_method = a->su_method;
+        br_design_set_startup_method(o->d, a->su_method);
         rc = br_chain_build(o->d, &o->c, err);
     }
     if (rc == BR_OK) {

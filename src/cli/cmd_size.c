@@ -80,7 +80,7 @@ static int compute(const char *path, const args *a, br_size_opts *so, outputs *o
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     int rc = br_design_load(path, &o->d, err);
     if (rc == BR_OK && a->method)
-        o->d->startup_method = a->su_method;
+        br_design_set_startup_method(o->d, a->su_method);
     if (rc == BR_OK && a->catalog)
         rc = br_catalog_load(a->catalog, &o->cat, err);
     if (rc == BR_OK)

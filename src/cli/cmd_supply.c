@@ -66,7 +66,7 @@ static int compute(const char *path, const args *a, const br_supply_window_opts 
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     int rc = br_design_load(path, &o->d, err);
     if (rc == BR_OK && a->method) /* every cold start of the search, by this method */
-        o->d->startup_method = a->su_method;
+        br_design_set_startup_method(o->d, a->su_method);
     if (rc == BR_OK)
         rc = br_chain_build(o->d, &o->c, err);
     if (rc == BR_OK)

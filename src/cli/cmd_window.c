@@ -81,7 +81,7 @@ static int compute(const char *path, const br_window_opts *wo, int su_method, ou
     br_chain *c = NULL;
     int rc = br_design_load(path, &d, err);
     if (rc == BR_OK) {
-        d->startup_method = su_method;
+        br_design_set_startup_method(d, su_method);
         rc = br_chain_build(d, &c, err);
     }
     if (rc == BR_OK)

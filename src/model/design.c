@@ -71,6 +71,14 @@ void br_design_free(br_design *d)
     free(d);
 }
 
+int br_design_set_startup_method(br_design *d, int method)
+{
+    if (!d || (method != BR_SU_ENVELOPE && method != BR_SU_PERIODS))
+        return BR_EUSAGE;
+    d->startup_method = method;
+    return BR_OK;
+}
+
 const br_stage_spec *br_design_stage(const br_design *d, int k)
 {
     if (k >= 0 && k < BR_MAX_SWITCHES && d->has_override[k])

@@ -311,14 +311,7 @@ struct br_design {
                                    (a numerical setting, from the command line) */
 };
 
-/* How a start-up is simulated.  Both give the same figures within the
- * envelope's tolerance; the second is the reference the tests hold the
- * first to. */
-typedef enum br_su_method {
-    BR_SU_ENVELOPE = 0, /* periods integrated where something discrete happens,
-                           stepped over along the rails' envelope elsewhere */
-    BR_SU_PERIODS = 1   /* every period integrated */
-} br_su_method;
+/* How a start-up is simulated: br_su_method, in bootrung/bootrung.h. */
 
 /* A design with every optional field at its documented default and no
  * parts.  Returns NULL when out of memory. */
