@@ -173,6 +173,11 @@ typedef struct br_cli_run {
 } br_cli_run;
 
 void br_cli_run_begin(br_cli_run *r, const char *label, int quiet);
+/* The same hook and stop poll for the public API's setters
+ * (br_*_set_progress(obj, br_cli_run_progress, br_cli_run_stop, r)):
+ * ctx is the br_cli_run. */
+int br_cli_run_progress(void *ctx, double done, double total);
+int br_cli_run_stop(void *ctx);
 int br_cli_run_commit(br_cli_run *r);
 void br_cli_run_end(br_cli_run *r);
 

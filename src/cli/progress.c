@@ -108,7 +108,7 @@ static void draw(br_cli_run *r, double done, double total)
 }
 
 /* The hook the analysis calls: stop once a signal came, else draw. */
-static int on_progress(void *ctx, double done, double total)
+int br_cli_run_progress(void *ctx, double done, double total)
 {
     br_cli_run *r = ctx;
     if (caught)
@@ -120,7 +120,7 @@ static int on_progress(void *ctx, double done, double total)
 
 /* The stop poll the simulators call every few milliseconds of work, from
  * any thread: reading the flag is all it does. */
-static int on_stop(void *ctx)
+int br_cli_run_stop(void *ctx)
 {
     (void)ctx;
     return caught != 0;
@@ -152,9 +152,9 @@ static void catch_signals(br_cli_run *r)
 void br_cli_run_begin(br_cli_run *r, const char *label, int quiet)
 {
     memset(r, 0, sizeof *r);
-    r->hook.fn = on_progress;
+    r->hook.fn = br_cli_run_progress;
     r->hook.ctx = r;
-    r->hook.stop = on_stop;
+    r->hook.stop = br_cli_run_stop;
     r->label = label;
     r->draw = want_bar(quiet);
     r->t0 = now();
