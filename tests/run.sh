@@ -43,7 +43,9 @@ if [ ! -x /usr/bin/chromium ]; then
     echo "note: /usr/bin/chromium not found: the browser test (browser_report) will be skipped;" \
         "install Debian's chromium package to run it (.ci/run does)" >&2
 fi
-ctest --test-dir "$dir" --output-on-failure -V
+# every processor: the suites are independent processes (each makes its
+# own temporary files), and the sanitizer pass takes half the time
+ctest --test-dir "$dir" --output-on-failure -V -j "$(nproc)"
 if [ "$fuzz" != 0 ]; then
     status=0
     bash tests/fuzz/run.sh "$fuzz" || status=$?

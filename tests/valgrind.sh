@@ -23,21 +23,29 @@ runs=0 bad=0
 tmp=$(mktemp -d)
 trap 'rm -rf "$tmp"' EXIT
 
-# vg EXPECTED_STATUS ARGS...: one run under memcheck; 99 means memcheck
-# found an error or a leak.
+# vg EXPECTED_STATUS ARGS...: one run under memcheck, in the background,
+# at most one per processor at a time (memcheck is single-threaded; two
+# lanes halve the step); 99 means memcheck found an error or a leak.  A
+# bad run leaves its report in $tmp/bad.N.
+lanes=$(nproc)
 vg() {
-    local want=$1 status=0
+    local want=$1
     shift
     runs=$((runs + 1))
+    while [ "$(jobs -rp | wc -l)" -ge "$lanes" ]; do wait -n || true; done
+    vg_one "$runs" "$want" "$@" &
+}
+vg_one() {
+    local id=$1 want=$2 status=0
+    shift 2
     valgrind -q --error-exitcode=99 --leak-check=full --show-leak-kinds=all \
-        --errors-for-leak-kinds=all --log-file="$tmp/vg.log" \
-        "$bin" "$@" >/dev/null 2>"$tmp/stderr" || status=$?
-    if [ "$status" = 99 ] || [ -s "$tmp/vg.log" ] || ! [[ " $want " == *" $status "* ]]; then
-        bad=$((bad + 1))
+        --errors-for-leak-kinds=all --log-file="$tmp/vg.$id.log" \
+        "$bin" "$@" >/dev/null 2>"$tmp/stderr.$id" || status=$?
+    if [ "$status" = 99 ] || [ -s "$tmp/vg.$id.log" ] || ! [[ " $want " == *" $status "* ]]; then
         {
             echo "=== bootrung $* (exit $status, expected $want)"
-            cat "$tmp/vg.log" "$tmp/stderr"
-        } | tee -a "$log" >&2
+            cat "$tmp/vg.$id.log" "$tmp/stderr.$id"
+        } >"$tmp/bad.$id"
     fi
 }
 
@@ -49,7 +57,8 @@ for f in examples/*.xml tests/data/line-3level.xml; do
     vg "0 1" check "$f"
     vg "0 1 3" startup "$f"
     vg "0 1 3" steady "$f"
-    vg "0 1 3" analyze --xml "$tmp/out.xml" --csv "$tmp/out.csv" "$f"
+    b=$(basename "$f" .xml)
+    vg "0 1 3" analyze --xml "$tmp/$b.out.xml" --csv "$tmp/$b.out.csv" "$f"
 done
 vg "1 3" analyze --solver-limit 1 examples/demo-3level.xml # undetermined path
 vg "1 3" steady --solver-limit 1 tests/data/line-3level.xml  # an unsettled line cycle
@@ -64,6 +73,7 @@ for k in 1 2; do
     vg 0 map --duty 0.3:0.7:3 --freq 50k:200k:3 --shard $k/2 --shard-file "$tmp/m$k.shard" \
         examples/demo-3level.xml
 done
+wait # the merges read both shards
 vg "0 1 3" merge "$tmp/m1.shard" "$tmp/m2.shard"
 vg 2 merge "$tmp/m1.shard"
 vg 2 analyze no-such-file.xml
@@ -74,8 +84,13 @@ vg 2 check tests/extreme/levels-64.xml
 vg 2 analyze --no-such-option examples/demo-3level.xml
 vg 2 analyze --xml /dev/full examples/demo-3level.xml
 
+wait
+for r in "$tmp"/bad.*; do
+    [ -e "$r" ] || continue
+    bad=$((bad + 1))
+    tee -a "$log" <"$r" >&2
+done
 if [ "$bad" -ne 0 ]; then
     echo "valgrind: $bad of $runs runs had memory errors, leaks or a wrong exit status (see $log)" >&2
     exit 1
 fi
-echo "valgrind: $runs runs, no memory errors, no leaks"
