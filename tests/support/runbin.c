@@ -141,3 +141,32 @@ int help_is_golden(const char *verb)
     done(&b);
     return ok;
 }
+
+int catching(pid_t pid)
+{
+    char path[64], line[256];
+    snprintf(path, sizeof path, "/proc/%d/status", (int)pid);
+    FILE *f = fopen(path, "r");
+    unsigned long long mask = 0;
+    while (f && fgets(line, sizeof line, f))
+        if (sscanf(line, "SigCgt: %llx", &mask) == 1)
+            break;
+    if (f)
+        fclose(f);
+    unsigned long long want = (1ULL << (SIGINT - 1)) | (1ULL << (SIGTERM - 1));
+    return (mask & want) == want;
+}
+
+int await_catching(pid_t pid, double seconds)
+{
+    const struct timespec tick = {0, 2 * 1000 * 1000};
+    for (double waited = 0.0; waited < seconds; waited += 2e-3) {
+        if (catching(pid))
+            return 1;
+        siginfo_t si = {0};
+        if (waitid(P_PID, (id_t)pid, &si, WEXITED | WNOHANG | WNOWAIT) == 0 && si.si_pid == pid)
+            return 0; /* it ended */
+        nanosleep(&tick, NULL);
+    }
+    return 0;
+}

@@ -3,6 +3,8 @@
 #ifndef BR_RUNBIN_H
 #define BR_RUNBIN_H
 
+#include <sys/types.h>
+
 /* What one run of the binary produced. */
 typedef struct run_result {
     int status;    /* exit status, or -1 when it did not exit normally */
@@ -29,5 +31,14 @@ int same_as_golden(const char *golden, const char *got);
 /* 1 when `VERB --help` exits 0, prints tests/golden/VERB-help.txt and
  * `help VERB` prints the same; says on stderr what differs when not. */
 int help_is_golden(const char *verb);
+
+/* 1 when process pid catches both SIGINT and SIGTERM (Linux: the SigCgt
+ * mask of /proc/PID/status), i.e. a verb's run has begun. */
+int catching(pid_t pid);
+/* Wait until pid catches them, for at most `seconds` (a loaded machine
+ * may take seconds to start a program): 1 when it does, 0 when it ended
+ * first (it is not reaped) or the time ran out.  A test that signals a
+ * run waits for this instead of a fixed delay. */
+int await_catching(pid_t pid, double seconds);
 
 #endif

@@ -112,9 +112,9 @@ static int entries(const char *dir)
     return n;
 }
 
-/* Start a long run writing files into a fresh directory, send sig after
- * 0.3 s, and check the status, the one line on stderr, and that nothing
- * was written. */
+/* Start a long run writing files into a fresh directory, send sig 0.3 s
+ * after its run has begun (its handlers are in place), and check the status, the one line on
+ * stderr, and that nothing was written. */
 static void interrupt_run_on(const char *design, double within, const char *verb, const char *o1,
                              const char *f1, const char *o2, const char *f2, int sig, int expect)
 {
@@ -131,6 +131,7 @@ static void interrupt_run_on(const char *design, double within, const char *verb
     const char *steady[] = {verb, design, o1, p1, o2, p2, NULL};
     int one = strcmp(verb, "steady") == 0 || strcmp(verb, "analyze") == 0;
     pid_t pid = spawn(strcmp(verb, "map") == 0 ? map : one ? steady : yield, po, fe);
+    CU_ASSERT_TRUE(await_catching(pid, 30.0)); /* its run has begun */
     usleep(300000);
     double t = now();
     kill(pid, sig);
@@ -241,23 +242,6 @@ typedef struct flight {
     int fo, fe, sent, status;
     double armed, signalled, ended; /* s, monotonic (armed 0: not yet) */
 } flight;
-
-/* 1 once process pid catches SIGINT and SIGTERM (Linux: the SigCgt mask
- * of /proc/PID/status). */
-static int catching(pid_t pid)
-{
-    char path[64], line[256];
-    snprintf(path, sizeof path, "/proc/%d/status", (int)pid);
-    FILE *f = fopen(path, "r");
-    unsigned long long mask = 0;
-    while (f && fgets(line, sizeof line, f))
-        if (sscanf(line, "SigCgt: %llx", &mask) == 1)
-            break;
-    if (f)
-        fclose(f);
-    unsigned long long want = (1ULL << (SIGINT - 1)) | (1ULL << (SIGTERM - 1));
-    return (mask & want) == want;
-}
 
 static void launch(const phase_case *pc, flight *f)
 {
@@ -419,6 +403,7 @@ static char *stopped_run(const char *const *args, int err_fd, double after, cons
     pid_t pid = spawn(args, po, slave);
     if (master >= 0)
         close(slave);
+    await_catching(pid, 30.0); /* count from the start of its run */
     size_t cap = 1 << 16, len = 0;
     char *buf = calloc(cap, 1);
     double t0 = now();

@@ -210,6 +210,7 @@ static void test_pack_interrupted(void)
     pid_t pid;
     CU_ASSERT_EQUAL_FATAL(posix_spawn(&pid, BR_BINARY, &fa, NULL, argv, environ), 0);
     posix_spawn_file_actions_destroy(&fa);
+    CU_ASSERT_TRUE(await_catching(pid, 30.0)); /* its run has begun */
     const struct timespec wait = {1, 500 * 1000 * 1000};
     nanosleep(&wait, NULL);
     kill(pid, SIGINT);
