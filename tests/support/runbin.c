@@ -1,14 +1,17 @@
 /* runbin.c - running the built bootrung binary from a test. */
+#define _DEFAULT_SOURCE /* wait4 */
 #include "runbin.h"
 
 #include "testkit.h"
 
+#include <errno.h>
 #include <fcntl.h>
 #include <signal.h>
 #include <spawn.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/resource.h>
 #include <sys/wait.h>
 #include <time.h>
 #include <unistd.h>
@@ -169,4 +172,37 @@ int await_catching(pid_t pid, double seconds)
         nanosleep(&tick, NULL);
     }
     return 0;
+}
+
+double proc_cpu(pid_t pid)
+{
+    char path[64], buf[1024];
+    snprintf(path, sizeof path, "/proc/%d/stat", (int)pid);
+    FILE *f = fopen(path, "r");
+    size_t n = f ? fread(buf, 1, sizeof buf - 1, f) : 0;
+    if (f)
+        fclose(f);
+    buf[n] = '\0';
+    const char *p = strrchr(buf, ')'); /* the name may hold spaces */
+    unsigned long long ut = 0, st = 0;
+    /* after the name: state, then fields 4 to 13, then utime and stime */
+    if (!p ||
+        sscanf(p + 1, " %*c %*d %*d %*d %*d %*d %*u %*u %*u %*u %*u %llu %llu", &ut, &st) != 2)
+        return -1.0;
+    return (double)(ut + st) / (double)sysconf(_SC_CLK_TCK);
+}
+
+pid_t reap_cpu(pid_t pid, int options, int *status, double *cpu)
+{
+    int ws = 0;
+    struct rusage ru = {0};
+    pid_t got;
+    while ((got = wait4(pid, &ws, options, &ru)) < 0 && errno == EINTR)
+        ;
+    if (got == pid) {
+        *status = WIFEXITED(ws) ? WEXITSTATUS(ws) : -1;
+        *cpu = (double)ru.ru_utime.tv_sec + 1e-6 * (double)ru.ru_utime.tv_usec +
+               (double)ru.ru_stime.tv_sec + 1e-6 * (double)ru.ru_stime.tv_usec;
+    }
+    return got;
 }

@@ -41,4 +41,14 @@ int catching(pid_t pid);
  * run waits for this instead of a fixed delay. */
 int await_catching(pid_t pid, double seconds);
 
+/* Processor time process pid has used so far, all its threads, s (Linux:
+ * /proc/PID/stat); -1 when it cannot be read. */
+double proc_cpu(pid_t pid);
+/* Reap pid (options as waitpid's, e.g. WNOHANG): what waitpid returns,
+ * with its exit status in *status (-1: it did not exit normally) and the
+ * processor time it used in all in *cpu, s.  Stopping "within a second"
+ * is a promise about work, so tests judge it by processor time: on a
+ * loaded machine a second of work can take many seconds of wall time. */
+pid_t reap_cpu(pid_t pid, int options, int *status, double *cpu);
+
 #endif
