@@ -47,6 +47,9 @@ typedef struct br_sim_win {
     double vmin[BR_N], vmax[BR_N]; /* rail node extremes, V */
     int toggles;                   /* UVLO transitions */
     int pre_idx, loaded;           /* pre-charge step and load state at the start */
+    int lim;                       /* the supply seen in its current limit (1), out of
+                                      it (2), both (3), at the track points */
+    int trips, off;                /* the supply's hiccups and its off state at the start */
 } br_sim_win;
 
 /* Layout of the integrated vector, stage by stage so that only n * NF
