@@ -18,9 +18,12 @@ int br_sim_create(const br_chain *c, int dir, int integrator, br_sim **out, br_e
     s->c = c;
     s->n = c->n;
     s->nx = s->phi0 = c->n * NF;
+    s->bypass = c->csupply > 0 && c->rsupply > 0;
     br_sim_cache_esr(s);
-    for (int k = 1; k < s->n; k++)
+    for (int k = 1; k < s->n; k++) {
         s->stored |= c->st[k].diode.tau > 0;
+        s->zeners |= c->st[k].aux.kind == BR_AUX_ZENER;
+    }
     s->dir = s->dir0 = dir;
     s->ac = c->line.on;
     s->ac_hold = -1;

@@ -271,14 +271,15 @@ void br_sim_window_begin(br_sim *s);
 /* Whether the window was quiet: no UVLO transition, no change of the
  * start-up pattern (a pre-charge step's end, the supply ramp, the load
  * current's start) inside it or in progress (the supply still ramping),
- * so that the period it spans could repeat. */
+ * the supply on throughout and wholly in its current limit or wholly out
+ * of it, so that the period it spans could repeat. */
 int br_sim_window_quiet(const br_sim *s);
 
 /* What kept the window from being a period that could repeat: a driver
  * started or dropped out in it (BR_WIN_UVLO); the supply ramped, soft-
- * started, limited its current or was off, or a loaded line cycle moved
- * on (BR_WIN_SUPPLY); a pre-charge step ended or the load current started
- * (BR_WIN_SCHEDULE); nothing (BR_WIN_QUIET).  The first that applies. */
+ * started, entered or left its current limit, turned off or on or was
+ * off, or a loaded line cycle moved on (BR_WIN_SUPPLY); a pre-charge step ended or the load current
+ * started (BR_WIN_SCHEDULE); nothing (BR_WIN_QUIET).  The first that applies. */
 enum { BR_WIN_QUIET = 0, BR_WIN_UVLO, BR_WIN_SUPPLY, BR_WIN_SCHEDULE };
 int br_sim_window_why(const br_sim *s);
 
@@ -287,8 +288,10 @@ int br_sim_window_why(const br_sim *s);
  * window: a scheduled change (pre-charge step, supply ramp, load current)
  * at or before t_end, or a driver's supply coming within guard[k] of the
  * UVLO threshold it would toggle at, its extremes over the window moved
- * by dvc[k].  1: something may change (the caller integrates), 0: nothing
- * discrete lies ahead.  New kinds of discrete change answer here. */
+ * by dvc[k], or the supply coming within guard[0] of entering or leaving
+ * its current limit, the bypass voltage's extremes moved by dvc[0].
+ * 1: something may change (the caller integrates), 0: nothing discrete
+ * lies ahead.  New kinds of discrete change answer here. */
 int br_sim_discrete_ahead(const br_sim *s, const double *dvc, const double *guard, double t_end);
 
 /* The most quadrature entries any chain has: what a caller's buffer for

@@ -5,10 +5,14 @@
  * The envelope driver (envelope.c) integrates some periods and steps over
  * others along the rails' envelope.  It may do so only where the period
  * map is a smooth function of the rails: no driver toggles, no step of the
- * start-up pattern ends, the supply does not ramp, the load does not
- * start.  Every such discrete change is answered for here, in
- * br_sim_discrete_ahead, so that a new kind (a supply's current limit, a
- * schedule that changes from period to period) plugs in at one place. */
+ * start-up pattern ends, the supply does not ramp, turn off or enter or
+ * leave its current limit, the load does not start.  Every such discrete
+ * change is answered for here, in br_sim_discrete_ahead, so that a new
+ * kind (a schedule that changes from period to period) plugs in at one
+ * place.  A period spent wholly in the current limit (or wholly out of
+ * it) is a period of a smooth map: the supply's current is the limit's
+ * function of the bypass voltage; only the periods where it enters or
+ * leaves the limit are not. */
 #include "engine/sim_impl.h"
 
 #include "core/error.h"
@@ -83,6 +87,9 @@ void br_sim_window_begin(br_sim *s)
     w->toggles = 0;
     w->pre_idx = s->pre_idx;
     w->loaded = s->loaded;
+    w->lim = 0;
+    w->trips = s->sup_trips;
+    w->off = s->sup_off;
     for (int k = 0; k < s->n; k++) {
         w->vmin[k] = HUGE_VAL;
         w->vmax[k] = -HUGE_VAL;
@@ -99,13 +106,22 @@ void br_sim_window_track(br_sim *s)
         w->vmin[k] = v < w->vmin[k] ? v : w->vmin[k];
         w->vmax[k] = v > w->vmax[k] ? v : w->vmax[k];
     }
+    w->lim |= s->sup_lim ? 1 : 2; /* as the statistics' stretch in the limit reads it */
+}
+
+/* Did the supply change its law inside the window: into or out of its
+ * current limit, off or on (a hiccup)? */
+static int supply_moved(const br_sim *s)
+{
+    const br_sim_win *w = &s->win;
+    return w->lim == 3 || w->trips != s->sup_trips || w->off || s->sup_off;
 }
 
 int br_sim_window_quiet(const br_sim *s)
 {
     const br_sim_win *w = &s->win;
     return w->on && w->toggles == 0 && w->pre_idx == s->pre_idx && w->loaded == s->loaded &&
-           !ramping(s, w->t0) && !s->frozen;
+           !ramping(s, w->t0) && !s->frozen && !supply_moved(s);
 }
 
 /* The earliest scheduled change of the pattern, the supply or the load
@@ -119,10 +135,11 @@ static double next_scheduled(const br_sim *s)
         t = fmin(t, s->t); /* the supply moves the period map all along */
     if (!s->loaded && s->load_at < HUGE_VAL)
         t = fmin(t, s->load_at);
-    /* the supply's own law: a soft-start, a hiccup's timers; while it is
-     * off or in its current limit, its state is not the rails' alone */
+    /* the supply's own law: a soft-start, a hiccup's timers (the
+     * delay in the limit among them); while it is off its state is not
+     * the rails' alone.  Its current limit is the rails' (limit_near) */
     t = fmin(t, br_sim_supply_next(s));
-    if (s->sup_off || s->lim_since < HUGE_VAL || s->sup_lim)
+    if (s->sup_off)
         t = fmin(t, s->t);
     /* a loaded line cycle changes duty and current every period: no two
      * periods share a map */
@@ -136,7 +153,7 @@ int br_sim_window_why(const br_sim *s)
     const br_sim_win *w = &s->win;
     if (w->toggles > 0)
         return BR_WIN_UVLO;
-    if (ramping(s, w->t0) || next_scheduled(s) <= s->t)
+    if (ramping(s, w->t0) || next_scheduled(s) <= s->t || supply_moved(s))
         return BR_WIN_SUPPLY;
     if (!w->on || w->pre_idx != s->pre_idx || w->loaded != s->loaded || s->frozen)
         return BR_WIN_SCHEDULE;
@@ -157,9 +174,36 @@ static int uvlo_near(const br_sim *s, int k, double dv, double guard)
     return !(br_sim_vdrv(s, k, w->vmax[k] + dv + guard) < d->uvlo_rise);
 }
 
+/* Is the supply's current limit binding at bypass voltage v0 (open-
+ * circuit voltage vs)? */
+static int limit_binds(const br_sim *s, double vs, double v0)
+{
+    return (vs - v0) / s->c->rsupply > br_sim_supply_limit(s, v0);
+}
+
+/* Does the supply come within guard of entering or leaving its current
+ * limit with the bypass voltage's extremes over the window moved by dv?
+ * The current it would give, (Vs - v0) / Rs, falls as v0 rises and the
+ * limit stays or rises (fold-back), so the limit binds below one bypass
+ * voltage and not above: a window wholly in the limit keeps its highest
+ * v0 below it, one wholly out of it its lowest above. */
+static int limit_near(const br_sim *s, double dv, double guard)
+{
+    const br_sim_win *w = &s->win;
+    if (s->c->limit_mode == BR_SUPPLY_UNLIMITED || !br_sim_bypass(s))
+        return 0;
+    if ((w->lim != 1 && w->lim != 2) || !(w->vmin[0] <= w->vmax[0]))
+        return 1; /* both, or nothing seen */
+    double vs = br_sim_supply_v(s, s->t);
+    if (w->lim == 1)
+        return !limit_binds(s, vs, w->vmax[0] + dv + guard);
+    return limit_binds(s, vs, w->vmin[0] + dv - guard);
+}
+
 int br_sim_discrete_ahead(const br_sim *s, const double *dvc, const double *guard, double t_end)
 {
-    if (!s->win.on || s->frozen || next_scheduled(s) <= t_end)
+    if (!s->win.on || s->frozen || next_scheduled(s) <= t_end || supply_moved(s) ||
+        limit_near(s, dvc[0], guard[0]))
         return 1;
     for (int k = 0; k < s->n; k++) {
         if (s->held[k] || uvlo_near(s, k, dvc[k], guard[k]))

@@ -47,6 +47,9 @@ typedef struct br_sim_win {
     double vmin[BR_N], vmax[BR_N]; /* rail node extremes, V */
     int toggles;                   /* UVLO transitions */
     int pre_idx, loaded;           /* pre-charge step and load state at the start */
+    int lim;                       /* the supply seen in its current limit (1), out of
+                                      it (2), both (3), at the track points */
+    int trips, off;                /* the supply's hiccups and its off state at the start */
 } br_sim_win;
 
 /* Layout of the integrated vector, stage by stage so that only n * NF
@@ -110,6 +113,9 @@ typedef struct br_seg {
 struct br_sim {
     const br_chain *c;
     int n;            /* stages */
+    int bypass;       /* rail 0 has a bypass capacitor (br_sim_bypass) */
+    int zeners;       /* some rail has a Zener clamp: without, no rail is ever
+                         clamped or pinned, and the link solve skips them */
     int nx;           /* entries of x in use: n * NF (+ n * n) */
     int var;          /* the sensitivity matrix is integrated */
     int nlive;        /* entries the Runge-Kutta steps advance: */
@@ -322,8 +328,12 @@ void br_sim_gsl_free(void *p);
 void br_sim_track_extremes(br_sim *s, double t);
 
 /* 1 when rail 0 has a bypass capacitor behind the supply resistance (then
- * its voltage is a state), 0 when it is the supply behind its resistance. */
-int br_sim_bypass(const br_sim *s);
+ * its voltage is a state), 0 when it is the supply behind its resistance.
+ * Fixed by the chain (br_sim_create): asked in every evaluation. */
+static inline int br_sim_bypass(const br_sim *s)
+{
+    return s->bypass;
+}
 
 /* Does the edge in [ta, tb] sweeping link k's drive from fa to fb (V)
  * cross its conduction so fast, and the rails stay so still, that it is

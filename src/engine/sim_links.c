@@ -63,11 +63,6 @@ static inline double rail_cap(br_sim *s, int k, double v)
     return p->c0 + p->slope * (v - p->at);
 }
 
-int br_sim_bypass(const br_sim *s)
-{
-    return s->c->csupply > 0 && s->c->rsupply > 0;
-}
-
 /* Series resistance between rail k's node and its stored charge: the ESR,
  * or for rail 0 the supply resistance unless a bypass capacitor holds the
  * rail (then the node is the capacitor itself). */
@@ -81,7 +76,7 @@ static double esr_of(const br_sim *s, int k)
 void br_sim_cache_esr(br_sim *s)
 {
     for (int k = 0; k < s->n; k++)
-        s->esr[k] = esr_of(s, k);
+        s->esr_now[k] = s->esr[k] = esr_of(s, k); /* no rail pinned */
 }
 
 static double supply_at(const br_seg *g, double t)
@@ -132,6 +127,8 @@ static void rail_voltages(br_sim *s, double t, const double *x)
  * current is found with the links', see pinned_clamps). */
 static void clamp_currents(br_sim *s, const double *x)
 {
+    if (!s->zeners) /* nothing clamps: no rail pinned, esr_now is esr (br_sim_cache_esr) */
+        return;
     for (int k = 1; k < s->n; k++) {
         const br_aux *a = &s->c->st[k].aux;
         double v = x[XI(k, F_VC)];
@@ -380,7 +377,7 @@ static void startup_quadratures(br_sim *s, double t, const double *x, double *dx
 
 void br_sim_clamp_limit(br_sim *s)
 {
-    for (int k = 1; k < s->n; k++) {
+    for (int k = 1; s->zeners && k < s->n; k++) {
         const br_aux *a = &s->c->st[k].aux;
         double v = s->x[XI(k, F_VC)];
         if (a->kind != BR_AUX_ZENER || a->rz > 0 || !(v > a->vout))
@@ -401,7 +398,7 @@ void br_sim_clamp_limit(br_sim *s)
 static int release_clamps(br_sim *s)
 {
     int any = 0;
-    for (int k = 1; k < s->n; k++) {
+    for (int k = 1; s->zeners && k < s->n; k++) {
         if (s->pin[k] && s->iz[k] < 0.0) {
             s->pin[k] = 0;
             s->iz[k] = 0.0;
