@@ -409,6 +409,13 @@ static int describe_diode(const br_chain *c, const br_rule_hit *h, br_text *out)
 {
     int k = h->stage;
     double vb = br_link_vblock(c, k), vrrm = c->st[k].diode.vrrm;
+    if (c->st[k].inject) /* no switching edge: its own supply off under a charged rail */
+        return br_text_printf(out,
+                              "injection into rail %d (%s) diode %s: must block %.1f V (the "
+                              "injection's highest voltage, with its supply off under the charged "
+                              "rail), %s %.4g V rating",
+                              k, c->st[k].name, h->part, h->figure,
+                              h->kind == BR_RULE_DIODE_UNRATED ? "no" : "against its", h->limit);
     int rc = br_text_printf(out, "link %d (rail %s, returns via %s) diode %s: ", k, c->st[k].name,
                             c->st[k - 1].name, h->part);
     if (h->kind == BR_RULE_DIODE_UNRATED)
@@ -428,6 +435,16 @@ static int describe_diode(const br_chain *c, const br_rule_hit *h, br_text *out)
                                h->limit);
 }
 
+/* "; THE CHAIN CANNOT WORK: rails 3 to 5 never start" (up to the next
+ * injection, in h->index). */
+static int stalled(const br_rule_hit *h, br_text *out)
+{
+    int k = h->stage, top = h->index;
+    if (top <= k)
+        return br_text_printf(out, "; THE CHAIN CANNOT WORK: rail %d never starts", k);
+    return br_text_printf(out, "; THE CHAIN CANNOT WORK: rails %d to %d never start", k, top);
+}
+
 static int describe_supply(const br_chain *c, const br_rule_hit *h, br_text *out)
 {
     int k = h->stage;
@@ -439,10 +456,26 @@ static int describe_supply(const br_chain *c, const br_rule_hit *h, br_text *out
         rc |=
             br_text_printf(out, " (drops taken at the steady charge currents, %.3g mA in link %d)",
                            h->current * 1e3, k);
-    if (k == c->n - 1)
-        return rc | br_text_printf(out, "; THE CHAIN CANNOT WORK: rail %d never starts", k);
-    return rc |
-           br_text_printf(out, "; THE CHAIN CANNOT WORK: rails %d to %d never start", k, c->n - 1);
+    return rc | stalled(h, out);
+}
+
+static int describe_injection(const br_chain *c, const br_rule_hit *h, br_text *out)
+{
+    int k = h->stage;
+    const br_stage *st = &c->st[k];
+    if (h->kind == BR_RULE_INJECT_LATE)
+        return br_text_printf(out,
+                              "injection into rail %d (%s): it starts at %.4g s, not before the "
+                              "longest start-up simulated (%.4g s, max-startup), so no start-up "
+                              "sees it",
+                              k, st->name, h->figure, h->limit);
+    int rc = br_text_printf(out,
+                            "injection into rail %d (%s): its %.4g V less the drop of diode %s "
+                            "and %.4g ohm at %.3g mA leaves the driver %.2f V, below its UVLO "
+                            "rising %.4g V; it cannot start its rail (expected a higher voltage)",
+                            k, st->name, h->lo, h->part, st->r_link, 1e3 * h->current, h->figure,
+                            h->limit);
+    return rc | stalled(h, out);
 }
 
 static int describe_stage(const br_chain *c, const br_rule_hit *h, br_text *out)
@@ -561,6 +594,9 @@ int br_rule_describe(const br_chain *c, const br_rule_hit *h, br_text *out)
         return describe_diode(c, h, out);
     case BR_RULE_SUPPLY_SHORT:
         return describe_supply(c, h, out);
+    case BR_RULE_INJECT_SHORT:
+    case BR_RULE_INJECT_LATE:
+        return describe_injection(c, h, out);
     case BR_RULE_FLY_COLLAPSE:
         return br_text_printf(out,
                               "switch %s: the flying capacitors' ripple at %.4g A takes the "
