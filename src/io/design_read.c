@@ -409,7 +409,16 @@ static int read_injection(br_rd *r, xmlNode *n, br_inject_spec *j)
 {
     br_design *d = r->d;
     int nsw = br_design_nswitch(d);
-    BR_TRY(br_rd_int(r, n, "rail", 1, nsw - 1, &j->rail));
+    BR_TRY(br_rd_int(r, n, "rail", 0, BR_MAX_SWITCHES, &j->rail));
+    if (j->rail == 0)
+        return br_rd_fail(r, n, "rail",
+                          "rail 0 is the supply itself, expected a floating rail from 1 to %d",
+                          nsw - 1);
+    if (j->rail >= nsw)
+        return br_rd_fail(r, n, "rail",
+                          "got %d, expected a floating rail from 1 to %d (the leg has %d "
+                          "switches)",
+                          j->rail, nsw - 1, nsw);
     const br_inject_spec *dup = br_design_injection(d, j->rail);
     if (dup && dup != j)
         return br_rd_fail(r, n, "rail",
