@@ -17,6 +17,8 @@ int br_sim_create(const br_chain *c, int dir, int integrator, br_sim **out, br_e
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory for the simulator");
     s->c = c;
     s->n = c->n;
+    for (int k = 1; k < c->n; k++) /* the hot loops read a mask, not the stages */
+        s->injm |= (br_mask)(c->st[k].inject != 0) << k;
     s->nx = s->phi0 = c->n * NF;
     br_sim_cache_esr(s);
     for (int k = 1; k < s->n; k++)

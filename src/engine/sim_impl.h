@@ -153,6 +153,7 @@ struct br_sim {
     int sup_lim;       /* the workspace's supply current is at its limit */
     double isup;       /* the supply current at the last evaluation, A */
     int inj_run;       /* every injection on whatever the time (a running reset) */
+    br_mask injm;      /* bit k: an injection feeds rail k (from the chain) */
     int trips0;        /* statistics: hiccups when they started */
     double lim_t0;     /* statistics: the stretch in the limit began here, s
                           (HUGE_VAL: not in it) */
@@ -351,7 +352,7 @@ int br_sim_edge_end(br_sim *s, double tb);
 /* 1 when rail k (1 <= k) is fed by an injection, 0 otherwise (also k >= n). */
 static inline int br_sim_inj(const br_sim *s, int k)
 {
-    return k < s->n && s->c->st[k].inject;
+    return (int)(s->injm >> k & 1);
 }
 
 /* The injection into rail k: its open-circuit voltage at t, V (0 before it
@@ -366,21 +367,21 @@ static inline double br_sim_inj_v(const br_sim *s, int k, double t)
  * injection. */
 static inline double br_sim_low(const br_sim *s, const double *v, int k)
 {
-    return s->c->st[k].inject ? 0.0 : v[k - 1];
+    return br_sim_inj(s, k) ? 0.0 : v[k - 1];
 }
 
 /* The current a rail k passes up to link k+1 among link currents il (0
  * when rail k+1 is injected, or the top). */
 static inline double br_sim_up(const br_sim *s, const double *il, int k)
 {
-    return k + 1 < s->n && !s->c->st[k + 1].inject ? il[k + 1] : 0.0;
+    return k + 1 < s->n && !br_sim_inj(s, k + 1) ? il[k + 1] : 0.0;
 }
 
 /* Voltage in link k's loop besides the two nodes: its return switch's at
  * t, or minus the injection's voltage. */
 static inline double br_sim_link_d(const br_sim *s, int k, double t)
 {
-    return s->c->st[k].inject ? -br_sim_inj_v(s, k, t) : br_sim_switch_v(s, k - 1, t);
+    return br_sim_inj(s, k) ? -br_sim_inj_v(s, k, t) : br_sim_switch_v(s, k - 1, t);
 }
 
 /* Reverse voltage of link k at time t for rail node voltages vr: across

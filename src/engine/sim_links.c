@@ -171,7 +171,7 @@ static void shift_link(br_sim *s, int k, double dk)
         s->ic[k] -= dk;
         s->vr[k] -= s->esr[k] * dk;
     }
-    if (s->c->st[k].inject) {
+    if (br_sim_inj(s, k)) {
         return; /* the isolated supply gives it: no rail below takes part */
     } else if (k > 1 && s->pin[k - 1]) {
         s->iz[k - 1] += dk;

@@ -240,6 +240,11 @@ int br_chain_build_nominal(const br_design *d, br_chain *c, br_error *err)
                             "%g A with current=\"none\": idealised commutation carries no load "
                             "current; expected load-current=\"0 A\" or a current direction",
                             d->iload.max);
+    for (int i = 0; i < d->ninject; i++) /* a template's, on a shorter leg */
+        if (d->inject[i].rail < 1 || d->inject[i].rail >= c->n)
+            return br_error_set(err, BR_EINPUT, d->path, d->inject[i].line, "injection: rail",
+                                "rail %d is not a floating rail of this leg, expected 1 to %d",
+                                d->inject[i].rail, c->n - 1);
     for (int k = 0; k < c->n; k++) {
         br_stage *st = &c->st[k];
         int rc = d->topology == BR_TOPO_FCML ? fcml_timing(d, c, k, st, err)

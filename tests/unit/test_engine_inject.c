@@ -173,6 +173,20 @@ static void test_injection_starts_late(void)
     br_design_free(d);
 }
 
+/* A design built by hand (or a template on a shorter leg) with an
+ * injection beyond its floating rails is refused, not silently ignored. */
+static void test_injection_beyond_leg(void)
+{
+    br_design *d = leg(3, 4, 12.0, 1.0); /* 4 switches: rails 1 to 3 */
+    br_chain *c = NULL;
+    br_error err;
+    br_error_clear(&err);
+    CU_ASSERT_EQUAL(br_chain_build(d, &c, &err), BR_EINPUT);
+    CU_ASSERT_PTR_NULL(c);
+    CU_ASSERT_STRING_EQUAL(err.field, "injection: rail");
+    br_design_free(d);
+}
+
 int main(void)
 {
     static const br_test_case cases[] = {
@@ -180,6 +194,7 @@ int main(void)
         {"power balance with two supplies", test_power_balance_two_supplies},
         {"split chain holds", test_split_chain_holds},
         {"injection starts late", test_injection_starts_late},
+        {"an injection beyond the leg is refused", test_injection_beyond_leg},
         {NULL, NULL}};
     return br_test_main("engine_inject", cases);
 }
