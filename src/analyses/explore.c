@@ -414,6 +414,17 @@ static int screen(const br_design *d, const br_explore_opts *o, double target, b
     return rc;
 }
 
+int br_explore_screen(const br_design *d, const br_explore_opts *o, double target,
+                      br_explore_row *r, br_error *err)
+{
+    br_evaluation *e = malloc(sizeof *e);
+    if (!e)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    int rc = screen(d, o, target, e, r, err);
+    free(e);
+    return rc;
+}
+
 /* ---- the corners ------------------------------------------------------------ */
 
 /* A survivor judged at its worst corners as `size` judges a value. */
@@ -540,6 +551,8 @@ static int judge_row(const br_design *t, const br_explore_opts *o, double target
     int rc = screen(d, o, target, e, r, err);
     if (rc == BR_OK && r->state == BR_EX_FEASIBLE && o->corners)
         rc = corners(d, o, target, r, err);
+    if (rc == BR_OK && r->state == BR_EX_SPLIT)
+        rc = br_explore_split(d, o, target, r, err);
     br_design_free(d);
     return rc;
 }

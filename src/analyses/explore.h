@@ -35,8 +35,11 @@
  *
  * A chain whose rails fail from some rail upwards (the drops of the
  * cascade add up along it) is reported as needing a second isolated
- * supply at the lowest failing rail: the simulator models one supply, at
- * rail 0, so the split chain itself is not simulated.
+ * supply (split_at: the lowest failing rail), and the split design is
+ * built and judged at its nominal point (explore_split.c): an injection
+ * of the template supply's voltage into a rail, the search choosing the
+ * rail (br_explore_split).  The split design stays out of the ranking:
+ * the row keeps BR_EX_SPLIT and carries the split design's verdict.
  *
  * Bounded: at most BR_EXPLORE_MAX combinations, each one evaluation (plus
  * one worst-corner judgement); every simulation carries the stop poll. */
@@ -104,6 +107,15 @@ typedef struct br_explore_row {
     double tstart;   /* start-up time, s */
     int crit, stage; /* where the margin binds, or what fails (br_crit, -1) */
     int split_at;    /* BR_EX_SPLIT: rail a second supply would feed */
+    /* BR_EX_SPLIT: the split design judged (inject_rail > 0): the rail its
+     * injection feeds, its state (the screen's, at the nominal point), its
+     * smallest margin in volts and where it binds (or what fails), its
+     * start-up time and the main supply's power */
+    int inject_rail;
+    int split_state;
+    double split_margin, split_tstart, split_loss;
+    int split_crit, split_stage;
+    int split_tries; /* split designs judged in the search */
     int corners;     /* judged at the worst corners */
     int front;       /* on the Pareto front of the feasible rows */
     int rank;        /* 1.. among the feasible rows (0: not feasible) */
@@ -131,6 +143,23 @@ void br_explore_free(br_explore *x);
  * leaves it no switch or diode. */
 int br_explore_design(const br_design *t, const br_explore_opts *o, const br_explore_row *r,
                       br_design **out, br_error *err);
+
+/* The screen of one design d at its nominal point, as the exploration
+ * judges a combination (explore.c): r's state, margin, start-up time and
+ * supply power.  Its levels, switch and cost are left as they are. */
+int br_explore_screen(const br_design *d, const br_explore_opts *o, double target,
+                      br_explore_row *r, br_error *err);
+
+/* The split design of d: d with an injection into rail `rail` (1 ..
+ * switches-1) of the supply's voltage (its tolerance too), through the
+ * stage's link resistor and its link diode, on from power-up
+ * (explore_split.c).  BR_EINPUT when the rail is out of range. */
+int br_explore_split_design(const br_design *d, int rail, br_design **out, br_error *err);
+
+/* Row r failed as BR_EX_SPLIT with design d: search the injection rail
+ * and judge the split design (explore_split.c). */
+int br_explore_split(const br_design *d, const br_explore_opts *o, double target, br_explore_row *r,
+                     br_error *err);
 
 /* Mark the Pareto front among the feasible rows: a row is on it when no
  * other feasible row is at least as good in cost, loss (lower) and margin

@@ -57,7 +57,9 @@ static void link_figure(const br_chain *c, const br_link_stats *l, int k, double
 {
     const br_diode *d = &c->st[k].diode;
     f->vrev_sim = l->vrev_peak;
-    f->vrev_stress = l->vrev_peak + c->st[k - 1].vblock * c->overshoot;
+    /* an injection's diode sees no switching edge: its supply is on the
+     * switch's own source */
+    f->vrev_stress = l->vrev_peak + (c->st[k].inject ? 0.0 : c->st[k - 1].vblock * c->overshoot);
     f->vrrm = d->vrrm;
     f->share = d->vrrm > 0 ? f->vrev_stress / d->vrrm : 0.0;
     f->iavg = l->q / dt;
@@ -124,9 +126,12 @@ void br_budget_make(const br_chain *c, const br_stats *st, br_budget *b)
             continue;
         link_loss(&st->link[k], dt, &b->link[k]);
         b->losses += br_link_loss_sum(&b->link[k]);
-        b->stage -= b->link[k].stage;
+        if (c->st[k].inject)
+            b->inject -= b->link[k].stage;
+        else
+            b->stage -= b->link[k].stage;
     }
-    b->balance = b->supply + b->stage - b->losses - b->stored;
+    b->balance = b->supply + b->stage + b->inject - b->losses - b->stored;
 }
 
 int br_avg_within(double avg, double vmin, double vmax)

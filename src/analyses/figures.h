@@ -70,10 +70,13 @@ typedef struct br_link_loss {
 typedef struct br_budget {
     double supply;  /* delivered by the supply */
     double stage;   /* given by the power stage (minus the links' `stage`) */
+    double inject;  /* given by the isolated supplies that feed rails directly
+                       (minus their links' `stage`: an injection's "return
+                       switch" is its supply, at minus its voltage) */
     double rsupply; /* lost in the supply's resistance */
     double stored;  /* the rails' stored energy, end less start, over the period */
     double losses;  /* every loss, rsupply included */
-    double balance; /* supply + stage - losses - stored: rounding and the
+    double balance; /* supply + stage + inject - losses - stored: rounding and the
                        integrator's error */
     br_rail_loss rail[BR_MAX_SWITCHES];
     br_link_loss link[BR_MAX_SWITCHES]; /* [k], k >= 1 */

@@ -64,6 +64,9 @@ int br_pick_apply(const br_design *d, const br_catalog *cat, const br_choice *ch
         if (rc == BR_OK && ch->diode[k] >= 0 &&
             (rc = place(x, cat, 1, ch->diode[k], pdio, err)) == BR_OK)
             spec.diode = pdio[ch->diode[k]];
+        for (int i = 0; rc == BR_OK && ch->diode[k] >= 0 && i < x->ninject; i++)
+            if (x->inject[i].rail == k) /* link k's diode is the injection's */
+                x->inject[i].diode = spec.diode;
         x->stage[k] = spec;
         x->has_override[k] = 1;
     }

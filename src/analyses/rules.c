@@ -28,8 +28,18 @@ static void add(br_rule_list *out, int kind, int stage, const char *part, double
     h->by_ramp = 0;
 }
 
+/* The highest voltage an injection into rail k gives (its tolerance's
+ * top), V. */
+static double inject_max(const br_chain *c, int k)
+{
+    const br_inject_spec *j = c->design ? br_design_injection(c->design, k) : NULL;
+    return j ? fmax(j->v.max, c->st[k].vinj) : c->st[k].vinj;
+}
+
 double br_link_vblock(const br_chain *c, int k)
 {
+    if (k >= 1 && c->st[k].inject) /* a charged rail over its supply switched off */
+        return inject_max(c, k);
     return k >= 1 ? c->st[k - 1].vblock : 0.0;
 }
 
@@ -45,8 +55,8 @@ static double stage_draw(const br_chain *c, int k)
 
 double br_link_current(const br_chain *c, int k)
 {
-    double i = 0.0;
-    for (int j = k; j < c->n; j++)
+    double i = 0.0; /* up to the next rail an injection feeds */
+    for (int j = k; j < c->n && (j == k || !c->st[j].inject); j++)
         i += stage_draw(c, j);
     return i;
 }
@@ -55,7 +65,7 @@ double br_link_drop(const br_chain *c, int k)
 {
     const br_stage *st = &c->st[k];
     double i = br_link_current(c, k);
-    double r = st->diode.rs + st->r_link + c->st[k - 1].sw.rds_on;
+    double r = st->diode.rs + st->r_link + (st->inject ? 0.0 : c->st[k - 1].sw.rds_on);
     return br_diode_vjunction(&st->diode, i) + i * r;
 }
 
@@ -76,7 +86,8 @@ static double window_time(const br_chain *c, int k)
 static void diode_rules(const br_chain *c, int k, br_rule_list *out)
 {
     const br_diode *d = &c->st[k].diode;
-    double need = br_link_vblock(c, k) * (1.0 + c->overshoot);
+    /* an injection's diode sees no switching edge, so no overshoot */
+    double need = br_link_vblock(c, k) * (c->st[k].inject ? 1.0 : 1.0 + c->overshoot);
     if (!(d->vrrm > 0))
         add(out, BR_RULE_DIODE_UNRATED, k, d->id, need, 0.0);
     else if (d->vrrm < need)
@@ -95,6 +106,15 @@ static double supply_max(const br_chain *c)
     return v;
 }
 
+/* Highest voltage rail k can sit at: that of the supply or injection
+ * its segment of the chain climbs from. */
+static double source_max(const br_chain *c, int k)
+{
+    while (k > 0 && !c->st[k].inject)
+        k--;
+    return k > 0 ? inject_max(c, k) : supply_max(c);
+}
+
 /* Gate rules and the regulator/clamp sanity rule for stage k. */
 static void gate_rules(const br_chain *c, int k, br_rule_list *out)
 {
@@ -105,8 +125,8 @@ static void gate_rules(const br_chain *c, int k, br_rule_list *out)
             add(out, BR_RULE_AUX_BELOW_UVLO, k, st->aux.id, st->aux.vout, st->drv.uvlo_rise);
         if (vmax > 0 && st->aux.vout > vmax)
             add(out, BR_RULE_AUX_ABOVE_GATE, k, st->aux.id, st->aux.vout, vmax);
-    } else if (vmax > 0 && supply_max(c) > vmax) {
-        add(out, BR_RULE_GATE_UNPROTECTED, k, st->sw.id, supply_max(c), vmax);
+    } else if (vmax > 0 && source_max(c, k) > vmax) {
+        add(out, BR_RULE_GATE_UNPROTECTED, k, st->sw.id, source_max(c, k), vmax);
     }
 }
 
@@ -119,7 +139,7 @@ static void cap_rule(const br_chain *c, int k, br_rule_list *out)
     const br_stage *st = &c->st[k];
     if (!st->cap.class2 || !(st->cap.vrated > 0))
         return;
-    double v = supply_max(c), lim = c->cap_derating * st->cap.vrated;
+    double v = source_max(c, k), lim = c->cap_derating * st->cap.vrated;
     if (st->aux.kind == BR_AUX_ZENER && st->aux.vout < v)
         v = st->aux.vout;
     if (v > lim)
@@ -136,25 +156,51 @@ static double drive_from_rail(const br_stage *st, double v)
     return v;
 }
 
-/* Walk up the chain summing nominal drops; the first rail whose driver
- * cannot reach its UVLO rising stalls every rail above it. */
+/* The next rail above k that an injection feeds, or n. */
+static int next_injection(const br_chain *c, int k)
+{
+    int j = k + 1;
+    while (j < c->n && !c->st[j].inject)
+        j++;
+    return j;
+}
+
+/* Walk up the chain summing nominal drops, from the supply and from each
+ * injection; the first rail whose driver cannot reach its UVLO rising
+ * stalls every rail above it up to the next injection.  An injected rail
+ * that falls short is the injection rule's finding. */
 static void supply_rule(const br_chain *c, br_rule_list *out)
 {
     double v = c->vsupply - c->rsupply * br_link_current(c, 0);
     for (int k = 0; k < c->n; k++) {
         const br_stage *st = &c->st[k];
         if (k > 0)
-            v -= br_link_drop(c, k);
+            v = (st->inject ? st->vinj : v) - br_link_drop(c, k);
         if (st->aux.kind == BR_AUX_ZENER)
             v = fmin(v, st->aux.vout); /* the clamp also caps what climbs on */
         double drive = drive_from_rail(st, v);
-        if (drive < st->drv.uvlo_rise) {
+        if (!(drive < st->drv.uvlo_rise))
+            continue;
+        if (st->inject) {
+            add(out, BR_RULE_INJECT_SHORT, k, st->diode.id, drive, st->drv.uvlo_rise);
+            out->hit[out->n - 1].lo = st->vinj;
+        } else {
             add(out, BR_RULE_SUPPLY_SHORT, k, st->drv.id, drive, st->drv.uvlo_rise);
-            out->hit[out->n - 1].current = br_link_current(c, k);
-            out->hit[out->n - 1].fatal = 1;
-            return;
         }
+        out->hit[out->n - 1].current = br_link_current(c, k);
+        out->hit[out->n - 1].fatal = 1;
+        out->hit[out->n - 1].index = next_injection(c, k) - 1; /* the last rail it stalls */
+        k = next_injection(c, k) - 1;
     }
+}
+
+/* An injection that starts after the longest start-up simulated never
+ * shows in it. */
+static void inject_late_rule(const br_chain *c, br_rule_list *out)
+{
+    for (int k = 1; k < c->n; k++)
+        if (c->st[k].inject && c->st[k].tinj >= c->startup_max)
+            add(out, BR_RULE_INJECT_LATE, k, c->st[k].diode.id, c->st[k].tinj, c->startup_max);
 }
 
 /* With a finite flying capacitance the cells' voltages ripple; at the load
@@ -251,8 +297,13 @@ static double first_on(const br_chain *c, int s, double start)
 static void earliest_starts(const br_chain *c, double *e, int *ramp)
 {
     for (int k = 0; k < c->n; k++) {
+        const br_stage *st = &c->st[k];
         double by_supply = ramp_time(c, start_need(c, k));
         double by_chain = k == 0 ? 0.0 : first_on(c, k - 1, e[k - 1]);
+        if (st->inject) { /* its own supply, charging whatever the switches do */
+            by_supply = start_need(c, k) > st->vinj ? INFINITY : st->tinj;
+            by_chain = 0.0;
+        }
         e[k] = fmax(by_supply, by_chain);
         ramp[k] = by_supply >= by_chain;
     }
@@ -371,7 +422,7 @@ int br_rules_check(const br_chain *c, br_rule_list *out, br_error *err)
         const br_driver *drv = &c->st[k].drv;
         if (k > 0)
             diode_rules(c, k, out);
-        if (k > 0 && !(window_time(c, k) > 0)) {
+        if (k > 0 && !c->st[k].inject && !(window_time(c, k) > 0)) {
             add(out, BR_RULE_NO_WINDOW, k, c->st[k - 1].name, 0.0, 0.0);
             out->hit[out->n - 1].fatal = 1;
         }
@@ -382,6 +433,7 @@ int br_rules_check(const br_chain *c, br_rule_list *out, br_error *err)
             cap_rule(c, k, out);
     }
     supply_rule(c, out);
+    inject_late_rule(c, out);
     ripple_rule(c, out);
     precharge_rule(c, out);
     plausible_chain(c, out);
@@ -393,7 +445,7 @@ const char *br_rule_name(int kind)
     static const char *const names[BR_RULE_KINDS] = {
         "diode-rating",   "diode-derating",   "diode-unrated",  "uvlo-hysteresis", "supply-short",
         "aux-below-uvlo", "gate-unprotected", "aux-above-gate", "no-window",       "fly-collapse",
-        "implausible",    "precharge-idle",   "cap-derating",
+        "implausible",    "precharge-idle",   "cap-derating",   "injection-short", "injection-late",
     };
     return kind >= 0 && kind < BR_RULE_KINDS ? names[kind] : "unknown";
 }

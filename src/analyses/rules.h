@@ -26,6 +26,9 @@ typedef enum br_rule_kind {
                                  UVLO for the whole step: they never turn on in it */
     BR_RULE_CAP_DERATING,     /* a class II ceramic may reach more than cap-derating of
                                  its rating (common practice) */
+    BR_RULE_INJECT_SHORT,     /* an injection's voltage less its diode and resistance drops
+                                 misses its rail's start voltage: it cannot act */
+    BR_RULE_INJECT_LATE,      /* an injection starts after the longest start-up simulated */
     BR_RULE_KINDS
 } br_rule_kind;
 

@@ -410,14 +410,20 @@ void br_steady_estimate(const br_chain *c, int dir, double *x)
         const br_stage *st = &c->st[k];
         iabove += st->drv.iq_on + st->drv.i_iso + st->aux.iq + br_sw_qg_at(&st->sw, 6.0) * c->fsw;
         ilink[k] = iabove;
+        if (st->inject) /* the rails from here up draw on the injection */
+            iabove = 0.0;
     }
     double v = c->vsupply;
     x[0] = c->csupply > 0 && c->rsupply > 0 ? v : 0.0; /* the bypass capacitor, if any */
     for (int k = 1; k < c->n; k++) {
         const br_diode *d = &c->st[k].diode;
         double ipk = 2.0 * ilink[k] + 1e-6; /* windows are about half the period */
-        v -= br_diode_vjunction(d, ipk) + ipk * (d->rs + c->st[k].r_link) +
-             br_sw_on_drop(&c->st[k - 1], dir, c->iload);
+        if (c->st[k].inject)                /* it conducts all period, from its own supply */
+            v = c->st[k].vinj - br_diode_vjunction(d, ilink[k] + 1e-6) -
+                ilink[k] * (d->rs + c->st[k].r_link);
+        else
+            v -= br_diode_vjunction(d, ipk) + ipk * (d->rs + c->st[k].r_link) +
+                 br_sw_on_drop(&c->st[k - 1], dir, c->iload);
         const br_aux *a = &c->st[k].aux;
         if (a->kind == BR_AUX_ZENER && v > a->vout)
             v = a->vout; /* a clamp holds its rail, and the rails above start from there */

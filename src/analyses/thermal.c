@@ -46,7 +46,7 @@ int br_thermal_solve(double ta, double rth, double pc, double pl, double t0, dou
 void br_link_leak_law(const br_chain *c, int k, double *ir, double *t0, double *td)
 {
     const br_design *d = c->design;
-    const br_diode_part *p = &d->diodes[br_design_stage(d, k)->diode];
+    const br_diode_part *p = &d->diodes[br_design_link_diode(d, k)];
     *ir = p->ir.nom;
     *t0 = p->ir_temp.nom;
     *td = p->ir_double.nom;

@@ -161,18 +161,49 @@ static int options(const args *a, br_explore_opts *eo)
     return BR_EXIT_OK;
 }
 
-/* The design file of each front member, DIR/explore-RANK.xml. */
+/* The split design of row i (judged with an injection),
+ * DIR/explore-split-ROW.xml, ROW counted from 1 in the order judged. */
+static int split_design(const args *a, br_explore_opts *eo, outputs *o, const char *path, int i,
+                        br_error *err)
+{
+    const br_explore_row *r = &o->x->rows[i];
+    br_design *d = NULL, *s = NULL;
+    br_text *comment = br_text_create();
+    br_text *t = br_text_create();
+    o->design[o->ndesigns] = t;
+    snprintf(o->path[o->ndesigns++], sizeof o->path[0], "%s/explore-split-%d.xml", a->designs,
+             i + 1);
+    int rc = comment && t ? br_explore_design(o->d, eo, r, &d, err) : BR_ENOMEM;
+    if (rc == BR_OK)
+        rc = br_explore_split_design(d, r->inject_rail, &s, err);
+    if (rc == BR_OK)
+        rc = br_explore_split_comment(o->x, o->cat, r, path, comment);
+    if (rc == BR_OK)
+        rc = br_design_write(s, br_text_data(comment), t, err);
+    br_design_free(s);
+    br_design_free(d);
+    br_text_free(comment);
+    return rc;
+}
+
+/* The design file of each front member, DIR/explore-RANK.xml, and of
+ * each split design judged. */
 static int front_designs(const args *a, br_explore_opts *eo, outputs *o, const char *path,
                          br_error *err)
 {
-    o->design = calloc((size_t)o->x->nfront + 1, sizeof *o->design);
-    o->path = calloc((size_t)o->x->nfront + 1, sizeof *o->path);
+    int nsplit = 0;
+    for (int i = 0; i < o->x->n; i++)
+        nsplit += o->x->rows[i].state == BR_EX_SPLIT && o->x->rows[i].inject_rail > 0;
+    o->design = calloc((size_t)(o->x->nfront + nsplit) + 1, sizeof *o->design);
+    o->path = calloc((size_t)(o->x->nfront + nsplit) + 1, sizeof *o->path);
     if (!o->design || !o->path)
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     int rc = BR_OK;
     for (int i = 0; rc == BR_OK && i < o->x->n; i++) {
         const br_explore_row *r = &o->x->rows[i];
-        if (!r->front)
+        if (r->state == BR_EX_SPLIT && r->inject_rail > 0)
+            rc = split_design(a, eo, o, path, i, err);
+        if (!r->front || rc != BR_OK)
             continue;
         br_design *d = NULL;
         br_text *comment = br_text_create();

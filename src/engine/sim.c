@@ -17,6 +17,8 @@ int br_sim_create(const br_chain *c, int dir, int integrator, br_sim **out, br_e
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory for the simulator");
     s->c = c;
     s->n = c->n;
+    for (int k = 1; k < c->n; k++) /* the hot loops read a mask, not the stages */
+        s->injm |= (br_mask)(c->st[k].inject != 0) << k;
     s->nx = s->phi0 = c->n * NF;
     s->bypass = c->csupply > 0 && c->rsupply > 0;
     br_sim_cache_esr(s);
@@ -632,6 +634,8 @@ static void stage_load(br_sim *s, int k, double t)
 
 static double left_rail(const br_sim *s, int k, double t)
 {
+    if (s->c->st[k].inject)
+        return 0.0; /* the isolated supply's return: its voltage is in d */
     return k == 1 && !br_sim_bypass(s) ? br_sim_supply_v(s, t) : s->x[XI(k - 1, F_VC)];
 }
 
@@ -676,14 +680,15 @@ static void build_seg(br_sim *s, double ta, double tb)
         if (k == 0)
             continue;
         const br_stage *st = &c->st[k];
-        g->d0[k] = br_sim_switch_v(s, k - 1, ta);
-        double db = br_sim_switch_v(s, k - 1, tb);
+        g->d0[k] = br_sim_link_d(s, k, ta);
+        /* an injection steps on only at an interval's start (next_time) */
+        double db = st->inject ? g->d0[k] : br_sim_link_d(s, k, tb);
         g->dslope[k] = tb > ta ? (db - g->d0[k]) / (tb - ta) : 0.0;
-        g->rpath[k] = st->r_link + return_r(s, k - 1);
+        g->rpath[k] = st->r_link + (st->inject ? 0.0 : return_r(s, k - 1));
         double fa = left_rail(s, k, ta) - s->x[XI(k, F_VC)] - g->d0[k];
         double fb = left_rail(s, k, tb) - s->x[XI(k, F_VC)] - db;
         g->active[k] = fa > -BR_VBLOCKED || fb > -BR_VBLOCKED;
-        g->edge[k] = g->active[k]
+        g->edge[k] = g->active[k] && !st->inject
                          ? br_sim_edge_kind(s, k, ta, tb, fa, fb, &g->iblk[k], &g->ileak[k])
                          : BR_EDGE_NONE;
         if (g->edge[k] != BR_EDGE_NONE)
@@ -698,7 +703,7 @@ static void build_seg(br_sim *s, double ta, double tb)
             g->zener = 1;
     }
     if (br_sim_bypass(s) && !g->zener) { /* the closed form holds off the supply's limit */
-        double i0 = (s->n > 1 ? g->iblk[1] : 0.0) + g->iload[0], rs = c->rsupply;
+        double i0 = br_sim_up(s, g->iblk, 0) + g->iload[0], rs = c->rsupply;
         double ia = (g->vs0 - s->x[XI(0, F_VC)]) / rs;
         g->zener = br_sim_supply_needs_rk(s, ia, i0, g->vs0 - rs * i0);
     }
@@ -716,21 +721,23 @@ static void recover_link(br_sim *s, int k)
     s->k1_valid = 0;
     /* the rails lose q times the difference of their mean voltages; the
      * power stage drives the recovery against the blocking voltage */
+    const br_stage *st = &c->st[k];
+    int inj = st->inject; /* an injection's charge goes back into its supply */
     double vk = s->x[XI(k, F_VC)], vl = left_rail(s, k, s->t);
     s->x[XI(k, F_VC)] -= q / br_sim_cap(s, k, s->x[XI(k, F_VC)]);
-    if (k > 1 || br_sim_bypass(s))
+    if (!inj && (k > 1 || br_sim_bypass(s)))
         s->x[XI(k - 1, F_VC)] += q / br_sim_cap(s, k - 1, s->x[XI(k - 1, F_VC)]);
-    if (k == 1)
+    if (!inj && k == 1)
         s->x[X_SQ] -= q; /* returned toward the supply */
-    if (k == 1 && !br_sim_bypass(s))
+    if (!inj && k == 1 && !br_sim_bypass(s))
         s->x[X_SE] -= q * vl; /* into the supply itself */
     double e_rails = q * (0.5 * (vk + s->x[XI(k, F_VC)]) - 0.5 * (vl + left_rail(s, k, s->t)));
-    s->x[XI(k, F_LD)] -= q * c->st[k - 1].vblock;
+    double vsw = inj ? -br_sim_inj_v(s, k, s->t) : c->st[k - 1].vblock;
+    s->x[XI(k, F_LD)] -= q * vsw;
     if (!s->stats_on)
         return;
-    const br_stage *st = &c->st[k];
     br_link_stats *ls = &s->st.link[k];
-    double rp = st->diode.rs + st->r_link + c->st[k - 1].sw.rds_on;
+    double rp = st->diode.rs + st->r_link + (inj ? 0.0 : c->st[k - 1].sw.rds_on);
     /* the forward current is cut at the rate the edge drives through the
      * link's resistance */
     double didt = c->tedge > 0 && rp > 0 ? st->vblock / (c->tedge * rp) : HUGE_VAL;
@@ -738,7 +745,7 @@ static void recover_link(br_sim *s, int k)
     if (isfinite(didt))
         br_diode_recovery(q, didt, BR_DIODE_SOFTNESS, &r);
     ls->qrr += q;
-    ls->e_rr += q * c->st[k - 1].vblock + e_rails;
+    ls->e_rr += q * vsw + e_rails;
     ls->irrm = fmax(ls->irrm, r.irrm);
 }
 
@@ -849,7 +856,7 @@ static void closed_budget(br_sim *s, const double *va, const double *vb, double 
         if (k == 0)
             continue;
         double sw = (g->d0[k] + 0.5 * g->dslope[k] * dt) * dt; /* integral of its voltage */
-        double vd = 0.5 * (va[k - 1] - va[k] + vb[k - 1] - vb[k]) * dt - sw;
+        double vd = 0.5 * (br_sim_low(s, va, k) - va[k] + br_sim_low(s, vb, k) - vb[k]) * dt - sw;
         s->x[XI(k, F_LX)] += g->iblk[k] * vd;
         s->x[XI(k, F_LL)] -= g->ileak[k] * vd;
         s->x[XI(k, F_LD)] += g->iblk[k] * sw;
@@ -867,11 +874,11 @@ static int closed_form(br_sim *s, double tb, double *te)
     const br_seg *g = &s->seg;
     double ta = s->t, ic[BR_N];
     int first = -1, bp = br_sim_bypass(s);
-    double i0 = (s->n > 1 ? g->iblk[1] : 0.0) + g->iload[0];
+    double i0 = br_sim_up(s, g->iblk, 0) + g->iload[0];
     bypass_cf b = {g->vs0 - s->c->rsupply * i0, s->c->rsupply * s->c->csupply, s->x[XI(0, F_VC)]};
     *te = tb;
     for (int k = 0; k < s->n; k++) {
-        double iout = k + 1 < s->n ? g->iblk[k + 1] : 0.0;
+        double iout = br_sim_up(s, g->iblk, k);
         ic[k] = k == 0 ? 0.0 : g->iblk[k] - iout - g->iload[k];
         double v0 = s->vr[k], thr = rail_threshold(s, k), tc = HUGE_VAL;
         if (!isfinite(thr) || s->held[k])

@@ -158,6 +158,8 @@ struct br_sim {
     double sup_trip_t; /* time of the first hiccup, s */
     int sup_lim;       /* the workspace's supply current is at its limit */
     double isup;       /* the supply current at the last evaluation, A */
+    int inj_run;       /* every injection on whatever the time (a running reset) */
+    br_mask injm;      /* bit k: an injection feeds rail k (from the chain) */
     int trips0;        /* statistics: hiccups when they started */
     double lim_t0;     /* statistics: the stretch in the limit began here, s
                           (HUGE_VAL: not in it) */
@@ -349,12 +351,55 @@ int br_sim_edge_kind(const br_sim *s, int k, double ta, double tb, double fa, do
 int br_sim_edge_start(br_sim *s);
 int br_sim_edge_end(br_sim *s, double tb);
 
+/* ---- injections (chain.h: an isolated supply feeding rail k in place of
+ * link k).  The engine takes such a link as a link whose lower node is the
+ * supply's return, 0 V in its own terms, and whose "return switch" stands
+ * at minus the supply's voltage all the time: its drive is Vinj - vr_k,
+ * through its diode and resistance, and rail k-1 neither feeds it nor
+ * couples to it.  Its energy (the current times the switch voltage, F_LD)
+ * is then minus what the isolated supply gives. */
+
+/* 1 when rail k (1 <= k) is fed by an injection, 0 otherwise (also k >= n). */
+static inline int br_sim_inj(const br_sim *s, int k)
+{
+    return (int)(s->injm >> k & 1);
+}
+
+/* The injection into rail k: its open-circuit voltage at t, V (0 before it
+ * starts). */
+static inline double br_sim_inj_v(const br_sim *s, int k, double t)
+{
+    const br_stage *st = &s->c->st[k];
+    return s->inj_run || t >= st->tinj ? st->vinj : 0.0;
+}
+
+/* Node below link k among node voltages v: rail k-1's, or 0 for an
+ * injection. */
+static inline double br_sim_low(const br_sim *s, const double *v, int k)
+{
+    return br_sim_inj(s, k) ? 0.0 : v[k - 1];
+}
+
+/* The current a rail k passes up to link k+1 among link currents il (0
+ * when rail k+1 is injected, or the top). */
+static inline double br_sim_up(const br_sim *s, const double *il, int k)
+{
+    return k + 1 < s->n && !br_sim_inj(s, k + 1) ? il[k + 1] : 0.0;
+}
+
+/* Voltage in link k's loop besides the two nodes: its return switch's at
+ * t, or minus the injection's voltage. */
+static inline double br_sim_link_d(const br_sim *s, int k, double t)
+{
+    return br_sim_inj(s, k) ? -br_sim_inj_v(s, k, t) : br_sim_switch_v(s, k - 1, t);
+}
+
 /* Reverse voltage of link k at time t for rail node voltages vr: across
  * its return switch, less the difference of the rails it joins (its
  * drive is minus this). */
 static inline double br_sim_link_vrev(const br_sim *s, const double *vr, int k, double t)
 {
-    return br_sim_switch_v(s, k - 1, t) - (vr[k - 1] - vr[k]);
+    return br_sim_link_d(s, k, t) - (br_sim_low(s, vr, k) - vr[k]);
 }
 
 /* Forward (conduction) current of link k in the workspace: an active

@@ -101,7 +101,7 @@ static void rail_voltages(br_sim *s, double t, const double *x)
     const br_seg *g = &s->seg;
     int n = s->n;
     for (int k = 0; k < n; k++) {
-        double iout = k + 1 < n ? s->il[k + 1] : 0.0;
+        double iout = br_sim_up(s, s->il, k);
         double iin = k > 0 ? s->il[k] : 0.0;
         if (k == 0) {
             double isup = supply_current(s, t, x, iout);
@@ -168,7 +168,9 @@ static void shift_link(br_sim *s, int k, double dk)
         s->ic[k] -= dk;
         s->vr[k] -= s->esr[k] * dk;
     }
-    if (k > 1 && s->pin[k - 1]) {
+    if (br_sim_inj(s, k)) {
+        return; /* the isolated supply gives it: no rail below takes part */
+    } else if (k > 1 && s->pin[k - 1]) {
         s->iz[k - 1] += dk;
     } else if (k > 1) {
         s->ic[k - 1] += dk;
@@ -198,7 +200,9 @@ static void solve_links(br_sim *s, double t, const double *x)
         int k = act[j];
         /* predictor: move the last solution along its tangent to the
          * present drive voltage, so one Newton update usually suffices */
-        double vl = k > 1 || br_sim_bypass(s) ? x[XI(k - 1, F_VC)] : supply_at(g, t);
+        double vl = br_sim_inj(s, k)            ? 0.0
+                    : k > 1 || br_sim_bypass(s) ? x[XI(k - 1, F_VC)]
+                                                : supply_at(g, t);
         double drive = vl - x[XI(k, F_VC)] - (g->d0[k] + g->dslope[k] * (t - g->t0));
         s->il[k] += s->gl[k] * (drive - s->ul[k]);
         s->ul[k] = drive;
@@ -208,17 +212,18 @@ static void solve_links(br_sim *s, double t, const double *x)
         for (int j = 0; j < na; j++) {
             int k = act[j];
             double dk = g->d0[k] + g->dslope[k] * (t - g->t0);
-            double u = s->vr[k - 1] - s->vr[k] - dk, f, gd;
+            double u = br_sim_low(s, s->vr, k) - s->vr[k] - dk, f, gd;
             br_diode_eval_warm(&s->c->st[k].diode, g->rpath[k], u, &s->dw[k], &f, &gd);
             s->evals++;
             s->gd[k] = gd;
-            double el = s->esr_now[k - 1], eh = s->esr_now[k];
+            int inj = br_sim_inj(s, k);
+            double el = inj ? 0.0 : s->esr_now[k - 1], eh = s->esr_now[k];
             s->gl[k] = gd / (1.0 + gd * (el + eh));
             s->icj[k] = cj_current(s, k, u, f);
             r[k] = s->il[k] - f - s->icj[k];
             b[k] = 1.0 + gd * (el + eh);
-            a[k] = k > 1 && g->active[k - 1] ? -gd * el : 0.0;
-            cc[k] = k + 1 < n && g->active[k + 1] ? -gd * eh : 0.0;
+            a[k] = !inj && k > 1 && g->active[k - 1] ? -gd * el : 0.0;
+            cc[k] = k + 1 < n && g->active[k + 1] && !br_sim_inj(s, k + 1) ? -gd * eh : 0.0;
         }
         /* Thomas algorithm on the tridiagonal Jacobian; a[k] != 0 only
          * when link k-1 is active, and then it is the entry before k */
@@ -259,11 +264,11 @@ static void variational(br_sim *s, double t, const double *x, double *dx)
     if (bp) /* the supply current's slope in the bypass voltage (its limit's, when it limits) */
         br_sim_supply_bypass_i(s, supply_at(g, t), x[XI(0, F_VC)], &di0);
     for (int k = 1; k < n; k++) {
-        int on = g->active[k];
-        double gd = on ? s->gd[k] : 0.0, el = s->esr_now[k - 1], eh = s->esr_now[k];
+        int on = g->active[k], inj = br_sim_inj(s, k);
+        double gd = on ? s->gd[k] : 0.0, el = inj ? 0.0 : s->esr_now[k - 1], eh = s->esr_now[k];
         b[k] = 1.0 + gd * (el + eh);
-        a[k] = on && k > 1 && g->active[k - 1] ? -gd * el : 0.0;
-        c[k] = on && k + 1 < n && g->active[k + 1] ? -gd * eh : 0.0;
+        a[k] = on && !inj && k > 1 && g->active[k - 1] ? -gd * el : 0.0;
+        c[k] = on && k + 1 < n && g->active[k + 1] && !br_sim_inj(s, k + 1) ? -gd * eh : 0.0;
     }
     for (int k = 2; k < n; k++) { /* Thomas forward sweep, once for all columns */
         b[k] -= a[k] / b[k - 1] * c[k - 1];
@@ -272,7 +277,7 @@ static void variational(br_sim *s, double t, const double *x, double *dx)
         double r[BR_N] = {0};
         if (j > 0 && g->active[j])
             r[j] = -s->gd[j];
-        if (j + 1 < n && g->active[j + 1] && (j > 0 || bp))
+        if (j + 1 < n && g->active[j + 1] && !br_sim_inj(s, j + 1) && (j > 0 || bp))
             r[j + 1] = s->gd[j + 1];
         for (int k = 2; k < n; k++)
             r[k] -= a[k] / b[k - 1] * r[k - 1];
@@ -284,7 +289,7 @@ static void variational(br_sim *s, double t, const double *x, double *dx)
     for (int k = 0; k < n; k++) {
         double ck = k > 0 ? rail_cap(s, k, x[XI(k, F_VC)]) : 0.0;
         for (int j = 0; j < n; j++) {
-            double dout = k + 1 < n ? D[k + 1][j] : 0.0;
+            double dout = k + 1 < n && !br_sim_inj(s, k + 1) ? D[k + 1][j] : 0.0;
             if (k == 0) {
                 A[0][j] = bp ? ((j == 0) * di0 - dout) / s->c->csupply : 0.0;
                 continue;
@@ -323,7 +328,7 @@ static void link_quadratures(br_sim *s, int k, double t, double *dx)
     const br_seg *g = &s->seg;
     double i = s->il[k], fw = br_sim_forward(s, k);
     double d = g->d0[k] + g->dslope[k] * (t - g->t0);
-    double u = s->vr[k - 1] - s->vr[k] - d;
+    double u = br_sim_low(s, s->vr, k) - s->vr[k] - d;
     double vd = g->active[k] ? u - i * g->rpath[k] : u;
     double rl = g->active[k] ? s->c->st[k].r_link : 0.0;
     double rsw = g->active[k] ? g->rpath[k] - s->c->st[k].r_link : 0.0;
@@ -354,7 +359,7 @@ static void quadratures(br_sim *s, double t, const double *x, double *dx)
         link_quadratures(s, k, t, dx);
         dx[XI(k, F_RI2)] = s->ic[k] * s->ic[k];
     }
-    double isup = supply_current(s, t, x, s->n > 1 ? s->il[1] : 0.0);
+    double isup = supply_current(s, t, x, br_sim_up(s, s->il, 0));
     dx[X_SQ] = isup;
     dx[X_SE] = isup * supply_at(g, t);
     dx[X_SR] = isup * isup * s->c->rsupply;
@@ -369,7 +374,7 @@ static void startup_quadratures(br_sim *s, double t, const double *x, double *dx
         double fw = br_sim_forward(s, k);
         dx[XI(k, F_LI2)] = fw * fw;
     }
-    double isup = supply_current(s, t, x, s->n > 1 ? s->il[1] : 0.0);
+    double isup = supply_current(s, t, x, br_sim_up(s, s->il, 0));
     dx[X_SQ] = isup;
     dx[X_SE] = isup * supply_at(&s->seg, t);
     dx[X_SL] = s->sup_lim;

@@ -37,6 +37,7 @@ void br_sim_supply_reset(br_sim *s, int cold)
     s->sup_trip_t = -1.0;
     s->sup_lim = 0;
     s->isup = 0.0;
+    s->inj_run = !cold;
 }
 
 /* The fraction of Vs the ramps allow at t. */
@@ -77,6 +78,9 @@ double br_sim_supply_next(const br_sim *s)
 {
     const br_chain *c = s->c;
     double tn = HUGE_VAL;
+    for (int k = 1; !s->inj_run && k < s->n; k++) /* an injection that starts later */
+        if (c->st[k].inject)
+            tn = later(s, tn, c->st[k].tinj);
     if (s->sup_off)
         return later(s, tn, s->sup_until);
     if (c->tramp > 0)

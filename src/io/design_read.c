@@ -401,6 +401,57 @@ static int read_stages(br_rd *r, xmlNode *n)
     return BR_OK;
 }
 
+/* ---- injections ------------------------------------------------------------------ */
+
+/* One isolated supply feeding a rail: read once the stages are known, so
+ * that its rail and diode can be checked against them. */
+static int read_injection(br_rd *r, xmlNode *n, br_inject_spec *j)
+{
+    br_design *d = r->d;
+    int nsw = br_design_nswitch(d);
+    BR_TRY(br_rd_int(r, n, "rail", 0, BR_MAX_SWITCHES, &j->rail));
+    if (j->rail == 0)
+        return br_rd_fail(r, n, "rail",
+                          "rail 0 is the supply itself, expected a floating rail from 1 to %d",
+                          nsw - 1);
+    if (j->rail >= nsw)
+        return br_rd_fail(r, n, "rail",
+                          "got %d, expected a floating rail from 1 to %d (the leg has %d "
+                          "switches)",
+                          j->rail, nsw - 1, nsw);
+    const br_inject_spec *dup = br_design_injection(d, j->rail);
+    if (dup && dup != j)
+        return br_rd_fail(r, n, "rail",
+                          "rail %d already has an injection (line %d), expected one per rail",
+                          j->rail, dup->line);
+    j->v = br_qty_fixed(0.0);
+    j->r = br_qty_fixed(0.0);
+    BR_TRY(br_rd_qty(r, n, "voltage", BR_KIND_VOLTAGE, &br_range_pos, &j->v, NULL));
+    BR_TRY(br_rd_qty(r, n, "resistance", BR_KIND_RESISTANCE, &br_range_nonneg, &j->r, NULL));
+    j->start = 0.0;
+    BR_TRY(br_rd_value(r, n, "start", BR_KIND_TIME, &br_range_nonneg, &j->start, NULL));
+    j->diode = br_design_stage(d, j->rail)->diode; /* the rail's link diode, unless named */
+    return resolve(r, n, "diode", PK_DIODE, &j->diode);
+}
+
+static int read_injections(br_rd *r, xmlNode *n)
+{
+    br_design *d = r->d;
+    d->ninject = 0;
+    for (xmlNode *c = br_xml_child(n, "injection"); c; c = br_xml_next(c, "injection")) {
+        if (d->ninject == BR_MAX_INJECT)
+            return br_rd_fail(r, c, NULL, "more than %d injections, expected at most %d",
+                              BR_MAX_INJECT, BR_MAX_INJECT);
+        br_inject_spec *j = &d->inject[d->ninject];
+        memset(j, 0, sizeof *j);
+        j->rail = -1;
+        j->line = br_rd_line(r, c);
+        d->ninject++;
+        BR_TRY(read_injection(r, c, j));
+    }
+    return BR_OK;
+}
+
 /* ---- start-up ------------------------------------------------------------------ */
 
 /* Name of switch s from the bottom: B1..BP then AP..A1 for an FCML leg. */
@@ -577,6 +628,8 @@ int br_rd_design(br_rd *r, xmlNode *root)
     BR_TRY(br_rd_parts(r, parts));
     BR_TRY(check_parts_present(r, parts));
     BR_TRY(read_stages(r, br_xml_child(root, "stages")));
+    if ((n = br_xml_child(root, "injections")) != NULL)
+        BR_TRY(read_injections(r, n));
     if ((n = br_xml_child(root, "startup")) != NULL)
         BR_TRY(read_startup(r, n));
     if ((n = br_xml_child(root, "analysis")) != NULL)

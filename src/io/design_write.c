@@ -251,6 +251,26 @@ static void supply(wr *w, const br_design *d)
     put(w, "/>\n");
 }
 
+static void injections(wr *w, const br_design *d)
+{
+    if (d->ninject == 0)
+        return;
+    put(w, "  <injections>\n");
+    for (int i = 0; i < d->ninject; i++) {
+        const br_inject_spec *j = &d->inject[i];
+        char rail[24];
+        snprintf(rail, sizeof rail, "%d", j->rail);
+        open_el(w, 2, "injection");
+        attr(w, "rail", rail);
+        qty(w, "voltage", &j->v, &U_V);
+        qty(w, "resistance", &j->r, &U_OHM);
+        attr(w, "diode", d->diodes[j->diode].id);
+        value(w, "start", j->start, &U_S);
+        put(w, "/>\n");
+    }
+    put(w, "  </injections>\n");
+}
+
 /* ---- the topology ------------------------------------------------------------------- */
 
 static const char *carry_word(int carry)
@@ -549,6 +569,7 @@ int br_design_write(const br_design *d, const char *text, br_text *out, br_error
     put(&w, ">\n");
     operating_point(&w, d);
     supply(&w, d);
+    injections(&w, d);
     topology(&w, d);
     parts(&w, d);
     stages(&w, d);

@@ -337,7 +337,7 @@ typedef struct rule {
 #define AUX_HEAT "power-rating rth tj-max"
 static const rule rules[] = {
     {"", "bootrung-design", "!version=1 name",
-     "!operating-point !supply !topology !parts !stages startup analysis", 1},
+     "!operating-point !supply injections !topology !parts !stages startup analysis", 1},
     {"bootrung-design", "operating-point",
      "!vin !fsw duty dead-time ambient current=step-down|step-up|both|none imbalance edge-time "
      "overshoot load-current load-from switch-tj",
@@ -348,6 +348,8 @@ static const rule rules[] = {
      "!voltage resistance ramp bypass current-limit limit-mode=constant|foldback|hiccup "
      "foldback-current hiccup-delay hiccup-off hiccup-retries soft-start rating",
      "", 0},
+    {"bootrung-design", "injections", "", "!injection", 0},
+    {"injections", "injection", "!rail !voltage resistance diode start", "", 0},
     {"bootrung-design", "topology", "", "!fcml|string", 1},
     {"topology", "fcml", "!levels cfly", "", 0},
     {"topology", "string", "", "!switch", 0},

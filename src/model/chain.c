@@ -80,6 +80,17 @@ static int resolve_parts(const br_design *d, const br_chain *c, int k, br_stage 
         return br_error_set(err, BR_EINPUT, d->path, line, "stages",
                             "stage %d has no diode or capacitor part, expected both", k);
     br_cap_at_nominal(&d->caps[sp->cap], c->tamb, &st->cap);
+    const br_inject_spec *j = br_design_injection(d, k);
+    if (j) { /* the injection's resistor and diode take the link's place */
+        if (!part_index_ok(j->diode, d->ndiodes))
+            return br_error_set(err, BR_EINPUT, d->path, j->line, "injection",
+                                "rail %d's injection has no diode part, expected one", k);
+        st->inject = 1;
+        st->vinj = j->v.nom;
+        st->tinj = j->start;
+        st->r_link = j->r.nom;
+        return br_diode_at(&d->diodes[j->diode], c->tamb, &st->diode, err);
+    }
     st->r_link = sp->r_link.nom;
     int rc = br_diode_at(&d->diodes[sp->diode], c->tamb, &st->diode, err);
     if (rc == BR_OK && sp->rth_given)
@@ -87,12 +98,19 @@ static int resolve_parts(const br_design *d, const br_chain *c, int k, br_stage 
     return rc;
 }
 
+int br_chain_injected(const br_chain *c)
+{
+    for (int k = 1; k < c->n; k++)
+        if (c->st[k].inject)
+            return 1;
+    return 0;
+}
+
 int br_chain_diode_at(br_chain *c, int k, double T, br_error *err)
 {
     const br_design *d = c->design;
-    const br_stage_spec *sp = br_design_stage(d, k);
     double rth = c->st[k].diode.rth;
-    int rc = br_diode_at(&d->diodes[sp->diode], T, &c->st[k].diode, err);
+    int rc = br_diode_at(&d->diodes[br_design_link_diode(d, k)], T, &c->st[k].diode, err);
     c->st[k].diode.rth = rth;
     return rc;
 }
@@ -222,6 +240,11 @@ int br_chain_build_nominal(const br_design *d, br_chain *c, br_error *err)
                             "%g A with current=\"none\": idealised commutation carries no load "
                             "current; expected load-current=\"0 A\" or a current direction",
                             d->iload.max);
+    for (int i = 0; i < d->ninject; i++) /* a template's, on a shorter leg */
+        if (d->inject[i].rail < 1 || d->inject[i].rail >= c->n)
+            return br_error_set(err, BR_EINPUT, d->path, d->inject[i].line, "injection: rail",
+                                "rail %d is not a floating rail of this leg, expected 1 to %d",
+                                d->inject[i].rail, c->n - 1);
     for (int k = 0; k < c->n; k++) {
         br_stage *st = &c->st[k];
         int rc = d->topology == BR_TOPO_FCML ? fcml_timing(d, c, k, st, err)

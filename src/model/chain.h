@@ -93,6 +93,10 @@ typedef struct br_stage {
     double rev[2][BR_MAX_WINDOWS][2]; /* intervals of reverse conduction */
     int is_top;                       /* FCML: 1 for an A (top) switch */
     int pair;                         /* FCML: pair number 1..P, 0 for a string */
+    int inject;                       /* 1: an isolated supply feeds rail k in place
+                                         of link k (diode and r_link are its own) */
+    double vinj;                      /* its open-circuit voltage, V */
+    double tinj;                      /* it steps on at this time from power-up, s */
     int carry[2];                     /* per direction: how the switch carries the
                                          load current while on, +1 forward (drops
                                          +I Rds(on)), -1 reverse (-I Rds(on)), 0 not
@@ -132,6 +136,9 @@ struct br_chain {
 
     int startup_method; /* br_su_method */
 };
+
+/* 1 when some rail is fed by an injection (an isolated supply). */
+int br_chain_injected(const br_chain *c);
 
 /* Build at explicit values: d with every br_qty read at .nom. */
 int br_chain_build_nominal(const br_design *d, br_chain *c, br_error *err);

@@ -86,6 +86,20 @@ const br_stage_spec *br_design_stage(const br_design *d, int k)
     return &d->def;
 }
 
+const br_inject_spec *br_design_injection(const br_design *d, int k)
+{
+    for (int i = 0; i < d->ninject; i++)
+        if (d->inject[i].rail == k)
+            return &d->inject[i];
+    return NULL;
+}
+
+int br_design_link_diode(const br_design *d, int k)
+{
+    const br_inject_spec *j = br_design_injection(d, k);
+    return j ? j->diode : br_design_stage(d, k)->diode;
+}
+
 int br_design_nswitch(const br_design *d)
 {
     return d->topology == BR_TOPO_FCML ? 2 * (d->levels - 1) : d->nswitch;

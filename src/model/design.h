@@ -23,6 +23,7 @@
 #define BR_LINE_MIN_PERIODS 20
 #define BR_LINE_MAX_PERIODS 100000
 #define BR_MAX_PARTS 64 /* of each kind */
+#define BR_MAX_INJECT 8 /* isolated injection supplies of one design */
 /* Start-up dropouts (UVLO hiccups) of one stage: more than BR_DROPOUTS_WARN
  * is worth a warning when the design states no limit of its own (a chain
  * filling rung by rung may hiccup a few times per rung while the rail
@@ -193,6 +194,20 @@ typedef enum br_supply_limit {
     BR_SUPPLY_HICCUP         /* constant current, then off for a while and a retry */
 } br_supply_limit;
 
+/* An isolated supply feeding one rail directly (a second injection
+ * point): a DC output referenced to the source of the rail's own switch,
+ * through its series resistance and a diode, into the rail capacitor.
+ * It replaces the rail's link: the chain is split there, the rail below
+ * no longer feeds it, and the rails above cascade from it as usual. */
+typedef struct br_inject_spec {
+    int rail;     /* the rail it feeds, 1 .. switches-1 */
+    br_qty v;     /* open-circuit output voltage, V (toleranced like the supply) */
+    br_qty r;     /* series resistance (output and added resistor), ohm */
+    int diode;    /* index into design->diodes: its series diode */
+    double start; /* the output steps on at this time from power-up, s */
+    int line;     /* line of the <injection> element */
+} br_inject_spec;
+
 typedef enum br_topology { BR_TOPO_FCML = 0, BR_TOPO_STRING = 1 } br_topology;
 
 /* How a string switch carries the load current while it is on. */
@@ -276,6 +291,9 @@ struct br_design {
     int hiccup_retries;  /* hiccup: retries before it stays off (-1: no end) */
     br_qty tsoft;        /* soft-start: output ramp at every start, s (0: none) */
     br_qty irating;      /* rated output current, A (0: not given) */
+    /* isolated supplies feeding rails directly (the chain split there) */
+    int ninject;
+    br_inject_spec inject[BR_MAX_INJECT];
     /* topology */
     int topology;                       /* br_topology */
     int levels;                         /* FCML: N levels */
@@ -329,6 +347,13 @@ br_qty br_qty_fixed(double v);
 
 /* The stage spec that applies to stage k (override or default). */
 const br_stage_spec *br_design_stage(const br_design *d, int k);
+
+/* The injection feeding rail k, or NULL when link k feeds it. */
+const br_inject_spec *br_design_injection(const br_design *d, int k);
+
+/* Index of the diode part of link k (k >= 1): an injection's own diode
+ * where one feeds rail k, else the stage's link diode. */
+int br_design_link_diode(const br_design *d, int k);
 
 /* Number of switches in the string (2(N-1) for FCML). */
 int br_design_nswitch(const br_design *d);

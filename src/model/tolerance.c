@@ -158,8 +158,10 @@ static void find_usage(const br_design *d, usage *u)
         mark(u->aux, s->aux);
         if (k == 0)
             continue;
-        mark(u->diode, s->diode);
+        mark(u->diode, br_design_link_diode(d, k));
         mark(u->cap, s->cap);
+        if (br_design_injection(d, k))
+            continue; /* its own resistor, listed with it */
         if (d->has_override[k])
             u->stage_link[k] = 1;
         else
@@ -289,6 +291,20 @@ static int add_string(const br_design *d, br_tol_list *l, br_error *err)
     return BR_OK;
 }
 
+/* Each injection's voltage and resistance. */
+static int add_injections(const br_design *d, br_tol_list *l, br_error *err)
+{
+    char name[BR_TOL_NAME];
+    for (int i = 0; i < d->ninject && i < BR_MAX_INJECT; i++) {
+        size_t base = PART_BASE(inject, i);
+        snprintf(name, sizeof name, "injection rail %d: voltage", d->inject[i].rail);
+        TRY(add(d, l, base + offsetof(br_inject_spec, v), BR_KIND_VOLTAGE, name, err));
+        snprintf(name, sizeof name, "injection rail %d: resistance", d->inject[i].rail);
+        TRY(add(d, l, base + offsetof(br_inject_spec, r), BR_KIND_RESISTANCE, name, err));
+    }
+    return BR_OK;
+}
+
 int br_tol_list_build(const br_design *d, br_tol_list *out, br_error *err)
 {
     usage u;
@@ -300,6 +316,7 @@ int br_tol_list_build(const br_design *d, br_tol_list *out, br_error *err)
     if (d->topology == BR_TOPO_FCML)
         TRY(add_fields(d, out, 0, fcml_fields, "fcml", err));
     TRY(add_fields(d, out, 0, supply_fields, "supply", err));
+    TRY(add_injections(d, out, err));
     TRY(add_parts(d, &u, out, err));
     TRY(add_links(d, &u, out, err));
     return add_string(d, out, err);

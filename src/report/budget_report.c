@@ -142,16 +142,19 @@ static int links_table(const br_chain *c, const br_steady_figs *f, const br_scal
     return render(t, out);
 }
 
-static int balance_line(const br_budget *b, br_text *out)
+static int balance_line(const br_chain *c, const br_budget *b, br_text *out)
 {
-    char s[32], p[32], r[32], l[32], st[32], e[32], text[400];
+    char s[32], p[32], r[32], l[32], st[32], e[32], j[32], inj[96] = "", text[480];
+    if (br_chain_injected(c))
+        snprintf(inj, sizeof inj, ", the isolated supplies feeding rails directly give %s",
+                 br_fmt_si(j, sizeof j, b->inject, 4, "W"));
     snprintf(text, sizeof text,
-             "the supply delivers %s and the power stage gives %s (through the return switches: "
+             "the supply delivers %s%s and the power stage gives %s (through the return switches: "
              "reverse conduction and on-state drops, leakage, recovery); the supply's resistance "
              "takes %s; lost in all %s, stored %s over the period (balance %s)",
-             br_fmt_si(s, sizeof s, b->supply, 4, "W"), br_fmt_si(p, sizeof p, b->stage, 4, "W"),
-             br_fmt_si(r, sizeof r, b->rsupply, 3, "W"), br_fmt_si(l, sizeof l, b->losses, 4, "W"),
-             br_fmt_si(st, sizeof st, b->stored, 3, "W"),
+             br_fmt_si(s, sizeof s, b->supply, 4, "W"), inj,
+             br_fmt_si(p, sizeof p, b->stage, 4, "W"), br_fmt_si(r, sizeof r, b->rsupply, 3, "W"),
+             br_fmt_si(l, sizeof l, b->losses, 4, "W"), br_fmt_si(st, sizeof st, b->stored, 3, "W"),
              br_fmt_si(e, sizeof e, b->balance, 3, "W"));
     return br_report_wrap(out, "  power: ", text, 4);
 }
@@ -191,7 +194,7 @@ int br_budget_text(const br_chain *c, const br_steady_figs *f, br_text *out)
                          "which it would run away thermally",
                          2);
     rc |= links_table(c, f, &sc, out);
-    rc |= balance_line(b, out);
+    rc |= balance_line(c, b, out);
     rc |= heat_lines(c, f, out);
     return rc ? BR_ENOMEM : BR_OK;
 }
@@ -217,14 +220,19 @@ static int summary_line(const br_chain *c, const br_steady_figs *f, br_text *out
     const br_budget *b = &f->budget;
     br_budget_kinds k;
     br_budget_kinds_of(c, b, &k);
-    char text[480], lead[48];
+    char text[720], lead[48], inj[200] = "";
+    size_t m = 0;
+    for (int j = 1; j < c->n && m < sizeof inj; j++) /* each isolated supply by its rail */
+        if (c->st[j].inject)
+            m += (size_t)snprintf(inj + m, sizeof inj - m, " + injection into %s %.1f mW",
+                                  c->st[j].name, -1e3 * b->link[j].stage);
     int n = snprintf(text, sizeof text,
-                     "supply %.1f mW + power stage %.1f mW = lost %.1f mW: drivers %.1f, "
+                     "supply %.1f mW%s + power stage %.1f mW = lost %.1f mW: drivers %.1f, "
                      "isolators %.1f, gates %.1f, regulators and clamps %.1f, diodes %.1f, link "
                      "resistors %.1f, return switches %.1f, ESR %.2f, supply resistance %.2f",
-                     1e3 * b->supply, 1e3 * b->stage, 1e3 * b->losses, 1e3 * k.driver, 1e3 * k.iso,
-                     1e3 * k.gate, 1e3 * k.aux, 1e3 * k.diode, 1e3 * k.resistor, 1e3 * k.sw,
-                     1e3 * k.esr, 1e3 * b->rsupply);
+                     1e3 * b->supply, inj, 1e3 * b->stage, 1e3 * b->losses, 1e3 * k.driver,
+                     1e3 * k.iso, 1e3 * k.gate, 1e3 * k.aux, 1e3 * k.diode, 1e3 * k.resistor,
+                     1e3 * k.sw, 1e3 * k.esr, 1e3 * b->rsupply);
     int h = hottest(c, f);
     if (h > 0 && f->ss->thermal && !f->ss->thermal_settled)
         snprintf(text + n, sizeof text - (size_t)n, "; junction temperatures NOT settled");
@@ -283,7 +291,10 @@ static void link_loss_xml(br_xmlw *w, const br_chain *c, const br_steady_figs *f
     br_xmlw_num(w, "junction-W", l->junction);
     br_xmlw_num(w, "resistor-W", l->resistor);
     br_xmlw_num(w, "switch-W", l->sw);
-    br_xmlw_num(w, "power-stage-W", l->stage);
+    if (c->st[k].inject)
+        br_xmlw_num(w, "injection-W", -l->stage);
+    else
+        br_xmlw_num(w, "power-stage-W", l->stage);
     if (c->st[k].diode.rth > 0) {
         br_xmlw_bool(w, "runaway", lf->runaway);
         if (!lf->runaway)
@@ -300,6 +311,8 @@ void br_budget_xml(br_xmlw *w, const br_chain *c, const br_steady_figs *f)
     br_xmlw_start(w, "losses");
     br_xmlw_num(w, "supply-W", b->supply);
     br_xmlw_num(w, "power-stage-W", b->stage);
+    if (br_chain_injected(c))
+        br_xmlw_num(w, "injection-W", b->inject);
     br_xmlw_num(w, "supply-resistance-W", b->rsupply);
     br_xmlw_num(w, "total-W", b->losses);
     br_xmlw_num(w, "stored-W", b->stored);

@@ -95,7 +95,7 @@ static void bar_label(br_plot *p, double xc, const char *name)
 
 static double tallest(const br_chain *c, const br_budget *b)
 {
-    double m = b->supply + fmax(b->stage, 0.0);
+    double m = b->supply + fmax(b->stage, 0.0) + b->inject;
     for (int k = 0; k < c->n; k++)
         m = fmax(m, br_rail_loss_sum(&b->rail[k]) + (k > 0 ? br_link_loss_sum(&b->link[k]) : 0));
     return m;
@@ -116,9 +116,9 @@ static void losses_panel(br_svg *s, const br_chain *c, const br_steady_figs *f, 
     snprintf(key, sizeof key, "losses-%s", br_dir_short(f->dir));
     br_plot_axes(&p, key, title, "stage", "", "power", "W");
     double bw = 0.6 * p.w / nbar;
-    double given[2] = {b->supply, b->stage};
-    static const char *const source[2] = {BR_INK, "#9aa5b1"};
-    stack(&p, br_plot_px(&p, 0.0), bw, given, source, 2);
+    double given[3] = {b->supply, b->stage, b->inject};
+    static const char *const source[3] = {BR_INK, "#9aa5b1", "#5b7083"};
+    stack(&p, br_plot_px(&p, 0.0), bw, given, source, 3);
     bar_label(&p, br_plot_px(&p, 0.0), "supply");
     for (int k = 0; k < c->n; k++) {
         double v[NKIND];

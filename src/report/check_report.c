@@ -6,6 +6,7 @@
 #include "core/error.h"
 #include "model/timing.h"
 #include "report/caution.h"
+#include "report/report_common.h"
 #include "report/supply_report.h"
 #include "report/table.h"
 
@@ -75,6 +76,22 @@ static int supply_limit_line(const br_chain *c, br_text *out)
     return rc | br_text_put(out, "\n");
 }
 
+/* "  injection         rail 4 (A4): 15 V (14.25 V to 15.75 V) through
+ * 4.7 ohm and diode d1, on from 0 s" */
+static int injection_line(const br_chain *c, int k, br_text *out)
+{
+    char a[32], b[32], r[32], t[32], range[80] = "", text[320];
+    const br_stage *st = &c->st[k];
+    const br_inject_spec *j = c->design ? br_design_injection(c->design, k) : NULL;
+    if (j && (j->v.min < st->vinj || j->v.max > st->vinj))
+        snprintf(range, sizeof range, " (%s to %s)", si(a, sizeof a, j->v.min, "V"),
+                 si(b, sizeof b, j->v.max, "V"));
+    snprintf(text, sizeof text, "rail %d (%s): %s%s through %s and diode %s, on from %s", k,
+             st->name, si(a, sizeof a, st->vinj, "V"), range, si(r, sizeof r, st->r_link, "ohm"),
+             st->diode.id, si(t, sizeof t, st->tinj, "s"));
+    return br_report_wrap(out, "  injection         ", text, 20);
+}
+
 static int render_supply(const br_chain *c, br_text *out)
 {
     char a[32], b[32], r[32];
@@ -89,7 +106,11 @@ static int render_supply(const br_chain *c, br_text *out)
     if (c->csupply > 0)
         rc |= br_text_printf(out, ", bypass %s", si(a, sizeof a, c->csupply, "F"));
     rc |= br_text_put(out, "\n");
-    return rc | supply_limit_line(c, out);
+    rc |= supply_limit_line(c, out);
+    for (int k = 1; k < c->n; k++) /* each isolated supply feeding a rail */
+        if (c->st[k].inject)
+            rc |= injection_line(c, k, out);
+    return rc;
 }
 
 /* The load current, with its tolerance, and when it starts. */
@@ -234,7 +255,7 @@ static const char *const col_head[NCOL] = {"stage",    "switch",    "diode",    
 /* Lines stage k takes: one per charging window of its link, at least one. */
 static int stage_lines(const br_chain *c, int k)
 {
-    return k > 0 && c->st[k - 1].nwin > 1 ? c->st[k - 1].nwin : 1;
+    return k > 0 && !c->st[k].inject && c->st[k - 1].nwin > 1 ? c->st[k - 1].nwin : 1;
 }
 
 static const char *id_or_dash(const char *id)
@@ -245,8 +266,11 @@ static const char *id_or_dash(const char *id)
 /* Cells of the window columns for link k, window w. */
 static void window_cell(const br_chain *c, int k, int w, int col, char *buf, size_t cap)
 {
-    if (k == 0) {
-        snprintf(buf, cap, "%s", col == 9 ? "(fed by the supply)" : "");
+    if (k == 0 || c->st[k].inject) {
+        snprintf(buf, cap, "%s",
+                 col != 9 ? ""
+                 : k == 0 ? "(fed by the supply)"
+                          : "(fed by its injection)");
         return;
     }
     const br_stage *ret = &c->st[k - 1];
@@ -297,8 +321,8 @@ static void cell(const br_chain *c, int k, int w, int col, char *buf, size_t cap
     case 6:
         snprintf(buf, cap, "%s", id_or_dash(st->aux.id));
         break;
-    case 7:
-        snprintf(buf, cap, "%s", k > 0 ? c->st[k - 1].name : "-");
+    case 7: /* an injected rail has no return switch */
+        snprintf(buf, cap, "%s", k > 0 && !st->inject ? c->st[k - 1].name : "-");
         break;
     default:
         if (k > 0)
@@ -409,6 +433,13 @@ static int describe_diode(const br_chain *c, const br_rule_hit *h, br_text *out)
 {
     int k = h->stage;
     double vb = br_link_vblock(c, k), vrrm = c->st[k].diode.vrrm;
+    if (c->st[k].inject) /* no switching edge: its own supply off under a charged rail */
+        return br_text_printf(out,
+                              "injection into rail %d (%s) diode %s: must block %.1f V (the "
+                              "injection's highest voltage, with its supply off under the charged "
+                              "rail), %s %.4g V rating",
+                              k, c->st[k].name, h->part, h->figure,
+                              h->kind == BR_RULE_DIODE_UNRATED ? "no" : "against its", h->limit);
     int rc = br_text_printf(out, "link %d (rail %s, returns via %s) diode %s: ", k, c->st[k].name,
                             c->st[k - 1].name, h->part);
     if (h->kind == BR_RULE_DIODE_UNRATED)
@@ -428,6 +459,16 @@ static int describe_diode(const br_chain *c, const br_rule_hit *h, br_text *out)
                                h->limit);
 }
 
+/* "; THE CHAIN CANNOT WORK: rails 3 to 5 never start" (up to the next
+ * injection, in h->index). */
+static int stalled(const br_rule_hit *h, br_text *out)
+{
+    int k = h->stage, top = h->index;
+    if (top <= k)
+        return br_text_printf(out, "; THE CHAIN CANNOT WORK: rail %d never starts", k);
+    return br_text_printf(out, "; THE CHAIN CANNOT WORK: rails %d to %d never start", k, top);
+}
+
 static int describe_supply(const br_chain *c, const br_rule_hit *h, br_text *out)
 {
     int k = h->stage;
@@ -439,10 +480,26 @@ static int describe_supply(const br_chain *c, const br_rule_hit *h, br_text *out
         rc |=
             br_text_printf(out, " (drops taken at the steady charge currents, %.3g mA in link %d)",
                            h->current * 1e3, k);
-    if (k == c->n - 1)
-        return rc | br_text_printf(out, "; THE CHAIN CANNOT WORK: rail %d never starts", k);
-    return rc |
-           br_text_printf(out, "; THE CHAIN CANNOT WORK: rails %d to %d never start", k, c->n - 1);
+    return rc | stalled(h, out);
+}
+
+static int describe_injection(const br_chain *c, const br_rule_hit *h, br_text *out)
+{
+    int k = h->stage;
+    const br_stage *st = &c->st[k];
+    if (h->kind == BR_RULE_INJECT_LATE)
+        return br_text_printf(out,
+                              "injection into rail %d (%s): it starts at %.4g s, not before the "
+                              "longest start-up simulated (%.4g s, max-startup), so no start-up "
+                              "sees it",
+                              k, st->name, h->figure, h->limit);
+    int rc = br_text_printf(out,
+                            "injection into rail %d (%s): its %.4g V less the drop of diode %s "
+                            "and %.4g ohm at %.3g mA leaves the driver %.2f V, below its UVLO "
+                            "rising %.4g V; it cannot start its rail (expected a higher voltage)",
+                            k, st->name, h->lo, h->part, st->r_link, 1e3 * h->current, h->figure,
+                            h->limit);
+    return rc | stalled(h, out);
 }
 
 static int describe_stage(const br_chain *c, const br_rule_hit *h, br_text *out)
@@ -561,6 +618,9 @@ int br_rule_describe(const br_chain *c, const br_rule_hit *h, br_text *out)
         return describe_diode(c, h, out);
     case BR_RULE_SUPPLY_SHORT:
         return describe_supply(c, h, out);
+    case BR_RULE_INJECT_SHORT:
+    case BR_RULE_INJECT_LATE:
+        return describe_injection(c, h, out);
     case BR_RULE_FLY_COLLAPSE:
         return br_text_printf(out,
                               "switch %s: the flying capacitors' ripple at %.4g A takes the "

@@ -19,6 +19,45 @@ int br_explore_outcome(const br_explore *x)
     return x->nfeasible > 0 ? BR_OUTCOME_PASS : undet ? BR_OUTCOME_UNDETERMINED : BR_OUTCOME_FAIL;
 }
 
+/* The split design's verdict: its state, and its margin or what fails. */
+static void split_verdict(const br_explore_row *r, char *buf, size_t cap)
+{
+    char a[32], t[32];
+    const char *crit = r->split_crit >= 0 ? br_crit_title(r->split_crit) : "a criterion";
+    if (r->split_state == BR_EX_FEASIBLE || r->split_state == BR_EX_MARGIN ||
+        r->split_state == BR_EX_STARTUP || r->split_state == BR_EX_COST)
+        snprintf(buf, cap, "it HOLDS at the nominal point, smallest margin %s (%s), starts in %s%s",
+                 br_fmt_si(a, sizeof a, r->split_margin, 3, "V"), crit,
+                 br_fmt_time(t, sizeof t, r->split_tstart),
+                 r->split_state == BR_EX_MARGIN ? ", below the margin target" : "");
+    else if (r->split_state == BR_EX_UNDETERMINED || r->split_state == BR_EX_REFUSED)
+        snprintf(buf, cap, "it is undetermined (%s)", crit);
+    else
+        snprintf(buf, cap, "it still FAILS (%s, margin %s)", crit,
+                 br_fmt_si(a, sizeof a, r->split_margin, 3, "V"));
+}
+
+/* A combination that needs a second supply: the one-supply chain's
+ * failure, and the split design's verdict and cost. */
+static void split_words(const br_explore_row *r, const char *crit, char *buf, size_t cap)
+{
+    char v[160];
+    if (r->inject_rail <= 0) {
+        snprintf(buf, cap,
+                 "fails (%s): rails from rail %d up fall short; needs a second isolated supply "
+                 "at rail %d (the split design was not judged)",
+                 crit, r->split_at, r->split_at);
+        return;
+    }
+    split_verdict(r, v, sizeof v);
+    snprintf(buf, cap,
+             "fails with one supply (%s): rails from rail %d up fall short. Split, with a second "
+             "isolated supply injected at rail %d (searched over %d rail%s), %s; parts cost %.4g, "
+             "the second supply not costed (the catalog lists no supplies)",
+             crit, r->split_at, r->inject_rail, r->split_tries, r->split_tries == 1 ? "" : "s", v,
+             r->cost);
+}
+
 /* Why a combination is not feasible, in words. */
 static const char *why(const br_explore *x, const br_explore_row *r, char *buf, size_t cap)
 {
@@ -38,10 +77,7 @@ static const char *why(const br_explore *x, const br_explore_row *r, char *buf, 
                      br_fmt_si(a, sizeof a, r->need, 3, "V"), 100.0 * x->derating);
         break;
     case BR_EX_SPLIT:
-        snprintf(buf, cap,
-                 "fails (%s): rails from rail %d up fall short; needs a second "
-                 "isolated supply at rail %d",
-                 crit, r->split_at, r->split_at);
+        split_words(r, crit, buf, cap);
         break;
     case BR_EX_FAILS:
         snprintf(buf, cap, "fails: %s", crit);
@@ -139,7 +175,7 @@ static int rejected(const br_explore *x, const br_catalog *cat, br_text *out)
     if (x->n == x->nfeasible)
         return BR_OK;
     int rc = br_text_put(out, "not feasible:\n");
-    char lead[128], buf[256];
+    char lead[128], buf[512];
     for (int i = 0; i < x->n; i++) {
         const br_explore_row *r = &x->rows[i];
         if (r->state == BR_EX_FEASIBLE)
@@ -164,8 +200,14 @@ int br_explore_text(const br_explore *x, const br_catalog *cat, const char *desi
                                                 : "UNDETERMINED",
                          x->nfeasible, x->n,
                          x->corners ? "at their worst corners" : "at the nominal point");
-    rc |= br_text_put(out, "A chain that needs a second supply is reported, not simulated split: "
-                           "the model has one\nsupply, at rail 0.\n\n");
+    rc |= br_report_wrap(out, "",
+                         "A chain that needs a second supply is also judged split, at the nominal "
+                         "point: an isolated supply of the main supply's voltage injected at a "
+                         "rail through that rail's link resistor and diode (the rail searched "
+                         "from the lowest one that falls short, downwards while the smallest "
+                         "margin grows); the split design stays out of the ranking.",
+                         0);
+    rc |= br_text_put(out, "\n");
     rc |= br_report_caution(out);
     return rc ? BR_ENOMEM : BR_OK;
 }
@@ -183,7 +225,8 @@ static const char *num(char *buf, size_t cap, double v)
 int br_explore_csv(const br_explore *x, const br_catalog *cat, br_text *out)
 {
     int rc = br_text_put(out, "levels,switch,class_V,need_V,diode,fsw_Hz,state,cost,loss_W,"
-                              "margin_V,startup_s,binds,split_at,corners,front,rank\n");
+                              "margin_V,startup_s,binds,split_at,corners,front,rank,inject_rail,"
+                              "split_state,split_margin_V,split_startup_s,split_binds\n");
     char a[32], b[32], c[32];
     for (int i = 0; i < x->n; i++) {
         const br_explore_row *r = &x->rows[i];
@@ -191,10 +234,16 @@ int br_explore_csv(const br_explore *x, const br_catalog *cat, br_text *out)
                              cat->switches[r->sw].id, cat->switch_rating[r->sw], r->need,
                              r->diode >= 0 ? cat->diodes[r->diode].id : "", r->fsw,
                              br_explore_state_name(r->state), r->cost);
-        rc |= br_text_printf(out, "%s,%s,%s,%s,%d,%d,%d,%d\n", num(a, sizeof a, r->loss),
+        rc |= br_text_printf(out, "%s,%s,%s,%s,%d,%d,%d,%d,", num(a, sizeof a, r->loss),
                              num(b, sizeof b, r->margin), num(c, sizeof c, r->tstart),
                              r->crit >= 0 ? br_crit_name(r->crit) : "", r->split_at, r->corners,
                              r->front, r->rank);
+        int sp = r->inject_rail > 0;
+        rc |= br_text_printf(out, "%d,%s,%s,%s,%s\n", r->inject_rail,
+                             sp ? br_explore_state_name(r->split_state) : "",
+                             num(a, sizeof a, sp ? r->split_margin : NAN),
+                             num(b, sizeof b, sp ? r->split_tstart : NAN),
+                             sp && r->split_crit >= 0 ? br_crit_name(r->split_crit) : "");
     }
     return rc ? BR_ENOMEM : BR_OK;
 }
@@ -337,5 +386,25 @@ int br_explore_comment(const br_explore *x, const br_catalog *cat, const br_expl
                          r->rank, r->cost, br_fmt_si(a, sizeof a, r->loss, 3, "W"),
                          br_fmt_si(b, sizeof b, r->margin, 3, "V"),
                          r->corners ? "at the worst corners" : "at the nominal point");
+    return rc ? BR_ENOMEM : BR_OK;
+}
+
+int br_explore_split_comment(const br_explore *x, const br_catalog *cat, const br_explore_row *r,
+                             const char *design, br_text *out)
+{
+    char a[32], b[32], v[160];
+    split_verdict(r, v, sizeof v);
+    int rc = br_text_printf(out,
+                            "Built by bootrung explore from %s: %d levels, switch %s (%.0f V "
+                            "class),\nat %s on a %s bus, split: one supply fails (rails from "
+                            "rail %d up fall short),\nso a second isolated supply is injected "
+                            "at rail %d.\n",
+                            design, r->levels, cat->switches[r->sw].id, cat->switch_rating[r->sw],
+                            br_fmt_si(a, sizeof a, r->fsw, 4, "Hz"),
+                            br_fmt_si(b, sizeof b, x->vbus, 4, "V"), r->split_at, r->inject_rail);
+    rc |= br_text_printf(out,
+                         "At the nominal point %s.\nParts cost %.4g; the second supply is not "
+                         "costed.\n",
+                         v, r->cost);
     return rc ? BR_ENOMEM : BR_OK;
 }

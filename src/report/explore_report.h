@@ -19,6 +19,10 @@ int br_explore_csv(const br_explore *x, const br_catalog *cat, br_text *out);
  * level count the best of the switch classes). */
 int br_explore_svg(const br_explore *x, br_text *out);
 
+/* The comment of a split design's file (row r with inject_rail > 0). */
+int br_explore_split_comment(const br_explore *x, const br_catalog *cat, const br_explore_row *r,
+                             const char *design, br_text *out);
+
 /* The comment of a front member's design file: what was explored and
  * where the row stands. */
 int br_explore_comment(const br_explore *x, const br_catalog *cat, const br_explore_row *r,

@@ -106,7 +106,20 @@ static int operating_point(br_text *out, const br_chain *c)
                  ", load current %s (switches at %s; start-up %s)",
                  br_plot_si(i, sizeof i, c->iload, 4, "A"), tj,
                  c->load_from < HUGE_VAL ? "under load" : "at no load");
-    return tag_text(out, "<p>", line, "</p>\n");
+    int rc = tag_text(out, "<p>", line, "</p>\n");
+    for (int k = 1; k < c->n; k++) { /* each isolated supply feeding a rail */
+        const br_stage *st = &c->st[k];
+        if (!st->inject)
+            continue;
+        snprintf(line, sizeof line,
+                 "Injection into rail %d (%s): an isolated supply of %s through %s and diode %s, "
+                 "on from %s; no link from rail %d",
+                 k, st->name, br_plot_si(a, sizeof a, st->vinj, 4, "V"),
+                 br_plot_si(b, sizeof b, st->r_link, 3, "ohm"), st->diode.id,
+                 br_plot_si(d, sizeof d, st->tinj, 3, "s"), k - 1);
+        rc |= tag_text(out, "<p>", line, "</p>\n");
+    }
+    return rc;
 }
 
 int br_html_begin(br_text *out, const br_chain *c, const char *what)

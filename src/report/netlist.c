@@ -217,20 +217,45 @@ static void write_driver(nl *w, const br_chain *c, const br_timing *tm, int k, i
         write_gate(w, c, tm, k, o);
 }
 
-/* Link k and rail k (k >= 1): the diode from rail k-1, its resistor plus
- * the return switch's on-resistance, the capacitor behind its ESR. */
-static void write_stage(nl *w, const br_chain *c, int k, int model)
+/* Rail k fed by an isolated supply: a DC source on the switch's own
+ * source (stepping on at its start), then its diode and resistance.
+ * Returns the node the diode starts from. */
+static const char *write_injection(nl *w, const br_chain *c, int k, char *from, size_t cap)
 {
     const br_stage *st = &c->st[k];
     char s[16];
     src_node(k, s, sizeof s);
-    double r = st->r_link + c->st[k - 1].sw.rds_on;
+    snprintf(from, cap, "i%d", k);
+    put(w,
+        "* rail %d fed by an isolated supply (injection) of %.6g V from %.6g s; no link from "
+        "rail %d\n",
+        k, st->vinj, st->tinj, k - 1);
+    if (st->tinj > 0.0)
+        put(w, "VINJ%d i%d %s PWL(0 0 %.10g 0 %.10g %.6g)\n", k, k, s, st->tinj,
+            st->tinj + MIN_RAMP, st->vinj);
+    else
+        put(w, "VINJ%d i%d %s PWL(0 0 %.10g %.6g)\n", k, k, s, MIN_RAMP, st->vinj);
+    return from;
+}
+
+/* Link k and rail k (k >= 1): the diode from rail k-1 (or from an
+ * injection's source), its resistor plus the return switch's
+ * on-resistance, the capacitor behind its ESR. */
+static void write_stage(nl *w, const br_chain *c, int k, int model)
+{
+    const br_stage *st = &c->st[k];
+    char s[16], low[16];
+    src_node(k, s, sizeof s);
+    snprintf(low, sizeof low, "r%d", k - 1);
+    if (st->inject)
+        write_injection(w, c, k, low, sizeof low);
+    double r = st->r_link + (st->inject ? 0.0 : c->st[k - 1].sw.rds_on);
     put(w, "* link %d (%s) and rail %d (%s)\n", k, st->diode.id, k, st->cap.id);
     if (r > 0.0) {
-        put(w, "D%d r%d a%d dm%d\n", k, k - 1, k, model);
+        put(w, "D%d %s a%d dm%d\n", k, low, k, model);
         put(w, "RL%d a%d r%d %.6g\n", k, k, k, r);
     } else {
-        put(w, "D%d r%d r%d dm%d\n", k, k - 1, k, model);
+        put(w, "D%d %s r%d dm%d\n", k, low, k, model);
     }
     double cap = br_cap_at(&st->cap, c->vsupply);
     if (st->cap.esr > 0.0) {

@@ -41,6 +41,26 @@ static int operating_point(const br_chain *c, br_text *out)
         c->n == 2 ? "" : "s");
 }
 
+/* One line per isolated supply that feeds a rail directly. */
+static int injection_lines(const br_chain *c, br_text *out)
+{
+    int rc = 0;
+    for (int k = 1; k < c->n; k++) {
+        const br_stage *st = &c->st[k];
+        char v[24], r[24], t[24], lead[64], text[240];
+        if (!st->inject)
+            continue;
+        snprintf(lead, sizeof lead, "  injection into rail %d (%s): ", k, st->name);
+        snprintf(text, sizeof text,
+                 "isolated supply %s through %s and diode %s, on from %s; no link from rail %d",
+                 br_fmt_si(v, sizeof v, st->vinj, 4, "V"),
+                 br_fmt_si(r, sizeof r, st->r_link, 3, "ohm"), st->diode.id,
+                 br_fmt_si(t, sizeof t, st->tinj, 3, "s"), k - 1);
+        rc |= br_report_wrap(out, lead, text, 4);
+    }
+    return rc;
+}
+
 /* "load current 25 A (22.5 A to 27.5 A), switches at 100 C; start-up at no
  * load": what the leg carries, when a direction is analysed. */
 static int load_line(const br_chain *c, br_text *out)
@@ -67,6 +87,7 @@ int br_report_heading(const br_chain *c, const char *what, br_text *out)
     int rc = br_text_printf(out, "%s of design %s (%s)\n", what, design_name(c),
                             c->design ? c->design->path : "");
     rc |= operating_point(c, out);
+    rc |= injection_lines(c, out);
     rc |= load_line(c, out);
     return rc | br_text_put(out, "\n") ? BR_ENOMEM : BR_OK;
 }
@@ -130,6 +151,19 @@ void br_xml_operating_point(br_xmlw *w, const br_chain *c)
     br_xmlw_int(w, "switches", c->n);
     br_xmlw_int(w, "links", c->n - 1);
     br_line_xml_operating(w, c);
+    for (int k = 1; k < c->n; k++) {
+        const br_stage *st = &c->st[k];
+        if (!st->inject)
+            continue;
+        br_xmlw_start(w, "injection");
+        br_xmlw_int(w, "rail", k);
+        br_xmlw_attr(w, "switch", st->name);
+        br_xmlw_num(w, "voltage-V", st->vinj);
+        br_xmlw_num(w, "resistance-ohm", st->r_link);
+        br_xmlw_attr(w, "diode", st->diode.id);
+        br_xmlw_num(w, "start-s", st->tinj);
+        br_xmlw_end(w);
+    }
     br_xmlw_end(w);
 }
 

@@ -179,6 +179,69 @@ static void test_supply_short(void)
     done(d, c);
 }
 
+/* The supply_short design with a second isolated supply into rail 4
+ * through 10 ohm: rails 4 and 5 draw 2 x 3 mA = 6 mA from it, so the
+ * driver of rail 4 sees V - n Vt ln(6 mA / 1 A + 1) - 6 mA x 10 ohm =
+ * V - 1.5 x 25.865 mV x 0.0059822 - 60 mV = V - 60.232 mV.  At 8 V that
+ * is 7.9398 V, above UVLO rising 7.5 V: no finding (and rails 1 to 3 no
+ * longer carry the charge of 4 and 5).  At 7.5 V it is 7.4398 V: the
+ * injection cannot start its rail, a fatal finding that stalls rails 4
+ * and 5. */
+static br_design *injected(double v)
+{
+    br_design *d = leg(4, 1000.0);
+    d->diodes[0].is = br_qty_fixed(1.0);
+    d->diodes[0].rs = br_qty_fixed(0.0);
+    d->def.r_link = br_qty_fixed(120.0);
+    br_inject_spec *j = &d->inject[d->ninject++];
+    j->rail = 4;
+    j->v = br_qty_fixed(v);
+    j->r = br_qty_fixed(10.0);
+    j->diode = 0;
+    j->start = 0.0;
+    return d;
+}
+
+static void test_injection_short(void)
+{
+    br_rule_list r;
+    br_design *d = injected(8.0);
+    br_chain *c = check(d, &r);
+    CU_ASSERT_EQUAL(r.n, 0);
+    done(d, c);
+    d = injected(7.5);
+    c = check(d, &r);
+    CU_ASSERT_EQUAL(r.n, 1);
+    CU_ASSERT_EQUAL(count(&r, BR_RULE_SUPPLY_SHORT), 0);
+    const br_rule_hit *h = first(&r, BR_RULE_INJECT_SHORT);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(h);
+    CU_ASSERT_EQUAL(h->stage, 4);
+    CU_ASSERT_TRUE(h->fatal);
+    const double vt = 1.380649e-23 * 300.15 / 1.602176634e-19;
+    BR_ASSERT_NEAR(h->figure, 7.5 - 1.5 * vt * log(6e-3 + 1.0) - 0.06, 1e-9);
+    BR_ASSERT_NEAR(h->figure, 7.4398, 1e-4);
+    BR_ASSERT_NEAR(h->current, 6e-3, 1e-12);
+    CU_ASSERT_EQUAL(h->index, 5); /* the last rail it stalls */
+    CU_ASSERT_STRING_EQUAL(br_rule_name(BR_RULE_INJECT_SHORT), "injection-short");
+    done(d, c);
+}
+
+/* An injection that starts after the longest start-up simulated (20 ms)
+ * is a warning: no start-up sees it. */
+static void test_injection_late(void)
+{
+    br_rule_list r;
+    br_design *d = injected(8.0);
+    d->inject[0].start = 25e-3;
+    br_chain *c = check(d, &r);
+    const br_rule_hit *h = first(&r, BR_RULE_INJECT_LATE);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(h);
+    CU_ASSERT_FALSE(h->fatal);
+    BR_ASSERT_NEAR(h->figure, 25e-3, 1e-15);
+    BR_ASSERT_NEAR(h->limit, 20e-3, 1e-15);
+    done(d, c);
+}
+
 /* A 7.4 V supply is below UVLO rising even before any link. */
 static void test_supply_short_low(void)
 {
@@ -459,6 +522,8 @@ int main(void)
         {"nominal link drop (Shockley + Ohm)", test_link_drop},
         {"supply cannot reach an upper rail's UVLO", test_supply_short},
         {"supply cannot start even the bottom driver", test_supply_short_low},
+        {"an injection that cannot start its rail", test_injection_short},
+        {"an injection that starts after the longest start-up", test_injection_late},
         {"gate maximum below the supply, no regulator", test_gate_unprotected},
         {"a regulated design has no findings", test_regulated_clean},
         {"regulator output against UVLO and gate maximum", test_aux_limits},

@@ -336,6 +336,49 @@ static void test_designs_not_over_input(void)
     files_drop(&f);
 }
 
+/* 9 levels at 60 kHz on the 1.1 kV bus: the 400 V class fails with one
+ * supply, its rails from rail 8 up falling short (the drops of eight
+ * links and regulators), so the split design is built and judged: the
+ * report names the rail of its injection and its verdict, the CSV carries
+ * them, and --designs writes the split design, which holds an injection
+ * at that rail and loads. */
+static void test_split(void)
+{
+    files f;
+    files_make(&f);
+    run_result r =
+        run((const char *[]){"explore", LEG, "--catalog", SWITCHES, "--vin", "1.1k", "--levels",
+                             "9:9", "--fsw", "60k", "--csv", f.csv, "--designs", f.dir, NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    CU_ASSERT_TRUE(has(r.out, "9 levels, gan-400v-g, 60.0 kHz: fails with one supply"));
+    CU_ASSERT_TRUE(has(r.out, "Split, with a second isolated supply injected at rail "));
+    CU_ASSERT_TRUE(has(r.out, "the second supply not costed"));
+    done(&r);
+    char *csv = br_test_slurp(f.csv, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(csv);
+    CU_ASSERT_TRUE(has(csv, ",inject_rail,split_state,split_margin_V,"));
+    const char *l = csv_line(csv, "9,gan-400v-g,");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(l);
+    CU_ASSERT_TRUE(strstr(l, ",split,") != NULL && strstr(l, ",split,") < strchr(l, '\n'));
+    int split_at = (int)field(l, 12), rail = (int)field(l, 16);
+    CU_ASSERT_EQUAL(split_at, 8);
+    CU_ASSERT_TRUE(rail >= 1 && rail <= split_at);
+    free(csv);
+    /* rows are numbered in the order judged: 9 levels x (200, 400, 650 V) */
+    char path[96], want[48];
+    snprintf(path, sizeof path, "%s/explore-split-2.xml", f.dir);
+    char *xml = br_test_slurp(path, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(xml);
+    snprintf(want, sizeof want, "<injection rail=\"%d\"", rail);
+    CU_ASSERT_TRUE(has(xml, want));
+    CU_ASSERT_TRUE(has(xml, "the second supply is not costed"));
+    free(xml);
+    run_result c = run((const char *[]){"check", "--quiet", path, NULL});
+    CU_ASSERT_TRUE(c.status == 0 || c.status == 1); /* it loads: not bad input */
+    done(&c);
+    files_drop(&f);
+}
+
 static void test_help_golden(void)
 {
     run_result a = run((const char *[]){"explore", "--help", NULL});
@@ -358,6 +401,7 @@ int main(void)
         {"bad input", test_bad_input},
         {"the front's files never overwrite the template", test_designs_not_over_input},
         {"the capacitor scaling rule by hand", test_scale_caps},
+        {"a chain too long for one supply, judged split", test_split},
         {"help (golden)", test_help_golden},
         {NULL, NULL},
     };

@@ -151,13 +151,22 @@ static void check_link(const net *nt, const br_chain *c, int k)
     snprintf(name, sizeof name, "D%d", k);
     const elem *d = find(nt, name);
     CU_ASSERT_PTR_NOT_NULL_FATAL(d);
-    CU_ASSERT_STRING_EQUAL(d->tok[1], nd(n0, "r", k - 1));
+    const br_stage *st = &c->st[k];
+    /* an injection: its source on the switch's own source, no rail k-1 */
+    if (st->inject) {
+        snprintf(name, sizeof name, "VINJ%d", k);
+        const elem *v = need(nt, name, nd(n0, "i", k), nd(n2, "s", k));
+        CU_ASSERT_PTR_NOT_NULL(v);
+        CU_ASSERT_PTR_NOT_NULL(v ? strstr(v->line, "PWL(") : NULL);
+    }
+    CU_ASSERT_STRING_EQUAL(d->tok[1], st->inject ? nd(n0, "i", k) : nd(n0, "r", k - 1));
     snprintf(name, sizeof name, "RL%d", k);
     const elem *r = need(nt, name, nd(n1, "a", k), nd(n2, "r", k));
     CU_ASSERT_STRING_EQUAL(d->tok[2], n1);
-    /* the link resistor plus the return switch's on-resistance */
+    /* the link resistor plus the return switch's on-resistance (an
+     * injection: its own resistance alone) */
     if (r)
-        BR_ASSERT_REL(value(r, 3), c->st[k].r_link + c->st[k - 1].sw.rds_on, 1e-5);
+        BR_ASSERT_REL(value(r, 3), st->r_link + (st->inject ? 0.0 : c->st[k - 1].sw.rds_on), 1e-5);
 }
 
 /* Rail k's capacitor from rK through its ESR to the source of switch k. */
@@ -497,6 +506,8 @@ static void check_example(const char *path, long periods)
     }
     /* switches 0..n-2, drivers, links and rails, the supply, nothing else */
     int want = (c->n - 1) * 2 + c->n * 3 + (c->n - 1) * 4 + 3 + (c->csupply > 0);
+    for (int k = 1; k < c->n; k++)
+        want += c->st[k].inject; /* its source */
     for (int k = 0; k < c->n; k++)
         want += (c->st[k].drv.iq_off > 0) + 2 * (c->st[k].sw.qg > 0);
     CU_ASSERT_EQUAL(nt.n, want);
@@ -519,6 +530,13 @@ static void test_demo(void)
 static void test_leg(void)
 {
     check_example("examples/leg-7level.xml", 2);
+}
+
+/* A split chain: rail 4 fed by its injection's source, no link from
+ * rail 3. */
+static void test_split(void)
+{
+    check_example("examples/split-5level.xml", 2);
 }
 
 /* Every design of the test data and the extremes that loads at a DC
@@ -706,6 +724,7 @@ int main(void)
         {"demo: every element, its nodes and numbers", test_demo},
         {"7-level leg: every element, its nodes and numbers", test_leg},
         {"a .model line from the design comes back", test_spice_round_trip},
+        {"the split example: an injection's source and diode", test_split},
         {"every test design: waveforms and nodes", test_every_design},
         {"help (golden)", test_help_golden},
         {"the verb: --out, --quiet, stdout, --current none", test_verb},

@@ -308,6 +308,41 @@ static double limit_at(const char *from, const char *key)
  * limit lines in the start-up and the steady plots, the displacement
  * current as a series of its own, and the start-up CSV reaching the
  * inrush peaks the results report. */
+/* The split example: the text, XML and HTML name the injection and its
+ * supply figures (the power it gives, in the budget), and the balance
+ * over both supplies closes in the XML to 0.1 % of what they give. */
+static void test_injection_named(void)
+{
+    char dir[64], html[96], xml[96];
+    temp_dir(dir, sizeof dir);
+    snprintf(html, sizeof html, "%s/r.html", dir);
+    snprintf(xml, sizeof xml, "%s/r.xml", dir);
+    const char *args[] = {"analyze", "examples/split-5level.xml", "--report", html, "--xml", xml,
+                          NULL};
+    run_result r = run(args);
+    CU_ASSERT_EQUAL(r.status, 0);
+    CU_ASSERT_TRUE(has(r.out, "injection into rail 4 (A4): isolated supply 15 V through 4.7 ohm"));
+    CU_ASSERT_TRUE(has(r.out, "+ injection into A4 "));
+    done(&r);
+    char *x = br_test_slurp(xml, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(x);
+    CU_ASSERT_TRUE(has(x, "<injection rail=\"4\" switch=\"A4\" voltage-V=\"15\""));
+    const char *l = strstr(x, "<losses ");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(l);
+    double sup = strtod(strstr(l, "supply-W=\"") + 10, NULL);
+    double inj = strtod(strstr(l, "injection-W=\"") + 13, NULL);
+    double bal = strtod(strstr(l, "balance-W=\"") + 11, NULL);
+    CU_ASSERT_TRUE(inj > 0.1 && sup > 0.1);
+    CU_ASSERT_TRUE(fabs(bal) < 1e-3 * (sup + inj));
+    free(x);
+    char *h = br_test_slurp(html, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(h);
+    CU_ASSERT_TRUE(has(h, "Injection into rail 4 (A4): an isolated supply of 15 V"));
+    CU_ASSERT_TRUE(has(h, "+ injection into A4 "));
+    free(h);
+    remove_all(dir, (const char *const[]){"r.html", "r.xml", NULL});
+}
+
 static void test_report_agrees(void)
 {
     char dir[64], html[96], csvp[96], xmlp[96];
@@ -625,6 +660,7 @@ int main(void)
         {"check, corners, pick, supply: --report", test_text_verb_reports},
         {"steady --plot draws the direction nearest UVLO", test_steady_plot_binding_direction},
         {"undetermined verdict in the report", test_undetermined_report},
+        {"an injection named in text, XML and HTML", test_injection_named},
         {"unwritable or clashing outputs: status 2", test_unwritable_report},
         {NULL, NULL},
     };

@@ -158,6 +158,15 @@ static const bad_case corpus[] = {
     {"value-too-long.xml", 4, "operating-point: vin", "expected at most 1023"},
     {"nesting-too-deep.xml", 7, "", "nested deeper than libxml2's limit of 256"},
     {"entity-undeclared.xml", 3, "", "Entity 'lol' not defined"},
+    {"injection-rail-zero.xml", 7, "injection: rail", "rail 0 is the supply itself"},
+    {"injection-rail-beyond.xml", 7, "injection: rail",
+     "got 4, expected a floating rail from 1 to 3"},
+    {"injection-rail-twice.xml", 8, "injection: rail", "already has an injection (line 7)"},
+    {"injection-diode-unknown.xml", 7, "injection: diode", "unknown part id 'd9'"},
+    {"injection-resistance-negative.xml", 7, "injection: resistance", ">= 0"},
+    {"injection-voltage-bare.xml", 7, "injection: voltage", "without a unit"},
+    {"injection-voltage-missing.xml", 7, "injection: voltage", "required attribute missing"},
+    {"injection-start-tolerance.xml", 7, "injection: start", "no tolerance allowed"},
 };
 
 #define NCORPUS ((int)(sizeof corpus / sizeof corpus[0]))

@@ -117,6 +117,12 @@ static void round_trip(const char *path)
         CU_ASSERT_EQUAL(a->precharge[i].mask, b->precharge[i].mask);
     CU_ASSERT_EQUAL(a->hold_on, b->hold_on);
     CU_ASSERT_EQUAL(a->max_dropouts, b->max_dropouts);
+    CU_ASSERT_EQUAL(a->ninject, b->ninject);
+    for (int i = 0; i < a->ninject && i < b->ninject; i++) {
+        CU_ASSERT_EQUAL(a->inject[i].rail, b->inject[i].rail);
+        CU_ASSERT_EQUAL(a->inject[i].diode, b->inject[i].diode);
+        CU_ASSERT_TRUE(same(a->inject[i].start, b->inject[i].start));
+    }
     br_text *t2 = written(b, "written back by a test");
     /* a fixed point: what is written reads back to what writes the same */
     CU_ASSERT_STRING_EQUAL(br_text_data(t1), br_text_data(t2));
@@ -131,6 +137,41 @@ static void test_examples(void)
     round_trip(BR_SOURCE_DIR "/examples/demo-3level.xml");
     round_trip(BR_SOURCE_DIR "/examples/leg-7level.xml");
     round_trip(BR_SOURCE_DIR "/examples/inverter-7level.xml");
+    round_trip(BR_SOURCE_DIR "/examples/split-5level.xml");
+}
+
+/* The example's injection as its file gives it: rail 4, 15 V +-5 %
+ * (14.25 V to 15.75 V), 4.7 ohm, the Schottky link diode, on from 0 s;
+ * its voltage a toleranced parameter like the supply's; the chain takes
+ * the injection's diode and resistance on link 4. */
+static void test_injection_read(void)
+{
+    br_design *a = load(BR_SOURCE_DIR "/examples/split-5level.xml");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(a);
+    CU_ASSERT_EQUAL_FATAL(a->ninject, 1);
+    const br_inject_spec *j = &a->inject[0];
+    CU_ASSERT_EQUAL(j->rail, 4);
+    BR_ASSERT_NEAR(j->v.nom, 15.0, 1e-12);
+    BR_ASSERT_NEAR(j->v.min, 14.25, 1e-12);
+    BR_ASSERT_NEAR(j->v.max, 15.75, 1e-12);
+    BR_ASSERT_NEAR(j->r.nom, 4.7, 1e-12);
+    BR_ASSERT_NEAR(j->start, 0.0, 0.0);
+    CU_ASSERT_STRING_EQUAL(a->diodes[j->diode].id, "sic-schottky-600v");
+    br_tol_list *l = malloc(sizeof *l);
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_tol_list_build(a, l, &err), BR_OK);
+    int found = 0;
+    for (int i = 0; i < l->n; i++)
+        found += strcmp(l->p[i].name, "injection rail 4: voltage") == 0;
+    CU_ASSERT_EQUAL(found, 1);
+    free(l);
+    br_chain *c = calloc(1, sizeof *c);
+    CU_ASSERT_EQUAL_FATAL(br_chain_build_nominal(a, c, &err), BR_OK);
+    CU_ASSERT_TRUE(c->st[4].inject && !c->st[3].inject && !c->st[5].inject);
+    BR_ASSERT_NEAR(c->st[4].r_link, 4.7, 1e-12);
+    BR_ASSERT_NEAR(c->st[4].vinj, 15.0, 1e-12);
+    free(c);
+    br_design_free(a);
 }
 
 static void test_data(void)
@@ -173,6 +214,7 @@ static void test_comment_and_escapes(void)
 int main(void)
 {
     static const br_test_case cases[] = {
+        {"an injection read from its file", test_injection_read},
         {"examples", test_examples},
         {"data and extreme designs", test_data},
         {"comment and escapes", test_comment_and_escapes},
