@@ -33,6 +33,16 @@
  *    replaces the nominal one, and a survivor that does not qualify there
  *    is not feasible.
  *
+ *  - Sizing (opts.parts, analyses/explore_size.h): every link of a
+ *    combination takes the cheapest diode of the parts catalog rated per
+ *    the rule and as strong as the template's on that link (none:
+ *    rejected by the rule), and each survivor's rail capacitors are sized
+ *    from the parts catalog as `size` sizes them (analyses/size.h): the
+ *    smallest catalog part per rail that keeps every margin at the
+ *    target, rail by rail from the top, judged at the nominal point (at
+ *    the worst corners with opts.corners).  The sized design is then
+ *    screened again; its figures and cost are the row's.
+ *
  * A chain whose rails fail from some rail upwards (the drops of the
  * cascade add up along it) is reported as needing a second isolated
  * supply at the lowest failing rail: the simulator models one supply, at
@@ -60,7 +70,9 @@ typedef enum br_explore_state {
     BR_EX_COST,         /* costs more than the limit given */
     BR_EX_CORNERS,      /* passes at the nominal point, not at its worst corners */
     BR_EX_UNDETERMINED, /* a criterion could not be decided */
-    BR_EX_REFUSED       /* the model refuses the design built (why: the row's note) */
+    BR_EX_REFUSED,      /* the model refuses the design built (why: the row's note) */
+    BR_EX_UNSIZED       /* sizing: no catalog capacitor keeps a rail at the target
+                           (rail: stage) */
 } br_explore_state;
 
 typedef struct br_explore_row br_explore_row;
@@ -80,6 +92,8 @@ typedef struct br_explore_opts {
     int corners;                 /* judge survivors at their worst corners */
     int scale_caps;              /* the rail capacitors by the scaling rule (else the template's) */
     int threads;                 /* worker threads of the corner judgement (0: all) */
+    const br_catalog *parts;     /* sizing: rail capacitors and link diodes from here
+                                    (NULL: the template's parts, no sizing) */
     const br_progress *progress; /* combinations judged; stop poll */
     /* A shard (shard_n > 0): the combinations i with i % shard_n ==
      * shard_k - 1 are judged, the others get the rule only.  Merging
@@ -108,6 +122,12 @@ typedef struct br_explore_row {
     int front;       /* on the Pareto front of the feasible rows */
     int rank;        /* 1.. among the feasible rows (0: not feasible) */
     char note[160];  /* BR_EX_REFUSED: the model's message */
+    /* sizing (opts.parts) */
+    int sized;                           /* the rail capacitors were sized */
+    signed char cap[BR_MAX_SWITCHES];    /* parts-catalog capacitor of rail k (-1: the
+                                            template's) */
+    signed char ldiode[BR_MAX_SWITCHES]; /* parts-catalog diode of link k (-1: the template's) */
+    int size_trials;                     /* values the sizing judged */
 } br_explore_row;
 
 typedef struct br_explore {
@@ -117,6 +137,8 @@ typedef struct br_explore {
     int n;                /* combinations */
     br_explore_row *rows; /* n, in the order judged */
     int nfeasible, nfront;
+    const br_catalog *parts; /* opts.parts: the catalog the sizing took parts from (not
+                                owned; NULL: no sizing) */
 } br_explore;
 
 void br_explore_opts_default(br_explore_opts *o);

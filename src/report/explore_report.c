@@ -26,7 +26,12 @@ static const char *why(const br_explore *x, const br_explore_row *r, char *buf, 
     const char *crit = r->crit >= 0 ? br_crit_title(r->crit) : "a criterion";
     switch (r->state) {
     case BR_EX_RATING:
-        if (r->sw_ok)
+        if (r->sw_ok && x->parts)
+            snprintf(buf, cap,
+                     "a link with no diode of the parts catalog rated %s and as strong in "
+                     "current as the template's (Vin/(N-1) at %.0f %% derating)",
+                     br_fmt_si(a, sizeof a, r->need, 3, "V"), 100.0 * x->derating);
+        else if (r->sw_ok)
             snprintf(buf, cap,
                      "no catalog diode rated %s and as strong in current as the "
                      "template's it replaces (Vin/(N-1) at %.0f %% derating)",
@@ -67,6 +72,12 @@ static const char *why(const br_explore *x, const br_explore_row *r, char *buf, 
     case BR_EX_REFUSED:
         snprintf(buf, cap, "the model refuses it: %s", r->note);
         break;
+    case BR_EX_UNSIZED:
+        snprintf(buf, cap,
+                 "passes with the template's capacitors, but no catalog capacitor keeps rail %d "
+                 "at the target (%s)",
+                 r->stage, crit);
+        break;
     default:
         snprintf(buf, cap, "feasible");
     }
@@ -82,12 +93,38 @@ static int head(const br_explore *x, const char *design, br_text *out)
                          "Vin/(N-1) / %.0f %%\n",
                          br_fmt_si(a, sizeof a, x->vbus, 4, "V"),
                          br_fmt_si(b, sizeof b, x->vbus_max, 4, "V"), 100.0 * x->derating);
-    rc |= br_text_printf(out, "margin target %s; %d combinations, %d feasible, %d on the front\n\n",
+    rc |= br_text_printf(out, "margin target %s; %d combinations, %d feasible, %d on the front\n",
                          br_fmt_si(t, sizeof t, x->target, 3, "V"), x->n, x->nfeasible, x->nfront);
-    return rc;
+    if (x->parts) {
+        char what[1024];
+        snprintf(what, sizeof what,
+                 "each survivor's rail capacitors sized from %s to the margin target %s, rail by "
+                 "rail from the top: the smallest capacitor rated for the supply that keeps every "
+                 "margin in volts at the target, judged %s; every link's diode from it by the "
+                 "rule (cheapest rated and as strong as the template's)",
+                 x->parts->path, t, x->corners ? "at the worst corners" : "at the nominal point");
+        rc |= br_report_wrap(out, "sizing: ", what, 2);
+    }
+    return rc | br_text_put(out, "\n");
 }
 
-static void feasible_row(br_table *t, const br_explore_row *r, const br_catalog *cat)
+/* The diode column: the switch catalog's, or the template's, or the
+ * parts catalog's on the top link (with "+" when the links differ). */
+static const char *diode_name(const br_explore *x, const br_explore_row *r, const br_catalog *cat,
+                              char *buf, size_t cap)
+{
+    static const char *const plus[] = {"", "+"};
+    if (!x->parts)
+        return r->diode >= 0 ? cat->diodes[r->diode].id : "(template)";
+    int n = 2 * (r->levels - 1), differ = 0;
+    for (int k = 1; k < n; k++)
+        differ |= r->ldiode[k] != r->ldiode[n - 1];
+    snprintf(buf, cap, "%s%s", x->parts->diodes[r->ldiode[n - 1]].id, plus[differ]);
+    return buf;
+}
+
+static void feasible_row(br_table *t, const br_explore *x, const br_explore_row *r,
+                         const br_catalog *cat)
 {
     br_table_row(t);
     br_table_set(t, 0, "%d", r->rank);
@@ -95,7 +132,8 @@ static void feasible_row(br_table *t, const br_explore_row *r, const br_catalog 
     br_table_set(t, 2, "%d", r->levels);
     br_table_set(t, 3, "%s", cat->switches[r->sw].id);
     br_table_set(t, 4, "%.0f", cat->switch_rating[r->sw]);
-    br_table_set(t, 5, "%s", r->diode >= 0 ? cat->diodes[r->diode].id : "(template)");
+    char buf[BR_ID_MAX + 2];
+    br_table_set(t, 5, "%s", diode_name(x, r, cat, buf, sizeof buf));
     br_table_set(t, 6, "%.1f", r->fsw / 1e3);
     br_table_set(t, 7, "%.2f", r->cost);
     br_table_set(t, 8, "%.1f", r->loss * 1e3);
@@ -118,7 +156,7 @@ static int feasible(const br_explore *x, const br_catalog *cat, br_text *out)
     for (int k = 1; k <= x->nfeasible; k++)
         for (int i = 0; i < x->n; i++)
             if (x->rows[i].rank == k)
-                feasible_row(t, &x->rows[i], cat);
+                feasible_row(t, x, &x->rows[i], cat);
     int rc = br_report_wrap(out, "feasible, ",
                             x->corners ? "ranked (front first, then margin, cost, loss; * on the "
                                          "Pareto front of cost, loss and margin; margins at the "
@@ -131,6 +169,51 @@ static int feasible(const br_explore *x, const br_catalog *cat, br_text *out)
     rc |= br_text_put(out, "\n");
     br_table_free(t);
     return rc;
+}
+
+/* The runs of equal parts along stages 1..n-1 of idx (indexes of the
+ * parts catalog's capacitors, or diodes): "1-2 a; 3-11 b". */
+static void runs(const br_catalog *p, int caps, const signed char *idx, int n, char *buf,
+                 size_t cap)
+{
+    size_t at = 0;
+    buf[0] = '\0';
+    for (int k = 1; k < n && at < cap;) {
+        int e = k;
+        while (e + 1 < n && idx[e + 1] == idx[k])
+            e++;
+        const char *id = idx[k] < 0 ? "(template)"
+                         : caps     ? p->caps[idx[k]].id
+                                    : p->diodes[idx[k]].id;
+        int w = e > k ? snprintf(buf + at, cap - at, "%s%d-%d %s", at ? "; " : "", k, e, id)
+                      : snprintf(buf + at, cap - at, "%s%d %s", at ? "; " : "", k, id);
+        at += w > 0 ? (size_t)w : 0;
+        k = e + 1;
+    }
+}
+
+/* The sized parts of each front member, in rank order. */
+static int sized_parts(const br_explore *x, br_text *out)
+{
+    if (!x->parts || x->nfront == 0)
+        return BR_OK;
+    int rc = br_text_put(out, "sized parts of the front (rails and links counted from the "
+                              "supply, rail 0):\n");
+    char lead[32], caps[1200], diodes[1200], line[2600];
+    for (int k = 1; k <= x->nfront; k++)
+        for (int i = 0; i < x->n; i++) {
+            const br_explore_row *r = &x->rows[i];
+            if (r->rank != k || !r->front)
+                continue;
+            int n = 2 * (r->levels - 1);
+            runs(x->parts, 1, r->cap, n, caps, sizeof caps);
+            runs(x->parts, 0, r->ldiode, n, diodes, sizeof diodes);
+            snprintf(lead, sizeof lead, "  rank %d: ", k);
+            snprintf(line, sizeof line, "rail capacitors %s; link diodes %s (%d values judged)",
+                     caps, diodes, r->size_trials);
+            rc |= br_report_wrap(out, lead, line, 4);
+        }
+    return rc | br_text_put(out, "\n");
 }
 
 /* One line per combination that is not feasible, wrapped. */
@@ -156,6 +239,7 @@ int br_explore_text(const br_explore *x, const br_catalog *cat, const char *desi
 {
     int rc = head(x, design, out);
     rc |= feasible(x, cat, out);
+    rc |= sized_parts(x, out);
     rc |= rejected(x, cat, out);
     int o = br_explore_outcome(x);
     rc |= br_text_printf(out, "verdict: %s (%d of %d combinations feasible, %s)\n\n",
@@ -180,10 +264,24 @@ static const char *num(char *buf, size_t cap, double v)
     return buf;
 }
 
+/* The sized parts of a row as two CSV fields (empty where not sized). */
+static int sized_csv(const br_explore *x, const br_explore_row *r, br_text *out)
+{
+    char caps[1200] = "", diodes[1200] = "";
+    int n = 2 * (r->levels - 1);
+    if (r->sized)
+        runs(x->parts, 1, r->cap, n, caps, sizeof caps);
+    if (r->state != BR_EX_RATING)
+        runs(x->parts, 0, r->ldiode, n, diodes, sizeof diodes);
+    return br_text_printf(out, ",%s,%s", caps, diodes);
+}
+
 int br_explore_csv(const br_explore *x, const br_catalog *cat, br_text *out)
 {
-    int rc = br_text_put(out, "levels,switch,class_V,need_V,diode,fsw_Hz,state,cost,loss_W,"
-                              "margin_V,startup_s,binds,split_at,corners,front,rank\n");
+    int rc = br_text_printf(out,
+                            "levels,switch,class_V,need_V,diode,fsw_Hz,state,cost,loss_W,"
+                            "margin_V,startup_s,binds,split_at,corners,front,rank%s\n",
+                            x->parts ? ",rail_capacitors,link_diodes" : "");
     char a[32], b[32], c[32];
     for (int i = 0; i < x->n; i++) {
         const br_explore_row *r = &x->rows[i];
@@ -191,10 +289,12 @@ int br_explore_csv(const br_explore *x, const br_catalog *cat, br_text *out)
                              cat->switches[r->sw].id, cat->switch_rating[r->sw], r->need,
                              r->diode >= 0 ? cat->diodes[r->diode].id : "", r->fsw,
                              br_explore_state_name(r->state), r->cost);
-        rc |= br_text_printf(out, "%s,%s,%s,%s,%d,%d,%d,%d\n", num(a, sizeof a, r->loss),
+        rc |= br_text_printf(out, "%s,%s,%s,%s,%d,%d,%d,%d", num(a, sizeof a, r->loss),
                              num(b, sizeof b, r->margin), num(c, sizeof c, r->tstart),
                              r->crit >= 0 ? br_crit_name(r->crit) : "", r->split_at, r->corners,
                              r->front, r->rank);
+        rc |= x->parts ? sized_csv(x, r, out) : BR_OK;
+        rc |= br_text_put(out, "\n");
     }
     return rc ? BR_ENOMEM : BR_OK;
 }
@@ -337,5 +437,11 @@ int br_explore_comment(const br_explore *x, const br_catalog *cat, const br_expl
                          r->rank, r->cost, br_fmt_si(a, sizeof a, r->loss, 3, "W"),
                          br_fmt_si(b, sizeof b, r->margin, 3, "V"),
                          r->corners ? "at the worst corners" : "at the nominal point");
+    if (x->parts && r->sized)
+        rc |= br_text_printf(out,
+                             "Rail capacitors sized from %s to the margin target %s (judged %s);\n"
+                             "link diodes from it by the rule.\n",
+                             x->parts->path, br_fmt_si(a, sizeof a, x->target, 3, "V"),
+                             x->corners ? "at the worst corners" : "at the nominal point");
     return rc ? BR_ENOMEM : BR_OK;
 }
