@@ -29,6 +29,7 @@ void br_explore_opts_default(br_explore_opts *o)
     o->max_startup = HUGE_VAL;
     o->max_cost = HUGE_VAL;
     o->lmin = o->lmax = 0;
+    o->seed = 1;
 }
 
 const char *br_explore_state_name(int state)
@@ -564,6 +565,8 @@ static int judge_row(const br_design *t, const br_explore_opts *o, double target
         rc = size_row(t, o, target, e, r, &d, err);
     else if (rc == BR_OK && r->state == BR_EX_FEASIBLE && o->corners)
         rc = corners(d, o, target, r, err);
+    if (rc == BR_OK && r->state == BR_EX_FEASIBLE && o->yield_samples > 0)
+        rc = br_explore_yield(d, o, r, err);
     br_design_free(d);
     return rc;
 }
@@ -616,6 +619,8 @@ int br_explore_run(const br_design *t, const br_explore_opts *o, br_explore **ou
     x->derating = derating_of(t, o);
     x->corners = o->corners;
     x->parts = o->parts;
+    x->yield_samples = o->yield_samples;
+    x->seed = o->seed;
     lay_out(t, o, x);
     int rc = run_rows(t, o, x, err);
     if (rc != BR_OK) {

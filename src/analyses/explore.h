@@ -42,6 +42,10 @@
  *    target, rail by rail from the top, judged at the nominal point (at
  *    the worst corners with opts.corners).  The sized design is then
  *    screened again; its figures and cost are the row's.
+ *  - Yield (opts.yield_samples > 0): every feasible combination's design
+ *    (sized, when sizing) sampled over its tolerances as `yield` samples a
+ *    design, the cold start in every sample (explore_size.h), in the shard
+ *    that judges the combination.
  *
  * A chain whose rails fail from some rail upwards (the drops of the
  * cascade add up along it) is reported as needing a second isolated
@@ -91,9 +95,12 @@ typedef struct br_explore_opts {
     double max_cost;             /* currency units (HUGE_VAL: none) */
     int corners;                 /* judge survivors at their worst corners */
     int scale_caps;              /* the rail capacitors by the scaling rule (else the template's) */
-    int threads;                 /* worker threads of the corner judgement (0: all) */
+    int threads;                 /* worker threads of the corner, sizing and yield
+                                    judgements (0: all) */
     const br_catalog *parts;     /* sizing: rail capacitors and link diodes from here
                                     (NULL: the template's parts, no sizing) */
+    long yield_samples;          /* Monte Carlo samples per feasible combination (0: none) */
+    unsigned long seed;          /* their generator's seed (default 1) */
     const br_progress *progress; /* combinations judged; stop poll */
     /* A shard (shard_n > 0): the combinations i with i % shard_n ==
      * shard_k - 1 are judged, the others get the rule only.  Merging
@@ -128,6 +135,11 @@ typedef struct br_explore_row {
                                             template's) */
     signed char ldiode[BR_MAX_SWITCHES]; /* parts-catalog diode of link k (-1: the template's) */
     int size_trials;                     /* values the sizing judged */
+    /* yield (opts.yield_samples) */
+    long ysamples, ypass, yfail, yundet; /* samples, and how they came out */
+    double yield, ylo, yhi;              /* pass / decided (NAN: none decided), and its
+                                            Clopper-Pearson 95 % interval with the undetermined
+                                            samples as failures (ylo) and as passes (yhi) */
 } br_explore_row;
 
 typedef struct br_explore {
@@ -139,6 +151,8 @@ typedef struct br_explore {
     int nfeasible, nfront;
     const br_catalog *parts; /* opts.parts: the catalog the sizing took parts from (not
                                 owned; NULL: no sizing) */
+    long yield_samples;      /* opts.yield_samples (0: no yield) */
+    unsigned long seed;
 } br_explore;
 
 void br_explore_opts_default(br_explore_opts *o);

@@ -2,6 +2,7 @@
  * a parts catalog, and its yield option (explore_size.h). */
 #include "analyses/explore_size.h"
 
+#include "analyses/yield.h"
 #include "core/error.h"
 
 #include <math.h>
@@ -185,5 +186,30 @@ int br_explore_size_caps(const br_design *d, const br_explore_opts *o, double ta
     take_answers(z, r);
     *final = z->final;
     br_size_free(z);
+    return BR_OK;
+}
+
+/* ---- the yield ---------------------------------------------------------------- */
+
+int br_explore_yield(const br_design *d, const br_explore_opts *o, br_explore_row *r, br_error *err)
+{
+    br_yield_opts yo;
+    br_yield_opts_default(&yo);
+    yo.samples = o->yield_samples;
+    yo.seed = o->seed;
+    yo.threads = o->threads;
+    yo.startup = 1;
+    br_progress stop = br_progress_stop_only(o->progress);
+    yo.progress = &stop;
+    br_yield *y = NULL;
+    TRY(br_yield_run(d, &yo, &y, err));
+    r->ysamples = y->n;
+    r->ypass = y->pass;
+    r->yfail = y->fail;
+    r->yundet = y->undetermined;
+    r->yield = y->yield;
+    r->ylo = y->lo;
+    r->yhi = y->hi;
+    br_yield_free(y);
     return BR_OK;
 }

@@ -1,7 +1,8 @@
 /* explore_size.h - what the exploration (explore.h) does with a parts
  * catalog and with the yield option: the link diodes of each combination
  * from the catalog by the rule, the rail capacitors of each survivor
- * sized from it, and what they cost.
+ * sized from it, what they cost, and each feasible combination's Monte
+ * Carlo yield.
  *
  *  - Link diodes: link k of the new chain takes the cheapest catalog diode
  *    whose VRRM meets the rule (the highest bus voltage over N - 1, over
@@ -16,7 +17,13 @@
  *    failing.  Every value is judged at the nominal point (the screen's
  *    point: the design's and the catalog parts' tolerances set aside), or
  *    at the worst corners when the exploration judges corners.
- */
+ *  - Yield: the design sampled over its tolerances with `yield`'s
+ *    machinery (analyses/yield.h): the given seed, every criterion judged
+ *    in every sample (the cold start included, as the screen judges),
+ *    undetermined samples counted apart and the Clopper-Pearson interval
+ *    bounding what they could have been.  Every feasible combination
+ *    gets one, not only the front: a shard knows its own combinations,
+ *    not the front, which only the merged rows give. */
 #ifndef BR_ANALYSES_EXPLORE_SIZE_H
 #define BR_ANALYSES_EXPLORE_SIZE_H
 
@@ -56,5 +63,11 @@ double br_explore_size_cost(const br_explore_opts *o, const br_explore_row *r, i
  * nominal point).  BR_ECANCEL, BR_ENOMEM. */
 int br_explore_size_caps(const br_design *d, const br_explore_opts *o, double target,
                          br_explore_row *r, br_size_verdict *final, br_error *err);
+
+/* The Monte Carlo yield of d (row r's design) into r: o->yield_samples
+ * samples from o->seed, judged as `yield --startup` judges them (every
+ * criterion, the cold start included).  BR_ECANCEL, BR_ENOMEM. */
+int br_explore_yield(const br_design *d, const br_explore_opts *o, br_explore_row *r,
+                     br_error *err);
 
 #endif

@@ -42,12 +42,16 @@ static const char ABOUT[] =
     "front's design files) write the rest. --shard K/N judges every N-th\n"
     "combination only and writes a shard file (--shard-file, default stdout);\n"
     "'bootrung merge' puts the N files together into this verb's output.\n"
+    "--yield N samples every feasible combination's design N times over its\n"
+    "tolerances as 'yield --startup' does (the same seed for each), and the\n"
+    "report gives each its yield with the exact 95 % interval; every feasible\n"
+    "combination, not only the front, so that a shard yields its own.\n"
     "Exit status 0 when some combination is feasible, 1 when none is, 3 when\n"
     "none is and some could not be decided, 2 for bad input.\n";
 
 typedef struct args {
     const char *catalog, *parts, *vin, *levels, *fsw, *iload, *derating, *margin, *max_startup,
-        *max_cost, *threads, *csv, *svg, *designs, *shard, *shard_file;
+        *max_cost, *threads, *csv, *svg, *designs, *shard, *shard_file, *yield, *seed;
     int quiet, corners, scale_caps;
 } args;
 
@@ -141,6 +145,8 @@ static int parse_value(const char *opt, const char *text, br_kind kind, double l
     return BR_EXIT_OK;
 }
 
+static int yield_options(const args *a, br_explore_opts *eo);
+
 static int options(const args *a, br_explore_opts *eo)
 {
     br_explore_opts_default(eo);
@@ -165,6 +171,20 @@ static int options(const args *a, br_explore_opts *eo)
     if (a->threads && br_cli_long("explore", "threads", a->threads, 1, 64, &v))
         return BR_EXIT_INPUT;
     eo->threads = a->threads ? (int)v : 0;
+    return yield_options(a, eo);
+}
+
+/* --yield N and --seed S. */
+static int yield_options(const args *a, br_explore_opts *eo)
+{
+    long v;
+    if (a->yield && br_cli_long("explore", "yield", a->yield, 1, 1000000L, &eo->yield_samples))
+        return BR_EXIT_INPUT;
+    if (a->seed && !a->yield)
+        return br_cli_usage_error("explore", "--seed without --yield");
+    if (a->seed && br_cli_long("explore", "seed", a->seed, 0, 4294967295L, &v))
+        return BR_EXIT_INPUT;
+    eo->seed = a->seed ? (unsigned long)v : 1;
     return BR_EXIT_OK;
 }
 
@@ -322,8 +342,11 @@ int br_cli_explore_main(int argc, char **argv, const br_cli_given *given)
         {BR_OPT_STRING, "svg", "PATH", &a.svg, "plots of margin and cost against levels to PATH"},
         {BR_OPT_STRING, "designs", "DIR", &a.designs,
          "the design file of each front member into DIR (explore-RANK.xml)"},
+        {BR_OPT_STRING, "yield", "N", &a.yield,
+         "Monte Carlo yield of every feasible combination, N samples each"},
+        {BR_OPT_STRING, "seed", "S", &a.seed, "seed of --yield's random numbers (default 1)"},
         {BR_OPT_STRING, "threads", "N", &a.threads,
-         "worker threads of --corners (default: one per processor)"},
+         "worker threads of --corners, --parts and --yield (default: one per processor)"},
         {BR_OPT_STRING, "shard", "K/N", &a.shard,
          "judge every N-th combination from the K-th only, write a shard file"},
         {BR_OPT_STRING, "shard-file", "PATH", &a.shard_file,

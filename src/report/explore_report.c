@@ -108,19 +108,15 @@ static int head(const br_explore *x, const char *design, br_text *out)
     return rc | br_text_put(out, "\n");
 }
 
-/* The diode column: the switch catalog's, or the template's, or the
- * parts catalog's on the top link (with "+" when the links differ). */
-static const char *diode_name(const br_explore *x, const br_explore_row *r, const br_catalog *cat,
-                              char *buf, size_t cap)
+/* The diode column: the switch catalog's, or the template's; "(sized)"
+ * when the links take the parts catalog's (listed below for the front,
+ * in the CSV for every row: their names would widen the table past the
+ * page). */
+static const char *diode_name(const br_explore *x, const br_explore_row *r, const br_catalog *cat)
 {
-    static const char *const plus[] = {"", "+"};
-    if (!x->parts)
-        return r->diode >= 0 ? cat->diodes[r->diode].id : "(template)";
-    int n = 2 * (r->levels - 1), differ = 0;
-    for (int k = 1; k < n; k++)
-        differ |= r->ldiode[k] != r->ldiode[n - 1];
-    snprintf(buf, cap, "%s%s", x->parts->diodes[r->ldiode[n - 1]].id, plus[differ]);
-    return buf;
+    if (x->parts)
+        return "(sized)";
+    return r->diode >= 0 ? cat->diodes[r->diode].id : "(template)";
 }
 
 static void feasible_row(br_table *t, const br_explore *x, const br_explore_row *r,
@@ -132,8 +128,7 @@ static void feasible_row(br_table *t, const br_explore *x, const br_explore_row 
     br_table_set(t, 2, "%d", r->levels);
     br_table_set(t, 3, "%s", cat->switches[r->sw].id);
     br_table_set(t, 4, "%.0f", cat->switch_rating[r->sw]);
-    char buf[BR_ID_MAX + 2];
-    br_table_set(t, 5, "%s", diode_name(x, r, cat, buf, sizeof buf));
+    br_table_set(t, 5, "%s", diode_name(x, r, cat));
     br_table_set(t, 6, "%.1f", r->fsw / 1e3);
     br_table_set(t, 7, "%.2f", r->cost);
     br_table_set(t, 8, "%.1f", r->loss * 1e3);
@@ -216,6 +211,53 @@ static int sized_parts(const br_explore *x, br_text *out)
     return rc | br_text_put(out, "\n");
 }
 
+static void yield_row(br_table *t, const br_explore_row *r, const br_catalog *cat)
+{
+    br_table_row(t);
+    br_table_set(t, 0, "%d", r->rank);
+    br_table_set(t, 1, "%d", r->levels);
+    br_table_set(t, 2, "%s", cat->switches[r->sw].id);
+    br_table_set(t, 3, "%.1f", r->fsw / 1e3);
+    br_table_set(t, 4, "%ld", r->ypass);
+    br_table_set(t, 5, "%ld", r->yfail);
+    br_table_set(t, 6, "%ld", r->yundet);
+    if (isnan(r->yield))
+        br_table_set(t, 7, "-");
+    else
+        br_table_set(t, 7, "%.1f", 100.0 * r->yield);
+    br_table_set(t, 8, "%.1f to %.1f", 100.0 * r->ylo, 100.0 * r->yhi);
+}
+
+/* The yield of every feasible combination, in rank order. */
+static int yields(const br_explore *x, const br_catalog *cat, br_text *out)
+{
+    if (x->yield_samples <= 0 || x->nfeasible == 0)
+        return BR_OK;
+    char what[400];
+    snprintf(what, sizeof what,
+             "%ld samples of each feasible combination's design over its tolerances (seed %lu), "
+             "every criterion judged in each, the cold start included; the yield is the share of "
+             "the decided samples that pass, its exact 95 %% interval (Clopper-Pearson) counts "
+             "the undetermined samples as failures for the lower bound and as passes for the "
+             "upper:",
+             x->yield_samples, x->seed);
+    int rc = br_report_wrap(out, "yield: ", what, 2);
+    static const char *const heads[] = {"rank", "levels", "switch",  "fsw kHz",        "pass",
+                                        "fail", "undet.", "yield %", "95 % interval %"};
+    br_table *t = br_table_create(9, x->nfeasible);
+    if (!t)
+        return BR_ENOMEM;
+    for (int c = 0; c < 9; c++)
+        br_table_head(t, c, heads[c], c == 2 ? BR_LEFT : BR_RIGHT);
+    for (int k = 1; k <= x->nfeasible; k++)
+        for (int i = 0; i < x->n; i++)
+            if (x->rows[i].rank == k)
+                yield_row(t, &x->rows[i], cat);
+    rc |= br_table_render(t, 2, out);
+    br_table_free(t);
+    return rc | br_text_put(out, "\n");
+}
+
 /* One line per combination that is not feasible, wrapped. */
 static int rejected(const br_explore *x, const br_catalog *cat, br_text *out)
 {
@@ -240,6 +282,7 @@ int br_explore_text(const br_explore *x, const br_catalog *cat, const char *desi
     int rc = head(x, design, out);
     rc |= feasible(x, cat, out);
     rc |= sized_parts(x, out);
+    rc |= yields(x, cat, out);
     rc |= rejected(x, cat, out);
     int o = br_explore_outcome(x);
     rc |= br_text_printf(out, "verdict: %s (%d of %d combinations feasible, %s)\n\n",
@@ -276,12 +319,26 @@ static int sized_csv(const br_explore *x, const br_explore_row *r, br_text *out)
     return br_text_printf(out, ",%s,%s", caps, diodes);
 }
 
+/* The yield of a row as CSV fields (empty where it has none). */
+static int yield_csv(const br_explore_row *r, br_text *out)
+{
+    char a[32], b[32], c[32];
+    if (r->ysamples == 0)
+        return br_text_put(out, ",,,,,,,");
+    return br_text_printf(out, ",%ld,%ld,%ld,%ld,%s,%s,%s", r->ysamples, r->ypass, r->yfail,
+                          r->yundet, num(a, sizeof a, r->yield), num(b, sizeof b, r->ylo),
+                          num(c, sizeof c, r->yhi));
+}
+
 int br_explore_csv(const br_explore *x, const br_catalog *cat, br_text *out)
 {
     int rc = br_text_printf(out,
                             "levels,switch,class_V,need_V,diode,fsw_Hz,state,cost,loss_W,"
-                            "margin_V,startup_s,binds,split_at,corners,front,rank%s\n",
-                            x->parts ? ",rail_capacitors,link_diodes" : "");
+                            "margin_V,startup_s,binds,split_at,corners,front,rank%s%s\n",
+                            x->parts ? ",rail_capacitors,link_diodes" : "",
+                            x->yield_samples > 0 ? ",samples,pass,fail,undetermined,yield,"
+                                                   "yield_lo,yield_hi"
+                                                 : "");
     char a[32], b[32], c[32];
     for (int i = 0; i < x->n; i++) {
         const br_explore_row *r = &x->rows[i];
@@ -294,6 +351,7 @@ int br_explore_csv(const br_explore *x, const br_catalog *cat, br_text *out)
                              r->crit >= 0 ? br_crit_name(r->crit) : "", r->split_at, r->corners,
                              r->front, r->rank);
         rc |= x->parts ? sized_csv(x, r, out) : BR_OK;
+        rc |= x->yield_samples > 0 ? yield_csv(r, out) : BR_OK;
         rc |= br_text_put(out, "\n");
     }
     return rc ? BR_ENOMEM : BR_OK;
@@ -443,5 +501,14 @@ int br_explore_comment(const br_explore *x, const br_catalog *cat, const br_expl
                              "link diodes from it by the rule.\n",
                              x->parts->path, br_fmt_si(a, sizeof a, x->target, 3, "V"),
                              x->corners ? "at the worst corners" : "at the nominal point");
+    if (r->ysamples > 0 && isnan(r->yield))
+        rc |= br_text_printf(out, "Yield: none of %ld samples decided (seed %lu).\n", r->ysamples,
+                             x->seed);
+    else if (r->ysamples > 0)
+        rc |=
+            br_text_printf(out,
+                           "Yield %.1f %% of %ld samples over its tolerances (seed %lu; 95 %% "
+                           "interval %.1f %% to %.1f %%).\n",
+                           100.0 * r->yield, r->ysamples, x->seed, 100.0 * r->ylo, 100.0 * r->yhi);
     return rc ? BR_ENOMEM : BR_OK;
 }

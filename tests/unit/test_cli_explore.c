@@ -8,6 +8,7 @@
 #include "runbin.h"
 #include "testkit.h"
 
+#include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -450,6 +451,48 @@ static void test_sized_smallest(void)
     br_design_free(t);
 }
 
+/* --yield: the yield of the rank-1 design is the `yield` verb's on its
+ * design file (--startup, the same samples and seed): the same counts of
+ * samples that pass, fail and are undetermined.  When every sample
+ * passes, the lower bound is Clopper-Pearson's for n of n, by hand
+ * 0.025^(1/n) (C. J. Clopper and E. S. Pearson, Biometrika 26(4), 1934:
+ * the lower bound for x = n solves p^n = alpha/2). */
+static void test_yield(void)
+{
+    files f;
+    files_make(&f);
+    run_result r = run((const char *[]){
+        "explore", LEG,        "--catalog", SWITCHES, "--parts",   PICKCAT,   "--vin",
+        "300V",    "--levels", "3:3",       "--fsw",  "60k",       "--yield", "6",
+        "--seed",  "3",        "--csv",     f.csv,    "--designs", f.dir,     NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    CU_ASSERT_TRUE(has(r.out, "yield: 6 samples of each feasible combination"));
+    done(&r);
+    char *csv = br_test_slurp(f.csv, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(csv);
+    CU_ASSERT_TRUE(has(csv, ",samples,pass,fail,undetermined,yield,yield_lo,yield_hi\n"));
+    const char *line = NULL; /* the rank-1 row: field 15 */
+    for (const char *p = strchr(csv, '\n'); p && p[1] && !line; p = strchr(p + 1, '\n'))
+        if ((int)field(p + 1, 15) == 1)
+            line = p + 1;
+    CU_ASSERT_PTR_NOT_NULL_FATAL(line);
+    long pass = (long)field(line, 19), fail = (long)field(line, 20), und = (long)field(line, 21);
+    CU_ASSERT_EQUAL((long)field(line, 18), 6);
+    CU_ASSERT_EQUAL(pass + fail + und, 6);
+    if (pass == 6)
+        BR_ASSERT_NEAR(field(line, 23), pow(0.025, 1.0 / 6.0), 1e-9);
+    char design[96], want[128];
+    snprintf(design, sizeof design, "%s/explore-1.xml", f.dir);
+    r = run((const char *[]){"yield", "--startup", "--samples", "6", "--seed", "3", design, NULL});
+    CU_ASSERT_TRUE(r.status == 0 || r.status == 1 || r.status == 3);
+    snprintf(want, sizeof want, "yield: %ld of 6 samples pass, %ld fail, %ld undetermined", pass,
+             fail, und);
+    CU_ASSERT_TRUE(has(r.out, want));
+    done(&r);
+    free(csv);
+    files_drop(&f);
+}
+
 int main(void)
 {
     static const br_test_case cases[] = {
@@ -461,6 +504,7 @@ int main(void)
         {"the front's files never overwrite the template", test_designs_not_over_input},
         {"the capacitor scaling rule by hand", test_scale_caps},
         {"sizing: the sized capacitor is the smallest that passes", test_sized_smallest},
+        {"--yield: the yield verb's counts on the rank-1 design", test_yield},
         {"help (golden)", test_help_golden},
         {NULL, NULL},
     };
