@@ -576,6 +576,27 @@ int br_explore_shard_has(const br_explore_opts *o, int i)
     return o->shard_n <= 0 || i % o->shard_n == o->shard_k - 1;
 }
 
+typedef struct rows_ctx {
+    const br_design *t;
+    const br_explore_opts *o;
+    br_explore *x;
+} rows_ctx;
+
+/* Row i, when the shard judges it (on a worker thread of br_explore_pool:
+ * it writes row i alone). */
+static int judge_one(void *ctx, int i, br_error *err)
+{
+    const rows_ctx *c = ctx;
+    if (!br_explore_shard_has(c->o, i))
+        return BR_OK;
+    br_evaluation *e = malloc(sizeof *e);
+    if (!e)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    int rc = judge_row(c->t, c->o, c->x->target, e, &c->x->rows[i], err);
+    free(e);
+    return rc;
+}
+
 static int run_rows(const br_design *t, const br_explore_opts *o, br_explore *x, br_error *err)
 {
     if (o->given) { /* merged from shards: the rows as they were judged */
@@ -585,18 +606,8 @@ static int run_rows(const br_design *t, const br_explore_opts *o, br_explore *x,
         memcpy(x->rows, o->given, sizeof *x->rows * (size_t)x->n);
         return BR_OK;
     }
-    br_evaluation *e = malloc(sizeof *e);
-    if (!e)
-        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
-    int rc = BR_OK;
-    for (int i = 0; rc == BR_OK && i < x->n; i++) {
-        if (br_explore_shard_has(o, i))
-            rc = judge_row(t, o, x->target, e, &x->rows[i], err);
-        if (rc == BR_OK)
-            rc = br_progress_call(o->progress, i + 1, x->n, err);
-    }
-    free(e);
-    return rc;
+    rows_ctx c = {t, o, x};
+    return br_explore_pool(x->n, o->threads, judge_one, &c, o->progress, err);
 }
 
 int br_explore_run(const br_design *t, const br_explore_opts *o, br_explore **out, br_error *err)

@@ -52,6 +52,9 @@
  * supply at the lowest failing rail: the simulator models one supply, at
  * rail 0, so the split chain itself is not simulated.
  *
+ * Combinations are judged on worker threads (br_explore_pool), each row
+ * on its own, so the rows are the same whatever the number of threads.
+ *
  * Bounded: at most BR_EXPLORE_MAX combinations, each one evaluation (plus
  * one worst-corner judgement); every simulation carries the stop poll. */
 #ifndef BR_ANALYSES_EXPLORE_H
@@ -95,8 +98,8 @@ typedef struct br_explore_opts {
     double max_cost;             /* currency units (HUGE_VAL: none) */
     int corners;                 /* judge survivors at their worst corners */
     int scale_caps;              /* the rail capacitors by the scaling rule (else the template's) */
-    int threads;                 /* worker threads of the corner, sizing and yield
-                                    judgements (0: all) */
+    int threads;                 /* worker threads judging combinations, and of each
+                                    one's corner, sizing and yield judgements (0: all) */
     const br_catalog *parts;     /* sizing: rail capacitors and link diodes from here
                                     (NULL: the template's parts, no sizing) */
     long yield_samples;          /* Monte Carlo samples per feasible combination (0: none) */

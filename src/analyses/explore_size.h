@@ -70,4 +70,14 @@ int br_explore_size_caps(const br_design *d, const br_explore_opts *o, double ta
 int br_explore_yield(const br_design *d, const br_explore_opts *o, br_explore_row *r,
                      br_error *err);
 
+/* Judge rows 0..n-1 with judge(ctx, i, err) on `threads` worker threads
+ * (0: one per processor), each row once, taking rows from a shared
+ * counter: every row's result depends on the row alone, so any number of
+ * threads gives the same rows.  The meter's hook hears of every row done
+ * (n in all), and a stop ends the run with BR_ECANCEL; the first error a
+ * row returns ends it too. */
+typedef int (*br_explore_judge_fn)(void *ctx, int i, br_error *err);
+int br_explore_pool(int n, int threads, br_explore_judge_fn judge, void *ctx,
+                    const br_progress *progress, br_error *err);
+
 #endif

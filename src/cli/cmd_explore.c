@@ -346,7 +346,7 @@ int br_cli_explore_main(int argc, char **argv, const br_cli_given *given)
          "Monte Carlo yield of every feasible combination, N samples each"},
         {BR_OPT_STRING, "seed", "S", &a.seed, "seed of --yield's random numbers (default 1)"},
         {BR_OPT_STRING, "threads", "N", &a.threads,
-         "worker threads of --corners, --parts and --yield (default: one per processor)"},
+         "worker threads, across combinations and within each (default: all)"},
         {BR_OPT_STRING, "shard", "K/N", &a.shard,
          "judge every N-th combination from the K-th only, write a shard file"},
         {BR_OPT_STRING, "shard-file", "PATH", &a.shard_file,

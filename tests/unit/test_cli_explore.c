@@ -493,6 +493,35 @@ static void test_yield(void)
     files_drop(&f);
 }
 
+/* The combinations are judged on worker threads, each on its own: one
+ * thread and three give the same CSV byte for byte. */
+static void test_threads(void)
+{
+    files f;
+    files_make(&f);
+    char one[96];
+    snprintf(one, sizeof one, "%s/one.csv", f.dir);
+    const char *threads[] = {"1", "3"};
+    const char *out[] = {one, f.csv};
+    for (int i = 0; i < 2; i++) {
+        run_result r = run((const char *[]){"explore", LEG, "--catalog", SWITCHES, "--vin", "1.1k",
+                                            "--levels", "6:8", "--fsw", "60k,90k", "--threads",
+                                            threads[i], "--csv", out[i], "--quiet", NULL});
+        CU_ASSERT_EQUAL(r.status, 0);
+        done(&r);
+    }
+    size_t na, nb;
+    char *a = br_test_slurp(one, &na), *b = br_test_slurp(f.csv, &nb);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(a);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(b);
+    CU_ASSERT_EQUAL(na, nb);
+    CU_ASSERT_STRING_EQUAL(a, b);
+    CU_ASSERT_TRUE(count_lines(a) == 19); /* 3 levels, 3 switches, 2 frequencies and the head */
+    free(a);
+    free(b);
+    files_drop(&f);
+}
+
 int main(void)
 {
     static const br_test_case cases[] = {
@@ -505,6 +534,7 @@ int main(void)
         {"the capacitor scaling rule by hand", test_scale_caps},
         {"sizing: the sized capacitor is the smallest that passes", test_sized_smallest},
         {"--yield: the yield verb's counts on the rank-1 design", test_yield},
+        {"one thread or three: the same rows", test_threads},
         {"help (golden)", test_help_golden},
         {NULL, NULL},
     };
