@@ -22,7 +22,7 @@ _bootrung_options()
     supply) echo "--xml --report --threads --startup-method $common" ;;
     netlist) echo "--out --current --periods $common" ;;
     size) echo "--catalog --target --no-links --supply --write-design --threads --solver-limit --startup-method $common" ;;
-    explore) echo "--catalog --vin --levels --fsw --load-current --derating --min-margin --max-startup --max-cost --scale-caps --corners --csv --svg --designs --threads --shard --shard-file $common" ;;
+    explore) echo "--catalog --parts --vin --levels --fsw --load-current --derating --min-margin --max-startup --max-cost --scale-caps --corners --csv --svg --designs --yield --seed --threads --shard --shard-file $common" ;;
     merge) echo "--help" ;;
     esac
 }
@@ -56,7 +56,7 @@ _bootrung()
         compopt -o dirnames 2>/dev/null
         COMPREPLY=($(compgen -d -- "$cur"))
         return ;;
-    --catalog)
+    --catalog | --parts)
         compopt -o filenames 2>/dev/null
         COMPREPLY=($(compgen -f -X '!*.xml' -- "$cur") $(compgen -d -- "$cur"))
         return ;;
@@ -68,7 +68,7 @@ _bootrung()
         return ;;
     --solver-limit | --threads | --fmin | --fmax | --duty | --freq | --exhaustive | \
         --samples | --seed | --min-yield | --top | --min-margin | --periods | --shard | --target | \
-        --vin | --levels | --fsw | --load-current | --derating | --max-startup | --max-cost)
+        --vin | --levels | --fsw | --load-current | --derating | --max-startup | --max-cost | --yield)
         return ;; # a number or a range: nothing to offer
     esac
     if [[ $cur == -* ]]; then

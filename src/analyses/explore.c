@@ -4,6 +4,7 @@
 #include "analyses/explore.h"
 
 #include "analyses/evaluate.h"
+#include "analyses/explore_size.h"
 #include "core/error.h"
 #include "model/rating.h"
 
@@ -28,13 +29,15 @@ void br_explore_opts_default(br_explore_opts *o)
     o->max_startup = HUGE_VAL;
     o->max_cost = HUGE_VAL;
     o->lmin = o->lmax = 0;
+    o->seed = 1;
 }
 
 const char *br_explore_state_name(int state)
 {
-    static const char *const names[] = {"feasible", "rating", "fails",   "split",        "margin",
-                                        "startup",  "cost",   "corners", "undetermined", "refused"};
-    return state >= 0 && state <= BR_EX_REFUSED ? names[state] : "?";
+    static const char *const names[] = {"feasible",     "rating",  "fails",  "split",
+                                        "margin",       "startup", "cost",   "corners",
+                                        "undetermined", "refused", "unsized"};
+    return state >= 0 && state <= BR_EX_UNSIZED ? names[state] : "?";
 }
 
 /* ---- the rule ------------------------------------------------------------- */
@@ -42,15 +45,6 @@ const char *br_explore_state_name(int state)
 static double derating_of(const br_design *t, const br_explore_opts *o)
 {
     return o->derating > 0 ? o->derating : t->derating.nom;
-}
-
-/* A catalog diode is at least as strong in current as the template's
- * part p when none of its current ratings is lower (a rating p does not
- * give asks nothing). */
-static int as_strong(const br_diode_part *c, const br_diode_part *p)
-{
-    return c->ifrm.nom >= p->ifrm.nom && c->ifsm.nom >= p->ifsm.nom && c->i2t.nom >= p->i2t.nom &&
-           c->if_avg.nom >= p->if_avg.nom;
 }
 
 /* ---- the design of a combination ----------------------------------------- */
@@ -116,7 +110,7 @@ static int choose_diode(const br_design *t, const br_catalog *cat, double need)
         int ok = cat->diodes[i].vrrm.nom >= need;
         for (int k = 1; k < n0 && ok; k++) {
             const br_diode_part *q = &t->diodes[br_design_stage(t, k)->diode];
-            ok = q->vrrm.nom >= need || as_strong(&cat->diodes[i], q);
+            ok = q->vrrm.nom >= need || br_diode_as_strong(&cat->diodes[i], q);
         }
         if (ok && (best < 0 || cat->diode_offer[i].cost < cat->diode_offer[best].cost))
             best = i;
@@ -260,6 +254,8 @@ static int build_design(const br_design *t, const br_explore_opts *o, const br_e
         TRY(place_diodes(d, n, &o->cat->diodes[r->diode], r->need, err));
     if (o->scale_caps)
         TRY(scale_caps(d, t, n, err));
+    if (o->parts)
+        TRY(br_explore_size_place(d, o, r, err));
     snprintf(d->name, sizeof d->name, "%.60s-%dL-%.40s-%.0fkHz", t->name, r->levels,
              o->cat->switches[r->sw].id, r->fsw / 1e3);
     return BR_OK;
@@ -427,6 +423,25 @@ int br_explore_screen(const br_design *d, const br_explore_opts *o, double targe
 
 /* ---- the corners ------------------------------------------------------------ */
 
+/* What the worst corners say of a survivor: their margin where smaller,
+ * not feasible where it does not qualify there. */
+static void take_corners(const br_size_verdict *v, br_explore_row *r)
+{
+    r->corners = 1;
+    if (v->status == BR_OK && isfinite(v->margin) && v->margin < r->margin) {
+        r->margin = v->margin;
+        r->crit = v->crit;
+        r->stage = v->stage;
+    }
+    if (v->outcome == BR_OUTCOME_UNDETERMINED) {
+        r->state = BR_EX_UNDETERMINED;
+        r->crit = v->fail_crit;
+    } else if (!v->qualifies) {
+        r->state = BR_EX_CORNERS;
+        r->crit = v->fail_crit >= 0 ? v->fail_crit : r->crit;
+    }
+}
+
 /* A survivor judged at its worst corners as `size` judges a value. */
 static int corners(const br_design *d, const br_explore_opts *o, double target, br_explore_row *r,
                    br_error *err)
@@ -439,19 +454,7 @@ static int corners(const br_design *d, const br_explore_opts *o, double target, 
     so.progress = &stop;
     br_size_verdict v;
     TRY(br_size_judge(d, d, &so, &v, err));
-    r->corners = 1;
-    if (v.status == BR_OK && isfinite(v.margin) && v.margin < r->margin) {
-        r->margin = v.margin;
-        r->crit = v.crit;
-        r->stage = v.stage;
-    }
-    if (v.outcome == BR_OUTCOME_UNDETERMINED) {
-        r->state = BR_EX_UNDETERMINED;
-        r->crit = v.fail_crit;
-    } else if (!v.qualifies) {
-        r->state = BR_EX_CORNERS;
-        r->crit = v.fail_crit >= 0 ? v.fail_crit : r->crit;
-    }
+    take_corners(&v, r);
     return BR_OK;
 }
 
@@ -470,7 +473,7 @@ static double cost_of(const br_design *d, const br_explore_opts *o, const br_exp
     for (int k = 1; r->diode >= 0 && k < n; k++)
         if (br_design_stage(d, k)->diode == d->ndiodes - 1)
             sum += cat->diode_offer[r->diode].cost;
-    return sum;
+    return sum + br_explore_size_cost(o, r, n);
 }
 
 /* The rule for combination r (levels, switch and frequency set): the
@@ -503,6 +506,8 @@ static double default_target(const br_design *t, const br_explore_opts *o)
 
 static int check_input(const br_design *t, const br_explore_opts *o, int count, br_error *err)
 {
+    if (o->parts && t->topology == BR_TOPO_FCML)
+        TRY(br_explore_size_check(t, o, err));
     if (t->topology != BR_TOPO_FCML)
         return br_error_set(err, BR_EINPUT, t->path, 0, "topology",
                             "the template is a switch string, expected an <fcml> leg to vary "
@@ -536,23 +541,45 @@ static void lay_out(const br_design *t, const br_explore_opts *o, br_explore *x)
             }
 }
 
+/* A survivor's rail capacitors sized (explore_size.h), its design *d
+ * rebuilt with them, costed and screened again; with corners, the
+ * sizing's verdict at the worst corners taken too. */
+static int size_row(const br_design *t, const br_explore_opts *o, double target, br_evaluation *e,
+                    br_explore_row *r, br_design **d, br_error *err)
+{
+    br_size_verdict v;
+    TRY(br_explore_size_caps(*d, o, target, r, &v, err));
+    if (r->state != BR_EX_FEASIBLE)
+        return BR_OK;
+    br_design_free(*d);
+    *d = NULL;
+    TRY(br_explore_design(t, o, r, d, err));
+    r->cost = cost_of(*d, o, r, 2 * (r->levels - 1));
+    TRY(screen(*d, o, target, e, r, err));
+    if (r->state == BR_EX_FEASIBLE && o->corners)
+        take_corners(&v, r);
+    return BR_OK;
+}
+
 static int judge_row(const br_design *t, const br_explore_opts *o, double target, br_evaluation *e,
                      br_explore_row *r, br_error *err)
 {
+    if (o->parts)
+        TRY(br_explore_size_rule(t, o, r, err));
     if (r->state != BR_EX_FEASIBLE)
         return BR_OK;
     br_design *d = NULL;
     TRY(br_explore_design(t, o, r, &d, err));
     r->cost = cost_of(d, o, r, 2 * (r->levels - 1));
-    if (r->state != BR_EX_FEASIBLE) {
-        br_design_free(d);
-        return BR_OK;
-    }
     int rc = screen(d, o, target, e, r, err);
-    if (rc == BR_OK && r->state == BR_EX_FEASIBLE && o->corners)
+    if (rc == BR_OK && r->state == BR_EX_FEASIBLE && o->parts)
+        rc = size_row(t, o, target, e, r, &d, err);
+    else if (rc == BR_OK && r->state == BR_EX_FEASIBLE && o->corners)
         rc = corners(d, o, target, r, err);
     if (rc == BR_OK && r->state == BR_EX_SPLIT)
         rc = br_explore_split(d, o, target, r, err);
+    if (rc == BR_OK && r->state == BR_EX_FEASIBLE && o->yield_samples > 0)
+        rc = br_explore_yield(d, o, r, err);
     br_design_free(d);
     return rc;
 }
@@ -560,6 +587,27 @@ static int judge_row(const br_design *t, const br_explore_opts *o, double target
 int br_explore_shard_has(const br_explore_opts *o, int i)
 {
     return o->shard_n <= 0 || i % o->shard_n == o->shard_k - 1;
+}
+
+typedef struct rows_ctx {
+    const br_design *t;
+    const br_explore_opts *o;
+    br_explore *x;
+} rows_ctx;
+
+/* Row i, when the shard judges it (on a worker thread of br_explore_pool:
+ * it writes row i alone). */
+static int judge_one(void *ctx, int i, br_error *err)
+{
+    const rows_ctx *c = ctx;
+    if (!br_explore_shard_has(c->o, i))
+        return BR_OK;
+    br_evaluation *e = malloc(sizeof *e);
+    if (!e)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    int rc = judge_row(c->t, c->o, c->x->target, e, &c->x->rows[i], err);
+    free(e);
+    return rc;
 }
 
 static int run_rows(const br_design *t, const br_explore_opts *o, br_explore *x, br_error *err)
@@ -571,18 +619,8 @@ static int run_rows(const br_design *t, const br_explore_opts *o, br_explore *x,
         memcpy(x->rows, o->given, sizeof *x->rows * (size_t)x->n);
         return BR_OK;
     }
-    br_evaluation *e = malloc(sizeof *e);
-    if (!e)
-        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
-    int rc = BR_OK;
-    for (int i = 0; rc == BR_OK && i < x->n; i++) {
-        if (br_explore_shard_has(o, i))
-            rc = judge_row(t, o, x->target, e, &x->rows[i], err);
-        if (rc == BR_OK)
-            rc = br_progress_call(o->progress, i + 1, x->n, err);
-    }
-    free(e);
-    return rc;
+    rows_ctx c = {t, o, x};
+    return br_explore_pool(x->n, o->threads, judge_one, &c, o->progress, err);
 }
 
 int br_explore_run(const br_design *t, const br_explore_opts *o, br_explore **out, br_error *err)
@@ -604,6 +642,9 @@ int br_explore_run(const br_design *t, const br_explore_opts *o, br_explore **ou
     x->vbus_max = o->vbus_max;
     x->derating = derating_of(t, o);
     x->corners = o->corners;
+    x->parts = o->parts;
+    x->yield_samples = o->yield_samples;
+    x->seed = o->seed;
     lay_out(t, o, x);
     int rc = run_rows(t, o, x, err);
     if (rc != BR_OK) {

@@ -33,6 +33,20 @@
  *    replaces the nominal one, and a survivor that does not qualify there
  *    is not feasible.
  *
+ *  - Sizing (opts.parts, analyses/explore_size.h): every link of a
+ *    combination takes the cheapest diode of the parts catalog rated per
+ *    the rule and as strong as the template's on that link (none:
+ *    rejected by the rule), and each survivor's rail capacitors are sized
+ *    from the parts catalog as `size` sizes them (analyses/size.h): the
+ *    smallest catalog part per rail that keeps every margin at the
+ *    target, rail by rail from the top, judged at the nominal point (at
+ *    the worst corners with opts.corners).  The sized design is then
+ *    screened again; its figures and cost are the row's.
+ *  - Yield (opts.yield_samples > 0): every feasible combination's design
+ *    (sized, when sizing) sampled over its tolerances as `yield` samples a
+ *    design, the cold start in every sample (explore_size.h), in the shard
+ *    that judges the combination.
+ *
  * A chain whose rails fail from some rail upwards (the drops of the
  * cascade add up along it) is reported as needing a second isolated
  * supply (split_at: the lowest failing rail), and the split design is
@@ -40,6 +54,9 @@
  * of the template supply's voltage into a rail, the search choosing the
  * rail (br_explore_split).  The split design stays out of the ranking:
  * the row keeps BR_EX_SPLIT and carries the split design's verdict.
+ *
+ * Combinations are judged on worker threads (br_explore_pool), each row
+ * on its own, so the rows are the same whatever the number of threads.
  *
  * Bounded: at most BR_EXPLORE_MAX combinations, each one evaluation (plus
  * one worst-corner judgement); every simulation carries the stop poll. */
@@ -63,7 +80,9 @@ typedef enum br_explore_state {
     BR_EX_COST,         /* costs more than the limit given */
     BR_EX_CORNERS,      /* passes at the nominal point, not at its worst corners */
     BR_EX_UNDETERMINED, /* a criterion could not be decided */
-    BR_EX_REFUSED       /* the model refuses the design built (why: the row's note) */
+    BR_EX_REFUSED,      /* the model refuses the design built (why: the row's note) */
+    BR_EX_UNSIZED       /* sizing: no catalog capacitor keeps a rail at the target
+                           (rail: stage) */
 } br_explore_state;
 
 typedef struct br_explore_row br_explore_row;
@@ -82,7 +101,12 @@ typedef struct br_explore_opts {
     double max_cost;             /* currency units (HUGE_VAL: none) */
     int corners;                 /* judge survivors at their worst corners */
     int scale_caps;              /* the rail capacitors by the scaling rule (else the template's) */
-    int threads;                 /* worker threads of the corner judgement (0: all) */
+    int threads;                 /* worker threads judging combinations, and of each
+                                    one's corner, sizing and yield judgements (0: all) */
+    const br_catalog *parts;     /* sizing: rail capacitors and link diodes from here
+                                    (NULL: the template's parts, no sizing) */
+    long yield_samples;          /* Monte Carlo samples per feasible combination (0: none) */
+    unsigned long seed;          /* their generator's seed (default 1) */
     const br_progress *progress; /* combinations judged; stop poll */
     /* A shard (shard_n > 0): the combinations i with i % shard_n ==
      * shard_k - 1 are judged, the others get the rule only.  Merging
@@ -120,6 +144,17 @@ typedef struct br_explore_row {
     int front;       /* on the Pareto front of the feasible rows */
     int rank;        /* 1.. among the feasible rows (0: not feasible) */
     char note[160];  /* BR_EX_REFUSED: the model's message */
+    /* sizing (opts.parts) */
+    int sized;                           /* the rail capacitors were sized */
+    signed char cap[BR_MAX_SWITCHES];    /* parts-catalog capacitor of rail k (-1: the
+                                            template's) */
+    signed char ldiode[BR_MAX_SWITCHES]; /* parts-catalog diode of link k (-1: the template's) */
+    int size_trials;                     /* values the sizing judged */
+    /* yield (opts.yield_samples) */
+    long ysamples, ypass, yfail, yundet; /* samples, and how they came out */
+    double yield, ylo, yhi;              /* pass / decided (NAN: none decided), and its
+                                            Clopper-Pearson 95 % interval with the undetermined
+                                            samples as failures (ylo) and as passes (yhi) */
 } br_explore_row;
 
 typedef struct br_explore {
@@ -129,6 +164,10 @@ typedef struct br_explore {
     int n;                /* combinations */
     br_explore_row *rows; /* n, in the order judged */
     int nfeasible, nfront;
+    const br_catalog *parts; /* opts.parts: the catalog the sizing took parts from (not
+                                owned; NULL: no sizing) */
+    long yield_samples;      /* opts.yield_samples (0: no yield) */
+    unsigned long seed;
 } br_explore;
 
 void br_explore_opts_default(br_explore_opts *o);

@@ -170,6 +170,7 @@ static int judge(sizer *q, const br_design *t, int all, br_size_verdict *v, br_e
     so.stop_failed = 1; /* a design that fails at its nominal point needs no corners */
     so.meter = q->meter;
     so.solver_limit = q->o->solver_limit;
+    so.warm = q->o->nominal;
     br_spread *s = NULL;
     int undet = -1;
     br_meter_grow(q->meter, 1);
@@ -193,6 +194,8 @@ static int judge(sizer *q, const br_design *t, int all, br_size_verdict *v, br_e
  * costs most. */
 static int judge_whole(sizer *q, const br_design *t, br_size_verdict *v, br_error *err)
 {
+    if (q->o->nominal) /* one point: its steady state once, with the cold start */
+        return judge(q, t, 1, v, err);
     int rc = judge(q, t, 0, v, err);
     if (rc == BR_OK && v->qualifies)
         rc = judge(q, t, 1, v, err);
@@ -291,6 +294,11 @@ static int with_cap(const sizer *q, const br_design *cur, int k, int part, doubl
     spec.cap = slot;
     t->stage[k] = spec;
     t->has_override[k] = 1;
+    int rc = q->o->nominal ? br_tol_fix(t, err) : BR_OK;
+    if (rc != BR_OK) {
+        br_design_free(t);
+        return rc;
+    }
     val->v = p.c.nom;
     val->part = part;
     snprintf(val->id, sizeof val->id, "%s", p.id);
@@ -635,9 +643,14 @@ int br_size_run(const br_design *d, const br_size_opts *o, br_size **out, br_err
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     z->catalog = o->cat && o->cat->ncaps > 0;
     z->links = o->links;
-    sizer q = {.d0 = d, .o = o, .z = z};
+    br_design *fixed = o->nominal ? br_design_copy(d) : NULL;
+    int rc = !o->nominal ? BR_OK
+             : fixed     ? br_tol_fix(fixed, err)
+                         : br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    sizer q = {.d0 = fixed ? fixed : d, .o = o, .z = z};
     br_meter meter;
-    int rc = br_meter_init(&meter, o->progress, 0.0, err);
+    if (rc == BR_OK)
+        rc = br_meter_init(&meter, o->progress, 0.0, err);
     if (rc == BR_OK) {
         q.meter = &meter;
         rc = run(&q, err);
@@ -646,6 +659,7 @@ int br_size_run(const br_design *d, const br_size_opts *o, br_size **out, br_err
     }
     if (rc == BR_OK && o->supply)
         rc = supply_window(&q, err);
+    br_design_free(fixed);
     if (rc != BR_OK) {
         br_size_free(z);
         return rc;

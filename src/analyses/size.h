@@ -99,6 +99,9 @@ typedef struct br_size_opts {
     int links;                   /* size the link resistance (1) */
     int supply;                  /* search the supply voltage window of the result (0) */
     int solver_limit;            /* br_spread_opts.solver_limit */
+    int nominal;                 /* judge every value at the nominal point only: the design's
+                                    tolerances and each catalog part's set aside (br_tol_fix);
+                                    the sized design has none (0) */
     const br_progress *progress; /* values judged (the total grows); NULL: none */
 } br_size_opts;
 

@@ -1107,7 +1107,9 @@ static int finish_create(br_spread *s, const double (*start)[NX], const int *tod
         s->stopped = 1;
         return BR_OK;
     }
-    if (rc == BR_OK && s->predict)
+    /* the chord steps serve the points around the nominal one: a design
+     * without tolerances has none to judge */
+    if (rc == BR_OK && s->predict && s->tl.n > 0)
         rc = chord_prepare(s, err);
     if (rc == BR_OK)
         rc = judge_oat(s, todo, err);
@@ -1212,8 +1214,9 @@ int br_spread_derive(const br_spread *base, const br_design *d, const br_spread_
     else
         borrow(s, base, o && o->similar, todo);
     s->base_nominal = base->nominal;
+    const double(*start)[NX] = o && o->warm && base->nominal.status == BR_OK ? base->xnom : NULL;
     if (rc == BR_OK)
-        rc = finish_create(s, NULL, todo, err);
+        rc = finish_create(s, start, todo, err);
     free(todo);
     if (rc != BR_OK) {
         br_spread_free(s);

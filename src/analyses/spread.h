@@ -127,6 +127,8 @@ typedef struct br_spread_opts {
     int thermal_loop;    /* 1: no predicted junction temperatures: every point's steady state
                             at the ambient, then the full loop of shooting passes (slower;
                             what the prediction is checked against) */
+    int warm;            /* br_spread_derive: the nominal point's steady state starts from the
+                            base's nominal one (0: from the solver's own estimate) */
 } br_spread_opts;
 
 typedef struct br_spread {

@@ -26,28 +26,38 @@ static const char ABOUT[] =
     "derating), then the chain built by the FCML generator with the catalog\n"
     "switch and its driver, its cold start and steady state at the nominal\n"
     "point, and the verdict; with --corners the survivors again at their worst\n"
-    "corners, as 'size' judges a value (slow). A combination is feasible when\n"
-    "every criterion passes, its smallest margin in volts reaches the target and\n"
-    "its start-up time and cost are within --max-startup and --max-cost. A\n"
-    "chain whose rails fall short from some rail up is reported as needing a\n"
-    "second isolated supply there (not simulated: the model has one supply).\n"
-    "The report ranks the feasible set and marks its Pareto front of cost,\n"
-    "supply power and margin; --csv, --svg and --designs DIR (the front's design\n"
-    "files) write the rest. --shard K/N judges every N-th combination only and\n"
-    "writes a shard file (--shard-file, default stdout); 'bootrung merge' puts\n"
-    "the N files together into this verb's output.\n"
+    "corners, as 'size' judges a value (slow). With --parts every link takes the\n"
+    "cheapest diode of PARTS.xml that the rule allows and that is as strong in\n"
+    "current as the template's, and each survivor's rail capacitors are sized\n"
+    "from it as 'size' sizes them: rail by rail from the top, the smallest\n"
+    "capacitor that keeps every margin in volts at the target (judged at the\n"
+    "nominal point, at the worst corners with --corners); the sized design is\n"
+    "screened again and its parts counted in its cost. A combination is\n"
+    "feasible when every criterion passes, its smallest margin in volts reaches\n"
+    "the target and its start-up time and cost are within --max-startup and\n"
+    "--max-cost. A chain whose rails fall short from some rail up is reported\n"
+    "as needing a second isolated supply there (not simulated: the model has\n"
+    "one supply). The report ranks the feasible set and marks its Pareto front\n"
+    "of cost, supply power and margin; --csv, --svg and --designs DIR (the\n"
+    "front's design files) write the rest. --shard K/N judges every N-th\n"
+    "combination only and writes a shard file (--shard-file, default stdout);\n"
+    "'bootrung merge' puts the N files together into this verb's output.\n"
+    "--yield N samples every feasible combination's design N times over its\n"
+    "tolerances as 'yield --startup' does (the same seed for each), and the\n"
+    "report gives each its yield with the exact 95 % interval; every feasible\n"
+    "combination, not only the front, so that a shard yields its own.\n"
     "Exit status 0 when some combination is feasible, 1 when none is, 3 when\n"
     "none is and some could not be decided, 2 for bad input.\n";
 
 typedef struct args {
-    const char *catalog, *vin, *levels, *fsw, *iload, *derating, *margin, *max_startup, *max_cost,
-        *threads, *csv, *svg, *designs, *shard, *shard_file;
+    const char *catalog, *parts, *vin, *levels, *fsw, *iload, *derating, *margin, *max_startup,
+        *max_cost, *threads, *csv, *svg, *designs, *shard, *shard_file, *yield, *seed;
     int quiet, corners, scale_caps;
 } args;
 
 typedef struct outputs {
     br_design *d;
-    br_catalog *cat;
+    br_catalog *cat, *parts;
     br_explore *x;
     br_text *text, *csv, *svg;
     int ndesigns;
@@ -60,6 +70,7 @@ static void outputs_free(outputs *o)
     br_explore_free(o->x);
     br_design_free(o->d);
     br_catalog_free(o->cat);
+    br_catalog_free(o->parts);
     br_text_free(o->text);
     br_text_free(o->csv);
     br_text_free(o->svg);
@@ -134,6 +145,8 @@ static int parse_value(const char *opt, const char *text, br_kind kind, double l
     return BR_EXIT_OK;
 }
 
+static int yield_options(const args *a, br_explore_opts *eo);
+
 static int options(const args *a, br_explore_opts *eo)
 {
     br_explore_opts_default(eo);
@@ -158,6 +171,20 @@ static int options(const args *a, br_explore_opts *eo)
     if (a->threads && br_cli_long("explore", "threads", a->threads, 1, 64, &v))
         return BR_EXIT_INPUT;
     eo->threads = a->threads ? (int)v : 0;
+    return yield_options(a, eo);
+}
+
+/* --yield N and --seed S. */
+static int yield_options(const args *a, br_explore_opts *eo)
+{
+    long v;
+    if (a->yield && br_cli_long("explore", "yield", a->yield, 1, 1000000L, &eo->yield_samples))
+        return BR_EXIT_INPUT;
+    if (a->seed && !a->yield)
+        return br_cli_usage_error("explore", "--seed without --yield");
+    if (a->seed && br_cli_long("explore", "seed", a->seed, 0, 4294967295L, &v))
+        return BR_EXIT_INPUT;
+    eo->seed = a->seed ? (unsigned long)v : 1;
     return BR_EXIT_OK;
 }
 
@@ -233,6 +260,9 @@ static int compute(const char *path, const args *a, br_explore_opts *eo, outputs
     if (rc == BR_OK)
         rc = br_catalog_load(a->catalog, &o->cat, err);
     eo->cat = o->cat;
+    if (rc == BR_OK && a->parts)
+        rc = br_catalog_load(a->parts, &o->parts, err);
+    eo->parts = o->parts;
     if (rc == BR_OK)
         rc = br_explore_run(o->d, eo, &o->x, err);
     if (eo->shard_n > 0) /* a slice: no report */
@@ -269,9 +299,9 @@ static int write_all(const args *a, const char *design, outputs *o)
         paths[i] = files[i].path;
         names[i] = i == 0 ? "csv" : i == 1 ? "svg" : "designs";
     }
-    const char *const in[] = {design, a->catalog};
+    const char *const in[] = {design, a->catalog, a->parts};
     if (status == BR_EXIT_OK)
-        status = br_cli_outputs("explore", names, paths, n, in, 2);
+        status = br_cli_outputs("explore", names, paths, n, in, a->parts ? 3 : 2);
     static const char *const verdict[] = {"verdict:", NULL};
     if (status == BR_EXIT_OK)
         status = br_cli_write(files, n, o->text, a->quiet, verdict, 0);
@@ -292,8 +322,8 @@ static int write_shard(int argc, char **argv, const char *path, const args *a,
     }
     for (int i = 0; i < x->n; i++)
         mine[i] = (unsigned char)br_explore_shard_has(eo, i);
-    br_shard_head h = {argc, argv,      path, eo->shard_k, eo->shard_n, sizeof *x->rows,
-                       x->n, a->catalog};
+    br_shard_head h = {argc, argv,       path,    eo->shard_k, eo->shard_n, sizeof *x->rows,
+                       x->n, a->catalog, a->parts};
     int status = br_cli_shard_write(&h, x->rows, mine, a->shard_file ? a->shard_file : "-");
     free(mine);
     return status;
@@ -322,6 +352,8 @@ int br_cli_explore_main(int argc, char **argv, const br_cli_given *given)
     const br_opt opts[] = {
         {BR_OPT_STRING, "catalog", "PARTS.xml", &a.catalog,
          "switches by voltage class (rating), their drivers, link diodes (required)"},
+        {BR_OPT_STRING, "parts", "PARTS.xml", &a.parts,
+         "link diodes, and each survivor's rail capacitors sized, from here"},
         {BR_OPT_STRING, "vin", "V[/VMAX]", &a.vin,
          "bus voltage, and the highest the parts are rated for (required)"},
         {BR_OPT_STRING, "levels", "LO:HI", &a.levels, "level counts of the leg (required)"},
@@ -341,8 +373,11 @@ int br_cli_explore_main(int argc, char **argv, const br_cli_given *given)
         {BR_OPT_STRING, "svg", "PATH", &a.svg, "plots of margin and cost against levels to PATH"},
         {BR_OPT_STRING, "designs", "DIR", &a.designs,
          "the design file of each front member into DIR (explore-RANK.xml)"},
+        {BR_OPT_STRING, "yield", "N", &a.yield,
+         "Monte Carlo yield of every feasible combination, N samples each"},
+        {BR_OPT_STRING, "seed", "S", &a.seed, "seed of --yield's random numbers (default 1)"},
         {BR_OPT_STRING, "threads", "N", &a.threads,
-         "worker threads of --corners (default: one per processor)"},
+         "worker threads, across combinations and within each (default: all)"},
         {BR_OPT_STRING, "shard", "K/N", &a.shard,
          "judge every N-th combination from the K-th only, write a shard file"},
         {BR_OPT_STRING, "shard-file", "PATH", &a.shard_file,
@@ -364,8 +399,8 @@ int br_cli_explore_main(int argc, char **argv, const br_cli_given *given)
         return br_cli_usage_error("explore", "--shard-file without --shard");
     const char *const out[] = {a.csv, a.svg, a.shard_file};
     const char *const names[] = {"csv", "svg", "shard-file"};
-    const char *const in[] = {pos[0], a.catalog};
-    if (br_cli_outputs("explore", names, out, 3, in, 2) != BR_EXIT_OK)
+    const char *const in[] = {pos[0], a.catalog, a.parts};
+    if (br_cli_outputs("explore", names, out, 3, in, a.parts ? 3 : 2) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
     outputs o = {0};
     br_error err;

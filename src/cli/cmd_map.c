@@ -157,7 +157,8 @@ static int write_shard(int argc, char **argv, const char *path, const br_map_opt
         }
         rec[n] = m->design;
         mine[n] = 1;
-        br_shard_head h = {argc, argv, path, mo->shard_k, mo->shard_n, sizeof *rec, n + 1, NULL};
+        br_shard_head h = {argc,        argv,  path, mo->shard_k, mo->shard_n,
+                           sizeof *rec, n + 1, NULL, NULL};
         status = br_cli_shard_write(&h, rec, mine, p->shard_file ? p->shard_file : "-");
     }
     free(rec);

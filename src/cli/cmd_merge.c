@@ -244,8 +244,8 @@ static int same_file(const merged *m, const char *path, const char *key)
     unsigned long long hash;
     long size;
     char hex[2 * 4096 + 3], file[4097];
-    if (!p && strcmp(key, "input") == 0)
-        return BR_EXIT_OK; /* a verb with one input */
+    if (!p && strcmp(key, "design") != 0)
+        return BR_EXIT_OK; /* a verb with fewer inputs */
     if (!p || sscanf(p + strlen(look), "%llx %ld %8194s", &hash, &size, hex) != 3 ||
         strlen(hex) > 2 * 4096 || unhex(hex, (unsigned char *)file, strlen(hex) / 2) != 0)
         return fail(path, 0, "%s: no %s line", key, key);
@@ -265,7 +265,8 @@ static int same_file(const merged *m, const char *path, const char *key)
 static int same_design(const merged *m, const char *path)
 {
     int status = same_file(m, path, "design");
-    return status == BR_EXIT_OK ? same_file(m, path, "input") : status;
+    status = status == BR_EXIT_OK ? same_file(m, path, "input") : status;
+    return status == BR_EXIT_OK ? same_file(m, path, "input2") : status;
 }
 
 static int dispatch(const merged *m, const char *path)

@@ -150,7 +150,7 @@ static int write_shard(int argc, char **argv, const char *path, const args *a,
     }
     for (long i = 0; i < y->n; i++)
         mine[i] = (unsigned char)br_yield_shard_has(yo, i);
-    br_shard_head h = {argc, argv, path, yo->shard_k, yo->shard_n, sizeof(br_pt), y->n, NULL};
+    br_shard_head h = {argc, argv, path, yo->shard_k, yo->shard_n, sizeof(br_pt), y->n, NULL, NULL};
     int status = br_cli_shard_write(&h, y->pts, mine, a->shard_file ? a->shard_file : "-");
     free(mine);
     return status;

@@ -14,6 +14,7 @@
  *   verb map
  *   design HASH BYTES HEXPATH  FNV-1a 64 of the design file, its size, its path
  *   input HASH BYTES HEXPATH   the same of another input (explore's catalog), when there is one
+ *   input2 HASH BYTES HEXPATH  the same of a third (explore's parts catalog), when there is one
  *   arg HEX                    each argument of the verb, hex-coded
  *   shard K N
  *   points TOTAL
@@ -116,6 +117,20 @@ static int shard_arg(char **argv, int i)
 }
 
 /* The header: program, verb, design, the arguments but the shard's own. */
+/* The line of another input file: its hash, size and path. */
+static int input_line(br_text *t, const char *key, const char *path, br_error *err)
+{
+    uint64_t hash;
+    long size;
+    int rc = br_cli_shard_hash(path, &hash, &size, err);
+    if (rc != BR_OK)
+        return rc;
+    rc |= br_text_printf(t, "%s %016llx %ld ", key, (unsigned long long)hash, size);
+    rc |= br_cli_shard_hex(t, path, strlen(path));
+    rc |= br_text_put(t, "\n");
+    return rc == BR_OK ? BR_OK : br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+}
+
 static int put_head(br_text *t, const br_shard_head *h, br_error *err)
 {
     uint64_t hash;
@@ -128,14 +143,11 @@ static int put_head(br_text *t, const br_shard_head *h, br_error *err)
                          size);
     rc |= br_cli_shard_hex(t, h->design, strlen(h->design));
     rc |= br_text_put(t, "\n");
-    if (rc == BR_OK && h->other) {
-        rc = br_cli_shard_hash(h->other, &hash, &size, err);
-        if (rc != BR_OK)
-            return rc;
-        rc |= br_text_printf(t, "input %016llx %ld ", (unsigned long long)hash, size);
-        rc |= br_cli_shard_hex(t, h->other, strlen(h->other));
-        rc |= br_text_put(t, "\n");
-    }
+    int in = rc == BR_OK && h->other ? input_line(t, "input", h->other, err) : BR_OK;
+    if (in == BR_OK && h->other2)
+        in = input_line(t, "input2", h->other2, err);
+    if (in != BR_OK)
+        return in;
     for (int i = 1, opts = 1; i < h->argc; i++) {
         if (opts && strcmp(h->argv[i], "--") == 0)
             opts = 0;

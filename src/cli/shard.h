@@ -19,6 +19,7 @@ typedef struct br_shard_head {
     long total;         /* records of the whole run */
     const char *other;  /* another input file whose identity is checked like the
                            design's (a catalog), or NULL */
+    const char *other2; /* a third one (explore's parts catalog), or NULL */
 } br_shard_head;
 
 /* --shard K/N; on a bad value a usage error and BR_EXIT_INPUT. */

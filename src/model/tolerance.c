@@ -332,6 +332,20 @@ void br_tol_set(br_design *d, const br_tol_param *p, double v)
     ((br_qty *)((char *)d + p->offset))->nom = v;
 }
 
+int br_tol_fix(br_design *d, br_error *err)
+{
+    br_tol_list *l = malloc(sizeof *l);
+    if (!l)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    int rc = br_tol_list_build(d, l, err);
+    for (int j = 0; rc == BR_OK && j < l->n; j++) {
+        br_qty *q = (br_qty *)((char *)d + l->p[j].offset);
+        q->min = q->max = q->nom;
+    }
+    free(l);
+    return rc;
+}
+
 void br_tol_apply(br_design *d, const br_tol_list *l, const double *v)
 {
     for (int j = 0; j < l->n; j++)

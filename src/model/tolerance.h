@@ -57,6 +57,11 @@ void br_tol_apply(br_design *d, const br_tol_list *l, const double *v);
 /* The value of parameter p at level: -1 its minimum, 0 nominal, +1 maximum. */
 double br_tol_level(const br_tol_param *p, int level);
 
+/* Every toleranced value of d that its chain uses set to its nominal
+ * (its limits at the nominal), so that d is judged at one point.
+ * BR_ENOMEM; BR_EINPUT as br_tol_list_build. */
+int br_tol_fix(br_design *d, br_error *err);
+
 /* Index of the parameter at byte offset `offset` in l, or -1. */
 int br_tol_find(const br_tol_list *l, size_t offset);
 

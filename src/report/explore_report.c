@@ -65,7 +65,12 @@ static const char *why(const br_explore *x, const br_explore_row *r, char *buf, 
     const char *crit = r->crit >= 0 ? br_crit_title(r->crit) : "a criterion";
     switch (r->state) {
     case BR_EX_RATING:
-        if (r->sw_ok)
+        if (r->sw_ok && x->parts)
+            snprintf(buf, cap,
+                     "a link with no diode of the parts catalog rated %s and as strong in "
+                     "current as the template's (Vin/(N-1) at %.0f %% derating)",
+                     br_fmt_si(a, sizeof a, r->need, 3, "V"), 100.0 * x->derating);
+        else if (r->sw_ok)
             snprintf(buf, cap,
                      "no catalog diode rated %s and as strong in current as the "
                      "template's it replaces (Vin/(N-1) at %.0f %% derating)",
@@ -103,6 +108,12 @@ static const char *why(const br_explore *x, const br_explore_row *r, char *buf, 
     case BR_EX_REFUSED:
         snprintf(buf, cap, "the model refuses it: %s", r->note);
         break;
+    case BR_EX_UNSIZED:
+        snprintf(buf, cap,
+                 "passes with the template's capacitors, but no catalog capacitor keeps rail %d "
+                 "at the target (%s)",
+                 r->stage, crit);
+        break;
     default:
         snprintf(buf, cap, "feasible");
     }
@@ -118,12 +129,34 @@ static int head(const br_explore *x, const char *design, br_text *out)
                          "Vin/(N-1) / %.0f %%\n",
                          br_fmt_si(a, sizeof a, x->vbus, 4, "V"),
                          br_fmt_si(b, sizeof b, x->vbus_max, 4, "V"), 100.0 * x->derating);
-    rc |= br_text_printf(out, "margin target %s; %d combinations, %d feasible, %d on the front\n\n",
+    rc |= br_text_printf(out, "margin target %s; %d combinations, %d feasible, %d on the front\n",
                          br_fmt_si(t, sizeof t, x->target, 3, "V"), x->n, x->nfeasible, x->nfront);
-    return rc;
+    if (x->parts) {
+        char what[1024];
+        snprintf(what, sizeof what,
+                 "each survivor's rail capacitors sized from %s to the margin target %s, rail by "
+                 "rail from the top: the smallest capacitor rated for the supply that keeps every "
+                 "margin in volts at the target, judged %s; every link's diode from it by the "
+                 "rule (cheapest rated and as strong as the template's)",
+                 x->parts->path, t, x->corners ? "at the worst corners" : "at the nominal point");
+        rc |= br_report_wrap(out, "sizing: ", what, 2);
+    }
+    return rc | br_text_put(out, "\n");
 }
 
-static void feasible_row(br_table *t, const br_explore_row *r, const br_catalog *cat)
+/* The diode column: the switch catalog's, or the template's; "(sized)"
+ * when the links take the parts catalog's (listed below for the front,
+ * in the CSV for every row: their names would widen the table past the
+ * page). */
+static const char *diode_name(const br_explore *x, const br_explore_row *r, const br_catalog *cat)
+{
+    if (x->parts)
+        return "(sized)";
+    return r->diode >= 0 ? cat->diodes[r->diode].id : "(template)";
+}
+
+static void feasible_row(br_table *t, const br_explore *x, const br_explore_row *r,
+                         const br_catalog *cat)
 {
     br_table_row(t);
     br_table_set(t, 0, "%d", r->rank);
@@ -131,7 +164,7 @@ static void feasible_row(br_table *t, const br_explore_row *r, const br_catalog 
     br_table_set(t, 2, "%d", r->levels);
     br_table_set(t, 3, "%s", cat->switches[r->sw].id);
     br_table_set(t, 4, "%.0f", cat->switch_rating[r->sw]);
-    br_table_set(t, 5, "%s", r->diode >= 0 ? cat->diodes[r->diode].id : "(template)");
+    br_table_set(t, 5, "%s", diode_name(x, r, cat));
     br_table_set(t, 6, "%.1f", r->fsw / 1e3);
     br_table_set(t, 7, "%.2f", r->cost);
     br_table_set(t, 8, "%.1f", r->loss * 1e3);
@@ -154,7 +187,7 @@ static int feasible(const br_explore *x, const br_catalog *cat, br_text *out)
     for (int k = 1; k <= x->nfeasible; k++)
         for (int i = 0; i < x->n; i++)
             if (x->rows[i].rank == k)
-                feasible_row(t, &x->rows[i], cat);
+                feasible_row(t, x, &x->rows[i], cat);
     int rc = br_report_wrap(out, "feasible, ",
                             x->corners ? "ranked (front first, then margin, cost, loss; * on the "
                                          "Pareto front of cost, loss and margin; margins at the "
@@ -167,6 +200,98 @@ static int feasible(const br_explore *x, const br_catalog *cat, br_text *out)
     rc |= br_text_put(out, "\n");
     br_table_free(t);
     return rc;
+}
+
+/* The runs of equal parts along stages 1..n-1 of idx (indexes of the
+ * parts catalog's capacitors, or diodes): "1-2 a; 3-11 b". */
+static void runs(const br_catalog *p, int caps, const signed char *idx, int n, char *buf,
+                 size_t cap)
+{
+    size_t at = 0;
+    buf[0] = '\0';
+    for (int k = 1; k < n && at < cap;) {
+        int e = k;
+        while (e + 1 < n && idx[e + 1] == idx[k])
+            e++;
+        const char *id = idx[k] < 0 ? "(template)"
+                         : caps     ? p->caps[idx[k]].id
+                                    : p->diodes[idx[k]].id;
+        int w = e > k ? snprintf(buf + at, cap - at, "%s%d-%d %s", at ? "; " : "", k, e, id)
+                      : snprintf(buf + at, cap - at, "%s%d %s", at ? "; " : "", k, id);
+        at += w > 0 ? (size_t)w : 0;
+        k = e + 1;
+    }
+}
+
+/* The sized parts of each front member, in rank order. */
+static int sized_parts(const br_explore *x, br_text *out)
+{
+    if (!x->parts || x->nfront == 0)
+        return BR_OK;
+    int rc = br_text_put(out, "sized parts of the front (rails and links counted from the "
+                              "supply, rail 0):\n");
+    char lead[32], caps[1200], diodes[1200], line[2600];
+    for (int k = 1; k <= x->nfront; k++)
+        for (int i = 0; i < x->n; i++) {
+            const br_explore_row *r = &x->rows[i];
+            if (r->rank != k || !r->front)
+                continue;
+            int n = 2 * (r->levels - 1);
+            runs(x->parts, 1, r->cap, n, caps, sizeof caps);
+            runs(x->parts, 0, r->ldiode, n, diodes, sizeof diodes);
+            snprintf(lead, sizeof lead, "  rank %d: ", k);
+            snprintf(line, sizeof line, "rail capacitors %s; link diodes %s (%d values judged)",
+                     caps, diodes, r->size_trials);
+            rc |= br_report_wrap(out, lead, line, 4);
+        }
+    return rc | br_text_put(out, "\n");
+}
+
+static void yield_row(br_table *t, const br_explore_row *r, const br_catalog *cat)
+{
+    br_table_row(t);
+    br_table_set(t, 0, "%d", r->rank);
+    br_table_set(t, 1, "%d", r->levels);
+    br_table_set(t, 2, "%s", cat->switches[r->sw].id);
+    br_table_set(t, 3, "%.1f", r->fsw / 1e3);
+    br_table_set(t, 4, "%ld", r->ypass);
+    br_table_set(t, 5, "%ld", r->yfail);
+    br_table_set(t, 6, "%ld", r->yundet);
+    if (isnan(r->yield))
+        br_table_set(t, 7, "-");
+    else
+        br_table_set(t, 7, "%.1f", 100.0 * r->yield);
+    br_table_set(t, 8, "%.1f to %.1f", 100.0 * r->ylo, 100.0 * r->yhi);
+}
+
+/* The yield of every feasible combination, in rank order. */
+static int yields(const br_explore *x, const br_catalog *cat, br_text *out)
+{
+    if (x->yield_samples <= 0 || x->nfeasible == 0)
+        return BR_OK;
+    char what[400];
+    snprintf(what, sizeof what,
+             "%ld samples of each feasible combination's design over its tolerances (seed %lu), "
+             "every criterion judged in each, the cold start included; the yield is the share of "
+             "the decided samples that pass, its exact 95 %% interval (Clopper-Pearson) counts "
+             "the undetermined samples as failures for the lower bound and as passes for the "
+             "upper:",
+             x->yield_samples, x->seed);
+    int rc = br_report_wrap(out, "yield: ", what, 2);
+    static const char *const heads[] = {"rank", "levels", "switch",  "fsw kHz",        "pass",
+                                        "fail", "undet.", "yield %", "95 % interval %"};
+    br_table *t = br_table_create(9, x->nfeasible);
+    if (!t)
+        return BR_ENOMEM;
+    for (int c = 0; c < 9; c++)
+        br_table_head(t, c, heads[c], c == 2 ? BR_LEFT : BR_RIGHT);
+    for (int k = 1; k <= x->nfeasible; k++)
+        for (int i = 0; i < x->n; i++)
+            if (x->rows[i].rank == k)
+                yield_row(t, &x->rows[i], cat);
+    rc |= br_table_render(t, 2, out);
+    br_table_free(t);
+    return rc | br_text_put(out, "\n");
 }
 
 /* One line per combination that is not feasible, wrapped. */
@@ -192,6 +317,8 @@ int br_explore_text(const br_explore *x, const br_catalog *cat, const char *desi
 {
     int rc = head(x, design, out);
     rc |= feasible(x, cat, out);
+    rc |= sized_parts(x, out);
+    rc |= yields(x, cat, out);
     rc |= rejected(x, cat, out);
     int o = br_explore_outcome(x);
     rc |= br_text_printf(out, "verdict: %s (%d of %d combinations feasible, %s)\n\n",
@@ -222,11 +349,39 @@ static const char *num(char *buf, size_t cap, double v)
     return buf;
 }
 
+/* The sized parts of a row as two CSV fields (empty where not sized). */
+static int sized_csv(const br_explore *x, const br_explore_row *r, br_text *out)
+{
+    char caps[1200] = "", diodes[1200] = "";
+    int n = 2 * (r->levels - 1);
+    if (r->sized)
+        runs(x->parts, 1, r->cap, n, caps, sizeof caps);
+    if (r->state != BR_EX_RATING)
+        runs(x->parts, 0, r->ldiode, n, diodes, sizeof diodes);
+    return br_text_printf(out, ",%s,%s", caps, diodes);
+}
+
+/* The yield of a row as CSV fields (empty where it has none). */
+static int yield_csv(const br_explore_row *r, br_text *out)
+{
+    char a[32], b[32], c[32];
+    if (r->ysamples == 0)
+        return br_text_put(out, ",,,,,,,");
+    return br_text_printf(out, ",%ld,%ld,%ld,%ld,%s,%s,%s", r->ysamples, r->ypass, r->yfail,
+                          r->yundet, num(a, sizeof a, r->yield), num(b, sizeof b, r->ylo),
+                          num(c, sizeof c, r->yhi));
+}
+
 int br_explore_csv(const br_explore *x, const br_catalog *cat, br_text *out)
 {
-    int rc = br_text_put(out, "levels,switch,class_V,need_V,diode,fsw_Hz,state,cost,loss_W,"
-                              "margin_V,startup_s,binds,split_at,corners,front,rank,inject_rail,"
-                              "split_state,split_margin_V,split_startup_s,split_binds\n");
+    int rc = br_text_printf(out,
+                            "levels,switch,class_V,need_V,diode,fsw_Hz,state,cost,loss_W,"
+                            "margin_V,startup_s,binds,split_at,corners,front,rank,inject_rail,"
+                            "split_state,split_margin_V,split_startup_s,split_binds%s%s\n",
+                            x->parts ? ",rail_capacitors,link_diodes" : "",
+                            x->yield_samples > 0 ? ",samples,pass,fail,undetermined,yield,"
+                                                   "yield_lo,yield_hi"
+                                                 : "");
     char a[32], b[32], c[32];
     for (int i = 0; i < x->n; i++) {
         const br_explore_row *r = &x->rows[i];
@@ -239,11 +394,14 @@ int br_explore_csv(const br_explore *x, const br_catalog *cat, br_text *out)
                              r->crit >= 0 ? br_crit_name(r->crit) : "", r->split_at, r->corners,
                              r->front, r->rank);
         int sp = r->inject_rail > 0;
-        rc |= br_text_printf(out, "%d,%s,%s,%s,%s\n", r->inject_rail,
+        rc |= br_text_printf(out, "%d,%s,%s,%s,%s", r->inject_rail,
                              sp ? br_explore_state_name(r->split_state) : "",
                              num(a, sizeof a, sp ? r->split_margin : NAN),
                              num(b, sizeof b, sp ? r->split_tstart : NAN),
                              sp && r->split_crit >= 0 ? br_crit_name(r->split_crit) : "");
+        rc |= x->parts ? sized_csv(x, r, out) : BR_OK;
+        rc |= x->yield_samples > 0 ? yield_csv(r, out) : BR_OK;
+        rc |= br_text_put(out, "\n");
     }
     return rc ? BR_ENOMEM : BR_OK;
 }
@@ -386,6 +544,21 @@ int br_explore_comment(const br_explore *x, const br_catalog *cat, const br_expl
                          r->rank, r->cost, br_fmt_si(a, sizeof a, r->loss, 3, "W"),
                          br_fmt_si(b, sizeof b, r->margin, 3, "V"),
                          r->corners ? "at the worst corners" : "at the nominal point");
+    if (x->parts && r->sized)
+        rc |= br_text_printf(out,
+                             "Rail capacitors sized from %s to the margin target %s (judged %s);\n"
+                             "link diodes from it by the rule.\n",
+                             x->parts->path, br_fmt_si(a, sizeof a, x->target, 3, "V"),
+                             x->corners ? "at the worst corners" : "at the nominal point");
+    if (r->ysamples > 0 && isnan(r->yield))
+        rc |= br_text_printf(out, "Yield: none of %ld samples decided (seed %lu).\n", r->ysamples,
+                             x->seed);
+    else if (r->ysamples > 0)
+        rc |=
+            br_text_printf(out,
+                           "Yield %.1f %% of %ld samples over its tolerances (seed %lu; 95 %% "
+                           "interval %.1f %% to %.1f %%).\n",
+                           100.0 * r->yield, r->ysamples, x->seed, 100.0 * r->ylo, 100.0 * r->yhi);
     return rc ? BR_ENOMEM : BR_OK;
 }
 

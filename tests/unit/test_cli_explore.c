@@ -1,11 +1,14 @@
 /* test_cli_explore.c - exploring around a template: a small exploration
  * end to end (report, CSV, plots, the front's design files), the
  * combinations the rule of the trade must reject, the front's design
- * files loading and passing `analyze`, and bad input. */
+ * files loading and passing `analyze`, sizing from a parts catalog (the
+ * sized capacitor is the smallest that passes), and bad input. */
+#include "analyses/evaluate.h"
 #include "analyses/explore.h"
 #include "runbin.h"
 #include "testkit.h"
 
+#include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -391,6 +394,177 @@ static void test_help_golden(void)
     done(&a);
 }
 
+/* Whether design d qualifies at its nominal point as the sizing judges a
+ * value, judged here on its own (the cold start, every direction's
+ * steady state, the verdict): every criterion that applies passes and is
+ * decided, and every margin in volts reaches target. */
+static int qualifies(const br_design *d, double target)
+{
+    br_chain *c = NULL;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    br_evaluation *e = malloc(sizeof *e);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(e);
+    int ok = br_evaluate(c, 1, NULL, e, &err) == BR_OK;
+    for (int k = 0; ok && k < BR_CRIT_COUNT; k++) {
+        const br_verdict_row *v = &e->v.row[k];
+        if (!v->applies)
+            continue;
+        ok = !v->undetermined && v->pass;
+        if (ok && br_crit_has_margin(k) && strcmp(br_crit_unit(k), "V") == 0)
+            ok = v->margin >= target;
+    }
+    free(e);
+    br_chain_free(c);
+    return ok;
+}
+
+/* The parts catalog's capacitor just below part p in the order the
+ * sizing walks (capacitance, then cost; rated for vmax), or -1. */
+static int next_smaller(const br_catalog *cat, int p, double vmax)
+{
+    int best = -1;
+    for (int i = 0; i < cat->ncaps; i++) {
+        if (i == p || !(cat->caps[i].vrated.nom >= vmax))
+            continue;
+        double ci = cat->caps[i].c.nom, cp = cat->caps[p].c.nom;
+        int below = ci < cp || (ci == cp && cat->cap_offer[i].cost < cat->cap_offer[p].cost);
+        if (below &&
+            (best < 0 || ci > cat->caps[best].c.nom ||
+             (ci == cat->caps[best].c.nom && cat->cap_offer[i].cost > cat->cap_offer[best].cost)))
+            best = i;
+    }
+    return best;
+}
+
+/* Sizing through explore (4 levels on a 300 V bus, 60 kHz, the example
+ * catalogs): every survivor's rails carry catalog capacitors, and on
+ * each rail whose capacitor is not the smallest the catalog offers, the
+ * design with the next smaller one fails the target while the sized one
+ * passes (the issue's "the sized capacitor is the smallest that
+ * passes"), both judged here independently of the sizing. */
+static void test_sized_smallest(void)
+{
+    br_design *t = NULL;
+    br_catalog *cat = NULL, *parts = NULL;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_design_load(LEG, &t, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_catalog_load(SWITCHES, &cat, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_catalog_load(PICKCAT, &parts, &err), BR_OK);
+    br_explore_opts o;
+    br_explore_opts_default(&o);
+    o.cat = cat;
+    o.parts = parts;
+    o.vbus = o.vbus_max = 300.0;
+    o.lmin = o.lmax = 4;
+    o.nfsw = 1;
+    o.fsw[0] = 60e3;
+    br_explore *x = NULL;
+    CU_ASSERT_EQUAL_FATAL(br_explore_run(t, &o, &x, &err), BR_OK);
+    CU_ASSERT_TRUE_FATAL(x->nfeasible >= 1);
+    int checked = 0;
+    for (int i = 0; i < x->n; i++) {
+        br_explore_row r = x->rows[i];
+        if (r.state != BR_EX_FEASIBLE)
+            continue;
+        CU_ASSERT_TRUE(r.sized);
+        br_design *d = NULL;
+        CU_ASSERT_EQUAL_FATAL(br_explore_design(t, &o, &r, &d, &err), BR_OK);
+        CU_ASSERT_TRUE(qualifies(d, x->target));
+        for (int k = 1; k < 2 * (r.levels - 1); k++) {
+            CU_ASSERT_TRUE_FATAL(r.cap[k] >= 0);
+            CU_ASSERT_EQUAL(d->caps[br_design_stage(d, k)->cap].c.nom, parts->caps[r.cap[k]].c.nom);
+            int below = next_smaller(parts, r.cap[k], d->vsupply.max);
+            if (below < 0)
+                continue;
+            br_explore_row s = r;
+            s.cap[k] = (signed char)below;
+            br_design *ds = NULL;
+            CU_ASSERT_EQUAL_FATAL(br_explore_design(t, &o, &s, &ds, &err), BR_OK);
+            CU_ASSERT_FALSE(qualifies(ds, x->target));
+            br_design_free(ds);
+            checked++;
+        }
+        br_design_free(d);
+    }
+    CU_ASSERT_TRUE(checked >= 1); /* some rail's answer was not the catalog's smallest */
+    br_explore_free(x);
+    br_catalog_free(parts);
+    br_catalog_free(cat);
+    br_design_free(t);
+}
+
+/* --yield: the yield of the rank-1 design is the `yield` verb's on its
+ * design file (--startup, the same samples and seed): the same counts of
+ * samples that pass, fail and are undetermined.  When every sample
+ * passes, the lower bound is Clopper-Pearson's for n of n, by hand
+ * 0.025^(1/n) (C. J. Clopper and E. S. Pearson, Biometrika 26(4), 1934:
+ * the lower bound for x = n solves p^n = alpha/2). */
+static void test_yield(void)
+{
+    files f;
+    files_make(&f);
+    run_result r = run((const char *[]){
+        "explore", LEG,        "--catalog", SWITCHES, "--parts",   PICKCAT,   "--vin",
+        "300V",    "--levels", "3:3",       "--fsw",  "60k",       "--yield", "6",
+        "--seed",  "3",        "--csv",     f.csv,    "--designs", f.dir,     NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    CU_ASSERT_TRUE(has(r.out, "yield: 6 samples of each feasible combination"));
+    done(&r);
+    char *csv = br_test_slurp(f.csv, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(csv);
+    CU_ASSERT_TRUE(has(csv, ",samples,pass,fail,undetermined,yield,yield_lo,yield_hi\n"));
+    const char *line = NULL; /* the rank-1 row: field 15 */
+    for (const char *p = strchr(csv, '\n'); p && p[1] && !line; p = strchr(p + 1, '\n'))
+        if ((int)field(p + 1, 15) == 1)
+            line = p + 1;
+    CU_ASSERT_PTR_NOT_NULL_FATAL(line);
+    long pass = (long)field(line, 24), fail = (long)field(line, 25), und = (long)field(line, 26);
+    CU_ASSERT_EQUAL((long)field(line, 23), 6);
+    CU_ASSERT_EQUAL(pass + fail + und, 6);
+    if (pass == 6)
+        BR_ASSERT_NEAR(field(line, 28), pow(0.025, 1.0 / 6.0), 1e-9);
+    char design[96], want[128];
+    snprintf(design, sizeof design, "%s/explore-1.xml", f.dir);
+    r = run((const char *[]){"yield", "--startup", "--samples", "6", "--seed", "3", design, NULL});
+    CU_ASSERT_TRUE(r.status == 0 || r.status == 1 || r.status == 3);
+    snprintf(want, sizeof want, "yield: %ld of 6 samples pass, %ld fail, %ld undetermined", pass,
+             fail, und);
+    CU_ASSERT_TRUE(has(r.out, want));
+    done(&r);
+    free(csv);
+    files_drop(&f);
+}
+
+/* The combinations are judged on worker threads, each on its own: one
+ * thread and three give the same CSV byte for byte. */
+static void test_threads(void)
+{
+    files f;
+    files_make(&f);
+    char one[96];
+    snprintf(one, sizeof one, "%s/one.csv", f.dir);
+    const char *threads[] = {"1", "3"};
+    const char *out[] = {one, f.csv};
+    for (int i = 0; i < 2; i++) {
+        run_result r = run((const char *[]){"explore", LEG, "--catalog", SWITCHES, "--vin", "1.1k",
+                                            "--levels", "6:8", "--fsw", "60k,90k", "--threads",
+                                            threads[i], "--csv", out[i], "--quiet", NULL});
+        CU_ASSERT_EQUAL(r.status, 0);
+        done(&r);
+    }
+    size_t na, nb;
+    char *a = br_test_slurp(one, &na), *b = br_test_slurp(f.csv, &nb);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(a);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(b);
+    CU_ASSERT_EQUAL(na, nb);
+    CU_ASSERT_STRING_EQUAL(a, b);
+    CU_ASSERT_TRUE(count_lines(a) == 19); /* 3 levels, 3 switches, 2 frequencies and the head */
+    free(a);
+    free(b);
+    files_drop(&f);
+}
+
 int main(void)
 {
     static const br_test_case cases[] = {
@@ -402,6 +576,9 @@ int main(void)
         {"the front's files never overwrite the template", test_designs_not_over_input},
         {"the capacitor scaling rule by hand", test_scale_caps},
         {"a chain too long for one supply, judged split", test_split},
+        {"sizing: the sized capacitor is the smallest that passes", test_sized_smallest},
+        {"--yield: the yield verb's counts on the rank-1 design", test_yield},
+        {"one thread or three: the same rows", test_threads},
         {"help (golden)", test_help_golden},
         {NULL, NULL},
     };

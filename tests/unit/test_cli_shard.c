@@ -12,6 +12,7 @@
 #define DESIGN BR_SOURCE_DIR "/examples/demo-3level.xml"
 #define LEG BR_SOURCE_DIR "/examples/leg-7level.xml"
 #define SWITCHES BR_SOURCE_DIR "/examples/parts/switches.xml"
+#define PARTS BR_SOURCE_DIR "/examples/parts/catalog.xml"
 
 static char dir[] = "/tmp/br-shard-XXXXXX";
 
@@ -146,6 +147,14 @@ static void test_explore(void)
                           "--csv",   csv,        "--svg",     svg,      NULL};
     const char *files[] = {csv, svg, NULL};
     check_identical(args, 3, files);
+    /* sized from the parts catalog, with a yield per feasible combination:
+     * each shard sizes and samples its own combinations */
+    const char *sized[] = {"explore",   LEG,    "--catalog", SWITCHES, "--parts", PARTS,
+                           "--vin",     "300V", "--levels",  "3:3",    "--fsw",   "60k",
+                           "--yield",   "3",    "--seed",    "5",      "--csv",   csv,
+                           "--threads", "2",    NULL};
+    const char *one[] = {csv, NULL};
+    check_identical(sized, 2, one);
     /* the catalog is an input too: changed after the shards ran, refused */
     in_dir(cat, sizeof cat, "switches.xml");
     size_t n;
@@ -165,6 +174,26 @@ static void test_explore(void)
     done(&r);
     write_text(cat, text, n);
     FILE *f = fopen(cat, "a");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(f);
+    fputs("<!-- changed -->\n", f);
+    fclose(f);
+    expect_refused((const char *[]){"merge", s1, s2, NULL}, "changed since the shards ran");
+    free(text);
+    /* and so is the parts catalog */
+    char parts[128];
+    in_dir(parts, sizeof parts, "parts.xml");
+    text = br_test_slurp(PARTS, &n);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(text);
+    write_text(parts, text, n);
+    const char *pargs[] = {"explore", LEG,        "--catalog", SWITCHES, "--parts", parts, "--vin",
+                           "300V",    "--levels", "3:3",       "--fsw",  "60k",     NULL};
+    r = run_shard(pargs, 1, 2, s1);
+    CU_ASSERT_EQUAL(r.status, 0);
+    done(&r);
+    r = run_shard(pargs, 2, 2, s2);
+    CU_ASSERT_EQUAL(r.status, 0);
+    done(&r);
+    f = fopen(parts, "a");
     CU_ASSERT_PTR_NOT_NULL_FATAL(f);
     fputs("<!-- changed -->\n", f);
     fclose(f);
