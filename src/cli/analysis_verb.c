@@ -102,7 +102,7 @@ static int run(const char *path, const char *verb, int parts, const br_steady_op
     br_error_clear(&err);
     br_cli_run lr;
     br_cli_run_begin(&lr, verb, quiet);
-    o->res->progress = &lr.hook;
+    o->res->progress = BR_CLI_HOOK(&lr);
     int rc = compute(path, verb, parts, so, su_method, o, &err);
     int stop = br_cli_run_commit(&lr);
     int status = stop ? stop : rc != BR_OK ? br_cli_fail(&err, path) : write_all(o, p, quiet);

@@ -147,7 +147,7 @@ int cmd_corners(int argc, char **argv)
     br_error_clear(&err);
     br_cli_run lr;
     br_cli_run_begin(&lr, "corners", a.quiet);
-    co.progress = &lr.hook;
+    co.progress = BR_CLI_HOOK(&lr);
     int rc = compute(pos[0], &co, &a, &o, &err);
     int status = br_cli_run_commit(&lr);
     if (status == BR_EXIT_OK)

@@ -179,7 +179,7 @@ static int run(int argc, char **argv, const char *path, br_map_opts *mo, const p
     } else {
         br_cli_run lr;
         br_cli_run_begin(&lr, "map", quiet);
-        mo->progress = &lr.hook;
+        mo->progress = BR_CLI_HOOK(&lr);
         int rc = compute(path, mo, p, &o, &err);
         int stop = br_cli_run_commit(&lr);
         status = stop              ? stop

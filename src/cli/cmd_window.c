@@ -121,7 +121,7 @@ static int run(const char *path, const paths *p, br_window_opts *wo, int su_meth
     } else {
         br_cli_run lr;
         br_cli_run_begin(&lr, "window", quiet);
-        wo->progress = &lr.hook;
+        wo->progress = BR_CLI_HOOK(&lr);
         int rc = compute(path, wo, su_method, &o, &err);
         status = br_cli_run_commit(&lr);
         if (status == BR_EXIT_OK && rc == BR_EUSAGE) /* an option does not fit the design */

@@ -220,7 +220,7 @@ int br_cli_yield_main(int argc, char **argv, const br_cli_given *given)
     br_error_clear(&err);
     br_cli_run lr;
     br_cli_run_begin(&lr, "yield", a.quiet);
-    yo.progress = &lr.hook;
+    yo.progress = BR_CLI_HOOK(&lr);
     int rc = compute(pos[0], &a, &yo, min_yield, &o, &err);
     int status = br_cli_run_commit(&lr);
     if (status == BR_EXIT_OK)

@@ -230,7 +230,7 @@ static int run_step(const char *self, const char *dir, br_pack_step *s, br_cli_r
             break;
         if (w < 0 && errno != EINTR)
             return BR_EXIT_INPUT;
-        if (!sent && br_progress_stopped(&lr->hook)) {
+        if (!sent && br_cli_run_stop(lr)) {
             kill(pid, SIGTERM);
             sent = 1;
         }
@@ -263,7 +263,7 @@ static int run_all(const char *self, const char *dir, br_pack *p, br_cli_run *lr
         if (s->status < 0)
             continue;
         s->status = run_step(self, dir, s, lr);
-        if (br_progress_stopped(&lr->hook))
+        if (br_cli_run_stop(lr))
             return BR_EXIT_INTERRUPTED;
         if (s->status != 0 && s->status != 1 && s->status != 3) {
             step_failed(dir, s);
