@@ -49,6 +49,15 @@ BR_API int br_analysis_set_progress(br_analysis *a, br_progress_hook hook, br_st
 /* Keep the time series (start-up and two steady periods per direction)
  * of the next runs: 1 to keep, 0 (the default) not to. */
 BR_API int br_analysis_set_series(br_analysis *a, int keep);
+/* Record the time series as CSV during the next runs (1; 0, the default,
+ * not to): the run's BR_FORMAT_CSV (bootrung/report.h). */
+BR_API int br_analysis_set_csv(br_analysis *a, int keep);
+/* The steady-state solver's work limit for the next runs: at most n
+ * Newton iterations (never more than its default) and n periods of plain
+ * simulation; what it cannot settle within them is undetermined, never a
+ * pass.  n from 1 to BR_SOLVER_LIMIT_MAX; 0 restores the defaults. */
+#define BR_SOLVER_LIMIT_MAX 100000L
+BR_API int br_analysis_set_solver_limit(br_analysis *a, long n);
 /* Run the parts (BR_PART_* bits; BR_PART_HOLDUP only with BR_PART_STEADY) on c.  BR_ECANCEL when
  * the hook or the stop poll stopped it (the object then holds no results); BR_EUSAGE for bad
  * arguments; a numerical failure of a solver is not an error: it makes the figures it concerns

@@ -203,7 +203,7 @@ int cmd_explore(int argc, char **argv);
 int cmd_merge(int argc, char **argv);
 
 /* The shared body of the analysis verbs: options --xml/--csv/--quiet, the
- * help text `about`, the analyses `parts` (BR_RUN_* of report/results.h). */
+ * help text `about`, the analyses `parts` (BR_PART_* of bootrung/analysis.h). */
 int br_cli_analysis(int argc, char **argv, const char *about, int parts);
 
 /* `analyze --pack DIR`: every verb run on design (and pick on catalog,

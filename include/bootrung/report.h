@@ -1,0 +1,63 @@
+/* report.h - the reports of the analyses, and writing them out: what a
+ * front end needs besides running the studies of analysis.h.
+ *
+ * Every study renders its own reports (br_*_render): the same bytes the
+ * command line prints and writes, in a br_format, appended to a br_text.
+ * A study keeps what its reports need from its run (the design and its
+ * chain), so the design may be freed once the run has returned.  A render
+ * returns BR_OK, BR_EUSAGE (err says why) when the study was not run or
+ * does not offer the form, or BR_ENOMEM.
+ *
+ * Copyright (C) 2026 the bootrung developers.  GPL-3.0-or-later. */
+#ifndef BOOTRUNG_REPORT_H
+#define BOOTRUNG_REPORT_H
+
+#include "bootrung/analysis.h"
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+/* ---- the analyses: start-up, steady state, verdict ---------------------- */
+
+/* a's reports of its last run, as `bootrung startup`, `steady` or
+ * `analyze` (by the parts run) print and write them: TEXT; XML (with the
+ * library's version); HTML (with the series kept, br_analysis_set_series);
+ * CSV (recorded when asked, br_analysis_set_csv); SVG, the plot of a
+ * start-up or a steady state run alone (with the series kept). */
+BR_API int br_analysis_render(const br_analysis *a, int format, br_text *out, br_error *err);
+
+/* ---- writing a report to a file, all or nothing ------------------------ */
+
+/* The text goes to a temporary file in the target's directory, flushed
+ * to disk, then renamed over the target: a reader sees the old file or
+ * the complete new one, and a failure leaves no temporary file behind. */
+
+/* Write t to path.  BR_OK, or BR_EIO with err naming the path and the
+ * system's reason; the target is then unchanged. */
+BR_API int br_text_save(const br_text *t, const char *path, br_error *err);
+
+/* Several files all or nothing: each is first written whole to its
+ * temporary file (br_text_stage); only when every one is ready are they
+ * renamed into place (br_staged_commit); a failure on the way drops the
+ * temporaries (br_staged_discard). */
+typedef struct br_staged {
+    const br_text *text; /* kept by pointer until committed */
+    char path[4096];     /* the target */
+    char tmp[4096 + 64]; /* its temporary file, "" when none */
+    int special;         /* the target is a device or FIFO: written in place at commit */
+} br_staged;
+
+/* Write t to a temporary file beside path.  BR_OK, or BR_EIO with err
+ * naming the path and the reason (nothing is left behind). */
+BR_API int br_text_stage(const br_text *t, const char *path, br_staged *s, br_error *err);
+/* Rename the temporary file over the target (or write a special file).
+ * BR_OK, or BR_EIO with err; the temporary file is gone either way. */
+BR_API int br_staged_commit(br_staged *s, br_error *err);
+/* Remove the temporary file of a staged file not committed. */
+BR_API void br_staged_discard(br_staged *s);
+
+#ifdef __cplusplus
+}
+#endif
+#endif

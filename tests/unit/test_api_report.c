@@ -1,0 +1,240 @@
+/* test_api_report.c - the reports through the public API
+ * (bootrung/report.h): a study renders the very bytes the internal
+ * renderers write for the same run, after the caller's design and chain
+ * are gone; forms not offered and studies not run are refused; the file
+ * writing is all or nothing; br_error_set fills the record.  The API side
+ * is called through the public headers; the internal renderers are the
+ * reference. */
+#include "bootrung/analysis.h"
+#include "bootrung/bootrung.h"
+#include "bootrung/report.h"
+
+#include "analyses/steady.h"
+#include "report/results.h"
+#include "testkit.h"
+
+#include <gsl/gsl_errno.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <unistd.h>
+
+static const char *const leg = "examples/leg-7level.xml";
+static const char *const verbs[] = {"", "startup", "steady", "analyze"};
+
+/* The reference: the internal run and renderers, as the command line
+ * called them before it was a client of the public API. */
+typedef struct reference {
+    br_text *text, *xml, *html, *csv, *svg;
+} reference;
+
+static void reference_make(const char *path, int parts, const br_steady_opts *so, reference *ref)
+{
+    br_design *d = NULL;
+    br_chain *c = NULL;
+    br_error err;
+    br_results *r = br_results_create();
+    br_results_traces tr = {0};
+    memset(ref, 0, sizeof *ref);
+    ref->text = br_text_create(), ref->xml = br_text_create(), ref->html = br_text_create();
+    ref->csv = br_text_create(), ref->svg = br_text_create();
+    CU_ASSERT_EQUAL_FATAL(br_design_load(path, &d, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_results_run_traced(r, c, verbs[parts], parts, so, ref->csv, &tr, &err),
+                          BR_OK);
+    CU_ASSERT_EQUAL(br_results_text(r, ref->text, &err), BR_OK);
+    CU_ASSERT_EQUAL(br_results_xml(r, br_version(), ref->xml, &err), BR_OK);
+    CU_ASSERT_EQUAL(br_results_html(r, &tr, ref->html, &err), BR_OK);
+    if (parts != BR_PART_ALL)
+        CU_ASSERT_EQUAL(br_results_plot(r, &tr, ref->svg, &err), BR_OK);
+    br_results_traces_release(&tr);
+    br_results_free(r);
+    br_chain_free(c);
+    br_design_free(d);
+}
+
+static void reference_free(reference *ref)
+{
+    br_text_free(ref->text), br_text_free(ref->xml), br_text_free(ref->html);
+    br_text_free(ref->csv), br_text_free(ref->svg);
+}
+
+/* The API's analysis of path, its design and chain freed before it renders. */
+static br_analysis *api_run(const char *path, int parts, long limit)
+{
+    br_design *d = NULL;
+    br_chain *c = NULL;
+    br_error err;
+    br_analysis *a = br_analysis_create();
+    CU_ASSERT_EQUAL_FATAL(br_design_load(path, &d, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    CU_ASSERT_EQUAL(br_analysis_set_series(a, 1), BR_OK);
+    CU_ASSERT_EQUAL(br_analysis_set_csv(a, 1), BR_OK);
+    CU_ASSERT_EQUAL(br_analysis_set_solver_limit(a, limit), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_analysis_run(a, c, parts, &err), BR_OK);
+    br_chain_free(c);
+    br_design_free(d);
+    return a;
+}
+
+static void assert_form(const br_analysis *a, int format, const br_text *want)
+{
+    br_text *got = br_text_create();
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_analysis_render(a, format, got, &err), BR_OK);
+    CU_ASSERT_TRUE(br_text_len(got) > 0);
+    CU_ASSERT_EQUAL(br_text_len(got), br_text_len(want));
+    CU_ASSERT_STRING_EQUAL(br_text_data(got), br_text_data(want));
+    br_text_free(got);
+}
+
+static void same_reports(int parts)
+{
+    reference ref;
+    reference_make(leg, parts, NULL, &ref);
+    br_analysis *a = api_run(leg, parts, 0);
+    assert_form(a, BR_FORMAT_TEXT, ref.text);
+    assert_form(a, BR_FORMAT_XML, ref.xml);
+    assert_form(a, BR_FORMAT_HTML, ref.html);
+    assert_form(a, BR_FORMAT_CSV, ref.csv);
+    if (parts != BR_PART_ALL)
+        assert_form(a, BR_FORMAT_SVG, ref.svg);
+    br_analysis_free(a);
+    reference_free(&ref);
+}
+
+static void test_startup_reports(void)
+{
+    same_reports(BR_PART_STARTUP);
+}
+
+static void test_steady_reports(void)
+{
+    same_reports(BR_PART_STEADY);
+}
+
+static void test_analyze_reports(void)
+{
+    same_reports(BR_PART_ALL);
+}
+
+/* The solver limit is the command line's --solver-limit: at most n Newton
+ * iterations and n plain periods.  With 1 the leg's steady state is not
+ * settled: undetermined, as the internal run with those options says. */
+static void test_solver_limit(void)
+{
+    br_steady_opts so;
+    br_steady_opts_default(&so);
+    so.max_iter = 1;
+    so.max_plain = 1;
+    reference ref;
+    reference_make(leg, BR_PART_STEADY, &so, &ref);
+    br_analysis *a = api_run(leg, BR_PART_STEADY, 1);
+    assert_form(a, BR_FORMAT_TEXT, ref.text);
+    int res = -1;
+    CU_ASSERT_EQUAL(br_verdict_result(a, &res), BR_OK);
+    CU_ASSERT_EQUAL(res, BR_RESULT_UNDETERMINED);
+    CU_ASSERT_EQUAL(br_analysis_set_solver_limit(a, -1), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_analysis_set_solver_limit(a, BR_SOLVER_LIMIT_MAX + 1), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_analysis_set_solver_limit(NULL, 5), BR_EUSAGE);
+    br_analysis_free(a);
+    reference_free(&ref);
+}
+
+/* What cannot be rendered is refused with a reason, never an empty report. */
+static void test_render_refused(void)
+{
+    br_text *t = br_text_create();
+    br_error err;
+    br_analysis *a = br_analysis_create();
+    CU_ASSERT_EQUAL(br_analysis_render(a, BR_FORMAT_TEXT, t, &err), BR_EUSAGE); /* not run */
+    CU_ASSERT_EQUAL(br_analysis_render(NULL, BR_FORMAT_TEXT, t, &err), BR_EUSAGE);
+    br_analysis_free(a);
+    br_design *d = NULL;
+    br_chain *c = NULL;
+    CU_ASSERT_EQUAL_FATAL(br_design_load("examples/demo-3level.xml", &d, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    a = br_analysis_create(); /* neither series nor CSV kept */
+    CU_ASSERT_EQUAL_FATAL(br_analysis_run(a, c, BR_PART_ALL, &err), BR_OK);
+    CU_ASSERT_EQUAL(br_analysis_render(a, BR_FORMAT_HTML, t, &err), BR_EUSAGE);
+    CU_ASSERT_PTR_NOT_NULL(strstr(err.msg, "br_analysis_set_series"));
+    CU_ASSERT_EQUAL(br_analysis_render(a, BR_FORMAT_CSV, t, &err), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_analysis_render(a, BR_FORMAT_SVG, t, &err), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_analysis_render(a, 99, t, &err), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_text_len(t), 0);
+    CU_ASSERT_EQUAL(br_analysis_render(a, BR_FORMAT_TEXT, NULL, &err), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_analysis_render(a, BR_FORMAT_TEXT, t, &err), BR_OK);
+    CU_ASSERT_PTR_NOT_NULL(strstr(br_text_data(t), "verdict"));
+    br_analysis_free(a);
+    br_chain_free(c);
+    br_design_free(d);
+    br_text_free(t);
+}
+
+static void test_error_set(void)
+{
+    br_error err;
+    br_error_clear(&err);
+    CU_ASSERT_EQUAL(br_error_set(&err, BR_EINPUT, "a.xml", 7, "capacitor[c1]/esr", "got %d", 3),
+                    BR_EINPUT);
+    CU_ASSERT_EQUAL(err.code, BR_EINPUT);
+    CU_ASSERT_STRING_EQUAL(err.file, "a.xml");
+    CU_ASSERT_EQUAL(err.line, 7);
+    CU_ASSERT_STRING_EQUAL(err.field, "capacitor[c1]/esr");
+    CU_ASSERT_STRING_EQUAL(err.msg, "got 3");
+    CU_ASSERT_EQUAL(br_error_set(NULL, BR_EIO, NULL, 0, NULL, "x"), BR_EIO);
+}
+
+/* All or nothing: a staged file is not there until committed; a discarded
+ * one leaves nothing; a save where it cannot be written is BR_EIO naming
+ * the path and leaves the directory as it was. */
+static void test_files(void)
+{
+    char dir[] = "/tmp/br_api_reportXXXXXX", path[256], other[256];
+    CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(dir));
+    snprintf(path, sizeof path, "%s/a.txt", dir);
+    snprintf(other, sizeof other, "%s/b.txt", dir);
+    br_text *t = br_text_create();
+    br_text_put(t, "rails\n");
+    br_error err;
+    br_staged s, s2;
+    CU_ASSERT_EQUAL_FATAL(br_text_stage(t, path, &s, &err), BR_OK);
+    CU_ASSERT_EQUAL(access(path, F_OK), -1);
+    CU_ASSERT_EQUAL(br_text_stage(t, other, &s2, &err), BR_OK);
+    br_staged_discard(&s2);
+    CU_ASSERT_EQUAL(br_staged_commit(&s, &err), BR_OK);
+    size_t len = 0;
+    char *back = br_test_slurp(path, &len);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(back);
+    CU_ASSERT_STRING_EQUAL(back, "rails\n");
+    free(back);
+    CU_ASSERT_EQUAL(access(other, F_OK), -1);
+    br_text_put(t, "more\n");
+    CU_ASSERT_EQUAL(br_text_save(t, path, &err), BR_OK);
+    back = br_test_slurp(path, &len);
+    CU_ASSERT_EQUAL(len, 11);
+    free(back);
+    char bad[300];
+    snprintf(bad, sizeof bad, "%s/no/such/dir.txt", dir);
+    CU_ASSERT_EQUAL(br_text_save(t, bad, &err), BR_EIO);
+    CU_ASSERT_PTR_NOT_NULL(strstr(err.file[0] ? err.file : err.msg, "no/such"));
+    remove(path);
+    CU_ASSERT_EQUAL(rmdir(dir), 0); /* nothing else was left in it */
+    br_text_free(t);
+}
+
+int main(void)
+{
+    gsl_set_error_handler_off();
+    static const br_test_case cases[] = {
+        {"startup: text, XML, HTML, CSV, SVG as the internal renderers", test_startup_reports},
+        {"steady: the same", test_steady_reports},
+        {"analyze: the same", test_analyze_reports},
+        {"the solver limit", test_solver_limit},
+        {"forms refused", test_render_refused},
+        {"br_error_set", test_error_set},
+        {"files all or nothing", test_files},
+        {NULL, NULL},
+    };
+    return br_test_main("api report", cases);
+}
