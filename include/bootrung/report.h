@@ -27,6 +27,32 @@ extern "C" {
  * start-up or a steady state run alone (with the series kept). */
 BR_API int br_analysis_render(const br_analysis *a, int format, br_text *out, br_error *err);
 
+/* ---- the design check: the chain and the rules needing no simulation ---- */
+
+/* The design's chain as a table (operating point, one row per stage with
+ * its parts, return switch, charging windows and link blocking voltage)
+ * and the findings of the design rules.  A finding that means the chain
+ * cannot work at all (a rail that never reaches its UVLO, a link that
+ * never charges) is fatal; the others are warnings. */
+typedef struct br_design_check br_design_check;
+
+BR_API br_design_check *br_design_check_create(void);
+BR_API void br_design_check_free(br_design_check *k);
+/* 1: a warning fails the check too; 0 (the default): only a fatal one. */
+BR_API int br_design_check_set_strict(br_design_check *k, int on);
+/* Check d (it may be freed once this returns). */
+BR_API int br_design_check_run(br_design_check *k, const br_design *d, br_error *err);
+/* The findings, and how many of them are fatal. */
+BR_API int br_design_check_counts(const br_design_check *k, int *findings, int *fatal);
+/* BR_RESULT_FAIL when a finding is fatal (or, strict, any finding), else
+ * BR_RESULT_PASS. */
+BR_API int br_design_check_result(const br_design_check *k, int *out);
+/* The report's verdict line starts with this. */
+#define BR_CHECK_VERDICT "design rules:"
+/* TEXT, or HTML (the page with the judgement first). */
+BR_API int br_design_check_render(const br_design_check *k, int format, br_text *out,
+                                  br_error *err);
+
 /* ---- writing a report to a file, all or nothing ------------------------ */
 
 /* The text goes to a temporary file in the target's directory, flushed

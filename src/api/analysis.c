@@ -6,6 +6,8 @@
 
 #include "bootrung/report.h"
 
+#include "kept.h"
+
 #include "analyses/holdup.h"
 #include "core/error.h"
 #include "core/progress.h"
@@ -29,8 +31,7 @@ struct br_analysis {
     int keep_csv;
     br_text *csv;      /* the time series as CSV, recorded when keep_csv */
     br_steady_opts so; /* the steady-state solver's, with its work limit */
-    br_design *d;      /* the design analysed, copied, and its chain: what */
-    br_chain *c;       /* the reports read (the caller's may go) */
+    br_kept kept;      /* the design analysed and its chain, for the reports */
     br_progress prog;
     int parts, n;
     int ss_status[2];
@@ -57,8 +58,8 @@ static void forget(br_analysis *a)
 {
     br_results_traces_release(&a->tr);
     memset(&a->tr, 0, sizeof a->tr);
-    br_chain_free(a->c);
-    a->c = NULL;
+    br_chain_free(a->kept.c);
+    a->kept.c = NULL;
     a->res->c = NULL;
     a->parts = 0;
     a->n = 0;
@@ -72,7 +73,7 @@ void br_analysis_free(br_analysis *a)
     forget(a);
     br_results_free(a->res);
     br_text_free(a->csv);
-    free(a->d);
+    br_kept_release(&a->kept);
     free(a);
 }
 
@@ -158,17 +159,12 @@ static int csv_ready(br_analysis *a, br_error *err)
     return BR_OK;
 }
 
-/* The reports read the chain after the caller's may be gone: a copy of
- * its design (a br_design holds no pointers) and the chain built from it
- * as the caller built theirs (br_chain_build, the one public way). */
+/* The reports read the chain after the caller's may be gone. */
 static int keep_chain(br_analysis *a, const br_chain *c, br_error *err)
 {
     if (!c->design)
         return BR_OK; /* a chain made by hand: figures, no reports */
-    if (!a->d && !(a->d = malloc(sizeof *a->d)))
-        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory keeping the design");
-    *a->d = *c->design;
-    return br_chain_build(a->d, &a->c, err);
+    return br_kept_take(&a->kept, c->design, err);
 }
 
 int br_analysis_run(br_analysis *a, const br_chain *c, int parts, br_error *err)
@@ -199,7 +195,7 @@ int br_analysis_run(br_analysis *a, const br_chain *c, int parts, br_error *err)
     for (int d = 0; d < a->res->ndir; d++)
         steady_status(a, c, d);
     judged_rows(a);
-    a->res->c = a->c; /* the caller may free its chain now */
+    a->res->c = a->kept.c; /* the caller may free its chain now */
     a->parts = parts;
     a->n = c->n;
     return BR_OK;
@@ -563,7 +559,7 @@ static int render_usage(br_error *err, const char *why)
 
 int br_analysis_render(const br_analysis *a, int format, br_text *out, br_error *err)
 {
-    if (!a || !out || !a->parts || !a->c)
+    if (!a || !out || !a->parts || !a->kept.c)
         return render_usage(err, "expected an analysis that has run on a chain of a design, "
                                  "and a text");
     switch (format) {

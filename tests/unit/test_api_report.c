@@ -10,7 +10,9 @@
 #include "bootrung/report.h"
 
 #include "analyses/steady.h"
+#include "report/check_report.h"
 #include "report/results.h"
+#include "report/verb_pages.h"
 #include "testkit.h"
 
 #include <gsl/gsl_errno.h>
@@ -84,6 +86,16 @@ static void assert_form(const br_analysis *a, int format, const br_text *want)
     CU_ASSERT_EQUAL_FATAL(br_analysis_render(a, format, got, &err), BR_OK);
     CU_ASSERT_TRUE(br_text_len(got) > 0);
     CU_ASSERT_EQUAL(br_text_len(got), br_text_len(want));
+    CU_ASSERT_STRING_EQUAL(br_text_data(got), br_text_data(want));
+    br_text_free(got);
+}
+
+static void assert_text(const br_design_check *k, int format, const br_text *want)
+{
+    br_text *got = br_text_create();
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_design_check_render(k, format, got, &err), BR_OK);
+    CU_ASSERT_TRUE(br_text_len(got) > 0);
     CU_ASSERT_STRING_EQUAL(br_text_data(got), br_text_data(want));
     br_text_free(got);
 }
@@ -171,6 +183,50 @@ static void test_render_refused(void)
     br_text_free(t);
 }
 
+/* The design check: the report and the page check_report and verb_pages
+ * render for the same chain, its findings counted; --strict fails a
+ * warning.  The demo has warnings and nothing fatal (check-demo-3level.txt). */
+static void test_design_check(void)
+{
+    br_design *d = NULL;
+    br_chain *c = NULL;
+    br_error err;
+    static const char *const verdict[] = {"design rules:", NULL};
+    CU_ASSERT_EQUAL_FATAL(br_design_load("examples/demo-3level.xml", &d, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    br_text *text = br_text_create(), *html = br_text_create();
+    int nwarn = -1, nfatal = -1;
+    CU_ASSERT_EQUAL(br_check_report(c, text, &nwarn, &nfatal, &err), BR_OK);
+    CU_ASSERT_EQUAL(br_text_html(c, "design check", BR_OUTCOME_PASS, verdict, 0, text, html, &err),
+                    BR_OK);
+    br_design_check *k = br_design_check_create();
+    br_text *t = br_text_create();
+    int findings = -1, fatal = -1, res = -1;
+    CU_ASSERT_EQUAL(br_design_check_render(k, BR_FORMAT_TEXT, t, &err), BR_EUSAGE); /* not run */
+    CU_ASSERT_EQUAL(br_design_check_counts(k, &findings, &fatal), BR_EUSAGE);
+    CU_ASSERT_EQUAL_FATAL(br_design_check_run(k, d, &err), BR_OK);
+    br_chain_free(c);
+    br_design_free(d); /* the check keeps what its reports need */
+    CU_ASSERT_EQUAL(br_design_check_counts(k, &findings, &fatal), BR_OK);
+    CU_ASSERT_EQUAL(findings, nwarn);
+    CU_ASSERT_EQUAL(fatal, nfatal);
+    CU_ASSERT_TRUE(findings > 0);
+    CU_ASSERT_EQUAL(fatal, 0);
+    CU_ASSERT_EQUAL(br_design_check_result(k, &res), BR_OK);
+    CU_ASSERT_EQUAL(res, BR_RESULT_PASS);
+    assert_text(k, BR_FORMAT_TEXT, text);
+    assert_text(k, BR_FORMAT_HTML, html);
+    CU_ASSERT_EQUAL(br_design_check_render(k, BR_FORMAT_XML, t, &err), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_text_len(t), 0);
+    CU_ASSERT_EQUAL(br_design_check_set_strict(k, 2), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_design_check_set_strict(k, 1), BR_OK);
+    CU_ASSERT_EQUAL(br_design_check_result(k, &res), BR_OK);
+    CU_ASSERT_EQUAL(res, BR_RESULT_FAIL); /* a warning fails a strict check */
+    CU_ASSERT_EQUAL(br_design_check_run(k, NULL, &err), BR_EUSAGE);
+    br_design_check_free(k);
+    br_text_free(t), br_text_free(text), br_text_free(html);
+}
+
 static void test_error_set(void)
 {
     br_error err;
@@ -232,6 +288,7 @@ int main(void)
         {"analyze: the same", test_analyze_reports},
         {"the solver limit", test_solver_limit},
         {"forms refused", test_render_refused},
+        {"the design check", test_design_check},
         {"br_error_set", test_error_set},
         {"files all or nothing", test_files},
         {NULL, NULL},
