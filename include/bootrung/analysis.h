@@ -270,6 +270,19 @@ BR_API int br_corner_search_set_progress(br_corner_search *s, br_progress_hook h
 /* 1 (the default): search the start-up criteria too (a cold start per
  * corner, slower); 0: the steady-state criteria alone. */
 BR_API int br_corner_search_set_startup(br_corner_search *s, int on);
+/* Worker threads of the studies that spread their points: 0 (the
+ * default) one per online processor, else 1 .. BR_THREADS_MAX.  The
+ * results do not depend on it. */
+#define BR_THREADS_MAX 64
+BR_API int br_corner_search_set_threads(br_corner_search *s, int n);
+/* Every corner is tried up to n toleranced parameters (default 10, 0 ..
+ * BR_CORNERS_EXHAUSTIVE_MAX); beyond, the search is guided by
+ * one-at-a-time sensitivities. */
+#define BR_CORNERS_EXHAUSTIVE_MAX 16
+BR_API int br_corner_search_set_exhaustive(br_corner_search *s, int n);
+/* The steady-state solver's work limit at each corner, as
+ * br_analysis_set_solver_limit (0: none). */
+BR_API int br_corner_search_set_solver_limit(br_corner_search *s, long n);
 /* Search d (it may be freed once this returns).  BR_ECANCEL when stopped. */
 BR_API int br_corner_search_run(br_corner_search *s, const br_design *d, br_error *err);
 

@@ -53,6 +53,15 @@ BR_API int br_design_check_result(const br_design_check *k, int *out);
 BR_API int br_design_check_render(const br_design_check *k, int format, br_text *out,
                                   br_error *err);
 
+/* ---- the worst-case corners --------------------------------------------- */
+
+/* The report's verdict line starts with this (its continuation lines are
+ * indented). */
+#define BR_CORNERS_VERDICT "verdict at the worst corners:"
+/* TEXT, XML (with the library's version) or HTML, as `bootrung corners`. */
+BR_API int br_corner_search_render(const br_corner_search *s, int format, br_text *out,
+                                   br_error *err);
+
 /* ---- writing a report to a file, all or nothing ------------------------ */
 
 /* The text goes to a temporary file in the target's directory, flushed

@@ -9,8 +9,11 @@
 #include "bootrung/bootrung.h"
 #include "bootrung/report.h"
 
+#include "analyses/corners.h"
 #include "analyses/steady.h"
+#include "model/design.h"
 #include "report/check_report.h"
+#include "report/corners_report.h"
 #include "report/results.h"
 #include "report/verb_pages.h"
 #include "testkit.h"
@@ -227,6 +230,60 @@ static void test_design_check(void)
     br_text_free(t), br_text_free(text), br_text_free(html);
 }
 
+/* The corners' reports are the internal renderers' for the same search and
+ * settings, read after the caller's design is gone: with every start-up
+ * integrated period by period the text says so from the design (it read
+ * a design the search had let go). */
+static void test_corners(void)
+{
+    static const char *const verdict[] = {"verdict at the worst corners:", NULL};
+    br_design *d = NULL;
+    br_chain *c = NULL;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_design_load("examples/demo-3level.xml", &d, &err), BR_OK);
+    CU_ASSERT_EQUAL(br_design_set_startup_method(d, BR_SU_PERIODS), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    br_corners_opts o;
+    br_corners_opts_default(&o);
+    o.threads = 1;
+    o.max_exhaustive = 2;
+    o.solver_limit = 30;
+    br_corners *k = NULL;
+    CU_ASSERT_EQUAL_FATAL(br_corners_run(d, &o, &k, &err), BR_OK);
+    br_text *text = br_text_create(), *xml = br_text_create(), *html = br_text_create();
+    CU_ASSERT_EQUAL(br_corners_text(c, k, text), BR_OK);
+    CU_ASSERT_EQUAL(br_corners_xml(c, k, br_version(), xml, &err), BR_OK);
+    CU_ASSERT_EQUAL(br_text_html(c, "worst-case corners", k->outcome, verdict, 1, text, html, &err),
+                    BR_OK);
+    br_corner_search *s = br_corner_search_create();
+    br_text *t = br_text_create();
+    CU_ASSERT_EQUAL(br_corner_search_render(s, BR_FORMAT_TEXT, t, &err), BR_EUSAGE); /* not run */
+    CU_ASSERT_EQUAL(br_corner_search_set_threads(s, 1), BR_OK);
+    CU_ASSERT_EQUAL(br_corner_search_set_exhaustive(s, 2), BR_OK);
+    CU_ASSERT_EQUAL(br_corner_search_set_solver_limit(s, 30), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_corner_search_run(s, d, &err), BR_OK);
+    br_chain_free(c);
+    br_design_free(d);
+    CU_ASSERT_EQUAL(br_corner_search_render(s, BR_FORMAT_TEXT, t, &err), BR_OK);
+    CU_ASSERT_STRING_EQUAL(br_text_data(t), br_text_data(text));
+    CU_ASSERT_PTR_NOT_NULL(strstr(br_text_data(t), "period"));
+    br_text_reset(t);
+    CU_ASSERT_EQUAL(br_corner_search_render(s, BR_FORMAT_XML, t, &err), BR_OK);
+    CU_ASSERT_STRING_EQUAL(br_text_data(t), br_text_data(xml));
+    br_text_reset(t);
+    CU_ASSERT_EQUAL(br_corner_search_render(s, BR_FORMAT_HTML, t, &err), BR_OK);
+    CU_ASSERT_STRING_EQUAL(br_text_data(t), br_text_data(html));
+    br_text_reset(t);
+    CU_ASSERT_EQUAL(br_corner_search_render(s, BR_FORMAT_CSV, t, &err), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_text_len(t), 0);
+    CU_ASSERT_EQUAL(br_corner_search_set_threads(s, BR_THREADS_MAX + 1), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_corner_search_set_exhaustive(s, BR_CORNERS_EXHAUSTIVE_MAX + 1), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_corner_search_set_solver_limit(s, -1), BR_EUSAGE);
+    br_corner_search_free(s);
+    br_corners_free(k);
+    br_text_free(t), br_text_free(text), br_text_free(xml), br_text_free(html);
+}
+
 static void test_error_set(void)
 {
     br_error err;
@@ -289,6 +346,7 @@ int main(void)
         {"the solver limit", test_solver_limit},
         {"forms refused", test_render_refused},
         {"the design check", test_design_check},
+        {"the worst-case corners", test_corners},
         {"br_error_set", test_error_set},
         {"files all or nothing", test_files},
         {NULL, NULL},
