@@ -338,6 +338,10 @@ BR_API int br_window_study_set_progress(br_window_study *w, br_progress_hook hoo
                                         br_stop_poll stop, void *ctx);
 /* 1: the start-up window too; 0 (the default): the steady-state limits. */
 BR_API int br_window_study_set_startup(br_window_study *w, int on);
+/* The frequency range searched, Hz (a line cycle's: the line frequency);
+ * 0 for either end: the default (README, `window`).  A range that does
+ * not fit the design makes the run return BR_EUSAGE, err saying why. */
+BR_API int br_window_study_set_range(br_window_study *w, double fmin, double fmax);
 /* Search d (it may be freed once this returns). */
 BR_API int br_window_study_run(br_window_study *w, const br_design *d, br_error *err);
 
@@ -347,6 +351,9 @@ enum {
     BR_WINDOW_PEAK = 2,      /* a line cycle's peak current (A) */
     BR_WINDOW_LINE = 3       /* a line cycle's frequency (Hz) */
 };
+/* The design point: BR_RESULT_PASS when it holds, FAIL when not,
+ * UNDETERMINED when no periodic steady state was found there. */
+BR_API int br_window_result(const br_window_study *w, int *out);
 typedef enum br_window_axis_key {
     BR_WA_APPLIES = 0, /* 1: this axis was searched */
     BR_WA_LO,          /* the range searched */

@@ -62,6 +62,45 @@ BR_API int br_design_check_render(const br_design_check *k, int format, br_text 
 BR_API int br_corner_search_render(const br_corner_search *s, int format, br_text *out,
                                    br_error *err);
 
+/* ---- the window ----------------------------------------------------------- */
+
+/* The report's verdict line starts with this. */
+#define BR_WINDOW_VERDICT "design point:"
+/* TEXT, XML, HTML, or SVG (the worst margin along each axis), as
+ * `bootrung window`. */
+BR_API int br_window_study_render(const br_window_study *w, int format, br_text *out,
+                                  br_error *err);
+
+/* ---- quantities with SI units ------------------------------------------ */
+
+/* The kind of quantity expected: it decides the accepted units and the SI
+ * scale. */
+typedef enum br_kind {
+    BR_KIND_VOLTAGE = 0, /* V */
+    BR_KIND_CURRENT,     /* A */
+    BR_KIND_CAPACITANCE, /* F */
+    BR_KIND_FREQUENCY,   /* Hz */
+    BR_KIND_TIME,        /* s */
+    BR_KIND_RESISTANCE,  /* ohm; "10 m" is 10 milliohm */
+    BR_KIND_CHARGE,      /* C (coulomb) */
+    BR_KIND_TEMPERATURE, /* C (Celsius) or K, result in K; no bare numbers */
+    BR_KIND_TEMP_DELTA,  /* a temperature difference, K (C accepted) */
+    BR_KIND_FRACTION,    /* "80 %" or a plain number 0.8 */
+    BR_KIND_NUMBER,      /* dimensionless, a plain number */
+    BR_KIND_ENERGY_EV,   /* eV, kept in eV (bandgaps) */
+    BR_KIND_I2T,         /* A^2 s ("A2s"), no prefixes: on a squared unit they mislead */
+    BR_KIND_POWER,       /* W */
+    BR_KIND_THERMAL_R,   /* thermal resistance, K/W ("C/W" accepted); no prefixes */
+    BR_KIND_ANGLE,       /* an angle in degrees ("30 deg", or the degree sign), in radians */
+    BR_KIND_COUNT
+} br_kind;
+
+/* Read one quantity as a design file writes it ("4.7 uF", "200 kHz",
+ * "85 C"; a prefix alone, "4.7u", too; only plain numbers, fractions and 0
+ * may be bare) into SI.  BR_EINPUT with err->msg saying what was expected
+ * (file, line and field left empty), *out untouched. */
+BR_API int br_unit_parse(const char *text, br_kind kind, double *out, br_error *err);
+
 /* ---- writing a report to a file, all or nothing ------------------------ */
 
 /* The text goes to a temporary file in the target's directory, flushed

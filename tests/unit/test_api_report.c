@@ -11,11 +11,14 @@
 
 #include "analyses/corners.h"
 #include "analyses/steady.h"
+#include "analyses/window.h"
 #include "model/design.h"
+#include "report/charts.h"
 #include "report/check_report.h"
 #include "report/corners_report.h"
 #include "report/results.h"
 #include "report/verb_pages.h"
+#include "report/window_report.h"
 #include "testkit.h"
 
 #include <gsl/gsl_errno.h>
@@ -284,6 +287,62 @@ static void test_corners(void)
     br_text_free(t), br_text_free(text), br_text_free(xml), br_text_free(html);
 }
 
+/* The window's reports are the internal renderers' for the same range;
+ * its result is the design point's judgement; a range that does not fit
+ * the design is the caller's error. */
+static void test_window(void)
+{
+    br_design *d = NULL;
+    br_chain *c = NULL;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_design_load("examples/demo-3level.xml", &d, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    br_window_opts o;
+    br_window_opts_default(&o);
+    o.fmin = 50e3;
+    o.fmax = 300e3;
+    br_window *w = calloc(1, sizeof *w);
+    CU_ASSERT_EQUAL_FATAL(br_window_run(d, &o, w, &err), BR_OK);
+    br_text *text = br_text_create(), *xml = br_text_create(), *html = br_text_create();
+    br_text *svg = br_text_create(), *t = br_text_create();
+    CU_ASSERT_EQUAL(br_window_text(c, w, text, &err), BR_OK);
+    CU_ASSERT_EQUAL(br_window_xml(c, w, br_version(), xml, &err), BR_OK);
+    CU_ASSERT_EQUAL(br_window_html(c, w, text, html, &err), BR_OK);
+    CU_ASSERT_EQUAL(br_chart_window(w, 1, svg), BR_OK);
+    br_window_study *s = br_window_study_create();
+    CU_ASSERT_EQUAL(br_window_study_set_range(s, -1, 0), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_window_study_set_range(s, NAN, 0), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_window_study_set_range(s, 50e3, 300e3), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_window_study_run(s, d, &err), BR_OK);
+    br_chain_free(c);
+    br_design_free(d);
+    const br_text *want[] = {text, xml, html, NULL, svg};
+    for (int f = BR_FORMAT_TEXT; f <= BR_FORMAT_SVG; f++) {
+        br_text_reset(t);
+        if (!want[f]) {
+            CU_ASSERT_EQUAL(br_window_study_render(s, f, t, &err), BR_EUSAGE);
+            continue;
+        }
+        CU_ASSERT_EQUAL(br_window_study_render(s, f, t, &err), BR_OK);
+        CU_ASSERT_TRUE(br_text_len(t) > 0);
+        CU_ASSERT_STRING_EQUAL(br_text_data(t), br_text_data(want[f]));
+    }
+    int res = -1;
+    CU_ASSERT_EQUAL(br_window_result(s, &res), BR_OK);
+    CU_ASSERT_EQUAL(res, isnan(w->design.margin) ? BR_RESULT_UNDETERMINED
+                         : w->design.holds       ? BR_RESULT_PASS
+                                                 : BR_RESULT_FAIL);
+    /* a range above what the dead time allows does not fit the demo */
+    CU_ASSERT_EQUAL_FATAL(br_design_load("examples/demo-3level.xml", &d, &err), BR_OK);
+    CU_ASSERT_EQUAL(br_window_study_set_range(s, 2e6, 1e3), BR_OK);
+    CU_ASSERT_EQUAL(br_window_study_run(s, d, &err), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_window_result(s, &res), BR_EUSAGE);
+    br_design_free(d);
+    br_window_study_free(s);
+    free(w);
+    br_text_free(t), br_text_free(text), br_text_free(xml), br_text_free(html), br_text_free(svg);
+}
+
 static void test_error_set(void)
 {
     br_error err;
@@ -347,6 +406,7 @@ int main(void)
         {"forms refused", test_render_refused},
         {"the design check", test_design_check},
         {"the worst-case corners", test_corners},
+        {"the window", test_window},
         {"br_error_set", test_error_set},
         {"files all or nothing", test_files},
         {NULL, NULL},
