@@ -71,6 +71,25 @@ BR_API int br_corner_search_render(const br_corner_search *s, int format, br_tex
 BR_API int br_window_study_render(const br_window_study *w, int format, br_text *out,
                                   br_error *err);
 
+/* ---- the duty-frequency map ------------------------------------------------ */
+
+/* The files the map's text report names as written (NULL: not written). */
+BR_API int br_map_study_set_file_names(br_map_study *m, const char *csv, const char *svg);
+/* The report's verdict line starts with this. */
+#define BR_MAP_VERDICT "design point:"
+/* TEXT (the summary), CSV (every grid point), SVG (the heat map) or HTML,
+ * as `bootrung map`; not of a shard's run. */
+BR_API int br_map_study_render(const br_map_study *m, int format, br_text *out, br_error *err);
+
+/* ---- Monte Carlo yield ------------------------------------------------------ */
+
+/* The report's verdict line starts with this (its continuation lines are
+ * indented). */
+#define BR_YIELD_VERDICT "verdict:"
+/* TEXT, XML, CSV (every sample: values, margins), HTML, or SVG (the
+ * margins' histograms), as `bootrung yield`; not of a shard's run. */
+BR_API int br_yield_study_render(const br_yield_study *y, int format, br_text *out, br_error *err);
+
 /* ---- quantities with SI units ------------------------------------------ */
 
 /* The kind of quantity expected: it decides the accepted units and the SI

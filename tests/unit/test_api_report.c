@@ -10,15 +10,19 @@
 #include "bootrung/report.h"
 
 #include "analyses/corners.h"
+#include "analyses/map.h"
 #include "analyses/steady.h"
 #include "analyses/window.h"
+#include "analyses/yield.h"
 #include "model/design.h"
 #include "report/charts.h"
 #include "report/check_report.h"
 #include "report/corners_report.h"
+#include "report/map_report.h"
 #include "report/results.h"
 #include "report/verb_pages.h"
 #include "report/window_report.h"
+#include "report/yield_report.h"
 #include "testkit.h"
 
 #include <gsl/gsl_errno.h>
@@ -343,6 +347,188 @@ static void test_window(void)
     br_text_free(t), br_text_free(text), br_text_free(xml), br_text_free(html), br_text_free(svg);
 }
 
+static br_map_study *map_study(const br_design *d, int k, int n, const void *given)
+{
+    br_error err;
+    br_map_study *m = br_map_study_create();
+    CU_ASSERT_EQUAL(br_map_study_set_grid(m, 0.2, 0.8, 5, 50e3, 200e3, 4), BR_OK);
+    CU_ASSERT_EQUAL(br_map_study_set_threads(m, 3), BR_OK);
+    CU_ASSERT_EQUAL(br_map_study_set_shard(m, k, n), BR_OK);
+    CU_ASSERT_EQUAL(br_map_study_set_file_names(m, "m.csv", NULL), BR_OK);
+    if (given)
+        CU_ASSERT_EQUAL(br_map_study_set_given(m, given, br_map_record_size(), 21), BR_OK);
+    CU_ASSERT_EQUAL(br_map_study_check(m, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_map_study_run(m, d, &err), BR_OK);
+    return m;
+}
+
+/* The map's reports are the internal renderers' for the same grid, read
+ * after the caller's design is gone; two shards' records pieced together
+ * render the unsharded report; a grid out of range is named. */
+static void test_map(void)
+{
+    br_design *d = NULL;
+    br_chain *c = NULL;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_design_load("examples/demo-3level.xml", &d, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    br_map_opts o = {0.2, 0.8, 5, 50e3, 200e3, 4, 3, NULL, 0, 0, NULL};
+    br_map *ref = NULL;
+    CU_ASSERT_EQUAL_FATAL(br_map_run(d, &o, &ref, &err), BR_OK);
+    br_text *want[5] = {br_text_create(), NULL, br_text_create(), br_text_create(),
+                        br_text_create()};
+    CU_ASSERT_EQUAL(br_map_text(c, ref, "m.csv", NULL, want[BR_FORMAT_TEXT], &err), BR_OK);
+    CU_ASSERT_EQUAL(br_map_html(c, ref, want[BR_FORMAT_TEXT], want[BR_FORMAT_HTML], &err), BR_OK);
+    CU_ASSERT_EQUAL(br_map_csv(c, ref, want[BR_FORMAT_CSV], &err), BR_OK);
+    CU_ASSERT_EQUAL(br_map_svg(c, ref, want[BR_FORMAT_SVG], &err), BR_OK);
+    br_map_study *m = map_study(d, 0, 0, NULL);
+    br_map_study *m1 = map_study(d, 1, 2, NULL), *m2 = map_study(d, 2, 2, NULL);
+    size_t size = br_map_record_size();
+    const void *r1 = NULL, *r2 = NULL;
+    long n1 = 0, n2 = 0;
+    CU_ASSERT_EQUAL(br_map_records(m1, &r1, &n1), BR_OK);
+    CU_ASSERT_EQUAL(br_map_records(m2, &r2, &n2), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(n1, 21);
+    CU_ASSERT_EQUAL_FATAL(n2, 21);
+    unsigned char *all = calloc(21, size);
+    for (long k = 0; k < 21; k++) {
+        int in1 = -1, in2 = -1;
+        CU_ASSERT_EQUAL(br_map_study_judges(m1, k, &in1), BR_OK);
+        CU_ASSERT_EQUAL(br_map_study_judges(m2, k, &in2), BR_OK);
+        CU_ASSERT_TRUE(in1 || in2); /* every point judged somewhere */
+        memcpy(all + k * size, (const unsigned char *)(in1 ? r1 : r2) + k * size, size);
+    }
+    br_map_study *merged = map_study(d, 0, 0, all);
+    br_chain_free(c);
+    br_design_free(d);
+    br_text *t = br_text_create();
+    for (int f = BR_FORMAT_TEXT; f <= BR_FORMAT_SVG; f++) {
+        br_text_reset(t);
+        if (!want[f]) {
+            CU_ASSERT_EQUAL(br_map_study_render(m, f, t, &err), BR_EUSAGE);
+            continue;
+        }
+        CU_ASSERT_EQUAL(br_map_study_render(m, f, t, &err), BR_OK);
+        CU_ASSERT_TRUE(br_text_len(t) > 0);
+        CU_ASSERT_STRING_EQUAL(br_text_data(t), br_text_data(want[f]));
+    }
+    br_text_reset(t);
+    CU_ASSERT_EQUAL(br_map_study_render(merged, BR_FORMAT_TEXT, t, &err), BR_OK);
+    CU_ASSERT_STRING_EQUAL(br_text_data(t), br_text_data(want[BR_FORMAT_TEXT]));
+    int res = -1;
+    CU_ASSERT_EQUAL(br_map_result(m, &res), BR_OK);
+    CU_ASSERT_EQUAL(res, isnan(ref->design.margin) ? BR_RESULT_UNDETERMINED
+                         : ref->design.holds       ? BR_RESULT_PASS
+                                                   : BR_RESULT_FAIL);
+    CU_ASSERT_EQUAL(br_map_study_render(m1, BR_FORMAT_TEXT, t, &err), BR_EUSAGE); /* a shard */
+    CU_ASSERT_EQUAL(br_map_study_set_given(m, all, size, 20), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_map_study_set_threads(m, BR_MAP_THREADS_MAX + 1), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_map_study_set_grid(m, 0.2, 0.8, BR_MAP_POINTS_MAX + 1, 50e3, 200e3, 4),
+                    BR_OK);
+    CU_ASSERT_NOT_EQUAL(br_map_study_check(m, &err), BR_OK);
+    CU_ASSERT_STRING_EQUAL(err.field, "duty");
+    br_map_study_free(m), br_map_study_free(m1), br_map_study_free(m2);
+    br_map_study_free(merged);
+    br_map_free(ref);
+    free(all);
+    for (int f = 0; f < 5; f++)
+        br_text_free(want[f]);
+    br_text_free(t);
+}
+
+static br_yield_study *yield_study(const br_design *d, int k, int n, const void *given)
+{
+    br_error err;
+    br_yield_study *s = br_yield_study_create();
+    CU_ASSERT_EQUAL(br_yield_study_set_samples(s, 120, 3), BR_OK);
+    CU_ASSERT_EQUAL(br_yield_study_set_threads(s, 2), BR_OK);
+    CU_ASSERT_EQUAL(br_yield_study_set_min_yield(s, 0.5), BR_OK);
+    CU_ASSERT_EQUAL(br_yield_study_set_shard(s, k, n), BR_OK);
+    if (given)
+        CU_ASSERT_EQUAL(br_yield_study_set_given(s, given, br_yield_record_size(), 120), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_yield_study_run(s, d, &err), BR_OK);
+    return s;
+}
+
+/* The yield's reports are the internal renderers' for the same samples and
+ * minimum yield, read after the caller's design is gone; two shards'
+ * records pieced together and given back render the unsharded report. */
+static void test_yield(void)
+{
+    br_design *d = NULL;
+    br_chain *c = NULL;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_design_load("examples/demo-3level.xml", &d, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    br_yield_opts o;
+    br_yield_opts_default(&o);
+    CU_ASSERT_EQUAL(o.samples, BR_YIELD_DEFAULT_SAMPLES);
+    CU_ASSERT_EQUAL(o.seed, BR_YIELD_DEFAULT_SEED);
+    o.samples = 120;
+    o.seed = 3;
+    br_yield *y = NULL;
+    CU_ASSERT_EQUAL_FATAL(br_yield_run(d, &o, &y, &err), BR_OK);
+    br_text *want[5];
+    for (int f = 0; f < 5; f++)
+        want[f] = br_text_create();
+    CU_ASSERT_EQUAL(br_yield_text(c, y, 0.5, want[BR_FORMAT_TEXT]), BR_OK);
+    CU_ASSERT_EQUAL(br_yield_xml(c, y, 0.5, br_version(), want[BR_FORMAT_XML], &err), BR_OK);
+    CU_ASSERT_EQUAL(br_yield_html(c, y, 0.5, want[BR_FORMAT_TEXT], want[BR_FORMAT_HTML], &err),
+                    BR_OK);
+    CU_ASSERT_EQUAL(br_yield_csv(y, want[BR_FORMAT_CSV]), BR_OK);
+    CU_ASSERT_EQUAL(br_chart_yield(y, 1, want[BR_FORMAT_SVG]), BR_OK);
+    br_yield_study *s = yield_study(d, 0, 0, NULL);
+    br_yield_study *s1 = yield_study(d, 1, 2, NULL), *s2 = yield_study(d, 2, 2, NULL);
+    size_t size = br_yield_record_size();
+    const void *r1 = NULL, *r2 = NULL;
+    long n1 = 0, n2 = 0;
+    CU_ASSERT_EQUAL(br_yield_records(s1, &r1, &n1), BR_OK);
+    CU_ASSERT_EQUAL(br_yield_records(s2, &r2, &n2), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(n1, 120);
+    CU_ASSERT_EQUAL_FATAL(n2, 120);
+    unsigned char *all = calloc(120, size);
+    for (long i = 0; i < 120; i++) {
+        int in1 = -1, in2 = -1;
+        CU_ASSERT_EQUAL(br_yield_study_judges(s1, i, &in1), BR_OK);
+        CU_ASSERT_EQUAL(br_yield_study_judges(s2, i, &in2), BR_OK);
+        CU_ASSERT_EQUAL(in1 + in2, 1); /* every sample in one shard */
+        memcpy(all + i * size, (const unsigned char *)(in1 ? r1 : r2) + i * size, size);
+    }
+    br_yield_study *merged = yield_study(d, 0, 0, all);
+    br_chain_free(c);
+    br_design_free(d);
+    br_text *t = br_text_create();
+    for (int f = BR_FORMAT_TEXT; f <= BR_FORMAT_SVG; f++) {
+        br_text_reset(t);
+        CU_ASSERT_EQUAL(br_yield_study_render(s, f, t, &err), BR_OK);
+        CU_ASSERT_TRUE(br_text_len(t) > 0);
+        CU_ASSERT_STRING_EQUAL(br_text_data(t), br_text_data(want[f]));
+    }
+    br_text_reset(t);
+    CU_ASSERT_EQUAL(br_yield_study_render(merged, BR_FORMAT_TEXT, t, &err), BR_OK);
+    CU_ASSERT_STRING_EQUAL(br_text_data(t), br_text_data(want[BR_FORMAT_TEXT]));
+    int res = -1;
+    CU_ASSERT_EQUAL(br_yield_result(s, &res), BR_OK);
+    int outcome = br_yield_outcome(y, 0.5);
+    CU_ASSERT_EQUAL(res, outcome == BR_OUTCOME_FAIL           ? BR_RESULT_FAIL
+                         : outcome == BR_OUTCOME_UNDETERMINED ? BR_RESULT_UNDETERMINED
+                                                              : BR_RESULT_PASS);
+    /* a shard takes no statistics: no report */
+    CU_ASSERT_EQUAL(br_yield_study_render(s1, BR_FORMAT_TEXT, t, &err), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_yield_study_set_given(s, all, size + 1, 120), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_yield_study_set_given(s, all, size, 119), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_yield_study_set_shard(s, 3, 2), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_yield_study_set_min_yield(s, 1.5), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_yield_study_set_threads(s, BR_THREADS_MAX + 1), BR_EUSAGE);
+    br_yield_study_free(s), br_yield_study_free(s1), br_yield_study_free(s2);
+    br_yield_study_free(merged);
+    free(all);
+    br_yield_free(y);
+    for (int f = 0; f < 5; f++)
+        br_text_free(want[f]);
+    br_text_free(t);
+}
+
 static void test_error_set(void)
 {
     br_error err;
@@ -407,6 +593,8 @@ int main(void)
         {"the design check", test_design_check},
         {"the worst-case corners", test_corners},
         {"the window", test_window},
+        {"the yield, shards merged", test_yield},
+        {"the map, shards merged", test_map},
         {"br_error_set", test_error_set},
         {"files all or nothing", test_files},
         {NULL, NULL},
