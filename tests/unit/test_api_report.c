@@ -529,6 +529,38 @@ static void test_yield(void)
     br_text_free(t);
 }
 
+/* With the start-up judged and every start-up integrated period by period,
+ * the yield's text says so from the design (it read a design the study
+ * had let go). */
+static void test_yield_startup(void)
+{
+    br_design *d = NULL;
+    br_chain *c = NULL;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_design_load("examples/demo-3level.xml", &d, &err), BR_OK);
+    CU_ASSERT_EQUAL(br_design_set_startup_method(d, BR_SU_PERIODS), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    br_yield_opts o;
+    br_yield_opts_default(&o);
+    o.samples = 6;
+    o.startup = 1;
+    br_yield *y = NULL;
+    CU_ASSERT_EQUAL_FATAL(br_yield_run(d, &o, &y, &err), BR_OK);
+    br_text *want = br_text_create(), *t = br_text_create();
+    CU_ASSERT_EQUAL(br_yield_text(c, y, BR_MIN_YIELD_NONE, want), BR_OK);
+    br_yield_study *s = br_yield_study_create();
+    CU_ASSERT_EQUAL(br_yield_study_set_samples(s, 6, BR_YIELD_DEFAULT_SEED), BR_OK);
+    CU_ASSERT_EQUAL(br_yield_study_set_startup(s, 1), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_yield_study_run(s, d, &err), BR_OK);
+    br_chain_free(c);
+    br_design_free(d);
+    CU_ASSERT_EQUAL(br_yield_study_render(s, BR_FORMAT_TEXT, t, &err), BR_OK);
+    CU_ASSERT_STRING_EQUAL(br_text_data(t), br_text_data(want));
+    br_yield_study_free(s);
+    br_yield_free(y);
+    br_text_free(want), br_text_free(t);
+}
+
 static void test_error_set(void)
 {
     br_error err;
@@ -595,6 +627,7 @@ int main(void)
         {"the window", test_window},
         {"the yield, shards merged", test_yield},
         {"the map, shards merged", test_map},
+        {"the yield with every start-up integrated", test_yield_startup},
         {"br_error_set", test_error_set},
         {"files all or nothing", test_files},
         {NULL, NULL},
