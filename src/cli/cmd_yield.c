@@ -9,10 +9,6 @@
 #include <stdlib.h>
 #include <string.h>
 
-#ifndef BR_VERSION
-#define BR_VERSION "unknown"
-#endif
-
 static const char ABOUT[] =
     "Monte Carlo yield of design FILE: --samples sets of values drawn from the\n"
     "tolerances of the design file (uniform between the limits, or normal with the\n"

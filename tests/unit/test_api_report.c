@@ -7,6 +7,7 @@
  * reference. */
 #include "bootrung/analysis.h"
 #include "bootrung/bootrung.h"
+#include "bootrung/export.h"
 #include "bootrung/report.h"
 
 #include "analyses/corners.h"
@@ -561,6 +562,41 @@ static void test_yield_startup(void)
     br_text_free(want), br_text_free(t);
 }
 
+/* What the pack needs of the chain; the pack's combined status; the hash
+ * its SHA256SUMS lists. */
+static void test_pack_helpers(void)
+{
+    br_design *d = NULL;
+    br_chain *c = NULL;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_design_load("examples/demo-3level.xml", &d, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    CU_ASSERT_DOUBLE_EQUAL(br_chain_frequency(c), 100e3, 1e-6); /* the demo's 100 kHz */
+    CU_ASSERT_EQUAL(br_chain_line_cycle(c), 0);
+    br_chain_free(c);
+    br_design_free(d);
+    CU_ASSERT_EQUAL_FATAL(br_design_load("tests/data/line-3level.xml", &d, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    CU_ASSERT_EQUAL(br_chain_line_cycle(c), 1);
+    br_chain_free(c);
+    br_design_free(d);
+    CU_ASSERT_TRUE(isnan(br_chain_frequency(NULL)));
+    CU_ASSERT_EQUAL(br_chain_line_cycle(NULL), 0);
+    /* NIST FIPS 180-2, Secure Hash Standard, appendix B.1: SHA-256("abc") */
+    char hex[65];
+    br_sha256_hex("abc", 3, hex);
+    CU_ASSERT_STRING_EQUAL(hex, "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad");
+    br_pack *p = calloc(1, sizeof *p);
+    p->nstep = 3;
+    p->step[0].status = 0;
+    p->step[1].status = 3;
+    p->step[2].status = -1; /* not run: counts for nothing */
+    CU_ASSERT_EQUAL(br_pack_status(p), 3);
+    p->step[2].status = 1;
+    CU_ASSERT_EQUAL(br_pack_status(p), 1);
+    free(p);
+}
+
 static void test_error_set(void)
 {
     br_error err;
@@ -628,6 +664,7 @@ int main(void)
         {"the yield, shards merged", test_yield},
         {"the map, shards merged", test_map},
         {"the yield with every start-up integrated", test_yield_startup},
+        {"what the pack needs", test_pack_helpers},
         {"br_error_set", test_error_set},
         {"files all or nothing", test_files},
         {NULL, NULL},
