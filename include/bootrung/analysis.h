@@ -49,6 +49,15 @@ BR_API int br_analysis_set_progress(br_analysis *a, br_progress_hook hook, br_st
 /* Keep the time series (start-up and two steady periods per direction)
  * of the next runs: 1 to keep, 0 (the default) not to. */
 BR_API int br_analysis_set_series(br_analysis *a, int keep);
+/* Record the time series as CSV during the next runs (1; 0, the default,
+ * not to): the run's BR_FORMAT_CSV (bootrung/report.h). */
+BR_API int br_analysis_set_csv(br_analysis *a, int keep);
+/* The steady-state solver's work limit for the next runs: at most n
+ * Newton iterations (never more than its default) and n periods of plain
+ * simulation; what it cannot settle within them is undetermined, never a
+ * pass.  n from 1 to BR_SOLVER_LIMIT_MAX; 0 restores the defaults. */
+#define BR_SOLVER_LIMIT_MAX 100000L
+BR_API int br_analysis_set_solver_limit(br_analysis *a, long n);
 /* Run the parts (BR_PART_* bits; BR_PART_HOLDUP only with BR_PART_STEADY) on c.  BR_ECANCEL when
  * the hook or the stop poll stopped it (the object then holds no results); BR_EUSAGE for bad
  * arguments; a numerical failure of a solver is not an error: it makes the figures it concerns
@@ -261,6 +270,19 @@ BR_API int br_corner_search_set_progress(br_corner_search *s, br_progress_hook h
 /* 1 (the default): search the start-up criteria too (a cold start per
  * corner, slower); 0: the steady-state criteria alone. */
 BR_API int br_corner_search_set_startup(br_corner_search *s, int on);
+/* Worker threads of the studies that spread their points: 0 (the
+ * default) one per online processor, else 1 .. BR_THREADS_MAX.  The
+ * results do not depend on it. */
+#define BR_THREADS_MAX 64
+BR_API int br_corner_search_set_threads(br_corner_search *s, int n);
+/* Every corner is tried up to n toleranced parameters (default 10, 0 ..
+ * BR_CORNERS_EXHAUSTIVE_MAX); beyond, the search is guided by
+ * one-at-a-time sensitivities. */
+#define BR_CORNERS_EXHAUSTIVE_MAX 16
+BR_API int br_corner_search_set_exhaustive(br_corner_search *s, int n);
+/* The steady-state solver's work limit at each corner, as
+ * br_analysis_set_solver_limit (0: none). */
+BR_API int br_corner_search_set_solver_limit(br_corner_search *s, long n);
 /* Search d (it may be freed once this returns).  BR_ECANCEL when stopped. */
 BR_API int br_corner_search_run(br_corner_search *s, const br_design *d, br_error *err);
 
@@ -316,6 +338,10 @@ BR_API int br_window_study_set_progress(br_window_study *w, br_progress_hook hoo
                                         br_stop_poll stop, void *ctx);
 /* 1: the start-up window too; 0 (the default): the steady-state limits. */
 BR_API int br_window_study_set_startup(br_window_study *w, int on);
+/* The frequency range searched, Hz (a line cycle's: the line frequency);
+ * 0 for either end: the default (README, `window`).  A range that does
+ * not fit the design makes the run return BR_EUSAGE, err saying why. */
+BR_API int br_window_study_set_range(br_window_study *w, double fmin, double fmax);
 /* Search d (it may be freed once this returns). */
 BR_API int br_window_study_run(br_window_study *w, const br_design *d, br_error *err);
 
@@ -325,6 +351,9 @@ enum {
     BR_WINDOW_PEAK = 2,      /* a line cycle's peak current (A) */
     BR_WINDOW_LINE = 3       /* a line cycle's frequency (Hz) */
 };
+/* The design point: BR_RESULT_PASS when it holds, FAIL when not,
+ * UNDETERMINED when no periodic steady state was found there. */
+BR_API int br_window_result(const br_window_study *w, int *out);
 typedef enum br_window_axis_key {
     BR_WA_APPLIES = 0, /* 1: this axis was searched */
     BR_WA_LO,          /* the range searched */
@@ -382,7 +411,32 @@ BR_API int br_map_study_set_progress(br_map_study *m, br_progress_hook hook, br_
  * count 1 .. 400.  Required before a run; checked by the run. */
 BR_API int br_map_study_set_grid(br_map_study *m, double duty_from, double duty_to, int nduty,
                                  double fsw_from, double fsw_to, int nfsw);
+/* The grid as the run checks it: BR_OK, or the error naming the axis
+ * (field "duty" or "freq") and what is wrong. */
+BR_API int br_map_study_check(const br_map_study *m, br_error *err);
+/* Worker threads sharing the rows, 1 .. BR_MAP_THREADS_MAX (default 2);
+ * the result does not depend on it. */
+#define BR_MAP_THREADS_MAX 16
+#define BR_MAP_POINTS_MAX 400 /* points per axis */
+BR_API int br_map_study_set_threads(br_map_study *m, int n);
+/* Shards, as for the yield: with n > 0 a run judges the design point and
+ * column and the frequency rows j with j mod n = k - 1 only (1 <= k <= n),
+ * and renders no report; n = 0 (the default): the whole grid. */
+BR_API int br_map_study_set_shard(br_map_study *m, int k, int n);
+/* The bytes of one judged point (this build's own layout), the last run's
+ * points as records (the grid, duty fastest, then the design point: count
+ * nduty * nfsw + 1), and whether the shard set judged record k. */
+BR_API size_t br_map_record_size(void);
+BR_API int br_map_records(const br_map_study *m, const void **rec, long *count);
+BR_API int br_map_study_judges(const br_map_study *m, long k, int *out);
+/* Merging shards: the next runs take the points from rec (total records
+ * of size bytes, the grid set first) and simulate nothing; BR_EUSAGE when
+ * they do not fit it; rec NULL: judge them.  rec must outlive the runs. */
+BR_API int br_map_study_set_given(br_map_study *m, const void *rec, size_t size, long total);
 BR_API int br_map_study_run(br_map_study *m, const br_design *d, br_error *err);
+/* The design point: BR_RESULT_PASS when it holds, FAIL when not,
+ * UNDETERMINED when no periodic steady state was found there. */
+BR_API int br_map_result(const br_map_study *m, int *out);
 
 /* The grid's size. */
 BR_API int br_map_size(const br_map_study *m, int *nduty, int *nfsw);
@@ -417,10 +471,41 @@ BR_API void br_yield_study_free(br_yield_study *y);
 BR_API int br_yield_study_set_progress(br_yield_study *y, br_progress_hook hook, br_stop_poll stop,
                                        void *ctx);
 /* samples >= 1 (default 1000), the generator's seed (default 1). */
+#define BR_YIELD_DEFAULT_SAMPLES 1000L
+#define BR_YIELD_DEFAULT_SEED 1UL
 BR_API int br_yield_study_set_samples(br_yield_study *y, long samples, unsigned long seed);
 /* 1: judge the start-up criteria too (a cold start per sample); 0 (the
  * default): the steady-state criteria. */
 BR_API int br_yield_study_set_startup(br_yield_study *y, int on);
+/* Worker threads (0, the default: one per processor; the samples do not
+ * depend on it), and the steady-state solver's work limit per sample as
+ * br_analysis_set_solver_limit (0: none). */
+BR_API int br_yield_study_set_threads(br_yield_study *y, int n);
+BR_API int br_yield_study_set_solver_limit(br_yield_study *y, long n);
+/* The minimum yield p (0 .. 1; negative: none, the default): with one the
+ * study passes when the interval's lower end reaches p, fails when it
+ * cannot even with every undetermined sample passing, else is
+ * undetermined (br_yield_result, and the reports). */
+BR_API int br_yield_study_set_min_yield(br_yield_study *y, double p);
+/* Shards, to spread one study over processes or machines: with n > 0 a
+ * run judges only the samples i with i mod n = k - 1 (1 <= k <= n; every
+ * sample is still drawn), takes no statistics and renders no report; its
+ * judged samples are br_yield_records.  n = 0 (the default): every sample. */
+BR_API int br_yield_study_set_shard(br_yield_study *y, int k, int n);
+/* Whether the shard set judges sample i (0 .. samples - 1). */
+BR_API int br_yield_study_judges(const br_yield_study *y, long i, int *out);
+/* The bytes of one judged sample: this build's own layout, to be given
+ * back only to the same version of the library on the same kind of machine. */
+BR_API size_t br_yield_record_size(void);
+/* The last run's judged samples (count of br_yield_record_size bytes each;
+ * a shard's other samples are zero), valid until the next run or the free. */
+BR_API int br_yield_records(const br_yield_study *y, const void **rec, long *count);
+/* Merging shards: the next runs take the samples from rec (total records
+ * of size bytes, as the shards judged them, pieced together) instead of
+ * judging them; the nominal and one-at-a-time points are judged again.
+ * size must be br_yield_record_size() and total the samples set
+ * (BR_EUSAGE otherwise); rec NULL: judge them.  rec must outlive the runs. */
+BR_API int br_yield_study_set_given(br_yield_study *y, const void *rec, size_t size, long total);
 /* Sample and judge d (it may be freed once this returns). */
 BR_API int br_yield_study_run(br_yield_study *y, const br_design *d, br_error *err);
 
@@ -435,7 +520,8 @@ typedef enum br_yield_key {
     BR_YIELD_KEY_COUNT
 } br_yield_key;
 BR_API int br_yield_get(const br_yield_study *y, int key, double *out);
-/* FAIL when a sample fails, else UNDETERMINED when one is, else PASS. */
+/* Without a minimum yield: FAIL when a sample fails, else UNDETERMINED
+ * when one is, else PASS; with one, as br_yield_study_set_min_yield says. */
 BR_API int br_yield_result(const br_yield_study *y, int *out);
 
 /* Per criterion i (0 .. br_criteria() - 1, as br_criterion_key names

@@ -57,6 +57,10 @@ typedef struct br_error {
 } br_error;
 
 BR_API void br_error_clear(br_error *err);
+/* Fill err (may be NULL) and return code.  file may be NULL, line 0 when
+ * unknown, field NULL or "" when the failure is not tied to one field. */
+BR_API int br_error_set(br_error *err, int code, const char *file, int line, const char *field,
+                        const char *fmt, ...) __attribute__((format(printf, 6, 7)));
 /* Render err as "FILE:LINE: field: message" into buf; returns buf. */
 BR_API const char *br_error_format(const br_error *err, char *buf, size_t cap);
 BR_API const char *br_status_name(int code);
@@ -110,7 +114,9 @@ BR_API int br_design_set_startup_method(br_design *d, int method);
 typedef enum br_format {
     BR_FORMAT_TEXT = 0, /* the plain-text report */
     BR_FORMAT_XML = 1,  /* the result file (our own XML vocabulary) */
-    BR_FORMAT_HTML = 2  /* a self-contained HTML page */
+    BR_FORMAT_HTML = 2, /* a self-contained HTML page */
+    BR_FORMAT_CSV = 3,  /* a table (time series, grid points, samples) */
+    BR_FORMAT_SVG = 4   /* the study's plot, an SVG document */
 } br_format;
 
 /* ---- the chain model --------------------------------------------------- */

@@ -4,6 +4,10 @@
  * bookkeeping of what to hand out. */
 #include "bootrung/analysis.h"
 
+#include "bootrung/report.h"
+
+#include "kept.h"
+
 #include "analyses/holdup.h"
 #include "core/error.h"
 #include "core/progress.h"
@@ -24,6 +28,10 @@ struct br_analysis {
     br_results *res;
     br_results_traces tr; /* kept when keep_series */
     int keep_series;
+    int keep_csv;
+    br_text *csv;      /* the time series as CSV, recorded when keep_csv */
+    br_steady_opts so; /* the steady-state solver's, with its work limit */
+    br_kept kept;      /* the design analysed and its chain, for the reports */
     br_progress prog;
     int parts, n;
     int ss_status[2];
@@ -41,6 +49,8 @@ br_analysis *br_analysis_create(void)
         free(a);
         return NULL;
     }
+    if (a)
+        br_steady_opts_default(&a->so);
     return a;
 }
 
@@ -48,6 +58,9 @@ static void forget(br_analysis *a)
 {
     br_results_traces_release(&a->tr);
     memset(&a->tr, 0, sizeof a->tr);
+    br_chain_free(a->kept.c);
+    a->kept.c = NULL;
+    a->res->c = NULL;
     a->parts = 0;
     a->n = 0;
     a->nrows = 0;
@@ -59,6 +72,8 @@ void br_analysis_free(br_analysis *a)
         return;
     forget(a);
     br_results_free(a->res);
+    br_text_free(a->csv);
+    br_kept_release(&a->kept);
     free(a);
 }
 
@@ -75,6 +90,28 @@ int br_analysis_set_series(br_analysis *a, int keep)
     if (!a || (keep != 0 && keep != 1))
         return BR_EUSAGE;
     a->keep_series = keep;
+    return BR_OK;
+}
+
+int br_analysis_set_csv(br_analysis *a, int keep)
+{
+    if (!a || (keep != 0 && keep != 1))
+        return BR_EUSAGE;
+    a->keep_csv = keep;
+    return BR_OK;
+}
+
+/* Fewer Newton iterations (never more than the default) and n plain
+ * periods: what the solver cannot settle within them is undetermined. */
+int br_analysis_set_solver_limit(br_analysis *a, long n)
+{
+    if (!a || n < 0 || n > BR_SOLVER_LIMIT_MAX)
+        return BR_EUSAGE;
+    br_steady_opts_default(&a->so);
+    if (n > 0) {
+        a->so.max_iter = n < a->so.max_iter ? (int)n : a->so.max_iter;
+        a->so.max_plain = n;
+    }
     return BR_OK;
 }
 
@@ -114,6 +151,22 @@ static int holdups(br_analysis *a, const br_chain *c, br_error *err)
     return rc;
 }
 
+static int csv_ready(br_analysis *a, br_error *err)
+{
+    if (!a->csv && !(a->csv = br_text_create()))
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory for the CSV series");
+    br_text_reset(a->csv);
+    return BR_OK;
+}
+
+/* The reports read the chain after the caller's may be gone. */
+static int keep_chain(br_analysis *a, const br_chain *c, br_error *err)
+{
+    if (!c->design)
+        return BR_OK; /* a chain made by hand: figures, no reports */
+    return br_kept_take(&a->kept, c->design, err);
+}
+
 int br_analysis_run(br_analysis *a, const br_chain *c, int parts, br_error *err)
 {
     static const char *const verbs[] = {"", "startup", "steady", "analyze"};
@@ -124,12 +177,17 @@ int br_analysis_run(br_analysis *a, const br_chain *c, int parts, br_error *err)
                             "br_analysis_run: expected an analysis, a chain and parts 1 to 3, "
                             "with BR_PART_HOLDUP only beside BR_PART_STEADY");
     forget(a);
+    int rc = a->keep_csv ? csv_ready(a, err) : BR_OK;
     a->res->progress = &a->prog;
-    int rc = br_results_run_traced(a->res, c, verbs[base], base, NULL, NULL,
-                                   a->keep_series ? &a->tr : NULL, err);
+    if (rc == BR_OK)
+        rc =
+            br_results_run_traced(a->res, c, verbs[base], base, &a->so, a->keep_csv ? a->csv : NULL,
+                                  a->keep_series ? &a->tr : NULL, err);
     a->res->progress = NULL;
     if (rc == BR_OK && (parts & BR_PART_HOLDUP))
         rc = holdups(a, c, err);
+    if (rc == BR_OK)
+        rc = keep_chain(a, c, err);
     if (rc != BR_OK) {
         forget(a);
         return rc;
@@ -137,7 +195,7 @@ int br_analysis_run(br_analysis *a, const br_chain *c, int parts, br_error *err)
     for (int d = 0; d < a->res->ndir; d++)
         steady_status(a, c, d);
     judged_rows(a);
-    a->res->c = NULL; /* the caller may free the chain now */
+    a->res->c = a->kept.c; /* the caller may free its chain now */
     a->parts = parts;
     a->n = c->n;
     return BR_OK;
@@ -490,4 +548,41 @@ const char *br_criterion_key(int i)
 const char *br_criterion_title(int i)
 {
     return i >= 0 && i < BR_CRIT_COUNT ? br_crit_title(i) : NULL;
+}
+
+/* ---- reports (bootrung/report.h) ---------------------------------------- */
+
+static int render_usage(br_error *err, const char *why)
+{
+    return br_error_set(err, BR_EUSAGE, NULL, 0, NULL, "br_analysis_render: %s", why);
+}
+
+int br_analysis_render(const br_analysis *a, int format, br_text *out, br_error *err)
+{
+    if (!a || !out || !a->parts || !a->kept.c)
+        return render_usage(err, "expected an analysis that has run on a chain of a design, "
+                                 "and a text");
+    switch (format) {
+    case BR_FORMAT_TEXT:
+        return br_results_text(a->res, out, err);
+    case BR_FORMAT_XML:
+        return br_results_xml(a->res, br_version(), out, err);
+    case BR_FORMAT_HTML:
+        if (!a->keep_series)
+            return render_usage(err, "the HTML report plots the series: keep them "
+                                     "(br_analysis_set_series) before the run");
+        return br_results_html(a->res, &a->tr, out, err);
+    case BR_FORMAT_CSV:
+        if (!a->keep_csv)
+            return render_usage(err, "the CSV is recorded during a run: ask for it "
+                                     "(br_analysis_set_csv) before the run");
+        return br_text_put(out, br_text_data(a->csv));
+    case BR_FORMAT_SVG:
+        if (!a->keep_series || (a->parts & BR_PART_ALL) == BR_PART_ALL)
+            return render_usage(err, "the plot is of a start-up or a steady state run alone, "
+                                     "with the series kept (br_analysis_set_series)");
+        return br_results_plot(a->res, &a->tr, out, err);
+    default:
+        return render_usage(err, "expected a format of br_format");
+    }
 }

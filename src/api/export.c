@@ -1,6 +1,7 @@
 /* export.c - the netlist, the chain's description and the caution
  * through the public API (include/bootrung/export.h). */
 #include "bootrung/export.h"
+#include "bootrung/report.h"
 
 #include "core/error.h"
 #include "model/chain.h"
@@ -23,6 +24,16 @@ int br_chain_stages(const br_chain *c)
 double br_chain_period(const br_chain *c)
 {
     return c ? c->T : NAN;
+}
+
+double br_chain_frequency(const br_chain *c)
+{
+    return c ? c->fsw : NAN;
+}
+
+int br_chain_line_cycle(const br_chain *c)
+{
+    return c ? c->line.on != 0 : 0;
 }
 
 const char *br_chain_name(const br_chain *c)

@@ -2,10 +2,16 @@
  * (include/bootrung/analysis.h): an opaque object over analyses/window,
  * handing out its axes, intervals and start-up window as they are. */
 #include "bootrung/analysis.h"
+#include "bootrung/report.h"
+
+#include "kept.h"
 
 #include "analyses/window.h"
 #include "core/error.h"
 #include "core/progress.h"
+#include "report/charts.h"
+#include "report/verb_pages.h"
+#include "report/window_report.h"
 
 #include <math.h>
 #include <stdlib.h>
@@ -19,7 +25,9 @@ _Static_assert((int)BR_WINDOW_DUTY == (int)BR_AXIS_DUTY &&
 struct br_window_study {
     br_window *r; /* the last run's (NULL: none); large, so on the heap */
     int startup;
+    double fmin, fmax; /* the frequency range searched (0: the default) */
     br_progress prog;
+    br_kept kept; /* the design and its chain, for the reports */
 };
 
 br_window_study *br_window_study_create(void)
@@ -29,8 +37,10 @@ br_window_study *br_window_study_create(void)
 
 void br_window_study_free(br_window_study *w)
 {
-    if (w)
+    if (w) {
         free(w->r);
+        br_kept_release(&w->kept);
+    }
     free(w);
 }
 
@@ -51,6 +61,15 @@ int br_window_study_set_startup(br_window_study *w, int on)
     return BR_OK;
 }
 
+int br_window_study_set_range(br_window_study *w, double fmin, double fmax)
+{
+    if (!w || !(fmin >= 0) || !(fmax >= 0) || isinf(fmin) || isinf(fmax))
+        return BR_EUSAGE;
+    w->fmin = fmin;
+    w->fmax = fmax;
+    return BR_OK;
+}
+
 int br_window_study_run(br_window_study *w, const br_design *d, br_error *err)
 {
     if (!w || !d)
@@ -65,7 +84,11 @@ int br_window_study_run(br_window_study *w, const br_design *d, br_error *err)
     br_window_opts_default(&o);
     o.startup = w->startup;
     o.progress = &w->prog;
-    int rc = br_window_run(d, &o, r, err);
+    o.fmin = w->fmin;
+    o.fmax = w->fmax;
+    int rc = br_kept_take(&w->kept, d, err);
+    if (rc == BR_OK)
+        rc = br_window_run(d, &o, r, err);
     if (rc != BR_OK) {
         free(r);
         return rc;
@@ -135,4 +158,50 @@ int br_window_startup(const br_window_study *w, int axis, int key, double *out)
     };
     *out = v[key];
     return BR_OK;
+}
+
+int br_window_result(const br_window_study *w, int *out)
+{
+    if (!w || !w->r || !out)
+        return BR_EUSAGE;
+    /* no steady state found at the design point decides nothing */
+    *out = isnan(w->r->design.margin) ? BR_RESULT_UNDETERMINED
+           : w->r->design.holds       ? BR_RESULT_PASS
+                                      : BR_RESULT_FAIL;
+    return BR_OK;
+}
+
+/* ---- reports (bootrung/report.h) ---------------------------------------- */
+
+static int html(const br_window_study *w, br_text *out, br_error *err)
+{
+    br_text *text = br_text_create();
+    int rc = text ? br_window_text(w->kept.c, w->r, text, err)
+                  : br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    if (rc == BR_OK)
+        rc = br_window_html(w->kept.c, w->r, text, out, err);
+    br_text_free(text);
+    return rc;
+}
+
+int br_window_study_render(const br_window_study *w, int format, br_text *out, br_error *err)
+{
+    if (!w || !w->r || !w->kept.c || !out)
+        return br_error_set(err, BR_EUSAGE, NULL, 0, NULL,
+                            "br_window_study_render: expected a study that has run, and a text");
+    switch (format) {
+    case BR_FORMAT_TEXT:
+        return br_window_text(w->kept.c, w->r, out, err);
+    case BR_FORMAT_XML:
+        return br_window_xml(w->kept.c, w->r, br_version(), out, err);
+    case BR_FORMAT_HTML:
+        return html(w, out, err);
+    case BR_FORMAT_SVG:
+        if (br_chart_window(w->r, 1, out) != BR_OK)
+            return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory drawing the plot");
+        return BR_OK;
+    default:
+        return br_error_set(err, BR_EUSAGE, NULL, 0, NULL,
+                            "br_window_study_render: the window offers text, XML, HTML and SVG");
+    }
 }

@@ -3,11 +3,18 @@
  * handing out its counts, interval, per-criterion statistics and samples
  * as they are. */
 #include "bootrung/analysis.h"
+#include "bootrung/report.h"
+
+#include "kept.h"
 
 #include "analyses/yield.h"
 #include "core/error.h"
 #include "core/progress.h"
+#include "report/charts.h"
+#include "report/verb_pages.h"
+#include "report/yield_report.h"
 
+#include <math.h>
 #include <stdlib.h>
 
 _Static_assert(BR_YC_MEDIAN - BR_YC_MIN + 1 == BR_YIELD_NQ, "one key per quantile kept");
@@ -19,6 +26,11 @@ struct br_yield_study {
     int startup;
     br_progress prog;
     br_tol_list tl; /* the parameters, copied: the design may go */
+    int threads, solver_limit;
+    double min_yield;     /* < 0: none */
+    int shard_k, shard_n; /* judge one slice of the samples (shard_n 0: all) */
+    const void *given;    /* the samples as shards judged them (NULL: judge them) */
+    br_kept kept;         /* the design and its chain, for the reports */
 };
 
 br_yield_study *br_yield_study_create(void)
@@ -30,14 +42,17 @@ br_yield_study *br_yield_study_create(void)
         y->samples = o.samples;
         y->seed = o.seed;
         y->startup = o.startup;
+        y->min_yield = -1.0;
     }
     return y;
 }
 
 void br_yield_study_free(br_yield_study *y)
 {
-    if (y)
+    if (y) {
         br_yield_free(y->y);
+        br_kept_release(&y->kept);
+    }
     free(y);
 }
 
@@ -67,6 +82,73 @@ int br_yield_study_set_startup(br_yield_study *y, int on)
     return BR_OK;
 }
 
+int br_yield_study_set_threads(br_yield_study *y, int n)
+{
+    if (!y || n < 0 || n > BR_THREADS_MAX)
+        return BR_EUSAGE;
+    y->threads = n;
+    return BR_OK;
+}
+
+int br_yield_study_set_solver_limit(br_yield_study *y, long n)
+{
+    if (!y || n < 0 || n > BR_SOLVER_LIMIT_MAX)
+        return BR_EUSAGE;
+    y->solver_limit = (int)n;
+    return BR_OK;
+}
+
+int br_yield_study_set_min_yield(br_yield_study *y, double p)
+{
+    if (!y || isnan(p) || p > 1.0)
+        return BR_EUSAGE;
+    y->min_yield = p < 0 ? -1.0 : p;
+    return BR_OK;
+}
+
+int br_yield_study_set_shard(br_yield_study *y, int k, int n)
+{
+    if (!y || n < 0 || (n > 0 && (k < 1 || k > n)))
+        return BR_EUSAGE;
+    y->shard_k = n > 0 ? k : 0;
+    y->shard_n = n;
+    return BR_OK;
+}
+
+size_t br_yield_record_size(void)
+{
+    return sizeof(br_pt);
+}
+
+int br_yield_study_set_given(br_yield_study *y, const void *rec, size_t size, long total)
+{
+    if (!y || (rec && (size != sizeof(br_pt) || total != y->samples)))
+        return BR_EUSAGE;
+    y->given = rec;
+    return BR_OK;
+}
+
+int br_yield_study_judges(const br_yield_study *y, long i, int *out)
+{
+    if (!y || !out || i < 0 || i >= y->samples)
+        return BR_EUSAGE;
+    br_yield_opts o;
+    br_yield_opts_default(&o);
+    o.shard_k = y->shard_k;
+    o.shard_n = y->shard_n;
+    *out = br_yield_shard_has(&o, i);
+    return BR_OK;
+}
+
+int br_yield_records(const br_yield_study *y, const void **rec, long *count)
+{
+    if (!y || !y->y || !rec || !count)
+        return BR_EUSAGE;
+    *rec = y->y->pts;
+    *count = y->y->n;
+    return BR_OK;
+}
+
 int br_yield_study_run(br_yield_study *y, const br_design *d, br_error *err)
 {
     if (!y || !d)
@@ -80,14 +162,21 @@ int br_yield_study_run(br_yield_study *y, const br_design *d, br_error *err)
     o.seed = y->seed;
     o.startup = y->startup;
     o.progress = &y->prog;
+    o.threads = y->threads;
+    o.solver_limit = y->solver_limit;
+    o.shard_k = y->shard_k;
+    o.shard_n = y->shard_n;
+    o.given = y->given;
     br_yield *r = NULL;
-    int rc = br_yield_run(d, &o, &r, err);
+    int rc = br_kept_take(&y->kept, d, err);
+    if (rc == BR_OK)
+        rc = br_yield_run(d, &o, &r, err);
     if (rc != BR_OK) {
         br_yield_free(r);
         return rc;
     }
     y->tl = r->s->tl;
-    r->s->d = NULL; /* the design is the caller's and may go; nothing reads it again */
+    r->s->d = y->kept.d; /* the caller's design may go: the report reads the copy */
     y->y = r;
     return BR_OK;
 }
@@ -121,7 +210,7 @@ int br_yield_result(const br_yield_study *y, int *out)
 {
     if (!y || !y->y || !out)
         return BR_EUSAGE;
-    *out = result_of(br_yield_outcome(y->y, -1.0)); /* no minimum yield */
+    *out = result_of(br_yield_outcome(y->y, y->min_yield));
     return BR_OK;
 }
 
@@ -179,4 +268,49 @@ int br_yield_sample_result(const br_yield_study *y, long i, int *out)
         return BR_EUSAGE;
     *out = result_of(y->y->pts[i].outcome);
     return BR_OK;
+}
+
+/* ---- reports (bootrung/report.h) ---------------------------------------- */
+
+static int html(const br_yield_study *y, br_text *out, br_error *err)
+{
+    br_text *text = br_text_create();
+    int rc = text ? br_yield_text(y->kept.c, y->y, y->min_yield, text) : BR_ENOMEM;
+    if (rc == BR_OK)
+        rc = br_yield_html(y->kept.c, y->y, y->min_yield, text, out, err);
+    br_text_free(text);
+    return rc;
+}
+
+static int render(const br_yield_study *y, int format, br_text *out, br_error *err)
+{
+    switch (format) {
+    case BR_FORMAT_TEXT:
+        return br_yield_text(y->kept.c, y->y, y->min_yield, out);
+    case BR_FORMAT_XML:
+        return br_yield_xml(y->kept.c, y->y, y->min_yield, br_version(), out, err);
+    case BR_FORMAT_CSV:
+        return br_yield_csv(y->y, out);
+    case BR_FORMAT_HTML:
+        return html(y, out, err);
+    case BR_FORMAT_SVG:
+        return br_chart_yield(y->y, 1, out);
+    default:
+        return br_error_set(err, BR_EUSAGE, NULL, 0, NULL,
+                            "br_yield_study_render: expected a format of br_format");
+    }
+}
+
+int br_yield_study_render(const br_yield_study *y, int format, br_text *out, br_error *err)
+{
+    if (!y || !y->y || !y->kept.c || !out || y->shard_n > 0)
+        return br_error_set(err, BR_EUSAGE, NULL, 0, NULL,
+                            "br_yield_study_render: expected a study that has run on every "
+                            "sample (a shard takes no statistics), and a text");
+    if (err)
+        br_error_clear(err);
+    int rc = render(y, format, out, err);
+    if (rc == BR_ENOMEM && err && !err->msg[0])
+        br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory rendering the report");
+    return rc;
 }

@@ -3,15 +3,10 @@
  * --csv files, and turn the verdict into the exit status. */
 #include "cli.h"
 
-#include "core/error.h"
-#include "model/design.h"
-#include "report/results.h"
+#include "bootrung/analysis.h"
+#include "bootrung/report.h"
 
 #include <string.h>
-
-#ifndef BR_VERSION
-#define BR_VERSION "unknown"
-#endif
 
 /* The files a run writes (NULL when not asked for). */
 typedef struct paths {
@@ -21,8 +16,7 @@ typedef struct paths {
 /* Outputs of one run, owned together so one function frees them. */
 typedef struct outputs {
     br_text *text, *xml, *csv, *html, *svg; /* NULL when not asked for */
-    br_results *res;
-    br_results_traces tr; /* kept for the report and the plot */
+    br_analysis *a;
 } outputs;
 
 static void outputs_free(outputs *o)
@@ -32,8 +26,7 @@ static void outputs_free(outputs *o)
     br_text_free(o->csv);
     br_text_free(o->html);
     br_text_free(o->svg);
-    br_results_free(o->res);
-    br_results_traces_release(&o->tr);
+    br_analysis_free(o->a);
 }
 
 static int outputs_alloc(outputs *o, const paths *p, br_error *err)
@@ -43,17 +36,34 @@ static int outputs_alloc(outputs *o, const paths *p, br_error *err)
     o->csv = p->csv ? br_text_create() : NULL;
     o->html = p->report ? br_text_create() : NULL;
     o->svg = p->plot ? br_text_create() : NULL;
-    o->res = br_results_create();
-    if (!o->text || !o->res || (p->xml && !o->xml) || (p->csv && !o->csv) ||
+    o->a = br_analysis_create();
+    if (!o->text || !o->a || (p->xml && !o->xml) || (p->csv && !o->csv) ||
         (p->report && !o->html) || (p->plot && !o->svg))
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    /* the series only for what plots them; the CSV only when asked */
+    br_analysis_set_series(o->a, o->html || o->svg);
+    br_analysis_set_csv(o->a, o->csv != NULL);
     return BR_OK;
+}
+
+/* The forms asked for, rendered from the analysis. */
+static int render(const outputs *o, br_error *err)
+{
+    int rc = br_analysis_render(o->a, BR_FORMAT_TEXT, o->text, err);
+    if (rc == BR_OK && o->xml)
+        rc = br_analysis_render(o->a, BR_FORMAT_XML, o->xml, err);
+    if (rc == BR_OK && o->csv)
+        rc = br_analysis_render(o->a, BR_FORMAT_CSV, o->csv, err);
+    if (rc == BR_OK && o->html)
+        rc = br_analysis_render(o->a, BR_FORMAT_HTML, o->html, err);
+    if (rc == BR_OK && o->svg)
+        rc = br_analysis_render(o->a, BR_FORMAT_SVG, o->svg, err);
+    return rc;
 }
 
 /* Load, build, run and render everything in memory; nothing is written
  * unless all of it succeeded. */
-static int compute(const char *path, const char *verb, int parts, const br_steady_opts *so,
-                   int su_method, outputs *o, br_error *err)
+static int compute(const char *path, int parts, int su_method, outputs *o, br_error *err)
 {
     br_design *d = NULL;
     br_chain *c = NULL;
@@ -62,21 +72,11 @@ static int compute(const char *path, const char *verb, int parts, const br_stead
         br_design_set_startup_method(d, su_method);
         rc = br_chain_build(d, &c, err);
     }
-    br_results_traces *tr = o->html || o->svg ? &o->tr : NULL;
     if (rc == BR_OK)
-        rc = br_results_run_traced(o->res, c, verb, parts, so, o->csv, tr, err);
-    if (rc == BR_OK)
-        rc = br_results_text(o->res, o->text, err);
-    if (rc == BR_OK && o->xml)
-        rc = br_results_xml(o->res, BR_VERSION, o->xml, err);
-    if (rc == BR_OK && o->html)
-        rc = br_results_html(o->res, &o->tr, o->html, err);
-    if (rc == BR_OK && o->svg)
-        rc = br_results_plot(o->res, &o->tr, o->svg, err);
-    o->res->c = NULL; /* the chain goes now; the verdict stays */
-    br_chain_free(c);
+        rc = br_analysis_run(o->a, c, parts, err);
+    br_chain_free(c); /* the analysis keeps what its reports need */
     br_design_free(d);
-    return rc;
+    return rc == BR_OK ? render(o, err) : rc;
 }
 
 /* The files and the report together, all or none (br_cli_write), so a
@@ -95,33 +95,29 @@ static int write_all(const outputs *o, const paths *p, int quiet)
 /* Compute, then write unless a signal stopped the run.  Every phase takes
  * signals (a steady state alone can run for seconds on an odd design);
  * the bar follows the cold start, the part whose length is known. */
-static int run(const char *path, const char *verb, int parts, const br_steady_opts *so,
-               int su_method, outputs *o, const paths *p, int quiet)
+static int run(const char *path, const char *verb, int parts, int su_method, outputs *o,
+               const paths *p, int quiet)
 {
     br_error err;
     br_error_clear(&err);
     br_cli_run lr;
     br_cli_run_begin(&lr, verb, quiet);
-    o->res->progress = &lr.hook;
-    int rc = compute(path, verb, parts, so, su_method, o, &err);
+    br_analysis_set_progress(o->a, br_cli_run_progress, br_cli_run_stop, &lr);
+    int rc = compute(path, parts, su_method, o, &err);
     int stop = br_cli_run_commit(&lr);
     int status = stop ? stop : rc != BR_OK ? br_cli_fail(&err, path) : write_all(o, p, quiet);
     br_cli_run_end(&lr);
-    o->res->progress = NULL;
+    br_analysis_set_progress(o->a, NULL, NULL, NULL);
     return status;
 }
 
 /* --solver-limit N: fewer Newton iterations (never more than the default)
  * and N periods of plain simulation; what the solver cannot settle within
  * them is reported undetermined, never a pass. */
-static int solver_limit(const char *verb, const char *text, br_steady_opts *so)
+static int solver_limit(const char *verb, const char *text, long *n)
 {
-    long n;
-    if (br_cli_long(verb, "solver-limit", text, 1, 100000, &n) != BR_EXIT_OK)
-        return BR_EXIT_INPUT;
-    so->max_iter = n < so->max_iter ? (int)n : so->max_iter;
-    so->max_plain = n;
-    return BR_EXIT_OK;
+    *n = 0; /* the solver's defaults */
+    return text ? br_cli_long(verb, "solver-limit", text, 1, BR_SOLVER_LIMIT_MAX, n) : BR_EXIT_OK;
 }
 
 /* The verb's options: --plot only where there is one plot (startup,
@@ -138,13 +134,13 @@ static int verb_options(br_opt *o, int parts, paths *p, int *quiet, const char *
                       "also write the time series as CSV to PATH (- stdout)"};
     o[n++] = (br_opt){BR_OPT_STRING, "report", "PATH", &p->report,
                       "also write a self-contained HTML report with plots to PATH"};
-    if (parts != BR_RUN_ALL) /* analyze has many plots: they are in the report */
+    if (parts != BR_PART_ALL) /* analyze has many plots: they are in the report */
         o[n++] = (br_opt){BR_OPT_STRING, "plot", "PATH", &p->plot,
-                          parts == BR_RUN_STARTUP
+                          parts == BR_PART_STARTUP
                               ? "also plot the rail waveforms from cold as SVG to PATH"
                               : "also plot the steady ripple (a line cycle: the envelope) as SVG "
                                 "to PATH"};
-    if (parts == BR_RUN_ALL) {
+    if (parts == BR_PART_ALL) {
         o[n++] =
             (br_opt){BR_OPT_STRING, "pack", "DIR", pack,
                      "write the sign-off pack (every verb's pages and files) to new folder DIR"};
@@ -154,7 +150,7 @@ static int verb_options(br_opt *o, int parts, paths *p, int *quiet, const char *
     o[n++] = (br_opt){BR_OPT_FLAG, "quiet", NULL, quiet, BR_QUIET_HELP};
     o[n++] = (br_opt){BR_OPT_STRING, "solver-limit", "N", limit,
                       "steady-state solver: at most N Newton iterations and N plain periods"};
-    if (parts != BR_RUN_STEADY) /* no start-up: no method for it */
+    if (parts != BR_PART_STEADY) /* no start-up: no method for it */
         o[n++] = (br_opt){BR_OPT_STRING, "startup-method", "M", method, BR_STARTUP_METHOD_HELP};
     o[n] = (br_opt){BR_OPT_END, NULL, NULL, NULL, NULL};
     return n;
@@ -194,23 +190,24 @@ int br_cli_analysis(int argc, char **argv, const char *about, int parts)
     const char *const names[] = {"xml", "csv", "report", "plot"};
     if (br_cli_outputs(argv[0], names, out, 4, (const char *const *)pos, 1) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
-    br_steady_opts so;
-    br_steady_opts_default(&so);
-    if ((limit && solver_limit(argv[0], limit, &so) != BR_EXIT_OK) ||
+    long limit_n;
+    if (solver_limit(argv[0], limit, &limit_n) != BR_EXIT_OK ||
         br_cli_startup_method(argv[0], method, &su_method) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
     outputs o = {0};
     br_error err;
     br_error_clear(&err);
-    int status;
+    int status, verdict = BR_RESULT_PASS;
     if (outputs_alloc(&o, &p, &err) != BR_OK)
         status = br_cli_fail(&err, NULL);
+    else if (br_analysis_set_solver_limit(o.a, limit_n) != BR_OK)
+        status = br_cli_usage_error(argv[0], "--solver-limit: out of range");
     else
-        status = run(pos[0], argv[0], parts, &so, su_method, &o, &p, quiet);
-    if (status == BR_EXIT_OK && br_results_failed(o.res))
-        status = BR_EXIT_FAIL;
-    else if (status == BR_EXIT_OK && br_results_undetermined(o.res))
-        status = BR_EXIT_UNDETERMINED;
+        status = run(pos[0], argv[0], parts, su_method, &o, &p, quiet);
+    if (status == BR_EXIT_OK && br_verdict_result(o.a, &verdict) == BR_OK)
+        status = verdict == BR_RESULT_FAIL           ? BR_EXIT_FAIL
+                 : verdict == BR_RESULT_UNDETERMINED ? BR_EXIT_UNDETERMINED
+                                                     : BR_EXIT_OK;
     outputs_free(&o);
     return status;
 }

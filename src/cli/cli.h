@@ -9,7 +9,6 @@
 #define BR_CLI_H
 
 #include "bootrung/bootrung.h"
-#include "core/progress.h"
 
 #include <signal.h>
 #include <stdio.h>
@@ -157,9 +156,10 @@ int br_cli_write(const br_cli_file *files, int nfiles, const br_text *report, in
  * arriving while it does is held until the files are complete, and then
  * ignored: the run has finished), or, after printing "bootrung:
  * interrupted", BR_EXIT_INTERRUPTED or BR_EXIT_TERMINATED, and the verb
- * writes nothing.  br_cli_run_end restores the signals as they were. */
+ * writes nothing.  br_cli_run_end restores the signals as they were.
+ * Hand the run to a study with the public setter:
+ * br_*_set_progress(obj, br_cli_run_progress, br_cli_run_stop, r). */
 typedef struct br_cli_run {
-    br_progress hook;        /* hand &hook to the analysis */
     const char *label;       /* what the bar says: the verb */
     int draw;                /* a bar may be drawn */
     int drawn;               /* a bar is on the terminal now */
@@ -173,9 +173,7 @@ typedef struct br_cli_run {
 } br_cli_run;
 
 void br_cli_run_begin(br_cli_run *r, const char *label, int quiet);
-/* The same hook and stop poll for the public API's setters
- * (br_*_set_progress(obj, br_cli_run_progress, br_cli_run_stop, r)):
- * ctx is the br_cli_run. */
+/* The hook and the stop poll of a run (ctx is the br_cli_run). */
 int br_cli_run_progress(void *ctx, double done, double total);
 int br_cli_run_stop(void *ctx);
 int br_cli_run_commit(br_cli_run *r);
@@ -205,7 +203,7 @@ int cmd_explore(int argc, char **argv);
 int cmd_merge(int argc, char **argv);
 
 /* The shared body of the analysis verbs: options --xml/--csv/--quiet, the
- * help text `about`, the analyses `parts` (BR_RUN_* of report/results.h). */
+ * help text `about`, the analyses `parts` (BR_PART_* of bootrung/analysis.h). */
 int br_cli_analysis(int argc, char **argv, const char *about, int parts);
 
 /* `analyze --pack DIR`: every verb run on design (and pick on catalog,

@@ -2,7 +2,7 @@
  * steady state with the verdict table. */
 #include "cli.h"
 
-#include "report/results.h"
+#include "bootrung/analysis.h"
 
 int cmd_analyze(int argc, char **argv)
 {
@@ -24,5 +24,5 @@ int cmd_analyze(int argc, char **argv)
         "into the new folder DIR (each one's HTML page, text, XML and CSV), the\n"
         "design copied in, index.html linking them with the model's assumptions and\n"
         "each part's source, SHA256SUMS and commands.sh to run them again there.\n",
-        BR_RUN_ALL);
+        BR_PART_ALL);
 }

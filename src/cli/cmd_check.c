@@ -2,36 +2,28 @@
  * design rules that need no simulation. */
 #include "cli.h"
 
-#include "analyses/spread.h"
-#include "core/error.h"
-#include "report/check_report.h"
-#include "report/verb_pages.h"
+#include "bootrung/analysis.h"
+#include "bootrung/report.h"
 
-#include <stdlib.h>
-
-static const char *const VERDICT[] = {"design rules:", NULL};
+static const char *const VERDICT[] = {BR_CHECK_VERDICT, NULL};
 
 typedef struct outputs {
     br_text *text, *html;
-    int nwarn, nfatal;
+    br_design_check *k;
 } outputs;
 
-/* Load, build and render; returns a br_status with err filled. */
-static int run(const char *path, int strict, outputs *o, br_error *err)
+/* Load, check and render; returns a br_status with err filled. */
+static int run(const char *path, outputs *o, br_error *err)
 {
     br_design *d = NULL;
-    br_chain *c = NULL;
     int rc = br_design_load(path, &d, err);
     if (rc == BR_OK)
-        rc = br_chain_build(d, &c, err);
-    if (rc == BR_OK)
-        rc = br_check_report(c, o->text, &o->nwarn, &o->nfatal, err);
-    int fails = o->nfatal > 0 || (strict && o->nwarn > 0);
-    if (rc == BR_OK && o->html)
-        rc = br_text_html(c, "design check", fails ? BR_OUTCOME_FAIL : BR_OUTCOME_PASS, VERDICT, 0,
-                          o->text, o->html, err);
-    br_chain_free(c);
+        rc = br_design_check_run(o->k, d, err);
     br_design_free(d);
+    if (rc == BR_OK)
+        rc = br_design_check_render(o->k, BR_FORMAT_TEXT, o->text, err);
+    if (rc == BR_OK && o->html)
+        rc = br_design_check_render(o->k, BR_FORMAT_HTML, o->html, err);
     return rc;
 }
 
@@ -63,22 +55,23 @@ int cmd_check(int argc, char **argv)
     const char *const out[] = {report}, *const names[] = {"report"};
     if (br_cli_outputs("check", names, out, 1, (const char *const *)pos, 1) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
-    outputs o = {br_text_create(), report ? br_text_create() : NULL, 0, 0};
+    outputs o = {br_text_create(), report ? br_text_create() : NULL, br_design_check_create()};
     br_error err;
     br_error_clear(&err);
-    int status;
-    if (!o.text || (report && !o.html)) {
+    int status, res = BR_RESULT_PASS;
+    if (!o.text || (report && !o.html) || !o.k) {
         br_error_set(&err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
         status = br_cli_fail(&err, NULL);
-    } else if (run(pos[0], strict, &o, &err) != BR_OK) {
+    } else if (br_design_check_set_strict(o.k, strict) != BR_OK || run(pos[0], &o, &err) != BR_OK) {
         status = br_cli_fail(&err, pos[0]);
     } else {
         const br_cli_file files[] = {{o.html, report}};
         status = br_cli_write(files, 1, o.text, quiet, VERDICT, 0);
     }
+    if (status == BR_EXIT_OK && br_design_check_result(o.k, &res) == BR_OK && res == BR_RESULT_FAIL)
+        status = BR_EXIT_FAIL;
     br_text_free(o.text);
     br_text_free(o.html);
-    if (status == BR_EXIT_OK && (o.nfatal > 0 || (strict && o.nwarn > 0)))
-        status = BR_EXIT_FAIL;
+    br_design_check_free(o.k);
     return status;
 }

@@ -2,15 +2,10 @@
  * over the tolerances of the design file. */
 #include "cli.h"
 
-#include "core/error.h"
-#include "report/corners_report.h"
-#include "report/verb_pages.h"
+#include "bootrung/analysis.h"
+#include "bootrung/report.h"
 
 #include <string.h>
-
-#ifndef BR_VERSION
-#define BR_VERSION "unknown"
-#endif
 
 static const char ABOUT[] =
     "Worst-case (extreme-value) analysis of design FILE over the tolerances its\n"
@@ -29,7 +24,7 @@ static const char ABOUT[] =
     "criterion passes at its worst corner, 1 when one fails, 3 when none fails\n"
     "but one is undetermined somewhere, 2 for bad input.\n";
 
-static const char *const VERDICT[] = {"verdict at the worst corners:", NULL};
+static const char *const VERDICT[] = {BR_CORNERS_VERDICT, NULL};
 
 typedef struct args {
     const char *xml, *report, *threads, *exhaustive, *limit, *method;
@@ -37,73 +32,65 @@ typedef struct args {
     int su_method; /* br_su_method */
 } args;
 
-/* Options into corners options; BR_EXIT_OK or a usage error's status. */
-static int options(args *a, br_corners_opts *o)
+/* The options, checked, into the search's settings; BR_EXIT_OK or a usage
+ * error's status. */
+static int options(args *a, br_corner_search *s)
 {
     long v;
-    br_corners_opts_default(o);
     if (br_cli_startup_method("corners", a->method, &a->su_method))
         return BR_EXIT_INPUT;
-    o->startup = !a->no_startup;
+    br_corner_search_set_startup(s, !a->no_startup);
     if (a->threads) {
-        if (br_cli_long("corners", "threads", a->threads, 1, BR_SPREAD_MAX_THREADS, &v))
+        if (br_cli_long("corners", "threads", a->threads, 1, BR_THREADS_MAX, &v))
             return BR_EXIT_INPUT;
-        o->threads = (int)v;
+        br_corner_search_set_threads(s, (int)v);
     }
     if (a->exhaustive) {
-        if (br_cli_long("corners", "exhaustive", a->exhaustive, 0, 16, &v))
+        if (br_cli_long("corners", "exhaustive", a->exhaustive, 0, BR_CORNERS_EXHAUSTIVE_MAX, &v))
             return BR_EXIT_INPUT;
-        o->max_exhaustive = (int)v;
+        br_corner_search_set_exhaustive(s, (int)v);
     }
     if (a->limit) {
-        if (br_cli_long("corners", "solver-limit", a->limit, 1, 100000, &v))
+        if (br_cli_long("corners", "solver-limit", a->limit, 1, BR_SOLVER_LIMIT_MAX, &v))
             return BR_EXIT_INPUT;
-        o->solver_limit = (int)v;
+        br_corner_search_set_solver_limit(s, v);
     }
     return BR_EXIT_OK;
 }
 
 typedef struct outputs {
-    br_design *d;
-    br_chain *c;
-    br_corners *k;
+    br_corner_search *s;
     br_text *text, *xml, *html;
 } outputs;
 
 static void outputs_free(outputs *o)
 {
-    br_corners_free(o->k);
-    br_chain_free(o->c);
-    br_design_free(o->d);
+    br_corner_search_free(o->s);
     br_text_free(o->text);
     br_text_free(o->xml);
     br_text_free(o->html);
 }
 
-static int compute(const char *path, const br_corners_opts *opts, const args *a, outputs *o,
-                   br_error *err)
+static int compute(const char *path, const args *a, outputs *o, br_error *err)
 {
     o->text = br_text_create();
     o->xml = a->xml ? br_text_create() : NULL;
     o->html = a->report ? br_text_create() : NULL;
     if (!o->text || (a->xml && !o->xml) || (a->report && !o->html))
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
-    int rc = br_design_load(path, &o->d, err);
+    br_design *d = NULL;
+    int rc = br_design_load(path, &d, err);
     if (rc == BR_OK) {
-        br_design_set_startup_method(o->d, a->su_method);
-        rc = br_chain_build(o->d, &o->c, err);
+        br_design_set_startup_method(d, a->su_method);
+        rc = br_corner_search_run(o->s, d, err);
     }
+    br_design_free(d);
     if (rc == BR_OK)
-        rc = br_corners_run(o->d, opts, &o->k, err);
-    if (rc == BR_OK)
-        rc = br_corners_text(o->c, o->k, o->text);
+        rc = br_corner_search_render(o->s, BR_FORMAT_TEXT, o->text, err);
     if (rc == BR_OK && a->xml)
-        rc = br_corners_xml(o->c, o->k, BR_VERSION, o->xml, err);
+        rc = br_corner_search_render(o->s, BR_FORMAT_XML, o->xml, err);
     if (rc == BR_OK && a->report)
-        rc = br_text_html(o->c, "worst-case corners", o->k->outcome, VERDICT, 1, o->text, o->html,
-                          err);
-    if (rc == BR_ENOMEM && !err->msg[0])
-        br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory rendering the report");
+        rc = br_corner_search_render(o->s, BR_FORMAT_HTML, o->html, err);
     return rc;
 }
 
@@ -137,24 +124,31 @@ int cmd_corners(int argc, char **argv)
     int parsed = br_cli_parse(&doc, argc, argv, pos);
     if (parsed != 0)
         return br_cli_parse_status(parsed);
-    br_corners_opts co;
+    outputs o = {br_corner_search_create(), NULL, NULL, NULL};
     const char *const out[] = {a.xml, a.report}, *const names[] = {"xml", "report"};
-    if (options(&a, &co) != BR_EXIT_OK ||
-        br_cli_outputs("corners", names, out, 2, (const char *const *)pos, 1) != BR_EXIT_OK)
+    if (!o.s) {
+        fprintf(stderr, "bootrung: out of memory\n");
         return BR_EXIT_INPUT;
-    outputs o = {0};
+    }
+    if (options(&a, o.s) != BR_EXIT_OK ||
+        br_cli_outputs("corners", names, out, 2, (const char *const *)pos, 1) != BR_EXIT_OK) {
+        outputs_free(&o);
+        return BR_EXIT_INPUT;
+    }
     br_error err;
     br_error_clear(&err);
     br_cli_run lr;
     br_cli_run_begin(&lr, "corners", a.quiet);
-    co.progress = &lr.hook;
-    int rc = compute(pos[0], &co, &a, &o, &err);
+    br_corner_search_set_progress(o.s, br_cli_run_progress, br_cli_run_stop, &lr);
+    int rc = compute(pos[0], &a, &o, &err);
     int status = br_cli_run_commit(&lr);
     if (status == BR_EXIT_OK)
         status = rc != BR_OK ? br_cli_fail(&err, pos[0]) : write_all(&a, &o);
     br_cli_run_end(&lr);
-    if (status == BR_EXIT_OK && o.k->outcome != BR_OUTCOME_PASS)
-        status = o.k->outcome == BR_OUTCOME_FAIL ? BR_EXIT_FAIL : BR_EXIT_UNDETERMINED;
+    br_corner_search_set_progress(o.s, NULL, NULL, NULL);
+    int res = BR_RESULT_PASS;
+    if (status == BR_EXIT_OK && br_corner_result(o.s, &res) == BR_OK && res != BR_RESULT_PASS)
+        status = res == BR_RESULT_FAIL ? BR_EXIT_FAIL : BR_EXIT_UNDETERMINED;
     outputs_free(&o);
     return status;
 }

@@ -407,7 +407,7 @@ int br_cli_explore_main(int argc, char **argv, const br_cli_given *given)
     br_error_clear(&err);
     br_cli_run lr;
     br_cli_run_begin(&lr, "explore", a.quiet);
-    eo.progress = &lr.hook;
+    eo.progress = BR_CLI_HOOK(&lr);
     int rc = compute(pos[0], &a, &eo, &o, &err);
     int status = br_cli_run_commit(&lr);
     if (status == BR_EXIT_OK && rc != BR_OK)

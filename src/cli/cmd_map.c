@@ -4,13 +4,9 @@
 #include "cli.h"
 #include "shard.h"
 
-#include "analyses/map.h"
-#include "core/error.h"
-#include "core/units.h"
-#include "report/map_report.h"
-#include "report/verb_pages.h"
+#include "bootrung/analysis.h"
+#include "bootrung/report.h"
 
-#include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -56,9 +52,9 @@ static int parse_axis(const char *opt, const char *text, br_kind kind, double *f
         br_unit_parse(part[1], kind, to, &err) != BR_OK)
         return br_cli_usage_error("map", "--%s '%s': %s", opt, text, err.msg);
     long v = strtol(part[2], &end, 10);
-    if (*end || v < 1 || v > BR_MAP_MAX_N)
+    if (*end || v < 1 || v > BR_MAP_POINTS_MAX)
         return br_cli_usage_error("map", "--%s '%s': N must be a whole number from 1 to %d", opt,
-                                  text, BR_MAP_MAX_N);
+                                  text, BR_MAP_POINTS_MAX);
     *n = (int)v;
     return BR_EXIT_OK;
 }
@@ -67,9 +63,9 @@ static int parse_threads(const char *text, int *out)
 {
     char *end = NULL;
     long v = text ? strtol(text, &end, 10) : 2;
-    if (text && (*end || v < 1 || v > BR_MAP_MAX_THREADS))
+    if (text && (*end || v < 1 || v > BR_MAP_THREADS_MAX))
         return br_cli_usage_error("map", "--threads '%s': expected 1 to %d", text,
-                                  BR_MAP_MAX_THREADS);
+                                  BR_MAP_THREADS_MAX);
     *out = (int)v;
     return BR_EXIT_OK;
 }
@@ -82,7 +78,7 @@ typedef struct paths {
 
 typedef struct outputs {
     br_text *text, *csv, *svg, *html;
-    br_map *m;
+    br_map_study *m;
 } outputs;
 
 static void outputs_free(outputs *o)
@@ -91,34 +87,28 @@ static void outputs_free(outputs *o)
     br_text_free(o->csv);
     br_text_free(o->svg);
     br_text_free(o->html);
-    br_map_free(o->m);
+    br_map_study_free(o->m);
 }
 
-static int compute(const char *path, const br_map_opts *mo, const paths *p, outputs *o,
-                   br_error *err)
+static int compute(const char *path, const paths *p, outputs *o, br_error *err)
 {
     br_design *d = NULL;
-    br_chain *c = NULL;
     int rc = br_design_load(path, &d, err);
     if (rc == BR_OK)
-        rc = br_chain_build(d, &c, err);
-    if (rc == BR_OK)
-        rc = br_map_run(d, mo, &o->m, err);
-    if (mo->shard_n > 0) { /* a slice: no report */
-        br_chain_free(c);
-        br_design_free(d);
-        return rc;
-    }
-    if (rc == BR_OK)
-        rc = br_map_text(c, o->m, p->csv, p->svg ? p->svg : p->plot, o->text, err);
-    if (rc == BR_OK && o->csv)
-        rc = br_map_csv(c, o->m, o->csv, err);
-    if (rc == BR_OK && o->svg)
-        rc = br_map_svg(c, o->m, o->svg, err);
-    if (rc == BR_OK && o->html)
-        rc = br_map_html(c, o->m, o->text, o->html, err);
-    br_chain_free(c);
+        rc = br_map_study_run(o->m, d, err);
     br_design_free(d);
+    if (p->shard) /* a slice: no report */
+        return rc;
+    if (rc == BR_OK)
+        rc = br_map_study_set_file_names(o->m, p->csv, p->svg ? p->svg : p->plot) == BR_OK
+                 ? br_map_study_render(o->m, BR_FORMAT_TEXT, o->text, err)
+                 : br_error_set(err, BR_EINPUT, NULL, 0, NULL, "a file name is too long");
+    if (rc == BR_OK && o->csv)
+        rc = br_map_study_render(o->m, BR_FORMAT_CSV, o->csv, err);
+    if (rc == BR_OK && o->svg)
+        rc = br_map_study_render(o->m, BR_FORMAT_SVG, o->svg, err);
+    if (rc == BR_OK && o->html)
+        rc = br_map_study_render(o->m, BR_FORMAT_HTML, o->html, err);
     return rc;
 }
 
@@ -126,82 +116,88 @@ static int compute(const char *path, const br_map_opts *mo, const paths *p, outp
  * summary's place. */
 static int write_all(const outputs *o, const paths *p, int quiet)
 {
-    static const char *const verdict[] = {"design point:", NULL};
+    static const char *const verdict[] = {BR_MAP_VERDICT, NULL};
     const br_cli_file files[] = {
         {o->csv, p->csv}, {o->svg, p->svg}, {o->svg, p->plot}, {o->html, p->report}};
     int status = br_cli_write(files, 4, o->text, quiet, verdict, 0);
-    if (status == BR_EXIT_OK && isnan(o->m->design.margin))
-        status = BR_EXIT_UNDETERMINED; /* no steady state found: not a failure */
-    else if (status == BR_EXIT_OK && !o->m->design.holds)
-        status = BR_EXIT_FAIL;
+    int res = BR_RESULT_PASS;
+    if (status == BR_EXIT_OK && br_map_result(o->m, &res) == BR_OK && res != BR_RESULT_PASS)
+        /* no steady state found: not a failure */
+        status = res == BR_RESULT_UNDETERMINED ? BR_EXIT_UNDETERMINED : BR_EXIT_FAIL;
     return status;
 }
 
 /* The shard's points (its rows and the design column), then the design point. */
-static int write_shard(int argc, char **argv, const char *path, const br_map_opts *mo,
-                       const paths *p, const br_map *m)
+static int write_shard(int argc, char **argv, const char *path, int k, int n, const paths *p,
+                       const br_map_study *m)
 {
-    long n = (long)m->nduty * m->nfsw;
-    br_hold_point *rec = malloc(sizeof *rec * (size_t)(n + 1));
-    unsigned char *mine = malloc((size_t)(n + 1));
-    int status;
-    if (!rec || !mine) {
+    const void *rec = NULL;
+    long total = 0;
+    br_map_records(m, &rec, &total);
+    unsigned char *mine = malloc(total > 0 ? (size_t)total : 1);
+    if (!mine) {
         br_error err;
         br_error_set(&err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
-        status = br_cli_fail(&err, NULL);
-    } else {
-        for (long k = 0; k < n; k++) {
-            rec[k] = *br_map_at(m, (int)(k % m->nduty), (int)(k / m->nduty));
-            mine[k] =
-                (unsigned char)br_map_shard_has(m, mo, (int)(k % m->nduty), (int)(k / m->nduty));
-        }
-        rec[n] = m->design;
-        mine[n] = 1;
-        br_shard_head h = {argc,        argv,  path, mo->shard_k, mo->shard_n,
-                           sizeof *rec, n + 1, NULL, NULL};
-        status = br_cli_shard_write(&h, rec, mine, p->shard_file ? p->shard_file : "-");
+        return br_cli_fail(&err, NULL);
     }
-    free(rec);
+    for (long i = 0; i < total; i++) {
+        int has = 0;
+        br_map_study_judges(m, i, &has);
+        mine[i] = (unsigned char)has;
+    }
+    br_shard_head h = {argc, argv, path, k, n, br_map_record_size(), total, NULL, NULL};
+    int status = br_cli_shard_write(&h, rec, mine, p->shard_file ? p->shard_file : "-");
     free(mine);
     return status;
 }
 
-static int run(int argc, char **argv, const char *path, br_map_opts *mo, const paths *p, int quiet)
+static int run(int argc, char **argv, const char *path, outputs *o, int k, int n, const paths *p,
+               int quiet)
 {
     int want_svg = p->svg || p->plot;
-    outputs o = {br_text_create(), p->csv ? br_text_create() : NULL,
-                 want_svg ? br_text_create() : NULL, p->report ? br_text_create() : NULL, NULL};
+    o->text = br_text_create();
+    o->csv = p->csv ? br_text_create() : NULL;
+    o->svg = want_svg ? br_text_create() : NULL;
+    o->html = p->report ? br_text_create() : NULL;
     br_error err;
     br_error_clear(&err);
     int status;
-    if (!o.text || (p->csv && !o.csv) || (want_svg && !o.svg) || (p->report && !o.html)) {
+    if (!o->text || (p->csv && !o->csv) || (want_svg && !o->svg) || (p->report && !o->html)) {
         br_error_set(&err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
         status = br_cli_fail(&err, NULL);
     } else {
         br_cli_run lr;
         br_cli_run_begin(&lr, "map", quiet);
-        mo->progress = &lr.hook;
-        int rc = compute(path, mo, p, &o, &err);
+        br_map_study_set_progress(o->m, br_cli_run_progress, br_cli_run_stop, &lr);
+        int rc = compute(path, p, o, &err);
         int stop = br_cli_run_commit(&lr);
-        status = stop              ? stop
-                 : rc != BR_OK     ? br_cli_fail(&err, path)
-                 : mo->shard_n > 0 ? write_shard(argc, argv, path, mo, p, o.m)
-                                   : write_all(&o, p, quiet);
+        status = stop          ? stop
+                 : rc != BR_OK ? br_cli_fail(&err, path)
+                 : n > 0       ? write_shard(argc, argv, path, k, n, p, o->m)
+                               : write_all(o, p, quiet);
         br_cli_run_end(&lr);
-        mo->progress = NULL;
+        br_map_study_set_progress(o->m, NULL, NULL, NULL);
     }
-    outputs_free(&o);
     return status;
 }
 
-/* The points merged from shards, checked against the grid asked for. */
-static int take_given(br_map_opts *mo, const br_cli_given *given)
+/* The grid, the threads and the shard into the study; BR_EXIT_OK or a
+ * usage error's status. */
+static int settings(br_map_study *m, const char *duty, const char *freq, const char *threads,
+                    const paths *p, int *k, int *n, const br_cli_given *given)
 {
-    if (!given)
-        return BR_EXIT_OK;
-    if (given->size != sizeof(br_hold_point) || given->total != (long)mo->nduty * mo->nfsw + 1)
+    double d0, d1, f0, f1;
+    int nd, nf, nt = 2;
+    *k = *n = 0;
+    if (parse_axis("duty", duty, BR_KIND_FRACTION, &d0, &d1, &nd) ||
+        parse_axis("freq", freq, BR_KIND_FREQUENCY, &f0, &f1, &nf) || parse_threads(threads, &nt) ||
+        (p->shard && br_cli_shard_parse("map", p->shard, k, n)))
+        return BR_EXIT_INPUT;
+    br_map_study_set_grid(m, d0, d1, nd, f0, f1, nf);
+    br_map_study_set_threads(m, nt);
+    br_map_study_set_shard(m, *k, *n);
+    if (given && br_map_study_set_given(m, given->rec, given->size, given->total) != BR_OK)
         return br_cli_usage_error("merge", "the shards' points do not fit the map's grid");
-    mo->given = given->rec;
     return BR_EXIT_OK;
 }
 
@@ -241,18 +237,22 @@ int br_cli_map_main(int argc, char **argv, const br_cli_given *given)
     const char *const names[] = {"csv", "svg", "plot", "report", "shard-file"};
     if (br_cli_outputs("map", names, out, 5, (const char *const *)pos, 1) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
-    br_map_opts mo = {0};
-    if (parse_axis("duty", duty, BR_KIND_FRACTION, &mo.duty_from, &mo.duty_to, &mo.nduty) ||
-        parse_axis("freq", freq, BR_KIND_FREQUENCY, &mo.fsw_from, &mo.fsw_to, &mo.nfsw) ||
-        parse_threads(threads, &mo.threads) ||
-        (p.shard && br_cli_shard_parse("map", p.shard, &mo.shard_k, &mo.shard_n)) ||
-        take_given(&mo, given))
+    outputs o = {0};
+    if (!(o.m = br_map_study_create())) {
+        fprintf(stderr, "bootrung: out of memory\n");
         return BR_EXIT_INPUT;
-    if (p.shard_file && !p.shard)
-        return br_cli_usage_error("map", "--shard-file without --shard");
+    }
+    int k, n, status;
     br_error err;
     br_error_clear(&err);
-    if (br_map_opts_check(&mo, &err) != BR_OK)
-        return br_cli_usage_error("map", "--%s: %s", err.field, err.msg);
-    return run(argc, argv, pos[0], &mo, &p, quiet);
+    if (settings(o.m, duty, freq, threads, &p, &k, &n, given))
+        status = BR_EXIT_INPUT;
+    else if (p.shard_file && !p.shard)
+        status = br_cli_usage_error("map", "--shard-file without --shard");
+    else if (br_map_study_check(o.m, &err) != BR_OK)
+        status = br_cli_usage_error("map", "--%s: %s", err.field, err.msg);
+    else
+        status = run(argc, argv, pos[0], &o, k, n, &p, quiet);
+    outputs_free(&o);
+    return status;
 }

@@ -4,8 +4,6 @@
 #include "cli.h"
 #include "shard.h"
 
-#include "core/error.h"
-
 #include <errno.h>
 #include <stdarg.h>
 #include <stdio.h>

@@ -181,7 +181,7 @@ int cmd_pick(int argc, char **argv)
     const char *culprit = pos[0];
     br_cli_run lr;
     br_cli_run_begin(&lr, "pick", a.quiet);
-    po.progress = &lr.hook;
+    po.progress = BR_CLI_HOOK(&lr);
     int rc = compute(pos[0], &a, &po, &o, &culprit, &err);
     int status = br_cli_run_commit(&lr);
     if (status == BR_EXIT_OK)

@@ -140,7 +140,7 @@ int cmd_size(int argc, char **argv)
     br_error_clear(&err);
     br_cli_run lr;
     br_cli_run_begin(&lr, "size", a.quiet);
-    so.progress = &lr.hook;
+    so.progress = BR_CLI_HOOK(&lr);
     int rc = compute(pos[0], &a, &so, &o, &err);
     int status = br_cli_run_commit(&lr);
     if (status == BR_EXIT_OK && rc != BR_OK)

@@ -1,7 +1,7 @@
 /* cmd_startup.c - `bootrung startup FILE`: the cold start of a design. */
 #include "cli.h"
 
-#include "report/results.h"
+#include "bootrung/analysis.h"
 
 int cmd_startup(int argc, char **argv)
 {
@@ -24,5 +24,5 @@ int cmd_startup(int argc, char **argv)
         "others, where the rails move slowly from one period to the next, are\n"
         "stepped over along the rails' envelope, and the report says how many of\n"
         "each (--startup-method periods integrates every one).\n",
-        BR_RUN_STARTUP);
+        BR_PART_STARTUP);
 }

@@ -2,7 +2,7 @@
  * running design, for each current direction it asks for. */
 #include "cli.h"
 
-#include "report/results.h"
+#include "bootrung/analysis.h"
 
 int cmd_steady(int argc, char **argv)
 {
@@ -24,5 +24,5 @@ int cmd_steady(int argc, char **argv)
         "Exit status 0 when the steady state holds and every margin is met, 1 when\n"
         "not, 2 for bad input, 3 when the solver did not converge or the simulation\n"
         "failed or reached its work limit (undetermined).\n",
-        BR_RUN_STEADY);
+        BR_PART_STEADY);
 }

@@ -121,7 +121,7 @@ int cmd_supply(int argc, char **argv)
     br_error_clear(&err);
     br_cli_run lr;
     br_cli_run_begin(&lr, "supply", a.quiet);
-    so.progress = &lr.hook;
+    so.progress = BR_CLI_HOOK(&lr);
     int rc = compute(pos[0], &a, &so, &o, &err);
     int status = br_cli_run_commit(&lr);
     if (status == BR_EXIT_OK)

@@ -3,20 +3,10 @@
  * the start-up window. */
 #include "cli.h"
 
-#include "analyses/window.h"
-#include "core/error.h"
-#include "core/units.h"
-#include "report/charts.h"
-#include "report/verb_pages.h"
-#include "report/window_report.h"
+#include "bootrung/analysis.h"
+#include "bootrung/report.h"
 
-#include <math.h>
 #include <stdlib.h>
-#include <string.h>
-
-#ifndef BR_VERSION
-#define BR_VERSION "unknown"
-#endif
 
 static const char ABOUT[] =
     "How far the design FILE can move from its operating point. In periodic\n"
@@ -61,7 +51,7 @@ typedef struct paths {
 
 typedef struct outputs {
     br_text *text, *xml, *html, *svg;
-    br_window *w;
+    br_window_study *w;
 } outputs;
 
 static void outputs_free(outputs *o)
@@ -70,70 +60,68 @@ static void outputs_free(outputs *o)
     br_text_free(o->xml);
     br_text_free(o->html);
     br_text_free(o->svg);
-    free(o->w);
+    br_window_study_free(o->w);
 }
 
 /* Load, analyse and render everything in memory. */
-static int compute(const char *path, const br_window_opts *wo, int su_method, outputs *o,
-                   br_error *err)
+static int compute(const char *path, int su_method, outputs *o, br_error *err)
 {
     br_design *d = NULL;
-    br_chain *c = NULL;
     int rc = br_design_load(path, &d, err);
     if (rc == BR_OK) {
         br_design_set_startup_method(d, su_method);
-        rc = br_chain_build(d, &c, err);
+        rc = br_window_study_run(o->w, d, err);
     }
-    if (rc == BR_OK)
-        rc = br_window_run(d, wo, o->w, err);
-    if (rc == BR_OK)
-        rc = br_window_text(c, o->w, o->text, err);
-    if (rc == BR_OK && o->xml)
-        rc = br_window_xml(c, o->w, BR_VERSION, o->xml, err);
-    if (rc == BR_OK && o->html)
-        rc = br_window_html(c, o->w, o->text, o->html, err);
-    if (rc == BR_OK && o->svg && br_chart_window(o->w, 1, o->svg) != BR_OK)
-        rc = br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory drawing the plot");
-    br_chain_free(c);
     br_design_free(d);
+    if (rc == BR_OK)
+        rc = br_window_study_render(o->w, BR_FORMAT_TEXT, o->text, err);
+    if (rc == BR_OK && o->xml)
+        rc = br_window_study_render(o->w, BR_FORMAT_XML, o->xml, err);
+    if (rc == BR_OK && o->html)
+        rc = br_window_study_render(o->w, BR_FORMAT_HTML, o->html, err);
+    if (rc == BR_OK && o->svg)
+        rc = br_window_study_render(o->w, BR_FORMAT_SVG, o->svg, err);
     return rc;
 }
 
 /* The files and the report, all or none (unless a file took stdout). */
 static int write_all(const outputs *o, const paths *p, int quiet)
 {
-    static const char *const verdict[] = {"design point:", NULL};
+    static const char *const verdict[] = {BR_WINDOW_VERDICT, NULL};
     const br_cli_file files[] = {{o->xml, p->xml}, {o->html, p->report}, {o->svg, p->plot}};
     return br_cli_write(files, 3, o->text, quiet, verdict, 0);
 }
 
-static int run(const char *path, const paths *p, br_window_opts *wo, int su_method, int quiet)
+/* The window's settings, then the run. */
+static int run(const char *path, const paths *p, int startup, double fmin, double fmax,
+               int su_method, int quiet)
 {
     outputs o = {br_text_create(), p->xml ? br_text_create() : NULL,
                  p->report ? br_text_create() : NULL, p->plot ? br_text_create() : NULL,
-                 malloc(sizeof(br_window))};
+                 br_window_study_create()};
     br_error err;
     br_error_clear(&err);
-    int status;
-    if (!o.text || !o.w || (p->xml && !o.xml) || (p->report && !o.html) || (p->plot && !o.svg)) {
+    int status, res = BR_RESULT_PASS;
+    if (!o.text || !o.w || (p->xml && !o.xml) || (p->report && !o.html) || (p->plot && !o.svg) ||
+        br_window_study_set_startup(o.w, startup) != BR_OK ||
+        br_window_study_set_range(o.w, fmin, fmax) != BR_OK) {
         br_error_set(&err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
         status = br_cli_fail(&err, NULL);
     } else {
         br_cli_run lr;
         br_cli_run_begin(&lr, "window", quiet);
-        wo->progress = &lr.hook;
-        int rc = compute(path, wo, su_method, &o, &err);
+        br_window_study_set_progress(o.w, br_cli_run_progress, br_cli_run_stop, &lr);
+        int rc = compute(path, su_method, &o, &err);
         status = br_cli_run_commit(&lr);
         if (status == BR_EXIT_OK && rc == BR_EUSAGE) /* an option does not fit the design */
             status = br_cli_usage_error("window", "%s: %s", err.field, err.msg);
         else if (status == BR_EXIT_OK)
             status = rc != BR_OK ? br_cli_fail(&err, path) : write_all(&o, p, quiet);
-        if (status == BR_EXIT_OK && isnan(o.w->design.margin))
-            status = BR_EXIT_UNDETERMINED; /* no steady state found: not a failure */
-        else if (status == BR_EXIT_OK && !o.w->design.holds)
-            status = BR_EXIT_FAIL;
+        if (status == BR_EXIT_OK && br_window_result(o.w, &res) == BR_OK &&
+            res != BR_RESULT_PASS) /* no steady state found: not a failure */
+            status = res == BR_RESULT_UNDETERMINED ? BR_EXIT_UNDETERMINED : BR_EXIT_FAIL;
         br_cli_run_end(&lr);
-        wo->progress = NULL;
+        br_window_study_set_progress(o.w, NULL, NULL, NULL);
     }
     outputs_free(&o);
     return status;
@@ -165,16 +153,14 @@ int cmd_window(int argc, char **argv)
     int parsed = br_cli_parse(&doc, argc, argv, pos);
     if (parsed != 0)
         return br_cli_parse_status(parsed);
-    br_window_opts wo;
-    br_window_opts_default(&wo);
-    wo.startup = startup;
-    if (parse_freq("fmin", fmin, &wo.fmin) != BR_EXIT_OK ||
-        parse_freq("fmax", fmax, &wo.fmax) != BR_EXIT_OK ||
+    double lo, hi;
+    if (parse_freq("fmin", fmin, &lo) != BR_EXIT_OK ||
+        parse_freq("fmax", fmax, &hi) != BR_EXIT_OK ||
         br_cli_startup_method("window", method, &su_method) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
     const char *const out[] = {p.xml, p.report, p.plot};
     const char *const names[] = {"xml", "report", "plot"};
     if (br_cli_outputs("window", names, out, 3, (const char *const *)pos, 1) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
-    return run(pos[0], &p, &wo, su_method, quiet);
+    return run(pos[0], &p, startup, lo, hi, su_method, quiet);
 }

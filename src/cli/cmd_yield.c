@@ -3,17 +3,11 @@
 #include "cli.h"
 #include "shard.h"
 
-#include "core/error.h"
-#include "report/charts.h"
-#include "report/verb_pages.h"
-#include "report/yield_report.h"
+#include "bootrung/analysis.h"
+#include "bootrung/report.h"
 
 #include <stdlib.h>
 #include <string.h>
-
-#ifndef BR_VERSION
-#define BR_VERSION "unknown"
-#endif
 
 static const char ABOUT[] =
     "Monte Carlo yield of design FILE: --samples sets of values drawn from the\n"
@@ -41,48 +35,44 @@ typedef struct args {
     int su_method; /* br_su_method */
 } args;
 
-static int options(args *a, br_yield_opts *o, double *min_yield)
+/* The options, checked, into the study's settings; BR_EXIT_OK or a usage
+ * error's status. */
+static int options(args *a, br_yield_study *y)
 {
-    long v;
-    br_yield_opts_default(o);
+    long v, samples = BR_YIELD_DEFAULT_SAMPLES, seed = (long)BR_YIELD_DEFAULT_SEED;
+    double min_yield = -1.0;
     if (br_cli_startup_method("yield", a->method, &a->su_method))
         return BR_EXIT_INPUT;
-    *min_yield = BR_MIN_YIELD_NONE;
-    o->startup = a->startup;
-    if (a->samples && br_cli_long("yield", "samples", a->samples, 1, 10000000L, &o->samples))
+    br_yield_study_set_startup(y, a->startup);
+    if (a->samples && br_cli_long("yield", "samples", a->samples, 1, 10000000L, &samples))
         return BR_EXIT_INPUT;
-    if (a->seed) {
-        if (br_cli_long("yield", "seed", a->seed, 0, 4294967295L, &v))
-            return BR_EXIT_INPUT;
-        o->seed = (unsigned long)v;
-    }
+    if (a->seed && br_cli_long("yield", "seed", a->seed, 0, 4294967295L, &seed))
+        return BR_EXIT_INPUT;
+    br_yield_study_set_samples(y, samples, (unsigned long)seed);
     if (a->threads) {
-        if (br_cli_long("yield", "threads", a->threads, 1, BR_SPREAD_MAX_THREADS, &v))
+        if (br_cli_long("yield", "threads", a->threads, 1, BR_THREADS_MAX, &v))
             return BR_EXIT_INPUT;
-        o->threads = (int)v;
+        br_yield_study_set_threads(y, (int)v);
     }
-    if (a->min_yield && br_cli_fraction("yield", "min-yield", a->min_yield, min_yield))
+    if (a->min_yield && br_cli_fraction("yield", "min-yield", a->min_yield, &min_yield))
         return BR_EXIT_INPUT;
+    br_yield_study_set_min_yield(y, min_yield);
     if (a->limit) {
-        if (br_cli_long("yield", "solver-limit", a->limit, 1, 100000, &v))
+        if (br_cli_long("yield", "solver-limit", a->limit, 1, BR_SOLVER_LIMIT_MAX, &v))
             return BR_EXIT_INPUT;
-        o->solver_limit = (int)v;
+        br_yield_study_set_solver_limit(y, v);
     }
     return BR_EXIT_OK;
 }
 
 typedef struct outputs {
-    br_design *d;
-    br_chain *c;
-    br_yield *y;
+    br_yield_study *y;
     br_text *text, *xml, *csv, *html, *svg;
 } outputs;
 
 static void outputs_free(outputs *o)
 {
-    br_yield_free(o->y);
-    br_chain_free(o->c);
-    br_design_free(o->d);
+    br_yield_study_free(o->y);
     br_text_free(o->text);
     br_text_free(o->xml);
     br_text_free(o->csv);
@@ -90,24 +80,21 @@ static void outputs_free(outputs *o)
     br_text_free(o->svg);
 }
 
-static int render(const args *a, double min_yield, outputs *o, br_error *err)
+static int render(const args *a, outputs *o, br_error *err)
 {
-    int rc = br_yield_text(o->c, o->y, min_yield, o->text);
+    int rc = br_yield_study_render(o->y, BR_FORMAT_TEXT, o->text, err);
     if (rc == BR_OK && a->xml)
-        rc = br_yield_xml(o->c, o->y, min_yield, BR_VERSION, o->xml, err);
+        rc = br_yield_study_render(o->y, BR_FORMAT_XML, o->xml, err);
     if (rc == BR_OK && a->csv)
-        rc = br_yield_csv(o->y, o->csv);
+        rc = br_yield_study_render(o->y, BR_FORMAT_CSV, o->csv, err);
     if (rc == BR_OK && a->report)
-        rc = br_yield_html(o->c, o->y, min_yield, o->text, o->html, err);
+        rc = br_yield_study_render(o->y, BR_FORMAT_HTML, o->html, err);
     if (rc == BR_OK && a->plot)
-        rc = br_chart_yield(o->y, 1, o->svg);
-    if (rc == BR_ENOMEM && !err->msg[0])
-        br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory rendering the report");
+        rc = br_yield_study_render(o->y, BR_FORMAT_SVG, o->svg, err);
     return rc;
 }
 
-static int compute(const char *path, const args *a, const br_yield_opts *yo, double min_yield,
-                   outputs *o, br_error *err)
+static int compute(const char *path, const args *a, int shard, outputs *o, br_error *err)
 {
     o->text = br_text_create();
     o->xml = a->xml ? br_text_create() : NULL;
@@ -117,57 +104,63 @@ static int compute(const char *path, const args *a, const br_yield_opts *yo, dou
     if (!o->text || (a->xml && !o->xml) || (a->csv && !o->csv) || (a->report && !o->html) ||
         (a->plot && !o->svg))
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
-    int rc = br_design_load(path, &o->d, err);
+    br_design *d = NULL;
+    int rc = br_design_load(path, &d, err);
     if (rc == BR_OK) {
-        br_design_set_startup_method(o->d, a->su_method);
-        rc = br_chain_build(o->d, &o->c, err);
+        br_design_set_startup_method(d, a->su_method);
+        rc = br_yield_study_run(o->y, d, err);
     }
-    if (rc == BR_OK)
-        rc = br_yield_run(o->d, yo, &o->y, err);
-    if (rc == BR_OK && yo->shard_n <= 0)
-        rc = render(a, min_yield, o, err);
+    br_design_free(d);
+    if (rc == BR_OK && !shard)
+        rc = render(a, o, err);
     return rc;
 }
 
 /* The files and the report, all or none (unless a file took stdout). */
 static int write_all(const args *a, const outputs *o)
 {
-    static const char *const verdict[] = {"verdict:", NULL};
+    static const char *const verdict[] = {BR_YIELD_VERDICT, NULL};
     const br_cli_file files[] = {
         {o->xml, a->xml}, {o->csv, a->csv}, {o->html, a->report}, {o->svg, a->plot}};
     return br_cli_write(files, 4, o->text, a->quiet, verdict, 1);
 }
 
 /* The shard's samples, judged. */
-static int write_shard(int argc, char **argv, const char *path, const args *a,
-                       const br_yield_opts *yo, const br_yield *y)
+static int write_shard(int argc, char **argv, const char *path, const args *a, int k, int n,
+                       const br_yield_study *y)
 {
-    unsigned char *mine = malloc((size_t)y->n);
+    const void *rec = NULL;
+    long total = 0;
+    br_yield_records(y, &rec, &total);
+    unsigned char *mine = malloc(total > 0 ? (size_t)total : 1);
     if (!mine) {
         br_error err;
         br_error_set(&err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
         return br_cli_fail(&err, NULL);
     }
-    for (long i = 0; i < y->n; i++)
-        mine[i] = (unsigned char)br_yield_shard_has(yo, i);
-    br_shard_head h = {argc, argv, path, yo->shard_k, yo->shard_n, sizeof(br_pt), y->n, NULL, NULL};
-    int status = br_cli_shard_write(&h, y->pts, mine, a->shard_file ? a->shard_file : "-");
+    for (long i = 0; i < total; i++) {
+        int has = 0;
+        br_yield_study_judges(y, i, &has);
+        mine[i] = (unsigned char)has;
+    }
+    br_shard_head h = {argc, argv, path, k, n, br_yield_record_size(), total, NULL, NULL};
+    int status = br_cli_shard_write(&h, rec, mine, a->shard_file ? a->shard_file : "-");
     free(mine);
     return status;
 }
 
 /* --shard, or the samples merged from shards checked against --samples. */
-static int shard_options(const args *a, br_yield_opts *yo, const br_cli_given *given)
+static int shard_options(const args *a, br_yield_study *y, int *k, int *n,
+                         const br_cli_given *given)
 {
+    *k = *n = 0;
     if (a->shard_file && !a->shard)
         return br_cli_usage_error("yield", "--shard-file without --shard");
-    if (a->shard && br_cli_shard_parse("yield", a->shard, &yo->shard_k, &yo->shard_n))
+    if (a->shard && br_cli_shard_parse("yield", a->shard, k, n))
         return BR_EXIT_INPUT;
-    if (!given)
-        return BR_EXIT_OK;
-    if (given->size != sizeof(br_pt) || given->total != yo->samples)
+    br_yield_study_set_shard(y, *k, *n);
+    if (given && br_yield_study_set_given(y, given->rec, given->size, given->total) != BR_OK)
         return br_cli_usage_error("merge", "the shards' samples do not fit --samples");
-    yo->given = given->rec;
     return BR_EXIT_OK;
 }
 
@@ -208,32 +201,37 @@ int br_cli_yield_main(int argc, char **argv, const br_cli_given *given)
     int parsed = br_cli_parse(&doc, argc, argv, pos);
     if (parsed != 0)
         return br_cli_parse_status(parsed);
-    br_yield_opts yo;
-    double min_yield;
+    outputs o = {0};
+    if (!(o.y = br_yield_study_create())) {
+        fprintf(stderr, "bootrung: out of memory\n");
+        return BR_EXIT_INPUT;
+    }
+    int k, n;
     const char *const out[] = {a.xml, a.csv, a.report, a.plot, a.shard_file};
     const char *const names[] = {"xml", "csv", "report", "plot", "shard-file"};
-    if (options(&a, &yo, &min_yield) != BR_EXIT_OK || shard_options(&a, &yo, given) ||
-        br_cli_outputs("yield", names, out, 5, (const char *const *)pos, 1) != BR_EXIT_OK)
+    if (options(&a, o.y) != BR_EXIT_OK || shard_options(&a, o.y, &k, &n, given) ||
+        br_cli_outputs("yield", names, out, 5, (const char *const *)pos, 1) != BR_EXIT_OK) {
+        outputs_free(&o);
         return BR_EXIT_INPUT;
-    outputs o = {0};
+    }
     br_error err;
     br_error_clear(&err);
     br_cli_run lr;
     br_cli_run_begin(&lr, "yield", a.quiet);
-    yo.progress = &lr.hook;
-    int rc = compute(pos[0], &a, &yo, min_yield, &o, &err);
+    br_yield_study_set_progress(o.y, br_cli_run_progress, br_cli_run_stop, &lr);
+    int rc = compute(pos[0], &a, n > 0, &o, &err);
     int status = br_cli_run_commit(&lr);
     if (status == BR_EXIT_OK)
-        status = rc != BR_OK      ? br_cli_fail(&err, pos[0])
-                 : yo.shard_n > 0 ? write_shard(argc, argv, pos[0], &a, &yo, o.y)
-                                  : write_all(&a, &o);
+        status = rc != BR_OK ? br_cli_fail(&err, pos[0])
+                 : n > 0     ? write_shard(argc, argv, pos[0], &a, k, n, o.y)
+                             : write_all(&a, &o);
     br_cli_run_end(&lr);
-    if (status == BR_EXIT_OK && yo.shard_n <= 0) {
-        int outcome = br_yield_outcome(o.y, min_yield);
-        status = outcome == BR_OUTCOME_PASS   ? BR_EXIT_OK
-                 : outcome == BR_OUTCOME_FAIL ? BR_EXIT_FAIL
-                                              : BR_EXIT_UNDETERMINED;
-    }
+    br_yield_study_set_progress(o.y, NULL, NULL, NULL);
+    int res = BR_RESULT_PASS;
+    if (status == BR_EXIT_OK && n <= 0 && br_yield_result(o.y, &res) == BR_OK)
+        status = res == BR_RESULT_PASS   ? BR_EXIT_OK
+                 : res == BR_RESULT_FAIL ? BR_EXIT_FAIL
+                                         : BR_EXIT_UNDETERMINED;
     outputs_free(&o);
     return status;
 }

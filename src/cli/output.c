@@ -5,7 +5,7 @@
  * stdout (full disk, closed pipe) is an error, not a silent truncation. */
 #include "cli.h"
 
-#include "report/save.h"
+#include "bootrung/report.h"
 
 #include <errno.h>
 #include <pthread.h>

@@ -8,11 +8,8 @@
  * DIR and renamed at the end: it appears whole or not at all. */
 #include "cli.h"
 
-#include "core/error.h"
-#include "core/sha256.h"
-#include "model/design.h"
-#include "report/pack_report.h"
-#include "report/save.h"
+#include "bootrung/export.h"
+#include "bootrung/report.h"
 
 #include <dirent.h>
 #include <errno.h>
@@ -78,12 +75,12 @@ static void plan(br_pack *p, const br_chain *c, int catalog)
     add_step(p, "yield", "--report yield.html --xml yield.xml --csv yield.csv",
              "yield.html yield.xml yield.csv");
     add_step(p, "window", "--report window.html --xml window.xml", "window.html window.xml");
-    if (c->line.on) {
+    if (br_chain_line_cycle(c)) {
         skip_step(p, "map", "a line cycle has no single duty and frequency to map");
     } else {
         snprintf(args, sizeof args,
                  "--duty 5%%:95%%:19 --freq %.6gHz:%.6gHz:9 --report map.html --csv map.csv",
-                 c->fsw / 4.0, c->fsw * 4.0);
+                 br_chain_frequency(c) / 4.0, br_chain_frequency(c) * 4.0);
         add_step(p, "map", args, "map.html map.csv");
     }
     add_step(p, "supply", "--report supply.html --xml supply.xml", "supply.html supply.xml");
@@ -230,7 +227,7 @@ static int run_step(const char *self, const char *dir, br_pack_step *s, br_cli_r
             break;
         if (w < 0 && errno != EINTR)
             return BR_EXIT_INPUT;
-        if (!sent && br_progress_stopped(&lr->hook)) {
+        if (!sent && br_cli_run_stop(lr)) {
             kill(pid, SIGTERM);
             sent = 1;
         }
@@ -263,7 +260,7 @@ static int run_all(const char *self, const char *dir, br_pack *p, br_cli_run *lr
         if (s->status < 0)
             continue;
         s->status = run_step(self, dir, s, lr);
-        if (br_progress_stopped(&lr->hook))
+        if (br_cli_run_stop(lr))
             return BR_EXIT_INTERRUPTED;
         if (s->status != 0 && s->status != 1 && s->status != 3) {
             step_failed(dir, s);

@@ -152,9 +152,6 @@ static void catch_signals(br_cli_run *r)
 void br_cli_run_begin(br_cli_run *r, const char *label, int quiet)
 {
     memset(r, 0, sizeof *r);
-    r->hook.fn = br_cli_run_progress;
-    r->hook.ctx = r;
-    r->hook.stop = br_cli_run_stop;
     r->label = label;
     r->draw = want_bar(quiet);
     r->t0 = now();

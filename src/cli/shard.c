@@ -26,8 +26,7 @@
  * machine; the program line says which, and merge refuses the rest. */
 #include "shard.h"
 
-#include "core/error.h"
-#include "report/save.h"
+#include "bootrung/report.h"
 
 #include <errno.h>
 #include <stdint.h>

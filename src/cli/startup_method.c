@@ -2,8 +2,6 @@
  * start-up. */
 #include "cli.h"
 
-#include "model/design.h"
-
 #include <string.h>
 
 int br_cli_startup_method(const char *verb, const char *text, int *out)

@@ -8,9 +8,6 @@
 
 #include "bootrung/bootrung.h"
 
-/* Fill err (may be NULL) and return code.  file may be NULL, line 0 when
- * unknown, field NULL or "" when the failure is not tied to one field. */
-int br_error_set(br_error *err, int code, const char *file, int line, const char *field,
-                 const char *fmt, ...) __attribute__((format(printf, 6, 7)));
+/* br_error_set is public: bootrung.h. */
 
 #endif

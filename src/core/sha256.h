@@ -3,6 +3,8 @@
 #ifndef BR_CORE_SHA256_H
 #define BR_CORE_SHA256_H
 
+#include "bootrung/report.h"
+
 #include <stddef.h>
 #include <stdint.h>
 
@@ -21,7 +23,7 @@ void br_sha256_update(br_sha256 *s, const void *data, size_t n);
 /* The digest as 64 lower-case hex digits and a NUL into hex[65]. */
 void br_sha256_final(br_sha256 *s, char hex[65]);
 
-/* The hex digest of n bytes at data. */
-void br_sha256_hex(const void *data, size_t n, char hex[65]);
+/* br_sha256_hex, the digest of bytes in memory, is public:
+ * bootrung/report.h. */
 
 #endif

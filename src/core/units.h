@@ -18,38 +18,16 @@
 #ifndef BR_CORE_UNITS_H
 #define BR_CORE_UNITS_H
 
-#include "bootrung/bootrung.h"
+#include "bootrung/report.h"
 
 struct br_qty; /* model/design.h: a toleranced quantity */
 
-/* What the caller expects; decides the accepted units and the SI scale. */
-typedef enum br_kind {
-    BR_KIND_VOLTAGE = 0, /* V */
-    BR_KIND_CURRENT,     /* A */
-    BR_KIND_CAPACITANCE, /* F */
-    BR_KIND_FREQUENCY,   /* Hz */
-    BR_KIND_TIME,        /* s */
-    BR_KIND_RESISTANCE,  /* ohm; "10 m" is 10 milliohm */
-    BR_KIND_CHARGE,      /* C (coulomb) */
-    BR_KIND_TEMPERATURE, /* C (Celsius) or K, result in K; no bare numbers */
-    BR_KIND_TEMP_DELTA,  /* a temperature difference, K (C accepted) */
-    BR_KIND_FRACTION,    /* "80 %" or a plain number 0.8 */
-    BR_KIND_NUMBER,      /* dimensionless, a plain number */
-    BR_KIND_ENERGY_EV,   /* eV, kept in eV (bandgaps) */
-    BR_KIND_I2T,         /* A^2 s ("A2s"), no prefixes: on a squared unit they mislead */
-    BR_KIND_POWER,       /* W */
-    BR_KIND_THERMAL_R,   /* thermal resistance, K/W ("C/W" accepted); no prefixes */
-    BR_KIND_ANGLE,       /* an angle in degrees ("30 deg", or the degree sign), in radians */
-    BR_KIND_COUNT
-} br_kind;
+/* br_kind, what the caller expects, is public: bootrung/report.h. */
 
 /* Sigma distance of the limits of a "normal" quantity. */
 #define BR_QTY_NSIG 3.0
 
-/* Parse one plain quantity (no tolerance) into SI.  On failure returns
- * BR_EINPUT and sets err->msg (file, line and field are left empty for the
- * caller to fill); *out is untouched. */
-int br_unit_parse(const char *text, br_kind kind, double *out, br_error *err);
+/* br_unit_parse, one plain quantity, is public: bootrung/report.h. */
 
 /* Parse a quantity with optional tolerance and distribution into q (q->line
  * is set to 0).  Same error contract as br_unit_parse. */

@@ -41,16 +41,18 @@ static void test_signal(void)
     signal(SIGINT, SIG_DFL); /* as from a terminal, even under a background shell */
     br_cli_run r;
     br_cli_run_begin(&r, "test", 1);
-    CU_ASSERT_EQUAL(r.hook.fn(r.hook.ctx, 1.0, 2.0), 0);
+    CU_ASSERT_EQUAL(br_cli_run_progress(&r, 1.0, 2.0), 0);
+    CU_ASSERT_EQUAL(br_cli_run_stop(&r), 0);
     raise(SIGINT); /* caught: the process goes on */
-    CU_ASSERT_NOT_EQUAL(r.hook.fn(r.hook.ctx, 1.0, 2.0), 0);
+    CU_ASSERT_NOT_EQUAL(br_cli_run_progress(&r, 1.0, 2.0), 0);
+    CU_ASSERT_NOT_EQUAL(br_cli_run_stop(&r), 0);
     CU_ASSERT_EQUAL(br_cli_run_commit(&r), BR_EXIT_INTERRUPTED);
     br_cli_run_end(&r);
     sigaction(SIGINT, NULL, &after);
     CU_ASSERT_TRUE(after.sa_handler == SIG_DFL);
     /* a clean run: commit lets the verb write */
     br_cli_run_begin(&r, "test", 1);
-    CU_ASSERT_EQUAL(r.hook.fn(r.hook.ctx, 2.0, 2.0), 0);
+    CU_ASSERT_EQUAL(br_cli_run_progress(&r, 2.0, 2.0), 0);
     CU_ASSERT_EQUAL(br_cli_run_commit(&r), 0);
     br_cli_run_end(&r);
     /* SIGTERM gives its own status */
@@ -71,7 +73,7 @@ static void test_ignored_stays_ignored(void)
     br_cli_run r;
     br_cli_run_begin(&r, "test", 1);
     raise(SIGINT);
-    CU_ASSERT_EQUAL(r.hook.fn(r.hook.ctx, 1.0, 2.0), 0);
+    CU_ASSERT_EQUAL(br_cli_run_progress(&r, 1.0, 2.0), 0);
     CU_ASSERT_EQUAL(br_cli_run_commit(&r), 0);
     br_cli_run_end(&r);
     sigaction(SIGINT, &before, NULL);
