@@ -110,7 +110,9 @@ BR_API int br_design_set_startup_method(br_design *d, int method);
 typedef enum br_format {
     BR_FORMAT_TEXT = 0, /* the plain-text report */
     BR_FORMAT_XML = 1,  /* the result file (our own XML vocabulary) */
-    BR_FORMAT_HTML = 2  /* a self-contained HTML page */
+    BR_FORMAT_HTML = 2, /* a self-contained HTML page */
+    BR_FORMAT_CSV = 3,  /* a table, one row per point, SI units */
+    BR_FORMAT_SVG = 4   /* plots as one SVG image */
 } br_format;
 
 /* ---- the chain model --------------------------------------------------- */

@@ -252,6 +252,123 @@ BR_API int br_size_design_file(const br_size_study *z, br_text *out, br_error *e
 /* TEXT only. */
 BR_API int br_size_study_render(const br_size_study *z, int format, br_text *out, br_error *err);
 
+/* ---- the exploration -------------------------------------------------- */
+
+/* Level counts, switch voltage classes and switching frequencies around
+ * a template (an FCML leg that gives the supply, drivers, regulators,
+ * timing, start-up pattern, link diodes and rail capacitors).  For each
+ * combination the voltage rule of the trade first (each of the N - 1
+ * series switches of a side, and each link diode, blocks the highest bus
+ * voltage over N - 1, a part used up to the derating), then the chain's
+ * cold start and steady state at the nominal point and the verdict;
+ * optionally the survivors at their worst corners.  The feasible set is
+ * ranked and its Pareto front of cost, supply power and margin marked. */
+typedef struct br_explore_study br_explore_study;
+
+#define BR_EXPLORE_LEVELS_MAX 33 /* level counts 2 .. this */
+#define BR_EXPLORE_FSW_MAX 16    /* frequencies in one exploration */
+
+BR_API br_explore_study *br_explore_study_create(void);
+BR_API void br_explore_study_free(br_explore_study *x);
+/* The hook counts combinations judged. */
+BR_API int br_explore_study_set_progress(br_explore_study *x, br_progress_hook hook,
+                                         br_stop_poll stop, void *ctx);
+/* Worker threads of the corner judgement. */
+BR_API int br_explore_study_set_threads(br_explore_study *x, int threads);
+/* Required: the nominal and the highest bus voltage (0 < vbus <= vmax <
+ * 1e6 V), the level counts (2 <= lo <= hi <= BR_EXPLORE_LEVELS_MAX), the
+ * frequencies (1 .. BR_EXPLORE_FSW_MAX of them, each 0 < f < 1e9 Hz). */
+BR_API int br_explore_study_set_bus(br_explore_study *x, double vbus, double vmax);
+BR_API int br_explore_study_set_levels(br_explore_study *x, int lo, int hi);
+BR_API int br_explore_study_set_frequencies(br_explore_study *x, const double *fsw, int n);
+/* Optional, NaN for the default: the load current (A, >= 0; the
+ * template's), the fraction of a voltage rating used (0 < f <= 1; the
+ * template's diode derating), the margin target (V, >= 0; a quarter of
+ * the smallest UVLO hysteresis), the longest start-up (s, >= 0; the
+ * template's limit only) and the highest cost of the catalog parts placed
+ * (>= 0; none). */
+typedef enum br_explore_limit {
+    BR_EXPLORE_LOAD_CURRENT = 0,
+    BR_EXPLORE_DERATING,
+    BR_EXPLORE_TARGET,
+    BR_EXPLORE_MAX_STARTUP,
+    BR_EXPLORE_MAX_COST,
+    BR_EXPLORE_LIMIT_COUNT
+} br_explore_limit;
+BR_API int br_explore_study_set(br_explore_study *x, int which, double value);
+/* 1: judge the survivors at their worst corners too (slow); 0 (default). */
+BR_API int br_explore_study_set_corners(br_explore_study *x, int on);
+/* 1: rail capacitors scaled by the rails each carries; 0 (default): the
+ * template's. */
+BR_API int br_explore_study_set_scale_caps(br_explore_study *x, int on);
+/* Judge shard k of n only (every n-th combination from the k-th, 1 <= k
+ * <= n; n = 0: all): the others get the voltage rule only, and the study
+ * renders no report (br_explore_records gives what it judged). */
+BR_API int br_explore_study_set_shard(br_explore_study *x, int k, int n);
+/* Merging shards: the records of every combination as the shards judged
+ * them (n records of br_explore_record_size() bytes, kept by pointer
+ * until the run); nothing is judged again.  NULL: judge. */
+BR_API int br_explore_study_set_given(br_explore_study *x, const void *records, long n,
+                                      size_t size);
+BR_API size_t br_explore_record_size(void);
+/* Explore around template t with the switches, drivers and diodes of cat.
+ * BR_EINPUT: a template or catalog the exploration cannot use (err says
+ * why); BR_ECANCEL: stopped. */
+BR_API int br_explore_study_run(br_explore_study *x, const br_design *t, const br_catalog *cat,
+                                br_error *err);
+
+/* PASS: some combination is feasible; FAIL: none is and every one was
+ * decided; UNDETERMINED: none is and some could not be decided. */
+BR_API int br_explore_result(const br_explore_study *x, int *out);
+/* The combinations, in the order judged. */
+BR_API int br_explore_combinations(const br_explore_study *x, int *out);
+typedef enum br_combination_state {
+    BR_COMBO_FEASIBLE = 0, /* passes the screen (and the corners when judged) */
+    BR_COMBO_RATING,       /* no switch class or diode meets the voltage rule */
+    BR_COMBO_FAILS,        /* a criterion fails at the nominal point */
+    BR_COMBO_SPLIT,        /* rails from some rail up fall short: needs a second supply */
+    BR_COMBO_MARGIN,       /* passes, below the margin target */
+    BR_COMBO_STARTUP,      /* starts later than the limit given */
+    BR_COMBO_COST,         /* costs more than the limit given */
+    BR_COMBO_CORNERS,      /* passes at the nominal point, not at its worst corners */
+    BR_COMBO_UNDETERMINED, /* a criterion could not be decided */
+    BR_COMBO_REFUSED       /* the model refuses the design built (br_explore_note) */
+} br_combination_state;
+typedef enum br_explore_key {
+    BR_XV_LEVELS = 0, /* the level count */
+    BR_XV_FSW,        /* Hz */
+    BR_XV_SWITCH,     /* the catalog switch (BR_CATALOG_SWITCH) */
+    BR_XV_DIODE,      /* the catalog diode placed where the template's falls short, -1 */
+    BR_XV_NEED,       /* the voltage class the rule asks for, V */
+    BR_XV_STATE,      /* a br_combination_state */
+    BR_XV_COST,       /* the catalog parts placed */
+    BR_XV_LOSS,       /* the supply's power in steady state, W */
+    BR_XV_MARGIN,     /* smallest margin in volts, V (worst corners when judged) */
+    BR_XV_STARTUP,    /* start-up time, s */
+    BR_XV_CRITERION,  /* where the margin binds or what fails (br_criterion_key), -1 */
+    BR_XV_STAGE,      /* the rail or link, -1 */
+    BR_XV_SPLIT_AT,   /* BR_COMBO_SPLIT: the rail a second supply would feed */
+    BR_XV_FRONT,      /* 1: on the Pareto front */
+    BR_XV_RANK,       /* 1.. among the feasible (0: not feasible) */
+    BR_XV_KEY_COUNT
+} br_explore_key;
+BR_API int br_explore_value(const br_explore_study *x, int i, int key, double *out);
+/* Why the model refused combination i ("" otherwise). */
+BR_API int br_explore_note(const br_explore_study *x, int i, const char **out);
+/* Combination i's design file (its levels, switch, diode and frequency
+ * on the template) with a comment saying what was explored and where it
+ * stands.  BR_EINPUT when the rule leaves it no switch or diode. */
+BR_API int br_explore_design_file(const br_explore_study *x, int i, br_text *out, br_error *err);
+/* The records of a sharded run (every combination's, as judged or as the
+ * rule left it; n of *size bytes) and whether the shard judged record i. */
+BR_API int br_explore_records(const br_explore_study *x, const void **records, size_t *size,
+                              long *n);
+BR_API int br_explore_judged(const br_explore_study *x, int i, int *out);
+/* TEXT (the report), CSV (every combination) or SVG (margin and cost
+ * against level count); BR_EUSAGE for a shard. */
+BR_API int br_explore_study_render(const br_explore_study *x, int format, br_text *out,
+                                   br_error *err);
+
 #ifdef __cplusplus
 }
 #endif
