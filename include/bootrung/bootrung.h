@@ -111,8 +111,8 @@ typedef enum br_format {
     BR_FORMAT_TEXT = 0, /* the plain-text report */
     BR_FORMAT_XML = 1,  /* the result file (our own XML vocabulary) */
     BR_FORMAT_HTML = 2, /* a self-contained HTML page */
-    BR_FORMAT_CSV = 3,  /* a table, one row per point, SI units */
-    BR_FORMAT_SVG = 4   /* plots as one SVG image */
+    BR_FORMAT_CSV = 3,  /* a table (time series, grid points, samples) */
+    BR_FORMAT_SVG = 4   /* the study's plot, an SVG document */
 } br_format;
 
 /* ---- the chain model --------------------------------------------------- */
