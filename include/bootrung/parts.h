@@ -31,6 +31,31 @@ extern "C" {
 /* The most worker threads a study takes (0 means one per processor). */
 #define BR_STUDY_THREADS_MAX 64
 
+/* ---- quantities with units --------------------------------------------- */
+
+/* The studies take SI doubles; a front end that reads them as text ("50
+ * mV", "120k", "80 %") parses them with the design file's own rules: an
+ * SI prefix and the unit, or the prefix alone; a bare number only for
+ * plain numbers and fractions (and 0).  The kinds are the design file's. */
+typedef enum br_quantity_kind {
+    BR_QUANTITY_VOLTAGE = 0, /* V */
+    BR_QUANTITY_CURRENT,     /* A */
+    BR_QUANTITY_CAPACITANCE, /* F */
+    BR_QUANTITY_FREQUENCY,   /* Hz */
+    BR_QUANTITY_TIME,        /* s */
+    BR_QUANTITY_RESISTANCE,  /* ohm */
+    BR_QUANTITY_CHARGE,      /* C */
+    BR_QUANTITY_TEMPERATURE, /* C or K given, K returned; no bare numbers */
+    BR_QUANTITY_TEMP_DELTA,  /* K */
+    BR_QUANTITY_FRACTION,    /* "80 %" or 0.8 */
+    BR_QUANTITY_NUMBER,      /* a plain number */
+    BR_QUANTITY_KIND_COUNT
+} br_quantity_kind;
+/* Parse text as a quantity of that kind into *out (SI).  BR_EINPUT with
+ * err->msg saying what was expected (file, line and field left empty);
+ * BR_EUSAGE for a NULL argument or an unknown kind. */
+BR_API int br_quantity_parse(const char *text, int kind, double *out, br_error *err);
+
 /* ---- the part catalog ------------------------------------------------- */
 
 /* Candidate parts with what each costs and the board area it takes
