@@ -8,7 +8,7 @@
 # of src/cli/ that still include internal headers, so what remains shows.
 set -uo pipefail
 src=$1
-CLIENTS=(src/cli/cmd_netlist.c src/cli/cmd_supply.c src/cli/cmd_pick.c src/cli/cmd_size.c)
+CLIENTS=(src/cli/cmd_netlist.c src/cli/cmd_supply.c src/cli/cmd_pick.c src/cli/cmd_size.c src/cli/cmd_explore.c)
 fail=0
 for f in "${CLIENTS[@]}"; do
     bad=$(grep -E '^[[:space:]]*#[[:space:]]*include[[:space:]]*"' "$src/$f" \
