@@ -34,7 +34,8 @@ __all__ = ["Error", "Cancelled", "Design", "load", "load_string", "version", "An
            "Startup", "StartupRail", "SupplyProfile", "SteadyCase", "SteadyRail",
            "SteadyLink", "Holdup", "Series", "Criterion", "Verdict", "Corners",
            "CornerRow", "Yield", "YieldRow", "Window", "WindowAxis", "WindowSpan",
-           "StartupWindow", "Map", "MapPoint"]
+           "StartupWindow", "Map", "MapPoint", "Catalog", "load_catalog", "Pick",
+           "PickChoice", "Size", "SizeAnswer"]
 
 
 class Error(Exception):
@@ -432,6 +433,166 @@ def _read_yield(h):
                  values=values, results=results, **g)
 
 
+@dataclass
+class PickChoice:
+    """One choice of catalog parts, judged at its worst corners."""
+    cost: float           # the catalog parts placed, in the catalog's currency unit
+    area: float           # their board area, m2
+    margin: float         # smallest voltage margin at the worst corners, V (nan: none decided)
+    result: str           # "pass", "fail" or "undetermined"
+    uniform: bool         # one part on every rail and link
+    startup: bool         # its start-up criteria were judged too
+    criterion: int        # where the margin binds (an index of the verdict's criteria), -1
+    stage: int            # the binding rail or link, -1
+    unsettled: int        # corners where a steady state did not settle
+    capacitors: List[Optional[str]]  # per rail k (index 0 unused): the catalog part, None: kept
+    diodes: List[Optional[str]]      # per link k (index 0 unused)
+
+
+@dataclass
+class Pick:
+    result: str               # "pass" when a choice is ranked, else "undetermined" or "fail"
+    choices: List[PickChoice]  # every choice judged: one-part ones first, then per-rail ones
+    ranked: List[int]         # indexes into choices, best first
+    rejected: List[tuple]     # (role "capacitor" or "diode", part id, why)
+    report: str               # the text report `bootrung pick` prints
+
+
+@dataclass
+class SizeAnswer:
+    kind: str     # "found", "end", "none", "undetermined" or "kept"
+    from_: float  # the design's own value, F or ohm
+    value: float  # the answer, F or ohm (nan unless found or end)
+    part: int     # the catalog capacitor's index (-1: a continuous value or a resistance)
+    margin: float  # its smallest voltage margin, V
+    trials: int   # values judged
+
+
+@dataclass
+class Size:
+    result: str                 # "pass" when the sized design qualifies, cold start included
+    rails: List[Optional[SizeAnswer]]  # per rail k (index 0: None)
+    link: Optional[SizeAnswer]  # the link resistance (None: not sized)
+    target: float               # V
+    margin: float               # the result's smallest voltage margin, V
+    headroom: float             # its rails' smallest headroom, V
+    reg_vout: float
+    reg_dropout: float
+    points: int                 # corners judged
+    report: str                 # the text report `bootrung size` prints
+    design_file: str            # the sized design as a design file
+
+
+def _render(h, fn, what):
+    """A study's text render (fn(h, out, err) or fn(h, format, out, err))."""
+    lib = L.lib()
+    t = lib.br_text_create()
+    if not t:
+        raise MemoryError("bootrung: out of memory")
+    try:
+        err = L.BrError()
+        args = (h, t, ctypes.byref(err)) if what == "file" else (h, L.FORMAT_TEXT, t,
+                                                                   ctypes.byref(err))
+        rc = getattr(lib, fn)(*args)
+        if rc != L.OK:
+            _raise(rc, err)
+        return lib.br_text_data(t).decode("utf-8", "replace")
+    finally:
+        lib.br_text_free(t)
+
+
+def _read_pick(h, catalog):
+    r = _Run(h)
+    roles = {L.CATALOG_CAPACITOR: "capacitor", L.CATALOG_DIODE: "diode"}
+
+    def parts(i, role, stages):
+        ks = [r.int_("br_pick_choice_part", i, role, k) for k in range(1, stages)]
+        return [None] + [catalog.part_id(role, p) if p >= 0 else None for p in ks]
+
+    choices = []
+    stages = catalog._stages
+    for i in range(r.int_("br_pick_choices")):
+        v = {key: r.num("br_pick_choice_value", i, k) for k, key in enumerate(L.CHOICE_KEYS)}
+        v["result"] = L.RESULTS[int(v["result"])]
+        for key in ("uniform", "startup"):
+            v[key] = bool(v[key])
+        for key in ("criterion", "stage", "unsettled"):
+            v[key] = int(v[key])
+        choices.append(PickChoice(capacitors=parts(i, L.CATALOG_CAPACITOR, stages),
+                                  diodes=parts(i, L.CATALOG_DIODE, stages), **v))
+    ranked = [r.int_("br_pick_ranked_choice", j) for j in range(r.int_("br_pick_ranked"))]
+    rejected = []
+    for j in range(r.int_("br_pick_rejects")):
+        role, part, why = ctypes.c_int(), ctypes.c_int(), ctypes.c_char_p()
+        _check(r.lib.br_pick_reject(h, j, ctypes.byref(role), ctypes.byref(part),
+                                    ctypes.byref(why)), "br_pick_reject")
+        rejected.append((roles[role.value], catalog.part_id(role.value, part.value),
+                         why.value.decode("utf-8", "replace")))
+    return Pick(L.RESULTS[r.int_("br_pick_result")], choices, ranked, rejected,
+                _render(h, "br_pick_study_render", "text"))
+
+
+def _size_answer(r, k):
+    out = ctypes.c_double()
+    if r.lib.br_size_answer_get(r.h, k, 0, ctypes.byref(out)) != L.OK:
+        return None  # not sized
+    v = {key: r.num("br_size_answer_get", k, j) for j, key in enumerate(L.SZ_KEYS)}
+    v["kind"] = L.SIZE_KINDS[int(v["kind"])]
+    v["part"], v["trials"] = int(v["part"]), int(v["trials"])
+    return SizeAnswer(**v)
+
+
+def _read_size(h, stages):
+    r = _Run(h)
+    figures = {key: r.num("br_size_get", k) for k, key in enumerate(L.SIZE_FIGURES)}
+    figures["points"] = int(figures["points"])
+    return Size(L.RESULTS[r.int_("br_size_result")],
+                [None] + [_size_answer(r, k) for k in range(1, stages)], _size_answer(r, 0),
+                report=_render(h, "br_size_study_render", "text"),
+                design_file=_render(h, "br_size_design_file", "file"), **figures)
+
+
+class Catalog:
+    """A part catalog (docs/catalog.md), loaded and checked."""
+
+    def __init__(self, handle, path):
+        self._lib, self._h, self.path = L.lib(), handle, path
+        self._stages = 0
+
+    def close(self):
+        if self._h:
+            self._lib.br_catalog_free(self._h)
+            self._h = None
+
+    def __del__(self):
+        self.close()
+
+    def parts(self, role: int) -> int:
+        out = ctypes.c_int()
+        _check(self._lib.br_catalog_parts(self._h, role, ctypes.byref(out)), "br_catalog_parts")
+        return out.value
+
+    def part_id(self, role: int, i: int) -> str:
+        out = ctypes.c_char_p()
+        _check(self._lib.br_catalog_part_id(self._h, role, i, ctypes.byref(out)),
+               "br_catalog_part_id")
+        return out.value.decode("utf-8", "replace")
+
+    def ids(self, role: str) -> List[str]:
+        """The ids of the "diode", "capacitor", "switch" or "driver" parts."""
+        k = ("diode", "capacitor", "switch", "driver").index(role)
+        return [self.part_id(k, i) for i in range(self.parts(k))]
+
+
+def load_catalog(path: str) -> Catalog:
+    """Load and check the part catalog at path."""
+    lib, err, c = L.lib(), L.BrError(), ctypes.c_void_p()
+    rc = lib.br_catalog_load(str(path).encode(), ctypes.byref(c), ctypes.byref(err))
+    if rc != L.OK:
+        _raise(rc, err)
+    return Catalog(c, str(path))
+
+
 def _hook(progress, failure):
     """A C progress hook around a Python callable (None: no hook); an
     exception it raises is kept in failure and stops the run."""
@@ -640,9 +801,9 @@ class Design:
             lib.br_corner_search_free(h)
 
 
-    def _study(self, prefix, reader, progress, setup):
-        """Create, set up, run on the design, read and free one of the
-        design-level studies (corners, window, yield)."""
+    def _study(self, prefix, reader, progress, setup, catalog=None, with_catalog=False):
+        """Create, set up, run on the design (and a catalog: pick and size),
+        read and free one of the design-level studies."""
         if not self._design:
             raise Error(L.lib().br_status_name(L.EUSAGE).decode(), "", 0, "design",
                         "the design was closed; load it again")
@@ -656,7 +817,11 @@ class Design:
             _check(getattr(lib, prefix + "_set_progress")(h, cb, L.STOP(), None), "progress")
             setup(h)
             err = L.BrError()
-            rc = getattr(lib, prefix + "_run")(h, self._design, ctypes.byref(err))
+            run = getattr(lib, prefix + "_run")
+            if catalog is not None or with_catalog:  # pick and size take a catalog
+                rc = run(h, self._design, catalog, ctypes.byref(err))
+            else:
+                rc = run(h, self._design, ctypes.byref(err))
             if failure:
                 raise failure[0]
             if rc != L.OK:
@@ -711,6 +876,45 @@ class Design:
         finally:
             lib.br_yield_study_free(h)
 
+
+    def pick(self, catalog: Catalog, top: int = 10, min_margin: Optional[float] = None,
+             startup: bool = True, per_rail: bool = True, threads: int = 0,
+             progress: Optional[Callable[[float, float], bool]] = None) -> Pick:
+        """Rail capacitors and link diodes from catalog, judged at their
+        worst corners and ranked by cost (`bootrung pick`); min_margin in
+        volts (None: a quarter of the smallest UVLO hysteresis)."""
+        lib = self._lib
+        catalog._stages = lib.br_chain_stages(self._chain)
+
+        def setup(h):
+            _check(lib.br_pick_study_set_top(h, top), "top")
+            _check(lib.br_pick_study_set_min_margin(
+                h, math.nan if min_margin is None else float(min_margin)), "min_margin")
+            _check(lib.br_pick_study_set_startup(h, int(startup)), "startup")
+            _check(lib.br_pick_study_set_per_rail(h, int(per_rail)), "per_rail")
+            _check(lib.br_pick_study_set_threads(h, threads), "threads")
+
+        return self._study("br_pick_study", lambda h: _read_pick(h, catalog), progress, setup,
+                           catalog._h)
+
+    def size(self, catalog: Optional[Catalog] = None, target: Optional[float] = None,
+             links: bool = True, supply: bool = False, threads: int = 0,
+             progress: Optional[Callable[[float, float], bool]] = None) -> Size:
+        """Size the design to a margin target in volts (None: a quarter of
+        the smallest UVLO hysteresis), rail capacitors from catalog (None:
+        continuous values), as `bootrung size` does."""
+        lib = self._lib
+        stages = lib.br_chain_stages(self._chain)
+
+        def setup(h):
+            _check(lib.br_size_study_set_target(
+                h, math.nan if target is None else float(target)), "target")
+            _check(lib.br_size_study_set_links(h, int(links)), "links")
+            _check(lib.br_size_study_set_supply(h, int(supply)), "supply")
+            _check(lib.br_size_study_set_threads(h, threads), "threads")
+
+        return self._study("br_size_study", lambda h: _read_size(h, stages), progress, setup,
+                           catalog._h if catalog else None, with_catalog=True)
 
 def _build(rc, err, design):
     lib = L.lib()

@@ -123,6 +123,47 @@ _SIGNATURES = {
     "br_verdict_note": (_INT, [_P, _INT, c_char_pp]),
     "br_verdict_stage": (_INT, [_P, _INT, c_int_p]),
     "br_verdict_value": (_INT, [_P, _INT, _INT, c_double_p]),
+    "br_chain_stages": (_INT, [_P]),
+    "br_text_create": (_P, []),
+    "br_text_free": (None, [_P]),
+    "br_text_data": (ctypes.c_char_p, [_P]),
+    "br_catalog_load": (_INT, [ctypes.c_char_p, ctypes.POINTER(_P), ctypes.POINTER(BrError)]),
+    "br_catalog_free": (None, [_P]),
+    "br_catalog_name": (_INT, [_P, c_char_pp]),
+    "br_catalog_parts": (_INT, [_P, _INT, c_int_p]),
+    "br_catalog_part_id": (_INT, [_P, _INT, _INT, c_char_pp]),
+    "br_catalog_part_value": (_INT, [_P, _INT, _INT, _INT, c_double_p]),
+    "br_pick_study_create": (_P, []),
+    "br_pick_study_free": (None, [_P]),
+    "br_pick_study_set_progress": (_INT, [_P, PROGRESS, STOP, _P]),
+    "br_pick_study_set_threads": (_INT, [_P, _INT]),
+    "br_pick_study_set_top": (_INT, [_P, _INT]),
+    "br_pick_study_set_min_margin": (_INT, [_P, ctypes.c_double]),
+    "br_pick_study_set_startup": (_INT, [_P, _INT]),
+    "br_pick_study_set_per_rail": (_INT, [_P, _INT]),
+    "br_pick_study_run": (_INT, [_P, _P, _P, ctypes.POINTER(BrError)]),
+    "br_pick_result": (_INT, [_P, c_int_p]),
+    "br_pick_choices": (_INT, [_P, c_int_p]),
+    "br_pick_ranked": (_INT, [_P, c_int_p]),
+    "br_pick_ranked_choice": (_INT, [_P, _INT, c_int_p]),
+    "br_pick_choice_value": (_INT, [_P, _INT, _INT, c_double_p]),
+    "br_pick_choice_part": (_INT, [_P, _INT, _INT, _INT, c_int_p]),
+    "br_pick_rejects": (_INT, [_P, c_int_p]),
+    "br_pick_reject": (_INT, [_P, _INT, c_int_p, c_int_p, c_char_pp]),
+    "br_pick_study_render": (_INT, [_P, _INT, _P, ctypes.POINTER(BrError)]),
+    "br_size_study_create": (_P, []),
+    "br_size_study_free": (None, [_P]),
+    "br_size_study_set_progress": (_INT, [_P, PROGRESS, STOP, _P]),
+    "br_size_study_set_threads": (_INT, [_P, _INT]),
+    "br_size_study_set_target": (_INT, [_P, ctypes.c_double]),
+    "br_size_study_set_links": (_INT, [_P, _INT]),
+    "br_size_study_set_supply": (_INT, [_P, _INT]),
+    "br_size_study_run": (_INT, [_P, _P, _P, ctypes.POINTER(BrError)]),
+    "br_size_result": (_INT, [_P, c_int_p]),
+    "br_size_answer_get": (_INT, [_P, _INT, _INT, c_double_p]),
+    "br_size_get": (_INT, [_P, _INT, c_double_p]),
+    "br_size_design_file": (_INT, [_P, _P, ctypes.POINTER(BrError)]),
+    "br_size_study_render": (_INT, [_P, _INT, _P, ctypes.POINTER(BrError)]),
 }
 
 # The constants of bootrung.h and bootrung/analysis.h the package uses.
@@ -155,6 +196,15 @@ MAP_KEYS = ("duty", "fsw", "margin", "holds", "stage", "criterion")
 YIELD_KEYS = ("samples", "passed", "failed", "undetermined", "yield_", "lo", "hi")
 YC_KEYS = ("judged", "fails", "undetermined", "q_min", "q_0_1", "q_1", "q_10", "median")
 RESULTS = ("pass", "fail", "warn", "undetermined", "not applicable")
+# bootrung/parts.h
+CATALOG_DIODE, CATALOG_CAPACITOR = 0, 1
+OFFER_KEYS = ("cost", "area", "rating")
+CHOICE_KEYS = ("cost", "area", "margin", "result", "uniform", "startup", "criterion", "stage",
+               "unsettled")
+SIZE_KINDS = ("found", "end", "none", "undetermined", "kept")
+SZ_KEYS = ("kind", "from_", "value", "part", "margin", "trials")
+SIZE_FIGURES = ("target", "margin", "headroom", "reg_vout", "reg_dropout", "points")
+FORMAT_TEXT = 0
 STEADY_STATUS = ("holds", "does not hold", "undetermined")
 DROPOUT_TIMES = 16
 

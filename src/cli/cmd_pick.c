@@ -3,17 +3,12 @@
  * ranked by cost. */
 #include "cli.h"
 
-#include "core/error.h"
-#include "core/units.h"
-#include "model/catalog.h"
-#include "report/pick_report.h"
-#include "report/verb_pages.h"
+#include "bootrung/parts.h"
+#include "bootrung/report.h"
 
+#include <math.h>
+#include <stdio.h>
 #include <string.h>
-
-#ifndef BR_VERSION
-#define BR_VERSION "unknown"
-#endif
 
 static const char ABOUT[] =
     "Choose the rail capacitors and link diodes of design FILE from the parts of\n"
@@ -38,8 +33,14 @@ typedef struct args {
     int su_method; /* br_su_method */
 } args;
 
+/* The options' values, checked, for the study. */
+typedef struct settings {
+    int threads, top, limit; /* 0: the study's default */
+    double min_margin;       /* V; NaN: the default */
+} settings;
+
 /* --min-margin: a voltage, 0 or more ("50 mV", "0.05"). */
-static int min_margin(const char *text, br_pick_opts *o)
+static int min_margin(const char *text, settings *o)
 {
     br_error err;
     br_error_clear(&err);
@@ -53,18 +54,16 @@ static int min_margin(const char *text, br_pick_opts *o)
     return BR_EXIT_OK;
 }
 
-static int options(args *a, br_pick_opts *o)
+static int options(args *a, settings *o)
 {
     long v;
-    br_pick_opts_default(o);
+    *o = (settings){0, 0, 0, NAN};
     if (br_cli_startup_method("pick", a->method, &a->su_method))
         return BR_EXIT_INPUT;
-    o->startup = !a->no_startup;
-    o->per_rail = !a->no_per_rail;
     if (!a->catalog)
         return br_cli_usage_error("pick", "missing --catalog PARTS.xml");
     if (a->threads) {
-        if (br_cli_long("pick", "threads", a->threads, 1, BR_SPREAD_MAX_THREADS, &v))
+        if (br_cli_long("pick", "threads", a->threads, 1, BR_STUDY_THREADS_MAX, &v))
             return BR_EXIT_INPUT;
         o->threads = (int)v;
     }
@@ -76,61 +75,93 @@ static int options(args *a, br_pick_opts *o)
     if (a->limit) {
         if (br_cli_long("pick", "solver-limit", a->limit, 1, 100000, &v))
             return BR_EXIT_INPUT;
-        o->solver_limit = (int)v;
+        o->limit = (int)v;
     }
     return min_margin(a->min_margin, o);
 }
 
+/* The study as the options set it, its progress handed to the run. */
+static br_pick_study *study(const args *a, const settings *o, br_cli_run *lr)
+{
+    br_pick_study *p = br_pick_study_create();
+    if (p && (br_pick_study_set_threads(p, o->threads) != BR_OK ||
+              (o->top && br_pick_study_set_top(p, o->top) != BR_OK) ||
+              br_pick_study_set_min_margin(p, o->min_margin) != BR_OK ||
+              br_pick_study_set_startup(p, !a->no_startup) != BR_OK ||
+              br_pick_study_set_per_rail(p, !a->no_per_rail) != BR_OK ||
+              br_pick_study_set_solver_limit(p, o->limit) != BR_OK ||
+              br_pick_study_set_progress(p, br_cli_run_progress, br_cli_run_stop, lr) != BR_OK)) {
+        br_pick_study_free(p);
+        return NULL;
+    }
+    return p;
+}
+
 typedef struct outputs {
     br_design *d;
-    br_chain *c;
     br_catalog *cat;
-    br_pick *p;
+    br_pick_study *p;
     br_text *text, *xml, *html;
 } outputs;
 
 static void outputs_free(outputs *o)
 {
-    br_pick_free(o->p);
+    br_pick_study_free(o->p);
     br_catalog_free(o->cat);
-    br_chain_free(o->c);
     br_design_free(o->d);
     br_text_free(o->text);
     br_text_free(o->xml);
     br_text_free(o->html);
 }
 
-/* Returns a br_status; *culprit is the file a failure is about. */
-static int compute(const char *path, const args *a, const br_pick_opts *po, outputs *o,
-                   const char **culprit, br_error *err)
+static int out_of_memory(br_error *err)
 {
-    o->text = br_text_create();
-    o->xml = a->xml ? br_text_create() : NULL;
-    o->html = a->report ? br_text_create() : NULL;
-    if (!o->text || (a->xml && !o->xml) || (a->report && !o->html))
-        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    br_error_clear(err);
+    err->code = BR_ENOMEM;
+    snprintf(err->msg, sizeof err->msg, "out of memory");
+    return BR_ENOMEM;
+}
+
+/* The design's chain is built first, so that a design the chain model
+ * refuses is reported before the catalog is read. */
+static int load(const char *path, const args *a, outputs *o, const char **culprit, br_error *err)
+{
+    br_chain *c = NULL;
     *culprit = path;
     int rc = br_design_load(path, &o->d, err);
     if (rc == BR_OK) {
         br_design_set_startup_method(o->d, a->su_method);
-        rc = br_chain_build(o->d, &o->c, err);
+        rc = br_chain_build(o->d, &c, err);
+        br_chain_free(c);
     }
     if (rc == BR_OK) {
         *culprit = a->catalog;
         rc = br_catalog_load(a->catalog, &o->cat, err);
     }
+    return rc;
+}
+
+/* Returns a br_status; *culprit is the file a failure is about. */
+static int compute(const char *path, const args *a, const settings *so, br_cli_run *lr, outputs *o,
+                   const char **culprit, br_error *err)
+{
+    o->text = br_text_create();
+    o->xml = a->xml ? br_text_create() : NULL;
+    o->html = a->report ? br_text_create() : NULL;
+    o->p = study(a, so, lr);
+    if (!o->text || (a->xml && !o->xml) || (a->report && !o->html) || !o->p)
+        return out_of_memory(err);
+    int rc = load(path, a, o, culprit, err);
     if (rc == BR_OK) {
         *culprit = path;
-        rc = br_pick_run(o->d, o->cat, po, &o->p, err);
+        rc = br_pick_study_run(o->p, o->d, o->cat, err);
     }
     if (rc == BR_OK)
-        rc = br_pick_text(o->c, o->p, o->text);
+        rc = br_pick_study_render(o->p, BR_FORMAT_TEXT, o->text, err);
     if (rc == BR_OK && a->xml)
-        rc = br_pick_xml(o->c, o->p, BR_VERSION, o->xml, err);
+        rc = br_pick_study_render(o->p, BR_FORMAT_XML, o->xml, err);
     if (rc == BR_OK && a->report)
-        rc = br_text_html(o->c, "part choice", o->p->outcome, VERDICT, 1, o->text, o->html, err);
-    if (rc == BR_ENOMEM && !err->msg[0])
-        br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory rendering the report");
+        rc = br_pick_study_render(o->p, BR_FORMAT_HTML, o->html, err);
     return rc;
 }
 
@@ -169,10 +200,10 @@ int cmd_pick(int argc, char **argv)
     int parsed = br_cli_parse(&doc, argc, argv, pos);
     if (parsed != 0)
         return br_cli_parse_status(parsed);
-    br_pick_opts po;
+    settings so;
     const char *const out[] = {a.xml, a.report}, *const names[] = {"xml", "report"};
     const char *const in[] = {pos[0], a.catalog};
-    if (options(&a, &po) != BR_EXIT_OK ||
+    if (options(&a, &so) != BR_EXIT_OK ||
         br_cli_outputs("pick", names, out, 2, in, 2) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
     outputs o = {0};
@@ -181,14 +212,14 @@ int cmd_pick(int argc, char **argv)
     const char *culprit = pos[0];
     br_cli_run lr;
     br_cli_run_begin(&lr, "pick", a.quiet);
-    po.progress = BR_CLI_HOOK(&lr);
-    int rc = compute(pos[0], &a, &po, &o, &culprit, &err);
+    int rc = compute(pos[0], &a, &so, &lr, &o, &culprit, &err);
     int status = br_cli_run_commit(&lr);
     if (status == BR_EXIT_OK)
         status = rc != BR_OK ? br_cli_fail(&err, culprit) : write_all(&a, &o);
     br_cli_run_end(&lr);
-    if (status == BR_EXIT_OK && o.p->outcome != BR_OUTCOME_PASS)
-        status = o.p->outcome == BR_OUTCOME_FAIL ? BR_EXIT_FAIL : BR_EXIT_UNDETERMINED;
+    int result = BR_RESULT_UNDETERMINED;
+    if (status == BR_EXIT_OK && br_pick_result(o.p, &result) == BR_OK && result != BR_RESULT_PASS)
+        status = result == BR_RESULT_FAIL ? BR_EXIT_FAIL : BR_EXIT_UNDETERMINED;
     outputs_free(&o);
     return status;
 }

@@ -4,12 +4,11 @@
  * voltage window of the result, and the sized design as a design file. */
 #include "cli.h"
 
-#include "analyses/size.h"
-#include "core/error.h"
-#include "core/units.h"
-#include "io/design_write.h"
-#include "model/catalog.h"
-#include "report/size_report.h"
+#include "bootrung/parts.h"
+#include "bootrung/report.h"
+
+#include <math.h>
+#include <stdio.h>
 
 static const char ABOUT[] =
     "Size design FILE to a margin target. Rail by rail from the top, the\n"
@@ -32,38 +31,41 @@ typedef struct args {
     int su_method;
 } args;
 
+/* The options' values, checked, for the study. */
+typedef struct settings {
+    int threads, limit; /* 0: the study's default */
+    double target;      /* V; NaN: the default */
+} settings;
+
 typedef struct outputs {
     br_design *d;
-    br_chain *c;
     br_catalog *cat;
-    br_size *z;
+    br_size_study *z;
     br_text *text, *design;
 } outputs;
 
 static void outputs_free(outputs *o)
 {
-    br_size_free(o->z);
-    br_chain_free(o->c);
+    br_size_study_free(o->z);
     br_design_free(o->d);
     br_catalog_free(o->cat);
     br_text_free(o->text);
     br_text_free(o->design);
 }
 
-static int options(const args *a, br_size_opts *o)
+static int options(const args *a, settings *o)
 {
     long v;
-    br_size_opts_default(o);
-    if (a->threads && br_cli_long("size", "threads", a->threads, 1, BR_SPREAD_MAX_THREADS, &v))
+    *o = (settings){0, 0, NAN};
+    if (a->threads && br_cli_long("size", "threads", a->threads, 1, BR_STUDY_THREADS_MAX, &v))
         return BR_EXIT_INPUT;
     o->threads = a->threads ? (int)v : 0;
     if (a->limit && br_cli_long("size", "solver-limit", a->limit, 1, 400, &v))
         return BR_EXIT_INPUT;
-    o->solver_limit = a->limit ? (int)v : 0;
-    o->supply = a->supply;
-    o->links = !a->no_links;
+    o->limit = a->limit ? (int)v : 0;
     if (a->target) {
         br_error err;
+        br_error_clear(&err);
         if (br_unit_parse(a->target, BR_KIND_VOLTAGE, &o->target, &err) != BR_OK ||
             !(o->target >= 0 && o->target < 1e6))
             return br_cli_usage_error("size", "--target '%s': %s", a->target,
@@ -72,33 +74,49 @@ static int options(const args *a, br_size_opts *o)
     return BR_EXIT_OK;
 }
 
-static int compute(const char *path, const args *a, br_size_opts *so, outputs *o, br_error *err)
+/* The study as the options set it, its progress handed to the run. */
+static br_size_study *study(const args *a, const settings *o, br_cli_run *lr)
+{
+    br_size_study *z = br_size_study_create();
+    if (z && (br_size_study_set_threads(z, o->threads) != BR_OK ||
+              br_size_study_set_solver_limit(z, o->limit) != BR_OK ||
+              br_size_study_set_target(z, o->target) != BR_OK ||
+              br_size_study_set_supply(z, a->supply) != BR_OK ||
+              br_size_study_set_links(z, !a->no_links) != BR_OK ||
+              br_size_study_set_progress(z, br_cli_run_progress, br_cli_run_stop, lr) != BR_OK)) {
+        br_size_study_free(z);
+        return NULL;
+    }
+    return z;
+}
+
+static int out_of_memory(br_error *err)
+{
+    br_error_clear(err);
+    err->code = BR_ENOMEM;
+    snprintf(err->msg, sizeof err->msg, "out of memory");
+    return BR_ENOMEM;
+}
+
+static int compute(const char *path, const args *a, const settings *so, br_cli_run *lr, outputs *o,
+                   br_error *err)
 {
     o->text = br_text_create();
     o->design = a->write ? br_text_create() : NULL;
-    if (!o->text || (a->write && !o->design))
-        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    o->z = study(a, so, lr);
+    if (!o->text || (a->write && !o->design) || !o->z)
+        return out_of_memory(err);
     int rc = br_design_load(path, &o->d, err);
     if (rc == BR_OK && a->method)
         br_design_set_startup_method(o->d, a->su_method);
     if (rc == BR_OK && a->catalog)
         rc = br_catalog_load(a->catalog, &o->cat, err);
     if (rc == BR_OK)
-        rc = br_chain_build(o->d, &o->c, err);
-    so->cat = o->cat;
+        rc = br_size_study_run(o->z, o->d, o->cat, err);
     if (rc == BR_OK)
-        rc = br_size_run(o->d, so, &o->z, err);
-    if (rc == BR_OK)
-        rc = br_size_text(o->c, o->z, a->catalog, o->text);
-    if (rc == BR_OK && a->write) {
-        br_text *comment = br_text_create();
-        rc = comment ? br_size_comment(o->c, o->z, a->catalog, comment) : BR_ENOMEM;
-        if (rc == BR_OK)
-            rc = br_design_write(o->z->d, br_text_data(comment), o->design, err);
-        br_text_free(comment);
-    }
-    if (rc == BR_ENOMEM && !err->msg[0])
-        br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory rendering the report");
+        rc = br_size_study_render(o->z, BR_FORMAT_TEXT, o->text, err);
+    if (rc == BR_OK && a->write)
+        rc = br_size_design_file(o->z, o->design, err);
     return rc;
 }
 
@@ -127,7 +145,7 @@ int cmd_size(int argc, char **argv)
     int parsed = br_cli_parse(&doc, argc, argv, pos);
     if (parsed != 0)
         return br_cli_parse_status(parsed);
-    br_size_opts so;
+    settings so;
     if (options(&a, &so) != BR_EXIT_OK ||
         br_cli_startup_method("size", a.method, &a.su_method) != BR_EXIT_OK)
         return BR_EXIT_INPUT;
@@ -140,8 +158,7 @@ int cmd_size(int argc, char **argv)
     br_error_clear(&err);
     br_cli_run lr;
     br_cli_run_begin(&lr, "size", a.quiet);
-    so.progress = BR_CLI_HOOK(&lr);
-    int rc = compute(pos[0], &a, &so, &o, &err);
+    int rc = compute(pos[0], &a, &so, &lr, &o, &err);
     int status = br_cli_run_commit(&lr);
     if (status == BR_EXIT_OK && rc != BR_OK)
         status = br_cli_fail(&err, rc == BR_EINPUT && err.file[0] ? err.file : pos[0]);
@@ -151,10 +168,11 @@ int cmd_size(int argc, char **argv)
         status = br_cli_write(files, 1, o.text, a.quiet, verdict, 1);
     }
     br_cli_run_end(&lr);
-    if (status == BR_EXIT_OK)
-        status = o.z->outcome == BR_OUTCOME_PASS   ? BR_EXIT_OK
-                 : o.z->outcome == BR_OUTCOME_FAIL ? BR_EXIT_FAIL
-                                                   : BR_EXIT_UNDETERMINED;
+    int result = BR_RESULT_UNDETERMINED;
+    if (status == BR_EXIT_OK && br_size_result(o.z, &result) == BR_OK)
+        status = result == BR_RESULT_PASS   ? BR_EXIT_OK
+                 : result == BR_RESULT_FAIL ? BR_EXIT_FAIL
+                                            : BR_EXIT_UNDETERMINED;
     outputs_free(&o);
     return status;
 }

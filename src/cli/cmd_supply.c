@@ -3,14 +3,9 @@
  * its worst corners. */
 #include "cli.h"
 
-#include "analyses/supply_window.h"
-#include "core/error.h"
-#include "report/supply_window_report.h"
-#include "report/verb_pages.h"
+#include "bootrung/parts.h"
 
-#ifndef BR_VERSION
-#define BR_VERSION "unknown"
-#endif
+#include <stdio.h>
 
 static const char ABOUT[] =
     "What the chain of design FILE asks of its supply. Three answers, each\n"
@@ -36,50 +31,54 @@ typedef struct args {
     const char *xml, *report, *threads, *method;
     int quiet;
     int su_method; /* br_su_method */
+    int nthreads;  /* --threads (0: one per processor) */
 } args;
 
 typedef struct outputs {
     br_design *d;
-    br_chain *c;
-    br_supply_window *w;
+    br_supply_study *w;
     br_text *text, *xml, *html;
 } outputs;
 
 static void outputs_free(outputs *o)
 {
-    br_supply_window_free(o->w);
-    br_chain_free(o->c);
+    br_supply_study_free(o->w);
     br_design_free(o->d);
     br_text_free(o->text);
     br_text_free(o->xml);
     br_text_free(o->html);
 }
 
-static int compute(const char *path, const args *a, const br_supply_window_opts *opts, outputs *o,
-                   br_error *err)
+static int out_of_memory(br_error *err)
+{
+    br_error_clear(err);
+    err->code = BR_ENOMEM;
+    snprintf(err->msg, sizeof err->msg, "out of memory");
+    return BR_ENOMEM;
+}
+
+static int compute(const char *path, const args *a, br_cli_run *lr, outputs *o, br_error *err)
 {
     int want_xml = a->xml != NULL;
     o->text = br_text_create();
     o->xml = want_xml ? br_text_create() : NULL;
     o->html = a->report ? br_text_create() : NULL;
-    if (!o->text || (want_xml && !o->xml) || (a->report && !o->html))
-        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    o->w = br_supply_study_create();
+    if (!o->text || (want_xml && !o->xml) || (a->report && !o->html) || !o->w)
+        return out_of_memory(err);
+    br_supply_study_set_threads(o->w, a->nthreads);
+    br_supply_study_set_progress(o->w, br_cli_run_progress, br_cli_run_stop, lr);
     int rc = br_design_load(path, &o->d, err);
     if (rc == BR_OK && a->method) /* every cold start of the search, by this method */
         br_design_set_startup_method(o->d, a->su_method);
     if (rc == BR_OK)
-        rc = br_chain_build(o->d, &o->c, err);
+        rc = br_supply_study_run(o->w, o->d, err);
     if (rc == BR_OK)
-        rc = br_supply_window_run(o->d, opts, &o->w, err);
-    if (rc == BR_OK)
-        rc = br_supply_window_text(o->c, o->w, o->text);
+        rc = br_supply_study_render(o->w, BR_FORMAT_TEXT, o->text, err);
     if (rc == BR_OK && want_xml)
-        rc = br_supply_window_xml(o->c, o->w, BR_VERSION, o->xml, err);
+        rc = br_supply_study_render(o->w, BR_FORMAT_XML, o->xml, err);
     if (rc == BR_OK && a->report)
-        rc = br_text_html(o->c, "supply window", br_supply_window_outcome(o->w), VERDICT, 1,
-                          o->text, o->html, err);
-    if (rc == BR_ENOMEM && !err->msg[0])
-        br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory rendering the report");
+        rc = br_supply_study_render(o->w, BR_FORMAT_HTML, o->html, err);
     return rc;
 }
 
@@ -106,11 +105,10 @@ int cmd_supply(int argc, char **argv)
     int parsed = br_cli_parse(&doc, argc, argv, pos);
     if (parsed != 0)
         return br_cli_parse_status(parsed);
-    br_supply_window_opts so = {0};
     long v;
-    if (a.threads && br_cli_long("supply", "threads", a.threads, 1, BR_SPREAD_MAX_THREADS, &v))
+    if (a.threads && br_cli_long("supply", "threads", a.threads, 1, BR_STUDY_THREADS_MAX, &v))
         return BR_EXIT_INPUT;
-    so.threads = a.threads ? (int)v : 0;
+    a.nthreads = a.threads ? (int)v : 0;
     if (br_cli_startup_method("supply", a.method, &a.su_method))
         return BR_EXIT_INPUT;
     const char *const out[] = {a.xml, a.report}, *const names[] = {"xml", "report"};
@@ -121,17 +119,17 @@ int cmd_supply(int argc, char **argv)
     br_error_clear(&err);
     br_cli_run lr;
     br_cli_run_begin(&lr, "supply", a.quiet);
-    so.progress = BR_CLI_HOOK(&lr);
-    int rc = compute(pos[0], &a, &so, &o, &err);
+    int rc = compute(pos[0], &a, &lr, &o, &err);
     int status = br_cli_run_commit(&lr);
     if (status == BR_EXIT_OK)
         status = rc != BR_OK ? br_cli_fail(&err, pos[0]) : write_all(&a, &o);
     br_cli_run_end(&lr);
     if (status == BR_EXIT_OK) {
-        int outcome = br_supply_window_outcome(o.w);
-        status = outcome == BR_OUTCOME_PASS   ? BR_EXIT_OK
-                 : outcome == BR_OUTCOME_FAIL ? BR_EXIT_FAIL
-                                              : BR_EXIT_UNDETERMINED;
+        int result = BR_RESULT_UNDETERMINED;
+        br_supply_result(o.w, &result);
+        status = result == BR_RESULT_PASS   ? BR_EXIT_OK
+                 : result == BR_RESULT_FAIL ? BR_EXIT_FAIL
+                                            : BR_EXIT_UNDETERMINED;
     }
     outputs_free(&o);
     return status;

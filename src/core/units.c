@@ -554,6 +554,8 @@ static int check_text(const char *text, br_kind kind, br_error *err)
 
 int br_unit_parse(const char *text, br_kind kind, double *out, br_error *err)
 {
+    if (!out) /* a public function: the caller's mistake, said so */
+        return br_error_set(err, BR_EUSAGE, NULL, 0, NULL, "br_unit_parse: no place for the value");
     int rc = check_text(text, kind, err);
     if (rc)
         return rc;

@@ -33,17 +33,19 @@ typedef struct br_catalog {
     br_offer driver_offer[BR_MAX_PARTS];
 } br_catalog;
 
-/* Parse and validate the catalog file at path (io layer).  On failure
+/* Parse and validate the catalog file at path (io layer).  Public
+ * (include/bootrung/parts.h), hence BR_API here too: the definitions see
+ * this declaration, and a hidden one would not be exported.  On failure
  * *out is NULL and err says FILE:LINE: field: what is wrong. */
-int br_catalog_load(const char *path, br_catalog **out, br_error *err);
+BR_API int br_catalog_load(const char *path, br_catalog **out, br_error *err);
 
 /* The same from memory; name is used in messages. */
-int br_catalog_load_memory(const char *buf, size_t len, const char *name, br_catalog **out,
-                           br_error *err);
+BR_API int br_catalog_load_memory(const char *buf, size_t len, const char *name, br_catalog **out,
+                                  br_error *err);
 
-void br_catalog_free(br_catalog *c);
+BR_API void br_catalog_free(br_catalog *c);
 
 /* The RELAX NG schema the loader enforces (NUL-terminated). */
-const char *br_catalog_schema(void);
+BR_API const char *br_catalog_schema(void);
 
 #endif

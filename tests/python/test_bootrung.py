@@ -139,6 +139,45 @@ class CornersRun(unittest.TestCase):
             bootrung.load(path(DESIGNS[1])).corners(progress=lambda d, t: True)
 
 
+class PartsRun(unittest.TestCase):
+    """pick and size (bootrung/parts.h) on the demo with the example stock."""
+
+    def test_demo_pick(self):
+        design = bootrung.load(path(DESIGNS[0]))
+        stock = bootrung.load_catalog(path("examples/parts/catalog.xml"))
+        self.assertEqual(len(stock.ids("capacitor")), 12)  # the catalog's own heading
+        p = design.pick(stock, top=3, per_rail=False, startup=False)
+        self.assertTrue(p.report.startswith("part pick of design demo-3level"))
+        self.assertIn(p.result, ("pass", "fail", "undetermined"))
+        # x5r-22u-10v is rated 10 V (catalog.xml), below the demo's supply
+        # at its maximum: 12 V +5 % = 12.6 V
+        why = dict((pid, w) for role, pid, w in p.rejected if role == "capacitor")
+        self.assertIn("rated 10 V", why["x5r-22u-10v"])
+        self.assertIn("12.6 V", why["x5r-22u-10v"])
+        self.assertGreater(len(p.choices), 1)
+        rated_out = [pid for pid, w in why.items() if w.startswith("rated ")]
+        self.assertIn("x5r-22u-10v", rated_out)
+        for ch in p.choices:  # one-part choices only: one part on every rail and link
+            self.assertTrue(ch.uniform)
+            self.assertEqual(len(set(ch.capacitors[1:])), 1)
+            self.assertNotIn(ch.capacitors[1], rated_out)  # never placed
+        self.assertEqual(p.ranked, [i for i in p.ranked if p.choices[i].result == "pass"])
+        with self.assertRaises(bootrung.Cancelled):
+            design.pick(stock, progress=lambda d, t: True)
+
+    def test_demo_size(self):
+        design = bootrung.load(path(DESIGNS[0]))
+        z = design.size(target=0.05, links=False)
+        self.assertTrue(z.report.startswith("sizing of design demo-3level"))
+        self.assertEqual(z.target, 0.05)
+        self.assertIsNone(z.link)
+        self.assertIsNone(z.rails[0])
+        self.assertEqual(len(z.rails), 4)  # the demo's four switches, three rails
+        self.assertIn(z.rails[1].kind, ("found", "end", "none", "undetermined", "kept"))
+        sized = bootrung.load_string(z.design_file, "sized.xml")  # reads back
+        self.assertEqual(sized.name, "sized.xml")
+
+
 class WindowRun(unittest.TestCase):
     def test_demo_window(self):
         w = bootrung.load(path(DESIGNS[0])).window()

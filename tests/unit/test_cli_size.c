@@ -170,6 +170,12 @@ static void test_cli(void)
     r = run((const char *[]){"size", "--target", "lots", DESIGN, NULL});
     CU_ASSERT_EQUAL(r.status, 2);
     done(&r);
+    /* a voltage that reads but is negative: the message says what is
+     * expected (it printed an uninitialised error record's text before) */
+    r = run((const char *[]){"size", "--target", "-1 V", DESIGN, NULL});
+    CU_ASSERT_EQUAL(r.status, 2);
+    CU_ASSERT_PTR_NOT_NULL(strstr(r.err, "--target '-1 V': expected a voltage of 0 or more"));
+    done(&r);
     unlink(out);
     rmdir(dir);
 }

@@ -5,10 +5,13 @@
  *
  * usage: consumer VERSION DESIGN BAD-DESIGN
  * Loads DESIGN, builds its chain and runs its cold start, then loads BAD-DESIGN and checks that
- * the failure comes back as a record that names the file.  Prints one line
- * per step; exit 0 when every step went as expected. */
+ * the failure comes back as a record that names the file; reads "50 mV"
+ * through the part studies' header.  Prints one line per step; exit 0
+ * when every step went as expected. */
 #include <bootrung/analysis.h>
 #include <bootrung/bootrung.h>
+#include <bootrung/parts.h>
+#include <bootrung/report.h>
 
 #include <stdio.h>
 #include <string.h>
@@ -83,6 +86,13 @@ int main(int argc, char **argv)
     br_text_free(t);
     if (bad) {
         printf("text buffer broken\n");
+        return 1;
+    }
+    double v = 0;
+    br_error err;
+    if (br_unit_parse("50 mV", BR_KIND_VOLTAGE, &v, &err) != BR_OK ||
+        !(v > 0.0499999 && v < 0.0500001)) {
+        printf("quantity \"50 mV\" read as %g, expected 0.05\n", v);
         return 1;
     }
     return load_good(argv[2]) | load_bad(argv[3]);
