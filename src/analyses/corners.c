@@ -10,6 +10,7 @@
 
 void br_corners_opts_default(br_corners_opts *o)
 {
+    memset(o, 0, sizeof *o); /* fields added later start at zero */
     o->threads = 0;
     o->max_exhaustive = 10;
     o->max_sensitive = 8;

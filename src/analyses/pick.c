@@ -13,6 +13,7 @@
 
 void br_pick_opts_default(br_pick_opts *o)
 {
+    memset(o, 0, sizeof *o); /* fields added later start at zero */
     o->threads = 0;
     o->top = 10;
     o->startup = 1;

@@ -34,15 +34,10 @@ const char *br_outcome_name(int outcome)
 
 void br_spread_opts_default(br_spread_opts *o)
 {
-    o->threads = 0;
-    o->startup = 0;
-    o->accept = 0.0;
-    o->similar = 0;
-    o->stop_failed = 0;
-    o->meter = NULL;
+    /* every field, also those added later, starts at zero (a field left
+     * out here once made a run depend on the stack's leftovers) */
+    *o = (br_spread_opts){0};
     o->meter_weight = 1.0;
-    o->solver_limit = 0;
-    o->thermal_loop = 0;
 }
 
 /* ---- a batch of points ------------------------------------------------------- */

@@ -20,6 +20,7 @@
 
 void br_steady_opts_default(br_steady_opts *o)
 {
+    memset(o, 0, sizeof *o); /* fields added later start at zero */
     o->tol = 1e-5;
     o->max_iter = 12;
     o->max_plain = 400;

@@ -282,6 +282,21 @@ static void test_yield_threads(void)
     done(&b);
 }
 
+/* A run depends on its inputs alone: pick on one thread or two gives the
+ * same bytes (an option field left unset once made the one-thread run
+ * start its steady states from the stack's leftovers). */
+static void test_pick_threads(void)
+{
+    const char *cat = "examples/parts/catalog.xml";
+    run_result a = run((const char *[]){"pick", "--catalog", cat, "--threads", "1", DEMO, NULL});
+    run_result b = run((const char *[]){"pick", "--catalog", cat, "--threads", "2", DEMO, NULL});
+    CU_ASSERT_EQUAL(a.status, b.status);
+    CU_ASSERT_STRING_EQUAL(a.out, b.out);
+    CU_ASSERT_TRUE(has(a.out, "as the only diode"));
+    done(&a);
+    done(&b);
+}
+
 /* The CSV file: a header and one row per sample; --min-yield judges the
  * lower confidence bound: the 7-level example passes in every sample, the
  * 3-level demo (its top rails short of the minimum drive stepping up at
@@ -632,6 +647,7 @@ int main(void)
         {"corners and yield judge the start-up dropouts", test_dropouts_judged},
         {"yield: samples where a rail never starts", test_yield_never_starts},
         {"yield: same seed, 1 or 2 threads, same report", test_yield_threads},
+        {"pick: 1 or 2 threads, same report", test_pick_threads},
         {"yield: CSV and XML files, --min-yield", test_yield_files},
         {"corners: a slow steady state settles", test_corners_settles},
         {"corners: unsettled points are undetermined", test_corners_undetermined},
