@@ -1,12 +1,12 @@
 /* explore_size.c - the exploration's link diodes and rail capacitors from
  * a parts catalog, and its yield option (explore_size.h). */
 #include "analyses/explore_size.h"
+#include "analyses/workpool.h"
 
 #include "analyses/yield.h"
 #include "core/error.h"
 
 #include <math.h>
-#include <pthread.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -217,66 +217,12 @@ int br_explore_yield(const br_design *d, const br_explore_opts *o, br_explore_ro
 
 /* ---- the rows on worker threads --------------------------------------------- */
 
-typedef struct pool {
-    int n, next;
-    br_explore_judge_fn judge;
-    void *ctx;
-    br_meter *meter;
-    pthread_mutex_t lock;
-    int failed; /* a row returned an error: the first is in err */
-    br_error err;
-} pool;
-
-static void *pool_worker(void *arg)
-{
-    pool *p = arg;
-    for (;;) {
-        int stop = br_meter_stopped(p->meter);
-        pthread_mutex_lock(&p->lock);
-        int i = p->failed || stop ? p->n : p->next++;
-        pthread_mutex_unlock(&p->lock);
-        if (i >= p->n)
-            return NULL;
-        br_error err;
-        br_error_clear(&err);
-        int rc = p->judge(p->ctx, i, &err);
-        if (rc != BR_OK) {
-            pthread_mutex_lock(&p->lock);
-            if (!p->failed++)
-                p->err = err;
-            pthread_mutex_unlock(&p->lock);
-        }
-        br_meter_add(p->meter, 1.0);
-    }
-}
-
-static int pool_run(pool *p, int threads, br_error *err)
-{
-    pthread_t tid[BR_SPREAD_MAX_THREADS];
-    int nt = threads > 0 ? threads : br_cpu_count(), started = 0;
-    nt = nt > p->n ? p->n : nt > BR_SPREAD_MAX_THREADS ? BR_SPREAD_MAX_THREADS : nt;
-    if (pthread_mutex_init(&p->lock, NULL) != 0)
-        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "cannot create a lock");
-    for (int t = 1; t < nt; t++)
-        started += pthread_create(&tid[started], NULL, pool_worker, p) == 0;
-    pool_worker(p);
-    for (int t = 0; t < started; t++)
-        pthread_join(tid[t], NULL);
-    pthread_mutex_destroy(&p->lock);
-    if (p->failed) {
-        *err = p->err;
-        return p->err.code ? p->err.code : BR_ENOMEM;
-    }
-    return BR_OK;
-}
-
-int br_explore_pool(int n, int threads, br_explore_judge_fn judge, void *ctx,
-                    const br_progress *progress, br_error *err)
+int br_explore_pool(int n, int threads, br_work_fn judge, void *ctx, const br_progress *progress,
+                    br_error *err)
 {
     br_meter meter;
     TRY(br_meter_init(&meter, progress, (double)n, err));
-    pool p = {.n = n, .judge = judge, .ctx = ctx, .meter = &meter};
-    int rc = n > 0 ? pool_run(&p, threads, err) : BR_OK;
+    int rc = br_work_run(n, threads, judge, ctx, &meter, 1.0, err);
     rc = br_meter_status(&meter, rc, err);
     br_meter_destroy(&meter);
     return rc;

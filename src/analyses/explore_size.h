@@ -28,6 +28,7 @@
 #define BR_ANALYSES_EXPLORE_SIZE_H
 
 #include "analyses/explore.h"
+#include "analyses/workpool.h"
 
 /* A catalog diode c is at least as strong as part p when none of its
  * current ratings is lower (a rating p does not give asks nothing) and,
@@ -76,8 +77,7 @@ int br_explore_yield(const br_design *d, const br_explore_opts *o, br_explore_ro
  * threads gives the same rows.  The meter's hook hears of every row done
  * (n in all), and a stop ends the run with BR_ECANCEL; the first error a
  * row returns ends it too. */
-typedef int (*br_explore_judge_fn)(void *ctx, int i, br_error *err);
-int br_explore_pool(int n, int threads, br_explore_judge_fn judge, void *ctx,
-                    const br_progress *progress, br_error *err);
+int br_explore_pool(int n, int threads, br_work_fn judge, void *ctx, const br_progress *progress,
+                    br_error *err);
 
 #endif

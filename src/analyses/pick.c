@@ -1,12 +1,12 @@
 /* pick.c - rating screens, one-part choices, the per-rail greedy descent
  * and the ranking of capacitor and diode choices from a catalog. */
 #include "analyses/pick.h"
+#include "analyses/workpool.h"
 
 #include "analyses/corners.h"
 #include "core/error.h"
 
 #include <math.h>
-#include <pthread.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -284,15 +284,11 @@ static int judge(const br_pick *pk, br_choice *ch, int startup_rows, br_error *e
 
 /* ---- judging many choices in parallel ------------------------------------------ */
 
+/* One pool item: a choice to judge. */
 typedef struct pool {
     const br_pick *pk;
     br_choice **todo;
-    int n;
     int startup_rows;
-    pthread_mutex_t lock;
-    int next;
-    int failed; /* out of memory somewhere */
-    br_error err;
 } pool;
 
 /* What judging one choice counts for on the meter: about the points it
@@ -302,52 +298,23 @@ static double choice_weight(const br_pick *pk)
     return 1.0 + pk->base->tl.n;
 }
 
-static void *pool_worker(void *arg)
+static int judge_item(void *ctx, int i, br_error *err)
 {
-    pool *p = arg;
-    for (;;) {
-        br_meter *meter = p->pk->base->meter;
-        int stop = br_meter_stopped(meter);
-        pthread_mutex_lock(&p->lock);
-        int i = p->failed || stop ? p->n : p->next++;
-        pthread_mutex_unlock(&p->lock);
-        if (i >= p->n)
-            return NULL;
-        br_error err;
-        br_error_clear(&err);
-        if (judge(p->pk, p->todo[i], p->startup_rows, &err) != BR_OK) {
-            pthread_mutex_lock(&p->lock);
-            if (!p->failed++)
-                p->err = err;
-            pthread_mutex_unlock(&p->lock);
-        }
-        br_meter_add(meter, choice_weight(p->pk));
-    }
+    const pool *p = ctx;
+    return judge(p->pk, p->todo[i], p->startup_rows, err);
 }
 
 static int judge_all(const br_pick *pk, br_choice **todo, int n, int startup_rows, br_error *err)
 {
-    pool p = {.pk = pk, .todo = todo, .n = n, .startup_rows = startup_rows};
-    pthread_t tid[BR_SPREAD_MAX_THREADS];
-    int nt = pk->base->threads < n ? pk->base->threads : n, started = 0;
+    pool p = {.pk = pk, .todo = todo, .startup_rows = startup_rows};
     if (n == 0)
         return BR_OK;
-    if (pthread_mutex_init(&p.lock, NULL) != 0)
-        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "cannot create a lock");
     br_meter_grow(pk->base->meter, n * choice_weight(pk));
-    for (int t = 1; t < nt; t++)
-        started += pthread_create(&tid[started], NULL, pool_worker, &p) == 0;
-    pool_worker(&p);
-    for (int t = 0; t < started; t++)
-        pthread_join(tid[t], NULL);
-    pthread_mutex_destroy(&p.lock);
+    int rc =
+        br_work_run(n, pk->base->threads, judge_item, &p, pk->base->meter, choice_weight(pk), err);
     if (br_meter_stopped(pk->base->meter))
         return br_progress_cancelled(err);
-    if (p.failed) {
-        *err = p.err;
-        return p.err.code ? p.err.code : BR_ENOMEM;
-    }
-    return BR_OK;
+    return rc;
 }
 
 /* ---- screening ------------------------------------------------------------------ */
