@@ -459,6 +459,32 @@ class Pick:
 
 
 @dataclass
+class SupplyAnswer:
+    """One answer of the supply window, judged by the whole verdict at the
+    worst corners."""
+    applies: bool   # searched (else why says why not)
+    kind: str       # "found", "end" (passes to the end of the range), "none" or "undetermined"
+    from_: float    # the design's own value, A or V
+    lo: float       # the range searched
+    hi: float
+    value: float    # the furthest value that passes (nan: none)
+    failing: float  # the nearest value beyond it that fails or is undetermined
+    criterion: str  # what fails there ("" when nothing)
+    stage: int      # where, -1
+    points: int     # values judged
+    why: str        # why it was not searched ("" when it was)
+
+
+@dataclass
+class Supply:
+    result: str          # at the design's own supply, every worst corner
+    limit: SupplyAnswer  # the smallest current limit, A
+    vmin: SupplyAnswer   # the lowest supply voltage, V
+    vmax: SupplyAnswer   # the highest, V
+    report: str          # the text report `bootrung supply` prints
+
+
+@dataclass
 class SizeAnswer:
     kind: str     # "found", "end", "none", "undetermined" or "kept"
     from_: float  # the design's own value, F or ohm
@@ -540,6 +566,24 @@ def _size_answer(r, k):
     v["kind"] = L.SIZE_KINDS[int(v["kind"])]
     v["part"], v["trials"] = int(v["part"]), int(v["trials"])
     return SizeAnswer(**v)
+
+
+def _supply_answer(r, a):
+    v = {key: r.num("br_supply_answer", a, j) for j, key in enumerate(L.SA_KEYS)}
+    v["applies"] = bool(v["applies"])
+    v["kind"] = L.SUPPLY_KINDS[int(v["kind"])] if v["applies"] else ""
+    crit = int(v["criterion"]) if v["applies"] else -1
+    v["criterion"] = r.lib.br_criterion_key(crit).decode() if crit >= 0 else ""
+    v["stage"], v["points"] = int(v["stage"]), int(v["points"])
+    v["why"] = r.text("br_supply_answer_why", a)
+    return SupplyAnswer(**v)
+
+
+def _read_supply(h):
+    r = _Run(h)
+    answers = {name: _supply_answer(r, a) for a, name in enumerate(L.SUPPLY_ANSWERS)}
+    return Supply(L.RESULTS[r.int_("br_supply_result")],
+                  report=_render(h, "br_supply_study_render", "text"), **answers)
 
 
 def _read_size(h, stages):
@@ -896,6 +940,18 @@ class Design:
 
         return self._study("br_pick_study", lambda h: _read_pick(h, catalog), progress, setup,
                            catalog._h)
+
+    def supply(self, threads: int = 0,
+               progress: Optional[Callable[[float, float], bool]] = None) -> Supply:
+        """What the chain asks of its supply (`bootrung supply`): the smallest
+        current limit and the supply voltage window, each judged by the
+        whole verdict at the design's worst corners."""
+        lib = self._lib
+
+        def setup(h):
+            _check(lib.br_supply_study_set_threads(h, threads), "threads")
+
+        return self._study("br_supply_study", _read_supply, progress, setup)
 
     def size(self, catalog: Optional[Catalog] = None, target: Optional[float] = None,
              links: bool = True, supply: bool = False, threads: int = 0,

@@ -151,6 +151,15 @@ _SIGNATURES = {
     "br_pick_rejects": (_INT, [_P, c_int_p]),
     "br_pick_reject": (_INT, [_P, _INT, c_int_p, c_int_p, c_char_pp]),
     "br_pick_study_render": (_INT, [_P, _INT, _P, ctypes.POINTER(BrError)]),
+    "br_supply_study_create": (_P, []),
+    "br_supply_study_free": (None, [_P]),
+    "br_supply_study_set_progress": (_INT, [_P, PROGRESS, STOP, _P]),
+    "br_supply_study_set_threads": (_INT, [_P, _INT]),
+    "br_supply_study_run": (_INT, [_P, _P, ctypes.POINTER(BrError)]),
+    "br_supply_result": (_INT, [_P, c_int_p]),
+    "br_supply_answer": (_INT, [_P, _INT, _INT, c_double_p]),
+    "br_supply_answer_why": (_INT, [_P, _INT, c_char_pp]),
+    "br_supply_study_render": (_INT, [_P, _INT, _P, ctypes.POINTER(BrError)]),
     "br_size_study_create": (_P, []),
     "br_size_study_free": (None, [_P]),
     "br_size_study_set_progress": (_INT, [_P, PROGRESS, STOP, _P]),
@@ -203,6 +212,10 @@ CHOICE_KEYS = ("cost", "area", "margin", "result", "uniform", "startup", "criter
                "unsettled")
 SIZE_KINDS = ("found", "end", "none", "undetermined", "kept")
 SZ_KEYS = ("kind", "from_", "value", "part", "margin", "trials")
+SUPPLY_ANSWERS = ("limit", "vmin", "vmax")  # BR_SUPPLY_LIMIT, _VMIN, _VMAX
+SUPPLY_KINDS = ("found", "end", "none", "undetermined")
+SA_KEYS = ("applies", "kind", "from_", "lo", "hi", "value", "failing", "criterion", "stage",
+           "points")
 SIZE_FIGURES = ("target", "margin", "headroom", "reg_vout", "reg_dropout", "points")
 FORMAT_TEXT = 0
 STEADY_STATUS = ("holds", "does not hold", "undetermined")

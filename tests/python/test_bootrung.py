@@ -178,6 +178,28 @@ class PartsRun(unittest.TestCase):
         self.assertEqual(sized.name, "sized.xml")
 
 
+class SupplyRun(unittest.TestCase):
+    """The supply window (bootrung/parts.h) on the demo: the demo misses its
+    minimum drive at its own supply, so no smaller limit or lower voltage
+    passes, and the highest voltage is bounded by the regulator's power."""
+
+    def test_demo_supply(self):
+        s = bootrung.load(path(DESIGNS[0])).supply()
+        self.assertTrue(s.report.startswith("supply window of design demo-3level"))
+        self.assertEqual(s.result, "fail")
+        for a in (s.limit, s.vmin):
+            self.assertTrue(a.applies)
+            self.assertEqual(a.kind, "none")
+            self.assertTrue(math.isnan(a.value))
+            self.assertEqual(a.failing, a.from_)  # fails where it starts
+            self.assertEqual(a.criterion, "drive")
+        hi = s.vmax
+        self.assertEqual((hi.kind, hi.from_, hi.criterion), ("found", 12.0, "regulator-power"))
+        self.assertTrue(hi.from_ <= hi.value < hi.failing <= hi.hi)
+        self.assertLess(hi.failing - hi.value, 0.011)  # searched to 10 mV
+        self.assertEqual(hi.why, "")
+
+
 class WindowRun(unittest.TestCase):
     def test_demo_window(self):
         w = bootrung.load(path(DESIGNS[0])).window()
