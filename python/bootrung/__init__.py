@@ -35,7 +35,8 @@ __all__ = ["Error", "Cancelled", "Design", "load", "load_string", "version", "An
            "SteadyLink", "Holdup", "Series", "Criterion", "Verdict", "Corners",
            "CornerRow", "Yield", "YieldRow", "Window", "WindowAxis", "WindowSpan",
            "StartupWindow", "Map", "MapPoint", "Catalog", "load_catalog", "Pick",
-           "PickChoice", "Size", "SizeAnswer"]
+           "PickChoice", "Size", "SizeAnswer", "Supply", "SupplyAnswer", "Explore",
+           "Combination"]
 
 
 class Error(Exception):
@@ -459,6 +460,41 @@ class Pick:
 
 
 @dataclass
+class Combination:
+    """One combination of an exploration: level count, switch class and
+    frequency on the template."""
+    levels: int
+    fsw: float          # Hz
+    switch: str         # the catalog switch
+    diode: Optional[str]  # the catalog diode placed where the template's falls short
+    need: float         # the voltage class the rule asks for, V
+    state: str          # "feasible", "rating", "fails", "split", "margin", "startup", "cost",
+                        # "corners", "undetermined" or "refused"
+    cost: float         # the catalog parts placed
+    loss: float         # the supply's power in steady state, W
+    margin: float       # smallest margin in volts, V
+    startup: float      # start-up time, s
+    criterion: str      # where the margin binds or what fails ("" when nothing)
+    stage: int          # the rail or link, -1
+    split_at: int       # "split": the rail a second supply would feed
+    front: bool         # on the Pareto front of cost, supply power and margin
+    rank: int           # 1.. among the feasible (0: not feasible)
+    note: str           # why the model refused it ("" otherwise)
+
+
+@dataclass
+class Explore:
+    result: str                     # "pass": some combination is feasible
+    combinations: List[Combination]  # in the order judged
+    report: str                     # the text `bootrung explore` prints
+    csv: str                        # every combination, as `--csv` writes it
+
+    def design_file(self, i: int) -> str:
+        """Combination i's design file (kept from the run)."""
+        return self._files[i]
+
+
+@dataclass
 class SupplyAnswer:
     """One answer of the supply window, judged by the whole verdict at the
     worst corners."""
@@ -517,8 +553,8 @@ def _render(h, fn, what):
         raise MemoryError("bootrung: out of memory")
     try:
         err = L.BrError()
-        args = (h, t, ctypes.byref(err)) if what == "file" else (h, L.FORMAT_TEXT, t,
-                                                                   ctypes.byref(err))
+        form = L.FORMAT_CSV if what == "csv" else L.FORMAT_TEXT
+        args = (h, t, ctypes.byref(err)) if what == "file" else (h, form, t, ctypes.byref(err))
         rc = getattr(lib, fn)(*args)
         if rc != L.OK:
             _raise(rc, err)
@@ -577,6 +613,44 @@ def _supply_answer(r, a):
     v["stage"], v["points"] = int(v["stage"]), int(v["points"])
     v["why"] = r.text("br_supply_answer_why", a)
     return SupplyAnswer(**v)
+
+
+def _combination(r, i, catalog):
+    v = {key: r.num("br_explore_value", i, j) for j, key in enumerate(L.XV_KEYS)}
+    for key in ("levels", "switch", "diode", "state", "criterion", "stage", "split_at", "rank"):
+        v[key] = int(v[key])
+    v["state"] = L.COMBO_STATES[v["state"]]
+    v["switch"] = catalog.part_id(L.CATALOG_SWITCH, v["switch"]) if v["switch"] >= 0 else ""
+    v["diode"] = catalog.part_id(L.CATALOG_DIODE, v["diode"]) if v["diode"] >= 0 else None
+    crit = v["criterion"]
+    v["criterion"] = r.lib.br_criterion_key(crit).decode() if crit >= 0 else ""
+    v["front"] = bool(v["front"])
+    v["note"] = r.text("br_explore_note", i)
+    return Combination(**v)
+
+
+def _design_file(h, i):
+    lib, err = L.lib(), L.BrError()
+    t = lib.br_text_create()
+    if not t:
+        raise MemoryError("bootrung: out of memory")
+    try:
+        if lib.br_explore_design_file(h, i, t, ctypes.byref(err)) != L.OK:
+            return None  # the rule left it no switch or diode
+        return lib.br_text_data(t).decode("utf-8", "replace")
+    finally:
+        lib.br_text_free(t)
+
+
+def _read_explore(h, catalog):
+    r = _Run(h)
+    n = r.int_("br_explore_combinations")
+    x = Explore(L.RESULTS[r.int_("br_explore_result")],
+                [_combination(r, i, catalog) for i in range(n)],
+                report=_render(h, "br_explore_study_render", "text"),
+                csv=_render(h, "br_explore_study_render", "csv"))
+    x._files = [_design_file(h, i) for i in range(n)]
+    return x
 
 
 def _read_supply(h):
@@ -940,6 +1014,36 @@ class Design:
 
         return self._study("br_pick_study", lambda h: _read_pick(h, catalog), progress, setup,
                            catalog._h)
+
+    def explore(self, catalog: "Catalog", vbus: float, levels: tuple, frequencies,
+                vmax: Optional[float] = None, load_current: Optional[float] = None,
+                derating: Optional[float] = None, target: Optional[float] = None,
+                max_startup: Optional[float] = None, max_cost: Optional[float] = None,
+                corners: bool = False, scale_caps: bool = False, threads: int = 0,
+                progress: Optional[Callable[[float, float], bool]] = None) -> Explore:
+        """Explore level counts (lo, hi), the switch classes of catalog and
+        the frequencies (Hz) around this design as a template, as `bootrung
+        explore` does; vbus and vmax in volts, the limits in SI (None: the
+        template's or the tool's default)."""
+        lib = self._lib
+        freqs = [float(f) for f in frequencies]
+        limits = (load_current, derating, target, max_startup, max_cost)
+
+        def setup(h):
+            _check(lib.br_explore_study_set_bus(h, float(vbus),
+                                                float(vbus if vmax is None else vmax)), "vbus")
+            _check(lib.br_explore_study_set_levels(h, int(levels[0]), int(levels[1])), "levels")
+            arr = (ctypes.c_double * len(freqs))(*freqs)
+            _check(lib.br_explore_study_set_frequencies(h, arr, len(freqs)), "frequencies")
+            for j, value in enumerate(limits):
+                if value is not None:
+                    _check(lib.br_explore_study_set(h, j, float(value)), L.EXPLORE_LIMITS[j])
+            _check(lib.br_explore_study_set_corners(h, int(corners)), "corners")
+            _check(lib.br_explore_study_set_scale_caps(h, int(scale_caps)), "scale_caps")
+            _check(lib.br_explore_study_set_threads(h, threads), "threads")
+
+        return self._study("br_explore_study", lambda h: _read_explore(h, catalog), progress,
+                           setup, catalog._h)
 
     def supply(self, threads: int = 0,
                progress: Optional[Callable[[float, float], bool]] = None) -> Supply:

@@ -160,6 +160,23 @@ _SIGNATURES = {
     "br_supply_answer": (_INT, [_P, _INT, _INT, c_double_p]),
     "br_supply_answer_why": (_INT, [_P, _INT, c_char_pp]),
     "br_supply_study_render": (_INT, [_P, _INT, _P, ctypes.POINTER(BrError)]),
+    "br_explore_study_create": (_P, []),
+    "br_explore_study_free": (None, [_P]),
+    "br_explore_study_set_progress": (_INT, [_P, PROGRESS, STOP, _P]),
+    "br_explore_study_set_threads": (_INT, [_P, _INT]),
+    "br_explore_study_set_bus": (_INT, [_P, ctypes.c_double, ctypes.c_double]),
+    "br_explore_study_set_levels": (_INT, [_P, _INT, _INT]),
+    "br_explore_study_set_frequencies": (_INT, [_P, c_double_p, _INT]),
+    "br_explore_study_set": (_INT, [_P, _INT, ctypes.c_double]),
+    "br_explore_study_set_corners": (_INT, [_P, _INT]),
+    "br_explore_study_set_scale_caps": (_INT, [_P, _INT]),
+    "br_explore_study_run": (_INT, [_P, _P, _P, ctypes.POINTER(BrError)]),
+    "br_explore_result": (_INT, [_P, c_int_p]),
+    "br_explore_combinations": (_INT, [_P, c_int_p]),
+    "br_explore_value": (_INT, [_P, _INT, _INT, c_double_p]),
+    "br_explore_note": (_INT, [_P, _INT, c_char_pp]),
+    "br_explore_design_file": (_INT, [_P, _INT, _P, ctypes.POINTER(BrError)]),
+    "br_explore_study_render": (_INT, [_P, _INT, _P, ctypes.POINTER(BrError)]),
     "br_size_study_create": (_P, []),
     "br_size_study_free": (None, [_P]),
     "br_size_study_set_progress": (_INT, [_P, PROGRESS, STOP, _P]),
@@ -206,7 +223,7 @@ YIELD_KEYS = ("samples", "passed", "failed", "undetermined", "yield_", "lo", "hi
 YC_KEYS = ("judged", "fails", "undetermined", "q_min", "q_0_1", "q_1", "q_10", "median")
 RESULTS = ("pass", "fail", "warn", "undetermined", "not applicable")
 # bootrung/parts.h
-CATALOG_DIODE, CATALOG_CAPACITOR = 0, 1
+CATALOG_DIODE, CATALOG_CAPACITOR, CATALOG_SWITCH, CATALOG_DRIVER = 0, 1, 2, 3
 OFFER_KEYS = ("cost", "area", "rating")
 CHOICE_KEYS = ("cost", "area", "margin", "result", "uniform", "startup", "criterion", "stage",
                "unsettled")
@@ -216,6 +233,13 @@ SUPPLY_ANSWERS = ("limit", "vmin", "vmax")  # BR_SUPPLY_LIMIT, _VMIN, _VMAX
 SUPPLY_KINDS = ("found", "end", "none", "undetermined")
 SA_KEYS = ("applies", "kind", "from_", "lo", "hi", "value", "failing", "criterion", "stage",
            "points")
+# bootrung/parts.h: br_explore_limit, br_combination_state, br_explore_key
+EXPLORE_LIMITS = ("load_current", "derating", "target", "max_startup", "max_cost")
+COMBO_STATES = ("feasible", "rating", "fails", "split", "margin", "startup", "cost", "corners",
+                "undetermined", "refused")
+XV_KEYS = ("levels", "fsw", "switch", "diode", "need", "state", "cost", "loss", "margin",
+           "startup", "criterion", "stage", "split_at", "front", "rank")
+FORMAT_CSV = 3
 SIZE_FIGURES = ("target", "margin", "headroom", "reg_vout", "reg_dropout", "points")
 FORMAT_TEXT = 0
 STEADY_STATUS = ("holds", "does not hold", "undetermined")

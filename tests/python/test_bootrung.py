@@ -200,6 +200,32 @@ class SupplyRun(unittest.TestCase):
         self.assertEqual(hi.why, "")
 
 
+class ExploreRun(unittest.TestCase):
+    """The exploration (bootrung/parts.h) around the 12-switch example: 5 to
+    7 levels on a 1.1 kV bus at 60 kHz with the example switch catalog."""
+
+    def test_leg_explore(self):
+        design = bootrung.load(path(DESIGNS[1]))
+        stock = bootrung.load_catalog(path("examples/parts/switches.xml"))
+        x = design.explore(stock, 1100, (5, 7), [60e3])
+        self.assertEqual(len(x.combinations), 9)  # 3 level counts x 3 switch classes
+        self.assertEqual(x.csv.count("\n"), 10)  # a header and a row each
+        feasible = [c for c in x.combinations if c.state == "feasible"]
+        self.assertEqual(x.result, "pass" if feasible else x.result)
+        self.assertIn(f"9 combinations, {len(feasible)} feasible", x.report)
+        self.assertEqual(sorted(c.rank for c in feasible), list(range(1, len(feasible) + 1)))
+        for c in x.combinations:
+            # common practice: each of the N - 1 series switches blocks Vin / (N - 1),
+            # used up to the 80 % derating
+            self.assertAlmostEqual(c.need, 1100 / (c.levels - 1) / 0.8, places=9)
+            self.assertEqual(c.rank > 0, c.state == "feasible")
+        best = next(i for i, c in enumerate(x.combinations) if c.rank == 1)
+        self.assertTrue(x.combinations[best].front)
+        c = x.combinations[best]
+        self.assertIn(f"{c.levels} levels, switch {c.switch}", x.design_file(best))
+        bootrung.load_string(x.design_file(best), "best.xml")  # reads back
+
+
 class WindowRun(unittest.TestCase):
     def test_demo_window(self):
         w = bootrung.load(path(DESIGNS[0])).window()
