@@ -275,7 +275,8 @@ BR_API void br_explore_study_free(br_explore_study *x);
 /* The hook counts combinations judged. */
 BR_API int br_explore_study_set_progress(br_explore_study *x, br_progress_hook hook,
                                          br_stop_poll stop, void *ctx);
-/* Worker threads of the corner judgement. */
+/* Worker threads, across combinations and within each one's corner,
+ * sizing and yield judgements (0, the default: one per processor). */
 BR_API int br_explore_study_set_threads(br_explore_study *x, int threads);
 /* Required: the nominal and the highest bus voltage (0 < vbus <= vmax <
  * 1e6 V), the level counts (2 <= lo <= hi <= BR_EXPLORE_LEVELS_MAX), the
@@ -303,6 +304,20 @@ BR_API int br_explore_study_set_corners(br_explore_study *x, int on);
 /* 1: rail capacitors scaled by the rails each carries; 0 (default): the
  * template's. */
 BR_API int br_explore_study_set_scale_caps(br_explore_study *x, int on);
+/* Sizing from a parts catalog (copied; NULL, the default: none): every
+ * link takes the cheapest diode of parts that the voltage rule allows and
+ * that is as strong in current as the template's, and each survivor's
+ * rail capacitors are sized from parts as br_size_study sizes them (rail
+ * by rail from the top, the smallest that keeps every margin in volts at
+ * the target; at the worst corners when judged); the sized design is
+ * judged again and its parts counted in its cost. */
+BR_API int br_explore_study_set_parts(br_explore_study *x, const br_catalog *parts);
+/* Monte Carlo yield of every feasible combination's design: samples over
+ * its tolerances (0, the default: none; at most BR_EXPLORE_YIELD_MAX),
+ * start-up criteria included, each combination with the same seed (<=
+ * 0xffffffff; default 1). */
+#define BR_EXPLORE_YIELD_MAX 1000000L
+BR_API int br_explore_study_set_yield(br_explore_study *x, long samples, unsigned long seed);
 /* Judge shard k of n only (every n-th combination from the k-th, 1 <= k
  * <= n; n = 0: all): the others get the voltage rule only, and the study
  * renders no report (br_explore_records gives what it judged). */
@@ -337,21 +352,23 @@ typedef enum br_combination_state {
     BR_COMBO_REFUSED       /* the model refuses the design built (br_explore_note) */
 } br_combination_state;
 typedef enum br_explore_key {
-    BR_XV_LEVELS = 0, /* the level count */
-    BR_XV_FSW,        /* Hz */
-    BR_XV_SWITCH,     /* the catalog switch (BR_CATALOG_SWITCH) */
-    BR_XV_DIODE,      /* the catalog diode placed where the template's falls short, -1 */
-    BR_XV_NEED,       /* the voltage class the rule asks for, V */
-    BR_XV_STATE,      /* a br_combination_state */
-    BR_XV_COST,       /* the catalog parts placed */
-    BR_XV_LOSS,       /* the supply's power in steady state, W */
-    BR_XV_MARGIN,     /* smallest margin in volts, V (worst corners when judged) */
-    BR_XV_STARTUP,    /* start-up time, s */
-    BR_XV_CRITERION,  /* where the margin binds or what fails (br_criterion_key), -1 */
-    BR_XV_STAGE,      /* the rail or link, -1 */
-    BR_XV_SPLIT_AT,   /* BR_COMBO_SPLIT: the rail a second supply would feed */
-    BR_XV_FRONT,      /* 1: on the Pareto front */
-    BR_XV_RANK,       /* 1.. among the feasible (0: not feasible) */
+    BR_XV_LEVELS = 0,  /* the level count */
+    BR_XV_FSW,         /* Hz */
+    BR_XV_SWITCH,      /* the catalog switch (BR_CATALOG_SWITCH) */
+    BR_XV_DIODE,       /* the catalog diode placed where the template's falls short, -1 */
+    BR_XV_NEED,        /* the voltage class the rule asks for, V */
+    BR_XV_STATE,       /* a br_combination_state */
+    BR_XV_COST,        /* the catalog parts placed */
+    BR_XV_LOSS,        /* the supply's power in steady state, W */
+    BR_XV_MARGIN,      /* smallest margin in volts, V (worst corners when judged) */
+    BR_XV_STARTUP,     /* start-up time, s */
+    BR_XV_CRITERION,   /* where the margin binds or what fails (br_criterion_key), -1 */
+    BR_XV_STAGE,       /* the rail or link, -1 */
+    BR_XV_SPLIT_AT,    /* BR_COMBO_SPLIT: the rail a second supply would feed */
+    BR_XV_FRONT,       /* 1: on the Pareto front */
+    BR_XV_RANK,        /* 1.. among the feasible (0: not feasible) */
+    BR_XV_INJECT_RAIL, /* BR_COMBO_SPLIT: the rail the judged split design's
+                          second supply feeds (0: none judged) */
     BR_XV_KEY_COUNT
 } br_explore_key;
 BR_API int br_explore_value(const br_explore_study *x, int i, int key, double *out);
@@ -361,6 +378,11 @@ BR_API int br_explore_note(const br_explore_study *x, int i, const char **out);
  * on the template) with a comment saying what was explored and where it
  * stands.  BR_EINPUT when the rule leaves it no switch or diode. */
 BR_API int br_explore_design_file(const br_explore_study *x, int i, br_text *out, br_error *err);
+/* The split design's file of combination i (BR_XV_INJECT_RAIL > 0: the
+ * design with a second isolated supply injected at that rail) with a
+ * comment saying what was explored and how the split design stands;
+ * BR_EUSAGE for any other combination. */
+BR_API int br_explore_split_file(const br_explore_study *x, int i, br_text *out, br_error *err);
 /* The records of a sharded run (every combination's, as judged or as the
  * rule left it; n of *size bytes) and whether the shard judged record i. */
 BR_API int br_explore_records(const br_explore_study *x, const void **records, size_t *size,

@@ -28,9 +28,11 @@ _Static_assert((int)BR_COMBO_FEASIBLE == (int)BR_EX_FEASIBLE &&
 struct br_explore_study {
     br_explore_opts o; /* as set; cat and progress filled by the run */
     br_progress prog;
-    br_design *t;    /* a copy of the last run's template */
-    br_catalog *cat; /* a copy of its catalog */
-    br_explore *x;   /* the last run's (NULL: none) */
+    br_design *t;          /* a copy of the last run's template */
+    br_catalog *cat;       /* a copy of its catalog */
+    br_explore *x;         /* the last run's (NULL: none) */
+    br_catalog *parts_set; /* the parts catalog as set (NULL: no sizing) */
+    br_catalog *parts;     /* the last run's copy of it, which x points at */
 };
 
 br_explore_study *br_explore_study_create(void)
@@ -46,15 +48,19 @@ static void drop_run(br_explore_study *x)
     br_explore_free(x->x);
     br_design_free(x->t);
     free(x->cat);
+    free(x->parts);
     x->x = NULL;
     x->t = NULL;
     x->cat = NULL;
+    x->parts = NULL;
 }
 
 void br_explore_study_free(br_explore_study *x)
 {
-    if (x)
+    if (x) {
         drop_run(x);
+        free(x->parts_set);
+    }
     free(x);
 }
 
@@ -157,6 +163,31 @@ int br_explore_study_set_shard(br_explore_study *x, int k, int n)
     return BR_OK;
 }
 
+/* A copy: the run copies it again, so that a later set leaves the last
+ * run's sized designs alone. */
+int br_explore_study_set_parts(br_explore_study *x, const br_catalog *parts)
+{
+    if (!x)
+        return BR_EUSAGE;
+    br_catalog *copy = parts ? malloc(sizeof *copy) : NULL;
+    if (parts && !copy)
+        return BR_ENOMEM;
+    if (copy)
+        memcpy(copy, parts, sizeof *copy);
+    free(x->parts_set);
+    x->parts_set = copy;
+    return BR_OK;
+}
+
+int br_explore_study_set_yield(br_explore_study *x, long samples, unsigned long seed)
+{
+    if (!x || samples < 0 || samples > BR_EXPLORE_YIELD_MAX || seed > 0xffffffffUL)
+        return BR_EUSAGE;
+    x->o.yield_samples = samples;
+    x->o.seed = seed;
+    return BR_OK;
+}
+
 int br_explore_study_set_given(br_explore_study *x, const void *records, long n, size_t size)
 {
     if (!x || (records && (size != sizeof(br_explore_row) || n < 0)))
@@ -180,12 +211,16 @@ int br_explore_study_run(br_explore_study *x, const br_design *t, const br_catal
     drop_run(x);
     x->t = br_design_copy(t);
     x->cat = malloc(sizeof *x->cat);
-    if (!x->t || !x->cat) {
+    x->parts = x->parts_set ? malloc(sizeof *x->parts) : NULL;
+    if (!x->t || !x->cat || (x->parts_set && !x->parts)) {
         drop_run(x);
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory copying the inputs");
     }
     memcpy(x->cat, cat, sizeof *x->cat);
+    if (x->parts)
+        memcpy(x->parts, x->parts_set, sizeof *x->parts);
     x->o.cat = x->cat;
+    x->o.parts = x->parts;
     x->o.progress = &x->prog;
     int rc = br_explore_run(x->t, &x->o, &x->x, err);
     x->o.given = NULL; /* the caller's records are not kept beyond the run */
@@ -222,11 +257,22 @@ int br_explore_value(const br_explore_study *x, int i, int key, double *out)
     if (!r || !out || key < 0 || key >= BR_XV_KEY_COUNT)
         return BR_EUSAGE;
     const double v[BR_XV_KEY_COUNT] = {
-        [BR_XV_LEVELS] = r->levels,     [BR_XV_FSW] = r->fsw,        [BR_XV_SWITCH] = r->sw,
-        [BR_XV_DIODE] = r->diode,       [BR_XV_NEED] = r->need,      [BR_XV_STATE] = r->state,
-        [BR_XV_COST] = r->cost,         [BR_XV_LOSS] = r->loss,      [BR_XV_MARGIN] = r->margin,
-        [BR_XV_STARTUP] = r->tstart,    [BR_XV_CRITERION] = r->crit, [BR_XV_STAGE] = r->stage,
-        [BR_XV_SPLIT_AT] = r->split_at, [BR_XV_FRONT] = r->front,    [BR_XV_RANK] = r->rank,
+        [BR_XV_LEVELS] = r->levels,
+        [BR_XV_FSW] = r->fsw,
+        [BR_XV_SWITCH] = r->sw,
+        [BR_XV_DIODE] = r->diode,
+        [BR_XV_NEED] = r->need,
+        [BR_XV_STATE] = r->state,
+        [BR_XV_COST] = r->cost,
+        [BR_XV_LOSS] = r->loss,
+        [BR_XV_MARGIN] = r->margin,
+        [BR_XV_STARTUP] = r->tstart,
+        [BR_XV_CRITERION] = r->crit,
+        [BR_XV_STAGE] = r->stage,
+        [BR_XV_SPLIT_AT] = r->split_at,
+        [BR_XV_FRONT] = r->front,
+        [BR_XV_RANK] = r->rank,
+        [BR_XV_INJECT_RAIL] = r->state == BR_EX_SPLIT ? r->inject_rail : 0,
     };
     *out = v[key];
     return BR_OK;
@@ -255,6 +301,30 @@ int br_explore_design_file(const br_explore_study *x, int i, br_text *out, br_er
         rc = br_explore_comment(x->x, x->cat, r, x->t->path, comment);
     if (rc == BR_OK)
         rc = br_design_write(d, br_text_data(comment), out, err);
+    br_design_free(d);
+    br_text_free(comment);
+    if (rc == BR_ENOMEM && err && !err->msg[0])
+        br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory rendering the design file");
+    return rc;
+}
+
+int br_explore_split_file(const br_explore_study *x, int i, br_text *out, br_error *err)
+{
+    const br_explore_row *r = row_of(x, i);
+    if (!r || !out || r->state != BR_EX_SPLIT || r->inject_rail <= 0)
+        return br_error_set(err, BR_EUSAGE, NULL, 0, NULL,
+                            "br_explore_split_file: expected a study that was run, a "
+                            "combination whose split design was judged and a text");
+    br_design *d = NULL, *s = NULL;
+    br_text *comment = br_text_create();
+    int rc = comment ? br_explore_design(x->t, &x->o, r, &d, err) : BR_ENOMEM;
+    if (rc == BR_OK)
+        rc = br_explore_split_design(d, r->inject_rail, &s, err);
+    if (rc == BR_OK)
+        rc = br_explore_split_comment(x->x, x->cat, r, x->t->path, comment);
+    if (rc == BR_OK)
+        rc = br_design_write(s, br_text_data(comment), out, err);
+    br_design_free(s);
     br_design_free(d);
     br_text_free(comment);
     if (rc == BR_ENOMEM && err && !err->msg[0])

@@ -5,13 +5,10 @@
 #include "cli.h"
 #include "shard.h"
 
-#include "analyses/explore.h"
-#include "core/error.h"
-#include "core/units.h"
-#include "io/design_write.h"
-#include "model/catalog.h"
-#include "report/explore_report.h"
+#include "bootrung/parts.h"
+#include "bootrung/report.h"
 
+#include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -55,10 +52,32 @@ typedef struct args {
     int quiet, corners, scale_caps;
 } args;
 
+/* What the options ask of the study (explore_opts_default: its defaults). */
+typedef struct explore_opts {
+    double vbus, vbus_max; /* V */
+    int lmin, lmax;
+    int nfsw;
+    double fsw[BR_EXPLORE_FSW_MAX];                        /* Hz */
+    double limit[BR_EXPLORE_LIMIT_COUNT];                  /* br_explore_limit; NaN: the default */
+    double iload, derating, target, max_startup, max_cost; /* parsed into limit[] */
+    int corners, scale_caps, threads, shard_k, shard_n;
+    long yield_samples;
+    unsigned long seed;
+    const void *given; /* merged records, or NULL */
+    long ngiven;
+} explore_opts;
+
+static void explore_opts_default(explore_opts *o)
+{
+    *o = (explore_opts){0};
+    for (int i = 0; i < BR_EXPLORE_LIMIT_COUNT; i++)
+        o->limit[i] = NAN;
+}
+
 typedef struct outputs {
     br_design *d;
     br_catalog *cat, *parts;
-    br_explore *x;
+    br_explore_study *x;
     br_text *text, *csv, *svg;
     int ndesigns;
     br_text **design;
@@ -67,7 +86,7 @@ typedef struct outputs {
 
 static void outputs_free(outputs *o)
 {
-    br_explore_free(o->x);
+    br_explore_study_free(o->x);
     br_design_free(o->d);
     br_catalog_free(o->cat);
     br_catalog_free(o->parts);
@@ -81,22 +100,22 @@ static void outputs_free(outputs *o)
 }
 
 /* "LO:HI" or one level count. */
-static int parse_levels(const char *text, br_explore_opts *eo)
+static int parse_levels(const char *text, explore_opts *eo)
 {
     char *end = NULL;
     long lo = strtol(text, &end, 10), hi = lo;
     if (*end == ':')
         hi = strtol(end + 1, &end, 10);
-    if (*end || lo < 2 || hi < lo || hi > BR_MAX_SWITCHES / 2 + 1)
+    if (*end || lo < 2 || hi < lo || hi > BR_EXPLORE_LEVELS_MAX)
         return br_cli_usage_error("explore", "--levels '%s': expected LO:HI, from 2 to %d", text,
-                                  BR_MAX_SWITCHES / 2 + 1);
+                                  BR_EXPLORE_LEVELS_MAX);
     eo->lmin = (int)lo;
     eo->lmax = (int)hi;
     return BR_EXIT_OK;
 }
 
 /* "F1,F2,...": frequencies. */
-static int parse_fsw(const char *text, br_explore_opts *eo)
+static int parse_fsw(const char *text, explore_opts *eo)
 {
     char buf[512];
     snprintf(buf, sizeof buf, "%s", text);
@@ -105,9 +124,9 @@ static int parse_fsw(const char *text, br_explore_opts *eo)
          tok = strtok_r(NULL, ",", &save)) {
         br_error err;
         double f;
-        if (eo->nfsw == BR_EXPLORE_MAX_FSW)
+        if (eo->nfsw == BR_EXPLORE_FSW_MAX)
             return br_cli_usage_error("explore", "--fsw: at most %d frequencies",
-                                      BR_EXPLORE_MAX_FSW);
+                                      BR_EXPLORE_FSW_MAX);
         if (br_unit_parse(tok, BR_KIND_FREQUENCY, &f, &err) != BR_OK || !(f > 0 && f < 1e9))
             return br_cli_usage_error("explore", "--fsw '%s': expected frequencies like 60k,120k",
                                       text);
@@ -118,7 +137,7 @@ static int parse_fsw(const char *text, br_explore_opts *eo)
 }
 
 /* "V" or "V/VMAX": the nominal and the highest bus voltage. */
-static int parse_vin(const char *text, br_explore_opts *eo)
+static int parse_vin(const char *text, explore_opts *eo)
 {
     char buf[128];
     snprintf(buf, sizeof buf, "%s", text);
@@ -145,11 +164,11 @@ static int parse_value(const char *opt, const char *text, br_kind kind, double l
     return BR_EXIT_OK;
 }
 
-static int yield_options(const args *a, br_explore_opts *eo);
+static int yield_options(const args *a, explore_opts *eo);
 
-static int options(const args *a, br_explore_opts *eo)
+static int options(const args *a, explore_opts *eo)
 {
-    br_explore_opts_default(eo);
+    explore_opts_default(eo);
     eo->corners = a->corners;
     eo->scale_caps = a->scale_caps;
     if (!a->catalog || !a->vin || !a->levels || !a->fsw)
@@ -162,11 +181,16 @@ static int options(const args *a, br_explore_opts *eo)
          parse_value("max-startup", a->max_startup, BR_KIND_TIME, 0, &eo->max_startup)) ||
         (a->max_cost && parse_value("max-cost", a->max_cost, BR_KIND_NUMBER, 0, &eo->max_cost)))
         return BR_EXIT_INPUT;
+    eo->limit[BR_EXPLORE_LOAD_CURRENT] = a->iload ? eo->iload : NAN;
+    eo->limit[BR_EXPLORE_TARGET] = a->margin ? eo->target : NAN;
+    eo->limit[BR_EXPLORE_MAX_STARTUP] = a->max_startup ? eo->max_startup : NAN;
+    eo->limit[BR_EXPLORE_MAX_COST] = a->max_cost ? eo->max_cost : NAN;
     if (a->derating && br_cli_fraction("explore", "derating", a->derating, &eo->derating))
         return BR_EXIT_INPUT;
     if (a->derating && !(eo->derating > 0))
         return br_cli_usage_error("explore", "--derating '%s': expected a fraction above 0",
                                   a->derating);
+    eo->limit[BR_EXPLORE_DERATING] = a->derating ? eo->derating : NAN;
     long v;
     if (a->threads && br_cli_long("explore", "threads", a->threads, 1, 64, &v))
         return BR_EXIT_INPUT;
@@ -175,7 +199,7 @@ static int options(const args *a, br_explore_opts *eo)
 }
 
 /* --yield N and --seed S. */
-static int yield_options(const args *a, br_explore_opts *eo)
+static int yield_options(const args *a, explore_opts *eo)
 {
     long v;
     if (a->yield && br_cli_long("explore", "yield", a->yield, 1, 1000000L, &eo->yield_samples))
@@ -188,93 +212,105 @@ static int yield_options(const args *a, br_explore_opts *eo)
     return BR_EXIT_OK;
 }
 
-/* The split design of row i (judged with an injection),
- * DIR/explore-split-ROW.xml, ROW counted from 1 in the order judged. */
-static int split_design(const args *a, br_explore_opts *eo, outputs *o, const char *path, int i,
-                        br_error *err)
+/* The study as the options set it, its progress handed to the run. */
+static br_explore_study *study(const explore_opts *eo, br_cli_run *lr)
 {
-    const br_explore_row *r = &o->x->rows[i];
-    br_design *d = NULL, *s = NULL;
-    br_text *comment = br_text_create();
+    br_explore_study *x = br_explore_study_create();
+    int rc = x ? BR_OK : BR_ENOMEM;
+    if (rc == BR_OK)
+        rc = br_explore_study_set_bus(x, eo->vbus, eo->vbus_max) ||
+             br_explore_study_set_levels(x, eo->lmin, eo->lmax) ||
+             br_explore_study_set_frequencies(x, eo->fsw, eo->nfsw) ||
+             br_explore_study_set_corners(x, eo->corners) ||
+             br_explore_study_set_scale_caps(x, eo->scale_caps) ||
+             br_explore_study_set_threads(x, eo->threads) ||
+             br_explore_study_set_yield(x, eo->yield_samples, eo->seed) ||
+             br_explore_study_set_shard(x, eo->shard_k, eo->shard_n) ||
+             br_explore_study_set_given(x, eo->given, eo->ngiven, br_explore_record_size()) ||
+             br_explore_study_set_progress(x, br_cli_run_progress, br_cli_run_stop, lr);
+    for (int i = 0; rc == BR_OK && i < BR_EXPLORE_LIMIT_COUNT; i++)
+        rc = br_explore_study_set(x, i, eo->limit[i]);
+    if (rc != BR_OK) {
+        br_explore_study_free(x);
+        return NULL;
+    }
+    return x;
+}
+
+/* Combination i's figure (key a br_explore_key). */
+static int row_value(const br_explore_study *x, int i, int key)
+{
+    double v = 0;
+    br_explore_value(x, i, key, &v);
+    return (int)v;
+}
+
+/* The next design file: its text, at DIR/NAME-NUMBER.xml. */
+static br_text *design_slot(const args *a, outputs *o, const char *name, int number)
+{
     br_text *t = br_text_create();
     o->design[o->ndesigns] = t;
-    snprintf(o->path[o->ndesigns++], sizeof o->path[0], "%s/explore-split-%d.xml", a->designs,
-             i + 1);
-    int rc = comment && t ? br_explore_design(o->d, eo, r, &d, err) : BR_ENOMEM;
-    if (rc == BR_OK)
-        rc = br_explore_split_design(d, r->inject_rail, &s, err);
-    if (rc == BR_OK)
-        rc = br_explore_split_comment(o->x, o->cat, r, path, comment);
-    if (rc == BR_OK)
-        rc = br_design_write(s, br_text_data(comment), t, err);
-    br_design_free(s);
-    br_design_free(d);
-    br_text_free(comment);
-    return rc;
+    snprintf(o->path[o->ndesigns++], sizeof o->path[0], "%s/%s-%d.xml", a->designs, name, number);
+    return t;
 }
 
 /* The design file of each front member, DIR/explore-RANK.xml, and of
- * each split design judged. */
-static int front_designs(const args *a, br_explore_opts *eo, outputs *o, const char *path,
-                         br_error *err)
+ * each split design judged, DIR/explore-split-ROW.xml (ROW counted from 1
+ * in the order judged). */
+static int front_designs(const args *a, outputs *o, br_error *err)
 {
-    int nsplit = 0;
-    for (int i = 0; i < o->x->n; i++)
-        nsplit += o->x->rows[i].state == BR_EX_SPLIT && o->x->rows[i].inject_rail > 0;
-    o->design = calloc((size_t)(o->x->nfront + nsplit) + 1, sizeof *o->design);
-    o->path = calloc((size_t)(o->x->nfront + nsplit) + 1, sizeof *o->path);
+    int n = 0, nfiles = 0;
+    br_explore_combinations(o->x, &n);
+    for (int i = 0; i < n; i++)
+        nfiles += row_value(o->x, i, BR_XV_FRONT) + (row_value(o->x, i, BR_XV_INJECT_RAIL) > 0);
+    o->design = calloc((size_t)nfiles + 1, sizeof *o->design);
+    o->path = calloc((size_t)nfiles + 1, sizeof *o->path);
     if (!o->design || !o->path)
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     int rc = BR_OK;
-    for (int i = 0; rc == BR_OK && i < o->x->n; i++) {
-        const br_explore_row *r = &o->x->rows[i];
-        if (r->state == BR_EX_SPLIT && r->inject_rail > 0)
-            rc = split_design(a, eo, o, path, i, err);
-        if (!r->front || rc != BR_OK)
+    for (int i = 0; rc == BR_OK && i < n; i++) {
+        if (row_value(o->x, i, BR_XV_INJECT_RAIL) > 0) {
+            br_text *t = design_slot(a, o, "explore-split", i + 1);
+            rc = t ? br_explore_split_file(o->x, i, t, err) : BR_ENOMEM;
+        }
+        if (rc != BR_OK || !row_value(o->x, i, BR_XV_FRONT))
             continue;
-        br_design *d = NULL;
-        br_text *comment = br_text_create();
-        br_text *t = br_text_create();
-        o->design[o->ndesigns] = t;
-        snprintf(o->path[o->ndesigns++], sizeof o->path[0], "%s/explore-%d.xml", a->designs,
-                 r->rank);
-        rc = comment && t ? br_explore_design(o->d, eo, r, &d, err) : BR_ENOMEM;
-        if (rc == BR_OK)
-            rc = br_explore_comment(o->x, o->cat, r, path, comment);
-        if (rc == BR_OK)
-            rc = br_design_write(d, br_text_data(comment), t, err);
-        br_design_free(d);
-        br_text_free(comment);
+        br_text *t = design_slot(a, o, "explore", row_value(o->x, i, BR_XV_RANK));
+        rc = t ? br_explore_design_file(o->x, i, t, err) : BR_ENOMEM;
     }
     return rc;
 }
 
-static int compute(const char *path, const args *a, br_explore_opts *eo, outputs *o, br_error *err)
+static int compute(const char *path, const args *a, const explore_opts *eo, br_cli_run *lr,
+                   outputs *o, br_error *err)
 {
     o->text = br_text_create();
     o->csv = a->csv ? br_text_create() : NULL;
     o->svg = a->svg ? br_text_create() : NULL;
-    if (!o->text || (a->csv && !o->csv) || (a->svg && !o->svg))
+    o->x = study(eo, lr);
+    if (!o->text || (a->csv && !o->csv) || (a->svg && !o->svg) || !o->x)
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     int rc = br_design_load(path, &o->d, err);
     if (rc == BR_OK)
         rc = br_catalog_load(a->catalog, &o->cat, err);
-    eo->cat = o->cat;
     if (rc == BR_OK && a->parts)
         rc = br_catalog_load(a->parts, &o->parts, err);
-    eo->parts = o->parts;
+    if (rc == BR_OK && o->parts)
+        rc = br_explore_study_set_parts(o->x, o->parts);
+    if (rc == BR_ENOMEM && !err->msg[0])
+        br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     if (rc == BR_OK)
-        rc = br_explore_run(o->d, eo, &o->x, err);
+        rc = br_explore_study_run(o->x, o->d, o->cat, err);
     if (eo->shard_n > 0) /* a slice: no report */
         return rc;
     if (rc == BR_OK)
-        rc = br_explore_text(o->x, o->cat, path, o->text);
+        rc = br_explore_study_render(o->x, BR_FORMAT_TEXT, o->text, err);
     if (rc == BR_OK && o->csv)
-        rc = br_explore_csv(o->x, o->cat, o->csv);
+        rc = br_explore_study_render(o->x, BR_FORMAT_CSV, o->csv, err);
     if (rc == BR_OK && o->svg)
-        rc = br_explore_svg(o->x, o->svg);
+        rc = br_explore_study_render(o->x, BR_FORMAT_SVG, o->svg, err);
     if (rc == BR_OK && a->designs)
-        rc = front_designs(a, eo, o, path, err);
+        rc = front_designs(a, o, err);
     if (rc == BR_ENOMEM && !err->msg[0])
         br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory rendering the report");
     return rc;
@@ -313,28 +349,34 @@ static int write_all(const args *a, const char *design, outputs *o)
 
 /* The shard's combinations. */
 static int write_shard(int argc, char **argv, const char *path, const args *a,
-                       const br_explore_opts *eo, const br_explore *x)
+                       const explore_opts *eo, const br_explore_study *x)
 {
-    unsigned char *mine = malloc((size_t)x->n);
+    const void *rec = NULL;
+    size_t size = 0;
+    long n = 0;
+    br_explore_records(x, &rec, &size, &n);
+    unsigned char *mine = malloc((size_t)n + 1);
     if (!mine) {
         fprintf(stderr, "bootrung: explore: out of memory\n");
         return BR_EXIT_INPUT;
     }
-    for (int i = 0; i < x->n; i++)
-        mine[i] = (unsigned char)br_explore_shard_has(eo, i);
-    br_shard_head h = {argc, argv,       path,    eo->shard_k, eo->shard_n, sizeof *x->rows,
-                       x->n, a->catalog, a->parts};
-    int status = br_cli_shard_write(&h, x->rows, mine, a->shard_file ? a->shard_file : "-");
+    for (long i = 0; i < n; i++) {
+        int judged = 0;
+        br_explore_judged(x, (int)i, &judged);
+        mine[i] = (unsigned char)judged;
+    }
+    br_shard_head h = {argc, argv, path, eo->shard_k, eo->shard_n, size, n, a->catalog, a->parts};
+    int status = br_cli_shard_write(&h, rec, mine, a->shard_file ? a->shard_file : "-");
     free(mine);
     return status;
 }
 
 /* The rows merged from shards. */
-static int take_given(br_explore_opts *eo, const br_cli_given *given)
+static int take_given(explore_opts *eo, const br_cli_given *given)
 {
     if (!given)
         return BR_EXIT_OK;
-    if (given->size != sizeof(br_explore_row))
+    if (given->size != br_explore_record_size())
         return br_cli_usage_error("merge", "the shards' records are not explore's");
     eo->given = given->rec;
     eo->ngiven = given->total;
@@ -390,7 +432,7 @@ int br_cli_explore_main(int argc, char **argv, const br_cli_given *given)
     int parsed = br_cli_parse(&doc, argc, argv, pos);
     if (parsed != 0)
         return br_cli_parse_status(parsed);
-    br_explore_opts eo;
+    explore_opts eo;
     if (options(&a, &eo) != BR_EXIT_OK ||
         (a.shard && br_cli_shard_parse("explore", a.shard, &eo.shard_k, &eo.shard_n)) ||
         take_given(&eo, given))
@@ -407,8 +449,7 @@ int br_cli_explore_main(int argc, char **argv, const br_cli_given *given)
     br_error_clear(&err);
     br_cli_run lr;
     br_cli_run_begin(&lr, "explore", a.quiet);
-    eo.progress = BR_CLI_HOOK(&lr);
-    int rc = compute(pos[0], &a, &eo, &o, &err);
+    int rc = compute(pos[0], &a, &eo, &lr, &o, &err);
     int status = br_cli_run_commit(&lr);
     if (status == BR_EXIT_OK && rc != BR_OK)
         status = br_cli_fail(&err, rc == BR_EINPUT && err.file[0] ? err.file : pos[0]);
@@ -418,10 +459,11 @@ int br_cli_explore_main(int argc, char **argv, const br_cli_given *given)
         status = write_all(&a, pos[0], &o);
     br_cli_run_end(&lr);
     if (status == BR_EXIT_OK && eo.shard_n == 0) {
-        int oc = br_explore_outcome(o.x);
-        status = oc == BR_OUTCOME_PASS   ? BR_EXIT_OK
-                 : oc == BR_OUTCOME_FAIL ? BR_EXIT_FAIL
-                                         : BR_EXIT_UNDETERMINED;
+        int result = BR_RESULT_UNDETERMINED;
+        br_explore_result(o.x, &result);
+        status = result == BR_RESULT_PASS   ? BR_EXIT_OK
+                 : result == BR_RESULT_FAIL ? BR_EXIT_FAIL
+                                            : BR_EXIT_UNDETERMINED;
     }
     outputs_free(&o);
     return status;

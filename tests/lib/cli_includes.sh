@@ -1,14 +1,14 @@
 #!/usr/bin/env bash
-# tests/lib/cli_includes.sh SRC_DIR CC CLIENTS INTERNAL - the command line
-# is a client of the public API.  CLIENTS and INTERNAL are the two
-# ;-separated lists of CMakeLists.txt (BR_CLI_CLIENTS, BR_CLI_INTERNAL:
-# the sources not moved yet).  Checked here:
-#  - every source of src/cli/ is in exactly one list;
+# tests/lib/cli_includes.sh SRC_DIR CC CLIENTS [INTERNAL] - the command
+# line is a client of the public API.  CLIENTS is CMakeLists.txt's
+# ;-separated BR_CLI_CLIENTS; INTERNAL is BR_CLI_INTERNAL, the list of
+# sources that once still saw the library's internals, which must stay
+# empty (undefined).  Checked here:
+#  - every source of src/cli/ is in CLIENTS exactly once, none in INTERNAL;
 #  - every client compiles with include/ and src/cli/ alone on the include
 #    path (the build's rule), and that rule does refuse an internal header;
-#  - every source still on the internal list does include an internal
-#    header (one that no longer does belongs on the clients' list).
-# What is still internal is printed; the list shrinks to empty.
+#  - no source or header of src/cli/ includes an internal header, and the
+#    internal list's forced include (src/cli/internal.h) is gone.
 set -uo pipefail
 src=$1 cc=$2
 IFS=';' read -r -a clients <<<"$3"
@@ -23,10 +23,18 @@ for f in "${clients[@]}" "${internal[@]}"; do
     if [ -n "${seen[$b]:-}" ]; then echo "FAIL: $b is in both lists (or twice)"; fail=1; fi
     seen[$b]=1
 done
+for f in "${internal[@]}"; do
+    [ -n "$f" ] || continue
+    echo "FAIL: $(basename "$f") is on BR_CLI_INTERNAL: the command line uses the public API only"
+    fail=1
+done
+if [ -e "$src/src/cli/internal.h" ]; then
+    echo "FAIL: src/cli/internal.h is back: the command line uses the public API only"; fail=1
+fi
 for f in "$src"/src/cli/*.c; do
     b=$(basename "$f")
     if [ -z "${seen[$b]:-}" ]; then
-        echo "FAIL: src/cli/$b is in neither list of CMakeLists.txt"; fail=1
+        echo "FAIL: src/cli/$b is not in BR_CLI_CLIENTS (CMakeLists.txt)"; fail=1
     fi
 done
 tmp=$(mktemp -d)
@@ -42,14 +50,11 @@ for f in "${clients[@]}"; do
         sed 's/^/  /' "$tmp/err" | head -5; fail=1
     fi
 done
-for f in "${internal[@]}"; do
-    [ -n "$f" ] || continue
-    if ! grep -qE '^[[:space:]]*#[[:space:]]*include[[:space:]]*"(core|model|io|engine|analyses|report)/' "$f"; then
-        echo "FAIL: $(basename "$f") includes no internal header: move it to BR_CLI_CLIENTS"
-        fail=1
+for f in "$src"/src/cli/*.[ch]; do
+    if grep -qE '^[[:space:]]*#[[:space:]]*include[[:space:]]*"(core|model|io|engine|analyses|report|api)/' "$f"; then
+        echo "FAIL: $(basename "$f") includes an internal header"; fail=1
     fi
 done
-left=$(for f in "${internal[@]}"; do [ -n "$f" ] && basename "$f"; done | tr '\n' ' ')
-echo "clients of the public API: ${#clients[@]}; still internal: ${left:-none}"
+echo "clients of the public API: ${#clients[@]}"
 [ $fail = 0 ] && echo PASS
 exit $fail

@@ -4,7 +4,9 @@
  * renderers write, byte for byte, after the template and catalog are
  * gone; two shards merged give the whole run's report; a stop is obeyed;
  * bad arguments are refused.  The 7-level leg with the example switch
- * catalog, 5 to 7 levels at 60 kHz (well under a second). */
+ * catalog, 5 to 7 levels at 60 kHz (well under a second); sizing from the
+ * example parts catalog with a yield, on 3 levels at 300 V; the split
+ * design of 9 levels at 1.1 kV. */
 #include "bootrung/bootrung.h"
 #include "bootrung/parts.h"
 
@@ -20,6 +22,7 @@
 
 static const char *const leg = "examples/leg-7level.xml";
 static const char *const switches = "examples/parts/switches.xml";
+static const char *const parts = "examples/parts/catalog.xml";
 
 /* The inputs: template, catalog, a study set up as the internal options. */
 typedef struct setup {
@@ -196,6 +199,119 @@ static void test_shards_merged(void)
     br_catalog_free(s.cat);
 }
 
+/* --parts, --yield 2 --seed 3, --threads 1 as explore's options: 3 levels
+ * at 300 V and 60 kHz, sized from the parts catalog (freed before the
+ * run: the study keeps a copy), the feasible design (one: the others cost
+ * more than 15 once sized) sampled twice.  The
+ * rows, with their sized capacitors and yields, the reports and the
+ * front's (sized) design file are the internal run's. */
+static void test_parts_yield_threads(void)
+{
+    setup s;
+    setup_make(&s);
+    br_error err;
+    br_catalog *pc = NULL;
+    CU_ASSERT_EQUAL_FATAL(br_catalog_load(parts, &pc, &err), BR_OK);
+    s.o.vbus = s.o.vbus_max = 300;
+    s.o.lmin = s.o.lmax = 3;
+    s.o.parts = pc;
+    s.o.yield_samples = 2;
+    s.o.seed = 3;
+    s.o.max_cost = 15;
+    br_explore *ref = NULL;
+    CU_ASSERT_EQUAL_FATAL(br_explore_run(s.t, &s.o, &ref, &err), BR_OK);
+    br_text *text = br_text_create(), *csv = br_text_create();
+    CU_ASSERT_EQUAL(br_explore_text(ref, s.cat, leg, text), BR_OK);
+    CU_ASSERT_EQUAL(br_explore_csv(ref, s.cat, csv), BR_OK);
+    br_explore_study *x = br_explore_study_create();
+    CU_ASSERT_EQUAL(br_explore_study_set_bus(x, 300, 300), BR_OK);
+    CU_ASSERT_EQUAL(br_explore_study_set_levels(x, 3, 3), BR_OK);
+    CU_ASSERT_EQUAL(br_explore_study_set_frequencies(x, s.o.fsw, 1), BR_OK);
+    CU_ASSERT_EQUAL(br_explore_study_set_threads(x, 1), BR_OK);
+    CU_ASSERT_EQUAL(br_explore_study_set_yield(x, 2, 3), BR_OK);
+    CU_ASSERT_EQUAL(br_explore_study_set(x, BR_EXPLORE_MAX_COST, 15), BR_OK);
+    br_catalog *copy = NULL;
+    CU_ASSERT_EQUAL_FATAL(br_catalog_load(parts, &copy, &err), BR_OK);
+    CU_ASSERT_EQUAL(br_explore_study_set_parts(x, copy), BR_OK);
+    br_catalog_free(copy);
+    CU_ASSERT_EQUAL_FATAL(br_explore_study_run(x, s.t, s.cat, &err), BR_OK);
+    check_rows(x, ref);
+    const void *rec = NULL;
+    size_t size = 0;
+    long n = 0;
+    CU_ASSERT_EQUAL_FATAL(br_explore_records(x, &rec, &size, &n), BR_OK);
+    int sampled = 0;
+    for (long i = 0; i < n; i++) {
+        const br_explore_row *got = (const br_explore_row *)rec + i, *want = &ref->rows[i];
+        CU_ASSERT_EQUAL(memcmp(got->cap, want->cap, sizeof got->cap), 0);
+        CU_ASSERT_EQUAL(got->ysamples, want->ysamples);
+        CU_ASSERT_TRUE((isnan(got->yield) && isnan(want->yield)) || got->yield == want->yield);
+        sampled += got->ysamples == 2;
+    }
+    CU_ASSERT_TRUE(sampled > 0); /* the sizing and the yield did run */
+    CU_ASSERT_PTR_NOT_NULL(strstr(br_text_data(text), "sized parts of the front"));
+    check_render(x, BR_FORMAT_TEXT, text);
+    check_render(x, BR_FORMAT_CSV, csv);
+    check_design_file(x, &s, ref);
+    br_explore_study_free(x);
+    br_explore_free(ref);
+    br_text_free(text);
+    br_text_free(csv);
+    br_catalog_free(pc);
+    br_design_free(s.t);
+    br_catalog_free(s.cat);
+}
+
+/* 9 levels at 1.1 kV: a class whose rails from rail 8 up fall short is
+ * judged split; its injection rail and split design file are the
+ * internal run's, and a combination without one has no split file. */
+static void test_split_file(void)
+{
+    setup s;
+    setup_make(&s);
+    br_error err;
+    s.o.lmin = s.o.lmax = 9;
+    br_explore *ref = NULL;
+    CU_ASSERT_EQUAL_FATAL(br_explore_run(s.t, &s.o, &ref, &err), BR_OK);
+    br_explore_study *x = study_make();
+    CU_ASSERT_EQUAL(br_explore_study_set_levels(x, 9, 9), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_explore_study_run(x, s.t, s.cat, &err), BR_OK);
+    int nsplit = 0;
+    for (int i = 0; i < ref->n; i++) {
+        const br_explore_row *r = &ref->rows[i];
+        int judged = r->state == BR_EX_SPLIT && r->inject_rail > 0;
+        double v = -1;
+        CU_ASSERT_EQUAL(br_explore_value(x, i, BR_XV_INJECT_RAIL, &v), BR_OK);
+        CU_ASSERT_EQUAL(v, judged ? r->inject_rail : 0);
+        br_text *got = br_text_create();
+        if (!judged) {
+            CU_ASSERT_EQUAL(br_explore_split_file(x, i, got, &err), BR_EUSAGE);
+            br_text_free(got);
+            continue;
+        }
+        nsplit++;
+        br_design *d = NULL, *sd = NULL;
+        br_text *comment = br_text_create(), *want = br_text_create();
+        CU_ASSERT_EQUAL_FATAL(br_explore_design(s.t, &s.o, r, &d, &err), BR_OK);
+        CU_ASSERT_EQUAL_FATAL(br_explore_split_design(d, r->inject_rail, &sd, &err), BR_OK);
+        CU_ASSERT_EQUAL(br_explore_split_comment(ref, s.cat, r, leg, comment), BR_OK);
+        CU_ASSERT_EQUAL(br_design_write(sd, br_text_data(comment), want, &err), BR_OK);
+        CU_ASSERT_EQUAL(br_explore_split_file(x, i, got, &err), BR_OK);
+        CU_ASSERT_STRING_EQUAL(br_text_data(got), br_text_data(want));
+        CU_ASSERT_PTR_NOT_NULL(strstr(br_text_data(got), "<injection rail="));
+        br_design_free(d);
+        br_design_free(sd);
+        br_text_free(comment);
+        br_text_free(want);
+        br_text_free(got);
+    }
+    CU_ASSERT_TRUE(nsplit > 0); /* test_cli_explore: the 400 V class at 9 levels */
+    br_explore_study_free(x);
+    br_explore_free(ref);
+    br_design_free(s.t);
+    br_catalog_free(s.cat);
+}
+
 static int stop_now(void *ctx)
 {
     (*(int *)ctx)++;
@@ -231,6 +347,15 @@ static void test_cancel_and_bad_arguments(void)
     CU_ASSERT_EQUAL(br_explore_study_set(x, BR_EXPLORE_MAX_COST, NAN), BR_OK);
     CU_ASSERT_EQUAL(br_explore_study_set_shard(x, 3, 2), BR_EUSAGE);
     CU_ASSERT_EQUAL(br_explore_study_set_corners(x, 2), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_explore_study_set_threads(x, -1), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_explore_study_set_threads(x, BR_STUDY_THREADS_MAX + 1), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_explore_study_set_yield(x, -1, 1), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_explore_study_set_yield(x, BR_EXPLORE_YIELD_MAX + 1, 1), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_explore_study_set_yield(x, 0, 0xffffffffUL), BR_OK);
+    CU_ASSERT_EQUAL(br_explore_study_set_yield(NULL, 1, 1), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_explore_study_set_parts(NULL, s.cat), BR_EUSAGE);
+    CU_ASSERT_EQUAL(br_explore_study_set_parts(x, NULL), BR_OK); /* no sizing */
+    CU_ASSERT_EQUAL(br_explore_split_file(x, 0, t, &err), BR_EUSAGE);
     CU_ASSERT_EQUAL(br_explore_value(x, 0, BR_XV_RANK, &v), BR_EUSAGE);
     CU_ASSERT_EQUAL(br_explore_design_file(x, 0, t, &err), BR_EUSAGE);
     br_explore_study_free(x);
@@ -246,6 +371,9 @@ int main(void)
     static const br_test_case cases[] = {
         {"the combinations and reports of the internal run", test_same_rows_and_reports},
         {"two shards merged give the whole run", test_shards_merged},
+        {"sizing from a parts catalog, a yield, one thread: the internal run",
+         test_parts_yield_threads},
+        {"the split design's file is the internal one", test_split_file},
         {"a stop poll stops it; bad arguments are refused", test_cancel_and_bad_arguments},
         {NULL, NULL}};
     return br_test_main("api_explore", cases);
