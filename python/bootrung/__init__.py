@@ -479,6 +479,7 @@ class Combination:
     split_at: int       # "split": the rail a second supply would feed
     front: bool         # on the Pareto front of cost, supply power and margin
     rank: int           # 1.. among the feasible (0: not feasible)
+    inject_rail: int    # "split": the rail the judged split design's second supply feeds (0: none)
     note: str           # why the model refused it ("" otherwise)
 
 
@@ -617,7 +618,8 @@ def _supply_answer(r, a):
 
 def _combination(r, i, catalog):
     v = {key: r.num("br_explore_value", i, j) for j, key in enumerate(L.XV_KEYS)}
-    for key in ("levels", "switch", "diode", "state", "criterion", "stage", "split_at", "rank"):
+    for key in ("levels", "switch", "diode", "state", "criterion", "stage", "split_at", "rank",
+                "inject_rail"):
         v[key] = int(v[key])
     v["state"] = L.COMBO_STATES[v["state"]]
     v["switch"] = catalog.part_id(L.CATALOG_SWITCH, v["switch"]) if v["switch"] >= 0 else ""

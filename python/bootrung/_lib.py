@@ -238,7 +238,7 @@ EXPLORE_LIMITS = ("load_current", "derating", "target", "max_startup", "max_cost
 COMBO_STATES = ("feasible", "rating", "fails", "split", "margin", "startup", "cost", "corners",
                 "undetermined", "refused")
 XV_KEYS = ("levels", "fsw", "switch", "diode", "need", "state", "cost", "loss", "margin",
-           "startup", "criterion", "stage", "split_at", "front", "rank")
+           "startup", "criterion", "stage", "split_at", "front", "rank", "inject_rail")
 FORMAT_CSV = 3
 SIZE_FIGURES = ("target", "margin", "headroom", "reg_vout", "reg_dropout", "points")
 FORMAT_TEXT = 0
