@@ -8,9 +8,10 @@
 # byte the unsharded run's, with its exit status.
 #
 # Skipped (exit 77, the reason printed) when not root or when sbatch,
-# squeue, scontrol, slurmctld, slurmd or munged is missing.  Once the tools
-# are there, anything else that goes wrong (a daemon that does not start, a
-# job that does not end in time) is a failure, with the daemons' logs.
+# sinfo, squeue, scontrol, scancel, slurmctld, slurmd or munged is
+# missing.  Once the tools are there, anything else that goes wrong (a
+# daemon that does not start, a job that does not end in time) is a
+# failure, with the daemons' logs.
 # Whatever happens the test ends within about 100 s and the trap stops
 # every daemon it started and removes the temporary directory.
 set -euo pipefail
@@ -22,7 +23,7 @@ skip() {
 
 [ $# -eq 1 ] || { echo "usage: $0 BOOTRUNG" >&2; exit 2; }
 [ "$(id -u)" -eq 0 ] || skip "needs root to run slurmctld and slurmd"
-for tool in sbatch squeue scontrol scancel slurmctld slurmd munged; do
+for tool in sbatch sinfo squeue scontrol scancel slurmctld slurmd munged; do
     command -v "$tool" >/dev/null 2>&1 ||
         PATH=$PATH:/usr/sbin:/sbin command -v "$tool" >/dev/null 2>&1 ||
         skip "$tool is not installed (Debian: slurmctld slurmd slurm-client munge)"
@@ -32,6 +33,7 @@ export PATH=$PATH:/usr/sbin:/sbin
 bin=$(realpath "$1")
 src=$(cd "$(dirname "${BASH_SOURCE[0]}")/../.." && pwd)
 limit=75 # seconds until the jobs must have ended, from here
+# in /tmp, not TMPDIR: a Unix socket path must stay under 108 bytes
 work=$(mktemp -d /tmp/bootrung-slurm.XXXXXX)
 pids=()
 
