@@ -9,6 +9,11 @@ BR_PACKAGES=(cmake make gcc libc6-dev pkg-config libgsl-dev libxml2-dev libcunit
 if [ "${BR_WITH_BROWSER:-0}" = 1 ]; then
     BR_PACKAGES+=(chromium)
 fi
+# The Slurm test's daemons and clients, for CI only (.ci/run sets this):
+# tests/slurm/run.sh builds a private one-node cluster from them.
+if [ "${BR_WITH_SLURM:-0}" = 1 ]; then
+    BR_PACKAGES+=(slurmctld slurmd slurm-client munge)
+fi
 # CI also runs valgrind and the libFuzzer target (clang's fuzzer runtime is
 # in libclang-rt-NN-dev, which libclang-rt-dev pulls in).
 if [ -n "${CI:-}" ]; then
