@@ -415,7 +415,8 @@ static int qn_start(workspace *w, trial *t, int i, const double *x, br_error *er
     q->bres = HUGE_VAL;
     q->periods = 0;
     memcpy(q->x, x, sizeof q->x);
-    memcpy(w->h, w->s->hinv[i], sizeof(double) * (size_t)(q->m * q->m));
+    if (q->m > 0) /* a design without tolerances prepares no chord (hinv NULL) */
+        memcpy(w->h, w->s->hinv[i], sizeof(double) * (size_t)(q->m * q->m));
     return qn_period(q, err);
 }
 
