@@ -38,6 +38,7 @@ if [ -n "${CI:-}" ]; then
 fi
 
 br_install_packages
+br_install_slurm
 br_build "$dir" "${opts[@]}"
 if [ ! -x /usr/bin/chromium ]; then
     echo "note: /usr/bin/chromium not found: the browser test (browser_report) will be skipped;" \
