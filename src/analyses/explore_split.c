@@ -49,11 +49,11 @@ int br_explore_split_design(const br_design *d, int rail, br_design **out, br_er
     j->start = 0.0;
     /* the module steps on into an empty rail capacitor: its resistance
      * keeps that step within the diode's repetitive peak rating (IFRM,
-     * else its surge rating), the peak being at most V / R */
-    const br_diode_part *dp = &d->diodes[sp->diode];
-    double ipk = dp->ifrm.nom > 0 ? dp->ifrm.nom : dp->ifsm.nom;
-    if (ipk > 0 && d->vsupply.max / ipk > j->r.nom)
-        j->r = br_qty_fixed(d->vsupply.max / ipk);
+     * else its surge rating), the peak being at most V / R; `size` keeps
+     * the same floor (br_size_inject_floor) */
+    double floor = br_size_inject_floor(s, s->ninject - 1);
+    if (floor > j->r.nom)
+        j->r = br_qty_fixed(floor);
     *out = s;
     return BR_OK;
 }
