@@ -423,8 +423,11 @@ int br_explore_screen(const br_design *d, const br_explore_opts *o, double targe
 
 /* ---- the corners ------------------------------------------------------------ */
 
-/* What the worst corners say of a survivor: their margin where smaller,
- * not feasible where it does not qualify there. */
+/* What the worst corners say of a design that passes every criterion at
+ * its nominal point: their margin where smaller, not feasible where it
+ * does not qualify there.  One held back at its nominal point by a limit
+ * (margin, start-up, cost: a split design) keeps that state where every
+ * criterion passes at the corners. */
 static void take_corners(const br_size_verdict *v, br_explore_row *r)
 {
     r->corners = 1;
@@ -436,15 +439,15 @@ static void take_corners(const br_size_verdict *v, br_explore_row *r)
     if (v->outcome == BR_OUTCOME_UNDETERMINED) {
         r->state = BR_EX_UNDETERMINED;
         r->crit = v->fail_crit;
-    } else if (!v->qualifies) {
+    } else if (!v->qualifies && (r->state == BR_EX_FEASIBLE || v->outcome != BR_OUTCOME_PASS)) {
         r->state = BR_EX_CORNERS;
         r->crit = v->fail_crit >= 0 ? v->fail_crit : r->crit;
     }
 }
 
 /* A survivor judged at its worst corners as `size` judges a value. */
-static int corners(const br_design *d, const br_explore_opts *o, double target, br_explore_row *r,
-                   br_error *err)
+int br_explore_corners(const br_design *d, const br_explore_opts *o, double target,
+                       br_explore_row *r, br_error *err)
 {
     br_size_opts so;
     br_size_opts_default(&so);
@@ -575,7 +578,7 @@ static int judge_row(const br_design *t, const br_explore_opts *o, double target
     if (rc == BR_OK && r->state == BR_EX_FEASIBLE && o->parts)
         rc = size_row(t, o, target, e, r, &d, err);
     else if (rc == BR_OK && r->state == BR_EX_FEASIBLE && o->corners)
-        rc = corners(d, o, target, r, err);
+        rc = br_explore_corners(d, o, target, r, err);
     if (rc == BR_OK && r->state == BR_EX_SPLIT)
         rc = br_explore_split(d, o, target, r, err);
     if (rc == BR_OK && r->state == BR_EX_FEASIBLE && o->yield_samples > 0)

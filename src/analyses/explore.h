@@ -52,14 +52,19 @@
  * supply (split_at: the lowest failing rail), and the split design is
  * built and judged at its nominal point (explore_split.c): an injection
  * of the template supply's voltage into a rail, the search choosing the
- * rail (br_explore_split).  The split design stays out of the ranking:
- * the row keeps BR_EX_SPLIT and carries the split design's verdict.
+ * rail (br_explore_split).  With opts.corners, the split design chosen
+ * is judged at its worst corners too, as a survivor is, when every
+ * criterion passes at its nominal point.  The split design stays out of
+ * the ranking: the row keeps BR_EX_SPLIT and carries the split design's
+ * verdict.
  *
  * Combinations are judged on worker threads (br_explore_pool), each row
  * on its own, so the rows are the same whatever the number of threads.
  *
  * Bounded: at most BR_EXPLORE_MAX combinations, each one evaluation (plus
- * one worst-corner judgement); every simulation carries the stop poll. */
+ * one worst-corner judgement), a split one at most BR_SPLIT_TRIES more
+ * (plus one worst-corner judgement); every simulation carries the stop
+ * poll. */
 #ifndef BR_ANALYSES_EXPLORE_H
 #define BR_ANALYSES_EXPLORE_H
 
@@ -132,18 +137,21 @@ typedef struct br_explore_row {
     int crit, stage; /* where the margin binds, or what fails (br_crit, -1) */
     int split_at;    /* BR_EX_SPLIT: rail a second supply would feed */
     /* BR_EX_SPLIT: the split design judged (inject_rail > 0): the rail its
-     * injection feeds, its state (the screen's, at the nominal point), its
-     * smallest margin in volts and where it binds (or what fails), its
-     * start-up time and the main supply's power */
+     * injection feeds, its state (the screen's at the nominal point, then
+     * with opts.corners its worst corners' where it passes the screen's
+     * criteria), its smallest margin in volts and where it binds (or what
+     * fails; the worst corners' where worse), its start-up time and the
+     * main supply's power (at the nominal point) */
     int inject_rail;
     int split_state;
     double split_margin, split_tstart, split_loss;
     int split_crit, split_stage;
-    int split_tries; /* split designs judged in the search */
-    int corners;     /* judged at the worst corners */
-    int front;       /* on the Pareto front of the feasible rows */
-    int rank;        /* 1.. among the feasible rows (0: not feasible) */
-    char note[160];  /* BR_EX_REFUSED: the model's message */
+    int split_tries;   /* split designs judged in the search */
+    int split_corners; /* the split design was judged at its worst corners */
+    int corners;       /* judged at the worst corners */
+    int front;         /* on the Pareto front of the feasible rows */
+    int rank;          /* 1.. among the feasible rows (0: not feasible) */
+    char note[160];    /* BR_EX_REFUSED: the model's message */
     /* sizing (opts.parts) */
     int sized;                           /* the rail capacitors were sized */
     signed char cap[BR_MAX_SWITCHES];    /* parts-catalog capacitor of rail k (-1: the
@@ -189,6 +197,13 @@ int br_explore_design(const br_design *t, const br_explore_opts *o, const br_exp
 int br_explore_screen(const br_design *d, const br_explore_opts *o, double target,
                       br_explore_row *r, br_error *err);
 
+/* Row r, which passes the screen with design d, judged at d's worst
+ * corners as `size` judges a value (analyses/size.h): the worst-corner
+ * margin where smaller, and BR_EX_CORNERS (BR_EX_UNDETERMINED) where d
+ * does not qualify there (is undetermined there); r->corners set. */
+int br_explore_corners(const br_design *d, const br_explore_opts *o, double target,
+                       br_explore_row *r, br_error *err);
+
 /* The split design of d: d with an injection into rail `rail` (1 ..
  * switches-1) of the supply's voltage (its tolerance too), through the
  * stage's link resistor and its link diode, on from power-up
@@ -196,7 +211,8 @@ int br_explore_screen(const br_design *d, const br_explore_opts *o, double targe
 int br_explore_split_design(const br_design *d, int rail, br_design **out, br_error *err);
 
 /* Row r failed as BR_EX_SPLIT with design d: search the injection rail
- * and judge the split design (explore_split.c). */
+ * and judge the split design (explore_split.c), with opts.corners at its
+ * worst corners too. */
 int br_explore_split(const br_design *d, const br_explore_opts *o, double target, br_explore_row *r,
                      br_error *err);
 

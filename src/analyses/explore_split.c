@@ -13,7 +13,10 @@
  * the upper part is shortest, and moves the injection down one rail at a
  * time while the split design's smallest margin grows (the lower part
  * gets shorter, the upper part longer: the worst margin rises and then
- * falls), at most BR_SPLIT_TRIES designs.  The best one is kept. */
+ * falls), at most BR_SPLIT_TRIES designs.  The best one is kept, and
+ * with opts.corners judged at its worst corners as a survivor is when
+ * every criterion passes at its nominal point: a split design is
+ * reported holding only where it holds there too. */
 #include "analyses/explore.h"
 
 #include "core/error.h"
@@ -46,11 +49,11 @@ int br_explore_split_design(const br_design *d, int rail, br_design **out, br_er
     j->start = 0.0;
     /* the module steps on into an empty rail capacitor: its resistance
      * keeps that step within the diode's repetitive peak rating (IFRM,
-     * else its surge rating), the peak being at most V / R */
-    const br_diode_part *dp = &d->diodes[sp->diode];
-    double ipk = dp->ifrm.nom > 0 ? dp->ifrm.nom : dp->ifsm.nom;
-    if (ipk > 0 && d->vsupply.max / ipk > j->r.nom)
-        j->r = br_qty_fixed(d->vsupply.max / ipk);
+     * else its surge rating), the peak being at most V / R; `size` keeps
+     * the same floor (br_size_inject_floor) */
+    double floor = br_size_inject_floor(s, s->ninject - 1);
+    if (floor > j->r.nom)
+        j->r = br_qty_fixed(floor);
     *out = s;
     return BR_OK;
 }
@@ -86,16 +89,41 @@ static void keep(br_explore_row *r, const br_explore_row *t, int j)
     r->split_loss = t->loss;
     r->split_crit = t->crit;
     r->split_stage = t->stage;
+    r->split_corners = t->corners;
+}
+
+/* Every criterion passes at the nominal point (the state may still be a
+ * margin, start-up or cost limit). */
+static int holds(int state)
+{
+    return state == BR_EX_FEASIBLE || state == BR_EX_MARGIN || state == BR_EX_STARTUP ||
+           state == BR_EX_COST;
+}
+
+/* The split design chosen (injection at rail j, screened into *t) judged
+ * at its worst corners as a survivor is (br_explore_corners). */
+static int corners(const br_design *d, const br_explore_opts *o, double target, int j,
+                   br_explore_row *t, br_error *err)
+{
+    br_design *s = NULL;
+    int rc = br_explore_split_design(d, j, &s, err);
+    if (rc == BR_OK)
+        rc = br_explore_corners(s, o, target, t, err);
+    br_design_free(s);
+    return rc;
 }
 
 int br_explore_split(const br_design *d, const br_explore_opts *o, double target, br_explore_row *r,
                      br_error *err)
 {
     double best = -HUGE_VAL;
+    br_explore_row kept = *r;
     r->inject_rail = 0;
     r->split_tries = 0;
+    r->split_corners = 0;
     for (int j = r->split_at; j >= 1 && r->split_tries < BR_SPLIT_TRIES; j--) {
         br_explore_row t = *r;
+        t.corners = 0;
         int rc = try_rail(d, o, target, j, &t, err);
         if (rc != BR_OK)
             return rc;
@@ -103,8 +131,16 @@ int br_explore_split(const br_design *d, const br_explore_opts *o, double target
         double sc = score(&t);
         if (r->inject_rail > 0 && !(sc > best))
             break; /* past the best: the upper part grows too long */
-        keep(r, &t, j);
+        r->inject_rail = j;
+        kept = t;
         best = sc;
     }
+    if (r->inject_rail > 0 && o->corners && holds(kept.state)) {
+        int rc = corners(d, o, target, r->inject_rail, &kept, err);
+        if (rc != BR_OK)
+            return rc;
+    }
+    if (r->inject_rail > 0)
+        keep(r, &kept, r->inject_rail);
     return BR_OK;
 }

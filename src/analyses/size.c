@@ -1,4 +1,4 @@
-/* size.c - the smallest capacitor per rail, the largest link resistance
+/* size.c - the smallest capacitor per rail, the largest link and injection resistances
  * and the headroom of one design at a margin target (size.h). */
 #include "analyses/size.h"
 
@@ -457,21 +457,40 @@ static br_qty scaled(const br_qty *q, double v)
     return r;
 }
 
-static int try_link(sizer *q, br_design **cur, double r, br_size_value *val, br_error *err)
+/* The answer of resistance search `which`: the links (-1) or injection
+ * `which`. */
+static br_size_answer *res_answer(sizer *q, int which)
 {
-    br_design *t = br_design_copy(*cur);
-    if (!t)
-        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    return which < 0 ? &q->z->link : &q->z->inject[which];
+}
+
+/* Resistance r into t: on every link (which < 0, one value), or as
+ * injection `which`'s, with the tolerance of the design's own value. */
+static void set_res(const sizer *q, br_design *t, int which, double r)
+{
+    if (which >= 0) {
+        t->inject[which].r = scaled(&q->d0->inject[which].r, r);
+        return;
+    }
     br_qty base = q->d0->def.r_link;
     t->def.r_link = scaled(&base, r);
     for (int k = 0; k < BR_MAX_SWITCHES; k++)
         if (t->has_override[k])
             t->stage[k].r_link = t->def.r_link;
+}
+
+static int try_res(sizer *q, br_design **cur, int which, double r, br_size_value *val,
+                   br_error *err)
+{
+    br_design *t = br_design_copy(*cur);
+    if (!t)
+        return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
+    set_res(q, t, which, r);
     val->v = r;
     val->part = -1;
     val->id[0] = '\0';
     int rc = judge_whole(q, t, &val->ver, err);
-    q->z->link.trials++;
+    res_answer(q, which)->trials++;
     if (rc == BR_OK && val->ver.qualifies) {
         br_design_free(*cur);
         *cur = t;
@@ -481,14 +500,15 @@ static int try_link(sizer *q, br_design **cur, double r, br_size_value *val, br_
     return rc;
 }
 
-/* Doubling from the design's largest resistance while it qualifies (or
- * halving while it does not, then 0), then bisection to BR_SIZE_RES_R. */
-static int size_link(sizer *q, br_design **cur, br_error *err)
+/* Doubling from the design's value while it qualifies (or halving while
+ * it does not, down to the floor lo: 0 for the links, V / IFRM for an
+ * injection), then bisection to BR_SIZE_RES_R. */
+static int size_res(sizer *q, br_design **cur, int which, double lo, br_error *err)
 {
-    br_size_answer *a = &q->z->link;
-    double r = a->from > 0 ? a->from : 1.0;
+    br_size_answer *a = res_answer(q, which);
+    double r = fmax(a->from > 0 ? a->from : 1.0, lo);
     br_size_value v, pass = {0}, fail = {0};
-    int rc = try_link(q, cur, r, &v, err), have_pass = 0, have_fail = 0;
+    int rc = try_res(q, cur, which, r, &v, err), have_pass = 0, have_fail = 0;
     while (rc == BR_OK && !undetermined(&v) && a->trials < BR_SIZE_MAXTRY) {
         if (v.ver.qualifies)
             pass = v, have_pass = 1;
@@ -503,16 +523,33 @@ static int size_link(sizer *q, br_design **cur, br_error *err)
             if ((next = v.v * 2) > r * BR_SIZE_SPAN)
                 break;
         } else {
-            if (v.v == 0)
+            if (v.v <= lo)
                 break;
-            next = v.v / 2 < r / BR_SIZE_SPAN ? 0.0 : v.v / 2;
+            next = v.v / 2 < r / BR_SIZE_SPAN ? lo : fmax(v.v / 2, lo);
         }
-        rc = try_link(q, cur, next, &v, err);
+        rc = try_res(q, cur, which, next, &v, err);
     }
     if (rc != BR_OK)
         return rc;
     settle(a, &v, have_pass ? &pass : NULL, have_fail ? &fail : NULL);
     return BR_OK;
+}
+
+/* The link resistance, then each injection's above its floor. */
+static int size_resistances(sizer *q, br_design **cur, br_error *err)
+{
+    int rc = size_res(q, cur, -1, 0.0, err);
+    for (int i = 0; rc == BR_OK && i < q->z->ninject; i++)
+        rc = size_res(q, cur, i, q->z->inject_floor[i], err);
+    return rc;
+}
+
+double br_size_inject_floor(const br_design *d, int i)
+{
+    const br_inject_spec *j = &d->inject[i];
+    const br_diode_part *p = &d->diodes[j->diode];
+    double ipk = p->ifrm.nom > 0 ? p->ifrm.nom : p->ifsm.nom;
+    return ipk > 0 ? j->v.max / ipk : 0.0;
 }
 
 /* ---- the whole run ------------------------------------------------------------------ */
@@ -562,6 +599,11 @@ static void prepare(sizer *q, const br_chain *c)
     z->target_default = !(q->o->target >= 0);
     z->target = z->target_default ? 0.25 * (hyst > 0 && isfinite(hyst) ? hyst : 0.0) : q->o->target;
     z->link.kind = z->links ? BR_SIZE_NONE : BR_SIZE_KEPT;
+    z->ninject = q->d0->ninject;
+    for (int i = 0; i < z->ninject; i++) {
+        z->inject[i].from = q->d0->inject[i].r.nom;
+        z->inject[i].kind = z->links ? BR_SIZE_NONE : BR_SIZE_KEPT;
+    }
 }
 
 static int search(sizer *q, br_error *err)
@@ -574,7 +616,7 @@ static int search(sizer *q, br_error *err)
     if (rc == BR_OK)
         rc = size_caps(q, &cur, err);
     if (rc == BR_OK && z->links)
-        rc = size_link(q, &cur, err);
+        rc = size_resistances(q, &cur, err);
     if (rc == BR_OK)
         rc = judge(q, cur, 1, &z->final, err);
     z->d = cur;
@@ -643,6 +685,8 @@ int br_size_run(const br_design *d, const br_size_opts *o, br_size **out, br_err
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
     z->catalog = o->cat && o->cat->ncaps > 0;
     z->links = o->links;
+    for (int i = 0; i < d->ninject; i++) /* the highest voltage the design gives */
+        z->inject_floor[i] = br_size_inject_floor(d, i);
     br_design *fixed = o->nominal ? br_design_copy(d) : NULL;
     int rc = !o->nominal ? BR_OK
              : fixed     ? br_tol_fix(fixed, err)

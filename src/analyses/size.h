@@ -29,6 +29,12 @@
  *    qualifies, the cold start included (a larger resistor tames the
  *    inrush and slows the start), doubling or halving from the design's
  *    largest and then bisection to 2 %.
+ *  - Then each injection's resistance (the design's order) by the same
+ *    search from its own value, never below its floor V / IFRM (the
+ *    injection's highest voltage over its diode's repetitive peak
+ *    current, else its surge current: the module steps on into an empty
+ *    rail, the peak at most V / R), which the split designs of `explore`
+ *    apply too: halving stops at the floor.
  *  - The result judged whole (cold start included); its regulator
  *    headroom: how far the regulated rails stay above the regulator's
  *    output at the worst corner, against the dropout the regulators need.
@@ -96,7 +102,7 @@ typedef struct br_size_opts {
     int threads;                 /* worker threads; 0: one per processor */
     double target;               /* V; < 0: a quarter of the smallest UVLO hysteresis */
     const br_catalog *cat;       /* capacitors from here (NULL or none in it: continuous) */
-    int links;                   /* size the link resistance (1) */
+    int links;                   /* size the link resistance and the injections' (1) */
     int supply;                  /* search the supply voltage window of the result (0) */
     int solver_limit;            /* br_spread_opts.solver_limit */
     int nominal;                 /* judge every value at the nominal point only: the design's
@@ -112,12 +118,17 @@ typedef struct br_size {
     int catalog;                         /* capacitors from the catalog */
     int n;                               /* stages */
     br_size_answer cap[BR_MAX_SWITCHES]; /* [k], k >= 1 */
-    int links;                           /* the link resistance was sized */
+    int links;                           /* the link resistance was sized, and the
+                                            injections' resistances */
     br_size_answer link;
-    br_size_verdict start; /* the design as given, steady-state criteria */
-    br_size_verdict final; /* the result, every criterion (cold start included) */
-    double reg_vout;       /* the highest regulator output and the largest dropout of the
-                              regulators on the rails, V (0: no regulator) */
+    int ninject;                          /* the design's injections */
+    br_size_answer inject[BR_MAX_INJECT]; /* [i]: injection i's resistance */
+    double inject_floor[BR_MAX_INJECT];   /* its floor V / IFRM, ohm (0: its diode states
+                                             neither IFRM nor IFSM) */
+    br_size_verdict start;                /* the design as given, steady-state criteria */
+    br_size_verdict final;                /* the result, every criterion (cold start included) */
+    double reg_vout; /* the highest regulator output and the largest dropout of the
+                        regulators on the rails, V (0: no regulator) */
     double reg_dropout;
     br_supply_window *sw; /* the supply window of the result (opts.supply), owned */
     long points;          /* corners judged in all */
@@ -131,6 +142,11 @@ void br_size_opts_default(br_size_opts *o);
  * that may sit on a rail.  Anything a judgement meets is in the result. */
 int br_size_run(const br_design *d, const br_size_opts *o, br_size **out, br_error *err);
 void br_size_free(br_size *s);
+
+/* The smallest resistance injection i of d may have: its highest
+ * voltage over its diode's IFRM (else IFSM), ohm; 0 when the diode
+ * states neither. */
+double br_size_inject_floor(const br_design *d, int i);
 
 /* Judge design t (d with some parts or values changed, the same topology
  * and stages) as the search judges a value: at its worst corners from d's

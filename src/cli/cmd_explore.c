@@ -32,9 +32,11 @@ static const char ABOUT[] =
     "screened again and its parts counted in its cost. A combination is\n"
     "feasible when every criterion passes, its smallest margin in volts reaches\n"
     "the target and its start-up time and cost are within --max-startup and\n"
-    "--max-cost. A chain whose rails fall short from some rail up is reported\n"
-    "as needing a second isolated supply there (not simulated: the model has\n"
-    "one supply). The report ranks the feasible set and marks its Pareto front\n"
+    "--max-cost. A chain whose rails fall short from some rail up needs a\n"
+    "second isolated supply: the split design, with one injected at a rail the\n"
+    "search chooses, is judged too (with --corners at its worst corners as\n"
+    "well, where it holds at the nominal point) and reported beside it, out of\n"
+    "the ranking. The report ranks the feasible set and marks its Pareto front\n"
     "of cost, supply power and margin; --csv, --svg and --designs DIR (the\n"
     "front's design files) write the rest. --shard K/N judges every N-th\n"
     "combination only and writes a shard file (--shard-file, default stdout);\n"
@@ -410,7 +412,7 @@ int br_cli_explore_main(int argc, char **argv, const br_cli_given *given)
         {BR_OPT_FLAG, "scale-caps", NULL, &a.scale_caps,
          "rail capacitors scaled by the rails each carries (default: the design's)"},
         {BR_OPT_FLAG, "corners", NULL, &a.corners,
-         "judge the survivors at their worst corners too (slow)"},
+         "judge the survivors and split designs at their worst corners too (slow)"},
         {BR_OPT_STRING, "csv", "PATH", &a.csv, "every combination as CSV to PATH (- stdout)"},
         {BR_OPT_STRING, "svg", "PATH", &a.svg, "plots of margin and cost against levels to PATH"},
         {BR_OPT_STRING, "designs", "DIR", &a.designs,

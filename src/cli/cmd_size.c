@@ -1,7 +1,8 @@
 /* cmd_size.c - `bootrung size FILE`: the smallest capacitor per rail,
- * the largest link resistance and the regulator headroom that keep every
- * margin above a target at the worst corners; optionally the supply
- * voltage window of the result, and the sized design as a design file. */
+ * the largest link and injection resistances and the regulator headroom
+ * that keep every margin above a target at the worst corners; optionally
+ * the supply voltage window of the result, and the sized design as a
+ * design file. */
 #include "cli.h"
 
 #include "bootrung/parts.h"
@@ -18,9 +19,10 @@ static const char ABOUT[] =
     "and each criterion's worst corner from the one-at-a-time sensitivities),\n"
     "every other criterion passing; the next smaller value is judged and does\n"
     "not qualify. Then the largest link resistance (one value on every link,\n"
-    "cold start included, to 2 %), the regulator headroom of the result, and\n"
-    "with --supply its supply voltage window (slow: cold starts at every\n"
-    "corner). --write-design PATH writes the sized design as a design file\n"
+    "cold start included, to 2 %), the largest resistance of each injection\n"
+    "(the same search, never below its V/IFRM), the regulator headroom of the\n"
+    "result, and with --supply its supply voltage window (slow: cold starts at\n"
+    "every corner). --write-design PATH writes the sized design as a design file\n"
     "with a comment saying what was sized and to what target.\n"
     "Exit status 0 when the sized design qualifies, cold start included, 1 when\n"
     "it does not, 3 when that is undetermined, 2 for bad input.\n";
@@ -128,7 +130,8 @@ int cmd_size(int argc, char **argv)
          "rail capacitors from this catalog (default: continuous values)"},
         {BR_OPT_STRING, "target", "V", &a.target,
          "smallest margin in volts (default: a quarter of the UVLO hysteresis)"},
-        {BR_OPT_FLAG, "no-links", NULL, &a.no_links, "keep the design's link resistances"},
+        {BR_OPT_FLAG, "no-links", NULL, &a.no_links,
+         "keep the design's link and injection resistances"},
         {BR_OPT_FLAG, "supply", NULL, &a.supply,
          "also search the supply voltage window of the result (slow)"},
         {BR_OPT_STRING, "write-design", "PATH", &a.write,

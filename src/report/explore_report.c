@@ -19,29 +19,49 @@ int br_explore_outcome(const br_explore *x)
     return x->nfeasible > 0 ? BR_OUTCOME_PASS : undet ? BR_OUTCOME_UNDETERMINED : BR_OUTCOME_FAIL;
 }
 
-/* The split design's verdict: its state, and its margin or what fails. */
-static void split_verdict(const br_explore_row *r, char *buf, size_t cap)
+/* What holds a split design back that passes every criterion: the
+ * margin target, the start-up or the cost limit (empty: nothing). */
+static const char *split_limit(const br_explore *x, const br_explore_row *r)
+{
+    if (r->split_state == BR_EX_MARGIN || r->split_margin < x->target)
+        return ", below the margin target";
+    if (r->split_state == BR_EX_STARTUP)
+        return ", beyond the start-up limit";
+    if (r->split_state == BR_EX_COST)
+        return "; its parts cost beyond the limit";
+    return "";
+}
+
+/* The split design's verdict: its state, and its margin or what fails,
+ * at the nominal point or (judged there) at its worst corners. */
+static void split_verdict(const br_explore *x, const br_explore_row *r, char *buf, size_t cap)
 {
     char a[32], t[32];
     const char *crit = r->split_crit >= 0 ? br_crit_title(r->split_crit) : "a criterion";
+    const char *where = r->split_corners ? "at its worst corners" : "at the nominal point";
+    br_fmt_si(a, sizeof a, r->split_margin, 3, "V");
     if (r->split_state == BR_EX_FEASIBLE || r->split_state == BR_EX_MARGIN ||
         r->split_state == BR_EX_STARTUP || r->split_state == BR_EX_COST)
-        snprintf(buf, cap, "it HOLDS at the nominal point, smallest margin %s (%s), starts in %s%s",
-                 br_fmt_si(a, sizeof a, r->split_margin, 3, "V"), crit,
+        snprintf(buf, cap, "it HOLDS %s, smallest margin %s (%s), starts in %s%s%s", where, a, crit,
                  br_fmt_time(t, sizeof t, r->split_tstart),
-                 r->split_state == BR_EX_MARGIN ? ", below the margin target" : "");
+                 r->split_corners ? " at the nominal point" : "", split_limit(x, r));
+    else if (r->split_state == BR_EX_CORNERS)
+        snprintf(buf, cap,
+                 "it HOLDS at the nominal point, not at its worst corners (%s, smallest margin "
+                 "%s there)",
+                 crit, a);
     else if (r->split_state == BR_EX_UNDETERMINED || r->split_state == BR_EX_REFUSED)
-        snprintf(buf, cap, "it is undetermined (%s)", crit);
+        snprintf(buf, cap, "it is undetermined %s (%s)", where, crit);
     else
-        snprintf(buf, cap, "it still FAILS (%s, margin %s)", crit,
-                 br_fmt_si(a, sizeof a, r->split_margin, 3, "V"));
+        snprintf(buf, cap, "it still FAILS (%s, margin %s)", crit, a);
 }
 
 /* A combination that needs a second supply: the one-supply chain's
  * failure, and the split design's verdict and cost. */
-static void split_words(const br_explore_row *r, const char *crit, char *buf, size_t cap)
+static void split_words(const br_explore *x, const br_explore_row *r, const char *crit, char *buf,
+                        size_t cap)
 {
-    char v[160];
+    char v[256];
     if (r->inject_rail <= 0) {
         snprintf(buf, cap,
                  "fails (%s): rails from rail %d up fall short; needs a second isolated supply "
@@ -49,7 +69,7 @@ static void split_words(const br_explore_row *r, const char *crit, char *buf, si
                  crit, r->split_at, r->split_at);
         return;
     }
-    split_verdict(r, v, sizeof v);
+    split_verdict(x, r, v, sizeof v);
     snprintf(buf, cap,
              "fails with one supply (%s): rails from rail %d up fall short. Split, with a second "
              "isolated supply injected at rail %d (searched over %d rail%s), %s; parts cost %.4g, "
@@ -82,7 +102,7 @@ static const char *why(const br_explore *x, const br_explore_row *r, char *buf, 
                      br_fmt_si(a, sizeof a, r->need, 3, "V"), 100.0 * x->derating);
         break;
     case BR_EX_SPLIT:
-        split_words(r, crit, buf, cap);
+        split_words(x, r, crit, buf, cap);
         break;
     case BR_EX_FAILS:
         snprintf(buf, cap, "fails: %s", crit);
@@ -328,11 +348,20 @@ int br_explore_text(const br_explore *x, const br_catalog *cat, const char *desi
                          x->nfeasible, x->n,
                          x->corners ? "at their worst corners" : "at the nominal point");
     rc |= br_report_wrap(out, "",
-                         "A chain that needs a second supply is also judged split, at the nominal "
-                         "point: an isolated supply of the main supply's voltage injected at a "
-                         "rail through that rail's link resistor and diode (the rail searched "
-                         "from the lowest one that falls short, downwards while the smallest "
-                         "margin grows); the split design stays out of the ranking.",
+                         x->corners
+                             ? "A chain that needs a second supply is also judged split, at the "
+                               "nominal point and, where every criterion passes there, at its "
+                               "worst corners: an isolated supply of the main supply's voltage "
+                               "injected at a rail through that rail's link resistor and diode "
+                               "(the rail searched at the nominal point from the lowest one that "
+                               "falls short, downwards while the smallest margin grows); the "
+                               "split design stays out of the ranking."
+                             : "A chain that needs a second supply is also judged split, at the "
+                               "nominal point: an isolated supply of the main supply's voltage "
+                               "injected at a rail through that rail's link resistor and diode "
+                               "(the rail searched from the lowest one that falls short, "
+                               "downwards while the smallest margin grows); the split design "
+                               "stays out of the ranking.",
                          0);
     rc |= br_text_put(out, "\n");
     rc |= br_report_caution(out);
@@ -377,7 +406,8 @@ int br_explore_csv(const br_explore *x, const br_catalog *cat, br_text *out)
     int rc = br_text_printf(out,
                             "levels,switch,class_V,need_V,diode,fsw_Hz,state,cost,loss_W,"
                             "margin_V,startup_s,binds,split_at,corners,front,rank,inject_rail,"
-                            "split_state,split_margin_V,split_startup_s,split_binds%s%s\n",
+                            "split_state,split_margin_V,split_startup_s,split_binds,"
+                            "split_corners%s%s\n",
                             x->parts ? ",rail_capacitors,link_diodes" : "",
                             x->yield_samples > 0 ? ",samples,pass,fail,undetermined,yield,"
                                                    "yield_lo,yield_hi"
@@ -394,11 +424,12 @@ int br_explore_csv(const br_explore *x, const br_catalog *cat, br_text *out)
                              r->crit >= 0 ? br_crit_name(r->crit) : "", r->split_at, r->corners,
                              r->front, r->rank);
         int sp = r->inject_rail > 0;
-        rc |= br_text_printf(out, "%d,%s,%s,%s,%s", r->inject_rail,
+        rc |= br_text_printf(out, "%d,%s,%s,%s,%s,%d", r->inject_rail,
                              sp ? br_explore_state_name(r->split_state) : "",
                              num(a, sizeof a, sp ? r->split_margin : NAN),
                              num(b, sizeof b, sp ? r->split_tstart : NAN),
-                             sp && r->split_crit >= 0 ? br_crit_name(r->split_crit) : "");
+                             sp && r->split_crit >= 0 ? br_crit_name(r->split_crit) : "",
+                             sp && r->split_corners);
         rc |= x->parts ? sized_csv(x, r, out) : BR_OK;
         rc |= x->yield_samples > 0 ? yield_csv(r, out) : BR_OK;
         rc |= br_text_put(out, "\n");
@@ -565,8 +596,8 @@ int br_explore_comment(const br_explore *x, const br_catalog *cat, const br_expl
 int br_explore_split_comment(const br_explore *x, const br_catalog *cat, const br_explore_row *r,
                              const char *design, br_text *out)
 {
-    char a[32], b[32], v[160];
-    split_verdict(r, v, sizeof v);
+    char a[32], b[32], v[256];
+    split_verdict(x, r, v, sizeof v);
     int rc = br_text_printf(out,
                             "Built by bootrung explore from %s: %d levels, switch %s (%.0f V "
                             "class),\nat %s on a %s bus, split: one supply fails (rails from "
@@ -576,7 +607,7 @@ int br_explore_split_comment(const br_explore *x, const br_catalog *cat, const b
                             br_fmt_si(a, sizeof a, r->fsw, 4, "Hz"),
                             br_fmt_si(b, sizeof b, x->vbus, 4, "V"), r->split_at, r->inject_rail);
     rc |= br_text_printf(out,
-                         "At the nominal point %s.\nParts cost %.4g; the second supply is not "
+                         "Its verdict: %s.\nParts cost %.4g; the second supply is not "
                          "costed.\n",
                          v, r->cost);
     return rc ? BR_ENOMEM : BR_OK;

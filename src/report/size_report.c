@@ -144,33 +144,62 @@ static int cap_notes(const br_chain *c, const br_size *z, br_text *out)
 
 /* ---- the link resistance and the headroom --------------------------------------------- */
 
-static int link_text(const br_chain *c, const br_size *z, br_text *out)
+/* A resistance search's answer in words; own: how the design's value is
+ * named, floor: what the search stops at going down. */
+static void res_words(const br_chain *c, const br_size *z, const br_size_answer *a, const char *own,
+                      char *text, size_t cap)
 {
-    const br_size_answer *a = &z->link;
-    char text[900], why[400], v[32], f[32], w[32];
-    if (!z->links)
-        return BR_OK;
+    char why[400], v[32], f[32], w[32];
     br_fmt_si(f, sizeof f, a->from, 4, "ohm");
     br_size_why(c, &a->beyond.ver, z->target, why, sizeof why);
     if (a->kind == BR_SIZE_FOUND)
-        snprintf(text, sizeof text, "%s (the design's largest %s); at %s %s (%d judged)",
-                 br_fmt_si(v, sizeof v, a->at.v, 4, "ohm"), f,
+        snprintf(text, cap, "%s (%s %s); at %s %s (%d judged)",
+                 br_fmt_si(v, sizeof v, a->at.v, 4, "ohm"), own, f,
                  br_fmt_si(w, sizeof w, a->beyond.v, 4, "ohm"), why, a->trials);
     else if (a->kind == BR_SIZE_END)
-        snprintf(text, sizeof text,
-                 "%s, the largest searched (%g times the design's %s), still qualifies (%d "
+        snprintf(text, cap,
+                 "%s, the largest searched (%g times %s %s), still qualifies (%d "
                  "judged)",
-                 br_fmt_si(v, sizeof v, a->at.v, 4, "ohm"), BR_SIZE_SPAN, f, a->trials);
+                 br_fmt_si(v, sizeof v, a->at.v, 4, "ohm"), BR_SIZE_SPAN, own, f, a->trials);
     else if (a->kind == BR_SIZE_NONE)
-        snprintf(text, sizeof text, "none qualifies, not even %s: %s (%d judged)",
+        snprintf(text, cap, "none qualifies, not even %s: %s (%d judged)",
                  br_fmt_si(v, sizeof v, a->beyond.v, 4, "ohm"), why, a->trials);
     else
-        snprintf(text, sizeof text, "UNDETERMINED at %s: %s (%d judged)",
+        snprintf(text, cap, "UNDETERMINED at %s: %s (%d judged)",
                  br_fmt_si(v, sizeof v, a->beyond.v, 4, "ohm"), why, a->trials);
+}
+
+static int link_text(const br_chain *c, const br_size *z, br_text *out)
+{
+    char text[900];
+    if (!z->links)
+        return BR_OK;
+    res_words(c, z, &z->link, "the design's largest", text, sizeof text);
     return br_report_wrap(out,
                           "largest link resistance (one value on every link, cold start "
                           "included, to 2 %): ",
                           text, 2);
+}
+
+/* Each injection's resistance, searched down to its floor V / IFRM. */
+static int inject_text(const br_chain *c, const br_size *z, br_text *out)
+{
+    int rc = BR_OK;
+    for (int i = 0; z->links && i < z->ninject; i++) {
+        char words[900], text[1000], lead[96], f[32];
+        int k = z->d->inject[i].rail;
+        snprintf(lead, sizeof lead, "largest injection resistance into rail %d (%s): ", k,
+                 stage_name(c, k));
+        res_words(c, z, &z->inject[i], "the design's", words, sizeof words);
+        if (z->inject_floor[i] > 0)
+            snprintf(text, sizeof text, "not below V/IFRM %s (cold start included, to 2 %%): %s",
+                     br_fmt_si(f, sizeof f, z->inject_floor[i], 4, "ohm"), words);
+        else
+            snprintf(text, sizeof text,
+                     "its diode states no IFRM (cold start included, to 2 %%): %s", words);
+        rc |= br_report_wrap(out, lead, text, 2);
+    }
+    return rc;
 }
 
 static int headroom_text(const br_chain *c, const br_size *z, br_text *out)
@@ -250,6 +279,7 @@ int br_size_text(const br_chain *c, const br_size *z, const char *catalog, br_te
     rc |= cap_notes(c, z, out);
     rc |= br_text_put(out, "\n");
     rc |= link_text(c, z, out);
+    rc |= inject_text(c, z, out);
     rc |= headroom_text(c, z, out);
     if (z->sw) {
         rc |= br_supply_window_answer_text(c, z->sw, BR_SW_VMIN, out);
@@ -283,6 +313,22 @@ int br_size_comment(const br_chain *c, const br_size *z, const char *catalog, br
         rc |=
             br_text_printf(out, "Link resistance: %s on every link, the largest that qualifies.\n",
                            br_fmt_si(v, sizeof v, z->link.at.v, 4, "ohm"));
+    for (int i = 0; z->links && i < z->ninject; i++) {
+        char f[32];
+        int k = z->d->inject[i].rail;
+        if (found(&z->inject[i]))
+            rc |= br_text_printf(out,
+                                 "Injection into rail %d (%s): resistance %s, the largest that "
+                                 "qualifies (not below V/IFRM %s).\n",
+                                 k, stage_name(c, k),
+                                 br_fmt_si(v, sizeof v, z->inject[i].at.v, 4, "ohm"),
+                                 br_fmt_si(f, sizeof f, z->inject_floor[i], 4, "ohm"));
+        else
+            rc |= br_text_printf(
+                out, "Injection into rail %d (%s): resistance kept (%s).\n", k, stage_name(c, k),
+                z->inject[i].kind == BR_SIZE_UNDETERMINED ? "its search was undetermined"
+                                                          : "no value searched qualifies");
+    }
     rc |= br_text_printf(out, "Outcome at the worst corners, cold start included: %s.\n",
                          z->outcome == BR_OUTCOME_PASS   ? "qualifies"
                          : z->outcome == BR_OUTCOME_FAIL ? "does NOT qualify"

@@ -519,11 +519,11 @@ static void test_yield(void)
         if ((int)field(p + 1, 15) == 1)
             line = p + 1;
     CU_ASSERT_PTR_NOT_NULL_FATAL(line);
-    long pass = (long)field(line, 24), fail = (long)field(line, 25), und = (long)field(line, 26);
-    CU_ASSERT_EQUAL((long)field(line, 23), 6);
+    long pass = (long)field(line, 25), fail = (long)field(line, 26), und = (long)field(line, 27);
+    CU_ASSERT_EQUAL((long)field(line, 24), 6);
     CU_ASSERT_EQUAL(pass + fail + und, 6);
     if (pass == 6)
-        BR_ASSERT_NEAR(field(line, 28), pow(0.025, 1.0 / 6.0), 1e-9);
+        BR_ASSERT_NEAR(field(line, 29), pow(0.025, 1.0 / 6.0), 1e-9);
     char design[96], want[128];
     snprintf(design, sizeof design, "%s/explore-1.xml", f.dir);
     r = run((const char *[]){"yield", "--startup", "--samples", "6", "--seed", "3", design, NULL});

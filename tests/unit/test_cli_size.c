@@ -13,6 +13,8 @@
 
 #define DESIGN BR_SOURCE_DIR "/tests/data/ref-c2.xml"
 #define CATALOG BR_SOURCE_DIR "/examples/parts/catalog.xml"
+#define SPLIT BR_SOURCE_DIR "/tests/data/split-3level.xml"
+#define ONECAP BR_SOURCE_DIR "/tests/data/one-capacitor.xml"
 
 static br_design *load(const char *path)
 {
@@ -180,6 +182,115 @@ static void test_cli(void)
     rmdir(dir);
 }
 
+/* d with injection i's resistance r. */
+static br_design *with_inject_r(const br_design *d, int i, double r)
+{
+    br_design *t = br_design_copy(d);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(t);
+    t->inject[i].r = br_qty_fixed(r);
+    return t;
+}
+
+static br_size *size_split(const br_design *d, double target, br_size_opts *o)
+{
+    br_catalog *cat;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_catalog_load(ONECAP, &cat, &err), BR_OK);
+    br_size_opts_default(o);
+    o->threads = 2;
+    o->cat = cat;
+    o->target = target;
+    br_size *z = NULL;
+    CU_ASSERT_EQUAL_FATAL(br_size_run(d, o, &z, &err), BR_OK);
+    br_catalog_free(cat);
+    o->cat = NULL;
+    return z;
+}
+
+/* The injection's resistance is sized as the link resistance is: the
+ * answer qualifies, the value one bisection step (at most 2 %) above it
+ * was judged and does not, each judged afresh at the worst corners; and
+ * it is not below the floor V/IFRM.  Hand calculation of the floor
+ * (tests/data/split-3level.xml): the injection's highest voltage 15 V +
+ * 5 % = 15.75 V over its diode's IFRM 5 A = 3.15 ohm. */
+static void test_inject(void)
+{
+    br_design *d = load(SPLIT);
+    br_size_opts o;
+    br_size *z = size_split(d, 1.0, &o);
+    CU_ASSERT_EQUAL_FATAL(z->ninject, 1);
+    BR_ASSERT_NEAR(z->inject_floor[0], 15.75 / 5.0, 1e-12);
+    const br_size_answer *a = &z->inject[0];
+    BR_ASSERT_NEAR(a->from, 4.7, 1e-12);
+    CU_ASSERT_EQUAL_FATAL(a->kind, BR_SIZE_FOUND);
+    CU_ASSERT_TRUE(a->at.v >= z->inject_floor[0]);
+    CU_ASSERT_TRUE(a->beyond.v > a->at.v && a->beyond.v <= a->at.v * (1 + BR_SIZE_RES_R));
+    CU_ASSERT_TRUE(a->at.ver.qualifies);
+    CU_ASSERT_FALSE(a->beyond.ver.qualifies);
+    BR_ASSERT_NEAR(z->d->inject[0].r.nom, a->at.v, 1e-12); /* the sized design has it */
+    CU_ASSERT_EQUAL(z->outcome, BR_OUTCOME_PASS);
+    br_design *same = with_inject_r(z->d, 0, a->at.v);
+    br_design *above = with_inject_r(z->d, 0, a->beyond.v);
+    CU_ASSERT_TRUE(qualifies(d, same, &o));
+    CU_ASSERT_FALSE(qualifies(d, above, &o));
+    br_design_free(same);
+    br_design_free(above);
+    br_size_free(z);
+    br_design_free(d);
+}
+
+/* The floor holds: with a target no value reaches, the search halves from
+ * the design's 4.7 ohm and stops at V/IFRM 3.15 ohm (by hand, above),
+ * judging nothing below it. */
+static void test_inject_floor(void)
+{
+    br_design *d = load(SPLIT);
+    br_size_opts o;
+    br_size *z = size_split(d, 8.0, &o); /* V: more than a 15 V rail keeps over 9 V */
+    const br_size_answer *a = &z->inject[0];
+    CU_ASSERT_EQUAL(a->kind, BR_SIZE_NONE);
+    CU_ASSERT_TRUE(a->have_beyond);
+    BR_ASSERT_NEAR(a->beyond.v, 3.15, 1e-12);          /* the last and smallest value judged */
+    CU_ASSERT_EQUAL(a->trials, 2);                     /* 4.7 ohm, then the floor */
+    BR_ASSERT_NEAR(z->d->inject[0].r.nom, 4.7, 1e-12); /* kept */
+    br_size_free(z);
+    br_design_free(d);
+}
+
+/* The verb reports the injection's resistance and writes it into the
+ * design file, which reads back with it; the comment says what was sized. */
+static void test_inject_cli(void)
+{
+    char dir[] = "/tmp/br-size-XXXXXX", out[96];
+    CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(dir));
+    snprintf(out, sizeof out, "%s/sized.xml", dir);
+    run_result r = run((const char *[]){"size", "--catalog", ONECAP, "--target", "1 V", "--threads",
+                                        "2", "--write-design", out, SPLIT, NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    CU_ASSERT_TRUE(has(r.out, "largest injection resistance into rail 2 (A2): not below V/IFRM "
+                              "3.15 ohm"));
+    done(&r);
+    char *text = br_test_slurp(out, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(text);
+    CU_ASSERT_TRUE(has(text, "Injection into rail 2 (A2): resistance "));
+    CU_ASSERT_TRUE(has(text, "the largest that qualifies (not below V/IFRM 3.15 ohm)"));
+    free(text);
+    br_design *back = load(out), *d = load(SPLIT);
+    br_size_opts o;
+    br_size *z = size_split(d, 1.0, &o);
+    CU_ASSERT_EQUAL_FATAL(back->ninject, 1);
+    BR_ASSERT_REL(back->inject[0].r.nom, z->inject[0].at.v, 1e-12);
+    CU_ASSERT_TRUE(z->inject[0].at.v != 4.7); /* sized: not the design's own */
+    br_size_free(z);
+    br_design_free(back);
+    br_design_free(d);
+    r = run((const char *[]){"analyze", "--quiet", out, NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    done(&r);
+    unlink(out);
+    rmdir(dir);
+}
+
 static void test_help_golden(void)
 {
     CU_ASSERT_TRUE(help_is_golden("size"));
@@ -191,6 +302,9 @@ int main(void)
         {"catalog: the next smaller value fails", test_catalog_smallest},
         {"continuous: within 1 % of failing", test_continuous},
         {"the verb", test_cli},
+        {"an injection's resistance: the next larger value fails", test_inject},
+        {"an injection's resistance never below V/IFRM", test_inject_floor},
+        {"the verb sizes an injection's resistance", test_inject_cli},
         {"help (golden)", test_help_golden},
         {NULL, NULL},
     };
