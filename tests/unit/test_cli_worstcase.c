@@ -477,6 +477,40 @@ static void test_pick(void)
     rmdir(dir);
 }
 
+/* A design that loads but that the chain model refuses (a switching edge
+ * longer than the shortest on-time) is reported before anything about the
+ * catalog, whether the catalog reads or not: one line naming the design's
+ * operating-point, status 2. */
+static void test_pick_chain_first(void)
+{
+    char dir[] = "/tmp/br-wc-XXXXXX", design[64], cat[64], prefix[160];
+    CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(dir));
+    snprintf(design, sizeof design, "%s/d.xml", dir);
+    snprintf(cat, sizeof cat, "%s/c.xml", dir);
+    char *demo = br_test_slurp(DEMO, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(demo);
+    static const char was[] = "edge-time=\"20 ns\"", now[] = "edge-time=\"6 us\" ";
+    _Static_assert(sizeof was == sizeof now, "the same length, in place");
+    char *edge = strstr(demo, was);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(edge);
+    memcpy(edge, now, sizeof now - 1); /* 6 us > 4.8 us, the shortest on-time */
+    write_file(design, demo);
+    free(demo);
+    write_file(cat, "<?xml version=\"1.0\"?>\n<bootrung-catalog version=\"1\">\n");
+    snprintf(prefix, sizeof prefix, "bootrung: %s:22: operating-point: edge-time:", design);
+    const char *const cats[] = {cat, "examples/parts/catalog.xml"};
+    for (int i = 0; i < 2; i++) {
+        run_result r = run((const char *[]){"pick", "--catalog", cats[i], design, NULL});
+        CU_ASSERT_EQUAL(r.status, 2);
+        one_line(&r, prefix);
+        CU_ASSERT_STRING_EQUAL(r.out, "");
+        done(&r);
+    }
+    unlink(design);
+    unlink(cat);
+    rmdir(dir);
+}
+
 /* The demo's passing choices against the example catalog have thin
  * margins (4.7 mV ranked first): the ranking now asks for a minimum
  * margin, states it, and names what sets each choice's margin. */
@@ -653,6 +687,7 @@ int main(void)
         {"corners: unsettled points are undetermined", test_corners_undetermined},
         {"yield: unsettled samples are undetermined", test_yield_undetermined},
         {"pick: rejections, no passing choice, a broken catalog", test_pick},
+        {"pick: a refused chain reported before the catalog", test_pick_chain_first},
         {"pick: a minimum margin", test_pick_min_margin},
         {"pick: no NaN, undetermined choices", test_pick_no_nan},
         {"bad input: status 2, one line", test_bad_input},
