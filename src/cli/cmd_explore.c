@@ -349,6 +349,13 @@ static int write_all(const args *a, const char *design, outputs *o)
     return status;
 }
 
+static int judged(const void *x, long i)
+{
+    int has = 0;
+    br_explore_judged(x, (int)i, &has);
+    return has;
+}
+
 /* The shard's combinations. */
 static int write_shard(int argc, char **argv, const char *path, const args *a,
                        const explore_opts *eo, const br_explore_study *x)
@@ -357,20 +364,8 @@ static int write_shard(int argc, char **argv, const char *path, const args *a,
     size_t size = 0;
     long n = 0;
     br_explore_records(x, &rec, &size, &n);
-    unsigned char *mine = malloc((size_t)n + 1);
-    if (!mine) {
-        fprintf(stderr, "bootrung: explore: out of memory\n");
-        return BR_EXIT_INPUT;
-    }
-    for (long i = 0; i < n; i++) {
-        int judged = 0;
-        br_explore_judged(x, (int)i, &judged);
-        mine[i] = (unsigned char)judged;
-    }
     br_shard_head h = {argc, argv, path, eo->shard_k, eo->shard_n, size, n, a->catalog, a->parts};
-    int status = br_cli_shard_write(&h, rec, mine, a->shard_file ? a->shard_file : "-");
-    free(mine);
-    return status;
+    return br_cli_shard_write(&h, rec, judged, x, a->shard_file ? a->shard_file : "-");
 }
 
 /* The rows merged from shards. */

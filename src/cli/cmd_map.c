@@ -128,27 +128,21 @@ static int write_all(const outputs *o, const paths *p, int quiet)
 }
 
 /* The shard's points (its rows and the design column), then the design point. */
+static int judged(const void *m, long i)
+{
+    int has = 0;
+    br_map_study_judges(m, i, &has);
+    return has;
+}
+
 static int write_shard(int argc, char **argv, const char *path, int k, int n, const paths *p,
                        const br_map_study *m)
 {
     const void *rec = NULL;
     long total = 0;
     br_map_records(m, &rec, &total);
-    unsigned char *mine = malloc(total > 0 ? (size_t)total : 1);
-    if (!mine) {
-        br_error err;
-        br_error_set(&err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
-        return br_cli_fail(&err, NULL);
-    }
-    for (long i = 0; i < total; i++) {
-        int has = 0;
-        br_map_study_judges(m, i, &has);
-        mine[i] = (unsigned char)has;
-    }
     br_shard_head h = {argc, argv, path, k, n, br_map_record_size(), total, NULL, NULL};
-    int status = br_cli_shard_write(&h, rec, mine, p->shard_file ? p->shard_file : "-");
-    free(mine);
-    return status;
+    return br_cli_shard_write(&h, rec, judged, m, p->shard_file ? p->shard_file : "-");
 }
 
 static int run(int argc, char **argv, const char *path, outputs *o, int k, int n, const paths *p,

@@ -122,22 +122,29 @@ static int out_of_memory(br_error *err)
     return BR_ENOMEM;
 }
 
-/* The design's chain is built first, so that a design the chain model
- * refuses is reported before the catalog is read. */
+/* The design, then the catalog.  The study builds the design's chain
+ * when it runs, so a design the chain model refuses is reported before
+ * anything about the catalog; only when the catalog cannot be read is the
+ * chain built here, to keep that order. */
 static int load(const char *path, const args *a, outputs *o, const char **culprit, br_error *err)
 {
-    br_chain *c = NULL;
     *culprit = path;
     int rc = br_design_load(path, &o->d, err);
-    if (rc == BR_OK) {
-        br_design_set_startup_method(o->d, a->su_method);
-        rc = br_chain_build(o->d, &c, err);
-        br_chain_free(c);
-    }
-    if (rc == BR_OK) {
-        *culprit = a->catalog;
-        rc = br_catalog_load(a->catalog, &o->cat, err);
-    }
+    if (rc != BR_OK)
+        return rc;
+    br_design_set_startup_method(o->d, a->su_method);
+    br_error cat_err;
+    br_error_clear(&cat_err);
+    rc = br_catalog_load(a->catalog, &o->cat, &cat_err);
+    if (rc == BR_OK)
+        return BR_OK;
+    br_chain *c = NULL;
+    int built = br_chain_build(o->d, &c, err);
+    br_chain_free(c);
+    if (built != BR_OK)
+        return built;
+    *culprit = a->catalog;
+    *err = cat_err;
     return rc;
 }
 

@@ -125,6 +125,13 @@ static int write_all(const args *a, const outputs *o)
     return br_cli_write(files, 4, o->text, a->quiet, verdict, 1);
 }
 
+static int judged(const void *y, long i)
+{
+    int has = 0;
+    br_yield_study_judges(y, i, &has);
+    return has;
+}
+
 /* The shard's samples, judged. */
 static int write_shard(int argc, char **argv, const char *path, const args *a, int k, int n,
                        const br_yield_study *y)
@@ -132,21 +139,8 @@ static int write_shard(int argc, char **argv, const char *path, const args *a, i
     const void *rec = NULL;
     long total = 0;
     br_yield_records(y, &rec, &total);
-    unsigned char *mine = malloc(total > 0 ? (size_t)total : 1);
-    if (!mine) {
-        br_error err;
-        br_error_set(&err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
-        return br_cli_fail(&err, NULL);
-    }
-    for (long i = 0; i < total; i++) {
-        int has = 0;
-        br_yield_study_judges(y, i, &has);
-        mine[i] = (unsigned char)has;
-    }
     br_shard_head h = {argc, argv, path, k, n, br_yield_record_size(), total, NULL, NULL};
-    int status = br_cli_shard_write(&h, rec, mine, a->shard_file ? a->shard_file : "-");
-    free(mine);
-    return status;
+    return br_cli_shard_write(&h, rec, judged, y, a->shard_file ? a->shard_file : "-");
 }
 
 /* --shard, or the samples merged from shards checked against --samples. */

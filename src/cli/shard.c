@@ -160,8 +160,8 @@ static int put_head(br_text *t, const br_shard_head *h, br_error *err)
     return rc == BR_OK ? BR_OK : br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
 }
 
-int br_cli_shard_write(const br_shard_head *h, const void *rec, const unsigned char *mine,
-                       const char *path)
+int br_cli_shard_write(const br_shard_head *h, const void *rec, br_cli_shard_judged judged,
+                       const void *study, const char *path)
 {
     br_error err;
     br_error_clear(&err);
@@ -169,7 +169,7 @@ int br_cli_shard_write(const br_shard_head *h, const void *rec, const unsigned c
     int rc = t ? put_head(t, h, &err) : br_error_set(&err, BR_ENOMEM, NULL, 0, NULL, "no memory");
     long count = 0;
     for (long i = 0; rc == BR_OK && i < h->total; i++) {
-        if (!mine[i])
+        if (!judged(study, i))
             continue;
         rc |= br_text_printf(t, "p %ld ", i);
         rc |= br_cli_shard_hex(t, (const char *)rec + (size_t)i * h->size, h->size);

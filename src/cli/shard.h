@@ -25,11 +25,15 @@ typedef struct br_shard_head {
 /* --shard K/N; on a bad value a usage error and BR_EXIT_INPUT. */
 int br_cli_shard_parse(const char *verb, const char *text, int *k, int *n);
 
+/* Whether the study's run judged record i (1) or left it to another shard
+ * (0): each verb wraps its study's own accessor. */
+typedef int (*br_cli_shard_judged)(const void *study, long i);
+
 /* Write the shard file: the header, then record i of rec (h->total of
- * h->size bytes) wherever mine[i] is set; to path ("-" stdout), all or
+ * h->size bytes) wherever judged(study, i); to path ("-" stdout), all or
  * nothing.  A BR_EXIT_* status. */
-int br_cli_shard_write(const br_shard_head *h, const void *rec, const unsigned char *mine,
-                       const char *path);
+int br_cli_shard_write(const br_shard_head *h, const void *rec, br_cli_shard_judged judged,
+                       const void *study, const char *path);
 
 /* FNV-1a 64 of a file's bytes and its size: its identity, not a defence. */
 int br_cli_shard_hash(const char *path, uint64_t *hash, long *size, br_error *err);

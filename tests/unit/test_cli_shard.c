@@ -143,16 +143,17 @@ static void test_explore(void)
     in_dir(csv, sizeof csv, "explore.csv");
     in_dir(svg, sizeof svg, "explore.svg");
     const char *args[] = {"explore", LEG,        "--catalog", SWITCHES, "--vin",
-                          "1.1k",    "--levels", "6:8",       "--fsw",  "60k,120k",
+                          "1.1k",    "--levels", "6:7",       "--fsw",  "60k,120k",
                           "--csv",   csv,        "--svg",     svg,      NULL};
     const char *files[] = {csv, svg, NULL};
     check_identical(args, 3, files);
     /* sized from the parts catalog, with a yield per feasible combination:
-     * each shard sizes and samples its own combinations */
-    const char *sized[] = {"explore",   LEG,    "--catalog", SWITCHES, "--parts", PARTS,
-                           "--vin",     "300V", "--levels",  "3:3",    "--fsw",   "60k",
-                           "--yield",   "3",    "--seed",    "5",      "--csv",   csv,
-                           "--threads", "2",    NULL};
+     * each shard sizes and samples its own combinations (--max-cost 21: the
+     * 200 V and 400 V classes feasible, combinations 1 and 2, one a shard) */
+    const char *sized[] = {"explore", LEG,    "--catalog", SWITCHES, "--parts",    PARTS,
+                           "--vin",   "300V", "--levels",  "3:3",    "--fsw",      "60k",
+                           "--yield", "3",    "--seed",    "5",      "--max-cost", "21",
+                           "--csv",   csv,    "--threads", "2",      NULL};
     const char *one[] = {csv, NULL};
     check_identical(sized, 2, one);
     /* the catalog is an input too: changed after the shards ran, refused */

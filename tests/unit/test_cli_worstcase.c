@@ -155,6 +155,21 @@ static int line_starting(const char *text, const char *prefix, char *line, size_
     return 0;
 }
 
+/* The demo with the first `from` in its text replaced by `to`, written to
+ * path. */
+static void write_demo(const char *path, const char *from, const char *to)
+{
+    char *src = br_test_slurp(DEMO, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(src);
+    char *at = strstr(src, from);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(at);
+    FILE *f = fopen(path, "w");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(f);
+    fprintf(f, "%.*s%s%s", (int)(at - src), src, to, at + strlen(from));
+    fclose(f);
+    free(src);
+}
+
 /* The demo with <analysis max-dropouts="0">: every stage must start
  * without a hiccup.  corners (with its cold starts) and yield --startup
  * judge the dropouts row like the other start-up rows: it fails at the
@@ -164,16 +179,7 @@ static void test_dropouts_judged(void)
     char dir[] = "/tmp/br-wc-XXXXXX", path[64], row[200];
     CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(dir));
     snprintf(path, sizeof path, "%s/d.xml", dir);
-    char *src = br_test_slurp(DEMO, NULL);
-    CU_ASSERT_PTR_NOT_NULL_FATAL(src);
-    const char *from = "<analysis ";
-    char *at = strstr(src, from);
-    CU_ASSERT_PTR_NOT_NULL_FATAL(at);
-    FILE *f = fopen(path, "w");
-    CU_ASSERT_PTR_NOT_NULL_FATAL(f);
-    fprintf(f, "%.*s<analysis max-dropouts=\"0\" %s", (int)(at - src), src, at + strlen(from));
-    fclose(f);
-    free(src);
+    write_demo(path, "<analysis ", "<analysis max-dropouts=\"0\" ");
     run_result r = run((const char *[]){"corners", path, NULL});
     CU_ASSERT_EQUAL(r.status, 1);
     CU_ASSERT_TRUE(line_starting(r.out, "  start-up dropouts ", row, sizeof row));
@@ -219,16 +225,7 @@ static void test_yield_never_starts(void)
     CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(dir));
     snprintf(path, sizeof path, "%s/d.xml", dir);
     snprintf(csv, sizeof csv, "%s/y.csv", dir);
-    char *src = br_test_slurp(DEMO, NULL);
-    CU_ASSERT_PTR_NOT_NULL_FATAL(src);
-    const char *from = "voltage=\"12 V +-5%\"";
-    char *at = strstr(src, from);
-    CU_ASSERT_PTR_NOT_NULL_FATAL(at);
-    FILE *f = fopen(path, "w");
-    CU_ASSERT_PTR_NOT_NULL_FATAL(f);
-    fprintf(f, "%.*svoltage=\"8.8 V +-5%%\"%s", (int)(at - src), src, at + strlen(from));
-    fclose(f);
-    free(src);
+    write_demo(path, "voltage=\"12 V +-5%\"", "voltage=\"8.8 V +-5%\"");
     run_result r =
         run((const char *[]){"yield", "--startup", "--samples", "3", "--csv", csv, path, NULL});
     CU_ASSERT_EQUAL(r.status, 1);
@@ -477,6 +474,33 @@ static void test_pick(void)
     rmdir(dir);
 }
 
+/* A design that loads but that the chain model refuses (a switching edge
+ * longer than the shortest on-time) is reported before anything about the
+ * catalog, whether the catalog reads or not: one line naming the design's
+ * operating-point, status 2. */
+static void test_pick_chain_first(void)
+{
+    char dir[] = "/tmp/br-wc-XXXXXX", design[64], cat[64], prefix[160];
+    CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(dir));
+    snprintf(design, sizeof design, "%s/d.xml", dir);
+    snprintf(cat, sizeof cat, "%s/c.xml", dir);
+    /* 6 us > 4.8 us, the shortest on-time */
+    write_demo(design, "edge-time=\"20 ns\"", "edge-time=\"6 us\"");
+    write_file(cat, "<?xml version=\"1.0\"?>\n<bootrung-catalog version=\"1\">\n");
+    snprintf(prefix, sizeof prefix, "bootrung: %s:22: operating-point: edge-time:", design);
+    const char *const cats[] = {cat, "examples/parts/catalog.xml"};
+    for (int i = 0; i < 2; i++) {
+        run_result r = run((const char *[]){"pick", "--catalog", cats[i], design, NULL});
+        CU_ASSERT_EQUAL(r.status, 2);
+        one_line(&r, prefix);
+        CU_ASSERT_STRING_EQUAL(r.out, "");
+        done(&r);
+    }
+    unlink(design);
+    unlink(cat);
+    rmdir(dir);
+}
+
 /* The demo's passing choices against the example catalog have thin
  * margins (4.7 mV ranked first): the ranking now asks for a minimum
  * margin, states it, and names what sets each choice's margin. */
@@ -488,13 +512,7 @@ static void test_pick_min_margin(void)
     char dir[] = "/tmp/br-wc-XXXXXX", design[64];
     CU_ASSERT_PTR_NOT_NULL_FATAL(mkdtemp(dir));
     snprintf(design, sizeof design, "%s/demo.xml", dir);
-    char *src = br_test_slurp(DEMO, NULL);
-    CU_ASSERT_PTR_NOT_NULL_FATAL(src);
-    char *at = strstr(src, "min-drive=\"10 V\"");
-    CU_ASSERT_PTR_NOT_NULL_FATAL(at);
-    memcpy(at, "min-drive=\"7.5V\"", 16);
-    write_file(design, src);
-    free(src);
+    write_demo(design, "min-drive=\"10 V\"", "min-drive=\"7.5 V\"");
     run_result r = run((const char *[]){"pick", "--catalog", cat, "--xml", "-", design, NULL});
     xmlDoc *doc = xmlReadMemory(r.out, (int)strlen(r.out), "pick.xml", NULL, XML_PARSE_NONET);
     CU_ASSERT_PTR_NOT_NULL_FATAL(doc);
@@ -653,6 +671,7 @@ int main(void)
         {"corners: unsettled points are undetermined", test_corners_undetermined},
         {"yield: unsettled samples are undetermined", test_yield_undetermined},
         {"pick: rejections, no passing choice, a broken catalog", test_pick},
+        {"pick: a refused chain reported before the catalog", test_pick_chain_first},
         {"pick: a minimum margin", test_pick_min_margin},
         {"pick: no NaN, undetermined choices", test_pick_no_nan},
         {"bad input: status 2, one line", test_bad_input},
