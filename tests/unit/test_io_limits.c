@@ -34,10 +34,12 @@ static void put(doc *d, const char *s)
     d->len += n;
 }
 
+/* Processor time, not wall time: what the loader does is the work the
+ * bound is about, and a loaded machine stretches wall time many fold. */
 static double now_s(void)
 {
     struct timespec t;
-    clock_gettime(CLOCK_MONOTONIC, &t);
+    clock_gettime(CLOCK_PROCESS_CPUTIME_ID, &t);
     return (double)t.tv_sec + 1e-9 * (double)t.tv_nsec;
 }
 
@@ -108,10 +110,10 @@ static void test_huge_table_fast(void)
     double t0 = now_s();
     CU_ASSERT_EQUAL(br_design_load_memory(d.p, d.len, "huge.xml", &des, &err), BR_EINPUT);
     double took = now_s() - t0;
-    fprintf(stderr, " (%.2f s for %zu MiB) ", took, d.len >> 20);
+    fprintf(stderr, " (%.2f s CPU for %zu MiB) ", took, d.len >> 20);
     CU_ASSERT_PTR_NULL(des);
     CU_ASSERT_PTR_NOT_NULL(strstr(err.msg, "expected at most 32"));
-    CU_ASSERT_TRUE(took < 20.0); /* generous: sanitizer builds are slower */
+    CU_ASSERT_TRUE(took < 20.0); /* processor s; generous: sanitizer builds are slower */
     free(d.p);
 }
 
