@@ -102,6 +102,21 @@ static void qexp_finish(br_sim *s, double h, double ca, const double *x, const d
     }
 }
 
+/* dst takes src's live entries (s->live): the fast path's steps write
+ * and read no others, so the rest of the state stays in s->x as it was
+ * (a tenth of the entries on a start-up).  The reference path's GSL
+ * stepper advances every entry. */
+static void copy_live(const br_sim *s, double *dst, const double *src)
+{
+    if (s->integ == BR_INTEG_REFERENCE) {
+        memcpy(dst, src, sizeof(double) * (size_t)s->nx);
+        return;
+    }
+    const int nl = s->nlive, *L = s->live;
+    for (int j = 0; j < nl; j++)
+        dst[L[j]] = src[L[j]];
+}
+
 /* One Dormand-Prince step from (t, x) with derivative k1 at x; writes the
  * 5th-order solution to y and its error estimate to e (controlled states). */
 static void dp45_step(br_sim *s, double t, double h, const double *x, const double *k1, double *y,
@@ -111,8 +126,7 @@ static void dp45_step(br_sim *s, double t, double h, const double *x, const doub
     double *k2 = s->rk[0], *k3 = s->rk[1], *k4 = s->rk[2], *k5 = s->rk[3], *k6 = s->rk[4];
     double *w = s->rk[5];
     const int nl = s->nlive, *L = s->live;
-    memcpy(y, x, sizeof(double) * (size_t)s->nx); /* entries not advanced stay */
-    memcpy(w, x, sizeof(double) * (size_t)s->nx);
+    /* only the live entries of y and w are written, or read (copy_live) */
     for (int j = 0; j < nl; j++) {
         int i = L[j];
         w[i] = x[i] + h * A21 * k1[i];
@@ -163,8 +177,6 @@ static void bs23_step(br_sim *s, double t, double h, const double *x, const doub
     double ia[BR_N];
     double *k2 = s->rk[0], *k3 = s->rk[1], *w = s->rk[5];
     const int nl = s->nlive, *L = s->live;
-    memcpy(y, x, sizeof(double) * (size_t)s->nx);
-    memcpy(w, x, sizeof(double) * (size_t)s->nx);
     for (int j = 0; j < nl; j++) {
         int i = L[j];
         w[i] = x[i] + h * 0.5 * k1[i];
@@ -203,8 +215,6 @@ static void he21_step(br_sim *s, double t, double h, const double *x, const doub
 {
     const int nl = s->nlive, *L = s->live;
     double *w = s->rk[5];
-    memcpy(y, x, sizeof(double) * (size_t)s->nx);
-    memcpy(w, x, sizeof(double) * (size_t)s->nx);
     for (int j = 0; j < nl; j++) {
         int i = L[j];
         w[i] = x[i] + h * k1[i];
@@ -436,7 +446,6 @@ static void seed_dense(br_sim *s, trial_ctx *q, double h, const double *k7, brac
         r5[i] =
             h * (D1 * q->k1[i] + D3 * k3[i] + D4 * k4[i] + D5 * k5[i] + D6 * k6[i] + D7 * k7[i]);
     }
-    memcpy(s->rk[5], q->x, sizeof(double) * (size_t)s->nx); /* entries not advanced stay */
     dense_ctx d = {q->t, h, q->x, q->y, q->k1, k7, r5, s->rk[5], q->e};
     bracket on = *b;
     illinois(s, excess_by_dense, &d, &on, BR_DENSE_TOL * h);
@@ -531,7 +540,7 @@ double br_sim_integrate(br_sim *s, double tb, int *status)
         return tb;
     }
     if (s->k1_valid)
-        memcpy(k1, s->k1, sizeof(double) * (size_t)s->nx);
+        copy_live(s, k1, s->k1);
     else
         br_sim_rhs(s, t, s->x, k1);
     s->k1_valid = 0;
@@ -563,14 +572,14 @@ double br_sim_integrate(br_sim *s, double tb, int *status)
         }
         if (br_sim_uvlo_due(s, s->vr) >= 0) {
             double hc = locate_uvlo(s, t, h, s->x, k1, y, kend);
-            memcpy(s->x, y, sizeof(double) * (size_t)s->nx);
+            copy_live(s, s->x, y);
             br_sim_clamp_limit(s);
             t = last && hc >= h ? tb : t + hc;
             br_sim_track_extremes(s, t); /* and the observer's sample */
             *status = 1;
             break;
         }
-        memcpy(s->x, y, sizeof(double) * (size_t)s->nx);
+        copy_live(s, s->x, y);
         br_sim_clamp_limit(s);
         t = last ? tb : t + h; /* t + (tb - t) need not round to tb */
         s->nsteps++;
@@ -589,7 +598,7 @@ double br_sim_integrate(br_sim *s, double tb, int *status)
         if (s->pair == BR_PAIR_HE21 && t < tb) /* its kend is not at y */
             br_sim_rhs(s, t, s->x, k1);
         else
-            memcpy(k1, kend, sizeof(double) * (size_t)s->nx);
+            copy_live(s, k1, kend);
     }
     s->t = t;
     return t;
