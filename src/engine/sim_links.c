@@ -421,8 +421,12 @@ void br_sim_rhs(br_sim *s, double t, const double *x, double *dx)
     solve_links(s, t, x);
     if (release_clamps(s))
         solve_links(s, t, x);
-    /* the variational equation writes every entry of its own */
-    for (int i = 0, nz = s->var ? s->phi0 : s->nx; i < nz; i++)
+    /* the variational equation writes every entry of its own; the fast
+     * path's steps read only the live entries (sim_step.c, copy_live),
+     * and with no statistics or a start-up's this function writes every
+     * one of them: then the rest needs no zeros */
+    int all = s->integ == BR_INTEG_REFERENCE || (s->stats_on && s->stats_set != BR_STATS_STARTUP);
+    for (int i = 0, nz = !all ? 0 : s->var ? s->phi0 : s->nx; i < nz; i++)
         dx[i] = 0.0;
     for (int k = 1; k < n; k++) {
         const br_stage *st = &s->c->st[k];
