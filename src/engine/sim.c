@@ -777,7 +777,7 @@ int br_sim_uvlo_due(const br_sim *s, const double *vr)
         if (s->held[k])
             continue;
         const br_driver *d = &s->c->st[k].drv;
-        double v = br_sim_vdrv(s, k, vr[k]);
+        double v = br_sim_vdrv_at(s, k, vr[k]);
         if (s->en[k] ? v < d->uvlo_fall : v > d->uvlo_rise)
             return k;
     }
@@ -1123,7 +1123,7 @@ static void track_stats(br_sim *s, double t)
         s->st.link[k].ipeak = higher(s->st.link[k].ipeak, s->tr_fwd[k]);
     for (int k = 0; s->stats_set != BR_STATS_STARTUP && k < s->n; k++) {
         br_rail_stats *r = &s->st.rail[k];
-        double vd = br_sim_vdrv(s, k, s->vr[k]);
+        double vd = br_sim_vdrv_at(s, k, s->vr[k]);
         r->vmin = lower(r->vmin, s->vr[k]);
         r->vmax = higher(r->vmax, s->vr[k]);
         r->vdrv_min = lower(r->vdrv_min, vd);

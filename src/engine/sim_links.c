@@ -21,13 +21,7 @@ double br_sim_cap(const br_sim *s, int k, double v)
 
 double br_sim_vdrv(const br_sim *s, int k, double vr)
 {
-    const br_aux *a = &s->c->st[k].aux;
-    if (a->kind == BR_AUX_LDO) {
-        double v = vr - a->dropout;
-        v = v < a->vout ? v : a->vout;
-        return v > 0 ? v : 0;
-    }
-    return vr;
+    return br_sim_vdrv_at(s, k, vr);
 }
 
 /* Find the piece of rail k's DC-bias line (flat beyond its ends, as
@@ -346,7 +340,7 @@ static void quadratures(br_sim *s, double t, const double *x, double *dx)
 {
     const br_seg *g = &s->seg;
     for (int k = 0; k < s->n; k++) {
-        double vd = br_sim_vdrv(s, k, s->vr[k]);
+        double vd = br_sim_vdrv_at(s, k, s->vr[k]);
         dx[XI(k, F_RV)] = s->vr[k];
         dx[XI(k, F_RQL)] = g->iload[k] + s->iz[k];
         dx[XI(k, F_RP)] = g->iload[k] * s->vr[k];
