@@ -44,8 +44,10 @@ typedef struct br_diode_warm {
     double w;     /* Lambert W value of the last call */
     double u;     /* its argument's logarithm (w + ln w = u) */
     double slope; /* dw/du there, w / (1 + w) */
-    double y, s;  /* y = w - c and s = v/(n Vt) of the last Halley solve */
-    int have_y;   /* y and s are set (at this resistance) */
+    double lw;    /* ln w there, when have_lw */
+    int have_lw;
+    double y, s; /* y = w - c and s = v/(n Vt) of the last Halley solve */
+    int have_y;  /* y and s are set (at this resistance) */
 } br_diode_warm;
 
 /* br_diode_eval for a hot loop that calls it on one link again and again

@@ -68,14 +68,27 @@ void br_sim_set_variational(br_sim *s, int on)
     br_sim_live_rebuild(s);
 }
 
-/* Quadratures are only read as differences from br_sim_stats_start on, so
- * they need advancing only while statistics are kept. */
+/* Is entry f of stage k advanced by the Runge-Kutta steps?  Quadratures
+ * are only read as differences from br_sim_stats_start on, so they need
+ * advancing only while statistics are kept.  A state whose derivative is
+ * always zero stays as it is without: the supply's capacitor voltage
+ * without a bypass capacitor, and the stored charge of a link without
+ * any (and of link 0, which does not exist). */
+static int live_entry(const br_sim *s, int k, int f)
+{
+    if (f == F_VC)
+        return k > 0 || br_sim_bypass(s);
+    if (f == F_Q)
+        return k > 0 && s->c->st[k].diode.tau > 0;
+    return s->stats_on && br_sim_quad_kept(s, k, f);
+}
+
 void br_sim_live_rebuild(br_sim *s)
 {
     s->nlive = 0;
     for (int k = 0; k < s->n; k++)
         for (int f = 0; f < NF; f++)
-            if (f <= F_Q || (s->stats_on && br_sim_quad_kept(s, k, f)))
+            if (live_entry(s, k, f))
                 s->live[s->nlive++] = XI(k, f);
     for (int i = s->phi0; i < s->nx; i++)
         s->live[s->nlive++] = i;
@@ -764,7 +777,7 @@ int br_sim_uvlo_due(const br_sim *s, const double *vr)
         if (s->held[k])
             continue;
         const br_driver *d = &s->c->st[k].drv;
-        double v = br_sim_vdrv(s, k, vr[k]);
+        double v = br_sim_vdrv_at(s, k, vr[k]);
         if (s->en[k] ? v < d->uvlo_fall : v > d->uvlo_rise)
             return k;
     }
@@ -1110,7 +1123,7 @@ static void track_stats(br_sim *s, double t)
         s->st.link[k].ipeak = higher(s->st.link[k].ipeak, s->tr_fwd[k]);
     for (int k = 0; s->stats_set != BR_STATS_STARTUP && k < s->n; k++) {
         br_rail_stats *r = &s->st.rail[k];
-        double vd = br_sim_vdrv(s, k, s->vr[k]);
+        double vd = br_sim_vdrv_at(s, k, s->vr[k]);
         r->vmin = lower(r->vmin, s->vr[k]);
         r->vmax = higher(r->vmax, s->vr[k]);
         r->vdrv_min = lower(r->vdrv_min, vd);

@@ -345,7 +345,8 @@ int br_sim_charge(br_sim *s, unsigned long units, br_error *err);
 
 /* How a UVLO crossing inside a step is located, to the same bracket
  * (1e-9 of the step): by bisection (0, the default) or by regula falsi
- * (1: a fifth of the trial steps; every start-up, by either method). */
+ * (1: every start-up, by either method), which in a Dormand-Prince step
+ * starts on the step's dense output (a seventh of bisection's trial steps). */
 void br_sim_set_locator(br_sim *s, int secant);
 
 /* The longest lifetime of a link diode's stored charge, s (0: none). */

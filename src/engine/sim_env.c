@@ -447,7 +447,7 @@ double br_sim_uvlo_excess(const br_sim *s, const double *vr)
         if (s->held[k])
             continue;
         const br_driver *d = &s->c->st[k].drv;
-        double v = br_sim_vdrv(s, k, vr[k]);
+        double v = br_sim_vdrv_at(s, k, vr[k]);
         double ex = s->en[k] ? d->uvlo_fall - v : v - d->uvlo_rise;
         worst = ex > worst ? ex : worst;
     }

@@ -308,6 +308,18 @@ void br_sim_rhs(br_sim *s, double t, const double *x, double *dx);
 /* Driver supply of stage k for a rail voltage vr (after an LDO). */
 double br_sim_vdrv(const br_sim *s, int k, double vr);
 
+/* The same, inlined for the UVLO checks of every step. */
+static inline double br_sim_vdrv_at(const br_sim *s, int k, double vr)
+{
+    const br_aux *a = &s->c->st[k].aux;
+    if (a->kind == BR_AUX_LDO) {
+        double v = vr - a->dropout;
+        v = v < a->vout ? v : a->vout;
+        return v > 0 ? v : 0;
+    }
+    return vr;
+}
+
 /* An ideal clamp (rz = 0) is a hard limit: a capacitor that a step or an
  * instantaneous charge took past the knee gives the excess to the clamp
  * and sits at the knee (a projection onto the limit, so the rail lands on

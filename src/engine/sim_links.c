@@ -21,13 +21,7 @@ double br_sim_cap(const br_sim *s, int k, double v)
 
 double br_sim_vdrv(const br_sim *s, int k, double vr)
 {
-    const br_aux *a = &s->c->st[k].aux;
-    if (a->kind == BR_AUX_LDO) {
-        double v = vr - a->dropout;
-        v = v < a->vout ? v : a->vout;
-        return v > 0 ? v : 0;
-    }
-    return vr;
+    return br_sim_vdrv_at(s, k, vr);
 }
 
 /* Find the piece of rail k's DC-bias line (flat beyond its ends, as
@@ -346,7 +340,7 @@ static void quadratures(br_sim *s, double t, const double *x, double *dx)
 {
     const br_seg *g = &s->seg;
     for (int k = 0; k < s->n; k++) {
-        double vd = br_sim_vdrv(s, k, s->vr[k]);
+        double vd = br_sim_vdrv_at(s, k, s->vr[k]);
         dx[XI(k, F_RV)] = s->vr[k];
         dx[XI(k, F_RQL)] = g->iload[k] + s->iz[k];
         dx[XI(k, F_RP)] = g->iload[k] * s->vr[k];
@@ -421,8 +415,12 @@ void br_sim_rhs(br_sim *s, double t, const double *x, double *dx)
     solve_links(s, t, x);
     if (release_clamps(s))
         solve_links(s, t, x);
-    /* the variational equation writes every entry of its own */
-    for (int i = 0, nz = s->var ? s->phi0 : s->nx; i < nz; i++)
+    /* the variational equation writes every entry of its own; the fast
+     * path's steps read only the live entries (sim_step.c, copy_live),
+     * and with no statistics or a start-up's this function writes every
+     * one of them: then the rest needs no zeros */
+    int all = s->integ == BR_INTEG_REFERENCE || (s->stats_on && s->stats_set != BR_STATS_STARTUP);
+    for (int i = 0, nz = !all ? 0 : s->var ? s->phi0 : s->nx; i < nz; i++)
         dx[i] = 0.0;
     for (int k = 1; k < n; k++) {
         const br_stage *st = &s->c->st[k];
