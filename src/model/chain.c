@@ -89,6 +89,9 @@ static int resolve_parts(const br_design *d, const br_chain *c, int k, br_stage 
         st->vinj = j->v.nom;
         st->tinj = j->start;
         st->r_link = j->r.nom;
+        st->inj_lim =
+            (br_climit){j->limit_mode,       j->v.nom,          j->ilimit.nom,    j->ifold.nom,
+                        j->hiccup_delay.nom, j->hiccup_off.nom, j->hiccup_retries};
         return br_diode_at(&d->diodes[j->diode], c->tamb, &st->diode, err);
     }
     st->r_link = sp->r_link.nom;

@@ -8,9 +8,15 @@
 
 const char *br_supply_limit_words(const br_chain *c, char *buf, size_t cap)
 {
+    br_climit l = br_chain_supply_limit(c);
+    return br_limit_words(&l, buf, cap);
+}
+
+const char *br_limit_words(const br_climit *c, char *buf, size_t cap)
+{
     char a[32], b[32], t[32];
     br_fmt_si(a, sizeof a, c->ilimit, 4, "A");
-    switch (c->limit_mode) {
+    switch (c->mode) {
     case BR_SUPPLY_CONSTANT:
         snprintf(buf, cap, "%s, constant current", a);
         break;
