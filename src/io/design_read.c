@@ -409,6 +409,19 @@ static int read_stages(br_rd *r, xmlNode *n)
 
 /* ---- injections ------------------------------------------------------------------ */
 
+int br_rd_supply_output(br_rd *r, xmlNode *n, br_inject_spec *j)
+{
+    j->v = br_qty_fixed(0.0);
+    j->r = br_qty_fixed(0.0);
+    BR_TRY(br_rd_qty(r, n, "voltage", BR_KIND_VOLTAGE, &br_range_pos, &j->v, NULL));
+    BR_TRY(br_rd_qty(r, n, "resistance", BR_KIND_RESISTANCE, &br_range_nonneg, &j->r, NULL));
+    j->ilimit = j->ifold = j->hiccup_delay = j->hiccup_off = br_qty_fixed(0.0);
+    j->hiccup_retries = -1;
+    const limit_ref l = {&j->limit_mode, &j->ilimit,         &j->ifold, &j->hiccup_delay,
+                         &j->hiccup_off, &j->hiccup_retries, 0};
+    return read_limit(r, n, &l);
+}
+
 /* One isolated supply feeding a rail: read once the stages are known, so
  * that its rail and diode can be checked against them. */
 static int read_injection(br_rd *r, xmlNode *n, br_inject_spec *j)
@@ -430,17 +443,9 @@ static int read_injection(br_rd *r, xmlNode *n, br_inject_spec *j)
         return br_rd_fail(r, n, "rail",
                           "rail %d already has an injection (line %d), expected one per rail",
                           j->rail, dup->line);
-    j->v = br_qty_fixed(0.0);
-    j->r = br_qty_fixed(0.0);
-    BR_TRY(br_rd_qty(r, n, "voltage", BR_KIND_VOLTAGE, &br_range_pos, &j->v, NULL));
-    BR_TRY(br_rd_qty(r, n, "resistance", BR_KIND_RESISTANCE, &br_range_nonneg, &j->r, NULL));
+    BR_TRY(br_rd_supply_output(r, n, j));
     j->start = 0.0;
     BR_TRY(br_rd_value(r, n, "start", BR_KIND_TIME, &br_range_nonneg, &j->start, NULL));
-    j->ilimit = j->ifold = j->hiccup_delay = j->hiccup_off = br_qty_fixed(0.0);
-    j->hiccup_retries = -1;
-    const limit_ref l = {&j->limit_mode, &j->ilimit,         &j->ifold, &j->hiccup_delay,
-                         &j->hiccup_off, &j->hiccup_retries, 0};
-    BR_TRY(read_limit(r, n, &l));
     j->diode = br_design_stage(d, j->rail)->diode; /* the rail's link diode, unless named */
     return resolve(r, n, "diode", PK_DIODE, &j->diode);
 }
