@@ -147,6 +147,8 @@ typedef struct br_explore_row {
     double inject_need; /* the current a module must carry, A (NAN: no modules) */
     double module_cost; /* the chosen module's cost (0: none) */
     double split_cost;  /* cost + module_cost */
+    int module_passed;  /* cheaper modules that suit passed over: their split designs were
+                           not feasible */
     int corners;        /* judged at the worst corners */
     int front;          /* on the Pareto front of the feasible rows */
     int rank;           /* 1.. among the feasible rows (0: not feasible) */

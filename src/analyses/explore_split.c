@@ -190,6 +190,7 @@ static void keep(br_explore_row *r, const br_explore_row *t, int j, const br_exp
     r->modules = t->modules;
     r->module = t->module;
     r->inject_need = t->inject_need;
+    r->module_passed = 0;
     r->module_cost = t->module >= 0 ? cat->module_offer[t->module].cost : 0.0;
     r->split_cost = r->cost + r->module_cost;
     r->inject_rail = j;
@@ -218,8 +219,10 @@ static int dearer_modules(const br_design *d, const br_explore_opts *o, double t
         br_explore_row t = *r;
         t.module = m;
         TRY(judge_split(d, o, target, r->inject_rail, &t, err));
-        if (t.state == BR_EX_FEASIBLE)
+        if (t.state == BR_EX_FEASIBLE) {
             keep(r, &t, r->inject_rail, o);
+            r->module_passed = n + 1;
+        }
     }
     return BR_OK;
 }

@@ -236,9 +236,10 @@ static int limit_near(const br_sim *s, double dv, double guard)
 }
 
 /* Could a current-limited injection reach its limit with its rail's
- * lowest voltage over the window moved by dv?  Its current is at most
- * (Vinj - v) / (R + Rs) (the diode drops something wherever it conducts
- * forward), so that bound under the limit at v keeps it off the limit. */
+ * lowest voltage over the window moved by dv?  What its diode and
+ * resistance would pass falls as the rail rises and its limit stays or
+ * rises (fold-back), so it binds below one rail voltage and not above:
+ * the window's lowest voltage less the guard decides. */
 static int inj_limit_near(const br_sim *s, const double *dv, const double *guard)
 {
     const br_sim_win *w = &s->win;
@@ -246,10 +247,11 @@ static int inj_limit_near(const br_sim *s, const double *dv, const double *guard
         if (!br_sim_inj_limited(s, k))
             continue;
         const br_stage *st = &s->c->st[k];
-        double r = st->r_link + st->diode.rs, v = w->vmin[k] + dv[k] - guard[k];
-        if (!(w->vmin[k] <= w->vmax[k]) || !(r > 0))
-            return 1; /* nothing seen, or nothing bounds the current */
-        if (!((st->vinj - v) / r < br_sim_inj_limit(s, k, v)))
+        double v = w->vmin[k] + dv[k] - guard[k];
+        if (!(w->vmin[k] <= w->vmax[k]))
+            return 1;                           /* nothing seen: nothing known */
+        double vinj = br_sim_inj_v(s, k, s->t); /* its start is a break of the schedule */
+        if (!(br_diode_current(&st->diode, st->r_link, vinj - v) < br_sim_inj_limit(s, k, v)))
             return 1;
     }
     return 0;

@@ -67,9 +67,6 @@ typedef struct counts {
     xmlNode *sw_node[BR_MAX_PARTS];
 } counts;
 
-/* The rated output current of a module. */
-static const br_range r_rating = {0.0, 1e6, 1, 0, "a current above 0 A"};
-
 /* An isolated supply module: its id (one word, unique among the
  * modules; the parts are checked once all are read), its output as an
  * injection's, its rating and offer. */
@@ -95,10 +92,8 @@ static int read_module(br_rd *r, xmlNode *n, br_catalog *cat)
     m->rail = -1;
     m->diode = -1;
     m->line = br_rd_line(r, n);
-    BR_TRY(br_rd_supply_output(r, n, m));
-    double rating = 0.0;
-    BR_TRY(br_rd_value(r, n, "rating", BR_KIND_CURRENT, &r_rating, &rating, NULL));
-    cat->module_rating[i] = rating;
+    BR_TRY(br_rd_supply_output(r, n, m)); /* its rating too: required by the schema */
+    cat->module_rating[i] = m->irating.nom;
     BR_TRY(read_offer(r, n, &cat->module_offer[i]));
     cat->nmodules++;
     return BR_OK;

@@ -415,6 +415,8 @@ int br_rd_supply_output(br_rd *r, xmlNode *n, br_inject_spec *j)
     j->r = br_qty_fixed(0.0);
     BR_TRY(br_rd_qty(r, n, "voltage", BR_KIND_VOLTAGE, &br_range_pos, &j->v, NULL));
     BR_TRY(br_rd_qty(r, n, "resistance", BR_KIND_RESISTANCE, &br_range_nonneg, &j->r, NULL));
+    j->irating = br_qty_fixed(0.0);
+    BR_TRY(br_rd_qty(r, n, "rating", BR_KIND_CURRENT, &br_range_pos, &j->irating, NULL));
     j->ilimit = j->ifold = j->hiccup_delay = j->hiccup_off = br_qty_fixed(0.0);
     j->hiccup_retries = -1;
     const limit_ref l = {&j->limit_mode, &j->ilimit,         &j->ifold, &j->hiccup_delay,

@@ -276,6 +276,7 @@ static void injections(wr *w, const br_design *d)
         value(w, "start", j->start, &U_S);
         limit(w, j->limit_mode, &j->ilimit, &j->ifold, &j->hiccup_delay, &j->hiccup_off,
               j->hiccup_retries);
+        qty_given(w, "rating", &j->irating, &U_A);
         put(w, "/>\n");
     }
     put(w, "  </injections>\n");

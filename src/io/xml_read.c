@@ -351,7 +351,7 @@ static const rule rules[] = {
     {"bootrung-design", "injections", "", "!injection", 0},
     {"injections", "injection",
      "!rail !voltage resistance diode start current-limit limit-mode=constant|foldback|hiccup "
-     "foldback-current hiccup-delay hiccup-off hiccup-retries",
+     "foldback-current hiccup-delay hiccup-off hiccup-retries rating",
      "", 0},
     {"bootrung-design", "topology", "", "!fcml|string", 1},
     {"topology", "fcml", "!levels cfly", "", 0},

@@ -92,6 +92,7 @@ static int resolve_parts(const br_design *d, const br_chain *c, int k, br_stage 
         st->inj_lim =
             (br_climit){j->limit_mode,       j->v.nom,          j->ilimit.nom,    j->ifold.nom,
                         j->hiccup_delay.nom, j->hiccup_off.nom, j->hiccup_retries};
+        st->inj_rating = j->irating.nom;
         return br_diode_at(&d->diodes[j->diode], c->tamb, &st->diode, err);
     }
     st->r_link = sp->r_link.nom;

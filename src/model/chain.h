@@ -109,6 +109,7 @@ typedef struct br_stage {
     double vinj;                      /* its open-circuit voltage, V */
     double tinj;                      /* it steps on at this time from power-up, s */
     br_climit inj_lim;                /* its current limit (mode 0: none) */
+    double inj_rating;                /* its rated output current, A (0: not given) */
     int carry[2];                     /* per direction: how the switch carries the
                                          load current while on, +1 forward (drops
                                          +I Rds(on)), -1 reverse (-I Rds(on)), 0 not

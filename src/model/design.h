@@ -214,6 +214,7 @@ typedef struct br_inject_spec {
     br_qty hiccup_delay; /* hiccup: time in the limit before it shuts down, s */
     br_qty hiccup_off;   /* hiccup: time off before a retry, s */
     int hiccup_retries;  /* hiccup: retries before it stays off (-1: no end) */
+    br_qty irating;      /* rated output current, A (0: not given) */
 } br_inject_spec;
 
 typedef enum br_topology { BR_TOPO_FCML = 0, BR_TOPO_STRING = 1 } br_topology;

@@ -301,6 +301,8 @@ static int add_injections(const br_design *d, br_tol_list *l, br_error *err)
         TRY(add(d, l, base + offsetof(br_inject_spec, v), BR_KIND_VOLTAGE, name, err));
         snprintf(name, sizeof name, "injection rail %d: resistance", d->inject[i].rail);
         TRY(add(d, l, base + offsetof(br_inject_spec, r), BR_KIND_RESISTANCE, name, err));
+        snprintf(name, sizeof name, "injection rail %d: rating", d->inject[i].rail);
+        TRY(add(d, l, base + offsetof(br_inject_spec, irating), BR_KIND_CURRENT, name, err));
         if (d->inject[i].limit_mode == BR_SUPPLY_UNLIMITED)
             continue;
         snprintf(name, sizeof name, "injection rail %d: current-limit", d->inject[i].rail);

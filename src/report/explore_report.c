@@ -43,7 +43,14 @@ static void split_verdict(const br_explore_row *r, char *buf, size_t cap)
 static void module_words(const br_explore *x, const br_explore_row *r, char *buf, size_t cap)
 {
     char a[32];
-    if (r->module >= 0 && x->modules)
+    if (r->module >= 0 && x->modules && r->module_passed > 0)
+        snprintf(buf, cap,
+                 "cost %.4g: parts %.4g + isolated supply %s %.4g (the cheapest of the catalog "
+                 "holding the supply's voltage and rated for %s with which the split design is "
+                 "feasible; %d cheaper that suit, it is not)",
+                 r->split_cost, r->cost, x->modules->module_id[r->module], r->module_cost,
+                 br_fmt_si(a, sizeof a, r->inject_need, 3, "A"), r->module_passed);
+    else if (r->module >= 0 && x->modules)
         snprintf(buf, cap,
                  "cost %.4g: parts %.4g + isolated supply %s %.4g (the cheapest of the catalog "
                  "holding the supply's voltage and rated for %s)",

@@ -112,10 +112,8 @@ static int operating_point(br_text *out, const br_chain *c)
         const br_stage *st = &c->st[k];
         if (!st->inject)
             continue;
-        char lim[160] = "", w[128];
-        if (st->inj_lim.mode != BR_SUPPLY_UNLIMITED)
-            snprintf(lim, sizeof lim, ", current limit %s",
-                     br_limit_words(&st->inj_lim, w, sizeof w));
+        char lim[200];
+        br_inject_limit_words(st, lim, sizeof lim);
         snprintf(line, sizeof line,
                  "Injection into rail %d (%s): an isolated supply of %s through %s and diode %s, "
                  "on from %s%s; no link from rail %d",

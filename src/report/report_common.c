@@ -48,15 +48,11 @@ static int injection_lines(const br_chain *c, br_text *out)
     int rc = 0;
     for (int k = 1; k < c->n; k++) {
         const br_stage *st = &c->st[k];
-        char v[24], r[24], t[24], lead[64], text[360], lim[160] = "";
+        char v[24], r[24], t[24], lead[64], text[400], lim[200];
         if (!st->inject)
             continue;
         snprintf(lead, sizeof lead, "  injection into rail %d (%s): ", k, st->name);
-        if (st->inj_lim.mode != BR_SUPPLY_UNLIMITED) {
-            char w[128];
-            snprintf(lim, sizeof lim, ", current limit %s",
-                     br_limit_words(&st->inj_lim, w, sizeof w));
-        }
+        br_inject_limit_words(st, lim, sizeof lim);
         snprintf(text, sizeof text,
                  "isolated supply %s through %s and diode %s, on from %s%s; no link from rail %d",
                  br_fmt_si(v, sizeof v, st->vinj, 4, "V"),

@@ -39,6 +39,19 @@ const char *br_limit_words(const br_climit *c, char *buf, size_t cap)
     return buf;
 }
 
+const char *br_inject_limit_words(const br_stage *st, char *buf, size_t cap)
+{
+    char w[128], a[32];
+    int n = 0;
+    buf[0] = '\0';
+    if (st->inj_lim.mode != BR_SUPPLY_UNLIMITED)
+        n = snprintf(buf, cap, ", current limit %s", br_limit_words(&st->inj_lim, w, sizeof w));
+    if (st->inj_rating > 0 && n >= 0 && (size_t)n < cap)
+        snprintf(buf + n, cap - (size_t)n, ", rated %s",
+                 br_fmt_si(a, sizeof a, st->inj_rating, 4, "A"));
+    return buf;
+}
+
 /* The hiccups, when there were any. */
 static int trips_text(const br_startup *su, br_text *out)
 {

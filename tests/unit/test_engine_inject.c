@@ -173,6 +173,34 @@ static void test_injection_starts_late(void)
     br_design_free(d);
 }
 
+/* An injection's rating is judged as the supply's: its mean current in
+ * steady state, 9 mA by the charge balance of test_injected_rail_by_hand
+ * (rails 3 to 5 at 3 mA each), against it, in the supply row, bound at
+ * the rail it feeds.  Rated 5 mA it fails by about 4 mA; rated 20 mA it
+ * passes by about 11 mA; without a rating (and a supply without one) the
+ * row does not apply. */
+static void test_injection_rating(void)
+{
+    static const double rating[3] = {5e-3, 20e-3, 0.0};
+    for (int i = 0; i < 3; i++) {
+        solved s;
+        br_design *d = leg(4, 3, 15.0, 10.0);
+        d->inject[0].irating = br_qty_fixed(rating[i]);
+        CU_ASSERT_EQUAL_FATAL(solve(&s, d), 0);
+        br_verdict v;
+        br_verdict_make(s.c, NULL, &s.f, 1, &v);
+        const br_verdict_row *r = &v.row[BR_CRIT_SUPPLY];
+        CU_ASSERT_EQUAL(r->applies, rating[i] > 0);
+        if (rating[i] > 0) {
+            CU_ASSERT_EQUAL(r->stage, 3);
+            BR_ASSERT_REL(r->figure, 9e-3, 2e-3);
+            BR_ASSERT_NEAR(r->margin, rating[i] - r->figure, 1e-12);
+            CU_ASSERT_EQUAL(r->pass, rating[i] > 9e-3);
+        }
+        done(&s);
+    }
+}
+
 /* A 3-level leg (4 switches) on 1 uF rails with a 12 V injection through
  * 1 ohm into its top rail, 3, behind a current limit of `mode` at 10 mA
  * (fold-back: 2 mA at 0 V). */
@@ -283,6 +311,42 @@ static void test_limited_startup(void)
     br_design_free(d);
 }
 
+/* Envelope following behind a limited injection: a 4-level leg on
+ * 100 uF rails whose injection into rail 3 (feeding rails 3 to 5), limited
+ * to 50 mA, starts at 10 ms: the lower part starts and settles first, and
+ * the envelope steps over its quiet periods until the injection starts
+ * (off, the injection cannot be near its limit), then over none while it
+ * charges its rails at the limit; its start-up time is that of
+ * integrating every period (to 1 %). */
+static void test_limited_envelope(void)
+{
+    double t[2];
+    long stepped[2];
+    for (int m = 0; m < 2; m++) {
+        br_design *d = leg(4, 3, 15.0, 10.0);
+        br_inject_spec *j = &d->inject[0];
+        j->limit_mode = BR_SUPPLY_CONSTANT;
+        j->ilimit = br_qty_fixed(50e-3);
+        j->start = 10e-3;
+        br_chain *c = NULL;
+        br_error err;
+        br_startup su;
+        br_startup_opts so = {0};
+        CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+        c->startup_method = m ? BR_SU_PERIODS : BR_SU_ENVELOPE;
+        c->startup_max = 0.5;
+        CU_ASSERT_EQUAL_FATAL(br_startup_run(c, &so, &su, &err), BR_OK);
+        CU_ASSERT_TRUE(su.complete);
+        t[m] = su.t_total;
+        stepped[m] = su.periods_stepped;
+        br_chain_free(c);
+        br_design_free(d);
+    }
+    CU_ASSERT_TRUE(stepped[0] > 0);
+    CU_ASSERT_EQUAL(stepped[1], 0);
+    BR_ASSERT_REL(t[0], t[1], 1e-2);
+}
+
 /* A design built by hand (or a template on a shorter leg) with an
  * injection beyond its floating rails is refused, not silently ignored. */
 static void test_injection_beyond_leg(void)
@@ -309,6 +373,8 @@ int main(void)
         {"fold-back limit", test_foldback_limit},
         {"hiccup limit without retries stays off", test_hiccup_limit_stays_off},
         {"start-up behind a limited injection", test_limited_startup},
+        {"an injection's rating judged as the supply's", test_injection_rating},
+        {"envelope following behind a limited injection", test_limited_envelope},
         {NULL, NULL}};
     return br_test_main("engine_inject", cases);
 }

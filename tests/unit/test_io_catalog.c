@@ -162,7 +162,7 @@ static void test_module_refusals(void)
                 3, "isolated-supply m1: voltage", "without a unit");
     expect_fail("<isolated-supply id=\"m1\" voltage=\"15 V\" rating=\"0 A\" cost=\"1\" "
                 "area-mm2=\"2\"/>\n",
-                3, "isolated-supply m1: rating", "above 0 A");
+                3, "isolated-supply m1: rating", "got '0 A', expected a value > 0");
     expect_fail("<isolated-supply id=\"m1\" voltage=\"15 V\" cost=\"1\" area-mm2=\"2\"/>\n", 3,
                 NULL, "catalog schema");
     expect_fail("<isolated-supply id=\"m1\" voltage=\"15 V\" rating=\"50 mA\" "

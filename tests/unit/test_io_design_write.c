@@ -147,6 +147,7 @@ static void test_injection_limit_read(void)
     BR_ASSERT_NEAR(j->hiccup_delay.nom, 1e-3, 1e-15);
     BR_ASSERT_NEAR(j->hiccup_off.nom, 10e-3, 1e-15);
     CU_ASSERT_EQUAL(j->hiccup_retries, 5);
+    BR_ASSERT_NEAR(j->irating.nom, 0.08, 1e-12);
     CU_ASSERT_EQUAL(a->limit_mode, BR_SUPPLY_CONSTANT); /* the supply's own, apart */
     br_tol_list *l = malloc(sizeof *l);
     br_error err;
@@ -162,6 +163,7 @@ static void test_injection_limit_read(void)
     BR_ASSERT_NEAR(c->st[4].inj_lim.ilimit, 0.1, 1e-12);
     BR_ASSERT_NEAR(c->st[4].inj_lim.vset, 15.0, 1e-12);
     CU_ASSERT_EQUAL(c->st[4].inj_lim.hiccup_retries, 5);
+    BR_ASSERT_NEAR(c->st[4].inj_rating, 0.08, 1e-12);
     CU_ASSERT_EQUAL(c->st[3].inj_lim.mode, BR_SUPPLY_UNLIMITED);
     free(c);
     br_design_free(a);
