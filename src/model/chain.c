@@ -89,9 +89,16 @@ static int resolve_parts(const br_design *d, const br_chain *c, int k, br_stage 
         st->vinj = j->v.nom;
         st->tinj = j->start;
         st->r_link = j->r.nom;
-        st->inj_lim =
-            (br_climit){j->limit_mode,       j->v.nom,          j->ilimit.nom,    j->ifold.nom,
-                        j->hiccup_delay.nom, j->hiccup_off.nom, j->hiccup_retries};
+        /* field by field: the stage's padding stays as the chain's
+         * allocation left it (chains are compared byte for byte) */
+        br_climit *l = &st->inj_lim;
+        l->mode = j->limit_mode;
+        l->vset = j->v.nom;
+        l->ilimit = j->ilimit.nom;
+        l->ifold = j->ifold.nom;
+        l->hiccup_delay = j->hiccup_delay.nom;
+        l->hiccup_off = j->hiccup_off.nom;
+        l->hiccup_retries = j->hiccup_retries;
         st->inj_rating = j->irating.nom;
         return br_diode_at(&d->diodes[j->diode], c->tamb, &st->diode, err);
     }
