@@ -489,6 +489,8 @@ static void apply_rule(const br_design *t, const br_explore_opts *o, br_explore_
     r->state = BR_EX_FEASIBLE;
     r->margin = r->loss = r->tstart = NAN;
     r->crit = r->stage = -1;
+    r->module = -1; /* no second supply chosen (explore_split.c) */
+    r->inject_need = r->split_cost = NAN;
     r->sw_ok = o->cat->switch_rating[r->sw] >= r->need;
     if (!r->sw_ok || r->diode == -1)
         r->state = BR_EX_RATING;
@@ -646,6 +648,7 @@ int br_explore_run(const br_design *t, const br_explore_opts *o, br_explore **ou
     x->derating = derating_of(t, o);
     x->corners = o->corners;
     x->parts = o->parts;
+    x->modules = br_explore_module_catalog(o);
     x->yield_samples = o->yield_samples;
     x->seed = o->seed;
     lay_out(t, o, x);

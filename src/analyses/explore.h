@@ -148,10 +148,19 @@ typedef struct br_explore_row {
     int split_crit, split_stage;
     int split_tries;   /* split designs judged in the search */
     int split_corners; /* the split design was judged at its worst corners */
-    int corners;       /* judged at the worst corners */
-    int front;         /* on the Pareto front of the feasible rows */
-    int rank;          /* 1.. among the feasible rows (0: not feasible) */
-    char note[160];    /* BR_EX_REFUSED: the model's message */
+    /* BR_EX_SPLIT judged: its second supply (explore_split.c) */
+    int modules;        /* isolated supply modules the catalogs list (0: none: the split
+                           cost excludes the second supply) */
+    int module;         /* the module chosen (br_explore_module_catalog's), -1: none */
+    double inject_need; /* the current a module must carry, A (NAN: no modules) */
+    double module_cost; /* the chosen module's cost (0: none) */
+    double split_cost;  /* cost + module_cost */
+    int module_passed;  /* cheaper modules that suit passed over: their split designs were
+                           not feasible */
+    int corners;        /* judged at the worst corners */
+    int front;          /* on the Pareto front of the feasible rows */
+    int rank;           /* 1.. among the feasible rows (0: not feasible) */
+    char note[160];     /* BR_EX_REFUSED: the model's message */
     /* sizing (opts.parts) */
     int sized;                           /* the rail capacitors were sized */
     signed char cap[BR_MAX_SWITCHES];    /* parts-catalog capacitor of rail k (-1: the
@@ -172,9 +181,11 @@ typedef struct br_explore {
     int n;                /* combinations */
     br_explore_row *rows; /* n, in the order judged */
     int nfeasible, nfront;
-    const br_catalog *parts; /* opts.parts: the catalog the sizing took parts from (not
-                                owned; NULL: no sizing) */
-    long yield_samples;      /* opts.yield_samples (0: no yield) */
+    const br_catalog *parts;   /* opts.parts: the catalog the sizing took parts from (not
+                                  owned; NULL: no sizing) */
+    const br_catalog *modules; /* br_explore_module_catalog: the split's second supplies
+                                  (not owned; NULL: none listed) */
+    long yield_samples;        /* opts.yield_samples (0: no yield) */
     unsigned long seed;
 } br_explore;
 
@@ -205,10 +216,31 @@ int br_explore_corners(const br_design *d, const br_explore_opts *o, double targ
                        br_explore_row *r, br_error *err);
 
 /* The split design of d: d with an injection into rail `rail` (1 ..
- * switches-1) of the supply's voltage (its tolerance too), through the
- * stage's link resistor and its link diode, on from power-up
+ * switches-1) of the supply's voltage (its tolerance too), or module's
+ * output and limit (NULL: none), through the stage's link resistor (and
+ * the module's output resistance) and its link diode, on from power-up
  * (explore_split.c).  BR_EINPUT when the rail is out of range. */
-int br_explore_split_design(const br_design *d, int rail, br_design **out, br_error *err);
+int br_explore_split_design(const br_design *d, int rail, const br_inject_spec *module,
+                            br_design **out, br_error *err);
+
+/* What a module must carry over the rails' running draw it feeds: ours,
+ * a quarter more for the leakage, recovery charge and tolerances the
+ * estimate leaves out. */
+#define BR_MODULE_MARGIN 1.25
+
+/* The catalog whose isolated supply modules a split takes: the parts
+ * catalog's when it lists any, else the switch catalog's, else NULL. */
+const br_catalog *br_explore_module_catalog(const br_explore_opts *o);
+
+/* Dearer modules tried when the cheapest that suits does not make the
+ * split design feasible. */
+#define BR_MODULE_TRIES 2
+
+/* The cheapest module of cat whose voltage tolerance holds vsupply (V)
+ * and whose rated current and lowest current limit are at least need
+ * (A), after module `past` in the order of cost, then of the catalog
+ * (-1: from the cheapest); -1 when none does. */
+int br_explore_module_choose(const br_catalog *cat, double vsupply, double need, int past);
 
 /* Row r failed as BR_EX_SPLIT with design d: search the injection rail
  * and judge the split design (explore_split.c), with opts.corners at its

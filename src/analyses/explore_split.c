@@ -16,9 +16,22 @@
  * falls), at most BR_SPLIT_TRIES designs.  The best one is kept, and
  * with opts.corners judged at its worst corners as a survivor is when
  * every criterion passes at its nominal point: a split design is
- * reported holding only where it holds there too. */
+ * reported holding only where it holds there too.
+ *
+ * With isolated supply modules in a catalog (br_explore_module_catalog),
+ * the module is the cheapest that suits the rail: its voltage's tolerance
+ * holds the main supply's nominal voltage, and its rated current and its
+ * current limit (the lowest its tolerance allows) are at least
+ * BR_MODULE_MARGIN times what the rails it feeds draw running
+ * (br_link_current: drivers' running and isolator currents, gate charge
+ * times the frequency, regulators' quiescent currents, up to the top).
+ * The split design then takes the module's voltage, tolerance and limit,
+ * its output resistance in series with the link's resistor, and its cost
+ * is added to the combination's (split_cost).  None suits: the module of
+ * the main supply's output is judged as without modules, not costed. */
 #include "analyses/explore.h"
 
+#include "analyses/rules.h"
 #include "core/error.h"
 
 #include <math.h>
@@ -27,7 +40,33 @@
 
 #define BR_SPLIT_TRIES 3 /* split designs judged per combination at most */
 
-int br_explore_split_design(const br_design *d, int rail, br_design **out, br_error *err)
+#define TRY(x)                                                                                     \
+    do {                                                                                           \
+        int rc_ = (x);                                                                             \
+        if (rc_ != BR_OK)                                                                          \
+            return rc_;                                                                            \
+    } while (0)
+
+/* The module's series resistance, its output's and the link resistor's. */
+static br_qty series_r(const br_qty *link, const br_qty *own)
+{
+    br_qty q = *link;
+    q.nom += own->nom;
+    q.min += own->min;
+    q.max += own->max;
+    return q;
+}
+
+/* The highest current the module's step into the empty rail can take:
+ * its limit where it has one, else its highest voltage over r. */
+static double inrush(const br_inject_spec *j)
+{
+    double step = j->r.nom > 0 ? j->v.max / j->r.nom : HUGE_VAL;
+    return j->limit_mode != BR_SUPPLY_UNLIMITED && j->ilimit.max < step ? j->ilimit.max : step;
+}
+
+int br_explore_split_design(const br_design *d, int rail, const br_inject_spec *module,
+                            br_design **out, br_error *err)
 {
     *out = NULL;
     if (rail < 1 || rail >= br_design_nswitch(d) || d->ninject >= BR_MAX_INJECT ||
@@ -42,17 +81,20 @@ int br_explore_split_design(const br_design *d, int rail, br_design **out, br_er
     const br_stage_spec *sp = br_design_stage(d, rail);
     br_inject_spec *j = &s->inject[s->ninject++];
     memset(j, 0, sizeof *j);
+    if (module)
+        *j = *module; /* its output and limit */
     j->rail = rail;
-    j->v = d->vsupply;
-    j->r = sp->r_link;
+    j->v = module ? module->v : d->vsupply;
+    j->r = module ? series_r(&sp->r_link, &module->r) : sp->r_link;
     j->diode = sp->diode;
     j->start = 0.0;
+    j->line = 0;
     /* the module steps on into an empty rail capacitor: its resistance
-     * keeps that step within the diode's repetitive peak rating (IFRM,
-     * else its surge rating), the peak being at most V / R; `size` keeps
-     * the same floor (br_size_inject_floor) */
+     * (or its limit) keeps that step within the diode's repetitive peak
+     * rating (IFRM, else its surge rating), the peak being at most V / R;
+     * `size` keeps the same floor (br_size_inject_floor) */
     double floor = br_size_inject_floor(s, s->ninject - 1);
-    if (floor > j->r.nom)
+    if (floor > 0 && inrush(j) > j->v.max / floor)
         j->r = br_qty_fixed(floor);
     *out = s;
     return BR_OK;
@@ -68,20 +110,101 @@ static double score(const br_explore_row *t)
     return t->margin;
 }
 
-/* Judge the split design with its injection at rail j into *t. */
-static int try_rail(const br_design *d, const br_explore_opts *o, double target, int j,
-                    br_explore_row *t, br_error *err)
+const br_catalog *br_explore_module_catalog(const br_explore_opts *o)
+{
+    if (o->parts && o->parts->nmodules > 0)
+        return o->parts;
+    return o->cat && o->cat->nmodules > 0 ? o->cat : NULL;
+}
+
+/* Module i comes after module j in the order of cost (then of the
+ * catalog). */
+static int after(const br_catalog *cat, int i, int j)
+{
+    double ci = cat->module_offer[i].cost, cj = cat->module_offer[j].cost;
+    return ci > cj || (ci == cj && i > j);
+}
+
+static int suits(const br_catalog *cat, int i, double vsupply, double need)
+{
+    const br_inject_spec *m = &cat->modules[i];
+    int limited = m->limit_mode != BR_SUPPLY_UNLIMITED;
+    return m->v.min <= vsupply && vsupply <= m->v.max && cat->module_rating[i] >= need &&
+           (!limited || m->ilimit.min >= need);
+}
+
+int br_explore_module_choose(const br_catalog *cat, double vsupply, double need, int past)
+{
+    int best = -1;
+    for (int i = 0; cat && i < cat->nmodules; i++) {
+        if ((past >= 0 && !after(cat, i, past)) || !suits(cat, i, vsupply, need))
+            continue;
+        if (best < 0 || after(cat, best, i))
+            best = i;
+    }
+    return best;
+}
+
+/* The module for rail j of design d into t->module (-1: none suits or
+ * none listed) and what it must carry into t->inject_need (A). */
+static int module_for(const br_design *d, const br_explore_opts *o, int j, br_explore_row *t,
+                      br_error *err)
+{
+    const br_catalog *cat = br_explore_module_catalog(o);
+    t->modules = cat ? cat->nmodules : 0;
+    t->module = -1;
+    t->inject_need = NAN;
+    if (!cat)
+        return BR_OK;
+    br_chain *c = NULL;
+    TRY(br_chain_build(d, &c, err));
+    t->inject_need = BR_MODULE_MARGIN * br_link_current(c, j);
+    br_chain_free(c);
+    t->module = br_explore_module_choose(cat, d->vsupply.nom, t->inject_need, -1);
+    return BR_OK;
+}
+
+/* The split design of d at rail j with t's module (-1: the main
+ * supply's output). */
+static int split_of(const br_design *d, const br_explore_opts *o, int j, const br_explore_row *t,
+                    br_design **s, br_error *err)
+{
+    const br_catalog *cat = br_explore_module_catalog(o);
+    return br_explore_split_design(d, j, t->module >= 0 ? &cat->modules[t->module] : NULL, s, err);
+}
+
+/* Judge the split design with its injection at rail j, and its module
+ * t->module, into *t: screened, or (worst) at its worst corners as a
+ * survivor is (br_explore_corners). */
+static int judge_split(const br_design *d, const br_explore_opts *o, double target, int j,
+                       br_explore_row *t, int worst, br_error *err)
 {
     br_design *s = NULL;
-    int rc = br_explore_split_design(d, j, &s, err);
+    int rc = split_of(d, o, j, t, &s, err);
     if (rc == BR_OK)
-        rc = br_explore_screen(s, o, target, t, err);
+        rc = worst ? br_explore_corners(s, o, target, t, err)
+                   : br_explore_screen(s, o, target, t, err);
     br_design_free(s);
     return rc;
 }
 
-static void keep(br_explore_row *r, const br_explore_row *t, int j)
+/* The split at rail j with the cheapest module that suits it. */
+static int try_rail(const br_design *d, const br_explore_opts *o, double target, int j,
+                    br_explore_row *t, br_error *err)
 {
+    TRY(module_for(d, o, j, t, err));
+    return judge_split(d, o, target, j, t, 0, err);
+}
+
+static void keep(br_explore_row *r, const br_explore_row *t, int j, const br_explore_opts *o)
+{
+    const br_catalog *cat = br_explore_module_catalog(o);
+    r->modules = t->modules;
+    r->module = t->module;
+    r->inject_need = t->inject_need;
+    r->module_passed = 0;
+    r->module_cost = t->module >= 0 ? cat->module_offer[t->module].cost : 0.0;
+    r->split_cost = r->cost + r->module_cost;
     r->inject_rail = j;
     r->split_state = t->state;
     r->split_margin = t->margin;
@@ -100,17 +223,34 @@ static int holds(int state)
            state == BR_EX_COST;
 }
 
-/* The split design chosen (injection at rail j, screened into *t) judged
- * at its worst corners as a survivor is (br_explore_corners). */
-static int corners(const br_design *d, const br_explore_opts *o, double target, int j,
-                   br_explore_row *t, br_error *err)
+/* The cheapest module passes the rule but not the split's screen (its
+ * limit or hiccup can hold the empty upper rails back at start-up, which
+ * the rule does not see): the next dearer ones that suit, at most
+ * BR_MODULE_TRIES more, at r's rail; the first whose split design is
+ * feasible replaces *kept (*passed: the cheaper ones passed over), else
+ * the cheapest's verdict stands. */
+static int dearer_modules(const br_design *d, const br_explore_opts *o, double target,
+                          const br_explore_row *r, br_explore_row *kept, int *passed, br_error *err)
 {
-    br_design *s = NULL;
-    int rc = br_explore_split_design(d, j, &s, err);
-    if (rc == BR_OK)
-        rc = br_explore_corners(s, o, target, t, err);
-    br_design_free(s);
-    return rc;
+    const br_catalog *cat = br_explore_module_catalog(o);
+    int m = kept->module;
+    *passed = 0;
+    for (int n = 0; n < BR_MODULE_TRIES && m >= 0 && kept->state != BR_EX_FEASIBLE; n++) {
+        m = br_explore_module_choose(cat, d->vsupply.nom, kept->inject_need, m);
+        if (m < 0)
+            break;
+        br_explore_row t = *r;
+        t.corners = 0;
+        t.modules = kept->modules;
+        t.inject_need = kept->inject_need;
+        t.module = m;
+        TRY(judge_split(d, o, target, r->inject_rail, &t, 0, err));
+        if (t.state == BR_EX_FEASIBLE) {
+            *kept = t;
+            *passed = n + 1;
+        }
+    }
+    return BR_OK;
 }
 
 int br_explore_split(const br_design *d, const br_explore_opts *o, double target, br_explore_row *r,
@@ -124,9 +264,7 @@ int br_explore_split(const br_design *d, const br_explore_opts *o, double target
     for (int j = r->split_at; j >= 1 && r->split_tries < BR_SPLIT_TRIES; j--) {
         br_explore_row t = *r;
         t.corners = 0;
-        int rc = try_rail(d, o, target, j, &t, err);
-        if (rc != BR_OK)
-            return rc;
+        TRY(try_rail(d, o, target, j, &t, err));
         r->split_tries++;
         double sc = score(&t);
         if (r->inject_rail > 0 && !(sc > best))
@@ -135,12 +273,13 @@ int br_explore_split(const br_design *d, const br_explore_opts *o, double target
         kept = t;
         best = sc;
     }
-    if (r->inject_rail > 0 && o->corners && holds(kept.state)) {
-        int rc = corners(d, o, target, r->inject_rail, &kept, err);
-        if (rc != BR_OK)
-            return rc;
-    }
-    if (r->inject_rail > 0)
-        keep(r, &kept, r->inject_rail);
+    if (r->inject_rail == 0)
+        return BR_OK;
+    int passed = 0;
+    TRY(dearer_modules(d, o, target, r, &kept, &passed, err));
+    if (o->corners && holds(kept.state))
+        TRY(judge_split(d, o, target, r->inject_rail, &kept, 1, err));
+    keep(r, &kept, r->inject_rail, o);
+    r->module_passed = passed;
     return BR_OK;
 }

@@ -602,6 +602,26 @@ static int supply_hiccups(const br_chain *c, const br_steady_figs *f)
     return f->supply_stretch >= period * (1.0 - 1e-9) || f->supply_stretch >= c->hiccup_delay;
 }
 
+/* Each injection with a rating: its mean current in steady state (its
+ * link's) against it, as the supply's; the row binds at the rail it
+ * feeds where an injection has the least margin. */
+static void injections_row(const br_chain *c, const br_steady_figs *f, br_verdict_row *r)
+{
+    if (r->applies && r->margin == -HUGE_VAL)
+        return; /* the supply turns off: nothing else matters */
+    for (int k = 1; k < c->n; k++) {
+        const br_stage *st = &c->st[k];
+        if (!st->inject || !(st->inj_rating > 0))
+            continue;
+        double i = f->link[k].iavg;
+        if (consider(r, i, st->inj_rating, st->inj_rating - i, k, f->dir))
+            snprintf(r->note, sizeof r->note,
+                     "the injection into rail %d (%s) gives %.4g A on average in steady state "
+                     "against its rating %.4g A",
+                     k, st->name, i, st->inj_rating);
+    }
+}
+
 static void supply_row(const br_chain *c, const br_steady_figs *f, br_verdict_row *r)
 {
     if (supply_hiccups(c, f)) {
@@ -620,6 +640,7 @@ static void supply_row(const br_chain *c, const br_steady_figs *f, br_verdict_ro
     }
     if (c->irating > 0 && !(r->applies && r->margin == -HUGE_VAL))
         consider(r, f->supply_iavg, c->irating, c->irating - f->supply_iavg, -1, f->dir);
+    injections_row(c, f, r);
 }
 
 /* A link that runs away has no temperature: it fails whatever else. */
@@ -793,11 +814,12 @@ static int can_apply(const br_chain *c, int crit)
     int any = 0;
     for (int k = 0; k < c->n && !any; k++) {
         const br_stage *st = &c->st[k];
-        any = crit == BR_CRIT_DRIVE        ? c->min_drive > 0
-              : crit == BR_CRIT_GATE       ? st->sw.vgs_max > 0
-              : crit == BR_CRIT_DIODE_VR   ? k > 0 && st->diode.vrrm > 0
-              : crit == BR_CRIT_CAP_V      ? k > 0 && st->cap.vrated > 0
-              : crit == BR_CRIT_SUPPLY     ? c->irating > 0 || c->limit_mode == BR_SUPPLY_HICCUP
+        any = crit == BR_CRIT_DRIVE      ? c->min_drive > 0
+              : crit == BR_CRIT_GATE     ? st->sw.vgs_max > 0
+              : crit == BR_CRIT_DIODE_VR ? k > 0 && st->diode.vrrm > 0
+              : crit == BR_CRIT_CAP_V    ? k > 0 && st->cap.vrated > 0
+              : crit == BR_CRIT_SUPPLY
+                  ? c->irating > 0 || c->limit_mode == BR_SUPPLY_HICCUP || st->inj_rating > 0
               : crit == BR_CRIT_HEADROOM   ? st->aux.kind == BR_AUX_LDO
               : crit == BR_CRIT_AUX_POWER  ? st->aux.id && st->aux.pmax > 0
               : crit == BR_CRIT_DIODE_IAVG ? k > 0 && st->diode.if_avg > 0

@@ -319,7 +319,8 @@ int br_explore_split_file(const br_explore_study *x, int i, br_text *out, br_err
     br_text *comment = br_text_create();
     int rc = comment ? br_explore_design(x->t, &x->o, r, &d, err) : BR_ENOMEM;
     if (rc == BR_OK)
-        rc = br_explore_split_design(d, r->inject_rail, &s, err);
+        rc = br_explore_split_design(
+            d, r->inject_rail, r->module >= 0 ? &x->x->modules->modules[r->module] : NULL, &s, err);
     if (rc == BR_OK)
         rc = br_explore_split_comment(x->x, x->cat, r, x->t->path, comment);
     if (rc == BR_OK)

@@ -19,6 +19,9 @@ int br_sim_create(const br_chain *c, int dir, int integrator, br_sim **out, br_e
     s->n = c->n;
     for (int k = 1; k < c->n; k++) /* the hot loops read a mask, not the stages */
         s->injm |= (br_mask)(c->st[k].inject != 0) << k;
+    for (int k = 1; k < c->n; k++)
+        s->injlimm |= (br_mask)(c->st[k].inject && c->st[k].inj_lim.mode != BR_SUPPLY_UNLIMITED)
+                      << k;
     s->nx = s->phi0 = c->n * NF;
     s->bypass = c->csupply > 0 && c->rsupply > 0;
     br_sim_cache_esr(s);
@@ -941,7 +944,9 @@ static int closed_form(br_sim *s, double tb, double *te)
     s->x[X_SQ] += isup * dt;
     s->x[X_SE] += isup * 0.5 * (vs_a + br_sim_supply_v(s, *te)) * dt;
     s->isup = s->il[0] = bp ? (g->vs0 - s->x[XI(0, F_VC)]) / s->c->rsupply : i0;
-    s->sup_lim = 0; /* the closed form holds only off the limit */
+    s->sup.lim = 0; /* the closed form holds only off the limit */
+    for (int k = 1; s->injlimm && k < s->n; k++)
+        s->inj[k].lim = 0; /* every link blocked: no injection gives current */
     s->t = *te;
     return first;
 }
@@ -1073,8 +1078,8 @@ void br_sim_stats_start(br_sim *s)
         s->st.link[k].vrev_peak = -HUGE_VAL;
     }
     s->st.isup_peak = s->isup;
-    s->lim_t0 = s->sup_lim ? s->t : HUGE_VAL;
-    s->trips0 = s->sup_trips;
+    s->lim_t0 = s->sup.lim ? s->t : HUGE_VAL;
+    s->trips0 = s->sup.trips;
     s->stats_on = 1;
     br_sim_live_rebuild(s);
 }
@@ -1137,7 +1142,7 @@ static void track_stats(br_sim *s, double t)
         l->vrev_peak = higher(l->vrev_peak, br_sim_link_vrev(s, s->vr, k, t));
     }
     s->st.isup_peak = higher(s->st.isup_peak, s->isup);
-    if (!s->sup_lim)
+    if (!s->sup.lim)
         s->lim_t0 = HUGE_VAL;
     else if (s->lim_t0 == HUGE_VAL)
         s->lim_t0 = t;
@@ -1189,7 +1194,7 @@ static void budget_stats(br_sim *s)
     }
     s->st.e_rsupply = x[X_SR] - q0[X_SR];
     s->st.t_limit = x[X_SL] - q0[X_SL];
-    s->st.sup_trips = s->sup_trips - s->trips0;
+    s->st.sup_trips = s->sup.trips - s->trips0;
     s->st.e_stored = stored_energy(s, x) - stored_energy(s, q0);
 }
 

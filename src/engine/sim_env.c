@@ -12,7 +12,10 @@
  * place.  A period spent wholly in the current limit (or wholly out of
  * it) is a period of a smooth map: the supply's current is the limit's
  * function of the bypass voltage; only the periods where it enters or
- * leaves the limit are not. */
+ * leaves the limit are not.  A current-limited injection is held to
+ * the stricter rule: no leap over a window in which it was at its limit,
+ * turned off or retried, nor where its rail may come near enough for its
+ * current to reach the limit (inj_limit_near). */
 #include "engine/sim_impl.h"
 
 #include "core/error.h"
@@ -79,6 +82,31 @@ static int ramping(const br_sim *s, double t)
     return t < s->tramp_end && s->c->tramp > 0;
 }
 
+/* The injections' hiccups so far, and how many are off now. */
+static int inj_trips(const br_sim *s)
+{
+    int n = 0;
+    for (int k = 1; s->injlimm && k < s->n; k++)
+        n += s->inj[k].trips;
+    return n;
+}
+
+static int inj_off(const br_sim *s)
+{
+    int n = 0;
+    for (int k = 1; s->injlimm && k < s->n; k++)
+        n += s->inj[k].off;
+    return n;
+}
+
+static int inj_at_limit(const br_sim *s)
+{
+    for (int k = 1; s->injlimm && k < s->n; k++)
+        if (s->inj[k].lim)
+            return 1;
+    return 0;
+}
+
 void br_sim_window_begin(br_sim *s)
 {
     br_sim_win *w = &s->win;
@@ -88,8 +116,11 @@ void br_sim_window_begin(br_sim *s)
     w->pre_idx = s->pre_idx;
     w->loaded = s->loaded;
     w->lim = 0;
-    w->trips = s->sup_trips;
-    w->off = s->sup_off;
+    w->trips = s->sup.trips;
+    w->off = s->sup.off;
+    w->ilim = 0;
+    w->itrips = inj_trips(s);
+    w->ioff = inj_off(s);
     for (int k = 0; k < s->n; k++) {
         w->vmin[k] = HUGE_VAL;
         w->vmax[k] = -HUGE_VAL;
@@ -106,7 +137,9 @@ void br_sim_window_track(br_sim *s)
         w->vmin[k] = v < w->vmin[k] ? v : w->vmin[k];
         w->vmax[k] = v > w->vmax[k] ? v : w->vmax[k];
     }
-    w->lim |= s->sup_lim ? 1 : 2; /* as the statistics' stretch in the limit reads it */
+    w->lim |= s->sup.lim ? 1 : 2; /* as the statistics' stretch in the limit reads it */
+    if (s->injlimm)
+        w->ilim |= inj_at_limit(s) ? 1 : 2;
 }
 
 /* Did the supply change its law inside the window: into or out of its
@@ -114,7 +147,9 @@ void br_sim_window_track(br_sim *s)
 static int supply_moved(const br_sim *s)
 {
     const br_sim_win *w = &s->win;
-    return w->lim == 3 || w->trips != s->sup_trips || w->off || s->sup_off;
+    if (w->lim == 3 || w->trips != s->sup.trips || w->off || s->sup.off)
+        return 1;
+    return s->injlimm && ((w->ilim & 1) || w->itrips != inj_trips(s) || w->ioff || inj_off(s));
 }
 
 int br_sim_window_quiet(const br_sim *s)
@@ -139,7 +174,7 @@ static double next_scheduled(const br_sim *s)
      * delay in the limit among them); while it is off its state is not
      * the rails' alone.  Its current limit is the rails' (limit_near) */
     t = fmin(t, br_sim_supply_next(s));
-    if (s->sup_off)
+    if (s->sup.off)
         t = fmin(t, s->t);
     /* a loaded line cycle changes duty and current every period: no two
      * periods share a map */
@@ -200,10 +235,32 @@ static int limit_near(const br_sim *s, double dv, double guard)
     return limit_binds(s, vs, w->vmin[0] + dv - guard);
 }
 
+/* Could a current-limited injection reach its limit with its rail's
+ * lowest voltage over the window moved by dv?  What its diode and
+ * resistance would pass falls as the rail rises and its limit stays or
+ * rises (fold-back), so it binds below one rail voltage and not above:
+ * the window's lowest voltage less the guard decides. */
+static int inj_limit_near(const br_sim *s, const double *dv, const double *guard)
+{
+    const br_sim_win *w = &s->win;
+    for (int k = 1; s->injlimm && k < s->n; k++) {
+        if (!br_sim_inj_limited(s, k))
+            continue;
+        const br_stage *st = &s->c->st[k];
+        double v = w->vmin[k] + dv[k] - guard[k];
+        if (!(w->vmin[k] <= w->vmax[k]))
+            return 1;                           /* nothing seen: nothing known */
+        double vinj = br_sim_inj_v(s, k, s->t); /* its start is a break of the schedule */
+        if (!(br_diode_current(&st->diode, st->r_link, vinj - v) < br_sim_inj_limit(s, k, v)))
+            return 1;
+    }
+    return 0;
+}
+
 int br_sim_discrete_ahead(const br_sim *s, const double *dvc, const double *guard, double t_end)
 {
     if (!s->win.on || s->frozen || next_scheduled(s) <= t_end || supply_moved(s) ||
-        limit_near(s, dvc[0], guard[0]))
+        limit_near(s, dvc[0], guard[0]) || inj_limit_near(s, dvc, guard))
         return 1;
     for (int k = 0; k < s->n; k++) {
         if (s->held[k] || uvlo_near(s, k, dvc[k], guard[k]))

@@ -38,6 +38,17 @@ typedef enum br_rk_pair {
     BR_PAIR_RK8       /* GSL rk8pd: the reference path */
 } br_rk_pair;
 
+/* Where a current-limited supply stands (sim_supply.c): the main
+ * supply's or an injection's. */
+typedef struct br_limstate {
+    int off;       /* a hiccup turned it off */
+    double until;  /* off: the time of the retry, s (HUGE_VAL: off for good) */
+    double since;  /* in its limit continuously since, s (HUGE_VAL: not in it) */
+    int trips;     /* hiccups so far */
+    double trip_t; /* time of the first hiccup, s */
+    int lim;       /* the workspace's current is at its limit */
+} br_limstate;
+
 #define BR_HMEM 512 /* intervals of one period remembered for their steps */
 
 /* What the simulation saw since br_sim_window_begin (sim_env.c). */
@@ -50,6 +61,9 @@ typedef struct br_sim_win {
     int lim;                       /* the supply seen in its current limit (1), out of
                                       it (2), both (3), at the track points */
     int trips, off;                /* the supply's hiccups and its off state at the start */
+    int ilim;                      /* some current-limited injection seen in its limit
+                                      (1), none (2), both (3), at the track points */
+    int itrips, ioff;              /* the injections' hiccups and off states at the start */
 } br_sim_win;
 
 /* Layout of the integrated vector, stage by stage so that only n * NF
@@ -150,21 +164,18 @@ struct br_sim {
                                  at the next update whatever their state */
     double tramp_end;         /* supply still ramping before this time, s */
     /* the supply's current limit and its soft-start (sim_supply.c) */
-    double soft_t0;    /* the present soft-start began here, s (-HUGE_VAL: none) */
-    int sup_off;       /* a hiccup turned the supply off */
-    double sup_until;  /* off: the time of the retry, s (HUGE_VAL: off for good) */
-    double lim_since;  /* in its limit continuously since, s (HUGE_VAL: not in it) */
-    int sup_trips;     /* hiccups so far */
-    double sup_trip_t; /* time of the first hiccup, s */
-    int sup_lim;       /* the workspace's supply current is at its limit */
-    double isup;       /* the supply current at the last evaluation, A */
-    int inj_run;       /* every injection on whatever the time (a running reset) */
-    br_mask injm;      /* bit k: an injection feeds rail k (from the chain) */
-    int trips0;        /* statistics: hiccups when they started */
-    double lim_t0;     /* statistics: the stretch in the limit began here, s
-                          (HUGE_VAL: not in it) */
-    int toggles;       /* UVLO toggles at the current instant */
-    int frozen;        /* switching stopped (br_sim_freeze) */
+    double soft_t0;        /* the present soft-start began here, s (-HUGE_VAL: none) */
+    br_limstate sup;       /* the supply's limit */
+    double isup;           /* the supply current at the last evaluation, A */
+    br_limstate inj[BR_N]; /* the limit of the injection into rail k */
+    br_mask injlimm;       /* bit k: the injection into rail k has a current limit */
+    int inj_run;           /* every injection on whatever the time (a running reset) */
+    br_mask injm;          /* bit k: an injection feeds rail k (from the chain) */
+    int trips0;            /* statistics: hiccups when they started */
+    double lim_t0;         /* statistics: the stretch in the limit began here, s
+                              (HUGE_VAL: not in it) */
+    int toggles;           /* UVLO toggles at the current instant */
+    int frozen;            /* switching stopped (br_sim_freeze) */
     /* the load current: it flows once loaded, from load_at (absolute, s;
      * HUGE_VAL: never), at magnitude iamp in the period in progress (A, 0
      * unless loaded), entering the switch node when isgn > 0 (step-up) */
@@ -267,7 +278,7 @@ int br_sim_supply_step(br_sim *s);
 /* The current limit at output voltage v0, A (HUGE_VAL: none). */
 double br_sim_supply_limit(const br_sim *s, double v0);
 /* Current through Rs into the bypass capacitor at x0 from open-circuit
- * voltage vs; sets s->sup_lim; *didx (may be NULL) its derivative in x0. */
+ * voltage vs; sets s->sup.lim; *didx (may be NULL) its derivative in x0. */
 double br_sim_supply_bypass_i(br_sim *s, double vs, double x0, double *didx);
 /* 1 when the interval from s->t, with supply current ia now and heading
  * for i0 at vinf, may meet the limit (or the supply is off): the closed
@@ -382,8 +393,27 @@ static inline int br_sim_inj(const br_sim *s, int k)
 static inline double br_sim_inj_v(const br_sim *s, int k, double t)
 {
     const br_stage *st = &s->c->st[k];
+    if (s->inj[k].off) /* a hiccup holds it off */
+        return 0.0;
     return s->inj_run || t >= st->tinj ? st->vinj : 0.0;
 }
+
+/* 1 when the injection into rail k has a current limit. */
+static inline int br_sim_inj_limited(const br_sim *s, int k)
+{
+    return (int)(s->injlimm >> k & 1);
+}
+
+/* The current of an injection into rail k that its diode's law would
+ * give, f (A), held to its current limit at rail voltage vr (its
+ * fold-back reads the rail for its output: the diode's and resistance's
+ * drop left out, a lower limit); sets its `lim` and, where the limit
+ * binds, *gd to minus the limit's slope in vr. */
+double br_sim_inj_clamp(br_sim *s, int k, double vr, double f, double *gd);
+
+/* The current limit of the injection into rail k at rail voltage vr, A
+ * (HUGE_VAL: none). */
+double br_sim_inj_limit(const br_sim *s, int k, double vr);
 
 /* Node below link k among node voltages v: rail k-1's, or 0 for an
  * injection. */

@@ -190,6 +190,8 @@ static void solve_links(br_sim *s, double t, const double *x)
     for (int k = 1; k < n; k++)
         if (!g->active[k])
             s->il[k] = g->iblk[k];
+    for (int k = 1; s->injlimm && k < n; k++)
+        s->inj[k].lim = 0; /* a blocked injection is off its limit */
     for (int j = 0; j < na; j++) {
         int k = act[j];
         /* predictor: move the last solution along its tangent to the
@@ -209,6 +211,8 @@ static void solve_links(br_sim *s, double t, const double *x)
             double u = br_sim_low(s, s->vr, k) - s->vr[k] - dk, f, gd;
             br_diode_eval_warm(&s->c->st[k].diode, g->rpath[k], u, &s->dw[k], &f, &gd);
             s->evals++;
+            if (br_sim_inj_limited(s, k))
+                f = br_sim_inj_clamp(s, k, s->vr[k], f, &gd);
             s->gd[k] = gd;
             int inj = br_sim_inj(s, k);
             double el = inj ? 0.0 : s->esr_now[k - 1], eh = s->esr_now[k];
@@ -357,7 +361,7 @@ static void quadratures(br_sim *s, double t, const double *x, double *dx)
     dx[X_SQ] = isup;
     dx[X_SE] = isup * supply_at(g, t);
     dx[X_SR] = isup * isup * s->c->rsupply;
-    dx[X_SL] = s->sup_lim;
+    dx[X_SL] = s->sup.lim;
 }
 
 /* The few a start-up reads (BR_STATS_STARTUP, br_sim_quad_kept): each
@@ -371,7 +375,7 @@ static void startup_quadratures(br_sim *s, double t, const double *x, double *dx
     double isup = supply_current(s, t, x, br_sim_up(s, s->il, 0));
     dx[X_SQ] = isup;
     dx[X_SE] = isup * supply_at(&s->seg, t);
-    dx[X_SL] = s->sup_lim;
+    dx[X_SL] = s->sup.lim;
 }
 
 void br_sim_clamp_limit(br_sim *s)

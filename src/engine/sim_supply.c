@@ -22,22 +22,36 @@
  * through its soft-start; after hiccup-retries retries it stays off.  The
  * timer is read at every interval boundary of the simulation (every
  * switching event), so it starts at most one interval late: a fraction
- * of a switching period against delays of milliseconds. */
+ * of a switching period against delays of milliseconds.
+ *
+ * An injection (an isolated supply feeding one rail) may have a current
+ * limit of the same modes: its limit law and its hiccup timer are this
+ * file's, on a state of its own (br_sim.inj[k]).  It has no output
+ * capacitance in the model, so its limit holds the link's current itself
+ * (br_sim_inj_clamp, in the link solve), and off it gives nothing (its
+ * voltage is 0: the link blocks). */
 #include "engine/sim_impl.h"
 
 #include <math.h>
 
+static void limstate_reset(br_limstate *h)
+{
+    h->off = 0;
+    h->until = -HUGE_VAL;
+    h->since = HUGE_VAL;
+    h->trips = 0;
+    h->trip_t = -1.0;
+    h->lim = 0;
+}
+
 void br_sim_supply_reset(br_sim *s, int cold)
 {
     s->soft_t0 = cold ? 0.0 : -HUGE_VAL;
-    s->sup_off = 0;
-    s->sup_until = -HUGE_VAL;
-    s->lim_since = HUGE_VAL;
-    s->sup_trips = 0;
-    s->sup_trip_t = -1.0;
-    s->sup_lim = 0;
+    limstate_reset(&s->sup);
     s->isup = 0.0;
     s->inj_run = !cold;
+    for (int k = 0; k < BR_N; k++)
+        limstate_reset(&s->inj[k]);
 }
 
 /* The fraction of Vs the ramps allow at t. */
@@ -56,7 +70,7 @@ static double ramp_fraction(const br_sim *s, double t)
 
 double br_sim_supply_v(const br_sim *s, double t)
 {
-    return s->sup_off ? 0.0 : s->c->vsupply * ramp_fraction(s, t);
+    return s->sup.off ? 0.0 : s->c->vsupply * ramp_fraction(s, t);
 }
 
 /* Where the power-up ramp and a soft-start that began later cross (the
@@ -74,6 +88,16 @@ static double later(const br_sim *s, double tn, double t)
     return t > s->t && t < tn ? t : tn;
 }
 
+/* The next change of a limit's hiccup timers after s->t, before tn. */
+static double limstate_next(const br_sim *s, const br_limstate *h, const br_climit *l, double tn)
+{
+    if (h->off)
+        return later(s, tn, h->until);
+    if (l->mode == BR_SUPPLY_HICCUP && h->since < HUGE_VAL)
+        tn = later(s, tn, h->since + l->hiccup_delay);
+    return tn;
+}
+
 double br_sim_supply_next(const br_sim *s)
 {
     const br_chain *c = s->c;
@@ -81,82 +105,107 @@ double br_sim_supply_next(const br_sim *s)
     for (int k = 1; !s->inj_run && k < s->n; k++) /* an injection that starts later */
         if (c->st[k].inject)
             tn = later(s, tn, c->st[k].tinj);
-    if (s->sup_off)
-        return later(s, tn, s->sup_until);
+    for (int k = 1; s->injlimm && k < s->n; k++)
+        if (br_sim_inj_limited(s, k))
+            tn = limstate_next(s, &s->inj[k], &c->st[k].inj_lim, tn);
+    br_climit l = br_chain_supply_limit(c);
+    if (s->sup.off)
+        return limstate_next(s, &s->sup, &l, tn);
     if (c->tramp > 0)
         tn = later(s, tn, s->tramp_end);
     if (c->tsoft > 0)
         tn = later(s, tn, s->soft_t0 + c->tsoft);
     tn = later(s, tn, ramps_cross(s));
-    if (c->limit_mode == BR_SUPPLY_HICCUP && s->lim_since < HUGE_VAL)
-        tn = later(s, tn, s->lim_since + c->hiccup_delay);
-    return tn;
+    return limstate_next(s, &s->sup, &l, tn);
+}
+
+enum { LIM_SAME = 0, LIM_OFF, LIM_RETRY };
+
+/* A limit's hiccup timer at t, from its limit state at the last
+ * evaluation: LIM_OFF when it turns the supply off, LIM_RETRY when the
+ * supply starts again. */
+static int limstate_step(br_limstate *h, const br_climit *l, double t)
+{
+    if (h->off) {
+        if (t < h->until)
+            return LIM_SAME;
+        h->off = 0; /* retry */
+        h->since = HUGE_VAL;
+        return LIM_RETRY;
+    }
+    if (l->mode != BR_SUPPLY_HICCUP)
+        return LIM_SAME;
+    if (!h->lim) {
+        h->since = HUGE_VAL;
+        return LIM_SAME;
+    }
+    if (h->since == HUGE_VAL)
+        h->since = t;
+    if (t - h->since < l->hiccup_delay)
+        return LIM_SAME;
+    h->off = 1;
+    h->lim = 0;
+    h->since = HUGE_VAL;
+    if (h->trips++ == 0)
+        h->trip_t = t;
+    int last = l->hiccup_retries >= 0 && h->trips > l->hiccup_retries;
+    h->until = last ? HUGE_VAL : t + l->hiccup_off;
+    return LIM_OFF;
 }
 
 int br_sim_supply_step(br_sim *s)
 {
     const br_chain *c = s->c;
-    if (s->sup_off) {
-        if (s->t < s->sup_until)
-            return 0;
-        s->sup_off = 0; /* retry: through the soft-start again */
-        s->soft_t0 = s->t;
-        s->lim_since = HUGE_VAL;
-        return 1;
-    }
-    if (c->limit_mode != BR_SUPPLY_HICCUP)
-        return 0;
-    if (!s->sup_lim) {
-        s->lim_since = HUGE_VAL;
-        return 0;
-    }
-    if (s->lim_since == HUGE_VAL)
-        s->lim_since = s->t;
-    if (s->t - s->lim_since < c->hiccup_delay)
-        return 0;
-    s->sup_off = 1;
-    s->sup_lim = 0;
-    s->lim_since = HUGE_VAL;
-    if (s->sup_trips++ == 0)
-        s->sup_trip_t = s->t;
-    int last = c->hiccup_retries >= 0 && s->sup_trips > c->hiccup_retries;
-    s->sup_until = last ? HUGE_VAL : s->t + c->hiccup_off;
-    return 1;
+    int moved = 0;
+    for (int k = 1; s->injlimm && k < s->n; k++)
+        if (br_sim_inj_limited(s, k))
+            moved |= limstate_step(&s->inj[k], &c->st[k].inj_lim, s->t) != LIM_SAME;
+    br_climit l = br_chain_supply_limit(c);
+    int r = limstate_step(&s->sup, &l, s->t);
+    if (r == LIM_RETRY)
+        s->soft_t0 = s->t; /* through the soft-start again */
+    return moved || r != LIM_SAME;
+}
+
+/* The limit at output voltage v, A (HUGE_VAL: none). */
+static double climit_at(const br_climit *l, double v)
+{
+    if (l->mode == BR_SUPPLY_UNLIMITED)
+        return HUGE_VAL;
+    if (l->mode != BR_SUPPLY_FOLDBACK)
+        return l->ilimit;
+    double f = l->vset > 0 ? v / l->vset : 1.0;
+    f = f < 0 ? 0.0 : f > 1 ? 1.0 : f;
+    return l->ifold + (l->ilimit - l->ifold) * f;
+}
+
+/* d Ilim / d v where the limit binds (0 for a constant limit). */
+static double climit_slope(const br_climit *l, double v)
+{
+    if (l->mode != BR_SUPPLY_FOLDBACK || !(v > 0 && v < l->vset))
+        return 0.0;
+    return (l->ilimit - l->ifold) / l->vset;
 }
 
 double br_sim_supply_limit(const br_sim *s, double v0)
 {
-    const br_chain *c = s->c;
-    if (c->limit_mode == BR_SUPPLY_UNLIMITED)
-        return HUGE_VAL;
-    if (c->limit_mode != BR_SUPPLY_FOLDBACK)
-        return c->ilimit;
-    double f = c->vsupply > 0 ? v0 / c->vsupply : 1.0;
-    f = f < 0 ? 0.0 : f > 1 ? 1.0 : f;
-    return c->ifold + (c->ilimit - c->ifold) * f;
-}
-
-/* d Ilim / d v0 where the limit binds (0 for a constant limit). */
-static double limit_slope(const br_sim *s, double v0)
-{
-    const br_chain *c = s->c;
-    if (c->limit_mode != BR_SUPPLY_FOLDBACK || !(v0 > 0 && v0 < c->vsupply))
-        return 0.0;
-    return (c->ilimit - c->ifold) / c->vsupply;
+    br_climit l = br_chain_supply_limit(s->c);
+    return climit_at(&l, v0);
 }
 
 double br_sim_supply_bypass_i(br_sim *s, double vs, double x0, double *didx)
 {
     double rs = s->c->rsupply, i = (vs - x0) / rs, d = -1.0 / rs;
-    s->sup_lim = 0;
-    if (s->sup_off) {
+    s->sup.lim = 0;
+    if (s->sup.off) {
         i = d = 0.0;
     } else if (s->c->limit_mode != BR_SUPPLY_UNLIMITED) {
-        double lim = br_sim_supply_limit(s, x0);
+        br_climit l = br_chain_supply_limit(s->c);
+        double lim = climit_at(&l, x0);
         if (i > lim) {
             i = lim;
-            d = limit_slope(s, x0);
-            s->sup_lim = 1;
+            d = climit_slope(&l, x0);
+            s->sup.lim = 1;
         }
     }
     if (didx)
@@ -164,11 +213,27 @@ double br_sim_supply_bypass_i(br_sim *s, double vs, double x0, double *didx)
     return i;
 }
 
+double br_sim_inj_limit(const br_sim *s, int k, double vr)
+{
+    return climit_at(&s->c->st[k].inj_lim, vr);
+}
+
+double br_sim_inj_clamp(br_sim *s, int k, double vr, double f, double *gd)
+{
+    const br_climit *l = &s->c->st[k].inj_lim;
+    double lim = climit_at(l, vr);
+    s->inj[k].lim = f > lim;
+    if (!(f > lim))
+        return f;
+    *gd = -climit_slope(l, vr);
+    return lim;
+}
+
 int br_sim_supply_needs_rk(const br_sim *s, double ia, double i0, double vinf)
 {
     if (s->c->limit_mode == BR_SUPPLY_UNLIMITED)
         return 0;
-    if (s->sup_off)
+    if (s->sup.off)
         return 1;
     /* the current decays from ia to i0 as v0 moves from its value now to
      * vinf; the limit is linear in v0 between them (or constant), so the
@@ -180,13 +245,13 @@ int br_sim_supply_needs_rk(const br_sim *s, double ia, double i0, double vinf)
 double br_sim_supply_current(const br_sim *s, int *limited)
 {
     if (limited)
-        *limited = s->sup_lim;
+        *limited = s->sup.lim;
     return s->isup;
 }
 
 int br_sim_supply_trips(const br_sim *s, double *first)
 {
     if (first)
-        *first = s->sup_trip_t;
-    return s->sup_trips;
+        *first = s->sup.trip_t;
+    return s->sup.trips;
 }

@@ -67,9 +67,43 @@ typedef struct counts {
     xmlNode *sw_node[BR_MAX_PARTS];
 } counts;
 
+/* An isolated supply module: its id (one word, unique among the
+ * modules; the parts are checked once all are read), its output as an
+ * injection's, its rating and offer. */
+static int read_module(br_rd *r, xmlNode *n, br_catalog *cat)
+{
+    int i = cat->nmodules;
+    if (i >= BR_MAX_PARTS)
+        return br_rd_fail(r, n, NULL, "more than %d isolated-supply parts, expected at most %d",
+                          BR_MAX_PARTS, BR_MAX_PARTS);
+    char *id = cat->module_id[i];
+    int has = br_xml_attr(n, "id", id, BR_ID_MAX);
+    if (has <= 0 || id[0] == '\0' || strpbrk(id, " \t\r\n"))
+        return br_rd_fail(r, n, "id", "%s, expected one word of 1 to %d characters",
+                          has < 0 ? "too long" : "missing, empty or not one word", BR_ID_MAX - 1);
+    for (int j = 0; j < i; j++)
+        if (strcmp(cat->module_id[j], id) == 0)
+            return br_rd_fail(r, n, "id",
+                              "'%s' is already the id of an isolated-supply, "
+                              "expected a new id",
+                              id);
+    br_inject_spec *m = &cat->modules[i];
+    memset(m, 0, sizeof *m);
+    m->rail = -1;
+    m->diode = -1;
+    m->line = br_rd_line(r, n);
+    BR_TRY(br_rd_supply_output(r, n, m)); /* its rating too: required by the schema */
+    cat->module_rating[i] = m->irating.nom;
+    BR_TRY(read_offer(r, n, &cat->module_offer[i]));
+    cat->nmodules++;
+    return BR_OK;
+}
+
 static int read_extras(br_rd *r, xmlNode *n, br_catalog *cat, counts *k)
 {
     const char *name = (const char *)n->name;
+    if (strcmp(name, "isolated-supply") == 0)
+        return read_module(r, n, cat);
     if (strcmp(name, "diode") == 0)
         return read_offer(r, n, &cat->diode_offer[k->nd++]);
     if (strcmp(name, "capacitor") == 0)
@@ -97,6 +131,21 @@ static int resolve_driver(br_rd *r, xmlNode *n, const br_design *parts, int *out
     return br_rd_fail(r, n, "driver", "names no <driver> of this catalog, expected the id of one");
 }
 
+/* A module's id is no part's id either (ids are unique across the
+ * catalog). */
+static int modules_apart(br_rd *r, xmlNode *root, const br_catalog *cat)
+{
+    int i = 0;
+    for (xmlNode *n = br_xml_child(root, "isolated-supply"); n;
+         n = br_xml_next(n, "isolated-supply"), i++) {
+        const char *owner = br_rd_part_owner(r->d, cat->module_id[i]);
+        if (owner)
+            return br_rd_fail(r, n, "id", "'%s' is already the id of a %s, expected a new id",
+                              cat->module_id[i], owner);
+    }
+    return BR_OK;
+}
+
 /* The parts through the design reader's own part readers (into a scratch
  * design), then each part's offer in the same order. */
 static int read_catalog(br_rd *r, xmlNode *root, br_catalog *cat)
@@ -105,9 +154,12 @@ static int read_catalog(br_rd *r, xmlNode *root, br_catalog *cat)
     memset(&k, 0, sizeof k);
     if (br_xml_attr(root, "name", cat->name, sizeof cat->name) < 0)
         return br_rd_fail(r, root, "name", "longer than %zu characters", sizeof cat->name - 1);
-    BR_TRY(br_rd_parts(r, root));
+    for (xmlNode *n = br_xml_child(root, NULL); n; n = br_xml_next(n, NULL))
+        if (strcmp((const char *)n->name, "isolated-supply") != 0)
+            BR_TRY(br_rd_part(r, n));
     for (xmlNode *n = br_xml_child(root, NULL); n; n = br_xml_next(n, NULL))
         BR_TRY(read_extras(r, n, cat, &k));
+    BR_TRY(modules_apart(r, root, cat));
     for (int i = 0; i < k.ns; i++)
         BR_TRY(resolve_driver(r, k.sw_node[i], r->d, &cat->switch_driver[i]));
     cat->ndiodes = r->d->ndiodes;

@@ -80,21 +80,29 @@ static int mode_only(br_rd *r, xmlNode *n, const char *attr, const char *mode)
                       mode);
 }
 
+/* Where a current limit's fields are: the supply's or an injection's
+ * (the same attributes and modes). */
+typedef struct limit_ref {
+    int *mode;
+    br_qty *ilimit, *ifold, *delay, *off;
+    int *retries;
+    int bypass; /* the main supply: a limit needs its bypass (limit_needs_bypass) */
+} limit_ref;
+
 /* The mode of the current limit; the limit itself is current-limit. */
-static int read_limit_mode(br_rd *r, xmlNode *n, int has_limit)
+static int read_limit_mode(br_rd *r, xmlNode *n, int has_limit, const limit_ref *l)
 {
     char v[16];
     int has = br_xml_attr(n, "limit-mode", v, sizeof v);
-    br_design *d = r->d;
     if (has != 0 && !has_limit)
         return br_rd_fail(r, n, "limit-mode",
                           "given without current-limit, expected current-limit=\"...\" too");
-    d->limit_mode = !has_limit                           ? BR_SUPPLY_UNLIMITED
-                    : has == 0 || !strcmp(v, "constant") ? BR_SUPPLY_CONSTANT
-                    : !strcmp(v, "foldback")             ? BR_SUPPLY_FOLDBACK
-                    : !strcmp(v, "hiccup")               ? BR_SUPPLY_HICCUP
-                                                         : -1;
-    if (d->limit_mode < 0)
+    *l->mode = !has_limit                           ? BR_SUPPLY_UNLIMITED
+               : has == 0 || !strcmp(v, "constant") ? BR_SUPPLY_CONSTANT
+               : !strcmp(v, "foldback")             ? BR_SUPPLY_FOLDBACK
+               : !strcmp(v, "hiccup")               ? BR_SUPPLY_HICCUP
+                                                    : -1;
+    if (*l->mode < 0)
         return br_rd_fail(r, n, "limit-mode", "got '%s', expected constant, foldback or hiccup",
                           has > 0 ? v : "(too long)");
     return BR_OK;
@@ -115,15 +123,14 @@ static int limit_needs_bypass(br_rd *r, xmlNode *n)
                       "resistance=\"50 mohm\"");
 }
 
-static int read_foldback(br_rd *r, xmlNode *n)
+static int read_foldback(br_rd *r, xmlNode *n, const limit_ref *l)
 {
-    br_design *d = r->d;
     int has;
-    const br_range fold = {0.0, d->ilimit.min, 0, 1, "a current from 0 to below current-limit"};
-    BR_TRY(br_rd_qty(r, n, "foldback-current", BR_KIND_CURRENT, &fold, &d->ifold, &has));
-    if (has && d->limit_mode != BR_SUPPLY_FOLDBACK)
+    const br_range fold = {0.0, l->ilimit->min, 0, 1, "a current from 0 to below current-limit"};
+    BR_TRY(br_rd_qty(r, n, "foldback-current", BR_KIND_CURRENT, &fold, l->ifold, &has));
+    if (has && *l->mode != BR_SUPPLY_FOLDBACK)
         return mode_only(r, n, "foldback-current", "foldback");
-    if (!has && d->limit_mode == BR_SUPPLY_FOLDBACK)
+    if (!has && *l->mode == BR_SUPPLY_FOLDBACK)
         return br_rd_fail(r, n, "foldback-current",
                           "missing, expected the limit at 0 V output with "
                           "limit-mode=\"foldback\" (it folds back linearly from current-limit "
@@ -131,16 +138,14 @@ static int read_foldback(br_rd *r, xmlNode *n)
     return BR_OK;
 }
 
-static int read_hiccup(br_rd *r, xmlNode *n)
+static int read_hiccup(br_rd *r, xmlNode *n, const limit_ref *l)
 {
-    br_design *d = r->d;
-    int hiccup = d->limit_mode == BR_SUPPLY_HICCUP, has_delay, has_off;
-    BR_TRY(br_rd_qty(r, n, "hiccup-delay", BR_KIND_TIME, &br_range_nonneg, &d->hiccup_delay,
-                     &has_delay));
-    BR_TRY(br_rd_qty(r, n, "hiccup-off", BR_KIND_TIME, &br_range_pos, &d->hiccup_off, &has_off));
+    int hiccup = *l->mode == BR_SUPPLY_HICCUP, has_delay, has_off;
+    BR_TRY(br_rd_qty(r, n, "hiccup-delay", BR_KIND_TIME, &br_range_nonneg, l->delay, &has_delay));
+    BR_TRY(br_rd_qty(r, n, "hiccup-off", BR_KIND_TIME, &br_range_pos, l->off, &has_off));
     int has_retries = xmlHasProp(n, (const xmlChar *)"hiccup-retries") != NULL;
     if (has_retries)
-        BR_TRY(br_rd_int(r, n, "hiccup-retries", 0, BR_DROPOUTS_MAX, &d->hiccup_retries));
+        BR_TRY(br_rd_int(r, n, "hiccup-retries", 0, BR_DROPOUTS_MAX, l->retries));
     if (!hiccup && (has_delay || has_off || has_retries))
         return mode_only(r, n,
                          has_delay ? "hiccup-delay"
@@ -155,16 +160,15 @@ static int read_hiccup(br_rd *r, xmlNode *n)
 }
 
 /* The current limit and how the supply behaves there. */
-static int read_limit(br_rd *r, xmlNode *n)
+static int read_limit(br_rd *r, xmlNode *n, const limit_ref *l)
 {
-    br_design *d = r->d;
     int has;
-    BR_TRY(br_rd_qty(r, n, "current-limit", BR_KIND_CURRENT, &br_range_pos, &d->ilimit, &has));
-    BR_TRY(read_limit_mode(r, n, has));
-    if (has)
+    BR_TRY(br_rd_qty(r, n, "current-limit", BR_KIND_CURRENT, &br_range_pos, l->ilimit, &has));
+    BR_TRY(read_limit_mode(r, n, has, l));
+    if (has && l->bypass)
         BR_TRY(limit_needs_bypass(r, n));
-    BR_TRY(read_foldback(r, n));
-    return read_hiccup(r, n);
+    BR_TRY(read_foldback(r, n, l));
+    return read_hiccup(r, n, l);
 }
 
 static int read_supply(br_rd *r, xmlNode *n)
@@ -176,7 +180,9 @@ static int read_supply(br_rd *r, xmlNode *n)
     BR_TRY(br_rd_qty(r, n, "bypass", BR_KIND_CAPACITANCE, &br_range_nonneg, &d->csupply, NULL));
     BR_TRY(br_rd_qty(r, n, "soft-start", BR_KIND_TIME, &br_range_nonneg, &d->tsoft, NULL));
     BR_TRY(br_rd_qty(r, n, "rating", BR_KIND_CURRENT, &br_range_pos, &d->irating, NULL));
-    return read_limit(r, n);
+    const limit_ref l = {&d->limit_mode, &d->ilimit,         &d->ifold, &d->hiccup_delay,
+                         &d->hiccup_off, &d->hiccup_retries, 1};
+    return read_limit(r, n, &l);
 }
 
 /* ---- topology --------------------------------------------------------------- */
@@ -403,6 +409,21 @@ static int read_stages(br_rd *r, xmlNode *n)
 
 /* ---- injections ------------------------------------------------------------------ */
 
+int br_rd_supply_output(br_rd *r, xmlNode *n, br_inject_spec *j)
+{
+    j->v = br_qty_fixed(0.0);
+    j->r = br_qty_fixed(0.0);
+    BR_TRY(br_rd_qty(r, n, "voltage", BR_KIND_VOLTAGE, &br_range_pos, &j->v, NULL));
+    BR_TRY(br_rd_qty(r, n, "resistance", BR_KIND_RESISTANCE, &br_range_nonneg, &j->r, NULL));
+    j->irating = br_qty_fixed(0.0);
+    BR_TRY(br_rd_qty(r, n, "rating", BR_KIND_CURRENT, &br_range_pos, &j->irating, NULL));
+    j->ilimit = j->ifold = j->hiccup_delay = j->hiccup_off = br_qty_fixed(0.0);
+    j->hiccup_retries = -1;
+    const limit_ref l = {&j->limit_mode, &j->ilimit,         &j->ifold, &j->hiccup_delay,
+                         &j->hiccup_off, &j->hiccup_retries, 0};
+    return read_limit(r, n, &l);
+}
+
 /* One isolated supply feeding a rail: read once the stages are known, so
  * that its rail and diode can be checked against them. */
 static int read_injection(br_rd *r, xmlNode *n, br_inject_spec *j)
@@ -424,10 +445,7 @@ static int read_injection(br_rd *r, xmlNode *n, br_inject_spec *j)
         return br_rd_fail(r, n, "rail",
                           "rail %d already has an injection (line %d), expected one per rail",
                           j->rail, dup->line);
-    j->v = br_qty_fixed(0.0);
-    j->r = br_qty_fixed(0.0);
-    BR_TRY(br_rd_qty(r, n, "voltage", BR_KIND_VOLTAGE, &br_range_pos, &j->v, NULL));
-    BR_TRY(br_rd_qty(r, n, "resistance", BR_KIND_RESISTANCE, &br_range_nonneg, &j->r, NULL));
+    BR_TRY(br_rd_supply_output(r, n, j));
     j->start = 0.0;
     BR_TRY(br_rd_value(r, n, "start", BR_KIND_TIME, &br_range_nonneg, &j->start, NULL));
     j->diode = br_design_stage(d, j->rail)->diode; /* the rail's link diode, unless named */

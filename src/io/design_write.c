@@ -224,6 +224,27 @@ static const char *limit_word(int mode)
                                       : "constant";
 }
 
+/* A current limit's attributes: the supply's or an injection's. */
+static void limit(wr *w, int mode, const br_qty *ilimit, const br_qty *ifold, const br_qty *delay,
+                  const br_qty *off, int retries)
+{
+    if (mode != BR_SUPPLY_UNLIMITED) {
+        qty(w, "current-limit", ilimit, &U_A);
+        attr(w, "limit-mode", limit_word(mode));
+    }
+    if (mode == BR_SUPPLY_FOLDBACK)
+        qty(w, "foldback-current", ifold, &U_A);
+    if (mode == BR_SUPPLY_HICCUP) {
+        qty(w, "hiccup-delay", delay, &U_S);
+        qty(w, "hiccup-off", off, &U_S);
+        if (retries >= 0) {
+            char n[24];
+            snprintf(n, sizeof n, "%d", retries);
+            attr(w, "hiccup-retries", n);
+        }
+    }
+}
+
 static void supply(wr *w, const br_design *d)
 {
     open_el(w, 1, "supply");
@@ -233,21 +254,8 @@ static void supply(wr *w, const br_design *d)
     qty(w, "bypass", &d->csupply, &U_F);
     qty(w, "soft-start", &d->tsoft, &U_S);
     qty_given(w, "rating", &d->irating, &U_A);
-    if (d->limit_mode != BR_SUPPLY_UNLIMITED) {
-        qty(w, "current-limit", &d->ilimit, &U_A);
-        attr(w, "limit-mode", limit_word(d->limit_mode));
-    }
-    if (d->limit_mode == BR_SUPPLY_FOLDBACK)
-        qty(w, "foldback-current", &d->ifold, &U_A);
-    if (d->limit_mode == BR_SUPPLY_HICCUP) {
-        qty(w, "hiccup-delay", &d->hiccup_delay, &U_S);
-        qty(w, "hiccup-off", &d->hiccup_off, &U_S);
-        if (d->hiccup_retries >= 0) {
-            char n[24];
-            snprintf(n, sizeof n, "%d", d->hiccup_retries);
-            attr(w, "hiccup-retries", n);
-        }
-    }
+    limit(w, d->limit_mode, &d->ilimit, &d->ifold, &d->hiccup_delay, &d->hiccup_off,
+          d->hiccup_retries);
     put(w, "/>\n");
 }
 
@@ -266,6 +274,9 @@ static void injections(wr *w, const br_design *d)
         qty(w, "resistance", &j->r, &U_OHM);
         attr(w, "diode", d->diodes[j->diode].id);
         value(w, "start", j->start, &U_S);
+        limit(w, j->limit_mode, &j->ilimit, &j->ifold, &j->hiccup_delay, &j->hiccup_off,
+              j->hiccup_retries);
+        qty_given(w, "rating", &j->irating, &U_A);
         put(w, "/>\n");
     }
     put(w, "  </injections>\n");

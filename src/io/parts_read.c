@@ -563,3 +563,13 @@ int br_rd_parts(br_rd *r, xmlNode *parts)
         BR_TRY(read_part(r, n));
     return BR_OK;
 }
+
+int br_rd_part(br_rd *r, xmlNode *n)
+{
+    return read_part(r, n);
+}
+
+const char *br_rd_part_owner(const br_design *d, const char *id)
+{
+    return id_owner(d, id);
+}

@@ -349,7 +349,10 @@ static const rule rules[] = {
      "foldback-current hiccup-delay hiccup-off hiccup-retries soft-start rating",
      "", 0},
     {"bootrung-design", "injections", "", "!injection", 0},
-    {"injections", "injection", "!rail !voltage resistance diode start", "", 0},
+    {"injections", "injection",
+     "!rail !voltage resistance diode start current-limit limit-mode=constant|foldback|hiccup "
+     "foldback-current hiccup-delay hiccup-off hiccup-retries rating",
+     "", 0},
     {"bootrung-design", "topology", "", "!fcml|string", 1},
     {"topology", "fcml", "!levels cfly", "", 0},
     {"topology", "string", "", "!switch", 0},

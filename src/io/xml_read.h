@@ -110,7 +110,16 @@ int br_rd_design(br_rd *r, xmlNode *root);
 int br_rd_line_cycle(br_rd *r, xmlNode *op);
 int br_rd_line_check(br_rd *r, xmlNode *op);
 
+/* An isolated supply's output on element n (design_read.c): voltage
+ * (required), resistance and current limit as an <injection>'s, into j's
+ * v, r and limit fields (the others left as they are). */
+int br_rd_supply_output(br_rd *r, xmlNode *n, br_inject_spec *j);
+
 /* Parts (parts_read.c). */
 int br_rd_parts(br_rd *r, xmlNode *parts);
+/* One part element n of any kind <parts> takes. */
+int br_rd_part(br_rd *r, xmlNode *n);
+/* The kind of part of d whose id is id ("diode", ...), or NULL. */
+const char *br_rd_part_owner(const br_design *d, const char *id);
 
 #endif

@@ -1,5 +1,6 @@
 /* catalog.h - candidate parts for `pick` (link diodes and rail capacitors)
- * and for the exploration (switches by voltage class, and their drivers),
+ * and for the exploration (switches by voltage class, and their drivers;
+ * isolated supply modules for a split chain),
  * with what each costs and the board area it takes.
  *
  * The io layer fills a catalog from our own XML (docs/catalog.md, schema
@@ -31,6 +32,14 @@ typedef struct br_catalog {
     int switch_driver[BR_MAX_PARTS];    /* index into drivers (-1: the design's own) */
     br_driver_part drivers[BR_MAX_PARTS];
     br_offer driver_offer[BR_MAX_PARTS];
+    /* isolated supply modules, for a split chain's second injection: each
+     * one's output as an injection's (voltage with its tolerance, output
+     * resistance, current limit; rail, diode and start unused) */
+    int nmodules;
+    char module_id[BR_MAX_PARTS][BR_ID_MAX];
+    br_inject_spec modules[BR_MAX_PARTS];
+    double module_rating[BR_MAX_PARTS]; /* rated output current, A */
+    br_offer module_offer[BR_MAX_PARTS];
 } br_catalog;
 
 /* Parse and validate the catalog file at path (io layer).  Public

@@ -89,6 +89,17 @@ static int resolve_parts(const br_design *d, const br_chain *c, int k, br_stage 
         st->vinj = j->v.nom;
         st->tinj = j->start;
         st->r_link = j->r.nom;
+        /* field by field: the stage's padding stays as the chain's
+         * allocation left it (chains are compared byte for byte) */
+        br_climit *l = &st->inj_lim;
+        l->mode = j->limit_mode;
+        l->vset = j->v.nom;
+        l->ilimit = j->ilimit.nom;
+        l->ifold = j->ifold.nom;
+        l->hiccup_delay = j->hiccup_delay.nom;
+        l->hiccup_off = j->hiccup_off.nom;
+        l->hiccup_retries = j->hiccup_retries;
+        st->inj_rating = j->irating.nom;
         return br_diode_at(&d->diodes[j->diode], c->tamb, &st->diode, err);
     }
     st->r_link = sp->r_link.nom;

@@ -75,6 +75,17 @@ typedef struct br_aux {
     double tj_max; /* K (0: not given) */
 } br_aux;
 
+/* A supply's current limit as the simulator reads it: the main supply's
+ * (br_chain_supply_limit) or an injection's (br_stage.inj_lim). */
+typedef struct br_climit {
+    int mode;                        /* br_supply_limit */
+    double vset;                     /* its set voltage: fold-back reaches the full
+                                        limit there, V */
+    double ilimit, ifold;            /* the limit, and its fold-back at 0 V, A */
+    double hiccup_delay, hiccup_off; /* s */
+    int hiccup_retries;              /* -1: no end */
+} br_climit;
+
 typedef struct br_stage {
     char name[BR_ID_MAX]; /* switch name, "B1" ... "A1" for an FCML leg */
     br_diode diode;       /* link k (unused for k = 0) */
@@ -97,6 +108,8 @@ typedef struct br_stage {
                                          of link k (diode and r_link are its own) */
     double vinj;                      /* its open-circuit voltage, V */
     double tinj;                      /* it steps on at this time from power-up, s */
+    br_climit inj_lim;                /* its current limit (mode 0: none) */
+    double inj_rating;                /* its rated output current, A (0: not given) */
     int carry[2];                     /* per direction: how the switch carries the
                                          load current while on, +1 forward (drops
                                          +I Rds(on)), -1 reverse (-I Rds(on)), 0 not
@@ -136,6 +149,13 @@ struct br_chain {
 
     int startup_method; /* br_su_method */
 };
+
+/* The main supply's current limit, from the chain's fields. */
+static inline br_climit br_chain_supply_limit(const br_chain *c)
+{
+    return (br_climit){c->limit_mode,   c->vsupply,    c->ilimit,        c->ifold,
+                       c->hiccup_delay, c->hiccup_off, c->hiccup_retries};
+}
 
 /* 1 when some rail is fed by an injection (an isolated supply). */
 int br_chain_injected(const br_chain *c);

@@ -206,6 +206,15 @@ typedef struct br_inject_spec {
     int diode;    /* index into design->diodes: its series diode */
     double start; /* the output steps on at this time from power-up, s */
     int line;     /* line of the <injection> element */
+    /* its current limit, with the supply's attributes and modes
+     * (limit_mode 0, BR_SUPPLY_UNLIMITED: none) */
+    int limit_mode;      /* br_supply_limit */
+    br_qty ilimit;       /* current limit, A (with a limit) */
+    br_qty ifold;        /* fold-back: the limit at 0 V output, A */
+    br_qty hiccup_delay; /* hiccup: time in the limit before it shuts down, s */
+    br_qty hiccup_off;   /* hiccup: time off before a retry, s */
+    int hiccup_retries;  /* hiccup: retries before it stays off (-1: no end) */
+    br_qty irating;      /* rated output current, A (0: not given) */
 } br_inject_spec;
 
 typedef enum br_topology { BR_TOPO_FCML = 0, BR_TOPO_STRING = 1 } br_topology;

@@ -291,7 +291,7 @@ static int add_string(const br_design *d, br_tol_list *l, br_error *err)
     return BR_OK;
 }
 
-/* Each injection's voltage and resistance. */
+/* Each injection's voltage, resistance and current limit. */
 static int add_injections(const br_design *d, br_tol_list *l, br_error *err)
 {
     char name[BR_TOL_NAME];
@@ -301,6 +301,18 @@ static int add_injections(const br_design *d, br_tol_list *l, br_error *err)
         TRY(add(d, l, base + offsetof(br_inject_spec, v), BR_KIND_VOLTAGE, name, err));
         snprintf(name, sizeof name, "injection rail %d: resistance", d->inject[i].rail);
         TRY(add(d, l, base + offsetof(br_inject_spec, r), BR_KIND_RESISTANCE, name, err));
+        snprintf(name, sizeof name, "injection rail %d: rating", d->inject[i].rail);
+        TRY(add(d, l, base + offsetof(br_inject_spec, irating), BR_KIND_CURRENT, name, err));
+        if (d->inject[i].limit_mode == BR_SUPPLY_UNLIMITED)
+            continue;
+        snprintf(name, sizeof name, "injection rail %d: current-limit", d->inject[i].rail);
+        TRY(add(d, l, base + offsetof(br_inject_spec, ilimit), BR_KIND_CURRENT, name, err));
+        snprintf(name, sizeof name, "injection rail %d: foldback-current", d->inject[i].rail);
+        TRY(add(d, l, base + offsetof(br_inject_spec, ifold), BR_KIND_CURRENT, name, err));
+        snprintf(name, sizeof name, "injection rail %d: hiccup-delay", d->inject[i].rail);
+        TRY(add(d, l, base + offsetof(br_inject_spec, hiccup_delay), BR_KIND_TIME, name, err));
+        snprintf(name, sizeof name, "injection rail %d: hiccup-off", d->inject[i].rail);
+        TRY(add(d, l, base + offsetof(br_inject_spec, hiccup_off), BR_KIND_TIME, name, err));
     }
     return BR_OK;
 }

@@ -80,15 +80,16 @@ static int supply_limit_line(const br_chain *c, br_text *out)
  * 4.7 ohm and diode d1, on from 0 s" */
 static int injection_line(const br_chain *c, int k, br_text *out)
 {
-    char a[32], b[32], r[32], t[32], range[80] = "", text[320];
+    char a[32], b[32], r[32], t[32], range[80] = "", text[480], lim[200];
     const br_stage *st = &c->st[k];
     const br_inject_spec *j = c->design ? br_design_injection(c->design, k) : NULL;
     if (j && (j->v.min < st->vinj || j->v.max > st->vinj))
         snprintf(range, sizeof range, " (%s to %s)", si(a, sizeof a, j->v.min, "V"),
                  si(b, sizeof b, j->v.max, "V"));
-    snprintf(text, sizeof text, "rail %d (%s): %s%s through %s and diode %s, on from %s", k,
+    br_inject_limit_words(st, lim, sizeof lim);
+    snprintf(text, sizeof text, "rail %d (%s): %s%s through %s and diode %s, on from %s%s", k,
              st->name, si(a, sizeof a, st->vinj, "V"), range, si(r, sizeof r, st->r_link, "ohm"),
-             st->diode.id, si(t, sizeof t, st->tinj, "s"));
+             st->diode.id, si(t, sizeof t, st->tinj, "s"), lim);
     return br_report_wrap(out, "  injection         ", text, 20);
 }
 

@@ -7,6 +7,7 @@
 #include "report/report_common.h"
 #include "report/table.h"
 
+#include <ctype.h>
 #include <math.h>
 #include <stdio.h>
 #include <string.h>
@@ -56,12 +57,43 @@ static void split_verdict(const br_explore *x, const br_explore_row *r, char *bu
         snprintf(buf, cap, "it still FAILS (%s, margin %s)", crit, a);
 }
 
+/* The split's second supply and its cost, in words: the module chosen
+ * and the sum, or why the split cost leaves it out. */
+static void module_words(const br_explore *x, const br_explore_row *r, char *buf, size_t cap)
+{
+    char a[32];
+    if (r->module >= 0 && x->modules && r->module_passed > 0)
+        snprintf(buf, cap,
+                 "cost %.4g: parts %.4g + isolated supply %s %.4g (the cheapest of the catalog "
+                 "holding the supply's voltage and rated for %s with which the split design is "
+                 "feasible; %d cheaper that suit, it is not)",
+                 r->split_cost, r->cost, x->modules->module_id[r->module], r->module_cost,
+                 br_fmt_si(a, sizeof a, r->inject_need, 3, "A"), r->module_passed);
+    else if (r->module >= 0 && x->modules)
+        snprintf(buf, cap,
+                 "cost %.4g: parts %.4g + isolated supply %s %.4g (the cheapest of the catalog "
+                 "holding the supply's voltage and rated for %s)",
+                 r->split_cost, r->cost, x->modules->module_id[r->module], r->module_cost,
+                 br_fmt_si(a, sizeof a, r->inject_need, 3, "A"));
+    else if (r->modules > 0)
+        snprintf(buf, cap,
+                 "parts cost %.4g; the split cost excludes the second supply: no isolated supply "
+                 "of the catalog holds the supply's voltage within its tolerance and is rated "
+                 "(and limited) for %s",
+                 r->cost, br_fmt_si(a, sizeof a, r->inject_need, 3, "A"));
+    else
+        snprintf(buf, cap,
+                 "parts cost %.4g; the split cost excludes the second supply (the catalog lists "
+                 "no isolated supplies)",
+                 r->cost);
+}
+
 /* A combination that needs a second supply: the one-supply chain's
  * failure, and the split design's verdict and cost. */
 static void split_words(const br_explore *x, const br_explore_row *r, const char *crit, char *buf,
                         size_t cap)
 {
-    char v[256];
+    char v[256], m[400];
     if (r->inject_rail <= 0) {
         snprintf(buf, cap,
                  "fails (%s): rails from rail %d up fall short; needs a second isolated supply "
@@ -70,12 +102,12 @@ static void split_words(const br_explore *x, const br_explore_row *r, const char
         return;
     }
     split_verdict(x, r, v, sizeof v);
+    module_words(x, r, m, sizeof m);
     snprintf(buf, cap,
              "fails with one supply (%s): rails from rail %d up fall short. Split, with a second "
-             "isolated supply injected at rail %d (searched over %d rail%s), %s; parts cost %.4g, "
-             "the second supply not costed (the catalog lists no supplies)",
+             "isolated supply injected at rail %d (searched over %d rail%s), %s; %s",
              crit, r->split_at, r->inject_rail, r->split_tries, r->split_tries == 1 ? "" : "s", v,
-             r->cost);
+             m);
 }
 
 /* Why a combination is not feasible, in words. */
@@ -320,7 +352,7 @@ static int rejected(const br_explore *x, const br_catalog *cat, br_text *out)
     if (x->n == x->nfeasible)
         return BR_OK;
     int rc = br_text_put(out, "not feasible:\n");
-    char lead[128], buf[512];
+    char lead[128], buf[1024];
     for (int i = 0; i < x->n; i++) {
         const br_explore_row *r = &x->rows[i];
         if (r->state == BR_EX_FEASIBLE)
@@ -401,13 +433,27 @@ static int yield_csv(const br_explore_row *r, br_text *out)
                           num(c, sizeof c, r->yhi));
 }
 
+/* The split's second supply: the module, its cost and the split's cost
+ * (the parts' alone, the module column "excluded", where none is costed). */
+static int split_supply_csv(const br_explore *x, const br_explore_row *r, br_text *out)
+{
+    char a[32], b[32];
+    int sp = r->inject_rail > 0, m = sp && r->module >= 0 && x->modules;
+    return br_text_printf(out, ",%s,%s,%s",
+                          m    ? x->modules->module_id[r->module]
+                          : sp ? "excluded"
+                               : "",
+                          num(a, sizeof a, m ? r->module_cost : NAN),
+                          num(b, sizeof b, sp ? (m ? r->split_cost : r->cost) : NAN));
+}
+
 int br_explore_csv(const br_explore *x, const br_catalog *cat, br_text *out)
 {
     int rc = br_text_printf(out,
                             "levels,switch,class_V,need_V,diode,fsw_Hz,state,cost,loss_W,"
                             "margin_V,startup_s,binds,split_at,corners,front,rank,inject_rail,"
                             "split_state,split_margin_V,split_startup_s,split_binds,"
-                            "split_corners%s%s\n",
+                            "split_corners,split_supply,split_supply_cost,split_cost%s%s\n",
                             x->parts ? ",rail_capacitors,link_diodes" : "",
                             x->yield_samples > 0 ? ",samples,pass,fail,undetermined,yield,"
                                                    "yield_lo,yield_hi"
@@ -430,6 +476,7 @@ int br_explore_csv(const br_explore *x, const br_catalog *cat, br_text *out)
                              num(b, sizeof b, sp ? r->split_tstart : NAN),
                              sp && r->split_crit >= 0 ? br_crit_name(r->split_crit) : "",
                              sp && r->split_corners);
+        rc |= split_supply_csv(x, r, out);
         rc |= x->parts ? sized_csv(x, r, out) : BR_OK;
         rc |= x->yield_samples > 0 ? yield_csv(r, out) : BR_OK;
         rc |= br_text_put(out, "\n");
@@ -606,9 +653,10 @@ int br_explore_split_comment(const br_explore *x, const br_catalog *cat, const b
                             design, r->levels, cat->switches[r->sw].id, cat->switch_rating[r->sw],
                             br_fmt_si(a, sizeof a, r->fsw, 4, "Hz"),
                             br_fmt_si(b, sizeof b, x->vbus, 4, "V"), r->split_at, r->inject_rail);
-    rc |= br_text_printf(out,
-                         "Its verdict: %s.\nParts cost %.4g; the second supply is not "
-                         "costed.\n",
-                         v, r->cost);
+    char m[400];
+    module_words(x, r, m, sizeof m);
+    m[0] = (char)toupper((unsigned char)m[0]); /* a sentence of its own here */
+    rc |= br_text_printf(out, "Its verdict: %s.\n", v);
+    rc |= br_report_wrap(out, "", m, 0);
     return rc ? BR_ENOMEM : BR_OK;
 }

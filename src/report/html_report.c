@@ -8,6 +8,7 @@
 #include "report/plot.h"
 #include "report/report_common.h"
 #include "report/startup_report.h"
+#include "report/supply_report.h"
 #include "report/svg.h"
 #include "report/verdict_report.h"
 
@@ -111,12 +112,14 @@ static int operating_point(br_text *out, const br_chain *c)
         const br_stage *st = &c->st[k];
         if (!st->inject)
             continue;
+        char lim[200];
+        br_inject_limit_words(st, lim, sizeof lim);
         snprintf(line, sizeof line,
                  "Injection into rail %d (%s): an isolated supply of %s through %s and diode %s, "
-                 "on from %s; no link from rail %d",
+                 "on from %s%s; no link from rail %d",
                  k, st->name, br_plot_si(a, sizeof a, st->vinj, 4, "V"),
                  br_plot_si(b, sizeof b, st->r_link, 3, "ohm"), st->diode.id,
-                 br_plot_si(d, sizeof d, st->tinj, 3, "s"), k - 1);
+                 br_plot_si(d, sizeof d, st->tinj, 3, "s"), lim, k - 1);
         rc |= tag_text(out, "<p>", line, "</p>\n");
     }
     return rc;

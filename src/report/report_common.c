@@ -5,6 +5,7 @@
 #include "report/caution.h"
 #include "report/fmt.h"
 #include "report/line_report.h"
+#include "report/supply_report.h"
 
 #include <math.h>
 #include <stdio.h>
@@ -47,15 +48,16 @@ static int injection_lines(const br_chain *c, br_text *out)
     int rc = 0;
     for (int k = 1; k < c->n; k++) {
         const br_stage *st = &c->st[k];
-        char v[24], r[24], t[24], lead[64], text[240];
+        char v[24], r[24], t[24], lead[64], text[400], lim[200];
         if (!st->inject)
             continue;
         snprintf(lead, sizeof lead, "  injection into rail %d (%s): ", k, st->name);
+        br_inject_limit_words(st, lim, sizeof lim);
         snprintf(text, sizeof text,
-                 "isolated supply %s through %s and diode %s, on from %s; no link from rail %d",
+                 "isolated supply %s through %s and diode %s, on from %s%s; no link from rail %d",
                  br_fmt_si(v, sizeof v, st->vinj, 4, "V"),
                  br_fmt_si(r, sizeof r, st->r_link, 3, "ohm"), st->diode.id,
-                 br_fmt_si(t, sizeof t, st->tinj, 3, "s"), k - 1);
+                 br_fmt_si(t, sizeof t, st->tinj, 3, "s"), lim, k - 1);
         rc |= br_report_wrap(out, lead, text, 4);
     }
     return rc;

@@ -8,9 +8,15 @@
 
 const char *br_supply_limit_words(const br_chain *c, char *buf, size_t cap)
 {
+    br_climit l = br_chain_supply_limit(c);
+    return br_limit_words(&l, buf, cap);
+}
+
+const char *br_limit_words(const br_climit *c, char *buf, size_t cap)
+{
     char a[32], b[32], t[32];
     br_fmt_si(a, sizeof a, c->ilimit, 4, "A");
-    switch (c->limit_mode) {
+    switch (c->mode) {
     case BR_SUPPLY_CONSTANT:
         snprintf(buf, cap, "%s, constant current", a);
         break;
@@ -30,6 +36,19 @@ const char *br_supply_limit_words(const br_chain *c, char *buf, size_t cap)
     default:
         snprintf(buf, cap, "none");
     }
+    return buf;
+}
+
+const char *br_inject_limit_words(const br_stage *st, char *buf, size_t cap)
+{
+    char w[128], a[32];
+    int n = 0;
+    buf[0] = '\0';
+    if (st->inj_lim.mode != BR_SUPPLY_UNLIMITED)
+        n = snprintf(buf, cap, ", current limit %s", br_limit_words(&st->inj_lim, w, sizeof w));
+    if (st->inj_rating > 0 && n >= 0 && (size_t)n < cap)
+        snprintf(buf + n, cap - (size_t)n, ", rated %s",
+                 br_fmt_si(a, sizeof a, st->inj_rating, 4, "A"));
     return buf;
 }
 

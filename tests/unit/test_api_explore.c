@@ -293,7 +293,8 @@ static void test_split_file(void)
         br_design *d = NULL, *sd = NULL;
         br_text *comment = br_text_create(), *want = br_text_create();
         CU_ASSERT_EQUAL_FATAL(br_explore_design(s.t, &s.o, r, &d, &err), BR_OK);
-        CU_ASSERT_EQUAL_FATAL(br_explore_split_design(d, r->inject_rail, &sd, &err), BR_OK);
+        const br_inject_spec *m = r->module >= 0 ? &ref->modules->modules[r->module] : NULL;
+        CU_ASSERT_EQUAL_FATAL(br_explore_split_design(d, r->inject_rail, m, &sd, &err), BR_OK);
         CU_ASSERT_EQUAL(br_explore_split_comment(ref, s.cat, r, leg, comment), BR_OK);
         CU_ASSERT_EQUAL(br_design_write(sd, br_text_data(comment), want, &err), BR_OK);
         CU_ASSERT_EQUAL(br_explore_split_file(x, i, got, &err), BR_OK);

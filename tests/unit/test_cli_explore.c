@@ -8,6 +8,7 @@
 #include "runbin.h"
 #include "testkit.h"
 
+#include <ctype.h>
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -66,6 +67,8 @@ static const char *csv_line(const char *csv, const char *key)
 }
 
 /* The field-th comma-separated field of a CSV line, as a number. */
+static int has_words(const char *text, const char *want);
+
 static double field(const char *line, int k)
 {
     for (int i = 0; i < k && line; i++) {
@@ -356,7 +359,8 @@ static void test_split(void)
     CU_ASSERT_EQUAL(r.status, 0);
     CU_ASSERT_TRUE(has(r.out, "9 levels, gan-400v-g, 60.0 kHz: fails with one supply"));
     CU_ASSERT_TRUE(has(r.out, "Split, with a second isolated supply injected at rail "));
-    CU_ASSERT_TRUE(has(r.out, "the second supply not costed"));
+    CU_ASSERT_TRUE(has_words(r.out, "the split cost excludes the second supply (the catalog "
+                                    "lists no isolated supplies)"));
     done(&r);
     char *csv = br_test_slurp(f.csv, NULL);
     CU_ASSERT_PTR_NOT_NULL_FATAL(csv);
@@ -366,6 +370,9 @@ static void test_split(void)
     CU_ASSERT_TRUE(strstr(l, ",split,") != NULL && strstr(l, ",split,") < strchr(l, '\n'));
     int split_at = (int)field(l, 12), rail = (int)field(l, 16);
     CU_ASSERT_EQUAL(split_at, 8);
+    /* no modules listed: the split cost is the parts' alone, said so */
+    CU_ASSERT_TRUE(strstr(l, ",excluded,,") != NULL && strstr(l, ",excluded,,") < strchr(l, '\n'));
+    BR_ASSERT_NEAR(field(l, 24), field(l, 7), 1e-9);
     CU_ASSERT_TRUE(rail >= 1 && rail <= split_at);
     free(csv);
     /* rows are numbered in the order judged: 9 levels x (200, 400, 650 V) */
@@ -375,11 +382,97 @@ static void test_split(void)
     CU_ASSERT_PTR_NOT_NULL_FATAL(xml);
     snprintf(want, sizeof want, "<injection rail=\"%d\"", rail);
     CU_ASSERT_TRUE(has(xml, want));
-    CU_ASSERT_TRUE(has(xml, "the second supply is not costed"));
+    CU_ASSERT_TRUE(has(xml, "the split cost excludes the second"));
     free(xml);
     run_result c = run((const char *[]){"check", "--quiet", path, NULL});
     CU_ASSERT_TRUE(c.status == 0 || c.status == 1); /* it loads: not bad input */
     done(&c);
+    files_drop(&f);
+}
+
+#define MODULES BR_SOURCE_DIR "/tests/data/switches-modules.xml"
+
+/* text has the words of want, whatever the wrapping between them. */
+static int has_words(const char *text, const char *want)
+{
+    size_t n = strlen(text);
+    char *flat = malloc(n + 1), *q = flat;
+    if (!flat)
+        return 0;
+    for (const char *p = text; *p; p++)
+        if (!isspace((unsigned char)*p) || (q > flat && q[-1] != ' '))
+            *q++ = isspace((unsigned char)*p) ? ' ' : *p;
+    *q = '\0';
+    int ok = has(flat, want);
+    free(flat);
+    return ok;
+}
+
+/* The cheapest module that suits: the catalog's modules (tests/data/
+ * switches-modules.xml) are a 15 V +-5 % one rated 20 mA (1.5), a 12 V
+ * +-5 % one rated 200 mA (0.8), a 15 V +-5 % one rated 100 mA behind a
+ * hiccup limit of 150 mA +-10 % (3.2) and a 15 V +-5 % one rated 250 mA
+ * (4.5).  For 41 mA on a 15 V chain: not the 20 mA one (too weak, though
+ * cheaper), not the 12 V one (its tolerance does not hold 15 V), the
+ * 100 mA one; after it, the 250 mA one; for 140 mA the 250 mA one (the
+ * 100 mA one's rating falls short); for 300 mA none. */
+static void test_module_choice(void)
+{
+    br_catalog *cat = NULL;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_catalog_load(MODULES, &cat, &err), BR_OK);
+    CU_ASSERT_EQUAL(br_explore_module_choose(cat, 15.0, 41e-3, -1), 2);
+    CU_ASSERT_EQUAL(br_explore_module_choose(cat, 15.0, 41e-3, 2), 3);
+    CU_ASSERT_EQUAL(br_explore_module_choose(cat, 15.0, 41e-3, 3), -1);
+    CU_ASSERT_EQUAL(br_explore_module_choose(cat, 15.0, 10e-3, -1), 0);
+    CU_ASSERT_EQUAL(br_explore_module_choose(cat, 15.0, 140e-3, -1), 3);
+    CU_ASSERT_EQUAL(br_explore_module_choose(cat, 15.0, 300e-3, -1), -1);
+    CU_ASSERT_EQUAL(br_explore_module_choose(cat, 12.0, 100e-3, -1), 1);
+    br_explore_opts o;
+    br_explore_opts_default(&o);
+    o.cat = cat;
+    CU_ASSERT_PTR_EQUAL(br_explore_module_catalog(&o), cat);
+    br_catalog_free(cat);
+}
+
+/* The split of test_split with the modules' catalog: the cheapest module
+ * rated for what the rails above the injection draw (their drivers'
+ * running and isolator currents, gate charge and regulators: about 3.3 mA
+ * a rail, a quarter more) is taken, the 100 mA one, and costed: the split
+ * cost is the parts' plus the module's, in the report and the CSV; the
+ * split design carries its voltage, tolerance and limit, its resistance
+ * in series with the link resistor (1 ohm + 0.5 ohm). */
+static void test_split_module(void)
+{
+    files f;
+    files_make(&f);
+    run_result r =
+        run((const char *[]){"explore", LEG, "--catalog", MODULES, "--vin", "1.1k", "--levels",
+                             "9:9", "--fsw", "60k", "--csv", f.csv, "--designs", f.dir, NULL});
+    CU_ASSERT_EQUAL(r.status, 0);
+    CU_ASSERT_TRUE(has_words(r.out, "+ isolated supply iso-15v-100ma 3.2 (the cheapest"));
+    done(&r);
+    char *csv = br_test_slurp(f.csv, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(csv);
+    CU_ASSERT_TRUE(
+        has(csv, ",split_binds,split_corners,split_supply,split_supply_cost,split_cost"));
+    const char *l = csv_line(csv, "9,gan-400v-g,");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(l);
+    CU_ASSERT_TRUE(strstr(l, ",iso-15v-100ma,") && strstr(l, ",iso-15v-100ma,") < strchr(l, '\n'));
+    double parts = field(l, 7), module = field(l, 23), split = field(l, 24);
+    BR_ASSERT_NEAR(module, 3.2, 1e-9); /* the catalog's cost of iso-15v-100ma */
+    CU_ASSERT_TRUE(parts > 0.0);
+    BR_ASSERT_NEAR(split, parts + module, 1e-9);
+    free(csv);
+    char path[96];
+    snprintf(path, sizeof path, "%s/explore-split-2.xml", f.dir);
+    char *xml = br_test_slurp(path, NULL);
+    CU_ASSERT_PTR_NOT_NULL_FATAL(xml);
+    CU_ASSERT_TRUE(has(xml, "voltage=\"14.25/15/15.75 V\" resistance=\"1.5 ohm\""));
+    CU_ASSERT_TRUE(has(xml, "current-limit=\"0.135/0.15/"));
+    CU_ASSERT_TRUE(has(xml, "limit-mode=\"hiccup\""));
+    CU_ASSERT_TRUE(has_words(xml, "parts 80 + isolated supply iso-15v-100ma 3.2"));
+    free(xml);
     files_drop(&f);
 }
 
@@ -522,11 +615,11 @@ static void test_yield(void)
         if ((int)field(p + 1, 15) == 1)
             line = p + 1;
     CU_ASSERT_PTR_NOT_NULL_FATAL(line);
-    long pass = (long)field(line, 25), fail = (long)field(line, 26), und = (long)field(line, 27);
-    CU_ASSERT_EQUAL((long)field(line, 24), 6);
+    long pass = (long)field(line, 28), fail = (long)field(line, 29), und = (long)field(line, 30);
+    CU_ASSERT_EQUAL((long)field(line, 27), 6);
     CU_ASSERT_EQUAL(pass + fail + und, 6);
     if (pass == 6)
-        BR_ASSERT_NEAR(field(line, 29), pow(0.025, 1.0 / 6.0), 1e-9);
+        BR_ASSERT_NEAR(field(line, 32), pow(0.025, 1.0 / 6.0), 1e-9);
     char design[96], want[128];
     snprintf(design, sizeof design, "%s/explore-1.xml", f.dir);
     r = run((const char *[]){"yield", "--startup", "--samples", "6", "--seed", "3", design, NULL});
@@ -580,6 +673,8 @@ int main(void)
         {"the front's files never overwrite the template", test_designs_not_over_input},
         {"the capacitor scaling rule by hand", test_scale_caps},
         {"a chain too long for one supply, judged split", test_split},
+        {"the split's module: the cheapest that suits", test_module_choice},
+        {"the split's module chosen and costed", test_split_module},
         {"sizing: the sized capacitor is the smallest that passes", test_sized_smallest},
         {"--yield: the yield verb's counts on the rank-1 design", test_yield},
         {"one thread or three: the same rows", test_threads},

@@ -173,6 +173,180 @@ static void test_injection_starts_late(void)
     br_design_free(d);
 }
 
+/* An injection's rating is judged as the supply's: its mean current in
+ * steady state, 9 mA by the charge balance of test_injected_rail_by_hand
+ * (rails 3 to 5 at 3 mA each), against it, in the supply row, bound at
+ * the rail it feeds.  Rated 5 mA it fails by about 4 mA; rated 20 mA it
+ * passes by about 11 mA; without a rating (and a supply without one) the
+ * row does not apply. */
+static void test_injection_rating(void)
+{
+    static const double rating[3] = {5e-3, 20e-3, 0.0};
+    for (int i = 0; i < 3; i++) {
+        solved s;
+        br_design *d = leg(4, 3, 15.0, 10.0);
+        d->inject[0].irating = br_qty_fixed(rating[i]);
+        CU_ASSERT_EQUAL_FATAL(solve(&s, d), 0);
+        br_verdict v;
+        br_verdict_make(s.c, NULL, &s.f, 1, &v);
+        const br_verdict_row *r = &v.row[BR_CRIT_SUPPLY];
+        CU_ASSERT_EQUAL(r->applies, rating[i] > 0);
+        if (rating[i] > 0) {
+            CU_ASSERT_EQUAL(r->stage, 3);
+            BR_ASSERT_REL(r->figure, 9e-3, 2e-3);
+            BR_ASSERT_NEAR(r->margin, rating[i] - r->figure, 1e-12);
+            CU_ASSERT_EQUAL(r->pass, rating[i] > 9e-3);
+        }
+        done(&s);
+    }
+}
+
+/* A 3-level leg (4 switches) on 1 uF rails with a 12 V injection through
+ * 1 ohm into its top rail, 3, behind a current limit of `mode` at 10 mA
+ * (fold-back: 2 mA at 0 V). */
+static br_design *limited(int mode)
+{
+    br_design *d = leg(3, 3, 12.0, 1.0);
+    d->caps[0].c = br_qty_fixed(1e-6);
+    br_inject_spec *j = &d->inject[0];
+    j->limit_mode = mode;
+    j->ilimit = br_qty_fixed(10e-3);
+    j->ifold = br_qty_fixed(mode == BR_SUPPLY_FOLDBACK ? 2e-3 : 0.0);
+    j->hiccup_delay = br_qty_fixed(100e-6);
+    j->hiccup_off = br_qty_fixed(1e-3);
+    j->hiccup_retries = 0;
+    return d;
+}
+
+/* Rail 3's capacitor voltage at t1 and t2 of a cold start. */
+static int top_rail(br_design *d, double t1, double t2, double v[2])
+{
+    br_chain *c = NULL;
+    br_sim *s = NULL;
+    br_error err;
+    double vc[BR_MAX_SWITCHES];
+    int rc = br_chain_build(d, &c, &err) == BR_OK &&
+                     br_sim_create(c, BR_DIRI_NONE, BR_INTEG_FAST, &s, &err) == BR_OK
+                 ? 0
+                 : -1;
+    if (rc == 0) {
+        br_sim_reset_cold(s);
+        rc |= br_sim_run_until(s, t1, &err) != BR_OK;
+        br_sim_vc(s, vc);
+        v[0] = vc[3];
+        rc |= br_sim_run_until(s, t2, &err) != BR_OK;
+        br_sim_vc(s, vc);
+        v[1] = vc[3];
+    }
+    br_sim_free(s);
+    br_chain_free(c);
+    br_design_free(d);
+    return rc;
+}
+
+/* Hand calculation.  Without a limit rail 3 charges through 1 ohm into
+ * 1 uF (a time constant of 1 us) to about 11.4 V within tens of
+ * microseconds.  At a constant 10 mA it charges at the limit: its driver,
+ * held in UVLO below 7.5 V, takes its standby 0.2 mA, so the capacitor
+ * takes 9.8 mA and
+ *   v(t) = I t / C = 9.8 mA x t / 1 uF:  2.94 V at 300 us, 4.90 V at 500 us
+ * (t = C dV / I: 500 us for the 4.9 V).  Nothing rides above rail 3 (the
+ * top), and the test capacitor has no DC-bias table. */
+static void test_constant_limit_charges_at_limit(void)
+{
+    double v[2];
+    CU_ASSERT_EQUAL_FATAL(top_rail(limited(BR_SUPPLY_UNLIMITED), 300e-6, 500e-6, v), 0);
+    CU_ASSERT(v[0] > 11.0); /* unlimited: charged long since */
+    CU_ASSERT_EQUAL_FATAL(top_rail(limited(BR_SUPPLY_CONSTANT), 300e-6, 500e-6, v), 0);
+    BR_ASSERT_REL(v[0], 9.8e-3 * 300e-6 / 1e-6, 5e-3);
+    BR_ASSERT_REL(v[1], 9.8e-3 * 500e-6 / 1e-6, 5e-3);
+}
+
+/* Hand calculation.  Fold-back from 10 mA at the set 12 V to 2 mA at
+ * 0 V, read at the rail: I(v) = 2 mA + (8 mA / 12 V) v.  Less the
+ * standby 0.2 mA, C dv/dt = a + b v with a = 1.8 mA, b = 0.6667 mA/V:
+ *   v(t) = (a / b) (exp(b t / C) - 1)
+ *   at 1 ms: 2.7 V x (exp(0.6667) - 1) = 2.7 V x 0.94773 = 2.5589 V. */
+static void test_foldback_limit(void)
+{
+    double v[2];
+    CU_ASSERT_EQUAL_FATAL(top_rail(limited(BR_SUPPLY_FOLDBACK), 500e-6, 1e-3, v), 0);
+    double a = 1.8e-3, b = 8e-3 / 12.0;
+    BR_ASSERT_NEAR(a / b * (exp(b * 1e-3 / 1e-6) - 1.0), 2.5589, 1e-4); /* as written out */
+    BR_ASSERT_REL(v[1], a / b * (exp(b * 1e-3 / 1e-6) - 1.0), 5e-3);
+    BR_ASSERT_REL(v[0], a / b * (exp(b * 500e-6 / 1e-6) - 1.0), 5e-3);
+}
+
+/* Hiccup: 100 us in the limit and the module turns off; with no retry
+ * it stays off.  Rail 3 takes 9.8 mA x 100 us / 1 uF = 0.98 V and then
+ * only loses its driver's standby current: it never starts. */
+static void test_hiccup_limit_stays_off(void)
+{
+    double v[2];
+    CU_ASSERT_EQUAL_FATAL(top_rail(limited(BR_SUPPLY_HICCUP), 99e-6, 2e-3, v), 0);
+    BR_ASSERT_REL(v[0], 9.8e-3 * 99e-6 / 1e-6, 1e-2);
+    CU_ASSERT(v[1] < 0.99); /* off: nothing more */
+}
+
+/* The start-up of a limited injection: its rail starts at the limit
+ * current (the link's peak forward current is the limit, not the inrush
+ * of 12 V through 1 ohm) and later than without the limit; its time to
+ * reach UVLO rising, 7.5 V, is at least C dV / I = 1 uF x 7.5 V / 9.8 mA
+ * = 765 us. */
+static void test_limited_startup(void)
+{
+    br_error err;
+    br_startup su;
+    br_startup_opts so = {0};
+    br_design *d = limited(BR_SUPPLY_CONSTANT);
+    br_chain *c = NULL;
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_startup_run(c, &so, &su, &err), BR_OK);
+    CU_ASSERT(su.complete);
+    CU_ASSERT(su.st[3].ipeak <= 10e-3 * (1.0 + 1e-6));
+    CU_ASSERT(su.st[3].ipeak > 9.9e-3);
+    CU_ASSERT(su.st[3].first_enable > 765e-6);
+    CU_ASSERT(su.st[3].first_enable < 800e-6);
+    br_chain_free(c);
+    br_design_free(d);
+}
+
+/* Envelope following behind a limited injection: a 4-level leg on
+ * 100 uF rails whose injection into rail 3 (feeding rails 3 to 5), limited
+ * to 50 mA, starts at 10 ms: the lower part starts and settles first, and
+ * the envelope steps over its quiet periods until the injection starts
+ * (off, the injection cannot be near its limit), then over none while it
+ * charges its rails at the limit; its start-up time is that of
+ * integrating every period (to 1 %). */
+static void test_limited_envelope(void)
+{
+    double t[2];
+    long stepped[2];
+    for (int m = 0; m < 2; m++) {
+        br_design *d = leg(4, 3, 15.0, 10.0);
+        br_inject_spec *j = &d->inject[0];
+        j->limit_mode = BR_SUPPLY_CONSTANT;
+        j->ilimit = br_qty_fixed(50e-3);
+        j->start = 10e-3;
+        br_chain *c = NULL;
+        br_error err;
+        br_startup su;
+        br_startup_opts so = {0};
+        CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+        c->startup_method = m ? BR_SU_PERIODS : BR_SU_ENVELOPE;
+        c->startup_max = 0.5;
+        CU_ASSERT_EQUAL_FATAL(br_startup_run(c, &so, &su, &err), BR_OK);
+        CU_ASSERT_TRUE(su.complete);
+        t[m] = su.t_total;
+        stepped[m] = su.periods_stepped;
+        br_chain_free(c);
+        br_design_free(d);
+    }
+    CU_ASSERT_TRUE(stepped[0] > 0);
+    CU_ASSERT_EQUAL(stepped[1], 0);
+    BR_ASSERT_REL(t[0], t[1], 1e-2);
+}
+
 /* A design built by hand (or a template on a shorter leg) with an
  * injection beyond its floating rails is refused, not silently ignored. */
 static void test_injection_beyond_leg(void)
@@ -195,6 +369,12 @@ int main(void)
         {"split chain holds", test_split_chain_holds},
         {"injection starts late", test_injection_starts_late},
         {"an injection beyond the leg is refused", test_injection_beyond_leg},
+        {"constant limit: the rail charges at the limit", test_constant_limit_charges_at_limit},
+        {"fold-back limit", test_foldback_limit},
+        {"hiccup limit without retries stays off", test_hiccup_limit_stays_off},
+        {"start-up behind a limited injection", test_limited_startup},
+        {"an injection's rating judged as the supply's", test_injection_rating},
+        {"envelope following behind a limited injection", test_limited_envelope},
         {NULL, NULL}};
     return br_test_main("engine_inject", cases);
 }

@@ -167,6 +167,9 @@ static const bad_case corpus[] = {
     {"injection-voltage-bare.xml", 7, "injection: voltage", "without a unit"},
     {"injection-voltage-missing.xml", 7, "injection: voltage", "required attribute missing"},
     {"injection-start-tolerance.xml", 7, "injection: start", "no tolerance allowed"},
+    {"injection-foldback-missing.xml", 7, "injection: foldback-current",
+     "missing, expected the limit at 0 V output"},
+    {"injection-limit-mode-alone.xml", 7, "injection: limit-mode", "given without current-limit"},
 };
 
 #define NCORPUS ((int)(sizeof corpus / sizeof corpus[0]))

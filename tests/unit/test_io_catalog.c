@@ -12,7 +12,8 @@ static int load(const char *xml, br_catalog **out, br_error *err)
     return br_catalog_load_memory(xml, strlen(xml), "test.xml", out, err);
 }
 
-/* The example catalog: twelve capacitors, eight diodes, each with its
+/* The example catalog: twelve capacitors, eight diodes (and three
+ * isolated supply modules), each with its
  * offer; parts read with the design file's rules (tolerances, bias
  * tables, forward points, recovery charge). */
 static void test_example(void)
@@ -24,6 +25,7 @@ static void test_example(void)
     CU_ASSERT_STRING_EQUAL(cat->name, "generic-stock");
     CU_ASSERT_EQUAL(cat->ncaps, 12);
     CU_ASSERT_EQUAL(cat->ndiodes, 8);
+    CU_ASSERT_EQUAL(cat->nmodules, 3);
     CU_ASSERT_STRING_EQUAL(cat->caps[0].id, "x7r-1u0-25v");
     BR_ASSERT_NEAR(cat->caps[0].c.min, 0.9e-6, 1e-15);
     BR_ASSERT_NEAR(cat->cap_offer[0].cost, 0.012, 1e-12);
@@ -128,6 +130,55 @@ static void test_switch_refusals(void)
                 "switch q1: rating", "above 0 V");
 }
 
+/* Isolated supply modules: the output as an injection's (voltage with
+ * its tolerance, resistance, limit), the rated current, the offer. */
+static void test_modules(void)
+{
+    br_catalog *cat = NULL;
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(
+        br_catalog_load(BR_SOURCE_DIR "/tests/data/switches-modules.xml", &cat, &err), BR_OK);
+    CU_ASSERT_EQUAL(cat->nswitches, 3);
+    CU_ASSERT_EQUAL_FATAL(cat->nmodules, 4);
+    CU_ASSERT_STRING_EQUAL(cat->module_id[0], "iso-15v-20ma");
+    BR_ASSERT_NEAR(cat->modules[0].v.min, 14.25, 1e-12);
+    BR_ASSERT_NEAR(cat->modules[0].v.max, 15.75, 1e-12);
+    BR_ASSERT_NEAR(cat->modules[0].r.nom, 1.0, 1e-12);
+    CU_ASSERT_EQUAL(cat->modules[0].limit_mode, BR_SUPPLY_CONSTANT);
+    BR_ASSERT_NEAR(cat->module_rating[0], 20e-3, 1e-15);
+    CU_ASSERT_EQUAL(cat->modules[1].limit_mode, BR_SUPPLY_UNLIMITED);
+    CU_ASSERT_EQUAL(cat->modules[2].limit_mode, BR_SUPPLY_HICCUP);
+    BR_ASSERT_NEAR(cat->modules[2].ilimit.min, 0.135, 1e-12);
+    BR_ASSERT_NEAR(cat->modules[2].hiccup_off.nom, 20e-3, 1e-15);
+    BR_ASSERT_NEAR(cat->module_offer[2].cost, 3.2, 1e-12);
+    BR_ASSERT_NEAR(cat->module_offer[3].area, 120.0, 1e-12);
+    br_catalog_free(cat);
+}
+
+static void test_module_refusals(void)
+{
+    expect_fail("<isolated-supply id=\"m1\" voltage=\"15\" rating=\"50 mA\" cost=\"1\" "
+                "area-mm2=\"2\"/>\n",
+                3, "isolated-supply m1: voltage", "without a unit");
+    expect_fail("<isolated-supply id=\"m1\" voltage=\"15 V\" rating=\"0 A\" cost=\"1\" "
+                "area-mm2=\"2\"/>\n",
+                3, "isolated-supply m1: rating", "got '0 A', expected a value > 0");
+    expect_fail("<isolated-supply id=\"m1\" voltage=\"15 V\" cost=\"1\" area-mm2=\"2\"/>\n", 3,
+                NULL, "catalog schema");
+    expect_fail("<isolated-supply id=\"m1\" voltage=\"15 V\" rating=\"50 mA\" "
+                "current-limit=\"80 mA\" limit-mode=\"foldback\" cost=\"1\" area-mm2=\"2\"/>\n",
+                3, "isolated-supply m1: foldback-current", "missing");
+    expect_fail("<capacitor id=\"m1\" c=\"1 uF\" cost=\"1\" area-mm2=\"2\"/>\n"
+                "<isolated-supply id=\"m1\" voltage=\"15 V\" rating=\"50 mA\" cost=\"1\" "
+                "area-mm2=\"2\"/>\n",
+                4, "isolated-supply m1: id", "already the id of a capacitor");
+    expect_fail("<isolated-supply id=\"m1\" voltage=\"15 V\" rating=\"50 mA\" cost=\"1\" "
+                "area-mm2=\"2\"/>\n"
+                "<isolated-supply id=\"m1\" voltage=\"12 V\" rating=\"50 mA\" cost=\"1\" "
+                "area-mm2=\"2\"/>\n",
+                4, "isolated-supply m1: id", "already the id of an isolated-supply");
+}
+
 static void test_document_refusals(void)
 {
     br_catalog *cat;
@@ -157,6 +208,8 @@ int main(void)
         {"document refusals", test_document_refusals},
         {"the switch catalog", test_switches},
         {"switch refusals with line and field", test_switch_refusals},
+        {"isolated supply modules", test_modules},
+        {"isolated supply refusals with line and field", test_module_refusals},
         {NULL, NULL},
     };
     return br_test_main("io_catalog", cases);

@@ -132,6 +132,43 @@ static void round_trip(const char *path)
     br_design_free(b);
 }
 
+/* An injection's current limit reads as the supply's (its attributes
+ * and modes); its current limit is a toleranced parameter and the chain
+ * takes it at its nominal value, with the module's voltage as the set
+ * point; a round trip keeps it (test_data). */
+static void test_injection_limit_read(void)
+{
+    br_design *a = load(BR_SOURCE_DIR "/tests/data/split-limited.xml");
+    CU_ASSERT_PTR_NOT_NULL_FATAL(a);
+    const br_inject_spec *j = &a->inject[0];
+    CU_ASSERT_EQUAL(j->limit_mode, BR_SUPPLY_HICCUP);
+    BR_ASSERT_NEAR(j->ilimit.nom, 0.1, 1e-12);
+    BR_ASSERT_NEAR(j->ilimit.min, 0.09, 1e-12);
+    BR_ASSERT_NEAR(j->hiccup_delay.nom, 1e-3, 1e-15);
+    BR_ASSERT_NEAR(j->hiccup_off.nom, 10e-3, 1e-15);
+    CU_ASSERT_EQUAL(j->hiccup_retries, 5);
+    BR_ASSERT_NEAR(j->irating.nom, 0.08, 1e-12);
+    CU_ASSERT_EQUAL(a->limit_mode, BR_SUPPLY_CONSTANT); /* the supply's own, apart */
+    br_tol_list *l = malloc(sizeof *l);
+    br_error err;
+    CU_ASSERT_EQUAL_FATAL(br_tol_list_build(a, l, &err), BR_OK);
+    int found = 0;
+    for (int i = 0; i < l->n; i++)
+        found += strcmp(l->p[i].name, "injection rail 4: current-limit") == 0;
+    CU_ASSERT_EQUAL(found, 1);
+    free(l);
+    br_chain *c = calloc(1, sizeof *c);
+    CU_ASSERT_EQUAL_FATAL(br_chain_build_nominal(a, c, &err), BR_OK);
+    CU_ASSERT_EQUAL(c->st[4].inj_lim.mode, BR_SUPPLY_HICCUP);
+    BR_ASSERT_NEAR(c->st[4].inj_lim.ilimit, 0.1, 1e-12);
+    BR_ASSERT_NEAR(c->st[4].inj_lim.vset, 15.0, 1e-12);
+    CU_ASSERT_EQUAL(c->st[4].inj_lim.hiccup_retries, 5);
+    BR_ASSERT_NEAR(c->st[4].inj_rating, 0.08, 1e-12);
+    CU_ASSERT_EQUAL(c->st[3].inj_lim.mode, BR_SUPPLY_UNLIMITED);
+    free(c);
+    br_design_free(a);
+}
+
 static void test_examples(void)
 {
     round_trip(BR_SOURCE_DIR "/examples/demo-3level.xml");
@@ -178,6 +215,7 @@ static void test_data(void)
 {
     static const char *const files[] = {"tests/data/fcml5-clamped.xml",
                                         "tests/data/hiccup-startup.xml",
+                                        "tests/data/split-limited.xml",
                                         "tests/data/line-3level.xml",
                                         "tests/data/ref-c1.xml",
                                         "tests/data/ref-c8.xml",
@@ -215,6 +253,7 @@ int main(void)
 {
     static const br_test_case cases[] = {
         {"an injection read from its file", test_injection_read},
+        {"an injection's current limit read from its file", test_injection_limit_read},
         {"examples", test_examples},
         {"data and extreme designs", test_data},
         {"comment and escapes", test_comment_and_escapes},
