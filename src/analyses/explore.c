@@ -601,10 +601,14 @@ typedef struct rows_ctx {
 } rows_ctx;
 
 /* Row i, when the shard judges it (on a worker thread of br_explore_pool:
- * it writes row i alone). */
-static int judge_one(void *ctx, int i, br_error *err)
+ * it writes row i alone).  Items are handed out from the last row, the
+ * longest chains, which take longest to judge: the short ones then fill
+ * the threads at the end rather than one long chain running alone (no
+ * row depends on another, so the order changes no result). */
+static int judge_one(void *ctx, int item, br_error *err)
 {
     const rows_ctx *c = ctx;
+    int i = c->x->n - 1 - item;
     if (!br_explore_shard_has(c->o, i))
         return BR_OK;
     br_evaluation *e = malloc(sizeof *e);

@@ -16,9 +16,14 @@ typedef struct sizer {
     br_size *z;
     br_spread *base; /* its spread, cold starts included */
     br_meter *meter;
-    int ncand;                        /* admissible catalog capacitors */
-    int cand[BR_MAX_PARTS];           /* in order of capacitance, then cost */
-    br_cap_part own[BR_MAX_SWITCHES]; /* each rail's part in the design as given */
+    int ncand;                          /* admissible catalog capacitors */
+    int cand[BR_MAX_PARTS];             /* in order of capacitance, then cost */
+    br_cap_part own[BR_MAX_SWITCHES];   /* each rail's part in the design as given */
+    br_design *judged;                  /* the design that qualified whole last (a copy, owned) */
+    br_size_verdict judged_v;           /* its verdict */
+    int warm;                           /* a value judged at the nominal point settled: */
+    double warm_x[2][BR_SPREAD_NX];     /* its steady state, where the next one starts */
+    double warm_tj[2][BR_MAX_SWITCHES]; /* and its junction temperatures */
 } sizer;
 
 void br_size_opts_default(br_size_opts *o)
@@ -154,11 +159,46 @@ static int judge_spread(br_spread *s, int all, br_size_verdict *v, int *undet, b
     return rc;
 }
 
+/* How far a value is judged: the steady-state criteria only; every
+ * criterion, the cold start included; or (the nominal point only) every
+ * criterion with the cold start simulated only when the steady state
+ * leaves the value able to qualify (br_spread_opts.lazy_startup: a value
+ * it rules out is judged on its steady state alone, which already says
+ * that it does not qualify). */
+enum { BY_STEADY = 0, BY_ALL = 1, BY_ALL_LAZY = 2 };
+
+/* Keep t and its verdict v as the last design that qualified whole: the
+ * searches keep that design as their result, whose final judgement is
+ * then the same computation again (judging depends on nothing else). */
+static void remember(sizer *q, const br_design *t, const br_size_verdict *v)
+{
+    if (!q->judged)
+        q->judged = br_design_copy(t);
+    else
+        memcpy(q->judged, t, sizeof *t);
+    if (q->judged)
+        q->judged_v = *v;
+}
+
+/* At the nominal point the values judged one after another differ in
+ * one rail's capacitor: each starts its steady state (and its junction
+ * temperatures) from the last one that settled, which lies closer than
+ * the design as given once rails have changed. */
+static void keep_warm(sizer *q, const br_spread *s)
+{
+    if (!q->o->nominal || !s->predict)
+        return;
+    memcpy(q->warm_x, s->xnom, sizeof q->warm_x);
+    memcpy(q->warm_tj, s->tjnom, sizeof q->warm_tj);
+    q->warm = 1;
+}
+
 /* Judge t at its worst corners: the steady-state criteria, or all of
  * them (the cold start included).  Only running out of memory or a stop
  * is an error; a design that cannot be judged is undetermined. */
-static int judge(sizer *q, const br_design *t, int all, br_size_verdict *v, br_error *err)
+static int judge(sizer *q, const br_design *t, int by, br_size_verdict *v, br_error *err)
 {
+    int all = by != BY_STEADY;
     memset(v, 0, sizeof *v);
     v->headroom = HUGE_VAL;
     br_spread_opts so;
@@ -171,12 +211,18 @@ static int judge(sizer *q, const br_design *t, int all, br_size_verdict *v, br_e
     so.meter = q->meter;
     so.solver_limit = q->o->solver_limit;
     so.warm = q->o->nominal;
+    so.lazy_startup = by == BY_ALL_LAZY && q->o->nominal;
+    so.lazy_target = q->z->target;
+    so.warm_x = q->warm ? q->warm_x : NULL;
+    so.warm_tj = q->warm ? q->warm_tj : NULL;
     br_spread *s = NULL;
     int undet = -1;
     br_meter_grow(q->meter, 1);
     int rc = br_spread_derive(q->base, t, &so, &s, err);
     if (rc == BR_OK)
         rc = judge_spread(s, all, v, &undet, err);
+    if (rc == BR_OK)
+        keep_warm(q, s);
     q->z->points += v->points;
     br_spread_free(s);
     if (rc == BR_ENOMEM || rc == BR_ECANCEL)
@@ -186,19 +232,21 @@ static int judge(sizer *q, const br_design *t, int all, br_size_verdict *v, br_e
         undet = BR_CRIT_STEADY;
     }
     conclude(v, undet, q->z->target);
+    if (all && v->qualifies)
+        remember(q, t, v);
     return BR_OK;
 }
 
 /* Judge t whole: the steady-state criteria first (no cold start), and
  * only when they qualify every criterion with the cold start, which
- * costs most. */
+ * costs most; at the nominal point both in one judgement. */
 static int judge_whole(sizer *q, const br_design *t, br_size_verdict *v, br_error *err)
 {
-    if (q->o->nominal) /* one point: its steady state once, with the cold start */
-        return judge(q, t, 1, v, err);
-    int rc = judge(q, t, 0, v, err);
+    if (q->o->nominal) /* one point: its steady state once, then the cold start */
+        return judge(q, t, BY_ALL_LAZY, v, err);
+    int rc = judge(q, t, BY_STEADY, v, err);
     if (rc == BR_OK && v->qualifies)
-        rc = judge(q, t, 1, v, err);
+        rc = judge(q, t, BY_ALL, v, err);
     return rc;
 }
 
@@ -329,40 +377,87 @@ static int undetermined(const br_size_value *v)
     return v->ver.outcome == BR_OUTCOME_UNDETERMINED;
 }
 
-/* Catalog: walk down from position i while parts qualify, up while they
- * do not. */
-static int walk_catalog(sizer *q, br_design **cur, int k, int i, br_error *err)
+/* Two positions among the catalog's candidates: lo does not qualify (-1:
+ * below the first, not judged), hi qualifies (ncand: beyond the last,
+ * not judged); or the value judged last was undetermined (vund). */
+typedef struct bracket {
+    int lo, hi;
+    br_size_value vlo, vhi;
+    int undet;
+    br_size_value vund;
+} bracket;
+
+/* Judge position j into b. */
+static int probe(sizer *q, br_design **cur, int k, int j, bracket *b, br_error *err)
 {
-    br_size_answer *a = &q->z->cap[k];
     br_size_value v;
-    int rc = try_cap(q, cur, k, q->cand[i], 0, &v, err);
-    int dir = v.ver.qualifies ? -1 : +1;
-    br_size_value last = v;
-    while (rc == BR_OK && !undetermined(&v) && a->trials < BR_SIZE_MAXTRY) {
-        if (v.ver.qualifies)
-            a->at = v;
-        int next = i + dir;
-        if ((dir < 0 && (!v.ver.qualifies || next < 0)) ||
-            (dir > 0 && (v.ver.qualifies || next >= q->ncand)))
-            break;
-        last = v;
-        i = next;
-        rc = try_cap(q, cur, k, q->cand[i], 0, &v, err);
-    }
+    int rc = try_cap(q, cur, k, q->cand[j], 0, &v, err);
     if (rc != BR_OK)
         return rc;
     if (undetermined(&v)) {
-        a->kind = BR_SIZE_UNDETERMINED;
-        a->beyond = v;
-        a->have_beyond = 1;
-    } else if (dir < 0) {
-        a->kind = v.ver.qualifies ? BR_SIZE_END : BR_SIZE_FOUND;
-        a->have_beyond = !v.ver.qualifies;
-        a->beyond = v;
+        b->undet = 1;
+        b->vund = v;
+    } else if (v.ver.qualifies) {
+        b->hi = j;
+        b->vhi = v;
     } else {
-        a->kind = v.ver.qualifies ? BR_SIZE_FOUND : BR_SIZE_NONE;
-        a->have_beyond = v.ver.qualifies && a->trials > 1;
-        a->beyond = v.ver.qualifies ? last : v;
+        b->lo = j;
+        b->vlo = v;
+    }
+    return BR_OK;
+}
+
+/* Narrow b until its ends are neighbours: galloping from the end judged
+ * (1, 2, 4... positions on) while the other is not, then bisecting.
+ * Values that qualify are met in decreasing order, so *cur ends with the
+ * answer.  Over at most 64 candidates: 7 values galloping, 5 bisecting. */
+static int narrow(sizer *q, br_design **cur, int k, bracket *b, br_error *err)
+{
+    int step = 1, rc = BR_OK;
+    while (rc == BR_OK && !b->undet && b->hi - b->lo > 1) {
+        int j;
+        if (b->lo >= 0 && b->hi < q->ncand)
+            j = b->lo + (b->hi - b->lo) / 2;
+        else if (b->lo >= 0)
+            j = b->lo + step < q->ncand - 1 ? b->lo + step : q->ncand - 1;
+        else
+            j = b->hi - step > 0 ? b->hi - step : 0;
+        step *= 2;
+        rc = probe(q, cur, k, j, b, err);
+    }
+    return rc;
+}
+
+/* Catalog: from position i (the rail above's answer) down while values
+ * qualify, up while they do not, galloping and then bisecting, to the
+ * smallest candidate that qualifies with the next smaller one judged and
+ * not qualifying (at most 13 values, BR_SIZE_MAXTRY 40).  At the nominal
+ * point a value is simulated from power-up only when its steady state
+ * leaves it able to qualify (judge_whole). */
+static int walk_catalog(sizer *q, br_design **cur, int k, int i, br_error *err)
+{
+    _Static_assert(BR_MAX_PARTS <= 64 && 7 + 6 <= BR_SIZE_MAXTRY,
+                   "a rail's catalog search stays within BR_SIZE_MAXTRY values");
+    br_size_answer *a = &q->z->cap[k];
+    bracket b = {.lo = -1, .hi = q->ncand};
+    int rc = probe(q, cur, k, i, &b, err);
+    if (rc == BR_OK)
+        rc = narrow(q, cur, k, &b, err);
+    if (rc != BR_OK)
+        return rc;
+    a->at = b.hi < q->ncand ? b.vhi : a->at;
+    if (b.undet) {
+        a->kind = BR_SIZE_UNDETERMINED;
+        a->beyond = b.vund;
+        a->have_beyond = 1;
+    } else if (b.hi >= q->ncand) {
+        a->kind = BR_SIZE_NONE;
+        a->beyond = b.vlo;
+        a->have_beyond = 0;
+    } else {
+        a->kind = b.lo < 0 ? BR_SIZE_END : BR_SIZE_FOUND;
+        a->beyond = b.lo < 0 ? b.vhi : b.vlo;
+        a->have_beyond = b.lo >= 0;
     }
     return BR_OK;
 }
@@ -606,19 +701,46 @@ static void prepare(sizer *q, const br_chain *c)
     }
 }
 
+/* The design as given at the nominal point, on the steady-state
+ * criteria: the base spread judged it so already. */
+static void start_nominal(sizer *q, br_size_verdict *v)
+{
+    int undet = -1;
+    memset(v, 0, sizeof *v);
+    v->headroom = HUGE_VAL;
+    take(v, &q->base->nominal, 0, &undet);
+    conclude(v, undet, q->z->target);
+}
+
+/* The result judged whole, every criterion with the cold start: the
+ * verdict of the value that qualified last when the result is that
+ * design (the same judgement again would give the same), else afresh. */
+static int judge_final(sizer *q, const br_design *cur, br_error *err)
+{
+    if (q->judged && q->judged_v.qualifies && memcmp(q->judged, cur, sizeof *cur) == 0) {
+        q->z->final = q->judged_v;
+        return BR_OK;
+    }
+    return judge(q, cur, BY_ALL, &q->z->final, err);
+}
+
 static int search(sizer *q, br_error *err)
 {
     br_size *z = q->z;
     br_design *cur = br_design_copy(q->d0);
     if (!cur)
         return br_error_set(err, BR_ENOMEM, NULL, 0, NULL, "out of memory");
-    int rc = judge_whole(q, q->d0, &z->start, err);
+    int rc = BR_OK;
+    if (q->o->nominal)
+        start_nominal(q, &z->start);
+    else
+        rc = judge_whole(q, q->d0, &z->start, err);
     if (rc == BR_OK)
         rc = size_caps(q, &cur, err);
     if (rc == BR_OK && z->links)
         rc = size_resistances(q, &cur, err);
     if (rc == BR_OK)
-        rc = judge(q, cur, 1, &z->final, err);
+        rc = judge_final(q, cur, err);
     z->d = cur;
     z->outcome = z->final.qualifies                            ? BR_OUTCOME_PASS
                  : z->final.outcome == BR_OUTCOME_UNDETERMINED ? BR_OUTCOME_UNDETERMINED
@@ -636,12 +758,14 @@ static int supply_window(sizer *q, br_error *err)
 }
 
 /* The spread every judgement of a run shares: its threads, cold starts,
- * meter and solver limit. */
+ * meter and solver limit.  At the nominal point it lends the values
+ * judged its steady state only (they start theirs from it), and no
+ * one-at-a-time points, so it needs no cold start. */
 static void spread_opts(const sizer *q, br_spread_opts *so)
 {
     br_spread_opts_default(so);
     so->threads = q->o->threads;
-    so->startup = 1;
+    so->startup = !q->o->nominal;
     so->meter = q->meter;
     so->solver_limit = q->o->solver_limit;
 }
@@ -669,6 +793,7 @@ static int run(sizer *q, br_error *err)
     if (rc == BR_OK)
         rc = search(q, err);
     br_spread_free(q->base);
+    br_design_free(q->judged);
     return rc;
 }
 
@@ -737,6 +862,7 @@ static int judge_alone(sizer *q, const br_design *t, br_size_verdict *v, br_erro
     if (rc == BR_OK)
         rc = judge_whole(q, t, v, err);
     br_spread_free(q->base);
+    br_design_free(q->judged);
     return rc;
 }
 

@@ -18,10 +18,12 @@
  *    (the parts rated at least the supply's highest voltage, in order of
  *    nominal capacitance, then cost) or as a continuous value (the
  *    design's own part on that rail with its capacitance scaled, to 1 %).
- *    The search walks down from the rail's present value while values
- *    qualify and up while they do not, so the answer qualifies and the
- *    next smaller value (a catalog's next part down, or 1 % less) was
- *    judged and does not.  Rails sized earlier keep their values; every
+ *    The search goes down from the rail's present value while values
+ *    qualify and up while they do not (from a catalog galloping, 1, 2,
+ *    4... parts at a time, then bisecting; continuous, halving or
+ *    doubling, then bisecting), so the answer qualifies and the next
+ *    smaller value (a catalog's next part down, or 1 % less) was judged
+ *    and does not.  Rails sized earlier keep their values; every
  *    judgement judges every rail, the cold start included (a rail's
  *    capacitor sets the charge the rail above takes from it as it
  *    starts, and so the inrush of the links).
@@ -107,7 +109,10 @@ typedef struct br_size_opts {
     int solver_limit;            /* br_spread_opts.solver_limit */
     int nominal;                 /* judge every value at the nominal point only: the design's
                                     tolerances and each catalog part's set aside (br_tol_fix);
-                                    the sized design has none (0) */
+                                    the sized design has none (0).  A value's cold start is
+                                    then simulated only when its steady state leaves it able
+                                    to qualify (br_spread_opts.lazy_startup), as the worst
+                                    corners' is only when its steady-state corners qualify */
     const br_progress *progress; /* values judged (the total grows); NULL: none */
 } br_size_opts;
 

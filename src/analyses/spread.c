@@ -53,6 +53,8 @@ typedef struct job {
     int predict;   /* start from the prediction and try it as it is */
     const double
         *start[2]; /* otherwise the state each direction starts from (NULL: cold estimate) */
+    const double *start_tj[2]; /* and the junction temperatures its loop starts from (NULL:
+                                  the ambient) */
     pthread_mutex_t lock;
     int next;       /* next point to take */
     br_error fatal; /* the first failure that ends the run (out of memory, a stop) */
@@ -310,6 +312,8 @@ typedef struct workspace {
     double b[NX * NX]; /* scratch for a fresh Jacobian */
     size_t perm[NX];
     qn q;
+    const double *tj_first; /* the temperatures the next shooting run starts its loop from,
+                               taken by that run (NULL: the ambient) */
 } workspace;
 
 static void workspace_free(workspace *w)
@@ -454,6 +458,8 @@ static int shoot_once(workspace *w, int dir, int i, const double *guess, long ma
     br_steady again;
     br_steady_opts_default(&o);
     o.guess = guess;
+    o.tj = w->tj_first;
+    w->tj_first = NULL; /* a later run starts again from the ambient, as a solve does */
     if (max_plain >= 0)
         o.max_plain = max_plain;
     long lim = w->s->solver_limit;
@@ -648,8 +654,10 @@ static int steady(workspace *w, const job *jb, const double *v, int i, int dir, 
         predict(w->s, v, i, x);
         return solve(w, dir, i, x, -1, 1, out, err);
     }
-    if (!jb->predict)
+    if (!jb->predict) {
+        w->tj_first = jb->start_tj[i];
         return solve(w, dir, i, jb->start[i], -1, 1, out, err);
+    }
     int passed = 0, rc = predicts_heat(w) ? from_heat(w, v, i, dir, &passed, out, err) : BR_OK;
     if (rc == BR_OK && !passed)
         rc = from_prediction(w, v, i, dir, out, err);
@@ -721,25 +729,26 @@ static int settled_state(const br_steady *ss)
     return ss->converged && ss->holds && ss->drift <= DRIFT_LIMIT;
 }
 
-/* Judge point i of the job in workspace w. */
-static int judge(workspace *w, const job *jb, int i, br_error *err)
+/* The cold start of the point in w (with the stop poll: the bar is the
+ * meter's). */
+static int cold_start(workspace *w, const job *jb, br_pt *out, br_error *err)
 {
-    const double *v = jb->values + (size_t)i * (size_t)jb->s->tl.n;
-    br_pt *out = &jb->out[i];
-    memset(out, 0, sizeof *out);
-    out->with_startup = jb->with_startup;
-    br_tol_apply(w->d, &jb->s->tl, v);
-    int rc = br_chain_build_nominal(w->d, &w->c, err);
-    br_progress only =
-        br_progress_stop_only(br_meter_poll(jb->s->meter)); /* the bar: the meter's */
+    br_progress only = br_progress_stop_only(br_meter_poll(jb->s->meter));
     br_startup_opts so = {.progress = &only};
-    if (rc == BR_OK && jb->with_startup) {
-        rc = br_startup_run(&w->c, &so, &w->su, err);
-        out->su_integrated = w->su.periods_integrated;
-        out->su_stepped = w->su.periods_stepped;
-    }
-    int dirs[2], ndir = br_design_directions(&w->c, dirs);
-    for (int d = 0; rc == BR_OK && d < ndir; d++) {
+    int rc = br_startup_run(&w->c, &so, &w->su, err);
+    out->su_integrated = w->su.periods_integrated;
+    out->su_stepped = w->su.periods_stepped;
+    return rc;
+}
+
+/* The steady state of every direction of point i at values v, with its
+ * figures (w->figs) and headroom; *ndir directions. */
+static int steady_dirs(workspace *w, const job *jb, int i, const double *v, br_pt *out, int *ndir,
+                       br_error *err)
+{
+    int dirs[2], rc = BR_OK;
+    *ndir = br_design_directions(&w->c, dirs);
+    for (int d = 0; rc == BR_OK && d < *ndir; d++) {
         rc = steady(w, jb, v, d, dirs[d], out, err);
         if (rc == BR_OK && br_steady_has_period(&w->ss[d])) /* a failed one has no figures */
             rc = finite_state(&w->c, &w->ss[d], err);
@@ -754,8 +763,49 @@ static int judge(workspace *w, const job *jb, int i, br_error *err)
         if (jb->tjout)
             memcpy(jb->tjout + ((size_t)i * 2 + (size_t)d) * NT, w->ss[d].tj, sizeof(double) * NT);
     }
+    return rc;
+}
+
+/* With lazy_startup (spread.h): whether the steady-state verdict v
+ * already rules the point out, a row failing or a decided margin in
+ * volts short of lazy_target, so that no cold start can make it pass. */
+static int ruled_out(const br_spread *s, const br_verdict *v)
+{
+    for (int c = 0; c < BR_CRIT_COUNT; c++) {
+        const br_verdict_row *r = &v->row[c];
+        if (!r->applies || r->undetermined)
+            continue;
+        if (!r->pass || (br_crit_has_margin(c) && strcmp(br_crit_unit(c), "V") == 0 &&
+                         r->margin < s->lazy_target))
+            return 1;
+    }
+    return 0;
+}
+
+/* Judge point i of the job in workspace w: the cold start first, or with
+ * lazy_startup last and only when the steady state leaves the point in
+ * the running (the two do not depend on each other). */
+static int judge(workspace *w, const job *jb, int i, br_error *err)
+{
+    const double *v = jb->values + (size_t)i * (size_t)jb->s->tl.n;
+    br_pt *out = &jb->out[i];
+    memset(out, 0, sizeof *out);
+    out->with_startup = jb->with_startup;
+    br_tol_apply(w->d, &jb->s->tl, v);
+    int rc = br_chain_build_nominal(w->d, &w->c, err), ndir = 0;
+    int lazy = jb->with_startup && jb->s->lazy_startup;
+    if (rc == BR_OK && jb->with_startup && !lazy)
+        rc = cold_start(w, jb, out, err);
+    if (rc == BR_OK)
+        rc = steady_dirs(w, jb, i, v, out, &ndir, err);
+    if (rc == BR_OK && lazy) {
+        br_verdict_make(&w->c, NULL, w->figs, ndir, &w->v);
+        out->with_startup = !ruled_out(jb->s, &w->v);
+        if (out->with_startup)
+            rc = cold_start(w, jb, out, err);
+    }
     if (rc == BR_OK) {
-        br_verdict_make(&w->c, jb->with_startup ? &w->su : NULL, w->figs, ndir, &w->v);
+        br_verdict_make(&w->c, out->with_startup ? &w->su : NULL, w->figs, ndir, &w->v);
         compact(&w->v, out);
     }
     out->status = rc;
@@ -867,8 +917,10 @@ static int nominal_values(const br_spread *s, double **out, br_error *err)
 }
 
 /* The nominal point; start (may be NULL) is a state to start each
- * direction's steady state from. */
-static int judge_nominal(br_spread *s, const double (*start)[NX], br_error *err)
+ * direction's steady state from, tj (may be NULL) the junction
+ * temperatures to start its loop from. */
+static int judge_nominal(br_spread *s, const double (*start)[NX], const double (*tj0)[NT],
+                         br_error *err)
 {
     double *v, x[2 * NX], tj[2 * NT];
     int rc = nominal_values(s, &v, err);
@@ -883,6 +935,8 @@ static int judge_nominal(br_spread *s, const double (*start)[NX], br_error *err)
               .tjout = tj};
     jb.start[0] = start ? start[0] : NULL;
     jb.start[1] = start ? start[1] : NULL;
+    jb.start_tj[0] = tj0 ? tj0[0] : NULL;
+    jb.start_tj[1] = tj0 ? tj0[1] : NULL;
     rc = job_status(&jb, run(&jb, err), err);
     free(v);
     if (rc == BR_OK) {
@@ -1064,6 +1118,8 @@ static int alloc_spread(const br_design *d, const br_spread_opts *o, br_spread *
     s->meter_weight = o->meter_weight;
     s->solver_limit = o->solver_limit > 0 ? o->solver_limit : 0;
     s->thermal_loop = o->thermal_loop;
+    s->lazy_startup = o->lazy_startup;
+    s->lazy_target = o->lazy_target;
     int rc = br_tol_list_build(d, &s->tl, err);
     size_t k = (size_t)s->tl.n;
     if (rc == BR_OK) {
@@ -1096,9 +1152,10 @@ void br_spread_free(br_spread *s)
     free(s);
 }
 
-static int finish_create(br_spread *s, const double (*start)[NX], const int *todo, br_error *err)
+static int finish_create(br_spread *s, const double (*start)[NX], const double (*tj0)[NT],
+                         const int *todo, br_error *err)
 {
-    int rc = judge_nominal(s, start, err);
+    int rc = judge_nominal(s, start, tj0, err);
     if (rc == BR_OK && s->stop_failed && s->nominal.outcome == BR_OUTCOME_FAIL) {
         s->stopped = 1;
         return BR_OK;
@@ -1125,7 +1182,7 @@ int br_spread_create(const br_design *d, const br_spread_opts *o, br_spread **ou
         todo[j] = 1;
     br_meter_grow(s->meter, s->meter_weight * (1.0 + 2.0 * s->tl.n));
     if (rc == BR_OK)
-        rc = finish_create(s, NULL, todo, err);
+        rc = finish_create(s, NULL, NULL, todo, err);
     free(todo);
     if (rc != BR_OK) {
         br_spread_free(s);
@@ -1211,8 +1268,14 @@ int br_spread_derive(const br_spread *base, const br_design *d, const br_spread_
         borrow(s, base, o && o->similar, todo);
     s->base_nominal = base->nominal;
     const double(*start)[NX] = o && o->warm && base->nominal.status == BR_OK ? base->xnom : NULL;
+    /* temperatures from a nominal state that settled and held (no runaway) */
+    const double(*tj0)[NT] = start && base->predict ? base->tjnom : NULL;
+    if (start && o->warm_x) {
+        start = o->warm_x;
+        tj0 = o->warm_tj;
+    }
     if (rc == BR_OK)
-        rc = finish_create(s, start, todo, err);
+        rc = finish_create(s, start, tj0, todo, err);
     free(todo);
     if (rc != BR_OK) {
         br_spread_free(s);

@@ -128,7 +128,21 @@ typedef struct br_spread_opts {
                             at the ambient, then the full loop of shooting passes (slower;
                             what the prediction is checked against) */
     int warm;            /* br_spread_derive: the nominal point's steady state starts from the
-                            base's nominal one (0: from the solver's own estimate) */
+                            base's nominal one, and its junction temperatures from the base's
+                            when that state settled (0: from the solver's own estimate and
+                            the ambient) */
+    const double (*warm_x)[BR_SPREAD_NX];     /* br_spread_derive with warm: the steady state of
+                                                 each direction to start from instead of the
+                                                 base's (a closer neighbour's; NULL: the base's) */
+    const double (*warm_tj)[BR_MAX_SWITCHES]; /* and its junction temperatures (NULL: the
+                                                 ambient) */
+    int lazy_startup;   /* a point judged with its cold start simulates it last, and only
+                           when its steady state leaves it in the running: no steady-state
+                           row fails and every decided margin in volts is at least
+                           lazy_target; otherwise the point is judged without it
+                           (br_pt.with_startup 0), as it cannot pass at that target
+                           whatever the cold start gives (the sizing's searches) */
+    double lazy_target; /* V */
 } br_spread_opts;
 
 typedef struct br_spread {
@@ -142,6 +156,8 @@ typedef struct br_spread {
                            from predictions around it (else from the solver's estimate) */
     int solver_limit;   /* as in the options */
     int thermal_loop;   /* as in the options */
+    int lazy_startup;   /* as in the options */
+    double lazy_target; /* V: as in the options */
     double accept;      /* V: as in the options */
     int ndir;           /* current directions analysed (1 or 2) */
     br_pt nominal;      /* every parameter at its nominal value */

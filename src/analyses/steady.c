@@ -26,6 +26,7 @@ void br_steady_opts_default(br_steady_opts *o)
     o->max_plain = 400;
     o->check_periods = 1;
     o->guess = NULL;
+    o->tj = NULL;
     o->jac = NULL;
     o->jac_valid = NULL;
     o->line_hold = -1;
@@ -684,6 +685,9 @@ static int solve_thermal(const br_chain *c, int dir, const br_steady_opts *o, br
     double guess[NX], moved = HUGE_VAL;
     int rc = BR_OK, pass = 0;
     long periods = 0;
+    for (int k = 1; oo.tj && rc == BR_OK && k < hot->n; k++)
+        if (hot->st[k].diode.rth > 0 && isfinite(oo.tj[k]))
+            rc = br_chain_diode_at(hot, k, oo.tj[k], err);
     while (rc == BR_OK && pass < BR_THERMAL_PASSES && !(moved < BR_THERMAL_TOL)) {
         rc = solve_electrical(hot, dir, &oo, out, err);
         pass++;

@@ -104,6 +104,9 @@ typedef struct br_steady_opts {
     long max_plain;      /* periods of the plain fallback (default 400) */
     int check_periods;   /* cross-check periods after the reported one (default 1) */
     const double *guess; /* initial x, or NULL for a cold-start estimate */
+    const double *tj;    /* junction temperature of each link (K, by stage; links with a
+                            thermal resistance) the temperature loop starts from, or NULL
+                            for the ambient (a neighbouring point's: fewer passes) */
     /* Warm start of the Newton matrix between neighbouring operating
      * points (scans, maps): a caller-owned buffer of
      * (2 BR_MAX_SWITCHES)^2 doubles, or NULL.  When *jac_valid is set the
