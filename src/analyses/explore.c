@@ -14,13 +14,6 @@
 #include <stdlib.h>
 #include <string.h>
 
-#define TRY(x)                                                                                     \
-    do {                                                                                           \
-        int rc_ = (x);                                                                             \
-        if (rc_ != BR_OK)                                                                          \
-            return rc_;                                                                            \
-    } while (0)
-
 void br_explore_opts_default(br_explore_opts *o)
 {
     memset(o, 0, sizeof *o);
@@ -84,7 +77,7 @@ static void set_stages(br_design *d, size_t off, int v)
  * the catalog's diode (placed once, as the last diode of d). */
 static int place_diodes(br_design *d, int n, const br_diode_part *cd, double need, br_error *err)
 {
-    TRY(add_part_room(d, d->ndiodes, "diode", err));
+    BR_TRY(add_part_room(d, d->ndiodes, "diode", err));
     int at = d->ndiodes++;
     d->diodes[at] = *cd;
     if (d->diodes[d->def.diode].vrrm.nom < need)
@@ -247,15 +240,15 @@ static int build_design(const br_design *t, const br_explore_opts *o, const br_e
     map_precharge(d, t, r->levels);
     if (o->scale_caps)
         map_stages(d, t, n);
-    TRY(add_part_room(d, d->nswitches, "switch", err));
-    TRY(add_part_room(d, d->ndrivers, "driver", err));
+    BR_TRY(add_part_room(d, d->nswitches, "switch", err));
+    BR_TRY(add_part_room(d, d->ndrivers, "driver", err));
     place_switch(d, o, r->sw);
     if (r->diode >= 0)
-        TRY(place_diodes(d, n, &o->cat->diodes[r->diode], r->need, err));
+        BR_TRY(place_diodes(d, n, &o->cat->diodes[r->diode], r->need, err));
     if (o->scale_caps)
-        TRY(scale_caps(d, t, n, err));
+        BR_TRY(scale_caps(d, t, n, err));
     if (o->parts)
-        TRY(br_explore_size_place(d, o, r, err));
+        BR_TRY(br_explore_size_place(d, o, r, err));
     snprintf(d->name, sizeof d->name, "%.60s-%dL-%.40s-%.0fkHz", t->name, r->levels,
              o->cat->switches[r->sw].id, r->fsw / 1e3);
     return BR_OK;
@@ -456,7 +449,7 @@ int br_explore_corners(const br_design *d, const br_explore_opts *o, double targ
     br_progress stop = br_progress_stop_only(o->progress);
     so.progress = &stop;
     br_size_verdict v;
-    TRY(br_size_judge(d, d, &so, &v, err));
+    BR_TRY(br_size_judge(d, d, &so, &v, err));
     take_corners(&v, r);
     return BR_OK;
 }
@@ -512,7 +505,7 @@ static double default_target(const br_design *t, const br_explore_opts *o)
 static int check_input(const br_design *t, const br_explore_opts *o, int count, br_error *err)
 {
     if (o->parts && t->topology == BR_TOPO_FCML)
-        TRY(br_explore_size_check(t, o, err));
+        BR_TRY(br_explore_size_check(t, o, err));
     if (t->topology != BR_TOPO_FCML)
         return br_error_set(err, BR_EINPUT, t->path, 0, "topology",
                             "the template is a switch string, expected an <fcml> leg to vary "
@@ -553,14 +546,14 @@ static int size_row(const br_design *t, const br_explore_opts *o, double target,
                     br_explore_row *r, br_design **d, br_error *err)
 {
     br_size_verdict v;
-    TRY(br_explore_size_caps(*d, o, target, r, &v, err));
+    BR_TRY(br_explore_size_caps(*d, o, target, r, &v, err));
     if (r->state != BR_EX_FEASIBLE)
         return BR_OK;
     br_design_free(*d);
     *d = NULL;
-    TRY(br_explore_design(t, o, r, d, err));
+    BR_TRY(br_explore_design(t, o, r, d, err));
     r->cost = cost_of(*d, o, r, 2 * (r->levels - 1));
-    TRY(screen(*d, o, target, e, r, err));
+    BR_TRY(screen(*d, o, target, e, r, err));
     if (r->state == BR_EX_FEASIBLE && o->corners)
         take_corners(&v, r);
     return BR_OK;
@@ -570,11 +563,11 @@ static int judge_row(const br_design *t, const br_explore_opts *o, double target
                      br_explore_row *r, br_error *err)
 {
     if (o->parts)
-        TRY(br_explore_size_rule(t, o, r, err));
+        BR_TRY(br_explore_size_rule(t, o, r, err));
     if (r->state != BR_EX_FEASIBLE)
         return BR_OK;
     br_design *d = NULL;
-    TRY(br_explore_design(t, o, r, &d, err));
+    BR_TRY(br_explore_design(t, o, r, &d, err));
     r->cost = cost_of(d, o, r, 2 * (r->levels - 1));
     int rc = screen(d, o, target, e, r, err);
     if (rc == BR_OK && r->state == BR_EX_FEASIBLE && o->parts)
@@ -636,7 +629,7 @@ int br_explore_run(const br_design *t, const br_explore_opts *o, br_explore **ou
 {
     *out = NULL;
     int count = (o->lmax - o->lmin + 1) * (o->cat ? o->cat->nswitches : 0) * o->nfsw;
-    TRY(check_input(t, o, count, err));
+    BR_TRY(check_input(t, o, count, err));
     br_explore *x = calloc(1, sizeof *x);
     br_explore_row *rows = calloc((size_t)count, sizeof *rows);
     if (!x || !rows) {

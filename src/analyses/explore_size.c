@@ -11,13 +11,6 @@
 #include <stdlib.h>
 #include <string.h>
 
-#define TRY(x)                                                                                     \
-    do {                                                                                           \
-        int rc_ = (x);                                                                             \
-        if (rc_ != BR_OK)                                                                          \
-            return rc_;                                                                            \
-    } while (0)
-
 int br_diode_as_strong(const br_diode_part *c, const br_diode_part *p)
 {
     int thermal = !(p->rth.nom > 0) || (c->rth.nom > 0 && c->tj_max.nom >= p->tj_max.nom);
@@ -56,7 +49,7 @@ int br_explore_size_rule(const br_design *t, const br_explore_opts *o, br_explor
     /* the template's diode on each link of the new chain: its design with
      * the template's parts */
     br_design *d = NULL;
-    TRY(br_explore_design(t, o, r, &d, err));
+    BR_TRY(br_explore_design(t, o, r, &d, err));
     int n = 2 * (r->levels - 1), all = 1;
     for (int k = 1; k < n; k++) {
         const br_diode_part *p = &d->diodes[br_design_stage(d, k)->diode];
@@ -183,7 +176,7 @@ int br_explore_size_caps(const br_design *d, const br_explore_opts *o, double ta
     br_progress stop = br_progress_stop_only(o->progress);
     so.progress = &stop;
     br_size *z = NULL;
-    TRY(br_size_run(d, &so, &z, err));
+    BR_TRY(br_size_run(d, &so, &z, err));
     take_answers(z, r);
     *final = z->final;
     br_size_free(z);
@@ -203,7 +196,7 @@ int br_explore_yield(const br_design *d, const br_explore_opts *o, br_explore_ro
     br_progress stop = br_progress_stop_only(o->progress);
     yo.progress = &stop;
     br_yield *y = NULL;
-    TRY(br_yield_run(d, &yo, &y, err));
+    BR_TRY(br_yield_run(d, &yo, &y, err));
     r->ysamples = y->n;
     r->ypass = y->pass;
     r->yfail = y->fail;
@@ -221,7 +214,7 @@ int br_explore_pool(int n, int threads, br_work_fn judge, void *ctx, const br_pr
                     br_error *err)
 {
     br_meter meter;
-    TRY(br_meter_init(&meter, progress, (double)n, err));
+    BR_TRY(br_meter_init(&meter, progress, (double)n, err));
     int rc = br_work_run(n, threads, judge, ctx, &meter, 1.0, err);
     rc = br_meter_status(&meter, rc, err);
     br_meter_destroy(&meter);

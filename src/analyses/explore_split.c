@@ -40,13 +40,6 @@
 
 #define BR_SPLIT_TRIES 3 /* split designs judged per combination at most */
 
-#define TRY(x)                                                                                     \
-    do {                                                                                           \
-        int rc_ = (x);                                                                             \
-        if (rc_ != BR_OK)                                                                          \
-            return rc_;                                                                            \
-    } while (0)
-
 /* The module's series resistance, its output's and the link resistor's. */
 static br_qty series_r(const br_qty *link, const br_qty *own)
 {
@@ -157,7 +150,7 @@ static int module_for(const br_design *d, const br_explore_opts *o, int j, br_ex
     if (!cat)
         return BR_OK;
     br_chain *c = NULL;
-    TRY(br_chain_build(d, &c, err));
+    BR_TRY(br_chain_build(d, &c, err));
     t->inject_need = BR_MODULE_MARGIN * br_link_current(c, j);
     br_chain_free(c);
     t->module = br_explore_module_choose(cat, d->vsupply.nom, t->inject_need, -1);
@@ -192,7 +185,7 @@ static int judge_split(const br_design *d, const br_explore_opts *o, double targ
 static int try_rail(const br_design *d, const br_explore_opts *o, double target, int j,
                     br_explore_row *t, br_error *err)
 {
-    TRY(module_for(d, o, j, t, err));
+    BR_TRY(module_for(d, o, j, t, err));
     return judge_split(d, o, target, j, t, 0, err);
 }
 
@@ -244,7 +237,7 @@ static int dearer_modules(const br_design *d, const br_explore_opts *o, double t
         t.modules = kept->modules;
         t.inject_need = kept->inject_need;
         t.module = m;
-        TRY(judge_split(d, o, target, r->inject_rail, &t, 0, err));
+        BR_TRY(judge_split(d, o, target, r->inject_rail, &t, 0, err));
         if (t.state == BR_EX_FEASIBLE) {
             *kept = t;
             *passed = n + 1;
@@ -264,7 +257,7 @@ int br_explore_split(const br_design *d, const br_explore_opts *o, double target
     for (int j = r->split_at; j >= 1 && r->split_tries < BR_SPLIT_TRIES; j--) {
         br_explore_row t = *r;
         t.corners = 0;
-        TRY(try_rail(d, o, target, j, &t, err));
+        BR_TRY(try_rail(d, o, target, j, &t, err));
         r->split_tries++;
         double sc = score(&t);
         if (r->inject_rail > 0 && !(sc > best))
@@ -276,9 +269,9 @@ int br_explore_split(const br_design *d, const br_explore_opts *o, double target
     if (r->inject_rail == 0)
         return BR_OK;
     int passed = 0;
-    TRY(dearer_modules(d, o, target, r, &kept, &passed, err));
+    BR_TRY(dearer_modules(d, o, target, r, &kept, &passed, err));
     if (o->corners && holds(kept.state))
-        TRY(judge_split(d, o, target, r->inject_rail, &kept, 1, err));
+        BR_TRY(judge_split(d, o, target, r->inject_rail, &kept, 1, err));
     keep(r, &kept, r->inject_rail, o);
     r->module_passed = passed;
     return BR_OK;

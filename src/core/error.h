@@ -10,4 +10,12 @@
 
 /* br_error_set is public: bootrung.h. */
 
+/* Return the status of x when it is not BR_OK. */
+#define BR_TRY(x)                                                                                  \
+    do {                                                                                           \
+        int br_try_rc_ = (x);                                                                      \
+        if (br_try_rc_ != BR_OK)                                                                   \
+            return br_try_rc_;                                                                     \
+    } while (0)
+
 #endif

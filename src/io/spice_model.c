@@ -13,13 +13,6 @@
 #include <string.h>
 #include <strings.h>
 
-#define TRY(x)                                                                                     \
-    do {                                                                                           \
-        int rc_ = (x);                                                                             \
-        if (rc_ != BR_OK)                                                                          \
-            return rc_;                                                                            \
-    } while (0)
-
 #define TOK_MAX 64  /* longest token kept (a longer one is refused) */
 #define TOKS_MAX 96 /* tokens in a statement: 15 parameters of 3 each, and spare */
 
@@ -196,13 +189,13 @@ static int lex_line(lexer *x, const char *p, const char *end, int line)
             continue;
         }
         if (*p == '(' || *p == ')' || *p == '=') {
-            TRY(push(x, p++, 1, line));
+            BR_TRY(push(x, p++, 1, line));
             continue;
         }
         const char *w = p;
         while (p < end && !isspace((unsigned char)*p) && !strchr(",()=", *p))
             p++;
-        TRY(push(x, w, (size_t)(p - w), line));
+        BR_TRY(push(x, w, (size_t)(p - w), line));
     }
     return BR_OK;
 }
@@ -229,7 +222,7 @@ static int lex(lexer *x, const char *text, int line0)
                                 "one .model statement (continuation lines "
                                 "start with '+')",
                                 q);
-            TRY(lex_line(x, q + (*q == '+'), end, line));
+            BR_TRY(lex_line(x, q + (*q == '+'), end, line));
             started = 1;
         }
         p = *end ? end + 1 : end;
@@ -294,12 +287,12 @@ int br_spice_model_parse(const char *text, const char *file, int line0, const ch
 {
     lexer x = {.n = 0, .file = file, .field = field, .err = err};
     memset(m, 0, sizeof *m);
-    TRY(lex(&x, text, line0));
-    TRY(read_head(&x, m));
+    BR_TRY(lex(&x, text, line0));
+    BR_TRY(read_head(&x, m));
     int i = 3, open = i < x.n && strcmp(x.t[i].s, "(") == 0;
     i += open;
     while (i < x.n && strcmp(x.t[i].s, ")") != 0)
-        TRY(read_param(&x, &i, m));
+        BR_TRY(read_param(&x, &i, m));
     int close = i < x.n;
     const tok *last = &x.t[i < x.n ? i : x.n - 1];
     if (open != close)

@@ -7,6 +7,7 @@
 #ifndef BR_IO_XML_READ_H
 #define BR_IO_XML_READ_H
 
+#include "core/error.h"
 #include "core/units.h"
 #include "model/design.h"
 
@@ -20,14 +21,6 @@ typedef struct br_rd {
     br_design *d;     /* being filled */
     br_error *err;    /* first fault */
 } br_rd;
-
-/* Return the status of x when it is not BR_OK. */
-#define BR_TRY(x)                                                                                  \
-    do {                                                                                           \
-        int br_try_rc_ = (x);                                                                      \
-        if (br_try_rc_ != BR_OK)                                                                   \
-            return br_try_rc_;                                                                     \
-    } while (0)
 
 /* An allowed range for a value; the message quotes `expect`. */
 typedef struct br_range {

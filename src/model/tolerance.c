@@ -17,13 +17,6 @@ typedef struct field {
     int kind;
 } field;
 
-#define TRY(x)                                                                                     \
-    do {                                                                                           \
-        int rc_ = (x);                                                                             \
-        if (rc_ != BR_OK)                                                                          \
-            return rc_;                                                                            \
-    } while (0)
-
 #define F(type, member, attr, kind)                                                                \
     {                                                                                              \
         attr, offsetof(type, member), kind                                                         \
@@ -212,7 +205,7 @@ static int add_fields(const br_design *d, br_tol_list *l, size_t base, const fie
     char name[BR_TOL_NAME];
     for (; f->attr; f++) {
         snprintf(name, sizeof name, "%s: %s", owner, f->attr);
-        TRY(add(d, l, base + f->offset, f->kind, name, err));
+        BR_TRY(add(d, l, base + f->offset, f->kind, name, err));
     }
     return BR_OK;
 }
@@ -226,29 +219,29 @@ static int add_parts(const br_design *d, const usage *u, br_tol_list *l, br_erro
     for (int i = 0; i < d->ndiodes; i++) {
         snprintf(owner, sizeof owner, "diode %s", d->diodes[i].id);
         if (u->diode[i])
-            TRY(add_fields(d, l, PART_BASE(diodes, i), diode_fields, owner, err));
+            BR_TRY(add_fields(d, l, PART_BASE(diodes, i), diode_fields, owner, err));
     }
     for (int i = 0; i < d->ncaps; i++) {
         snprintf(owner, sizeof owner, "capacitor %s", d->caps[i].id);
         if (u->cap[i])
-            TRY(add_fields(d, l, PART_BASE(caps, i), cap_fields, owner, err));
+            BR_TRY(add_fields(d, l, PART_BASE(caps, i), cap_fields, owner, err));
     }
     for (int i = 0; i < d->ndrivers; i++) {
         snprintf(owner, sizeof owner, "driver %s", d->drivers[i].id);
         if (u->driver[i])
-            TRY(add_fields(d, l, PART_BASE(drivers, i), driver_fields, owner, err));
+            BR_TRY(add_fields(d, l, PART_BASE(drivers, i), driver_fields, owner, err));
     }
     for (int i = 0; i < d->nswitches; i++) {
         snprintf(owner, sizeof owner, "switch %s", d->switches[i].id);
         if (u->sw[i])
-            TRY(add_fields(d, l, PART_BASE(switches, i), switch_fields, owner, err));
+            BR_TRY(add_fields(d, l, PART_BASE(switches, i), switch_fields, owner, err));
     }
     for (int i = 0; i < d->naux; i++) {
         int ldo = d->aux[i].kind == BR_AUX_LDO;
         snprintf(owner, sizeof owner, "%s %s", ldo ? "regulator" : "clamp", d->aux[i].id);
         if (u->aux[i])
-            TRY(add_fields(d, l, PART_BASE(aux, i), ldo ? regulator_fields : clamp_fields, owner,
-                           err));
+            BR_TRY(add_fields(d, l, PART_BASE(aux, i), ldo ? regulator_fields : clamp_fields, owner,
+                              err));
     }
     return BR_OK;
 }
@@ -258,22 +251,23 @@ static int add_links(const br_design *d, const usage *u, br_tol_list *l, br_erro
 {
     char name[BR_TOL_NAME], sw[BR_ID_MAX];
     if (u->def_link)
-        TRY(add(d, l, offsetof(br_design, def.r_link), BR_KIND_RESISTANCE, "stages: link-resistor",
-                err));
+        BR_TRY(add(d, l, offsetof(br_design, def.r_link), BR_KIND_RESISTANCE,
+                   "stages: link-resistor", err));
     if (u->def_link && d->def.rth_given)
-        TRY(add(d, l, offsetof(br_design, def.rth), BR_KIND_THERMAL_R, "stages: diode-rth", err));
+        BR_TRY(
+            add(d, l, offsetof(br_design, def.rth), BR_KIND_THERMAL_R, "stages: diode-rth", err));
     for (int k = 1; k < BR_MAX_SWITCHES; k++) {
         if (!u->stage_link[k])
             continue;
         switch_name(d, k, sw, sizeof sw);
         snprintf(name, sizeof name, "stage %d (%s): link-resistor", k, sw);
         size_t off = PART_BASE(stage, k) + offsetof(br_stage_spec, r_link);
-        TRY(add(d, l, off, BR_KIND_RESISTANCE, name, err));
+        BR_TRY(add(d, l, off, BR_KIND_RESISTANCE, name, err));
         if (!d->stage[k].rth_given)
             continue;
         snprintf(name, sizeof name, "stage %d (%s): diode-rth", k, sw);
-        TRY(add(d, l, PART_BASE(stage, k) + offsetof(br_stage_spec, rth), BR_KIND_THERMAL_R, name,
-                err));
+        BR_TRY(add(d, l, PART_BASE(stage, k) + offsetof(br_stage_spec, rth), BR_KIND_THERMAL_R,
+                   name, err));
     }
     return BR_OK;
 }
@@ -286,7 +280,7 @@ static int add_string(const br_design *d, br_tol_list *l, br_error *err)
     for (int s = 0; s < d->nswitch && s < BR_MAX_SWITCHES; s++) {
         snprintf(name, sizeof name, "string switch %s: vblock", d->sw[s].name);
         size_t off = PART_BASE(sw, s) + offsetof(br_switch_spec, vblock);
-        TRY(add(d, l, off, BR_KIND_VOLTAGE, name, err));
+        BR_TRY(add(d, l, off, BR_KIND_VOLTAGE, name, err));
     }
     return BR_OK;
 }
@@ -298,21 +292,21 @@ static int add_injections(const br_design *d, br_tol_list *l, br_error *err)
     for (int i = 0; i < d->ninject && i < BR_MAX_INJECT; i++) {
         size_t base = PART_BASE(inject, i);
         snprintf(name, sizeof name, "injection rail %d: voltage", d->inject[i].rail);
-        TRY(add(d, l, base + offsetof(br_inject_spec, v), BR_KIND_VOLTAGE, name, err));
+        BR_TRY(add(d, l, base + offsetof(br_inject_spec, v), BR_KIND_VOLTAGE, name, err));
         snprintf(name, sizeof name, "injection rail %d: resistance", d->inject[i].rail);
-        TRY(add(d, l, base + offsetof(br_inject_spec, r), BR_KIND_RESISTANCE, name, err));
+        BR_TRY(add(d, l, base + offsetof(br_inject_spec, r), BR_KIND_RESISTANCE, name, err));
         snprintf(name, sizeof name, "injection rail %d: rating", d->inject[i].rail);
-        TRY(add(d, l, base + offsetof(br_inject_spec, irating), BR_KIND_CURRENT, name, err));
+        BR_TRY(add(d, l, base + offsetof(br_inject_spec, irating), BR_KIND_CURRENT, name, err));
         if (d->inject[i].limit_mode == BR_SUPPLY_UNLIMITED)
             continue;
         snprintf(name, sizeof name, "injection rail %d: current-limit", d->inject[i].rail);
-        TRY(add(d, l, base + offsetof(br_inject_spec, ilimit), BR_KIND_CURRENT, name, err));
+        BR_TRY(add(d, l, base + offsetof(br_inject_spec, ilimit), BR_KIND_CURRENT, name, err));
         snprintf(name, sizeof name, "injection rail %d: foldback-current", d->inject[i].rail);
-        TRY(add(d, l, base + offsetof(br_inject_spec, ifold), BR_KIND_CURRENT, name, err));
+        BR_TRY(add(d, l, base + offsetof(br_inject_spec, ifold), BR_KIND_CURRENT, name, err));
         snprintf(name, sizeof name, "injection rail %d: hiccup-delay", d->inject[i].rail);
-        TRY(add(d, l, base + offsetof(br_inject_spec, hiccup_delay), BR_KIND_TIME, name, err));
+        BR_TRY(add(d, l, base + offsetof(br_inject_spec, hiccup_delay), BR_KIND_TIME, name, err));
         snprintf(name, sizeof name, "injection rail %d: hiccup-off", d->inject[i].rail);
-        TRY(add(d, l, base + offsetof(br_inject_spec, hiccup_off), BR_KIND_TIME, name, err));
+        BR_TRY(add(d, l, base + offsetof(br_inject_spec, hiccup_off), BR_KIND_TIME, name, err));
     }
     return BR_OK;
 }
@@ -322,15 +316,15 @@ int br_tol_list_build(const br_design *d, br_tol_list *out, br_error *err)
     usage u;
     out->n = 0;
     find_usage(d, &u);
-    TRY(add_fields(d, out, 0, op_fields, "operating-point", err));
+    BR_TRY(add_fields(d, out, 0, op_fields, "operating-point", err));
     if (d->ac.on)
-        TRY(add_fields(d, out, 0, line_fields, "line-cycle", err));
+        BR_TRY(add_fields(d, out, 0, line_fields, "line-cycle", err));
     if (d->topology == BR_TOPO_FCML)
-        TRY(add_fields(d, out, 0, fcml_fields, "fcml", err));
-    TRY(add_fields(d, out, 0, supply_fields, "supply", err));
-    TRY(add_injections(d, out, err));
-    TRY(add_parts(d, &u, out, err));
-    TRY(add_links(d, &u, out, err));
+        BR_TRY(add_fields(d, out, 0, fcml_fields, "fcml", err));
+    BR_TRY(add_fields(d, out, 0, supply_fields, "supply", err));
+    BR_TRY(add_injections(d, out, err));
+    BR_TRY(add_parts(d, &u, out, err));
+    BR_TRY(add_links(d, &u, out, err));
     return add_string(d, out, err);
 }
 
