@@ -41,6 +41,13 @@ typedef struct reference {
     br_text *text, *xml, *html, *csv, *svg;
 } reference;
 
+/* The demo design and the chain built from it (a failure ends the test). */
+static void demo_load(br_design **d, br_chain **c, br_error *err)
+{
+    CU_ASSERT_EQUAL_FATAL(br_design_load("examples/demo-3level.xml", d, err), BR_OK);
+    CU_ASSERT_EQUAL_FATAL(br_chain_build(*d, c, err), BR_OK);
+}
+
 static void reference_make(const char *path, int parts, const br_steady_opts *so, reference *ref)
 {
     br_design *d = NULL;
@@ -175,8 +182,7 @@ static void test_render_refused(void)
     br_analysis_free(a);
     br_design *d = NULL;
     br_chain *c = NULL;
-    CU_ASSERT_EQUAL_FATAL(br_design_load("examples/demo-3level.xml", &d, &err), BR_OK);
-    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    demo_load(&d, &c, &err);
     a = br_analysis_create(); /* neither series nor CSV kept */
     CU_ASSERT_EQUAL_FATAL(br_analysis_run(a, c, BR_PART_ALL, &err), BR_OK);
     CU_ASSERT_EQUAL(br_analysis_render(a, BR_FORMAT_HTML, t, &err), BR_EUSAGE);
@@ -203,8 +209,7 @@ static void test_design_check(void)
     br_chain *c = NULL;
     br_error err;
     static const char *const verdict[] = {"design rules:", NULL};
-    CU_ASSERT_EQUAL_FATAL(br_design_load("examples/demo-3level.xml", &d, &err), BR_OK);
-    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    demo_load(&d, &c, &err);
     br_text *text = br_text_create(), *html = br_text_create();
     int nwarn = -1, nfatal = -1;
     CU_ASSERT_EQUAL(br_check_report(c, text, &nwarn, &nfatal, &err), BR_OK);
@@ -300,8 +305,7 @@ static void test_window(void)
     br_design *d = NULL;
     br_chain *c = NULL;
     br_error err;
-    CU_ASSERT_EQUAL_FATAL(br_design_load("examples/demo-3level.xml", &d, &err), BR_OK);
-    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    demo_load(&d, &c, &err);
     br_window_opts o;
     br_window_opts_default(&o);
     o.fmin = 50e3;
@@ -371,8 +375,7 @@ static void test_map(void)
     br_design *d = NULL;
     br_chain *c = NULL;
     br_error err;
-    CU_ASSERT_EQUAL_FATAL(br_design_load("examples/demo-3level.xml", &d, &err), BR_OK);
-    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    demo_load(&d, &c, &err);
     br_map_opts o = {0.2, 0.8, 5, 50e3, 200e3, 4, 3, NULL, 0, 0, NULL};
     br_map *ref = NULL;
     CU_ASSERT_EQUAL_FATAL(br_map_run(d, &o, &ref, &err), BR_OK);
@@ -459,8 +462,7 @@ static void test_yield(void)
     br_design *d = NULL;
     br_chain *c = NULL;
     br_error err;
-    CU_ASSERT_EQUAL_FATAL(br_design_load("examples/demo-3level.xml", &d, &err), BR_OK);
-    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    demo_load(&d, &c, &err);
     br_yield_opts o;
     br_yield_opts_default(&o);
     CU_ASSERT_EQUAL(o.samples, BR_YIELD_DEFAULT_SAMPLES);
@@ -569,8 +571,7 @@ static void test_pack_helpers(void)
     br_design *d = NULL;
     br_chain *c = NULL;
     br_error err;
-    CU_ASSERT_EQUAL_FATAL(br_design_load("examples/demo-3level.xml", &d, &err), BR_OK);
-    CU_ASSERT_EQUAL_FATAL(br_chain_build(d, &c, &err), BR_OK);
+    demo_load(&d, &c, &err);
     CU_ASSERT_DOUBLE_EQUAL(br_chain_frequency(c), 100e3, 1e-6); /* the demo's 100 kHz */
     CU_ASSERT_EQUAL(br_chain_line_cycle(c), 0);
     br_chain_free(c);
